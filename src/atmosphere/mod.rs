@@ -1,0 +1,1 @@
+//! atmosphere (filled in by its owner).

@@ -1,0 +1,1 @@
+//! chart (filled in by its owner).

@@ -1,0 +1,1 @@
+//! config (filled in by its owner).

@@ -1,0 +1,1 @@
+//! geometry (filled in by its owner).

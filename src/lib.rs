@@ -1,0 +1,21 @@
+//! passbudget: pass-by-pass satellite downlink planning.
+//!
+//! Data flows one way: orbital elements and station files go in
+//! ([`orbit`], [`config`]); [`geometry`] turns them into look angles and
+//! passes; [`atmosphere`], [`noise`] and [`link`] turn a look angle into an
+//! itemized budget; [`plan`] follows the budget over every pass and chooses
+//! rates; [`report`] and [`chart`] present the result. Each stage knows
+//! nothing of the stages after it.
+
+pub mod atmosphere;
+pub mod chart;
+pub mod cli;
+pub mod config;
+pub mod geometry;
+pub mod link;
+pub mod noise;
+pub mod orbit;
+pub mod plan;
+pub mod report;
+pub mod timefmt;
+pub mod units;

@@ -1,0 +1,1 @@
+//! link (filled in by its owner).

@@ -1,0 +1,1 @@
+//! noise (filled in by its owner).

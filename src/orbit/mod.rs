@@ -1,0 +1,1 @@
+//! orbit (filled in by its owner).

@@ -1,0 +1,1 @@
+//! plan (filled in by its owner).

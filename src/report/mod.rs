@@ -1,0 +1,1 @@
+//! report (filled in by its owner).
