@@ -1,1 +1,86 @@
-//! report (filled in by its owner).
+//! Output: the serialized row types (the public wire format, kept apart from the domain types so it
+//! stays stable when internals change), aligned text tables for people, CSV and JSON, and atomic
+//! file writing.
+
+pub mod table;
+
+use std::io::Write;
+use std::path::Path;
+
+/// Output format chosen on the command line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum Format {
+    Table,
+    Csv,
+    Json,
+}
+
+/// Write `bytes` to `path` atomically: write a temporary file in the same folder, flush it to disk,
+/// then rename it over the target. A reader never sees a half-written file.
+pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
+    let dir = path
+        .parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "out".into());
+    let tmp = dir.join(format!(".{name}.tmp-{}", std::process::id()));
+    let result = (|| {
+        let mut f = std::fs::File::create(&tmp)?;
+        f.write_all(bytes)?;
+        f.sync_all()?;
+        std::fs::rename(&tmp, path)
+    })();
+    if result.is_err() {
+        let _ = std::fs::remove_file(&tmp);
+    }
+    result
+}
+
+/// Serialize rows to CSV text with one header row.
+pub fn to_csv<T: serde::Serialize>(rows: &[T]) -> Result<String, csv::Error> {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    for r in rows {
+        w.serialize(r)?;
+    }
+    let bytes = w
+        .into_inner()
+        .map_err(|e| csv::Error::from(e.into_error()))?;
+    Ok(String::from_utf8(bytes).expect("csv writes UTF-8"))
+}
+
+/// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).
+pub fn round(x: f64, digits: i32) -> f64 {
+    let s = 10f64.powi(digits);
+    (x * s).round() / s
+}
+
+/// Minutes:seconds for durations in tables.
+pub fn mm_ss(seconds: f64) -> String {
+    let s = seconds.max(0.0).round() as i64;
+    format!("{}:{:02}", s / 60, s % 60)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn atomic_write_replaces_whole_file() {
+        let dir = tempfile::tempdir().unwrap();
+        let p = dir.path().join("a.txt");
+        write_atomic(&p, b"first").unwrap();
+        write_atomic(&p, b"second").unwrap();
+        assert_eq!(std::fs::read_to_string(&p).unwrap(), "second");
+        assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 1);
+        assert!(write_atomic(&dir.path().join("missing/x.txt"), b"x").is_err());
+    }
+
+    #[test]
+    fn durations() {
+        assert_eq!(mm_ss(605.4), "10:05");
+        assert_eq!(mm_ss(59.6), "1:00");
+    }
+}

@@ -1,0 +1,87 @@
+//! Find the line of a (possibly nested) key in a YAML text, for error messages about values that
+//! parsed but failed validation. A plain text scan: good for the block style our files use.
+
+/// 1-based line of `path` (e.g. `["antenna", "efficiency"]`) in `text`, searching each key after the
+/// line of its parent and at a deeper indentation. Falls back to the deepest key found.
+pub fn key_line(text: &str, path: &[&str]) -> Option<usize> {
+    let lines: Vec<&str> = text.lines().collect();
+    let mut start = 0usize;
+    let mut parent_indent: Option<usize> = None;
+    let mut found: Option<usize> = None;
+    for key in path {
+        let mut hit = None;
+        for (i, raw) in lines.iter().enumerate().skip(start) {
+            let trimmed = raw.trim_start();
+            let indent = raw.len() - trimmed.len();
+            if let Some(pi) = parent_indent {
+                if i > start && !trimmed.is_empty() && !trimmed.starts_with('#') && indent <= pi {
+                    break;
+                }
+            }
+            let body = trimmed.strip_prefix("- ").unwrap_or(trimmed);
+            if let Some(rest) = body.strip_prefix(key) {
+                if rest.trim_start().starts_with(':') {
+                    hit = Some((i, indent));
+                    break;
+                }
+            }
+        }
+        match hit {
+            Some((i, indent)) => {
+                found = Some(i + 1);
+                start = i;
+                parent_indent = Some(indent);
+            }
+            None => break,
+        }
+    }
+    found
+}
+
+/// 1-based line of the `index`-th item (0-based) of the block list under `key_path`.
+pub fn list_item_line(text: &str, key_path: &[&str], index: usize) -> Option<usize> {
+    let base = key_line(text, key_path)?;
+    let lines: Vec<&str> = text.lines().collect();
+    // Flow style on the same line: the whole list is on that line.
+    if lines[base - 1].contains('[') && lines[base - 1].trim_end().ends_with(']') {
+        return Some(base);
+    }
+    let mut count = 0usize;
+    for (i, raw) in lines.iter().enumerate().skip(base) {
+        let t = raw.trim_start();
+        if t.is_empty() || t.starts_with('#') {
+            continue;
+        }
+        if t.starts_with("- ") || t == "-" {
+            if count == index {
+                return Some(i + 1);
+            }
+            count += 1;
+        } else if !raw.starts_with(' ') {
+            break;
+        }
+    }
+    Some(base)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn finds_nested_keys() {
+        let t = "name: a\nantenna:\n  diameter_m: 3\n  efficiency: 2\nreceiver:\n  efficiency: 9\n";
+        assert_eq!(key_line(t, &["name"]), Some(1));
+        assert_eq!(key_line(t, &["antenna", "efficiency"]), Some(4));
+        assert_eq!(key_line(t, &["receiver", "efficiency"]), Some(6));
+        assert_eq!(key_line(t, &["climate"]), None);
+    }
+
+    #[test]
+    fn finds_list_items() {
+        let t = "horizon_mask:\n  - [0, 3]\n  - [90, 95]\nname: x\n";
+        assert_eq!(list_item_line(t, &["horizon_mask"], 1), Some(3));
+        let f = "horizon_mask: [[0, 3], [90, 95]]\n";
+        assert_eq!(list_item_line(f, &["horizon_mask"], 1), Some(1));
+    }
+}
