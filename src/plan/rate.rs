@@ -1,0 +1,245 @@
+//! Rate choice over one pass: the fixed rate that brings home the most data, and the adaptive
+//! schedule across a set of options.
+//!
+//! Everything here works on the C/N0 time series of a pass, because the link's geometry, atmosphere
+//! and noise do not depend on the data rate: for an option with data rate R, required Eb/N0 `req`,
+//! implementation loss `L` and required margin `M`, the link closes at a step when
+//!
+//! ```text
+//! C/N0 [dBHz] >= 10 log10(R) + req + L + M          (Eb/N0 = C/N0 - 10 log10 R)
+//! ```
+//!
+//! so each option reduces to one C/N0 threshold.
+//!
+//! ## The guard against switching back and forth
+//! A link that opens for a few seconds is worth nothing in practice: the modem must acquire and the
+//! frame sync must lock. Both modes therefore count only *runs* of closed steps at least
+//! `min_dwell_s` long (default 10 s, common practice for acquisition plus frame lock). The adaptive
+//! schedule at each step uses the highest-rate option whose kept run covers that step, so it never
+//! switches into an option for less than the dwell time and never flaps on a threshold. Because a
+//! fixed rate counts exactly the kept runs of its option, the adaptive volume is at least the
+//! fixed-rate volume of every option it contains, step by step.
+
+/// One rate option: a data rate with its scheme's threshold, as seen by the planner.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RateOption {
+    pub rate_bps: f64,
+    pub scheme: String,
+    /// Required Eb/N0 of the scheme at its target error rate, dB (without implementation loss).
+    pub required_ebn0_db: f64,
+    /// C/N0 needed to close with the required margin: 10 log10 R + req + impl. loss + margin, dBHz.
+    pub threshold_cn0_dbhz: f64,
+    /// Occupied bandwidth Rs (1 + roll-off), Hz.
+    pub occupied_bandwidth_hz: f64,
+}
+
+/// Closed runs of one option over a pass, after the dwell rule: `(first_step, last_step)` inclusive.
+pub fn kept_runs(
+    cn0_dbhz: &[f64],
+    weights_s: &[f64],
+    threshold_cn0_dbhz: f64,
+    min_dwell_s: f64,
+    runs: &mut Vec<(usize, usize)>,
+) {
+    runs.clear();
+    let mut start: Option<usize> = None;
+    let mut dur = 0.0;
+    for (i, (&c, &w)) in cn0_dbhz.iter().zip(weights_s).enumerate() {
+        if c >= threshold_cn0_dbhz {
+            if start.is_none() {
+                start = Some(i);
+                dur = 0.0;
+            }
+            dur += w;
+        } else if let Some(s) = start.take() {
+            if dur + 1e-9 >= min_dwell_s {
+                runs.push((s, i - 1));
+            }
+        }
+    }
+    if let Some(s) = start {
+        if dur + 1e-9 >= min_dwell_s {
+            runs.push((s, cn0_dbhz.len() - 1));
+        }
+    }
+}
+
+/// Result of the fixed-rate choice for one pass.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FixedChoice {
+    /// Index into the options, or `None` when no option closes for at least the dwell time.
+    pub option: Option<usize>,
+    pub volume_bits: f64,
+    pub closed_s: f64,
+    /// Kept runs of the chosen option (step indices, inclusive).
+    pub runs: Vec<(usize, usize)>,
+    /// Volume each option would bring in this pass (same order as the options).
+    pub volume_by_option_bits: Vec<f64>,
+}
+
+/// Choose the fixed rate that brings home the most data in this pass. Ties go to the lower rate
+/// (more margin for the same volume).
+pub fn choose_fixed(
+    cn0_dbhz: &[f64],
+    weights_s: &[f64],
+    options: &[RateOption],
+    min_dwell_s: f64,
+) -> FixedChoice {
+    let mut runs = Vec::new();
+    type Best = (usize, f64, f64, Vec<(usize, usize)>);
+    let mut best: Option<Best> = None;
+    let mut by_option = Vec::with_capacity(options.len());
+    for (k, o) in options.iter().enumerate() {
+        kept_runs(
+            cn0_dbhz,
+            weights_s,
+            o.threshold_cn0_dbhz,
+            min_dwell_s,
+            &mut runs,
+        );
+        let closed_s: f64 = runs
+            .iter()
+            .map(|&(a, b)| weights_s[a..=b].iter().sum::<f64>())
+            .sum();
+        let volume = closed_s * o.rate_bps;
+        by_option.push(volume);
+        let better = match &best {
+            None => volume > 0.0,
+            Some((bk, bv, _, _)) => {
+                volume > *bv * (1.0 + 1e-12)
+                    || (volume > 0.0
+                        && (volume - *bv).abs() <= *bv * 1e-12
+                        && o.rate_bps < options[*bk].rate_bps)
+            }
+        };
+        if better {
+            best = Some((k, volume, closed_s, runs.clone()));
+        }
+    }
+    match best {
+        Some((k, v, c, r)) => FixedChoice {
+            option: Some(k),
+            volume_bits: v,
+            closed_s: c,
+            runs: r,
+            volume_by_option_bits: by_option,
+        },
+        None => FixedChoice {
+            option: None,
+            volume_bits: 0.0,
+            closed_s: 0.0,
+            runs: Vec::new(),
+            volume_by_option_bits: by_option,
+        },
+    }
+}
+
+/// Adaptive schedule: at each step the highest-rate option whose kept run covers the step.
+/// `schedule` receives one entry per step (`None` where nothing closes); returns the volume in bits.
+pub fn adaptive_schedule(
+    cn0_dbhz: &[f64],
+    weights_s: &[f64],
+    options: &[RateOption],
+    min_dwell_s: f64,
+    schedule: &mut Vec<Option<u16>>,
+) -> f64 {
+    schedule.clear();
+    schedule.resize(cn0_dbhz.len(), None);
+    let mut runs = Vec::new();
+    for (k, o) in options.iter().enumerate() {
+        kept_runs(
+            cn0_dbhz,
+            weights_s,
+            o.threshold_cn0_dbhz,
+            min_dwell_s,
+            &mut runs,
+        );
+        for &(a, b) in &runs {
+            for s in &mut schedule[a..=b] {
+                let better = match *s {
+                    None => true,
+                    Some(j) => o.rate_bps > options[j as usize].rate_bps,
+                };
+                if better {
+                    *s = Some(k as u16);
+                }
+            }
+        }
+    }
+    schedule
+        .iter()
+        .zip(weights_s)
+        .map(|(s, w)| s.map(|k| options[k as usize].rate_bps * w).unwrap_or(0.0))
+        .sum()
+}
+
+/// Number of scheme changes in an adaptive schedule (entering or leaving "no link" not counted).
+pub fn switch_count(schedule: &[Option<u16>]) -> usize {
+    schedule
+        .windows(2)
+        .filter(|w| matches!((w[0], w[1]), (Some(a), Some(b)) if a != b))
+        .count()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn opt(rate: f64, thr: f64) -> RateOption {
+        RateOption {
+            rate_bps: rate,
+            scheme: "x".into(),
+            required_ebn0_db: 0.0,
+            threshold_cn0_dbhz: thr,
+            occupied_bandwidth_hz: rate,
+        }
+    }
+
+    /// A symmetric pass-like C/N0 profile peaking at 90 dBHz.
+    fn profile(n: usize) -> Vec<f64> {
+        (0..n)
+            .map(|i| 90.0 - 20.0 * ((i as f64 - n as f64 / 2.0) / (n as f64 / 2.0)).powi(2))
+            .collect()
+    }
+
+    #[test]
+    fn fixed_choice_is_an_optimization_not_the_highest_closing_rate() {
+        let cn0 = profile(600);
+        let w = vec![1.0; 600];
+        // The highest rate closes only for a short time around the peak; the middle rate wins.
+        let options = [opt(1e6, 72.0), opt(10e6, 82.0), opt(40e6, 89.8)];
+        let c = choose_fixed(&cn0, &w, &options, 10.0);
+        assert_eq!(c.option, Some(1));
+        assert!(c.volume_by_option_bits[2] < c.volume_bits);
+        assert!(c.volume_by_option_bits[2] > 0.0);
+    }
+
+    #[test]
+    fn adaptive_is_at_least_every_fixed_option() {
+        let cn0 = profile(500);
+        let w = vec![1.0; 500];
+        let options = [opt(1e6, 72.0), opt(10e6, 82.0), opt(40e6, 89.5)];
+        let fixed = choose_fixed(&cn0, &w, &options, 10.0);
+        let mut sched = Vec::new();
+        let adaptive = adaptive_schedule(&cn0, &w, &options, 10.0, &mut sched);
+        for v in &fixed.volume_by_option_bits {
+            assert!(adaptive >= *v);
+        }
+        assert_eq!(switch_count(&sched), 4);
+    }
+
+    #[test]
+    fn short_openings_are_not_counted() {
+        // Closes for 5 steps only: below a 10 s dwell.
+        let mut cn0 = vec![60.0; 100];
+        for c in &mut cn0[40..45] {
+            *c = 80.0;
+        }
+        let w = vec![1.0; 100];
+        let c = choose_fixed(&cn0, &w, &[opt(1e6, 70.0)], 10.0);
+        assert_eq!(c.option, None);
+        assert_eq!(c.volume_bits, 0.0);
+        let c = choose_fixed(&cn0, &w, &[opt(1e6, 70.0)], 5.0);
+        assert_eq!(c.volume_bits, 5e6);
+    }
+}
