@@ -1,6 +1,51 @@
-//! Command-line interface (filled in by its owner).
+//! Command-line interface: argument definitions (clap derive), one file per command. The CLI only
+//! parses arguments, loads files, calls the library and hands results to `report` / `chart`.
 
-/// Entry point used by `main.rs`; returns the process exit code.
+pub mod common;
+
+use clap::{Parser, Subcommand};
+use std::io::Write;
+
+/// Exit code for bad input, unreadable files and failed runs (usage errors exit with clap's 2).
+pub const EXIT_ERROR: i32 = 1;
+
+#[derive(Debug, Parser)]
+#[command(name = "passbudget", version, about = "Plan satellite downlinks pass by pass: geometry, atmosphere, noise, Eb/N0, rate and data volume.", long_about = None)]
+pub struct Args {
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// List the passes of a satellite over one or more stations.
+    Passes(common::PassesArgs),
+    /// Look angles, range, range rate and Doppler at a fixed step.
+    Track(common::TrackArgs),
+}
+
+/// Run the parsed command, writing to `out`.
+pub fn run(args: Args, out: &mut dyn Write) -> anyhow::Result<()> {
+    match args.command {
+        Command::Passes(a) => common::passes(a, out),
+        Command::Track(a) => common::track(a, out),
+    }
+}
+
+/// Entry point used by `main.rs`; returns the process exit code. A broken pipe (`| head`) is not an error.
 pub fn main_entry() -> i32 {
-    0
+    let args = Args::parse();
+    let stdout = std::io::stdout();
+    let mut lock = stdout.lock();
+    match run(args, &mut lock).and_then(|()| lock.flush().map_err(anyhow::Error::from)) {
+        Ok(()) => 0,
+        Err(e) => {
+            if e.chain().any(|c| c.downcast_ref::<std::io::Error>().is_some_and(|io| io.kind() == std::io::ErrorKind::BrokenPipe)) {
+                return 0;
+            }
+            let text = format!("{e:#}");
+            let _ = writeln!(std::io::stderr(), "error: {}", text.replace('\n', " "));
+            EXIT_ERROR
+        }
+    }
 }

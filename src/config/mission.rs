@@ -77,6 +77,7 @@ struct ModemFile {
     required_margin_db: Option<f64>,
     target_ber: Option<f64>,
     max_bandwidth_hz: Option<f64>,
+    min_dwell_s: Option<f64>,
     #[serde(default)]
     ladder: Vec<LadderStepFile>,
     #[serde(default)]
@@ -95,7 +96,6 @@ struct LadderStepFile {
 struct AdaptiveFile {
     symbol_rate_baud: f64,
     schemes: Vec<String>,
-    hysteresis_db: Option<f64>,
 }
 
 /// Spacecraft antenna pattern as configured.
@@ -132,7 +132,6 @@ pub struct LadderStep {
 pub struct AdaptiveConfig {
     pub symbol_rate_baud: f64,
     pub schemes: Vec<(String, Option<usize>)>,
-    pub hysteresis_db: f64,
 }
 
 /// Modem, validated.
@@ -143,6 +142,8 @@ pub struct ModemConfig {
     pub required_margin_db: f64,
     pub target_ber: f64,
     pub max_bandwidth_hz: Option<f64>,
+    /// Shortest run of closed seconds that counts (acquisition and frame lock), s.
+    pub min_dwell_s: f64,
     pub ladder: Vec<LadderStep>,
     pub adaptive: Option<AdaptiveConfig>,
 }
@@ -456,6 +457,7 @@ impl Mission {
                     .max_bandwidth_hz
                     .map(|v| range(&["modem", "max_bandwidth_hz"], v, 1.0, 1e10, "Hz"))
                     .transpose()?;
+                let min_dwell_s = m.min_dwell_s.map(|v| range(&["modem", "min_dwell_s"], v, 0.0, 600.0, "s")).transpose()?.unwrap_or(10.0);
                 let mut ladder = Vec::new();
                 for (i, st) in m.ladder.iter().enumerate() {
                     let line = list_item_line(text, &["modem", "ladder"], i);
@@ -504,17 +506,9 @@ impl Mission {
                                 )
                             })
                             .collect();
-                        let hysteresis_db = a
-                            .hysteresis_db
-                            .map(|v| {
-                                range(&["modem", "adaptive", "hysteresis_db"], v, 0.0, 6.0, "dB")
-                            })
-                            .transpose()?
-                            .unwrap_or(0.5);
                         Some(AdaptiveConfig {
                             symbol_rate_baud,
                             schemes,
-                            hysteresis_db,
                         })
                     }
                 };
@@ -524,6 +518,7 @@ impl Mission {
                     required_margin_db,
                     target_ber,
                     max_bandwidth_hz,
+                    min_dwell_s,
                     ladder,
                     adaptive,
                 })
