@@ -5,13 +5,16 @@
 //! Each data line has 69 columns; column 69 is a modulo-10 checksum: the sum of all digits in
 //! columns 1-68, counting each minus sign as 1, modulo 10.
 //!
-//! Accepted input, line by line (blank lines ignored):
+//! Accepted input, line by line (blank lines and lines starting with `#` are ignored; SGP4-VER.TLE
+//! uses `#` comment lines):
 //! * an optional name line (3-line form; a leading `0 ` is removed), then
 //! * line 1 (starts with `1 `) and line 2 (starts with `2 `), same catalog number.
 //!
 //! Lines longer than 69 columns are accepted when column 70 is blank: only the first 69
 //! columns are read. This tolerates trailing text such as the start/stop/step columns that
 //! SGP4-VER.TLE (Vallado et al. 2006) appends to line 2. Trailing whitespace and `\r` are ignored.
+//! A blank ephemeris-type column (line 1, column 63; e.g. catalog 11801 of SGP4-VER.TLE) is
+//! read as 0, as the published code does (its integer read of a blank field gives 0).
 //! Field decoding (including Alpha-5 catalog numbers) is done by the `sgp4` crate.
 
 use super::ElementSet;
@@ -118,7 +121,7 @@ pub fn parse_tle(text: &str) -> Result<Vec<ElementSet>, TleError> {
         .lines()
         .enumerate()
         .map(|(i, l)| (i + 1, l.trim_end()))
-        .filter(|(_, l)| !l.is_empty())
+        .filter(|(_, l)| !l.is_empty() && !l.starts_with('#'))
         .collect();
     if lines.is_empty() {
         return Err(TleError::Empty);
@@ -189,7 +192,13 @@ pub fn parse_tle(text: &str) -> Result<Vec<ElementSet>, TleError> {
                 line2: id2.to_string(),
             });
         }
-        let elements = sgp4::Elements::from_tle(name, c1.as_bytes(), c2.as_bytes())
+        // Blank ephemeris type (column 63) -> '0' (does not change the checksum).
+        let mut b1 = [0u8; 69];
+        b1.copy_from_slice(c1.as_bytes());
+        if b1[62] == b' ' {
+            b1[62] = b'0';
+        }
+        let elements = sgp4::Elements::from_tle(name, &b1, c2.as_bytes())
             .map_err(|e| field_error(&e, n1, n2))?;
         sets.push(ElementSet::from_elements(elements));
     }
