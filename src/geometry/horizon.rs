@@ -1,0 +1,160 @@
+//! Azimuth-dependent elevation mask (terrain/obstruction profile plus a minimum elevation).
+//!
+//! limit(az) = max(min_elevation, piecewise-linear interpolation of the (azimuth, elevation)
+//! points in azimuth, wrapping from the last point back to the first through 360 deg).
+//! With no points the mask is flat at the minimum elevation. Common practice (no standard).
+
+/// An invalid mask.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum HorizonError {
+    #[error("minimum elevation {value} deg is outside [-90, 90]")]
+    MinElevation { value: f64 },
+    #[error("mask point {index}: azimuth {azimuth_deg} deg is outside [0, 360)")]
+    Azimuth { index: usize, azimuth_deg: f64 },
+    #[error("mask point {index}: elevation {elevation_deg} deg is outside [-90, 90]")]
+    Elevation { index: usize, elevation_deg: f64 },
+    #[error("mask points {first} and {second} have the same azimuth {azimuth_deg} deg")]
+    DuplicateAzimuth {
+        first: usize,
+        second: usize,
+        azimuth_deg: f64,
+    },
+}
+
+/// Elevation mask: a minimum elevation and an optional azimuth profile.
+#[derive(Debug, Clone, PartialEq)]
+pub struct HorizonMask {
+    min_elevation_deg: f64,
+    /// (azimuth deg, elevation deg), sorted by azimuth, unique azimuths.
+    points: Vec<[f64; 2]>,
+}
+
+impl HorizonMask {
+    /// Build a mask; points are `[azimuth_deg, elevation_deg]` in any order (sorted here).
+    pub fn new(min_elevation_deg: f64, points: Vec<[f64; 2]>) -> Result<HorizonMask, HorizonError> {
+        if !(-90.0..=90.0).contains(&min_elevation_deg) {
+            return Err(HorizonError::MinElevation {
+                value: min_elevation_deg,
+            });
+        }
+        for (index, p) in points.iter().enumerate() {
+            if !(0.0..360.0).contains(&p[0]) {
+                return Err(HorizonError::Azimuth {
+                    index,
+                    azimuth_deg: p[0],
+                });
+            }
+            if !(-90.0..=90.0).contains(&p[1]) {
+                return Err(HorizonError::Elevation {
+                    index,
+                    elevation_deg: p[1],
+                });
+            }
+        }
+        let mut indexed: Vec<(usize, [f64; 2])> = points.into_iter().enumerate().collect();
+        indexed.sort_by(|a, b| a.1[0].total_cmp(&b.1[0]));
+        for w in indexed.windows(2) {
+            if w[0].1[0] == w[1].1[0] {
+                return Err(HorizonError::DuplicateAzimuth {
+                    first: w[0].0.min(w[1].0),
+                    second: w[0].0.max(w[1].0),
+                    azimuth_deg: w[0].1[0],
+                });
+            }
+        }
+        Ok(HorizonMask {
+            min_elevation_deg,
+            points: indexed.into_iter().map(|(_, p)| p).collect(),
+        })
+    }
+
+    /// A flat mask at `min_elevation_deg`.
+    pub fn flat(min_elevation_deg: f64) -> Result<HorizonMask, HorizonError> {
+        HorizonMask::new(min_elevation_deg, Vec::new())
+    }
+
+    pub fn min_elevation_deg(&self) -> f64 {
+        self.min_elevation_deg
+    }
+
+    /// The profile points, sorted by azimuth.
+    pub fn points(&self) -> &[[f64; 2]] {
+        &self.points
+    }
+
+    /// Interpolated profile at `azimuth_deg` and the slope (deg per deg of azimuth) there.
+    fn profile(&self, azimuth_deg: f64) -> Option<(f64, f64)> {
+        let pts = &self.points;
+        match pts.len() {
+            0 => None,
+            1 => Some((pts[0][1], 0.0)),
+            len => {
+                let az = azimuth_deg.rem_euclid(360.0);
+                // First point with azimuth > az.
+                let i = pts.partition_point(|p| p[0] <= az);
+                let (a, b) = if i == 0 || i == len {
+                    // Wrap segment from the last point to the first (+360).
+                    let a = pts[len - 1];
+                    let b = [pts[0][0] + 360.0, pts[0][1]];
+                    let az = if az < a[0] { az + 360.0 } else { az };
+                    let slope = (b[1] - a[1]) / (b[0] - a[0]);
+                    return Some((a[1] + slope * (az - a[0]), slope));
+                } else {
+                    (pts[i - 1], pts[i])
+                };
+                let slope = (b[1] - a[1]) / (b[0] - a[0]);
+                Some((a[1] + slope * (az - a[0]), slope))
+            }
+        }
+    }
+
+    /// Mask elevation at `azimuth_deg`: max(min elevation, interpolated profile).
+    pub fn limit_deg(&self, azimuth_deg: f64) -> f64 {
+        match self.profile(azimuth_deg) {
+            Some((el, _)) => el.max(self.min_elevation_deg),
+            None => self.min_elevation_deg,
+        }
+    }
+
+    /// Slope of [`Self::limit_deg`] in deg per deg of azimuth (0 where the minimum governs).
+    pub fn slope_deg_per_deg(&self, azimuth_deg: f64) -> f64 {
+        match self.profile(azimuth_deg) {
+            Some((el, s)) if el > self.min_elevation_deg => s,
+            _ => 0.0,
+        }
+    }
+
+    /// Lowest mask elevation over all azimuths (the profile's minimum is at a vertex).
+    pub fn lowest_limit_deg(&self) -> f64 {
+        let lowest_point = self
+            .points
+            .iter()
+            .map(|p| p[1])
+            .fold(f64::INFINITY, f64::min);
+        if lowest_point.is_finite() {
+            lowest_point.max(self.min_elevation_deg)
+        } else {
+            self.min_elevation_deg
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn interpolates_and_wraps() {
+        let m = HorizonMask::new(5.0, vec![[90.0, 20.0], [350.0, 10.0], [10.0, 10.0]]).unwrap();
+        assert_eq!(m.points()[0], [10.0, 10.0]);
+        assert!((m.limit_deg(50.0) - 15.0).abs() < 1e-12);
+        assert!((m.limit_deg(0.0) - 10.0).abs() < 1e-12);
+        assert!((m.limit_deg(355.0) - 10.0).abs() < 1e-12);
+        // 90 -> 350 (260 deg), 20 -> 10: at 220, 20 - 10*130/260 = 15.
+        assert!((m.limit_deg(220.0) - 15.0).abs() < 1e-12);
+        assert_eq!(m.lowest_limit_deg(), 10.0);
+        assert!(HorizonMask::new(0.0, vec![[360.0, 1.0]]).is_err());
+        assert!(HorizonMask::new(0.0, vec![[10.0, 1.0], [10.0, 2.0]]).is_err());
+        assert!(HorizonMask::flat(95.0).is_err());
+    }
+}

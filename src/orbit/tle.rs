@@ -1,0 +1,282 @@
+//! Two-line element sets (TLE) in 2-line and 3-line form.
+//!
+//! Format: the fixed-column NORAD two-line format as documented with SGP4 in Hoots & Roehrich,
+//! "Spacetrack Report No. 3" (1980), and Vallado et al., AIAA 2006-6753 (SGP4-VER.TLE).
+//! Each data line has 69 columns; column 69 is a modulo-10 checksum: the sum of all digits in
+//! columns 1-68, counting each minus sign as 1, modulo 10.
+//!
+//! Accepted input, line by line (blank lines and lines starting with `#` are ignored; SGP4-VER.TLE
+//! uses `#` comment lines):
+//! * an optional name line (3-line form; a leading `0 ` is removed), then
+//! * line 1 (starts with `1 `) and line 2 (starts with `2 `), same catalog number.
+//!
+//! Lines longer than 69 columns are accepted when column 70 is blank: only the first 69
+//! columns are read. This tolerates trailing text such as the start/stop/step columns that
+//! SGP4-VER.TLE (Vallado et al. 2006) appends to line 2. Trailing whitespace and `\r` are ignored.
+//! A blank ephemeris-type column (line 1, column 63; e.g. catalog 11801 of SGP4-VER.TLE) is
+//! read as 0, as the published code does (its integer read of a blank field gives 0).
+//! Field decoding (including Alpha-5 catalog numbers) is done by the `sgp4` crate.
+
+use super::ElementSet;
+
+/// A malformed TLE file. `line` is the 1-based line number in the file.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum TleError {
+    #[error("no element sets: the file is empty")]
+    Empty,
+    #[error("line {line}: contains non-ASCII characters")]
+    NonAscii { line: usize },
+    #[error("line {line}: {length} columns, a TLE data line needs 69")]
+    Length { line: usize, length: usize },
+    #[error("line {line}: column 70 must be blank when a line is longer than 69 columns, found '{found}'")]
+    TrailingText { line: usize, found: char },
+    #[error("line {line}: expected TLE line {expected}, found a line starting with '{found}'")]
+    LineNumber {
+        line: usize,
+        expected: u8,
+        found: String,
+    },
+    #[error("line {line}: TLE line 1 is not followed by line 2 (end of file)")]
+    MissingLine2 { line: usize },
+    #[error("line {line}: checksum (sum of digits, '-' = 1, mod 10) is {expected}, column 69 says '{found}'")]
+    Checksum {
+        line: usize,
+        expected: u8,
+        found: char,
+    },
+    #[error("line {line}: catalog number '{line2}' differs from '{line1}' on line 1")]
+    CatalogMismatch {
+        line: usize,
+        line1: String,
+        line2: String,
+    },
+    #[error("line {line}, columns {first_column}-{last_column}: {reason}")]
+    Field {
+        line: usize,
+        first_column: usize,
+        last_column: usize,
+        reason: String,
+    },
+}
+
+/// Modulo-10 checksum of columns 1-68: digits count their value, '-' counts 1.
+pub fn checksum(line: &str) -> u8 {
+    let sum: u32 = line
+        .bytes()
+        .take(68)
+        .map(|b| match b {
+            b'0'..=b'9' => (b - b'0') as u32,
+            b'-' => 1,
+            _ => 0,
+        })
+        .sum();
+    (sum % 10) as u8
+}
+
+/// Check one data line's length, trailing text and checksum; return its 69 columns.
+fn data_columns(raw: &str, line: usize) -> Result<&str, TleError> {
+    if !raw.is_ascii() {
+        return Err(TleError::NonAscii { line });
+    }
+    if raw.len() < 69 {
+        return Err(TleError::Length {
+            line,
+            length: raw.len(),
+        });
+    }
+    if raw.len() > 69 {
+        let c70 = raw.as_bytes()[69] as char;
+        if !c70.is_ascii_whitespace() {
+            return Err(TleError::TrailingText { line, found: c70 });
+        }
+    }
+    let cols = &raw[..69];
+    let expected = checksum(cols);
+    let found = cols.as_bytes()[68] as char;
+    if found.to_digit(10) != Some(expected as u32) {
+        return Err(TleError::Checksum {
+            line,
+            expected,
+            found,
+        });
+    }
+    Ok(cols)
+}
+
+fn first_char(s: &str) -> String {
+    s.chars().next().map(String::from).unwrap_or_default()
+}
+
+fn is_line1(s: &str) -> bool {
+    s.starts_with("1 ")
+}
+
+fn is_line2(s: &str) -> bool {
+    s.starts_with("2 ")
+}
+
+/// Parse TLE text (2-line and 3-line sets may be mixed). An empty file is an error.
+pub fn parse_tle(text: &str) -> Result<Vec<ElementSet>, TleError> {
+    let lines: Vec<(usize, &str)> = text
+        .lines()
+        .enumerate()
+        .map(|(i, l)| (i + 1, l.trim_end()))
+        .filter(|(_, l)| !l.is_empty() && !l.starts_with('#'))
+        .collect();
+    if lines.is_empty() {
+        return Err(TleError::Empty);
+    }
+    let mut sets = Vec::new();
+    let mut i = 0;
+    while i < lines.len() {
+        let (n, l) = lines[i];
+        let mut name = None;
+        let (n1, l1) = if is_line1(l) {
+            (n, l)
+        } else if is_line2(l) {
+            return Err(TleError::LineNumber {
+                line: n,
+                expected: 1,
+                found: first_char(l),
+            });
+        } else {
+            // A name line; the 3-line form sometimes prefixes it with "0 ".
+            let trimmed = l.trim();
+            name = Some(
+                trimmed
+                    .strip_prefix("0 ")
+                    .unwrap_or(trimmed)
+                    .trim()
+                    .to_string(),
+            );
+            i += 1;
+            match lines.get(i) {
+                Some(&(n1, l1)) if is_line1(l1) => (n1, l1),
+                Some(&(n1, l1)) => {
+                    return Err(TleError::LineNumber {
+                        line: n1,
+                        expected: 1,
+                        found: first_char(l1),
+                    })
+                }
+                None => {
+                    return Err(TleError::LineNumber {
+                        line: n + 1,
+                        expected: 1,
+                        found: String::from("end of file"),
+                    })
+                }
+            }
+        };
+        i += 1;
+        let (n2, l2) = match lines.get(i) {
+            Some(&(n2, l2)) if is_line2(l2) => (n2, l2),
+            Some(&(n2, l2)) => {
+                return Err(TleError::LineNumber {
+                    line: n2,
+                    expected: 2,
+                    found: first_char(l2),
+                })
+            }
+            None => return Err(TleError::MissingLine2 { line: n1 }),
+        };
+        i += 1;
+        let c1 = data_columns(l1, n1)?;
+        let c2 = data_columns(l2, n2)?;
+        let id1 = c1[2..7].trim();
+        let id2 = c2[2..7].trim();
+        if id1 != id2 {
+            return Err(TleError::CatalogMismatch {
+                line: n2,
+                line1: id1.to_string(),
+                line2: id2.to_string(),
+            });
+        }
+        // Blank ephemeris type (column 63) -> '0' (does not change the checksum).
+        let mut b1 = [0u8; 69];
+        b1.copy_from_slice(c1.as_bytes());
+        if b1[62] == b' ' {
+            b1[62] = b'0';
+        }
+        let elements = sgp4::Elements::from_tle(name, &b1, c2.as_bytes())
+            .map_err(|e| field_error(&e, n1, n2))?;
+        sets.push(ElementSet::from_elements(elements));
+    }
+    Ok(sets)
+}
+
+/// Map an `sgp4` crate field error to our line/column error. The crate's error keeps its
+/// fields private; its Display text names the line ("on TLE line 1/2") and the 0-based
+/// character range ("between characters A and B").
+fn field_error(e: &sgp4::TleError, n1: usize, n2: usize) -> TleError {
+    let text = e.to_string();
+    let line = if text.contains("on TLE line 2") {
+        n2
+    } else {
+        n1
+    };
+    let mut first_column = 1;
+    let mut last_column = 69;
+    if let Some(pos) = text.find("between characters ") {
+        let rest = &text[pos + "between characters ".len()..];
+        let mut parts = rest.split(" and ");
+        if let (Some(a), Some(b)) = (parts.next(), parts.next()) {
+            if let (Ok(a), Ok(b)) = (a.trim().parse::<usize>(), b.trim().parse::<usize>()) {
+                first_column = a + 1;
+                last_column = b;
+            }
+        }
+    }
+    let reason = text
+        .strip_prefix("TLE parse error: ")
+        .unwrap_or(&text)
+        .split(" on TLE line")
+        .next()
+        .unwrap_or(&text)
+        .to_string();
+    TleError::Field {
+        line,
+        first_column,
+        last_column,
+        reason,
+    }
+}
+
+/// Format two data lines (columns 1-68 given) with correct checksums appended; for writing
+/// test and example files. Returns `None` if a line is not 68 ASCII columns.
+pub fn with_checksum(columns_1_to_68: &str) -> Option<String> {
+    if columns_1_to_68.len() != 68 || !columns_1_to_68.is_ascii() {
+        return None;
+    }
+    Some(format!("{columns_1_to_68}{}", checksum(columns_1_to_68)))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Line pair of catalog 00005 from SGP4-VER.TLE (Vallado et al. 2006; /work/shared/REFERENCES.md §10).
+    const L1: &str = "1 00005U 58002B   00179.78495062  .00000023  00000-0  28098-4 0  4753";
+    const L2: &str = "2 00005  34.2682 348.7242 1859667 331.7664  19.3264 10.82419157413667     0.00      4320.0        360.00";
+
+    #[test]
+    fn checksum_of_published_lines() {
+        assert_eq!(checksum(L1), 3);
+        assert_eq!(checksum(L2), 7);
+    }
+
+    #[test]
+    fn parses_two_line_form_with_trailing_columns() {
+        let sets = parse_tle(&format!("{L1}\n{L2}\n")).unwrap();
+        assert_eq!(sets.len(), 1);
+        assert_eq!(sets[0].norad_id, 5);
+        assert_eq!(sets[0].name, None);
+        assert!((sets[0].elements.eccentricity - 0.1859667).abs() < 1e-12);
+    }
+
+    #[test]
+    fn name_line_with_zero_prefix() {
+        let sets = parse_tle(&format!("0 SAT A\n{L1}\r\n{L2}\n\n")).unwrap();
+        assert_eq!(sets[0].name.as_deref(), Some("SAT A"));
+    }
+}
