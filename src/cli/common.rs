@@ -59,7 +59,12 @@ pub struct TrackArgs {
     #[arg(long, value_name = "FILE")]
     pub station: Option<PathBuf>,
     /// Step between points, s.
-    #[arg(long, value_name = "SECONDS", default_value_t = 10.0, allow_hyphen_values = true)]
+    #[arg(
+        long,
+        value_name = "SECONDS",
+        default_value_t = 10.0,
+        allow_hyphen_values = true
+    )]
     pub step: f64,
     /// Downlink frequency, MHz, for the Doppler shift.
     #[arg(long, value_name = "F")]
@@ -87,13 +92,19 @@ pub fn load_satellite(path: &Path, sat: Option<&str>) -> Result<(ElementSet, Pro
     if sets.is_empty() {
         bail!("{}: no element sets in the file", path.display());
     }
-    let set = select(&sets, sat).map_err(|e| anyhow!("{}: {e}", path.display()))?.clone();
-    let prop = Propagator::new(&set).map_err(|e| anyhow!("{}: {}: {e}", path.display(), set.label()))?;
+    let set = select(&sets, sat)
+        .map_err(|e| anyhow!("{}: {e}", path.display()))?
+        .clone();
+    let prop =
+        Propagator::new(&set).map_err(|e| anyhow!("{}: {}: {e}", path.display(), set.label()))?;
     Ok((set, prop))
 }
 
 /// Resolve the window: `--start` (or the mission's), then `--end`, `--days`, the mission's end/days, or 1 day.
-pub fn resolve_window(input: &InputArgs, mission: Option<&Mission>) -> Result<(DateTime<Utc>, DateTime<Utc>)> {
+pub fn resolve_window(
+    input: &InputArgs,
+    mission: Option<&Mission>,
+) -> Result<(DateTime<Utc>, DateTime<Utc>)> {
     let start = match &input.start {
         Some(s) => parse_utc(s).map_err(|e| anyhow!("--start: {e}"))?,
         None => mission.and_then(|m| m.start).ok_or_else(|| anyhow!("no start time: give --start TIME (RFC 3339 UTC) or window.start in the mission file"))?,
@@ -112,7 +123,11 @@ pub fn resolve_window(input: &InputArgs, mission: Option<&Mission>) -> Result<(D
         days_after(start, 1.0, "default")?
     };
     if end <= start {
-        bail!("the end of the window ({}) is not after its start ({})", format_ms(&end), format_ms(&start));
+        bail!(
+            "the end of the window ({}) is not after its start ({})",
+            format_ms(&end),
+            format_ms(&start)
+        );
     }
     Ok((start, end))
 }
@@ -127,29 +142,57 @@ fn days_after(start: DateTime<Utc>, days: f64, what: &str) -> Result<DateTime<Ut
 /// Load everything `passes`/`track` need.
 pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved> {
     let mission = input.mission.as_deref().map(Mission::load).transpose()?;
-    let tle = input.tle.clone().or_else(|| mission.as_ref().map(|m| m.elements_path.clone())).ok_or_else(|| anyhow!("no element file: give --tle FILE or a --mission file"))?;
-    let sat = input.sat.clone().or_else(|| if input.tle.is_none() { mission.as_ref().and_then(|m| m.select.clone()) } else { None });
+    let tle = input
+        .tle
+        .clone()
+        .or_else(|| mission.as_ref().map(|m| m.elements_path.clone()))
+        .ok_or_else(|| anyhow!("no element file: give --tle FILE or a --mission file"))?;
+    let sat = input.sat.clone().or_else(|| {
+        if input.tle.is_none() {
+            mission.as_ref().and_then(|m| m.select.clone())
+        } else {
+            None
+        }
+    });
     let (elements, propagator) = load_satellite(&tle, sat.as_deref())?;
     let stations = if !station_files.is_empty() {
-        station_files.iter().map(|p| Station::load(p)).collect::<Result<Vec<_>, _>>()?
+        station_files
+            .iter()
+            .map(|p| Station::load(p))
+            .collect::<Result<Vec<_>, _>>()?
     } else {
-        mission.as_ref().map(|m| m.stations.clone()).unwrap_or_default()
+        mission
+            .as_ref()
+            .map(|m| m.stations.clone())
+            .unwrap_or_default()
     };
     if stations.is_empty() {
         bail!("no station: give --station FILE or a --mission file with stations");
     }
     let (start, end) = resolve_window(input, mission.as_ref())?;
-    Ok(Resolved { elements, propagator, stations, start, end, mission })
+    Ok(Resolved {
+        elements,
+        propagator,
+        stations,
+        start,
+        end,
+        mission,
+    })
 }
 
 /// Observer and horizon for a station, with an optional minimum-elevation override.
-pub fn station_geometry(st: &Station, mask_override: Option<f64>) -> Result<(Observer, HorizonMask)> {
-    let obs = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m).map_err(|e| anyhow!("{}: {e}", st.source.display()))?;
+pub fn station_geometry(
+    st: &Station,
+    mask_override: Option<f64>,
+) -> Result<(Observer, HorizonMask)> {
+    let obs = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m)
+        .map_err(|e| anyhow!("{}: {e}", st.source.display()))?;
     let min = mask_override.unwrap_or(st.min_elevation_deg);
     if !(-5.0..=90.0).contains(&min) {
         bail!("--mask {min}: out of range (-5 to 90 deg)");
     }
-    let mask = HorizonMask::new(min, st.horizon_mask.clone()).map_err(|e| anyhow!("{}: horizon_mask: {e}", st.source.display()))?;
+    let mask = HorizonMask::new(min, st.horizon_mask.clone())
+        .map_err(|e| anyhow!("{}: horizon_mask: {e}", st.source.display()))?;
     Ok((obs, mask))
 }
 
@@ -162,7 +205,11 @@ pub fn warn_element_age(set: &ElementSet, start: DateTime<Utc>, end: DateTime<Ut
 }
 
 /// The element-age warning text, if any: more than 7 days from the epoch warns, more than 30 warns strongly.
-pub fn element_age_warning(set: &ElementSet, start: DateTime<Utc>, end: DateTime<Utc>) -> Option<String> {
+pub fn element_age_warning(
+    set: &ElementSet,
+    start: DateTime<Utc>,
+    end: DateTime<Utc>,
+) -> Option<String> {
     let days = |t: DateTime<Utc>| ((t - set.epoch).num_seconds() as f64 / 86400.0).abs();
     let worst = days(start).max(days(end));
     if worst > 30.0 {
@@ -234,10 +281,17 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
         let (obs, mask) = station_geometry(st, mask_override)?;
         let found = find_passes(&r.propagator, &obs, &mask, r.start, r.end);
         if let Some(e) = &found.stopped {
-            eprintln!("warning: {}: propagation stopped: {e}; passes after that time are not listed", r.elements.label());
+            eprintln!(
+                "warning: {}: propagation stopped: {e}; passes after that time are not listed",
+                r.elements.label()
+            );
         }
         if found.passes.is_empty() {
-            eprintln!("note: {} does not rise above the mask of {} in the window", r.elements.label(), st.name);
+            eprintln!(
+                "note: {} does not rise above the mask of {} in the window",
+                r.elements.label(),
+                st.name
+            );
         }
         all.extend(found.passes.into_iter().map(|p| (i, p)));
     }
@@ -248,17 +302,26 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
 /// `passbudget passes`.
 pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
     let r = resolve(&a.input, &a.station)?;
-    let mask = a.mask.or_else(|| r.mission.as_ref().and_then(|m| m.mask_deg));
+    let mask = a
+        .mask
+        .or_else(|| r.mission.as_ref().and_then(|m| m.mask_deg));
     warn_element_age(&r.elements, r.start, r.end);
     let all = all_passes(&r, mask)?;
-    let rows: Vec<PassRow> = all.iter().map(|(i, p)| PassRow::new(&r.elements, &r.stations[*i].name, p)).collect();
+    let rows: Vec<PassRow> = all
+        .iter()
+        .map(|(i, p)| PassRow::new(&r.elements, &r.stations[*i].name, p))
+        .collect();
     match a.format {
         Format::Json => {
             #[derive(Serialize)]
             struct Doc<'a> {
                 passes: &'a [PassRow],
             }
-            writeln!(out, "{}", serde_json::to_string_pretty(&Doc { passes: &rows })?)?;
+            writeln!(
+                out,
+                "{}",
+                serde_json::to_string_pretty(&Doc { passes: &rows })?
+            )?;
         }
         Format::Csv => write!(out, "{}", to_csv(&rows)?)?,
         Format::Table => {
@@ -294,9 +357,19 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                     flags.to_string(),
                 ]);
             }
-            writeln!(out, "{} passes of {} from {} to {}", rows.len(), r.elements.label(), format_ms(&r.start), format_ms(&r.end))?;
+            writeln!(
+                out,
+                "{} passes of {} from {} to {}",
+                rows.len(),
+                r.elements.label(),
+                format_ms(&r.start),
+                format_ms(&r.end)
+            )?;
             write!(out, "{}", t.render())?;
-            writeln!(out, "Planning estimates only; see the README for accuracy and cautions.")?;
+            writeln!(
+                out,
+                "Planning estimates only; see the README for accuracy and cautions."
+            )?;
         }
     }
     Ok(())
@@ -326,12 +399,23 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
     let stations: Vec<PathBuf> = a.station.iter().cloned().collect();
     let r = resolve(&a.input, &stations)?;
     if r.stations.len() > 1 {
-        bail!("track follows one station: give --station FILE (the mission file lists {})", r.stations.len());
+        bail!(
+            "track follows one station: give --station FILE (the mission file lists {})",
+            r.stations.len()
+        );
     }
-    let frequency_hz = a.frequency_mhz.map(|f| f * 1e6).or_else(|| r.mission.as_ref().and_then(|m| m.transmitter.as_ref().map(|t| t.frequency_hz)));
+    let frequency_hz = a.frequency_mhz.map(|f| f * 1e6).or_else(|| {
+        r.mission
+            .as_ref()
+            .and_then(|m| m.transmitter.as_ref().map(|t| t.frequency_hz))
+    });
     let n = crate::timefmt::seconds_between(&r.start, &r.end) / a.step;
     if n > 5e6 {
-        bail!("--step {} over this window gives {:.0} points; use a longer step or a shorter window", a.step, n);
+        bail!(
+            "--step {} over this window gives {:.0} points; use a longer step or a shorter window",
+            a.step,
+            n
+        );
     }
     warn_element_age(&r.elements, r.start, r.end);
     let st = &r.stations[0];
@@ -353,7 +437,10 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                 });
             }
             Err(e) => {
-                eprintln!("warning: {}: propagation stopped: {e}; the track ends there", r.elements.label());
+                eprintln!(
+                    "warning: {}: propagation stopped: {e}; the track ends there",
+                    r.elements.label()
+                );
                 break;
             }
         }
@@ -364,7 +451,11 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             struct Doc<'a> {
                 track: &'a [TrackRow],
             }
-            writeln!(out, "{}", serde_json::to_string_pretty(&Doc { track: &rows })?)?;
+            writeln!(
+                out,
+                "{}",
+                serde_json::to_string_pretty(&Doc { track: &rows })?
+            )?;
         }
         Format::Csv => write!(out, "{}", to_csv(&rows)?)?,
         Format::Table => {
@@ -383,7 +474,9 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                     format!("{:.2}", r.elevation_deg),
                     format!("{:.1}", r.range_km),
                     format!("{:.4}", r.range_rate_km_s),
-                    r.doppler_hz.map(|d| format!("{d:.0}")).unwrap_or_else(|| "-".into()),
+                    r.doppler_hz
+                        .map(|d| format!("{d:.0}"))
+                        .unwrap_or_else(|| "-".into()),
                 ]);
             }
             write!(out, "{}", t.render())?;

@@ -40,12 +40,30 @@ pub fn main_entry() -> i32 {
     match run(args, &mut lock).and_then(|()| lock.flush().map_err(anyhow::Error::from)) {
         Ok(()) => 0,
         Err(e) => {
-            if e.chain().any(|c| c.downcast_ref::<std::io::Error>().is_some_and(|io| io.kind() == std::io::ErrorKind::BrokenPipe)) {
+            if e.chain().any(|c| {
+                c.downcast_ref::<std::io::Error>()
+                    .is_some_and(|io| io.kind() == std::io::ErrorKind::BrokenPipe)
+            }) {
                 return 0;
             }
-            let text = format!("{e:#}");
-            let _ = writeln!(std::io::stderr(), "error: {}", text.replace('\n', " "));
+            let _ = writeln!(std::io::stderr(), "error: {}", one_line(&e));
             EXIT_ERROR
         }
     }
+}
+
+/// The error chain on one line; a cause already quoted by the message before it is not repeated
+/// (library errors include their source in their own text).
+pub fn one_line(e: &anyhow::Error) -> String {
+    let mut text = String::new();
+    for cause in e.chain() {
+        let c = cause.to_string();
+        if !text.contains(&c) {
+            if !text.is_empty() {
+                text.push_str(": ");
+            }
+            text.push_str(&c);
+        }
+    }
+    text.replace('\n', " ")
 }

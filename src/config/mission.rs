@@ -457,7 +457,11 @@ impl Mission {
                     .max_bandwidth_hz
                     .map(|v| range(&["modem", "max_bandwidth_hz"], v, 1.0, 1e10, "Hz"))
                     .transpose()?;
-                let min_dwell_s = m.min_dwell_s.map(|v| range(&["modem", "min_dwell_s"], v, 0.0, 600.0, "s")).transpose()?.unwrap_or(10.0);
+                let min_dwell_s = m
+                    .min_dwell_s
+                    .map(|v| range(&["modem", "min_dwell_s"], v, 0.0, 600.0, "s"))
+                    .transpose()?
+                    .unwrap_or(10.0);
                 let mut ladder = Vec::new();
                 for (i, st) in m.ladder.iter().enumerate() {
                     let line = list_item_line(text, &["modem", "ladder"], i);

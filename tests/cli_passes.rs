@@ -1,0 +1,426 @@
+//! End-to-end checks of `passes` and `track`: the binary on the shipped example and on bad input.
+//! Bad input must give one clear line on stderr naming the file and what is wrong, a non-zero exit
+//! code, and no panic.
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+fn bin() -> Command {
+    Command::new(env!("CARGO_BIN_EXE_passbudget"))
+}
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn run(args: &[&str]) -> Output {
+    bin()
+        .current_dir(root())
+        .args(args)
+        .output()
+        .expect("binary runs")
+}
+
+/// The run failed cleanly: exit code 1, one line on stderr starting "error:", containing `needle`.
+fn assert_clean_error(out: &Output, needles: &[&str]) {
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "stderr: {stderr}");
+    let lines: Vec<&str> = stderr
+        .lines()
+        .filter(|l| !l.starts_with("warning") && !l.starts_with("note"))
+        .collect();
+    assert_eq!(lines.len(), 1, "one line expected, got: {stderr}");
+    assert!(lines[0].starts_with("error: "), "{stderr}");
+    for n in needles {
+        assert!(lines[0].contains(n), "'{n}' not in: {stderr}");
+    }
+    assert!(!stderr.contains("panicked"), "{stderr}");
+}
+
+fn write(dir: &Path, name: &str, text: &str) -> String {
+    let p = dir.join(name);
+    std::fs::write(&p, text).unwrap();
+    p.to_string_lossy().into_owned()
+}
+
+const WINDOW: [&str; 4] = ["--start", "2026-12-02T00:00:00Z", "--days", "1"];
+
+#[test]
+fn passes_json_follows_the_output_contract() {
+    let mut args = vec![
+        "passes",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        "stations/nordkam.yaml",
+        "--station",
+        "stations/sierra-baja.yaml",
+        "--format",
+        "json",
+    ];
+    args.extend(WINDOW);
+    let out = run(&args);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let passes = doc["passes"].as_array().unwrap();
+    assert!(passes.len() > 5);
+    let keys = [
+        "satellite",
+        "norad_id",
+        "station",
+        "aos",
+        "tca",
+        "los",
+        "duration_s",
+        "max_elevation_deg",
+        "aos_azimuth_deg",
+        "tca_azimuth_deg",
+        "los_azimuth_deg",
+        "min_range_km",
+        "starts_before_window",
+        "ends_after_window",
+    ];
+    for p in passes {
+        for k in keys {
+            assert!(p.get(k).is_some(), "missing {k}");
+        }
+        // RFC 3339 UTC with milliseconds, e.g. 2026-12-02T01:23:45.678Z
+        let aos = p["aos"].as_str().unwrap();
+        assert_eq!(aos.len(), 24, "{aos}");
+        assert!(aos.ends_with('Z') && aos.as_bytes()[19] == b'.');
+    }
+    let aos: Vec<&str> = passes.iter().map(|p| p["aos"].as_str().unwrap()).collect();
+    let mut sorted = aos.clone();
+    sorted.sort();
+    assert_eq!(aos, sorted, "sorted by AOS");
+    assert!(passes.iter().any(|p| p["station"] == "Sierra Baja"));
+}
+
+#[test]
+fn passes_csv_has_one_header_row_and_mission_inputs_work() {
+    let out = run(&[
+        "passes",
+        "--mission",
+        "examples/wrenlet-1.yaml",
+        "--days",
+        "0.5",
+        "--format",
+        "csv",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8(out.stdout).unwrap();
+    let mut lines = text.lines();
+    assert_eq!(lines.next().unwrap(), "satellite,norad_id,station,aos,tca,los,duration_s,max_elevation_deg,aos_azimuth_deg,tca_azimuth_deg,los_azimuth_deg,min_range_km,starts_before_window,ends_after_window");
+    assert!(lines.count() > 3);
+}
+
+#[test]
+fn mask_flag_removes_low_passes() {
+    let base = [
+        "passes",
+        "--mission",
+        "examples/wrenlet-1.yaml",
+        "--format",
+        "json",
+    ];
+    let count = |extra: &[&str]| {
+        let mut a = base.to_vec();
+        a.extend(extra);
+        let out = run(&a);
+        let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        let p = doc["passes"].as_array().unwrap().clone();
+        p
+    };
+    let all = count(&[]);
+    let high = count(&["--mask", "30"]);
+    assert!(high.len() < all.len());
+    assert!(high
+        .iter()
+        .all(|p| p["max_elevation_deg"].as_f64().unwrap() >= 30.0));
+}
+
+#[test]
+fn track_csv_and_json_with_doppler() {
+    let out = run(&[
+        "track",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        "stations/nordkam.yaml",
+        "--start",
+        "2026-12-02T07:22:00Z",
+        "--end",
+        "2026-12-02T07:32:00Z",
+        "--step",
+        "30",
+        "--frequency-mhz",
+        "8212.5",
+        "--format",
+        "json",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let track = doc["track"].as_array().unwrap();
+    assert_eq!(track.len(), 21);
+    for p in track {
+        let rr = p["range_rate_km_s"].as_f64().unwrap();
+        let d = p["doppler_hz"].as_f64().unwrap();
+        // Approaching (rr < 0) gives a positive shift: f_d = -f rr / c.
+        assert!((d + 8212.5e6 * rr / 299_792.458).abs() < 1.0);
+    }
+    let out = run(&[
+        "track",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        "stations/nordkam.yaml",
+        "--start",
+        "2026-12-02T07:22:00Z",
+        "--end",
+        "2026-12-02T07:23:00Z",
+        "--step",
+        "30",
+    ]);
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(
+        text.lines().next().unwrap(),
+        "time,azimuth_deg,elevation_deg,range_km,range_rate_km_s,doppler_hz"
+    );
+    assert!(
+        text.lines().nth(1).unwrap().ends_with(','),
+        "doppler_hz empty without a frequency"
+    );
+}
+
+#[test]
+fn stale_elements_warn() {
+    let out = run(&[
+        "passes",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        "stations/nordkam.yaml",
+        "--start",
+        "2027-01-20T00:00:00Z",
+        "--days",
+        "1",
+    ]);
+    assert!(out.status.success());
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(stderr.contains("STALE ELEMENTS"), "{stderr}");
+    let out = run(&[
+        "passes",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        "stations/nordkam.yaml",
+        "--start",
+        "2026-12-10T00:00:00Z",
+        "--days",
+        "1",
+    ]);
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        stderr.contains("warning") && stderr.contains("1-3 km a day"),
+        "{stderr}"
+    );
+}
+
+#[test]
+fn bad_inputs_give_one_clear_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let d = dir.path();
+    let good = std::fs::read_to_string(root().join("examples/sat.tle")).unwrap();
+    let lines: Vec<&str> = good.lines().collect();
+    // Wrong checksum: change the last digit of line 2.
+    let mut l2 = lines[2].to_string();
+    let last = l2.pop().unwrap();
+    l2.push(if last == '0' { '1' } else { '0' });
+    let bad_sum = write(
+        d,
+        "sum.tle",
+        &format!("{}\n{}\n{}\n", lines[0], lines[1], l2),
+    );
+    let truncated = write(
+        d,
+        "trunc.tle",
+        &format!("{}\n{}\n{}\n", lines[0], lines[1], &lines[2][..50]),
+    );
+    let empty = write(d, "empty.tle", "");
+    let two = write(
+        d,
+        "two.tle",
+        &format!("{good}{}\n{}\n{}\n", "OTHER-SAT", lines[1], lines[2]),
+    );
+    let omm = write(
+        d,
+        "omm.json",
+        r#"[{"OBJECT_NAME":"X","NORAD_CAT_ID":99901,"EPOCH":"2026-12-01T12:00:00","ECCENTRICITY":0.001,"INCLINATION":97.6,"RA_OF_ASC_NODE":10,"ARG_OF_PERICENTER":0,"MEAN_ANOMALY":0,"BSTAR":0.0001,"MEAN_MOTION_DOT":0,"MEAN_MOTION_DDOT":0}]"#,
+    );
+    let station = write(
+        d,
+        "st.yaml",
+        "name: X\nlatitude_deg: 10\nlongitude_deg: 10\naltitude_m: 0\nelevation_mask: 3\n",
+    );
+    let st = "stations/nordkam.yaml";
+    let w = WINDOW;
+    let cases: Vec<(Vec<&str>, Vec<&str>)> = vec![
+        (
+            vec!["passes", "--tle", "no/such.tle", "--station", st],
+            vec!["no/such.tle"],
+        ),
+        (
+            vec!["passes", "--tle", &bad_sum, "--station", st],
+            vec!["sum.tle", "line 3", "checksum"],
+        ),
+        (
+            vec!["passes", "--tle", &truncated, "--station", st],
+            vec!["trunc.tle", "line 3"],
+        ),
+        (
+            vec!["passes", "--tle", &empty, "--station", st],
+            vec!["empty.tle"],
+        ),
+        (
+            vec!["passes", "--tle", &two, "--station", st],
+            vec!["two.tle", "choose one"],
+        ),
+        (
+            vec![
+                "passes",
+                "--tle",
+                &two,
+                "--sat",
+                "nothing-like-it",
+                "--station",
+                st,
+            ],
+            vec!["two.tle", "nothing-like-it"],
+        ),
+        (
+            vec!["passes", "--tle", &omm, "--station", st],
+            vec!["omm.json", "MEAN_MOTION"],
+        ),
+        (
+            vec!["passes", "--tle", "examples/sat.tle", "--station", &station],
+            vec!["st.yaml", ":5", "elevation_mask"],
+        ),
+        (
+            vec![
+                "passes",
+                "--tle",
+                "examples/sat.tle",
+                "--station",
+                "no/station.yaml",
+            ],
+            vec!["no/station.yaml"],
+        ),
+    ];
+    for (mut args, needles) in cases {
+        args.extend(w);
+        let out = run(&args);
+        assert_clean_error(&out, &needles);
+    }
+    let out = run(&[
+        "passes",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        st,
+        "--start",
+        "2026-12-02T00:00:00Z",
+        "--end",
+        "2026-12-01T00:00:00Z",
+    ]);
+    assert_clean_error(&out, &["not after its start"]);
+    let out = run(&[
+        "track",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        st,
+        "--start",
+        "2026-12-02T00:00:00Z",
+        "--days",
+        "1",
+        "--step",
+        "0",
+    ]);
+    assert_clean_error(&out, &["--step", "above zero"]);
+    let out = run(&[
+        "track",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        st,
+        "--start",
+        "2026-12-02T00:00:00Z",
+        "--days",
+        "1",
+        "--step",
+        "-5",
+    ]);
+    assert_clean_error(&out, &["--step"]);
+    let out = run(&[
+        "passes",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        st,
+        "--start",
+        "tomorrow",
+        "--days",
+        "1",
+    ]);
+    assert_clean_error(&out, &["--start", "RFC 3339"]);
+}
+
+#[test]
+fn broken_pipe_exits_quietly() {
+    use std::io::Read;
+    use std::process::Stdio;
+    let mut child = bin()
+        .current_dir(root())
+        .args([
+            "track",
+            "--tle",
+            "examples/sat.tle",
+            "--station",
+            "stations/nordkam.yaml",
+            "--start",
+            "2026-12-02T00:00:00Z",
+            "--days",
+            "2",
+            "--step",
+            "1",
+        ])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    let mut buf = [0u8; 64];
+    child.stdout.as_mut().unwrap().read_exact(&mut buf).unwrap();
+    drop(child.stdout.take());
+    let status = child.wait().unwrap();
+    let mut err = String::new();
+    child
+        .stderr
+        .as_mut()
+        .unwrap()
+        .read_to_string(&mut err)
+        .unwrap();
+    assert_eq!(status.code(), Some(0), "{err}");
+    assert!(err.is_empty(), "{err}");
+}
