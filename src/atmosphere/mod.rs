@@ -221,6 +221,8 @@ pub enum AtmosphereError {
     Temperature { temperature_k: f64 },
     #[error("water-vapour density {water_vapour_density_g_m3} g/m3 must be zero or positive")]
     WaterVapourDensity { water_vapour_density_g_m3: f64 },
+    #[error("integrated water-vapour content {total_water_vapour_kg_m2} kg/m2 must be positive")]
+    WaterVapourContent { total_water_vapour_kg_m2: f64 },
     #[error("rain rate {rain_rate_mm_h} mm/h must be zero or positive")]
     RainRate { rain_rate_mm_h: f64 },
     #[error("rain height {rain_height_km} km must be within 0..20 km")]
@@ -434,7 +436,34 @@ impl PreparedAtmosphere {
         })
     }
 
+    /// Use the integrated water-vapour content V_t (kg/m², e.g. from ITU-R P.836 or a
+    /// radiosonde) for the water-vapour part instead of γw·hw: P.676-12 Annex 2 §2.3,
+    /// `A_w = 0.0176·V_t·γw(f)/γw(20.6 GHz)` at the reference conditions (×(a·h^b + 1)
+    /// above 20 GHz). P.676-12 prefers this form when V_t is known.
+    pub fn with_integrated_water_vapour(
+        mut self,
+        total_water_vapour_kg_m2: f64,
+    ) -> Result<Self, AtmosphereError> {
+        let vt = total_water_vapour_kg_m2;
+        check(
+            vt.is_finite() && vt > 0.0,
+            AtmosphereError::WaterVapourContent {
+                total_water_vapour_kg_m2: vt,
+            },
+        )?;
+        let aw = gas::zenith_water_vapour_attenuation_from_vt_db(
+            self.frequency_ghz,
+            vt,
+            self.altitude_km,
+        );
+        // Keep γw·hw = A_w so that the low-elevation form scales the same zenith value.
+        self.gamma_w_db_km = aw / self.h_w_km;
+        self.gas_zenith_db = self.gamma_o_db_km * self.h_o_km + aw;
+        Ok(self)
+    }
+
     /// Specific attenuations (γo, γw) at the station, dB/km (P.676-12 Annex 1).
+    /// After [`Self::with_integrated_water_vapour`], γw is the V_t-derived A_w/hw.
     pub fn specific_gas_attenuation_db_km(&self) -> (f64, f64) {
         (self.gamma_o_db_km, self.gamma_w_db_km)
     }
