@@ -352,3 +352,68 @@ fn mean_radiating_temperature_eq70() {
         "Tmr",
     );
 }
+
+// P.618-14 §2.2.1.1 step-level values for the first ValEx row (London, 14.25 GHz, 0.01 %),
+// REFERENCES §4a [COMP]: intermediate values computed there while reproducing the ValEx
+// final value, printed to 6-7 significant digits.
+#[test]
+fn p618_rain_intermediate_steps_london() {
+    use passbudget::atmosphere::rain;
+    let el: f64 = 31.07699124;
+    let hs = 0.031382984;
+    let hr = hs + 4.690817392 * el.to_radians().sin();
+    assert_rel(hr, 2.452733, 1e-6, "hR");
+    let c = rain_specific::RainCoefficients::p838_3(14.25);
+    let (k, alpha) = c.for_path(el, 0.0);
+    let r = rain::attenuation_001_p618(
+        &rain::RainPath {
+            rain_height_km: hr,
+            station_height_km: hs,
+            elevation_deg: el,
+            latitude_deg: 51.5,
+            frequency_ghz: 14.25,
+        },
+        k,
+        alpha,
+        26.48052,
+    );
+    assert_rel(
+        r.slant_length_km * el.to_radians().cos(),
+        4.017565,
+        1e-6,
+        "LG",
+    );
+    assert_rel(r.specific_attenuation_db_km, 1.581308, 1e-6, "γR");
+    assert_rel(r.horizontal_reduction, 0.876478, 1e-6, "r0.01");
+    assert_rel(r.vertical_adjustment, 1.045634, 1e-6, "v0.01");
+    assert_rel(r.effective_path_km, 4.299017, 1e-6, "LE");
+    assert_rel(r.attenuation_001_db, 6.798072267, ATMO_VALEX_REL, "A0.01");
+}
+
+// P.676-12 Annex 2 ρ form (the library default) against itur 0.4.0 values stored with the
+// exact calls in the data file.
+#[test]
+fn p676_slant_path_rho_form_matches_itur_library() {
+    for r in load("p676_12_slant_rho_itur.csv") {
+        let (f, p, rho, t) = (r["f"], r["P"], r["rho"], r["T"]);
+        let (ho, hw) = gas::equivalent_heights_p676_12(f, p, rho, t);
+        assert_rel(ho, r["h0"], ATMO_LIBRARY_REL, &format!("ho {r:?}"));
+        assert_rel(hw, r["hw"], ATMO_LIBRARY_REL, &format!("hw {r:?}"));
+        let e = gas::water_vapour_pressure_hpa(rho, t);
+        let s = AtmosphereSite {
+            pressure_hpa: p + e,
+            temperature_k: t,
+            water_vapour_density_g_m3: rho,
+            ..site()
+        };
+        let a = PreparedAtmosphere::new(&s, &path(f))
+            .unwrap()
+            .at(r["el"], Weather::ClearSky);
+        assert_rel(
+            a.gas_db,
+            r["A_gas"],
+            ATMO_LIBRARY_REL,
+            &format!("A_gas {r:?}"),
+        );
+    }
+}

@@ -52,3 +52,8 @@ pub const ATMO_VALEX_GAMMA_ABS_DB_KM: f64 = 5e-10;
 /// (p < 1 %, |φ| < 36°), which a 0.1° scan over 5°-50° showed to be at most 0.9 % for
 /// 1-55 GHz, 5-150 mm/h. 2 % (the relative tolerance) bounds that with margin.
 pub const ATMO_RAIN_MONOTONE_REL: f64 = 0.02;
+
+/// Relative tolerance against values computed once by a reference library implementing
+/// the same equations (stored with full float precision): only evaluation-order rounding
+/// separates the two, so 1e-9.
+pub const ATMO_LIBRARY_REL: f64 = 1e-9;
