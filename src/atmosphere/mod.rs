@@ -10,6 +10,17 @@
 //! | tropospheric scintillation | P.618-14 §2.4.1, Nwet from P.453-14 | [`scintillation`] |
 //! | combination | P.618-14 §2.5 eqs (65)-(68) | [`combine`] |
 //!
+//! Edition choices:
+//! * P.676-12 Annex 2 (not -13): its equivalent heights are closed-form, while -13 needs a
+//!   700-row coefficient table. The surface-density form `γw·hw` is the default; when the
+//!   integrated water-vapour content is known, [`PreparedAtmosphere::with_integrated_water_vapour`]
+//!   switches to the V_t form of Annex 2 §2.3 (the form behind the ITU validation numbers).
+//! * P.840-9 (not -8): the ITU validation pairs (L, A) of -9 can be reproduced exactly.
+//! * P.618-14 combination (§2.5 eqs (65)-(68)); P.618-13 differs only above 5 %
+//!   (-13 keeps rain in the sum for every p) and in holding AG, AC at their 1 % values.
+//! * Scintillation below 5°: the §2.4.2/§2.4.3 method needs pL from the P.453 maps, which a
+//!   site does not carry, so the model is evaluated at 5° and a warning is raised.
+//!
 //! Build a [`PreparedAtmosphere`] once per (site, path): everything that does not depend on
 //! elevation is computed there. [`PreparedAtmosphere::at`] then costs a few tens of
 //! nanoseconds in clear sky, allocates nothing, and never fails: inputs outside a model's
@@ -267,8 +278,10 @@ pub struct PreparedAtmosphere {
     rain_height_km: f64,
     /// L·K_L, dB (zenith cloud attenuation).
     cloud_zenith_db: f64,
-    sigma_ref_db: f64,
-    deff_m: f64,
+    /// σref·f^(7/12), dB (P.618-14 eq (47) without g(x) and the elevation term).
+    scint_scale_db: f64,
+    /// 1.22·Deff²·f, m (numerator of x, eq (46)).
+    scint_x_numerator_m: f64,
     static_warnings: ModelWarnings,
 }
 
@@ -412,6 +425,8 @@ impl PreparedAtmosphere {
         let nwet = site
             .wet_refractivity
             .unwrap_or_else(|| scintillation::wet_refractivity_p453(site.temperature_k, rho));
+        let deff_m =
+            scintillation::effective_diameter_m(path.antenna_diameter_m, path.antenna_efficiency);
 
         Ok(Self {
             latitude_deg: site.latitude_deg,
@@ -427,11 +442,8 @@ impl PreparedAtmosphere {
             rain_rate_001_mm_h: r001,
             rain_height_km,
             cloud_zenith_db,
-            sigma_ref_db: scintillation::sigma_ref_db(nwet),
-            deff_m: scintillation::effective_diameter_m(
-                path.antenna_diameter_m,
-                path.antenna_efficiency,
-            ),
+            scint_scale_db: scintillation::sigma_ref_db(nwet) * f.powf(7.0 / 12.0),
+            scint_x_numerator_m: 1.22 * deff_m * deff_m * f,
             static_warnings: w,
         })
     }
@@ -576,7 +588,7 @@ impl PreparedAtmosphere {
         };
         w.scintillation_exceedance_below_0_01_percent = percent < 0.01;
         let sigma =
-            scintillation::sigma_db(self.sigma_ref_db, self.frequency_ghz, self.deff_m, el_s);
+            scintillation::sigma_from_parts_db(self.scint_scale_db, self.scint_x_numerator_m, el_s);
         let scintillation_db = scintillation::percentage_factor(percent) * sigma;
 
         let total_db = combine::total_attenuation_p618_14_db(

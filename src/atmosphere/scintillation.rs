@@ -44,15 +44,30 @@ pub fn effective_diameter_m(antenna_diameter_m: f64, antenna_efficiency: f64) ->
 /// `σ = σref f^(7/12) g(x)/(sin θ)^1.2` (eq (47)).
 #[inline]
 pub fn sigma_db(sigma_ref_db: f64, frequency_ghz: f64, deff_m: f64, elevation_deg: f64) -> f64 {
+    sigma_from_parts_db(
+        sigma_ref_db * frequency_ghz.powf(7.0 / 12.0),
+        1.22 * deff_m * deff_m * frequency_ghz,
+        elevation_deg,
+    )
+}
+
+/// [`sigma_db`] with its elevation-independent parts precomputed:
+/// `scale_db = σref·f^(7/12)` and `x_numerator_m = 1.22·Deff²·f`, so `x = x_numerator_m/L`.
+#[inline]
+pub fn sigma_from_parts_db(scale_db: f64, x_numerator_m: f64, elevation_deg: f64) -> f64 {
     let s = elevation_deg.to_radians().sin();
+    // L = 2 hL/(sqrt(sin²θ + 2.35e-4) + sin θ)  (eq (43))
     let l_m = 2.0 * TURBULENT_LAYER_HEIGHT_M / ((s * s + 2.35e-4).sqrt() + s);
-    let x = 1.22 * deff_m * deff_m * frequency_ghz / l_m;
+    // x = 1.22 Deff² f/L  (eq (46))
+    let x = x_numerator_m / l_m;
+    // g(x) = sqrt(3.86 (x² + 1)^(11/12) sin[(11/6) atan(1/x)] − 7.08 x^(5/6))  (eq (45))
     let radicand = 3.86 * (x * x + 1.0).powf(11.0 / 12.0) * ((11.0 / 6.0) * (1.0 / x).atan()).sin()
         - 7.08 * x.powf(5.0 / 6.0);
     if radicand <= 0.0 {
         return 0.0;
     }
-    sigma_ref_db * frequency_ghz.powf(7.0 / 12.0) * radicand.sqrt() / s.powf(1.2)
+    // σ = σref f^(7/12) g(x)/(sin θ)^1.2  (eq (47))
+    scale_db * radicand.sqrt() / s.powf(1.2)
 }
 
 /// Step 8: time-percentage factor
