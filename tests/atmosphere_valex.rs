@@ -353,11 +353,11 @@ fn mean_radiating_temperature_eq70() {
     );
 }
 
-// P.618-14 §2.2.1.1 step-level values for the first ValEx row (London, 14.25 GHz, 0.01 %),
+// P.618-14 §2.2.1.1 step-level values for the first ValEx row (51.5° N, 14.25 GHz, 0.01 %),
 // REFERENCES §4a [COMP]: intermediate values computed there while reproducing the ValEx
 // final value, printed to 6-7 significant digits.
 #[test]
-fn p618_rain_intermediate_steps_london() {
+fn p618_rain_intermediate_steps_first_valex_row() {
     use passbudget::atmosphere::rain;
     let el: f64 = 31.07699124;
     let hs = 0.031382984;
