@@ -13,7 +13,7 @@
 //!
 //! Caveats (all reasons to give the station value instead):
 //! * this rule is superseded by the digital maps of P.839-3/-4 (hR = h0 + 0.36 km with h0 from
-//!   a 1.5° grid); differences of several hundred metres are usual (e.g. London: rule 2.86 km,
+//!   a 1.5° grid); differences of several hundred metres are usual (e.g. 51.5° N, 0.14° W: rule 2.86 km,
 //!   P.839-4 map 2.45 km);
 //! * whether P.839-2 adds 0.36 km to h0 is not confirmed here (from memory: no);
 //! * the regional variant for North America and Europe west of 60° E
