@@ -3,7 +3,9 @@
 //! (UT1 = UTC, no polar motion, WGS-72 SGP4; calls recorded in the JSON file).
 
 mod common;
-use common::tolerance::{LOOK_ANGLE_DEG, MAX_ELEVATION_DEG, PASS_TIME_S, RANGE_KM, RANGE_RATE_KM_S};
+use common::tolerance::{
+    LOOK_ANGLE_DEG, MAX_ELEVATION_DEG, PASS_TIME_S, RANGE_KM, RANGE_RATE_KM_S,
+};
 use passbudget::geometry::{find_passes, HorizonMask, Observer};
 use passbudget::orbit::{load_elements, Propagator};
 use passbudget::timefmt::{add_seconds, seconds_between, utc};
@@ -17,7 +19,14 @@ fn reference() -> Value {
 
 fn setup(r: &Value) -> (Propagator, Observer) {
     let sets = load_elements(Path::new("examples/sat.tle")).unwrap();
-    assert_eq!(r["tle"][1].as_str().unwrap(), std::fs::read_to_string("examples/sat.tle").unwrap().lines().nth(1).unwrap());
+    assert_eq!(
+        r["tle"][1].as_str().unwrap(),
+        std::fs::read_to_string("examples/sat.tle")
+            .unwrap()
+            .lines()
+            .nth(1)
+            .unwrap()
+    );
     let st = &r["station"];
     let obs = Observer::new(
         st["latitude_deg"].as_f64().unwrap(),
@@ -47,17 +56,37 @@ fn look_angles_match_skyfield() {
         let el = l["elevation_deg"].as_f64().unwrap();
         let de = (look.elevation_deg - el).abs();
         // Azimuth differences shrink in true angle by cos(el); compare on the sky.
-        let da = angle_diff(look.azimuth_deg, l["azimuth_deg"].as_f64().unwrap()) * el.to_radians().cos();
+        let da = angle_diff(look.azimuth_deg, l["azimuth_deg"].as_f64().unwrap())
+            * el.to_radians().cos();
         let dr = (look.range_km - l["range_km"].as_f64().unwrap()).abs();
         let drr = (look.range_rate_km_s - l["range_rate_km_s"].as_f64().unwrap()).abs();
         wa = wa.max(da);
         we = we.max(de);
         wr = wr.max(dr);
         wrr = wrr.max(drr);
-        assert!(de < LOOK_ANGLE_DEG, "elevation at {t}: {} vs {el} (Skyfield)", look.elevation_deg);
-        assert!(da < LOOK_ANGLE_DEG, "azimuth at {t}: {} vs {} (Skyfield)", look.azimuth_deg, l["azimuth_deg"]);
-        assert!(dr < RANGE_KM, "range at {t}: {} vs {} (Skyfield)", look.range_km, l["range_km"]);
-        assert!(drr < RANGE_RATE_KM_S, "range rate at {t}: {} vs {} (Skyfield)", look.range_rate_km_s, l["range_rate_km_s"]);
+        assert!(
+            de < LOOK_ANGLE_DEG,
+            "elevation at {t}: {} vs {el} (Skyfield)",
+            look.elevation_deg
+        );
+        assert!(
+            da < LOOK_ANGLE_DEG,
+            "azimuth at {t}: {} vs {} (Skyfield)",
+            look.azimuth_deg,
+            l["azimuth_deg"]
+        );
+        assert!(
+            dr < RANGE_KM,
+            "range at {t}: {} vs {} (Skyfield)",
+            look.range_km,
+            l["range_km"]
+        );
+        assert!(
+            drr < RANGE_RATE_KM_S,
+            "range rate at {t}: {} vs {} (Skyfield)",
+            look.range_rate_km_s,
+            l["range_rate_km_s"]
+        );
     }
     eprintln!("worst: az {wa:e} deg, el {we:e} deg, range {wr:e} km, range rate {wrr:e} km/s");
 }
@@ -73,7 +102,11 @@ fn passes_match_skyfield() {
     assert!(found.stopped.is_none());
     let expected = r["passes"].as_array().unwrap();
     // Skyfield's find_events lists passes with a culmination inside the window.
-    let ours: Vec<_> = found.passes.iter().filter(|p| !p.starts_before_window && !p.ends_after_window).collect();
+    let ours: Vec<_> = found
+        .passes
+        .iter()
+        .filter(|p| !p.starts_before_window && !p.ends_after_window)
+        .collect();
     assert_eq!(ours.len(), expected.len(), "{:#?}", found.passes);
     let mut worst_t: f64 = 0.0;
     let mut worst_el: f64 = 0.0;
@@ -81,11 +114,20 @@ fn passes_match_skyfield() {
         for (ours_t, key) in [(p.aos, "aos_s"), (p.tca, "tca_s"), (p.los, "los_s")] {
             let d = (seconds_between(&origin, &ours_t) - e[key].as_f64().unwrap()).abs();
             worst_t = worst_t.max(d);
-            assert!(d < PASS_TIME_S, "{key}: ours {ours_t}, Skyfield {} s from origin", e[key]);
+            assert!(
+                d < PASS_TIME_S,
+                "{key}: ours {ours_t}, Skyfield {} s from origin",
+                e[key]
+            );
         }
         let de = (p.max_elevation_deg - e["max_elevation_deg"].as_f64().unwrap()).abs();
         worst_el = worst_el.max(de);
-        assert!(de < MAX_ELEVATION_DEG, "max elevation {} vs {}", p.max_elevation_deg, e["max_elevation_deg"]);
+        assert!(
+            de < MAX_ELEVATION_DEG,
+            "max elevation {} vs {}",
+            p.max_elevation_deg,
+            e["max_elevation_deg"]
+        );
     }
     eprintln!("worst pass time {worst_t:.4} s, max elevation {worst_el:e} deg; {} propagations for 2 days", found.propagations);
 }

@@ -62,16 +62,27 @@ fn check_against_scan(mask: HorizonMask, days: f64) -> usize {
             continue;
         }
         let hit = found.passes.iter().find(|p| {
-            (seconds_between(&t0, &p.aos) - a).abs() < SCAN_TIME_S && (seconds_between(&t0, &p.los) - b).abs() < SCAN_TIME_S
+            (seconds_between(&t0, &p.aos) - a).abs() < SCAN_TIME_S
+                && (seconds_between(&t0, &p.los) - b).abs() < SCAN_TIME_S
         });
-        assert!(hit.is_some(), "scan pass {a:.1}..{b:.1} s not found; found {:#?}", found.passes);
+        assert!(
+            hit.is_some(),
+            "scan pass {a:.1}..{b:.1} s not found; found {:#?}",
+            found.passes
+        );
     }
     // Nothing invented: every pass found is in the scan.
     for p in &found.passes {
         let a = seconds_between(&t0, &p.aos);
-        assert!(brute.iter().any(|(s, _)| (s - a).abs() < SCAN_TIME_S), "extra pass {p:?}");
+        assert!(
+            brute.iter().any(|(s, _)| (s - a).abs() < SCAN_TIME_S),
+            "extra pass {p:?}"
+        );
     }
-    brute.iter().filter(|(a, b)| b - a >= GUARANTEED_PASS_S).count()
+    brute
+        .iter()
+        .filter(|(a, b)| b - a >= GUARANTEED_PASS_S)
+        .count()
 }
 
 #[test]
@@ -82,7 +93,17 @@ fn no_pass_missed_flat_mask() {
 #[test]
 fn no_pass_missed_with_terrain_mask() {
     // Invented terrain: a ridge to the north-east and a low southern horizon.
-    let mask = HorizonMask::new(5.0, vec![[20.0, 8.0], [60.0, 25.0], [100.0, 6.0], [200.0, 3.0], [300.0, 12.0]]).unwrap();
+    let mask = HorizonMask::new(
+        5.0,
+        vec![
+            [20.0, 8.0],
+            [60.0, 25.0],
+            [100.0, 6.0],
+            [200.0, 3.0],
+            [300.0, 12.0],
+        ],
+    )
+    .unwrap();
     assert!(check_against_scan(mask, 2.0) >= 4);
 }
 
@@ -91,11 +112,17 @@ fn propagation_budget_leo_seven_days() {
     // Issue target: at most 300 SGP4 evaluations per LEO satellite-day.
     let prop = wrenlet();
     let t0 = utc(2026, 12, 1, 12, 0, 0);
-    for (mask, lat) in [(HorizonMask::flat(0.0).unwrap(), 45.5), (HorizonMask::flat(10.0).unwrap(), 35.25)] {
+    for (mask, lat) in [
+        (HorizonMask::flat(0.0).unwrap(), 45.5),
+        (HorizonMask::flat(10.0).unwrap(), 35.25),
+    ] {
         let obs = Observer::new(lat, -120.3, 600.0).unwrap();
         let found = find_passes(&prop, &obs, &mask, t0, add_seconds(&t0, 7.0 * 86400.0));
         let per_day = found.propagations as f64 / 7.0;
-        eprintln!("{} passes, {per_day:.0} propagations per day", found.passes.len());
+        eprintln!(
+            "{} passes, {per_day:.0} propagations per day",
+            found.passes.len()
+        );
         assert!(found.passes.len() >= 14);
         assert!(per_day <= 300.0, "{per_day} propagations per satellite-day");
     }
@@ -175,10 +202,19 @@ fn propagation_error_stops_search_and_keeps_passes() {
     let prop = Propagator::new(&sets[0]).unwrap();
     let t0 = utc(2026, 12, 1, 12, 0, 0);
     let obs = Observer::new(40.0, 20.0, 0.0).unwrap();
-    let r = find_passes(&prop, &obs, &HorizonMask::flat(0.0).unwrap(), t0, add_seconds(&t0, 60.0 * 86400.0));
+    let r = find_passes(
+        &prop,
+        &obs,
+        &HorizonMask::flat(0.0).unwrap(),
+        t0,
+        add_seconds(&t0, 60.0 * 86400.0),
+    );
     let err = r.stopped.expect("the orbit decays within 60 days");
     let minutes = err.minutes().unwrap();
-    eprintln!("stopped after {minutes:.0} min with {} passes: {err}", r.passes.len());
+    eprintln!(
+        "stopped after {minutes:.0} min with {} passes: {err}",
+        r.passes.len()
+    );
     assert!(minutes > 0.0 && minutes < 60.0 * 1440.0);
     assert!(!r.passes.is_empty());
     for p in &r.passes {
@@ -191,7 +227,9 @@ fn track_steps_and_ends_on_end() {
     let prop = wrenlet();
     let obs = station();
     let t0 = utc(2026, 12, 1, 12, 0, 0);
-    let pts: Vec<_> = track(&prop, &obs, t0, add_seconds(&t0, 100.0), 30.0).map(|r| r.unwrap()).collect();
+    let pts: Vec<_> = track(&prop, &obs, t0, add_seconds(&t0, 100.0), 30.0)
+        .map(|r| r.unwrap())
+        .collect();
     assert_eq!(pts.len(), 5);
     assert_eq!(pts[4].0, add_seconds(&t0, 100.0));
 }

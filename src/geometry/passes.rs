@@ -142,7 +142,14 @@ impl Search<'_> {
     /// The prediction error is allowed to grow as m(τ) = 0.5° + (4e + 0.01) w τ (eccentricity,
     /// J2 short-period and drag effects on the along-track angle are ~1e-3 of it for LEO), and
     /// between grid points (30 s) the satellite can move by ω_max · 30 s. Only used for e < 0.05.
-    fn predicted_skip(&self, s: &Sample, gamma_cone: f64, omega_max: f64, e: f64, horizon: f64) -> f64 {
+    fn predicted_skip(
+        &self,
+        s: &Sample,
+        gamma_cone: f64,
+        omega_max: f64,
+        e: f64,
+        horizon: f64,
+    ) -> f64 {
         let w_e = EARTH_ROTATION_RAD_S;
         let r = s.r;
         let vi = [s.v[0] - w_e * r[1], s.v[1] + w_e * r[0], s.v[2]];
@@ -175,7 +182,11 @@ impl Search<'_> {
         let steps = (horizon / dtau).ceil() as usize;
         for i in 0..=steps {
             let tau = i as f64 * dtau;
-            let u = [c * p[0] + sn * q[0], c * p[1] + sn * q[1], c * p[2] + sn * q[2]];
+            let u = [
+                c * p[0] + sn * q[0],
+                c * p[1] + sn * q[1],
+                c * p[2] + sn * q[2],
+            ];
             let cg = (u[0] * st[0] + u[1] * st[1] + u[2] * st[2]).clamp(-1.0, 1.0);
             if cg.acos() - (m0 + k * tau) - slack <= gamma_cone {
                 return tau;
