@@ -399,8 +399,8 @@ fn search(
                     }
                 }
                 if last.is_none() && !starts_before {
-                    // First step after AOS: time from AOS to an expected TCA is unknown; take
-                    // a tenth of a period-cap so the curvature estimate starts early.
+                    // First step after AOS: the time to TCA is unknown; a quarter of the cap
+                    // starts the curvature estimate of the elevation rate early.
                     dt = dt.min(0.25 * cap);
                 }
                 let dt = dt.max(TIME_TOLERANCE_S);
