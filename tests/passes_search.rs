@@ -51,12 +51,15 @@ fn scan(prop: &Propagator, obs: &Observer, mask: &HorizonMask, days: f64) -> Vec
 }
 
 fn check_against_scan(mask: HorizonMask, days: f64) -> usize {
-    let prop = wrenlet();
-    let obs = station();
+    check_scan_for(&wrenlet(), &station(), mask, days)
+}
+
+fn check_scan_for(prop: &Propagator, obs: &Observer, mask: HorizonMask, days: f64) -> usize {
+    let (prop, obs) = (prop, obs);
     let t0 = utc(2026, 12, 1, 12, 0, 0);
-    let found = find_passes(&prop, &obs, &mask, t0, add_seconds(&t0, days * 86400.0));
+    let found = find_passes(prop, obs, &mask, t0, add_seconds(&t0, days * 86400.0));
     assert!(found.stopped.is_none());
-    let brute = scan(&prop, &obs, &mask, days);
+    let brute = scan(prop, obs, &mask, days);
     for (a, b) in &brute {
         if b - a < GUARANTEED_PASS_S {
             continue;
@@ -105,6 +108,27 @@ fn no_pass_missed_with_terrain_mask() {
     )
     .unwrap();
     assert!(check_against_scan(mask, 2.0) >= 4);
+}
+
+// Invented high orbits: a 12 h Molniya-type (e = 0.72) and a 12 h near-circular one.
+const HIGH_TLE: &str = "\
+MOLNIYA-DEMO
+1 99904U          26335.50000000  .00000000  00000-0  00000-0 0    10
+2 99904  63.4000  40.0000 7200000 270.0000  10.0000  2.00613000    10
+MEO-DEMO
+1 99905U          26335.50000000  .00000000  00000-0  00000-0 0    10
+2 99905  55.0000 120.0000 0050000  30.0000  60.0000  2.00560000    10
+";
+
+#[test]
+fn no_pass_missed_deep_space() {
+    let sets = parse_elements(&fix_checksums(HIGH_TLE)).unwrap();
+    let obs = Observer::new(55.0, 37.0, 200.0).unwrap();
+    for set in &sets {
+        let prop = Propagator::new(set).unwrap();
+        let n = check_scan_for(&prop, &obs, HorizonMask::flat(10.0).unwrap(), 1.5);
+        assert!(n >= 1, "{}", set.label());
+    }
 }
 
 #[test]
@@ -261,5 +285,29 @@ proptest! {
             prop_assert!((-90.0..=90.0).contains(&l.elevation_deg) && l.range_km > 0.0);
             prop_assert!((0.0..360.0).contains(&l.azimuth_deg));
         }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 8, .. ProptestConfig::default() })]
+
+    /// Varied invented LEO orbits (400-1500 km, e < 0.045, any inclination) over random
+    /// stations: every pass of >= 20 s in a 1 s scan is found.
+    #[test]
+    fn no_pass_missed_varied_leo(
+        lat in -85.0f64..85.0, lon in -180.0f64..180.0, min_el in 0.0f64..10.0,
+        mean_motion in 12.5f64..15.6, ecc in 0.0f64..0.045, incl in 20.0f64..110.0, raan in 0.0f64..360.0,
+    ) {
+        let mut set = load_elements(Path::new("examples/sat.tle")).unwrap().remove(0);
+        set.elements.mean_motion = mean_motion;
+        set.elements.eccentricity = ecc;
+        set.elements.inclination = incl;
+        set.elements.right_ascension = raan;
+        // Perigee above ~250 km.
+        let a = (398_600.8f64 / (mean_motion * std::f64::consts::TAU / 86400.0).powi(2)).cbrt();
+        prop_assume!(a * (1.0 - ecc) > 6378.0 + 250.0);
+        let prop = Propagator::new(&set).unwrap();
+        let obs = Observer::new(lat, lon, 0.0).unwrap();
+        check_scan_for(&prop, &obs, HorizonMask::flat(min_el).unwrap(), 1.0);
     }
 }
