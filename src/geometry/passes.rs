@@ -175,6 +175,11 @@ impl Search<'_> {
         let slack = omega_max * dtau;
         let m0 = 0.5f64.to_radians();
         let k = (4.0 * e + 0.01) * w;
+        // Entry is possible at grid time τ iff γ(τ) <= θ(τ) = γc + slack + m0 + k τ, i.e.
+        // cos γ(τ) >= cos θ(τ) (while θ < π); cos θ is advanced by the same recurrence.
+        let theta0 = gamma_cone + slack + m0;
+        let (mut sth, mut cth) = theta0.sin_cos();
+        let (sk, ck) = (k * dtau).sin_cos();
         let (sw, cw) = (w * dtau).sin_cos();
         let (se, ce) = (w_e * dtau).sin_cos();
         let (mut c, mut sn) = (1.0f64, 0.0f64);
@@ -182,19 +187,25 @@ impl Search<'_> {
         let steps = (horizon / dtau).ceil() as usize;
         for i in 0..=steps {
             let tau = i as f64 * dtau;
+            if theta0 + k * tau >= std::f64::consts::PI {
+                return tau;
+            }
             let u = [
                 c * p[0] + sn * q[0],
                 c * p[1] + sn * q[1],
                 c * p[2] + sn * q[2],
             ];
-            let cg = (u[0] * st[0] + u[1] * st[1] + u[2] * st[2]).clamp(-1.0, 1.0);
-            if cg.acos() - (m0 + k * tau) - slack <= gamma_cone {
+            let cg = u[0] * st[0] + u[1] * st[1] + u[2] * st[2];
+            if cg >= cth {
                 return tau;
             }
             // Advance the rotations by one grid step (angle-addition recurrences).
             let c2 = c * cw - sn * sw;
             sn = sn * cw + c * sw;
             c = c2;
+            let cth2 = cth * ck - sth * sk;
+            sth = sth * ck + cth * sk;
+            cth = cth2;
             // R3(-ω⊕ Δτ): x' = cos x - sin y, y' = sin x + cos y
             st = [ce * st[0] - se * st[1], se * st[0] + ce * st[1], st[2]];
         }
