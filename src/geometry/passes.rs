@@ -8,18 +8,25 @@
 //! flagged at both ends; one that never rises gives an empty list.
 //!
 //! # Method (original; the bounds below are elementary geometry)
-//! 1. **Skip ahead outside the visibility cone** (two bounds, the larger skip wins). Let γ be the geocentric angle between the
-//!    satellite and the station (Earth-fixed). For a station at geocentric radius R and a
-//!    satellite at radius r, elevation above the station's *geocentric* horizontal is ≥ ε iff
-//!    γ ≤ γc(ε, r) = acos(R cos ε / r) - ε (law of sines in the station-satellite-geocentre
-//!    triangle). The geodetic vertical differs from the geocentric one by δ (< 0.2°), so any
-//!    point above the mask satisfies γ ≤ γc(ε_low - δ - 0.2°, r_max), with ε_low the lowest mask
-//!    elevation and r_max a bound on the orbit radius (apogee + 1 % + 20 km). The direction of
-//!    the satellite turns at most ω_max = 1.05 h / r_p,min² + ω⊕ (inertial angular-momentum
-//!    bound plus Earth rotation), so γ cannot reach γc for (γ - γc)/ω_max seconds: the search
-//!    jumps that far (at least [`FLOOR_STEP_S`]). For near-circular orbits (e < 0.05) a
-//!    second, longer skip predicts γ over the next 1.5 periods with a circular orbit under the
-//!    turning Earth, less a growing error margin (see `predicted_skip`).
+//! 1. **Skip ahead outside the visibility cone** (two skips, the longer one is taken).
+//!    Let γ be the geocentric angle between the satellite and the station (Earth-fixed). For
+//!    a station at geocentric radius R and a satellite at radius r, the elevation above the
+//!    station's *geocentric* horizontal is ≥ ε iff γ ≤ γc(ε, r) = acos(R cos ε / r) - ε (law of
+//!    sines in the station-satellite-geocentre triangle). The geodetic vertical differs from
+//!    the geocentric one by δ (< 0.2°), so any point above the mask has
+//!    γ ≤ γc(ε_low - δ - 0.2°, r_max), with ε_low the lowest mask elevation and
+//!    r_max = 1.01 a (1 + e) + 20 km a bound on the orbit radius.
+//!    * Rate bound (strict): the satellite's direction turns at most
+//!      ω_max = 1.02 h / r_p,min² + ω⊕ with h = sqrt(μ a_max (1 - e²)), a_max = 1.005 a + 10 km,
+//!      r_p,min = a (1 - e) - 30 km (angular momentum / radius² plus Earth rotation), so γ
+//!      cannot reach γc for (γ - γc) / ω_max seconds.
+//!    * Predicted skip (e < 0.05 only; an error model, not a strict bound): γ is predicted
+//!      over the next 1.5 periods from the sample's state with a circular orbit under the
+//!      turning Earth, less a margin growing as 0.5° + (4e + 0.01) × (angle travelled) plus
+//!      ω_max × 30 s between grid points (see `predicted_skip`). Its safety is checked in
+//!      tests/passes_search.rs against 1 s scans over varied LEO orbits and stations.
+//!
+//!    Every skip is at least [`FLOOR_STEP_S`].
 //! 2. **Sample inside the cone** at [`FLOOR_STEP_S`] (19 s) while g ≤ 0: any pass lasting
 //!    ≥ [`GUARANTEED_PASS_S`] (20 s) contains a sample, so none is missed (shorter ones may be).
 //! 3. **Refine** roots of g with safeguarded Newton steps (ġ from the analytic elevation rate
