@@ -4,7 +4,7 @@
 
 mod common;
 use common::tolerance::{
-    LOOK_ANGLE_DEG, MAX_ELEVATION_DEG, PASS_TIME_S, RANGE_KM, RANGE_RATE_KM_S,
+    ELEVATION_RATE_DEG_S, LOOK_ANGLE_DEG, MAX_ELEVATION_DEG, PASS_TIME_S, RANGE_KM, RANGE_RATE_KM_S,
 };
 use passbudget::geometry::{find_passes, HorizonMask, Observer};
 use passbudget::orbit::{load_elements, Propagator};
@@ -50,6 +50,7 @@ fn look_angles_match_skyfield() {
     let looks = r["looks"].as_array().unwrap();
     assert!(looks.len() > 100);
     let (mut wa, mut we, mut wr, mut wrr) = (0f64, 0f64, 0f64, 0f64);
+    let (mut wn, mut wer) = (0f64, 0f64);
     for l in looks {
         let t = add_seconds(&origin, l["seconds_from_2026_12_01T12"].as_f64().unwrap());
         let look = obs.look(&prop.ecef_at(&t).unwrap());
@@ -60,6 +61,22 @@ fn look_angles_match_skyfield() {
             * el.to_radians().cos();
         let dr = (look.range_km - l["range_km"].as_f64().unwrap()).abs();
         let drr = (look.range_rate_km_s - l["range_rate_km_s"].as_f64().unwrap()).abs();
+        let dn = (look.off_nadir_deg - l["off_nadir_deg"].as_f64().unwrap()).abs();
+        let der = (look.elevation_rate_deg_s - l["elevation_rate_deg_s"].as_f64().unwrap()).abs();
+        assert!(
+            dn < LOOK_ANGLE_DEG,
+            "off-nadir at {t}: {} vs {} (Skyfield ITRS vectors)",
+            look.off_nadir_deg,
+            l["off_nadir_deg"]
+        );
+        assert!(
+            der < ELEVATION_RATE_DEG_S,
+            "elevation rate at {t}: {} vs {} (Skyfield)",
+            look.elevation_rate_deg_s,
+            l["elevation_rate_deg_s"]
+        );
+        wn = wn.max(dn);
+        wer = wer.max(der);
         wa = wa.max(da);
         we = we.max(de);
         wr = wr.max(dr);
@@ -88,7 +105,7 @@ fn look_angles_match_skyfield() {
             l["range_rate_km_s"]
         );
     }
-    eprintln!("worst: az {wa:e} deg, el {we:e} deg, range {wr:e} km, range rate {wrr:e} km/s");
+    eprintln!("worst: az {wa:e} deg, el {we:e} deg, range {wr:e} km, range rate {wrr:e} km/s, off-nadir {wn:e} deg, el rate {wer:e} deg/s");
 }
 
 #[test]

@@ -16,6 +16,9 @@ pub const LOOK_ANGLE_DEG: f64 = 0.02;
 pub const RANGE_KM: f64 = 0.1;
 /// Range rate vs Skyfield, km/s (1 m/s: Doppler at 8 GHz within 27 Hz).
 pub const RANGE_RATE_KM_S: f64 = 1e-3;
+/// Elevation rate vs Skyfield, deg/s (1e-4 deg/s moves a predicted crossing by < 0.01 s
+/// for the LEO rates of ~0.05-0.8 deg/s that matter; it feeds only the Newton steps).
+pub const ELEVATION_RATE_DEG_S: f64 = 1e-4;
 /// AOS/TCA/LOS vs Skyfield, s (required: 1 s).
 pub const PASS_TIME_S: f64 = 1.0;
 /// Maximum elevation vs Skyfield, deg (required: 0.05 deg).
