@@ -204,6 +204,6 @@ mod tests {
         // the angle equals the geodetic-geocentric vertical difference (< 0.2 deg).
         assert!(l.off_nadir_deg < 0.2);
         // Doppler: 1 km/s receding at 1 GHz -> -3335.64 Hz (f v / c).
-        assert!((doppler_hz(1.0, 1e9) + 3335.640_951_981_52).abs() < 1e-6);
+        assert!((doppler_hz(1.0, 1e9) + 3_335.640_951_981_52).abs() < 1e-6);
     }
 }

@@ -162,6 +162,6 @@ mod tests {
         assert!((e[0] - 6378.137).abs() < 1e-12);
         // Pole: z = b = a (1 - f) = 6356.752314 km (TR8350.2 Table 3.3 gives b = 6356752.3142 m).
         let p = geodetic_to_ecef_km(90.0, 0.0, 0.0);
-        assert!((p[2] - 6356.752_314_2).abs() < 1e-6);
+        assert!((p[2] - 6_356.752_314_2).abs() < 1e-6);
     }
 }

@@ -242,8 +242,8 @@ fn field_error(e: &sgp4::TleError, n1: usize, n2: usize) -> TleError {
     }
 }
 
-/// Format two data lines (columns 1-68 given) with correct checksums appended; for writing
-/// test and example files. Returns `None` if a line is not 68 ASCII columns.
+/// Append the checksum to a data line given as its columns 1-68 (for writing test and example
+/// files). Returns `None` if the text is not 68 ASCII columns.
 pub fn with_checksum(columns_1_to_68: &str) -> Option<String> {
     if columns_1_to_68.len() != 68 || !columns_1_to_68.is_ascii() {
         return None;

@@ -26,6 +26,7 @@ import sgp4
 import skyfield
 from sgp4.api import WGS72
 from skyfield.api import EarthSatellite, load, wgs84
+from skyfield.framelib import itrs
 
 LAT, LON, ALT_M = 45.5, -120.3, 600.0
 
@@ -50,10 +51,22 @@ def t_at(seconds_from_epoch):
     return ts.utc(2026, 12, 1, 12, 0, seconds_from_epoch)
 
 
+def off_nadir_deg(t):
+    # Angle at the satellite between the geocentre and the station, from ITRS vectors.
+    s = sat.at(t).frame_xyz(itrs).km
+    g = topos.at(t).frame_xyz(itrs).km
+    to_centre = [-x for x in s]
+    to_station = [b - a for a, b in zip(s, g)]
+    dot = sum(a * b for a, b in zip(to_centre, to_station))
+    norm = math.sqrt(sum(a * a for a in to_centre)) * math.sqrt(sum(b * b for b in to_station))
+    return math.degrees(math.acos(max(-1.0, min(1.0, dot / norm))))
+
+
 def look(sec):
     t = t_at(sec)
     alt, az, dist, alt_rate, az_rate, range_rate = (sat - topos).at(t).frame_latlon_and_rates(topos)
     return {
+        "off_nadir_deg": off_nadir_deg(t),
         "seconds_from_2026_12_01T12": sec,
         "elevation_deg": alt.degrees,
         "azimuth_deg": az.degrees % 360.0,
@@ -116,6 +129,7 @@ out = {
     % (skyfield.__version__, sgp4.__version__),
     "calls": "load.timescale(delta_t=69.184); EarthSatellite(l1, l2, name, ts); "
     "wgs84.latlon(45.5, -120.3, elevation_m=600.0); (sat - topos).at(t).frame_latlon_and_rates(topos); "
+    "off_nadir_deg from sat.at(t).frame_xyz(itrs) and topos.at(t).frame_xyz(itrs); "
     "sat.find_events(topos, t0, t1, altitude_degrees=0.0) refined by bisection to 1e-4 s",
     "conditions": "UT1 = UTC (constant delta_t = TT-UTC = 69.184 s), no polar motion, WGS-72 SGP4 "
     "(opsmode i), geometric altitude (no refraction)",

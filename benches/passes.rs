@@ -1,0 +1,82 @@
+//! Pass-search benchmarks: one LEO over one station for 30 days, and 100 LEO satellites
+//! (the invented WRENLET-1 elements with RAAN and mean anomaly varied) over 3 invented
+//! stations for 7 days. Small sample sizes so the run stays under a minute.
+
+use std::hint::black_box;
+use std::path::Path;
+use std::time::Duration;
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use passbudget::geometry::{find_passes, HorizonMask, Observer};
+use passbudget::orbit::{load_elements, ElementSet, Propagator};
+use passbudget::timefmt::{add_seconds, utc};
+
+fn base() -> ElementSet {
+    load_elements(Path::new("examples/sat.tle"))
+        .unwrap()
+        .remove(0)
+}
+
+fn bench(c: &mut Criterion) {
+    let t0 = utc(2026, 12, 1, 12, 0, 0);
+    let mask = HorizonMask::flat(5.0).unwrap();
+    let stations = [
+        Observer::new(45.5, -120.3, 600.0).unwrap(),
+        Observer::new(-33.7, 18.9, 150.0).unwrap(),
+        Observer::new(67.2, 20.1, 400.0).unwrap(),
+    ];
+    let prop = Propagator::new(&base()).unwrap();
+    let mut g = c.benchmark_group("passes");
+    g.sample_size(10)
+        .warm_up_time(Duration::from_millis(500))
+        .measurement_time(Duration::from_secs(3));
+    g.bench_function("1 LEO x 1 station x 30 days", |b| {
+        b.iter(|| {
+            let r = find_passes(
+                &prop,
+                &stations[0],
+                &mask,
+                t0,
+                add_seconds(&t0, 30.0 * 86400.0),
+            );
+            black_box(r.passes.len())
+        })
+    });
+    let props: Vec<Propagator> = (0..100)
+        .map(|i| {
+            let mut set = base();
+            set.elements.right_ascension = (set.elements.right_ascension + 3.6 * i as f64) % 360.0;
+            set.elements.mean_anomaly = (set.elements.mean_anomaly + 37.0 * i as f64) % 360.0;
+            Propagator::new(&set).unwrap()
+        })
+        .collect();
+    g.sample_size(10).measurement_time(Duration::from_secs(8));
+    g.bench_function("100 LEO x 3 stations x 7 days", |b| {
+        b.iter(|| {
+            let mut n = 0;
+            for p in &props {
+                for s in &stations {
+                    n += find_passes(p, s, &mask, t0, add_seconds(&t0, 7.0 * 86400.0))
+                        .passes
+                        .len();
+                }
+            }
+            black_box(n)
+        })
+    });
+    g.finish();
+    // Propagations per satellite-day for the report.
+    let mut total = 0u64;
+    for p in &props {
+        for s in &stations {
+            total += find_passes(p, s, &mask, t0, add_seconds(&t0, 7.0 * 86400.0)).propagations;
+        }
+    }
+    println!(
+        "100 LEO x 3 stations x 7 days: {:.0} propagations per satellite-station-day",
+        total as f64 / (100.0 * 3.0 * 7.0)
+    );
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);
