@@ -2,3 +2,4 @@
 pub mod mask;
 pub mod network;
 pub mod rate;
+pub mod prepare;

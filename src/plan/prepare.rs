@@ -1,0 +1,222 @@
+//! From validated configuration to prepared models: one [`StationModel`] per station (geometry,
+//! atmosphere, link), the rate options of the mission's modem, and the Shannon bandwidth.
+//!
+//! Errors here name the file and, where the configuration knows it, the line (an unknown scheme in
+//! the ladder, a rate the bandwidth cannot carry).
+
+use crate::atmosphere::{mean_radiating_temperature_k, AtmosphereSite, PathSpec, PreparedAtmosphere, Weather};
+use crate::config::mission::{Mission, TxPatternConfig};
+use crate::config::station::{GainSpec, PolarizationSense as CfgSense, Station};
+use crate::config::ConfigError;
+use crate::geometry::{HorizonMask, Observer};
+use crate::link::antenna::{GroundAntennaSpec, TxPattern, TxPower, TransmitterSpec};
+use crate::link::budget::{LinkModel, LinkModelSpec, PolarizationSpec, RateSpec};
+use crate::link::modcod::{operating_point, scheme_index};
+use crate::link::polarization::{EllipseOrientation, Polarization, PolarizationSense};
+use crate::noise::system::{GroundPickupSpec, LnaNoise, ReceiverSpec};
+use crate::plan::rate::RateOption;
+use crate::units::wavelength_m;
+
+/// Aperture efficiency assumed when a station gives its gain but no diameter, to estimate the
+/// equivalent diameter for beamwidth and scintillation (common practice for a parabolic reflector).
+pub const ASSUMED_EFFICIENCY: f64 = 0.55;
+
+/// Half-power beamwidth constant for a parabolic reflector, deg: theta_3dB = 70 lambda / D
+/// (common practice; the same rule as `link::antenna`).
+pub const BEAMWIDTH_CONSTANT_DEG: f64 = 70.0;
+
+/// Error preparing a mission for the budget or the plan.
+#[derive(Debug, thiserror::Error)]
+pub enum PrepareError {
+    #[error(transparent)]
+    Config(#[from] ConfigError),
+    #[error("{file}: {message}")]
+    Model { file: String, message: String },
+}
+
+fn model_err(file: &std::path::Path, line: Option<usize>, message: impl std::fmt::Display) -> PrepareError {
+    PrepareError::Model {
+        file: match line {
+            Some(l) => format!("{}:{l}", file.display()),
+            None => file.display().to_string(),
+        },
+        message: message.to_string(),
+    }
+}
+
+/// Everything a station needs for the budget, prepared once.
+#[derive(Debug, Clone)]
+pub struct StationModel {
+    pub station: Station,
+    pub observer: Observer,
+    pub mask: HorizonMask,
+    pub link: LinkModel,
+    pub atmosphere: PreparedAtmosphere,
+    /// Mean radiating temperature of the atmosphere, K (P.618-14 eq (70) from the surface temperature).
+    pub mean_radiating_temperature_k: f64,
+    /// Ground antenna diameter used for scintillation (given, or estimated from the gain), m.
+    pub antenna_diameter_m: f64,
+    /// Polarization tilt used for P.838 (45 deg for circular polarization).
+    pub polarization_tilt_deg: f64,
+}
+
+/// The modem's rate options, prepared.
+#[derive(Debug, Clone)]
+pub struct RateSet {
+    /// The fixed-rate ladder, in file order.
+    pub ladder: Vec<RateOption>,
+    pub ladder_specs: Vec<RateSpec>,
+    /// Options of the adaptive mode: every ladder rate and every adaptive scheme, sorted by rate.
+    pub adaptive: Vec<RateOption>,
+    pub adaptive_specs: Vec<RateSpec>,
+    /// Bandwidth for Shannon's bound: `modem.max_bandwidth_hz`, else the widest option, Hz.
+    pub shannon_bandwidth_hz: f64,
+    pub required_margin_db: f64,
+    pub implementation_loss_db: f64,
+    pub min_dwell_s: f64,
+}
+
+/// Map the configured polarization sense to the link model's.
+fn sense(s: CfgSense) -> PolarizationSense {
+    match s {
+        CfgSense::Rhcp => PolarizationSense::Rhcp,
+        CfgSense::Lhcp => PolarizationSense::Lhcp,
+        CfgSense::Linear => PolarizationSense::Linear,
+    }
+}
+
+/// Prepare one station for this mission's transmitter.
+pub fn station_model(mission: &Mission, st: &Station, mask_override: Option<f64>) -> Result<StationModel, PrepareError> {
+    let file = &st.source;
+    let tx = mission.transmitter.as_ref().ok_or_else(|| model_err(&mission.source, None, "the mission has no transmitter block; the budget needs one"))?;
+    let ant = st.antenna.as_ref().ok_or_else(|| model_err(file, None, "the station has no antenna block; the budget needs antenna.diameter_m or antenna.gain_dbi"))?;
+    let rx = st.receiver.as_ref().ok_or_else(|| model_err(file, None, "the station has no receiver block; the budget needs receiver.lna_noise_temperature_k or lna_noise_figure_db"))?;
+    let observer = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m).map_err(|e| model_err(file, None, e))?;
+    let min = mask_override.unwrap_or(st.min_elevation_deg);
+    let mask = HorizonMask::new(min, st.horizon_mask.clone()).map_err(|e| model_err(file, None, format!("horizon_mask: {e}")))?;
+    let lambda_m = wavelength_m(tx.frequency_hz);
+    let (ground_spec, diameter_m, efficiency) = match ant.gain {
+        GainSpec::Aperture { diameter_m, efficiency } => (GroundAntennaSpec::Dish { diameter_m, efficiency, pointing_error_deg: ant.pointing_error_deg }, diameter_m, efficiency),
+        GainSpec::Given { gain_dbi, diameter_m } => {
+            // Equivalent diameter from G = eta (pi D / lambda)^2 when no diameter is given.
+            let d = diameter_m.unwrap_or_else(|| lambda_m / std::f64::consts::PI * (crate::units::db_to_ratio(gain_dbi) / ASSUMED_EFFICIENCY).sqrt());
+            let beamwidth_deg = BEAMWIDTH_CONSTANT_DEG * lambda_m / d;
+            (GroundAntennaSpec::Gain { gain_dbi, beamwidth_deg, pointing_error_deg: ant.pointing_error_deg }, d, ASSUMED_EFFICIENCY)
+        }
+    };
+    let pattern = match &tx.pattern {
+        TxPatternConfig::Fixed { gain_dbi } => TxPattern::Fixed { gain_dbi: *gain_dbi },
+        TxPatternConfig::CosN { boresight_gain_dbi } => TxPattern::CosN { boresight_gain_dbi: *boresight_gain_dbi, n: None },
+        TxPatternConfig::Table { points } => TxPattern::Table(points.clone()),
+    };
+    let spec = LinkModelSpec {
+        frequency_hz: tx.frequency_hz,
+        transmitter: TransmitterSpec { power: TxPower::Dbw(tx.power_dbw), line_loss_db: tx.line_loss_db + tx.other_loss_db, pattern },
+        ground_antenna: ground_spec,
+        receiver: ReceiverSpec {
+            feed_loss_db: rx.feed_loss_db,
+            feed_temperature_k: rx.feed_temperature_k,
+            lna_noise: LnaNoise::TemperatureK(rx.lna_noise_temperature_k),
+            lna_gain_db: rx.lna_gain_db,
+            later_noise_figure_db: rx.followon_noise_figure_db,
+        },
+        ground_pickup: GroundPickupSpec { spillover_fraction: ant.spillover_fraction, ground_temperature_k: ant.ground_temperature_k },
+        polarization: PolarizationSpec {
+            spacecraft: Polarization { sense: sense(tx.polarization), axial_ratio_db: tx.axial_ratio_db },
+            ground: Polarization { sense: sense(ant.polarization), axial_ratio_db: ant.axial_ratio_db },
+            orientation: EllipseOrientation::WorstCase,
+            extra_loss_db: ant.radome_loss_db,
+        },
+        max_occupied_bandwidth_hz: mission.modem.as_ref().and_then(|m| m.max_bandwidth_hz),
+    };
+    let link = LinkModel::new(&spec).map_err(|e| model_err(file, None, e))?;
+    let c = &st.climate;
+    let site = AtmosphereSite {
+        latitude_deg: st.latitude_deg,
+        // Height above the ellipsoid used as height above mean sea level (geoid undulation, tens of m, neglected).
+        altitude_km: st.altitude_m / 1000.0,
+        pressure_hpa: c.pressure_hpa,
+        temperature_k: c.temperature_k,
+        water_vapour_density_g_m3: c.water_vapour_density_g_m3,
+        rain_rate_001_mm_h: c.rain_rate_001_mm_h.unwrap_or(0.0),
+        rain_height_km: c.rain_height_km,
+        cloud_liquid_kg_m2: c.cloud_liquid_kg_m2,
+        wet_refractivity: c.wet_refractivity,
+    };
+    // Circular polarization: tilt 45 deg in P.838-3 eqs (4)-(5); linear: the same 45 deg is used as
+    // the orientation along a pass is not known (documented in the README).
+    let polarization_tilt_deg = 45.0;
+    let path = PathSpec { frequency_ghz: tx.frequency_hz / 1e9, polarization_tilt_deg, antenna_diameter_m: diameter_m, antenna_efficiency: efficiency };
+    let atmosphere = PreparedAtmosphere::new(&site, &path).map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
+    Ok(StationModel {
+        station: st.clone(),
+        observer,
+        mask,
+        link,
+        atmosphere,
+        mean_radiating_temperature_k: mean_radiating_temperature_k(c.temperature_k),
+        antenna_diameter_m: diameter_m,
+        polarization_tilt_deg,
+    })
+}
+
+/// The weather of the availability case, checked against the station climate.
+pub fn availability_weather(percent: Option<f64>, stations: &[StationModel]) -> Result<Option<Weather>, PrepareError> {
+    let Some(p) = percent else { return Ok(None) };
+    let w = Weather::exceedance(p).map_err(|e| PrepareError::Model { file: "--exceedance-percent".into(), message: e.to_string() })?;
+    for s in stations {
+        if s.station.climate.rain_rate_001_mm_h.is_none() {
+            return Err(model_err(&s.station.source, None, "climate.rain_rate_001_mm_h is needed for the availability (rain) case"));
+        }
+    }
+    Ok(Some(w))
+}
+
+/// Build the rate options from the mission's modem. `link` is any station's link model (the
+/// bandwidth limit and frequency are the mission's).
+pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareError> {
+    let path = &mission.source;
+    let m = mission.modem.as_ref().ok_or_else(|| model_err(path, None, "the mission has no modem block; the plan needs a rate ladder"))?;
+    if m.ladder.is_empty() {
+        return Err(model_err(path, crate::config::locate::key_line(&std::fs::read_to_string(path).unwrap_or_default(), &["modem"]), "modem.ladder has no rates; give at least one { rate_bps, scheme }"));
+    }
+    let option = |rate_bps: f64, name: &str, line: Option<usize>| -> Result<(RateOption, RateSpec), PrepareError> {
+        let idx = scheme_index(name).map_err(|e| model_err(path, line, e))?;
+        let op = operating_point(idx, Some(m.target_ber)).map_err(|e| model_err(path, line, format!("{name}: {e}")))?;
+        let spec = link.rate_spec(rate_bps, op, m.roll_off, m.implementation_loss_db).map_err(|e| model_err(path, line, format!("{name} at {rate_bps} bit/s: {e}")))?;
+        let threshold_cn0_dbhz = crate::units::ratio_to_db(rate_bps) + op.required_ebn0_db + m.implementation_loss_db + m.required_margin_db;
+        Ok((
+            RateOption { rate_bps, scheme: op.name.to_string(), required_ebn0_db: op.required_ebn0_db, threshold_cn0_dbhz, occupied_bandwidth_hz: spec.occupied_bandwidth_hz() },
+            spec,
+        ))
+    };
+    let mut ladder = Vec::new();
+    let mut ladder_specs = Vec::new();
+    for st in &m.ladder {
+        let (o, s) = option(st.rate_bps, &st.scheme, st.line)?;
+        ladder.push(o);
+        ladder_specs.push(s);
+    }
+    let mut adaptive: Vec<(RateOption, RateSpec)> = ladder.iter().cloned().zip(ladder_specs.iter().cloned()).collect();
+    if let Some(a) = &m.adaptive {
+        for (name, line) in &a.schemes {
+            let idx = scheme_index(name).map_err(|e| model_err(path, *line, e))?;
+            let eta = crate::link::modcod::schemes()[idx].spectral_efficiency;
+            adaptive.push(option(a.symbol_rate_baud * eta, name, *line)?);
+        }
+    }
+    adaptive.sort_by(|x, y| x.0.rate_bps.total_cmp(&y.0.rate_bps).then(x.0.threshold_cn0_dbhz.total_cmp(&y.0.threshold_cn0_dbhz)));
+    let widest = adaptive.iter().map(|o| o.0.occupied_bandwidth_hz).fold(0.0, f64::max);
+    let shannon_bandwidth_hz = m.max_bandwidth_hz.unwrap_or(widest).max(widest);
+    let (adaptive, adaptive_specs) = adaptive.into_iter().unzip();
+    Ok(RateSet {
+        ladder,
+        ladder_specs,
+        adaptive,
+        adaptive_specs,
+        shannon_bandwidth_hz,
+        required_margin_db: m.required_margin_db,
+        implementation_loss_db: m.implementation_loss_db,
+        min_dwell_s: m.min_dwell_s,
+    })
+}
