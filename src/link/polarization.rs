@@ -107,7 +107,8 @@ pub fn polarization_loss_factor(
 }
 
 /// Polarization mismatch loss in dB (>= 0) plus an optional fixed extra loss
-/// (radome, other), in dB. Exact cross-polarization (PLF = 0) is an error.
+/// (radome, other), in dB. Exact cross-polarization (PLF <= 1e-12, i.e. beyond
+/// 120 dB, which is rounding noise around PLF = 0) is an error.
 pub fn polarization_loss_db(
     tx: &Polarization,
     rx: &Polarization,
@@ -120,7 +121,8 @@ pub fn polarization_loss_db(
         });
     }
     let plf = polarization_loss_factor(tx, rx, orientation)?;
-    if plf <= 1e-30 {
+    // PLF below 1e-12 (> 120 dB) is rounding noise around exact cross-polarization
+    if plf <= 1e-12 {
         return Err(PolarizationError::CrossPolarized { plf });
     }
     // loss = -10 log10(PLF)
