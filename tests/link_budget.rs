@@ -145,7 +145,10 @@ fn hand_computed_budget() {
         ),
     ];
     for (what, got, want) in checks {
-        assert!((got - want).abs() <= 1e-9 * want.abs().max(1.0), "{what}: {got} vs {want}");
+        assert!(
+            (got - want).abs() <= 1e-9 * want.abs().max(1.0),
+            "{what}: {got} vs {want}"
+        );
     }
     assert!(v.galactic_extrapolated && !v.pattern_clamped && !v.below_horizon);
     // Shannon capacity exceeds the rate whenever the margin is positive
@@ -157,8 +160,12 @@ fn hand_computed_budget() {
 #[test]
 fn doubling_the_rate_costs_3_0103_db() {
     let m = LinkModel::new(&spec()).unwrap();
-    let a = m.evaluate(GEOM, ATM, m.rate_spec(1e6, op("qpsk"), 0.35, 1.0).unwrap()).unwrap();
-    let b = m.evaluate(GEOM, ATM, m.rate_spec(2e6, op("qpsk"), 0.35, 1.0).unwrap()).unwrap();
+    let a = m
+        .evaluate(GEOM, ATM, m.rate_spec(1e6, op("qpsk"), 0.35, 1.0).unwrap())
+        .unwrap();
+    let b = m
+        .evaluate(GEOM, ATM, m.rate_spec(2e6, op("qpsk"), 0.35, 1.0).unwrap())
+        .unwrap();
     assert!((a.ebn0_db - b.ebn0_db - 3.0103).abs() < 1e-4);
     assert!((a.esn0_db - b.esn0_db - 3.0103).abs() < 1e-4);
     assert!((a.margin_db - b.margin_db - 3.0103).abs() < 1e-4);
@@ -189,9 +196,21 @@ fn antenna_temperature_rises_as_elevation_falls_and_in_rain() {
     // above that Ta is flat (constant spillover) and must not fall.
     let mut prev: Option<BudgetValues> = None;
     for el in [90.0, 45.0, 20.0, 10.0, 5.0, 2.0, 1.0, 0.5, 0.2, 0.0] {
-        let v = m.evaluate(BudgetGeometry { elevation_deg: el, ..GEOM }, ATM, r).unwrap();
+        let v = m
+            .evaluate(
+                BudgetGeometry {
+                    elevation_deg: el,
+                    ..GEOM
+                },
+                ATM,
+                r,
+            )
+            .unwrap();
         if let Some(p) = prev {
-            assert!(v.antenna_temperature_k >= p.antenna_temperature_k, "el {el}");
+            assert!(
+                v.antenna_temperature_k >= p.antenna_temperature_k,
+                "el {el}"
+            );
             if el <= 1.0 {
                 assert!(v.antenna_temperature_k > p.antenna_temperature_k, "el {el}");
                 assert!(v.g_over_t_db_k < p.g_over_t_db_k);
@@ -209,7 +228,16 @@ fn antenna_temperature_rises_as_elevation_falls_and_in_rain() {
             absorptive_db: a,
             mean_radiating_temperature_k: 275.0,
         };
-        let v = m.evaluate(BudgetGeometry { elevation_deg: el, ..GEOM }, atm, r).unwrap();
+        let v = m
+            .evaluate(
+                BudgetGeometry {
+                    elevation_deg: el,
+                    ..GEOM
+                },
+                atm,
+                r,
+            )
+            .unwrap();
         assert!(v.antenna_temperature_k > prev_t, "el {el}");
         prev_t = v.antenna_temperature_k;
     }
@@ -224,7 +252,16 @@ fn antenna_temperature_rises_as_elevation_falls_and_in_rain() {
     assert!(wet.antenna_temperature_k > clear.antenna_temperature_k);
     // rain costs more than its attenuation: the noise rises too (common practice)
     assert!(clear.cn0_dbhz - wet.cn0_dbhz > 3.0);
-    let below = m.evaluate(BudgetGeometry { elevation_deg: -1.0, ..GEOM }, ATM, r).unwrap();
+    let below = m
+        .evaluate(
+            BudgetGeometry {
+                elevation_deg: -1.0,
+                ..GEOM
+            },
+            ATM,
+            r,
+        )
+        .unwrap();
     assert!(below.below_horizon);
 }
 
@@ -248,13 +285,22 @@ fn typed_errors_carry_the_offending_value() {
     ));
     let mut s = spec();
     s.frequency_hz = -1.0;
-    assert!(matches!(LinkModel::new(&s), Err(BudgetError::Frequency { .. })));
+    assert!(matches!(
+        LinkModel::new(&s),
+        Err(BudgetError::Frequency { .. })
+    ));
     let mut s = spec();
     s.max_occupied_bandwidth_hz = Some(0.0);
-    assert!(matches!(LinkModel::new(&s), Err(BudgetError::MaxBandwidth { .. })));
+    assert!(matches!(
+        LinkModel::new(&s),
+        Err(BudgetError::MaxBandwidth { .. })
+    ));
     let mut s = spec();
     s.ground_pickup.spillover_fraction = -0.1;
-    assert!(matches!(LinkModel::new(&s), Err(BudgetError::Noise(NoiseError::Spillover { .. }))));
+    assert!(matches!(
+        LinkModel::new(&s),
+        Err(BudgetError::Noise(NoiseError::Spillover { .. }))
+    ));
 
     let m = LinkModel::new(&spec()).unwrap();
     // 20 Mbit/s QPSK uncoded: Rs 10 Mbaud * 1.35 = 13.5 MHz fits; 40 Mbit/s does not
@@ -273,21 +319,61 @@ fn typed_errors_carry_the_offending_value() {
     }
     // a RateSpec made without the model is still checked at evaluate
     let loose = RateSpec::new(40e6, op("qpsk"), 0.35, 0.0).unwrap();
-    assert!(matches!(m.evaluate(GEOM, ATM, loose), Err(BudgetError::RateExceedsBandwidth { .. })));
-    assert!(matches!(RateSpec::new(0.0, op("qpsk"), 0.35, 0.0), Err(BudgetError::Rate { .. })));
-    assert!(matches!(RateSpec::new(1e6, op("qpsk"), 1.5, 0.0), Err(BudgetError::RollOff { value }) if value == 1.5));
-    assert!(matches!(RateSpec::new(1e6, op("qpsk"), 0.35, -1.0), Err(BudgetError::ImplementationLoss { .. })));
+    assert!(matches!(
+        m.evaluate(GEOM, ATM, loose),
+        Err(BudgetError::RateExceedsBandwidth { .. })
+    ));
+    assert!(matches!(
+        RateSpec::new(0.0, op("qpsk"), 0.35, 0.0),
+        Err(BudgetError::Rate { .. })
+    ));
+    assert!(
+        matches!(RateSpec::new(1e6, op("qpsk"), 1.5, 0.0), Err(BudgetError::RollOff { value }) if value == 1.5)
+    );
+    assert!(matches!(
+        RateSpec::new(1e6, op("qpsk"), 0.35, -1.0),
+        Err(BudgetError::ImplementationLoss { .. })
+    ));
     let r = m.rate_spec(1e6, op("qpsk"), 0.35, 0.0).unwrap();
-    let g = BudgetGeometry { range_km: -5.0, ..GEOM };
-    assert!(matches!(m.evaluate(g, ATM, r), Err(BudgetError::Range { range_km }) if range_km == -5.0));
-    let g = BudgetGeometry { elevation_deg: 91.0, ..GEOM };
-    assert!(matches!(m.evaluate(g, ATM, r), Err(BudgetError::Elevation { .. })));
-    let g = BudgetGeometry { off_nadir_deg: 95.0, ..GEOM };
-    assert!(matches!(m.evaluate(g, ATM, r), Err(BudgetError::Antenna(AntennaError::OffNadir { .. }))));
-    let a = AtmosphereLoss { absorptive_db: -0.1, ..ATM };
-    assert!(matches!(m.evaluate(GEOM, a, r), Err(BudgetError::Atmosphere { .. })));
-    let a = AtmosphereLoss { mean_radiating_temperature_k: f64::NAN, ..ATM };
-    assert!(matches!(m.evaluate(GEOM, a, r), Err(BudgetError::MeanRadiatingTemperature { .. })));
+    let g = BudgetGeometry {
+        range_km: -5.0,
+        ..GEOM
+    };
+    assert!(
+        matches!(m.evaluate(g, ATM, r), Err(BudgetError::Range { range_km }) if range_km == -5.0)
+    );
+    let g = BudgetGeometry {
+        elevation_deg: 91.0,
+        ..GEOM
+    };
+    assert!(matches!(
+        m.evaluate(g, ATM, r),
+        Err(BudgetError::Elevation { .. })
+    ));
+    let g = BudgetGeometry {
+        off_nadir_deg: 95.0,
+        ..GEOM
+    };
+    assert!(matches!(
+        m.evaluate(g, ATM, r),
+        Err(BudgetError::Antenna(AntennaError::OffNadir { .. }))
+    ));
+    let a = AtmosphereLoss {
+        absorptive_db: -0.1,
+        ..ATM
+    };
+    assert!(matches!(
+        m.evaluate(GEOM, a, r),
+        Err(BudgetError::Atmosphere { .. })
+    ));
+    let a = AtmosphereLoss {
+        mean_radiating_temperature_k: f64::NAN,
+        ..ATM
+    };
+    assert!(matches!(
+        m.evaluate(GEOM, a, r),
+        Err(BudgetError::MeanRadiatingTemperature { .. })
+    ));
 }
 
 #[test]
@@ -301,7 +387,10 @@ fn itemized_budget_agrees_with_values() {
     assert_eq!(get("cn0"), v.cn0_dbhz);
     assert_eq!(get("required_error_rate"), 1e-6);
     // the printed losses sum: EIRP + losses (negative) + G/T - k = C/N0
-    let sum = get("eirp") + get("free_space_loss") + get("atmospheric_loss") + get("polarization_loss")
+    let sum = get("eirp")
+        + get("free_space_loss")
+        + get("atmospheric_loss")
+        + get("polarization_loss")
         + get("pointing_loss")
         + get("g_over_t")
         - get("boltzmann");

@@ -13,14 +13,21 @@ fn free_space_loss_textbook_values() {
     let l = free_space_loss_db(1000.0, 8.2e9).unwrap();
     assert!((l - 170.7).abs() < REF_DB + 0.03, "{l}");
     // textbook engineering form (common practice): L = 32.45 + 20 log10(d_km) + 20 log10(f_MHz)
-    for (d, f) in [(1000.0, 8.2e9), (2500.0, 2.25e9), (35786.0, 4e9), (500.0, 26e9)] {
+    for (d, f) in [
+        (1000.0, 8.2e9),
+        (2500.0, 2.25e9),
+        (35786.0, 4e9),
+        (500.0, 26e9),
+    ] {
         let textbook = 32.45 + 20.0 * f64::log10(d) + 20.0 * f64::log10(f / 1e6);
         assert!((free_space_loss_db(d, f).unwrap() - textbook).abs() < REF_DB);
     }
     // 6.02 dB per doubling of range
     let d2 = free_space_loss_db(2000.0, 8.2e9).unwrap() - l;
     assert!((d2 - 20.0 * 2f64.log10()).abs() < IDENTITY_DB);
-    assert!(matches!(free_space_loss_db(-1.0, 8e9), Err(PathError::Range { range_km }) if range_km == -1.0));
+    assert!(
+        matches!(free_space_loss_db(-1.0, 8e9), Err(PathError::Range { range_km }) if range_km == -1.0)
+    );
     assert!(free_space_loss_db(1.0, 0.0).is_err());
 }
 
@@ -68,8 +75,14 @@ fn cos_n_exponent_from_directivity() {
     // EIRP = 10 log10(2) - 1 + G
     let (eirp, _) = tx.eirp_dbw(0.0).unwrap();
     assert!((eirp - (10.0 * 2f64.log10() - 1.0 + 10.0)).abs() < 1e-12);
-    assert!(matches!(tx.gain_dbi(90.0), Err(AntennaError::OffNadir { .. })));
-    assert!(matches!(cos_exponent_from_gain(2.0), Err(AntennaError::CosGainTooLow { .. })));
+    assert!(matches!(
+        tx.gain_dbi(90.0),
+        Err(AntennaError::OffNadir { .. })
+    ));
+    assert!(matches!(
+        cos_exponent_from_gain(2.0),
+        Err(AntennaError::CosGainTooLow { .. })
+    ));
 }
 
 #[test]
@@ -107,13 +120,24 @@ fn dish_gain_beamwidth_pointing() {
     let d = 3.7;
     let area = std::f64::consts::PI * d * d / 4.0;
     let g = dish_gain_dbi(d, 0.6, f).unwrap();
-    assert!((g - 10.0 * (4.0 * std::f64::consts::PI * 0.6 * area / (lambda * lambda)).log10()).abs() < 1e-9);
+    assert!(
+        (g - 10.0 * (4.0 * std::f64::consts::PI * 0.6 * area / (lambda * lambda)).log10()).abs()
+            < 1e-9
+    );
     assert!((dish_beamwidth_deg(d, f).unwrap() - 70.0 * lambda / d).abs() < 1e-12);
     // pointing error of half the beamwidth -> 3 dB (the -3 dB point; common practice)
     assert!((pointing_loss_db(0.35, 0.7).unwrap() - 3.0).abs() < 1e-12);
-    assert!(matches!(dish_gain_dbi(d, 1.2, f), Err(AntennaError::Efficiency { value }) if value == 1.2));
-    assert!(matches!(dish_gain_dbi(d, 0.0, f), Err(AntennaError::Efficiency { .. })));
-    assert!(matches!(pointing_loss_db(-0.1, 0.7), Err(AntennaError::PointingError { .. })));
+    assert!(
+        matches!(dish_gain_dbi(d, 1.2, f), Err(AntennaError::Efficiency { value }) if value == 1.2)
+    );
+    assert!(matches!(
+        dish_gain_dbi(d, 0.0, f),
+        Err(AntennaError::Efficiency { .. })
+    ));
+    assert!(matches!(
+        pointing_loss_db(-0.1, 0.7),
+        Err(AntennaError::PointingError { .. })
+    ));
 }
 
 fn pol(sense: PolarizationSense, ar: f64) -> Polarization {
@@ -128,14 +152,25 @@ fn polarization_loss_limiting_cases() {
     use PolarizationSense::*;
     let w = EllipseOrientation::WorstCase;
     // identical circular -> 0 dB
-    assert!(polarization_loss_db(&pol(Rhcp, 0.0), &pol(Rhcp, 0.0), w, 0.0).unwrap().abs() < 1e-12);
+    assert!(
+        polarization_loss_db(&pol(Rhcp, 0.0), &pol(Rhcp, 0.0), w, 0.0)
+            .unwrap()
+            .abs()
+            < 1e-12
+    );
     // orthogonal circular: exact -> error, imperfect (1 dB AR each) -> large
     assert!(matches!(
         polarization_loss_db(&pol(Rhcp, 0.0), &pol(Lhcp, 0.0), w, 0.0),
         Err(PolarizationError::CrossPolarized { .. })
     ));
     // opposite senses, equal 1 dB axial ratios, major axes aligned: large (18.8 dB) but finite
-    let l = polarization_loss_db(&pol(Rhcp, 1.0), &pol(Lhcp, 1.0), EllipseOrientation::BestCase, 0.0).unwrap();
+    let l = polarization_loss_db(
+        &pol(Rhcp, 1.0),
+        &pol(Lhcp, 1.0),
+        EllipseOrientation::BestCase,
+        0.0,
+    )
+    .unwrap();
     assert!(l > 15.0 && l.is_finite(), "{l}");
     // ... with crossed major axes they are exactly the orthogonal polarization of each other
     assert!(matches!(
@@ -143,14 +178,29 @@ fn polarization_loss_limiting_cases() {
         Err(PolarizationError::CrossPolarized { .. })
     ));
     // circular vs linear -> 3.01 dB (any orientation)
-    for o in [w, EllipseOrientation::BestCase, EllipseOrientation::TiltDifferenceDeg(17.0)] {
+    for o in [
+        w,
+        EllipseOrientation::BestCase,
+        EllipseOrientation::TiltDifferenceDeg(17.0),
+    ] {
         let l = polarization_loss_db(&pol(Lhcp, 0.0), &pol(Linear, 0.0), o, 0.0).unwrap();
         assert!((l - 3.0103).abs() < 1e-4, "{l}");
     }
     // linear vs linear: cos^2(dtau) (Malus): 45 deg -> 3.01 dB, 60 deg -> 6.02 dB
-    let l45 = polarization_loss_db(&pol(Linear, 0.0), &pol(Linear, 0.0), EllipseOrientation::TiltDifferenceDeg(45.0), 0.0).unwrap();
+    let l45 = polarization_loss_db(
+        &pol(Linear, 0.0),
+        &pol(Linear, 0.0),
+        EllipseOrientation::TiltDifferenceDeg(45.0),
+        0.0,
+    )
+    .unwrap();
     assert!((l45 - 3.0103).abs() < 1e-4);
-    let l60 = polarization_loss_factor(&pol(Linear, 0.0), &pol(Linear, 0.0), EllipseOrientation::TiltDifferenceDeg(60.0)).unwrap();
+    let l60 = polarization_loss_factor(
+        &pol(Linear, 0.0),
+        &pol(Linear, 0.0),
+        EllipseOrientation::TiltDifferenceDeg(60.0),
+    )
+    .unwrap();
     assert!((l60 - 0.25).abs() < 1e-12);
     // pure CP wave on a CP antenna of axial ratio r (common practice): PLF = (1 + r)^2 / (2 (1 + r^2));
     // AR 3 dB -> 0.125 dB; does not depend on orientation
@@ -163,7 +213,13 @@ fn polarization_loss_limiting_cases() {
     assert!((want - 0.125).abs() < 0.005);
     // worst case >= best case for two elliptical antennas; extra loss adds
     let worst = polarization_loss_db(&pol(Rhcp, 2.0), &pol(Rhcp, 3.0), w, 0.3).unwrap();
-    let best = polarization_loss_db(&pol(Rhcp, 2.0), &pol(Rhcp, 3.0), EllipseOrientation::BestCase, 0.3).unwrap();
+    let best = polarization_loss_db(
+        &pol(Rhcp, 2.0),
+        &pol(Rhcp, 3.0),
+        EllipseOrientation::BestCase,
+        0.3,
+    )
+    .unwrap();
     assert!(worst > best && best > 0.3);
     assert!(polarization_loss_db(&pol(Rhcp, -1.0), &pol(Rhcp, 0.0), w, 0.0).is_err());
     assert!(polarization_loss_db(&pol(Rhcp, 0.0), &pol(Rhcp, 0.0), w, -0.1).is_err());

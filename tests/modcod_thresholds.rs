@@ -4,8 +4,8 @@ mod common;
 use common::tolerance::*;
 use passbudget::link::capacity::{bi_awgn_limit_ebn0_db, shannon_limit_ebn0_db};
 use passbudget::link::modcod::{
-    scheme, scheme_index, schemes, uncoded_psk_required_ebn0_db, ErrorMeasure, ModcodError, Modulation,
-    Provenance, TargetMatch,
+    scheme, scheme_index, schemes, uncoded_psk_required_ebn0_db, ErrorMeasure, ModcodError,
+    Modulation, Provenance, TargetMatch,
 };
 use passbudget::link::special::{erfc, q_function};
 
@@ -22,7 +22,10 @@ fn erfc_matches_scipy() {
         let x = row[0].as_f64().unwrap();
         let want = row[1].as_f64().unwrap();
         let got = erfc(x);
-        assert!(((got - want) / want).abs() < SCIPY_REL, "erfc({x}) = {got}, scipy {want}");
+        assert!(
+            ((got - want) / want).abs() < SCIPY_REL,
+            "erfc({x}) = {got}, scipy {want}"
+        );
     }
 }
 
@@ -30,7 +33,11 @@ fn erfc_matches_scipy() {
 fn bpsk_ber_1e5_needs_9_6_db() {
     // Roddy, Satellite Communications, 4th ed., p. 353: BER 1e-5 at ~9.6 dB (REFERENCES §2).
     let op = scheme("bpsk").unwrap().operating_point(Some(1e-5)).unwrap();
-    assert!((op.required_ebn0_db - 9.6).abs() < REF_DB, "{}", op.required_ebn0_db);
+    assert!(
+        (op.required_ebn0_db - 9.6).abs() < REF_DB,
+        "{}",
+        op.required_ebn0_db
+    );
     // and the exact values from scipy 1.17.1 norm.isf (tests/data/link/scipy_special.json)
     let d = load("scipy_special.json");
     for row in d["bpsk_required_ebn0_db"].as_array().unwrap() {
@@ -69,9 +76,16 @@ fn dvbs2_table13_thresholds_and_efficiencies() {
         let eta = row[1].as_f64().unwrap();
         let esn0 = row[2].as_f64().unwrap();
         let s = scheme(name).unwrap();
-        assert!((s.spectral_efficiency - eta).abs() < ETA_ABS, "{name}: eta {}", s.spectral_efficiency);
+        assert!(
+            (s.spectral_efficiency - eta).abs() < ETA_ABS,
+            "{name}: eta {}",
+            s.spectral_efficiency
+        );
         let op = s.operating_point(None).unwrap();
-        assert!((op.required_esn0_db - esn0).abs() < TABLE13_ESN0_DB, "{name}");
+        assert!(
+            (op.required_esn0_db - esn0).abs() < TABLE13_ESN0_DB,
+            "{name}"
+        );
         // Eb/N0 = Es/N0 - 10 log10(eta)
         assert!((op.required_ebn0_db - (esn0 - 10.0 * eta.log10())).abs() < TABLE13_ESN0_DB + 1e-6);
         assert_eq!(op.measure, ErrorMeasure::Per);
@@ -81,7 +95,10 @@ fn dvbs2_table13_thresholds_and_efficiencies() {
         assert!(op.shannon_gap_db > 0.0, "{name}");
         // QPSK MODCODs: above the BI-AWGN limit of rate eta/2 per dimension (REFERENCES §2 method)
         if s.modulation == Modulation::Qpsk {
-            assert!(op.required_ebn0_db > bi_awgn_limit_ebn0_db(eta / 2.0).unwrap(), "{name}");
+            assert!(
+                op.required_ebn0_db > bi_awgn_limit_ebn0_db(eta / 2.0).unwrap(),
+                "{name}"
+            );
         }
     }
 }
@@ -137,9 +154,16 @@ fn every_coded_ccsds_threshold_exceeds_its_bi_awgn_bound() {
             }
         }
         // and every CCSDS value is tagged as recalled, not published
-        assert!(matches!(s.provenance(), Provenance::FromMemory(_)), "{}", s.name);
+        assert!(
+            matches!(s.provenance(), Provenance::FromMemory(_)),
+            "{}",
+            s.name
+        );
     }
-    assert!(checked >= 15, "only {checked} checked against listed bounds");
+    assert!(
+        checked >= 15,
+        "only {checked} checked against listed bounds"
+    );
 }
 
 #[test]
@@ -161,17 +185,32 @@ fn ccsds_thresholds_within_plausibility_bands() {
     for &(name, rate, db) in bands {
         let op = scheme(name).unwrap().operating_point(Some(rate)).unwrap();
         assert_eq!(op.target_match, TargetMatch::Exact);
-        assert!((op.required_ebn0_db - db).abs() <= FROM_MEMORY_BAND_DB, "{name}");
+        assert!(
+            (op.required_ebn0_db - db).abs() <= FROM_MEMORY_BAND_DB,
+            "{name}"
+        );
     }
     // CCSDS 130.1-G-1 §4.6 (text): "gap of about 2.4 dB between ... rate 1/2 and ... rate 7/8"
-    let r12 = scheme("ccsds-cc-r1/2").unwrap().operating_point(Some(1e-5)).unwrap();
-    let r78 = scheme("ccsds-cc-r7/8").unwrap().operating_point(Some(1e-5)).unwrap();
+    let r12 = scheme("ccsds-cc-r1/2")
+        .unwrap()
+        .operating_point(Some(1e-5))
+        .unwrap();
+    let r78 = scheme("ccsds-cc-r7/8")
+        .unwrap()
+        .operating_point(Some(1e-5))
+        .unwrap();
     assert!((r78.required_ebn0_db - r12.required_ebn0_db - 2.4).abs() < 0.2);
 }
 
 #[test]
 fn coding_gain_orderings_hold() {
-    let at = |n: &str| scheme(n).unwrap().operating_point(None).unwrap().required_ebn0_db;
+    let at = |n: &str| {
+        scheme(n)
+            .unwrap()
+            .operating_point(None)
+            .unwrap()
+            .required_ebn0_db
+    };
     // every coded scheme beats uncoded BPSK at the same error rate
     for s in schemes().iter().filter(|s| s.name.starts_with("ccsds-")) {
         let op = s.operating_point(None).unwrap();

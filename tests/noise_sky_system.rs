@@ -8,13 +8,21 @@ use passbudget::noise::system::*;
 #[test]
 fn p618_sky_temperature_check_values() {
     // ITU-R P.618-14 §3 eq. (69), Tmr = 275 K, background 2.7 K; REFERENCES §4d [COMP]
-    for (a_db, want) in [(0.0, 2.7), (1.0, 58.7044), (3.0, 138.5267), (10.0, 247.7700)] {
+    for (a_db, want) in [
+        (0.0, 2.7),
+        (1.0, 58.7044),
+        (3.0, 138.5267),
+        (10.0, 247.7700),
+    ] {
         let t = sky_temperature_p618_k(a_db, 275.0, 2.7).unwrap();
         assert!((t - want).abs() < CHECK_4DP, "A={a_db}: {t}");
     }
     // eq. (70): Ts = 288.15 K -> Tmr = 270.7415 K
     assert!((mean_radiating_temperature_p618_k(288.15).unwrap() - 270.7415).abs() < CHECK_4DP);
-    assert!(matches!(sky_temperature_p618_k(-1.0, 275.0, 2.7), Err(SkyError::Attenuation { .. })));
+    assert!(matches!(
+        sky_temperature_p618_k(-1.0, 275.0, 2.7),
+        Err(SkyError::Attenuation { .. })
+    ));
 }
 
 #[test]
@@ -47,14 +55,17 @@ fn friis_cascade_first_principles() {
     .unwrap();
     assert!((rx.temperature_k() - want).abs() < 1e-9);
     assert!((rx.temperature_k() - 93.21).abs() < 0.01); // hand arithmetic
-    // a passive attenuator at T0 has noise figure equal to its loss (IEEE Std 145 definition of F)
+                                                        // a passive attenuator at T0 has noise figure equal to its loss (IEEE Std 145 definition of F)
     let t = friis_cascade_k(&[Stage::passive_loss(3.0, 290.0)]);
     assert!((passbudget::units::temperature_k_to_noise_figure_db(t) - 3.0).abs() < 1e-12);
     // two-stage textbook form F = F1 + (F2 - 1)/G1 (Friis 1944), NF 2 dB / 20 dB then NF 10 dB
     let f1 = 10f64.powf(0.2);
     let f2 = 10f64.powf(1.0);
     let f = f1 + (f2 - 1.0) / 100.0;
-    let t2 = friis_cascade_k(&[Stage::from_noise_figure(2.0, 20.0), Stage::from_noise_figure(10.0, 0.0)]);
+    let t2 = friis_cascade_k(&[
+        Stage::from_noise_figure(2.0, 20.0),
+        Stage::from_noise_figure(10.0, 0.0),
+    ]);
     assert!((t2 - 290.0 * (f - 1.0)).abs() < 1e-9);
     let bad = Receiver::new(&ReceiverSpec {
         feed_loss_db: -0.5,
@@ -108,5 +119,8 @@ fn antenna_temperature_rises_at_low_elevation_and_in_rain() {
         spillover_fraction: 1.5,
         ground_temperature_k: 290.0,
     };
-    assert!(matches!(antenna_temperature_k(10.0, 45.0, bw, &bad), Err(NoiseError::Spillover { .. })));
+    assert!(matches!(
+        antenna_temperature_k(10.0, 45.0, bw, &bad),
+        Err(NoiseError::Spillover { .. })
+    ));
 }

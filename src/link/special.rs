@@ -25,8 +25,11 @@ pub fn erfc(x: f64) -> f64 {
     }
     if x < 2.5 {
         1.0 - erf_series(x)
-    } else {
+    } else if x < 27.3 {
         erfc_continued_fraction(x)
+    } else {
+        // erfc(27.3) ~ 1e-325: below the smallest f64 subnormal
+        0.0
     }
 }
 
@@ -83,7 +86,7 @@ fn erfc_continued_fraction(x: f64) -> f64 {
         }
         let delta = c * d;
         f *= delta;
-        if (delta - 1.0).abs() < 1e-16 {
+        if (delta - 1.0).abs() < 4.0 * f64::EPSILON {
             break;
         }
     }
