@@ -180,6 +180,8 @@ impl RateSpec {
 /// Every number of the budget at one instant. Copy, no allocation.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct BudgetValues {
+    /// Spacecraft antenna gain toward the station, dBi.
+    pub spacecraft_gain_dbi: f64,
     pub eirp_dbw: f64,
     pub free_space_loss_db: f64,
     pub atmospheric_loss_db: f64,
@@ -392,6 +394,7 @@ impl LinkModel {
         let snr = db_to_ratio(cn0_dbhz) / occupied_bandwidth_hz;
         let shannon_capacity_bps = shannon_capacity_unchecked(occupied_bandwidth_hz, snr);
         Ok(BudgetValues {
+            spacecraft_gain_dbi: tx_gain.gain_dbi,
             eirp_dbw,
             free_space_loss_db,
             atmospheric_loss_db: total_db,
@@ -427,7 +430,6 @@ impl LinkModel {
     ) -> Result<Vec<BudgetItem>, BudgetError> {
         let v = self.evaluate(geometry, atmosphere, rate)?;
         let tx = &self.transmitter;
-        let tx_gain = tx.gain_dbi(geometry.off_nadir_deg)?.gain_dbi;
         let op = rate.operating;
         let item = |name, value, unit, source| BudgetItem {
             name,
@@ -441,7 +443,7 @@ impl LinkModel {
             item("transmitter_line_loss", -tx.line_loss_db(), "dB", "input"),
             item(
                 "spacecraft_antenna_gain",
-                tx_gain,
+                v.spacecraft_gain_dbi,
                 "dBi",
                 "spacecraft pattern",
             ),
