@@ -9,7 +9,10 @@
 //! Source: J. S. Seybold, *Introduction to RF Propagation*, Wiley 2005, ch. 2
 //! (polarization coupling of elliptical polarizations; the same result appears in
 //! H. Mott, *Antennas for Radar and Communications: A Polarimetric Approach*,
-//! Wiley 1992). The code uses the inverse axial ratios rho = 1/r (|rho| <= 1, rho = 0
+//! Wiley 1992). The attribution (book and chapter) is from memory, not re-read;
+//! the formula itself is checked by its limiting cases below and by the
+//! independent special case PLF = (1 + r)^2 / (2 (1 + r^2)) for a pure circular
+//! wave on an antenna of axial ratio r (tests). The code uses the inverse axial ratios rho = 1/r (|rho| <= 1, rho = 0
 //! for linear), obtained by multiplying numerator and denominator by r_w^2 r_a^2:
 //!
 //!   PLF = 1/2 + [4 rho_w rho_a + (rho_w^2 - 1)(rho_a^2 - 1) cos(2 dtau)] / [2 (1 + rho_w^2)(1 + rho_a^2)]
