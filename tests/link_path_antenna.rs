@@ -224,3 +224,19 @@ fn polarization_loss_limiting_cases() {
     assert!(polarization_loss_db(&pol(Rhcp, -1.0), &pol(Rhcp, 0.0), w, 0.0).is_err());
     assert!(polarization_loss_db(&pol(Rhcp, 0.0), &pol(Rhcp, 0.0), w, -0.1).is_err());
 }
+
+mod properties {
+    use passbudget::link::path::free_space_loss_db;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(64))]
+        /// Loss grows with range and with frequency (DESIGN.md property list).
+        #[test]
+        fn loss_grows_with_range_and_frequency(d in 1.0f64..50_000.0, f in 1e8f64..4e10, k in 1.0001f64..10.0) {
+            let l = free_space_loss_db(d, f).unwrap();
+            prop_assert!(free_space_loss_db(d * k, f).unwrap() > l);
+            prop_assert!(free_space_loss_db(d, f * k).unwrap() > l);
+        }
+    }
+}
