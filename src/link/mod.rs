@@ -1,1 +1,15 @@
-//! link (filled in by its owner).
+//! Radio link: free-space loss ([`path`]), spacecraft and ground antennas
+//! ([`antenna`]), polarization mismatch ([`polarization`]), modulation and coding
+//! ([`modcod`]), channel capacity ([`capacity`]) and the prepared link budget
+//! ([`budget`]). Special functions (erfc, Q and inverses) live in [`special`].
+//!
+//! The budget takes atmospheric numbers as plain inputs
+//! ([`budget::AtmosphereLoss`]); it does not depend on the atmosphere module.
+
+pub mod antenna;
+pub mod budget;
+pub mod capacity;
+pub mod modcod;
+pub mod path;
+pub mod polarization;
+pub mod special;

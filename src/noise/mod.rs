@@ -1,1 +1,5 @@
-//! noise (filled in by its owner).
+//! Receiving-system noise: sky brightness temperature ([`sky`]) and antenna
+//! temperature, Friis receiver cascade and system noise temperature ([`system`]).
+
+pub mod sky;
+pub mod system;

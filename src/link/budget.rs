@@ -1,0 +1,567 @@
+//! The prepared link budget: build a [`LinkModel`] once (validated), then
+//! [`LinkModel::evaluate`] it at every instant of a pass (pure, no allocation).
+//!
+//! Budget chain (all dB quantities; Friis transmission equation in dB form):
+//!   EIRP     = P_tx - L_line + G_tx(off-nadir)
+//!   C/N0     = EIRP - L_fs - A_atm - L_pol - L_point + G/T - 10 log10(k)      [dBHz]
+//!   G/T      = G_rx - 10 log10(Tsys)   (reference point: antenna terminals, see noise::system)
+//!   Tsys     = T_antenna(Tsky, elevation) + T_receiver
+//!   Tsky     = Tmr (1 - 10^(-A_abs/10)) + Tbg 10^(-A_abs/10)                 (P.618-14 eq. 69)
+//!   Rs       = Rb / eta (eta = information bits per symbol);  B_occ = Rs (1 + roll-off)
+//!   Eb/N0    = C/N0 - 10 log10(Rb);  Es/N0 = C/N0 - 10 log10(Rs)
+//!   margin   = Eb/N0 - required Eb/N0 - implementation loss
+//!   Shannon  = B_occ log2(1 + C/(N0 B_occ))
+//! k = Boltzmann constant (exact, SI 2019, `crate::units`).
+
+use crate::link::antenna::{
+    AntennaError, GroundAntenna, GroundAntennaSpec, Transmitter, TransmitterSpec,
+};
+use crate::link::capacity::shannon_capacity_unchecked;
+use crate::link::modcod::OperatingPoint;
+use crate::link::path::{free_space_loss_constant_db, PathError};
+use crate::link::polarization::{
+    polarization_loss_db, EllipseOrientation, Polarization, PolarizationError,
+};
+use crate::noise::sky::{background_temperature_k, sky_temperature_unchecked, SkyError, SkyRange};
+use crate::noise::system::{
+    antenna_temperature_unchecked, check_pickup, GroundPickupSpec, NoiseError, Receiver,
+    ReceiverSpec,
+};
+use crate::units::{db_to_ratio, ratio_to_db, BOLTZMANN_DBW_PER_K_HZ};
+
+/// Errors of the link budget (each carries the offending value).
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum BudgetError {
+    #[error("frequency must be positive and finite, got {frequency_hz} Hz")]
+    Frequency { frequency_hz: f64 },
+    #[error(transparent)]
+    Antenna(#[from] AntennaError),
+    #[error(transparent)]
+    Polarization(#[from] PolarizationError),
+    #[error(transparent)]
+    Noise(#[from] NoiseError),
+    #[error(transparent)]
+    Sky(#[from] SkyError),
+    #[error(transparent)]
+    Path(#[from] PathError),
+    #[error("maximum occupied bandwidth must be positive and finite, got {value_hz} Hz")]
+    MaxBandwidth { value_hz: f64 },
+    #[error("data rate must be positive and finite, got {rate_bps} bit/s")]
+    Rate { rate_bps: f64 },
+    #[error("roll-off must be in [0, 1], got {value}")]
+    RollOff { value: f64 },
+    #[error("implementation loss must be >= 0 dB and finite, got {loss_db} dB")]
+    ImplementationLoss { loss_db: f64 },
+    #[error("rate {rate_bps} bit/s occupies {occupied_bandwidth_hz} Hz, more than the allowed {max_bandwidth_hz} Hz")]
+    RateExceedsBandwidth {
+        rate_bps: f64,
+        occupied_bandwidth_hz: f64,
+        max_bandwidth_hz: f64,
+    },
+    #[error("range must be positive and finite, got {range_km} km")]
+    Range { range_km: f64 },
+    #[error("elevation must be within [-90, 90] deg, got {elevation_deg} deg")]
+    Elevation { elevation_deg: f64 },
+    #[error("atmospheric loss must be >= 0 dB and finite, got total {total_db} dB, absorptive {absorptive_db} dB")]
+    Atmosphere { total_db: f64, absorptive_db: f64 },
+    #[error("mean radiating temperature must be >= 0 K and finite, got {value_k} K")]
+    MeanRadiatingTemperature { value_k: f64 },
+}
+
+/// Polarization of both ends plus a fixed extra loss (radome, other).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct PolarizationSpec {
+    pub spacecraft: Polarization,
+    pub ground: Polarization,
+    pub orientation: EllipseOrientation,
+    pub extra_loss_db: f64,
+}
+
+/// Everything the link model is built from.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LinkModelSpec {
+    pub frequency_hz: f64,
+    pub transmitter: TransmitterSpec,
+    pub ground_antenna: GroundAntennaSpec,
+    pub receiver: ReceiverSpec,
+    pub ground_pickup: GroundPickupSpec,
+    pub polarization: PolarizationSpec,
+    /// Largest occupied bandwidth Rs (1 + roll-off) allowed (e.g. the band allocation), Hz.
+    pub max_occupied_bandwidth_hz: Option<f64>,
+}
+
+/// Geometry at one instant.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct BudgetGeometry {
+    pub elevation_deg: f64,
+    pub range_km: f64,
+    /// Angle between the spacecraft antenna boresight (nadir) and the station direction.
+    pub off_nadir_deg: f64,
+}
+
+/// Atmospheric numbers at one instant (from the atmosphere models, as plain inputs).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct AtmosphereLoss {
+    /// Total attenuation on the path (gas + cloud + rain + scintillation), dB.
+    pub total_db: f64,
+    /// Absorptive part (excluding scintillation), dB: drives the sky noise.
+    pub absorptive_db: f64,
+    /// Mean radiating temperature, K (P.618-14 §3: 275 K without local data).
+    pub mean_radiating_temperature_k: f64,
+}
+
+impl AtmosphereLoss {
+    /// No atmosphere (vacuum): 0 dB, Tmr = 275 K (irrelevant at 0 dB).
+    pub const CLEAR_VACUUM: AtmosphereLoss = AtmosphereLoss {
+        total_db: 0.0,
+        absorptive_db: 0.0,
+        mean_radiating_temperature_k: 275.0,
+    };
+}
+
+/// A validated rate choice: data rate, scheme at its operating point, roll-off,
+/// implementation loss.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct RateSpec {
+    rate_bps: f64,
+    operating: OperatingPoint,
+    roll_off: f64,
+    implementation_loss_db: f64,
+}
+
+impl RateSpec {
+    pub fn new(
+        rate_bps: f64,
+        operating: OperatingPoint,
+        roll_off: f64,
+        implementation_loss_db: f64,
+    ) -> Result<Self, BudgetError> {
+        if !(rate_bps > 0.0 && rate_bps.is_finite()) {
+            return Err(BudgetError::Rate { rate_bps });
+        }
+        if !(0.0..=1.0).contains(&roll_off) {
+            return Err(BudgetError::RollOff { value: roll_off });
+        }
+        if !(implementation_loss_db >= 0.0 && implementation_loss_db.is_finite()) {
+            return Err(BudgetError::ImplementationLoss {
+                loss_db: implementation_loss_db,
+            });
+        }
+        Ok(Self {
+            rate_bps,
+            operating,
+            roll_off,
+            implementation_loss_db,
+        })
+    }
+
+    pub fn rate_bps(&self) -> f64 {
+        self.rate_bps
+    }
+    pub fn operating(&self) -> &OperatingPoint {
+        &self.operating
+    }
+    pub fn roll_off(&self) -> f64 {
+        self.roll_off
+    }
+    pub fn implementation_loss_db(&self) -> f64 {
+        self.implementation_loss_db
+    }
+    /// Symbol rate Rs = Rb / eta, baud.
+    pub fn symbol_rate_baud(&self) -> f64 {
+        self.rate_bps / self.operating.spectral_efficiency
+    }
+    /// Occupied bandwidth Rs (1 + roll-off), Hz.
+    pub fn occupied_bandwidth_hz(&self) -> f64 {
+        self.symbol_rate_baud() * (1.0 + self.roll_off)
+    }
+}
+
+/// Every number of the budget at one instant. Copy, no allocation.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct BudgetValues {
+    /// Spacecraft antenna gain toward the station, dBi.
+    pub spacecraft_gain_dbi: f64,
+    pub eirp_dbw: f64,
+    pub free_space_loss_db: f64,
+    pub atmospheric_loss_db: f64,
+    pub polarization_loss_db: f64,
+    pub pointing_loss_db: f64,
+    pub antenna_gain_dbi: f64,
+    pub sky_temperature_k: f64,
+    pub antenna_temperature_k: f64,
+    pub system_temperature_k: f64,
+    pub g_over_t_db_k: f64,
+    pub cn0_dbhz: f64,
+    pub rate_bps: f64,
+    pub symbol_rate_baud: f64,
+    pub occupied_bandwidth_hz: f64,
+    pub ebn0_db: f64,
+    pub esn0_db: f64,
+    pub required_ebn0_db: f64,
+    pub margin_db: f64,
+    pub shannon_capacity_bps: f64,
+    pub shannon_gap_db: f64,
+    /// The spacecraft pattern table was clamped at one of its ends.
+    pub pattern_clamped: bool,
+    /// The galactic background was extrapolated above its stated range (small term).
+    pub galactic_extrapolated: bool,
+    /// The station direction is below the geometric horizon (elevation < 0).
+    pub below_horizon: bool,
+}
+
+/// One line of the printed budget.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BudgetItem {
+    pub name: &'static str,
+    pub value: f64,
+    pub unit: &'static str,
+    pub source: &'static str,
+}
+
+/// A prepared, validated link: everything that does not change during a pass.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LinkModel {
+    frequency_hz: f64,
+    transmitter: Transmitter,
+    ground: GroundAntenna,
+    receiver: Receiver,
+    pickup: GroundPickupSpec,
+    polarization_loss_db: f64,
+    background_k: f64,
+    sky_range: SkyRange,
+    fsl_constant_db: f64,
+    max_occupied_bandwidth_hz: Option<f64>,
+}
+
+impl LinkModel {
+    /// Validate the spec and precompute the constant parts of the budget.
+    pub fn new(spec: &LinkModelSpec) -> Result<Self, BudgetError> {
+        let f = spec.frequency_hz;
+        if !(f > 0.0 && f.is_finite()) {
+            return Err(BudgetError::Frequency { frequency_hz: f });
+        }
+        let transmitter = Transmitter::new(&spec.transmitter)?;
+        let ground = GroundAntenna::new(&spec.ground_antenna, f)?;
+        let receiver = Receiver::new(&spec.receiver)?;
+        check_pickup(&spec.ground_pickup)?;
+        let p = &spec.polarization;
+        let polarization_loss_db =
+            polarization_loss_db(&p.spacecraft, &p.ground, p.orientation, p.extra_loss_db)?;
+        let (background_k, sky_range) = background_temperature_k(f)?;
+        if let Some(b) = spec.max_occupied_bandwidth_hz {
+            if !(b > 0.0 && b.is_finite()) {
+                return Err(BudgetError::MaxBandwidth { value_hz: b });
+            }
+        }
+        Ok(Self {
+            frequency_hz: f,
+            transmitter,
+            ground,
+            receiver,
+            pickup: spec.ground_pickup,
+            polarization_loss_db,
+            background_k,
+            sky_range,
+            fsl_constant_db: free_space_loss_constant_db(f),
+            max_occupied_bandwidth_hz: spec.max_occupied_bandwidth_hz,
+        })
+    }
+
+    pub fn frequency_hz(&self) -> f64 {
+        self.frequency_hz
+    }
+    pub fn transmitter(&self) -> &Transmitter {
+        &self.transmitter
+    }
+    pub fn ground_antenna(&self) -> &GroundAntenna {
+        &self.ground
+    }
+    pub fn receiver(&self) -> &Receiver {
+        &self.receiver
+    }
+    pub fn polarization_loss_db(&self) -> f64 {
+        self.polarization_loss_db
+    }
+    /// Background behind the atmosphere (CMB + galactic), K.
+    pub fn background_temperature_k(&self) -> f64 {
+        self.background_k
+    }
+    pub fn max_occupied_bandwidth_hz(&self) -> Option<f64> {
+        self.max_occupied_bandwidth_hz
+    }
+
+    /// A rate spec validated against this model's bandwidth limit.
+    pub fn rate_spec(
+        &self,
+        rate_bps: f64,
+        operating: OperatingPoint,
+        roll_off: f64,
+        implementation_loss_db: f64,
+    ) -> Result<RateSpec, BudgetError> {
+        let r = RateSpec::new(rate_bps, operating, roll_off, implementation_loss_db)?;
+        self.check_bandwidth(&r)?;
+        Ok(r)
+    }
+
+    fn check_bandwidth(&self, r: &RateSpec) -> Result<(), BudgetError> {
+        if let Some(max) = self.max_occupied_bandwidth_hz {
+            let occ = r.occupied_bandwidth_hz();
+            if occ > max {
+                return Err(BudgetError::RateExceedsBandwidth {
+                    rate_bps: r.rate_bps,
+                    occupied_bandwidth_hz: occ,
+                    max_bandwidth_hz: max,
+                });
+            }
+        }
+        Ok(())
+    }
+
+    /// The budget at one instant. Pure; allocates nothing.
+    pub fn evaluate(
+        &self,
+        geometry: BudgetGeometry,
+        atmosphere: AtmosphereLoss,
+        rate: RateSpec,
+    ) -> Result<BudgetValues, BudgetError> {
+        let BudgetGeometry {
+            elevation_deg,
+            range_km,
+            off_nadir_deg,
+        } = geometry;
+        if !(range_km > 0.0 && range_km.is_finite()) {
+            return Err(BudgetError::Range { range_km });
+        }
+        if !(-90.0..=90.0).contains(&elevation_deg) {
+            return Err(BudgetError::Elevation { elevation_deg });
+        }
+        let AtmosphereLoss {
+            total_db,
+            absorptive_db,
+            mean_radiating_temperature_k: tmr_k,
+        } = atmosphere;
+        if !(total_db >= 0.0
+            && total_db.is_finite()
+            && absorptive_db >= 0.0
+            && absorptive_db.is_finite())
+        {
+            return Err(BudgetError::Atmosphere {
+                total_db,
+                absorptive_db,
+            });
+        }
+        if !(tmr_k >= 0.0 && tmr_k.is_finite()) {
+            return Err(BudgetError::MeanRadiatingTemperature { value_k: tmr_k });
+        }
+        self.check_bandwidth(&rate)?;
+
+        // EIRP = P - L_line + G_tx(theta)
+        let (eirp_dbw, tx_gain) = self.transmitter.eirp_dbw(off_nadir_deg)?;
+        // L_fs = 20 log10(4 pi d / lambda)
+        let free_space_loss_db = self.fsl_constant_db + 20.0 * range_km.log10();
+        // Tsky (P.618-14 eq. 69), then antenna temperature (ground pick-up model)
+        let sky_temperature_k = sky_temperature_unchecked(absorptive_db, tmr_k, self.background_k);
+        let antenna_temperature_k = antenna_temperature_unchecked(
+            sky_temperature_k,
+            elevation_deg,
+            self.ground.beamwidth_deg,
+            &self.pickup,
+        );
+        // Tsys = Ta + T_rx (antenna terminals)
+        let system_temperature_k = antenna_temperature_k + self.receiver.temperature_k();
+        // G/T = G - 10 log10(Tsys)
+        let g_over_t_db_k = self.ground.gain_dbi - ratio_to_db(system_temperature_k);
+        // C/N0 = EIRP - L_fs - A - L_pol - L_point + G/T - 10 log10(k)
+        let cn0_dbhz = eirp_dbw
+            - free_space_loss_db
+            - total_db
+            - self.polarization_loss_db
+            - self.ground.pointing_loss_db
+            + g_over_t_db_k
+            - BOLTZMANN_DBW_PER_K_HZ;
+        let op = &rate.operating;
+        let rate_bps = rate.rate_bps;
+        // Rs = Rb / eta ; B = Rs (1 + alpha)
+        let symbol_rate_baud = rate.symbol_rate_baud();
+        let occupied_bandwidth_hz = symbol_rate_baud * (1.0 + rate.roll_off);
+        // Eb/N0 = C/N0 - 10 log10(Rb) ; Es/N0 = C/N0 - 10 log10(Rs)
+        let ebn0_db = cn0_dbhz - ratio_to_db(rate_bps);
+        let esn0_db = cn0_dbhz - ratio_to_db(symbol_rate_baud);
+        // margin = Eb/N0 - required - implementation loss
+        let margin_db = ebn0_db - op.required_ebn0_db - rate.implementation_loss_db;
+        // C = B log2(1 + C/(N0 B))
+        let snr = db_to_ratio(cn0_dbhz) / occupied_bandwidth_hz;
+        let shannon_capacity_bps = shannon_capacity_unchecked(occupied_bandwidth_hz, snr);
+        Ok(BudgetValues {
+            spacecraft_gain_dbi: tx_gain.gain_dbi,
+            eirp_dbw,
+            free_space_loss_db,
+            atmospheric_loss_db: total_db,
+            polarization_loss_db: self.polarization_loss_db,
+            pointing_loss_db: self.ground.pointing_loss_db,
+            antenna_gain_dbi: self.ground.gain_dbi,
+            sky_temperature_k,
+            antenna_temperature_k,
+            system_temperature_k,
+            g_over_t_db_k,
+            cn0_dbhz,
+            rate_bps,
+            symbol_rate_baud,
+            occupied_bandwidth_hz,
+            ebn0_db,
+            esn0_db,
+            required_ebn0_db: op.required_ebn0_db,
+            margin_db,
+            shannon_capacity_bps,
+            shannon_gap_db: op.shannon_gap_db,
+            pattern_clamped: tx_gain.clamped,
+            galactic_extrapolated: self.sky_range == SkyRange::GalacticExtrapolated,
+            below_horizon: elevation_deg < 0.0,
+        })
+    }
+
+    /// The itemized budget for printing (allocates).
+    pub fn itemize(
+        &self,
+        geometry: BudgetGeometry,
+        atmosphere: AtmosphereLoss,
+        rate: RateSpec,
+    ) -> Result<Vec<BudgetItem>, BudgetError> {
+        let v = self.evaluate(geometry, atmosphere, rate)?;
+        let tx = &self.transmitter;
+        let op = rate.operating;
+        let item = |name, value, unit, source| BudgetItem {
+            name,
+            value,
+            unit,
+            source,
+        };
+        Ok(vec![
+            item("frequency", self.frequency_hz, "Hz", "input"),
+            item("transmitter_power", tx.power_dbw(), "dBW", "input"),
+            item("transmitter_line_loss", -tx.line_loss_db(), "dB", "input"),
+            item(
+                "spacecraft_antenna_gain",
+                v.spacecraft_gain_dbi,
+                "dBi",
+                "spacecraft pattern",
+            ),
+            item("eirp", v.eirp_dbw, "dBW", "P - L_line + G_tx"),
+            item("elevation", geometry.elevation_deg, "deg", "geometry"),
+            item("range", geometry.range_km, "km", "geometry"),
+            item("off_nadir", geometry.off_nadir_deg, "deg", "geometry"),
+            item(
+                "free_space_loss",
+                -v.free_space_loss_db,
+                "dB",
+                "Friis: 20 log10(4 pi d / lambda)",
+            ),
+            item(
+                "atmospheric_loss",
+                -v.atmospheric_loss_db,
+                "dB",
+                "atmosphere input (total)",
+            ),
+            item(
+                "polarization_loss",
+                -v.polarization_loss_db,
+                "dB",
+                "polarization loss factor (Seybold 2005) + extra",
+            ),
+            item(
+                "pointing_loss",
+                -v.pointing_loss_db,
+                "dB",
+                "12 (err / theta_3dB)^2, common practice",
+            ),
+            item(
+                "ground_antenna_gain",
+                v.antenna_gain_dbi,
+                "dBi",
+                "eta (pi D / lambda)^2 or input",
+            ),
+            item(
+                "sky_temperature",
+                v.sky_temperature_k,
+                "K",
+                "ITU-R P.618-14 eq. (69)",
+            ),
+            item(
+                "antenna_temperature",
+                v.antenna_temperature_k,
+                "K",
+                "ground pick-up engineering model",
+            ),
+            item(
+                "receiver_temperature",
+                self.receiver.temperature_k(),
+                "K",
+                "Friis cascade at antenna terminals",
+            ),
+            item(
+                "system_temperature",
+                v.system_temperature_k,
+                "K",
+                "Ta + T_rx",
+            ),
+            item("g_over_t", v.g_over_t_db_k, "dB/K", "G - 10 log10(Tsys)"),
+            item(
+                "boltzmann",
+                BOLTZMANN_DBW_PER_K_HZ,
+                "dBW/K/Hz",
+                "SI 2019 exact k",
+            ),
+            item("cn0", v.cn0_dbhz, "dBHz", "EIRP - losses + G/T - k"),
+            item("data_rate", v.rate_bps, "bit/s", "input"),
+            item("symbol_rate", v.symbol_rate_baud, "baud", "Rb / eta"),
+            item(
+                "occupied_bandwidth",
+                v.occupied_bandwidth_hz,
+                "Hz",
+                "Rs (1 + roll-off)",
+            ),
+            item("ebn0", v.ebn0_db, "dB", "C/N0 - 10 log10(Rb)"),
+            item("esn0", v.esn0_db, "dB", "C/N0 - 10 log10(Rs)"),
+            item("required_ebn0", v.required_ebn0_db, "dB", op.name),
+            item(
+                "required_error_rate",
+                op.error_rate,
+                "",
+                provenance_text(&op),
+            ),
+            item(
+                "implementation_loss",
+                -rate.implementation_loss_db,
+                "dB",
+                "input",
+            ),
+            item(
+                "margin",
+                v.margin_db,
+                "dB",
+                "Eb/N0 - required - implementation loss",
+            ),
+            item(
+                "shannon_capacity",
+                v.shannon_capacity_bps,
+                "bit/s",
+                "Shannon 1948, B = occupied bandwidth",
+            ),
+            item(
+                "shannon_gap",
+                v.shannon_gap_db,
+                "dB",
+                "required Eb/N0 - (2^eta - 1)/eta",
+            ),
+        ])
+    }
+}
+
+fn provenance_text(op: &OperatingPoint) -> &'static str {
+    match op.provenance {
+        crate::link::modcod::Provenance::Computed(s)
+        | crate::link::modcod::Provenance::Published(s)
+        | crate::link::modcod::Provenance::FromMemory(s) => s,
+    }
+}

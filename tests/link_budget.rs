@@ -1,0 +1,418 @@
+//! The prepared link budget: hand-computed check, rate/elevation/rain behaviour,
+//! typed errors, and no allocation in `evaluate`.
+
+mod common;
+use common::tolerance::*;
+use passbudget::link::antenna::*;
+use passbudget::link::budget::*;
+use passbudget::link::modcod::{scheme, OperatingPoint};
+use passbudget::link::polarization::*;
+use passbudget::noise::system::*;
+use proptest::prelude::*;
+use std::alloc::{GlobalAlloc, Layout, System};
+use std::cell::Cell;
+
+// ---- allocation counter (per thread) to check that evaluate() allocates nothing ----
+struct Counting;
+thread_local! { static ALLOCS: Cell<usize> = const { Cell::new(0) }; }
+unsafe impl GlobalAlloc for Counting {
+    unsafe fn alloc(&self, l: Layout) -> *mut u8 {
+        let _ = ALLOCS.try_with(|c| c.set(c.get() + 1));
+        unsafe { System.alloc(l) }
+    }
+    unsafe fn dealloc(&self, p: *mut u8, l: Layout) {
+        unsafe { System.dealloc(p, l) }
+    }
+}
+#[global_allocator]
+static GLOBAL: Counting = Counting;
+
+/// Invented demo station and spacecraft (X band, 3.7 m dish).
+fn spec() -> LinkModelSpec {
+    LinkModelSpec {
+        frequency_hz: 8.2e9,
+        transmitter: TransmitterSpec {
+            power: TxPower::Watts(2.0),
+            line_loss_db: 1.0,
+            pattern: TxPattern::CosN {
+                boresight_gain_dbi: 6.0,
+                n: None,
+            },
+        },
+        ground_antenna: GroundAntennaSpec::Dish {
+            diameter_m: 3.7,
+            efficiency: 0.6,
+            pointing_error_deg: 0.05,
+        },
+        receiver: ReceiverSpec {
+            feed_loss_db: 0.3,
+            feed_temperature_k: 290.0,
+            lna_noise: LnaNoise::TemperatureK(60.0),
+            lna_gain_db: 30.0,
+            later_noise_figure_db: 6.0,
+        },
+        ground_pickup: GroundPickupSpec {
+            spillover_fraction: 0.05,
+            ground_temperature_k: 290.0,
+        },
+        polarization: PolarizationSpec {
+            spacecraft: Polarization {
+                sense: PolarizationSense::Rhcp,
+                axial_ratio_db: 2.0,
+            },
+            ground: Polarization {
+                sense: PolarizationSense::Rhcp,
+                axial_ratio_db: 1.0,
+            },
+            orientation: EllipseOrientation::WorstCase,
+            extra_loss_db: 0.2,
+        },
+        max_occupied_bandwidth_hz: Some(20e6),
+    }
+}
+
+fn op(name: &str) -> OperatingPoint {
+    scheme(name).unwrap().operating_point(None).unwrap()
+}
+
+const GEOM: BudgetGeometry = BudgetGeometry {
+    elevation_deg: 30.0,
+    range_km: 1200.0,
+    off_nadir_deg: 50.0,
+};
+const ATM: AtmosphereLoss = AtmosphereLoss {
+    total_db: 0.3,
+    absorptive_db: 0.25,
+    mean_radiating_temperature_k: 275.0,
+};
+
+#[test]
+fn hand_computed_budget() {
+    let m = LinkModel::new(&spec()).unwrap();
+    let r = m.rate_spec(2e6, op("ccsds-cc-r1/2"), 0.35, 1.5).unwrap();
+    let v = m.evaluate(GEOM, ATM, r).unwrap();
+    // Written out from first principles, independent of the library's helpers:
+    let c = 299_792_458.0;
+    let k = 1.380649e-23;
+    let lambda = c / 8.2e9;
+    let pi = std::f64::consts::PI;
+    let db = |x: f64| 10.0 * x.log10();
+    let n = 10f64.powf(0.6) / 2.0 - 1.0; // cos^n from D = 2(n+1)
+    let eirp = db(2.0) - 1.0 + 6.0 + 10.0 * n * (50f64.to_radians().cos()).log10();
+    let fsl = 20.0 * (4.0 * pi * 1200e3 / lambda).log10();
+    let g = db(0.6 * (pi * 3.7 / lambda).powi(2));
+    let bw = 70.0 * lambda / 3.7;
+    let point = 12.0 * (0.05 / bw).powi(2);
+    let rho_s = 10f64.powf(-2.0 / 20.0);
+    let rho_g = 10f64.powf(-1.0 / 20.0);
+    let plf = 0.5
+        + (4.0 * rho_s * rho_g - (rho_s * rho_s - 1.0) * (rho_g * rho_g - 1.0))
+            / (2.0 * (1.0 + rho_s * rho_s) * (1.0 + rho_g * rho_g));
+    let pol = -db(plf) + 0.2;
+    let tbg = 2.725 + 290.0 * 10f64.powf(5.2) * (8200f64).powf(-2.3);
+    let tr = 10f64.powf(-0.025);
+    let tsky = 275.0 * (1.0 - tr) + tbg * tr;
+    let sigma = bw / (8.0 * 2f64.ln()).sqrt();
+    let fb = 0.5 * passbudget::link::special::erfc(30.0 / (sigma * 2f64.sqrt()));
+    let ta = 0.95 * ((1.0 - fb) * tsky + fb * 290.0) + 0.05 * 290.0;
+    let l = 10f64.powf(0.03);
+    let trx = (l - 1.0) * 290.0 + l * 60.0 + l * 290.0 * (10f64.powf(0.6) - 1.0) / 1000.0;
+    let tsys = ta + trx;
+    let gt = g - db(tsys);
+    let cn0 = eirp - fsl - 0.3 - pol - point + gt - db(k);
+    let rs = 2e6 / 1.0; // QPSK rate 1/2: 1 info bit per symbol
+    let ebn0 = cn0 - db(2e6);
+    let checks = [
+        ("eirp", v.eirp_dbw, eirp),
+        ("fsl", v.free_space_loss_db, fsl),
+        ("gain", v.antenna_gain_dbi, g),
+        ("pointing", v.pointing_loss_db, point),
+        ("pol", v.polarization_loss_db, pol),
+        ("tsky", v.sky_temperature_k, tsky),
+        ("ta", v.antenna_temperature_k, ta),
+        ("tsys", v.system_temperature_k, tsys),
+        ("g/t", v.g_over_t_db_k, gt),
+        ("cn0", v.cn0_dbhz, cn0),
+        ("rs", v.symbol_rate_baud, rs),
+        ("bocc", v.occupied_bandwidth_hz, rs * 1.35),
+        ("ebn0", v.ebn0_db, ebn0),
+        ("esn0", v.esn0_db, cn0 - db(rs)),
+        ("margin", v.margin_db, ebn0 - 4.4 - 1.5),
+        (
+            "shannon",
+            v.shannon_capacity_bps,
+            rs * 1.35 * (1.0 + 10f64.powf(cn0 / 10.0) / (rs * 1.35)).log2(),
+        ),
+    ];
+    for (what, got, want) in checks {
+        assert!(
+            (got - want).abs() <= 1e-9 * want.abs().max(1.0),
+            "{what}: {got} vs {want}"
+        );
+    }
+    assert!(v.galactic_extrapolated && !v.pattern_clamped && !v.below_horizon);
+    // Shannon capacity exceeds the rate whenever the margin is positive
+    if v.margin_db > 0.0 {
+        assert!(v.shannon_capacity_bps > v.rate_bps);
+    }
+}
+
+#[test]
+fn doubling_the_rate_costs_3_0103_db() {
+    let m = LinkModel::new(&spec()).unwrap();
+    let a = m
+        .evaluate(GEOM, ATM, m.rate_spec(1e6, op("qpsk"), 0.35, 1.0).unwrap())
+        .unwrap();
+    let b = m
+        .evaluate(GEOM, ATM, m.rate_spec(2e6, op("qpsk"), 0.35, 1.0).unwrap())
+        .unwrap();
+    assert!((a.ebn0_db - b.ebn0_db - 3.0103).abs() < 1e-4);
+    assert!((a.esn0_db - b.esn0_db - 3.0103).abs() < 1e-4);
+    assert!((a.margin_db - b.margin_db - 3.0103).abs() < 1e-4);
+    assert_eq!(a.cn0_dbhz, b.cn0_dbhz);
+    assert!((b.occupied_bandwidth_hz - 2.0 * a.occupied_bandwidth_hz).abs() < 1e-6);
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(48))]
+    #[test]
+    fn margin_falls_with_rate(r1 in 1e3f64..3e6, factor in 1.001f64..4.0, el in 1.0f64..90.0) {
+        let m = LinkModel::new(&spec()).unwrap();
+        let g = BudgetGeometry { elevation_deg: el, ..GEOM };
+        let o = op("dvbs2-qpsk-1/2");
+        let a = m.evaluate(g, ATM, m.rate_spec(r1, o, 0.2, 0.5).unwrap()).unwrap();
+        let b = m.evaluate(g, ATM, m.rate_spec(r1 * factor, o, 0.2, 0.5).unwrap()).unwrap();
+        prop_assert!(b.margin_db < a.margin_db);
+        prop_assert!(a.antenna_temperature_k.is_finite() && a.margin_db.is_finite());
+    }
+}
+
+#[test]
+fn antenna_temperature_rises_as_elevation_falls_and_in_rain() {
+    let m = LinkModel::new(&spec()).unwrap();
+    let r = m.rate_spec(1e6, op("qpsk"), 0.35, 1.0).unwrap();
+    // Same atmosphere at every elevation: only the ground pick-up changes. For this
+    // 0.69 deg beam the main-beam term matters within ~2 beamwidths of the horizon;
+    // above that Ta is flat (constant spillover) and must not fall.
+    let mut prev: Option<BudgetValues> = None;
+    for el in [90.0, 45.0, 20.0, 10.0, 5.0, 2.0, 1.0, 0.5, 0.2, 0.0] {
+        let v = m
+            .evaluate(
+                BudgetGeometry {
+                    elevation_deg: el,
+                    ..GEOM
+                },
+                ATM,
+                r,
+            )
+            .unwrap();
+        if let Some(p) = prev {
+            assert!(
+                v.antenna_temperature_k >= p.antenna_temperature_k,
+                "el {el}"
+            );
+            if el <= 1.0 {
+                assert!(v.antenna_temperature_k > p.antenna_temperature_k, "el {el}");
+                assert!(v.g_over_t_db_k < p.g_over_t_db_k);
+            }
+        }
+        prev = Some(v);
+    }
+    // With the atmosphere growing as 1/sin(el) (flat-layer approximation, common
+    // practice), the antenna temperature rises strictly at every step.
+    let mut prev_t = 0.0;
+    for el in [90.0, 45.0, 20.0, 10.0, 5.0, 2.0, 1.0] {
+        let a = 0.06 / f64::sin(f64::to_radians(el));
+        let atm = AtmosphereLoss {
+            total_db: a,
+            absorptive_db: a,
+            mean_radiating_temperature_k: 275.0,
+        };
+        let v = m
+            .evaluate(
+                BudgetGeometry {
+                    elevation_deg: el,
+                    ..GEOM
+                },
+                atm,
+                r,
+            )
+            .unwrap();
+        assert!(v.antenna_temperature_k > prev_t, "el {el}");
+        prev_t = v.antenna_temperature_k;
+    }
+    let clear = m.evaluate(GEOM, ATM, r).unwrap();
+    let rain = AtmosphereLoss {
+        total_db: 3.3,
+        absorptive_db: 3.2,
+        mean_radiating_temperature_k: 275.0,
+    };
+    let wet = m.evaluate(GEOM, rain, r).unwrap();
+    assert!(wet.sky_temperature_k > clear.sky_temperature_k + 100.0);
+    assert!(wet.antenna_temperature_k > clear.antenna_temperature_k);
+    // rain costs more than its attenuation: the noise rises too (common practice)
+    assert!(clear.cn0_dbhz - wet.cn0_dbhz > 3.0);
+    let below = m
+        .evaluate(
+            BudgetGeometry {
+                elevation_deg: -1.0,
+                ..GEOM
+            },
+            ATM,
+            r,
+        )
+        .unwrap();
+    assert!(below.below_horizon);
+}
+
+#[test]
+fn typed_errors_carry_the_offending_value() {
+    let mut s = spec();
+    s.transmitter.power = TxPower::Watts(-2.0);
+    assert!(matches!(
+        LinkModel::new(&s),
+        Err(BudgetError::Antenna(AntennaError::PowerWatts { watts })) if watts == -2.0
+    ));
+    let mut s = spec();
+    s.ground_antenna = GroundAntennaSpec::Dish {
+        diameter_m: 3.7,
+        efficiency: 1.3,
+        pointing_error_deg: 0.0,
+    };
+    assert!(matches!(
+        LinkModel::new(&s),
+        Err(BudgetError::Antenna(AntennaError::Efficiency { value })) if value == 1.3
+    ));
+    let mut s = spec();
+    s.frequency_hz = -1.0;
+    assert!(matches!(
+        LinkModel::new(&s),
+        Err(BudgetError::Frequency { .. })
+    ));
+    let mut s = spec();
+    s.max_occupied_bandwidth_hz = Some(0.0);
+    assert!(matches!(
+        LinkModel::new(&s),
+        Err(BudgetError::MaxBandwidth { .. })
+    ));
+    let mut s = spec();
+    s.ground_pickup.spillover_fraction = -0.1;
+    assert!(matches!(
+        LinkModel::new(&s),
+        Err(BudgetError::Noise(NoiseError::Spillover { .. }))
+    ));
+
+    let m = LinkModel::new(&spec()).unwrap();
+    // 20 Mbit/s QPSK uncoded: Rs 10 Mbaud * 1.35 = 13.5 MHz fits; 40 Mbit/s does not
+    assert!(m.rate_spec(20e6, op("qpsk"), 0.35, 0.0).is_ok());
+    match m.rate_spec(40e6, op("qpsk"), 0.35, 0.0) {
+        Err(BudgetError::RateExceedsBandwidth {
+            rate_bps,
+            occupied_bandwidth_hz,
+            max_bandwidth_hz,
+        }) => {
+            assert_eq!(rate_bps, 40e6);
+            assert!((occupied_bandwidth_hz - 27e6).abs() < 1e-3);
+            assert_eq!(max_bandwidth_hz, 20e6);
+        }
+        other => panic!("{other:?}"),
+    }
+    // a RateSpec made without the model is still checked at evaluate
+    let loose = RateSpec::new(40e6, op("qpsk"), 0.35, 0.0).unwrap();
+    assert!(matches!(
+        m.evaluate(GEOM, ATM, loose),
+        Err(BudgetError::RateExceedsBandwidth { .. })
+    ));
+    assert!(matches!(
+        RateSpec::new(0.0, op("qpsk"), 0.35, 0.0),
+        Err(BudgetError::Rate { .. })
+    ));
+    assert!(
+        matches!(RateSpec::new(1e6, op("qpsk"), 1.5, 0.0), Err(BudgetError::RollOff { value }) if value == 1.5)
+    );
+    assert!(matches!(
+        RateSpec::new(1e6, op("qpsk"), 0.35, -1.0),
+        Err(BudgetError::ImplementationLoss { .. })
+    ));
+    let r = m.rate_spec(1e6, op("qpsk"), 0.35, 0.0).unwrap();
+    let g = BudgetGeometry {
+        range_km: -5.0,
+        ..GEOM
+    };
+    assert!(
+        matches!(m.evaluate(g, ATM, r), Err(BudgetError::Range { range_km }) if range_km == -5.0)
+    );
+    let g = BudgetGeometry {
+        elevation_deg: 91.0,
+        ..GEOM
+    };
+    assert!(matches!(
+        m.evaluate(g, ATM, r),
+        Err(BudgetError::Elevation { .. })
+    ));
+    let g = BudgetGeometry {
+        off_nadir_deg: 95.0,
+        ..GEOM
+    };
+    assert!(matches!(
+        m.evaluate(g, ATM, r),
+        Err(BudgetError::Antenna(AntennaError::OffNadir { .. }))
+    ));
+    let a = AtmosphereLoss {
+        absorptive_db: -0.1,
+        ..ATM
+    };
+    assert!(matches!(
+        m.evaluate(GEOM, a, r),
+        Err(BudgetError::Atmosphere { .. })
+    ));
+    let a = AtmosphereLoss {
+        mean_radiating_temperature_k: f64::NAN,
+        ..ATM
+    };
+    assert!(matches!(
+        m.evaluate(GEOM, a, r),
+        Err(BudgetError::MeanRadiatingTemperature { .. })
+    ));
+}
+
+#[test]
+fn itemized_budget_agrees_with_values() {
+    let m = LinkModel::new(&spec()).unwrap();
+    let r = m.rate_spec(2e6, op("ccsds-turbo-r1/2"), 0.35, 1.0).unwrap();
+    let v = m.evaluate(GEOM, ATM, r).unwrap();
+    let items = m.itemize(GEOM, ATM, r).unwrap();
+    let get = |n: &str| items.iter().find(|i| i.name == n).unwrap().value;
+    assert_eq!(get("margin"), v.margin_db);
+    assert_eq!(get("cn0"), v.cn0_dbhz);
+    assert_eq!(get("required_error_rate"), 1e-6);
+    // the printed losses sum: EIRP + losses (negative) + G/T - k = C/N0
+    let sum = get("eirp")
+        + get("free_space_loss")
+        + get("atmospheric_loss")
+        + get("polarization_loss")
+        + get("pointing_loss")
+        + get("g_over_t")
+        - get("boltzmann");
+    assert!((sum - v.cn0_dbhz).abs() < IDENTITY_DB);
+    assert!(items.iter().all(|i| !i.source.is_empty()));
+}
+
+#[test]
+fn evaluate_allocates_nothing() {
+    let m = LinkModel::new(&spec()).unwrap();
+    let r = m.rate_spec(2e6, op("dvbs2-8psk-3/4"), 0.2, 1.0).unwrap();
+    let before = ALLOCS.with(|c| c.get());
+    let mut acc = 0.0;
+    for i in 0..1000 {
+        let g = BudgetGeometry {
+            elevation_deg: 5.0 + (i % 80) as f64,
+            range_km: 600.0 + i as f64,
+            off_nadir_deg: (i % 60) as f64,
+        };
+        acc += m.evaluate(g, ATM, r).unwrap().margin_db;
+    }
+    let after = ALLOCS.with(|c| c.get());
+    assert!(acc.is_finite());
+    assert_eq!(after - before, 0, "evaluate allocated");
+}
