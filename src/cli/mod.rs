@@ -1,7 +1,9 @@
 //! Command-line interface: argument definitions (clap derive), one file per command. The CLI only
 //! parses arguments, loads files, calls the library and hands results to `report` / `chart`.
 
+pub mod chart;
 pub mod common;
+pub mod plan;
 
 use clap::{Parser, Subcommand};
 use std::io::Write;
@@ -22,6 +24,10 @@ pub enum Command {
     Passes(common::PassesArgs),
     /// Look angles, range, range rate and Doppler at a fixed step.
     Track(common::TrackArgs),
+    /// Plan every pass: rate per pass (fixed and adaptive), usable mask, data volume.
+    Plan(plan::PlanArgs),
+    /// The elevation-mask trade-off: contact time and volume per day against the mask, per rate.
+    Mask(plan::MaskArgs),
 }
 
 /// Run the parsed command, writing to `out`.
@@ -29,6 +35,8 @@ pub fn run(args: Args, out: &mut dyn Write) -> anyhow::Result<()> {
     match args.command {
         Command::Passes(a) => common::passes(a, out),
         Command::Track(a) => common::track(a, out),
+        Command::Plan(a) => plan::plan(a, out),
+        Command::Mask(a) => plan::mask(a, out),
     }
 }
 

@@ -4,12 +4,14 @@
 //! Errors here name the file and, where the configuration knows it, the line (an unknown scheme in
 //! the ladder, a rate the bandwidth cannot carry).
 
-use crate::atmosphere::{mean_radiating_temperature_k, AtmosphereSite, PathSpec, PreparedAtmosphere, Weather};
+use crate::atmosphere::{
+    mean_radiating_temperature_k, AtmosphereSite, PathSpec, PreparedAtmosphere, Weather,
+};
 use crate::config::mission::{Mission, TxPatternConfig};
 use crate::config::station::{GainSpec, PolarizationSense as CfgSense, Station};
 use crate::config::ConfigError;
 use crate::geometry::{HorizonMask, Observer};
-use crate::link::antenna::{GroundAntennaSpec, TxPattern, TxPower, TransmitterSpec};
+use crate::link::antenna::{GroundAntennaSpec, TransmitterSpec, TxPattern, TxPower};
 use crate::link::budget::{LinkModel, LinkModelSpec, PolarizationSpec, RateSpec};
 use crate::link::modcod::{operating_point, scheme_index};
 use crate::link::polarization::{EllipseOrientation, Polarization, PolarizationSense};
@@ -34,7 +36,11 @@ pub enum PrepareError {
     Model { file: String, message: String },
 }
 
-fn model_err(file: &std::path::Path, line: Option<usize>, message: impl std::fmt::Display) -> PrepareError {
+fn model_err(
+    file: &std::path::Path,
+    line: Option<usize>,
+    message: impl std::fmt::Display,
+) -> PrepareError {
     PrepareError::Model {
         file: match line {
             Some(l) => format!("{}:{l}", file.display()),
@@ -86,32 +92,78 @@ fn sense(s: CfgSense) -> PolarizationSense {
 }
 
 /// Prepare one station for this mission's transmitter.
-pub fn station_model(mission: &Mission, st: &Station, mask_override: Option<f64>) -> Result<StationModel, PrepareError> {
+pub fn station_model(
+    mission: &Mission,
+    st: &Station,
+    mask_override: Option<f64>,
+) -> Result<StationModel, PrepareError> {
     let file = &st.source;
-    let tx = mission.transmitter.as_ref().ok_or_else(|| model_err(&mission.source, None, "the mission has no transmitter block; the budget needs one"))?;
+    let tx = mission.transmitter.as_ref().ok_or_else(|| {
+        model_err(
+            &mission.source,
+            None,
+            "the mission has no transmitter block; the budget needs one",
+        )
+    })?;
     let ant = st.antenna.as_ref().ok_or_else(|| model_err(file, None, "the station has no antenna block; the budget needs antenna.diameter_m or antenna.gain_dbi"))?;
     let rx = st.receiver.as_ref().ok_or_else(|| model_err(file, None, "the station has no receiver block; the budget needs receiver.lna_noise_temperature_k or lna_noise_figure_db"))?;
-    let observer = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m).map_err(|e| model_err(file, None, e))?;
+    let observer = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m)
+        .map_err(|e| model_err(file, None, e))?;
     let min = mask_override.unwrap_or(st.min_elevation_deg);
-    let mask = HorizonMask::new(min, st.horizon_mask.clone()).map_err(|e| model_err(file, None, format!("horizon_mask: {e}")))?;
+    let mask = HorizonMask::new(min, st.horizon_mask.clone())
+        .map_err(|e| model_err(file, None, format!("horizon_mask: {e}")))?;
     let lambda_m = wavelength_m(tx.frequency_hz);
     let (ground_spec, diameter_m, efficiency) = match ant.gain {
-        GainSpec::Aperture { diameter_m, efficiency } => (GroundAntennaSpec::Dish { diameter_m, efficiency, pointing_error_deg: ant.pointing_error_deg }, diameter_m, efficiency),
-        GainSpec::Given { gain_dbi, diameter_m } => {
+        GainSpec::Aperture {
+            diameter_m,
+            efficiency,
+        } => (
+            GroundAntennaSpec::Dish {
+                diameter_m,
+                efficiency,
+                pointing_error_deg: ant.pointing_error_deg,
+            },
+            diameter_m,
+            efficiency,
+        ),
+        GainSpec::Given {
+            gain_dbi,
+            diameter_m,
+        } => {
             // Equivalent diameter from G = eta (pi D / lambda)^2 when no diameter is given.
-            let d = diameter_m.unwrap_or_else(|| lambda_m / std::f64::consts::PI * (crate::units::db_to_ratio(gain_dbi) / ASSUMED_EFFICIENCY).sqrt());
+            let d = diameter_m.unwrap_or_else(|| {
+                lambda_m / std::f64::consts::PI
+                    * (crate::units::db_to_ratio(gain_dbi) / ASSUMED_EFFICIENCY).sqrt()
+            });
             let beamwidth_deg = BEAMWIDTH_CONSTANT_DEG * lambda_m / d;
-            (GroundAntennaSpec::Gain { gain_dbi, beamwidth_deg, pointing_error_deg: ant.pointing_error_deg }, d, ASSUMED_EFFICIENCY)
+            (
+                GroundAntennaSpec::Gain {
+                    gain_dbi,
+                    beamwidth_deg,
+                    pointing_error_deg: ant.pointing_error_deg,
+                },
+                d,
+                ASSUMED_EFFICIENCY,
+            )
         }
     };
     let pattern = match &tx.pattern {
-        TxPatternConfig::Fixed { gain_dbi } => TxPattern::Fixed { gain_dbi: *gain_dbi },
-        TxPatternConfig::CosN { boresight_gain_dbi } => TxPattern::CosN { boresight_gain_dbi: *boresight_gain_dbi, n: None },
+        TxPatternConfig::Fixed { gain_dbi } => TxPattern::Fixed {
+            gain_dbi: *gain_dbi,
+        },
+        TxPatternConfig::CosN { boresight_gain_dbi } => TxPattern::CosN {
+            boresight_gain_dbi: *boresight_gain_dbi,
+            n: None,
+        },
         TxPatternConfig::Table { points } => TxPattern::Table(points.clone()),
     };
     let spec = LinkModelSpec {
         frequency_hz: tx.frequency_hz,
-        transmitter: TransmitterSpec { power: TxPower::Dbw(tx.power_dbw), line_loss_db: tx.line_loss_db + tx.other_loss_db, pattern },
+        transmitter: TransmitterSpec {
+            power: TxPower::Dbw(tx.power_dbw),
+            line_loss_db: tx.line_loss_db + tx.other_loss_db,
+            pattern,
+        },
         ground_antenna: ground_spec,
         receiver: ReceiverSpec {
             feed_loss_db: rx.feed_loss_db,
@@ -120,10 +172,19 @@ pub fn station_model(mission: &Mission, st: &Station, mask_override: Option<f64>
             lna_gain_db: rx.lna_gain_db,
             later_noise_figure_db: rx.followon_noise_figure_db,
         },
-        ground_pickup: GroundPickupSpec { spillover_fraction: ant.spillover_fraction, ground_temperature_k: ant.ground_temperature_k },
+        ground_pickup: GroundPickupSpec {
+            spillover_fraction: ant.spillover_fraction,
+            ground_temperature_k: ant.ground_temperature_k,
+        },
         polarization: PolarizationSpec {
-            spacecraft: Polarization { sense: sense(tx.polarization), axial_ratio_db: tx.axial_ratio_db },
-            ground: Polarization { sense: sense(ant.polarization), axial_ratio_db: ant.axial_ratio_db },
+            spacecraft: Polarization {
+                sense: sense(tx.polarization),
+                axial_ratio_db: tx.axial_ratio_db,
+            },
+            ground: Polarization {
+                sense: sense(ant.polarization),
+                axial_ratio_db: ant.axial_ratio_db,
+            },
             orientation: EllipseOrientation::WorstCase,
             extra_loss_db: ant.radome_loss_db,
         },
@@ -146,8 +207,14 @@ pub fn station_model(mission: &Mission, st: &Station, mask_override: Option<f64>
     // Circular polarization: tilt 45 deg in P.838-3 eqs (4)-(5); linear: the same 45 deg is used as
     // the orientation along a pass is not known (documented in the README).
     let polarization_tilt_deg = 45.0;
-    let path = PathSpec { frequency_ghz: tx.frequency_hz / 1e9, polarization_tilt_deg, antenna_diameter_m: diameter_m, antenna_efficiency: efficiency };
-    let atmosphere = PreparedAtmosphere::new(&site, &path).map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
+    let path = PathSpec {
+        frequency_ghz: tx.frequency_hz / 1e9,
+        polarization_tilt_deg,
+        antenna_diameter_m: diameter_m,
+        antenna_efficiency: efficiency,
+    };
+    let atmosphere = PreparedAtmosphere::new(&site, &path)
+        .map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
     Ok(StationModel {
         station: st.clone(),
         observer,
@@ -161,12 +228,22 @@ pub fn station_model(mission: &Mission, st: &Station, mask_override: Option<f64>
 }
 
 /// The weather of the availability case, checked against the station climate.
-pub fn availability_weather(percent: Option<f64>, stations: &[StationModel]) -> Result<Option<Weather>, PrepareError> {
+pub fn availability_weather(
+    percent: Option<f64>,
+    stations: &[StationModel],
+) -> Result<Option<Weather>, PrepareError> {
     let Some(p) = percent else { return Ok(None) };
-    let w = Weather::exceedance(p).map_err(|e| PrepareError::Model { file: "--exceedance-percent".into(), message: e.to_string() })?;
+    let w = Weather::exceedance(p).map_err(|e| PrepareError::Model {
+        file: "--exceedance-percent".into(),
+        message: e.to_string(),
+    })?;
     for s in stations {
         if s.station.climate.rain_rate_001_mm_h.is_none() {
-            return Err(model_err(&s.station.source, None, "climate.rain_rate_001_mm_h is needed for the availability (rain) case"));
+            return Err(model_err(
+                &s.station.source,
+                None,
+                "climate.rain_rate_001_mm_h is needed for the availability (rain) case",
+            ));
         }
     }
     Ok(Some(w))
@@ -176,17 +253,45 @@ pub fn availability_weather(percent: Option<f64>, stations: &[StationModel]) -> 
 /// bandwidth limit and frequency are the mission's).
 pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareError> {
     let path = &mission.source;
-    let m = mission.modem.as_ref().ok_or_else(|| model_err(path, None, "the mission has no modem block; the plan needs a rate ladder"))?;
+    let m = mission.modem.as_ref().ok_or_else(|| {
+        model_err(
+            path,
+            None,
+            "the mission has no modem block; the plan needs a rate ladder",
+        )
+    })?;
     if m.ladder.is_empty() {
-        return Err(model_err(path, crate::config::locate::key_line(&std::fs::read_to_string(path).unwrap_or_default(), &["modem"]), "modem.ladder has no rates; give at least one { rate_bps, scheme }"));
+        return Err(model_err(
+            path,
+            crate::config::locate::key_line(
+                &std::fs::read_to_string(path).unwrap_or_default(),
+                &["modem"],
+            ),
+            "modem.ladder has no rates; give at least one { rate_bps, scheme }",
+        ));
     }
-    let option = |rate_bps: f64, name: &str, line: Option<usize>| -> Result<(RateOption, RateSpec), PrepareError> {
+    let option = |rate_bps: f64,
+                  name: &str,
+                  line: Option<usize>|
+     -> Result<(RateOption, RateSpec), PrepareError> {
         let idx = scheme_index(name).map_err(|e| model_err(path, line, e))?;
-        let op = operating_point(idx, Some(m.target_ber)).map_err(|e| model_err(path, line, format!("{name}: {e}")))?;
-        let spec = link.rate_spec(rate_bps, op, m.roll_off, m.implementation_loss_db).map_err(|e| model_err(path, line, format!("{name} at {rate_bps} bit/s: {e}")))?;
-        let threshold_cn0_dbhz = crate::units::ratio_to_db(rate_bps) + op.required_ebn0_db + m.implementation_loss_db + m.required_margin_db;
+        let op = operating_point(idx, Some(m.target_ber))
+            .map_err(|e| model_err(path, line, format!("{name}: {e}")))?;
+        let spec = link
+            .rate_spec(rate_bps, op, m.roll_off, m.implementation_loss_db)
+            .map_err(|e| model_err(path, line, format!("{name} at {rate_bps} bit/s: {e}")))?;
+        let threshold_cn0_dbhz = crate::units::ratio_to_db(rate_bps)
+            + op.required_ebn0_db
+            + m.implementation_loss_db
+            + m.required_margin_db;
         Ok((
-            RateOption { rate_bps, scheme: op.name.to_string(), required_ebn0_db: op.required_ebn0_db, threshold_cn0_dbhz, occupied_bandwidth_hz: spec.occupied_bandwidth_hz() },
+            RateOption {
+                rate_bps,
+                scheme: op.name.to_string(),
+                required_ebn0_db: op.required_ebn0_db,
+                threshold_cn0_dbhz,
+                occupied_bandwidth_hz: spec.occupied_bandwidth_hz(),
+            },
             spec,
         ))
     };
@@ -197,7 +302,11 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         ladder.push(o);
         ladder_specs.push(s);
     }
-    let mut adaptive: Vec<(RateOption, RateSpec)> = ladder.iter().cloned().zip(ladder_specs.iter().cloned()).collect();
+    let mut adaptive: Vec<(RateOption, RateSpec)> = ladder
+        .iter()
+        .cloned()
+        .zip(ladder_specs.iter().cloned())
+        .collect();
     if let Some(a) = &m.adaptive {
         for (name, line) in &a.schemes {
             let idx = scheme_index(name).map_err(|e| model_err(path, *line, e))?;
@@ -205,8 +314,15 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
             adaptive.push(option(a.symbol_rate_baud * eta, name, *line)?);
         }
     }
-    adaptive.sort_by(|x, y| x.0.rate_bps.total_cmp(&y.0.rate_bps).then(x.0.threshold_cn0_dbhz.total_cmp(&y.0.threshold_cn0_dbhz)));
-    let widest = adaptive.iter().map(|o| o.0.occupied_bandwidth_hz).fold(0.0, f64::max);
+    adaptive.sort_by(|x, y| {
+        x.0.rate_bps
+            .total_cmp(&y.0.rate_bps)
+            .then(x.0.threshold_cn0_dbhz.total_cmp(&y.0.threshold_cn0_dbhz))
+    });
+    let widest = adaptive
+        .iter()
+        .map(|o| o.0.occupied_bandwidth_hz)
+        .fold(0.0, f64::max);
     let shannon_bandwidth_hz = m.max_bandwidth_hz.unwrap_or(widest).max(widest);
     let (adaptive, adaptive_specs) = adaptive.into_iter().unzip();
     Ok(RateSet {

@@ -2,6 +2,7 @@
 //! stays stable when internals change), aligned text tables for people, CSV and JSON, and atomic
 //! file writing.
 
+pub mod plan;
 pub mod table;
 
 use std::io::Write;

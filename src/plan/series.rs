@@ -1,0 +1,165 @@
+//! The budget time series over one pass: at a fixed step from AOS to LOS, the geometry, the
+//! atmosphere and the noise, down to C/N0 (clear sky and, optionally, the availability case).
+//!
+//! [`budget_at`] is the one function that turns a look angle into a budget; the `budget --at`
+//! command uses it too, so the two always agree.
+
+use crate::atmosphere::{Attenuation, Weather};
+use crate::geometry::{doppler_hz, Look, Pass};
+use crate::link::budget::{AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, RateSpec};
+use crate::orbit::{PropagationError, Propagator};
+use crate::plan::prepare::StationModel;
+use crate::timefmt::{add_seconds, seconds_between};
+
+/// One step of a pass. All fields are plain numbers so a pass's steps live in one reusable buffer.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct Step {
+    /// Seconds since AOS.
+    pub t_s: f64,
+    /// Time this step stands for (to the next step; 0 for the final step at LOS), s.
+    pub weight_s: f64,
+    pub azimuth_deg: f64,
+    pub elevation_deg: f64,
+    pub range_km: f64,
+    pub range_rate_km_s: f64,
+    pub doppler_hz: f64,
+    pub off_nadir_deg: f64,
+    pub eirp_dbw: f64,
+    pub free_space_loss_db: f64,
+    pub atmospheric_loss_db: f64,
+    pub sky_temperature_k: f64,
+    pub antenna_temperature_k: f64,
+    pub system_temperature_k: f64,
+    pub g_over_t_db_k: f64,
+    pub cn0_dbhz: f64,
+    /// Availability case (rain exceeded p % of the year); NaN when not planned.
+    pub rain_atmospheric_loss_db: f64,
+    pub rain_system_temperature_k: f64,
+    pub rain_cn0_dbhz: f64,
+}
+
+/// Error while following a pass.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SeriesError {
+    #[error(transparent)]
+    Propagation(#[from] PropagationError),
+    #[error("budget at {elevation_deg:.2} deg elevation: {source}")]
+    Budget {
+        elevation_deg: f64,
+        source: BudgetError,
+    },
+}
+
+/// The budget for one look angle at one station and weather. `reference` is any rate of the
+/// mission: C/N0, G/T and the temperatures do not depend on it.
+#[inline]
+pub fn budget_at(
+    model: &StationModel,
+    look: &Look,
+    weather: Weather,
+    reference: RateSpec,
+) -> Result<(Attenuation, BudgetValues), SeriesError> {
+    let att = model.atmosphere.at(look.elevation_deg.max(0.0), weather);
+    let values = model
+        .link
+        .evaluate(
+            BudgetGeometry {
+                elevation_deg: look.elevation_deg,
+                range_km: look.range_km,
+                off_nadir_deg: look.off_nadir_deg,
+            },
+            AtmosphereLoss {
+                total_db: att.total_db,
+                absorptive_db: att.absorptive_db,
+                mean_radiating_temperature_k: model.mean_radiating_temperature_k,
+            },
+            reference,
+        )
+        .map_err(|source| SeriesError::Budget {
+            elevation_deg: look.elevation_deg,
+            source,
+        })?;
+    Ok((att, values))
+}
+
+/// How to sample a pass.
+#[derive(Debug, Clone, Copy)]
+pub struct StepPlan {
+    pub step_s: f64,
+    /// Downlink frequency for the Doppler shift, Hz.
+    pub frequency_hz: f64,
+    /// Availability case, if planned.
+    pub rain: Option<Weather>,
+    /// Any rate of the mission (C/N0 does not depend on it).
+    pub reference: RateSpec,
+}
+
+/// Fill `steps` for `pass` at `step_s`: samples at AOS, AOS + step, ... and a final one at LOS.
+/// Allocates nothing once `steps` has grown to the longest pass.
+pub fn fill_pass(
+    prop: &Propagator,
+    model: &StationModel,
+    pass: &Pass,
+    how: &StepPlan,
+    steps: &mut Vec<Step>,
+) -> Result<(), SeriesError> {
+    let StepPlan {
+        step_s,
+        frequency_hz,
+        rain,
+        reference,
+    } = *how;
+    steps.clear();
+    let duration_s = seconds_between(&pass.aos, &pass.los).max(0.0);
+    let n = (duration_s / step_s).floor() as usize;
+    for k in 0..=n + 1 {
+        let mut t_s = k as f64 * step_s;
+        if k == n + 1 || t_s > duration_s - 1e-6 {
+            if steps
+                .last()
+                .is_some_and(|s: &Step| s.t_s >= duration_s - 1e-6)
+            {
+                break;
+            }
+            t_s = duration_s;
+        }
+        let state = prop.ecef_at(&add_seconds(&pass.aos, t_s))?;
+        let look = model.observer.look(&state);
+        let (att, v) = budget_at(model, &look, Weather::ClearSky, reference)?;
+        let mut step = Step {
+            t_s,
+            weight_s: 0.0,
+            azimuth_deg: look.azimuth_deg,
+            elevation_deg: look.elevation_deg,
+            range_km: look.range_km,
+            range_rate_km_s: look.range_rate_km_s,
+            doppler_hz: doppler_hz(look.range_rate_km_s, frequency_hz),
+            off_nadir_deg: look.off_nadir_deg,
+            eirp_dbw: v.eirp_dbw,
+            free_space_loss_db: v.free_space_loss_db,
+            atmospheric_loss_db: att.total_db,
+            sky_temperature_k: v.sky_temperature_k,
+            antenna_temperature_k: v.antenna_temperature_k,
+            system_temperature_k: v.system_temperature_k,
+            g_over_t_db_k: v.g_over_t_db_k,
+            cn0_dbhz: v.cn0_dbhz,
+            rain_atmospheric_loss_db: f64::NAN,
+            rain_system_temperature_k: f64::NAN,
+            rain_cn0_dbhz: f64::NAN,
+        };
+        if let Some(w) = rain {
+            let (ra, rv) = budget_at(model, &look, w, reference)?;
+            step.rain_atmospheric_loss_db = ra.total_db;
+            step.rain_system_temperature_k = rv.system_temperature_k;
+            step.rain_cn0_dbhz = rv.cn0_dbhz;
+        }
+        if let Some(prev) = steps.last_mut() {
+            prev.weight_s = t_s - prev.t_s;
+        }
+        steps.push(step);
+        if t_s >= duration_s {
+            break;
+        }
+    }
+    Ok(())
+}
