@@ -1,6 +1,7 @@
 //! Command-line interface: argument definitions (clap derive), one file per command. The CLI only
 //! parses arguments, loads files, calls the library and hands results to `report` / `chart`.
 
+pub mod budget;
 pub mod chart;
 pub mod common;
 pub mod plan;
@@ -24,6 +25,10 @@ pub enum Command {
     Passes(common::PassesArgs),
     /// Look angles, range, range rate and Doppler at a fixed step.
     Track(common::TrackArgs),
+    /// The atmospheric losses and sky temperature at one elevation.
+    Atmosphere(budget::AtmosphereArgs),
+    /// The itemized downlink budget at one elevation or one instant.
+    Budget(budget::BudgetArgs),
     /// Plan every pass: rate per pass (fixed and adaptive), usable mask, data volume.
     Plan(plan::PlanArgs),
     /// The elevation-mask trade-off: contact time and volume per day against the mask, per rate.
@@ -35,6 +40,8 @@ pub fn run(args: Args, out: &mut dyn Write) -> anyhow::Result<()> {
     match args.command {
         Command::Passes(a) => common::passes(a, out),
         Command::Track(a) => common::track(a, out),
+        Command::Atmosphere(a) => budget::atmosphere(a, out),
+        Command::Budget(a) => budget::budget(a, out),
         Command::Plan(a) => plan::plan(a, out),
         Command::Mask(a) => plan::mask(a, out),
     }
