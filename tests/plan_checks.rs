@@ -1,0 +1,384 @@
+//! Checks of the pass-by-pass plan on the shipped example (invented satellite and stations) and
+//! on bad input: the invariants the planner must keep, agreement with `budget --at`, and clean
+//! errors with nothing half-written.
+
+use passbudget::config::mission::Mission;
+use passbudget::plan::prepare::{availability_weather, rate_set, station_model};
+use passbudget::plan::rate::kept_runs;
+use passbudget::plan::{run, PassSeries, PlanInput};
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+use std::sync::Mutex;
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn run_bin(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_passbudget"))
+        .current_dir(root())
+        .args(args)
+        .output()
+        .expect("binary runs")
+}
+
+fn json(out: &Output) -> serde_json::Value {
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).expect("JSON")
+}
+
+const MISSION: &str = "examples/wrenlet-1.yaml";
+
+#[test]
+fn plan_json_contract_and_invariants() {
+    let doc = json(&run_bin(&[
+        "plan", MISSION, "--days", "2", "--format", "json",
+    ]));
+    let passes = doc["passes"].as_array().unwrap();
+    assert!(passes.len() > 20);
+    let keys = [
+        "satellite",
+        "station",
+        "aos",
+        "tca",
+        "los",
+        "max_elevation_deg",
+        "rate_bps",
+        "scheme",
+        "closes_from",
+        "closes_until",
+        "closes_from_elevation_deg",
+        "closes_until_elevation_deg",
+        "min_margin_db",
+        "max_ebn0_db",
+        "volume_bits",
+        "adaptive_volume_bits",
+        "shannon_volume_bits",
+    ];
+    let mut no_rate = 0;
+    for p in passes {
+        for k in keys {
+            assert!(p.get(k).is_some(), "pass lacks {k}");
+        }
+        let f = p["volume_bits"].as_f64().unwrap();
+        let a = p["adaptive_volume_bits"].as_f64().unwrap();
+        let s = p["shannon_volume_bits"].as_f64().unwrap();
+        assert!(
+            f <= a + 1.0 && a <= s + 1.0,
+            "fixed {f} <= adaptive {a} <= Shannon {s}"
+        );
+        if let (Some(rf), Some(ra)) = (
+            p["rain_volume_bits"].as_f64(),
+            p["rain_adaptive_volume_bits"].as_f64(),
+        ) {
+            assert!(rf <= ra + 1.0 && ra <= p["rain_shannon_volume_bits"].as_f64().unwrap() + 1.0);
+            assert!(rf <= f + 1.0, "rain never brings more than clear sky");
+        }
+        if p["rate_bps"].is_null() {
+            no_rate += 1;
+            assert_eq!(f, 0.0);
+        } else {
+            let from = p["closes_from"].as_str().unwrap();
+            let until = p["closes_until"].as_str().unwrap();
+            assert!(
+                p["aos"].as_str().unwrap() <= from
+                    && from < until
+                    && until <= p["los"].as_str().unwrap()
+            );
+        }
+    }
+    let _ = no_rate;
+    let t = &doc["totals"];
+    for k in [
+        "contact_s",
+        "volume_bits",
+        "adaptive_volume_bits",
+        "shannon_volume_bits",
+        "network_volume_bits",
+    ] {
+        assert!(t[k].as_f64().is_some(), "totals lack {k}");
+    }
+    // The network total counts each second once: never more than the sum over stations.
+    assert!(t["network_volume_bits"].as_f64().unwrap() <= t["volume_bits"].as_f64().unwrap() + 1.0);
+    assert!(doc["assumptions"].is_object());
+    // Usable mask of every rate is at least the station mask.
+    for m in doc["usable_masks"].as_array().unwrap() {
+        if let Some(u) = m["usable_mask_deg"].as_f64() {
+            assert!(u >= m["station_mask_deg"].as_f64().unwrap() - 1e-9, "{m}");
+        }
+    }
+    // The example shows the trade-offs: a small dish in a wet climate loses passes in rain.
+    assert!(t["rain_passes_closing"].as_u64().unwrap() < t["passes_closing"].as_u64().unwrap());
+}
+
+#[test]
+fn plan_is_deterministic() {
+    let a = run_bin(&["plan", MISSION, "--days", "1", "--format", "json"]);
+    let b = run_bin(&["plan", MISSION, "--days", "1", "--format", "json"]);
+    assert_eq!(a.stdout, b.stdout);
+    // No progress bar when stderr is not a terminal.
+    assert!(!String::from_utf8_lossy(&a.stderr).contains("planning passes"));
+}
+
+#[test]
+fn time_series_step_equals_budget_at_and_rate_doubling_costs_3_01_db() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().to_string_lossy().into_owned();
+    let doc = json(&run_bin(&[
+        "plan", MISSION, "--days", "1", "--format", "json", "--out", &out,
+    ]));
+    let pass = doc["passes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|p| p["station"] == "Sierra Baja" && !p["rate_bps"].is_null())
+        .unwrap()
+        .clone();
+    let files: Vec<PathBuf> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .collect();
+    for name in ["summary.json", "summary.csv", "days.csv", "masks.csv"] {
+        assert!(
+            files.iter().any(|f| f.file_name().unwrap() == name),
+            "{name} written"
+        );
+    }
+    let number = pass["number"].as_u64().unwrap();
+    let csv_path = files
+        .iter()
+        .find(|f| {
+            f.file_name()
+                .unwrap()
+                .to_string_lossy()
+                .starts_with(&format!("pass-{number:03}-sierra-baja-"))
+        })
+        .unwrap();
+    let mut rdr = csv::Reader::from_path(csv_path).unwrap();
+    let headers = rdr.headers().unwrap().clone();
+    let rows: Vec<csv::StringRecord> = rdr.records().map(|r| r.unwrap()).collect();
+    let col = |name: &str| headers.iter().position(|h| h == name).unwrap();
+    let row = &rows[rows.len() / 2];
+    let time = row[col("time")].to_string();
+    let rate = row[col("rate_bps")].to_string();
+    let b = json(&run_bin(&[
+        "budget",
+        MISSION,
+        "--station",
+        "Sierra Baja",
+        "--at",
+        &time,
+        "--rate-bps",
+        &rate,
+        "--format",
+        "json",
+    ]));
+    for (csv_name, json_name, tol) in [
+        ("cn0_dbhz", "cn0_dbhz", 1e-3),
+        ("ebn0_db", "ebn0_db", 1e-3),
+        ("margin_db", "margin_db", 1e-3),
+        ("system_temperature_k", "system_temperature_k", 1e-2),
+        ("elevation_deg", "elevation_deg", 1e-3),
+        ("free_space_loss_db", "free_space_loss_db", 1e-3),
+    ] {
+        let a: f64 = row[col(csv_name)].parse().unwrap();
+        let c = b[json_name].as_f64().unwrap();
+        assert!(
+            (a - c).abs() <= tol,
+            "{csv_name}: series {a} vs budget --at {c}"
+        );
+    }
+    // Doubling the rate (same scheme) lowers Eb/N0 by 10 log10(2) = 3.0103 dB exactly.
+    let scheme = b["scheme"].as_str().unwrap().to_string();
+    let r: f64 = rate.parse().unwrap();
+    let half = format!("{}", r / 2.0);
+    let b2 = json(&run_bin(&[
+        "budget",
+        MISSION,
+        "--station",
+        "Sierra Baja",
+        "--at",
+        &time,
+        "--rate-bps",
+        &half,
+        "--scheme",
+        &scheme,
+        "--format",
+        "json",
+    ]));
+    let d = b2["ebn0_db"].as_f64().unwrap() - b["ebn0_db"].as_f64().unwrap();
+    assert!((d - 3.0103).abs() < 2e-4, "{d}");
+    assert!(
+        (b2["cn0_dbhz"].as_f64().unwrap() - b["cn0_dbhz"].as_f64().unwrap()).abs() < 1e-9,
+        "C/N0 does not depend on the rate"
+    );
+}
+
+#[test]
+fn a_higher_rate_never_closes_earlier() {
+    let mission = Mission::load(&root().join(MISSION)).unwrap();
+    let stations: Vec<_> = mission
+        .stations
+        .iter()
+        .map(|s| station_model(&mission, s, None).unwrap())
+        .collect();
+    let rates = rate_set(&mission, &stations[0].link).unwrap();
+    let sets = passbudget::orbit::load_elements(&mission.elements_path).unwrap();
+    let rain = availability_weather(mission.exceedance_percent, &stations).unwrap();
+    let start = mission.start.unwrap();
+    let input = PlanInput {
+        elements: &sets[0],
+        stations: &stations,
+        rates: &rates,
+        start,
+        end: passbudget::timefmt::add_seconds(&start, 86400.0),
+        step_s: 1.0,
+        rain,
+        frequency_hz: 8212.5e6,
+    };
+    let violations = Mutex::new(Vec::new());
+    let checked = Mutex::new(0usize);
+    // Ladder options in order of their C/N0 threshold (higher rate -> higher threshold here).
+    let mut order: Vec<usize> = (0..rates.ladder.len()).collect();
+    order.sort_by(|a, b| {
+        rates.ladder[*a]
+            .threshold_cn0_dbhz
+            .total_cmp(&rates.ladder[*b].threshold_cn0_dbhz)
+    });
+    let sink = |s: &PassSeries| -> Result<(), String> {
+        let cn0: Vec<f64> = s.steps.iter().map(|x| x.cn0_dbhz).collect();
+        let w: Vec<f64> = s.steps.iter().map(|x| x.weight_s).collect();
+        let mut prev: Option<(usize, usize)> = None;
+        let mut runs = Vec::new();
+        for &k in &order {
+            kept_runs(&cn0, &w, rates.ladder[k].threshold_cn0_dbhz, 0.0, &mut runs);
+            let Some(&(first, _)) = runs.first() else {
+                break;
+            };
+            let last = runs.last().unwrap().1;
+            if let Some((pf, pl)) = prev {
+                if first < pf || last > pl {
+                    violations.lock().unwrap().push((s.plan.number, k));
+                }
+            }
+            prev = Some((first, last));
+            *checked.lock().unwrap() += 1;
+        }
+        Ok(())
+    };
+    let plan = run(&input, &sink, &|| {}).unwrap();
+    assert!(plan.passes.len() > 10);
+    assert!(*checked.lock().unwrap() > 30);
+    assert!(
+        violations.lock().unwrap().is_empty(),
+        "{:?}",
+        violations.lock().unwrap()
+    );
+    // Fixed <= adaptive <= Shannon for every pass, through the library as well.
+    for p in &plan.passes {
+        assert!(
+            p.clear.volume_bits <= p.clear.adaptive_volume_bits * (1.0 + 1e-12)
+                && p.clear.adaptive_volume_bits <= p.clear.shannon_volume_bits
+        );
+    }
+}
+
+fn write(dir: &Path, name: &str, text: &str) -> String {
+    let p = dir.join(name);
+    std::fs::write(&p, text).unwrap();
+    p.to_string_lossy().into_owned()
+}
+
+#[test]
+fn bad_plan_input_gives_one_clear_line_and_writes_nothing() {
+    let dir = tempfile::tempdir().unwrap();
+    let d = dir.path();
+    let example = std::fs::read_to_string(root().join(MISSION)).unwrap();
+    let abs = |t: &str| {
+        t.replace(
+            "sat.tle",
+            &root().join("examples/sat.tle").to_string_lossy(),
+        )
+        .replace("../stations/", &format!("{}/stations/", root().display()))
+    };
+    let good = abs(&example);
+    let no_stations = write(d, "nost.yaml", &good.replace(&format!("  - {}/stations/nordkam.yaml\n  - {}/stations/sierra-baja.yaml\n  - {}/stations/pulau-reka.yaml\n", root().display(), root().display(), root().display()), ""));
+    let mut no_rates = String::new();
+    let mut skip = false;
+    for line in good.lines() {
+        if line.starts_with("  ladder:") {
+            no_rates.push_str("  ladder: []\n");
+            skip = true;
+            continue;
+        }
+        if skip && line.starts_with("    - {") {
+            continue;
+        }
+        skip = false;
+        no_rates.push_str(line);
+        no_rates.push('\n');
+    }
+    let no_rates = write(d, "norates.yaml", &no_rates);
+    let too_wide = write(
+        d,
+        "wide.yaml",
+        &good.replace("rate_bps: 300.0e6", "rate_bps: 900.0e6"),
+    );
+    let bad_scheme = write(
+        d,
+        "scheme.yaml",
+        &good.replace(
+            "rate_bps: 25.0e6, scheme: ccsds-rs-cc",
+            "rate_bps: 25.0e6, scheme: ccsds-rs-ccc",
+        ),
+    );
+    let not_a_dir = write(d, "file.txt", "x");
+    let out_dir = d.join("out");
+    let out = out_dir.to_string_lossy().into_owned();
+    let cases: Vec<(Vec<String>, Vec<&str>)> = vec![
+        (vec![no_stations.clone()], vec!["nost.yaml", "no stations"]),
+        (vec![no_rates.clone()], vec!["norates.yaml", "ladder"]),
+        (
+            vec![too_wide.clone(), "--out".into(), out.clone()],
+            vec!["wide.yaml", "occupies"],
+        ),
+        (
+            vec![bad_scheme.clone()],
+            vec!["scheme.yaml", "ccsds-rs-ccc"],
+        ),
+        (
+            vec![MISSION.into(), "--out".into(), format!("{not_a_dir}/sub")],
+            vec!["--out", "cannot create"],
+        ),
+        (
+            vec![MISSION.into(), "--step".into(), "0".into()],
+            vec!["--step"],
+        ),
+        (
+            vec![MISSION.into(), "--exceedance-percent".into(), "70".into()],
+            vec!["exceedance"],
+        ),
+    ];
+    for (extra, needles) in cases {
+        let mut args = vec!["plan".to_string()];
+        args.extend(extra);
+        let argv: Vec<&str> = args.iter().map(String::as_str).collect();
+        let o = run_bin(&argv);
+        let stderr = String::from_utf8_lossy(&o.stderr);
+        assert_eq!(o.status.code(), Some(1), "{argv:?}: {stderr}");
+        let lines: Vec<&str> = stderr.lines().filter(|l| l.starts_with("error")).collect();
+        assert_eq!(lines.len(), 1, "{stderr}");
+        for n in needles {
+            assert!(lines[0].contains(n), "'{n}' not in {stderr}");
+        }
+        assert!(!stderr.contains("panicked"));
+    }
+    // Nothing half-written: the failed --out run left no files (the folder may exist, empty).
+    if out_dir.exists() {
+        assert_eq!(std::fs::read_dir(&out_dir).unwrap().count(), 0);
+    }
+}
