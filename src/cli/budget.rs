@@ -40,13 +40,13 @@ pub struct BudgetArgs {
     #[arg(long, value_name = "TIME")]
     pub at: Option<String>,
     /// Data rate, bit/s (default: the first rate of the ladder). Its scheme is the ladder's for that rate, or --scheme.
-    #[arg(long, value_name = "R")]
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub rate_bps: Option<f64>,
     /// Modulation and coding scheme (default: the ladder's).
     #[arg(long, value_name = "NAME")]
     pub scheme: Option<String>,
     /// Rain exceeded P % of an average year (default: clear sky).
-    #[arg(long, value_name = "P")]
+    #[arg(long, value_name = "P", allow_hyphen_values = true)]
     pub exceedance_percent: Option<f64>,
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
@@ -57,12 +57,12 @@ pub struct AtmosphereArgs {
     /// Station file.
     #[arg(long, value_name = "FILE")]
     pub station: PathBuf,
-    #[arg(long, value_name = "F")]
+    #[arg(long, value_name = "F", allow_hyphen_values = true)]
     pub frequency_ghz: f64,
     #[arg(long, value_name = "E", allow_hyphen_values = true)]
     pub elevation_deg: f64,
     /// Exceedance percentage of an average year (default: clear sky).
-    #[arg(long, value_name = "P")]
+    #[arg(long, value_name = "P", allow_hyphen_values = true)]
     pub exceedance_percent: Option<f64>,
     /// Polarization tilt relative to the horizontal, deg (45 = circular).
     #[arg(

@@ -33,7 +33,7 @@ pub struct InputArgs {
     #[arg(long, value_name = "TIME", conflicts_with = "days")]
     pub end: Option<String>,
     /// Length of the window in days.
-    #[arg(long, value_name = "N")]
+    #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub days: Option<f64>,
 }
 
@@ -67,7 +67,7 @@ pub struct TrackArgs {
     )]
     pub step: f64,
     /// Downlink frequency, MHz, for the Doppler shift.
-    #[arg(long, value_name = "F")]
+    #[arg(long, value_name = "F", allow_hyphen_values = true)]
     pub frequency_mhz: Option<f64>,
     /// Only points where the satellite is above the station's mask.
     #[arg(long)]

@@ -25,13 +25,13 @@ pub struct WindowArgs {
     #[arg(long, value_name = "TIME")]
     pub start: Option<String>,
     /// Length of the window in days (default: the mission's window.days, else 1).
-    #[arg(long, value_name = "N")]
+    #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub days: Option<f64>,
     /// Budget time step along each pass, s (default: the mission's planning.step_s, else 1).
     #[arg(long, value_name = "SECONDS", allow_hyphen_values = true)]
     pub step: Option<f64>,
     /// Availability case: rain exceeded P % of an average year (default: the mission's planning.exceedance_percent).
-    #[arg(long, value_name = "P")]
+    #[arg(long, value_name = "P", allow_hyphen_values = true)]
     pub exceedance_percent: Option<f64>,
     /// Minimum elevation, deg, overriding every station's min_elevation_deg.
     #[arg(long, value_name = "DEG", allow_hyphen_values = true)]

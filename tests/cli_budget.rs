@@ -1,0 +1,318 @@
+//! End-to-end checks of `atmosphere` and `budget` on the shipped example files, and their
+//! bad-input behaviour (one clear line, exit code 1, model range warnings named).
+
+use std::path::PathBuf;
+use std::process::{Command, Output};
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn run(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_passbudget"))
+        .current_dir(root())
+        .args(args)
+        .output()
+        .expect("binary runs")
+}
+
+fn json(o: &Output) -> serde_json::Value {
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    serde_json::from_slice(&o.stdout).unwrap()
+}
+
+fn clean_error(o: &Output, needles: &[&str]) {
+    let e = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.status.code(), Some(1), "{e}");
+    let lines: Vec<&str> = e.lines().filter(|l| l.starts_with("error")).collect();
+    assert_eq!(lines.len(), 1, "{e}");
+    for n in needles {
+        assert!(lines[0].contains(n), "'{n}' not in {e}");
+    }
+}
+
+#[test]
+fn atmosphere_json_keys_and_physics() {
+    let clear = json(&run(&[
+        "atmosphere",
+        "--station",
+        "stations/pulau-reka.yaml",
+        "--frequency-ghz",
+        "8.2",
+        "--elevation-deg",
+        "20",
+        "--format",
+        "json",
+    ]));
+    for k in [
+        "gas_db",
+        "cloud_db",
+        "rain_db",
+        "scintillation_db",
+        "total_db",
+        "rain_height_km",
+        "specific_rain_attenuation_db_km",
+        "sky_temperature_k",
+    ] {
+        assert!(clear[k].as_f64().is_some(), "{k}");
+    }
+    // Clear sky: no rain, no scintillation fade (ITU-R P.618-14 §2.5 as implemented; README).
+    assert_eq!(clear["rain_db"].as_f64().unwrap(), 0.0);
+    assert_eq!(clear["scintillation_db"].as_f64().unwrap(), 0.0);
+    let wet = json(&run(&[
+        "atmosphere",
+        "--station",
+        "stations/pulau-reka.yaml",
+        "--frequency-ghz",
+        "8.2",
+        "--elevation-deg",
+        "20",
+        "--exceedance-percent",
+        "0.1",
+        "--format",
+        "json",
+    ]));
+    assert!(wet["rain_db"].as_f64().unwrap() > 1.0);
+    // Sky temperature rises with the absorptive attenuation (P.618-14 eq (69)) and stays below Tmr.
+    let (tc, tw) = (
+        clear["sky_temperature_k"].as_f64().unwrap(),
+        wet["sky_temperature_k"].as_f64().unwrap(),
+    );
+    assert!(tw > tc && tw < wet["mean_radiating_temperature_k"].as_f64().unwrap());
+    // Station rain height given in the file: 4.9 km.
+    assert_eq!(wet["rain_height_km"].as_f64().unwrap(), 4.9);
+}
+
+#[test]
+fn out_of_range_models_are_named_in_warnings() {
+    let o = json(&run(&[
+        "atmosphere",
+        "--station",
+        "stations/nordkam.yaml",
+        "--frequency-ghz",
+        "0.4",
+        "--elevation-deg",
+        "3",
+        "--exceedance-percent",
+        "1",
+        "--format",
+        "json",
+    ]));
+    let w: Vec<String> = o["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|x| x.as_str().unwrap().to_string())
+        .collect();
+    assert!(
+        w.iter()
+            .any(|m| m.contains("P.618") && m.contains("4-55 GHz")),
+        "{w:?}"
+    );
+    assert!(
+        w.iter()
+            .any(|m| m.contains("P.676") && m.contains("1-350 GHz")),
+        "{w:?}"
+    );
+    assert!(w.iter().any(|m| m.contains("below 5 deg")), "{w:?}");
+}
+
+#[test]
+fn budget_json_keys_and_rate_behaviour() {
+    let b = json(&run(&[
+        "budget",
+        "examples/wrenlet-1.yaml",
+        "--station",
+        "Nordkam",
+        "--elevation-deg",
+        "30",
+        "--rate-bps",
+        "100e6",
+        "--format",
+        "json",
+    ]));
+    for k in [
+        "frequency_hz",
+        "elevation_deg",
+        "range_km",
+        "eirp_dbw",
+        "free_space_loss_db",
+        "atmospheric_loss_db",
+        "polarization_loss_db",
+        "pointing_loss_db",
+        "antenna_gain_dbi",
+        "antenna_temperature_k",
+        "system_temperature_k",
+        "g_over_t_db_k",
+        "cn0_dbhz",
+        "rate_bps",
+        "ebn0_db",
+        "required_ebn0_db",
+        "margin_db",
+        "shannon_capacity_bps",
+    ] {
+        assert!(b[k].as_f64().is_some(), "{k}");
+    }
+    // The itemized lines add up: C/N0 = EIRP - L_fs - L_atm - L_pol - L_point + G/T - 10 log10 k.
+    let g = |k: &str| b[k].as_f64().unwrap();
+    let cn0 = g("eirp_dbw")
+        - g("free_space_loss_db")
+        - g("atmospheric_loss_db")
+        - g("polarization_loss_db")
+        - g("pointing_loss_db")
+        + g("g_over_t_db_k")
+        + 228.5991672;
+    assert!(
+        (cn0 - g("cn0_dbhz")).abs() < 2e-3,
+        "{cn0} vs {}",
+        g("cn0_dbhz")
+    );
+    // Slant range at 30 deg for a ~545 km orbit (spherical triangle): about 1000 km.
+    assert!((g("range_km") - 1000.0).abs() < 60.0, "{}", g("range_km"));
+    // Antenna temperature rises as elevation falls.
+    let low = json(&run(&[
+        "budget",
+        "examples/wrenlet-1.yaml",
+        "--station",
+        "Nordkam",
+        "--elevation-deg",
+        "5",
+        "--rate-bps",
+        "100e6",
+        "--format",
+        "json",
+    ]));
+    assert!(low["antenna_temperature_k"].as_f64().unwrap() > g("antenna_temperature_k"));
+    assert!(low["system_temperature_k"].as_f64().unwrap() > g("system_temperature_k"));
+    let table = String::from_utf8(
+        run(&[
+            "budget",
+            "examples/wrenlet-1.yaml",
+            "--station",
+            "Nordkam",
+            "--elevation-deg",
+            "30",
+        ])
+        .stdout,
+    )
+    .unwrap();
+    assert!(
+        table.contains("margin")
+            && table.contains("Shannon gap")
+            && table.contains("Planning estimate")
+    );
+}
+
+#[test]
+fn budget_bad_input() {
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(root().join("examples/wrenlet-1.yaml")).unwrap();
+    let fix = |t: String| {
+        t.replace(
+            "sat.tle",
+            &root().join("examples/sat.tle").to_string_lossy(),
+        )
+        .replace("../stations/", &format!("{}/stations/", root().display()))
+    };
+    let neg = dir.path().join("neg.yaml");
+    std::fs::write(&neg, fix(text.replace("power_w: 2.0", "power_w: -2.0"))).unwrap();
+    let st = std::fs::read_to_string(root().join("stations/nordkam.yaml")).unwrap();
+    let eff_station = dir.path().join("eff.yaml");
+    std::fs::write(
+        &eff_station,
+        st.replace("efficiency: 0.60", "efficiency: 1.3"),
+    )
+    .unwrap();
+    let eff_mission = dir.path().join("effm.yaml");
+    std::fs::write(
+        &eff_mission,
+        fix(text.clone()).replace(
+            &format!("{}/stations/nordkam.yaml", root().display()),
+            &eff_station.to_string_lossy(),
+        ),
+    )
+    .unwrap();
+    let m = "examples/wrenlet-1.yaml";
+    clean_error(
+        &run(&[
+            "budget",
+            &neg.to_string_lossy(),
+            "--station",
+            "Nordkam",
+            "--elevation-deg",
+            "20",
+        ]),
+        &["neg.yaml", "power"],
+    );
+    clean_error(
+        &run(&[
+            "budget",
+            &eff_mission.to_string_lossy(),
+            "--station",
+            "Nordkam",
+            "--elevation-deg",
+            "20",
+        ]),
+        &["eff.yaml", "antenna.efficiency"],
+    );
+    clean_error(
+        &run(&[
+            "budget",
+            m,
+            "--station",
+            "Nordkam",
+            "--elevation-deg",
+            "20",
+            "--scheme",
+            "ccsds-warp-drive",
+        ]),
+        &["ccsds-warp-drive"],
+    );
+    clean_error(
+        &run(&[
+            "budget",
+            m,
+            "--station",
+            "Nordkam",
+            "--elevation-deg",
+            "20",
+            "--rate-bps",
+            "2e9",
+        ]),
+        &["occupies", "375000000"],
+    );
+    clean_error(
+        &run(&["budget", m, "--station", "Nowhere", "--elevation-deg", "20"]),
+        &["Nowhere"],
+    );
+    clean_error(
+        &run(&["budget", m, "--station", "Nordkam", "--elevation-deg", "95"]),
+        &["--elevation-deg"],
+    );
+    clean_error(
+        &run(&[
+            "atmosphere",
+            "--station",
+            "stations/nordkam.yaml",
+            "--frequency-ghz",
+            "-1",
+            "--elevation-deg",
+            "20",
+        ]),
+        &["--frequency-ghz"],
+    );
+    clean_error(
+        &run(&[
+            "atmosphere",
+            "--station",
+            "stations/nordkam.yaml",
+            "--frequency-ghz",
+            "8",
+            "--elevation-deg",
+            "20",
+            "--exceedance-percent",
+            "80",
+        ]),
+        &["exceedance"],
+    );
+}
