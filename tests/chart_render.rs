@@ -49,7 +49,9 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
         samples.push(PassChartSample {
             t_s: t,
             elevation_deg: el,
-            azimuth_deg: (160.0 - 140.0 * t / dur).rem_euclid(360.0),
+            // toy azimuth: track heading south, closest on the east side
+            azimuth_deg: (160.0 + f64::atan2(beta, -omega * (t - half)).to_degrees())
+                .rem_euclid(360.0),
             range_km: rho,
             ebn0_db: ebn0,
             margin_db: margin,
@@ -273,6 +275,91 @@ fn charts_draw_in_parallel() {
         hs.into_iter().map(|h| h.join().unwrap()).collect()
     });
     assert_eq!(serial, parallel);
+}
+
+/// SYNTHETIC day of passes at one station for the sky chart.
+fn sample_sky() -> SkyChartData {
+    let mut passes = Vec::new();
+    for (i, (hour, offset, rot)) in [
+        (1, 3.0, 0.0),
+        (3, 12.0, 40.0),
+        (13, 7.0, 180.0),
+        (15, 17.0, 215.0),
+    ]
+    .into_iter()
+    .enumerate()
+    {
+        let p = synthetic_pass(i + 1, utc(2026, 12, 2, hour, 10, 0), offset);
+        passes.push(SkyPass {
+            label: format!("{:02} {}Z", p.pass_number, p.aos.format("%H:%M")),
+            points: p
+                .samples
+                .iter()
+                .enumerate()
+                .map(|(k, s)| SkyPoint {
+                    azimuth_deg: (s.azimuth_deg + rot - 160.0).rem_euclid(360.0),
+                    elevation_deg: s.elevation_deg,
+                    // the last few points of the first pass have no budget
+                    margin_db: if i == 0 && k + 5 > p.samples.len() {
+                        None
+                    } else {
+                        Some(s.margin_db)
+                    },
+                })
+                .collect(),
+            aos: p.aos,
+            tca: p.tca,
+            los: p.los,
+        });
+    }
+    SkyChartData {
+        station: "Sierra Baja".into(),
+        satellite: "KESTREL-7 (synthetic)".into(),
+        title_date: "2026-12-02".into(),
+        min_elevation_deg: 5.0,
+        horizon_mask: vec![
+            [0.0, 3.0],
+            [40.0, 12.0],
+            [70.0, 18.0],
+            [110.0, 6.0],
+            [250.0, 2.0],
+            [300.0, 9.0],
+        ],
+        required_margin_db: 3.0,
+        passes,
+    }
+}
+
+#[test]
+fn sky_renders() {
+    let d = sample_sky();
+    let png = draw_sky(&d, ChartFormat::Png).unwrap();
+    dump("sky.png", &png);
+    assert_not_blank(&png, 1000, 1000);
+    let svg = String::from_utf8(draw_sky(&d, ChartFormat::Svg).unwrap()).unwrap();
+    for needle in [
+        "Sierra Baja",
+        "\nN\n",
+        "\nE\n",
+        "AOS 01:10",
+        "01 01:10Z TCA",
+        "margin &lt; 0 dB",
+        "below horizon mask",
+    ] {
+        assert!(svg.contains(needle), "SVG lacks {needle:?}");
+    }
+    assert_eq!(draw_sky(&d, ChartFormat::Png).unwrap(), png);
+    // no passes, no mask: still a chart
+    let mut empty = d.clone();
+    empty.passes.clear();
+    empty.horizon_mask.clear();
+    let svg = String::from_utf8(draw_sky(&empty, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(svg.contains("no passes to show"));
+    // one-point pass
+    let mut one = d;
+    one.passes.truncate(1);
+    one.passes[0].points.truncate(1);
+    draw_sky(&one, ChartFormat::Png).unwrap();
 }
 
 #[allow(dead_code)]

@@ -255,6 +255,8 @@ pub enum Key {
     Marker(MarkerShape, RGBColor),
     /// A filled box (colour, opacity).
     Band(RGBColor, f64),
+    /// Text only.
+    Blank,
 }
 
 /// Draw a legend as a column of entries in its own drawing area (never over the data). A label
@@ -286,6 +288,7 @@ where
             Key::Marker(m, c) => {
                 draw_marker(area, m, ((x0 + x1) / 2, cy), 6, c)?;
             }
+            Key::Blank => {}
             Key::Band(c, a) => {
                 area.draw(&Rectangle::new(
                     [(x0, cy - 8), (x1, cy + 8)],
