@@ -362,5 +362,66 @@ fn sky_renders() {
     draw_sky(&one, ChartFormat::Png).unwrap();
 }
 
+/// SYNTHETIC mask trade-off: toy contact-time curve; each rate closes only above a toy
+/// elevation, so its volume is flat below that elevation.
+fn sample_mask() -> MaskChartData {
+    let masks: Vec<f64> = (0..=40).map(f64::from).collect();
+    let contact = |m: f64| 4.0 * 3600.0 * ((90.0 - m) / 90.0).powi(3);
+    let ladder = [
+        (10e6, 0.0, "10 Mbit/s bpsk-cc"),
+        (25e6, 8.0, "25 Mbit/s qpsk-rs-cc"),
+        (50e6, 15.0, "50 Mbit/s qpsk-ldpc"),
+        (100e6, 25.0, "100 Mbit/s 8psk-ldpc"),
+    ];
+    MaskChartData {
+        scope: "Sierra Baja".into(),
+        contact_s_per_day: masks.iter().map(|&m| contact(m)).collect(),
+        rates: ladder
+            .iter()
+            .map(|&(r, el, label)| MaskRateSeries {
+                label: label.into(),
+                volume_bits_per_day: masks.iter().map(|&m| r * contact(m.max(el))).collect(),
+            })
+            .collect(),
+        masks_deg: masks,
+        configured_mask_deg: 10.0,
+    }
+}
+
+#[test]
+fn mask_renders() {
+    let d = sample_mask();
+    let png = draw_mask(&d, ChartFormat::Png).unwrap();
+    dump("mask.png", &png);
+    assert_not_blank(&png, 1600, 1000);
+    let svg = String::from_utf8(draw_mask(&d, ChartFormat::Svg).unwrap()).unwrap();
+    for needle in [
+        "Elevation mask (deg)",
+        "Contact per day (h)",
+        "Volume per day (Gbit)",
+        "configured mask 10.0°",
+        "100 Mbit/s 8psk-ldpc",
+    ] {
+        assert!(svg.contains(needle), "SVG lacks {needle:?}");
+    }
+    assert_eq!(draw_mask(&d, ChartFormat::Svg).unwrap(), svg.into_bytes());
+    let mut bad = d.clone();
+    bad.rates[1].volume_bits_per_day.pop();
+    assert!(matches!(
+        draw_mask(&bad, ChartFormat::Png),
+        Err(ChartError::LengthMismatch {
+            expected: 41,
+            got: 40,
+            ..
+        })
+    ));
+    let mut empty = d;
+    empty.masks_deg.clear();
+    empty.contact_s_per_day.clear();
+    empty.rates.clear();
+    let svg = String::from_utf8(draw_mask(&empty, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(svg.contains("no mask values to plot"));
+}
+
 #[allow(dead_code)]
 fn _types_used(_: NaiveDate) {}
