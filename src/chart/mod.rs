@@ -1,1 +1,270 @@
-//! chart (filled in by its owner).
+//! Charts for operators, drawn with `plotters` into memory as PNG or SVG.
+//!
+//! * [`draw_pass`] – one pass: elevation and range, Eb/N0 against the required level with the
+//!   adaptive rate, system noise temperature and atmospheric loss, on a shared UTC time axis.
+//! * [`draw_sky`] – polar sky track of one station's passes over its horizon mask, coloured by
+//!   margin.
+//! * [`draw_mask`] – contact time and volume per day against the elevation mask.
+//! * [`draw_summary`] – plan timeline (one bar per pass) and daily totals.
+//!
+//! Each `draw_*` returns the file bytes; each `save_*` writes them atomically with
+//! [`crate::report::write_atomic`]. The module depends on chrono and std types only (see
+//! [`data`]). Output is deterministic: the same input gives the same bytes. Drawing holds no
+//! global state apart from the one-time, thread-safe registration of the bundled font, so charts
+//! may be drawn in parallel.
+//!
+//! Text uses the bundled DejaVu Sans (`fonts/`, Bitstream Vera licence) through plotters'
+//! `ab_glyph` renderer, so no system font library is needed.
+
+pub mod data;
+mod mask;
+mod pass;
+mod sky;
+pub mod style;
+mod summary;
+
+use std::path::{Path, PathBuf};
+
+use chrono::{DateTime, NaiveDate, Utc};
+use plotters::coord::Shift;
+use plotters::prelude::*;
+
+pub use data::*;
+
+/// Pass chart size, pixels.
+pub const PASS_SIZE: (u32, u32) = (1600, 1000);
+/// Sky chart size, pixels.
+pub const SKY_SIZE: (u32, u32) = (1000, 1000);
+/// Mask trade-off chart size, pixels.
+pub const MASK_SIZE: (u32, u32) = (1600, 1000);
+/// Plan summary chart size, pixels.
+pub const SUMMARY_SIZE: (u32, u32) = (1600, 1000);
+
+/// What can go wrong while drawing or saving a chart.
+#[derive(Debug, thiserror::Error)]
+pub enum ChartError {
+    #[error("the bundled chart font could not be loaded")]
+    Font,
+    #[error("drawing the {chart} chart failed: {message}")]
+    Draw {
+        chart: &'static str,
+        message: String,
+    },
+    #[error("encoding the PNG failed: {0}")]
+    Encode(String),
+    #[error("chart input: {what} has {got} values but {expected} were expected")]
+    LengthMismatch {
+        what: String,
+        expected: usize,
+        got: usize,
+    },
+    #[error("writing chart {}: {source}", path.display())]
+    Io {
+        path: PathBuf,
+        #[source]
+        source: std::io::Error,
+    },
+}
+
+impl<E: std::error::Error + Send + Sync> From<DrawingAreaErrorKind<E>> for ChartError {
+    fn from(e: DrawingAreaErrorKind<E>) -> Self {
+        ChartError::Draw {
+            chart: "",
+            message: e.to_string(),
+        }
+    }
+}
+
+/// Name the chart in a drawing error.
+fn in_chart(chart: &'static str) -> impl Fn(ChartError) -> ChartError {
+    move |e| match e {
+        ChartError::Draw { message, .. } => ChartError::Draw { chart, message },
+        other => other,
+    }
+}
+
+/// A chart that can draw itself on any plotters backend.
+trait Plot {
+    const NAME: &'static str;
+    fn size(&self) -> (u32, u32);
+    fn plot<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), ChartError>
+    where
+        DB::ErrorType: 'static;
+}
+
+/// Draw `chart` into memory and return the PNG or SVG bytes.
+fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError> {
+    style::ensure_font()?;
+    let (w, h) = chart.size();
+    match format {
+        ChartFormat::Png => {
+            let mut rgb = vec![255u8; w as usize * h as usize * 3];
+            {
+                let root = BitMapBackend::with_buffer(&mut rgb, (w, h)).into_drawing_area();
+                chart.plot(&root).map_err(in_chart(P::NAME))?;
+                root.present()
+                    .map_err(ChartError::from)
+                    .map_err(in_chart(P::NAME))?;
+            }
+            encode_png(&rgb, w, h)
+        }
+        ChartFormat::Svg => {
+            let mut svg = String::new();
+            {
+                let root = SVGBackend::with_string(&mut svg, (w, h)).into_drawing_area();
+                chart.plot(&root).map_err(in_chart(P::NAME))?;
+                root.present()
+                    .map_err(ChartError::from)
+                    .map_err(in_chart(P::NAME))?;
+            }
+            Ok(svg.into_bytes())
+        }
+    }
+}
+
+/// Encode an 8-bit RGB buffer as PNG (fast deflate; charts are mostly flat colour).
+fn encode_png(rgb: &[u8], w: u32, h: u32) -> Result<Vec<u8>, ChartError> {
+    let mut out = Vec::with_capacity(rgb.len() / 20);
+    {
+        let mut enc = png::Encoder::new(&mut out, w, h);
+        enc.set_color(png::ColorType::Rgb);
+        enc.set_depth(png::BitDepth::Eight);
+        enc.set_compression(png::Compression::Fast);
+        let mut writer = enc
+            .write_header()
+            .map_err(|e| ChartError::Encode(e.to_string()))?;
+        writer
+            .write_image_data(rgb)
+            .map_err(|e| ChartError::Encode(e.to_string()))?;
+        writer
+            .finish()
+            .map_err(|e| ChartError::Encode(e.to_string()))?;
+    }
+    Ok(out)
+}
+
+fn save(path: &Path, bytes: &[u8]) -> Result<(), ChartError> {
+    crate::report::write_atomic(path, bytes).map_err(|source| ChartError::Io {
+        path: path.to_path_buf(),
+        source,
+    })
+}
+
+/// Draw the pass chart (1600x1000).
+pub fn draw_pass(data: &PassChartData, format: ChartFormat) -> Result<Vec<u8>, ChartError> {
+    render(data, format)
+}
+
+/// Draw the pass chart and write it atomically to `path`.
+pub fn save_pass(data: &PassChartData, path: &Path, format: ChartFormat) -> Result<(), ChartError> {
+    save(path, &draw_pass(data, format)?)
+}
+
+/// Draw the sky track chart (1000x1000).
+pub fn draw_sky(data: &SkyChartData, format: ChartFormat) -> Result<Vec<u8>, ChartError> {
+    render(data, format)
+}
+
+/// Draw the sky track chart and write it atomically to `path`.
+pub fn save_sky(data: &SkyChartData, path: &Path, format: ChartFormat) -> Result<(), ChartError> {
+    save(path, &draw_sky(data, format)?)
+}
+
+/// Draw the mask trade-off chart (1600x1000). Every series must have one value per mask.
+pub fn draw_mask(data: &MaskChartData, format: ChartFormat) -> Result<Vec<u8>, ChartError> {
+    mask::check(data)?;
+    render(data, format)
+}
+
+/// Draw the mask trade-off chart and write it atomically to `path`.
+pub fn save_mask(data: &MaskChartData, path: &Path, format: ChartFormat) -> Result<(), ChartError> {
+    save(path, &draw_mask(data, format)?)
+}
+
+/// Draw the plan summary chart (1600x1000).
+pub fn draw_summary(data: &SummaryChartData, format: ChartFormat) -> Result<Vec<u8>, ChartError> {
+    render(data, format)
+}
+
+/// Draw the plan summary chart and write it atomically to `path`.
+pub fn save_summary(
+    data: &SummaryChartData,
+    path: &Path,
+    format: ChartFormat,
+) -> Result<(), ChartError> {
+    save(path, &draw_summary(data, format)?)
+}
+
+/// `pass-003-sierra-baja-20261202T0123Z.png`
+pub fn pass_file_name(
+    pass_number: usize,
+    station: &str,
+    aos: &DateTime<Utc>,
+    format: ChartFormat,
+) -> String {
+    format!(
+        "pass-{pass_number:03}-{}-{}.{}",
+        style::slug(station),
+        crate::timefmt::file_stamp(aos),
+        format.extension()
+    )
+}
+
+/// `sky-sierra-baja-20261202.png`
+pub fn sky_file_name(station: &str, day: NaiveDate, format: ChartFormat) -> String {
+    format!(
+        "sky-{}-{}.{}",
+        style::slug(station),
+        day.format("%Y%m%d"),
+        format.extension()
+    )
+}
+
+/// `mask-sierra-baja.png`, `mask-network.png`
+pub fn mask_file_name(scope: &str, format: ChartFormat) -> String {
+    format!("mask-{}.{}", style::slug(scope), format.extension())
+}
+
+/// `summary-sat-1-20261202-20261209.png`
+pub fn summary_file_name(
+    satellite: &str,
+    start: &DateTime<Utc>,
+    end: &DateTime<Utc>,
+    format: ChartFormat,
+) -> String {
+    format!(
+        "summary-{}-{}-{}.{}",
+        style::slug(satellite),
+        start.format("%Y%m%d"),
+        end.format("%Y%m%d"),
+        format.extension()
+    )
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::timefmt::utc;
+
+    #[test]
+    fn file_names() {
+        let aos = utc(2026, 12, 2, 1, 23, 45);
+        assert_eq!(
+            pass_file_name(3, "Sierra Baja", &aos, ChartFormat::Png),
+            "pass-003-sierra-baja-20261202T0123Z.png"
+        );
+        let day = NaiveDate::from_ymd_opt(2026, 12, 2).unwrap();
+        assert_eq!(
+            sky_file_name("Sierra Baja", day, ChartFormat::Svg),
+            "sky-sierra-baja-20261202.svg"
+        );
+        assert_eq!(
+            mask_file_name("network", ChartFormat::Png),
+            "mask-network.png"
+        );
+        assert_eq!(
+            summary_file_name("SAT-1", &aos, &utc(2026, 12, 9, 0, 0, 0), ChartFormat::Png),
+            "summary-sat-1-20261202-20261209.png"
+        );
+    }
+}

@@ -1,0 +1,161 @@
+//! Input types of the chart module: plain data (chrono and std types only), filled in by the
+//! planner or by tests. The chart code never sees planner internals.
+
+use chrono::{DateTime, NaiveDate, Utc};
+
+/// Output file format of a chart.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum ChartFormat {
+    /// 8-bit RGB PNG.
+    Png,
+    /// SVG 1.1 text (fonts are referenced by family name, `sans-serif`).
+    Svg,
+}
+
+impl ChartFormat {
+    /// File name extension without the dot: `png` or `svg`.
+    pub fn extension(self) -> &'static str {
+        match self {
+            ChartFormat::Png => "png",
+            ChartFormat::Svg => "svg",
+        }
+    }
+}
+
+/// One instant of a pass, as the pass chart needs it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PassChartSample {
+    /// Seconds since AOS.
+    pub t_s: f64,
+    pub elevation_deg: f64,
+    pub azimuth_deg: f64,
+    pub range_km: f64,
+    /// Eb/N0 at the chosen rate (or at the lowest ladder rate when no rate closes), dB.
+    pub ebn0_db: f64,
+    /// Margin at the chosen rate, dB.
+    pub margin_db: f64,
+    /// Whether the chosen rate closes (margin at least the required margin) at this instant.
+    pub closed: bool,
+    /// Highest ladder rate that closes at this instant (adaptive operation), if any.
+    pub adaptive_rate_bps: Option<f64>,
+    pub system_temperature_k: f64,
+    pub atmospheric_loss_db: f64,
+}
+
+/// Everything the pass chart shows about one pass.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PassChartData {
+    pub satellite: String,
+    pub station: String,
+    pub pass_number: usize,
+    pub aos: DateTime<Utc>,
+    pub tca: DateTime<Utc>,
+    pub los: DateTime<Utc>,
+    pub max_elevation_deg: f64,
+    /// Chosen fixed rate; `None` when no ladder rate closes.
+    pub rate_bps: Option<f64>,
+    /// Modulation and coding of the chosen rate, e.g. `ccsds-rs-cc`.
+    pub scheme: Option<String>,
+    /// Volume at the fixed rate, bits.
+    pub volume_bits: f64,
+    /// Volume with adaptive rate, bits.
+    pub adaptive_volume_bits: f64,
+    /// Eb/N0 where the margin is 0 (required Eb/N0 plus implementation loss) for the chosen rate, dB.
+    pub required_ebn0_db: Option<f64>,
+    /// Margin the operator requires above `required_ebn0_db`, dB.
+    pub required_margin_db: f64,
+    /// First instant the chosen rate closes.
+    pub closes_from: Option<DateTime<Utc>>,
+    /// Last instant the chosen rate closes.
+    pub closes_until: Option<DateTime<Utc>>,
+    pub samples: Vec<PassChartSample>,
+}
+
+/// One point of a sky track.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct SkyPoint {
+    pub azimuth_deg: f64,
+    pub elevation_deg: f64,
+    /// Margin at the chosen rate, dB; `None` when no budget was computed here.
+    pub margin_db: Option<f64>,
+}
+
+/// One pass drawn on the sky chart. AOS, TCA and LOS labels go at the first point, the
+/// highest point and the last point.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SkyPass {
+    /// Short label, e.g. `03 10:42Z`.
+    pub label: String,
+    pub points: Vec<SkyPoint>,
+    pub aos: DateTime<Utc>,
+    pub tca: DateTime<Utc>,
+    pub los: DateTime<Utc>,
+}
+
+/// A polar sky chart of one station: horizon mask and one or more pass tracks.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SkyChartData {
+    pub station: String,
+    pub satellite: String,
+    /// Free text for the title, e.g. `2026-12-02`.
+    pub title_date: String,
+    pub min_elevation_deg: f64,
+    /// Horizon mask points `[azimuth_deg, elevation_deg]`, linear between points, wrapping at 360.
+    pub horizon_mask: Vec<[f64; 2]>,
+    pub required_margin_db: f64,
+    pub passes: Vec<SkyPass>,
+}
+
+/// Volume per day against mask elevation for one ladder rate.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MaskRateSeries {
+    /// e.g. `50 Mbit/s ccsds-rs-cc`.
+    pub label: String,
+    /// One value per entry of [`MaskChartData::masks_deg`].
+    pub volume_bits_per_day: Vec<f64>,
+}
+
+/// Mask trade-off: what raising the elevation mask costs.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MaskChartData {
+    /// Station name or `network`.
+    pub scope: String,
+    /// Mask elevations, degrees (typically 0..=40).
+    pub masks_deg: Vec<f64>,
+    /// Contact time per day above each mask, seconds.
+    pub contact_s_per_day: Vec<f64>,
+    pub rates: Vec<MaskRateSeries>,
+    pub configured_mask_deg: f64,
+}
+
+/// One pass on the plan summary timeline.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SummaryBar {
+    pub aos: DateTime<Utc>,
+    pub los: DateTime<Utc>,
+    /// Index into [`SummaryChartData::stations`].
+    pub station_index: usize,
+    pub volume_bits: f64,
+    pub adaptive_volume_bits: f64,
+}
+
+/// Volume totals of one UTC day.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DayTotals {
+    pub date: NaiveDate,
+    pub fixed_bits: f64,
+    pub adaptive_bits: f64,
+    /// Shannon-capacity bound on the same passes.
+    pub shannon_bits: f64,
+}
+
+/// Plan summary over the whole window.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SummaryChartData {
+    pub satellite: String,
+    pub start: DateTime<Utc>,
+    pub end: DateTime<Utc>,
+    pub stations: Vec<String>,
+    pub passes: Vec<SummaryBar>,
+    pub days: Vec<DayTotals>,
+}

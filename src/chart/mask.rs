@@ -1,0 +1,252 @@
+//! Mask trade-off chart: contact time per day (top) and volume per day for each ladder rate
+//! (bottom) against the elevation mask, with the configured mask marked in both panels.
+
+use plotters::coord::Shift;
+use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
+
+use super::style::{self, stroke_line, Key, MarkerShape, Stroke};
+use super::{ChartError, MaskChartData, Plot, MASK_SIZE};
+
+const TITLE_H: u32 = 100;
+const LEGEND_W: u32 = 330;
+const Y_AXIS_W: u32 = 95;
+
+/// Every series must have one value per mask.
+pub(super) fn check(d: &MaskChartData) -> Result<(), ChartError> {
+    let n = d.masks_deg.len();
+    if d.contact_s_per_day.len() != n {
+        return Err(ChartError::LengthMismatch {
+            what: "contact_s_per_day".into(),
+            expected: n,
+            got: d.contact_s_per_day.len(),
+        });
+    }
+    for r in &d.rates {
+        if r.volume_bits_per_day.len() != n {
+            return Err(ChartError::LengthMismatch {
+                what: format!("volume_bits_per_day of '{}'", r.label),
+                expected: n,
+                got: r.volume_bits_per_day.len(),
+            });
+        }
+    }
+    Ok(())
+}
+
+impl Plot for MaskChartData {
+    const NAME: &'static str = "mask";
+
+    fn size(&self) -> (u32, u32) {
+        MASK_SIZE
+    }
+
+    fn plot<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), ChartError>
+    where
+        DB::ErrorType: 'static,
+    {
+        plot_mask(self, root)
+    }
+}
+
+/// Indices of the points that get a marker: about every 5° (at most ~10 markers per line).
+fn marker_indices(masks: &[f64]) -> Vec<usize> {
+    let n = masks.len();
+    if n <= 10 {
+        return (0..n).collect();
+    }
+    let every = n.div_ceil(9);
+    (0..n).filter(|i| i % every == 0).collect()
+}
+
+fn plot_mask<DB: DrawingBackend>(
+    d: &MaskChartData,
+    root: &DrawingArea<DB, Shift>,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    root.fill(&WHITE)?;
+    let (w, h) = root.dim_in_pixel();
+    let (title, body) = root.split_vertically(TITLE_H);
+    title.draw(&Text::new(
+        format!("Elevation mask trade-off · {}", d.scope),
+        (30, 18),
+        style::title_font(),
+    ))?;
+    title.draw(&Text::new(
+        format!(
+            "contact time and data volume per day above each mask · configured mask {}°",
+            style::fmt_or_na(d.configured_mask_deg, 1)
+        ),
+        (30, 60),
+        style::label_font(),
+    ))?;
+    if d.masks_deg.iter().all(|m| !m.is_finite()) {
+        body.draw(&Text::new(
+            "no mask values to plot".to_string(),
+            (w as i32 / 2, (h - TITLE_H) as i32 / 2),
+            style::title_font().pos(Pos::new(HPos::Center, VPos::Center)),
+        ))?;
+        return Ok(());
+    }
+
+    let (m_lo, m_hi) = {
+        let (lo, hi) = style::finite_range(d.masks_deg.iter().copied(), 0.0, 1.0, (0.0, 40.0));
+        (lo.min(0.0), hi)
+    };
+    let ticks: Vec<f64> = {
+        let step = if m_hi - m_lo > 50.0 { 10.0 } else { 5.0 };
+        let mut t = (m_lo / step).ceil() * step;
+        let mut v = Vec::new();
+        while t <= m_hi + 1e-9 {
+            v.push(t);
+            t += step;
+        }
+        v
+    };
+    let x_axis_h = 62;
+    let panel_h = (h - TITLE_H - x_axis_h) / 2;
+    let (top, bottom) = body.split_vertically(panel_h);
+    let marks = marker_indices(&d.masks_deg);
+    let cfg = d.configured_mask_deg;
+    let cfg_stroke = Stroke::dashed(style::INK, 2, 10, 6);
+
+    // Top: contact time.
+    let max_s = style::zero_based_max(d.contact_s_per_day.iter().copied(), 0.0, 0.0);
+    let (div, unit) = if max_s >= 2.0 * 3600.0 {
+        (3600.0, "h")
+    } else {
+        (60.0, "min")
+    };
+    let y_hi = style::zero_based_max([max_s / div], 0.1, 1.0);
+    {
+        let (plot, legend) = top.split_horizontally(w - LEGEND_W);
+        let mut chart = ChartBuilder::on(&plot)
+            .margin_top(14)
+            .margin_left(10)
+            .x_label_area_size(8)
+            .y_label_area_size(Y_AXIS_W)
+            .margin_right(24)
+            .build_cartesian_2d(style::TickAxis::new(m_lo, m_hi, ticks.clone()), 0.0..y_hi)?;
+        chart
+            .configure_mesh()
+            .bold_line_style(style::GRID)
+            .light_line_style(TRANSPARENT)
+            .x_label_formatter(&|_| String::new())
+            .y_label_formatter(&style::num_label)
+            .y_desc(format!("Contact per day ({unit})"))
+            .y_labels(6)
+            .axis_desc_style(style::label_font())
+            .label_style(style::tick_font())
+            .draw()?;
+        let s = Stroke::solid(style::SLATE, 3);
+        let pts: Vec<(f64, f64)> = d
+            .masks_deg
+            .iter()
+            .zip(&d.contact_s_per_day)
+            .map(|(m, c)| (*m, c / div))
+            .collect();
+        stroke_line!(chart, draw_series, pts.clone(), s);
+        let area = chart.plotting_area().strip_coord_spec();
+        for &i in &marks {
+            let p = pts[i];
+            if p.0.is_finite() && p.1.is_finite() {
+                let px = style::rel(&area, chart.backend_coord(&p));
+                style::draw_marker(&area, MarkerShape::Circle, px, 5, style::SLATE)?;
+            }
+        }
+        if cfg.is_finite() {
+            stroke_line!(
+                chart,
+                draw_series,
+                vec![(cfg, 0.0), (cfg, y_hi)],
+                cfg_stroke
+            );
+            chart.draw_series(std::iter::once(Text::new(
+                format!(" configured mask {cfg:.1}°"),
+                (cfg, y_hi),
+                style::note_font(style::INK).pos(Pos::new(HPos::Left, VPos::Top)),
+            )))?;
+        }
+        style::draw_legend(
+            &legend,
+            None,
+            &[
+                (
+                    Key::LineMarker(s, MarkerShape::Circle),
+                    "contact time above mask".into(),
+                ),
+                (Key::Line(cfg_stroke), "configured mask".into()),
+            ],
+        )?;
+    }
+
+    // Bottom: volume per day, one line per rate.
+    let max_bits = d
+        .rates
+        .iter()
+        .flat_map(|r| r.volume_bits_per_day.iter().copied())
+        .filter(|v| v.is_finite())
+        .fold(0.0f64, f64::max);
+    let (vdiv, vunit) = style::volume_unit(max_bits);
+    let v_hi = style::zero_based_max([max_bits / vdiv], 0.1, 1.0);
+    let (plot, legend) = bottom.split_horizontally(w - LEGEND_W);
+    let mut chart = ChartBuilder::on(&plot)
+        .margin_top(14)
+        .margin_left(10)
+        .x_label_area_size(x_axis_h)
+        .y_label_area_size(Y_AXIS_W)
+        .margin_right(24)
+        .build_cartesian_2d(style::TickAxis::new(m_lo, m_hi, ticks), 0.0..v_hi)?;
+    chart
+        .configure_mesh()
+        .bold_line_style(style::GRID)
+        .light_line_style(TRANSPARENT)
+        .x_label_formatter(&|v| format!("{v:.0}°"))
+        .y_label_formatter(&style::num_label)
+        .x_desc("Elevation mask (deg)")
+        .y_desc(format!("Volume per day ({vunit})"))
+        .y_labels(6)
+        .axis_desc_style(style::label_font())
+        .label_style(style::tick_font())
+        .draw()?;
+    let mut keys = Vec::new();
+    let area = chart.plotting_area().strip_coord_spec();
+    for (i, r) in d.rates.iter().enumerate() {
+        let s = Stroke::series(i, 3);
+        let shape = MarkerShape::series(i);
+        let pts: Vec<(f64, f64)> = d
+            .masks_deg
+            .iter()
+            .zip(&r.volume_bits_per_day)
+            .map(|(m, v)| (*m, v / vdiv))
+            .collect();
+        stroke_line!(chart, draw_series, pts.clone(), s);
+        for &k in &marks {
+            let p = pts[k];
+            if p.0.is_finite() && p.1.is_finite() {
+                let px = style::rel(&area, chart.backend_coord(&p));
+                style::draw_marker(&area, shape, px, 5, s.color)?;
+            }
+        }
+        keys.push((Key::LineMarker(s, shape), r.label.clone()));
+    }
+    if d.rates.is_empty() {
+        chart.draw_series(std::iter::once(Text::new(
+            "no ladder rates".to_string(),
+            ((m_lo + m_hi) / 2.0, v_hi / 2.0),
+            style::label_font().pos(Pos::new(HPos::Center, VPos::Center)),
+        )))?;
+    }
+    if cfg.is_finite() {
+        stroke_line!(
+            chart,
+            draw_series,
+            vec![(cfg, 0.0), (cfg, v_hi)],
+            cfg_stroke
+        );
+    }
+    keys.push((Key::Line(cfg_stroke), "configured mask".into()));
+    style::draw_legend(&legend, Some("Fixed rate"), &keys)
+}

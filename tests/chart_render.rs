@@ -1,0 +1,427 @@
+//! Chart rendering checks on SYNTHETIC data (invented satellite and stations, toy geometry and
+//! toy link numbers made up for these tests only – they check drawing, not physics).
+//!
+//! Set `PASSBUDGET_CHART_DUMP=/some/dir` to also write every rendered chart there for viewing.
+
+use chrono::{DateTime, Duration, NaiveDate, Utc};
+use passbudget::chart::*;
+use passbudget::timefmt::utc;
+
+/// SYNTHETIC pass: a circular 550 km orbit over a spherical Earth, crossing at `offset_deg`
+/// central angle from the station; toy Eb/N0, noise and loss curves.
+fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> PassChartData {
+    let re_km = 6371.0f64;
+    let r_km = re_km + 550.0;
+    let omega = (398600.4418f64 / r_km.powi(3)).sqrt(); // rad/s
+    let beta = offset_deg.to_radians();
+    let elev = |dt: f64| {
+        let g = (beta.cos() * (omega * dt).cos()).acos();
+        let el = ((g.cos() - re_km / r_km) / g.sin()).atan().to_degrees();
+        let rho = (re_km * re_km + r_km * r_km - 2.0 * re_km * r_km * g.cos()).sqrt();
+        (el, rho)
+    };
+    // half-duration: where elevation crosses 0
+    let mut half = 0.0;
+    while elev(half).0 > 0.0 {
+        half += 1.0;
+    }
+    let dur = 2.0 * half;
+    let ladder = [5e6, 10e6, 25e6, 50e6, 100e6];
+    let req_db = 4.4; // toy threshold + implementation loss
+    let margin_req = 3.0;
+    let chosen = 25e6;
+    let mut samples = Vec::new();
+    let mut t = 0.0;
+    while t <= dur {
+        let (el, rho) = elev(t - half);
+        let el_c = el.max(0.5);
+        let atm = (0.25 / el_c.to_radians().sin()).min(8.0);
+        let tsys = 95.0 + 180.0 * (-el_c / 6.0).exp();
+        // toy C/N0 in dB-Hz
+        let cn0 = 93.0 - 20.0 * (rho / 1000.0).log10() - atm - 10.0 * (tsys / 100.0).log10();
+        let ebn0 = cn0 - 10.0 * f64::log10(chosen);
+        let margin = ebn0 - req_db;
+        let adaptive = ladder
+            .iter()
+            .rev()
+            .find(|&&r| cn0 - 10.0 * f64::log10(r) - req_db >= margin_req)
+            .copied();
+        samples.push(PassChartSample {
+            t_s: t,
+            elevation_deg: el,
+            // toy azimuth: track heading south, closest on the east side
+            azimuth_deg: (160.0 + f64::atan2(beta, -omega * (t - half)).to_degrees())
+                .rem_euclid(360.0),
+            range_km: rho,
+            ebn0_db: ebn0,
+            margin_db: margin,
+            closed: margin >= margin_req,
+            adaptive_rate_bps: adaptive,
+            system_temperature_k: tsys,
+            atmospheric_loss_db: atm,
+        });
+        t += 10.0;
+    }
+    let first = samples.iter().find(|s| s.closed).map(|s| s.t_s);
+    let last = samples.iter().rev().find(|s| s.closed).map(|s| s.t_s);
+    let at = |s: f64| aos + Duration::milliseconds((s * 1000.0) as i64);
+    let closed_s = match (first, last) {
+        (Some(a), Some(b)) => b - a,
+        _ => 0.0,
+    };
+    let adaptive_bits: f64 = samples
+        .iter()
+        .map(|s| s.adaptive_rate_bps.unwrap_or(0.0) * 10.0)
+        .sum();
+    let max_el = samples
+        .iter()
+        .map(|s| s.elevation_deg)
+        .fold(f64::MIN, f64::max);
+    PassChartData {
+        satellite: "KESTREL-7 (synthetic)".into(),
+        station: "Sierra Baja".into(),
+        pass_number,
+        aos,
+        tca: at(half),
+        los: at(dur),
+        max_elevation_deg: max_el,
+        rate_bps: first.map(|_| chosen),
+        scheme: first.map(|_| "ccsds-rs-cc".to_string()),
+        volume_bits: chosen * closed_s,
+        adaptive_volume_bits: adaptive_bits,
+        required_ebn0_db: first.map(|_| req_db),
+        required_margin_db: margin_req,
+        closes_from: first.map(at),
+        closes_until: last.map(at),
+        samples,
+    }
+}
+
+fn sample_pass() -> PassChartData {
+    synthetic_pass(3, utc(2026, 12, 2, 1, 23, 17), 3.0)
+}
+
+fn dump(name: &str, bytes: &[u8]) {
+    if let Ok(dir) = std::env::var("PASSBUDGET_CHART_DUMP") {
+        std::fs::create_dir_all(&dir).unwrap();
+        std::fs::write(std::path::Path::new(&dir).join(name), bytes).unwrap();
+    }
+}
+
+/// Decode a PNG; return (width, height, number of distinct colours, share of non-white pixels).
+fn png_stats(bytes: &[u8]) -> (u32, u32, usize, f64) {
+    let decoder = png::Decoder::new(std::io::Cursor::new(bytes));
+    let mut reader = decoder.read_info().expect("valid PNG header");
+    let mut buf = vec![0; reader.output_buffer_size()];
+    let info = reader.next_frame(&mut buf).expect("valid PNG data");
+    let px = &buf[..info.buffer_size()];
+    let ch = info.color_type.samples();
+    let mut colours = std::collections::BTreeSet::new();
+    let mut ink = 0usize;
+    for p in px.chunks(ch) {
+        colours.insert(p[..3].to_vec());
+        if p[..3] != [255, 255, 255] {
+            ink += 1;
+        }
+    }
+    let total = (info.width * info.height) as f64;
+    (info.width, info.height, colours.len(), ink as f64 / total)
+}
+
+fn assert_not_blank(bytes: &[u8], w: u32, h: u32) {
+    let (pw, ph, colours, ink) = png_stats(bytes);
+    assert_eq!((pw, ph), (w, h));
+    assert!(colours > 50, "only {colours} distinct colours");
+    assert!(ink > 0.03, "only {:.1} % non-white pixels", ink * 100.0);
+}
+
+#[test]
+fn pass_png_has_size_and_content() {
+    let png = draw_pass(&sample_pass(), ChartFormat::Png).unwrap();
+    dump("pass.png", &png);
+    assert_not_blank(&png, 1600, 1000);
+}
+
+#[test]
+fn pass_svg_has_labels() {
+    let d = sample_pass();
+    let svg = String::from_utf8(draw_pass(&d, ChartFormat::Svg).unwrap()).unwrap();
+    dump("pass.svg", svg.as_bytes());
+    assert!(svg.starts_with("<svg"));
+    for needle in [
+        "KESTREL-7 (synthetic) over Sierra Baja · pass 3 · 2026-12-02",
+        "25 Mbit/s ccsds-rs-cc",
+        "Elevation (deg)",
+        "Slant range (km)",
+        "Eb/N0 (dB)",
+        "Adaptive rate (Mbit/s)",
+        "System noise temp. (K)",
+        "Atmospheric loss (dB)",
+        "Time (UTC)",
+        "AOS 01:23:17",
+        &format!("LOS {}", d.los.format("%H:%M:%S")),
+        &format!("TCA {}", d.tca.format("%H:%M:%S")),
+        &format!("closes from {}", d.closes_from.unwrap().format("%H:%M:%S")),
+        &format!(
+            "closes until {}",
+            d.closes_until.unwrap().format("%H:%M:%S")
+        ),
+        "\n01:24\n",
+    ] {
+        assert!(svg.contains(needle), "SVG lacks {needle:?}");
+    }
+}
+
+#[test]
+fn pass_chart_is_deterministic() {
+    let d = sample_pass();
+    for f in [ChartFormat::Png, ChartFormat::Svg] {
+        assert_eq!(draw_pass(&d, f).unwrap(), draw_pass(&d, f).unwrap());
+    }
+}
+
+#[test]
+fn pass_without_closing_rate() {
+    // far-off pass: low elevation, nothing closes
+    let mut d = synthetic_pass(7, utc(2026, 12, 2, 5, 0, 0), 19.0);
+    d.rate_bps = None;
+    d.scheme = None;
+    d.required_ebn0_db = None;
+    d.closes_from = None;
+    d.closes_until = None;
+    d.volume_bits = 0.0;
+    let png = draw_pass(&d, ChartFormat::Png).unwrap();
+    dump("pass-none.png", &png);
+    assert_not_blank(&png, 1600, 1000);
+    let svg = String::from_utf8(draw_pass(&d, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(svg.contains("no rate closes"));
+    assert!(svg.contains("no ladder rate closes on this pass"));
+}
+
+#[test]
+fn pass_edge_cases_do_not_panic() {
+    let mut empty = sample_pass();
+    empty.samples.clear();
+    let svg = String::from_utf8(draw_pass(&empty, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(svg.contains("no samples for this pass"));
+    let png = draw_pass(&empty, ChartFormat::Png).unwrap();
+    assert_eq!(png_stats(&png).0, 1600);
+
+    let mut one = sample_pass();
+    let mid = one.samples.len() / 2;
+    one.samples = vec![one.samples[mid].clone()];
+    one.samples[0].t_s = 0.0;
+    one.los = one.aos;
+    one.tca = one.aos;
+    let png = draw_pass(&one, ChartFormat::Png).unwrap();
+    dump("pass-one.png", &png);
+    assert_eq!(png_stats(&png).0, 1600);
+
+    let mut nan = sample_pass();
+    for (i, s) in nan.samples.iter_mut().enumerate() {
+        if i % 7 == 0 {
+            s.ebn0_db = f64::NAN;
+            s.range_km = f64::INFINITY;
+        }
+    }
+    nan.required_margin_db = f64::NAN;
+    nan.max_elevation_deg = f64::NAN;
+    let svg = String::from_utf8(draw_pass(&nan, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(!svg.contains("NaN"), "NaN leaked into the SVG");
+}
+
+#[test]
+fn save_pass_writes_file_atomically() {
+    let dir = tempfile::tempdir().unwrap();
+    let d = sample_pass();
+    let name = pass_file_name(d.pass_number, &d.station, &d.aos, ChartFormat::Png);
+    assert_eq!(name, "pass-003-sierra-baja-20261202T0123Z.png");
+    let path = dir.path().join(&name);
+    save_pass(&d, &path, ChartFormat::Png).unwrap();
+    assert_eq!(
+        std::fs::read(&path).unwrap(),
+        draw_pass(&d, ChartFormat::Png).unwrap()
+    );
+    // only the chart, no temporary file left behind
+    assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 1);
+    // a folder that does not exist: an IO error naming the path
+    let bad = dir.path().join("missing").join(&name);
+    match save_pass(&d, &bad, ChartFormat::Png) {
+        Err(ChartError::Io { path, .. }) => assert_eq!(path, bad),
+        other => panic!("expected an IO error, got {other:?}"),
+    }
+}
+
+#[test]
+fn charts_draw_in_parallel() {
+    let passes: Vec<_> = (0..6)
+        .map(|i| {
+            synthetic_pass(
+                i,
+                utc(2026, 12, 2, 1, 0, 0) + Duration::hours(i as i64 * 2),
+                i as f64 * 3.0,
+            )
+        })
+        .collect();
+    let serial: Vec<_> = passes
+        .iter()
+        .map(|p| draw_pass(p, ChartFormat::Png).unwrap())
+        .collect();
+    let parallel: Vec<_> = std::thread::scope(|s| {
+        let hs: Vec<_> = passes
+            .iter()
+            .map(|p| s.spawn(move || draw_pass(p, ChartFormat::Png).unwrap()))
+            .collect();
+        hs.into_iter().map(|h| h.join().unwrap()).collect()
+    });
+    assert_eq!(serial, parallel);
+}
+
+/// SYNTHETIC day of passes at one station for the sky chart.
+fn sample_sky() -> SkyChartData {
+    let mut passes = Vec::new();
+    for (i, (hour, offset, rot)) in [
+        (1, 3.0, 0.0),
+        (3, 12.0, 40.0),
+        (13, 7.0, 180.0),
+        (15, 17.0, 215.0),
+    ]
+    .into_iter()
+    .enumerate()
+    {
+        let p = synthetic_pass(i + 1, utc(2026, 12, 2, hour, 10, 0), offset);
+        passes.push(SkyPass {
+            label: format!("{:02} {}Z", p.pass_number, p.aos.format("%H:%M")),
+            points: p
+                .samples
+                .iter()
+                .enumerate()
+                .map(|(k, s)| SkyPoint {
+                    azimuth_deg: (s.azimuth_deg + rot - 160.0).rem_euclid(360.0),
+                    elevation_deg: s.elevation_deg,
+                    // the last few points of the first pass have no budget
+                    margin_db: if i == 0 && k + 5 > p.samples.len() {
+                        None
+                    } else {
+                        Some(s.margin_db)
+                    },
+                })
+                .collect(),
+            aos: p.aos,
+            tca: p.tca,
+            los: p.los,
+        });
+    }
+    SkyChartData {
+        station: "Sierra Baja".into(),
+        satellite: "KESTREL-7 (synthetic)".into(),
+        title_date: "2026-12-02".into(),
+        min_elevation_deg: 5.0,
+        horizon_mask: vec![
+            [0.0, 3.0],
+            [40.0, 12.0],
+            [70.0, 18.0],
+            [110.0, 6.0],
+            [250.0, 2.0],
+            [300.0, 9.0],
+        ],
+        required_margin_db: 3.0,
+        passes,
+    }
+}
+
+#[test]
+fn sky_renders() {
+    let d = sample_sky();
+    let png = draw_sky(&d, ChartFormat::Png).unwrap();
+    dump("sky.png", &png);
+    assert_not_blank(&png, 1000, 1000);
+    let svg = String::from_utf8(draw_sky(&d, ChartFormat::Svg).unwrap()).unwrap();
+    for needle in [
+        "Sierra Baja",
+        "\nN\n",
+        "\nE\n",
+        "AOS 01:10",
+        "01 01:10Z TCA",
+        "margin &lt; 0 dB",
+        "below horizon mask",
+    ] {
+        assert!(svg.contains(needle), "SVG lacks {needle:?}");
+    }
+    assert_eq!(draw_sky(&d, ChartFormat::Png).unwrap(), png);
+    // no passes, no mask: still a chart
+    let mut empty = d.clone();
+    empty.passes.clear();
+    empty.horizon_mask.clear();
+    let svg = String::from_utf8(draw_sky(&empty, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(svg.contains("no passes to show"));
+    // one-point pass
+    let mut one = d;
+    one.passes.truncate(1);
+    one.passes[0].points.truncate(1);
+    draw_sky(&one, ChartFormat::Png).unwrap();
+}
+
+/// SYNTHETIC mask trade-off: toy contact-time curve; each rate closes only above a toy
+/// elevation, so its volume is flat below that elevation.
+fn sample_mask() -> MaskChartData {
+    let masks: Vec<f64> = (0..=40).map(f64::from).collect();
+    let contact = |m: f64| 4.0 * 3600.0 * ((90.0 - m) / 90.0).powi(3);
+    let ladder = [
+        (10e6, 0.0, "10 Mbit/s bpsk-cc"),
+        (25e6, 8.0, "25 Mbit/s qpsk-rs-cc"),
+        (50e6, 15.0, "50 Mbit/s qpsk-ldpc"),
+        (100e6, 25.0, "100 Mbit/s 8psk-ldpc"),
+    ];
+    MaskChartData {
+        scope: "Sierra Baja".into(),
+        contact_s_per_day: masks.iter().map(|&m| contact(m)).collect(),
+        rates: ladder
+            .iter()
+            .map(|&(r, el, label)| MaskRateSeries {
+                label: label.into(),
+                volume_bits_per_day: masks.iter().map(|&m| r * contact(m.max(el))).collect(),
+            })
+            .collect(),
+        masks_deg: masks,
+        configured_mask_deg: 10.0,
+    }
+}
+
+#[test]
+fn mask_renders() {
+    let d = sample_mask();
+    let png = draw_mask(&d, ChartFormat::Png).unwrap();
+    dump("mask.png", &png);
+    assert_not_blank(&png, 1600, 1000);
+    let svg = String::from_utf8(draw_mask(&d, ChartFormat::Svg).unwrap()).unwrap();
+    for needle in [
+        "Elevation mask (deg)",
+        "Contact per day (h)",
+        "Volume per day (Gbit)",
+        "configured mask 10.0°",
+        "100 Mbit/s 8psk-ldpc",
+    ] {
+        assert!(svg.contains(needle), "SVG lacks {needle:?}");
+    }
+    assert_eq!(draw_mask(&d, ChartFormat::Svg).unwrap(), svg.into_bytes());
+    let mut bad = d.clone();
+    bad.rates[1].volume_bits_per_day.pop();
+    assert!(matches!(
+        draw_mask(&bad, ChartFormat::Png),
+        Err(ChartError::LengthMismatch {
+            expected: 41,
+            got: 40,
+            ..
+        })
+    ));
+    let mut empty = d;
+    empty.masks_deg.clear();
+    empty.contact_s_per_day.clear();
+    empty.rates.clear();
+    let svg = String::from_utf8(draw_mask(&empty, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(svg.contains("no mask values to plot"));
+}
+
+#[allow(dead_code)]
+fn _types_used(_: NaiveDate) {}
