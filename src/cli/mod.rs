@@ -31,6 +31,8 @@ pub enum Command {
     Budget(budget::BudgetArgs),
     /// Plan every pass: rate per pass (fixed and adaptive), usable mask, data volume.
     Plan(plan::PlanArgs),
+    /// Pass charts, sky tracks, mask trade-off and plan summary (PNG or SVG).
+    Chart(chart::ChartArgs),
     /// The elevation-mask trade-off: contact time and volume per day against the mask, per rate.
     Mask(plan::MaskArgs),
 }
@@ -44,6 +46,7 @@ pub fn run(args: Args, out: &mut dyn Write) -> anyhow::Result<()> {
         Command::Budget(a) => budget::budget(a, out),
         Command::Plan(a) => plan::plan(a, out),
         Command::Mask(a) => plan::mask(a, out),
+        Command::Chart(a) => chart::chart(a, out),
     }
 }
 

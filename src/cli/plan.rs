@@ -297,22 +297,18 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
         check_out_dir(d)?;
     }
     let p = prepare(&a.window)?;
-    let chart_hook = if a.charts {
-        Some(crate::cli::chart::pass_chart_hook(
-            &p,
-            a.out.as_deref().expect("clap requires --out"),
-            a.chart_format.into(),
-        ))
-    } else {
-        None
-    };
-    let plan = run_plan(
+    let collector = crate::cli::chart::ChartCollector::default();
+    let chart_dir = a.out.clone().unwrap_or_default();
+    let chart_hook = crate::cli::chart::pass_hook(
         &p,
-        a.out.as_deref(),
-        chart_hook
-            .as_ref()
-            .map(|h| h as &(dyn Fn(&PassSeries) -> Result<(), String> + Sync)),
-    )?;
+        &chart_dir,
+        a.chart_format.into(),
+        &collector,
+        true,
+        None,
+    );
+    let hook: Option<&crate::plan::PassSink> = if a.charts { Some(&chart_hook) } else { None };
+    let plan = run_plan(&p, a.out.as_deref(), hook)?;
     let days = seconds_between(&p.start, &p.end) / 86400.0;
     let rows: Vec<PlanPassRow> = plan
         .passes
@@ -349,7 +345,14 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
         write_atomic(&dir.join("masks.csv"), to_csv(&masks)?.as_bytes())
             .with_context(|| format!("{}: cannot write masks.csv", dir.display()))?;
         if a.charts {
-            crate::cli::chart::window_charts(&p, &plan, dir, a.chart_format.into())?;
+            crate::cli::chart::window_charts(
+                &p,
+                &plan,
+                dir,
+                a.chart_format.into(),
+                &collector,
+                (true, true, true),
+            )?;
         }
     }
     match a.format {
