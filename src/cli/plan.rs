@@ -161,20 +161,7 @@ pub fn check_out_dir(dir: &Path) -> Result<()> {
 
 /// File name of a pass's time series.
 pub fn pass_csv_name(number: usize, station: &str, aos: &DateTime<Utc>) -> String {
-    format!("pass-{number:03}-{}-{}.csv", slug(station), file_stamp(aos))
-}
-
-/// Lower-case, ASCII letters/digits and dashes.
-pub fn slug(s: &str) -> String {
-    let mut out = String::new();
-    for c in s.chars() {
-        if c.is_ascii_alphanumeric() {
-            out.push(c.to_ascii_lowercase());
-        } else if !out.ends_with('-') && !out.is_empty() {
-            out.push('-');
-        }
-    }
-    out.trim_end_matches('-').to_string()
+    format!("pass-{number:03}-{}-{}.csv", crate::chart::style::slug(station), file_stamp(aos))
 }
 
 /// Run the plan, streaming per-pass files to `out` if given.
