@@ -17,5 +17,6 @@ pub mod noise;
 pub mod orbit;
 pub mod plan;
 pub mod report;
+pub mod special;
 pub mod timefmt;
 pub mod units;

@@ -113,7 +113,7 @@ fn hand_computed_budget() {
     let tr = 10f64.powf(-0.025);
     let tsky = 275.0 * (1.0 - tr) + tbg * tr;
     let sigma = bw / (8.0 * 2f64.ln()).sqrt();
-    let fb = 0.5 * passbudget::link::special::erfc(30.0 / (sigma * 2f64.sqrt()));
+    let fb = 0.5 * passbudget::special::erfc(30.0 / (sigma * 2f64.sqrt()));
     let ta = 0.95 * ((1.0 - fb) * tsky + fb * 290.0) + 0.05 * 290.0;
     let l = 10f64.powf(0.03);
     let trx = (l - 1.0) * 290.0 + l * 60.0 + l * 290.0 * (10f64.powf(0.6) - 1.0) / 1000.0;

@@ -7,7 +7,7 @@ use passbudget::link::modcod::{
     scheme, scheme_index, schemes, uncoded_psk_required_ebn0_db, ErrorMeasure, ModcodError,
     Modulation, Provenance, TargetMatch,
 };
-use passbudget::link::special::{erfc, q_function};
+use passbudget::special::{erfc, q_function};
 
 fn load(name: &str) -> serde_json::Value {
     let path = format!("{}/tests/data/link/{name}", env!("CARGO_MANIFEST_DIR"));

@@ -1,7 +1,7 @@
 //! Radio link: free-space loss ([`path`]), spacecraft and ground antennas
 //! ([`antenna`]), polarization mismatch ([`polarization`]), modulation and coding
 //! ([`modcod`]), channel capacity ([`capacity`]) and the prepared link budget
-//! ([`budget`]). Special functions (erfc, Q and inverses) live in [`special`].
+//! ([`budget`]). Special functions (erfc, Q and inverses) live in [`crate::special`].
 //!
 //! The budget takes atmospheric numbers as plain inputs
 //! ([`budget::AtmosphereLoss`]); it does not depend on the atmosphere module.
@@ -12,4 +12,3 @@ pub mod capacity;
 pub mod modcod;
 pub mod path;
 pub mod polarization;
-pub mod special;

@@ -52,7 +52,7 @@
 //! 130.1-G-1 text gives (tested).
 
 use crate::link::capacity::shannon_limit_unchecked;
-use crate::link::special::q_inv;
+use crate::special::q_inv;
 use crate::units::ratio_to_db;
 
 /// Carrier modulation.

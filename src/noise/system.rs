@@ -25,7 +25,7 @@
 //! -90 <= el <= 90 deg; the model ignores the Sun/Moon and the ground's emissivity
 //! (< 1) and reflections.
 
-use crate::link::special::erfc;
+use crate::special::erfc;
 use crate::units::{db_to_ratio, noise_figure_db_to_temperature_k};
 
 /// Default ground brightness temperature, K (common practice: ~290 K).
