@@ -204,7 +204,7 @@ fn ccsds_thresholds_within_plausibility_bands() {
         .operating_point(Some(1e-5))
         .unwrap();
     assert!((r78.required_ebn0_db - r12.required_ebn0_db - 2.4).abs() < 0.2);
-    // CCSDS 130.1-G-1 §7.4 (text, https://www.coursehero.com/file/8958478/The-performance-gains-achieved-by-the-corresponding-rate-turbo/):
+    // CCSDS 130.1-G-1 §7.4 (text of the Green Book; read in a third-party copy of the document):
     // gains of the turbo codes over the corresponding-rate older codes ("range from 0.9 dB to 1.6 dB"),
     // for rate 1/2 against RS(255,223) + CC(7,1/2).
     let rs_cc = scheme("ccsds-rs-cc")

@@ -220,6 +220,9 @@ pub fn run_plan(
     if let Some(b) = bar {
         b.finish_and_clear();
     }
+    for w in plan_warnings(p, &plan) {
+        eprintln!("warning: {w}");
+    }
     for (i, s) in plan.stopped.iter().enumerate() {
         if let Some(e) = s {
             eprintln!("warning: {}: propagation stopped during the pass search for {}: {e}; later passes are not planned", p.elements.label(), p.stations[i].station.name);
@@ -228,18 +231,23 @@ pub fn run_plan(
     Ok(plan)
 }
 
-/// The `assumptions` block of the JSON summary.
-pub fn assumptions(p: &Prepared) -> serde_json::Value {
-    let mut warnings: Vec<String> = Vec::new();
-    for s in &p.stations {
-        let mut w = s.atmosphere.static_warnings();
-        if let Some(r) = p.rain {
-            w = w.union(&s.atmosphere.at(10.0, r).warnings);
+/// Every model warning of the plan, per station: the static ones and the union over its passes.
+pub fn plan_warnings(p: &Prepared, plan: &Plan) -> Vec<String> {
+    let mut out = Vec::new();
+    for (i, s) in p.stations.iter().enumerate() {
+        let mut w = crate::plan::series::PassWarnings { atmosphere: s.atmosphere.static_warnings(), ..Default::default() };
+        for x in plan.passes.iter().filter(|x| x.station_index == i) {
+            w = w.union(&x.warnings);
         }
-        for m in w.messages() {
-            warnings.push(format!("{}: {m}", s.station.name));
-        }
+        out.extend(w.messages().into_iter().map(|m| format!("{}: {m}", s.station.name)));
     }
+    out.extend(p.rates.warnings.iter().cloned());
+    out
+}
+
+/// The `assumptions` block of the JSON summary.
+pub fn assumptions(p: &Prepared, plan: &Plan) -> serde_json::Value {
+    let warnings = plan_warnings(p, plan);
     let mut defaults: Vec<serde_json::Value> = p.mission.defaults.iter().map(|d| serde_json::json!({"file": p.mission.source.display().to_string(), "key": d.key, "value": d.value, "source": d.source})).collect();
     for s in &p.stations {
         defaults.extend(s.station.defaults.iter().map(|d| serde_json::json!({"file": s.station.source.display().to_string(), "key": d.key, "value": d.value, "source": d.source})));
@@ -319,7 +327,7 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
         totals: &tot,
         days: &day_rows,
         usable_masks: &masks,
-        assumptions: assumptions(&p),
+        assumptions: assumptions(&p, &plan),
     };
     let json = serde_json::to_string_pretty(&doc)? + "\n";
     if let Some(dir) = &a.out {

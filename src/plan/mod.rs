@@ -13,7 +13,7 @@ pub mod prepare;
 pub mod rate;
 pub mod series;
 
-use crate::atmosphere::{ModelWarnings, Weather};
+use crate::atmosphere::Weather;
 use crate::geometry::{find_passes, Pass};
 use crate::link::budget::RateSpec;
 use crate::orbit::{ElementSet, PropagationError, Propagator};
@@ -24,7 +24,7 @@ use network::Segment;
 use prepare::{RateSet, StationModel};
 use rate::{adaptive_schedule, choose_fixed, kept_runs, switch_count, RateOption};
 use rayon::prelude::*;
-use series::{fill_pass, SeriesError, Step};
+use series::{fill_pass, PassWarnings, SeriesError, Step};
 
 /// What to plan.
 pub struct PlanInput<'a> {
@@ -77,7 +77,7 @@ pub struct PassPlan {
     /// Fixed-rate closed intervals (clear sky), seconds from the window start, for the network total.
     pub segments: Vec<Segment>,
     pub mask: MaskAccumulator,
-    pub warnings: ModelWarnings,
+    pub warnings: PassWarnings,
     pub steps: usize,
 }
 
@@ -150,7 +150,10 @@ pub fn run(
         found.extend(s.passes.into_iter().map(|p| (i, p)));
     }
     found.sort_by(|a, b| a.1.aos.cmp(&b.1.aos).then(a.0.cmp(&b.0)));
-    let reference = input.rates.ladder_specs[0];
+    let reference = *input.rates.ladder_specs.first().ok_or_else(|| PlanError::Setup("the rate ladder is empty".into()))?;
+    if input.rates.adaptive.is_empty() || !(input.step_s.is_finite() && input.step_s > 0.0) {
+        return Err(PlanError::Setup("the plan needs at least one rate and a step above zero".into()));
+    }
     let results: Vec<Result<PassPlan, PlanError>> = found
         .par_iter()
         .enumerate()
@@ -217,13 +220,9 @@ fn plan_pass(
         rain: input.rain,
         reference,
     };
-    fill_pass(prop, model, pass, &how, &mut s.steps).map_err(err)?;
+    let mut warnings = fill_pass(prop, model, pass, &how, &mut s.steps).map_err(err)?;
+    warnings.atmosphere = warnings.atmosphere.union(&model.atmosphere.static_warnings());
     let rates = input.rates;
-    let mut warnings = model.atmosphere.static_warnings();
-    if let Some(w) = input.rain {
-        let first = s.steps.first().map(|x| x.elevation_deg).unwrap_or(90.0);
-        warnings = warnings.union(&model.atmosphere.at(first.max(0.0), w).warnings);
-    }
     s.weights.clear();
     s.weights.extend(s.steps.iter().map(|x| x.weight_s));
     s.cn0.clear();

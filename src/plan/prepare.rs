@@ -80,6 +80,8 @@ pub struct RateSet {
     pub required_margin_db: f64,
     pub implementation_loss_db: f64,
     pub min_dwell_s: f64,
+    /// Notes on the thresholds (e.g. a scheme whose figure is for another error rate than asked).
+    pub warnings: Vec<String>,
 }
 
 /// Map the configured polarization sense to the link model's.
@@ -270,6 +272,7 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
             "modem.ladder has no rates; give at least one { rate_bps, scheme }",
         ));
     }
+    let warnings = std::cell::RefCell::new(Vec::<String>::new());
     let option = |rate_bps: f64,
                   name: &str,
                   line: Option<usize>|
@@ -277,6 +280,16 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         let idx = scheme_index(name).map_err(|e| model_err(path, line, e))?;
         let op = operating_point(idx, Some(m.target_ber))
             .map_err(|e| model_err(path, line, format!("{name}: {e}")))?;
+        if let crate::link::modcod::TargetMatch::Nearest { requested } = op.target_match {
+            let w = format!(
+                "{name}: no published threshold at the requested error rate {requested:e}; the figure for {:?} {:e} is used",
+                op.measure, op.error_rate
+            );
+            let mut ws = warnings.borrow_mut();
+            if !ws.contains(&w) {
+                ws.push(w);
+            }
+        }
         let spec = link
             .rate_spec(rate_bps, op, m.roll_off, m.implementation_loss_db)
             .map_err(|e| model_err(path, line, format!("{name} at {rate_bps} bit/s: {e}")))?;
@@ -334,5 +347,6 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         required_margin_db: m.required_margin_db,
         implementation_loss_db: m.implementation_loss_db,
         min_dwell_s: m.min_dwell_s,
+        warnings: warnings.into_inner(),
     })
 }

@@ -4,7 +4,7 @@
 //! [`budget_at`] is the one function that turns a look angle into a budget; the `budget --at`
 //! command uses it too, so the two always agree.
 
-use crate::atmosphere::{Attenuation, Weather};
+use crate::atmosphere::{Attenuation, ModelWarnings, Weather};
 use crate::geometry::{doppler_hz, Look, Pass};
 use crate::link::budget::{AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, RateSpec};
 use crate::orbit::{PropagationError, Propagator};
@@ -38,6 +38,34 @@ pub struct Step {
     pub rain_cn0_dbhz: f64,
 }
 
+/// Model warnings raised anywhere along a pass (the union over its steps, clear sky and rain).
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
+pub struct PassWarnings {
+    pub atmosphere: ModelWarnings,
+    /// The spacecraft antenna table did not reach the off-nadir angle: its end value was used.
+    pub pattern_clamped: bool,
+    /// The station direction was below the geometric horizon (a negative mask).
+    pub below_horizon: bool,
+}
+
+impl PassWarnings {
+    pub fn union(&self, o: &PassWarnings) -> PassWarnings {
+        PassWarnings { atmosphere: self.atmosphere.union(&o.atmosphere), pattern_clamped: self.pattern_clamped || o.pattern_clamped, below_horizon: self.below_horizon || o.below_horizon }
+    }
+
+    /// Messages naming the model and its range.
+    pub fn messages(&self) -> Vec<String> {
+        let mut m: Vec<String> = self.atmosphere.messages().map(String::from).collect();
+        if self.pattern_clamped {
+            m.push("spacecraft antenna: the pattern table does not reach the off-nadir angle, its end value was used".into());
+        }
+        if self.below_horizon {
+            m.push("geometry: the satellite was below the geometric horizon (negative mask); atmosphere evaluated at 0 deg".into());
+        }
+        m
+    }
+}
+
 /// Error while following a pass.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum SeriesError {
@@ -59,7 +87,8 @@ pub fn budget_at(
     weather: Weather,
     reference: RateSpec,
 ) -> Result<(Attenuation, BudgetValues), SeriesError> {
-    let att = model.atmosphere.at(look.elevation_deg.max(0.0), weather);
+    // The atmosphere flags (and clamps) elevations outside its range itself.
+    let att = model.atmosphere.at(look.elevation_deg, weather);
     let values = model
         .link
         .evaluate(
@@ -102,7 +131,7 @@ pub fn fill_pass(
     pass: &Pass,
     how: &StepPlan,
     steps: &mut Vec<Step>,
-) -> Result<(), SeriesError> {
+) -> Result<PassWarnings, SeriesError> {
     let StepPlan {
         step_s,
         frequency_hz,
@@ -110,6 +139,7 @@ pub fn fill_pass(
         reference,
     } = *how;
     steps.clear();
+    let mut warnings = PassWarnings::default();
     let duration_s = seconds_between(&pass.aos, &pass.los).max(0.0);
     let n = (duration_s / step_s).floor() as usize;
     for k in 0..=n + 1 {
@@ -126,6 +156,9 @@ pub fn fill_pass(
         let state = prop.ecef_at(&add_seconds(&pass.aos, t_s))?;
         let look = model.observer.look(&state);
         let (att, v) = budget_at(model, &look, Weather::ClearSky, reference)?;
+        warnings.atmosphere = warnings.atmosphere.union(&att.warnings);
+        warnings.pattern_clamped |= v.pattern_clamped;
+        warnings.below_horizon |= v.below_horizon;
         let mut step = Step {
             t_s,
             weight_s: 0.0,
@@ -149,6 +182,7 @@ pub fn fill_pass(
         };
         if let Some(w) = rain {
             let (ra, rv) = budget_at(model, &look, w, reference)?;
+            warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
             step.rain_atmospheric_loss_db = ra.total_db;
             step.rain_system_temperature_k = rv.system_temperature_k;
             step.rain_cn0_dbhz = rv.cn0_dbhz;
@@ -161,5 +195,5 @@ pub fn fill_pass(
             break;
         }
     }
-    Ok(())
+    Ok(warnings)
 }

@@ -45,6 +45,8 @@ pub struct PlanPassRow {
     pub rain_shannon_volume_bits: Option<f64>,
     pub starts_before_window: bool,
     pub ends_after_window: bool,
+    /// Model-range warnings raised along this pass (clear sky and rain case), joined by "; ".
+    pub warnings: String,
 }
 
 fn ratio(a: f64, b: f64) -> f64 {
@@ -95,6 +97,7 @@ impl PlanPassRow {
             rain_shannon_volume_bits: p.rain.as_ref().map(|r| r.shannon_volume_bits.round()),
             starts_before_window: p.pass.starts_before_window,
             ends_after_window: p.pass.ends_after_window,
+            warnings: p.warnings.messages().join("; "),
         }
     }
 }
