@@ -255,6 +255,8 @@ pub enum Key {
     Marker(MarkerShape, RGBColor),
     /// A filled box (colour, opacity).
     Band(RGBColor, f64),
+    /// A filled box and a marker of the same colour.
+    BandMarker(RGBColor, MarkerShape),
     /// Text only.
     Blank,
 }
@@ -289,6 +291,19 @@ where
                 draw_marker(area, m, ((x0 + x1) / 2, cy), 6, c)?;
             }
             Key::Blank => {}
+            Key::BandMarker(c, m) => {
+                let edge = ShapeStyle {
+                    color: INK.to_rgba(),
+                    filled: false,
+                    stroke_width: 1,
+                };
+                area.draw(&Rectangle::new(
+                    [(x0, cy - 9), (x0 + 18, cy + 9)],
+                    c.filled(),
+                ))?;
+                area.draw(&Rectangle::new([(x0, cy - 9), (x0 + 18, cy + 9)], edge))?;
+                draw_marker(area, m, (x1 - 10, cy), 6, c)?;
+            }
             Key::Band(c, a) => {
                 area.draw(&Rectangle::new(
                     [(x0, cy - 8), (x1, cy + 8)],
