@@ -206,35 +206,44 @@ where
         d.samples.iter().map(|s| (s.t_s, s.range_km)).collect(),
         rg
     );
-    // A single sample would draw no line: mark it.
-    if d.samples.len() == 1 {
-        let s = &d.samples[0];
-        let px = style::rel(area, chart.backend_coord(&(s.t_s, s.elevation_deg)));
-        style::draw_marker(area, style::MarkerShape::Circle, px, 6, el.color)?;
-    }
-
     // AOS / TCA / LOS labels along the top of the panel.
     let top = el_max;
     let aos_t = 0.0f64.max(c.t_lo);
     let los_t = seconds_between(&d.aos, &d.los).min(c.t_hi);
     let f = style::note_font(style::INK);
-    chart.draw_series([
-        Text::new(
-            format!(" AOS {}", d.aos.format("%H:%M:%S")),
+    let span = c.t_hi - c.t_lo;
+    if los_t - aos_t < 0.3 * span {
+        // too short to label both ends apart
+        chart.draw_series(std::iter::once(Text::new(
+            format!(
+                " AOS {} · LOS {}",
+                d.aos.format("%H:%M:%S"),
+                d.los.format("%H:%M:%S")
+            ),
             (aos_t, top),
             f.clone().pos(Pos::new(HPos::Left, VPos::Top)),
-        ),
-        Text::new(
-            format!("LOS {} ", d.los.format("%H:%M:%S")),
-            (los_t, top),
-            f.clone().pos(Pos::new(HPos::Right, VPos::Top)),
-        ),
-        Text::new(
+        )))?;
+    } else {
+        chart.draw_series([
+            Text::new(
+                format!(" AOS {}", d.aos.format("%H:%M:%S")),
+                (aos_t, top),
+                f.clone().pos(Pos::new(HPos::Left, VPos::Top)),
+            ),
+            Text::new(
+                format!("LOS {} ", d.los.format("%H:%M:%S")),
+                (los_t, top),
+                f.clone().pos(Pos::new(HPos::Right, VPos::Top)),
+            ),
+        ])?;
+    }
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
+        chart.draw_series(std::iter::once(Text::new(
             format!("TCA {}", d.tca.format("%H:%M:%S")),
-            (c.tca_s, top),
+            (c.tca_s.max(c.t_lo + 0.08 * span), top),
             f.pos(Pos::new(HPos::Center, VPos::Bottom)),
-        ),
-    ])?;
+        )))?;
+    }
 
     style::draw_legend(
         &legend,
@@ -346,11 +355,6 @@ where
         d.samples.iter().map(|s| (s.t_s, s.ebn0_db)).collect(),
         eb
     );
-    if d.samples.len() == 1 {
-        let s = &d.samples[0];
-        let px = style::rel(area, chart.backend_coord(&(s.t_s, s.ebn0_db)));
-        style::draw_marker(area, style::MarkerShape::Circle, px, 6, eb.color)?;
-    }
     let eb_label = match d.rate_bps {
         Some(r) => format!("Eb/N0 at {}", style::format_rate(r)),
         None => "Eb/N0 at lowest rate".to_string(),
@@ -363,7 +367,9 @@ where
         let r = s.adaptive_rate_bps.filter(|v| v.is_finite()).unwrap_or(0.0) / rate_div;
         let t_next = d.samples.get(i + 1).map(|n| n.t_s).unwrap_or(s.t_s);
         steps.push((s.t_s, r));
-        steps.push((t_next, r));
+        if t_next != s.t_s {
+            steps.push((t_next, r));
+        }
     }
     let ad = Stroke::dashed(style::AMBER, 3, 12, 5);
     stroke_line!(chart, draw_secondary_series, steps, ad);
@@ -373,29 +379,46 @@ where
     let mark = Stroke::solid(style::INK, 2);
     let f = style::note_font(style::INK);
     let mut marked = false;
-    if let Some(t) = d.closes_from {
-        let ts = seconds_between(&d.aos, &t);
-        if ts.is_finite() {
-            stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
-            chart.draw_series(std::iter::once(Text::new(
-                format!(" closes from {}", t.format("%H:%M:%S")),
-                (ts, y_hi),
-                f.clone().pos(Pos::new(HPos::Left, VPos::Bottom)),
-            )))?;
-            marked = true;
-        }
+    let span = c.t_hi - c.t_lo;
+    let in_range = |t: f64| t.is_finite() && t >= c.t_lo && t <= c.t_hi;
+    let from_s = d
+        .closes_from
+        .map(|t| seconds_between(&d.aos, &t))
+        .filter(|t| in_range(*t));
+    let until_s = d
+        .closes_until
+        .map(|t| seconds_between(&d.aos, &t))
+        .filter(|t| in_range(*t));
+    if let (Some(ts), Some(t)) = (from_s, d.closes_from) {
+        stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
+        chart.draw_series(std::iter::once(Text::new(
+            format!(" closes from {}", t.format("%H:%M:%S")),
+            (ts, y_hi),
+            f.clone().pos(Pos::new(HPos::Left, VPos::Bottom)),
+        )))?;
+        marked = true;
     }
-    if let Some(t) = d.closes_until {
-        let ts = seconds_between(&d.aos, &t);
-        if ts.is_finite() {
-            stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
-            chart.draw_series(std::iter::once(Text::new(
+    if let (Some(ts), Some(t)) = (until_s, d.closes_until) {
+        stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
+        // Close to the other mark: put this label inside the panel so the two do not overlap.
+        let crowded = from_s.is_some_and(|a| ts - a < 0.35 * span);
+        let (text, pos) = if crowded {
+            (
+                format!(" closes until {}", t.format("%H:%M:%S")),
+                Pos::new(HPos::Left, VPos::Top),
+            )
+        } else {
+            (
                 format!("closes until {} ", t.format("%H:%M:%S")),
-                (ts, y_hi),
-                f.clone().pos(Pos::new(HPos::Right, VPos::Bottom)),
-            )))?;
-            marked = true;
-        }
+                Pos::new(HPos::Right, VPos::Bottom),
+            )
+        };
+        chart.draw_series(std::iter::once(Text::new(
+            text,
+            (ts, y_hi),
+            f.clone().pos(pos),
+        )))?;
+        marked = true;
     }
     if marked {
         keys.push((
@@ -405,6 +428,8 @@ where
     } else {
         let msg = if d.rate_bps.is_none() {
             "no ladder rate closes on this pass"
+        } else if d.closes_from.is_some() || d.closes_until.is_some() {
+            "closing instants fall outside AOS–LOS"
         } else {
             "chosen rate: no closing instants given"
         };

@@ -220,12 +220,21 @@ pub fn rel<DB: DrawingBackend>(
     (abs.0 - bx, abs.1 - by)
 }
 
-/// Draw a line (split into finite runs) with a [`Stroke`]. Works for primary (`draw_series`) and
+/// Draw a line (split into finite runs; a lone finite point becomes a dot) with a [`Stroke`]. Works for primary (`draw_series`) and
 /// secondary (`draw_secondary_series`) coordinates.
 macro_rules! stroke_line {
     ($chart:expr, $method:ident, $points:expr, $stroke:expr) => {{
         let stroke: $crate::chart::style::Stroke = $stroke;
         for run in $crate::chart::style::finite_runs($points).into_iter() {
+            if run.len() == 1 {
+                // a lone point draws no line: show it as a dot
+                $chart.$method(std::iter::once(plotters::element::Circle::new(
+                    run[0],
+                    stroke.width as i32 + 3,
+                    plotters::style::Color::filled(&stroke.color),
+                )))?;
+                continue;
+            }
             match stroke.dash {
                 Some((on, off)) => {
                     $chart.$method(plotters::series::DashedLineSeries::new(
