@@ -202,7 +202,11 @@ fn pass_without_closing_rate() {
 fn pass_with_short_closing_window_keeps_labels_apart() {
     let d = synthetic_pass(9, utc(2026, 12, 2, 7, 0, 0), 17.5);
     let (a, b) = (d.closes_from.unwrap(), d.closes_until.unwrap());
-    assert!((b - a).num_seconds() < 200, "synthetic pass should close briefly: {}", (b - a).num_seconds());
+    assert!(
+        (b - a).num_seconds() < 200,
+        "synthetic pass should close briefly: {}",
+        (b - a).num_seconds()
+    );
     let png = draw_pass(&d, ChartFormat::Png).unwrap();
     dump("pass-short.png", &png);
     assert_not_blank(&png, 1600, 1000);

@@ -2,7 +2,10 @@
 //! east to the right (the view of an observer looking up, drawn as a map); elevation is 90° at the
 //! centre and 0° at the rim, linear in elevation. The horizon mask (the larger of the station's
 //! minimum elevation and its azimuth-dependent mask) is filled from the rim inward. Each pass
-//! track is drawn in segments whose look follows the margin bin of the segment's first point.
+//! track is drawn in segments whose look follows the margin bin of the segment's first point:
+//! margin at least the required margin – NAVY, solid; between 0 and the required margin – AMBER,
+//! long dashes; below 0 – PLUM, short dashes; no budget – SLATE, thin dots. AOS, TCA and LOS carry
+//! a circle, a diamond and a square.
 
 use plotters::coord::Shift;
 use plotters::prelude::*;

@@ -3,22 +3,26 @@
 //!
 //! # Colour scheme
 //!
-//! Our own five-colour scheme, chosen so that every pair differs in *lightness* and not only in
-//! hue, and so that the hues sit on the blue–orange axis, which stays distinct for the common
+//! Our own five-colour scheme. The colours spread over lightness (dark, mid, light) and not only
+//! over hue, and the main hues sit on the blue–orange axis, which stays distinct for the common
 //! red–green colour-vision deficiencies (common practice in chart design):
 //!
 //! | name    | sRGB      | approx. CIE L* | use                                  |
 //! |---------|-----------|----------------|--------------------------------------|
-//! | NAVY    | `#1c3d72` | 27             | first series, "margin met"           |
-//! | AMBER   | `#e69520` | 69             | second series, "marginal"            |
-//! | SKY     | `#7fc3ea` | 75             | third series, fills                  |
-//! | PLUM    | `#86306f` | 33             | fourth series, "link fails"          |
+//! | NAVY    | `#1c3d72` | 26             | first series, "margin met"           |
+//! | AMBER   | `#e69520` | 68             | second series, "marginal"            |
+//! | SKY     | `#7fc3ea` | 76             | third series, fills                  |
+//! | PLUM    | `#86306f` | 35             | fourth series, "link fails"          |
 //! | SLATE   | `#5d6670` | 43             | fifth series, reference lines        |
+//!
+//! (L* computed from the sRGB values with the CIE 1976 formula, D65 white.) The horizon-mask
+//! fill TERRAIN `#d6cfc2` (L* 83) is lighter than every line colour.
 //!
 //! Because NAVY/PLUM and AMBER/SKY are close in lightness, series never rely on colour alone: each
 //! series index also gets its own line pattern ([`Stroke::series`]: solid, long dash, short dash,
-//! dot, dash-dot-like) and its own marker shape ([`MarkerShape`]), so the charts read in greyscale
-//! print as well. Text is near-black on white; grid lines are light grey.
+//! dots, very long dash) and its own marker shape ([`MarkerShape`]: circle, triangle, square,
+//! cross, diamond), so the charts read in greyscale print as well. Bars carry a dark outline.
+//! Text is near-black on white; grid lines are light grey.
 
 use std::sync::OnceLock;
 
