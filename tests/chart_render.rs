@@ -525,3 +525,36 @@ fn summary_renders() {
     assert!(svg.contains("no passes in the window"));
     let _ = NaiveDate::from_ymd_opt(2026, 12, 2);
 }
+
+#[test]
+fn non_finite_inputs_do_not_leak_or_panic() {
+    let no_nan = |bytes: Vec<u8>| {
+        let svg = String::from_utf8(bytes).unwrap();
+        assert!(
+            !svg.contains("NaN") && !svg.contains("inf"),
+            "non-finite text in SVG"
+        );
+    };
+    let mut sky = sample_sky();
+    sky.passes[0].points[3].azimuth_deg = f64::NAN;
+    sky.passes[1].points[5].margin_db = Some(f64::INFINITY);
+    sky.horizon_mask.push([f64::NAN, 7.0]);
+    sky.min_elevation_deg = f64::NAN;
+    sky.required_margin_db = f64::NAN;
+    no_nan(draw_sky(&sky, ChartFormat::Svg).unwrap());
+    draw_sky(&sky, ChartFormat::Png).unwrap();
+
+    let mut mask = sample_mask();
+    mask.contact_s_per_day[4] = f64::NAN;
+    mask.rates[0].volume_bits_per_day[7] = f64::INFINITY;
+    mask.configured_mask_deg = f64::NAN;
+    no_nan(draw_mask(&mask, ChartFormat::Svg).unwrap());
+    draw_mask(&mask, ChartFormat::Png).unwrap();
+
+    let mut sum = sample_summary();
+    sum.passes[2].volume_bits = f64::NAN;
+    sum.passes[3].adaptive_volume_bits = f64::INFINITY;
+    sum.days[1].shannon_bits = f64::NAN;
+    no_nan(draw_summary(&sum, ChartFormat::Svg).unwrap());
+    draw_summary(&sum, ChartFormat::Png).unwrap();
+}

@@ -46,8 +46,8 @@ fn title_lines(d: &PassChartData) -> (String, String) {
         (None, _) => "no rate closes".to_string(),
     };
     let line2 = format!(
-        "max elevation {}° · {rate} · volume {} (adaptive {})",
-        style::fmt_or_na(d.max_elevation_deg, 1),
+        "max elevation {} · {rate} · volume {} (adaptive {})",
+        style::deg_or_na(d.max_elevation_deg),
         style::format_volume(d.volume_bits),
         style::format_volume(d.adaptive_volume_bits),
     );

@@ -130,10 +130,10 @@ where
     };
     title.draw(&Text::new(
         format!(
-            "Sky track · {} pass{} · required margin {req:.1} dB · minimum elevation {}°",
+            "Sky track · {} pass{} · required margin {req:.1} dB · minimum elevation {}",
             d.passes.len(),
             if d.passes.len() == 1 { "" } else { "es" },
-            style::fmt_or_na(d.min_elevation_deg, 1),
+            style::deg_or_na(d.min_elevation_deg),
         ),
         (24, 56),
         style::label_font(),

@@ -58,7 +58,6 @@ pub fn ensure_font() -> Result<(), ChartError> {
 pub const INK: RGBColor = RGBColor(0x20, 0x20, 0x20);
 pub const MUTED: RGBColor = RGBColor(0x55, 0x55, 0x55);
 pub const GRID: RGBColor = RGBColor(0xdc, 0xdc, 0xdc);
-pub const GRID_LIGHT: RGBColor = RGBColor(0xee, 0xee, 0xee);
 pub const NAVY: RGBColor = RGBColor(0x1c, 0x3d, 0x72);
 pub const AMBER: RGBColor = RGBColor(0xe6, 0x95, 0x20);
 pub const SKY: RGBColor = RGBColor(0x7f, 0xc3, 0xea);
@@ -265,7 +264,6 @@ pub(crate) use stroke_line;
 pub enum Key {
     Line(Stroke),
     LineMarker(Stroke, MarkerShape),
-    Marker(MarkerShape, RGBColor),
     /// A filled box (colour, opacity).
     Band(RGBColor, f64),
     /// A filled box and a marker of the same colour.
@@ -299,9 +297,6 @@ where
             Key::LineMarker(s, m) => {
                 draw_key_line(area, s, x0, x1, cy)?;
                 draw_marker(area, m, ((x0 + x1) / 2, cy), 6, s.color)?;
-            }
-            Key::Marker(m, c) => {
-                draw_marker(area, m, ((x0 + x1) / 2, cy), 6, c)?;
             }
             Key::Blank => {}
             Key::BandMarker(c, m) => {
@@ -545,10 +540,10 @@ pub fn num_label(v: &f64) -> String {
     }
 }
 
-/// A number for titles, `n/a` when not finite.
-pub fn fmt_or_na(v: f64, decimals: usize) -> String {
+/// An angle for titles, `56.1°`, or `n/a` when not finite.
+pub fn deg_or_na(v: f64) -> String {
     if v.is_finite() {
-        format!("{v:.decimals$}")
+        format!("{v:.1}°")
     } else {
         "n/a".into()
     }
