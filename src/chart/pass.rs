@@ -348,6 +348,9 @@ where
         keys.push((Key::Line(req_stroke), format!("margin 0: Eb/N0 {r:.1} dB")));
     }
 
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
+        stroke_line!(chart, draw_series, vline(c.tca_s, (y_lo, y_hi)), TCA_STROKE);
+    }
     let eb = Stroke::series(0, 3);
     stroke_line!(
         chart,
@@ -389,29 +392,35 @@ where
         .closes_until
         .map(|t| seconds_between(&d.aos, &t))
         .filter(|t| in_range(*t));
-    if let (Some(ts), Some(t)) = (from_s, d.closes_from) {
-        stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
-        chart.draw_series(std::iter::once(Text::new(
-            format!(" closes from {}", t.format("%H:%M:%S")),
-            (ts, y_hi),
-            f.clone().pos(Pos::new(HPos::Left, VPos::Bottom)),
-        )))?;
-        marked = true;
-    }
-    if let (Some(ts), Some(t)) = (until_s, d.closes_until) {
-        stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
-        // Close to the other mark: put this label inside the panel so the two do not overlap.
-        let crowded = from_s.is_some_and(|a| ts - a < 0.35 * span);
-        let (text, pos) = if crowded {
-            (
-                format!(" closes until {}", t.format("%H:%M:%S")),
-                Pos::new(HPos::Left, VPos::Top),
-            )
+    // Label beside its line: "from" prefers the right side, "until" the left, each flipping
+    // near the panel edge so it is never cut off. When the two lines are close, the "until"
+    // label moves to a second row inside the panel.
+    let label_pos = |ts: f64, prefer_right: bool, inside: bool| {
+        let right = if prefer_right {
+            ts < c.t_lo + 0.7 * span
         } else {
-            (
-                format!("closes until {} ", t.format("%H:%M:%S")),
-                Pos::new(HPos::Right, VPos::Bottom),
-            )
+            ts < c.t_lo + 0.3 * span
+        };
+        let v = if inside { VPos::Top } else { VPos::Bottom };
+        (
+            right,
+            Pos::new(if right { HPos::Left } else { HPos::Right }, v),
+        )
+    };
+    let crowded = matches!((from_s, until_s), (Some(a), Some(b)) if (b - a).abs() < 0.35 * span);
+    for (ts, t, what, prefer_right, inside) in [
+        (from_s, d.closes_from, "closes from", true, false),
+        (until_s, d.closes_until, "closes until", crowded, crowded),
+    ] {
+        let (Some(ts), Some(t)) = (ts, t) else {
+            continue;
+        };
+        stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
+        let (right, pos) = label_pos(ts, prefer_right, inside);
+        let text = if right {
+            format!(" {what} {}", t.format("%H:%M:%S"))
+        } else {
+            format!("{what} {} ", t.format("%H:%M:%S"))
         };
         chart.draw_series(std::iter::once(Text::new(
             text,
@@ -498,6 +507,14 @@ where
         .axis_desc_style(style::label_font())
         .label_style(style::tick_font())
         .draw()?;
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
+        stroke_line!(
+            chart,
+            draw_series,
+            vline(c.tca_s, (k_lo.max(0.0), k_hi)),
+            TCA_STROKE
+        );
+    }
     let ts = Stroke::series(0, 3);
     stroke_line!(
         chart,
