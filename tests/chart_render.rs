@@ -199,6 +199,22 @@ fn pass_without_closing_rate() {
 }
 
 #[test]
+fn pass_with_short_closing_window_keeps_labels_apart() {
+    let d = synthetic_pass(9, utc(2026, 12, 2, 7, 0, 0), 17.5);
+    let (a, b) = (d.closes_from.unwrap(), d.closes_until.unwrap());
+    assert!(
+        (b - a).num_seconds() < 200,
+        "synthetic pass should close briefly: {}",
+        (b - a).num_seconds()
+    );
+    let png = draw_pass(&d, ChartFormat::Png).unwrap();
+    dump("pass-short.png", &png);
+    assert_not_blank(&png, 1600, 1000);
+    let svg = String::from_utf8(draw_pass(&d, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(svg.contains(&format!(" closes until {}", b.format("%H:%M:%S"))));
+}
+
+#[test]
 fn pass_edge_cases_do_not_panic() {
     let mut empty = sample_pass();
     empty.samples.clear();
@@ -423,5 +439,122 @@ fn mask_renders() {
     assert!(svg.contains("no mask values to plot"));
 }
 
-#[allow(dead_code)]
-fn _types_used(_: NaiveDate) {}
+/// SYNTHETIC 7-day plan at three invented stations, about 150 passes.
+fn sample_summary() -> SummaryChartData {
+    let start = utc(2026, 12, 2, 0, 0, 0);
+    let stations = vec![
+        "Sierra Baja".to_string(),
+        "Punta Lenga".to_string(),
+        "Isla Corva".to_string(),
+    ];
+    let mut passes = Vec::new();
+    let mut k = 0u64;
+    let mut t = start + Duration::minutes(37);
+    while t < start + Duration::days(7) {
+        // toy pseudo-random volumes from a fixed integer sequence (deterministic)
+        k = k
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
+        let u = (k >> 33) as f64 / (1u64 << 31) as f64;
+        let dur = Duration::seconds(240 + (u * 480.0) as i64);
+        passes.push(SummaryBar {
+            aos: t,
+            los: t + dur,
+            station_index: (k >> 20) as usize % 3,
+            volume_bits: if u < 0.1 { 0.0 } else { u * 30e9 },
+            adaptive_volume_bits: u * 42e9,
+        });
+        t += Duration::minutes(67);
+    }
+    let days = (0..7)
+        .map(|i| {
+            let day = start + Duration::days(i);
+            let of_day = passes
+                .iter()
+                .filter(|p| p.aos >= day && p.aos < day + Duration::days(1));
+            let (f, a) = of_day.fold((0.0, 0.0), |(f, a), p| {
+                (f + p.volume_bits, a + p.adaptive_volume_bits)
+            });
+            DayTotals {
+                date: day.date_naive(),
+                fixed_bits: f,
+                adaptive_bits: a,
+                shannon_bits: 1.6 * a,
+            }
+        })
+        .collect();
+    SummaryChartData {
+        satellite: "KESTREL-7 (synthetic)".into(),
+        start,
+        end: start + Duration::days(7),
+        stations,
+        passes,
+        days,
+    }
+}
+
+#[test]
+fn summary_renders() {
+    let d = sample_summary();
+    assert!(d.passes.len() > 140);
+    let png = draw_summary(&d, ChartFormat::Png).unwrap();
+    dump("summary.png", &png);
+    assert_not_blank(&png, 1600, 1000);
+    let svg = String::from_utf8(draw_summary(&d, ChartFormat::Svg).unwrap()).unwrap();
+    for needle in [
+        "Plan summary · KESTREL-7 (synthetic)",
+        "Volume per pass (Gbit)",
+        "Volume per day (Gbit)",
+        "Punta Lenga",
+        "Shannon bound",
+        "2026-12-03",
+        "Thu 12-03",
+    ] {
+        assert!(svg.contains(needle), "SVG lacks {needle:?}");
+    }
+    assert_eq!(draw_summary(&d, ChartFormat::Png).unwrap(), png);
+    assert_eq!(
+        summary_file_name(&d.satellite, &d.start, &d.end, ChartFormat::Svg),
+        "summary-kestrel-7-synthetic-20261202-20261209.svg"
+    );
+    let mut empty = d;
+    empty.passes.clear();
+    empty.days.clear();
+    empty.end = empty.start;
+    let svg = String::from_utf8(draw_summary(&empty, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(svg.contains("no passes in the window"));
+    let _ = NaiveDate::from_ymd_opt(2026, 12, 2);
+}
+
+#[test]
+fn non_finite_inputs_do_not_leak_or_panic() {
+    let no_nan = |bytes: Vec<u8>| {
+        let svg = String::from_utf8(bytes).unwrap();
+        assert!(
+            !svg.contains("NaN") && !svg.contains("inf"),
+            "non-finite text in SVG"
+        );
+    };
+    let mut sky = sample_sky();
+    sky.passes[0].points[3].azimuth_deg = f64::NAN;
+    sky.passes[1].points[5].margin_db = Some(f64::INFINITY);
+    sky.horizon_mask.push([f64::NAN, 7.0]);
+    sky.min_elevation_deg = f64::NAN;
+    sky.required_margin_db = f64::NAN;
+    no_nan(draw_sky(&sky, ChartFormat::Svg).unwrap());
+    draw_sky(&sky, ChartFormat::Png).unwrap();
+
+    let mut mask = sample_mask();
+    mask.contact_s_per_day[4] = f64::NAN;
+    mask.rates[0].volume_bits_per_day[7] = f64::INFINITY;
+    mask.configured_mask_deg = f64::NAN;
+    no_nan(draw_mask(&mask, ChartFormat::Svg).unwrap());
+    draw_mask(&mask, ChartFormat::Png).unwrap();
+
+    let mut sum = sample_summary();
+    sum.passes[2].volume_bits = f64::NAN;
+    sum.passes[3].adaptive_volume_bits = f64::INFINITY;
+    sum.days[1].shannon_bits = f64::NAN;
+    no_nan(draw_summary(&sum, ChartFormat::Svg).unwrap());
+    draw_summary(&sum, ChartFormat::Png).unwrap();
+}

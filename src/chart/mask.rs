@@ -76,8 +76,8 @@ where
     ))?;
     title.draw(&Text::new(
         format!(
-            "contact time and data volume per day above each mask · configured mask {}°",
-            style::fmt_or_na(d.configured_mask_deg, 1)
+            "contact time and data volume per day above each mask · configured mask {}",
+            style::deg_or_na(d.configured_mask_deg)
         ),
         (30, 60),
         style::label_font(),

@@ -13,6 +13,14 @@
 //! global state apart from the one-time, thread-safe registration of the bundled font, so charts
 //! may be drawn in parallel.
 //!
+//! # Look
+//!
+//! Our own colour scheme (navy `#1c3d72`, amber `#e69520`, sky `#7fc3ea`, plum `#86306f`, slate
+//! `#5d6670`) spreads over lightness as well as hue and keeps to the blue–orange axis, so it stays
+//! readable for the common red–green colour-vision deficiencies; on top of colour, every series
+//! has its own line pattern and marker shape, and bars have dark outlines, so the charts also work
+//! in greyscale print. Titles are 30 px, axis labels 22 px, tick labels 18 px, notes 17 px.
+//!
 //! Text uses the bundled DejaVu Sans (`fonts/`, Bitstream Vera licence) through plotters'
 //! `ab_glyph` renderer, so no system font library is needed.
 
@@ -20,7 +28,7 @@ pub mod data;
 mod mask;
 mod pass;
 mod sky;
-pub mod style;
+mod style;
 mod summary;
 
 use std::path::{Path, PathBuf};
@@ -122,7 +130,10 @@ fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError
     }
 }
 
-/// Encode an 8-bit RGB buffer as PNG (fast deflate; charts are mostly flat colour).
+/// Encode an 8-bit RGB buffer as PNG with the fast deflate setting: on the pass chart about 10 ms
+/// and ~320 kB, against ~30 ms and ~140 kB with the default setting (measured with
+/// `benches/charts.rs`). Drawing a week's ~150 charts must stay a small part of the plan's time,
+/// so speed wins; the SVG format is smaller and faster still.
 fn encode_png(rgb: &[u8], w: u32, h: u32) -> Result<Vec<u8>, ChartError> {
     let mut out = Vec::with_capacity(rgb.len() / 20);
     {

@@ -46,8 +46,8 @@ fn title_lines(d: &PassChartData) -> (String, String) {
         (None, _) => "no rate closes".to_string(),
     };
     let line2 = format!(
-        "max elevation {}° · {rate} · volume {} (adaptive {})",
-        style::fmt_or_na(d.max_elevation_deg, 1),
+        "max elevation {} · {rate} · volume {} (adaptive {})",
+        style::deg_or_na(d.max_elevation_deg),
         style::format_volume(d.volume_bits),
         style::format_volume(d.adaptive_volume_bits),
     );
@@ -206,35 +206,44 @@ where
         d.samples.iter().map(|s| (s.t_s, s.range_km)).collect(),
         rg
     );
-    // A single sample would draw no line: mark it.
-    if d.samples.len() == 1 {
-        let s = &d.samples[0];
-        let px = style::rel(area, chart.backend_coord(&(s.t_s, s.elevation_deg)));
-        style::draw_marker(area, style::MarkerShape::Circle, px, 6, el.color)?;
-    }
-
     // AOS / TCA / LOS labels along the top of the panel.
     let top = el_max;
     let aos_t = 0.0f64.max(c.t_lo);
     let los_t = seconds_between(&d.aos, &d.los).min(c.t_hi);
     let f = style::note_font(style::INK);
-    chart.draw_series([
-        Text::new(
-            format!(" AOS {}", d.aos.format("%H:%M:%S")),
+    let span = c.t_hi - c.t_lo;
+    if los_t - aos_t < 0.3 * span {
+        // too short to label both ends apart
+        chart.draw_series(std::iter::once(Text::new(
+            format!(
+                " AOS {} · LOS {}",
+                d.aos.format("%H:%M:%S"),
+                d.los.format("%H:%M:%S")
+            ),
             (aos_t, top),
             f.clone().pos(Pos::new(HPos::Left, VPos::Top)),
-        ),
-        Text::new(
-            format!("LOS {} ", d.los.format("%H:%M:%S")),
-            (los_t, top),
-            f.clone().pos(Pos::new(HPos::Right, VPos::Top)),
-        ),
-        Text::new(
+        )))?;
+    } else {
+        chart.draw_series([
+            Text::new(
+                format!(" AOS {}", d.aos.format("%H:%M:%S")),
+                (aos_t, top),
+                f.clone().pos(Pos::new(HPos::Left, VPos::Top)),
+            ),
+            Text::new(
+                format!("LOS {} ", d.los.format("%H:%M:%S")),
+                (los_t, top),
+                f.clone().pos(Pos::new(HPos::Right, VPos::Top)),
+            ),
+        ])?;
+    }
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
+        chart.draw_series(std::iter::once(Text::new(
             format!("TCA {}", d.tca.format("%H:%M:%S")),
-            (c.tca_s, top),
+            (c.tca_s.max(c.t_lo + 0.08 * span), top),
             f.pos(Pos::new(HPos::Center, VPos::Bottom)),
-        ),
-    ])?;
+        )))?;
+    }
 
     style::draw_legend(
         &legend,
@@ -339,6 +348,9 @@ where
         keys.push((Key::Line(req_stroke), format!("margin 0: Eb/N0 {r:.1} dB")));
     }
 
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
+        stroke_line!(chart, draw_series, vline(c.tca_s, (y_lo, y_hi)), TCA_STROKE);
+    }
     let eb = Stroke::series(0, 3);
     stroke_line!(
         chart,
@@ -346,11 +358,6 @@ where
         d.samples.iter().map(|s| (s.t_s, s.ebn0_db)).collect(),
         eb
     );
-    if d.samples.len() == 1 {
-        let s = &d.samples[0];
-        let px = style::rel(area, chart.backend_coord(&(s.t_s, s.ebn0_db)));
-        style::draw_marker(area, style::MarkerShape::Circle, px, 6, eb.color)?;
-    }
     let eb_label = match d.rate_bps {
         Some(r) => format!("Eb/N0 at {}", style::format_rate(r)),
         None => "Eb/N0 at lowest rate".to_string(),
@@ -363,7 +370,9 @@ where
         let r = s.adaptive_rate_bps.filter(|v| v.is_finite()).unwrap_or(0.0) / rate_div;
         let t_next = d.samples.get(i + 1).map(|n| n.t_s).unwrap_or(s.t_s);
         steps.push((s.t_s, r));
-        steps.push((t_next, r));
+        if t_next != s.t_s {
+            steps.push((t_next, r));
+        }
     }
     let ad = Stroke::dashed(style::AMBER, 3, 12, 5);
     stroke_line!(chart, draw_secondary_series, steps, ad);
@@ -373,29 +382,52 @@ where
     let mark = Stroke::solid(style::INK, 2);
     let f = style::note_font(style::INK);
     let mut marked = false;
-    if let Some(t) = d.closes_from {
-        let ts = seconds_between(&d.aos, &t);
-        if ts.is_finite() {
-            stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
-            chart.draw_series(std::iter::once(Text::new(
-                format!(" closes from {}", t.format("%H:%M:%S")),
-                (ts, y_hi),
-                f.clone().pos(Pos::new(HPos::Left, VPos::Bottom)),
-            )))?;
-            marked = true;
-        }
-    }
-    if let Some(t) = d.closes_until {
-        let ts = seconds_between(&d.aos, &t);
-        if ts.is_finite() {
-            stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
-            chart.draw_series(std::iter::once(Text::new(
-                format!("closes until {} ", t.format("%H:%M:%S")),
-                (ts, y_hi),
-                f.clone().pos(Pos::new(HPos::Right, VPos::Bottom)),
-            )))?;
-            marked = true;
-        }
+    let span = c.t_hi - c.t_lo;
+    let in_range = |t: f64| t.is_finite() && t >= c.t_lo && t <= c.t_hi;
+    let from_s = d
+        .closes_from
+        .map(|t| seconds_between(&d.aos, &t))
+        .filter(|t| in_range(*t));
+    let until_s = d
+        .closes_until
+        .map(|t| seconds_between(&d.aos, &t))
+        .filter(|t| in_range(*t));
+    // Label beside its line: "from" prefers the right side, "until" the left, each flipping
+    // near the panel edge so it is never cut off. When the two lines are close, the "until"
+    // label moves to a second row inside the panel.
+    let label_pos = |ts: f64, prefer_right: bool, inside: bool| {
+        let right = if prefer_right {
+            ts < c.t_lo + 0.7 * span
+        } else {
+            ts < c.t_lo + 0.3 * span
+        };
+        let v = if inside { VPos::Top } else { VPos::Bottom };
+        (
+            right,
+            Pos::new(if right { HPos::Left } else { HPos::Right }, v),
+        )
+    };
+    let crowded = matches!((from_s, until_s), (Some(a), Some(b)) if (b - a).abs() < 0.35 * span);
+    for (ts, t, what, prefer_right, inside) in [
+        (from_s, d.closes_from, "closes from", true, false),
+        (until_s, d.closes_until, "closes until", crowded, crowded),
+    ] {
+        let (Some(ts), Some(t)) = (ts, t) else {
+            continue;
+        };
+        stroke_line!(chart, draw_series, vec![(ts, y_lo), (ts, y_hi)], mark);
+        let (right, pos) = label_pos(ts, prefer_right, inside);
+        let text = if right {
+            format!(" {what} {}", t.format("%H:%M:%S"))
+        } else {
+            format!("{what} {} ", t.format("%H:%M:%S"))
+        };
+        chart.draw_series(std::iter::once(Text::new(
+            text,
+            (ts, y_hi),
+            f.clone().pos(pos),
+        )))?;
+        marked = true;
     }
     if marked {
         keys.push((
@@ -405,6 +437,8 @@ where
     } else {
         let msg = if d.rate_bps.is_none() {
             "no ladder rate closes on this pass"
+        } else if d.closes_from.is_some() || d.closes_until.is_some() {
+            "closing instants fall outside AOS–LOS"
         } else {
             "chosen rate: no closing instants given"
         };
@@ -473,6 +507,14 @@ where
         .axis_desc_style(style::label_font())
         .label_style(style::tick_font())
         .draw()?;
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
+        stroke_line!(
+            chart,
+            draw_series,
+            vline(c.tca_s, (k_lo.max(0.0), k_hi)),
+            TCA_STROKE
+        );
+    }
     let ts = Stroke::series(0, 3);
     stroke_line!(
         chart,

@@ -2,7 +2,10 @@
 //! east to the right (the view of an observer looking up, drawn as a map); elevation is 90° at the
 //! centre and 0° at the rim, linear in elevation. The horizon mask (the larger of the station's
 //! minimum elevation and its azimuth-dependent mask) is filled from the rim inward. Each pass
-//! track is drawn in segments whose look follows the margin bin of the segment's first point.
+//! track is drawn in segments whose look follows the margin bin of the segment's first point:
+//! margin at least the required margin – NAVY, solid; between 0 and the required margin – AMBER,
+//! long dashes; below 0 – PLUM, short dashes; no budget – SLATE, thin dots. AOS, TCA and LOS carry
+//! a circle, a diamond and a square.
 
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -127,10 +130,10 @@ where
     };
     title.draw(&Text::new(
         format!(
-            "Sky track · {} pass{} · required margin {req:.1} dB · minimum elevation {}°",
+            "Sky track · {} pass{} · required margin {req:.1} dB · minimum elevation {}",
             d.passes.len(),
             if d.passes.len() == 1 { "" } else { "es" },
-            style::fmt_or_na(d.min_elevation_deg, 1),
+            style::deg_or_na(d.min_elevation_deg),
         ),
         (24, 56),
         style::label_font(),

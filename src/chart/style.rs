@@ -3,22 +3,26 @@
 //!
 //! # Colour scheme
 //!
-//! Our own five-colour scheme, chosen so that every pair differs in *lightness* and not only in
-//! hue, and so that the hues sit on the blue–orange axis, which stays distinct for the common
+//! Our own five-colour scheme. The colours spread over lightness (dark, mid, light) and not only
+//! over hue, and the main hues sit on the blue–orange axis, which stays distinct for the common
 //! red–green colour-vision deficiencies (common practice in chart design):
 //!
 //! | name    | sRGB      | approx. CIE L* | use                                  |
 //! |---------|-----------|----------------|--------------------------------------|
-//! | NAVY    | `#1c3d72` | 27             | first series, "margin met"           |
-//! | AMBER   | `#e69520` | 69             | second series, "marginal"            |
-//! | SKY     | `#7fc3ea` | 75             | third series, fills                  |
-//! | PLUM    | `#86306f` | 33             | fourth series, "link fails"          |
+//! | NAVY    | `#1c3d72` | 26             | first series, "margin met"           |
+//! | AMBER   | `#e69520` | 68             | second series, "marginal"            |
+//! | SKY     | `#7fc3ea` | 76             | third series, fills                  |
+//! | PLUM    | `#86306f` | 35             | fourth series, "link fails"          |
 //! | SLATE   | `#5d6670` | 43             | fifth series, reference lines        |
+//!
+//! (L* computed from the sRGB values with the CIE 1976 formula, D65 white.) The horizon-mask
+//! fill TERRAIN `#d6cfc2` (L* 83) is lighter than every line colour.
 //!
 //! Because NAVY/PLUM and AMBER/SKY are close in lightness, series never rely on colour alone: each
 //! series index also gets its own line pattern ([`Stroke::series`]: solid, long dash, short dash,
-//! dot, dash-dot-like) and its own marker shape ([`MarkerShape`]), so the charts read in greyscale
-//! print as well. Text is near-black on white; grid lines are light grey.
+//! dots, very long dash) and its own marker shape ([`MarkerShape`]: circle, triangle, square,
+//! cross, diamond), so the charts read in greyscale print as well. Bars carry a dark outline.
+//! Text is near-black on white; grid lines are light grey.
 
 use std::sync::OnceLock;
 
@@ -54,7 +58,6 @@ pub fn ensure_font() -> Result<(), ChartError> {
 pub const INK: RGBColor = RGBColor(0x20, 0x20, 0x20);
 pub const MUTED: RGBColor = RGBColor(0x55, 0x55, 0x55);
 pub const GRID: RGBColor = RGBColor(0xdc, 0xdc, 0xdc);
-pub const GRID_LIGHT: RGBColor = RGBColor(0xee, 0xee, 0xee);
 pub const NAVY: RGBColor = RGBColor(0x1c, 0x3d, 0x72);
 pub const AMBER: RGBColor = RGBColor(0xe6, 0x95, 0x20);
 pub const SKY: RGBColor = RGBColor(0x7f, 0xc3, 0xea);
@@ -220,12 +223,21 @@ pub fn rel<DB: DrawingBackend>(
     (abs.0 - bx, abs.1 - by)
 }
 
-/// Draw a line (split into finite runs) with a [`Stroke`]. Works for primary (`draw_series`) and
+/// Draw a line (split into finite runs; a lone finite point becomes a dot) with a [`Stroke`]. Works for primary (`draw_series`) and
 /// secondary (`draw_secondary_series`) coordinates.
 macro_rules! stroke_line {
     ($chart:expr, $method:ident, $points:expr, $stroke:expr) => {{
         let stroke: $crate::chart::style::Stroke = $stroke;
         for run in $crate::chart::style::finite_runs($points).into_iter() {
+            if run.len() == 1 {
+                // a lone point draws no line: show it as a dot
+                $chart.$method(std::iter::once(plotters::element::Circle::new(
+                    run[0],
+                    stroke.width as i32 + 3,
+                    plotters::style::Color::filled(&stroke.color),
+                )))?;
+                continue;
+            }
             match stroke.dash {
                 Some((on, off)) => {
                     $chart.$method(plotters::series::DashedLineSeries::new(
@@ -252,9 +264,10 @@ pub(crate) use stroke_line;
 pub enum Key {
     Line(Stroke),
     LineMarker(Stroke, MarkerShape),
-    Marker(MarkerShape, RGBColor),
     /// A filled box (colour, opacity).
     Band(RGBColor, f64),
+    /// A filled box and a marker of the same colour.
+    BandMarker(RGBColor, MarkerShape),
     /// Text only.
     Blank,
 }
@@ -285,10 +298,20 @@ where
                 draw_key_line(area, s, x0, x1, cy)?;
                 draw_marker(area, m, ((x0 + x1) / 2, cy), 6, s.color)?;
             }
-            Key::Marker(m, c) => {
-                draw_marker(area, m, ((x0 + x1) / 2, cy), 6, c)?;
-            }
             Key::Blank => {}
+            Key::BandMarker(c, m) => {
+                let edge = ShapeStyle {
+                    color: INK.to_rgba(),
+                    filled: false,
+                    stroke_width: 1,
+                };
+                area.draw(&Rectangle::new(
+                    [(x0, cy - 9), (x0 + 18, cy + 9)],
+                    c.filled(),
+                ))?;
+                area.draw(&Rectangle::new([(x0, cy - 9), (x0 + 18, cy + 9)], edge))?;
+                draw_marker(area, m, (x1 - 10, cy), 6, c)?;
+            }
             Key::Band(c, a) => {
                 area.draw(&Rectangle::new(
                     [(x0, cy - 8), (x1, cy + 8)],
@@ -517,10 +540,10 @@ pub fn num_label(v: &f64) -> String {
     }
 }
 
-/// A number for titles, `n/a` when not finite.
-pub fn fmt_or_na(v: f64, decimals: usize) -> String {
+/// An angle for titles, `56.1°`, or `n/a` when not finite.
+pub fn deg_or_na(v: f64) -> String {
     if v.is_finite() {
-        format!("{v:.decimals$}")
+        format!("{v:.1}°")
     } else {
         "n/a".into()
     }
