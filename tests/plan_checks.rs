@@ -105,10 +105,24 @@ fn plan_json_contract_and_invariants() {
     // The network total counts each second once: never more than the sum over stations.
     assert!(t["network_volume_bits"].as_f64().unwrap() <= t["volume_bits"].as_f64().unwrap() + 1.0);
     assert!(doc["assumptions"].is_object());
-    // Usable mask of every rate is at least the station mask.
-    for m in doc["usable_masks"].as_array().unwrap() {
+    // Usable mask of every rate is at least the station mask, and a higher rate's usable mask is
+    // never lower than a lower rate's at the same station (it never closes earlier).
+    let masks = doc["usable_masks"].as_array().unwrap();
+    for m in masks {
         if let Some(u) = m["usable_mask_deg"].as_f64() {
             assert!(u >= m["station_mask_deg"].as_f64().unwrap() - 1e-9, "{m}");
+        }
+    }
+    for a in masks {
+        for b in masks {
+            if a["station"] == b["station"] && b["rate_bps"].as_f64() > a["rate_bps"].as_f64() {
+                if let (Some(ua), Some(ub)) =
+                    (a["usable_mask_deg"].as_f64(), b["usable_mask_deg"].as_f64())
+                {
+                    assert!(ub >= ua - 1e-9, "{a} vs {b}");
+                }
+                assert!(b["passes_closing"].as_u64() <= a["passes_closing"].as_u64());
+            }
         }
     }
     // The example shows the trade-offs: a small dish in a wet climate loses passes in rain.
@@ -255,7 +269,13 @@ fn a_higher_rate_never_closes_earlier() {
         let mut prev: Option<(usize, usize)> = None;
         let mut runs = Vec::new();
         for &k in &order {
-            kept_runs(&cn0, &w, rates.ladder[k].threshold_cn0_dbhz, 0.0, &mut runs);
+            kept_runs(
+                &cn0,
+                &w,
+                rates.ladder[k].threshold_cn0_dbhz,
+                rates.min_dwell_s,
+                &mut runs,
+            );
             let Some(&(first, _)) = runs.first() else {
                 break;
             };

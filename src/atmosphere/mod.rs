@@ -92,6 +92,9 @@ impl Weather {
     }
 }
 
+/// Elevations within this margin below 5 deg count as 5 deg for the choice of the >= 5 deg forms, deg.
+pub const LOW_ELEVATION_TOLERANCE_DEG: f64 = 1e-3;
+
 /// Lowest exceedance accepted, percent (P.618-14 §2.5).
 pub const EXCEEDANCE_MIN_PERCENT: f64 = 0.001;
 /// Highest exceedance accepted, percent (P.618-14 §2.5).
@@ -505,7 +508,9 @@ impl PreparedAtmosphere {
                 0.0
             }
         };
-        let low = el < 5.0;
+        // The pass search lands AOS/LOS on a 5 deg mask to within ~1e-3 deg; such a step is treated
+        // as at 5 deg rather than flagged as a low-elevation case.
+        let low = el < 5.0 - LOW_ELEVATION_TOLERANCE_DEG;
         w.elevation_below_5_deg = low;
 
         // Gas: A = (γo ho + γw hw)/sin θ for θ ≥ 5°; curved-Earth form below (P.676 Annex 2).

@@ -600,28 +600,7 @@ pub fn time_label(origin: &DateTime<Utc>, t_s: f64, step_s: i64, multi_day: bool
     }
 }
 
-/// File-name-safe lower-case slug: `Sierra Baja` -> `sierra-baja`.
-pub fn slug(name: &str) -> String {
-    let mut out = String::with_capacity(name.len());
-    let mut dash = false;
-    for c in name.chars() {
-        if c.is_ascii_alphanumeric() {
-            out.push(c.to_ascii_lowercase());
-            dash = false;
-        } else if !out.is_empty() && !dash {
-            out.push('-');
-            dash = true;
-        }
-    }
-    while out.ends_with('-') {
-        out.pop();
-    }
-    if out.is_empty() {
-        "unnamed".into()
-    } else {
-        out
-    }
-}
+pub(crate) use crate::report::slug;
 
 #[cfg(test)]
 mod tests {

@@ -161,7 +161,11 @@ pub fn check_out_dir(dir: &Path) -> Result<()> {
 
 /// File name of a pass's time series.
 pub fn pass_csv_name(number: usize, station: &str, aos: &DateTime<Utc>) -> String {
-    format!("pass-{number:03}-{}-{}.csv", crate::chart::style::slug(station), file_stamp(aos))
+    format!(
+        "pass-{number:03}-{}-{}.csv",
+        crate::report::slug(station),
+        file_stamp(aos)
+    )
 }
 
 /// Run the plan, streaming per-pass files to `out` if given.
@@ -235,11 +239,18 @@ pub fn run_plan(
 pub fn plan_warnings(p: &Prepared, plan: &Plan) -> Vec<String> {
     let mut out = Vec::new();
     for (i, s) in p.stations.iter().enumerate() {
-        let mut w = crate::plan::series::PassWarnings { atmosphere: s.atmosphere.static_warnings(), ..Default::default() };
+        let mut w = crate::plan::series::PassWarnings {
+            atmosphere: s.atmosphere.static_warnings(),
+            ..Default::default()
+        };
         for x in plan.passes.iter().filter(|x| x.station_index == i) {
             w = w.union(&x.warnings);
         }
-        out.extend(w.messages().into_iter().map(|m| format!("{}: {m}", s.station.name)));
+        out.extend(
+            w.messages()
+                .into_iter()
+                .map(|m| format!("{}: {m}", s.station.name)),
+        );
     }
     out.extend(p.rates.warnings.iter().cloned());
     out
@@ -253,7 +264,39 @@ pub fn assumptions(p: &Prepared, plan: &Plan) -> serde_json::Value {
         defaults.extend(s.station.defaults.iter().map(|d| serde_json::json!({"file": s.station.source.display().to_string(), "key": d.key, "value": d.value, "source": d.source})));
     }
     let tx = p.mission.transmitter.as_ref();
+    let option_json = |mode: &str,
+                       o: &crate::plan::rate::RateOption,
+                       spec: &crate::link::budget::RateSpec| {
+        let op = spec.operating();
+        let (status, source) = match op.provenance {
+            crate::link::modcod::Provenance::Computed(s) => ("computed", s),
+            crate::link::modcod::Provenance::Published(s) => ("published", s),
+            crate::link::modcod::Provenance::FromMemory(s) => ("from memory", s),
+        };
+        serde_json::json!({
+            "mode": mode, "rate_bps": o.rate_bps, "scheme": o.scheme, "required_ebn0_db": o.required_ebn0_db,
+            "error_rate": op.error_rate, "error_measure": format!("{:?}", op.measure).to_uppercase(),
+            "threshold_status": status, "threshold_source": source,
+            "threshold_cn0_dbhz": crate::report::round(o.threshold_cn0_dbhz, 4),
+            "occupied_bandwidth_hz": o.occupied_bandwidth_hz.round(),
+        })
+    };
+    let mut rate_options: Vec<serde_json::Value> = p
+        .rates
+        .ladder
+        .iter()
+        .zip(&p.rates.ladder_specs)
+        .map(|(o, s)| option_json("fixed", o, s))
+        .collect();
+    rate_options.extend(
+        p.rates
+            .adaptive
+            .iter()
+            .zip(&p.rates.adaptive_specs)
+            .map(|(o, s)| option_json("adaptive", o, s)),
+    );
     serde_json::json!({
+        "rate_options": rate_options,
         "window_start": format_ms(&p.start),
         "window_end": format_ms(&p.end),
         "step_s": p.step_s,

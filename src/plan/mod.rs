@@ -150,9 +150,15 @@ pub fn run(
         found.extend(s.passes.into_iter().map(|p| (i, p)));
     }
     found.sort_by(|a, b| a.1.aos.cmp(&b.1.aos).then(a.0.cmp(&b.0)));
-    let reference = *input.rates.ladder_specs.first().ok_or_else(|| PlanError::Setup("the rate ladder is empty".into()))?;
+    let reference = *input
+        .rates
+        .ladder_specs
+        .first()
+        .ok_or_else(|| PlanError::Setup("the rate ladder is empty".into()))?;
     if input.rates.adaptive.is_empty() || !(input.step_s.is_finite() && input.step_s > 0.0) {
-        return Err(PlanError::Setup("the plan needs at least one rate and a step above zero".into()));
+        return Err(PlanError::Setup(
+            "the plan needs at least one rate and a step above zero".into(),
+        ));
     }
     let results: Vec<Result<PassPlan, PlanError>> = found
         .par_iter()
@@ -221,7 +227,9 @@ fn plan_pass(
         reference,
     };
     let mut warnings = fill_pass(prop, model, pass, &how, &mut s.steps).map_err(err)?;
-    warnings.atmosphere = warnings.atmosphere.union(&model.atmosphere.static_warnings());
+    warnings.atmosphere = warnings
+        .atmosphere
+        .union(&model.atmosphere.static_warnings());
     let rates = input.rates;
     s.weights.clear();
     s.weights.extend(s.steps.iter().map(|x| x.weight_s));

@@ -159,6 +159,16 @@ pub fn station_model(
         },
         TxPatternConfig::Table { points } => TxPattern::Table(points.clone()),
     };
+    // A radome (or any loss in front of the feed) at the ground temperature attenuates the signal
+    // and adds noise: it is folded into the receiver's first passive stage together with the feed
+    // loss. Two passive losses L1 (at T1) then L2 (at T2) equal one loss L1 L2 at
+    // T = [(L1 - 1) T1 + L1 (L2 - 1) T2] / (L1 L2 - 1)   (Friis cascade of passive stages).
+    let (feed_loss_db, feed_temperature_k) = combine_passive(
+        ant.radome_loss_db,
+        ant.ground_temperature_k,
+        rx.feed_loss_db,
+        rx.feed_temperature_k,
+    );
     let spec = LinkModelSpec {
         frequency_hz: tx.frequency_hz,
         transmitter: TransmitterSpec {
@@ -168,8 +178,8 @@ pub fn station_model(
         },
         ground_antenna: ground_spec,
         receiver: ReceiverSpec {
-            feed_loss_db: rx.feed_loss_db,
-            feed_temperature_k: rx.feed_temperature_k,
+            feed_loss_db,
+            feed_temperature_k,
             lna_noise: LnaNoise::TemperatureK(rx.lna_noise_temperature_k),
             lna_gain_db: rx.lna_gain_db,
             later_noise_figure_db: rx.followon_noise_figure_db,
@@ -188,7 +198,7 @@ pub fn station_model(
                 axial_ratio_db: ant.axial_ratio_db,
             },
             orientation: EllipseOrientation::WorstCase,
-            extra_loss_db: ant.radome_loss_db,
+            extra_loss_db: 0.0,
         },
         max_occupied_bandwidth_hz: mission.modem.as_ref().and_then(|m| m.max_bandwidth_hz),
     };
@@ -227,6 +237,20 @@ pub fn station_model(
         antenna_diameter_m: diameter_m,
         polarization_tilt_deg,
     })
+}
+
+/// Two passive losses in cascade as one: `(loss_db, physical_temperature_k)`.
+pub fn combine_passive(l1_db: f64, t1_k: f64, l2_db: f64, t2_k: f64) -> (f64, f64) {
+    let (l1, l2) = (
+        crate::units::db_to_ratio(l1_db),
+        crate::units::db_to_ratio(l2_db),
+    );
+    let l = l1 * l2;
+    if l - 1.0 < 1e-12 {
+        return (0.0, t2_k);
+    }
+    let t = ((l1 - 1.0) * t1_k + l1 * (l2 - 1.0) * t2_k) / (l - 1.0);
+    (l1_db + l2_db, t)
 }
 
 /// The weather of the availability case, checked against the station climate.
@@ -280,10 +304,16 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         let idx = scheme_index(name).map_err(|e| model_err(path, line, e))?;
         let op = operating_point(idx, Some(m.target_ber))
             .map_err(|e| model_err(path, line, format!("{name}: {e}")))?;
-        if let crate::link::modcod::TargetMatch::Nearest { requested } = op.target_match {
+        // A BER figure at another BER than asked is worth a warning; FER/PER figures (AR4JA,
+        // DVB-S2) are for their own measure and are listed in the plan's assumptions.
+        if let (
+            crate::link::modcod::TargetMatch::Nearest { requested },
+            crate::link::modcod::ErrorMeasure::Ber,
+        ) = (op.target_match, op.measure)
+        {
             let w = format!(
-                "{name}: no published threshold at the requested error rate {requested:e}; the figure for {:?} {:e} is used",
-                op.measure, op.error_rate
+                "{name}: no threshold at the requested BER {requested:e}; the figure for BER {:e} is used",
+                op.error_rate
             );
             let mut ws = warnings.borrow_mut();
             if !ws.contains(&w) {
@@ -349,4 +379,23 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         min_dwell_s: m.min_dwell_s,
         warnings: warnings.into_inner(),
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::combine_passive;
+
+    #[test]
+    fn passive_losses_in_cascade() {
+        // (L - 1) T of the combination equals the Friis sum of the two stages (first principles).
+        let (l_db, t) = combine_passive(0.5, 290.0, 0.3, 270.0);
+        let (l1, l2) = (10f64.powf(0.05), 10f64.powf(0.03));
+        let want = (l1 - 1.0) * 290.0 + l1 * (l2 - 1.0) * 270.0;
+        assert!((l_db - 0.8).abs() < 1e-12);
+        assert!(((10f64.powf(0.08) - 1.0) * t - want).abs() < 1e-9);
+        // A 0.5 dB radome at 290 K alone adds (10^0.05 - 1) 290 = 35.4 K at the antenna terminals.
+        let (_, t) = combine_passive(0.5, 290.0, 0.0, 290.0);
+        assert!((t - 290.0).abs() < 1e-9);
+        assert_eq!(combine_passive(0.0, 290.0, 0.0, 300.0), (0.0, 300.0));
+    }
 }

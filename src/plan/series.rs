@@ -50,7 +50,11 @@ pub struct PassWarnings {
 
 impl PassWarnings {
     pub fn union(&self, o: &PassWarnings) -> PassWarnings {
-        PassWarnings { atmosphere: self.atmosphere.union(&o.atmosphere), pattern_clamped: self.pattern_clamped || o.pattern_clamped, below_horizon: self.below_horizon || o.below_horizon }
+        PassWarnings {
+            atmosphere: self.atmosphere.union(&o.atmosphere),
+            pattern_clamped: self.pattern_clamped || o.pattern_clamped,
+            below_horizon: self.below_horizon || o.below_horizon,
+        }
     }
 
     /// Messages naming the model and its range.

@@ -52,6 +52,29 @@ pub fn to_csv<T: serde::Serialize>(rows: &[T]) -> Result<String, csv::Error> {
     Ok(String::from_utf8(bytes).expect("csv writes UTF-8"))
 }
 
+/// File-name-safe lower-case slug: `Sierra Baja` -> `sierra-baja`.
+pub fn slug(name: &str) -> String {
+    let mut out = String::with_capacity(name.len());
+    let mut dash = false;
+    for c in name.chars() {
+        if c.is_ascii_alphanumeric() {
+            out.push(c.to_ascii_lowercase());
+            dash = false;
+        } else if !out.is_empty() && !dash {
+            out.push('-');
+            dash = true;
+        }
+    }
+    while out.ends_with('-') {
+        out.pop();
+    }
+    if out.is_empty() {
+        "unnamed".into()
+    } else {
+        out
+    }
+}
+
 /// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).
 pub fn round(x: f64, digits: i32) -> f64 {
     let s = 10f64.powi(digits);
