@@ -402,3 +402,49 @@ fn bad_plan_input_gives_one_clear_line_and_writes_nothing() {
         assert_eq!(std::fs::read_dir(&out_dir).unwrap().count(), 0);
     }
 }
+
+/// The README's main-job command on the shipped example writes the plan, every pass's time series
+/// and every chart, and leaves no staging folder behind; a second run replaces the first.
+#[test]
+fn readme_main_command_writes_plan_series_and_charts() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let o = out.to_string_lossy().into_owned();
+    let r = run_bin(&["plan", MISSION, "--out", &o, "--charts"]);
+    assert!(r.status.success(), "{}", String::from_utf8_lossy(&r.stderr));
+    let table = String::from_utf8_lossy(&r.stdout);
+    assert!(
+        table.contains("Window totals") && table.contains("licence"),
+        "{table}"
+    );
+    let names: Vec<String> = std::fs::read_dir(&out)
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    let summary: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(out.join("summary.json")).unwrap()).unwrap();
+    let n = summary["passes"].as_array().unwrap().len();
+    let count = |pre: &str, ext: &str| {
+        names
+            .iter()
+            .filter(|x| x.starts_with(pre) && x.ends_with(ext))
+            .count()
+    };
+    assert_eq!(count("pass-", ".csv"), n);
+    assert_eq!(count("pass-", ".png"), n);
+    assert!(count("sky-", ".png") >= 3 * 7);
+    assert_eq!(count("mask-", ".png"), 4);
+    assert_eq!(count("summary-", ".png"), 1);
+    assert!(
+        !names.iter().any(|x| x.starts_with('.')),
+        "no staging folder or temporary file left: {names:?}"
+    );
+    // A shorter second run replaces the files of the first rather than mixing with them.
+    let r = run_bin(&["plan", MISSION, "--days", "0.5", "--out", &o]);
+    assert!(r.status.success());
+    let after = std::fs::read_dir(&out).unwrap().count();
+    assert!(
+        after < names.len() / 4,
+        "{after} files after the second run"
+    );
+}

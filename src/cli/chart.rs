@@ -222,7 +222,7 @@ pub fn window_charts(
                 station: st.station.name.clone(),
                 satellite: satellite.clone(),
                 title_date: day.format("%Y-%m-%d").to_string(),
-                min_elevation_deg: st.mask.min_elevation_deg(),
+                min_elevation_deg: st.configured_min_elevation_deg,
                 horizon_mask: st.station.horizon_mask.clone(),
                 required_margin_db: p.rates.required_margin_db,
                 passes,
@@ -327,6 +327,17 @@ pub fn window_charts(
 /// `passbudget chart`.
 pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     check_out_dir(&a.out)?;
+    let staging = crate::report::Staging::new(&a.out).map_err(|e| {
+        anyhow::anyhow!(
+            "--out {}: cannot create a staging folder: {e}",
+            a.out.display()
+        )
+    })?;
+    let final_out = a.out.clone();
+    let a = ChartArgs {
+        out: staging.path().to_path_buf(),
+        ..a
+    };
     let p = prepare(&a.window)?;
     let format: ChartFormat = a.format.into();
     let collector = ChartCollector::default();
@@ -364,12 +375,25 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     } else {
         0
     };
+    // Only the charts drawn now are replaced: other files in the folder (a plan's CSVs, other
+    // passes' charts) are left as they are.
+    let names = staging
+        .staged_names()
+        .map_err(|e| anyhow::anyhow!("--out {}: {e}", final_out.display()))?;
+    staging
+        .commit(|n| names.iter().any(|x| x == n))
+        .map_err(|e| {
+            anyhow::anyhow!(
+                "--out {}: cannot move the charts into place: {e}",
+                final_out.display()
+            )
+        })?;
     writeln!(
         out,
         "{} pass chart(s) and {} window chart(s) written to {}",
         passes_drawn,
         written.len(),
-        a.out.display()
+        final_out.display()
     )?;
     Ok(())
 }

@@ -15,6 +15,9 @@ use serde::Serialize;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
+/// Longest budget step along a pass, s.
+pub const MAX_STEP_S: f64 = 10.0;
+
 /// Options shared by `plan`, `mask` and `chart`.
 #[derive(Debug, Clone, clap::Args)]
 pub struct WindowArgs {
@@ -81,6 +84,13 @@ pub struct Prepared {
 
 /// Load the mission and prepare every model; CLI flags win over the file.
 pub fn prepare(w: &WindowArgs) -> Result<Prepared> {
+    prepare_with_floor(w, None)
+}
+
+/// Like [`prepare`], but the pass search runs down to `search_floor_deg` (the horizon mask still
+/// applies) while the configured minimum elevation is kept for reporting: used for the mask
+/// trade-off, which must show what masks below the configured one would bring.
+pub fn prepare_with_floor(w: &WindowArgs, search_floor_deg: Option<f64>) -> Result<Prepared> {
     let mission = Mission::load(&w.mission)?;
     if mission.stations.is_empty() {
         bail!(
@@ -99,7 +109,16 @@ pub fn prepare(w: &WindowArgs) -> Result<Prepared> {
     let stations = mission
         .stations
         .iter()
-        .map(|s| station_model(&mission, s, mask))
+        .map(|s| {
+            let configured = mask.unwrap_or(s.min_elevation_deg);
+            let mut m = station_model(
+                &mission,
+                s,
+                Some(search_floor_deg.map_or(configured, |f| f.min(configured))),
+            )?;
+            m.configured_min_elevation_deg = configured;
+            Ok::<_, crate::plan::prepare::PrepareError>(m)
+        })
         .collect::<Result<Vec<_>, _>>()?;
     let rates = rate_set(&mission, &stations[0].link)?;
     let start = match &w.start {
@@ -129,8 +148,13 @@ pub fn prepare(w: &WindowArgs) -> Result<Prepared> {
     if !(step_s.is_finite() && step_s > 0.0) {
         bail!("--step {step_s}: the step must be above zero seconds");
     }
-    if step_s > 60.0 {
-        bail!("--step {step_s}: steps above 60 s are too coarse to follow a LEO pass");
+    if step_s > MAX_STEP_S
+        || (mission
+            .modem
+            .as_ref()
+            .is_some_and(|m| m.min_dwell_s >= 2.0 && step_s > m.min_dwell_s / 2.0))
+    {
+        bail!("--step {step_s}: the step must be at most {MAX_STEP_S} s and at most half of modem.min_dwell_s, or the dwell rule and the closing edges are miscounted");
     }
     let exceedance_percent = w.exceedance_percent.or(mission.exceedance_percent);
     let rain = availability_weather(exceedance_percent, &stations)?;
@@ -173,6 +197,16 @@ pub fn run_plan(
     p: &Prepared,
     out: Option<&Path>,
     pass_hook: Option<&crate::plan::PassSink>,
+) -> Result<Plan> {
+    run_plan_quietly(p, out, pass_hook, false)
+}
+
+/// [`run_plan`], optionally without repeating the warnings on stderr (for a second run of the same window).
+pub fn run_plan_quietly(
+    p: &Prepared,
+    out: Option<&Path>,
+    pass_hook: Option<&crate::plan::PassSink>,
+    quiet: bool,
 ) -> Result<Plan> {
     let input = PlanInput {
         elements: &p.elements,
@@ -223,6 +257,9 @@ pub fn run_plan(
     let plan = crate::plan::run(&input, &sink, &progress).map_err(|e| anyhow!("{e}"))?;
     if let Some(b) = bar {
         b.finish_and_clear();
+    }
+    if quiet {
+        return Ok(plan);
     }
     for w in plan_warnings(p, &plan) {
         eprintln!("warning: {w}");
@@ -320,6 +357,11 @@ pub fn assumptions(p: &Prepared, plan: &Plan) -> serde_json::Value {
     })
 }
 
+fn hh_mm_ss(seconds: f64) -> String {
+    let s = seconds.max(0.0).round() as i64;
+    format!("{}:{:02}:{:02}", s / 3600, (s / 60) % 60, s % 60)
+}
+
 fn gbit(bits: f64) -> String {
     format!("{:.2}", bits / 1e9)
 }
@@ -331,9 +373,17 @@ fn mbps(r: Option<f64>) -> String {
 
 /// `passbudget plan`.
 pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
-    if let Some(d) = &a.out {
-        check_out_dir(d)?;
-    }
+    let staging = match &a.out {
+        Some(d) => {
+            check_out_dir(d)?;
+            Some(crate::report::Staging::new(d).with_context(|| {
+                format!("--out {}: cannot create a staging folder", d.display())
+            })?)
+        }
+        None => None,
+    };
+    let staged: Option<PathBuf> = staging.as_ref().map(|s| s.path().to_path_buf());
+    let a = PlanArgs { out: staged, ..a };
     let p = prepare(&a.window)?;
     let collector = crate::cli::chart::ChartCollector::default();
     let chart_dir = a.out.clone().unwrap_or_default();
@@ -392,6 +442,19 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
                 (true, true, true),
             )?;
         }
+    }
+    if let Some(st) = staging {
+        let target = st
+            .path()
+            .parent()
+            .map(Path::to_path_buf)
+            .unwrap_or_default();
+        st.commit(crate::report::is_output_name).with_context(|| {
+            format!(
+                "--out {}: cannot move the results into place",
+                target.display()
+            )
+        })?;
     }
     match a.format {
         Format::Json => write!(out, "{json}")?,
@@ -474,7 +537,7 @@ fn print_plan_table(
     let mut d = Table::new(&[
         ("day (UTC)", Align::Left),
         ("passes", Align::Right),
-        ("contact", Align::Right),
+        ("contact h:mm:ss", Align::Right),
         ("fixed Gb", Align::Right),
         ("adapt Gb", Align::Right),
         ("Shannon Gb", Align::Right),
@@ -484,7 +547,7 @@ fn print_plan_table(
         d.row(vec![
             r.date.clone(),
             r.passes.to_string(),
-            crate::report::mm_ss(r.contact_s),
+            hh_mm_ss(r.contact_s),
             gbit(r.volume_bits),
             gbit(r.adaptive_volume_bits),
             gbit(r.shannon_volume_bits),
@@ -559,7 +622,8 @@ fn print_plan_table(
 
 /// `passbudget mask`.
 pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
-    let p = prepare(&a.window)?;
+    // Search from 0 deg so the trade-off shows what masks below the configured one would bring.
+    let p = prepare_with_floor(&a.window, Some(0.0))?;
     let plan = run_plan(&p, None, None)?;
     let days = seconds_between(&p.start, &p.end) / 86400.0;
     let rows = tradeoff(&plan, &p.stations, &p.rates, days, a.mask_step);

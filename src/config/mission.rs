@@ -253,7 +253,7 @@ impl Mission {
             mask_deg: None,
         });
         let step_s = match p.step_s {
-            Some(v) => range(&["planning", "step_s"], v, 0.01, 600.0, "s")?,
+            Some(v) => range(&["planning", "step_s"], v, 0.01, 10.0, "s")?,
             None => 1.0,
         };
         let exceedance_percent = p

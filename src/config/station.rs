@@ -248,6 +248,12 @@ impl Station {
             }
         }
         horizon_mask.sort_by(|a, b| a[0].total_cmp(&b[0]));
+        if let Some(w) = horizon_mask.windows(2).find(|w| w[0][0] == w[1][0]) {
+            return Err(c.err(
+                &["horizon_mask"],
+                format!("two points at azimuth {} deg", w[0][0]),
+            ));
+        }
 
         let antenna = match &file.antenna {
             None => None,

@@ -118,6 +118,11 @@ pub struct Plan {
     pub station_masks: Vec<MaskAccumulator>,
     pub network_volume_bits: f64,
     pub network_contact_s: f64,
+    /// The availability (rain) case was planned.
+    pub rain_planned: bool,
+    /// The planning window.
+    pub start: DateTime<Utc>,
+    pub end: DateTime<Utc>,
 }
 
 /// Per-thread scratch buffers: reused across passes so the per-step loop allocates nothing.
@@ -198,6 +203,9 @@ pub fn run(
         station_masks,
         network_volume_bits,
         network_contact_s,
+        rain_planned: input.rain.is_some(),
+        start: input.start,
+        end: input.end,
     })
 }
 

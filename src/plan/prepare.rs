@@ -64,6 +64,9 @@ pub struct StationModel {
     pub antenna_diameter_m: f64,
     /// Polarization tilt used for P.838 (45 deg for circular polarization).
     pub polarization_tilt_deg: f64,
+    /// The minimum elevation the operator configured (station file or override), deg. The pass
+    /// search may use a lower one (the mask trade-off searches from 0 deg).
+    pub configured_min_elevation_deg: f64,
 }
 
 /// The modem's rate options, prepared.
@@ -236,6 +239,7 @@ pub fn station_model(
         mean_radiating_temperature_k: mean_radiating_temperature_k(c.temperature_k),
         antenna_diameter_m: diameter_m,
         polarization_tilt_deg,
+        configured_min_elevation_deg: min,
     })
 }
 

@@ -40,6 +40,83 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
     result
 }
 
+/// An output folder filled in a hidden staging folder beside its files and moved into place only
+/// when the whole run has succeeded: a failed run changes nothing in the folder, and files of our
+/// naming scheme left by an earlier run are replaced rather than mixed with the new ones.
+pub struct Staging {
+    final_dir: std::path::PathBuf,
+    dir: std::path::PathBuf,
+    committed: bool,
+}
+
+impl Staging {
+    /// Create `final_dir` if needed and a staging folder inside it.
+    pub fn new(final_dir: &Path) -> std::io::Result<Staging> {
+        std::fs::create_dir_all(final_dir)?;
+        let dir = final_dir.join(format!(".passbudget-staging-{}", std::process::id()));
+        if dir.exists() {
+            std::fs::remove_dir_all(&dir)?;
+        }
+        std::fs::create_dir(&dir)?;
+        Ok(Staging {
+            final_dir: final_dir.to_path_buf(),
+            dir,
+            committed: false,
+        })
+    }
+
+    /// Where the files are written during the run.
+    pub fn path(&self) -> &Path {
+        &self.dir
+    }
+
+    /// Names of the files staged so far.
+    pub fn staged_names(&self) -> std::io::Result<Vec<String>> {
+        std::fs::read_dir(&self.dir)?
+            .map(|e| e.map(|e| e.file_name().to_string_lossy().into_owned()))
+            .collect()
+    }
+
+    /// Remove the earlier files for which `ours` holds, then move every staged file into place.
+    pub fn commit(mut self, ours: impl Fn(&str) -> bool) -> std::io::Result<()> {
+        for e in std::fs::read_dir(&self.final_dir)? {
+            let e = e?;
+            let name = e.file_name().to_string_lossy().into_owned();
+            if e.file_type()?.is_file() && ours(&name) {
+                std::fs::remove_file(e.path())?;
+            }
+        }
+        for e in std::fs::read_dir(&self.dir)? {
+            let e = e?;
+            std::fs::rename(e.path(), self.final_dir.join(e.file_name()))?;
+        }
+        std::fs::remove_dir(&self.dir)?;
+        self.committed = true;
+        Ok(())
+    }
+}
+
+impl Drop for Staging {
+    fn drop(&mut self) {
+        if !self.committed {
+            let _ = std::fs::remove_dir_all(&self.dir);
+        }
+    }
+}
+
+/// File names passbudget writes into an output folder (pass series and charts, summaries).
+pub fn is_output_name(name: &str) -> bool {
+    let ext_ok = [".csv", ".json", ".png", ".svg"]
+        .iter()
+        .any(|e| name.ends_with(e));
+    ext_ok
+        && (["pass-", "sky-", "mask-", "summary"]
+            .iter()
+            .any(|p| name.starts_with(p))
+            || name == "days.csv"
+            || name == "masks.csv")
+}
+
 /// Serialize rows to CSV text with one header row.
 pub fn to_csv<T: serde::Serialize>(rows: &[T]) -> Result<String, csv::Error> {
     let mut w = csv::Writer::from_writer(Vec::new());

@@ -180,7 +180,7 @@ fn sum_mode(passes: &[PassPlan], f: impl Fn(&ModeResult) -> f64, rain: bool) -> 
 /// Totals and per-day rows.
 pub fn totals(plan: &Plan, rates: &RateSet, days: f64) -> (Totals, Vec<DayRow>) {
     let p = &plan.passes;
-    let has_rain = p.iter().any(|x| x.rain.is_some());
+    let has_rain = plan.rain_planned;
     let volume = sum_mode(p, |m| m.volume_bits, false);
     let adaptive = sum_mode(p, |m| m.adaptive_volume_bits, false);
     let shannon = sum_mode(p, |m| m.shannon_volume_bits, false);
@@ -201,7 +201,7 @@ pub fn totals(plan: &Plan, rates: &RateSet, days: f64) -> (Totals, Vec<DayRow>) 
     let t = Totals {
         passes: p.len(),
         passes_closing: p.iter().filter(|x| x.clear.option.is_some()).count(),
-        contact_s: round(p.iter().map(|x| x.pass.duration_s()).sum(), 1),
+        contact_s: round(p.iter().map(|x| x.pass.duration_s()).sum::<f64>() + 0.0, 1),
         closed_s: round(sum_mode(p, |m| m.closed_s, false), 1),
         volume_bits: volume.round(),
         adaptive_volume_bits: adaptive.round(),
@@ -228,17 +228,28 @@ pub fn totals(plan: &Plan, rates: &RateSet, days: f64) -> (Totals, Vec<DayRow>) 
         days: round(days, 4),
     };
     let mut by_day: BTreeMap<NaiveDate, DayRow> = BTreeMap::new();
+    // Every UTC day of the window has a row, days without passes included.
+    let empty_day = |d: NaiveDate| DayRow {
+        date: d.to_string(),
+        passes: 0,
+        contact_s: 0.0,
+        volume_bits: 0.0,
+        adaptive_volume_bits: 0.0,
+        shannon_volume_bits: 0.0,
+        rain_volume_bits: if has_rain { Some(0.0) } else { None },
+    };
+    let last = (plan.end - chrono::Duration::microseconds(1)).date_naive();
+    let mut d = plan.start.date_naive();
+    while d <= last {
+        by_day.insert(d, empty_day(d));
+        match d.succ_opt() {
+            Some(next) => d = next,
+            None => break,
+        }
+    }
     for x in p {
         let d = x.pass.aos.date_naive();
-        let row = by_day.entry(d).or_insert_with(|| DayRow {
-            date: d.to_string(),
-            passes: 0,
-            contact_s: 0.0,
-            volume_bits: 0.0,
-            adaptive_volume_bits: 0.0,
-            shannon_volume_bits: 0.0,
-            rain_volume_bits: if has_rain { Some(0.0) } else { None },
-        });
+        let row = by_day.entry(d).or_insert_with(|| empty_day(d));
         row.passes += 1;
         row.contact_s += x.pass.duration_s();
         row.volume_bits += x.clear.volume_bits;
@@ -267,7 +278,7 @@ pub fn usable_masks(plan: &Plan, stations: &[StationModel], rates: &RateSet) -> 
     let mut rows = Vec::new();
     for (i, st) in stations.iter().enumerate() {
         let acc = &plan.station_masks[i];
-        let station_mask = st.mask.min_elevation_deg();
+        let station_mask = st.configured_min_elevation_deg;
         for (k, o) in rates.ladder.iter().enumerate() {
             rows.push(UsableMaskRow {
                 station: st.station.name.clone(),
