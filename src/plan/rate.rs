@@ -15,10 +15,14 @@
 //! A link that opens for a few seconds is worth nothing in practice: the modem must acquire and the
 //! frame sync must lock. Both modes therefore count only *runs* of closed steps at least
 //! `min_dwell_s` long (default 10 s, common practice for acquisition plus frame lock). The adaptive
-//! schedule at each step uses the highest-rate option whose kept run covers that step, so it never
-//! switches into an option for less than the dwell time and never flaps on a threshold. Because a
-//! fixed rate counts exactly the kept runs of its option, the adaptive volume is at least the
-//! fixed-rate volume of every option it contains, step by step.
+//! schedule at each step uses the highest-rate option whose kept run covers that step. So an option
+//! is only ever used inside a run of its own that lasts at least the dwell time, and a brief
+//! threshold crossing cannot make the schedule flip to an option and back. The steps of the
+//! staircase itself can still be shorter than the dwell where the runs of two options overlap (for
+//! example 50 Mbit/s for a few seconds before a 59 Mbit/s option's run begins); `switch_count`
+//! reports how many changes a pass needs. Because a fixed rate counts exactly the kept runs of its
+//! option, the adaptive volume is at least the fixed-rate volume of every option it contains, step
+//! by step.
 
 /// One rate option: a data rate with its scheme's threshold, as seen by the planner.
 #[derive(Debug, Clone, PartialEq)]
