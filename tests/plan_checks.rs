@@ -256,13 +256,17 @@ fn a_higher_rate_never_closes_earlier() {
     };
     let violations = Mutex::new(Vec::new());
     let checked = Mutex::new(0usize);
-    // Ladder options in order of their C/N0 threshold (higher rate -> higher threshold here).
+    // Ladder options in order of rate. The C/N0 a rate needs must rise with the rate for the shipped
+    // ladder (10 log10 R grows faster than the better codes of the higher rates save).
     let mut order: Vec<usize> = (0..rates.ladder.len()).collect();
     order.sort_by(|a, b| {
         rates.ladder[*a]
-            .threshold_cn0_dbhz
-            .total_cmp(&rates.ladder[*b].threshold_cn0_dbhz)
+            .rate_bps
+            .total_cmp(&rates.ladder[*b].rate_bps)
     });
+    for w in order.windows(2) {
+        assert!(rates.ladder[w[1]].threshold_cn0_dbhz > rates.ladder[w[0]].threshold_cn0_dbhz);
+    }
     let sink = |s: &PassSeries| -> Result<(), String> {
         let cn0: Vec<f64> = s.steps.iter().map(|x| x.cn0_dbhz).collect();
         let w: Vec<f64> = s.steps.iter().map(|x| x.weight_s).collect();

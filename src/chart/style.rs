@@ -144,7 +144,9 @@ pub enum MarkerShape {
 
 impl MarkerShape {
     pub fn series(i: usize) -> Self {
-        match i % 5 {
+        // Shifted by two shapes per round of colours, so the sixth series and later differ from
+        // the first ones in colour, dash and marker together.
+        match (i + 2 * (i / SERIES.len())) % 5 {
             0 => MarkerShape::Circle,
             1 => MarkerShape::Triangle,
             2 => MarkerShape::Square,

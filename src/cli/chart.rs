@@ -358,18 +358,27 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     }
     let sky = want(ChartKind::Sky);
     let whole_window = a.pass.is_none();
-    let written = window_charts(
+    let mut written = window_charts(
         &p,
         &plan,
         &a.out,
         format,
         &collector,
-        (
-            sky,
-            want(ChartKind::Mask) && whole_window,
-            want(ChartKind::Summary) && whole_window,
-        ),
+        (sky, false, want(ChartKind::Summary) && whole_window),
     )?;
+    if want(ChartKind::Mask) && whole_window {
+        // The mask trade-off needs the passes down to 0 deg: plan the window once more from there.
+        let p0 = crate::cli::plan::prepare_with_floor(&a.window, Some(0.0))?;
+        let plan0 = crate::cli::plan::run_plan_quietly(&p0, None, None, true)?;
+        written.extend(window_charts(
+            &p0,
+            &plan0,
+            &a.out,
+            format,
+            &ChartCollector::default(),
+            (false, true, false),
+        )?);
+    }
     let passes_drawn = if want(ChartKind::Pass) {
         a.pass.map(|_| 1).unwrap_or(plan.passes.len())
     } else {

@@ -439,7 +439,19 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
                 dir,
                 a.chart_format.into(),
                 &collector,
-                (true, true, true),
+                (true, false, true),
+            )?;
+            // The mask trade-off needs the passes down to 0 deg: plan the window once more from there.
+            let p0 = prepare_with_floor(&a.window, Some(0.0))?;
+            let plan0 = run_plan_quietly(&p0, None, None, true)?;
+            let none = crate::cli::chart::ChartCollector::default();
+            crate::cli::chart::window_charts(
+                &p0,
+                &plan0,
+                dir,
+                a.chart_format.into(),
+                &none,
+                (false, true, false),
             )?;
         }
     }

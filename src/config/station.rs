@@ -234,11 +234,8 @@ impl Station {
                     format!("horizon_mask point {}: {m}", i + 1),
                 )
             };
-            if !p[0].is_finite() || p[0] < 0.0 || p[0] > 360.0 {
-                return Err(bad(format!(
-                    "azimuth {} is out of range (0 to 360 deg)",
-                    p[0]
-                )));
+            if !p[0].is_finite() || p[0] < 0.0 || p[0] >= 360.0 {
+                return Err(bad(format!("azimuth {} is out of range (0 up to but not including 360 deg; the mask wraps at 360)", p[0])));
             }
             if !p[1].is_finite() || p[1] < -5.0 || p[1] > 90.0 {
                 return Err(bad(format!(

@@ -174,7 +174,8 @@ fn sum_mode(passes: &[PassPlan], f: impl Fn(&ModeResult) -> f64, rain: bool) -> 
             }
         })
         .map(f)
-        .sum()
+        .sum::<f64>()
+        + 0.0 // an empty sum is -0.0; report 0
 }
 
 /// Totals and per-day rows.
