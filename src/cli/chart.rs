@@ -239,13 +239,13 @@ pub fn window_charts(
         let mut scopes: Vec<(String, f64)> = p
             .stations
             .iter()
-            .map(|s| (s.station.name.clone(), s.mask.min_elevation_deg()))
+            .map(|s| (s.station.name.clone(), s.configured_min_elevation_deg))
             .collect();
         scopes.push((
             "all stations".into(),
             p.stations
                 .iter()
-                .map(|s| s.mask.min_elevation_deg())
+                .map(|s| s.configured_min_elevation_deg)
                 .fold(f64::INFINITY, f64::min),
         ));
         for (scope, configured) in scopes {
