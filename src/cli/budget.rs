@@ -1,8 +1,6 @@
 //! `passbudget budget` (the itemized budget at one instant) and `passbudget atmosphere`.
 
-use crate::atmosphere::{
-    mean_radiating_temperature_k, AtmosphereSite, PathSpec, PreparedAtmosphere, Weather,
-};
+use crate::atmosphere::{mean_radiating_temperature_k, PathSpec, PreparedAtmosphere, Weather};
 use crate::cli::common::load_satellite;
 use crate::config::mission::Mission;
 use crate::config::station::{GainSpec, Station};
@@ -445,17 +443,7 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
         }
     };
     let c = &st.climate;
-    let site = AtmosphereSite {
-        latitude_deg: st.latitude_deg,
-        altitude_km: st.altitude_m / 1000.0,
-        pressure_hpa: c.pressure_hpa,
-        temperature_k: c.temperature_k,
-        water_vapour_density_g_m3: c.water_vapour_density_g_m3,
-        rain_rate_001_mm_h: c.rain_rate_001_mm_h.unwrap_or(0.0),
-        rain_height_km: c.rain_height_km,
-        cloud_liquid_kg_m2: c.cloud_liquid_kg_m2,
-        wet_refractivity: c.wet_refractivity,
-    };
+    let site = crate::plan::prepare::atmosphere_site(&st);
     let prepared = PreparedAtmosphere::new(
         &site,
         &PathSpec {

@@ -8,10 +8,9 @@ use crate::chart::{
 };
 use crate::cli::common::satellite_name;
 use crate::cli::plan::{check_out_dir, prepare, run_plan, Prepared, WindowArgs};
-use crate::plan::rate::kept_runs;
 use crate::plan::{PassSeries, Plan};
 use crate::report::plan::{display_option, totals, tradeoff};
-use crate::timefmt::{add_seconds, seconds_between};
+use crate::timefmt::seconds_between;
 use anyhow::{bail, Result};
 use chrono::NaiveDate;
 use std::collections::BTreeMap;
@@ -80,12 +79,7 @@ pub fn pass_chart_data(p: &Prepared, s: &PassSeries) -> PassChartData {
     let k = display_option(rates, plan);
     let o = &rates.ladder[k];
     let lr = crate::units::ratio_to_db(o.rate_bps);
-    let cn0: Vec<f64> = s.steps.iter().map(|x| x.cn0_dbhz).collect();
-    let w: Vec<f64> = s.steps.iter().map(|x| x.weight_s).collect();
-    let mut runs = Vec::new();
-    if plan.clear.option.is_some() {
-        kept_runs(&cn0, &w, o.threshold_cn0_dbhz, rates.min_dwell_s, &mut runs);
-    }
+    let runs = crate::report::plan::chosen_runs(s, rates);
     let samples = s
         .steps
         .iter()
@@ -320,7 +314,6 @@ pub fn window_charts(
             .map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
         written.push(path);
     }
-    let _ = add_seconds;
     Ok(written)
 }
 

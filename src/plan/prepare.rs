@@ -207,18 +207,7 @@ pub fn station_model(
     };
     let link = LinkModel::new(&spec).map_err(|e| model_err(file, None, e))?;
     let c = &st.climate;
-    let site = AtmosphereSite {
-        latitude_deg: st.latitude_deg,
-        // Height above the ellipsoid used as height above mean sea level (geoid undulation, tens of m, neglected).
-        altitude_km: st.altitude_m / 1000.0,
-        pressure_hpa: c.pressure_hpa,
-        temperature_k: c.temperature_k,
-        water_vapour_density_g_m3: c.water_vapour_density_g_m3,
-        rain_rate_001_mm_h: c.rain_rate_001_mm_h.unwrap_or(0.0),
-        rain_height_km: c.rain_height_km,
-        cloud_liquid_kg_m2: c.cloud_liquid_kg_m2,
-        wet_refractivity: c.wet_refractivity,
-    };
+    let site = atmosphere_site(st);
     // Circular polarization: tilt 45 deg in P.838-3 eqs (4)-(5); linear: the same 45 deg is used as
     // the orientation along a pass is not known (documented in the README).
     let polarization_tilt_deg = 45.0;
@@ -241,6 +230,24 @@ pub fn station_model(
         polarization_tilt_deg,
         configured_min_elevation_deg: min,
     })
+}
+
+/// The atmosphere models' view of a station: position and climate. A missing rain rate is 0 (the
+/// availability case refuses to run without one, see [`availability_weather`]).
+pub fn atmosphere_site(st: &Station) -> AtmosphereSite {
+    let c = &st.climate;
+    AtmosphereSite {
+        latitude_deg: st.latitude_deg,
+        // Height above the ellipsoid used as height above mean sea level (geoid undulation, tens of m, neglected).
+        altitude_km: st.altitude_m / 1000.0,
+        pressure_hpa: c.pressure_hpa,
+        temperature_k: c.temperature_k,
+        water_vapour_density_g_m3: c.water_vapour_density_g_m3,
+        rain_rate_001_mm_h: c.rain_rate_001_mm_h.unwrap_or(0.0),
+        rain_height_km: c.rain_height_km,
+        cloud_liquid_kg_m2: c.cloud_liquid_kg_m2,
+        wet_refractivity: c.wet_refractivity,
+    }
 }
 
 /// Two passive losses in cascade as one: `(loss_db, physical_temperature_k)`.
