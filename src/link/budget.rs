@@ -3,7 +3,7 @@
 //!
 //! Budget chain (all dB quantities; Friis transmission equation in dB form):
 //!   EIRP     = P_tx - L_line + G_tx(off-nadir)
-//!   C/N0     = EIRP - L_fs - A_atm - L_pol - L_point + G/T - 10 log10(k)      [dBHz]
+//!   C/N0     = EIRP - L_fs - A_atm - L_pol - L_point + G/T - 10 log10(k)      (dBHz)
 //!   G/T      = G_rx - 10 log10(Tsys)   (reference point: antenna terminals, see noise::system)
 //!   Tsys     = T_antenna(Tsky, elevation) + T_receiver
 //!   Tsky     = Tmr (1 - 10^(-A_abs/10)) + Tbg 10^(-A_abs/10)                 (P.618-14 eq. 69)
