@@ -281,3 +281,94 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
         c.closed_s
     );
 }
+
+/// The same instant with every smaller term switched on, each worked by hand from a second route:
+/// pointing loss, polarization mismatch (through the Poincare sphere rather than the axial-ratio
+/// formula the code uses), spillover and the feed loss in the Friis cascade.
+#[test]
+fn budget_with_every_term_worked_by_hand() {
+    let station = STATION
+        .replace("  pointing_error_deg: 0\n", "  pointing_error_deg: 0.3\n")
+        .replace(
+            "  axial_ratio_db: 0\n  spillover_fraction: 0\n",
+            "  axial_ratio_db: 1.0\n  spillover_fraction: 0.05\n",
+        )
+        .replace(
+            "  feed_loss_db: 0\n",
+            "  feed_loss_db: 0.3\n  feed_temperature_k: 290\n",
+        );
+    assert_ne!(station, STATION);
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("station.yaml"), &station).unwrap();
+    let tle = root().join("examples/sat.tle");
+    let mpath = dir.path().join("mission.yaml");
+    std::fs::write(
+        &mpath,
+        mission_text(&tle.to_string_lossy())
+            .replace("    axial_ratio_db: 0\n", "    axial_ratio_db: 3.0\n"),
+    )
+    .unwrap();
+    let mission = Mission::load(&mpath).unwrap();
+    let model = station_model(&mission, &mission.stations[0], None).unwrap();
+    let rates = rate_set(&mission, &model.link).unwrap();
+    let sets = passbudget::orbit::load_elements(&tle).unwrap();
+    let prop = passbudget::orbit::Propagator::new(&sets[0]).unwrap();
+    let t = passbudget::timefmt::add_seconds(
+        &passbudget::timefmt::parse_utc("2026-12-01T12:00:00Z").unwrap(),
+        17970.16652621289,
+    );
+    let look = model.observer.look(&prop.ecef_at(&t).unwrap());
+    let (att, v) = budget_at(&model, &look, Weather::ClearSky, rates.ladder_specs[0]).unwrap();
+
+    // Pointing: theta_3dB = 70 lambda / D (common practice) = 70 x 0.036505 / 1.2 = 2.1295 deg;
+    // L = 12 (0.3 / 2.1295)^2 dB (common practice).
+    let lambda_m: f64 = 299_792_458.0 / 8212.5e6;
+    let bw_deg: f64 = 70.0 * lambda_m / 1.2;
+    let pointing_db = 12.0 * (0.3 / bw_deg).powi(2);
+    assert!(
+        (v.pointing_loss_db - pointing_db).abs() < 1e-6,
+        "{} vs {pointing_db}",
+        v.pointing_loss_db
+    );
+
+    // Polarization, worst orientation, both right-hand, axial ratios 3 dB (spacecraft) and 1 dB
+    // (ground). Poincare sphere (standard polarimetry): each polarization is the point
+    // (cos 2chi cos 2tau, cos 2chi sin 2tau, sin 2chi) with ellipticity angle chi = atan(1/r),
+    // r the field axial ratio; the power coupling is PLF = (1 + s_w . s_a) / 2. Worst orientation:
+    // major axes crossed, 2 dtau = 180 deg.
+    let chi = |ar_db: f64| (1.0 / 10f64.powf(ar_db / 20.0)).atan();
+    let (cw, ca) = (chi(3.0), chi(1.0));
+    let dot = (2.0 * cw).cos() * (2.0 * ca).cos() * (180f64.to_radians()).cos()
+        + (2.0 * cw).sin() * (2.0 * ca).sin();
+    let plf = (1.0 + dot) / 2.0;
+    let pol_db = -10.0 * plf.log10();
+    assert!(
+        (v.polarization_loss_db - pol_db).abs() < 1e-6,
+        "{} vs {pol_db}",
+        v.polarization_loss_db
+    );
+    assert!(
+        pol_db > 0.1 && pol_db < 0.3,
+        "a few tenths of a dB (common practice)"
+    );
+
+    // Antenna temperature with spillover s = 0.05 at 290 K (beam far above the horizon):
+    // Ta = (1 - s) Tsky + s Tg (the ground pick-up model of src/noise/system.rs).
+    let t_ant = 0.95 * v.sky_temperature_k + 0.05 * 290.0;
+    assert!((v.antenna_temperature_k - t_ant).abs() < 1e-6);
+    // Receiver referred to the antenna terminals, Friis (Proc. IRE 1944): a 0.3 dB feed at 290 K,
+    // then the 100 K / 60 dB LNA and a 10 dB NF stage: T_rx = (L - 1) 290 + L (100 + 2610 / 1e6).
+    let l = 10f64.powf(0.03);
+    let t_rx = (l - 1.0) * 290.0 + l * (100.0 + 2610.0 / 1e6);
+    assert!(
+        (v.system_temperature_k - (t_ant + t_rx)).abs() < 1e-6,
+        "{} vs {}",
+        v.system_temperature_k,
+        t_ant + t_rx
+    );
+    // The chain: C/N0 = EIRP - Lfs - A - Lpol - Lpoint + G - 10 log10(Tsys) - 10 log10(k).
+    let cn0 = 0.0 - v.free_space_loss_db - att.total_db - pol_db - pointing_db + 40.0
+        - 10.0 * (t_ant + t_rx).log10()
+        + 228.599_167;
+    assert!((v.cn0_dbhz - cn0).abs() < 1e-4, "{} vs {cn0}", v.cn0_dbhz);
+}
