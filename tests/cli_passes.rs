@@ -309,6 +309,11 @@ fn bad_inputs_give_one_clear_line() {
             ],
             vec!["two.tle", "nothing-like-it"],
         ),
+        // Both sets carry catalog number 99901: the selection is ambiguous.
+        (
+            vec!["passes", "--tle", &two, "--sat", "99901", "--station", st],
+            vec!["two.tle", "matches 2"],
+        ),
         (
             vec!["passes", "--tle", &omm, "--station", st],
             vec!["omm.json", "MEAN_MOTION"],
