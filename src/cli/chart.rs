@@ -210,22 +210,29 @@ pub fn window_charts(
                     });
             }
         }
-        for ((si, day), passes) in groups {
-            let st = &p.stations[si];
-            let data = SkyChartData {
-                station: st.station.name.clone(),
-                satellite: satellite.clone(),
-                title_date: day.format("%Y-%m-%d").to_string(),
-                min_elevation_deg: st.configured_min_elevation_deg,
-                horizon_mask: st.station.horizon_mask.clone(),
-                required_margin_db: p.rates.required_margin_db,
-                passes,
-            };
-            let path = dir.join(sky_file_name(&st.station.name, day, format));
-            save_sky(&data, &path, format)
-                .map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
-            written.push(path);
-        }
+        // One chart per station and day, drawn in parallel.
+        use rayon::prelude::*;
+        let groups: Vec<((usize, NaiveDate), Vec<SkyPass>)> = groups.into_iter().collect();
+        let paths = groups
+            .into_par_iter()
+            .map(|((si, day), passes)| {
+                let st = &p.stations[si];
+                let data = SkyChartData {
+                    station: st.station.name.clone(),
+                    satellite: satellite.clone(),
+                    title_date: day.format("%Y-%m-%d").to_string(),
+                    min_elevation_deg: st.configured_min_elevation_deg,
+                    horizon_mask: st.station.horizon_mask.clone(),
+                    required_margin_db: p.rates.required_margin_db,
+                    passes,
+                };
+                let path = dir.join(sky_file_name(&st.station.name, day, format));
+                save_sky(&data, &path, format)
+                    .map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
+                Ok(path)
+            })
+            .collect::<Result<Vec<PathBuf>>>()?;
+        written.extend(paths);
     }
     let days = seconds_between(&p.start, &p.end) / 86400.0;
     if mask {
