@@ -53,7 +53,7 @@ fn plan_days(s: &Setup, days: f64) -> usize {
         frequency_hz: 8212.5e6,
     };
     let sink = |_: &PassSeries| -> Result<(), String> { Ok(()) };
-    run(&input, &sink, &|| {}).unwrap().passes.len()
+    run(&input, &sink, &|_| {}).unwrap().passes.len()
 }
 
 fn bench_plan(c: &mut Criterion) {

@@ -294,7 +294,7 @@ fn a_higher_rate_never_closes_earlier() {
         }
         Ok(())
     };
-    let plan = run(&input, &sink, &|| {}).unwrap();
+    let plan = run(&input, &sink, &|_| {}).unwrap();
     assert!(plan.passes.len() > 10);
     assert!(*checked.lock().unwrap() > 30);
     assert!(

@@ -220,7 +220,7 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
         rain: None,
         frequency_hz: 8212.5e6,
     };
-    let plan = passbudget::plan::run(&input, &|_| Ok(()), &|| {}).unwrap();
+    let plan = passbudget::plan::run(&input, &|_| Ok(()), &|_| {}).unwrap();
     assert_eq!(plan.passes.len(), 1);
     let p = &plan.passes[0];
     // AOS against Skyfield (within the orbit work's 1 s requirement).

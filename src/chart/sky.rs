@@ -253,7 +253,11 @@ where
                 MarkerShape::Circle,
                 format!("AOS {}", p.aos.format("%H:%M")),
             ),
-            (top, MarkerShape::Diamond, format!("{} TCA", p.label)),
+            (
+                top,
+                MarkerShape::Diamond,
+                format!("{} TCA {}", p.label, p.tca.format("%H:%M")),
+            ),
             (
                 last,
                 MarkerShape::Square,

@@ -251,12 +251,25 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
         },
         spec,
     )?;
-    items.extend(link_items.into_iter().map(|i| ItemRow {
-        name: i.name.into(),
-        value: i.value,
-        unit: i.unit.into(),
-        source: i.source.into(),
-    }));
+    // The atmosphere's components go right after the free-space loss, before their total.
+    let atmosphere_items = std::mem::take(&mut items);
+    for i in link_items {
+        let after_fsl = i.name == "free_space_loss";
+        items.push(ItemRow {
+            name: i.name.into(),
+            value: i.value,
+            unit: i.unit.into(),
+            source: i.source.into(),
+        });
+        if after_fsl {
+            items.extend(atmosphere_items.iter().map(|a| ItemRow {
+                name: a.name.clone(),
+                value: a.value,
+                unit: a.unit.clone(),
+                source: a.source.clone(),
+            }));
+        }
+    }
     items.push(ItemRow {
         name: "required_margin".into(),
         value: rates.required_margin_db,
@@ -359,7 +372,11 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
                 } else {
                     2
                 };
-                let value = if i.value != 0.0 && i.value.abs() < 0.01 {
+                let value = if i.value.abs() < 0.5 * 10f64.powi(-(digits as i32))
+                    && (i.unit == "dB" || i.unit == "dBi")
+                {
+                    format!("{:.*}", digits, 0.0)
+                } else if i.value != 0.0 && i.value.abs() < 0.01 {
                     format!("{:.1e}", i.value)
                 } else {
                     format!("{:.*}", digits, i.value)
@@ -419,7 +436,10 @@ pub struct AtmosphereDoc {
 pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
     let st = Station::load(&a.station)?;
     if !(a.frequency_ghz.is_finite() && a.frequency_ghz > 0.0) {
-        bail!("--frequency-ghz {}: must be above zero", a.frequency_ghz);
+        bail!(
+            "--frequency-ghz {}: must be a finite number above zero",
+            a.frequency_ghz
+        );
     }
     if !(a.elevation_deg.is_finite() && (0.0..=90.0).contains(&a.elevation_deg)) {
         bail!(

@@ -202,7 +202,7 @@ pub fn window_charts(
                     .entry((x.station_index, x.pass.aos.date_naive()))
                     .or_default()
                     .push(SkyPass {
-                        label: format!("{:03} {}Z", x.number, x.pass.aos.format("%H:%M")),
+                        label: format!("#{:03}", x.number),
                         points: points.clone(),
                         aos: x.pass.aos,
                         tca: x.pass.tca,

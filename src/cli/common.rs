@@ -286,7 +286,13 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
                 r.elements.label()
             );
         }
-        if found.passes.is_empty() {
+        if found.passes.is_empty() && found.stopped.is_some() {
+            eprintln!(
+                "note: {} has no pass over {} before the propagation stopped",
+                r.elements.label(),
+                st.name
+            );
+        } else if found.passes.is_empty() {
             eprintln!(
                 "note: {} does not rise above the mask of {} in the window",
                 r.elements.label(),
@@ -351,8 +357,8 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                     p.los.format("%H:%M:%S").to_string(),
                     crate::report::mm_ss(p.duration_s()),
                     format!("{:.1}", p.max_elevation_deg),
-                    format!("{:.0}", p.aos_azimuth_deg),
-                    format!("{:.0}", p.los_azimuth_deg),
+                    whole_azimuth(p.aos_azimuth_deg),
+                    whole_azimuth(p.los_azimuth_deg),
                     format!("{:.0}", p.min_range_km),
                     flags.to_string(),
                 ]);
@@ -389,11 +395,14 @@ pub struct TrackRow {
 /// `passbudget track`.
 pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
     if !(a.step.is_finite() && a.step > 0.0) {
-        bail!("--step {}: the step must be above zero seconds", a.step);
+        bail!(
+            "--step {}: the step must be a finite number of seconds above zero",
+            a.step
+        );
     }
     if let Some(f) = a.frequency_mhz {
         if !(f.is_finite() && f > 0.0) {
-            bail!("--frequency-mhz {f}: must be above zero");
+            bail!("--frequency-mhz {f}: must be a finite number above zero");
         }
     }
     let stations: Vec<PathBuf> = a.station.iter().cloned().collect();
@@ -483,4 +492,9 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
         }
     }
     Ok(())
+}
+
+/// Azimuth rounded to whole degrees for tables, 0..359 (359.7 shows as 0, not 360).
+pub fn whole_azimuth(azimuth_deg: f64) -> String {
+    format!("{}", (azimuth_deg.round() as i64).rem_euclid(360))
 }

@@ -53,8 +53,8 @@ pub struct PlanArgs {
     /// Also draw the charts into the --out folder.
     #[arg(long, requires = "out")]
     pub charts: bool,
-    /// Chart file format.
-    #[arg(long, value_enum, default_value = "png")]
+    /// Chart file format (with --charts).
+    #[arg(long, value_enum, default_value = "png", requires = "charts")]
     pub chart_format: crate::cli::chart::ChartFormatArg,
 }
 
@@ -146,7 +146,7 @@ pub fn prepare_with_floor(w: &WindowArgs, search_floor_deg: Option<f64>) -> Resu
     }
     let step_s = w.step.unwrap_or(mission.step_s);
     if !(step_s.is_finite() && step_s > 0.0) {
-        bail!("--step {step_s}: the step must be above zero seconds");
+        bail!("--step {step_s}: the step must be a finite number of seconds above zero");
     }
     if step_s > MAX_STEP_S
         || (mission
@@ -242,15 +242,20 @@ pub fn run_plan_quietly(
         let b =
             indicatif::ProgressBar::with_draw_target(None, indicatif::ProgressDrawTarget::stderr());
         b.set_style(
-            indicatif::ProgressStyle::with_template("{spinner} planning passes {pos} [{elapsed}]")
-                .unwrap_or_else(|_| indicatif::ProgressStyle::default_spinner()),
+            indicatif::ProgressStyle::with_template(
+                "planning passes [{bar:40}] {pos}/{len} {elapsed} (about {eta} left)",
+            )
+            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
         );
         Some(b)
     } else {
         None
     };
-    let progress = || {
+    let progress = |total: usize| {
         if let Some(b) = &bar {
+            if b.length() != Some(total as u64) {
+                b.set_length(total as u64);
+            }
             b.inc(1);
         }
     };
@@ -634,6 +639,9 @@ fn print_plan_table(
 
 /// `passbudget mask`.
 pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
+    if a.mask_step == 0 {
+        bail!("--mask-step 0: the step must be at least 1 deg");
+    }
     // Search from 0 deg so the trade-off shows what masks below the configured one would bring.
     let p = prepare_with_floor(&a.window, Some(0.0))?;
     let plan = run_plan(&p, None, None)?;

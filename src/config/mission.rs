@@ -357,7 +357,7 @@ impl Mission {
                             {
                                 let line =
                                     list_item_line(text, &["transmitter", "antenna", "table"], i);
-                                return Err(ConfigError::new(path, line, Some("transmitter.antenna.table"), format!("transmitter.antenna.table point {}: off-nadir angles must rise from 0 to 180 deg", i + 1)));
+                                return Err(ConfigError::new(path, line, Some("transmitter.antenna.table"), format!("transmitter.antenna.table point {}: off-nadir angles must rise from 0 to 180 deg and gains must be finite numbers", i + 1)));
                             }
                         }
                         TxPatternConfig::Table { points }

@@ -66,7 +66,7 @@ pub struct Pass {
     pub aos_azimuth_deg: f64,
     pub tca_azimuth_deg: f64,
     pub los_azimuth_deg: f64,
-    /// Slant range at TCA, km (the minimum range for a constant-altitude orbit).
+    /// Smallest slant range during the pass, km (at TCA for a LEO; see `Search::min_range_km`).
     pub min_range_km: f64,
     /// The satellite was already above the mask at the window start (AOS = start).
     pub starts_before_window: bool,
@@ -266,6 +266,45 @@ impl Search<'_> {
 
     /// Zero of the elevation rate between `a` (rate > 0) and `b` (rate <= 0): the local
     /// maximum of elevation. Illinois-modified regula falsi on the rate.
+    /// The smallest slant range of a pass: the ranges at AOS, TCA and LOS and, where the range
+    /// rate changes sign inside the pass away from TCA (eccentric orbits), the range at that zero,
+    /// found by regula falsi on the range rate. For a LEO the range rate at TCA is nearly zero and
+    /// no propagation is spent: skipping a zero of |rr| < 0.05 km/s misses at most rr^2 / (2 r'')
+    /// ~ 0.02 km of range.
+    fn min_range_km(&self, aos: Sample, tca: Sample, los: Sample) -> Result<f64, PropagationError> {
+        let rr = |s: &Sample| s.look.range_rate_km_s;
+        let mut best = aos
+            .look
+            .range_km
+            .min(tca.look.range_km)
+            .min(los.look.range_km);
+        if rr(&tca).abs() < 0.05 {
+            return Ok(best);
+        }
+        let (mut a, mut b) = if rr(&aos) < 0.0 && rr(&tca) > 0.0 {
+            (aos, tca)
+        } else if rr(&tca) < 0.0 && rr(&los) > 0.0 {
+            (tca, los)
+        } else {
+            return Ok(best);
+        };
+        for _ in 0..8 {
+            // Regula falsi: t = t_a - rr_a (t_b - t_a) / (rr_b - rr_a)
+            let t = a.t - rr(&a) * (b.t - a.t) / (rr(&b) - rr(&a));
+            let s = self.eval(t.clamp(a.t, b.t))?;
+            best = best.min(s.look.range_km);
+            if rr(&s).abs() < 1e-4 {
+                break;
+            }
+            if rr(&s) < 0.0 {
+                a = s;
+            } else {
+                b = s;
+            }
+        }
+        Ok(best)
+    }
+
     fn refine_tca(&self, a: Sample, b: Sample) -> Result<Sample, PropagationError> {
         let rate = |s: &Sample| s.look.elevation_rate_deg_s;
         let (mut up, mut down) = (a, b);
@@ -456,6 +495,7 @@ fn search(
                 best = better(best, s);
             }
             let tca = best;
+            let min_range_km = srch.min_range_km(aos_s, tca, los_s)?;
             passes.push(Pass {
                 aos: add_seconds(&start, aos_t),
                 tca: add_seconds(&start, tca.t),
@@ -464,7 +504,7 @@ fn search(
                 aos_azimuth_deg: aos_s.look.azimuth_deg,
                 tca_azimuth_deg: tca.look.azimuth_deg,
                 los_azimuth_deg: los_s.look.azimuth_deg,
-                min_range_km: tca.look.range_km,
+                min_range_km,
                 starts_before_window: starts_before,
                 ends_after_window: ends_after,
             });

@@ -161,7 +161,7 @@ pub struct OperatingPoint {
 /// Errors of the scheme registry.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum ModcodError {
-    #[error("unknown modulation/coding scheme {name:?}; close names: {close:?}")]
+    #[error("unknown modulation/coding scheme {name:?}{}", if close.is_empty() { "; see the README for the scheme names".to_string() } else { format!("; close names: {}", close.join(", ")) })]
     UnknownScheme {
         name: String,
         close: Vec<&'static str>,

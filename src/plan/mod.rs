@@ -137,11 +137,12 @@ struct Scratch {
 }
 
 /// Plan every pass of every station. `sink` receives each pass and its time series as soon as it is
-/// computed (from worker threads, in no particular order); `progress` is called once per pass.
+/// computed (from worker threads, in no particular order); `progress` is called once per pass
+/// with the number of passes to plan.
 pub fn run(
     input: &PlanInput,
     sink: &(dyn Fn(&PassSeries) -> Result<(), String> + Sync),
-    progress: &(dyn Fn() + Sync),
+    progress: &(dyn Fn(usize) + Sync),
 ) -> Result<Plan, PlanError> {
     let propagator =
         Propagator::new(input.elements).map_err(|e| PlanError::Setup(e.to_string()))?;
@@ -165,6 +166,7 @@ pub fn run(
             "the plan needs at least one rate and a step above zero".into(),
         ));
     }
+    let total = found.len();
     let results: Vec<Result<PassPlan, PlanError>> = found
         .par_iter()
         .enumerate()
@@ -179,7 +181,7 @@ pub fn run(
             },
             |scratch, (k, (si, pass))| {
                 let r = plan_pass(input, k + 1, *si, pass, reference, scratch, sink);
-                progress();
+                progress(total);
                 r
             },
         )

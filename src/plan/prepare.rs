@@ -203,7 +203,14 @@ pub fn station_model(
             orientation: EllipseOrientation::WorstCase,
             extra_loss_db: 0.0,
         },
-        max_occupied_bandwidth_hz: mission.modem.as_ref().and_then(|m| m.max_bandwidth_hz),
+        // Without a stated band, no signal can occupy more than its carrier frequency.
+        max_occupied_bandwidth_hz: Some(
+            mission
+                .modem
+                .as_ref()
+                .and_then(|m| m.max_bandwidth_hz)
+                .unwrap_or(tx.frequency_hz),
+        ),
     };
     let link = LinkModel::new(&spec).map_err(|e| model_err(file, None, e))?;
     let c = &st.climate;

@@ -77,19 +77,59 @@ impl Staging {
             .collect()
     }
 
-    /// Remove the earlier files for which `ours` holds, then move every staged file into place.
+    /// Move every staged file into place, replacing the earlier files for which `ours` holds.
+    /// Nothing is removed before everything has been checked: every destination must be absent or
+    /// a plain file. Earlier files are first moved into a backup folder and restored if a move
+    /// fails, so the folder holds either the old results or the new ones.
     pub fn commit(mut self, ours: impl Fn(&str) -> bool) -> std::io::Result<()> {
+        let staged = self.staged_names()?;
+        for n in &staged {
+            let dest = self.final_dir.join(n);
+            if let Ok(m) = std::fs::symlink_metadata(&dest) {
+                if !m.file_type().is_file() {
+                    return Err(std::io::Error::other(format!(
+                        "{} exists and is not a plain file",
+                        dest.display()
+                    )));
+                }
+            }
+        }
+        let mut old = Vec::new();
         for e in std::fs::read_dir(&self.final_dir)? {
             let e = e?;
             let name = e.file_name().to_string_lossy().into_owned();
-            if e.file_type()?.is_file() && ours(&name) {
-                std::fs::remove_file(e.path())?;
+            if e.file_type()?.is_file() && (ours(&name) || staged.contains(&name)) {
+                old.push(name);
             }
         }
-        for e in std::fs::read_dir(&self.dir)? {
-            let e = e?;
-            std::fs::rename(e.path(), self.final_dir.join(e.file_name()))?;
+        let backup = self
+            .final_dir
+            .join(format!(".passbudget-previous-{}", std::process::id()));
+        std::fs::create_dir_all(&backup)?;
+        let result = (|| -> std::io::Result<()> {
+            for n in &old {
+                std::fs::rename(self.final_dir.join(n), backup.join(n))?;
+            }
+            for n in &staged {
+                std::fs::rename(self.dir.join(n), self.final_dir.join(n))?;
+            }
+            Ok(())
+        })();
+        if let Err(e) = result {
+            // Put the earlier results back: new files out, old files in.
+            for n in &staged {
+                let p = self.final_dir.join(n);
+                if !backup.join(n).exists() && !old.contains(n) {
+                    let _ = std::fs::rename(&p, self.dir.join(n));
+                }
+            }
+            for n in &old {
+                let _ = std::fs::rename(backup.join(n), self.final_dir.join(n));
+            }
+            let _ = std::fs::remove_dir_all(&backup);
+            return Err(e);
         }
+        std::fs::remove_dir_all(&backup)?;
         std::fs::remove_dir(&self.dir)?;
         self.committed = true;
         Ok(())
@@ -106,15 +146,16 @@ impl Drop for Staging {
 
 /// File names passbudget writes into an output folder (pass series and charts, summaries).
 pub fn is_output_name(name: &str) -> bool {
-    let ext_ok = [".csv", ".json", ".png", ".svg"]
-        .iter()
-        .any(|e| name.ends_with(e));
-    ext_ok
-        && (["pass-", "sky-", "mask-", "summary"]
+    let chart = name.ends_with(".png") || name.ends_with(".svg");
+    // pass-NNN-... (.csv or a chart)
+    let pass = name.strip_prefix("pass-").is_some_and(|r| {
+        r.len() > 4 && r.as_bytes()[..3].iter().all(u8::is_ascii_digit) && r.as_bytes()[3] == b'-'
+    }) && (chart || name.ends_with(".csv"));
+    let window_chart = chart
+        && ["sky-", "mask-", "summary-"]
             .iter()
-            .any(|p| name.starts_with(p))
-            || name == "days.csv"
-            || name == "masks.csv")
+            .any(|p| name.starts_with(p));
+    pass || window_chart || ["summary.json", "summary.csv", "days.csv", "masks.csv"].contains(&name)
 }
 
 /// Serialize rows to CSV text with one header row.
@@ -177,6 +218,55 @@ mod tests {
         assert_eq!(std::fs::read_to_string(&p).unwrap(), "second");
         assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 1);
         assert!(write_atomic(&dir.path().join("missing/x.txt"), b"x").is_err());
+    }
+
+    #[test]
+    fn staging_replaces_all_or_nothing() {
+        let dir = tempfile::tempdir().unwrap();
+        let out = dir.path();
+        std::fs::write(out.join("summary.json"), "old").unwrap();
+        std::fs::write(out.join("pass-001-a-x.csv"), "old pass").unwrap();
+        std::fs::write(out.join("notes.txt"), "mine").unwrap();
+        // A successful run: our old files are replaced, other files kept.
+        let s = Staging::new(out).unwrap();
+        std::fs::write(s.path().join("summary.json"), "new").unwrap();
+        s.commit(is_output_name).unwrap();
+        assert_eq!(
+            std::fs::read_to_string(out.join("summary.json")).unwrap(),
+            "new"
+        );
+        assert!(!out.join("pass-001-a-x.csv").exists());
+        assert_eq!(
+            std::fs::read_to_string(out.join("notes.txt")).unwrap(),
+            "mine"
+        );
+        // A destination that is a folder: nothing changes, the error names it.
+        std::fs::create_dir(out.join("days.csv")).unwrap();
+        let s = Staging::new(out).unwrap();
+        std::fs::write(s.path().join("summary.json"), "newer").unwrap();
+        std::fs::write(s.path().join("days.csv"), "d").unwrap();
+        let e = s.commit(is_output_name).unwrap_err();
+        assert!(e.to_string().contains("days.csv"), "{e}");
+        assert_eq!(
+            std::fs::read_to_string(out.join("summary.json")).unwrap(),
+            "new"
+        );
+        let hidden = std::fs::read_dir(out)
+            .unwrap()
+            .filter(|e| {
+                e.as_ref()
+                    .unwrap()
+                    .file_name()
+                    .to_string_lossy()
+                    .starts_with('.')
+            })
+            .count();
+        assert_eq!(hidden, 0, "staging and backup folders removed");
+        assert!(
+            is_output_name("pass-003-sierra-baja-20261202T0123Z.png")
+                && !is_output_name("pass-notes.csv")
+                && !is_output_name("summary-notes.txt")
+        );
     }
 
     #[test]
