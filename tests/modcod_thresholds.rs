@@ -172,7 +172,11 @@ fn every_coded_ccsds_threshold_exceeds_its_bi_awgn_bound() {
 
 #[test]
 fn ccsds_thresholds_within_plausibility_bands() {
-    // REFERENCES §2 [M] values (from memory; +-0.5 dB plausibility bands only).
+    // REFERENCES §2 [M] values: a second, independently recalled reading of the CCSDS 130.1-G
+    // curves (from memory; the Green Book gives curves only). This is a plausibility band of
+    // +-0.5 dB between two from-memory readings, NOT a check against a published number; the hard
+    // checks of these thresholds are the BI-AWGN capacity bounds above and the two ratios the
+    // CCSDS text states below.
     let bands: &[(&str, f64, f64)] = &[
         ("ccsds-cc-r1/2", 1e-5, 4.4),
         ("ccsds-cc-r1/2", 1e-6, 5.0),
