@@ -300,7 +300,7 @@ fn p840_9_matches_valex() {
 }
 
 // Double-Debye Kl at 273.15 K (P.840-6..-8 form): REFERENCES §7 values computed by the
-// reference compiler from the same formula [COMP] — a transcription check of the formula,
+// reference compiler from the same formula [COMP] — a check of our copy of the formula,
 // printed to 6 significant digits.
 #[test]
 fn p840_double_debye_kl() {
@@ -319,7 +319,7 @@ fn p840_double_debye_kl() {
     }
 }
 
-// P.839-2 latitude rule: its own breakpoints (REFERENCES §5; rule as transcribed there).
+// P.839-2 latitude rule: its own breakpoints (REFERENCES §5; rule as written there).
 #[test]
 fn p839_2_latitude_rule_values() {
     let cases = [

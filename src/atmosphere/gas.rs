@@ -20,8 +20,8 @@
 //! `e = ρ·T/216.7` hPa (P.676-12 Annex 1 §1); total pressure is `p + e`.
 
 /// Oxygen line table, ITU-R P.676-12 Annex 1 Table 1 (identical in P.676-13):
-/// `[f0 GHz, a1, a2, a3, a4, a5, a6]`. Transcription cross-checked row by row
-/// against two independent public transcriptions (ITU-Rpy data file
+/// `[f0 GHz, a1, a2, a3, a4, a5, a6]`. Copy cross-checked row by row
+/// against two independent public copies (ITU-Rpy data file
 /// `v12_lines_oxygen.txt`, CRC-COVLIB `ITURP_676.cpp`).
 pub const OXYGEN_LINES: [[f64; 7]; 44] = [
     [50.474214, 0.975, 9.651, 6.690, 0.0, 2.566, 6.850],
@@ -72,7 +72,7 @@ pub const OXYGEN_LINES: [[f64; 7]; 44] = [
 
 /// Water-vapour line table, ITU-R P.676-12 Annex 1 Table 2 (identical in P.676-13):
 /// `[f0 GHz, b1, b2, b3, b4, b5, b6]`. Cross-checked against the same two public
-/// transcriptions as [`OXYGEN_LINES`].
+/// copies as [`OXYGEN_LINES`].
 pub const WATER_VAPOUR_LINES: [[f64; 7]; 35] = [
     [22.235080, 0.1079, 2.144, 26.38, 0.76, 5.087, 1.00],
     [67.803960, 0.0011, 8.732, 28.58, 0.69, 4.930, 0.82],

@@ -21,7 +21,7 @@
 //!   carry, so it is not applied;
 //! * the rule is clipped at 0 km toward the North Pole.
 //!
-//! Source of the rule: as transcribed in the P.839-2 class of ITU-Rpy (S1 in the project's
+//! Source of the rule: as written in the P.839-2 class of ITU-Rpy (S1 in the project's
 //! REFERENCES §5); treat as approximate.
 
 /// Approximate rain height (km above mean sea level) from latitude, P.839-2 latitude rule.
