@@ -79,7 +79,7 @@ pub fn pass_chart_data(p: &Prepared, s: &PassSeries) -> PassChartData {
     let k = display_option(rates, plan);
     let o = &rates.ladder[k];
     let lr = crate::units::ratio_to_db(o.rate_bps);
-    let runs = crate::report::plan::chosen_runs(s, rates);
+    let runs = s.chosen_runs;
     let samples = s
         .steps
         .iter()

@@ -90,6 +90,8 @@ pub struct PassSeries<'a> {
     pub steps: &'a [Step],
     /// Adaptive option index per step (clear sky), into `RateSet::adaptive`.
     pub adaptive: &'a [Option<u16>],
+    /// Counted runs (step indices, inclusive) of the chosen fixed rate; empty when none closes.
+    pub chosen_runs: &'a [(usize, usize)],
 }
 
 /// Error of a plan run.
@@ -274,6 +276,7 @@ fn plan_pass(
     }
     let offset_s = seconds_between(&input.start, &pass.aos);
     let mut segments = Vec::new();
+    s.runs.clear();
     if let Some(k) = clear.option {
         kept_runs(
             &s.cn0,
@@ -316,6 +319,7 @@ fn plan_pass(
         plan: &plan,
         steps: &s.steps,
         adaptive: &s.schedule,
+        chosen_runs: &s.runs,
     })
     .map_err(PlanError::Sink)?;
     Ok(plan)

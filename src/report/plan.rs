@@ -378,23 +378,6 @@ pub fn display_option(rates: &RateSet, p: &PassPlan) -> usize {
     })
 }
 
-/// The counted runs (step indices, inclusive) of the pass's chosen fixed rate; empty when none closes.
-pub fn chosen_runs(series: &PassSeries, rates: &RateSet) -> Vec<(usize, usize)> {
-    let mut runs = Vec::new();
-    if let Some(k) = series.plan.clear.option {
-        let cn0: Vec<f64> = series.steps.iter().map(|s| s.cn0_dbhz).collect();
-        let w: Vec<f64> = series.steps.iter().map(|s| s.weight_s).collect();
-        crate::plan::rate::kept_runs(
-            &cn0,
-            &w,
-            rates.ladder[k].threshold_cn0_dbhz,
-            rates.min_dwell_s,
-            &mut runs,
-        );
-    }
-    runs
-}
-
 /// The time series rows of one pass.
 pub fn step_rows(series: &PassSeries, rates: &RateSet) -> Vec<StepRow> {
     let p = series.plan;
@@ -402,7 +385,7 @@ pub fn step_rows(series: &PassSeries, rates: &RateSet) -> Vec<StepRow> {
     let o = &rates.ladder[k];
     let lr = crate::units::ratio_to_db(o.rate_bps);
     let margin = |c: f64| c - lr - o.required_ebn0_db - rates.implementation_loss_db;
-    let closed_runs = chosen_runs(series, rates);
+    let closed_runs = series.chosen_runs;
     let opt = |x: f64, d: i32| if x.is_nan() { None } else { Some(round(x, d)) };
     series
         .steps
