@@ -5,6 +5,7 @@
 //! constructors, so the physics only ever sees valid values. Every error names
 //! the file, the line and the key.
 
+pub mod limits;
 pub mod locate;
 pub mod mission;
 pub mod station;
