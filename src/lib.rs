@@ -8,8 +8,8 @@
 //! nothing of the stages after it.
 
 pub mod atmosphere;
+#[cfg(feature = "charts")]
 pub mod chart;
-pub mod cli;
 pub mod config;
 pub mod geometry;
 pub mod link;

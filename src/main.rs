@@ -1,4 +1,7 @@
-//! Thin binary: parse arguments, run, map errors to exit codes.
+//! The `passbudget` command line: parses arguments, calls the library, prints. Private to the
+//! binary: the library exports no command-line types.
+mod cli;
+
 fn main() {
-    std::process::exit(passbudget::cli::main_entry());
+    std::process::exit(cli::main_entry());
 }

@@ -27,6 +27,7 @@
 pub mod data;
 mod mask;
 mod pass;
+pub mod plan;
 mod sky;
 mod style;
 mod summary;

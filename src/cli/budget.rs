@@ -1,18 +1,19 @@
 //! `passbudget budget` (the itemized budget at one instant) and `passbudget atmosphere`.
 
-use crate::atmosphere::{mean_radiating_temperature_k, PathSpec, PreparedAtmosphere, Weather};
-use crate::cli::common::load_satellite;
-use crate::config::mission::Mission;
-use crate::config::station::{GainSpec, Station};
-use crate::geometry::Look;
-use crate::link::budget::RateSpec;
-use crate::noise::sky::{background_temperature_k, sky_temperature_p618_k};
-use crate::plan::prepare::{availability_weather, rate_set, station_model};
-use crate::plan::series::budget_at;
-use crate::report::table::{Align, Table};
-use crate::report::{round, Format};
-use crate::timefmt::{format_ms, parse_utc};
+use crate::cli::table::{Align, Table};
+use crate::cli::Format;
 use anyhow::{anyhow, bail, Result};
+use passbudget::atmosphere::{mean_radiating_temperature_k, PathSpec, PreparedAtmosphere, Weather};
+use passbudget::config::mission::Mission;
+use passbudget::config::station::Station;
+use passbudget::geometry::Look;
+use passbudget::link::budget::RateSpec;
+use passbudget::noise::sky::{background_temperature_k, sky_temperature_p618_k};
+use passbudget::plan::inputs::{element_age_warning, load_satellite, satellite_name};
+use passbudget::plan::prepare::{antenna_aperture, availability_weather, rate_set, station_model};
+use passbudget::plan::series::budget_at;
+use passbudget::report::round;
+use passbudget::timefmt::{format_ms, parse_utc};
 use serde::Serialize;
 use std::io::Write;
 use std::path::PathBuf;
@@ -116,7 +117,7 @@ pub struct BudgetDoc {
     pub shannon_gap_db: f64,
     pub items: Vec<ItemRow>,
     pub warnings: Vec<String>,
-    pub defaults: Vec<crate::config::DefaultUsed>,
+    pub defaults: Vec<passbudget::config::DefaultUsed>,
 }
 
 #[derive(Debug, Serialize)]
@@ -154,7 +155,11 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
     let (look, time) = match (&a.at, a.elevation_deg) {
         (Some(t), _) => {
             let t = parse_utc(t).map_err(|e| anyhow!("--at: {e}"))?;
-            crate::cli::common::warn_element_age(&elements, t, t);
+            crate::cli::warn(
+                &element_age_warning(&elements, t, t)
+                    .into_iter()
+                    .collect::<Vec<_>>(),
+            );
             let s = prop
                 .ecef_at(&t)
                 .map_err(|e| anyhow!("{}: {e}", elements.label()))?;
@@ -176,7 +181,7 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
             }
             let p = model.observer.position_km();
             let station_radius_km = (p[0] * p[0] + p[1] * p[1] + p[2] * p[2]).sqrt();
-            let (range_km, off_nadir_deg) = crate::geometry::slant::slant_range_km(
+            let (range_km, off_nadir_deg) = passbudget::geometry::slant::slant_range_km(
                 station_radius_km,
                 prop.semi_major_axis_km(),
                 e,
@@ -207,8 +212,8 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
             let name = name
                 .clone()
                 .unwrap_or_else(|| rates.ladder[0].scheme.clone());
-            let idx = crate::link::modcod::scheme_index(&name)?;
-            let op = crate::link::modcod::operating_point(idx, Some(modem.target_ber))?;
+            let idx = passbudget::link::modcod::scheme_index(&name)?;
+            let op = passbudget::link::modcod::operating_point(idx, Some(modem.target_ber))?;
             model
                 .link
                 .rate_spec(rate_bps, op, modem.roll_off, modem.implementation_loss_db)
@@ -239,12 +244,12 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
         });
     }
     let link_items = model.link.itemize(
-        crate::link::budget::BudgetGeometry {
+        passbudget::link::budget::BudgetGeometry {
             elevation_deg: look.elevation_deg,
             range_km: look.range_km,
             off_nadir_deg: look.off_nadir_deg,
         },
-        crate::link::budget::AtmosphereLoss {
+        passbudget::link::budget::AtmosphereLoss {
             total_db: att.total_db,
             absorptive_db: att.absorptive_db,
             mean_radiating_temperature_k: model.mean_radiating_temperature_k,
@@ -289,7 +294,7 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
     let mut defaults = mission.defaults.clone();
     defaults.extend(st.defaults.iter().cloned());
     let doc = BudgetDoc {
-        satellite: crate::cli::common::satellite_name(&elements),
+        satellite: satellite_name(&elements),
         station: st.name.clone(),
         time: time.as_ref().map(format_ms),
         weather: match pct {
@@ -341,7 +346,7 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
         Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
         Format::Csv => {
             let rows: Vec<&ItemRow> = doc.items.iter().collect();
-            write!(out, "{}", crate::report::to_csv(&rows)?)?
+            write!(out, "{}", passbudget::report::to_csv(&rows)?)?
         }
         Format::Table => {
             let head = match &doc.time {
@@ -429,7 +434,7 @@ pub struct AtmosphereDoc {
     pub mean_radiating_temperature_k: f64,
     pub sky_temperature_k: f64,
     pub warnings: Vec<String>,
-    pub defaults: Vec<crate::config::DefaultUsed>,
+    pub defaults: Vec<passbudget::config::DefaultUsed>,
 }
 
 /// `passbudget atmosphere`.
@@ -448,22 +453,17 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
         );
     }
     let mut defaults = st.defaults.clone();
-    let (d, eta) = match st.antenna.as_ref().map(|x| x.gain) {
-        Some(GainSpec::Aperture {
-            diameter_m,
-            efficiency,
-        }) => (diameter_m, efficiency),
-        Some(GainSpec::Given {
-            diameter_m: Some(d),
-            ..
-        }) => (d, crate::plan::prepare::ASSUMED_EFFICIENCY),
-        _ => {
-            defaults.push(crate::config::DefaultUsed { key: "antenna.diameter_m".into(), value: "1".into(), source: "scintillation aperture averaging: 1 m assumed (no antenna diameter in the station file)".into() });
+    // The station's own aperture, by the same rule as `budget` and `plan`; without an antenna
+    // block, 1 m at 0.5 (a documented default).
+    let (d, eta) = match st.antenna.as_ref() {
+        Some(ant) => antenna_aperture(&ant.gain, a.frequency_ghz * 1e9),
+        None => {
+            defaults.push(passbudget::config::DefaultUsed { key: "antenna.diameter_m".into(), value: "1".into(), source: "scintillation aperture averaging: 1 m at efficiency 0.5 assumed (no antenna block in the station file)".into() });
             (1.0, 0.5)
         }
     };
     let c = &st.climate;
-    let site = crate::plan::prepare::atmosphere_site(&st);
+    let site = passbudget::plan::prepare::atmosphere_site(&st);
     let prepared = PreparedAtmosphere::new(
         &site,
         &PathSpec {
@@ -513,7 +513,7 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
         Format::Csv => write!(
             out,
             "{}",
-            crate::report::to_csv(std::slice::from_ref(&AtmosphereRow::from(&doc)))?
+            passbudget::report::to_csv(std::slice::from_ref(&AtmosphereRow::from(&doc)))?
         )?,
         Format::Table => {
             writeln!(

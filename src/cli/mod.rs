@@ -1,16 +1,28 @@
-//! Command-line interface: argument definitions (clap derive), one file per command. The CLI only
-//! parses arguments, loads files, calls the library and hands results to `report` / `chart`.
+//! Command-line interface: argument definitions (clap derive), one file per command. Each command
+//! maps its flags to a library request, calls the library and renders the result; no rule that
+//! protects the numbers lives here.
 
-pub mod budget;
-pub mod chart;
-pub mod common;
-pub mod plan;
+mod budget;
+mod chart;
+mod geometry;
+mod output;
+mod plan;
+mod table;
+mod window;
 
 use clap::{Parser, Subcommand};
 use std::io::Write;
 
 /// Exit code for bad input, unreadable files and failed runs (usage errors exit with clap's 2).
 pub const EXIT_ERROR: i32 = 1;
+
+/// Output format chosen on the command line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum Format {
+    Table,
+    Csv,
+    Json,
+}
 
 #[derive(Debug, Parser)]
 #[command(name = "passbudget", version, about = "Plan satellite downlinks pass by pass: geometry, atmosphere, noise, Eb/N0, rate and data volume.", long_about = None)]
@@ -22,9 +34,9 @@ pub struct Args {
 #[derive(Debug, Subcommand)]
 pub enum Command {
     /// List the passes of a satellite over one or more stations.
-    Passes(common::PassesArgs),
+    Passes(geometry::PassesArgs),
     /// Look angles, range, range rate and Doppler at a fixed step.
-    Track(common::TrackArgs),
+    Track(geometry::TrackArgs),
     /// The atmospheric losses and sky temperature at one elevation.
     Atmosphere(budget::AtmosphereArgs),
     /// The itemized downlink budget at one elevation or one instant.
@@ -40,8 +52,8 @@ pub enum Command {
 /// Run the parsed command, writing to `out`.
 pub fn run(args: Args, out: &mut dyn Write) -> anyhow::Result<()> {
     match args.command {
-        Command::Passes(a) => common::passes(a, out),
-        Command::Track(a) => common::track(a, out),
+        Command::Passes(a) => geometry::passes(a, out),
+        Command::Track(a) => geometry::track(a, out),
         Command::Atmosphere(a) => budget::atmosphere(a, out),
         Command::Budget(a) => budget::budget(a, out),
         Command::Plan(a) => plan::plan(a, out),
@@ -67,6 +79,14 @@ pub fn main_entry() -> i32 {
             let _ = writeln!(std::io::stderr(), "error: {}", one_line(&e));
             EXIT_ERROR
         }
+    }
+}
+
+/// Print warnings on stderr, one line each (a closed stderr is ignored).
+pub fn warn(warnings: &[String]) {
+    let mut err = std::io::stderr().lock();
+    for w in warnings {
+        let _ = writeln!(err, "warning: {w}");
     }
 }
 

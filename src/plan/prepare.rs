@@ -11,7 +11,9 @@ use crate::config::mission::{Mission, TxPatternConfig};
 use crate::config::station::{GainSpec, PolarizationSense as CfgSense, Station};
 use crate::config::ConfigError;
 use crate::geometry::{HorizonMask, Observer};
-use crate::link::antenna::{GroundAntennaSpec, TransmitterSpec, TxPattern, TxPower};
+use crate::link::antenna::{
+    dish_beamwidth_deg, GroundAntennaSpec, TransmitterSpec, TxPattern, TxPower,
+};
 use crate::link::budget::{LinkModel, LinkModelSpec, PolarizationSpec, RateSpec};
 use crate::link::modcod::{operating_point, scheme_index};
 use crate::link::polarization::{EllipseOrientation, Polarization, PolarizationSense};
@@ -22,10 +24,6 @@ use crate::units::wavelength_m;
 /// Aperture efficiency assumed when a station gives its gain but no diameter, to estimate the
 /// equivalent diameter for beamwidth and scintillation (common practice for a parabolic reflector).
 pub const ASSUMED_EFFICIENCY: f64 = 0.55;
-
-/// Half-power beamwidth constant for a parabolic reflector, deg: theta_3dB = 70 lambda / D
-/// (common practice; the same rule as `link::antenna`).
-pub const BEAMWIDTH_CONSTANT_DEG: f64 = 70.0;
 
 /// Error preparing a mission for the budget or the plan.
 #[derive(Debug, thiserror::Error)]
@@ -87,6 +85,27 @@ pub struct RateSet {
     pub warnings: Vec<String>,
 }
 
+impl RateSet {
+    /// The ladder option with the lowest C/N0 threshold (the first of equals): the rate the
+    /// per-step Eb/N0 and margin are shown for when no rate closes.
+    pub fn lowest_threshold(&self) -> (usize, &RateOption) {
+        self.ladder
+            .iter()
+            .enumerate()
+            .min_by(|a, b| a.1.threshold_cn0_dbhz.total_cmp(&b.1.threshold_cn0_dbhz))
+            .expect("a rate set has at least one ladder option")
+    }
+
+    /// The option the per-step Eb/N0 and margin of a pass are shown for: the chosen rate, else
+    /// the lowest-threshold rate.
+    pub fn display_option(&self, chosen: Option<crate::plan::OptionId>) -> (usize, &RateOption) {
+        match chosen {
+            Some(crate::plan::OptionId(k)) => (k, &self.ladder[k]),
+            None => self.lowest_threshold(),
+        }
+    }
+}
+
 /// Map the configured polarization sense to the link model's.
 fn sense(s: CfgSense) -> PolarizationSense {
     match s {
@@ -117,40 +136,22 @@ pub fn station_model(
     let min = mask_override.unwrap_or(st.min_elevation_deg);
     let mask = HorizonMask::new(min, st.horizon_mask.clone())
         .map_err(|e| model_err(file, None, format!("horizon_mask: {e}")))?;
-    let lambda_m = wavelength_m(tx.frequency_hz);
-    let (ground_spec, diameter_m, efficiency) = match ant.gain {
+    let (diameter_m, efficiency) = antenna_aperture(&ant.gain, tx.frequency_hz);
+    let ground_spec = match ant.gain {
         GainSpec::Aperture {
             diameter_m,
             efficiency,
-        } => (
-            GroundAntennaSpec::Dish {
-                diameter_m,
-                efficiency,
-                pointing_error_deg: ant.pointing_error_deg,
-            },
+        } => GroundAntennaSpec::Dish {
             diameter_m,
             efficiency,
-        ),
-        GainSpec::Given {
+            pointing_error_deg: ant.pointing_error_deg,
+        },
+        GainSpec::Given { gain_dbi, .. } => GroundAntennaSpec::Gain {
             gain_dbi,
-            diameter_m,
-        } => {
-            // Equivalent diameter from G = eta (pi D / lambda)^2 when no diameter is given.
-            let d = diameter_m.unwrap_or_else(|| {
-                lambda_m / std::f64::consts::PI
-                    * (crate::units::db_to_ratio(gain_dbi) / ASSUMED_EFFICIENCY).sqrt()
-            });
-            let beamwidth_deg = BEAMWIDTH_CONSTANT_DEG * lambda_m / d;
-            (
-                GroundAntennaSpec::Gain {
-                    gain_dbi,
-                    beamwidth_deg,
-                    pointing_error_deg: ant.pointing_error_deg,
-                },
-                d,
-                ASSUMED_EFFICIENCY,
-            )
-        }
+            beamwidth_deg: dish_beamwidth_deg(diameter_m, tx.frequency_hz)
+                .map_err(|e| model_err(file, None, e))?,
+            pointing_error_deg: ant.pointing_error_deg,
+        },
     };
     let pattern = match &tx.pattern {
         TxPatternConfig::Fixed { gain_dbi } => TxPattern::Fixed {
@@ -237,6 +238,32 @@ pub fn station_model(
         polarization_tilt_deg,
         configured_min_elevation_deg: min,
     })
+}
+
+/// The ground antenna's aperture, used for its beamwidth and for scintillation (aperture averaging
+/// in ITU-R P.618-14 §2.4.1): the given diameter with its efficiency; a gain given without a
+/// diameter stands for the equivalent diameter from G = eta (pi D / lambda)^2 at
+/// [`ASSUMED_EFFICIENCY`]. The one rule for `budget`, `plan` and `atmosphere`.
+pub fn antenna_aperture(gain: &GainSpec, frequency_hz: f64) -> (f64, f64) {
+    match *gain {
+        GainSpec::Aperture {
+            diameter_m,
+            efficiency,
+        } => (diameter_m, efficiency),
+        GainSpec::Given {
+            diameter_m: Some(d),
+            ..
+        } => (d, ASSUMED_EFFICIENCY),
+        GainSpec::Given {
+            gain_dbi,
+            diameter_m: None,
+        } => {
+            let lambda_m = wavelength_m(frequency_hz);
+            let d = lambda_m / std::f64::consts::PI
+                * (crate::units::db_to_ratio(gain_dbi) / ASSUMED_EFFICIENCY).sqrt();
+            (d, ASSUMED_EFFICIENCY)
+        }
+    }
 }
 
 /// The atmosphere models' view of a station: position and climate. A missing rain rate is 0 (the
@@ -352,6 +379,7 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
                 required_ebn0_db: op.required_ebn0_db,
                 threshold_cn0_dbhz,
                 occupied_bandwidth_hz: spec.occupied_bandwidth_hz(),
+                implementation_loss_db: m.implementation_loss_db,
             },
             spec,
         ))

@@ -35,6 +35,24 @@ pub struct RateOption {
     pub threshold_cn0_dbhz: f64,
     /// Occupied bandwidth Rs (1 + roll-off), Hz.
     pub occupied_bandwidth_hz: f64,
+    /// The modem's implementation loss, dB.
+    pub implementation_loss_db: f64,
+}
+
+impl RateOption {
+    /// Eb/N0 at this option's data rate: C/N0 - 10 log10 R, dB.
+    #[inline]
+    pub fn ebn0_db(&self, cn0_dbhz: f64) -> f64 {
+        cn0_dbhz - crate::units::ratio_to_db(self.rate_bps)
+    }
+
+    /// Margin over the scheme's threshold: Eb/N0 - required Eb/N0 - implementation loss, dB. The
+    /// one place the margin is computed; the option closes where it reaches the required margin,
+    /// that is where C/N0 reaches `threshold_cn0_dbhz`.
+    #[inline]
+    pub fn margin_db(&self, cn0_dbhz: f64) -> f64 {
+        self.ebn0_db(cn0_dbhz) - self.required_ebn0_db - self.implementation_loss_db
+    }
 }
 
 /// Closed runs of one option over a pass, after the dwell rule: `(first_step, last_step)` inclusive.
@@ -196,6 +214,7 @@ mod tests {
             required_ebn0_db: 0.0,
             threshold_cn0_dbhz: thr,
             occupied_bandwidth_hz: rate,
+            implementation_loss_db: 0.0,
         }
     }
 

@@ -32,10 +32,16 @@ pub struct Step {
     pub system_temperature_k: f64,
     pub g_over_t_db_k: f64,
     pub cn0_dbhz: f64,
-    /// Availability case (rain exceeded p % of the year); NaN when not planned.
-    pub rain_atmospheric_loss_db: f64,
-    pub rain_system_temperature_k: f64,
-    pub rain_cn0_dbhz: f64,
+    /// Availability case (rain exceeded p % of the year); `None` when not planned.
+    pub rain: Option<RainStep>,
+}
+
+/// The availability case at one step.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct RainStep {
+    pub atmospheric_loss_db: f64,
+    pub system_temperature_k: f64,
+    pub cn0_dbhz: f64,
 }
 
 /// Model warnings raised anywhere along a pass (the union over its steps, clear sky and rain).
@@ -180,16 +186,16 @@ pub fn fill_pass(
             system_temperature_k: v.system_temperature_k,
             g_over_t_db_k: v.g_over_t_db_k,
             cn0_dbhz: v.cn0_dbhz,
-            rain_atmospheric_loss_db: f64::NAN,
-            rain_system_temperature_k: f64::NAN,
-            rain_cn0_dbhz: f64::NAN,
+            rain: None,
         };
         if let Some(w) = rain {
             let (ra, rv) = budget_at(model, &look, w, reference)?;
             warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
-            step.rain_atmospheric_loss_db = ra.total_db;
-            step.rain_system_temperature_k = rv.system_temperature_k;
-            step.rain_cn0_dbhz = rv.cn0_dbhz;
+            step.rain = Some(RainStep {
+                atmospheric_loss_db: ra.total_db,
+                system_temperature_k: rv.system_temperature_k,
+                cn0_dbhz: rv.cn0_dbhz,
+            });
         }
         if let Some(prev) = steps.last_mut() {
             prev.weight_s = t_s - prev.t_s;

@@ -1,20 +1,13 @@
 //! Output: the serialized row types (the public wire format, kept apart from the domain types so it
-//! stays stable when internals change), aligned text tables for people, CSV and JSON, and atomic
-//! file writing.
+//! stays stable when internals change), CSV and JSON, the files of a plan's output folder, and
+//! atomic file writing.
 
+pub mod files;
+pub mod geometry;
 pub mod plan;
-pub mod table;
 
 use std::io::Write;
 use std::path::Path;
-
-/// Output format chosen on the command line.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
-pub enum Format {
-    Table,
-    Csv,
-    Json,
-}
 
 /// Write `bytes` to `path` atomically: write a temporary file in the same folder, flush it to disk,
 /// then rename it over the target. A reader never sees a half-written file.

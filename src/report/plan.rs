@@ -1,15 +1,20 @@
 //! Wire format of `plan` and `mask`: JSON/CSV rows (public interface; field names are stable and
-//! documented in the README), built from the plan's domain types.
+//! documented in the README), built from the plan's typed results. Rounding happens here and only
+//! here.
 
-use crate::orbit::ElementSet;
-use crate::plan::prepare::{RateSet, StationModel};
+use crate::config::DefaultUsed;
+use crate::link::modcod::Provenance;
+use crate::plan::inputs::satellite_name;
+use crate::plan::prepare::RateSet;
+use crate::plan::rate::RateOption;
 use crate::plan::series::Step;
-use crate::plan::{ModeResult, PassPlan, PassSeries, Plan};
+use crate::plan::summary::ratio;
+use crate::plan::{
+    DayTotals, ModeResult, PassPlan, PassSeries, Plan, Planner, Totals, TradeoffPoint, UsableMask,
+};
 use crate::report::round;
 use crate::timefmt::{add_seconds, format_ms};
-use chrono::{DateTime, NaiveDate, Utc};
 use serde::Serialize;
-use std::collections::BTreeMap;
 
 /// One pass of the plan.
 #[derive(Debug, Clone, Serialize)]
@@ -49,52 +54,48 @@ pub struct PlanPassRow {
     pub warnings: String,
 }
 
-fn ratio(a: f64, b: f64) -> f64 {
-    if b > 0.0 {
-        round(a / b, 4)
-    } else {
-        0.0
-    }
-}
-
-fn ms(t: &Option<DateTime<Utc>>) -> Option<String> {
-    t.as_ref().map(format_ms)
+fn chosen<'a>(rates: &'a RateSet, m: &ModeResult) -> Option<&'a RateOption> {
+    m.option.map(|k| &rates.ladder[k.0])
 }
 
 impl PlanPassRow {
-    pub fn new(set: &ElementSet, stations: &[StationModel], p: &PassPlan) -> Self {
+    pub fn new(planner: &Planner, p: &PassPlan) -> Self {
+        let rates = planner.rates();
         let c = &p.clear;
-        let r2 = |x: Option<f64>| x.map(|v| round(v, 3));
+        let r3 = |x: f64| round(x, 3);
+        let o = chosen(rates, c);
+        let rain = p.rain.as_ref();
+        let rain_o = rain.and_then(|r| chosen(rates, r));
         PlanPassRow {
             number: p.number,
-            satellite: crate::cli::common::satellite_name(set),
-            station: stations[p.station_index].station.name.clone(),
+            satellite: satellite_name(planner.elements()),
+            station: planner.stations()[p.station_index].station.name.clone(),
             aos: format_ms(&p.pass.aos),
             tca: format_ms(&p.pass.tca),
             los: format_ms(&p.pass.los),
-            duration_s: round(p.pass.duration_s(), 3),
-            max_elevation_deg: round(p.pass.max_elevation_deg, 3),
-            rate_bps: c.rate_bps,
-            scheme: c.scheme.clone(),
-            closes_from: ms(&c.closes_from),
-            closes_until: ms(&c.closes_until),
-            closes_from_elevation_deg: r2(c.closes_from_elevation_deg),
-            closes_until_elevation_deg: r2(c.closes_until_elevation_deg),
-            closes_from_azimuth_deg: r2(c.closes_from_azimuth_deg),
-            closes_until_azimuth_deg: r2(c.closes_until_azimuth_deg),
-            min_margin_db: r2(c.min_margin_db),
-            max_ebn0_db: round(c.max_ebn0_db, 3),
+            duration_s: r3(p.pass.duration_s()),
+            max_elevation_deg: r3(p.pass.max_elevation_deg),
+            rate_bps: o.map(|o| o.rate_bps),
+            scheme: o.map(|o| o.scheme.clone()),
+            closes_from: c.closing.map(|x| format_ms(&x.from.time)),
+            closes_until: c.closing.map(|x| format_ms(&x.until.time)),
+            closes_from_elevation_deg: c.closing.map(|x| r3(x.from.elevation_deg)),
+            closes_until_elevation_deg: c.closing.map(|x| r3(x.until.elevation_deg)),
+            closes_from_azimuth_deg: c.closing.map(|x| r3(x.from.azimuth_deg)),
+            closes_until_azimuth_deg: c.closing.map(|x| r3(x.until.azimuth_deg)),
+            min_margin_db: c.min_margin_db.map(r3),
+            max_ebn0_db: r3(c.max_ebn0_db),
             volume_bits: c.volume_bits.round(),
             adaptive_volume_bits: c.adaptive_volume_bits.round(),
             shannon_volume_bits: c.shannon_volume_bits.round(),
             adaptive_switches: c.adaptive_switches,
-            fixed_efficiency: ratio(c.volume_bits, c.shannon_volume_bits),
-            adaptive_efficiency: ratio(c.adaptive_volume_bits, c.shannon_volume_bits),
-            rain_rate_bps: p.rain.as_ref().and_then(|r| r.rate_bps),
-            rain_scheme: p.rain.as_ref().and_then(|r| r.scheme.clone()),
-            rain_volume_bits: p.rain.as_ref().map(|r| r.volume_bits.round()),
-            rain_adaptive_volume_bits: p.rain.as_ref().map(|r| r.adaptive_volume_bits.round()),
-            rain_shannon_volume_bits: p.rain.as_ref().map(|r| r.shannon_volume_bits.round()),
+            fixed_efficiency: round(ratio(c.volume_bits, c.shannon_volume_bits), 4),
+            adaptive_efficiency: round(ratio(c.adaptive_volume_bits, c.shannon_volume_bits), 4),
+            rain_rate_bps: rain_o.map(|o| o.rate_bps),
+            rain_scheme: rain_o.map(|o| o.scheme.clone()),
+            rain_volume_bits: rain.map(|r| r.volume_bits.round()),
+            rain_adaptive_volume_bits: rain.map(|r| r.adaptive_volume_bits.round()),
+            rain_shannon_volume_bits: rain.map(|r| r.shannon_volume_bits.round()),
             starts_before_window: p.pass.starts_before_window,
             ends_after_window: p.pass.ends_after_window,
             warnings: p.warnings.messages().join("; "),
@@ -104,7 +105,7 @@ impl PlanPassRow {
 
 /// Totals over the window.
 #[derive(Debug, Clone, Serialize)]
-pub struct Totals {
+pub struct TotalsRow {
     pub passes: usize,
     pub passes_closing: usize,
     pub contact_s: f64,
@@ -127,6 +128,33 @@ pub struct Totals {
     pub days: f64,
 }
 
+impl TotalsRow {
+    pub fn new(t: &Totals, rates: &RateSet) -> Self {
+        let single = t.single_rate.map(|(k, v)| (&rates.ladder[k.0], v));
+        TotalsRow {
+            passes: t.passes,
+            passes_closing: t.passes_closing,
+            contact_s: round(t.contact_s, 1),
+            closed_s: round(t.closed_s, 1),
+            volume_bits: t.volume_bits.round(),
+            adaptive_volume_bits: t.adaptive_volume_bits.round(),
+            shannon_volume_bits: t.shannon_volume_bits.round(),
+            network_volume_bits: t.network.volume_bits.round(),
+            network_contact_s: round(t.network.contact_s, 1),
+            fixed_efficiency: round(t.fixed_efficiency(), 4),
+            adaptive_efficiency: round(t.adaptive_efficiency(), 4),
+            single_rate_bps: single.map(|(o, _)| o.rate_bps),
+            single_rate_scheme: single.map(|(o, _)| o.scheme.clone()),
+            single_rate_volume_bits: single.map(|(_, v)| v.round()).unwrap_or(0.0),
+            rain_passes_closing: t.rain.map(|r| r.passes_closing),
+            rain_volume_bits: t.rain.map(|r| r.volume_bits.round()),
+            rain_adaptive_volume_bits: t.rain.map(|r| r.adaptive_volume_bits.round()),
+            rain_shannon_volume_bits: t.rain.map(|r| r.shannon_volume_bits.round()),
+            days: round(t.days, 4),
+        }
+    }
+}
+
 /// Totals of one UTC day (passes counted on the day of their AOS).
 #[derive(Debug, Clone, Serialize)]
 pub struct DayRow {
@@ -137,6 +165,20 @@ pub struct DayRow {
     pub adaptive_volume_bits: f64,
     pub shannon_volume_bits: f64,
     pub rain_volume_bits: Option<f64>,
+}
+
+impl From<&DayTotals> for DayRow {
+    fn from(d: &DayTotals) -> Self {
+        DayRow {
+            date: d.date.to_string(),
+            passes: d.passes,
+            contact_s: round(d.contact_s, 1),
+            volume_bits: d.volume_bits.round(),
+            adaptive_volume_bits: d.adaptive_volume_bits.round(),
+            shannon_volume_bits: d.shannon_volume_bits.round(),
+            rain_volume_bits: d.rain_volume_bits.map(f64::round),
+        }
+    }
 }
 
 /// Usable elevation mask of one ladder rate at one station.
@@ -152,6 +194,21 @@ pub struct UsableMaskRow {
     pub passes_closing: usize,
 }
 
+impl UsableMaskRow {
+    pub fn new(planner: &Planner, m: &UsableMask) -> Self {
+        let o = &planner.rates().ladder[m.option.0];
+        UsableMaskRow {
+            station: planner.stations()[m.station_index].station.name.clone(),
+            rate_bps: o.rate_bps,
+            scheme: o.scheme.clone(),
+            usable_mask_deg: m.usable_mask_deg.map(|v| round(v, 2)),
+            station_mask_deg: m.station_mask_deg,
+            passes: m.passes,
+            passes_closing: m.passes_closing,
+        }
+    }
+}
+
 /// One point of the mask trade-off.
 #[derive(Debug, Clone, Serialize)]
 pub struct TradeoffRow {
@@ -163,173 +220,18 @@ pub struct TradeoffRow {
     pub volume_bits_per_day: f64,
 }
 
-fn sum_mode(passes: &[PassPlan], f: impl Fn(&ModeResult) -> f64, rain: bool) -> f64 {
-    passes
-        .iter()
-        .filter_map(|p| {
-            if rain {
-                p.rain.as_ref()
-            } else {
-                Some(&p.clear)
-            }
-        })
-        .map(f)
-        .sum::<f64>()
-        + 0.0 // an empty sum is -0.0; report 0
-}
-
-/// Totals and per-day rows.
-pub fn totals(plan: &Plan, rates: &RateSet, days: f64) -> (Totals, Vec<DayRow>) {
-    let p = &plan.passes;
-    let has_rain = plan.rain_planned;
-    let volume = sum_mode(p, |m| m.volume_bits, false);
-    let adaptive = sum_mode(p, |m| m.adaptive_volume_bits, false);
-    let shannon = sum_mode(p, |m| m.shannon_volume_bits, false);
-    let mut single: Option<(usize, f64)> = None;
-    for k in 0..rates.ladder.len() {
-        let v: f64 = p.iter().map(|x| x.clear.volume_by_rate_bits[k]).sum();
-        if v > 0.0 && single.is_none_or(|(_, b)| v > b) {
-            single = Some((k, v));
+impl TradeoffRow {
+    pub fn new(planner: &Planner, t: &TradeoffPoint) -> Self {
+        let o = &planner.rates().ladder[t.option.0];
+        TradeoffRow {
+            scope: t.scope.label(planner.stations()),
+            mask_deg: t.mask_deg as f64,
+            contact_s_per_day: round(t.contact_s_per_day, 1),
+            rate_bps: o.rate_bps,
+            scheme: o.scheme.clone(),
+            volume_bits_per_day: t.volume_bits_per_day.round(),
         }
     }
-    let rain_opt = |f: &dyn Fn(&ModeResult) -> f64| {
-        if has_rain {
-            Some(sum_mode(p, f, true).round())
-        } else {
-            None
-        }
-    };
-    let t = Totals {
-        passes: p.len(),
-        passes_closing: p.iter().filter(|x| x.clear.option.is_some()).count(),
-        contact_s: round(p.iter().map(|x| x.pass.duration_s()).sum::<f64>() + 0.0, 1),
-        closed_s: round(sum_mode(p, |m| m.closed_s, false), 1),
-        volume_bits: volume.round(),
-        adaptive_volume_bits: adaptive.round(),
-        shannon_volume_bits: shannon.round(),
-        network_volume_bits: plan.network_volume_bits.round(),
-        network_contact_s: round(plan.network_contact_s, 1),
-        fixed_efficiency: ratio(volume, shannon),
-        adaptive_efficiency: ratio(adaptive, shannon),
-        single_rate_bps: single.map(|(k, _)| rates.ladder[k].rate_bps),
-        single_rate_scheme: single.map(|(k, _)| rates.ladder[k].scheme.clone()),
-        single_rate_volume_bits: single.map(|(_, v)| v.round()).unwrap_or(0.0),
-        rain_passes_closing: if has_rain {
-            Some(
-                p.iter()
-                    .filter(|x| x.rain.as_ref().is_some_and(|r| r.option.is_some()))
-                    .count(),
-            )
-        } else {
-            None
-        },
-        rain_volume_bits: rain_opt(&|m| m.volume_bits),
-        rain_adaptive_volume_bits: rain_opt(&|m| m.adaptive_volume_bits),
-        rain_shannon_volume_bits: rain_opt(&|m| m.shannon_volume_bits),
-        days: round(days, 4),
-    };
-    let mut by_day: BTreeMap<NaiveDate, DayRow> = BTreeMap::new();
-    // Every UTC day of the window has a row, days without passes included.
-    let empty_day = |d: NaiveDate| DayRow {
-        date: d.to_string(),
-        passes: 0,
-        contact_s: 0.0,
-        volume_bits: 0.0,
-        adaptive_volume_bits: 0.0,
-        shannon_volume_bits: 0.0,
-        rain_volume_bits: if has_rain { Some(0.0) } else { None },
-    };
-    let last = (plan.end - chrono::Duration::microseconds(1)).date_naive();
-    let mut d = plan.start.date_naive();
-    while d <= last {
-        by_day.insert(d, empty_day(d));
-        match d.succ_opt() {
-            Some(next) => d = next,
-            None => break,
-        }
-    }
-    for x in p {
-        let d = x.pass.aos.date_naive();
-        let row = by_day.entry(d).or_insert_with(|| empty_day(d));
-        row.passes += 1;
-        row.contact_s += x.pass.duration_s();
-        row.volume_bits += x.clear.volume_bits;
-        row.adaptive_volume_bits += x.clear.adaptive_volume_bits;
-        row.shannon_volume_bits += x.clear.shannon_volume_bits;
-        if let (Some(v), Some(r)) = (row.rain_volume_bits.as_mut(), x.rain.as_ref()) {
-            *v += r.volume_bits;
-        }
-    }
-    let days_rows = by_day
-        .into_values()
-        .map(|mut r| {
-            r.contact_s = round(r.contact_s, 1);
-            r.volume_bits = r.volume_bits.round();
-            r.adaptive_volume_bits = r.adaptive_volume_bits.round();
-            r.shannon_volume_bits = r.shannon_volume_bits.round();
-            r.rain_volume_bits = r.rain_volume_bits.map(f64::round);
-            r
-        })
-        .collect();
-    (t, days_rows)
-}
-
-/// Usable masks per station and ladder rate.
-pub fn usable_masks(plan: &Plan, stations: &[StationModel], rates: &RateSet) -> Vec<UsableMaskRow> {
-    let mut rows = Vec::new();
-    for (i, st) in stations.iter().enumerate() {
-        let acc = &plan.station_masks[i];
-        let station_mask = st.configured_min_elevation_deg;
-        for (k, o) in rates.ladder.iter().enumerate() {
-            rows.push(UsableMaskRow {
-                station: st.station.name.clone(),
-                rate_bps: o.rate_bps,
-                scheme: o.scheme.clone(),
-                usable_mask_deg: acc.usable_mask_deg(k, station_mask).map(|v| round(v, 2)),
-                station_mask_deg: station_mask,
-                passes: acc.passes,
-                passes_closing: acc.passes_closing[k],
-            });
-        }
-    }
-    rows
-}
-
-/// Mask trade-off rows for each station and for all stations together ("all stations": the sum,
-/// overlapping passes counted at each station), masks 0..=40 deg in `step_deg` steps.
-pub fn tradeoff(
-    plan: &Plan,
-    stations: &[StationModel],
-    rates: &RateSet,
-    days: f64,
-    step_deg: usize,
-) -> Vec<TradeoffRow> {
-    let mut all = crate::plan::mask::MaskAccumulator::new(rates.ladder.len());
-    for m in &plan.station_masks {
-        all.merge(m);
-    }
-    let mut scopes: Vec<(String, &crate::plan::mask::MaskAccumulator)> = stations
-        .iter()
-        .zip(&plan.station_masks)
-        .map(|(s, m)| (s.station.name.clone(), m))
-        .collect();
-    scopes.push(("all stations".into(), &all));
-    let mut rows = Vec::new();
-    for (scope, acc) in scopes {
-        for mask in (0..=crate::plan::mask::MAX_MASK_DEG).step_by(step_deg.max(1)) {
-            for (k, o) in rates.ladder.iter().enumerate() {
-                rows.push(TradeoffRow {
-                    scope: scope.clone(),
-                    mask_deg: mask as f64,
-                    contact_s_per_day: round(acc.contact_above_s(mask) / days, 1),
-                    rate_bps: o.rate_bps,
-                    scheme: o.scheme.clone(),
-                    volume_bits_per_day: (acc.volume_above_bits(k, mask) / days).round(),
-                });
-            }
-        }
-    }
-    rows
 }
 
 /// One row of a pass's time series CSV.
@@ -365,28 +267,10 @@ pub struct StepRow {
     pub rain_margin_db: Option<f64>,
 }
 
-/// Index of the option the per-step Eb/N0 is shown for: the chosen rate, else the lowest-threshold rate.
-pub fn display_option(rates: &RateSet, p: &PassPlan) -> usize {
-    p.clear.option.unwrap_or_else(|| {
-        (0..rates.ladder.len())
-            .min_by(|a, b| {
-                rates.ladder[*a]
-                    .threshold_cn0_dbhz
-                    .total_cmp(&rates.ladder[*b].threshold_cn0_dbhz)
-            })
-            .unwrap_or(0)
-    })
-}
-
 /// The time series rows of one pass.
 pub fn step_rows(series: &PassSeries, rates: &RateSet) -> Vec<StepRow> {
     let p = series.plan;
-    let k = display_option(rates, p);
-    let o = &rates.ladder[k];
-    let lr = crate::units::ratio_to_db(o.rate_bps);
-    let margin = |c: f64| c - lr - o.required_ebn0_db - rates.implementation_loss_db;
-    let closed_runs = series.chosen_runs;
-    let opt = |x: f64, d: i32| if x.is_nan() { None } else { Some(round(x, d)) };
+    let (_, o) = rates.display_option(p.clear.option);
     series
         .steps
         .iter()
@@ -416,16 +300,191 @@ pub fn step_rows(series: &PassSeries, rates: &RateSet) -> Vec<StepRow> {
                 g_over_t_db_k: round(s.g_over_t_db_k, 4),
                 cn0_dbhz: round(s.cn0_dbhz, 4),
                 rate_bps: o.rate_bps,
-                ebn0_db: round(s.cn0_dbhz - lr, 4),
-                margin_db: round(margin(s.cn0_dbhz), 4),
-                closed: closed_runs.iter().any(|&(a, b)| a <= i && i <= b),
+                ebn0_db: round(o.ebn0_db(s.cn0_dbhz), 4),
+                margin_db: round(o.margin_db(s.cn0_dbhz), 4),
+                closed: series.counted(i),
                 adaptive_scheme: a.map(|x| x.scheme.clone()),
                 adaptive_rate_bps: a.map(|x| round(x.rate_bps, 1)),
-                rain_atmospheric_loss_db: opt(s.rain_atmospheric_loss_db, 4),
-                rain_system_temperature_k: opt(s.rain_system_temperature_k, 3),
-                rain_cn0_dbhz: opt(s.rain_cn0_dbhz, 4),
-                rain_margin_db: opt(margin(s.rain_cn0_dbhz), 4),
+                rain_atmospheric_loss_db: s.rain.map(|r| round(r.atmospheric_loss_db, 4)),
+                rain_system_temperature_k: s.rain.map(|r| round(r.system_temperature_k, 3)),
+                rain_cn0_dbhz: s.rain.map(|r| round(r.cn0_dbhz, 4)),
+                rain_margin_db: s.rain.map(|r| round(o.margin_db(r.cn0_dbhz), 4)),
             }
         })
         .collect()
+}
+
+/// A default taken instead of a value from a file, with the file.
+#[derive(Debug, Clone, Serialize)]
+pub struct DefaultRow {
+    pub file: String,
+    pub key: String,
+    pub source: String,
+    pub value: String,
+}
+
+impl DefaultRow {
+    fn new(file: &std::path::Path, d: &DefaultUsed) -> Self {
+        DefaultRow {
+            file: file.display().to_string(),
+            key: d.key.clone(),
+            source: d.source.clone(),
+            value: d.value.clone(),
+        }
+    }
+}
+
+/// One rate option with the provenance of its threshold (fields in alphabetical order, as
+/// published before the types were introduced).
+#[derive(Debug, Clone, Serialize)]
+pub struct RateOptionRow {
+    pub error_measure: String,
+    pub error_rate: f64,
+    pub mode: &'static str,
+    pub occupied_bandwidth_hz: f64,
+    pub rate_bps: f64,
+    pub required_ebn0_db: f64,
+    pub scheme: String,
+    pub threshold_cn0_dbhz: f64,
+    pub threshold_source: &'static str,
+    pub threshold_status: &'static str,
+}
+
+impl RateOptionRow {
+    fn new(mode: &'static str, o: &RateOption, spec: &crate::link::budget::RateSpec) -> Self {
+        let op = spec.operating();
+        let (threshold_status, threshold_source) = match op.provenance {
+            Provenance::Computed(s) => ("computed", s),
+            Provenance::Published(s) => ("published", s),
+            Provenance::FromMemory(s) => ("from memory", s),
+        };
+        RateOptionRow {
+            error_measure: format!("{:?}", op.measure).to_uppercase(),
+            error_rate: op.error_rate,
+            mode,
+            occupied_bandwidth_hz: o.occupied_bandwidth_hz.round(),
+            rate_bps: o.rate_bps,
+            required_ebn0_db: o.required_ebn0_db,
+            scheme: o.scheme.clone(),
+            threshold_cn0_dbhz: round(o.threshold_cn0_dbhz, 4),
+            threshold_source,
+            threshold_status,
+        }
+    }
+}
+
+/// The caution every plan output carries.
+pub const CAUTION: &str = "Planning estimates only, not for safety-of-life decisions. Frequency use needs a licence and coordination by the national administration.";
+
+/// The `assumptions` block of the plan summary: how the numbers were made. Fields are in
+/// alphabetical order (the order the summary has always had).
+#[derive(Debug, Clone, Serialize)]
+pub struct Assumptions {
+    pub adaptive: &'static str,
+    pub availability_case: Option<String>,
+    pub caution: &'static str,
+    pub clear_sky: &'static str,
+    pub defaults: Vec<DefaultRow>,
+    pub element_epoch: String,
+    pub exceedance_percent: Option<f64>,
+    pub fixed_rate: &'static str,
+    pub frames: &'static str,
+    pub frequency_hz: Option<f64>,
+    pub implementation_loss_db: f64,
+    pub min_dwell_s: f64,
+    pub network_total: &'static str,
+    pub propagator: &'static str,
+    pub rate_options: Vec<RateOptionRow>,
+    pub required_margin_db: f64,
+    pub shannon_bandwidth_hz: f64,
+    pub step_s: f64,
+    pub warnings: Vec<String>,
+    pub window_end: String,
+    pub window_start: String,
+}
+
+impl Assumptions {
+    pub fn new(planner: &Planner, plan: &Plan) -> Self {
+        let mission = planner.mission();
+        let rates = planner.rates();
+        let mut defaults: Vec<DefaultRow> = mission
+            .defaults
+            .iter()
+            .map(|d| DefaultRow::new(&mission.source, d))
+            .collect();
+        for s in planner.stations() {
+            defaults.extend(
+                s.station
+                    .defaults
+                    .iter()
+                    .map(|d| DefaultRow::new(&s.station.source, d)),
+            );
+        }
+        let fixed = rates
+            .ladder
+            .iter()
+            .zip(&rates.ladder_specs)
+            .map(|(o, s)| RateOptionRow::new("fixed", o, s));
+        let adaptive = rates
+            .adaptive
+            .iter()
+            .zip(&rates.adaptive_specs)
+            .map(|(o, s)| RateOptionRow::new("adaptive", o, s));
+        let exceedance_percent = planner.exceedance_percent();
+        Assumptions {
+            adaptive: "at each step the highest-rate option (ladder rates and adaptive schemes) whose run of at least min_dwell_s covers the step",
+            availability_case: exceedance_percent.map(|x| format!("rain attenuation exceeded {x} % of an average year applied to every pass (P.618-14); planning figure for {:.3} % availability", 100.0 - x)),
+            caution: CAUTION,
+            clear_sky: "gases (ITU-R P.676-12) and clouds (ITU-R P.840-9); no rain, no scintillation fade",
+            defaults,
+            element_epoch: format_ms(&planner.elements().epoch),
+            exceedance_percent,
+            fixed_rate: "per pass, the ladder rate that brings home the most data, counting only runs of at least min_dwell_s with margin >= required_margin_db",
+            frames: "TEME to Earth-fixed by GMST (IAU-82); UT1 taken as UTC; polar motion neglected",
+            frequency_hz: Some(planner.frequency_hz()),
+            implementation_loss_db: rates.implementation_loss_db,
+            min_dwell_s: rates.min_dwell_s,
+            network_total: "each second counted once, at the station with the highest fixed rate at that second",
+            propagator: "SGP4 (sgp4 crate) with WGS-72 constants",
+            rate_options: fixed.chain(adaptive).collect(),
+            required_margin_db: rates.required_margin_db,
+            shannon_bandwidth_hz: rates.shannon_bandwidth_hz,
+            step_s: planner.step_s(),
+            warnings: plan.warnings.clone(),
+            window_end: format_ms(&plan.window.end()),
+            window_start: format_ms(&plan.window.start()),
+        }
+    }
+}
+
+/// The whole plan summary (`summary.json`, `plan --format json`).
+#[derive(Debug, Clone, Serialize)]
+pub struct PlanDoc {
+    pub satellite: String,
+    pub passes: Vec<PlanPassRow>,
+    pub totals: TotalsRow,
+    pub days: Vec<DayRow>,
+    pub usable_masks: Vec<UsableMaskRow>,
+    pub assumptions: Assumptions,
+}
+
+impl PlanDoc {
+    pub fn new(planner: &Planner, plan: &Plan) -> Self {
+        PlanDoc {
+            satellite: satellite_name(planner.elements()),
+            passes: plan
+                .passes
+                .iter()
+                .map(|p| PlanPassRow::new(planner, p))
+                .collect(),
+            totals: TotalsRow::new(&plan.totals, planner.rates()),
+            days: plan.days.iter().map(DayRow::from).collect(),
+            usable_masks: plan
+                .usable_masks
+                .iter()
+                .map(|m| UsableMaskRow::new(planner, m))
+                .collect(),
+            assumptions: Assumptions::new(planner, plan),
+        }
+    }
 }

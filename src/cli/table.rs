@@ -28,10 +28,6 @@ impl Table {
         self.rows.push(cells);
     }
 
-    pub fn is_empty(&self) -> bool {
-        self.rows.is_empty()
-    }
-
     pub fn render(&self) -> String {
         let n = self.headers.len();
         let mut width: Vec<usize> = self.headers.iter().map(|h| h.chars().count()).collect();

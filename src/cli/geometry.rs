@@ -1,18 +1,22 @@
-//! Shared CLI pieces (inputs from flags or a mission file, windows, element age) and the `passes`
-//! and `track` commands.
+//! The geometry commands `passes` and `track`, and their inputs from flags or a mission file.
 
-use crate::config::mission::Mission;
-use crate::config::station::Station;
-use crate::geometry::{doppler_hz, find_passes, track as track_iter, HorizonMask, Observer, Pass};
-use crate::orbit::{load_elements, select, ElementSet, Propagator};
-use crate::report::table::{Align, Table};
-use crate::report::{round, to_csv, Format};
-use crate::timefmt::{format_ms, parse_utc};
+use crate::cli::table::{Align, Table};
+use crate::cli::window::parse_time_flag;
+use crate::cli::{warn, Format};
 use anyhow::{anyhow, bail, Result};
-use chrono::{DateTime, Utc};
+use passbudget::config::limits::MIN_ELEVATION_DEG;
+use passbudget::config::mission::Mission;
+use passbudget::config::station::Station;
+use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
+use passbudget::orbit::{ElementSet, Propagator};
+use passbudget::plan::inputs::{element_age_warning, load_satellite};
+use passbudget::plan::{Window, WindowRequest};
+use passbudget::report::geometry::{PassRow, TrackRow};
+use passbudget::report::to_csv;
+use passbudget::timefmt::format_ms;
 use serde::Serialize;
 use std::io::Write;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 /// Orbit, stations and window, from flags or a mission file (flags win).
 #[derive(Debug, Clone, clap::Args)]
@@ -81,65 +85,11 @@ pub struct Resolved {
     pub elements: ElementSet,
     pub propagator: Propagator,
     pub stations: Vec<Station>,
-    pub start: DateTime<Utc>,
-    pub end: DateTime<Utc>,
+    pub window: Window,
     pub mission: Option<Mission>,
 }
 
-/// Load the element file and choose one satellite.
-pub fn load_satellite(path: &Path, sat: Option<&str>) -> Result<(ElementSet, Propagator)> {
-    let sets = load_elements(path)?;
-    if sets.is_empty() {
-        bail!("{}: no element sets in the file", path.display());
-    }
-    let set = select(&sets, sat)
-        .map_err(|e| anyhow!("{}: {e}", path.display()))?
-        .clone();
-    let prop =
-        Propagator::new(&set).map_err(|e| anyhow!("{}: {}: {e}", path.display(), set.label()))?;
-    Ok((set, prop))
-}
-
-/// Resolve the window: `--start` (or the mission's), then `--end`, `--days`, the mission's end/days, or 1 day.
-pub fn resolve_window(
-    input: &InputArgs,
-    mission: Option<&Mission>,
-) -> Result<(DateTime<Utc>, DateTime<Utc>)> {
-    let start = match &input.start {
-        Some(s) => parse_utc(s).map_err(|e| anyhow!("--start: {e}"))?,
-        None => mission.and_then(|m| m.start).ok_or_else(|| anyhow!("no start time: give --start TIME (RFC 3339 UTC) or window.start in the mission file"))?,
-    };
-    let end = if let Some(e) = &input.end {
-        parse_utc(e).map_err(|e| anyhow!("--end: {e}"))?
-    } else if let Some(d) = input.days {
-        days_after(start, d, "--days")?
-    } else if input.start.is_none() && mission.and_then(|m| m.end).is_some() {
-        mission.and_then(|m| m.end).unwrap()
-    } else if let Some(d) = mission.and_then(|m| m.days) {
-        days_after(start, d, "window.days")?
-    } else if let Some(e) = mission.and_then(|m| m.end) {
-        e
-    } else {
-        days_after(start, 1.0, "default")?
-    };
-    if end <= start {
-        bail!(
-            "the end of the window ({}) is not after its start ({})",
-            format_ms(&end),
-            format_ms(&start)
-        );
-    }
-    Ok((start, end))
-}
-
-fn days_after(start: DateTime<Utc>, days: f64, what: &str) -> Result<DateTime<Utc>> {
-    if !(days.is_finite() && days > 0.0 && days <= 3660.0) {
-        bail!("{what}: {days} days is not a window length (0 to 3660 days)");
-    }
-    Ok(crate::timefmt::add_seconds(&start, days * 86400.0))
-}
-
-/// Load everything `passes`/`track` need.
+/// Load everything `passes`/`track` need; the window follows the library's one rule.
 pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved> {
     let mission = input.mission.as_deref().map(Mission::load).transpose()?;
     let tle = input
@@ -169,13 +119,17 @@ pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved>
     if stations.is_empty() {
         bail!("no station: give --station FILE or a --mission file with stations");
     }
-    let (start, end) = resolve_window(input, mission.as_ref())?;
+    let request = WindowRequest {
+        start: parse_time_flag("--start", input.start.as_deref())?,
+        end: parse_time_flag("--end", input.end.as_deref())?,
+        days: input.days,
+    };
+    let window = Window::resolve(&request, mission.as_ref())?;
     Ok(Resolved {
         elements,
         propagator,
         stations,
-        start,
-        end,
+        window,
         mission,
     })
 }
@@ -188,90 +142,19 @@ pub fn station_geometry(
     let obs = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m)
         .map_err(|e| anyhow!("{}: {e}", st.source.display()))?;
     let min = mask_override.unwrap_or(st.min_elevation_deg);
-    if !(-5.0..=90.0).contains(&min) {
-        bail!("--mask {min}: out of range (-5 to 90 deg)");
-    }
+    MIN_ELEVATION_DEG
+        .check(min)
+        .map_err(|e| anyhow!("--mask: {e}"))?;
     let mask = HorizonMask::new(min, st.horizon_mask.clone())
         .map_err(|e| anyhow!("{}: horizon_mask: {e}", st.source.display()))?;
     Ok((obs, mask))
 }
 
-/// Warn on stderr when the window lies far from the element epoch. Along-track error of a LEO
-/// element set grows by roughly 1-3 km a day (common practice).
-pub fn warn_element_age(set: &ElementSet, start: DateTime<Utc>, end: DateTime<Utc>) {
-    if let Some(w) = element_age_warning(set, start, end) {
-        eprintln!("{w}");
+/// Print the element-age warning on stderr, if any.
+fn warn_element_age(r: &Resolved) {
+    if let Some(w) = element_age_warning(&r.elements, r.window.start(), r.window.end()) {
+        warn(&[w]);
     }
-}
-
-/// The element-age warning text, if any: more than 7 days from the epoch warns, more than 30 warns strongly.
-pub fn element_age_warning(
-    set: &ElementSet,
-    start: DateTime<Utc>,
-    end: DateTime<Utc>,
-) -> Option<String> {
-    let days = |t: DateTime<Utc>| ((t - set.epoch).num_seconds() as f64 / 86400.0).abs();
-    let worst = days(start).max(days(end));
-    if worst > 30.0 {
-        Some(format!(
-            "warning: STALE ELEMENTS: the window reaches {worst:.1} days from the epoch of {} ({}); along-track errors of several tens of km or more are likely: get fresh elements before relying on these times",
-            set.label(),
-            format_ms(&set.epoch)
-        ))
-    } else if worst > 7.0 {
-        Some(format!(
-            "warning: the window reaches {worst:.1} days from the epoch of {} ({}); a LEO element set drifts by roughly 1-3 km a day along track (common practice)",
-            set.label(),
-            format_ms(&set.epoch)
-        ))
-    } else {
-        None
-    }
-}
-
-/// One row of the `passes` output (public interface: field names are stable).
-#[derive(Debug, Clone, Serialize)]
-pub struct PassRow {
-    pub satellite: String,
-    pub norad_id: u64,
-    pub station: String,
-    pub aos: String,
-    pub tca: String,
-    pub los: String,
-    pub duration_s: f64,
-    pub max_elevation_deg: f64,
-    pub aos_azimuth_deg: f64,
-    pub tca_azimuth_deg: f64,
-    pub los_azimuth_deg: f64,
-    pub min_range_km: f64,
-    pub starts_before_window: bool,
-    pub ends_after_window: bool,
-}
-
-impl PassRow {
-    pub fn new(set: &ElementSet, station: &str, p: &Pass) -> Self {
-        PassRow {
-            satellite: satellite_name(set),
-            norad_id: set.norad_id,
-            station: station.to_string(),
-            aos: format_ms(&p.aos),
-            tca: format_ms(&p.tca),
-            los: format_ms(&p.los),
-            duration_s: round(p.duration_s(), 3),
-            max_elevation_deg: round(p.max_elevation_deg, 3),
-            aos_azimuth_deg: round(p.aos_azimuth_deg, 3),
-            tca_azimuth_deg: round(p.tca_azimuth_deg, 3),
-            los_azimuth_deg: round(p.los_azimuth_deg, 3),
-            min_range_km: round(p.min_range_km, 3),
-            starts_before_window: p.starts_before_window,
-            ends_after_window: p.ends_after_window,
-        }
-    }
-}
-
-/// The satellite's name for outputs: its name, or its catalog number.
-pub fn satellite_name(set: &ElementSet) -> String {
-    set.name.clone().unwrap_or_else(|| set.norad_id.to_string())
 }
 
 /// Passes of the satellite over every station, sorted by AOS; warnings and notes go to stderr.
@@ -279,7 +162,7 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
     let mut all = Vec::new();
     for (i, st) in r.stations.iter().enumerate() {
         let (obs, mask) = station_geometry(st, mask_override)?;
-        let found = find_passes(&r.propagator, &obs, &mask, r.start, r.end);
+        let found = find_passes(&r.propagator, &obs, &mask, r.window.start(), r.window.end());
         if let Some(e) = &found.stopped {
             eprintln!(
                 "warning: {}: propagation stopped: {e}; passes after that time are not listed",
@@ -311,7 +194,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
     let mask = a
         .mask
         .or_else(|| r.mission.as_ref().and_then(|m| m.mask_deg));
-    warn_element_age(&r.elements, r.start, r.end);
+    warn_element_age(&r);
     let all = all_passes(&r, mask)?;
     let rows: Vec<PassRow> = all
         .iter()
@@ -355,7 +238,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                     p.aos.format("%Y-%m-%d %H:%M:%S").to_string(),
                     p.tca.format("%H:%M:%S").to_string(),
                     p.los.format("%H:%M:%S").to_string(),
-                    crate::report::mm_ss(p.duration_s()),
+                    passbudget::report::mm_ss(p.duration_s()),
                     format!("{:.1}", p.max_elevation_deg),
                     whole_azimuth(p.aos_azimuth_deg),
                     whole_azimuth(p.los_azimuth_deg),
@@ -368,8 +251,8 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                 "{} passes of {} from {} to {}",
                 rows.len(),
                 r.elements.label(),
-                format_ms(&r.start),
-                format_ms(&r.end)
+                format_ms(&r.window.start()),
+                format_ms(&r.window.end())
             )?;
             write!(out, "{}", t.render())?;
             writeln!(
@@ -379,17 +262,6 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
         }
     }
     Ok(())
-}
-
-/// One row of the `track` output (public interface).
-#[derive(Debug, Clone, Serialize)]
-pub struct TrackRow {
-    pub time: String,
-    pub azimuth_deg: f64,
-    pub elevation_deg: f64,
-    pub range_km: f64,
-    pub range_rate_km_s: f64,
-    pub doppler_hz: Option<f64>,
 }
 
 /// `passbudget track`.
@@ -418,7 +290,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             .as_ref()
             .and_then(|m| m.transmitter.as_ref().map(|t| t.frequency_hz))
     });
-    let n = crate::timefmt::seconds_between(&r.start, &r.end) / a.step;
+    let n = r.window.days() * 86400.0 / a.step;
     if n > 5e6 {
         bail!(
             "--step {} over this window gives {:.0} points; use a longer step or a shorter window",
@@ -426,24 +298,23 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             n
         );
     }
-    warn_element_age(&r.elements, r.start, r.end);
+    warn_element_age(&r);
     let st = &r.stations[0];
     let (obs, mask) = station_geometry(st, None)?;
     let mut rows = Vec::new();
-    for item in track_iter(&r.propagator, &obs, r.start, r.end, a.step) {
+    for item in track_iter(
+        &r.propagator,
+        &obs,
+        r.window.start(),
+        r.window.end(),
+        a.step,
+    ) {
         match item {
             Ok((t, look)) => {
                 if a.above_mask && look.elevation_deg < mask.limit_deg(look.azimuth_deg) {
                     continue;
                 }
-                rows.push(TrackRow {
-                    time: format_ms(&t),
-                    azimuth_deg: round(look.azimuth_deg, 4),
-                    elevation_deg: round(look.elevation_deg, 4),
-                    range_km: round(look.range_km, 4),
-                    range_rate_km_s: round(look.range_rate_km_s, 6),
-                    doppler_hz: frequency_hz.map(|f| round(doppler_hz(look.range_rate_km_s, f), 1)),
-                });
+                rows.push(TrackRow::new(&t, &look, frequency_hz));
             }
             Err(e) => {
                 eprintln!(

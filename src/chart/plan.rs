@@ -1,0 +1,327 @@
+//! Charts of a plan: converts the planner's typed results into the chart inputs of [`super::data`]
+//! and draws them. [`ChartSink`] draws each pass chart as its pass is planned (from the worker
+//! threads) and keeps the sky tracks; [`window_charts`] then draws the sky charts (per station and
+//! UTC day), the mask charts (per station and all stations) and the plan summary.
+
+use super::{
+    mask_file_name, pass_file_name, save_mask, save_pass, save_sky, save_summary, sky_file_name,
+    summary_file_name, ChartError, ChartFormat, DayTotals, MaskChartData, MaskRateSeries,
+    PassChartData, PassChartSample, SkyChartData, SkyPass, SkyPoint, SummaryBar, SummaryChartData,
+};
+use crate::plan::inputs::satellite_name;
+use crate::plan::summary::{tradeoff, Scope};
+use crate::plan::{PassSeries, PassSink, Plan, Planner};
+use chrono::NaiveDate;
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+use std::sync::Mutex;
+
+/// Sky-track points kept per pass (every 5 s is plenty for a polar plot).
+const SKY_POINT_STEP_S: f64 = 5.0;
+
+/// Which window charts to draw.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct WindowCharts {
+    pub sky: bool,
+    pub mask: bool,
+    pub summary: bool,
+}
+
+/// Draws pass charts as passes are planned and keeps every pass's sky track for the window charts.
+pub struct ChartSink<'a> {
+    planner: &'a Planner,
+    dir: &'a Path,
+    format: ChartFormat,
+    /// Draw the pass charts (else only keep the sky tracks).
+    passes: bool,
+    /// Only this pass number.
+    only: Option<usize>,
+    sky: Mutex<BTreeMap<usize, Vec<SkyPoint>>>,
+}
+
+impl<'a> ChartSink<'a> {
+    pub fn new(
+        planner: &'a Planner,
+        dir: &'a Path,
+        format: ChartFormat,
+        passes: bool,
+        only: Option<usize>,
+    ) -> Self {
+        ChartSink {
+            planner,
+            dir,
+            format,
+            passes,
+            only,
+            sky: Mutex::new(BTreeMap::new()),
+        }
+    }
+}
+
+impl PassSink for ChartSink<'_> {
+    type Error = ChartError;
+    fn pass(&self, s: &PassSeries<'_>) -> Result<(), ChartError> {
+        if self.only.is_some_and(|n| n != s.plan.number) {
+            return Ok(());
+        }
+        let points = sky_points(self.planner, s);
+        self.sky
+            .lock()
+            .unwrap_or_else(|e| e.into_inner())
+            .insert(s.plan.number, points);
+        if self.passes {
+            let data = pass_chart_data(self.planner, s);
+            let station = &self.planner.stations()[s.plan.station_index].station.name;
+            let path = self.dir.join(pass_file_name(
+                s.plan.number,
+                station,
+                &s.plan.pass.aos,
+                self.format,
+            ));
+            save_pass(&data, &path, self.format)?;
+        }
+        Ok(())
+    }
+}
+
+/// The pass chart input of one pass.
+pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
+    let plan = s.plan;
+    let rates = planner.rates();
+    let (_, o) = rates.display_option(plan.clear.option);
+    let chosen = plan.clear.option.map(|k| &rates.ladder[k.0]);
+    let samples = s
+        .steps
+        .iter()
+        .enumerate()
+        .map(|(i, x)| PassChartSample {
+            t_s: x.t_s,
+            elevation_deg: x.elevation_deg,
+            azimuth_deg: x.azimuth_deg,
+            range_km: x.range_km,
+            ebn0_db: o.ebn0_db(x.cn0_dbhz),
+            margin_db: o.margin_db(x.cn0_dbhz),
+            closed: s.counted(i),
+            adaptive_rate_bps: s
+                .adaptive
+                .get(i)
+                .copied()
+                .flatten()
+                .map(|j| rates.adaptive[j as usize].rate_bps),
+            system_temperature_k: x.system_temperature_k,
+            atmospheric_loss_db: x.atmospheric_loss_db,
+        })
+        .collect();
+    PassChartData {
+        satellite: satellite_name(planner.elements()),
+        station: planner.stations()[plan.station_index].station.name.clone(),
+        pass_number: plan.number,
+        aos: plan.pass.aos,
+        tca: plan.pass.tca,
+        los: plan.pass.los,
+        max_elevation_deg: plan.pass.max_elevation_deg,
+        rate_bps: chosen.map(|c| c.rate_bps),
+        scheme: chosen.map(|c| c.scheme.clone()),
+        volume_bits: plan.clear.volume_bits,
+        adaptive_volume_bits: plan.clear.adaptive_volume_bits,
+        required_ebn0_db: Some(o.required_ebn0_db + o.implementation_loss_db),
+        required_margin_db: rates.required_margin_db,
+        closes_from: plan.clear.closing.map(|c| c.from.time),
+        closes_until: plan.clear.closing.map(|c| c.until.time),
+        samples,
+    }
+}
+
+fn sky_points(planner: &Planner, s: &PassSeries) -> Vec<SkyPoint> {
+    let (_, o) = planner.rates().display_option(s.plan.clear.option);
+    let mut out = Vec::new();
+    let mut next_t = 0.0;
+    let last = s.steps.len().saturating_sub(1);
+    for (i, x) in s.steps.iter().enumerate() {
+        if x.t_s + 1e-9 >= next_t || i == last {
+            out.push(SkyPoint {
+                azimuth_deg: x.azimuth_deg,
+                elevation_deg: x.elevation_deg,
+                margin_db: Some(o.margin_db(x.cn0_dbhz)),
+            });
+            next_t = x.t_s + SKY_POINT_STEP_S;
+        }
+    }
+    out
+}
+
+/// Sky charts (per station and UTC day), mask charts (per station and all stations; they need a
+/// plan run with the trade-off) and the summary. Returns the files written.
+pub fn window_charts(
+    planner: &Planner,
+    plan: &Plan,
+    sink: &ChartSink,
+    dir: &Path,
+    which: WindowCharts,
+) -> Result<Vec<PathBuf>, ChartError> {
+    let mut written = Vec::new();
+    if which.sky {
+        written.extend(sky_charts(planner, plan, sink, dir)?);
+    }
+    if which.mask {
+        if let Some(masks) = &plan.tradeoff_masks {
+            written.extend(mask_charts(planner, plan, masks, dir, sink.format)?);
+        }
+    }
+    if which.summary {
+        written.push(summary_chart(planner, plan, dir, sink.format)?);
+    }
+    Ok(written)
+}
+
+fn sky_charts(
+    planner: &Planner,
+    plan: &Plan,
+    sink: &ChartSink,
+    dir: &Path,
+) -> Result<Vec<PathBuf>, ChartError> {
+    let tracks = sink.sky.lock().unwrap_or_else(|e| e.into_inner());
+    let mut groups: BTreeMap<(usize, NaiveDate), Vec<SkyPass>> = BTreeMap::new();
+    for x in &plan.passes {
+        if let Some(points) = tracks.get(&x.number) {
+            groups
+                .entry((x.station_index, x.pass.aos.date_naive()))
+                .or_default()
+                .push(SkyPass {
+                    label: format!("#{:03}", x.number),
+                    points: points.clone(),
+                    aos: x.pass.aos,
+                    tca: x.pass.tca,
+                    los: x.pass.los,
+                });
+        }
+    }
+    drop(tracks);
+    let satellite = satellite_name(planner.elements());
+    // One chart per station and day, drawn in parallel.
+    use rayon::prelude::*;
+    let groups: Vec<((usize, NaiveDate), Vec<SkyPass>)> = groups.into_iter().collect();
+    groups
+        .into_par_iter()
+        .map(|((si, day), passes)| {
+            let st = &planner.stations()[si];
+            let data = SkyChartData {
+                station: st.station.name.clone(),
+                satellite: satellite.clone(),
+                title_date: day.format("%Y-%m-%d").to_string(),
+                min_elevation_deg: st.configured_min_elevation_deg,
+                horizon_mask: st.station.horizon_mask.clone(),
+                required_margin_db: planner.rates().required_margin_db,
+                passes,
+            };
+            let path = dir.join(sky_file_name(&st.station.name, day, sink.format));
+            save_sky(&data, &path, sink.format)?;
+            Ok(path)
+        })
+        .collect()
+}
+
+fn mask_charts(
+    planner: &Planner,
+    plan: &Plan,
+    masks: &[crate::plan::mask::MaskAccumulator],
+    dir: &Path,
+    format: ChartFormat,
+) -> Result<Vec<PathBuf>, ChartError> {
+    let stations = planner.stations();
+    let ladder = &planner.rates().ladder;
+    let points = tradeoff(masks, planner.rates(), plan.window.days(), 1);
+    let scopes = (0..stations.len())
+        .map(Scope::Station)
+        .chain(std::iter::once(Scope::Network));
+    let mut written = Vec::new();
+    for scope in scopes {
+        let configured = match scope {
+            Scope::Station(i) => stations[i].configured_min_elevation_deg,
+            Scope::Network => stations
+                .iter()
+                .map(|s| s.configured_min_elevation_deg)
+                .fold(f64::INFINITY, f64::min),
+        };
+        let mine: Vec<_> = points.iter().filter(|r| r.scope == scope).collect();
+        let n = ladder.len();
+        let round1 = |x: f64| crate::report::round(x, 1);
+        let series = ladder
+            .iter()
+            .enumerate()
+            .map(|(k, o)| MaskRateSeries {
+                label: format!("{:.0} Mbit/s {}", o.rate_bps / 1e6, o.scheme),
+                volume_bits_per_day: mine
+                    .iter()
+                    .skip(k)
+                    .step_by(n)
+                    .map(|r| r.volume_bits_per_day.round())
+                    .collect(),
+            })
+            .collect();
+        let label = scope.label(stations);
+        let data = MaskChartData {
+            scope: label.clone(),
+            masks_deg: mine.iter().step_by(n).map(|r| r.mask_deg as f64).collect(),
+            contact_s_per_day: mine
+                .iter()
+                .step_by(n)
+                .map(|r| round1(r.contact_s_per_day))
+                .collect(),
+            rates: series,
+            configured_mask_deg: configured,
+        };
+        let path = dir.join(mask_file_name(&label, format));
+        save_mask(&data, &path, format)?;
+        written.push(path);
+    }
+    Ok(written)
+}
+
+fn summary_chart(
+    planner: &Planner,
+    plan: &Plan,
+    dir: &Path,
+    format: ChartFormat,
+) -> Result<PathBuf, ChartError> {
+    let satellite = satellite_name(planner.elements());
+    let data = SummaryChartData {
+        satellite: satellite.clone(),
+        start: plan.window.start(),
+        end: plan.window.end(),
+        stations: planner
+            .stations()
+            .iter()
+            .map(|s| s.station.name.clone())
+            .collect(),
+        passes: plan
+            .passes
+            .iter()
+            .map(|x| SummaryBar {
+                aos: x.pass.aos,
+                los: x.pass.los,
+                station_index: x.station_index,
+                volume_bits: x.clear.volume_bits,
+                adaptive_volume_bits: x.clear.adaptive_volume_bits,
+            })
+            .collect(),
+        days: plan
+            .days
+            .iter()
+            .map(|d| DayTotals {
+                date: d.date,
+                fixed_bits: d.volume_bits.round(),
+                adaptive_bits: d.adaptive_volume_bits.round(),
+                shannon_bits: d.shannon_volume_bits.round(),
+            })
+            .collect(),
+    };
+    let path = dir.join(summary_file_name(
+        &satellite,
+        &plan.window.start(),
+        &plan.window.end(),
+        format,
+    ));
+    save_summary(&data, &path, format)?;
+    Ok(path)
+}

@@ -1,0 +1,322 @@
+//! One pass: its budget time series, the fixed rate, the adaptive schedule, Shannon's bound, the
+//! mask accumulators and the network segments.
+
+use super::mask::MaskAccumulator;
+use super::network::Segment;
+use super::rate::{adaptive_schedule, choose_fixed, kept_runs, switch_count};
+use super::series::{fill_pass, PassWarnings, StepPlan};
+use super::{
+    Closing, Crossing, ModeResult, OptionId, PassPlan, PassSeries, PassSink, PlanError, Planner,
+};
+use crate::geometry::Pass;
+use crate::orbit::{ElementSet, PropagationError, Propagator};
+use crate::plan::series::Step;
+use crate::timefmt::{add_seconds, seconds_between};
+
+/// Per-thread scratch buffers: reused across passes so the per-step loop allocates nothing.
+pub(super) struct Scratch {
+    /// Each worker builds its own propagator (it keeps mutable state and is not `Sync`).
+    prop: Result<Propagator, PropagationError>,
+    steps: Vec<Step>,
+    cn0: Vec<f64>,
+    rain_cn0: Vec<f64>,
+    weights: Vec<f64>,
+    schedule: Vec<Option<u16>>,
+    rain_schedule: Vec<Option<u16>>,
+    runs: Vec<(usize, usize)>,
+}
+
+impl Scratch {
+    pub(super) fn new(elements: &ElementSet) -> Scratch {
+        Scratch {
+            prop: Propagator::new(elements),
+            steps: Vec::new(),
+            cn0: Vec::new(),
+            rain_cn0: Vec::new(),
+            weights: Vec::new(),
+            schedule: Vec::new(),
+            rain_schedule: Vec::new(),
+            runs: Vec::new(),
+        }
+    }
+
+    /// Follow `pass` and fill the step, C/N0 and weight buffers.
+    fn fill(
+        &mut self,
+        planner: &Planner,
+        station_index: usize,
+        pass: &Pass,
+    ) -> Result<PassWarnings, super::series::SeriesError> {
+        let model = &planner.stations()[station_index];
+        let prop = self.prop.as_ref().map_err(|e| e.clone())?;
+        let how = StepPlan {
+            step_s: planner.step_s(),
+            frequency_hz: planner.frequency_hz(),
+            rain: planner.rain(),
+            reference: planner.rates().ladder_specs[0],
+        };
+        let mut warnings = fill_pass(prop, model, pass, &how, &mut self.steps)?;
+        warnings.atmosphere = warnings
+            .atmosphere
+            .union(&model.atmosphere.static_warnings());
+        self.weights.clear();
+        self.weights.extend(self.steps.iter().map(|x| x.weight_s));
+        self.cn0.clear();
+        self.cn0.extend(self.steps.iter().map(|x| x.cn0_dbhz));
+        Ok(warnings)
+    }
+
+    /// Mask accumulators of the pass in the buffers: contact and, per ladder rate, its counted runs.
+    fn mask_accumulator(&mut self, planner: &Planner) -> MaskAccumulator {
+        let rates = planner.rates();
+        let mut acc = MaskAccumulator::new(rates.ladder.len());
+        acc.passes = 1;
+        for st in self.steps.iter() {
+            acc.add_contact(st.elevation_deg, st.weight_s);
+        }
+        for (k, o) in rates.ladder.iter().enumerate() {
+            kept_runs(
+                &self.cn0,
+                &self.weights,
+                o.threshold_cn0_dbhz,
+                rates.min_dwell_s,
+                &mut self.runs,
+            );
+            if !self.runs.is_empty() {
+                acc.passes_closing[k] = 1;
+            }
+            let mut r = 0;
+            for (i, st) in self.steps.iter().enumerate() {
+                while r < self.runs.len() && self.runs[r].1 < i {
+                    r += 1;
+                }
+                let closed = r < self.runs.len() && self.runs[r].0 <= i;
+                acc.add_option(k, o.rate_bps, st.elevation_deg, st.weight_s, closed);
+            }
+        }
+        acc
+    }
+}
+
+/// The mask accumulators of a pass searched from 0 deg, for the trade-off only.
+pub(super) fn tradeoff_pass(
+    planner: &Planner,
+    station_index: usize,
+    pass: &Pass,
+    s: &mut Scratch,
+) -> Result<MaskAccumulator, PlanError> {
+    s.fill(planner, station_index, pass)
+        .map_err(|source| PlanError::Pass {
+            number: 0,
+            station: planner.stations()[station_index].station.name.clone(),
+            source,
+        })?;
+    Ok(s.mask_accumulator(planner))
+}
+
+/// Plan one pass and hand it with its time series to the sink.
+pub(super) fn plan_pass<S: PassSink>(
+    planner: &Planner,
+    number: usize,
+    station_index: usize,
+    pass: &Pass,
+    s: &mut Scratch,
+    sink: &S,
+) -> Result<PassPlan, PlanError> {
+    let warnings = s
+        .fill(planner, station_index, pass)
+        .map_err(|source| PlanError::Pass {
+            number,
+            station: planner.stations()[station_index].station.name.clone(),
+            source,
+        })?;
+    let clear = mode_result(planner, pass, &s.steps, &s.cn0, &s.weights, &mut s.schedule);
+    let mask = s.mask_accumulator(planner);
+    let segments = chosen_segments(planner, pass, &clear, s);
+    let rain = if planner.rain().is_some() {
+        s.rain_cn0.clear();
+        s.rain_cn0.extend(
+            s.steps
+                .iter()
+                .map(|x| x.rain.map_or(f64::NAN, |r| r.cn0_dbhz)),
+        );
+        Some(mode_result(
+            planner,
+            pass,
+            &s.steps,
+            &s.rain_cn0,
+            &s.weights,
+            &mut s.rain_schedule,
+        ))
+    } else {
+        None
+    };
+    let plan = PassPlan {
+        number,
+        station_index,
+        pass: pass.clone(),
+        clear,
+        rain,
+        segments,
+        mask,
+        warnings,
+        steps: s.steps.len(),
+    };
+    sink.pass(&PassSeries {
+        plan: &plan,
+        steps: &s.steps,
+        adaptive: &s.schedule,
+        chosen_runs: &s.runs,
+    })
+    .map_err(|e| PlanError::Sink(Box::new(e)))?;
+    Ok(plan)
+}
+
+/// The counted runs of the chosen fixed rate (left in `s.runs` for the sink) as network segments,
+/// seconds from the window start.
+fn chosen_segments(
+    planner: &Planner,
+    pass: &Pass,
+    clear: &ModeResult,
+    s: &mut Scratch,
+) -> Vec<Segment> {
+    let rates = planner.rates();
+    let offset_s = seconds_between(&planner.window().start(), &pass.aos);
+    let mut segments = Vec::new();
+    s.runs.clear();
+    if let Some(OptionId(k)) = clear.option {
+        kept_runs(
+            &s.cn0,
+            &s.weights,
+            rates.ladder[k].threshold_cn0_dbhz,
+            rates.min_dwell_s,
+            &mut s.runs,
+        );
+        for &(a, b) in &s.runs {
+            segments.push(Segment {
+                start_s: offset_s + s.steps[a].t_s,
+                end_s: offset_s + s.steps[b].t_s + s.steps[b].weight_s,
+                rate_bps: rates.ladder[k].rate_bps,
+            });
+        }
+    }
+    segments
+}
+
+/// Shannon capacity integrated over the pass: sum of w B log2(1 + (C/N0) / B), bits.
+fn shannon_volume_bits(cn0_dbhz: &[f64], weights_s: &[f64], bandwidth_hz: f64) -> f64 {
+    cn0_dbhz
+        .iter()
+        .zip(weights_s)
+        .map(|(c, w)| {
+            w * bandwidth_hz * (1.0 + crate::units::db_to_ratio(*c) / bandwidth_hz).log2()
+        })
+        .sum()
+}
+
+/// Linear interpolation of the C/N0 crossing between steps i0 and i1: seconds from AOS,
+/// elevation and azimuth.
+fn interpolate_crossing(
+    steps: &[Step],
+    cn0: &[f64],
+    threshold: f64,
+    i0: usize,
+    i1: usize,
+) -> (f64, f64, f64) {
+    let (a, b) = (&steps[i0], &steps[i1]);
+    let d = cn0[i1] - cn0[i0];
+    let f = if d.abs() > 1e-12 {
+        ((threshold - cn0[i0]) / d).clamp(0.0, 1.0)
+    } else {
+        0.0
+    };
+    let mut daz = b.azimuth_deg - a.azimuth_deg;
+    if daz > 180.0 {
+        daz -= 360.0;
+    } else if daz < -180.0 {
+        daz += 360.0;
+    }
+    (
+        a.t_s + f * (b.t_s - a.t_s),
+        a.elevation_deg + f * (b.elevation_deg - a.elevation_deg),
+        (a.azimuth_deg + f * daz).rem_euclid(360.0),
+    )
+}
+
+/// Where the chosen option's counted runs begin and end: at AOS/LOS, or at the interpolated
+/// threshold crossing.
+fn closing(
+    pass: &Pass,
+    steps: &[Step],
+    cn0: &[f64],
+    threshold: f64,
+    runs: &[(usize, usize)],
+) -> Option<Closing> {
+    let (a, _) = *runs.first()?;
+    let (_, b) = *runs.last()?;
+    let (t0, e0, z0) = if a == 0 {
+        (0.0, steps[0].elevation_deg, steps[0].azimuth_deg)
+    } else {
+        interpolate_crossing(steps, cn0, threshold, a - 1, a)
+    };
+    let last = steps.len() - 1;
+    let (t1, e1, z1) = if b == last {
+        let s = &steps[last];
+        (s.t_s, s.elevation_deg, s.azimuth_deg)
+    } else {
+        interpolate_crossing(steps, cn0, threshold, b, b + 1)
+    };
+    let at = |t: f64, elevation_deg: f64, azimuth_deg: f64| Crossing {
+        time: add_seconds(&pass.aos, t),
+        elevation_deg,
+        azimuth_deg,
+    };
+    Some(Closing {
+        from: at(t0, e0, z0),
+        until: at(t1, e1, z1),
+    })
+}
+
+fn mode_result(
+    planner: &Planner,
+    pass: &Pass,
+    steps: &[Step],
+    cn0: &[f64],
+    weights: &[f64],
+    schedule: &mut Vec<Option<u16>>,
+) -> ModeResult {
+    let rates = planner.rates();
+    let fixed = choose_fixed(cn0, weights, &rates.ladder, rates.min_dwell_s);
+    let adaptive_volume_bits =
+        adaptive_schedule(cn0, weights, &rates.adaptive, rates.min_dwell_s, schedule);
+    let shown = fixed.option.unwrap_or_else(|| rates.lowest_threshold().0);
+    let o = &rates.ladder[shown];
+    let max_ebn0_db = cn0
+        .iter()
+        .map(|c| o.ebn0_db(*c))
+        .fold(f64::NEG_INFINITY, f64::max);
+    let (closing, min_margin_db) = match fixed.option {
+        Some(_) => (
+            closing(pass, steps, cn0, o.threshold_cn0_dbhz, &fixed.runs),
+            fixed
+                .runs
+                .iter()
+                .flat_map(|&(a, b)| cn0[a..=b].iter())
+                .map(|c| o.margin_db(*c))
+                .reduce(f64::min),
+        ),
+        None => (None, None),
+    };
+    ModeResult {
+        option: fixed.option.map(OptionId),
+        closing,
+        min_margin_db,
+        max_ebn0_db,
+        closed_s: fixed.closed_s,
+        volume_bits: fixed.volume_bits,
+        adaptive_volume_bits,
+        adaptive_switches: switch_count(schedule),
+        shannon_volume_bits: shannon_volume_bits(cn0, weights, rates.shannon_bandwidth_hz),
+        volume_by_rate_bits: fixed.volume_by_option_bits,
+    }
+}

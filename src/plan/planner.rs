@@ -1,0 +1,359 @@
+//! The planner: a validated request over a prepared mission, run with a pass sink.
+
+use super::inputs::{element_age_warning, load_satellite};
+use super::mask::MaskAccumulator;
+use super::pass::{plan_pass, tradeoff_pass, Scratch};
+use super::prepare::{availability_weather, rate_set, station_model, RateSet, StationModel};
+use super::series::PassWarnings;
+use super::window::{Window, WindowRequest};
+use super::{network, summary, PassPlan, PassSeries, Plan, PlanError};
+use crate::atmosphere::Weather;
+use crate::config::limits::{EXCEEDANCE_PERCENT, MIN_ELEVATION_DEG, STEP_S};
+use crate::config::mission::Mission;
+use crate::geometry::{find_passes, HorizonMask, Pass};
+use crate::orbit::{ElementSet, PropagationError, Propagator};
+use rayon::prelude::*;
+
+/// What to plan, beyond the mission file. Every field left `None` falls back to the file.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct PlanRequest {
+    pub window: WindowRequest,
+    /// Budget time step along each pass, s (file: `planning.step_s`, default 1).
+    pub step_s: Option<f64>,
+    /// Availability case: rain exceeded this percentage of an average year (file: `planning.exceedance_percent`).
+    pub exceedance_percent: Option<f64>,
+    /// Minimum elevation for every station, deg (file: `planning.mask_deg`, else each station's).
+    pub mask_deg: Option<f64>,
+    /// Also accumulate the mask trade-off over the passes searched from 0 deg (in the same run).
+    pub tradeoff: bool,
+}
+
+/// Receives each pass with its time series as soon as it is planned (from worker threads, in no
+/// particular order), as a search library hands its matches to a sink.
+pub trait PassSink: Sync {
+    type Error: std::error::Error + Send + Sync + 'static;
+    /// One planned pass.
+    fn pass(&self, series: &PassSeries<'_>) -> Result<(), Self::Error>;
+    /// Called once per planned pass with the number of passes to plan.
+    fn progress(&self, _total: usize) {}
+}
+
+/// The sink that keeps nothing: use it to collect the plan's results only.
+pub struct Collect;
+
+impl PassSink for Collect {
+    type Error = std::convert::Infallible;
+    fn pass(&self, _: &PassSeries<'_>) -> Result<(), Self::Error> {
+        Ok(())
+    }
+}
+
+/// A closure as a sink.
+pub struct FnSink<F>(pub F);
+
+impl<F, E> PassSink for FnSink<F>
+where
+    F: Fn(&PassSeries<'_>) -> Result<(), E> + Sync,
+    E: std::error::Error + Send + Sync + 'static,
+{
+    type Error = E;
+    fn pass(&self, series: &PassSeries<'_>) -> Result<(), E> {
+        (self.0)(series)
+    }
+}
+
+/// A mission prepared for planning one window.
+pub struct Planner {
+    mission: Mission,
+    elements: ElementSet,
+    stations: Vec<StationModel>,
+    /// Per station, the horizon searched for the mask trade-off (from 0 deg), when asked.
+    tradeoff_masks: Option<Vec<HorizonMask>>,
+    rates: RateSet,
+    window: Window,
+    step_s: f64,
+    exceedance_percent: Option<f64>,
+    rain: Option<Weather>,
+    frequency_hz: f64,
+}
+
+fn request_error(key: &'static str, message: impl Into<String>) -> PlanError {
+    PlanError::Request {
+        key,
+        message: message.into(),
+    }
+}
+
+impl Planner {
+    /// Check the request against the mission and prepare every model.
+    pub fn new(mission: &Mission, request: &PlanRequest) -> Result<Planner, PlanError> {
+        if mission.stations.is_empty() {
+            return Err(PlanError::NoStations {
+                mission: mission.source.display().to_string(),
+            });
+        }
+        let (elements, _) = load_satellite(&mission.elements_path, mission.select.as_deref())?;
+        let mask = request.mask_deg.or(mission.mask_deg);
+        if let Some(m) = mask {
+            MIN_ELEVATION_DEG
+                .check(m)
+                .map_err(|e| request_error("mask_deg", e.to_string()))?;
+        }
+        let stations = mission
+            .stations
+            .iter()
+            .map(|s| station_model(mission, s, mask))
+            .collect::<Result<Vec<_>, _>>()?;
+        let tradeoff_masks = if request.tradeoff {
+            let floors = stations.iter().map(|s| {
+                let floor = s.configured_min_elevation_deg.min(0.0);
+                HorizonMask::new(floor, s.station.horizon_mask.clone())
+            });
+            Some(
+                floors
+                    .collect::<Result<Vec<_>, _>>()
+                    .map_err(|e| request_error("horizon_mask", e.to_string()))?,
+            )
+        } else {
+            None
+        };
+        let rates = rate_set(mission, &stations[0].link)?;
+        let window = Window::resolve(&request.window, Some(mission))?;
+        let step_s = Self::check_step(request.step_s.unwrap_or(mission.step_s), &rates)?;
+        let exceedance_percent = request.exceedance_percent.or(mission.exceedance_percent);
+        if let Some(p) = exceedance_percent {
+            EXCEEDANCE_PERCENT
+                .check(p)
+                .map_err(|e| request_error("exceedance_percent", e.to_string()))?;
+        }
+        let rain = availability_weather(exceedance_percent, &stations)?;
+        let frequency_hz = stations[0].link.frequency_hz();
+        Ok(Planner {
+            frequency_hz,
+            mission: mission.clone(),
+            elements,
+            stations,
+            tradeoff_masks,
+            rates,
+            window,
+            step_s,
+            exceedance_percent,
+            rain,
+        })
+    }
+
+    /// The step must be within [`STEP_S`] and at most half the dwell (for a dwell of 2 s or more),
+    /// or the dwell rule and the closing edges are miscounted.
+    fn check_step(step_s: f64, rates: &RateSet) -> Result<f64, PlanError> {
+        STEP_S
+            .check(step_s)
+            .map_err(|e| request_error("step_s", e.to_string()))?;
+        if rates.min_dwell_s >= 2.0 && step_s > rates.min_dwell_s / 2.0 {
+            return Err(request_error(
+                "step_s",
+                format!(
+                    "{step_s} s is more than half of modem.min_dwell_s ({} s): the dwell rule and the closing edges would be miscounted",
+                    rates.min_dwell_s
+                ),
+            ));
+        }
+        Ok(step_s)
+    }
+
+    pub fn mission(&self) -> &Mission {
+        &self.mission
+    }
+    pub fn elements(&self) -> &ElementSet {
+        &self.elements
+    }
+    pub fn stations(&self) -> &[StationModel] {
+        &self.stations
+    }
+    pub fn rates(&self) -> &RateSet {
+        &self.rates
+    }
+    pub fn window(&self) -> Window {
+        self.window
+    }
+    pub fn step_s(&self) -> f64 {
+        self.step_s
+    }
+    pub fn exceedance_percent(&self) -> Option<f64> {
+        self.exceedance_percent
+    }
+    pub fn rain(&self) -> Option<Weather> {
+        self.rain
+    }
+    /// Downlink carrier frequency, Hz.
+    pub fn frequency_hz(&self) -> f64 {
+        self.frequency_hz
+    }
+
+    /// Plan every pass without a sink.
+    pub fn collect(&self) -> Result<Plan, PlanError> {
+        self.run(&super::Collect)
+    }
+
+    /// Plan every pass of every station, handing each to `sink`.
+    pub fn run<S: PassSink>(&self, sink: &S) -> Result<Plan, PlanError> {
+        let propagator = Propagator::new(&self.elements).map_err(PlanError::Propagator)?;
+        let (found, stopped, propagations_search) = self.search(&propagator, None);
+        let floor_passes = match &self.tradeoff_masks {
+            Some(masks) => self.search(&propagator, Some(masks)).0,
+            None => Vec::new(),
+        };
+        let total = found.len();
+        let work: Vec<(Option<usize>, usize, &Pass)> = found
+            .iter()
+            .enumerate()
+            .map(|(k, (si, p))| (Some(k + 1), *si, p))
+            .chain(floor_passes.iter().map(|(si, p)| (None, *si, p)))
+            .collect();
+        let results: Vec<Result<Item, PlanError>> = work
+            .par_iter()
+            .map_init(
+                || Scratch::new(&self.elements),
+                |scratch, &(number, si, pass)| match number {
+                    Some(n) => {
+                        let r = plan_pass(self, n, si, pass, scratch, sink).map(Item::Planned);
+                        sink.progress(total);
+                        r
+                    }
+                    None => tradeoff_pass(self, si, pass, scratch).map(|m| Item::Tradeoff(si, m)),
+                },
+            )
+            .collect();
+        let mut passes = Vec::with_capacity(total);
+        let mut tradeoff = self.tradeoff_masks.as_ref().map(|_| self.empty_masks());
+        for r in results {
+            match r? {
+                Item::Planned(p) => passes.push(p),
+                Item::Tradeoff(si, m) => {
+                    if let Some(t) = tradeoff.as_mut() {
+                        t[si].merge(&m);
+                    }
+                }
+            }
+        }
+        Ok(self.finish(passes, stopped, propagations_search, tradeoff))
+    }
+
+    fn empty_masks(&self) -> Vec<MaskAccumulator> {
+        self.stations
+            .iter()
+            .map(|_| MaskAccumulator::new(self.rates.ladder.len()))
+            .collect()
+    }
+
+    /// Passes of every station in AOS order (then station order), with the per-station stops.
+    #[allow(clippy::type_complexity)]
+    fn search(
+        &self,
+        propagator: &Propagator,
+        masks: Option<&[HorizonMask]>,
+    ) -> (Vec<(usize, Pass)>, Vec<Option<PropagationError>>, u64) {
+        let mut found = Vec::new();
+        let mut stopped = Vec::new();
+        let mut propagations = 0;
+        for (i, st) in self.stations.iter().enumerate() {
+            let mask = masks.map_or(&st.mask, |m| &m[i]);
+            let s = find_passes(
+                propagator,
+                &st.observer,
+                mask,
+                self.window.start(),
+                self.window.end(),
+            );
+            propagations += s.propagations;
+            stopped.push(s.stopped);
+            found.extend(s.passes.into_iter().map(|p| (i, p)));
+        }
+        found.sort_by(|a, b| a.1.aos.cmp(&b.1.aos).then(a.0.cmp(&b.0)));
+        (found, stopped, propagations)
+    }
+
+    fn finish(
+        &self,
+        passes: Vec<PassPlan>,
+        stopped: Vec<Option<PropagationError>>,
+        propagations_search: u64,
+        tradeoff_masks: Option<Vec<MaskAccumulator>>,
+    ) -> Plan {
+        let mut station_masks = self.empty_masks();
+        let mut segments = Vec::new();
+        for p in &passes {
+            station_masks[p.station_index].merge(&p.mask);
+            segments.extend_from_slice(&p.segments);
+        }
+        let (volume_bits, contact_s) = network::union_volume(&segments);
+        let network = super::NetworkTotal {
+            volume_bits,
+            contact_s,
+        };
+        let totals = summary::totals(
+            &passes,
+            &self.rates,
+            self.rain.is_some(),
+            network,
+            self.window.days(),
+        );
+        let days = summary::days(&passes, &self.window, self.rain.is_some());
+        let usable_masks = summary::usable_masks(&station_masks, &self.stations, &self.rates);
+        let warnings = self.warnings(&passes, &stopped);
+        Plan {
+            passes,
+            stopped,
+            propagations_search,
+            station_masks,
+            tradeoff_masks,
+            network,
+            totals,
+            days,
+            usable_masks,
+            warnings,
+            rain_planned: self.rain.is_some(),
+            window: self.window,
+        }
+    }
+
+    /// Every warning of a plan: per station, the static model notes and the union over its passes;
+    /// the rate options' notes; the element age; searches stopped by a propagation error.
+    fn warnings(&self, passes: &[PassPlan], stopped: &[Option<PropagationError>]) -> Vec<String> {
+        let mut out = Vec::new();
+        for (i, s) in self.stations.iter().enumerate() {
+            let mut w = PassWarnings {
+                atmosphere: s.atmosphere.static_warnings(),
+                ..Default::default()
+            };
+            for x in passes.iter().filter(|x| x.station_index == i) {
+                w = w.union(&x.warnings);
+            }
+            out.extend(
+                w.messages()
+                    .into_iter()
+                    .map(|m| format!("{}: {m}", s.station.name)),
+            );
+        }
+        out.extend(self.rates.warnings.iter().cloned());
+        out.extend(element_age_warning(
+            &self.elements,
+            self.window.start(),
+            self.window.end(),
+        ));
+        for (i, s) in stopped.iter().enumerate() {
+            if let Some(e) = s {
+                out.push(format!(
+                    "{}: propagation stopped during the pass search for {}: {e}; later passes are not planned",
+                    self.elements.label(),
+                    self.stations[i].station.name
+                ));
+            }
+        }
+        out
+    }
+}
+
+enum Item {
+    Planned(PassPlan),
+    Tradeoff(usize, MaskAccumulator),
+}
