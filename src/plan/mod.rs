@@ -22,6 +22,7 @@
 //! ```
 
 pub mod inputs;
+pub mod instant;
 pub mod mask;
 pub mod network;
 mod pass;

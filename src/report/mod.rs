@@ -2,6 +2,7 @@
 //! stays stable when internals change), CSV and JSON, the files of a plan's output folder, and
 //! atomic file writing.
 
+pub mod budget;
 pub mod files;
 pub mod geometry;
 pub mod plan;

@@ -1,0 +1,294 @@
+//! The itemized budget at one instant: one station of a mission, at a given time (geometry from
+//! the propagated orbit) or at a given elevation (slant range from the orbit's semi-major axis).
+//! It goes through [`super::series::budget_at`], the same function the plan uses at every step, so
+//! `budget --at` and the plan always agree.
+
+use super::inputs::{element_age_warning, load_satellite, SatelliteError};
+use super::prepare::{availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel};
+use super::series::{budget_at, SeriesError};
+use crate::atmosphere::{Attenuation, Weather};
+use crate::config::limits::short_number;
+use crate::config::mission::Mission;
+use crate::config::DefaultUsed;
+use crate::geometry::Look;
+use crate::link::budget::{AtmosphereLoss, BudgetGeometry, BudgetItem, BudgetValues, RateSpec};
+use crate::orbit::ElementSet;
+use crate::timefmt::format_ms;
+use chrono::{DateTime, Utc};
+
+/// Where the satellite is.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum InstantGeometry {
+    /// At this time, from the propagated orbit.
+    At(DateTime<Utc>),
+    /// At this elevation, deg (0 to 90); range from the orbit's semi-major axis.
+    Elevation(f64),
+}
+
+/// What to budget.
+#[derive(Debug, Clone, PartialEq)]
+pub struct InstantRequest {
+    /// Station name, as in its station file (case-insensitive).
+    pub station: String,
+    pub geometry: InstantGeometry,
+    /// Data rate, bit/s (default: the ladder's first rate).
+    pub rate_bps: Option<f64>,
+    /// Scheme (default: the ladder's scheme for that rate, else the ladder's first).
+    pub scheme: Option<String>,
+    /// Rain exceeded this percentage of an average year (default: clear sky).
+    pub exceedance_percent: Option<f64>,
+}
+
+/// Error of [`instant_budget`].
+#[derive(Debug, thiserror::Error)]
+pub enum InstantError {
+    #[error("{mission}: no station named '{name}' (the mission has: {known})")]
+    NoStation {
+        mission: String,
+        name: String,
+        known: String,
+    },
+    #[error(transparent)]
+    Prepare(#[from] PrepareError),
+    #[error(transparent)]
+    Satellite(#[from] SatelliteError),
+    #[error("{satellite}: {source}")]
+    Propagation {
+        satellite: String,
+        #[source]
+        source: crate::orbit::PropagationError,
+    },
+    #[error("{satellite} is below the horizon of {station} at {time} (elevation {elevation_deg:.2} deg): no budget")]
+    BelowHorizon {
+        satellite: String,
+        station: String,
+        time: String,
+        elevation_deg: f64,
+    },
+    #[error("elevation: {0} deg is out of range (0 to 90 deg)")]
+    Elevation(String),
+    #[error(transparent)]
+    Slant(#[from] crate::geometry::slant::SlantError),
+    #[error("{0}")]
+    Rate(String),
+    #[error(transparent)]
+    Series(#[from] SeriesError),
+    #[error(transparent)]
+    Budget(#[from] crate::link::budget::BudgetError),
+}
+
+/// The budget at one instant, itemized.
+#[derive(Debug, Clone)]
+pub struct InstantBudget {
+    pub elements: ElementSet,
+    pub station: StationModel,
+    pub rates: RateSet,
+    pub time: Option<DateTime<Utc>>,
+    pub look: Look,
+    /// Azimuth is known only for a time-based geometry.
+    pub azimuth_known: bool,
+    pub exceedance_percent: Option<f64>,
+    pub attenuation: Attenuation,
+    pub values: BudgetValues,
+    pub rate: RateSpec,
+    /// The link's items with the atmosphere's components right after the free-space loss.
+    pub items: Vec<BudgetItem>,
+    pub warnings: Vec<String>,
+    pub defaults: Vec<DefaultUsed>,
+}
+
+impl InstantBudget {
+    /// The link closes with the required margin.
+    pub fn closes(&self) -> bool {
+        self.values.margin_db >= self.rates.required_margin_db
+    }
+}
+
+/// The budget of `req` in `mission`.
+pub fn instant_budget(mission: &Mission, req: &InstantRequest) -> Result<InstantBudget, InstantError> {
+    let st = find_station(mission, &req.station)?;
+    let model = station_model(mission, st, None)?;
+    let rates = rate_set(mission, &model.link)?;
+    let (elements, prop) = load_satellite(&mission.elements_path, mission.select.as_deref())?;
+    let (look, time) = look_at(&model, &elements, &prop, req.geometry)?;
+    let rate = rate_spec(mission, &model, &rates, req)?;
+    let weather = availability_weather(req.exceedance_percent, std::slice::from_ref(&model))?
+        .unwrap_or(Weather::ClearSky);
+    let (att, values) = budget_at(&model, &look, weather, rate)?;
+    let mut items = items(&model, &look, &att, rate)?;
+    items.push(BudgetItem {
+        name: "required_margin",
+        value: rates.required_margin_db,
+        unit: "dB",
+        source: "mission modem.required_margin_db",
+    });
+    let mut warnings: Vec<String> = att.warnings.messages().map(String::from).collect();
+    if values.pattern_clamped {
+        warnings.push("the spacecraft antenna table does not reach this off-nadir angle: its end value was used".into());
+    }
+    if values.galactic_extrapolated {
+        warnings.push("galactic background extrapolated beyond ITU-R P.372's range (a term below 1 K here)".into());
+    }
+    if let Some(t) = time {
+        warnings.extend(element_age_warning(&elements, t, t));
+    }
+    let mut defaults = mission.defaults.clone();
+    defaults.extend(st.defaults.iter().cloned());
+    Ok(InstantBudget {
+        elements,
+        station: model,
+        rates,
+        time,
+        look,
+        azimuth_known: time.is_some(),
+        exceedance_percent: req.exceedance_percent,
+        attenuation: att,
+        values,
+        rate,
+        items,
+        warnings,
+        defaults,
+    })
+}
+
+fn find_station<'m>(
+    mission: &'m Mission,
+    name: &str,
+) -> Result<&'m crate::config::station::Station, InstantError> {
+    mission
+        .stations
+        .iter()
+        .find(|s| s.name.eq_ignore_ascii_case(name.trim()))
+        .ok_or_else(|| InstantError::NoStation {
+            mission: mission.source.display().to_string(),
+            name: name.to_string(),
+            known: mission
+                .stations
+                .iter()
+                .map(|s| s.name.as_str())
+                .collect::<Vec<_>>()
+                .join(", "),
+        })
+}
+
+fn look_at(
+    model: &StationModel,
+    elements: &ElementSet,
+    prop: &crate::orbit::Propagator,
+    geometry: InstantGeometry,
+) -> Result<(Look, Option<DateTime<Utc>>), InstantError> {
+    match geometry {
+        InstantGeometry::At(t) => {
+            let s = prop.ecef_at(&t).map_err(|source| InstantError::Propagation {
+                satellite: elements.label(),
+                source,
+            })?;
+            let look = model.observer.look(&s);
+            if look.elevation_deg < 0.0 {
+                return Err(InstantError::BelowHorizon {
+                    satellite: elements.label(),
+                    station: model.station.name.clone(),
+                    time: format_ms(&t),
+                    elevation_deg: look.elevation_deg,
+                });
+            }
+            Ok((look, Some(t)))
+        }
+        InstantGeometry::Elevation(e) => {
+            if !(0.0..=90.0).contains(&e) {
+                return Err(InstantError::Elevation(short_number(e)));
+            }
+            let p = model.observer.position_km();
+            let station_radius_km = (p[0] * p[0] + p[1] * p[1] + p[2] * p[2]).sqrt();
+            let (range_km, off_nadir_deg) = crate::geometry::slant::slant_range_km(
+                station_radius_km,
+                prop.semi_major_axis_km(),
+                e,
+            )?;
+            let look = Look {
+                azimuth_deg: f64::NAN,
+                elevation_deg: e,
+                range_km,
+                range_rate_km_s: 0.0,
+                off_nadir_deg,
+                elevation_rate_deg_s: 0.0,
+                azimuth_rate_deg_s: 0.0,
+            };
+            Ok((look, None))
+        }
+    }
+}
+
+/// The rate and its scheme: the ladder entry with that rate, or the asked scheme, or the ladder's first.
+fn rate_spec(
+    mission: &Mission,
+    model: &StationModel,
+    rates: &RateSet,
+    req: &InstantRequest,
+) -> Result<RateSpec, InstantError> {
+    let rate_bps = req.rate_bps.unwrap_or(rates.ladder[0].rate_bps);
+    if let (None, Some(i)) = (
+        &req.scheme,
+        rates.ladder.iter().position(|o| o.rate_bps == rate_bps),
+    ) {
+        return Ok(rates.ladder_specs[i]);
+    }
+    let modem = mission
+        .modem
+        .as_ref()
+        .ok_or_else(|| InstantError::Rate("the mission has no modem block".into()))?;
+    let name = req
+        .scheme
+        .clone()
+        .unwrap_or_else(|| rates.ladder[0].scheme.clone());
+    let bad = |e: &dyn std::fmt::Display| InstantError::Rate(format!("{name}: {e}"));
+    let idx = crate::link::modcod::scheme_index(&name).map_err(|e| bad(&e))?;
+    let op = crate::link::modcod::operating_point(idx, Some(modem.target_ber)).map_err(|e| bad(&e))?;
+    model
+        .link
+        .rate_spec(rate_bps, op, modem.roll_off, modem.implementation_loss_db)
+        .map_err(|e| InstantError::Rate(format!("rate {} bit/s with {name}: {e}", short_number(rate_bps))))
+}
+
+/// The link's items with the atmosphere's components (as losses) right after the free-space loss.
+fn items(
+    model: &StationModel,
+    look: &Look,
+    att: &Attenuation,
+    rate: RateSpec,
+) -> Result<Vec<BudgetItem>, InstantError> {
+    let atmosphere = [
+        ("gas_loss", att.gas_db, "ITU-R P.676-12 Annex 2"),
+        ("cloud_loss", att.cloud_db, "ITU-R P.840-9"),
+        ("rain_loss", att.rain_db, "ITU-R P.618-14 2.2.1.1, P.838-3"),
+        ("scintillation_loss", att.scintillation_db, "ITU-R P.618-14 2.4.1"),
+    ]
+    .map(|(name, value, source)| BudgetItem {
+        name,
+        value: -value,
+        unit: "dB",
+        source,
+    });
+    let link_items = model.link.itemize(
+        BudgetGeometry {
+            elevation_deg: look.elevation_deg,
+            range_km: look.range_km,
+            off_nadir_deg: look.off_nadir_deg,
+        },
+        AtmosphereLoss {
+            total_db: att.total_db,
+            absorptive_db: att.absorptive_db,
+            mean_radiating_temperature_k: model.mean_radiating_temperature_k,
+        },
+        rate,
+    )?;
+    let mut items = Vec::with_capacity(link_items.len() + atmosphere.len());
+    for i in link_items {
+        let after_fsl = i.name == "free_space_loss";
+        items.push(i);
+        if after_fsl {
+            items.extend(atmosphere.iter().cloned());
+        }
+    }
+    Ok(items)
+}

@@ -1,0 +1,123 @@
+//! Wire format of `budget` (public interface: field names are stable).
+
+use crate::config::DefaultUsed;
+use crate::plan::inputs::satellite_name;
+use crate::plan::instant::InstantBudget;
+use crate::report::round;
+use crate::timefmt::format_ms;
+use serde::Serialize;
+
+/// JSON of `budget`.
+#[derive(Debug, Serialize)]
+pub struct BudgetDoc {
+    pub satellite: String,
+    pub station: String,
+    pub time: Option<String>,
+    pub weather: String,
+    pub frequency_hz: f64,
+    pub elevation_deg: f64,
+    pub azimuth_deg: Option<f64>,
+    pub range_km: f64,
+    pub off_nadir_deg: f64,
+    pub eirp_dbw: f64,
+    pub free_space_loss_db: f64,
+    pub gas_db: f64,
+    pub cloud_db: f64,
+    pub rain_db: f64,
+    pub scintillation_db: f64,
+    pub atmospheric_loss_db: f64,
+    pub polarization_loss_db: f64,
+    pub pointing_loss_db: f64,
+    pub antenna_gain_dbi: f64,
+    pub sky_temperature_k: f64,
+    pub antenna_temperature_k: f64,
+    pub system_temperature_k: f64,
+    pub g_over_t_db_k: f64,
+    pub cn0_dbhz: f64,
+    pub rate_bps: f64,
+    pub scheme: String,
+    pub symbol_rate_baud: f64,
+    pub occupied_bandwidth_hz: f64,
+    pub ebn0_db: f64,
+    pub esn0_db: f64,
+    pub required_ebn0_db: f64,
+    pub implementation_loss_db: f64,
+    pub margin_db: f64,
+    pub required_margin_db: f64,
+    pub closes: bool,
+    pub shannon_capacity_bps: f64,
+    pub shannon_gap_db: f64,
+    pub items: Vec<ItemRow>,
+    pub warnings: Vec<String>,
+    pub defaults: Vec<DefaultUsed>,
+}
+
+/// One item of the budget.
+#[derive(Debug, Serialize)]
+pub struct ItemRow {
+    pub name: String,
+    pub value: f64,
+    pub unit: String,
+    pub source: String,
+}
+
+impl BudgetDoc {
+    pub fn new(b: &InstantBudget) -> Self {
+        let (v, att, look) = (&b.values, &b.attenuation, &b.look);
+        let r4 = |x: f64| round(x, 4);
+        BudgetDoc {
+            satellite: satellite_name(&b.elements),
+            station: b.station.station.name.clone(),
+            time: b.time.as_ref().map(format_ms),
+            weather: match b.exceedance_percent {
+                Some(p) => format!("rain exceeded {p} % of an average year"),
+                None => "clear sky".into(),
+            },
+            frequency_hz: b.station.link.frequency_hz(),
+            elevation_deg: r4(look.elevation_deg),
+            azimuth_deg: b.azimuth_known.then(|| r4(look.azimuth_deg)),
+            range_km: r4(look.range_km),
+            off_nadir_deg: r4(look.off_nadir_deg),
+            eirp_dbw: r4(v.eirp_dbw),
+            free_space_loss_db: r4(v.free_space_loss_db),
+            gas_db: r4(att.gas_db),
+            cloud_db: r4(att.cloud_db),
+            rain_db: r4(att.rain_db),
+            scintillation_db: r4(att.scintillation_db),
+            atmospheric_loss_db: r4(v.atmospheric_loss_db),
+            polarization_loss_db: r4(v.polarization_loss_db),
+            pointing_loss_db: r4(v.pointing_loss_db),
+            antenna_gain_dbi: r4(v.antenna_gain_dbi),
+            sky_temperature_k: round(v.sky_temperature_k, 3),
+            antenna_temperature_k: round(v.antenna_temperature_k, 3),
+            system_temperature_k: round(v.system_temperature_k, 3),
+            g_over_t_db_k: r4(v.g_over_t_db_k),
+            cn0_dbhz: r4(v.cn0_dbhz),
+            rate_bps: v.rate_bps,
+            scheme: b.rate.operating().name.to_string(),
+            symbol_rate_baud: round(v.symbol_rate_baud, 1),
+            occupied_bandwidth_hz: round(v.occupied_bandwidth_hz, 1),
+            ebn0_db: r4(v.ebn0_db),
+            esn0_db: r4(v.esn0_db),
+            required_ebn0_db: r4(v.required_ebn0_db),
+            implementation_loss_db: b.rate.implementation_loss_db(),
+            margin_db: r4(v.margin_db),
+            required_margin_db: b.rates.required_margin_db,
+            closes: b.closes(),
+            shannon_capacity_bps: v.shannon_capacity_bps.round(),
+            shannon_gap_db: r4(v.shannon_gap_db),
+            items: b
+                .items
+                .iter()
+                .map(|i| ItemRow {
+                    name: i.name.into(),
+                    value: i.value,
+                    unit: i.unit.into(),
+                    source: i.source.into(),
+                })
+                .collect(),
+            warnings: b.warnings.clone(),
+            defaults: b.defaults.clone(),
+        }
+    }
+}
