@@ -199,6 +199,21 @@ pub struct AtmosphereDoc {
 
 /// `passbudget atmosphere`.
 pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
+    let doc = atmosphere_doc(&a)?;
+    match a.format {
+        Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
+        Format::Csv => write!(
+            out,
+            "{}",
+            passbudget::report::to_csv(std::slice::from_ref(&AtmosphereRow::from(&doc)))?
+        )?,
+        Format::Table => print_atmosphere(&doc, out)?,
+    }
+    Ok(())
+}
+
+/// The atmosphere at one elevation for a station file.
+fn atmosphere_doc(a: &AtmosphereArgs) -> Result<AtmosphereDoc> {
     let st = Station::load(&a.station)?;
     if !(a.frequency_ghz.is_finite() && a.frequency_ghz > 0.0) {
         bail!(
@@ -268,78 +283,72 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
         warnings: att.warnings.messages().map(String::from).collect(),
         defaults,
     };
-    match a.format {
-        Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
-        Format::Csv => write!(
-            out,
-            "{}",
-            passbudget::report::to_csv(std::slice::from_ref(&AtmosphereRow::from(&doc)))?
-        )?,
-        Format::Table => {
-            writeln!(
-                out,
-                "{} at {} GHz, elevation {} deg, {}",
-                doc.station,
-                doc.frequency_ghz,
-                doc.elevation_deg,
-                match doc.exceedance_percent {
-                    Some(p) => format!("exceeded {p} % of an average year"),
-                    None => "clear sky".into(),
-                }
-            )?;
-            let mut t = Table::new(&[
-                ("component", Align::Left),
-                ("value", Align::Right),
-                ("unit", Align::Left),
-                ("model", Align::Left),
-            ]);
-            for (n, v, u, m) in [
-                ("gases", doc.gas_db, "dB", "ITU-R P.676-12 Annex 2"),
-                ("clouds", doc.cloud_db, "dB", "ITU-R P.840-9"),
-                (
-                    "rain",
-                    doc.rain_db,
-                    "dB",
-                    "ITU-R P.618-14 2.2.1.1 with P.838-3",
-                ),
-                (
-                    "scintillation",
-                    doc.scintillation_db,
-                    "dB",
-                    "ITU-R P.618-14 2.4.1",
-                ),
-                ("total", doc.total_db, "dB", "ITU-R P.618-14 2.5"),
-                (
-                    "rain height",
-                    doc.rain_height_km,
-                    "km",
-                    "station value or ITU-R P.839-2 rule",
-                ),
-                (
-                    "specific rain attenuation",
-                    doc.specific_rain_attenuation_db_km,
-                    "dB/km",
-                    "ITU-R P.838-3 at R0.01",
-                ),
-                (
-                    "mean radiating temperature",
-                    doc.mean_radiating_temperature_k,
-                    "K",
-                    "ITU-R P.618-14 eq (70)",
-                ),
-                (
-                    "sky brightness temperature",
-                    doc.sky_temperature_k,
-                    "K",
-                    "ITU-R P.618-14 eq (69)",
-                ),
-            ] {
-                t.row(vec![n.into(), format!("{v:.3}"), u.into(), m.into()]);
-            }
-            write!(out, "{}", t.render())?;
-            print_notes(&doc.warnings, &doc.defaults, out)?;
+    Ok(doc)
+}
+
+fn print_atmosphere(doc: &AtmosphereDoc, out: &mut dyn Write) -> Result<()> {
+    writeln!(
+        out,
+        "{} at {} GHz, elevation {} deg, {}",
+        doc.station,
+        doc.frequency_ghz,
+        doc.elevation_deg,
+        match doc.exceedance_percent {
+            Some(p) => format!("exceeded {p} % of an average year"),
+            None => "clear sky".into(),
         }
+    )?;
+    let mut t = Table::new(&[
+        ("component", Align::Left),
+        ("value", Align::Right),
+        ("unit", Align::Left),
+        ("model", Align::Left),
+    ]);
+    for (n, v, u, m) in [
+        ("gases", doc.gas_db, "dB", "ITU-R P.676-12 Annex 2"),
+        ("clouds", doc.cloud_db, "dB", "ITU-R P.840-9"),
+        (
+            "rain",
+            doc.rain_db,
+            "dB",
+            "ITU-R P.618-14 2.2.1.1 with P.838-3",
+        ),
+        (
+            "scintillation",
+            doc.scintillation_db,
+            "dB",
+            "ITU-R P.618-14 2.4.1",
+        ),
+        ("total", doc.total_db, "dB", "ITU-R P.618-14 2.5"),
+        (
+            "rain height",
+            doc.rain_height_km,
+            "km",
+            "station value or ITU-R P.839-2 rule",
+        ),
+        (
+            "specific rain attenuation",
+            doc.specific_rain_attenuation_db_km,
+            "dB/km",
+            "ITU-R P.838-3 at R0.01",
+        ),
+        (
+            "mean radiating temperature",
+            doc.mean_radiating_temperature_k,
+            "K",
+            "ITU-R P.618-14 eq (70)",
+        ),
+        (
+            "sky brightness temperature",
+            doc.sky_temperature_k,
+            "K",
+            "ITU-R P.618-14 eq (69)",
+        ),
+    ] {
+        t.row(vec![n.into(), format!("{v:.3}"), u.into(), m.into()]);
     }
+    write!(out, "{}", t.render())?;
+    print_notes(&doc.warnings, &doc.defaults, out)?;
     Ok(())
 }
 

@@ -4,7 +4,9 @@
 //! `budget --at` and the plan always agree.
 
 use super::inputs::{element_age_warning, load_satellite, SatelliteError};
-use super::prepare::{availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel};
+use super::prepare::{
+    availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel,
+};
 use super::series::{budget_at, SeriesError};
 use crate::atmosphere::{Attenuation, Weather};
 use crate::config::limits::short_number;
@@ -105,7 +107,10 @@ impl InstantBudget {
 }
 
 /// The budget of `req` in `mission`.
-pub fn instant_budget(mission: &Mission, req: &InstantRequest) -> Result<InstantBudget, InstantError> {
+pub fn instant_budget(
+    mission: &Mission,
+    req: &InstantRequest,
+) -> Result<InstantBudget, InstantError> {
     let st = find_station(mission, &req.station)?;
     let model = station_model(mission, st, None)?;
     let rates = rate_set(mission, &model.link)?;
@@ -127,7 +132,10 @@ pub fn instant_budget(mission: &Mission, req: &InstantRequest) -> Result<Instant
         warnings.push("the spacecraft antenna table does not reach this off-nadir angle: its end value was used".into());
     }
     if values.galactic_extrapolated {
-        warnings.push("galactic background extrapolated beyond ITU-R P.372's range (a term below 1 K here)".into());
+        warnings.push(
+            "galactic background extrapolated beyond ITU-R P.372's range (a term below 1 K here)"
+                .into(),
+        );
     }
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
@@ -179,10 +187,12 @@ fn look_at(
 ) -> Result<(Look, Option<DateTime<Utc>>), InstantError> {
     match geometry {
         InstantGeometry::At(t) => {
-            let s = prop.ecef_at(&t).map_err(|source| InstantError::Propagation {
-                satellite: elements.label(),
-                source,
-            })?;
+            let s = prop
+                .ecef_at(&t)
+                .map_err(|source| InstantError::Propagation {
+                    satellite: elements.label(),
+                    source,
+                })?;
             let look = model.observer.look(&s);
             if look.elevation_deg < 0.0 {
                 return Err(InstantError::BelowHorizon {
@@ -243,11 +253,17 @@ fn rate_spec(
         .unwrap_or_else(|| rates.ladder[0].scheme.clone());
     let bad = |e: &dyn std::fmt::Display| InstantError::Rate(format!("{name}: {e}"));
     let idx = crate::link::modcod::scheme_index(&name).map_err(|e| bad(&e))?;
-    let op = crate::link::modcod::operating_point(idx, Some(modem.target_ber)).map_err(|e| bad(&e))?;
+    let op =
+        crate::link::modcod::operating_point(idx, Some(modem.target_ber)).map_err(|e| bad(&e))?;
     model
         .link
         .rate_spec(rate_bps, op, modem.roll_off, modem.implementation_loss_db)
-        .map_err(|e| InstantError::Rate(format!("rate {} bit/s with {name}: {e}", short_number(rate_bps))))
+        .map_err(|e| {
+            InstantError::Rate(format!(
+                "rate {} bit/s with {name}: {e}",
+                short_number(rate_bps)
+            ))
+        })
 }
 
 /// The link's items with the atmosphere's components (as losses) right after the free-space loss.
@@ -261,7 +277,11 @@ fn items(
         ("gas_loss", att.gas_db, "ITU-R P.676-12 Annex 2"),
         ("cloud_loss", att.cloud_db, "ITU-R P.840-9"),
         ("rain_loss", att.rain_db, "ITU-R P.618-14 2.2.1.1, P.838-3"),
-        ("scintillation_loss", att.scintillation_db, "ITU-R P.618-14 2.4.1"),
+        (
+            "scintillation_loss",
+            att.scintillation_db,
+            "ITU-R P.618-14 2.4.1",
+        ),
     ]
     .map(|(name, value, source)| BudgetItem {
         name,
