@@ -1,35 +1,7 @@
 //! End-to-end checks of `atmosphere` and `budget` on the shipped example files, and their
 //! bad-input behaviour (one clear line, exit code 1, model range warnings named).
 
-use std::path::PathBuf;
-use std::process::{Command, Output};
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_passbudget"))
-        .current_dir(root())
-        .args(args)
-        .output()
-        .expect("binary runs")
-}
-
-fn json(o: &Output) -> serde_json::Value {
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-    serde_json::from_slice(&o.stdout).unwrap()
-}
-
-fn clean_error(o: &Output, needles: &[&str]) {
-    let e = String::from_utf8_lossy(&o.stderr);
-    assert_eq!(o.status.code(), Some(1), "{e}");
-    let lines: Vec<&str> = e.lines().filter(|l| l.starts_with("error")).collect();
-    assert_eq!(lines.len(), 1, "{e}");
-    for n in needles {
-        assert!(lines[0].contains(n), "'{n}' not in {e}");
-    }
-}
+use crate::common::bin::{clean_error, json, root, run};
 
 #[test]
 fn atmosphere_json_keys_and_physics() {

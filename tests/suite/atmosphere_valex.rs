@@ -1,9 +1,8 @@
 //! Atmosphere models against the ITU-R SG3 validation examples and other published values.
 //! Each check names its source; the data files in tests/data/atmosphere/ open with theirs.
 
-mod common;
-
-use common::tolerance::*;
+use crate::common::data::read_csv_numbers;
+use crate::common::tolerance::*;
 use passbudget::atmosphere::{
     cloud, combine, gas, mean_radiating_temperature_k, rain_height, rain_specific, AtmosphereSite,
     PathSpec, PreparedAtmosphere, Weather,
@@ -11,28 +10,7 @@ use passbudget::atmosphere::{
 use std::collections::HashMap;
 
 fn load(name: &str) -> Vec<HashMap<String, f64>> {
-    let path = format!(
-        "{}/tests/data/atmosphere/{name}",
-        env!("CARGO_MANIFEST_DIR")
-    );
-    let mut rdr = csv::ReaderBuilder::new()
-        .comment(Some(b'#'))
-        .from_path(&path)
-        .unwrap_or_else(|e| panic!("{path}: {e}"));
-    let headers = rdr.headers().unwrap().clone();
-    let rows: Vec<HashMap<String, f64>> = rdr
-        .records()
-        .map(|r| {
-            let r = r.unwrap();
-            headers
-                .iter()
-                .zip(r.iter())
-                .map(|(h, v)| (h.to_string(), v.trim().parse::<f64>().unwrap()))
-                .collect()
-        })
-        .collect();
-    assert!(!rows.is_empty(), "{path} has no rows");
-    rows
+    read_csv_numbers(&format!("atmosphere/{name}"))
 }
 
 fn assert_rel(got: f64, want: f64, rel: f64, what: &str) {

@@ -2,34 +2,13 @@
 //! on bad input: the invariants the planner must keep, agreement with `budget --at`, and clean
 //! errors with nothing half-written.
 
+use crate::common::bin::{json, root, run as run_bin, write};
 use passbudget::config::mission::Mission;
 use passbudget::plan::prepare::{availability_weather, rate_set, station_model};
 use passbudget::plan::rate::kept_runs;
 use passbudget::plan::{run, PassSeries, PlanInput};
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+use std::path::PathBuf;
 use std::sync::Mutex;
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn run_bin(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_passbudget"))
-        .current_dir(root())
-        .args(args)
-        .output()
-        .expect("binary runs")
-}
-
-fn json(out: &Output) -> serde_json::Value {
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).expect("JSON")
-}
 
 const MISSION: &str = "examples/wrenlet-1.yaml";
 
@@ -309,12 +288,6 @@ fn a_higher_rate_never_closes_earlier() {
                 && p.clear.adaptive_volume_bits <= p.clear.shannon_volume_bits
         );
     }
-}
-
-fn write(dir: &Path, name: &str, text: &str) -> String {
-    let p = dir.join(name);
-    std::fs::write(&p, text).unwrap();
-    p.to_string_lossy().into_owned()
 }
 
 #[test]

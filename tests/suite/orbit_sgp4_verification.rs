@@ -3,8 +3,7 @@
 //! (as carried by python-sgp4, /work/shared/REFERENCES.md §10, status [C]). Run through our
 //! own loading path: TLE text -> parse_elements -> ElementSet -> Propagator.
 
-mod common;
-use common::tolerance::{SGP4_POSITION_KM, SGP4_VELOCITY_KM_S};
+use crate::common::tolerance::{SGP4_POSITION_KM, SGP4_VELOCITY_KM_S};
 use passbudget::orbit::{parse_elements, select, Propagator};
 
 // SGP4-VER.TLE lines, with the extra start/stop/step columns after column 69 as published.

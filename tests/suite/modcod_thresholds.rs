@@ -1,7 +1,6 @@
 //! Modulation/coding thresholds against outside references.
 
-mod common;
-use common::tolerance::*;
+use crate::common::tolerance::*;
 use passbudget::link::capacity::{bi_awgn_limit_ebn0_db, shannon_limit_ebn0_db};
 use passbudget::link::modcod::{
     scheme, scheme_index, schemes, uncoded_psk_required_ebn0_db, ErrorMeasure, ModcodError,

@@ -2,46 +2,7 @@
 //! Bad input must give one clear line on stderr naming the file and what is wrong, a non-zero exit
 //! code, and no panic.
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
-
-fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_passbudget"))
-}
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn run(args: &[&str]) -> Output {
-    bin()
-        .current_dir(root())
-        .args(args)
-        .output()
-        .expect("binary runs")
-}
-
-/// The run failed cleanly: exit code 1, one line on stderr starting "error:", containing `needle`.
-fn assert_clean_error(out: &Output, needles: &[&str]) {
-    let stderr = String::from_utf8_lossy(&out.stderr);
-    assert_eq!(out.status.code(), Some(1), "stderr: {stderr}");
-    let lines: Vec<&str> = stderr
-        .lines()
-        .filter(|l| !l.starts_with("warning") && !l.starts_with("note"))
-        .collect();
-    assert_eq!(lines.len(), 1, "one line expected, got: {stderr}");
-    assert!(lines[0].starts_with("error: "), "{stderr}");
-    for n in needles {
-        assert!(lines[0].contains(n), "'{n}' not in: {stderr}");
-    }
-    assert!(!stderr.contains("panicked"), "{stderr}");
-}
-
-fn write(dir: &Path, name: &str, text: &str) -> String {
-    let p = dir.join(name);
-    std::fs::write(&p, text).unwrap();
-    p.to_string_lossy().into_owned()
-}
+use crate::common::bin::{clean_error as assert_clean_error, command as bin, root, run, write};
 
 const WINDOW: [&str; 4] = ["--start", "2026-12-02T00:00:00Z", "--days", "1"];
 

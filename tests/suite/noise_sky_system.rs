@@ -1,7 +1,6 @@
 //! Sky temperature, galactic background, Friis cascade, antenna temperature, kTB.
 
-mod common;
-use common::tolerance::*;
+use crate::common::tolerance::*;
 use passbudget::noise::sky::*;
 use passbudget::noise::system::*;
 

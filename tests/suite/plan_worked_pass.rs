@@ -11,16 +11,12 @@
 //! 1 W into a 0 dBi spacecraft antenna, a 40 dBi ground antenna with perfect pointing, matched
 //! circular polarization, no spillover, a 100 K LNA with 60 dB gain, uncoded BPSK at BER 1e-5.
 
+use crate::common::bin::root;
 use passbudget::atmosphere::gas::{equivalent_heights_p676_12, specific_attenuation_p676};
 use passbudget::atmosphere::Weather;
 use passbudget::config::mission::Mission;
 use passbudget::plan::prepare::{rate_set, station_model};
 use passbudget::plan::series::budget_at;
-use std::path::PathBuf;
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
 
 const STATION: &str = "name: Worked Example
 latitude_deg: 45.5

@@ -2,8 +2,7 @@
 //! against Skyfield 1.55 + python-sgp4 2.27, computed once by tests/data/orbit/make_reference.py
 //! (UT1 = UTC, no polar motion, WGS-72 SGP4; calls recorded in the JSON file).
 
-mod common;
-use common::tolerance::{
+use crate::common::tolerance::{
     ELEVATION_RATE_DEG_S, LOOK_ANGLE_DEG, MAX_ELEVATION_DEG, PASS_TIME_S, RANGE_KM, RANGE_RATE_KM_S,
 };
 use passbudget::geometry::{find_passes, HorizonMask, Observer};
