@@ -1,5 +1,6 @@
 //! Modulation/coding thresholds against outside references.
 
+use crate::common::data::read_csv;
 use crate::common::tolerance::*;
 use passbudget::link::capacity::{bi_awgn_limit_ebn0_db, shannon_limit_ebn0_db};
 use passbudget::link::modcod::{
@@ -8,18 +9,12 @@ use passbudget::link::modcod::{
 };
 use passbudget::special::{erfc, q_function};
 
-fn load(name: &str) -> serde_json::Value {
-    let path = format!("{}/tests/data/link/{name}", env!("CARGO_MANIFEST_DIR"));
-    serde_json::from_str(&std::fs::read_to_string(path).unwrap()).unwrap()
-}
-
 #[test]
 fn erfc_matches_scipy() {
-    // scipy 1.17.1 scipy.special.erfc (tests/data/link/scipy_special.json)
-    let d = load("scipy_special.json");
-    for row in d["erfc"].as_array().unwrap() {
-        let x = row[0].as_f64().unwrap();
-        let want = row[1].as_f64().unwrap();
+    // scipy 1.17.1 scipy.special.erfc (tests/data/link/scipy_erfc.csv)
+    for row in read_csv("link/scipy_erfc.csv") {
+        let x = row.num("x");
+        let want = row.num("erfc");
         let got = erfc(x);
         assert!(
             ((got - want) / want).abs() < SCIPY_REL,
@@ -37,11 +32,10 @@ fn bpsk_ber_1e5_needs_9_6_db() {
         "{}",
         op.required_ebn0_db
     );
-    // and the exact values from scipy 1.17.1 norm.isf (tests/data/link/scipy_special.json)
-    let d = load("scipy_special.json");
-    for row in d["bpsk_required_ebn0_db"].as_array().unwrap() {
-        let ber = row[0].as_f64().unwrap();
-        let want = row[1].as_f64().unwrap();
+    // and the exact values from scipy 1.17.1 norm.isf (tests/data/link/scipy_bpsk_ebn0.csv)
+    for row in read_csv("link/scipy_bpsk_ebn0.csv") {
+        let ber = row.num("ber");
+        let want = row.num("ebn0_db");
         for m in [Modulation::Bpsk, Modulation::Qpsk] {
             let got = uncoded_psk_required_ebn0_db(m, ber).unwrap();
             assert!((got - want).abs() < 1e-9, "BER {ber}: {got} vs {want}");
@@ -70,14 +64,13 @@ fn uncoded_8psk_nearest_neighbour_is_consistent() {
 
 #[test]
 fn dvbs2_table13_thresholds_and_efficiencies() {
-    // ETSI EN 302 307-1 Table 13 (tests/data/link/dvbs2_table13.json)
-    let d = load("dvbs2_table13.json");
-    let rows = d["rows"].as_array().unwrap();
+    // ETSI EN 302 307-1 Table 13 (tests/data/link/dvbs2_table13.csv)
+    let rows = read_csv("link/dvbs2_table13.csv");
     assert_eq!(rows.len(), 28);
-    for row in rows {
-        let name = row[0].as_str().unwrap();
-        let eta = row[1].as_f64().unwrap();
-        let esn0 = row[2].as_f64().unwrap();
+    for row in &rows {
+        let name = row.text("scheme");
+        let eta = row.num("eta");
+        let esn0 = row.num("esn0_db");
         let s = scheme(name).unwrap();
         assert!(
             (s.spectral_efficiency - eta).abs() < ETA_ABS,

@@ -1,7 +1,7 @@
 //! One pass worked by hand: the budget at the time of closest approach of a reference pass, with
 //! every step written out, against the same budget computed by passbudget's planning path.
 //!
-//! Geometry: the Skyfield reference of the orbit work (tests/data/orbit/skyfield_reference.json,
+//! Geometry: the Skyfield reference of the orbit work (tests/data/orbit/skyfield_*.csv,
 //! Skyfield 1.55 + python-sgp4 2.27, WGS-72, UT1 = UTC): WRENLET-1 (invented) seen from the
 //! invented reference station at 45.5 N, 120.3 W, 600 m, at 2026-12-01T12:00Z + 17970.1665 s
 //! (TCA of the second reference pass): elevation 68.3286 deg, range 588.91984 km,
