@@ -25,7 +25,7 @@ fn erfc_matches_scipy() {
 
 #[test]
 fn bpsk_ber_1e5_needs_9_6_db() {
-    // Roddy, Satellite Communications, 4th ed., p. 353: BER 1e-5 at ~9.6 dB (REFERENCES §2).
+    // Roddy, Satellite Communications, 4th ed., p. 353: BER 1e-5 at ~9.6 dB (docs/REFERENCES.md §2).
     let op = scheme("bpsk").unwrap().operating_point(Some(1e-5)).unwrap();
     assert!(
         (op.required_ebn0_db - 9.6).abs() < REF_DB,
@@ -41,7 +41,7 @@ fn bpsk_ber_1e5_needs_9_6_db() {
             assert!((got - want).abs() < 1e-9, "BER {ber}: {got} vs {want}");
         }
     }
-    // REFERENCES §2 [COMP]: 1e-5 -> 9.59, 1e-6 -> 10.53, 1e-7 -> 11.31 dB
+    // docs/REFERENCES.md §2 [COMP]: 1e-5 -> 9.59, 1e-6 -> 10.53, 1e-7 -> 11.31 dB
     for (ber, db) in [(1e-5, 9.59), (1e-6, 10.53), (1e-7, 11.31)] {
         assert!((uncoded_psk_required_ebn0_db(Modulation::Bpsk, ber).unwrap() - db).abs() < 0.006);
     }
@@ -89,7 +89,7 @@ fn dvbs2_table13_thresholds_and_efficiencies() {
         assert!(matches!(op.provenance, Provenance::Published(_)));
         // above the Shannon limit (Shannon 1948) at its efficiency
         assert!(op.shannon_gap_db > 0.0, "{name}");
-        // QPSK MODCODs: above the BI-AWGN limit of rate eta/2 per dimension (REFERENCES §2 method)
+        // QPSK MODCODs: above the BI-AWGN limit of rate eta/2 per dimension (docs/REFERENCES.md §2 method)
         if s.modulation == Modulation::Qpsk {
             assert!(
                 op.required_ebn0_db > bi_awgn_limit_ebn0_db(eta / 2.0).unwrap(),
@@ -101,7 +101,7 @@ fn dvbs2_table13_thresholds_and_efficiencies() {
 
 #[test]
 fn bi_awgn_limits_match_references() {
-    // REFERENCES §2 [COMP]: Eb/N0 at which BI-AWGN capacity equals r.
+    // docs/REFERENCES.md §2 [COMP]: Eb/N0 at which BI-AWGN capacity equals r.
     for (r, db) in [
         (1.0 / 6.0, -1.073),
         (0.25, -0.794),
@@ -118,7 +118,7 @@ fn bi_awgn_limits_match_references() {
     }
 }
 
-/// REFERENCES §2 hard lower bounds (BI-AWGN, [COMP]) by nominal rate.
+/// docs/REFERENCES.md §2 hard lower bounds (BI-AWGN, [COMP]) by nominal rate.
 fn listed_bound(rate: f64) -> Option<f64> {
     let table = [
         (1.0 / 6.0, -1.073),
@@ -164,7 +164,7 @@ fn every_coded_ccsds_threshold_exceeds_its_bi_awgn_bound() {
 
 #[test]
 fn ccsds_thresholds_within_plausibility_bands() {
-    // REFERENCES §2 [M] values: a second, independently recalled reading of the CCSDS 130.1-G
+    // docs/REFERENCES.md §2 [M] values: a second, independently recalled reading of the CCSDS 130.1-G
     // curves (from memory; the Green Book gives curves only). This is a plausibility band of
     // +-0.5 dB between two from-memory readings, NOT a check against a published number; the hard
     // checks of these thresholds are the BI-AWGN capacity bounds above and the two ratios the

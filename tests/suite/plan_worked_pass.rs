@@ -99,7 +99,7 @@ fn budget_at_tca_worked_by_hand() {
     // Water-vapour pressure e = rho T / 216.7 (P.676 eq. (4)); the site pressure is total, dry p = P - e.
     let e_hpa = 7.5 * 288.15 / 216.7;
     let p_dry = 1013.25 - e_hpa;
-    let (gamma_o, gamma_w) = specific_attenuation_p676(8.2125, p_dry, 7.5, 288.15); // Annex 1 line sums (ValEx-checked in tests/atmosphere_*)
+    let (gamma_o, gamma_w) = specific_attenuation_p676(8.2125, p_dry, 7.5, 288.15); // Annex 1 line sums (ValEx-checked in tests/suite/atmosphere_*)
     let (h_o, h_w) = equivalent_heights_p676_12(8.2125, p_dry, 7.5, 288.15); // Annex 2 eqs (ValEx-checked)
     let gas_db = (gamma_o * h_o + gamma_w * h_w) / elevation_deg.to_radians().sin();
     assert!(gas_db > 0.04 && gas_db < 0.08, "gas {gas_db}"); // about 0.06 dB at X band near the zenith (common practice)
