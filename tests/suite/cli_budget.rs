@@ -205,86 +205,49 @@ fn budget_bad_input() {
     )
     .unwrap();
     let m = "examples/wrenlet-1.yaml";
-    clean_error(
-        &run(&[
-            "budget",
-            &neg.to_string_lossy(),
-            "--station",
+    let (neg, eff) = (neg.to_string_lossy(), eff_mission.to_string_lossy());
+    // (mission, station, elevation, further options, needles of the one error line)
+    let cases: [(&str, &str, &str, &[&str], &[&str]); 6] = [
+        (&neg, "Nordkam", "20", &[], &["neg.yaml", "power"]),
+        (
+            &eff,
             "Nordkam",
-            "--elevation-deg",
             "20",
-        ]),
-        &["neg.yaml", "power"],
-    );
-    clean_error(
-        &run(&[
-            "budget",
-            &eff_mission.to_string_lossy(),
-            "--station",
-            "Nordkam",
-            "--elevation-deg",
-            "20",
-        ]),
-        &["eff.yaml", "antenna.efficiency"],
-    );
-    clean_error(
-        &run(&[
-            "budget",
+            &[],
+            &["eff.yaml", "antenna.efficiency"],
+        ),
+        (
             m,
-            "--station",
             "Nordkam",
-            "--elevation-deg",
             "20",
-            "--scheme",
-            "ccsds-warp-drive",
-        ]),
-        &["ccsds-warp-drive"],
-    );
-    clean_error(
-        &run(&[
-            "budget",
+            &["--scheme", "ccsds-warp-drive"],
+            &["ccsds-warp-drive"],
+        ),
+        (
             m,
-            "--station",
             "Nordkam",
-            "--elevation-deg",
             "20",
-            "--rate-bps",
-            "2e9",
-        ]),
-        &["occupies", "375000000"],
-    );
-    clean_error(
-        &run(&["budget", m, "--station", "Nowhere", "--elevation-deg", "20"]),
-        &["Nowhere"],
-    );
-    clean_error(
-        &run(&["budget", m, "--station", "Nordkam", "--elevation-deg", "95"]),
-        &["--elevation-deg"],
-    );
-    clean_error(
-        &run(&[
-            "atmosphere",
-            "--station",
-            "stations/nordkam.yaml",
-            "--frequency-ghz",
-            "-1",
-            "--elevation-deg",
-            "20",
-        ]),
-        &["--frequency-ghz"],
-    );
-    clean_error(
-        &run(&[
-            "atmosphere",
-            "--station",
-            "stations/nordkam.yaml",
-            "--frequency-ghz",
-            "8",
-            "--elevation-deg",
-            "20",
-            "--exceedance-percent",
-            "80",
-        ]),
-        &["exceedance"],
-    );
+            &["--rate-bps", "2e9"],
+            &["occupies", "375000000"],
+        ),
+        (m, "Nowhere", "20", &[], &["Nowhere"]),
+        (m, "Nordkam", "95", &[], &["--elevation-deg"]),
+    ];
+    for (mission, station, elevation_deg, more, needles) in cases {
+        let mut args = vec!["budget", mission, "--station", station];
+        args.extend(["--elevation-deg", elevation_deg]);
+        args.extend(more);
+        clean_error(&run(&args), needles);
+    }
+    // atmosphere: (frequency, further options, needles)
+    let cases: [(&str, &[&str], &[&str]); 2] = [
+        ("-1", &[], &["--frequency-ghz"]),
+        ("8", &["--exceedance-percent", "80"], &["exceedance"]),
+    ];
+    for (frequency_ghz, more, needles) in cases {
+        let mut args = vec!["atmosphere", "--station", "stations/nordkam.yaml"];
+        args.extend(["--frequency-ghz", frequency_ghz, "--elevation-deg", "20"]);
+        args.extend(more);
+        clean_error(&run(&args), needles);
+    }
 }

@@ -299,58 +299,33 @@ fn bad_inputs_give_one_clear_line() {
         let out = run(&args);
         assert_clean_error(&out, &needles);
     }
-    let out = run(&[
-        "passes",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        st,
+    // Bad window or step on the shipped example: (command, window and step options, needles).
+    let day = ["--start", "2026-12-02T00:00:00Z", "--days", "1"];
+    let backwards = [
         "--start",
         "2026-12-02T00:00:00Z",
         "--end",
         "2026-12-01T00:00:00Z",
-    ]);
-    assert_clean_error(&out, &["not after its start"]);
-    let out = run(&[
-        "track",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        st,
-        "--start",
-        "2026-12-02T00:00:00Z",
-        "--days",
-        "1",
-        "--step",
-        "0",
-    ]);
-    assert_clean_error(&out, &["--step", "above zero"]);
-    let out = run(&[
-        "track",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        st,
-        "--start",
-        "2026-12-02T00:00:00Z",
-        "--days",
-        "1",
-        "--step",
-        "-5",
-    ]);
-    assert_clean_error(&out, &["--step"]);
-    let out = run(&[
-        "passes",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        st,
-        "--start",
-        "tomorrow",
-        "--days",
-        "1",
-    ]);
-    assert_clean_error(&out, &["--start", "RFC 3339"]);
+    ];
+    let cases: [(&str, Vec<&str>, &[&str]); 4] = [
+        ("passes", backwards.to_vec(), &["not after its start"]),
+        (
+            "track",
+            [&day[..], &["--step", "0"]].concat(),
+            &["--step", "above zero"],
+        ),
+        ("track", [&day[..], &["--step", "-5"]].concat(), &["--step"]),
+        (
+            "passes",
+            vec!["--start", "tomorrow", "--days", "1"],
+            &["--start", "RFC 3339"],
+        ),
+    ];
+    for (command, window, needles) in cases {
+        let mut args = vec![command, "--tle", "examples/sat.tle", "--station", st];
+        args.extend(window);
+        assert_clean_error(&run(&args), needles);
+    }
 }
 
 #[test]

@@ -3,8 +3,8 @@
 //! errors with nothing half-written.
 
 use crate::common::bin::{json, root, run as run_bin, write};
-use passbudget::config::mission::Mission;
-use passbudget::plan::prepare::{availability_weather, rate_set, station_model};
+use crate::common::plan::{load_plan_setup, PlanSetup};
+use passbudget::plan::prepare::availability_weather;
 use passbudget::plan::rate::kept_runs;
 use passbudget::plan::{run, PassSeries, PlanInput};
 use std::path::PathBuf;
@@ -213,18 +213,16 @@ fn time_series_step_equals_budget_at_and_rate_doubling_costs_3_01_db() {
 
 #[test]
 fn a_higher_rate_never_closes_earlier() {
-    let mission = Mission::load(&root().join(MISSION)).unwrap();
-    let stations: Vec<_> = mission
-        .stations
-        .iter()
-        .map(|s| station_model(&mission, s, None).unwrap())
-        .collect();
-    let rates = rate_set(&mission, &stations[0].link).unwrap();
-    let sets = passbudget::orbit::load_elements(&mission.elements_path).unwrap();
+    let PlanSetup {
+        mission,
+        stations,
+        rates,
+        elements,
+    } = load_plan_setup(&root().join(MISSION));
     let rain = availability_weather(mission.exceedance_percent, &stations).unwrap();
     let start = mission.start.unwrap();
     let input = PlanInput {
-        elements: &sets[0],
+        elements: &elements,
         stations: &stations,
         rates: &rates,
         start,

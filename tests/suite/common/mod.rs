@@ -4,4 +4,5 @@
 pub mod alloc;
 pub mod bin;
 pub mod data;
+pub mod plan;
 pub mod tolerance;
