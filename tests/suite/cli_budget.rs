@@ -3,19 +3,28 @@
 
 use crate::common::bin::{clean_error, json, root, run};
 
+/// `atmosphere --format json` at `station` (a file), frequency and elevation, with `more` options.
+fn atmosphere_json(
+    station: &str,
+    frequency_ghz: &str,
+    elevation_deg: &str,
+    more: &[&str],
+) -> serde_json::Value {
+    let mut args = vec!["atmosphere", "--station", station];
+    args.extend([
+        "--frequency-ghz",
+        frequency_ghz,
+        "--elevation-deg",
+        elevation_deg,
+    ]);
+    args.extend(more);
+    args.extend(["--format", "json"]);
+    json(&run(&args))
+}
+
 #[test]
 fn atmosphere_json_keys_and_physics() {
-    let clear = json(&run(&[
-        "atmosphere",
-        "--station",
-        "stations/pulau-reka.yaml",
-        "--frequency-ghz",
-        "8.2",
-        "--elevation-deg",
-        "20",
-        "--format",
-        "json",
-    ]));
+    let clear = atmosphere_json("stations/pulau-reka.yaml", "8.2", "20", &[]);
     for k in [
         "gas_db",
         "cloud_db",
@@ -31,19 +40,12 @@ fn atmosphere_json_keys_and_physics() {
     // Clear sky: no rain, no scintillation fade (ITU-R P.618-14 §2.5 as implemented; README).
     assert_eq!(clear["rain_db"].as_f64().unwrap(), 0.0);
     assert_eq!(clear["scintillation_db"].as_f64().unwrap(), 0.0);
-    let wet = json(&run(&[
-        "atmosphere",
-        "--station",
+    let wet = atmosphere_json(
         "stations/pulau-reka.yaml",
-        "--frequency-ghz",
         "8.2",
-        "--elevation-deg",
         "20",
-        "--exceedance-percent",
-        "0.1",
-        "--format",
-        "json",
-    ]));
+        &["--exceedance-percent", "0.1"],
+    );
     assert!(wet["rain_db"].as_f64().unwrap() > 1.0);
     // Sky temperature rises with the absorptive attenuation (P.618-14 eq (69)) and stays below Tmr.
     let (tc, tw) = (
@@ -57,19 +59,12 @@ fn atmosphere_json_keys_and_physics() {
 
 #[test]
 fn out_of_range_models_are_named_in_warnings() {
-    let o = json(&run(&[
-        "atmosphere",
-        "--station",
+    let o = atmosphere_json(
         "stations/nordkam.yaml",
-        "--frequency-ghz",
         "0.4",
-        "--elevation-deg",
         "3",
-        "--exceedance-percent",
-        "1",
-        "--format",
-        "json",
-    ]));
+        &["--exceedance-percent", "1"],
+    );
     let w: Vec<String> = o["warnings"]
         .as_array()
         .unwrap()
@@ -206,39 +201,25 @@ fn budget_bad_input() {
     .unwrap();
     let m = "examples/wrenlet-1.yaml";
     let (neg, eff) = (neg.to_string_lossy(), eff_mission.to_string_lossy());
-    // (mission, station, elevation, further options, needles of the one error line)
-    let cases: [(&str, &str, &str, &[&str], &[&str]); 6] = [
-        (&neg, "Nordkam", "20", &[], &["neg.yaml", "power"]),
-        (
-            &eff,
-            "Nordkam",
-            "20",
-            &[],
-            &["eff.yaml", "antenna.efficiency"],
-        ),
-        (
-            m,
-            "Nordkam",
-            "20",
-            &["--scheme", "ccsds-warp-drive"],
-            &["ccsds-warp-drive"],
-        ),
-        (
-            m,
-            "Nordkam",
-            "20",
-            &["--rate-bps", "2e9"],
-            &["occupies", "375000000"],
-        ),
-        (m, "Nowhere", "20", &[], &["Nowhere"]),
-        (m, "Nordkam", "95", &[], &["--elevation-deg"]),
-    ];
-    for (mission, station, elevation_deg, more, needles) in cases {
+    // budget of `mission` at `station` and `elevation_deg`, with `more` options
+    let budget = |mission: &str, station: &str, elevation_deg: &str, more: &[&str]| {
         let mut args = vec!["budget", mission, "--station", station];
         args.extend(["--elevation-deg", elevation_deg]);
         args.extend(more);
-        clean_error(&run(&args), needles);
-    }
+        run(&args)
+    };
+    let nk = "Nordkam";
+    clean_error(&budget(&neg, nk, "20", &[]), &["neg.yaml", "power"]);
+    clean_error(
+        &budget(&eff, nk, "20", &[]),
+        &["eff.yaml", "antenna.efficiency"],
+    );
+    let warp = ["--scheme", "ccsds-warp-drive"];
+    clean_error(&budget(m, nk, "20", &warp), &["ccsds-warp-drive"]);
+    let fast = ["--rate-bps", "2e9"];
+    clean_error(&budget(m, nk, "20", &fast), &["occupies", "375000000"]);
+    clean_error(&budget(m, "Nowhere", "20", &[]), &["Nowhere"]);
+    clean_error(&budget(m, nk, "95", &[]), &["--elevation-deg"]);
     // atmosphere: (frequency, further options, needles)
     let cases: [(&str, &[&str], &[&str]); 2] = [
         ("-1", &[], &["--frequency-ghz"]),

@@ -10,7 +10,7 @@
 //! PASSBUDGET_BLESS=1 cargo test --release golden
 //! ```
 
-use crate::common::bin::{root, run};
+use crate::common::bin::{root, run, success};
 use std::path::Path;
 
 const GOLDEN: [&str; 3] = [
@@ -32,7 +32,7 @@ fn golden_example_outputs() {
     ];
     args.push(out.clone().into_os_string());
     let o = run::<std::ffi::OsString>(&args);
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    success(&o);
     let bless = std::env::var_os("PASSBUDGET_BLESS").is_some();
     let golden_dir = root().join("tests/golden");
     let mut differ = Vec::new();

@@ -191,42 +191,30 @@ fn ccsds_thresholds_within_plausibility_bands() {
         );
     }
     // CCSDS 130.1-G-1 §4.6 (text): "gap of about 2.4 dB between ... rate 1/2 and ... rate 7/8"
-    let r12 = scheme("ccsds-cc-r1/2")
-        .unwrap()
-        .operating_point(Some(1e-5))
-        .unwrap();
-    let r78 = scheme("ccsds-cc-r7/8")
-        .unwrap()
-        .operating_point(Some(1e-5))
-        .unwrap();
-    assert!((r78.required_ebn0_db - r12.required_ebn0_db - 2.4).abs() < 0.2);
+    let r12 = required_ebn0_db("ccsds-cc-r1/2", Some(1e-5));
+    let r78 = required_ebn0_db("ccsds-cc-r7/8", Some(1e-5));
+    assert!((r78 - r12 - 2.4).abs() < 0.2);
     // CCSDS 130.1-G-1 §7.4 (text of the Green Book; read in a third-party copy of the document):
     // gains of the turbo codes over the corresponding-rate older codes ("range from 0.9 dB to 1.6 dB"),
     // for rate 1/2 against RS(255,223) + CC(7,1/2).
-    let rs_cc = scheme("ccsds-rs-cc")
-        .unwrap()
-        .operating_point(Some(1e-6))
-        .unwrap();
-    let turbo = scheme("ccsds-turbo-r1/2")
-        .unwrap()
-        .operating_point(Some(1e-6))
-        .unwrap();
-    let gain = rs_cc.required_ebn0_db - turbo.required_ebn0_db;
+    let rs_cc = required_ebn0_db("ccsds-rs-cc", Some(1e-6));
+    let turbo = required_ebn0_db("ccsds-turbo-r1/2", Some(1e-6));
+    let gain = rs_cc - turbo;
     assert!((0.9..=1.6).contains(&gain), "turbo gain {gain}");
     // Berrou, Glavieux, Thitimajshima, ICC '93: rate-1/2 turbo code BER 1e-5 at 0.7 dB with a
     // 65536-bit interleaver; an 8920-bit block at the lower BER 1e-6 cannot need less.
-    assert!(turbo.required_ebn0_db >= 0.7);
+    assert!(turbo >= 0.7);
+}
+
+/// Required Eb/N0 of the named scheme at `error_rate` (its tabulated rate when None).
+fn required_ebn0_db(name: &str, error_rate: Option<f64>) -> f64 {
+    let op = scheme(name).unwrap().operating_point(error_rate).unwrap();
+    op.required_ebn0_db
 }
 
 #[test]
 fn coding_gain_orderings_hold() {
-    let at = |n: &str| {
-        scheme(n)
-            .unwrap()
-            .operating_point(None)
-            .unwrap()
-            .required_ebn0_db
-    };
+    let at = |n: &str| required_ebn0_db(n, None);
     // every coded scheme beats uncoded BPSK at the same error rate
     for s in schemes().iter().filter(|s| s.name.starts_with("ccsds-")) {
         let op = s.operating_point(None).unwrap();

@@ -22,10 +22,15 @@ pub fn run<S: AsRef<std::ffi::OsStr>>(args: &[S]) -> Output {
         .expect("binary runs")
 }
 
+/// The run succeeded (else the assertion shows its stderr); returns its stdout as text.
+pub fn success(o: &Output) -> String {
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    String::from_utf8(o.stdout.clone()).expect("UTF-8 on stdout")
+}
+
 /// The run succeeded and its stdout is one JSON document.
 pub fn json(o: &Output) -> serde_json::Value {
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-    serde_json::from_slice(&o.stdout).expect("JSON on stdout")
+    serde_json::from_str(&success(o)).expect("JSON on stdout")
 }
 
 /// The run failed cleanly: exit code 1, no panic, and exactly one stderr line other than
