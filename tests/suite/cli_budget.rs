@@ -2,6 +2,18 @@
 //! bad-input behaviour (one clear line, exit code 1, model range warnings named).
 
 use crate::common::bin::{clean_error, json, root, run};
+use std::process::Output;
+
+/// The shipped example mission.
+const EXAMPLE: &str = "examples/wrenlet-1.yaml";
+
+/// `budget` of `mission` at `station` and `elevation_deg`, with `more` options.
+fn budget(mission: &str, station: &str, elevation_deg: &str, more: &[&str]) -> Output {
+    let mut args = vec!["budget", mission, "--station", station];
+    args.extend(["--elevation-deg", elevation_deg]);
+    args.extend(more);
+    run(&args)
+}
 
 /// `atmosphere --format json` at `station` (a file), frequency and elevation, with `more` options.
 fn atmosphere_json(
@@ -86,18 +98,12 @@ fn out_of_range_models_are_named_in_warnings() {
 
 #[test]
 fn budget_json_keys_and_rate_behaviour() {
-    let b = json(&run(&[
-        "budget",
-        "examples/wrenlet-1.yaml",
-        "--station",
+    let b = json(&budget(
+        EXAMPLE,
         "Nordkam",
-        "--elevation-deg",
         "30",
-        "--rate-bps",
-        "100e6",
-        "--format",
-        "json",
-    ]));
+        &["--rate-bps", "100e6", "--format", "json"],
+    ));
     for k in [
         "frequency_hz",
         "elevation_deg",
@@ -137,32 +143,15 @@ fn budget_json_keys_and_rate_behaviour() {
     // Slant range at 30 deg for a ~545 km orbit (spherical triangle): about 1000 km.
     assert!((g("range_km") - 1000.0).abs() < 60.0, "{}", g("range_km"));
     // Antenna temperature rises as elevation falls.
-    let low = json(&run(&[
-        "budget",
-        "examples/wrenlet-1.yaml",
-        "--station",
+    let low = json(&budget(
+        EXAMPLE,
         "Nordkam",
-        "--elevation-deg",
         "5",
-        "--rate-bps",
-        "100e6",
-        "--format",
-        "json",
-    ]));
+        &["--rate-bps", "100e6", "--format", "json"],
+    ));
     assert!(low["antenna_temperature_k"].as_f64().unwrap() > g("antenna_temperature_k"));
     assert!(low["system_temperature_k"].as_f64().unwrap() > g("system_temperature_k"));
-    let table = String::from_utf8(
-        run(&[
-            "budget",
-            "examples/wrenlet-1.yaml",
-            "--station",
-            "Nordkam",
-            "--elevation-deg",
-            "30",
-        ])
-        .stdout,
-    )
-    .unwrap();
+    let table = String::from_utf8(budget(EXAMPLE, "Nordkam", "30", &[]).stdout).unwrap();
     assert!(
         table.contains("margin")
             && table.contains("Shannon gap")
@@ -199,15 +188,8 @@ fn budget_bad_input() {
         ),
     )
     .unwrap();
-    let m = "examples/wrenlet-1.yaml";
+    let m = EXAMPLE;
     let (neg, eff) = (neg.to_string_lossy(), eff_mission.to_string_lossy());
-    // budget of `mission` at `station` and `elevation_deg`, with `more` options
-    let budget = |mission: &str, station: &str, elevation_deg: &str, more: &[&str]| {
-        let mut args = vec!["budget", mission, "--station", station];
-        args.extend(["--elevation-deg", elevation_deg]);
-        args.extend(more);
-        run(&args)
-    };
     let nk = "Nordkam";
     clean_error(&budget(&neg, nk, "20", &[]), &["neg.yaml", "power"]);
     clean_error(

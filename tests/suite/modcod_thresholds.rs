@@ -99,18 +99,21 @@ fn dvbs2_table13_thresholds_and_efficiencies() {
     }
 }
 
+/// docs/REFERENCES.md §2 [COMP]: (code rate r, Eb/N0 in dB at which the BI-AWGN capacity equals r).
+const BI_AWGN_BOUND_DB: [(f64, f64); 7] = [
+    (1.0 / 6.0, -1.073),
+    (0.25, -0.794),
+    (1.0 / 3.0, -0.495),
+    (0.5, 0.187),
+    (2.0 / 3.0, 1.059),
+    (0.8, 2.040),
+    (0.875, 2.845),
+];
+
 #[test]
 fn bi_awgn_limits_match_references() {
     // docs/REFERENCES.md §2 [COMP]: Eb/N0 at which BI-AWGN capacity equals r.
-    for (r, db) in [
-        (1.0 / 6.0, -1.073),
-        (0.25, -0.794),
-        (1.0 / 3.0, -0.495),
-        (0.5, 0.187),
-        (2.0 / 3.0, 1.059),
-        (0.8, 2.040),
-        (0.875, 2.845),
-    ] {
+    for (r, db) in BI_AWGN_BOUND_DB {
         let got = bi_awgn_limit_ebn0_db(r).unwrap();
         assert!((got - db).abs() < BIAWGN_DB, "r={r}: {got} vs {db}");
         // always above the Gaussian-input Shannon limit at eta = r (1 dim) ... = 2r on QPSK
@@ -120,15 +123,7 @@ fn bi_awgn_limits_match_references() {
 
 /// docs/REFERENCES.md §2 hard lower bounds (BI-AWGN, [COMP]) by nominal rate.
 fn listed_bound(rate: f64) -> Option<f64> {
-    let table = [
-        (1.0 / 6.0, -1.073),
-        (0.25, -0.794),
-        (1.0 / 3.0, -0.495),
-        (0.5, 0.187),
-        (2.0 / 3.0, 1.059),
-        (0.8, 2.040),
-        (0.875, 2.845),
-    ];
+    let table = BI_AWGN_BOUND_DB;
     // nominal rate within 0.5 %: the actual rate is at most the nominal one (turbo
     // termination bits, LDPC 7136/8160 < 7/8), so the nominal bound is the larger one.
     table
