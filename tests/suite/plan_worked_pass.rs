@@ -4,7 +4,8 @@
 //! Geometry: the Skyfield reference of the orbit work (tests/data/orbit/skyfield_*.csv,
 //! Skyfield 1.55 + python-sgp4 2.27, WGS-72, UT1 = UTC): WRENLET-1 (invented) seen from the
 //! invented reference station at 45.5 N, 120.3 W, 600 m, at 2026-12-01T12:00Z + 17970.1665 s
-//! (TCA of the second reference pass): elevation 68.3286 deg, range 588.91984 km,
+//! (the mid-pass look sample of the second reference pass, AOS + half its duration, about 1 s
+//! after its TCA of 17969.18 s in tests/data/orbit/skyfield_passes.csv): elevation 68.3286 deg, range 588.91984 km,
 //! off-nadir 19.9234 deg.
 //!
 //! Radio parameters are invented for the check and chosen so that each step is easy to follow:
@@ -71,9 +72,9 @@ modem:
     )
 }
 
-/// Look angles of the worked station at the TCA of the second Skyfield reference pass
-/// (2026-12-01T12:00Z + 17970.1665 s, see the file header).
-fn look_at_reference_tca(setup: &PlanSetup) -> passbudget::geometry::Look {
+/// Look angles of the worked station at the mid-pass look sample of the second Skyfield reference
+/// pass (2026-12-01T12:00Z + 17970.1665 s, close to its TCA; see the file header).
+fn look_at_reference_mid_pass(setup: &PlanSetup) -> passbudget::geometry::Look {
     let prop = passbudget::orbit::Propagator::new(&setup.elements).unwrap();
     let t = passbudget::timefmt::add_seconds(
         &passbudget::timefmt::parse_utc("2026-12-01T12:00:00Z").unwrap(),
@@ -148,7 +149,7 @@ fn budget_at_tca_worked_by_hand() {
 
     // ---- The same through passbudget: mission files -> models -> propagated geometry -> budget ----
     let (model, rates) = (&setup.stations[0], &setup.rates);
-    let look = look_at_reference_tca(&setup);
+    let look = look_at_reference_mid_pass(&setup);
     assert!(
         (look.range_km - range_km).abs() < 1e-3,
         "geometry agrees with Skyfield"
@@ -294,7 +295,7 @@ fn budget_with_every_term_worked_by_hand() {
     let mission = mission_text().replace("    axial_ratio_db: 0\n", "    axial_ratio_db: 3.0\n");
     let setup = write_and_load(dir.path(), &station, &mission);
     let (model, rates) = (&setup.stations[0], &setup.rates);
-    let look = look_at_reference_tca(&setup);
+    let look = look_at_reference_mid_pass(&setup);
     let (att, v) = budget_at(model, &look, Weather::ClearSky, rates.ladder_specs[0]).unwrap();
 
     // Pointing: theta_3dB = 70 lambda / D (common practice) = 70 x 0.036505 / 1.2 = 2.1295 deg;
