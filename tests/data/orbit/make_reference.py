@@ -1,6 +1,7 @@
 #!/usr/bin/env python3
 """Compute an independent reference for look angles and passes with Skyfield (run once, by hand;
-not run by CI). Output: tests/data/orbit/skyfield_reference.json.
+not run by CI). Output: tests/data/orbit/skyfield_{setup,passes,looks}.csv, each opening with
+`#` lines naming the source (library versions, calls, conditions).
 
 Satellite: the invented WRENLET-1 of examples/sat.tle. Station: an invented point (no real
 ground station) at 45.5 N, 120.3 W, 600 m above the WGS-84 ellipsoid.
@@ -19,7 +20,7 @@ sat.find_events(topos, t0, t1, altitude_degrees=0.0) to locate passes, then each
 here by bisection (rise/set: sign of altitude; culmination: sign of altitude rate) to 1e-4 s,
 because find_events itself resolves only to 0.5 s.
 """
-import json
+import csv
 import math
 
 import sgp4
@@ -124,23 +125,46 @@ for p in passes[:4]:
     for frac in (0.2, 0.5, 0.8):
         samples.append(look(p["aos_s"] + frac * (p["los_s"] - p["aos_s"])))
 
-out = {
-    "source": "Skyfield %s with sgp4 (python-sgp4) %s; computed once by tests/data/orbit/make_reference.py"
+HEADER = [
+    "Skyfield %s with sgp4 (python-sgp4) %s; computed once by tests/data/orbit/make_reference.py"
     % (skyfield.__version__, sgp4.__version__),
-    "calls": "load.timescale(delta_t=69.184); EarthSatellite(l1, l2, name, ts); "
-    "wgs84.latlon(45.5, -120.3, elevation_m=600.0); (sat - topos).at(t).frame_latlon_and_rates(topos); "
-    "off_nadir_deg from sat.at(t).frame_xyz(itrs) and topos.at(t).frame_xyz(itrs); "
-    "sat.find_events(topos, t0, t1, altitude_degrees=0.0) refined by bisection to 1e-4 s",
-    "conditions": "UT1 = UTC (constant delta_t = TT-UTC = 69.184 s), no polar motion, WGS-72 SGP4 "
-    "(opsmode i), geometric altitude (no refraction)",
-    "tle": [name, l1, l2],
-    "station": {"latitude_deg": LAT, "longitude_deg": LON, "altitude_m": ALT_M},
-    "time_origin_utc": "2026-12-01T12:00:00Z",
-    "span_s": span_s,
-    "min_elevation_deg": 0.0,
-    "passes": passes,
-    "looks": samples,
-}
-with open("tests/data/orbit/skyfield_reference.json", "w") as f:
-    json.dump(out, f, indent=1)
+    "Calls: load.timescale(delta_t=69.184); EarthSatellite(l1, l2, name, ts);",
+    "wgs84.latlon(45.5, -120.3, elevation_m=600.0); (sat - topos).at(t).frame_latlon_and_rates(topos);",
+    "off_nadir_deg from sat.at(t).frame_xyz(itrs) and topos.at(t).frame_xyz(itrs);",
+    "sat.find_events(topos, t0, t1, altitude_degrees=0.0) refined by bisection to 1e-4 s.",
+    "Conditions: UT1 = UTC (constant delta_t = TT-UTC = 69.184 s), no polar motion, WGS-72 SGP4",
+    "(opsmode i), geometric altitude (no refraction).",
+]
+
+
+def write_csv(path, what, columns, rows):
+    with open(path, "w", newline="") as f:
+        for line in HEADER + [what]:
+            f.write("# " + line + "\n")
+        w = csv.writer(f, lineterminator="\n")
+        w.writerow(columns)
+        for r in rows:
+            w.writerow([repr(v) if isinstance(v, float) else v for v in r])
+
+
+write_csv(
+    "tests/data/orbit/skyfield_setup.csv",
+    "This file: the elements (examples/sat.tle), the station and the time window of the reference.",
+    ["name", "line1", "line2", "latitude_deg", "longitude_deg", "altitude_m", "time_origin_utc", "span_s", "min_elevation_deg"],
+    [[name, l1, l2, LAT, LON, ALT_M, "2026-12-01T12:00:00Z", span_s, 0.0]],
+)
+PASS_COLUMNS = ["aos_s", "tca_s", "max_elevation_deg", "los_s"]
+write_csv(
+    "tests/data/orbit/skyfield_passes.csv",
+    "This file: passes above 0 deg; times in s after time_origin_utc of skyfield_setup.csv.",
+    PASS_COLUMNS,
+    [[p[c] for c in PASS_COLUMNS] for p in passes],
+)
+LOOK_COLUMNS = list(samples[0].keys())
+write_csv(
+    "tests/data/orbit/skyfield_looks.csv",
+    "This file: look angles; seconds_from_2026_12_01T12 after time_origin_utc of skyfield_setup.csv.",
+    LOOK_COLUMNS,
+    [[s[c] for c in LOOK_COLUMNS] for s in samples],
+)
 print(len(passes), "passes;", len(samples), "looks")

@@ -1,9 +1,8 @@
 //! Atmosphere models against the ITU-R SG3 validation examples and other published values.
 //! Each check names its source; the data files in tests/data/atmosphere/ open with theirs.
 
-mod common;
-
-use common::tolerance::*;
+use crate::common::data::read_csv_numbers;
+use crate::common::tolerance::*;
 use passbudget::atmosphere::{
     cloud, combine, gas, mean_radiating_temperature_k, rain_height, rain_specific, AtmosphereSite,
     PathSpec, PreparedAtmosphere, Weather,
@@ -11,28 +10,7 @@ use passbudget::atmosphere::{
 use std::collections::HashMap;
 
 fn load(name: &str) -> Vec<HashMap<String, f64>> {
-    let path = format!(
-        "{}/tests/data/atmosphere/{name}",
-        env!("CARGO_MANIFEST_DIR")
-    );
-    let mut rdr = csv::ReaderBuilder::new()
-        .comment(Some(b'#'))
-        .from_path(&path)
-        .unwrap_or_else(|e| panic!("{path}: {e}"));
-    let headers = rdr.headers().unwrap().clone();
-    let rows: Vec<HashMap<String, f64>> = rdr
-        .records()
-        .map(|r| {
-            let r = r.unwrap();
-            headers
-                .iter()
-                .zip(r.iter())
-                .map(|(h, v)| (h.to_string(), v.trim().parse::<f64>().unwrap()))
-                .collect()
-        })
-        .collect();
-    assert!(!rows.is_empty(), "{path} has no rows");
-    rows
+    read_csv_numbers(&format!("atmosphere/{name}"))
 }
 
 fn assert_rel(got: f64, want: f64, rel: f64, what: &str) {
@@ -146,7 +124,7 @@ fn p838_matches_valex() {
     }
 }
 
-// Horizontal-path coefficients from the P.838-3 fit (REFERENCES §3 [COMP], agreeing with
+// Horizontal-path coefficients from the P.838-3 fit (docs/REFERENCES.md §3 [COMP], agreeing with
 // P.838-3 Table 5 from memory): f, kH, αH, kV, αV.
 #[test]
 fn p838_horizontal_coefficients() {
@@ -228,7 +206,7 @@ fn p618_scintillation_matches_valex() {
 }
 
 // ITU-R P.618 §2.5 eq (65) (same form in -13 for p ≤ 5 %): ValEx total rows
-// (ITU-Rpy ITURP618-13_A_total.csv, REFERENCES §4c) given AG, AC, AR, AS.
+// (ITU-Rpy ITURP618-13_A_total.csv, docs/REFERENCES.md §4c) given AG, AC, AR, AS.
 #[test]
 fn p618_combination_matches_valex() {
     let cases = [
@@ -267,7 +245,7 @@ fn p618_combination_matches_valex() {
     assert!((got - (0.2 + 0.5)).abs() < 1e-12);
 }
 
-// ITU-R P.840-9: K_L derived from ValEx Rev8.3.0 (L, A) pairs (REFERENCES §7 [C-repro]) and
+// ITU-R P.840-9: K_L derived from ValEx Rev8.3.0 (L, A) pairs (docs/REFERENCES.md §7 [C-repro]) and
 // the pairs themselves (ITU-Rpy ITU_validation_test.py, ITUR840_9TestCase).
 #[test]
 fn p840_9_matches_valex() {
@@ -299,7 +277,7 @@ fn p840_9_matches_valex() {
     }
 }
 
-// Double-Debye Kl at 273.15 K (P.840-6..-8 form): REFERENCES §7 values computed by the
+// Double-Debye Kl at 273.15 K (P.840-6..-8 form): docs/REFERENCES.md §7 values computed by the
 // reference compiler from the same formula [COMP] — a check of our copy of the formula,
 // printed to 6 significant digits.
 #[test]
@@ -319,7 +297,7 @@ fn p840_double_debye_kl() {
     }
 }
 
-// P.839-2 latitude rule: its own breakpoints (REFERENCES §5; rule as written there).
+// P.839-2 latitude rule: its own breakpoints (docs/REFERENCES.md §5; rule as written there).
 #[test]
 fn p839_2_latitude_rule_values() {
     let cases = [
@@ -342,7 +320,7 @@ fn p839_2_latitude_rule_values() {
     assert_eq!(rain_height::rain_height_p839_2_km(90.0), 0.0);
 }
 
-// P.618-14 eq (70): Tmr = 37.34 + 0.81 Ts (REFERENCES §4d: Ts = 288.15 K → 270.7415 K).
+// P.618-14 eq (70): Tmr = 37.34 + 0.81 Ts (docs/REFERENCES.md §4d: Ts = 288.15 K → 270.7415 K).
 #[test]
 fn mean_radiating_temperature_eq70() {
     assert_rel(
@@ -354,7 +332,7 @@ fn mean_radiating_temperature_eq70() {
 }
 
 // P.618-14 §2.2.1.1 step-level values for the first ValEx row (51.5° N, 14.25 GHz, 0.01 %),
-// REFERENCES §4a [COMP]: intermediate values computed there while reproducing the ValEx
+// docs/REFERENCES.md §4a [COMP]: intermediate values computed there while reproducing the ValEx
 // final value, printed to 6-7 significant digits.
 #[test]
 fn p618_rain_intermediate_steps_first_valex_row() {

@@ -2,34 +2,13 @@
 //! on bad input: the invariants the planner must keep, agreement with `budget --at`, and clean
 //! errors with nothing half-written.
 
-use passbudget::config::mission::Mission;
-use passbudget::plan::prepare::{availability_weather, rate_set, station_model};
+use crate::common::bin::{json, root, run as run_bin, success, write};
+use crate::common::plan::{load_plan_setup, PlanSetup};
+use passbudget::plan::prepare::availability_weather;
 use passbudget::plan::rate::kept_runs;
 use passbudget::plan::{run, PassSeries, PlanInput};
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+use std::path::PathBuf;
 use std::sync::Mutex;
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn run_bin(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_passbudget"))
-        .current_dir(root())
-        .args(args)
-        .output()
-        .expect("binary runs")
-}
-
-fn json(out: &Output) -> serde_json::Value {
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).expect("JSON")
-}
 
 const MISSION: &str = "examples/wrenlet-1.yaml";
 
@@ -179,18 +158,15 @@ fn time_series_step_equals_budget_at_and_rate_doubling_costs_3_01_db() {
     let row = &rows[rows.len() / 2];
     let time = row[col("time")].to_string();
     let rate = row[col("rate_bps")].to_string();
-    let b = json(&run_bin(&[
-        "budget",
-        MISSION,
-        "--station",
-        "Sierra Baja",
-        "--at",
-        &time,
-        "--rate-bps",
-        &rate,
-        "--format",
-        "json",
-    ]));
+    // `budget --at` the series row's time at Sierra Baja, at `rate_bps`, with `more` options.
+    let budget_at_row = |rate_bps: &str, more: &[&str]| {
+        let mut args = vec!["budget", MISSION, "--station", "Sierra Baja"];
+        args.extend(["--at", &time, "--rate-bps", rate_bps]);
+        args.extend(more);
+        args.extend(["--format", "json"]);
+        json(&run_bin(&args))
+    };
+    let b = budget_at_row(&rate, &[]);
     for (csv_name, json_name, tol) in [
         ("cn0_dbhz", "cn0_dbhz", 1e-3),
         ("ebn0_db", "ebn0_db", 1e-3),
@@ -210,20 +186,7 @@ fn time_series_step_equals_budget_at_and_rate_doubling_costs_3_01_db() {
     let scheme = b["scheme"].as_str().unwrap().to_string();
     let r: f64 = rate.parse().unwrap();
     let half = format!("{}", r / 2.0);
-    let b2 = json(&run_bin(&[
-        "budget",
-        MISSION,
-        "--station",
-        "Sierra Baja",
-        "--at",
-        &time,
-        "--rate-bps",
-        &half,
-        "--scheme",
-        &scheme,
-        "--format",
-        "json",
-    ]));
+    let b2 = budget_at_row(&half, &["--scheme", &scheme]);
     let d = b2["ebn0_db"].as_f64().unwrap() - b["ebn0_db"].as_f64().unwrap();
     assert!((d - 3.0103).abs() < 2e-4, "{d}");
     assert!(
@@ -234,18 +197,16 @@ fn time_series_step_equals_budget_at_and_rate_doubling_costs_3_01_db() {
 
 #[test]
 fn a_higher_rate_never_closes_earlier() {
-    let mission = Mission::load(&root().join(MISSION)).unwrap();
-    let stations: Vec<_> = mission
-        .stations
-        .iter()
-        .map(|s| station_model(&mission, s, None).unwrap())
-        .collect();
-    let rates = rate_set(&mission, &stations[0].link).unwrap();
-    let sets = passbudget::orbit::load_elements(&mission.elements_path).unwrap();
+    let PlanSetup {
+        mission,
+        stations,
+        rates,
+        elements,
+    } = load_plan_setup(&root().join(MISSION));
     let rain = availability_weather(mission.exceedance_percent, &stations).unwrap();
     let start = mission.start.unwrap();
     let input = PlanInput {
-        elements: &sets[0],
+        elements: &elements,
         stations: &stations,
         rates: &rates,
         start,
@@ -309,12 +270,6 @@ fn a_higher_rate_never_closes_earlier() {
                 && p.clear.adaptive_volume_bits <= p.clear.shannon_volume_bits
         );
     }
-}
-
-fn write(dir: &Path, name: &str, text: &str) -> String {
-    let p = dir.join(name);
-    std::fs::write(&p, text).unwrap();
-    p.to_string_lossy().into_owned()
 }
 
 #[test]
@@ -415,8 +370,7 @@ fn readme_main_command_writes_plan_series_and_charts() {
     let out = dir.path().join("out");
     let o = out.to_string_lossy().into_owned();
     let r = run_bin(&["plan", MISSION, "--out", &o, "--charts"]);
-    assert!(r.status.success(), "{}", String::from_utf8_lossy(&r.stderr));
-    let table = String::from_utf8_lossy(&r.stdout);
+    let table = success(&r);
     assert!(
         table.contains("Window totals") && table.contains("licence"),
         "{table}"
@@ -444,8 +398,7 @@ fn readme_main_command_writes_plan_series_and_charts() {
         "no staging folder or temporary file left: {names:?}"
     );
     // A shorter second run replaces the files of the first rather than mixing with them.
-    let r = run_bin(&["plan", MISSION, "--days", "0.5", "--out", &o]);
-    assert!(r.status.success());
+    success(&run_bin(&["plan", MISSION, "--days", "0.5", "--out", &o]));
     let after = std::fs::read_dir(&out).unwrap().count();
     assert!(
         after < names.len() / 4,

@@ -2,8 +2,7 @@
 //! edges, never-setting / never-rising satellites, stop on propagation error, invariants.
 //! The brute-force scan is an independent check of the search (same geometry, no skipping).
 
-mod common;
-use common::tolerance::SCAN_TIME_S;
+use crate::common::tolerance::SCAN_TIME_S;
 use passbudget::geometry::passes::GUARANTEED_PASS_S;
 use passbudget::geometry::{find_passes, track, HorizonMask, Observer, Pass};
 use passbudget::orbit::{load_elements, parse_elements, Propagator};

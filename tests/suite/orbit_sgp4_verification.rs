@@ -1,10 +1,9 @@
 //! SGP4 against the published verification set: Vallado, Crawford, Hujsak, Kelso,
 //! "Revisiting Spacetrack Report #3", AIAA 2006-6753, files SGP4-VER.TLE and tcppver.out
-//! (as carried by python-sgp4, /work/shared/REFERENCES.md §10, status [C]). Run through our
+//! (as carried by python-sgp4, docs/REFERENCES.md §10, status [C]). Run through our
 //! own loading path: TLE text -> parse_elements -> ElementSet -> Propagator.
 
-mod common;
-use common::tolerance::{SGP4_POSITION_KM, SGP4_VELOCITY_KM_S};
+use crate::common::tolerance::{SGP4_POSITION_KM, SGP4_VELOCITY_KM_S};
 use passbudget::orbit::{parse_elements, select, Propagator};
 
 // SGP4-VER.TLE lines, with the extra start/stop/step columns after column 69 as published.
@@ -20,7 +19,7 @@ const VER_TLE: &str = "\
 2 28129  54.7298 324.8098 0048506 266.2640  93.1663  2.00562768 18443      0.0      1440.0        120.00
 ";
 
-/// (catalog, minutes, position km, velocity km/s) from tcppver.out (REFERENCES.md §10 tables).
+/// (catalog, minutes, position km, velocity km/s) from tcppver.out (docs/REFERENCES.md §10 tables).
 #[allow(clippy::type_complexity)]
 const EXPECTED: &[(u64, f64, [f64; 3], [f64; 3])] = &[
     (

@@ -1,13 +1,12 @@
 //! Sky temperature, galactic background, Friis cascade, antenna temperature, kTB.
 
-mod common;
-use common::tolerance::*;
+use crate::common::tolerance::*;
 use passbudget::noise::sky::*;
 use passbudget::noise::system::*;
 
 #[test]
 fn p618_sky_temperature_check_values() {
-    // ITU-R P.618-14 §3 eq. (69), Tmr = 275 K, background 2.7 K; REFERENCES §4d [COMP]
+    // ITU-R P.618-14 §3 eq. (69), Tmr = 275 K, background 2.7 K; docs/REFERENCES.md §4d [COMP]
     for (a_db, want) in [
         (0.0, 2.7),
         (1.0, 58.7044),
@@ -27,7 +26,7 @@ fn p618_sky_temperature_check_values() {
 
 #[test]
 fn p372_galactic_background() {
-    // P.372 galactic curve Fa = 52 - 23 log10 f_MHz; REFERENCES §8: 100 MHz -> Fa 6.0 dB, Ta ~ 1155 K
+    // P.372 galactic curve Fa = 52 - 23 log10 f_MHz; docs/REFERENCES.md §8: 100 MHz -> Fa 6.0 dB, Ta ~ 1155 K
     let (t, r) = galactic_temperature_p372_k(100e6).unwrap();
     assert!((t - 290.0 * 10f64.powf(0.6)).abs() < 1e-9);
     assert!((t - 1155.0).abs() / 1155.0 < REF_REL);

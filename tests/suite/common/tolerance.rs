@@ -4,7 +4,7 @@
 
 /// SGP4 position vs the published verification output (tcppver.out, Vallado et al. 2006,
 /// AIAA 2006-6753), km. The file prints 8 decimals; python-sgp4 reproduces it within 2e-7
-/// (REFERENCES.md §10). The printed rounding is 5e-9 km; we observe at most 5e-9 km. 1e-6 km
+/// (docs/REFERENCES.md §10). The printed rounding is 5e-9 km; we observe at most 5e-9 km. 1e-6 km
 /// (1 mm) leaves room for floating-point order differences and is far below SGP4's ~1 km accuracy.
 pub const SGP4_POSITION_KM: f64 = 1e-6;
 /// SGP4 velocity vs tcppver.out, km/s (9 decimals printed, observed <= 5e-10 km/s; 1e-5 m/s).
@@ -50,7 +50,7 @@ pub const ATMO_ISSUE_ABS_DB: f64 = 0.05;
 pub const ATMO_EXACT_REL: f64 = 1e-12;
 
 /// Relative tolerance for the P.840-9 K_L values derived from ValEx (L, A) pairs
-/// (REFERENCES §7: quoted to 10 significant digits).
+/// (docs/REFERENCES.md §7: quoted to 10 significant digits).
 pub const ATMO_CLOUD_KL_REL: f64 = 1e-8;
 
 /// True when `got` is within the issue tolerance of `want` (max of 2 % and 0.05 dB).
@@ -64,7 +64,7 @@ pub fn atmo_rel_close(got: f64, want: f64, rel: f64) -> bool {
 }
 
 /// Relative tolerance for coefficients quoted with 4-5 significant digits
-/// (REFERENCES §3 horizontal-path kH, αH, kV, αV): half a unit in the last digit is at
+/// (docs/REFERENCES.md §3 horizontal-path kH, αH, kV, αV): half a unit in the last digit is at
 /// most ~2.1e-4 of the value (0.02386), so 3e-4.
 pub const ATMO_TABLE5_REL: f64 = 3e-4;
 
@@ -99,7 +99,7 @@ pub const TABLE13_ESN0_DB: f64 = 0.005;
 pub const ETA_ABS: f64 = 5e-7;
 /// Check values printed with 4 decimals (K): half a unit in the last place plus rounding.
 pub const CHECK_4DP: f64 = 6e-5;
-/// REFERENCES §2 BI-AWGN bounds are printed with 3 decimals; our quadrature/bisection adds < 1e-4 dB.
+/// docs/REFERENCES.md §2 BI-AWGN bounds are printed with 3 decimals; our quadrature/bisection adds < 1e-4 dB.
 pub const BIAWGN_DB: f64 = 1e-3;
-/// "From memory" coding thresholds: plausibility band only (REFERENCES §2: +-0.5 dB).
+/// "From memory" coding thresholds: plausibility band only (docs/REFERENCES.md §2: +-0.5 dB).
 pub const FROM_MEMORY_BAND_DB: f64 = 0.5;

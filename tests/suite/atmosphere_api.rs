@@ -1,9 +1,7 @@
 //! Behaviour of the public atmosphere API: input errors, validity warnings, the clear-sky
 //! and exceedance rules of P.618-14 §2.5, low elevations, and invariants (proptest).
 
-mod common;
-
-use common::tolerance::ATMO_RAIN_MONOTONE_REL;
+use crate::common::tolerance::ATMO_RAIN_MONOTONE_REL;
 use passbudget::atmosphere::{
     rain_height, scintillation, AtmosphereError, AtmosphereSite, PathSpec, PreparedAtmosphere,
     Weather,

@@ -1,7 +1,7 @@
 //! `min_range_km` is the smallest slant range of the pass, also for an eccentric orbit where it
 //! is not at the time of maximum elevation. Checked against a brute-force 1 s track of the same
 //! pass (our own propagation; the look angles themselves are checked against Skyfield in
-//! tests/geometry_skyfield.rs). Invented elements: a Molniya-type orbit (e = 0.7, i = 63.4 deg).
+//! tests/suite/geometry_skyfield.rs). Invented elements: a Molniya-type orbit (e = 0.7, i = 63.4 deg).
 
 use passbudget::geometry::{find_passes, track, HorizonMask, Observer};
 use passbudget::orbit::{parse_elements, Propagator};

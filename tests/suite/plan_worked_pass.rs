@@ -1,26 +1,22 @@
 //! One pass worked by hand: the budget at the time of closest approach of a reference pass, with
 //! every step written out, against the same budget computed by passbudget's planning path.
 //!
-//! Geometry: the Skyfield reference of the orbit work (tests/data/orbit/skyfield_reference.json,
+//! Geometry: the Skyfield reference of the orbit work (tests/data/orbit/skyfield_*.csv,
 //! Skyfield 1.55 + python-sgp4 2.27, WGS-72, UT1 = UTC): WRENLET-1 (invented) seen from the
 //! invented reference station at 45.5 N, 120.3 W, 600 m, at 2026-12-01T12:00Z + 17970.1665 s
-//! (TCA of the second reference pass): elevation 68.3286 deg, range 588.91984 km,
+//! (the mid-pass look sample of the second reference pass, AOS + half its duration, about 1 s
+//! after its TCA of 17969.18 s in tests/data/orbit/skyfield_passes.csv): elevation 68.3286 deg, range 588.91984 km,
 //! off-nadir 19.9234 deg.
 //!
 //! Radio parameters are invented for the check and chosen so that each step is easy to follow:
 //! 1 W into a 0 dBi spacecraft antenna, a 40 dBi ground antenna with perfect pointing, matched
 //! circular polarization, no spillover, a 100 K LNA with 60 dB gain, uncoded BPSK at BER 1e-5.
 
+use crate::common::bin::root;
+use crate::common::plan::{write_and_load, PlanSetup};
 use passbudget::atmosphere::gas::{equivalent_heights_p676_12, specific_attenuation_p676};
 use passbudget::atmosphere::Weather;
-use passbudget::config::mission::Mission;
-use passbudget::plan::prepare::{rate_set, station_model};
 use passbudget::plan::series::budget_at;
-use std::path::PathBuf;
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
 
 const STATION: &str = "name: Worked Example
 latitude_deg: 45.5
@@ -47,7 +43,10 @@ climate:
   rain_rate_001_mm_h: 0
 ";
 
-fn mission_text(elements: &str) -> String {
+/// The mission file of the worked pass, on the shipped elements (examples/sat.tle).
+fn mission_text() -> String {
+    let elements = root().join("examples/sat.tle");
+    let elements = elements.to_string_lossy();
     format!(
         "name: worked
 satellite:
@@ -73,13 +72,21 @@ modem:
     )
 }
 
+/// Look angles of the worked station at the mid-pass look sample of the second Skyfield reference
+/// pass (2026-12-01T12:00Z + 17970.1665 s, close to its TCA; see the file header).
+fn look_at_reference_mid_pass(setup: &PlanSetup) -> passbudget::geometry::Look {
+    let prop = passbudget::orbit::Propagator::new(&setup.elements).unwrap();
+    let t = passbudget::timefmt::add_seconds(
+        &passbudget::timefmt::parse_utc("2026-12-01T12:00:00Z").unwrap(),
+        17970.16652621289,
+    );
+    setup.stations[0].observer.look(&prop.ecef_at(&t).unwrap())
+}
+
 #[test]
 fn budget_at_tca_worked_by_hand() {
     let dir = tempfile::tempdir().unwrap();
-    std::fs::write(dir.path().join("station.yaml"), STATION).unwrap();
-    let tle = root().join("examples/sat.tle");
-    let mpath = dir.path().join("mission.yaml");
-    std::fs::write(&mpath, mission_text(&tle.to_string_lossy())).unwrap();
+    let setup = write_and_load(dir.path(), STATION, &mission_text());
 
     // ---- Geometry (Skyfield reference, see the file header) ----
     let elevation_deg: f64 = 68.3285556318108;
@@ -103,7 +110,7 @@ fn budget_at_tca_worked_by_hand() {
     // Water-vapour pressure e = rho T / 216.7 (P.676 eq. (4)); the site pressure is total, dry p = P - e.
     let e_hpa = 7.5 * 288.15 / 216.7;
     let p_dry = 1013.25 - e_hpa;
-    let (gamma_o, gamma_w) = specific_attenuation_p676(8.2125, p_dry, 7.5, 288.15); // Annex 1 line sums (ValEx-checked in tests/atmosphere_*)
+    let (gamma_o, gamma_w) = specific_attenuation_p676(8.2125, p_dry, 7.5, 288.15); // Annex 1 line sums (ValEx-checked in tests/suite/atmosphere_*)
     let (h_o, h_w) = equivalent_heights_p676_12(8.2125, p_dry, 7.5, 288.15); // Annex 2 eqs (ValEx-checked)
     let gas_db = (gamma_o * h_o + gamma_w * h_w) / elevation_deg.to_radians().sin();
     assert!(gas_db > 0.04 && gas_db < 0.08, "gas {gas_db}"); // about 0.06 dB at X band near the zenith (common practice)
@@ -141,21 +148,13 @@ fn budget_at_tca_worked_by_hand() {
     let margin = ebn0 - 9.5879;
 
     // ---- The same through passbudget: mission files -> models -> propagated geometry -> budget ----
-    let mission = Mission::load(&mpath).unwrap();
-    let model = station_model(&mission, &mission.stations[0], None).unwrap();
-    let rates = rate_set(&mission, &model.link).unwrap();
-    let sets = passbudget::orbit::load_elements(&tle).unwrap();
-    let prop = passbudget::orbit::Propagator::new(&sets[0]).unwrap();
-    let t = passbudget::timefmt::add_seconds(
-        &passbudget::timefmt::parse_utc("2026-12-01T12:00:00Z").unwrap(),
-        17970.16652621289,
-    );
-    let look = model.observer.look(&prop.ecef_at(&t).unwrap());
+    let (model, rates) = (&setup.stations[0], &setup.rates);
+    let look = look_at_reference_mid_pass(&setup);
     assert!(
         (look.range_km - range_km).abs() < 1e-3,
         "geometry agrees with Skyfield"
     );
-    let (att, v) = budget_at(&model, &look, Weather::ClearSky, rates.ladder_specs[0]).unwrap();
+    let (att, v) = budget_at(model, &look, Weather::ClearSky, rates.ladder_specs[0]).unwrap();
 
     let tol = 0.01; // dB: the geometry differs from Skyfield's by < 1e-3 km (< 2e-5 dB)
     assert!(
@@ -198,22 +197,16 @@ fn budget_at_tca_worked_by_hand() {
 #[test]
 fn closing_elevation_of_the_pass_worked_by_hand() {
     let dir = tempfile::tempdir().unwrap();
-    std::fs::write(dir.path().join("station.yaml"), STATION).unwrap();
-    let tle = root().join("examples/sat.tle");
-    let mpath = dir.path().join("mission.yaml");
-    std::fs::write(&mpath, mission_text(&tle.to_string_lossy())).unwrap();
-    let mission = Mission::load(&mpath).unwrap();
-    let stations = vec![station_model(&mission, &mission.stations[0], None).unwrap()];
-    let rates = rate_set(&mission, &stations[0].link).unwrap();
-    let sets = passbudget::orbit::load_elements(&tle).unwrap();
+    let setup = write_and_load(dir.path(), STATION, &mission_text());
+    let (stations, rates) = (&setup.stations, &setup.rates);
     let origin = passbudget::timefmt::parse_utc("2026-12-01T12:00:00Z").unwrap();
     // Window around the second Skyfield reference pass (AOS 17609.0 s, LOS 18331.3 s after origin).
     let start = passbudget::timefmt::add_seconds(&origin, 17000.0);
     let end = passbudget::timefmt::add_seconds(&origin, 19000.0);
     let input = passbudget::plan::PlanInput {
-        elements: &sets[0],
-        stations: &stations,
-        rates: &rates,
+        elements: &setup.elements,
+        stations,
+        rates,
         start,
         end,
         step_s: 1.0,
@@ -231,7 +224,7 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
     let from = c.closes_from.unwrap();
 
     // Hand chain as a function of elevation. Satellite radius from the propagated orbit at the closing time.
-    let prop = passbudget::orbit::Propagator::new(&sets[0]).unwrap();
+    let prop = passbudget::orbit::Propagator::new(&setup.elements).unwrap();
     let rs = prop.ecef_at(&from).unwrap().position_km;
     let r_sat = (rs[0] * rs[0] + rs[1] * rs[1] + rs[2] * rs[2]).sqrt();
     let po = stations[0].observer.position_km();
@@ -299,26 +292,11 @@ fn budget_with_every_term_worked_by_hand() {
         );
     assert_ne!(station, STATION);
     let dir = tempfile::tempdir().unwrap();
-    std::fs::write(dir.path().join("station.yaml"), &station).unwrap();
-    let tle = root().join("examples/sat.tle");
-    let mpath = dir.path().join("mission.yaml");
-    std::fs::write(
-        &mpath,
-        mission_text(&tle.to_string_lossy())
-            .replace("    axial_ratio_db: 0\n", "    axial_ratio_db: 3.0\n"),
-    )
-    .unwrap();
-    let mission = Mission::load(&mpath).unwrap();
-    let model = station_model(&mission, &mission.stations[0], None).unwrap();
-    let rates = rate_set(&mission, &model.link).unwrap();
-    let sets = passbudget::orbit::load_elements(&tle).unwrap();
-    let prop = passbudget::orbit::Propagator::new(&sets[0]).unwrap();
-    let t = passbudget::timefmt::add_seconds(
-        &passbudget::timefmt::parse_utc("2026-12-01T12:00:00Z").unwrap(),
-        17970.16652621289,
-    );
-    let look = model.observer.look(&prop.ecef_at(&t).unwrap());
-    let (att, v) = budget_at(&model, &look, Weather::ClearSky, rates.ladder_specs[0]).unwrap();
+    let mission = mission_text().replace("    axial_ratio_db: 0\n", "    axial_ratio_db: 3.0\n");
+    let setup = write_and_load(dir.path(), &station, &mission);
+    let (model, rates) = (&setup.stations[0], &setup.rates);
+    let look = look_at_reference_mid_pass(&setup);
+    let (att, v) = budget_at(model, &look, Weather::ClearSky, rates.ladder_specs[0]).unwrap();
 
     // Pointing: theta_3dB = 70 lambda / D (common practice) = 70 x 0.036505 / 1.2 = 2.1295 deg;
     // L = 12 (0.3 / 2.1295)^2 dB (common practice).

@@ -185,11 +185,16 @@ fn format_detection() {
     assert_eq!(detect_format(L1), ElementFormat::Tle);
 }
 
+/// The shipped example file at `path` with `from` replaced by `to`.
+fn example_with(path: &str, from: &str, to: &str) -> String {
+    let text = std::fs::read_to_string(path).unwrap();
+    assert!(text.contains(from), "{path} lacks {from:?}");
+    text.replace(from, to)
+}
+
 #[test]
 fn omm_missing_field_is_named() {
-    let json = std::fs::read_to_string("examples/sat-omm.json")
-        .unwrap()
-        .replace("\"BSTAR\"", "\"X_BSTAR\"");
+    let json = example_with("examples/sat-omm.json", "\"BSTAR\"", "\"X_BSTAR\"");
     let err = parse_omm_json(&json).unwrap_err();
     assert_eq!(
         err,
@@ -222,17 +227,17 @@ fn omm_missing_field_is_named() {
 
 #[test]
 fn omm_bad_value_names_line() {
-    let kvn = std::fs::read_to_string("examples/sat-omm.kvn")
-        .unwrap()
-        .replace("ECCENTRICITY = 0.0011500", "ECCENTRICITY = 1.5");
+    let kvn = example_with(
+        "examples/sat-omm.kvn",
+        "ECCENTRICITY = 0.0011500",
+        "ECCENTRICITY = 1.5",
+    );
     let err = parse_omm_kvn(&kvn).unwrap_err();
     assert!(
         matches!(err, OmmError::InvalidValue { line: Some(15), .. }),
         "{err:?}"
     );
-    let kvn = std::fs::read_to_string("examples/sat-omm.kvn")
-        .unwrap()
-        .replace("TEME", "GCRF");
+    let kvn = example_with("examples/sat-omm.kvn", "TEME", "GCRF");
     assert!(matches!(
         parse_omm_kvn(&kvn).unwrap_err(),
         OmmError::InvalidValue { .. }

@@ -1,7 +1,6 @@
 //! Free-space loss, Shannon limit, antennas, polarization.
 
-mod common;
-use common::tolerance::*;
+use crate::common::tolerance::*;
 use passbudget::link::antenna::*;
 use passbudget::link::capacity::*;
 use passbudget::link::path::{free_space_loss_db, PathError};

@@ -135,6 +135,25 @@ fn assert_not_blank(bytes: &[u8], w: u32, h: u32) {
     assert!(ink > 0.03, "only {:.1} % non-white pixels", ink * 100.0);
 }
 
+/// Draws a chart as PNG (written as `name`.png when dumping; checked for size and content) and as
+/// SVG, checks that the SVG carries every needle and that a second drawing gives the same bytes.
+fn render_checked(
+    name: &str,
+    (width, height): (u32, u32),
+    draw: impl Fn(ChartFormat) -> Result<Vec<u8>, ChartError>,
+    needles: &[&str],
+) {
+    let png = draw(ChartFormat::Png).unwrap();
+    dump(&format!("{name}.png"), &png);
+    assert_not_blank(&png, width, height);
+    let svg = String::from_utf8(draw(ChartFormat::Svg).unwrap()).unwrap();
+    for needle in needles {
+        assert!(svg.contains(needle), "SVG lacks {needle:?}");
+    }
+    assert_eq!(draw(ChartFormat::Png).unwrap(), png);
+    assert_eq!(draw(ChartFormat::Svg).unwrap(), svg.into_bytes());
+}
+
 #[test]
 fn pass_png_has_size_and_content() {
     let png = draw_pass(&sample_pass(), ChartFormat::Png).unwrap();
@@ -349,22 +368,20 @@ fn sample_sky() -> SkyChartData {
 #[test]
 fn sky_renders() {
     let d = sample_sky();
-    let png = draw_sky(&d, ChartFormat::Png).unwrap();
-    dump("sky.png", &png);
-    assert_not_blank(&png, 1000, 1000);
-    let svg = String::from_utf8(draw_sky(&d, ChartFormat::Svg).unwrap()).unwrap();
-    for needle in [
-        "Sierra Baja",
-        "\nN\n",
-        "\nE\n",
-        "AOS 01:10",
-        "01 01:10Z TCA",
-        "margin &lt; 0 dB",
-        "below horizon mask",
-    ] {
-        assert!(svg.contains(needle), "SVG lacks {needle:?}");
-    }
-    assert_eq!(draw_sky(&d, ChartFormat::Png).unwrap(), png);
+    render_checked(
+        "sky",
+        (1000, 1000),
+        |f| draw_sky(&d, f),
+        &[
+            "Sierra Baja",
+            "\nN\n",
+            "\nE\n",
+            "AOS 01:10",
+            "01 01:10Z TCA",
+            "margin &lt; 0 dB",
+            "below horizon mask",
+        ],
+    );
     // no passes, no mask: still a chart
     let mut empty = d.clone();
     empty.passes.clear();
@@ -407,20 +424,18 @@ fn sample_mask() -> MaskChartData {
 #[test]
 fn mask_renders() {
     let d = sample_mask();
-    let png = draw_mask(&d, ChartFormat::Png).unwrap();
-    dump("mask.png", &png);
-    assert_not_blank(&png, 1600, 1000);
-    let svg = String::from_utf8(draw_mask(&d, ChartFormat::Svg).unwrap()).unwrap();
-    for needle in [
-        "Elevation mask (deg)",
-        "Contact per day (h)",
-        "Volume per day (Gbit)",
-        "configured mask 10.0°",
-        "100 Mbit/s 8psk-ldpc",
-    ] {
-        assert!(svg.contains(needle), "SVG lacks {needle:?}");
-    }
-    assert_eq!(draw_mask(&d, ChartFormat::Svg).unwrap(), svg.into_bytes());
+    render_checked(
+        "mask",
+        (1600, 1000),
+        |f| draw_mask(&d, f),
+        &[
+            "Elevation mask (deg)",
+            "Contact per day (h)",
+            "Volume per day (Gbit)",
+            "configured mask 10.0°",
+            "100 Mbit/s 8psk-ldpc",
+        ],
+    );
     let mut bad = d.clone();
     bad.rates[1].volume_bits_per_day.pop();
     assert!(matches!(
@@ -497,22 +512,20 @@ fn sample_summary() -> SummaryChartData {
 fn summary_renders() {
     let d = sample_summary();
     assert!(d.passes.len() > 140);
-    let png = draw_summary(&d, ChartFormat::Png).unwrap();
-    dump("summary.png", &png);
-    assert_not_blank(&png, 1600, 1000);
-    let svg = String::from_utf8(draw_summary(&d, ChartFormat::Svg).unwrap()).unwrap();
-    for needle in [
-        "Plan summary · KESTREL-7 (synthetic)",
-        "Volume per pass (Gbit)",
-        "Volume per day (Gbit)",
-        "Punta Lenga",
-        "Shannon bound",
-        "2026-12-03",
-        "Thu 12-03",
-    ] {
-        assert!(svg.contains(needle), "SVG lacks {needle:?}");
-    }
-    assert_eq!(draw_summary(&d, ChartFormat::Png).unwrap(), png);
+    render_checked(
+        "summary",
+        (1600, 1000),
+        |f| draw_summary(&d, f),
+        &[
+            "Plan summary · KESTREL-7 (synthetic)",
+            "Volume per pass (Gbit)",
+            "Volume per day (Gbit)",
+            "Punta Lenga",
+            "Shannon bound",
+            "2026-12-03",
+            "Thu 12-03",
+        ],
+    );
     assert_eq!(
         summary_file_name(&d.satellite, &d.start, &d.end, ChartFormat::Svg),
         "summary-kestrel-7-synthetic-20261202-20261209.svg"

@@ -10,8 +10,8 @@
 //! PASSBUDGET_BLESS=1 cargo test --release golden
 //! ```
 
-use std::path::{Path, PathBuf};
-use std::process::Command;
+use crate::common::bin::{root, run, success};
+use std::path::Path;
 
 const GOLDEN: [&str; 3] = [
     "summary.json",
@@ -19,27 +19,20 @@ const GOLDEN: [&str; 3] = [
     "pass-016-sierra-baja-20261202T0851Z.csv",
 ];
 
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
 #[test]
 fn golden_example_outputs() {
     let tmp = tempfile::tempdir().unwrap();
     let out = tmp.path().join("out");
-    let o = Command::new(env!("CARGO_BIN_EXE_passbudget"))
-        .current_dir(root())
-        .args([
-            "plan",
-            "examples/wrenlet-1.yaml",
-            "--format",
-            "json",
-            "--out",
-        ])
-        .arg(&out)
-        .output()
-        .expect("binary runs");
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let mut args = vec![
+        "plan".into(),
+        "examples/wrenlet-1.yaml".into(),
+        "--format".into(),
+        "json".into(),
+        "--out".into(),
+    ];
+    args.push(out.clone().into_os_string());
+    let o = run::<std::ffi::OsString>(&args);
+    success(&o);
     let bless = std::env::var_os("PASSBUDGET_BLESS").is_some();
     let golden_dir = root().join("tests/golden");
     let mut differ = Vec::new();

@@ -1,31 +1,14 @@
 //! The prepared link budget: hand-computed check, rate/elevation/rain behaviour,
 //! typed errors, and no allocation in `evaluate`.
 
-mod common;
-use common::tolerance::*;
+use crate::common::alloc::thread_allocations;
+use crate::common::tolerance::*;
 use passbudget::link::antenna::*;
 use passbudget::link::budget::*;
 use passbudget::link::modcod::{scheme, OperatingPoint};
 use passbudget::link::polarization::*;
 use passbudget::noise::system::*;
 use proptest::prelude::*;
-use std::alloc::{GlobalAlloc, Layout, System};
-use std::cell::Cell;
-
-// ---- allocation counter (per thread) to check that evaluate() allocates nothing ----
-struct Counting;
-thread_local! { static ALLOCS: Cell<usize> = const { Cell::new(0) }; }
-unsafe impl GlobalAlloc for Counting {
-    unsafe fn alloc(&self, l: Layout) -> *mut u8 {
-        let _ = ALLOCS.try_with(|c| c.set(c.get() + 1));
-        unsafe { System.alloc(l) }
-    }
-    unsafe fn dealloc(&self, p: *mut u8, l: Layout) {
-        unsafe { System.dealloc(p, l) }
-    }
-}
-#[global_allocator]
-static GLOBAL: Counting = Counting;
 
 /// Invented demo station and spacecraft (X band, 3.7 m dish).
 fn spec() -> LinkModelSpec {
@@ -402,7 +385,7 @@ fn itemized_budget_agrees_with_values() {
 fn evaluate_allocates_nothing() {
     let m = LinkModel::new(&spec()).unwrap();
     let r = m.rate_spec(2e6, op("dvbs2-8psk-3/4"), 0.2, 1.0).unwrap();
-    let before = ALLOCS.with(|c| c.get());
+    let before = thread_allocations();
     let mut acc = 0.0;
     for i in 0..1000 {
         let g = BudgetGeometry {
@@ -412,7 +395,7 @@ fn evaluate_allocates_nothing() {
         };
         acc += m.evaluate(g, ATM, r).unwrap().margin_db;
     }
-    let after = ALLOCS.with(|c| c.get());
+    let after = thread_allocations();
     assert!(acc.is_finite());
     assert_eq!(after - before, 0, "evaluate allocated");
 }

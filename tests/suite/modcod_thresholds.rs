@@ -1,7 +1,7 @@
 //! Modulation/coding thresholds against outside references.
 
-mod common;
-use common::tolerance::*;
+use crate::common::data::read_csv;
+use crate::common::tolerance::*;
 use passbudget::link::capacity::{bi_awgn_limit_ebn0_db, shannon_limit_ebn0_db};
 use passbudget::link::modcod::{
     scheme, scheme_index, schemes, uncoded_psk_required_ebn0_db, ErrorMeasure, ModcodError,
@@ -9,18 +9,12 @@ use passbudget::link::modcod::{
 };
 use passbudget::special::{erfc, q_function};
 
-fn load(name: &str) -> serde_json::Value {
-    let path = format!("{}/tests/data/link/{name}", env!("CARGO_MANIFEST_DIR"));
-    serde_json::from_str(&std::fs::read_to_string(path).unwrap()).unwrap()
-}
-
 #[test]
 fn erfc_matches_scipy() {
-    // scipy 1.17.1 scipy.special.erfc (tests/data/link/scipy_special.json)
-    let d = load("scipy_special.json");
-    for row in d["erfc"].as_array().unwrap() {
-        let x = row[0].as_f64().unwrap();
-        let want = row[1].as_f64().unwrap();
+    // scipy 1.17.1 scipy.special.erfc (tests/data/link/scipy_erfc.csv)
+    for row in read_csv("link/scipy_erfc.csv") {
+        let x = row.num("x");
+        let want = row.num("erfc");
         let got = erfc(x);
         assert!(
             ((got - want) / want).abs() < SCIPY_REL,
@@ -31,24 +25,23 @@ fn erfc_matches_scipy() {
 
 #[test]
 fn bpsk_ber_1e5_needs_9_6_db() {
-    // Roddy, Satellite Communications, 4th ed., p. 353: BER 1e-5 at ~9.6 dB (REFERENCES §2).
+    // Roddy, Satellite Communications, 4th ed., p. 353: BER 1e-5 at ~9.6 dB (docs/REFERENCES.md §2).
     let op = scheme("bpsk").unwrap().operating_point(Some(1e-5)).unwrap();
     assert!(
         (op.required_ebn0_db - 9.6).abs() < REF_DB,
         "{}",
         op.required_ebn0_db
     );
-    // and the exact values from scipy 1.17.1 norm.isf (tests/data/link/scipy_special.json)
-    let d = load("scipy_special.json");
-    for row in d["bpsk_required_ebn0_db"].as_array().unwrap() {
-        let ber = row[0].as_f64().unwrap();
-        let want = row[1].as_f64().unwrap();
+    // and the exact values from scipy 1.17.1 norm.isf (tests/data/link/scipy_bpsk_ebn0.csv)
+    for row in read_csv("link/scipy_bpsk_ebn0.csv") {
+        let ber = row.num("ber");
+        let want = row.num("ebn0_db");
         for m in [Modulation::Bpsk, Modulation::Qpsk] {
             let got = uncoded_psk_required_ebn0_db(m, ber).unwrap();
             assert!((got - want).abs() < 1e-9, "BER {ber}: {got} vs {want}");
         }
     }
-    // REFERENCES §2 [COMP]: 1e-5 -> 9.59, 1e-6 -> 10.53, 1e-7 -> 11.31 dB
+    // docs/REFERENCES.md §2 [COMP]: 1e-5 -> 9.59, 1e-6 -> 10.53, 1e-7 -> 11.31 dB
     for (ber, db) in [(1e-5, 9.59), (1e-6, 10.53), (1e-7, 11.31)] {
         assert!((uncoded_psk_required_ebn0_db(Modulation::Bpsk, ber).unwrap() - db).abs() < 0.006);
     }
@@ -71,14 +64,13 @@ fn uncoded_8psk_nearest_neighbour_is_consistent() {
 
 #[test]
 fn dvbs2_table13_thresholds_and_efficiencies() {
-    // ETSI EN 302 307-1 Table 13 (tests/data/link/dvbs2_table13.json)
-    let d = load("dvbs2_table13.json");
-    let rows = d["rows"].as_array().unwrap();
+    // ETSI EN 302 307-1 Table 13 (tests/data/link/dvbs2_table13.csv)
+    let rows = read_csv("link/dvbs2_table13.csv");
     assert_eq!(rows.len(), 28);
-    for row in rows {
-        let name = row[0].as_str().unwrap();
-        let eta = row[1].as_f64().unwrap();
-        let esn0 = row[2].as_f64().unwrap();
+    for row in &rows {
+        let name = row.text("scheme");
+        let eta = row.num("eta");
+        let esn0 = row.num("esn0_db");
         let s = scheme(name).unwrap();
         assert!(
             (s.spectral_efficiency - eta).abs() < ETA_ABS,
@@ -97,7 +89,7 @@ fn dvbs2_table13_thresholds_and_efficiencies() {
         assert!(matches!(op.provenance, Provenance::Published(_)));
         // above the Shannon limit (Shannon 1948) at its efficiency
         assert!(op.shannon_gap_db > 0.0, "{name}");
-        // QPSK MODCODs: above the BI-AWGN limit of rate eta/2 per dimension (REFERENCES §2 method)
+        // QPSK MODCODs: above the BI-AWGN limit of rate eta/2 per dimension (docs/REFERENCES.md §2 method)
         if s.modulation == Modulation::Qpsk {
             assert!(
                 op.required_ebn0_db > bi_awgn_limit_ebn0_db(eta / 2.0).unwrap(),
@@ -107,18 +99,21 @@ fn dvbs2_table13_thresholds_and_efficiencies() {
     }
 }
 
+/// docs/REFERENCES.md §2 [COMP]: (code rate r, Eb/N0 in dB at which the BI-AWGN capacity equals r).
+const BI_AWGN_BOUND_DB: [(f64, f64); 7] = [
+    (1.0 / 6.0, -1.073),
+    (0.25, -0.794),
+    (1.0 / 3.0, -0.495),
+    (0.5, 0.187),
+    (2.0 / 3.0, 1.059),
+    (0.8, 2.040),
+    (0.875, 2.845),
+];
+
 #[test]
 fn bi_awgn_limits_match_references() {
-    // REFERENCES §2 [COMP]: Eb/N0 at which BI-AWGN capacity equals r.
-    for (r, db) in [
-        (1.0 / 6.0, -1.073),
-        (0.25, -0.794),
-        (1.0 / 3.0, -0.495),
-        (0.5, 0.187),
-        (2.0 / 3.0, 1.059),
-        (0.8, 2.040),
-        (0.875, 2.845),
-    ] {
+    // docs/REFERENCES.md §2 [COMP]: Eb/N0 at which BI-AWGN capacity equals r.
+    for (r, db) in BI_AWGN_BOUND_DB {
         let got = bi_awgn_limit_ebn0_db(r).unwrap();
         assert!((got - db).abs() < BIAWGN_DB, "r={r}: {got} vs {db}");
         // always above the Gaussian-input Shannon limit at eta = r (1 dim) ... = 2r on QPSK
@@ -126,17 +121,9 @@ fn bi_awgn_limits_match_references() {
     }
 }
 
-/// REFERENCES §2 hard lower bounds (BI-AWGN, [COMP]) by nominal rate.
+/// docs/REFERENCES.md §2 hard lower bounds (BI-AWGN, [COMP]) by nominal rate.
 fn listed_bound(rate: f64) -> Option<f64> {
-    let table = [
-        (1.0 / 6.0, -1.073),
-        (0.25, -0.794),
-        (1.0 / 3.0, -0.495),
-        (0.5, 0.187),
-        (2.0 / 3.0, 1.059),
-        (0.8, 2.040),
-        (0.875, 2.845),
-    ];
+    let table = BI_AWGN_BOUND_DB;
     // nominal rate within 0.5 %: the actual rate is at most the nominal one (turbo
     // termination bits, LDPC 7136/8160 < 7/8), so the nominal bound is the larger one.
     table
@@ -172,7 +159,7 @@ fn every_coded_ccsds_threshold_exceeds_its_bi_awgn_bound() {
 
 #[test]
 fn ccsds_thresholds_within_plausibility_bands() {
-    // REFERENCES §2 [M] values: a second, independently recalled reading of the CCSDS 130.1-G
+    // docs/REFERENCES.md §2 [M] values: a second, independently recalled reading of the CCSDS 130.1-G
     // curves (from memory; the Green Book gives curves only). This is a plausibility band of
     // +-0.5 dB between two from-memory readings, NOT a check against a published number; the hard
     // checks of these thresholds are the BI-AWGN capacity bounds above and the two ratios the
@@ -199,42 +186,30 @@ fn ccsds_thresholds_within_plausibility_bands() {
         );
     }
     // CCSDS 130.1-G-1 §4.6 (text): "gap of about 2.4 dB between ... rate 1/2 and ... rate 7/8"
-    let r12 = scheme("ccsds-cc-r1/2")
-        .unwrap()
-        .operating_point(Some(1e-5))
-        .unwrap();
-    let r78 = scheme("ccsds-cc-r7/8")
-        .unwrap()
-        .operating_point(Some(1e-5))
-        .unwrap();
-    assert!((r78.required_ebn0_db - r12.required_ebn0_db - 2.4).abs() < 0.2);
+    let r12 = required_ebn0_db("ccsds-cc-r1/2", Some(1e-5));
+    let r78 = required_ebn0_db("ccsds-cc-r7/8", Some(1e-5));
+    assert!((r78 - r12 - 2.4).abs() < 0.2);
     // CCSDS 130.1-G-1 §7.4 (text of the Green Book; read in a third-party copy of the document):
     // gains of the turbo codes over the corresponding-rate older codes ("range from 0.9 dB to 1.6 dB"),
     // for rate 1/2 against RS(255,223) + CC(7,1/2).
-    let rs_cc = scheme("ccsds-rs-cc")
-        .unwrap()
-        .operating_point(Some(1e-6))
-        .unwrap();
-    let turbo = scheme("ccsds-turbo-r1/2")
-        .unwrap()
-        .operating_point(Some(1e-6))
-        .unwrap();
-    let gain = rs_cc.required_ebn0_db - turbo.required_ebn0_db;
+    let rs_cc = required_ebn0_db("ccsds-rs-cc", Some(1e-6));
+    let turbo = required_ebn0_db("ccsds-turbo-r1/2", Some(1e-6));
+    let gain = rs_cc - turbo;
     assert!((0.9..=1.6).contains(&gain), "turbo gain {gain}");
     // Berrou, Glavieux, Thitimajshima, ICC '93: rate-1/2 turbo code BER 1e-5 at 0.7 dB with a
     // 65536-bit interleaver; an 8920-bit block at the lower BER 1e-6 cannot need less.
-    assert!(turbo.required_ebn0_db >= 0.7);
+    assert!(turbo >= 0.7);
+}
+
+/// Required Eb/N0 of the named scheme at `error_rate` (its tabulated rate when None).
+fn required_ebn0_db(name: &str, error_rate: Option<f64>) -> f64 {
+    let op = scheme(name).unwrap().operating_point(error_rate).unwrap();
+    op.required_ebn0_db
 }
 
 #[test]
 fn coding_gain_orderings_hold() {
-    let at = |n: &str| {
-        scheme(n)
-            .unwrap()
-            .operating_point(None)
-            .unwrap()
-            .required_ebn0_db
-    };
+    let at = |n: &str| required_ebn0_db(n, None);
     // every coded scheme beats uncoded BPSK at the same error rate
     for s in schemes().iter().filter(|s| s.name.starts_with("ccsds-")) {
         let op = s.operating_point(None).unwrap();

@@ -1,28 +1,8 @@
 //! `PreparedAtmosphere::at` must not allocate (the pass hot path runs it every second).
-//! A counting global allocator checks that, per thread.
+//! The counting global allocator of `common::alloc` checks that, per thread.
 
+use crate::common::alloc::thread_allocations;
 use passbudget::atmosphere::{AtmosphereSite, PathSpec, PreparedAtmosphere, Weather};
-use std::alloc::{GlobalAlloc, Layout, System};
-use std::cell::Cell;
-
-struct Counting;
-
-thread_local! {
-    static ALLOCS: Cell<usize> = const { Cell::new(0) };
-}
-
-unsafe impl GlobalAlloc for Counting {
-    unsafe fn alloc(&self, layout: Layout) -> *mut u8 {
-        ALLOCS.with(|c| c.set(c.get() + 1));
-        unsafe { System.alloc(layout) }
-    }
-    unsafe fn dealloc(&self, ptr: *mut u8, layout: Layout) {
-        unsafe { System.dealloc(ptr, layout) }
-    }
-}
-
-#[global_allocator]
-static GLOBAL: Counting = Counting;
 
 #[test]
 fn at_allocates_nothing() {
@@ -44,7 +24,7 @@ fn at_allocates_nothing() {
         antenna_efficiency: 0.55,
     };
     let prep = PreparedAtmosphere::new(&site, &path).unwrap();
-    let before = ALLOCS.with(|c| c.get());
+    let before = thread_allocations();
     let mut sum = 0.0;
     for i in 0..2000 {
         let el = i as f64 * 0.045 - 2.0;
@@ -56,7 +36,7 @@ fn at_allocates_nothing() {
             .messages()
             .count() as f64;
     }
-    let after = ALLOCS.with(|c| c.get());
+    let after = thread_allocations();
     assert!(sum.is_finite());
     assert_eq!(after - before, 0, "allocations in PreparedAtmosphere::at");
 }

@@ -2,45 +2,16 @@
 //! Bad input must give one clear line on stderr naming the file and what is wrong, a non-zero exit
 //! code, and no panic.
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+use crate::common::bin::{
+    clean_error as assert_clean_error, command as bin, json, root, run, success, write,
+};
 
-fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_passbudget"))
-}
-
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn run(args: &[&str]) -> Output {
-    bin()
-        .current_dir(root())
-        .args(args)
-        .output()
-        .expect("binary runs")
-}
-
-/// The run failed cleanly: exit code 1, one line on stderr starting "error:", containing `needle`.
-fn assert_clean_error(out: &Output, needles: &[&str]) {
-    let stderr = String::from_utf8_lossy(&out.stderr);
-    assert_eq!(out.status.code(), Some(1), "stderr: {stderr}");
-    let lines: Vec<&str> = stderr
-        .lines()
-        .filter(|l| !l.starts_with("warning") && !l.starts_with("note"))
-        .collect();
-    assert_eq!(lines.len(), 1, "one line expected, got: {stderr}");
-    assert!(lines[0].starts_with("error: "), "{stderr}");
-    for n in needles {
-        assert!(lines[0].contains(n), "'{n}' not in: {stderr}");
-    }
-    assert!(!stderr.contains("panicked"), "{stderr}");
-}
-
-fn write(dir: &Path, name: &str, text: &str) -> String {
-    let p = dir.join(name);
-    std::fs::write(&p, text).unwrap();
-    p.to_string_lossy().into_owned()
+/// `command` on the shipped elements (examples/sat.tle) at the Nordkam station, with `more`.
+fn nordkam(command: &str, more: &[&str]) -> std::process::Output {
+    let mut args = vec![command, "--tle", "examples/sat.tle"];
+    args.extend(["--station", "stations/nordkam.yaml"]);
+    args.extend(more);
+    run(&args)
 }
 
 const WINDOW: [&str; 4] = ["--start", "2026-12-02T00:00:00Z", "--days", "1"];
@@ -60,12 +31,7 @@ fn passes_json_follows_the_output_contract() {
     ];
     args.extend(WINDOW);
     let out = run(&args);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let doc = json(&out);
     let passes = doc["passes"].as_array().unwrap();
     assert!(passes.len() > 5);
     let keys = [
@@ -111,12 +77,7 @@ fn passes_csv_has_one_header_row_and_mission_inputs_work() {
         "--format",
         "csv",
     ]);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let text = String::from_utf8(out.stdout).unwrap();
+    let text = success(&out);
     let mut lines = text.lines();
     assert_eq!(lines.next().unwrap(), "satellite,norad_id,station,aos,tca,los,duration_s,max_elevation_deg,aos_azimuth_deg,tca_azimuth_deg,los_azimuth_deg,min_range_km,starts_before_window,ends_after_window");
     assert!(lines.count() > 3);
@@ -134,8 +95,7 @@ fn mask_flag_removes_low_passes() {
     let count = |extra: &[&str]| {
         let mut a = base.to_vec();
         a.extend(extra);
-        let out = run(&a);
-        let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        let doc = json(&run(&a));
         let p = doc["passes"].as_array().unwrap().clone();
         p
     };
@@ -149,29 +109,22 @@ fn mask_flag_removes_low_passes() {
 
 #[test]
 fn track_csv_and_json_with_doppler() {
-    let out = run(&[
+    let out = nordkam(
         "track",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        "stations/nordkam.yaml",
-        "--start",
-        "2026-12-02T07:22:00Z",
-        "--end",
-        "2026-12-02T07:32:00Z",
-        "--step",
-        "30",
-        "--frequency-mhz",
-        "8212.5",
-        "--format",
-        "json",
-    ]);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
+        &[
+            "--start",
+            "2026-12-02T07:22:00Z",
+            "--end",
+            "2026-12-02T07:32:00Z",
+            "--step",
+            "30",
+            "--frequency-mhz",
+            "8212.5",
+            "--format",
+            "json",
+        ],
     );
-    let doc: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let doc = json(&out);
     let track = doc["track"].as_array().unwrap();
     assert_eq!(track.len(), 21);
     for p in track {
@@ -180,20 +133,18 @@ fn track_csv_and_json_with_doppler() {
         // Approaching (rr < 0) gives a positive shift: f_d = -f rr / c.
         assert!((d + 8212.5e6 * rr / 299_792.458).abs() < 1.0);
     }
-    let out = run(&[
+    let out = nordkam(
         "track",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        "stations/nordkam.yaml",
-        "--start",
-        "2026-12-02T07:22:00Z",
-        "--end",
-        "2026-12-02T07:23:00Z",
-        "--step",
-        "30",
-    ]);
-    let text = String::from_utf8(out.stdout).unwrap();
+        &[
+            "--start",
+            "2026-12-02T07:22:00Z",
+            "--end",
+            "2026-12-02T07:23:00Z",
+            "--step",
+            "30",
+        ],
+    );
+    let text = success(&out);
     assert_eq!(
         text.lines().next().unwrap(),
         "time,azimuth_deg,elevation_deg,range_km,range_rate_km_s,doppler_hz"
@@ -206,31 +157,17 @@ fn track_csv_and_json_with_doppler() {
 
 #[test]
 fn stale_elements_warn() {
-    let out = run(&[
+    let out = nordkam(
         "passes",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        "stations/nordkam.yaml",
-        "--start",
-        "2027-01-20T00:00:00Z",
-        "--days",
-        "1",
-    ]);
-    assert!(out.status.success());
+        &["--start", "2027-01-20T00:00:00Z", "--days", "1"],
+    );
+    success(&out);
     let stderr = String::from_utf8_lossy(&out.stderr);
     assert!(stderr.contains("STALE ELEMENTS"), "{stderr}");
-    let out = run(&[
+    let out = nordkam(
         "passes",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        "stations/nordkam.yaml",
-        "--start",
-        "2026-12-10T00:00:00Z",
-        "--days",
-        "1",
-    ]);
+        &["--start", "2026-12-10T00:00:00Z", "--days", "1"],
+    );
     let stderr = String::from_utf8_lossy(&out.stderr);
     assert!(
         stderr.contains("warning") && stderr.contains("1-3 km a day"),
@@ -338,58 +275,33 @@ fn bad_inputs_give_one_clear_line() {
         let out = run(&args);
         assert_clean_error(&out, &needles);
     }
-    let out = run(&[
-        "passes",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        st,
+    // Bad window or step on the shipped example: (command, window and step options, needles).
+    let day = ["--start", "2026-12-02T00:00:00Z", "--days", "1"];
+    let backwards = [
         "--start",
         "2026-12-02T00:00:00Z",
         "--end",
         "2026-12-01T00:00:00Z",
-    ]);
-    assert_clean_error(&out, &["not after its start"]);
-    let out = run(&[
-        "track",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        st,
-        "--start",
-        "2026-12-02T00:00:00Z",
-        "--days",
-        "1",
-        "--step",
-        "0",
-    ]);
-    assert_clean_error(&out, &["--step", "above zero"]);
-    let out = run(&[
-        "track",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        st,
-        "--start",
-        "2026-12-02T00:00:00Z",
-        "--days",
-        "1",
-        "--step",
-        "-5",
-    ]);
-    assert_clean_error(&out, &["--step"]);
-    let out = run(&[
-        "passes",
-        "--tle",
-        "examples/sat.tle",
-        "--station",
-        st,
-        "--start",
-        "tomorrow",
-        "--days",
-        "1",
-    ]);
-    assert_clean_error(&out, &["--start", "RFC 3339"]);
+    ];
+    let cases: [(&str, Vec<&str>, &[&str]); 4] = [
+        ("passes", backwards.to_vec(), &["not after its start"]),
+        (
+            "track",
+            [&day[..], &["--step", "0"]].concat(),
+            &["--step", "above zero"],
+        ),
+        ("track", [&day[..], &["--step", "-5"]].concat(), &["--step"]),
+        (
+            "passes",
+            vec!["--start", "tomorrow", "--days", "1"],
+            &["--start", "RFC 3339"],
+        ),
+    ];
+    for (command, window, needles) in cases {
+        let mut args = vec![command, "--tle", "examples/sat.tle", "--station", st];
+        args.extend(window);
+        assert_clean_error(&run(&args), needles);
+    }
 }
 
 #[test]

@@ -1,49 +1,42 @@
 //! End-to-end checks of `atmosphere` and `budget` on the shipped example files, and their
 //! bad-input behaviour (one clear line, exit code 1, model range warnings named).
 
-use std::path::PathBuf;
-use std::process::{Command, Output};
+use crate::common::bin::{clean_error, json, root, run};
+use std::process::Output;
 
-fn root() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+/// The shipped example mission.
+const EXAMPLE: &str = "examples/wrenlet-1.yaml";
+
+/// `budget` of `mission` at `station` and `elevation_deg`, with `more` options.
+fn budget(mission: &str, station: &str, elevation_deg: &str, more: &[&str]) -> Output {
+    let mut args = vec!["budget", mission, "--station", station];
+    args.extend(["--elevation-deg", elevation_deg]);
+    args.extend(more);
+    run(&args)
 }
 
-fn run(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_passbudget"))
-        .current_dir(root())
-        .args(args)
-        .output()
-        .expect("binary runs")
-}
-
-fn json(o: &Output) -> serde_json::Value {
-    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
-    serde_json::from_slice(&o.stdout).unwrap()
-}
-
-fn clean_error(o: &Output, needles: &[&str]) {
-    let e = String::from_utf8_lossy(&o.stderr);
-    assert_eq!(o.status.code(), Some(1), "{e}");
-    let lines: Vec<&str> = e.lines().filter(|l| l.starts_with("error")).collect();
-    assert_eq!(lines.len(), 1, "{e}");
-    for n in needles {
-        assert!(lines[0].contains(n), "'{n}' not in {e}");
-    }
+/// `atmosphere --format json` at `station` (a file), frequency and elevation, with `more` options.
+fn atmosphere_json(
+    station: &str,
+    frequency_ghz: &str,
+    elevation_deg: &str,
+    more: &[&str],
+) -> serde_json::Value {
+    let mut args = vec!["atmosphere", "--station", station];
+    args.extend([
+        "--frequency-ghz",
+        frequency_ghz,
+        "--elevation-deg",
+        elevation_deg,
+    ]);
+    args.extend(more);
+    args.extend(["--format", "json"]);
+    json(&run(&args))
 }
 
 #[test]
 fn atmosphere_json_keys_and_physics() {
-    let clear = json(&run(&[
-        "atmosphere",
-        "--station",
-        "stations/pulau-reka.yaml",
-        "--frequency-ghz",
-        "8.2",
-        "--elevation-deg",
-        "20",
-        "--format",
-        "json",
-    ]));
+    let clear = atmosphere_json("stations/pulau-reka.yaml", "8.2", "20", &[]);
     for k in [
         "gas_db",
         "cloud_db",
@@ -59,19 +52,12 @@ fn atmosphere_json_keys_and_physics() {
     // Clear sky: no rain, no scintillation fade (ITU-R P.618-14 §2.5 as implemented; README).
     assert_eq!(clear["rain_db"].as_f64().unwrap(), 0.0);
     assert_eq!(clear["scintillation_db"].as_f64().unwrap(), 0.0);
-    let wet = json(&run(&[
-        "atmosphere",
-        "--station",
+    let wet = atmosphere_json(
         "stations/pulau-reka.yaml",
-        "--frequency-ghz",
         "8.2",
-        "--elevation-deg",
         "20",
-        "--exceedance-percent",
-        "0.1",
-        "--format",
-        "json",
-    ]));
+        &["--exceedance-percent", "0.1"],
+    );
     assert!(wet["rain_db"].as_f64().unwrap() > 1.0);
     // Sky temperature rises with the absorptive attenuation (P.618-14 eq (69)) and stays below Tmr.
     let (tc, tw) = (
@@ -85,19 +71,12 @@ fn atmosphere_json_keys_and_physics() {
 
 #[test]
 fn out_of_range_models_are_named_in_warnings() {
-    let o = json(&run(&[
-        "atmosphere",
-        "--station",
+    let o = atmosphere_json(
         "stations/nordkam.yaml",
-        "--frequency-ghz",
         "0.4",
-        "--elevation-deg",
         "3",
-        "--exceedance-percent",
-        "1",
-        "--format",
-        "json",
-    ]));
+        &["--exceedance-percent", "1"],
+    );
     let w: Vec<String> = o["warnings"]
         .as_array()
         .unwrap()
@@ -119,18 +98,12 @@ fn out_of_range_models_are_named_in_warnings() {
 
 #[test]
 fn budget_json_keys_and_rate_behaviour() {
-    let b = json(&run(&[
-        "budget",
-        "examples/wrenlet-1.yaml",
-        "--station",
+    let b = json(&budget(
+        EXAMPLE,
         "Nordkam",
-        "--elevation-deg",
         "30",
-        "--rate-bps",
-        "100e6",
-        "--format",
-        "json",
-    ]));
+        &["--rate-bps", "100e6", "--format", "json"],
+    ));
     for k in [
         "frequency_hz",
         "elevation_deg",
@@ -170,32 +143,15 @@ fn budget_json_keys_and_rate_behaviour() {
     // Slant range at 30 deg for a ~545 km orbit (spherical triangle): about 1000 km.
     assert!((g("range_km") - 1000.0).abs() < 60.0, "{}", g("range_km"));
     // Antenna temperature rises as elevation falls.
-    let low = json(&run(&[
-        "budget",
-        "examples/wrenlet-1.yaml",
-        "--station",
+    let low = json(&budget(
+        EXAMPLE,
         "Nordkam",
-        "--elevation-deg",
         "5",
-        "--rate-bps",
-        "100e6",
-        "--format",
-        "json",
-    ]));
+        &["--rate-bps", "100e6", "--format", "json"],
+    ));
     assert!(low["antenna_temperature_k"].as_f64().unwrap() > g("antenna_temperature_k"));
     assert!(low["system_temperature_k"].as_f64().unwrap() > g("system_temperature_k"));
-    let table = String::from_utf8(
-        run(&[
-            "budget",
-            "examples/wrenlet-1.yaml",
-            "--station",
-            "Nordkam",
-            "--elevation-deg",
-            "30",
-        ])
-        .stdout,
-    )
-    .unwrap();
+    let table = String::from_utf8(budget(EXAMPLE, "Nordkam", "30", &[]).stdout).unwrap();
     assert!(
         table.contains("margin")
             && table.contains("Shannon gap")
@@ -232,87 +188,29 @@ fn budget_bad_input() {
         ),
     )
     .unwrap();
-    let m = "examples/wrenlet-1.yaml";
+    let m = EXAMPLE;
+    let (neg, eff) = (neg.to_string_lossy(), eff_mission.to_string_lossy());
+    let nk = "Nordkam";
+    clean_error(&budget(&neg, nk, "20", &[]), &["neg.yaml", "power"]);
     clean_error(
-        &run(&[
-            "budget",
-            &neg.to_string_lossy(),
-            "--station",
-            "Nordkam",
-            "--elevation-deg",
-            "20",
-        ]),
-        &["neg.yaml", "power"],
-    );
-    clean_error(
-        &run(&[
-            "budget",
-            &eff_mission.to_string_lossy(),
-            "--station",
-            "Nordkam",
-            "--elevation-deg",
-            "20",
-        ]),
+        &budget(&eff, nk, "20", &[]),
         &["eff.yaml", "antenna.efficiency"],
     );
-    clean_error(
-        &run(&[
-            "budget",
-            m,
-            "--station",
-            "Nordkam",
-            "--elevation-deg",
-            "20",
-            "--scheme",
-            "ccsds-warp-drive",
-        ]),
-        &["ccsds-warp-drive"],
-    );
-    clean_error(
-        &run(&[
-            "budget",
-            m,
-            "--station",
-            "Nordkam",
-            "--elevation-deg",
-            "20",
-            "--rate-bps",
-            "2e9",
-        ]),
-        &["occupies", "375000000"],
-    );
-    clean_error(
-        &run(&["budget", m, "--station", "Nowhere", "--elevation-deg", "20"]),
-        &["Nowhere"],
-    );
-    clean_error(
-        &run(&["budget", m, "--station", "Nordkam", "--elevation-deg", "95"]),
-        &["--elevation-deg"],
-    );
-    clean_error(
-        &run(&[
-            "atmosphere",
-            "--station",
-            "stations/nordkam.yaml",
-            "--frequency-ghz",
-            "-1",
-            "--elevation-deg",
-            "20",
-        ]),
-        &["--frequency-ghz"],
-    );
-    clean_error(
-        &run(&[
-            "atmosphere",
-            "--station",
-            "stations/nordkam.yaml",
-            "--frequency-ghz",
-            "8",
-            "--elevation-deg",
-            "20",
-            "--exceedance-percent",
-            "80",
-        ]),
-        &["exceedance"],
-    );
+    let warp = ["--scheme", "ccsds-warp-drive"];
+    clean_error(&budget(m, nk, "20", &warp), &["ccsds-warp-drive"]);
+    let fast = ["--rate-bps", "2e9"];
+    clean_error(&budget(m, nk, "20", &fast), &["occupies", "375000000"]);
+    clean_error(&budget(m, "Nowhere", "20", &[]), &["Nowhere"]);
+    clean_error(&budget(m, nk, "95", &[]), &["--elevation-deg"]);
+    // atmosphere: (frequency, further options, needles)
+    let cases: [(&str, &[&str], &[&str]); 2] = [
+        ("-1", &[], &["--frequency-ghz"]),
+        ("8", &["--exceedance-percent", "80"], &["exceedance"]),
+    ];
+    for (frequency_ghz, more, needles) in cases {
+        let mut args = vec!["atmosphere", "--station", "stations/nordkam.yaml"];
+        args.extend(["--frequency-ghz", frequency_ghz, "--elevation-deg", "20"]);
+        args.extend(more);
+        clean_error(&run(&args), needles);
+    }
 }

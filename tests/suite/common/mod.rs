@@ -1,0 +1,8 @@
+//! Helpers shared by the test modules: the binary runner and its assertions, the counting
+//! allocator, the reader of the `#`-commented reference CSV files, and tolerances.
+#![allow(dead_code)]
+pub mod alloc;
+pub mod bin;
+pub mod data;
+pub mod plan;
+pub mod tolerance;

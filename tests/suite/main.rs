@@ -1,0 +1,23 @@
+//! All integration tests in one binary (one link step instead of one per file). Each module is
+//! a former top-level test file; shared helpers live in `common`.
+
+mod common;
+
+mod atmosphere_alloc;
+mod atmosphere_api;
+mod atmosphere_valex;
+mod chart_render;
+mod cli_budget;
+mod cli_passes;
+mod geometry_skyfield;
+mod golden_outputs;
+mod link_budget;
+mod link_path_antenna;
+mod modcod_thresholds;
+mod noise_sky_system;
+mod orbit_input;
+mod orbit_sgp4_verification;
+mod passes_min_range;
+mod passes_search;
+mod plan_checks;
+mod plan_worked_pass;
