@@ -296,6 +296,177 @@ fn check(ok: bool, err: AtmosphereError) -> Result<(), AtmosphereError> {
     }
 }
 
+/// Reject a site whose values are meaningless, in the order of the fields; returns the
+/// water-vapour pressure e (hPa) used for the pressure check.
+fn validate_site(site: &AtmosphereSite) -> Result<f64, AtmosphereError> {
+    check(
+        (-90.0..=90.0).contains(&site.latitude_deg),
+        AtmosphereError::Latitude {
+            latitude_deg: site.latitude_deg,
+        },
+    )?;
+    check(
+        (-1.0..=10.0).contains(&site.altitude_km),
+        AtmosphereError::Altitude {
+            altitude_km: site.altitude_km,
+        },
+    )?;
+    check(
+        site.temperature_k.is_finite() && site.temperature_k > 0.0,
+        AtmosphereError::Temperature {
+            temperature_k: site.temperature_k,
+        },
+    )?;
+    let rho = site.water_vapour_density_g_m3;
+    check(
+        rho.is_finite() && rho >= 0.0,
+        AtmosphereError::WaterVapourDensity {
+            water_vapour_density_g_m3: rho,
+        },
+    )?;
+    let e_hpa = gas::water_vapour_pressure_hpa(rho, site.temperature_k);
+    check(
+        site.pressure_hpa.is_finite() && site.pressure_hpa > e_hpa,
+        AtmosphereError::Pressure {
+            pressure_hpa: site.pressure_hpa,
+            water_vapour_pressure_hpa: e_hpa,
+        },
+    )?;
+    let r001 = site.rain_rate_001_mm_h;
+    check(
+        r001.is_finite() && r001 >= 0.0,
+        AtmosphereError::RainRate {
+            rain_rate_mm_h: r001,
+        },
+    )?;
+    validate_optional_site_values(site)?;
+    Ok(e_hpa)
+}
+
+/// Reject a given rain height, cloud liquid or wet refractivity outside its range.
+fn validate_optional_site_values(site: &AtmosphereSite) -> Result<(), AtmosphereError> {
+    if let Some(h) = site.rain_height_km {
+        check(
+            (0.0..=20.0).contains(&h),
+            AtmosphereError::RainHeight { rain_height_km: h },
+        )?;
+    }
+    if let Some(l) = site.cloud_liquid_kg_m2 {
+        check(
+            l.is_finite() && l >= 0.0,
+            AtmosphereError::CloudLiquid {
+                cloud_liquid_kg_m2: l,
+            },
+        )?;
+    }
+    if let Some(n) = site.wet_refractivity {
+        check(
+            n.is_finite() && n >= 0.0,
+            AtmosphereError::WetRefractivity {
+                wet_refractivity: n,
+            },
+        )?;
+    }
+    Ok(())
+}
+
+/// Reject a polarization tilt, antenna diameter or aperture efficiency that means nothing
+/// (the frequency is checked first, by [`PreparedAtmosphere::new`]).
+fn validate_path_antenna(path: &PathSpec) -> Result<(), AtmosphereError> {
+    check(
+        path.polarization_tilt_deg.is_finite(),
+        AtmosphereError::PolarizationTilt {
+            polarization_tilt_deg: path.polarization_tilt_deg,
+        },
+    )?;
+    check(
+        path.antenna_diameter_m.is_finite() && path.antenna_diameter_m > 0.0,
+        AtmosphereError::AntennaDiameter {
+            antenna_diameter_m: path.antenna_diameter_m,
+        },
+    )?;
+    check(
+        path.antenna_efficiency > 0.0 && path.antenna_efficiency <= 1.0,
+        AtmosphereError::AntennaEfficiency {
+            antenna_efficiency: path.antenna_efficiency,
+        },
+    )
+}
+
+/// Warnings for a frequency outside the stated range of each model.
+fn frequency_warnings(f: f64) -> ModelWarnings {
+    ModelWarnings {
+        frequency_outside_gas_range: !(gas::FREQUENCY_MIN_GHZ..=gas::SLANT_FREQUENCY_MAX_GHZ)
+            .contains(&f),
+        frequency_outside_rain_range: !(rain_specific::FREQUENCY_RANGE_GHZ.0
+            ..=rain::FREQUENCY_MAX_GHZ)
+            .contains(&f),
+        frequency_outside_cloud_range: !(cloud::FREQUENCY_RANGE_GHZ.0
+            ..=cloud::FREQUENCY_RANGE_GHZ.1)
+            .contains(&f),
+        frequency_outside_scintillation_range: !(scintillation::FREQUENCY_RANGE_GHZ.0
+            ..=scintillation::FREQUENCY_RANGE_GHZ.1)
+            .contains(&f),
+        ..ModelWarnings::default()
+    }
+}
+
+/// Rain height: station value, else the P.839-2 latitude rule (flagged); flags a rain
+/// height at or below the station.
+fn site_rain_height_km(site: &AtmosphereSite, w: &mut ModelWarnings) -> f64 {
+    let rain_height_km = match site.rain_height_km {
+        Some(h) => h,
+        None => {
+            w.rain_height_defaulted = true;
+            rain_height::rain_height_p839_2_km(site.latitude_deg)
+        }
+    };
+    w.rain_height_at_or_below_station = rain_height_km <= site.altitude_km;
+    rain_height_km
+}
+
+/// Zenith cloud attenuation L·K_L, dB (P.840-9); 0 and flagged when no L is given.
+fn site_cloud_zenith_db(site: &AtmosphereSite, f: f64, w: &mut ModelWarnings) -> f64 {
+    // Cloud: A = L K_L / sin θ (P.840-9).
+    match site.cloud_liquid_kg_m2 {
+        Some(l) => l * cloud::mass_absorption_coefficient_p840_9(f),
+        None => {
+            w.cloud_not_given = true;
+            0.0
+        }
+    }
+}
+
+/// Elevation clamped into 0-90° (flagged when it was outside or not a number).
+#[inline]
+fn clamp_elevation_deg(elevation_deg: f64, w: &mut ModelWarnings) -> f64 {
+    if (0.0..=90.0).contains(&elevation_deg) {
+        elevation_deg
+    } else {
+        w.elevation_clamped = true;
+        if elevation_deg > 90.0 {
+            90.0
+        } else {
+            0.0
+        }
+    }
+}
+
+/// Exceedance clamped into 0.001-50 % (P.618-14 §2.5; flagged when it was outside).
+#[inline]
+fn clamp_exceedance_percent(percent: f64, w: &mut ModelWarnings) -> f64 {
+    if (EXCEEDANCE_MIN_PERCENT..=EXCEEDANCE_MAX_PERCENT).contains(&percent) {
+        percent
+    } else {
+        w.exceedance_clamped = true;
+        if percent > EXCEEDANCE_MAX_PERCENT {
+            EXCEEDANCE_MAX_PERCENT
+        } else {
+            EXCEEDANCE_MIN_PERCENT
+        }
+    }
+}
+
 impl PreparedAtmosphere {
     /// Validate the inputs and precompute the elevation-independent quantities.
     pub fn new(site: &AtmosphereSite, path: &PathSpec) -> Result<Self, AtmosphereError> {
@@ -304,125 +475,18 @@ impl PreparedAtmosphere {
             f.is_finite() && f > 0.0 && f <= FREQUENCY_MAX_GHZ,
             AtmosphereError::Frequency { frequency_ghz: f },
         )?;
-        check(
-            (-90.0..=90.0).contains(&site.latitude_deg),
-            AtmosphereError::Latitude {
-                latitude_deg: site.latitude_deg,
-            },
-        )?;
-        check(
-            (-1.0..=10.0).contains(&site.altitude_km),
-            AtmosphereError::Altitude {
-                altitude_km: site.altitude_km,
-            },
-        )?;
-        check(
-            site.temperature_k.is_finite() && site.temperature_k > 0.0,
-            AtmosphereError::Temperature {
-                temperature_k: site.temperature_k,
-            },
-        )?;
+        let e_hpa = validate_site(site)?;
+        validate_path_antenna(path)?;
         let rho = site.water_vapour_density_g_m3;
-        check(
-            rho.is_finite() && rho >= 0.0,
-            AtmosphereError::WaterVapourDensity {
-                water_vapour_density_g_m3: rho,
-            },
-        )?;
-        let e_hpa = gas::water_vapour_pressure_hpa(rho, site.temperature_k);
-        check(
-            site.pressure_hpa.is_finite() && site.pressure_hpa > e_hpa,
-            AtmosphereError::Pressure {
-                pressure_hpa: site.pressure_hpa,
-                water_vapour_pressure_hpa: e_hpa,
-            },
-        )?;
-        let r001 = site.rain_rate_001_mm_h;
-        check(
-            r001.is_finite() && r001 >= 0.0,
-            AtmosphereError::RainRate {
-                rain_rate_mm_h: r001,
-            },
-        )?;
-        if let Some(h) = site.rain_height_km {
-            check(
-                (0.0..=20.0).contains(&h),
-                AtmosphereError::RainHeight { rain_height_km: h },
-            )?;
-        }
-        if let Some(l) = site.cloud_liquid_kg_m2 {
-            check(
-                l.is_finite() && l >= 0.0,
-                AtmosphereError::CloudLiquid {
-                    cloud_liquid_kg_m2: l,
-                },
-            )?;
-        }
-        if let Some(n) = site.wet_refractivity {
-            check(
-                n.is_finite() && n >= 0.0,
-                AtmosphereError::WetRefractivity {
-                    wet_refractivity: n,
-                },
-            )?;
-        }
-        check(
-            path.polarization_tilt_deg.is_finite(),
-            AtmosphereError::PolarizationTilt {
-                polarization_tilt_deg: path.polarization_tilt_deg,
-            },
-        )?;
-        check(
-            path.antenna_diameter_m.is_finite() && path.antenna_diameter_m > 0.0,
-            AtmosphereError::AntennaDiameter {
-                antenna_diameter_m: path.antenna_diameter_m,
-            },
-        )?;
-        check(
-            path.antenna_efficiency > 0.0 && path.antenna_efficiency <= 1.0,
-            AtmosphereError::AntennaEfficiency {
-                antenna_efficiency: path.antenna_efficiency,
-            },
-        )?;
-
-        let mut w = ModelWarnings {
-            frequency_outside_gas_range: !(gas::FREQUENCY_MIN_GHZ..=gas::SLANT_FREQUENCY_MAX_GHZ)
-                .contains(&f),
-            frequency_outside_rain_range: !(rain_specific::FREQUENCY_RANGE_GHZ.0
-                ..=rain::FREQUENCY_MAX_GHZ)
-                .contains(&f),
-            frequency_outside_cloud_range: !(cloud::FREQUENCY_RANGE_GHZ.0
-                ..=cloud::FREQUENCY_RANGE_GHZ.1)
-                .contains(&f),
-            frequency_outside_scintillation_range: !(scintillation::FREQUENCY_RANGE_GHZ.0
-                ..=scintillation::FREQUENCY_RANGE_GHZ.1)
-                .contains(&f),
-            ..ModelWarnings::default()
-        };
+        let mut w = frequency_warnings(f);
 
         // Gas: P.676-12 Annex 1 γ with the dry-air pressure p = P − e; Annex 2 heights.
         let p_dry = site.pressure_hpa - e_hpa;
         let (gamma_o, gamma_w) = gas::specific_attenuation_p676(f, p_dry, rho, site.temperature_k);
         let (h_o, h_w) = gas::equivalent_heights_p676_12(f, p_dry, rho, site.temperature_k);
 
-        // Rain height: station value, else the P.839-2 latitude rule.
-        let rain_height_km = match site.rain_height_km {
-            Some(h) => h,
-            None => {
-                w.rain_height_defaulted = true;
-                rain_height::rain_height_p839_2_km(site.latitude_deg)
-            }
-        };
-        w.rain_height_at_or_below_station = rain_height_km <= site.altitude_km;
-
-        // Cloud: A = L K_L / sin θ (P.840-9).
-        let cloud_zenith_db = match site.cloud_liquid_kg_m2 {
-            Some(l) => l * cloud::mass_absorption_coefficient_p840_9(f),
-            None => {
-                w.cloud_not_given = true;
-                0.0
-            }
-        };
+        let rain_height_km = site_rain_height_km(site, &mut w);
+        let cloud_zenith_db = site_cloud_zenith_db(site, f, &mut w);
 
         // Scintillation: σref from Nwet (eq (42)), Deff (eq (44)).
         let nwet = site
@@ -442,7 +506,7 @@ impl PreparedAtmosphere {
             h_w_km: h_w,
             gas_zenith_db: gamma_o * h_o + gamma_w * h_w,
             rain: RainCoefficients::p838_3(f),
-            rain_rate_001_mm_h: r001,
+            rain_rate_001_mm_h: site.rain_rate_001_mm_h,
             rain_height_km,
             cloud_zenith_db,
             scint_scale_db: scintillation::sigma_ref_db(nwet) * f.powf(7.0 / 12.0),
@@ -498,40 +562,15 @@ impl PreparedAtmosphere {
     /// Elevations outside 0-90° and exceedances outside 0.001-50 % are clamped and flagged.
     pub fn at(&self, elevation_deg: f64, weather: Weather) -> Attenuation {
         let mut w = self.static_warnings;
-        let el = if (0.0..=90.0).contains(&elevation_deg) {
-            elevation_deg
-        } else {
-            w.elevation_clamped = true;
-            if elevation_deg > 90.0 {
-                90.0
-            } else {
-                0.0
-            }
-        };
+        let el = clamp_elevation_deg(elevation_deg, &mut w);
         // The pass search lands AOS/LOS on a 5 deg mask to within ~1e-3 deg; such a step is treated
         // as at 5 deg rather than flagged as a low-elevation case.
         let low = el < 5.0 - LOW_ELEVATION_TOLERANCE_DEG;
         w.elevation_below_5_deg = low;
 
-        // Gas: A = (γo ho + γw hw)/sin θ for θ ≥ 5°; curved-Earth form below (P.676 Annex 2).
         let sin_el = el.to_radians().sin();
-        let gas_db = if low {
-            self.gamma_o_db_km * gas::slant_path_factor_km(self.h_o_km, self.altitude_km, el)
-                + self.gamma_w_db_km * gas::slant_path_factor_km(self.h_w_km, self.altitude_km, el)
-        } else {
-            self.gas_zenith_db / sin_el
-        };
-
-        // Cloud: A = L K_L / sin θ, θ ≥ 5° (P.840-9).
-        let sin_5 = 5f64.to_radians().sin();
-        let cloud_db = if self.cloud_zenith_db > 0.0 && low {
-            w.cloud_elevation_clamped_to_5_deg = true;
-            self.cloud_zenith_db / sin_5
-        } else if self.cloud_zenith_db > 0.0 {
-            self.cloud_zenith_db / sin_el
-        } else {
-            0.0
-        };
+        let gas_db = self.gas_db(el, sin_el, low);
+        let cloud_db = self.cloud_db(sin_el, low, &mut w);
 
         let percent = match weather {
             Weather::ClearSky => {
@@ -548,20 +587,64 @@ impl PreparedAtmosphere {
                     warnings: w,
                 };
             }
-            Weather::Exceedance { percent } => {
-                if (EXCEEDANCE_MIN_PERCENT..=EXCEEDANCE_MAX_PERCENT).contains(&percent) {
-                    percent
-                } else {
-                    w.exceedance_clamped = true;
-                    if percent > EXCEEDANCE_MAX_PERCENT {
-                        EXCEEDANCE_MAX_PERCENT
-                    } else {
-                        EXCEEDANCE_MIN_PERCENT
-                    }
-                }
-            }
+            Weather::Exceedance { percent } => clamp_exceedance_percent(percent, &mut w),
         };
 
+        let (gamma_r, rain_db) = self.rain_db(el, percent);
+        let scintillation_db = self.scintillation_db(el, low, percent, &mut w);
+
+        let total_db = combine::total_attenuation_p618_14_db(
+            percent,
+            gas_db,
+            cloud_db,
+            rain_db,
+            scintillation_db,
+        );
+        Attenuation {
+            gas_db,
+            cloud_db,
+            rain_db,
+            scintillation_db,
+            total_db,
+            absorptive_db: gas_db + cloud_db + rain_db,
+            rain_height_km: self.rain_height_km,
+            specific_rain_attenuation_db_km: gamma_r,
+            warnings: w,
+        }
+    }
+
+    /// Gaseous attenuation at elevation `el` (sin θ = `sin_el`), dB; `low` selects the
+    /// below-5° form.
+    #[inline]
+    fn gas_db(&self, el: f64, sin_el: f64, low: bool) -> f64 {
+        // Gas: A = (γo ho + γw hw)/sin θ for θ ≥ 5°; curved-Earth form below (P.676 Annex 2).
+        if low {
+            self.gamma_o_db_km * gas::slant_path_factor_km(self.h_o_km, self.altitude_km, el)
+                + self.gamma_w_db_km * gas::slant_path_factor_km(self.h_w_km, self.altitude_km, el)
+        } else {
+            self.gas_zenith_db / sin_el
+        }
+    }
+
+    /// Cloud attenuation at sin θ = `sin_el`, dB; below 5° (`low`) evaluated at 5° and flagged.
+    #[inline]
+    fn cloud_db(&self, sin_el: f64, low: bool, w: &mut ModelWarnings) -> f64 {
+        // Cloud: A = L K_L / sin θ, θ ≥ 5° (P.840-9).
+        let sin_5 = 5f64.to_radians().sin();
+        if self.cloud_zenith_db > 0.0 && low {
+            w.cloud_elevation_clamped_to_5_deg = true;
+            self.cloud_zenith_db / sin_5
+        } else if self.cloud_zenith_db > 0.0 {
+            self.cloud_zenith_db / sin_el
+        } else {
+            0.0
+        }
+    }
+
+    /// Specific rain attenuation γR at R0.01 (dB/km) and the rain attenuation exceeded for
+    /// `percent` % (dB, 0 above 5 %) at elevation `el`.
+    #[inline]
+    fn rain_db(&self, el: f64, percent: f64) -> (f64, f64) {
         // Rain: P.838-3 k, α for this elevation and tilt; P.618-14 steps 2-10 (p ≤ 5 %).
         let cos_el = el.to_radians().cos();
         let (k, alpha) = self.rain.for_path_weight(cos_el * cos_el * self.cos_2tau);
@@ -583,7 +666,13 @@ impl PreparedAtmosphere {
         } else {
             0.0
         };
+        (gamma_r, rain_db)
+    }
 
+    /// Scintillation fade depth exceeded for `percent` %, dB; below 5° (`low`) evaluated at
+    /// 5° and flagged, and flagged below 0.01 %.
+    #[inline]
+    fn scintillation_db(&self, el: f64, low: bool, percent: f64, w: &mut ModelWarnings) -> f64 {
         // Scintillation: P.618-14 §2.4.1 at max(θ, 5°).
         let el_s = if low {
             w.scintillation_elevation_clamped_to_5_deg = true;
@@ -594,25 +683,6 @@ impl PreparedAtmosphere {
         w.scintillation_exceedance_below_0_01_percent = percent < 0.01;
         let sigma =
             scintillation::sigma_from_parts_db(self.scint_scale_db, self.scint_x_numerator_m, el_s);
-        let scintillation_db = scintillation::percentage_factor(percent) * sigma;
-
-        let total_db = combine::total_attenuation_p618_14_db(
-            percent,
-            gas_db,
-            cloud_db,
-            rain_db,
-            scintillation_db,
-        );
-        Attenuation {
-            gas_db,
-            cloud_db,
-            rain_db,
-            scintillation_db,
-            total_db,
-            absorptive_db: gas_db + cloud_db + rain_db,
-            rain_height_km: self.rain_height_km,
-            specific_rain_attenuation_db_km: gamma_r,
-            warnings: w,
-        }
+        scintillation::percentage_factor(percent) * sigma
     }
 }

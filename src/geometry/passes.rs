@@ -264,8 +264,6 @@ impl Search<'_> {
         Ok((root, neg, pos))
     }
 
-    /// Zero of the elevation rate between `a` (rate > 0) and `b` (rate <= 0): the local
-    /// maximum of elevation. Illinois-modified regula falsi on the rate.
     /// The smallest slant range of a pass: the ranges at AOS, TCA and LOS and, where the range
     /// rate changes sign inside the pass away from TCA (eccentric orbits), the range at that zero,
     /// found by regula falsi on the range rate. For a LEO the range rate at TCA is nearly zero and
@@ -305,6 +303,8 @@ impl Search<'_> {
         Ok(best)
     }
 
+    /// Zero of the elevation rate between `a` (rate > 0) and `b` (rate <= 0): the local
+    /// maximum of elevation. Illinois-modified regula falsi on the rate.
     fn refine_tca(&self, a: Sample, b: Sample) -> Result<Sample, PropagationError> {
         let rate = |s: &Sample| s.look.elevation_rate_deg_s;
         let (mut up, mut down) = (a, b);
@@ -374,18 +374,26 @@ pub fn find_passes(
     }
 }
 
-fn search(
-    prop: &Propagator,
-    obs: &Observer,
-    mask: &HorizonMask,
-    start: DateTime<Utc>,
-    end: DateTime<Utc>,
-    passes: &mut Vec<Pass>,
-) -> Result<(), PropagationError> {
-    let total = seconds_between(&start, &end);
-    if total <= 0.0 {
-        return Ok(());
-    }
+/// Constants of one search: the window length and the bounds of method steps 1 and 3.
+#[derive(Debug, Clone, Copy)]
+struct SearchLimits {
+    /// Window length, s.
+    total_s: f64,
+    /// γc: no point above the mask lies outside this geocentric angle, rad.
+    gamma_cone: f64,
+    /// ω_max: bound on the turning rate of the satellite direction, rad/s.
+    omega_max: f64,
+    /// Eccentricity, clamped into 0..0.999.
+    e: f64,
+    /// Largest step of the walk inside a pass, s.
+    cap_s: f64,
+    /// Horizon of the predicted skip, s.
+    horizon_s: f64,
+}
+
+/// Unit vector of the station's geocentric direction, its geocentric radius (km) and δ, the
+/// angle between geodetic up and that direction (rad).
+fn station_direction(obs: &Observer) -> ([f64; 3], f64, f64) {
     let p = obs.position_km();
     let station_r = (p[0] * p[0] + p[1] * p[1] + p[2] * p[2]).sqrt();
     let obs_unit = [p[0] / station_r, p[1] / station_r, p[2] / station_r];
@@ -394,6 +402,18 @@ fn search(
     let delta = (up[0] * obs_unit[0] + up[1] * obs_unit[1] + up[2] * obs_unit[2])
         .clamp(-1.0, 1.0)
         .acos();
+    (obs_unit, station_r, delta)
+}
+
+/// The visibility cone γc, the rate bound ω_max and the step limits (method step 1) for a
+/// station at geocentric radius `station_r` (km) whose vertical is off by `delta` (rad).
+fn search_limits(
+    prop: &Propagator,
+    mask: &HorizonMask,
+    station_r: f64,
+    delta: f64,
+    total_s: f64,
+) -> SearchLimits {
     let a = prop.semi_major_axis_km();
     let e = prop.eccentricity().clamp(0.0, 0.999);
     let r_max = a * (1.0 + e) * 1.01 + 20.0;
@@ -409,9 +429,199 @@ fn search(
     } else {
         ((station_r * eps.cos() / r_max).clamp(-1.0, 1.0)).acos() - eps
     };
-    let cap = (prop.period_minutes() * 60.0 / 32.0).clamp(60.0, 3600.0);
-    let horizon = 1.5 * prop.period_minutes() * 60.0;
+    SearchLimits {
+        total_s,
+        gamma_cone,
+        omega_max,
+        e,
+        cap_s: (prop.period_minutes() * 60.0 / 32.0).clamp(60.0, 3600.0),
+        horizon_s: 1.5 * prop.period_minutes() * 60.0,
+    }
+}
 
+/// Of the two bracket samples `neg`, `pos`, the one nearer in time to `root`.
+fn nearer(root: f64, neg: Sample, pos: Sample) -> Sample {
+    if (root - neg.t).abs() < (root - pos.t).abs() {
+        neg
+    } else {
+        pos
+    }
+}
+
+/// How the walk from AOS ended.
+struct LosWalk {
+    /// LOS, s since the window start (the window end if the pass is cut).
+    los_t: f64,
+    /// Sample nearest the LOS.
+    los_s: Sample,
+    /// First sample below the mask after the LOS (the end sample if the pass is cut).
+    after_los: Sample,
+    /// The pass is still on at the window end.
+    ends_after: bool,
+    /// Highest sample seen during the walk.
+    best: Sample,
+}
+
+impl Search<'_> {
+    /// Step below the mask (method steps 1 and 2): skip ahead outside the visibility cone,
+    /// else sample at [`FLOOR_STEP_S`].
+    fn step_below_mask(&self, s: &Sample, lim: &SearchLimits) -> f64 {
+        if s.gamma > lim.gamma_cone {
+            let linear = (s.gamma - lim.gamma_cone) / lim.omega_max;
+            let predicted = if lim.e < 0.05 {
+                self.predicted_skip(s, lim.gamma_cone, lim.omega_max, lim.e, lim.horizon_s)
+            } else {
+                0.0
+            };
+            linear.max(predicted).max(FLOOR_STEP_S)
+        } else {
+            FLOOR_STEP_S
+        }
+    }
+
+    /// AOS of the pass entered at sample `s` (g > 0) from `prev` (g <= 0): (AOS time, sample
+    /// nearest the AOS, first sample above the mask). Without `prev` the pass began before the
+    /// window: AOS = window start.
+    fn refine_aos(
+        &self,
+        prev: Option<Sample>,
+        s: Sample,
+    ) -> Result<(f64, Sample, Sample), PropagationError> {
+        Ok(match prev {
+            Some(pr) => {
+                let (root, neg, pos) = self.refine_g(pr, s)?;
+                (root, nearer(root, neg, pos), pos)
+            }
+            None => (0.0, s, s),
+        })
+    }
+
+    /// Step of the walk inside a pass from `cur` (`last` is the sample before): the cap, cut
+    /// to a Newton prediction of the LOS when g falls and to a prediction of the elevation
+    /// maximum when the elevation rate slows.
+    #[inline]
+    fn walk_step(
+        cur: &Sample,
+        last: Option<Sample>,
+        starts_before: bool,
+        lim: &SearchLimits,
+    ) -> f64 {
+        let mut dt = lim.cap_s;
+        if cur.gdot < 0.0 {
+            dt = dt.min(-cur.g / cur.gdot * 1.05 + TIME_TOLERANCE_S);
+        }
+        let rate = cur.look.elevation_rate_deg_s;
+        if rate > 0.0 {
+            if let Some(l) = last {
+                let acc = (rate - l.look.elevation_rate_deg_s) / (cur.t - l.t);
+                if acc < 0.0 {
+                    dt = dt.min(-rate / acc * 1.2 + TIME_TOLERANCE_S);
+                }
+            }
+        }
+        if last.is_none() && !starts_before {
+            // First step after AOS: the time to TCA is unknown; a quarter of the cap
+            // starts the curvature estimate of the elevation rate early.
+            dt = dt.min(0.25 * lim.cap_s);
+        }
+        dt.max(TIME_TOLERANCE_S)
+    }
+
+    /// Walk from `first_in` to the LOS (or the window end), refining elevation maxima on
+    /// the way.
+    fn walk_to_los(
+        &self,
+        first_in: Sample,
+        starts_before: bool,
+        lim: &SearchLimits,
+    ) -> Result<LosWalk, PropagationError> {
+        let mut best = first_in;
+        let mut cur = first_in;
+        let mut last: Option<Sample> = None;
+        let (los_t, los_s, after_los, ends_after) = loop {
+            let dt = Self::walk_step(&cur, last, starts_before, lim);
+            let tn = (cur.t + dt).min(lim.total_s);
+            let nxt = self.eval(tn)?;
+            if nxt.g <= 0.0 {
+                let (root, neg, pos) = self.refine_g(cur, nxt)?;
+                // A maximum between cur and the LOS bracket end.
+                if cur.look.elevation_rate_deg_s > 0.0
+                    && pos.look.elevation_rate_deg_s <= 0.0
+                    && pos.t > cur.t
+                {
+                    best = better(best, self.refine_tca(cur, pos)?);
+                }
+                best = better(best, pos);
+                break (root, nearer(root, neg, pos), neg, false);
+            }
+            if cur.look.elevation_rate_deg_s > 0.0 && nxt.look.elevation_rate_deg_s <= 0.0 {
+                best = better(best, self.refine_tca(cur, nxt)?);
+            }
+            best = better(best, nxt);
+            if tn >= lim.total_s {
+                break (lim.total_s, nxt, nxt, true);
+            }
+            last = Some(cur);
+            cur = nxt;
+        };
+        Ok(LosWalk {
+            los_t,
+            los_s,
+            after_los,
+            ends_after,
+            best: better(best, cur),
+        })
+    }
+
+    /// The pass entered at sample `s` (g > 0) from `prev`: AOS, walk to LOS, TCA, smallest
+    /// range. Returns the pass and the sample to resume the search from.
+    fn assemble_pass(
+        &self,
+        prev: Option<Sample>,
+        s: Sample,
+        lim: &SearchLimits,
+    ) -> Result<(Pass, Sample), PropagationError> {
+        let (aos_t, aos_s, first_in) = self.refine_aos(prev, s)?;
+        let starts_before = prev.is_none();
+        let walk = self.walk_to_los(first_in, starts_before, lim)?;
+        let tca = if starts_before {
+            better(walk.best, s)
+        } else {
+            walk.best
+        };
+        let min_range_km = self.min_range_km(aos_s, tca, walk.los_s)?;
+        let pass = Pass {
+            aos: add_seconds(&self.start, aos_t),
+            tca: add_seconds(&self.start, tca.t),
+            los: add_seconds(&self.start, walk.los_t),
+            max_elevation_deg: tca.look.elevation_deg,
+            aos_azimuth_deg: aos_s.look.azimuth_deg,
+            tca_azimuth_deg: tca.look.azimuth_deg,
+            los_azimuth_deg: walk.los_s.look.azimuth_deg,
+            min_range_km,
+            starts_before_window: starts_before,
+            ends_after_window: walk.ends_after,
+        };
+        Ok((pass, walk.after_los))
+    }
+}
+
+/// The pass search loop: below the mask, skip or sample (method steps 1-2); on entering a
+/// pass, assemble it (step 3) and resume after its LOS. Passes found are pushed to `passes`.
+fn search(
+    prop: &Propagator,
+    obs: &Observer,
+    mask: &HorizonMask,
+    start: DateTime<Utc>,
+    end: DateTime<Utc>,
+    passes: &mut Vec<Pass>,
+) -> Result<(), PropagationError> {
+    let total = seconds_between(&start, &end);
+    if total <= 0.0 {
+        return Ok(());
+    }
+    let (obs_unit, station_r, delta) = station_direction(obs);
+    let lim = search_limits(prop, mask, station_r, delta, total);
     let srch = Search {
         prop,
         obs,
@@ -423,91 +633,9 @@ fn search(
     let mut prev: Option<Sample> = None;
     loop {
         if s.g > 0.0 {
-            // ---- in a pass: AOS ----
-            let (aos_t, aos_s, first_in) = match prev {
-                Some(pr) => {
-                    let (root, neg, pos) = srch.refine_g(pr, s)?;
-                    let near = if (root - neg.t).abs() < (root - pos.t).abs() {
-                        neg
-                    } else {
-                        pos
-                    };
-                    (root, near, pos)
-                }
-                None => (0.0, s, s),
-            };
-            let starts_before = prev.is_none();
-            // ---- walk to LOS, refining elevation maxima on the way ----
-            let mut best = first_in;
-            let mut cur = first_in;
-            let mut last: Option<Sample> = None;
-            let (los_t, los_s, after_los, ends_after) = loop {
-                let mut dt = cap;
-                if cur.gdot < 0.0 {
-                    dt = dt.min(-cur.g / cur.gdot * 1.05 + TIME_TOLERANCE_S);
-                }
-                let rate = cur.look.elevation_rate_deg_s;
-                if rate > 0.0 {
-                    if let Some(l) = last {
-                        let acc = (rate - l.look.elevation_rate_deg_s) / (cur.t - l.t);
-                        if acc < 0.0 {
-                            dt = dt.min(-rate / acc * 1.2 + TIME_TOLERANCE_S);
-                        }
-                    }
-                }
-                if last.is_none() && !starts_before {
-                    // First step after AOS: the time to TCA is unknown; a quarter of the cap
-                    // starts the curvature estimate of the elevation rate early.
-                    dt = dt.min(0.25 * cap);
-                }
-                let dt = dt.max(TIME_TOLERANCE_S);
-                let tn = (cur.t + dt).min(total);
-                let nxt = srch.eval(tn)?;
-                if nxt.g <= 0.0 {
-                    let (root, neg, pos) = srch.refine_g(cur, nxt)?;
-                    // A maximum between cur and the LOS bracket end.
-                    if cur.look.elevation_rate_deg_s > 0.0
-                        && pos.look.elevation_rate_deg_s <= 0.0
-                        && pos.t > cur.t
-                    {
-                        best = better(best, srch.refine_tca(cur, pos)?);
-                    }
-                    best = better(best, pos);
-                    let near = if (root - neg.t).abs() < (root - pos.t).abs() {
-                        neg
-                    } else {
-                        pos
-                    };
-                    break (root, near, neg, false);
-                }
-                if cur.look.elevation_rate_deg_s > 0.0 && nxt.look.elevation_rate_deg_s <= 0.0 {
-                    best = better(best, srch.refine_tca(cur, nxt)?);
-                }
-                best = better(best, nxt);
-                if tn >= total {
-                    break (total, nxt, nxt, true);
-                }
-                last = Some(cur);
-                cur = nxt;
-            };
-            best = better(best, cur);
-            if starts_before {
-                best = better(best, s);
-            }
-            let tca = best;
-            let min_range_km = srch.min_range_km(aos_s, tca, los_s)?;
-            passes.push(Pass {
-                aos: add_seconds(&start, aos_t),
-                tca: add_seconds(&start, tca.t),
-                los: add_seconds(&start, los_t),
-                max_elevation_deg: tca.look.elevation_deg,
-                aos_azimuth_deg: aos_s.look.azimuth_deg,
-                tca_azimuth_deg: tca.look.azimuth_deg,
-                los_azimuth_deg: los_s.look.azimuth_deg,
-                min_range_km,
-                starts_before_window: starts_before,
-                ends_after_window: ends_after,
-            });
+            let (pass, after_los) = srch.assemble_pass(prev, s, &lim)?;
+            let ends_after = pass.ends_after_window;
+            passes.push(pass);
             if ends_after {
                 return Ok(());
             }
@@ -519,18 +647,7 @@ fn search(
         if s.t >= total {
             return Ok(());
         }
-        let step = if s.gamma > gamma_cone {
-            let linear = (s.gamma - gamma_cone) / omega_max;
-            let predicted = if e < 0.05 {
-                srch.predicted_skip(&s, gamma_cone, omega_max, e, horizon)
-            } else {
-                0.0
-            };
-            linear.max(predicted).max(FLOOR_STEP_S)
-        } else {
-            FLOOR_STEP_S
-        };
-        let tn = (s.t + step).min(total);
+        let tn = (s.t + srch.step_below_mask(&s, &lim)).min(total);
         prev = Some(s);
         s = srch.eval(tn)?;
     }

@@ -325,11 +325,71 @@ impl LinkModel {
         atmosphere: AtmosphereLoss,
         rate: RateSpec,
     ) -> Result<BudgetValues, BudgetError> {
+        self.check_instant(&geometry, &atmosphere, &rate)?;
         let BudgetGeometry {
             elevation_deg,
             range_km,
             off_nadir_deg,
         } = geometry;
+        let total_db = atmosphere.total_db;
+
+        // EIRP = P - L_line + G_tx(theta)
+        let (eirp_dbw, tx_gain) = self.transmitter.eirp_dbw(off_nadir_deg)?;
+        // L_fs = 20 log10(4 pi d / lambda)
+        let free_space_loss_db = self.fsl_constant_db + 20.0 * range_km.log10();
+        let noise = self.noise_at(elevation_deg, &atmosphere);
+        // C/N0 = EIRP - L_fs - A - L_pol - L_point + G/T - 10 log10(k)
+        let cn0_dbhz = eirp_dbw
+            - free_space_loss_db
+            - total_db
+            - self.polarization_loss_db
+            - self.ground.pointing_loss_db
+            + noise.g_over_t_db_k
+            - BOLTZMANN_DBW_PER_K_HZ;
+        let r = rate_figures(cn0_dbhz, &rate);
+        let op = &rate.operating;
+        Ok(BudgetValues {
+            spacecraft_gain_dbi: tx_gain.gain_dbi,
+            eirp_dbw,
+            free_space_loss_db,
+            atmospheric_loss_db: total_db,
+            polarization_loss_db: self.polarization_loss_db,
+            pointing_loss_db: self.ground.pointing_loss_db,
+            antenna_gain_dbi: self.ground.gain_dbi,
+            sky_temperature_k: noise.sky_temperature_k,
+            antenna_temperature_k: noise.antenna_temperature_k,
+            system_temperature_k: noise.system_temperature_k,
+            g_over_t_db_k: noise.g_over_t_db_k,
+            cn0_dbhz,
+            rate_bps: rate.rate_bps,
+            symbol_rate_baud: r.symbol_rate_baud,
+            occupied_bandwidth_hz: r.occupied_bandwidth_hz,
+            ebn0_db: r.ebn0_db,
+            esn0_db: r.esn0_db,
+            required_ebn0_db: op.required_ebn0_db,
+            margin_db: r.margin_db,
+            shannon_capacity_bps: r.shannon_capacity_bps,
+            shannon_gap_db: op.shannon_gap_db,
+            pattern_clamped: tx_gain.clamped,
+            galactic_extrapolated: self.sky_range == SkyRange::GalacticExtrapolated,
+            below_horizon: elevation_deg < 0.0,
+        })
+    }
+
+    /// Reject an instant the budget cannot be evaluated at: range, elevation, atmospheric
+    /// loss, mean radiating temperature, then the rate's bandwidth (in that order).
+    #[inline]
+    fn check_instant(
+        &self,
+        geometry: &BudgetGeometry,
+        atmosphere: &AtmosphereLoss,
+        rate: &RateSpec,
+    ) -> Result<(), BudgetError> {
+        let BudgetGeometry {
+            elevation_deg,
+            range_km,
+            ..
+        } = *geometry;
         if !(range_km > 0.0 && range_km.is_finite()) {
             return Err(BudgetError::Range { range_km });
         }
@@ -340,7 +400,7 @@ impl LinkModel {
             total_db,
             absorptive_db,
             mean_radiating_temperature_k: tmr_k,
-        } = atmosphere;
+        } = *atmosphere;
         if !(total_db >= 0.0
             && total_db.is_finite()
             && absorptive_db >= 0.0
@@ -354,14 +414,18 @@ impl LinkModel {
         if !(tmr_k >= 0.0 && tmr_k.is_finite()) {
             return Err(BudgetError::MeanRadiatingTemperature { value_k: tmr_k });
         }
-        self.check_bandwidth(&rate)?;
+        self.check_bandwidth(rate)
+    }
 
-        // EIRP = P - L_line + G_tx(theta)
-        let (eirp_dbw, tx_gain) = self.transmitter.eirp_dbw(off_nadir_deg)?;
-        // L_fs = 20 log10(4 pi d / lambda)
-        let free_space_loss_db = self.fsl_constant_db + 20.0 * range_km.log10();
+    /// Sky, antenna and system noise temperatures and G/T at `elevation_deg`.
+    #[inline]
+    fn noise_at(&self, elevation_deg: f64, atmosphere: &AtmosphereLoss) -> NoiseFigures {
         // Tsky (P.618-14 eq. 69), then antenna temperature (ground pick-up model)
-        let sky_temperature_k = sky_temperature_unchecked(absorptive_db, tmr_k, self.background_k);
+        let sky_temperature_k = sky_temperature_unchecked(
+            atmosphere.absorptive_db,
+            atmosphere.mean_radiating_temperature_k,
+            self.background_k,
+        );
         let antenna_temperature_k = antenna_temperature_unchecked(
             sky_temperature_k,
             elevation_deg,
@@ -372,53 +436,12 @@ impl LinkModel {
         let system_temperature_k = antenna_temperature_k + self.receiver.temperature_k();
         // G/T = G - 10 log10(Tsys)
         let g_over_t_db_k = self.ground.gain_dbi - ratio_to_db(system_temperature_k);
-        // C/N0 = EIRP - L_fs - A - L_pol - L_point + G/T - 10 log10(k)
-        let cn0_dbhz = eirp_dbw
-            - free_space_loss_db
-            - total_db
-            - self.polarization_loss_db
-            - self.ground.pointing_loss_db
-            + g_over_t_db_k
-            - BOLTZMANN_DBW_PER_K_HZ;
-        let op = &rate.operating;
-        let rate_bps = rate.rate_bps;
-        // Rs = Rb / eta ; B = Rs (1 + alpha)
-        let symbol_rate_baud = rate.symbol_rate_baud();
-        let occupied_bandwidth_hz = symbol_rate_baud * (1.0 + rate.roll_off);
-        // Eb/N0 = C/N0 - 10 log10(Rb) ; Es/N0 = C/N0 - 10 log10(Rs)
-        let ebn0_db = cn0_dbhz - ratio_to_db(rate_bps);
-        let esn0_db = cn0_dbhz - ratio_to_db(symbol_rate_baud);
-        // margin = Eb/N0 - required - implementation loss
-        let margin_db = ebn0_db - op.required_ebn0_db - rate.implementation_loss_db;
-        // C = B log2(1 + C/(N0 B))
-        let snr = db_to_ratio(cn0_dbhz) / occupied_bandwidth_hz;
-        let shannon_capacity_bps = shannon_capacity_unchecked(occupied_bandwidth_hz, snr);
-        Ok(BudgetValues {
-            spacecraft_gain_dbi: tx_gain.gain_dbi,
-            eirp_dbw,
-            free_space_loss_db,
-            atmospheric_loss_db: total_db,
-            polarization_loss_db: self.polarization_loss_db,
-            pointing_loss_db: self.ground.pointing_loss_db,
-            antenna_gain_dbi: self.ground.gain_dbi,
+        NoiseFigures {
             sky_temperature_k,
             antenna_temperature_k,
             system_temperature_k,
             g_over_t_db_k,
-            cn0_dbhz,
-            rate_bps,
-            symbol_rate_baud,
-            occupied_bandwidth_hz,
-            ebn0_db,
-            esn0_db,
-            required_ebn0_db: op.required_ebn0_db,
-            margin_db,
-            shannon_capacity_bps,
-            shannon_gap_db: op.shannon_gap_db,
-            pattern_clamped: tx_gain.clamped,
-            galactic_extrapolated: self.sky_range == SkyRange::GalacticExtrapolated,
-            below_horizon: elevation_deg < 0.0,
-        })
+        }
     }
 
     /// The itemized budget for printing (allocates).
@@ -429,15 +452,18 @@ impl LinkModel {
         rate: RateSpec,
     ) -> Result<Vec<BudgetItem>, BudgetError> {
         let v = self.evaluate(geometry, atmosphere, rate)?;
+        let mut items = Vec::with_capacity(31);
+        items.extend(self.transmit_items(&v));
+        items.extend(path_items(&v, &geometry));
+        items.extend(self.receive_items(&v));
+        items.extend(rate_items(&v, &rate));
+        Ok(items)
+    }
+
+    /// Budget lines of the transmitting side: frequency, power, line loss, gain, EIRP.
+    fn transmit_items(&self, v: &BudgetValues) -> [BudgetItem; 5] {
         let tx = &self.transmitter;
-        let op = rate.operating;
-        let item = |name, value, unit, source| BudgetItem {
-            name,
-            value,
-            unit,
-            source,
-        };
-        Ok(vec![
+        [
             item("frequency", self.frequency_hz, "Hz", "input"),
             item("transmitter_power", tx.power_dbw(), "dBW", "input"),
             item("transmitter_line_loss", -tx.line_loss_db(), "dB", "input"),
@@ -448,33 +474,12 @@ impl LinkModel {
                 "spacecraft pattern",
             ),
             item("eirp", v.eirp_dbw, "dBW", "P - L_line + G_tx"),
-            item("elevation", geometry.elevation_deg, "deg", "geometry"),
-            item("range", geometry.range_km, "km", "geometry"),
-            item("off_nadir", geometry.off_nadir_deg, "deg", "geometry"),
-            item(
-                "free_space_loss",
-                -v.free_space_loss_db,
-                "dB",
-                "Friis: 20 log10(4 pi d / lambda)",
-            ),
-            item(
-                "atmospheric_loss",
-                -v.atmospheric_loss_db,
-                "dB",
-                "atmosphere input (total)",
-            ),
-            item(
-                "polarization_loss",
-                -v.polarization_loss_db,
-                "dB",
-                "polarization loss factor (Seybold 2005) + extra",
-            ),
-            item(
-                "pointing_loss",
-                -v.pointing_loss_db,
-                "dB",
-                "12 (err / theta_3dB)^2, common practice",
-            ),
+        ]
+    }
+
+    /// Budget lines of the receiving side: ground gain, noise temperatures, G/T, Boltzmann.
+    fn receive_items(&self, v: &BudgetValues) -> [BudgetItem; 7] {
+        [
             item(
                 "ground_antenna_gain",
                 v.antenna_gain_dbi,
@@ -512,50 +517,145 @@ impl LinkModel {
                 "dBW/K/Hz",
                 "SI 2019 exact k",
             ),
-            item("cn0", v.cn0_dbhz, "dBHz", "EIRP - losses + G/T - k"),
-            item("data_rate", v.rate_bps, "bit/s", "input"),
-            item("symbol_rate", v.symbol_rate_baud, "baud", "Rb / eta"),
-            item(
-                "occupied_bandwidth",
-                v.occupied_bandwidth_hz,
-                "Hz",
-                "Rs (1 + roll-off)",
-            ),
-            item("ebn0", v.ebn0_db, "dB", "C/N0 - 10 log10(Rb)"),
-            item("esn0", v.esn0_db, "dB", "C/N0 - 10 log10(Rs)"),
-            item("required_ebn0", v.required_ebn0_db, "dB", op.name),
-            item(
-                "required_error_rate",
-                op.error_rate,
-                "",
-                provenance_text(&op),
-            ),
-            item(
-                "implementation_loss",
-                -rate.implementation_loss_db,
-                "dB",
-                "input",
-            ),
-            item(
-                "margin",
-                v.margin_db,
-                "dB",
-                "Eb/N0 - required - implementation loss",
-            ),
-            item(
-                "shannon_capacity",
-                v.shannon_capacity_bps,
-                "bit/s",
-                "Shannon 1948, B = occupied bandwidth",
-            ),
-            item(
-                "shannon_gap",
-                v.shannon_gap_db,
-                "dB",
-                "required Eb/N0 - (2^eta - 1)/eta",
-            ),
-        ])
+        ]
     }
+}
+
+/// Noise side of the budget at one instant.
+#[derive(Debug, Clone, Copy)]
+struct NoiseFigures {
+    sky_temperature_k: f64,
+    antenna_temperature_k: f64,
+    system_temperature_k: f64,
+    g_over_t_db_k: f64,
+}
+
+/// Rate-dependent figures of the budget at one instant.
+#[derive(Debug, Clone, Copy)]
+struct RateFigures {
+    symbol_rate_baud: f64,
+    occupied_bandwidth_hz: f64,
+    ebn0_db: f64,
+    esn0_db: f64,
+    margin_db: f64,
+    shannon_capacity_bps: f64,
+}
+
+/// Symbol rate, occupied bandwidth, Eb/N0, Es/N0, margin and Shannon capacity of `rate`
+/// at `cn0_dbhz`.
+#[inline]
+fn rate_figures(cn0_dbhz: f64, rate: &RateSpec) -> RateFigures {
+    // Rs = Rb / eta ; B = Rs (1 + alpha)
+    let symbol_rate_baud = rate.symbol_rate_baud();
+    let occupied_bandwidth_hz = symbol_rate_baud * (1.0 + rate.roll_off);
+    // Eb/N0 = C/N0 - 10 log10(Rb) ; Es/N0 = C/N0 - 10 log10(Rs)
+    let ebn0_db = cn0_dbhz - ratio_to_db(rate.rate_bps);
+    let esn0_db = cn0_dbhz - ratio_to_db(symbol_rate_baud);
+    // margin = Eb/N0 - required - implementation loss
+    let margin_db = ebn0_db - rate.operating.required_ebn0_db - rate.implementation_loss_db;
+    // C = B log2(1 + C/(N0 B))
+    let snr = db_to_ratio(cn0_dbhz) / occupied_bandwidth_hz;
+    let shannon_capacity_bps = shannon_capacity_unchecked(occupied_bandwidth_hz, snr);
+    RateFigures {
+        symbol_rate_baud,
+        occupied_bandwidth_hz,
+        ebn0_db,
+        esn0_db,
+        margin_db,
+        shannon_capacity_bps,
+    }
+}
+
+/// One printed budget line.
+fn item(name: &'static str, value: f64, unit: &'static str, source: &'static str) -> BudgetItem {
+    BudgetItem {
+        name,
+        value,
+        unit,
+        source,
+    }
+}
+
+/// Budget lines of the path: geometry, free-space, atmospheric, polarization and pointing losses.
+fn path_items(v: &BudgetValues, geometry: &BudgetGeometry) -> [BudgetItem; 7] {
+    [
+        item("elevation", geometry.elevation_deg, "deg", "geometry"),
+        item("range", geometry.range_km, "km", "geometry"),
+        item("off_nadir", geometry.off_nadir_deg, "deg", "geometry"),
+        item(
+            "free_space_loss",
+            -v.free_space_loss_db,
+            "dB",
+            "Friis: 20 log10(4 pi d / lambda)",
+        ),
+        item(
+            "atmospheric_loss",
+            -v.atmospheric_loss_db,
+            "dB",
+            "atmosphere input (total)",
+        ),
+        item(
+            "polarization_loss",
+            -v.polarization_loss_db,
+            "dB",
+            "polarization loss factor (Seybold 2005) + extra",
+        ),
+        item(
+            "pointing_loss",
+            -v.pointing_loss_db,
+            "dB",
+            "12 (err / theta_3dB)^2, common practice",
+        ),
+    ]
+}
+
+/// Budget lines of the rate: C/N0, rates, bandwidth, Eb/N0, Es/N0, requirement, margin, Shannon.
+fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 12] {
+    let op = &rate.operating;
+    [
+        item("cn0", v.cn0_dbhz, "dBHz", "EIRP - losses + G/T - k"),
+        item("data_rate", v.rate_bps, "bit/s", "input"),
+        item("symbol_rate", v.symbol_rate_baud, "baud", "Rb / eta"),
+        item(
+            "occupied_bandwidth",
+            v.occupied_bandwidth_hz,
+            "Hz",
+            "Rs (1 + roll-off)",
+        ),
+        item("ebn0", v.ebn0_db, "dB", "C/N0 - 10 log10(Rb)"),
+        item("esn0", v.esn0_db, "dB", "C/N0 - 10 log10(Rs)"),
+        item("required_ebn0", v.required_ebn0_db, "dB", op.name),
+        item(
+            "required_error_rate",
+            op.error_rate,
+            "",
+            provenance_text(op),
+        ),
+        item(
+            "implementation_loss",
+            -rate.implementation_loss_db,
+            "dB",
+            "input",
+        ),
+        item(
+            "margin",
+            v.margin_db,
+            "dB",
+            "Eb/N0 - required - implementation loss",
+        ),
+        item(
+            "shannon_capacity",
+            v.shannon_capacity_bps,
+            "bit/s",
+            "Shannon 1948, B = occupied bandwidth",
+        ),
+        item(
+            "shannon_gap",
+            v.shannon_gap_db,
+            "dB",
+            "required Eb/N0 - (2^eta - 1)/eta",
+        ),
+    ]
 }
 
 fn provenance_text(op: &OperatingPoint) -> &'static str {
