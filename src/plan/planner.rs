@@ -215,7 +215,8 @@ impl Planner {
                 || Scratch::new(&self.elements),
                 |scratch, &(number, si, pass)| match number {
                     Some(n) => {
-                        let r = plan_pass(self, n, si, pass, scratch, sink).map(Item::Planned);
+                        let r = plan_pass(self, n, si, pass, scratch, sink)
+                            .map(|p| Item::Planned(Box::new(p)));
                         sink.progress(total);
                         r
                     }
@@ -227,7 +228,7 @@ impl Planner {
         let mut tradeoff = self.tradeoff_masks.as_ref().map(|_| self.empty_masks());
         for r in results {
             match r? {
-                Item::Planned(p) => passes.push(p),
+                Item::Planned(p) => passes.push(*p),
                 Item::Tradeoff(si, m) => {
                     if let Some(t) = tradeoff.as_mut() {
                         t[si].merge(&m);
@@ -354,6 +355,6 @@ impl Planner {
 }
 
 enum Item {
-    Planned(PassPlan),
+    Planned(Box<PassPlan>),
     Tradeoff(usize, MaskAccumulator),
 }

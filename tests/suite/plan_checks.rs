@@ -3,10 +3,9 @@
 //! errors with nothing half-written.
 
 use crate::common::bin::{json, root, run as run_bin, success, write};
-use crate::common::plan::{load_plan_setup, PlanSetup};
-use passbudget::plan::prepare::availability_weather;
+use crate::common::plan::load_plan_setup;
 use passbudget::plan::rate::kept_runs;
-use passbudget::plan::{run, PassSeries, PlanInput};
+use passbudget::plan::{FnSink, PassSeries};
 use std::path::PathBuf;
 use std::sync::Mutex;
 
@@ -197,24 +196,10 @@ fn time_series_step_equals_budget_at_and_rate_doubling_costs_3_01_db() {
 
 #[test]
 fn a_higher_rate_never_closes_earlier() {
-    let PlanSetup {
-        mission,
-        stations,
-        rates,
-        elements,
-    } = load_plan_setup(&root().join(MISSION));
-    let rain = availability_weather(mission.exceedance_percent, &stations).unwrap();
-    let start = mission.start.unwrap();
-    let input = PlanInput {
-        elements: &elements,
-        stations: &stations,
-        rates: &rates,
-        start,
-        end: passbudget::timefmt::add_seconds(&start, 86400.0),
-        step_s: 1.0,
-        rain,
-        frequency_hz: 8212.5e6,
-    };
+    let setup = load_plan_setup(&root().join(MISSION));
+    let start = setup.mission.start.unwrap();
+    let planner = setup.planner(start, passbudget::timefmt::add_seconds(&start, 86400.0));
+    let rates = planner.rates();
     let violations = Mutex::new(Vec::new());
     let checked = Mutex::new(0usize);
     // Ladder options in order of rate. The C/N0 a rate needs must rise with the rate for the shipped
@@ -228,7 +213,7 @@ fn a_higher_rate_never_closes_earlier() {
     for w in order.windows(2) {
         assert!(rates.ladder[w[1]].threshold_cn0_dbhz > rates.ladder[w[0]].threshold_cn0_dbhz);
     }
-    let sink = |s: &PassSeries| -> Result<(), String> {
+    let sink = FnSink(|s: &PassSeries| -> Result<(), std::convert::Infallible> {
         let cn0: Vec<f64> = s.steps.iter().map(|x| x.cn0_dbhz).collect();
         let w: Vec<f64> = s.steps.iter().map(|x| x.weight_s).collect();
         let mut prev: Option<(usize, usize)> = None;
@@ -254,8 +239,8 @@ fn a_higher_rate_never_closes_earlier() {
             *checked.lock().unwrap() += 1;
         }
         Ok(())
-    };
-    let plan = run(&input, &sink, &|_| {}).unwrap();
+    });
+    let plan = planner.run(&sink).unwrap();
     assert!(plan.passes.len() > 10);
     assert!(*checked.lock().unwrap() > 30);
     assert!(

@@ -203,25 +203,16 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
     // Window around the second Skyfield reference pass (AOS 17609.0 s, LOS 18331.3 s after origin).
     let start = passbudget::timefmt::add_seconds(&origin, 17000.0);
     let end = passbudget::timefmt::add_seconds(&origin, 19000.0);
-    let input = passbudget::plan::PlanInput {
-        elements: &setup.elements,
-        stations,
-        rates,
-        start,
-        end,
-        step_s: 1.0,
-        rain: None,
-        frequency_hz: 8212.5e6,
-    };
-    let plan = passbudget::plan::run(&input, &|_| Ok(()), &|_| {}).unwrap();
+    let plan = setup.plan_between(start, end);
     assert_eq!(plan.passes.len(), 1);
     let p = &plan.passes[0];
     // AOS against Skyfield (within the orbit work's 1 s requirement).
     let aos_s = passbudget::timefmt::seconds_between(&origin, &p.pass.aos);
     assert!((aos_s - 17609.00695029883).abs() < 1.0, "AOS {aos_s}");
     let c = &p.clear;
-    assert_eq!(c.rate_bps, Some(2.0e6));
-    let from = c.closes_from.unwrap();
+    assert_eq!(c.option.map(|k| rates.ladder[k.0].rate_bps), Some(2.0e6));
+    let closing = c.closing.unwrap();
+    let from = closing.from.time;
 
     // Hand chain as a function of elevation. Satellite radius from the propagated orbit at the closing time.
     let prop = passbudget::orbit::Propagator::new(&setup.elements).unwrap();
@@ -257,7 +248,7 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
         }
     }
     let el_hand = 0.5 * (lo + hi);
-    let el_plan = c.closes_from_elevation_deg.unwrap();
+    let el_plan = closing.from.elevation_deg;
     // Tolerance 0.3 deg: the plan measures elevation from the geodetic (WGS-84) horizontal, the hand
     // chain from the geocentric one of a sphere through the station; at 45.5 N the two verticals
     // differ by about 0.19 deg (observed difference 0.15 deg).
@@ -266,7 +257,7 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
         "closes from {el_plan:.3} deg, by hand {el_hand:.3} deg"
     );
     // Volume = rate x counted seconds (1 s steps: counted time within one step of until - from).
-    let span = passbudget::timefmt::seconds_between(&from, &c.closes_until.unwrap());
+    let span = passbudget::timefmt::seconds_between(&from, &closing.until.time);
     assert!((c.volume_bits / 2.0e6 - c.closed_s).abs() < 1e-6);
     assert!(
         (c.closed_s - span).abs() <= 1.0,
