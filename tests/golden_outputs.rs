@@ -29,7 +29,13 @@ fn golden_example_outputs() {
     let out = tmp.path().join("out");
     let o = Command::new(env!("CARGO_BIN_EXE_passbudget"))
         .current_dir(root())
-        .args(["plan", "examples/wrenlet-1.yaml", "--format", "json", "--out"])
+        .args([
+            "plan",
+            "examples/wrenlet-1.yaml",
+            "--format",
+            "json",
+            "--out",
+        ])
         .arg(&out)
         .output()
         .expect("binary runs");
