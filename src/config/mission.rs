@@ -474,4 +474,156 @@ mod tests {
         let e = Mission::from_yaml(Path::new("m.yaml"), t).unwrap_err();
         assert_eq!(e.line, Some(5));
     }
+
+    const HEAD: &str = "name: t\nsatellite:\n  elements: sat.tle\n";
+
+    fn mission(text: &str) -> Result<Mission, ConfigError> {
+        Mission::from_yaml(Path::new("m.yaml"), &format!("{HEAD}{text}"))
+    }
+
+    /// A transmitter block (lines 4..=9) with the given power line and antenna lines.
+    fn tx(power: &str, antenna: &str) -> String {
+        format!("transmitter:\n  frequency_mhz: 8200\n  {power}\n  antenna:\n{antenna}")
+    }
+
+    const FIXED: &str = "    pattern: fixed\n    gain_dbi: 3\n";
+
+    #[test]
+    fn huge_power_w_is_rejected_with_line_and_short_number() {
+        let e = mission(&tx("power_w: 1e30", FIXED)).unwrap_err();
+        assert_eq!(e.line, Some(6));
+        assert_eq!(e.key.as_deref(), Some("transmitter.power_w"));
+        assert!(
+            e.to_string()
+                .starts_with("m.yaml:6: transmitter.power_w: 1.000000e30 is out of range"),
+            "{e}"
+        );
+        assert!(e.message.len() < 100, "{e}");
+        // 10 kW is the top of the range in either unit.
+        let m = mission(&tx("power_w: 1e4", FIXED)).unwrap();
+        assert!((m.transmitter.unwrap().power_dbw - 40.0).abs() < 1e-12);
+        assert!(mission(&tx("power_dbw: 40.5", FIXED)).is_err());
+    }
+
+    #[test]
+    fn power_ranges_agree_in_both_units() {
+        // P_dBW = 10 log10(P_W): the two ranges are one range.
+        assert!((10.0 * limits::POWER_W.min.log10() - limits::POWER_DBW.min).abs() < 1e-12);
+        assert!((10.0 * limits::POWER_W.max.log10() - limits::POWER_DBW.max).abs() < 1e-12);
+    }
+
+    #[test]
+    fn table_gain_out_of_range_names_its_point() {
+        let ant = "    pattern: table\n    table:\n      - [0, 3]\n      - [40, 5500]\n";
+        let e = mission(&tx("power_w: 2", ant)).unwrap_err();
+        assert_eq!(e.line, Some(11));
+        assert!(
+            e.message
+                .contains("point 2: gain 5500 is out of range (-60 to 60 dBi)"),
+            "{e}"
+        );
+        let ant = "    pattern: table\n    table:\n      - [10, 3]\n      - [5, 4]\n";
+        let e = mission(&tx("power_w: 2", ant)).unwrap_err();
+        assert_eq!(e.line, Some(11));
+        assert!(e.message.contains("rise"), "{e}");
+    }
+
+    #[test]
+    fn wrong_pattern_name_is_serde_error_with_line() {
+        let e = mission(&tx("power_w: 2", "    gain_dbi: 3\n    pattern: cosine\n")).unwrap_err();
+        assert_eq!(e.line, Some(9));
+        assert!(e.message.contains("unknown variant `cosine`"), "{e}");
+        assert!(e.message.contains("`cos_n`"), "{e}");
+    }
+
+    #[test]
+    fn cos_n_pattern_is_the_link_model_pattern() {
+        let m = mission(&tx("power_w: 2", "    pattern: cos_n\n    gain_dbi: 6\n")).unwrap();
+        let t = m.transmitter.unwrap();
+        assert_eq!(
+            t.pattern,
+            TxPattern::CosN {
+                boresight_gain_dbi: 6.0,
+                n: None
+            }
+        );
+        // No polarization given: rhcp, recorded as a default with its name.
+        assert_eq!(t.polarization, PolarizationSense::Rhcp);
+        let d = m
+            .defaults
+            .iter()
+            .find(|d| d.key == "transmitter.antenna.polarization");
+        assert_eq!(d.map(|d| d.value.as_str()), Some("rhcp"));
+    }
+
+    #[test]
+    fn polarization_aliases_and_wrong_name() {
+        let ant = format!("{FIXED}    polarization: Left\n");
+        let t = mission(&tx("power_w: 2", &ant))
+            .unwrap()
+            .transmitter
+            .unwrap();
+        assert_eq!(t.polarization, PolarizationSense::Lhcp);
+        let ant = format!("{FIXED}    polarization: circular\n");
+        let e = mission(&tx("power_w: 2", &ant)).unwrap_err();
+        assert_eq!(e.line, Some(10));
+        assert!(e.message.contains("unknown variant `circular`"), "{e}");
+    }
+
+    #[test]
+    fn tiny_rate_is_rejected_with_its_line() {
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n    - { rate_bps: 1e-300, scheme: a }\n";
+        let e = mission(t).unwrap_err();
+        assert_eq!(e.line, Some(7));
+        assert!(
+            e.message
+                .contains("step 2: rate_bps 1.000000e-300 is out of range"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn duplicate_ladder_step_is_rejected() {
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n    - { rate_bps: 1e6, scheme: b }\n    - { rate_bps: 1.0e6, scheme: a }\n";
+        let e = mission(t).unwrap_err();
+        assert_eq!(e.line, Some(8));
+        assert!(
+            e.message
+                .contains("step 3: 1000000 bit/s with a is already step 1"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn modem_line_and_reported_defaults() {
+        let m = mission(
+            "planning:\n  step_s: 2\nmodem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n",
+        )
+        .unwrap();
+        let modem = m.modem.unwrap();
+        assert_eq!(modem.line, Some(6));
+        assert_eq!(modem.ladder[0].line, Some(8));
+        assert_eq!((modem.target_ber, modem.min_dwell_s), (1e-6, 10.0));
+        let keys: Vec<&str> = m.defaults.iter().map(|d| d.key.as_str()).collect();
+        assert_eq!(
+            keys,
+            [
+                "modem.roll_off",
+                "modem.implementation_loss_db",
+                "modem.required_margin_db",
+                "modem.target_ber",
+                "modem.min_dwell_s"
+            ]
+        );
+    }
+
+    #[test]
+    fn duplicate_yaml_key_is_reported_at_the_duplicate() {
+        let e = mission("planning:\n  step_s: 2\n  mask_deg: 5\n  step_s: 3\n").unwrap_err();
+        assert!(e.message.contains("duplicate field `step_s`"), "{e}");
+        assert_eq!(e.line, Some(7));
+        let e = mission("name: u\n").unwrap_err();
+        assert!(e.message.contains("duplicate field `name`"), "{e}");
+        assert_eq!(e.line, Some(4));
+    }
 }

@@ -385,4 +385,50 @@ mod tests {
         assert_eq!(e.line, Some(7));
         assert!(e.to_string().contains("antenna.efficiency"), "{e}");
     }
+
+    #[test]
+    fn polarization_default_is_recorded_by_name() {
+        let s = load(&format!("{GOOD}antenna:\n  diameter_m: 3\n")).unwrap();
+        assert_eq!(s.antenna.unwrap().polarization, PolarizationSense::Rhcp);
+        let d = s
+            .defaults
+            .iter()
+            .find(|d| d.key == "antenna.polarization")
+            .unwrap();
+        assert_eq!(d.value, "rhcp");
+        let d = s
+            .defaults
+            .iter()
+            .find(|d| d.key == "antenna.efficiency")
+            .unwrap();
+        assert_eq!(d.value, "0.55");
+    }
+
+    #[test]
+    fn polarization_names_any_case_and_wrong_name_with_line() {
+        for (name, want) in [
+            ("RHCP", PolarizationSense::Rhcp),
+            ("right", PolarizationSense::Rhcp),
+            ("lhcp", PolarizationSense::Lhcp),
+            ("Linear", PolarizationSense::Linear),
+        ] {
+            let s = load(&format!(
+                "{GOOD}antenna:\n  diameter_m: 3\n  polarization: {name}\n"
+            ));
+            assert_eq!(s.unwrap().antenna.unwrap().polarization, want, "{name}");
+        }
+        let e = load(&format!(
+            "{GOOD}antenna:\n  diameter_m: 3\n  polarization: rh\n"
+        ))
+        .unwrap_err();
+        assert_eq!(e.line, Some(7));
+        assert!(e.message.contains("unknown variant `rh`"), "{e}");
+    }
+
+    #[test]
+    fn mask_azimuth_wraps_at_360() {
+        let e = load(&format!("{GOOD}horizon_mask:\n  - [0, 3]\n  - [360, 5]\n")).unwrap_err();
+        assert_eq!(e.line, Some(7));
+        assert!(e.message.contains("azimuth 360"), "{e}");
+    }
 }
