@@ -3,7 +3,7 @@
 //! Two stages, as in DESIGN.md: serde structs that mirror the file
 //! (`deny_unknown_fields`, so a misspelt key is an error; serde enums for the closed sets, so a
 //! wrong name is an error with its line), then validation, one function per block, through one
-//! context ([`Checker`]) shared by the mission and station files, so the physics only ever sees
+//! context (`Checker`) shared by the mission and station files, so the physics only ever sees
 //! valid values. Every error names the file, the line and the key. Accepted ranges are in
 //! [`limits`], defaults in [`defaults`]; the YAML crate is used in [`parse_yaml`] only.
 
