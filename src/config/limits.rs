@@ -104,6 +104,367 @@ pub const FREQUENCY_MHZ: Range = Range {
     unit: "MHz",
 };
 
+// ---- Mission file: planning -------------------------------------------------------------------
+
+/// Planning override of every station's minimum elevation, deg (the same span as
+/// [`MIN_ELEVATION_DEG`]).
+pub const PLANNING_MASK_DEG: Range = Range {
+    key: "planning.mask_deg",
+    min: MIN_ELEVATION_DEG.min,
+    max: MIN_ELEVATION_DEG.max,
+    unit: "deg",
+};
+
+// ---- Mission file: transmitter ----------------------------------------------------------------
+
+/// Transmitter output power, dBW (0.1 mW to 10 kW).
+pub const POWER_DBW: Range = Range {
+    key: "transmitter.power_dbw",
+    min: -40.0,
+    max: 40.0,
+    unit: "dBW",
+};
+
+/// Transmitter output power, W: the same span as [`POWER_DBW`] (-40 dBW = 1e-4 W, 40 dBW = 1e4 W).
+pub const POWER_W: Range = Range {
+    key: "transmitter.power_w",
+    min: 1e-4,
+    max: 1e4,
+    unit: "W",
+};
+
+/// Loss from amplifier output to antenna port, dB.
+pub const LINE_LOSS_DB: Range = Range {
+    key: "transmitter.line_loss_db",
+    min: 0.0,
+    max: 20.0,
+    unit: "dB",
+};
+
+/// Any other fixed loss of the downlink, dB.
+pub const OTHER_LOSS_DB: Range = Range {
+    key: "transmitter.other_loss_db",
+    min: 0.0,
+    max: 30.0,
+    unit: "dB",
+};
+
+/// Spacecraft antenna gain of a `fixed` pattern, dBi.
+pub const TX_FIXED_GAIN_DBI: Range = Range {
+    key: "transmitter.antenna.gain_dbi",
+    min: -20.0,
+    max: 60.0,
+    unit: "dBi",
+};
+
+/// Boresight gain of a `cos_n` pattern, dBi: n = G/2 - 1 must not be negative (G >= 3.01 dBi).
+pub const TX_COS_N_GAIN_DBI: Range = Range {
+    key: "transmitter.antenna.gain_dbi",
+    min: 3.1,
+    max: 60.0,
+    unit: "dBi",
+};
+
+/// Off-nadir angle of a `table` pattern point, deg.
+pub const TX_TABLE_OFF_NADIR_DEG: Range = Range {
+    key: "transmitter.antenna.table",
+    min: 0.0,
+    max: 180.0,
+    unit: "deg",
+};
+
+/// Gain of a `table` pattern point, dBi.
+pub const TX_TABLE_GAIN_DBI: Range = Range {
+    key: "transmitter.antenna.table",
+    min: -60.0,
+    max: 60.0,
+    unit: "dBi",
+};
+
+/// Spacecraft antenna axial ratio, dB.
+pub const TX_AXIAL_RATIO_DB: Range = Range {
+    key: "transmitter.antenna.axial_ratio_db",
+    min: 0.0,
+    max: 60.0,
+    unit: "dB",
+};
+
+// ---- Mission file: modem ----------------------------------------------------------------------
+
+/// Root-raised-cosine roll-off factor.
+pub const ROLL_OFF: Range = Range {
+    key: "modem.roll_off",
+    min: 0.0,
+    max: 1.0,
+    unit: "",
+};
+
+/// Modem implementation loss, dB.
+pub const IMPLEMENTATION_LOSS_DB: Range = Range {
+    key: "modem.implementation_loss_db",
+    min: 0.0,
+    max: 10.0,
+    unit: "dB",
+};
+
+/// Margin a rate must keep to count as closed, dB.
+pub const REQUIRED_MARGIN_DB: Range = Range {
+    key: "modem.required_margin_db",
+    min: -10.0,
+    max: 20.0,
+    unit: "dB",
+};
+
+/// Target bit error rate.
+pub const TARGET_BER: Range = Range {
+    key: "modem.target_ber",
+    min: 1e-12,
+    max: 1e-2,
+    unit: "",
+};
+
+/// Largest occupied bandwidth allowed, Hz.
+pub const MAX_BANDWIDTH_HZ: Range = Range {
+    key: "modem.max_bandwidth_hz",
+    min: 1.0,
+    max: 1e10,
+    unit: "Hz",
+};
+
+/// Shortest run of closed seconds that counts, s.
+pub const MIN_DWELL_S: Range = Range {
+    key: "modem.min_dwell_s",
+    min: 0.0,
+    max: 600.0,
+    unit: "s",
+};
+
+/// Information rate of a ladder step, bit/s (1 bit/s to 100 Gbit/s).
+pub const RATE_BPS: Range = Range {
+    key: "modem.ladder.rate_bps",
+    min: 1.0,
+    max: 1e11,
+    unit: "bit/s",
+};
+
+/// Symbol rate of the adaptive mode, baud.
+pub const SYMBOL_RATE_BAUD: Range = Range {
+    key: "modem.adaptive.symbol_rate_baud",
+    min: 1.0,
+    max: 1e10,
+    unit: "baud",
+};
+
+// ---- Station file -----------------------------------------------------------------------------
+
+/// Station latitude, deg (WGS-84 geodetic).
+pub const LATITUDE_DEG: Range = Range {
+    key: "latitude_deg",
+    min: -90.0,
+    max: 90.0,
+    unit: "deg",
+};
+
+/// Station longitude, deg east (above 180 wraps to negative).
+pub const LONGITUDE_DEG: Range = Range {
+    key: "longitude_deg",
+    min: -180.0,
+    max: 360.0,
+    unit: "deg",
+};
+
+/// Station height above the WGS-84 ellipsoid, m.
+pub const ALTITUDE_M: Range = Range {
+    key: "altitude_m",
+    min: -500.0,
+    max: 9000.0,
+    unit: "m",
+};
+
+/// Azimuth of a horizon-mask point, deg. The upper end itself is refused: the mask wraps at 360.
+pub const MASK_AZIMUTH_DEG: Range = Range {
+    key: "horizon_mask",
+    min: 0.0,
+    max: 360.0,
+    unit: "deg",
+};
+
+/// Elevation of a horizon-mask point, deg (the span of [`MIN_ELEVATION_DEG`]).
+pub const MASK_ELEVATION_DEG: Range = Range {
+    key: "horizon_mask",
+    min: MIN_ELEVATION_DEG.min,
+    max: MIN_ELEVATION_DEG.max,
+    unit: "deg",
+};
+
+/// Ground antenna diameter, m.
+pub const ANTENNA_DIAMETER_M: Range = Range {
+    key: "antenna.diameter_m",
+    min: 0.05,
+    max: 100.0,
+    unit: "m",
+};
+
+/// Ground antenna gain given directly, dBi.
+pub const ANTENNA_GAIN_DBI: Range = Range {
+    key: "antenna.gain_dbi",
+    min: -10.0,
+    max: 90.0,
+    unit: "dBi",
+};
+
+/// Ground antenna aperture efficiency (a fraction; below 1 % is not a working reflector).
+pub const ANTENNA_EFFICIENCY: Range = Range {
+    key: "antenna.efficiency",
+    min: 0.01,
+    max: 1.0,
+    unit: "",
+};
+
+/// Ground antenna pointing error, deg.
+pub const POINTING_ERROR_DEG: Range = Range {
+    key: "antenna.pointing_error_deg",
+    min: 0.0,
+    max: 10.0,
+    unit: "deg",
+};
+
+/// Ground antenna axial ratio, dB.
+pub const GROUND_AXIAL_RATIO_DB: Range = Range {
+    key: "antenna.axial_ratio_db",
+    min: 0.0,
+    max: 60.0,
+    unit: "dB",
+};
+
+/// Fraction of the ground antenna's pattern that sees the ground.
+pub const SPILLOVER_FRACTION: Range = Range {
+    key: "antenna.spillover_fraction",
+    min: 0.0,
+    max: 0.5,
+    unit: "",
+};
+
+/// Physical temperature of the ground seen by the spillover, K.
+pub const GROUND_TEMPERATURE_K: Range = Range {
+    key: "antenna.ground_temperature_k",
+    min: 150.0,
+    max: 350.0,
+    unit: "K",
+};
+
+/// Radome loss, dB.
+pub const RADOME_LOSS_DB: Range = Range {
+    key: "antenna.radome_loss_db",
+    min: 0.0,
+    max: 10.0,
+    unit: "dB",
+};
+
+/// LNA noise temperature, K.
+pub const LNA_NOISE_TEMPERATURE_K: Range = Range {
+    key: "receiver.lna_noise_temperature_k",
+    min: 1.0,
+    max: 5000.0,
+    unit: "K",
+};
+
+/// LNA noise figure, dB.
+pub const LNA_NOISE_FIGURE_DB: Range = Range {
+    key: "receiver.lna_noise_figure_db",
+    min: 0.01,
+    max: 15.0,
+    unit: "dB",
+};
+
+/// LNA gain, dB.
+pub const LNA_GAIN_DB: Range = Range {
+    key: "receiver.lna_gain_db",
+    min: 0.0,
+    max: 80.0,
+    unit: "dB",
+};
+
+/// Loss between feed and LNA, dB.
+pub const FEED_LOSS_DB: Range = Range {
+    key: "receiver.feed_loss_db",
+    min: 0.0,
+    max: 10.0,
+    unit: "dB",
+};
+
+/// Physical temperature of the feed loss, K.
+pub const FEED_TEMPERATURE_K: Range = Range {
+    key: "receiver.feed_temperature_k",
+    min: 4.0,
+    max: 400.0,
+    unit: "K",
+};
+
+/// Noise figure of the stages after the LNA, dB.
+pub const FOLLOWON_NOISE_FIGURE_DB: Range = Range {
+    key: "receiver.followon_noise_figure_db",
+    min: 0.0,
+    max: 30.0,
+    unit: "dB",
+};
+
+/// Surface pressure, hPa.
+pub const PRESSURE_HPA: Range = Range {
+    key: "climate.pressure_hpa",
+    min: 300.0,
+    max: 1100.0,
+    unit: "hPa",
+};
+
+/// Surface temperature, K.
+pub const TEMPERATURE_K: Range = Range {
+    key: "climate.temperature_k",
+    min: 200.0,
+    max: 330.0,
+    unit: "K",
+};
+
+/// Surface water-vapour density, g/m3.
+pub const WATER_VAPOUR_DENSITY_G_M3: Range = Range {
+    key: "climate.water_vapour_density_g_m3",
+    min: 0.0,
+    max: 40.0,
+    unit: "g/m3",
+};
+
+/// Rain rate exceeded 0.01 % of an average year, mm/h.
+pub const RAIN_RATE_001_MM_H: Range = Range {
+    key: "climate.rain_rate_001_mm_h",
+    min: 0.0,
+    max: 300.0,
+    unit: "mm/h",
+};
+
+/// Rain height, km.
+pub const RAIN_HEIGHT_KM: Range = Range {
+    key: "climate.rain_height_km",
+    min: 0.0,
+    max: 8.0,
+    unit: "km",
+};
+
+/// Columnar cloud liquid water, kg/m2.
+pub const CLOUD_LIQUID_KG_M2: Range = Range {
+    key: "climate.cloud_liquid_kg_m2",
+    min: 0.0,
+    max: 10.0,
+    unit: "kg/m2",
+};
+
+/// Wet term of the surface refractivity, N-units.
+pub const WET_REFRACTIVITY: Range = Range {
+    key: "climate.wet_refractivity",
+    min: 0.0,
+    max: 200.0,
+    unit: "N-units",
+};
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -64,6 +64,42 @@ pub fn list_item_line(text: &str, key_path: &[&str], index: usize) -> Option<usi
     Some(base)
 }
 
+/// 1-based line of the second `key:` of the block mapping that starts at line `map_line` (1-based;
+/// the line of its first key, which is where the YAML reader reports a duplicate field). Keys of the
+/// same mapping share its indentation; the scan stops where the mapping ends.
+pub fn duplicate_key_line(text: &str, map_line: usize, key: &str) -> Option<usize> {
+    let lines: Vec<&str> = text.lines().collect();
+    let first = lines.get(map_line.checked_sub(1)?)?;
+    let body = first
+        .trim_start()
+        .strip_prefix("- ")
+        .unwrap_or(first.trim_start());
+    let indent = first.len() - body.len();
+    let mut seen = 0;
+    for (i, raw) in lines.iter().enumerate().skip(map_line - 1) {
+        let t = raw.trim_start();
+        if t.is_empty() || t.starts_with('#') {
+            continue;
+        }
+        let here = raw.len() - t.len();
+        if i + 1 > map_line && (here < indent || here == indent && t.starts_with("- ")) {
+            break;
+        }
+        let t = if i + 1 == map_line { body } else { t };
+        if here <= indent {
+            if let Some(rest) = t.strip_prefix(key) {
+                if rest.trim_start().starts_with(':') {
+                    seen += 1;
+                    if seen == 2 {
+                        return Some(i + 1);
+                    }
+                }
+            }
+        }
+    }
+    None
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -83,5 +119,15 @@ mod tests {
         assert_eq!(list_item_line(t, &["horizon_mask"], 1), Some(3));
         let f = "horizon_mask: [[0, 3], [90, 95]]\n";
         assert_eq!(list_item_line(f, &["horizon_mask"], 1), Some(1));
+    }
+
+    #[test]
+    fn finds_the_second_of_two_equal_keys() {
+        let t = "name: a\nantenna:\n  gain: 3\n  sub:\n    gain: 1\n  gain: 4\nname: b\n";
+        assert_eq!(duplicate_key_line(t, 3, "gain"), Some(6));
+        assert_eq!(duplicate_key_line(t, 1, "name"), Some(7));
+        assert_eq!(duplicate_key_line(t, 3, "name"), None);
+        let l = "ladder:\n  - rate: 1\n    rate: 2\n  - rate: 3\n";
+        assert_eq!(duplicate_key_line(l, 2, "rate"), Some(3));
     }
 }

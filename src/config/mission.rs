@@ -1,9 +1,12 @@
 //! Mission file: the satellite, its transmitter and modem, the stations and the planning window.
 //! Every key is documented in the README ("Mission file"). Paths are relative to the mission file.
 
-use super::locate::{key_line, list_item_line};
-use super::{parse_yaml, read_text, ConfigError, DefaultUsed};
-use crate::config::station::{PolarizationSense, Station};
+use super::defaults as dflt;
+use super::limits;
+use super::{parse_yaml, read_text, Checker, ConfigError, DefaultUsed};
+use crate::config::station::Station;
+use crate::link::antenna::TxPattern;
+use crate::link::polarization::PolarizationSense;
 use serde::Deserialize;
 use std::path::{Path, PathBuf};
 
@@ -32,7 +35,7 @@ struct SatelliteFile {
     select: Option<String>,
 }
 
-#[derive(Debug, Clone, Deserialize)]
+#[derive(Debug, Clone, Default, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct WindowFile {
     start: Option<String>,
@@ -40,7 +43,7 @@ struct WindowFile {
     days: Option<f64>,
 }
 
-#[derive(Debug, Clone, Deserialize)]
+#[derive(Debug, Clone, Default, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct PlanningFile {
     step_s: Option<f64>,
@@ -59,13 +62,22 @@ struct TransmitterFile {
     antenna: TxAntennaFile,
 }
 
+/// The closed set of spacecraft antenna patterns: a wrong name is serde's error, with its line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize)]
+#[serde(rename_all = "snake_case")]
+enum PatternKind {
+    Fixed,
+    CosN,
+    Table,
+}
+
 #[derive(Debug, Clone, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct TxAntennaFile {
-    pattern: String,
+    pattern: PatternKind,
     gain_dbi: Option<f64>,
     table: Option<Vec<[f64; 2]>>,
-    polarization: Option<String>,
+    polarization: Option<PolarizationSense>,
     axial_ratio_db: Option<f64>,
 }
 
@@ -98,22 +110,15 @@ struct AdaptiveFile {
     schemes: Vec<String>,
 }
 
-/// Spacecraft antenna pattern as configured.
-#[derive(Debug, Clone, PartialEq)]
-pub enum TxPatternConfig {
-    Fixed { gain_dbi: f64 },
-    CosN { boresight_gain_dbi: f64 },
-    Table { points: Vec<[f64; 2]> },
-}
-
-/// Spacecraft transmitter, validated.
+/// Spacecraft transmitter, validated. The pattern is the link model's own: the file gives no
+/// cos^n exponent, so a `cos_n` pattern always has `n: None` (derived from the boresight gain).
 #[derive(Debug, Clone, PartialEq)]
 pub struct TransmitterConfig {
     pub frequency_hz: f64,
     pub power_dbw: f64,
     pub line_loss_db: f64,
     pub other_loss_db: f64,
-    pub pattern: TxPatternConfig,
+    pub pattern: TxPattern,
     pub polarization: PolarizationSense,
     pub axial_ratio_db: f64,
 }
@@ -146,6 +151,8 @@ pub struct ModemConfig {
     pub min_dwell_s: f64,
     pub ladder: Vec<LadderStep>,
     pub adaptive: Option<AdaptiveConfig>,
+    /// 1-based line of the `modem` key in the mission file, for later errors about the block.
+    pub line: Option<usize>,
 }
 
 /// A validated mission.
@@ -167,6 +174,13 @@ pub struct Mission {
     pub defaults: Vec<DefaultUsed>,
 }
 
+/// The planning window as validated: start, end, days.
+type Window = (
+    Option<chrono::DateTime<chrono::Utc>>,
+    Option<chrono::DateTime<chrono::Utc>>,
+    Option<f64>,
+);
+
 impl Mission {
     /// Load and validate a mission file and the station files it names.
     pub fn load(path: &Path) -> Result<Mission, ConfigError> {
@@ -174,364 +188,28 @@ impl Mission {
         Self::from_yaml(path, &text)
     }
 
+    /// Parse and validate mission YAML text, loading the station files it names (relative to
+    /// `path`'s folder); `path` is used in messages.
     pub fn from_yaml(path: &Path, text: &str) -> Result<Mission, ConfigError> {
         let file: MissionFile = parse_yaml(path, text)?;
-        let err = |key: &[&str], msg: String| {
-            let dotted = key.join(".");
-            ConfigError::new(
-                path,
-                key_line(text, key),
-                Some(&dotted),
-                format!("{dotted}: {msg}"),
-            )
-        };
-        let range =
-            |key: &[&str], v: f64, lo: f64, hi: f64, unit: &str| -> Result<f64, ConfigError> {
-                if !v.is_finite() || v < lo || v > hi {
-                    return Err(err(
-                        key,
-                        format!("{v} is out of range ({lo} to {hi} {unit})"),
-                    ));
-                }
-                Ok(v)
-            };
+        let mut c = Checker::new(path, text);
         let base = path.parent().map(Path::to_path_buf).unwrap_or_default();
-        let resolve = |p: &str| -> PathBuf {
-            let pb = PathBuf::from(p);
-            if pb.is_absolute() {
-                pb
-            } else {
-                base.join(pb)
-            }
-        };
-        let mut defaults = Vec::new();
-        let mut stations = Vec::new();
-        for s in &file.stations {
-            stations.push(Station::load(&resolve(s))?);
-        }
-        for (i, a) in stations.iter().enumerate() {
-            if stations[..i].iter().any(|b| b.name == a.name) {
-                let line = list_item_line(text, &["stations"], i);
-                return Err(ConfigError::new(
-                    path,
-                    line,
-                    Some("stations"),
-                    format!("stations: two stations are named '{}'", a.name),
-                ));
-            }
-        }
-        let (mut start, mut end, mut days) = (None, None, None);
-        if let Some(w) = &file.window {
-            if let Some(s) = &w.start {
-                start =
-                    Some(crate::timefmt::parse_utc(s).map_err(|m| err(&["window", "start"], m))?);
-            }
-            if let Some(s) = &w.end {
-                end = Some(crate::timefmt::parse_utc(s).map_err(|m| err(&["window", "end"], m))?);
-            }
-            if let Some(d) = w.days {
-                days = Some(range(&["window", "days"], d, 0.0001, 3660.0, "days")?);
-            }
-            if end.is_some() && days.is_some() {
-                return Err(err(
-                    &["window", "days"],
-                    "give window.end or window.days, not both".into(),
-                ));
-            }
-            if let (Some(s), Some(e)) = (start, end) {
-                if e <= s {
-                    return Err(err(
-                        &["window", "end"],
-                        "the end is not after the start".into(),
-                    ));
-                }
-            }
-        }
-        let p = file.planning.clone().unwrap_or(PlanningFile {
-            step_s: None,
-            exceedance_percent: None,
-            mask_deg: None,
-        });
-        let step_s = match p.step_s {
-            Some(v) => range(&["planning", "step_s"], v, 0.01, 10.0, "s")?,
-            None => 1.0,
-        };
-        let exceedance_percent = p
-            .exceedance_percent
-            .map(|v| range(&["planning", "exceedance_percent"], v, 0.001, 5.0, "%"))
+        let stations = stations(&c, &base, &file.stations)?;
+        let (start, end, days) = window(&c, &file.window.unwrap_or_default())?;
+        let p = file.planning.unwrap_or_default();
+        let step_s = c.or_default(&limits::STEP_S, p.step_s, &dflt::STEP_S)?;
+        let exceedance_percent = c.optional(&limits::EXCEEDANCE_PERCENT, p.exceedance_percent)?;
+        let mask_deg = c.optional(&limits::PLANNING_MASK_DEG, p.mask_deg)?;
+        let transmitter = file
+            .transmitter
+            .as_ref()
+            .map(|t| transmitter(&mut c, t))
             .transpose()?;
-        let mask_deg = p
-            .mask_deg
-            .map(|v| range(&["planning", "mask_deg"], v, -5.0, 90.0, "deg"))
-            .transpose()?;
-
-        let transmitter = match &file.transmitter {
-            None => None,
-            Some(t) => {
-                let frequency_mhz = range(
-                    &["transmitter", "frequency_mhz"],
-                    t.frequency_mhz,
-                    30.0,
-                    100_000.0,
-                    "MHz",
-                )?;
-                let power_dbw = match (t.power_w, t.power_dbw) {
-                    (Some(_), Some(_)) => {
-                        return Err(err(
-                            &["transmitter", "power_dbw"],
-                            "give power_w or power_dbw, not both".into(),
-                        ))
-                    }
-                    (Some(w), None) => {
-                        if !(w.is_finite() && w > 0.0) {
-                            return Err(err(
-                                &["transmitter", "power_w"],
-                                format!("{w} W: power must be positive"),
-                            ));
-                        }
-                        crate::units::watts_to_dbw(w)
-                    }
-                    (None, Some(d)) => range(&["transmitter", "power_dbw"], d, -40.0, 40.0, "dBW")?,
-                    (None, None) => {
-                        return Err(err(&["transmitter"], "needs power_w or power_dbw".into()))
-                    }
-                };
-                let line_loss_db = t
-                    .line_loss_db
-                    .map(|v| range(&["transmitter", "line_loss_db"], v, 0.0, 20.0, "dB"))
-                    .transpose()?
-                    .unwrap_or(0.0);
-                let other_loss_db = t
-                    .other_loss_db
-                    .map(|v| range(&["transmitter", "other_loss_db"], v, 0.0, 30.0, "dB"))
-                    .transpose()?
-                    .unwrap_or(0.0);
-                let a = &t.antenna;
-                let pattern = match a.pattern.as_str() {
-                    "fixed" => TxPatternConfig::Fixed {
-                        gain_dbi: range(
-                            &["transmitter", "antenna", "gain_dbi"],
-                            a.gain_dbi.ok_or_else(|| {
-                                err(
-                                    &["transmitter", "antenna"],
-                                    "pattern 'fixed' needs gain_dbi".into(),
-                                )
-                            })?,
-                            -20.0,
-                            60.0,
-                            "dBi",
-                        )?,
-                    },
-                    "cos_n" => TxPatternConfig::CosN {
-                        boresight_gain_dbi: range(
-                            &["transmitter", "antenna", "gain_dbi"],
-                            a.gain_dbi.ok_or_else(|| {
-                                err(
-                                    &["transmitter", "antenna"],
-                                    "pattern 'cos_n' needs gain_dbi (boresight)".into(),
-                                )
-                            })?,
-                            3.1,
-                            60.0,
-                            "dBi",
-                        )?,
-                    },
-                    "table" => {
-                        let points = a.table.clone().ok_or_else(|| {
-                            err(
-                                &["transmitter", "antenna"],
-                                "pattern 'table' needs table: [[off_nadir_deg, gain_dbi], ...]"
-                                    .into(),
-                            )
-                        })?;
-                        if points.len() < 2 {
-                            return Err(err(
-                                &["transmitter", "antenna", "table"],
-                                "needs at least two points".into(),
-                            ));
-                        }
-                        for (i, pt) in points.iter().enumerate() {
-                            if !(0.0..=180.0).contains(&pt[0])
-                                || !pt[1].is_finite()
-                                || i > 0 && pt[0] <= points[i - 1][0]
-                            {
-                                let line =
-                                    list_item_line(text, &["transmitter", "antenna", "table"], i);
-                                return Err(ConfigError::new(path, line, Some("transmitter.antenna.table"), format!("transmitter.antenna.table point {}: off-nadir angles must rise from 0 to 180 deg and gains must be finite numbers", i + 1)));
-                            }
-                        }
-                        TxPatternConfig::Table { points }
-                    }
-                    other => {
-                        return Err(err(
-                            &["transmitter", "antenna", "pattern"],
-                            format!("'{other}' is not one of fixed, cos_n, table"),
-                        ))
-                    }
-                };
-                let polarization = match &a.polarization {
-                    Some(s) => PolarizationSense::parse(s).ok_or_else(|| {
-                        err(
-                            &["transmitter", "antenna", "polarization"],
-                            format!("'{s}' is not one of rhcp, lhcp, linear"),
-                        )
-                    })?,
-                    None => PolarizationSense::Rhcp,
-                };
-                let axial_ratio_db = match a.axial_ratio_db {
-                    Some(v) => range(
-                        &["transmitter", "antenna", "axial_ratio_db"],
-                        v,
-                        0.0,
-                        60.0,
-                        "dB",
-                    )?,
-                    None => {
-                        defaults.push(DefaultUsed {
-                            key: "transmitter.antenna.axial_ratio_db".into(),
-                            value: "3".into(),
-                            source:
-                                "common practice for a wide-beam spacecraft antenna off boresight"
-                                    .into(),
-                        });
-                        3.0
-                    }
-                };
-                Some(TransmitterConfig {
-                    frequency_hz: frequency_mhz * 1e6,
-                    power_dbw,
-                    line_loss_db,
-                    other_loss_db,
-                    pattern,
-                    polarization,
-                    axial_ratio_db,
-                })
-            }
-        };
-
-        let modem = match &file.modem {
-            None => None,
-            Some(m) => {
-                let roll_off = m
-                    .roll_off
-                    .map(|v| range(&["modem", "roll_off"], v, 0.0, 1.0, ""))
-                    .transpose()?
-                    .unwrap_or_else(|| {
-                        defaults.push(DefaultUsed {
-                            key: "modem.roll_off".into(),
-                            value: "0.35".into(),
-                            source: "common practice (SRRC filtering)".into(),
-                        });
-                        0.35
-                    });
-                let implementation_loss_db = m
-                    .implementation_loss_db
-                    .map(|v| range(&["modem", "implementation_loss_db"], v, 0.0, 10.0, "dB"))
-                    .transpose()?
-                    .unwrap_or_else(|| {
-                        defaults.push(DefaultUsed {
-                            key: "modem.implementation_loss_db".into(),
-                            value: "1.5".into(),
-                            source: "common practice for a planning budget".into(),
-                        });
-                        1.5
-                    });
-                let required_margin_db = m
-                    .required_margin_db
-                    .map(|v| range(&["modem", "required_margin_db"], v, -10.0, 20.0, "dB"))
-                    .transpose()?
-                    .unwrap_or_else(|| {
-                        defaults.push(DefaultUsed {
-                            key: "modem.required_margin_db".into(),
-                            value: "3".into(),
-                            source: "common practice".into(),
-                        });
-                        3.0
-                    });
-                let target_ber = m
-                    .target_ber
-                    .map(|v| range(&["modem", "target_ber"], v, 1e-12, 1e-2, ""))
-                    .transpose()?
-                    .unwrap_or(1e-6);
-                let max_bandwidth_hz = m
-                    .max_bandwidth_hz
-                    .map(|v| range(&["modem", "max_bandwidth_hz"], v, 1.0, 1e10, "Hz"))
-                    .transpose()?;
-                let min_dwell_s = m
-                    .min_dwell_s
-                    .map(|v| range(&["modem", "min_dwell_s"], v, 0.0, 600.0, "s"))
-                    .transpose()?
-                    .unwrap_or(10.0);
-                let mut ladder = Vec::new();
-                for (i, st) in m.ladder.iter().enumerate() {
-                    let line = list_item_line(text, &["modem", "ladder"], i);
-                    if !(st.rate_bps.is_finite() && st.rate_bps > 0.0) {
-                        return Err(ConfigError::new(
-                            path,
-                            line,
-                            Some("modem.ladder"),
-                            format!(
-                                "modem.ladder step {}: rate_bps {} must be positive",
-                                i + 1,
-                                st.rate_bps
-                            ),
-                        ));
-                    }
-                    ladder.push(LadderStep {
-                        rate_bps: st.rate_bps,
-                        scheme: st.scheme.clone(),
-                        line,
-                    });
-                }
-                let adaptive = match &m.adaptive {
-                    None => None,
-                    Some(a) => {
-                        let symbol_rate_baud = range(
-                            &["modem", "adaptive", "symbol_rate_baud"],
-                            a.symbol_rate_baud,
-                            1.0,
-                            1e10,
-                            "baud",
-                        )?;
-                        if a.schemes.is_empty() {
-                            return Err(err(
-                                &["modem", "adaptive", "schemes"],
-                                "needs at least one scheme".into(),
-                            ));
-                        }
-                        let schemes = a
-                            .schemes
-                            .iter()
-                            .enumerate()
-                            .map(|(i, s)| {
-                                (
-                                    s.clone(),
-                                    list_item_line(text, &["modem", "adaptive", "schemes"], i),
-                                )
-                            })
-                            .collect();
-                        Some(AdaptiveConfig {
-                            symbol_rate_baud,
-                            schemes,
-                        })
-                    }
-                };
-                Some(ModemConfig {
-                    roll_off,
-                    implementation_loss_db,
-                    required_margin_db,
-                    target_ber,
-                    max_bandwidth_hz,
-                    min_dwell_s,
-                    ladder,
-                    adaptive,
-                })
-            }
-        };
+        let modem = file.modem.as_ref().map(|m| modem(&mut c, m)).transpose()?;
         Ok(Mission {
             name: file.name,
             source: path.to_path_buf(),
-            elements_path: resolve(&file.satellite.elements),
+            elements_path: resolve(&base, &file.satellite.elements),
             select: file.satellite.select,
             stations,
             start,
@@ -542,9 +220,228 @@ impl Mission {
             mask_deg,
             transmitter,
             modem,
-            defaults,
+            defaults: c.defaults,
         })
     }
+}
+
+/// A path from the mission file: absolute, or relative to the mission file's folder.
+fn resolve(base: &Path, p: &str) -> PathBuf {
+    let pb = PathBuf::from(p);
+    if pb.is_absolute() {
+        pb
+    } else {
+        base.join(pb)
+    }
+}
+
+/// The station files, loaded; two stations may not share a name.
+fn stations(c: &Checker, base: &Path, files: &[String]) -> Result<Vec<Station>, ConfigError> {
+    let mut stations: Vec<Station> = Vec::new();
+    for (i, f) in files.iter().enumerate() {
+        let s = Station::load(&resolve(base, f))?;
+        if stations.iter().any(|b| b.name == s.name) {
+            let msg = format!("two stations are named '{}'", s.name);
+            return Err(c.err_at(c.item_line("stations", i), "stations", msg));
+        }
+        stations.push(s);
+    }
+    Ok(stations)
+}
+
+/// The planning window: start, and end or length in days.
+fn window(c: &Checker, w: &WindowFile) -> Result<Window, ConfigError> {
+    let time = |key: &str, s: &Option<String>| {
+        s.as_deref()
+            .map(|s| crate::timefmt::parse_utc(s).map_err(|m| c.err(key, m)))
+            .transpose()
+    };
+    let start = time("window.start", &w.start)?;
+    let end = time("window.end", &w.end)?;
+    let days = c.optional(&limits::WINDOW_DAYS, w.days)?;
+    if end.is_some() && days.is_some() {
+        return Err(c.err(
+            limits::WINDOW_DAYS.key,
+            "give window.end or window.days, not both",
+        ));
+    }
+    if let (Some(s), Some(e)) = (start, end) {
+        if e <= s {
+            return Err(c.err("window.end", "the end is not after the start"));
+        }
+    }
+    Ok((start, end, days))
+}
+
+/// The transmitter block.
+fn transmitter(c: &mut Checker, t: &TransmitterFile) -> Result<TransmitterConfig, ConfigError> {
+    let frequency_mhz = c.range(&limits::FREQUENCY_MHZ, t.frequency_mhz)?;
+    let power_dbw = power_dbw(c, t)?;
+    let line_loss_db = c.or_default(&limits::LINE_LOSS_DB, t.line_loss_db, &dflt::LINE_LOSS_DB)?;
+    let other_loss_db = c.or_default(
+        &limits::OTHER_LOSS_DB,
+        t.other_loss_db,
+        &dflt::OTHER_LOSS_DB,
+    )?;
+    let a = &t.antenna;
+    let pattern = tx_pattern(c, a)?;
+    let polarization = match a.polarization {
+        Some(p) => p,
+        None => c.default(&dflt::TX_POLARIZATION),
+    };
+    let axial_ratio_db = c.or_default(
+        &limits::TX_AXIAL_RATIO_DB,
+        a.axial_ratio_db,
+        &dflt::TX_AXIAL_RATIO_DB,
+    )?;
+    Ok(TransmitterConfig {
+        frequency_hz: frequency_mhz * 1e6,
+        power_dbw,
+        line_loss_db,
+        other_loss_db,
+        pattern,
+        polarization,
+        axial_ratio_db,
+    })
+}
+
+/// Transmitter power, given in W or in dBW (one of them), as dBW.
+fn power_dbw(c: &Checker, t: &TransmitterFile) -> Result<f64, ConfigError> {
+    match (t.power_w, t.power_dbw) {
+        (Some(_), Some(_)) => {
+            Err(c.err(limits::POWER_DBW.key, "give power_w or power_dbw, not both"))
+        }
+        (Some(w), None) => {
+            if w.is_nan() || w <= 0.0 {
+                let msg = format!("{} W: power must be positive", limits::short_number(w));
+                return Err(c.err(limits::POWER_W.key, msg));
+            }
+            Ok(crate::units::watts_to_dbw(c.range(&limits::POWER_W, w)?))
+        }
+        (None, Some(d)) => c.range(&limits::POWER_DBW, d),
+        (None, None) => Err(c.err("transmitter", "needs power_w or power_dbw")),
+    }
+}
+
+/// The spacecraft antenna pattern, from its `pattern` name and the keys that pattern needs.
+fn tx_pattern(c: &Checker, a: &TxAntennaFile) -> Result<TxPattern, ConfigError> {
+    let needs = |what: &str| c.err("transmitter.antenna", format!("pattern {what}"));
+    match a.pattern {
+        PatternKind::Fixed => {
+            let g = a.gain_dbi.ok_or_else(|| needs("'fixed' needs gain_dbi"))?;
+            Ok(TxPattern::Fixed {
+                gain_dbi: c.range(&limits::TX_FIXED_GAIN_DBI, g)?,
+            })
+        }
+        PatternKind::CosN => {
+            let g = a
+                .gain_dbi
+                .ok_or_else(|| needs("'cos_n' needs gain_dbi (boresight)"))?;
+            Ok(TxPattern::CosN {
+                boresight_gain_dbi: c.range(&limits::TX_COS_N_GAIN_DBI, g)?,
+                n: None,
+            })
+        }
+        PatternKind::Table => {
+            let points = a
+                .table
+                .as_ref()
+                .ok_or_else(|| needs("'table' needs table: [[off_nadir_deg, gain_dbi], ...]"))?;
+            Ok(TxPattern::Table(tx_table(c, points)?))
+        }
+    }
+}
+
+/// The points of a `table` pattern: at least two, angles rising within their range, gains within
+/// theirs.
+fn tx_table(c: &Checker, points: &[[f64; 2]]) -> Result<Vec<[f64; 2]>, ConfigError> {
+    let (angle, gain) = (limits::TX_TABLE_OFF_NADIR_DEG, limits::TX_TABLE_GAIN_DBI);
+    if points.len() < 2 {
+        return Err(c.err(angle.key, "needs at least two points"));
+    }
+    for (i, pt) in points.iter().enumerate() {
+        let bad = |msg: String| Err(c.item_err(angle.key, "point", i, msg));
+        if let Err(e) = angle.check(pt[0]) {
+            return bad(format!("off-nadir angle {e}"));
+        }
+        if let Err(e) = gain.check(pt[1]) {
+            return bad(format!("gain {e}"));
+        }
+        if i > 0 && pt[0] <= points[i - 1][0] {
+            return bad("off-nadir angles must rise from one point to the next".into());
+        }
+    }
+    Ok(points.to_vec())
+}
+
+/// The modem block.
+fn modem(c: &mut Checker, m: &ModemFile) -> Result<ModemConfig, ConfigError> {
+    use limits as l;
+    Ok(ModemConfig {
+        roll_off: c.or_default(&l::ROLL_OFF, m.roll_off, &dflt::ROLL_OFF)?,
+        implementation_loss_db: c.or_default(
+            &l::IMPLEMENTATION_LOSS_DB,
+            m.implementation_loss_db,
+            &dflt::IMPLEMENTATION_LOSS_DB,
+        )?,
+        required_margin_db: c.or_default(
+            &l::REQUIRED_MARGIN_DB,
+            m.required_margin_db,
+            &dflt::REQUIRED_MARGIN_DB,
+        )?,
+        target_ber: c.or_default(&l::TARGET_BER, m.target_ber, &dflt::TARGET_BER)?,
+        max_bandwidth_hz: c.optional(&l::MAX_BANDWIDTH_HZ, m.max_bandwidth_hz)?,
+        min_dwell_s: c.or_default(&l::MIN_DWELL_S, m.min_dwell_s, &dflt::MIN_DWELL_S)?,
+        ladder: ladder(c, &m.ladder)?,
+        adaptive: m.adaptive.as_ref().map(|a| adaptive(c, a)).transpose()?,
+        line: c.line("modem"),
+    })
+}
+
+/// The fixed-rate ladder: each rate within its range, no step given twice.
+fn ladder(c: &Checker, steps: &[LadderStepFile]) -> Result<Vec<LadderStep>, ConfigError> {
+    const KEY: &str = "modem.ladder";
+    let mut ladder: Vec<LadderStep> = Vec::new();
+    for (i, st) in steps.iter().enumerate() {
+        if let Err(e) = limits::RATE_BPS.check(st.rate_bps) {
+            return Err(c.item_err(KEY, "step", i, format!("rate_bps {e}")));
+        }
+        let same = |o: &LadderStep| o.rate_bps == st.rate_bps && o.scheme == st.scheme;
+        if let Some(j) = ladder.iter().position(same) {
+            let msg = format!(
+                "{} bit/s with {} is already step {}",
+                limits::short_number(st.rate_bps),
+                st.scheme,
+                j + 1
+            );
+            return Err(c.item_err(KEY, "step", i, msg));
+        }
+        ladder.push(LadderStep {
+            rate_bps: st.rate_bps,
+            scheme: st.scheme.clone(),
+            line: c.item_line(KEY, i),
+        });
+    }
+    Ok(ladder)
+}
+
+/// The adaptive (variable coding and modulation) block.
+fn adaptive(c: &Checker, a: &AdaptiveFile) -> Result<AdaptiveConfig, ConfigError> {
+    const KEY: &str = "modem.adaptive.schemes";
+    let symbol_rate_baud = c.range(&limits::SYMBOL_RATE_BAUD, a.symbol_rate_baud)?;
+    if a.schemes.is_empty() {
+        return Err(c.err(KEY, "needs at least one scheme"));
+    }
+    let schemes = a
+        .schemes
+        .iter()
+        .enumerate()
+        .map(|(i, s)| (s.clone(), c.item_line(KEY, i)))
+        .collect();
+    Ok(AdaptiveConfig {
+        symbol_rate_baud,
+        schemes,
+    })
 }
 
 #[cfg(test)]
@@ -576,5 +473,157 @@ mod tests {
         let t = "name: t\nsatellite:\n  elements: sat.tle\nmodem:\n  rolloff: 0.3\n";
         let e = Mission::from_yaml(Path::new("m.yaml"), t).unwrap_err();
         assert_eq!(e.line, Some(5));
+    }
+
+    const HEAD: &str = "name: t\nsatellite:\n  elements: sat.tle\n";
+
+    fn mission(text: &str) -> Result<Mission, ConfigError> {
+        Mission::from_yaml(Path::new("m.yaml"), &format!("{HEAD}{text}"))
+    }
+
+    /// A transmitter block (lines 4..=9) with the given power line and antenna lines.
+    fn tx(power: &str, antenna: &str) -> String {
+        format!("transmitter:\n  frequency_mhz: 8200\n  {power}\n  antenna:\n{antenna}")
+    }
+
+    const FIXED: &str = "    pattern: fixed\n    gain_dbi: 3\n";
+
+    #[test]
+    fn huge_power_w_is_rejected_with_line_and_short_number() {
+        let e = mission(&tx("power_w: 1e30", FIXED)).unwrap_err();
+        assert_eq!(e.line, Some(6));
+        assert_eq!(e.key.as_deref(), Some("transmitter.power_w"));
+        assert!(
+            e.to_string()
+                .starts_with("m.yaml:6: transmitter.power_w: 1.000000e30 is out of range"),
+            "{e}"
+        );
+        assert!(e.message.len() < 100, "{e}");
+        // 10 kW is the top of the range in either unit.
+        let m = mission(&tx("power_w: 1e4", FIXED)).unwrap();
+        assert!((m.transmitter.unwrap().power_dbw - 40.0).abs() < 1e-12);
+        assert!(mission(&tx("power_dbw: 40.5", FIXED)).is_err());
+    }
+
+    #[test]
+    fn power_ranges_agree_in_both_units() {
+        // P_dBW = 10 log10(P_W): the two ranges are one range.
+        assert!((10.0 * limits::POWER_W.min.log10() - limits::POWER_DBW.min).abs() < 1e-12);
+        assert!((10.0 * limits::POWER_W.max.log10() - limits::POWER_DBW.max).abs() < 1e-12);
+    }
+
+    #[test]
+    fn table_gain_out_of_range_names_its_point() {
+        let ant = "    pattern: table\n    table:\n      - [0, 3]\n      - [40, 5500]\n";
+        let e = mission(&tx("power_w: 2", ant)).unwrap_err();
+        assert_eq!(e.line, Some(11));
+        assert!(
+            e.message
+                .contains("point 2: gain 5500 is out of range (-60 to 60 dBi)"),
+            "{e}"
+        );
+        let ant = "    pattern: table\n    table:\n      - [10, 3]\n      - [5, 4]\n";
+        let e = mission(&tx("power_w: 2", ant)).unwrap_err();
+        assert_eq!(e.line, Some(11));
+        assert!(e.message.contains("rise"), "{e}");
+    }
+
+    #[test]
+    fn wrong_pattern_name_is_serde_error_with_line() {
+        let e = mission(&tx("power_w: 2", "    gain_dbi: 3\n    pattern: cosine\n")).unwrap_err();
+        assert_eq!(e.line, Some(9));
+        assert!(e.message.contains("unknown variant `cosine`"), "{e}");
+        assert!(e.message.contains("`cos_n`"), "{e}");
+    }
+
+    #[test]
+    fn cos_n_pattern_is_the_link_model_pattern() {
+        let m = mission(&tx("power_w: 2", "    pattern: cos_n\n    gain_dbi: 6\n")).unwrap();
+        let t = m.transmitter.unwrap();
+        assert_eq!(
+            t.pattern,
+            TxPattern::CosN {
+                boresight_gain_dbi: 6.0,
+                n: None
+            }
+        );
+        // No polarization given: rhcp, recorded as a default with its name.
+        assert_eq!(t.polarization, PolarizationSense::Rhcp);
+        let d = m
+            .defaults
+            .iter()
+            .find(|d| d.key == "transmitter.antenna.polarization");
+        assert_eq!(d.map(|d| d.value.as_str()), Some("rhcp"));
+    }
+
+    #[test]
+    fn polarization_aliases_and_wrong_name() {
+        let ant = format!("{FIXED}    polarization: Left\n");
+        let t = mission(&tx("power_w: 2", &ant))
+            .unwrap()
+            .transmitter
+            .unwrap();
+        assert_eq!(t.polarization, PolarizationSense::Lhcp);
+        let ant = format!("{FIXED}    polarization: circular\n");
+        let e = mission(&tx("power_w: 2", &ant)).unwrap_err();
+        assert_eq!(e.line, Some(10));
+        assert!(e.message.contains("unknown variant `circular`"), "{e}");
+    }
+
+    #[test]
+    fn tiny_rate_is_rejected_with_its_line() {
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n    - { rate_bps: 1e-300, scheme: a }\n";
+        let e = mission(t).unwrap_err();
+        assert_eq!(e.line, Some(7));
+        assert!(
+            e.message
+                .contains("step 2: rate_bps 1.000000e-300 is out of range"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn duplicate_ladder_step_is_rejected() {
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n    - { rate_bps: 1e6, scheme: b }\n    - { rate_bps: 1.0e6, scheme: a }\n";
+        let e = mission(t).unwrap_err();
+        assert_eq!(e.line, Some(8));
+        assert!(
+            e.message
+                .contains("step 3: 1000000 bit/s with a is already step 1"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn modem_line_and_reported_defaults() {
+        let m = mission(
+            "planning:\n  step_s: 2\nmodem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n",
+        )
+        .unwrap();
+        let modem = m.modem.unwrap();
+        assert_eq!(modem.line, Some(6));
+        assert_eq!(modem.ladder[0].line, Some(8));
+        assert_eq!((modem.target_ber, modem.min_dwell_s), (1e-6, 10.0));
+        let keys: Vec<&str> = m.defaults.iter().map(|d| d.key.as_str()).collect();
+        assert_eq!(
+            keys,
+            [
+                "modem.roll_off",
+                "modem.implementation_loss_db",
+                "modem.required_margin_db",
+                "modem.target_ber",
+                "modem.min_dwell_s"
+            ]
+        );
+    }
+
+    #[test]
+    fn duplicate_yaml_key_is_reported_at_the_duplicate() {
+        let e = mission("planning:\n  step_s: 2\n  mask_deg: 5\n  step_s: 3\n").unwrap_err();
+        assert!(e.message.contains("duplicate field `step_s`"), "{e}");
+        assert_eq!(e.line, Some(7));
+        let e = mission("name: u\n").unwrap_err();
+        assert!(e.message.contains("duplicate field `name`"), "{e}");
+        assert_eq!(e.line, Some(4));
     }
 }

@@ -1,10 +1,13 @@
 //! Configuration files: station files and mission files (YAML).
 //!
 //! Two stages, as in DESIGN.md: serde structs that mirror the file
-//! (`deny_unknown_fields`, so a misspelt key is an error), then validated
-//! constructors, so the physics only ever sees valid values. Every error names
-//! the file, the line and the key.
+//! (`deny_unknown_fields`, so a misspelt key is an error; serde enums for the closed sets, so a
+//! wrong name is an error with its line), then validation, one function per block, through one
+//! context (`Checker`) shared by the mission and station files, so the physics only ever sees
+//! valid values. Every error names the file, the line and the key. Accepted ranges are in
+//! [`limits`], defaults in [`defaults`]; the YAML crate is used in [`parse_yaml`] only.
 
+pub mod defaults;
 pub mod limits;
 pub mod locate;
 pub mod mission;
@@ -45,6 +48,7 @@ pub fn read_text(path: &Path) -> Result<String, ConfigError> {
 }
 
 /// Parse YAML into `T`, turning serde_yaml's error (which carries a line) into a [`ConfigError`].
+/// The only place that knows the YAML crate: swapping it is a change here alone.
 pub fn parse_yaml<T: serde::de::DeserializeOwned>(
     path: &Path,
     text: &str,
@@ -53,15 +57,117 @@ pub fn parse_yaml<T: serde::de::DeserializeOwned>(
         return Err(ConfigError::new(path, None, None, "file is empty"));
     }
     serde_yaml::from_str(text).map_err(|e| {
-        let line = e.location().map(|l| l.line());
+        let mut line = e.location().map(|l| l.line());
         // serde_yaml messages look like "antenna: unknown field `x`, expected ... at line 5 column 3";
         // the location is reported separately, so strip it from the text.
         let mut message = e.to_string();
         if let Some(i) = message.find(" at line ") {
             message.truncate(i);
         }
+        // A duplicate key is reported at the start of its mapping: point at the duplicate instead.
+        if let (Some(l), Some(key)) = (line, duplicate_field(&message)) {
+            line = locate::duplicate_key_line(text, l, key).or(line);
+        }
         ConfigError::new(path, line, None, message)
     })
+}
+
+/// The key named by a "duplicate field `key`" message.
+fn duplicate_field(message: &str) -> Option<&str> {
+    let rest = &message[message.find("duplicate field `")? + "duplicate field `".len()..];
+    Some(&rest[..rest.find('`')?])
+}
+
+/// The validation context of one file, shared by the mission and station stages: the file's path
+/// and text (to name the line of a key), and the defaults taken so far.
+pub(crate) struct Checker<'a> {
+    pub path: &'a Path,
+    pub text: &'a str,
+    pub defaults: Vec<DefaultUsed>,
+}
+
+impl<'a> Checker<'a> {
+    pub fn new(path: &'a Path, text: &'a str) -> Self {
+        Checker {
+            path,
+            text,
+            defaults: Vec::new(),
+        }
+    }
+
+    /// 1-based line of a dotted key (`"antenna.efficiency"`).
+    pub fn line(&self, key: &str) -> Option<usize> {
+        locate::key_line(self.text, &key.split('.').collect::<Vec<_>>())
+    }
+
+    /// 1-based line of item `index` (0-based) of the list under a dotted key.
+    pub fn item_line(&self, key: &str, index: usize) -> Option<usize> {
+        locate::list_item_line(self.text, &key.split('.').collect::<Vec<_>>(), index)
+    }
+
+    /// An error about a dotted key, at the key's line: `file:line: key: msg`.
+    pub fn err(&self, key: &str, msg: impl std::fmt::Display) -> ConfigError {
+        self.err_at(self.line(key), key, msg)
+    }
+
+    /// An error about a dotted key, at a given line.
+    pub fn err_at(
+        &self,
+        line: Option<usize>,
+        key: &str,
+        msg: impl std::fmt::Display,
+    ) -> ConfigError {
+        ConfigError::new(self.path, line, Some(key), format!("{key}: {msg}"))
+    }
+
+    /// An error about item `index` (0-based) of the list under `key`, named `what` (point, step):
+    /// `file:line: key what N: msg`.
+    pub fn item_err(
+        &self,
+        key: &str,
+        what: &str,
+        index: usize,
+        msg: impl std::fmt::Display,
+    ) -> ConfigError {
+        let line = self.item_line(key, index);
+        let message = format!("{key} {what} {}: {msg}", index + 1);
+        ConfigError::new(self.path, line, Some(key), message)
+    }
+
+    /// `v` checked against its range; the error names the range's key and line.
+    pub fn range(&self, r: &limits::Range, v: f64) -> Result<f64, ConfigError> {
+        r.check(v).map_err(|e| self.err(r.key, e))
+    }
+
+    /// An optional value checked against its range.
+    pub fn optional(&self, r: &limits::Range, v: Option<f64>) -> Result<Option<f64>, ConfigError> {
+        v.map(|x| self.range(r, x)).transpose()
+    }
+
+    /// A value checked against its range, or the default (recorded when the table says so).
+    pub fn or_default(
+        &mut self,
+        r: &limits::Range,
+        v: Option<f64>,
+        d: &defaults::DefaultValue<f64>,
+    ) -> Result<f64, ConfigError> {
+        match v {
+            Some(x) => self.range(r, x),
+            None => Ok(self.default(d)),
+        }
+    }
+
+    /// Take a default, recording it when the table says so.
+    pub fn default<T: defaults::Shown>(&mut self, d: &defaults::DefaultValue<T>) -> T {
+        if d.reported {
+            self.defaults.push(DefaultUsed {
+                key: d.key.to_string(),
+                value: d.value.shown(),
+                source: d.source.to_string(),
+            });
+        }
+        d.value
+    }
 }
 
 /// A value recorded as taken from a default rather than the file, for reporting.

@@ -15,8 +15,10 @@
 //! ```
 //! The radio blocks are documented key by key in the README.
 
-use super::locate::{key_line, list_item_line};
-use super::{parse_yaml, read_text, ConfigError, DefaultUsed};
+use super::defaults as dflt;
+use super::limits;
+use super::{parse_yaml, read_text, Checker, ConfigError, DefaultUsed};
+pub use crate::link::polarization::PolarizationSense;
 use serde::Deserialize;
 use std::path::{Path, PathBuf};
 
@@ -46,7 +48,7 @@ struct AntennaFile {
     efficiency: Option<f64>,
     gain_dbi: Option<f64>,
     pointing_error_deg: Option<f64>,
-    polarization: Option<String>,
+    polarization: Option<PolarizationSense>,
     axial_ratio_db: Option<f64>,
     spillover_fraction: Option<f64>,
     ground_temperature_k: Option<f64>,
@@ -64,7 +66,7 @@ struct ReceiverFile {
     followon_noise_figure_db: Option<f64>,
 }
 
-#[derive(Debug, Clone, Deserialize)]
+#[derive(Debug, Clone, Default, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct ClimateFile {
     pressure_hpa: Option<f64>,
@@ -74,26 +76,6 @@ struct ClimateFile {
     rain_height_km: Option<f64>,
     cloud_liquid_kg_m2: Option<f64>,
     wet_refractivity: Option<f64>,
-}
-
-/// Polarization sense of an antenna.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
-#[serde(rename_all = "lowercase")]
-pub enum PolarizationSense {
-    Rhcp,
-    Lhcp,
-    Linear,
-}
-
-impl PolarizationSense {
-    pub fn parse(text: &str) -> Option<Self> {
-        match text.to_ascii_lowercase().as_str() {
-            "rhcp" | "right" => Some(Self::Rhcp),
-            "lhcp" | "left" => Some(Self::Lhcp),
-            "linear" => Some(Self::Linear),
-            _ => None,
-        }
-    }
 }
 
 /// How the ground antenna's gain is known.
@@ -160,36 +142,6 @@ pub struct Station {
     pub defaults: Vec<DefaultUsed>,
 }
 
-struct Checker<'a> {
-    path: &'a Path,
-    text: &'a str,
-}
-
-impl Checker<'_> {
-    fn err(&self, key: &[&str], msg: impl Into<String>) -> ConfigError {
-        let dotted = key.join(".");
-        ConfigError::new(
-            self.path,
-            key_line(self.text, key),
-            Some(&dotted),
-            format!("{dotted}: {}", msg.into()),
-        )
-    }
-    fn range(
-        &self,
-        key: &[&str],
-        v: f64,
-        lo: f64,
-        hi: f64,
-        unit: &str,
-    ) -> Result<f64, ConfigError> {
-        if !v.is_finite() || v < lo || v > hi {
-            return Err(self.err(key, format!("{v} is out of range ({lo} to {hi} {unit})")));
-        }
-        Ok(v)
-    }
-}
-
 impl Station {
     /// Load and validate a station file.
     pub fn load(path: &Path) -> Result<Station, ConfigError> {
@@ -200,67 +152,33 @@ impl Station {
     /// Parse and validate station YAML text; `path` is used in messages.
     pub fn from_yaml(path: &Path, text: &str) -> Result<Station, ConfigError> {
         let file: StationFile = parse_yaml(path, text)?;
-        let c = Checker { path, text };
-        let mut defaults = Vec::new();
+        let mut c = Checker::new(path, text);
         if file.name.trim().is_empty() {
-            return Err(c.err(&["name"], "must not be empty"));
+            return Err(c.err("name", "must not be empty"));
         }
-        let latitude_deg = c.range(&["latitude_deg"], file.latitude_deg, -90.0, 90.0, "deg")?;
-        let mut longitude_deg =
-            c.range(&["longitude_deg"], file.longitude_deg, -180.0, 360.0, "deg")?;
+        let latitude_deg = c.range(&limits::LATITUDE_DEG, file.latitude_deg)?;
+        let mut longitude_deg = c.range(&limits::LONGITUDE_DEG, file.longitude_deg)?;
         if longitude_deg > 180.0 {
             longitude_deg -= 360.0;
         }
-        let altitude_m = c.range(&["altitude_m"], file.altitude_m, -500.0, 9000.0, "m")?;
-        let min_elevation_deg = match file.min_elevation_deg {
-            Some(v) => c.range(&["min_elevation_deg"], v, -5.0, 90.0, "deg")?,
-            None => {
-                defaults.push(DefaultUsed {
-                    key: "min_elevation_deg".into(),
-                    value: "0".into(),
-                    source: "geometric horizon".into(),
-                });
-                0.0
-            }
-        };
-        let mut horizon_mask = file.horizon_mask.unwrap_or_default();
-        for (i, p) in horizon_mask.iter().enumerate() {
-            let line = list_item_line(text, &["horizon_mask"], i);
-            let bad = |m: String| {
-                ConfigError::new(
-                    path,
-                    line,
-                    Some("horizon_mask"),
-                    format!("horizon_mask point {}: {m}", i + 1),
-                )
-            };
-            if !p[0].is_finite() || p[0] < 0.0 || p[0] >= 360.0 {
-                return Err(bad(format!("azimuth {} is out of range (0 up to but not including 360 deg; the mask wraps at 360)", p[0])));
-            }
-            if !p[1].is_finite() || p[1] < -5.0 || p[1] > 90.0 {
-                return Err(bad(format!(
-                    "elevation {} is out of range (-5 to 90 deg)",
-                    p[1]
-                )));
-            }
-        }
-        horizon_mask.sort_by(|a, b| a[0].total_cmp(&b[0]));
-        if let Some(w) = horizon_mask.windows(2).find(|w| w[0][0] == w[1][0]) {
-            return Err(c.err(
-                &["horizon_mask"],
-                format!("two points at azimuth {} deg", w[0][0]),
-            ));
-        }
-
-        let antenna = match &file.antenna {
-            None => None,
-            Some(a) => Some(Self::antenna(&c, a, &mut defaults)?),
-        };
-        let receiver = match &file.receiver {
-            None => None,
-            Some(r) => Some(Self::receiver(&c, r, &mut defaults)?),
-        };
-        let climate = Self::climate(&c, file.climate.as_ref(), &mut defaults)?;
+        let altitude_m = c.range(&limits::ALTITUDE_M, file.altitude_m)?;
+        let min_elevation_deg = c.or_default(
+            &limits::MIN_ELEVATION_DEG,
+            file.min_elevation_deg,
+            &dflt::MIN_ELEVATION_DEG,
+        )?;
+        let horizon_mask = horizon_mask(&c, file.horizon_mask.unwrap_or_default())?;
+        let antenna = file
+            .antenna
+            .as_ref()
+            .map(|a| antenna(&mut c, a))
+            .transpose()?;
+        let receiver = file
+            .receiver
+            .as_ref()
+            .map(|r| receiver(&mut c, r))
+            .transpose()?;
+        let climate = climate(&mut c, &file.climate.unwrap_or_default())?;
         Ok(Station {
             name: file.name.trim().to_string(),
             source: path.to_path_buf(),
@@ -272,268 +190,154 @@ impl Station {
             antenna,
             receiver,
             climate,
-            defaults,
+            defaults: c.defaults,
         })
     }
+}
 
-    fn antenna(
-        c: &Checker,
-        a: &AntennaFile,
-        defaults: &mut Vec<DefaultUsed>,
-    ) -> Result<GroundAntenna, ConfigError> {
-        let mut dflt = |key: &str, value: f64, source: &str| {
-            defaults.push(DefaultUsed {
-                key: format!("antenna.{key}"),
-                value: format!("{value}"),
-                source: source.into(),
-            });
-            value
-        };
-        let diameter_m = match a.diameter_m {
-            Some(d) => Some(c.range(&["antenna", "diameter_m"], d, 0.05, 100.0, "m")?),
-            None => None,
-        };
-        let gain = match (a.gain_dbi, diameter_m, a.efficiency) {
-            (Some(g), d, None) => GainSpec::Given {
-                gain_dbi: c.range(&["antenna", "gain_dbi"], g, -10.0, 90.0, "dBi")?,
-                diameter_m: d,
-            },
-            (Some(_), _, Some(_)) => {
-                return Err(c.err(
-                    &["antenna", "gain_dbi"],
-                    "give either gain_dbi or diameter_m with efficiency, not both",
-                ))
-            }
-            (None, Some(d), Some(e)) => {
-                if !(e > 0.0 && e <= 1.0) {
-                    return Err(c.err(&["antenna", "efficiency"], format!("{e} is outside (0, 1]")));
-                }
-                GainSpec::Aperture {
-                    diameter_m: d,
-                    efficiency: e,
-                }
-            }
-            (None, Some(d), None) => {
-                // 0.55 is the usual planning figure for a prime-focus parabolic reflector (common practice).
-                GainSpec::Aperture {
-                    diameter_m: d,
-                    efficiency: dflt(
-                        "efficiency",
-                        0.55,
-                        "common practice for a parabolic reflector",
-                    ),
-                }
-            }
-            (None, None, _) => {
-                return Err(c.err(
-                    &["antenna"],
-                    "needs diameter_m (with efficiency) or gain_dbi",
-                ))
-            }
-        };
-        let pointing_error_deg = match a.pointing_error_deg {
-            Some(v) => c.range(&["antenna", "pointing_error_deg"], v, 0.0, 10.0, "deg")?,
-            None => dflt("pointing_error_deg", 0.0, "perfect pointing assumed"),
-        };
-        let polarization = match &a.polarization {
-            Some(s) => PolarizationSense::parse(s).ok_or_else(|| {
-                c.err(
-                    &["antenna", "polarization"],
-                    format!("'{s}' is not one of rhcp, lhcp, linear"),
-                )
-            })?,
-            None => {
-                dflt("polarization", 0.0, "rhcp (value shown as 0)");
-                PolarizationSense::Rhcp
-            }
-        };
-        let axial_ratio_db = match a.axial_ratio_db {
-            Some(v) => c.range(&["antenna", "axial_ratio_db"], v, 0.0, 60.0, "dB")?,
-            None => dflt("axial_ratio_db", 1.0, "common practice for a ground feed"),
-        };
-        let spillover_fraction = match a.spillover_fraction {
-            Some(v) => c.range(&["antenna", "spillover_fraction"], v, 0.0, 0.5, "")?,
-            None => dflt(
-                "spillover_fraction",
-                0.05,
-                "common practice for a reflector antenna",
-            ),
-        };
-        let ground_temperature_k = match a.ground_temperature_k {
-            Some(v) => c.range(&["antenna", "ground_temperature_k"], v, 150.0, 350.0, "K")?,
-            None => dflt("ground_temperature_k", 290.0, "reference temperature T0"),
-        };
-        let radome_loss_db = match a.radome_loss_db {
-            Some(v) => c.range(&["antenna", "radome_loss_db"], v, 0.0, 10.0, "dB")?,
-            None => 0.0,
-        };
-        Ok(GroundAntenna {
-            gain,
-            pointing_error_deg,
-            polarization,
-            axial_ratio_db,
-            spillover_fraction,
-            ground_temperature_k,
-            radome_loss_db,
-        })
+/// Horizon mask points `[azimuth_deg, elevation_deg]`, checked and sorted by azimuth.
+fn horizon_mask(c: &Checker, mut mask: Vec<[f64; 2]>) -> Result<Vec<[f64; 2]>, ConfigError> {
+    let az = limits::MASK_AZIMUTH_DEG;
+    for (i, p) in mask.iter().enumerate() {
+        // The upper end of the azimuth range is excluded: the mask wraps at 360.
+        if !az.contains(p[0]) || p[0] == az.max {
+            let msg = format!(
+                "azimuth {} is out of range ({} up to but not including {} deg; the mask wraps at 360)",
+                limits::short_number(p[0]),
+                az.min,
+                az.max
+            );
+            return Err(c.item_err(az.key, "point", i, msg));
+        }
+        if let Err(e) = limits::MASK_ELEVATION_DEG.check(p[1]) {
+            return Err(c.item_err(az.key, "point", i, format!("elevation {e}")));
+        }
     }
+    mask.sort_by(|a, b| a[0].total_cmp(&b[0]));
+    if let Some(w) = mask.windows(2).find(|w| w[0][0] == w[1][0]) {
+        let msg = format!(
+            "two points at azimuth {} deg",
+            limits::short_number(w[0][0])
+        );
+        return Err(c.err(az.key, msg));
+    }
+    Ok(mask)
+}
 
-    fn receiver(
-        c: &Checker,
-        r: &ReceiverFile,
-        defaults: &mut Vec<DefaultUsed>,
-    ) -> Result<Receiver, ConfigError> {
-        let mut dflt = |key: &str, value: f64, source: &str| {
-            defaults.push(DefaultUsed {
-                key: format!("receiver.{key}"),
-                value: format!("{value}"),
-                source: source.into(),
-            });
-            value
-        };
-        let lna_noise_temperature_k = match (r.lna_noise_temperature_k, r.lna_noise_figure_db) {
-            (Some(_), Some(_)) => {
-                return Err(c.err(
-                    &["receiver", "lna_noise_figure_db"],
-                    "give lna_noise_temperature_k or lna_noise_figure_db, not both",
-                ))
-            }
-            (Some(t), None) => c.range(
-                &["receiver", "lna_noise_temperature_k"],
-                t,
-                1.0,
-                5000.0,
-                "K",
-            )?,
-            (None, Some(nf)) => {
-                let nf = c.range(&["receiver", "lna_noise_figure_db"], nf, 0.01, 15.0, "dB")?;
-                crate::units::noise_figure_db_to_temperature_k(nf)
-            }
-            (None, None) => {
-                return Err(c.err(
-                    &["receiver"],
-                    "needs lna_noise_temperature_k or lna_noise_figure_db",
-                ))
-            }
-        };
-        let lna_gain_db = match r.lna_gain_db {
-            Some(v) => c.range(&["receiver", "lna_gain_db"], v, 0.0, 80.0, "dB")?,
-            None => dflt(
-                "lna_gain_db",
-                30.0,
-                "common practice for a feed-mounted LNA",
-            ),
-        };
-        let feed_loss_db = match r.feed_loss_db {
-            Some(v) => c.range(&["receiver", "feed_loss_db"], v, 0.0, 10.0, "dB")?,
-            None => dflt("feed_loss_db", 0.0, "LNA at the feed, no loss before it"),
-        };
-        let feed_temperature_k = match r.feed_temperature_k {
-            Some(v) => c.range(&["receiver", "feed_temperature_k"], v, 4.0, 400.0, "K")?,
-            None => dflt("feed_temperature_k", 290.0, "reference temperature T0"),
-        };
-        let followon_noise_figure_db = match r.followon_noise_figure_db {
-            Some(v) => c.range(
-                &["receiver", "followon_noise_figure_db"],
-                v,
-                0.0,
-                30.0,
-                "dB",
-            )?,
-            None => dflt(
-                "followon_noise_figure_db",
-                10.0,
-                "common practice for a down-converter after the LNA",
-            ),
-        };
-        Ok(Receiver {
-            lna_noise_temperature_k,
-            lna_gain_db,
-            feed_loss_db,
-            feed_temperature_k,
-            followon_noise_figure_db,
-        })
-    }
+/// The ground antenna block.
+fn antenna(c: &mut Checker, a: &AntennaFile) -> Result<GroundAntenna, ConfigError> {
+    use limits as l;
+    let gain = antenna_gain(c, a)?;
+    let pointing_error_deg = c.or_default(
+        &l::POINTING_ERROR_DEG,
+        a.pointing_error_deg,
+        &dflt::POINTING_ERROR_DEG,
+    )?;
+    let polarization = match a.polarization {
+        Some(p) => p,
+        None => c.default(&dflt::GROUND_POLARIZATION),
+    };
+    Ok(GroundAntenna {
+        gain,
+        pointing_error_deg,
+        polarization,
+        axial_ratio_db: c.or_default(
+            &l::GROUND_AXIAL_RATIO_DB,
+            a.axial_ratio_db,
+            &dflt::GROUND_AXIAL_RATIO_DB,
+        )?,
+        spillover_fraction: c.or_default(
+            &l::SPILLOVER_FRACTION,
+            a.spillover_fraction,
+            &dflt::SPILLOVER_FRACTION,
+        )?,
+        ground_temperature_k: c.or_default(
+            &l::GROUND_TEMPERATURE_K,
+            a.ground_temperature_k,
+            &dflt::GROUND_TEMPERATURE_K,
+        )?,
+        radome_loss_db: c.or_default(
+            &l::RADOME_LOSS_DB,
+            a.radome_loss_db,
+            &dflt::RADOME_LOSS_DB,
+        )?,
+    })
+}
 
-    fn climate(
-        c: &Checker,
-        f: Option<&ClimateFile>,
-        defaults: &mut Vec<DefaultUsed>,
-    ) -> Result<Climate, ConfigError> {
-        let empty = ClimateFile {
-            pressure_hpa: None,
-            temperature_k: None,
-            water_vapour_density_g_m3: None,
-            rain_rate_001_mm_h: None,
-            rain_height_km: None,
-            cloud_liquid_kg_m2: None,
-            wet_refractivity: None,
-        };
-        let f = f.unwrap_or(&empty);
-        let mut dflt = |key: &str, value: f64, source: &str| {
-            defaults.push(DefaultUsed {
-                key: format!("climate.{key}"),
-                value: format!("{value}"),
-                source: source.into(),
-            });
-            value
-        };
-        const P835: &str = "ITU-R P.835-6 mean annual global reference atmosphere";
-        let pressure_hpa = match f.pressure_hpa {
-            Some(v) => c.range(&["climate", "pressure_hpa"], v, 300.0, 1100.0, "hPa")?,
-            None => dflt("pressure_hpa", 1013.25, P835),
-        };
-        let temperature_k = match f.temperature_k {
-            Some(v) => c.range(&["climate", "temperature_k"], v, 200.0, 330.0, "K")?,
-            None => dflt("temperature_k", 288.15, P835),
-        };
-        let water_vapour_density_g_m3 = match f.water_vapour_density_g_m3 {
-            Some(v) => c.range(
-                &["climate", "water_vapour_density_g_m3"],
-                v,
-                0.0,
-                40.0,
-                "g/m3",
-            )?,
-            None => dflt("water_vapour_density_g_m3", 7.5, P835),
-        };
-        let opt = |key: &str,
-                   v: Option<f64>,
-                   lo: f64,
-                   hi: f64,
-                   unit: &str|
-         -> Result<Option<f64>, ConfigError> {
-            v.map(|x| c.range(&["climate", key], x, lo, hi, unit))
-                .transpose()
-        };
-        Ok(Climate {
-            pressure_hpa,
-            temperature_k,
-            water_vapour_density_g_m3,
-            rain_rate_001_mm_h: opt(
-                "rain_rate_001_mm_h",
-                f.rain_rate_001_mm_h,
-                0.0,
-                300.0,
-                "mm/h",
-            )?,
-            rain_height_km: opt("rain_height_km", f.rain_height_km, 0.0, 8.0, "km")?,
-            cloud_liquid_kg_m2: opt(
-                "cloud_liquid_kg_m2",
-                f.cloud_liquid_kg_m2,
-                0.0,
-                10.0,
-                "kg/m2",
-            )?,
-            wet_refractivity: opt(
-                "wet_refractivity",
-                f.wet_refractivity,
-                0.0,
-                200.0,
-                "N-units",
-            )?,
-        })
+/// The ground antenna's gain: given in dBi, or from a diameter and an aperture efficiency.
+fn antenna_gain(c: &mut Checker, a: &AntennaFile) -> Result<GainSpec, ConfigError> {
+    let diameter_m = c.optional(&limits::ANTENNA_DIAMETER_M, a.diameter_m)?;
+    match (a.gain_dbi, diameter_m, a.efficiency) {
+        (Some(_), _, Some(_)) => Err(c.err(
+            limits::ANTENNA_GAIN_DBI.key,
+            "give either gain_dbi or diameter_m with efficiency, not both",
+        )),
+        (Some(g), d, None) => Ok(GainSpec::Given {
+            gain_dbi: c.range(&limits::ANTENNA_GAIN_DBI, g)?,
+            diameter_m: d,
+        }),
+        (None, Some(d), e) => Ok(GainSpec::Aperture {
+            diameter_m: d,
+            efficiency: c.or_default(&limits::ANTENNA_EFFICIENCY, e, &dflt::ANTENNA_EFFICIENCY)?,
+        }),
+        (None, None, _) => Err(c.err("antenna", "needs diameter_m (with efficiency) or gain_dbi")),
     }
+}
+
+/// The receiving chain block.
+fn receiver(c: &mut Checker, r: &ReceiverFile) -> Result<Receiver, ConfigError> {
+    use limits as l;
+    let lna_noise_temperature_k = match (r.lna_noise_temperature_k, r.lna_noise_figure_db) {
+        (Some(_), Some(_)) => {
+            return Err(c.err(
+                l::LNA_NOISE_FIGURE_DB.key,
+                "give lna_noise_temperature_k or lna_noise_figure_db, not both",
+            ))
+        }
+        (Some(t), None) => c.range(&l::LNA_NOISE_TEMPERATURE_K, t)?,
+        (None, Some(nf)) => {
+            crate::units::noise_figure_db_to_temperature_k(c.range(&l::LNA_NOISE_FIGURE_DB, nf)?)
+        }
+        (None, None) => {
+            return Err(c.err(
+                "receiver",
+                "needs lna_noise_temperature_k or lna_noise_figure_db",
+            ))
+        }
+    };
+    Ok(Receiver {
+        lna_noise_temperature_k,
+        lna_gain_db: c.or_default(&l::LNA_GAIN_DB, r.lna_gain_db, &dflt::LNA_GAIN_DB)?,
+        feed_loss_db: c.or_default(&l::FEED_LOSS_DB, r.feed_loss_db, &dflt::FEED_LOSS_DB)?,
+        feed_temperature_k: c.or_default(
+            &l::FEED_TEMPERATURE_K,
+            r.feed_temperature_k,
+            &dflt::FEED_TEMPERATURE_K,
+        )?,
+        followon_noise_figure_db: c.or_default(
+            &l::FOLLOWON_NOISE_FIGURE_DB,
+            r.followon_noise_figure_db,
+            &dflt::FOLLOWON_NOISE_FIGURE_DB,
+        )?,
+    })
+}
+
+/// The climate block (absent: every key from its default or unset).
+fn climate(c: &mut Checker, f: &ClimateFile) -> Result<Climate, ConfigError> {
+    use limits as l;
+    Ok(Climate {
+        pressure_hpa: c.or_default(&l::PRESSURE_HPA, f.pressure_hpa, &dflt::PRESSURE_HPA)?,
+        temperature_k: c.or_default(&l::TEMPERATURE_K, f.temperature_k, &dflt::TEMPERATURE_K)?,
+        water_vapour_density_g_m3: c.or_default(
+            &l::WATER_VAPOUR_DENSITY_G_M3,
+            f.water_vapour_density_g_m3,
+            &dflt::WATER_VAPOUR_DENSITY_G_M3,
+        )?,
+        rain_rate_001_mm_h: c.optional(&l::RAIN_RATE_001_MM_H, f.rain_rate_001_mm_h)?,
+        rain_height_km: c.optional(&l::RAIN_HEIGHT_KM, f.rain_height_km)?,
+        cloud_liquid_kg_m2: c.optional(&l::CLOUD_LIQUID_KG_M2, f.cloud_liquid_kg_m2)?,
+        wet_refractivity: c.optional(&l::WET_REFRACTIVITY, f.wet_refractivity)?,
+    })
 }
 
 #[cfg(test)]
@@ -580,5 +384,51 @@ mod tests {
         .unwrap_err();
         assert_eq!(e.line, Some(7));
         assert!(e.to_string().contains("antenna.efficiency"), "{e}");
+    }
+
+    #[test]
+    fn polarization_default_is_recorded_by_name() {
+        let s = load(&format!("{GOOD}antenna:\n  diameter_m: 3\n")).unwrap();
+        assert_eq!(s.antenna.unwrap().polarization, PolarizationSense::Rhcp);
+        let d = s
+            .defaults
+            .iter()
+            .find(|d| d.key == "antenna.polarization")
+            .unwrap();
+        assert_eq!(d.value, "rhcp");
+        let d = s
+            .defaults
+            .iter()
+            .find(|d| d.key == "antenna.efficiency")
+            .unwrap();
+        assert_eq!(d.value, "0.55");
+    }
+
+    #[test]
+    fn polarization_names_any_case_and_wrong_name_with_line() {
+        for (name, want) in [
+            ("RHCP", PolarizationSense::Rhcp),
+            ("right", PolarizationSense::Rhcp),
+            ("lhcp", PolarizationSense::Lhcp),
+            ("Linear", PolarizationSense::Linear),
+        ] {
+            let s = load(&format!(
+                "{GOOD}antenna:\n  diameter_m: 3\n  polarization: {name}\n"
+            ));
+            assert_eq!(s.unwrap().antenna.unwrap().polarization, want, "{name}");
+        }
+        let e = load(&format!(
+            "{GOOD}antenna:\n  diameter_m: 3\n  polarization: rh\n"
+        ))
+        .unwrap_err();
+        assert_eq!(e.line, Some(7));
+        assert!(e.message.contains("unknown variant `rh`"), "{e}");
+    }
+
+    #[test]
+    fn mask_azimuth_wraps_at_360() {
+        let e = load(&format!("{GOOD}horizon_mask:\n  - [0, 3]\n  - [360, 5]\n")).unwrap_err();
+        assert_eq!(e.line, Some(7));
+        assert!(e.message.contains("azimuth 360"), "{e}");
     }
 }

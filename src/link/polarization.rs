@@ -25,13 +25,57 @@
 
 use crate::units::ratio_to_db;
 
-/// Polarization sense of an antenna.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
+/// Polarization sense of an antenna. In files: `rhcp` (or `right`), `lhcp` (or `left`), `linear`,
+/// in any letter case.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
 #[serde(rename_all = "snake_case")]
 pub enum PolarizationSense {
     Rhcp,
     Lhcp,
     Linear,
+}
+
+impl PolarizationSense {
+    /// The names accepted in files (aliases aside), as serde lists them in messages.
+    pub const NAMES: &'static [&'static str] = &["rhcp", "lhcp", "linear"];
+
+    /// Parse a name: `rhcp`/`right`, `lhcp`/`left`, `linear`, in any letter case.
+    pub fn parse(text: &str) -> Option<Self> {
+        match text.to_ascii_lowercase().as_str() {
+            "rhcp" | "right" => Some(Self::Rhcp),
+            "lhcp" | "left" => Some(Self::Lhcp),
+            "linear" => Some(Self::Linear),
+            _ => None,
+        }
+    }
+
+    /// The name written in files and outputs.
+    pub fn name(self) -> &'static str {
+        match self {
+            Self::Rhcp => "rhcp",
+            Self::Lhcp => "lhcp",
+            Self::Linear => "linear",
+        }
+    }
+}
+
+/// Deserialized through [`PolarizationSense::parse`] (aliases and any letter case); an unknown
+/// name is serde's "unknown variant" error, so a YAML reader reports it with its line.
+impl<'de> serde::Deserialize<'de> for PolarizationSense {
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        struct Sense;
+        impl serde::de::Visitor<'_> for Sense {
+            type Value = PolarizationSense;
+            fn expecting(&self, f: &mut std::fmt::Formatter) -> std::fmt::Result {
+                f.write_str("one of rhcp, lhcp, linear")
+            }
+            fn visit_str<E: serde::de::Error>(self, s: &str) -> Result<PolarizationSense, E> {
+                PolarizationSense::parse(s)
+                    .ok_or_else(|| E::unknown_variant(s, PolarizationSense::NAMES))
+            }
+        }
+        d.deserialize_str(Sense)
+    }
 }
 
 /// An antenna's polarization: sense plus axial ratio in dB (20 log10 of the

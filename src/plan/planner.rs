@@ -220,7 +220,8 @@ impl Planner {
                         sink.progress(total);
                         r
                     }
-                    None => tradeoff_pass(self, si, pass, scratch).map(|m| Item::Tradeoff(si, m)),
+                    None => tradeoff_pass(self, si, pass, scratch)
+                        .map(|m| Item::Tradeoff(si, Box::new(m))),
                 },
             )
             .collect();
@@ -356,5 +357,5 @@ impl Planner {
 
 enum Item {
     Planned(Box<PassPlan>),
-    Tradeoff(usize, MaskAccumulator),
+    Tradeoff(usize, Box<MaskAccumulator>),
 }

@@ -7,23 +7,22 @@
 use crate::atmosphere::{
     mean_radiating_temperature_k, AtmosphereSite, PathSpec, PreparedAtmosphere, Weather,
 };
-use crate::config::mission::{Mission, TxPatternConfig};
-use crate::config::station::{GainSpec, PolarizationSense as CfgSense, Station};
+use crate::config::mission::Mission;
+use crate::config::station::{GainSpec, Station};
 use crate::config::ConfigError;
 use crate::geometry::{HorizonMask, Observer};
-use crate::link::antenna::{
-    dish_beamwidth_deg, GroundAntennaSpec, TransmitterSpec, TxPattern, TxPower,
-};
+use crate::link::antenna::{dish_beamwidth_deg, GroundAntennaSpec, TransmitterSpec, TxPower};
 use crate::link::budget::{LinkModel, LinkModelSpec, PolarizationSpec, RateSpec};
 use crate::link::modcod::{operating_point, scheme_index};
-use crate::link::polarization::{EllipseOrientation, Polarization, PolarizationSense};
+use crate::link::polarization::{EllipseOrientation, Polarization};
 use crate::noise::system::{GroundPickupSpec, LnaNoise, ReceiverSpec};
 use crate::plan::rate::RateOption;
 use crate::units::wavelength_m;
 
 /// Aperture efficiency assumed when a station gives its gain but no diameter, to estimate the
-/// equivalent diameter for beamwidth and scintillation (common practice for a parabolic reflector).
-pub const ASSUMED_EFFICIENCY: f64 = 0.55;
+/// equivalent diameter for beamwidth and scintillation: the default aperture efficiency of the
+/// defaults table (common practice for a parabolic reflector).
+pub const ASSUMED_EFFICIENCY: f64 = crate::config::defaults::ANTENNA_EFFICIENCY.value;
 
 /// Error preparing a mission for the budget or the plan.
 #[derive(Debug, thiserror::Error)]
@@ -106,15 +105,6 @@ impl RateSet {
     }
 }
 
-/// Map the configured polarization sense to the link model's.
-fn sense(s: CfgSense) -> PolarizationSense {
-    match s {
-        CfgSense::Rhcp => PolarizationSense::Rhcp,
-        CfgSense::Lhcp => PolarizationSense::Lhcp,
-        CfgSense::Linear => PolarizationSense::Linear,
-    }
-}
-
 /// Prepare one station for this mission's transmitter.
 pub fn station_model(
     mission: &Mission,
@@ -153,16 +143,6 @@ pub fn station_model(
             pointing_error_deg: ant.pointing_error_deg,
         },
     };
-    let pattern = match &tx.pattern {
-        TxPatternConfig::Fixed { gain_dbi } => TxPattern::Fixed {
-            gain_dbi: *gain_dbi,
-        },
-        TxPatternConfig::CosN { boresight_gain_dbi } => TxPattern::CosN {
-            boresight_gain_dbi: *boresight_gain_dbi,
-            n: None,
-        },
-        TxPatternConfig::Table { points } => TxPattern::Table(points.clone()),
-    };
     // A radome (or any loss in front of the feed) at the ground temperature attenuates the signal
     // and adds noise: it is folded into the receiver's first passive stage together with the feed
     // loss. Two passive losses L1 (at T1) then L2 (at T2) equal one loss L1 L2 at
@@ -178,7 +158,7 @@ pub fn station_model(
         transmitter: TransmitterSpec {
             power: TxPower::Dbw(tx.power_dbw),
             line_loss_db: tx.line_loss_db + tx.other_loss_db,
-            pattern,
+            pattern: tx.pattern.clone(),
         },
         ground_antenna: ground_spec,
         receiver: ReceiverSpec {
@@ -194,11 +174,11 @@ pub fn station_model(
         },
         polarization: PolarizationSpec {
             spacecraft: Polarization {
-                sense: sense(tx.polarization),
+                sense: tx.polarization,
                 axial_ratio_db: tx.axial_ratio_db,
             },
             ground: Polarization {
-                sense: sense(ant.polarization),
+                sense: ant.polarization,
                 axial_ratio_db: ant.axial_ratio_db,
             },
             orientation: EllipseOrientation::WorstCase,
@@ -334,10 +314,7 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
     if m.ladder.is_empty() {
         return Err(model_err(
             path,
-            crate::config::locate::key_line(
-                &std::fs::read_to_string(path).unwrap_or_default(),
-                &["modem"],
-            ),
+            m.line,
             "modem.ladder has no rates; give at least one { rate_bps, scheme }",
         ));
     }
