@@ -9,7 +9,8 @@ use super::{
     PassChartData, PassChartSample, SkyChartData, SkyPass, SkyPoint, SummaryBar, SummaryChartData,
 };
 use crate::plan::inputs::satellite_name;
-use crate::plan::summary::{tradeoff, Scope};
+use crate::plan::summary::tradeoff;
+use crate::plan::Scope;
 use crate::plan::{PassSeries, PassSink, Plan, Planner};
 use chrono::NaiveDate;
 use std::collections::BTreeMap;

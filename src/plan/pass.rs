@@ -3,15 +3,46 @@
 
 use super::mask::MaskAccumulator;
 use super::network::Segment;
+use super::prepare::{RateSet, StationModel};
+use super::rate::OptionId;
 use super::rate::{adaptive_schedule, choose_fixed, kept_runs, switch_count};
+use super::results::{Closing, Crossing, ModeResult, PassPlan, PassSeries, PlanError};
 use super::series::{fill_pass, PassWarnings, StepPlan};
-use super::{
-    Closing, Crossing, ModeResult, OptionId, PassPlan, PassSeries, PassSink, PlanError, Planner,
-};
+use super::sink::PassSink;
+use crate::atmosphere::Weather;
 use crate::geometry::Pass;
 use crate::orbit::{ElementSet, PropagationError, Propagator};
 use crate::plan::series::Step;
 use crate::timefmt::{add_seconds, seconds_between};
+use chrono::{DateTime, Utc};
+
+/// What planning one pass needs from the planner.
+pub(super) struct PassContext<'a> {
+    pub stations: &'a [StationModel],
+    pub rates: &'a RateSet,
+    pub step_s: f64,
+    pub frequency_hz: f64,
+    pub rain: Option<Weather>,
+    pub window_start: DateTime<Utc>,
+}
+
+impl PassContext<'_> {
+    fn stations(&self) -> &[StationModel] {
+        self.stations
+    }
+    fn rates(&self) -> &RateSet {
+        self.rates
+    }
+    fn step_s(&self) -> f64 {
+        self.step_s
+    }
+    fn frequency_hz(&self) -> f64 {
+        self.frequency_hz
+    }
+    fn rain(&self) -> Option<Weather> {
+        self.rain
+    }
+}
 
 /// Per-thread scratch buffers: reused across passes so the per-step loop allocates nothing.
 pub(super) struct Scratch {
@@ -43,7 +74,7 @@ impl Scratch {
     /// Follow `pass` and fill the step, C/N0 and weight buffers.
     fn fill(
         &mut self,
-        planner: &Planner,
+        planner: &PassContext,
         station_index: usize,
         pass: &Pass,
     ) -> Result<PassWarnings, super::series::SeriesError> {
@@ -67,7 +98,7 @@ impl Scratch {
     }
 
     /// Mask accumulators of the pass in the buffers: contact and, per ladder rate, its counted runs.
-    fn mask_accumulator(&mut self, planner: &Planner) -> MaskAccumulator {
+    fn mask_accumulator(&mut self, planner: &PassContext) -> MaskAccumulator {
         let rates = planner.rates();
         let mut acc = MaskAccumulator::new(rates.ladder.len());
         acc.passes = 1;
@@ -100,7 +131,7 @@ impl Scratch {
 
 /// The mask accumulators of a pass searched from 0 deg, for the trade-off only.
 pub(super) fn tradeoff_pass(
-    planner: &Planner,
+    planner: &PassContext,
     station_index: usize,
     pass: &Pass,
     s: &mut Scratch,
@@ -116,7 +147,7 @@ pub(super) fn tradeoff_pass(
 
 /// Plan one pass and hand it with its time series to the sink.
 pub(super) fn plan_pass<S: PassSink>(
-    planner: &Planner,
+    planner: &PassContext,
     number: usize,
     station_index: usize,
     pass: &Pass,
@@ -175,13 +206,13 @@ pub(super) fn plan_pass<S: PassSink>(
 /// The counted runs of the chosen fixed rate (left in `s.runs` for the sink) as network segments,
 /// seconds from the window start.
 fn chosen_segments(
-    planner: &Planner,
+    planner: &PassContext,
     pass: &Pass,
     clear: &ModeResult,
     s: &mut Scratch,
 ) -> Vec<Segment> {
     let rates = planner.rates();
-    let offset_s = seconds_between(&planner.window().start(), &pass.aos);
+    let offset_s = seconds_between(&planner.window_start, &pass.aos);
     let mut segments = Vec::new();
     s.runs.clear();
     if let Some(OptionId(k)) = clear.option {
@@ -278,7 +309,7 @@ fn closing(
 }
 
 fn mode_result(
-    planner: &Planner,
+    planner: &PassContext,
     pass: &Pass,
     steps: &[Step],
     cn0: &[f64],

@@ -2,11 +2,13 @@
 
 use super::inputs::{element_age_warning, load_satellite};
 use super::mask::MaskAccumulator;
-use super::pass::{plan_pass, tradeoff_pass, Scratch};
+use super::pass::{plan_pass, tradeoff_pass, PassContext, Scratch};
 use super::prepare::{availability_weather, rate_set, station_model, RateSet, StationModel};
+use super::results::{NetworkTotal, PassPlan, Plan, PlanError};
 use super::series::PassWarnings;
+use super::sink::{Collect, PassSink};
 use super::window::{Window, WindowRequest};
-use super::{network, summary, PassPlan, PassSeries, Plan, PlanError};
+use super::{network, summary};
 use crate::atmosphere::Weather;
 use crate::config::limits::{EXCEEDANCE_PERCENT, MIN_ELEVATION_DEG, STEP_S};
 use crate::config::mission::Mission;
@@ -26,40 +28,6 @@ pub struct PlanRequest {
     pub mask_deg: Option<f64>,
     /// Also accumulate the mask trade-off over the passes searched from 0 deg (in the same run).
     pub tradeoff: bool,
-}
-
-/// Receives each pass with its time series as soon as it is planned (from worker threads, in no
-/// particular order), as a search library hands its matches to a sink.
-pub trait PassSink: Sync {
-    type Error: std::error::Error + Send + Sync + 'static;
-    /// One planned pass.
-    fn pass(&self, series: &PassSeries<'_>) -> Result<(), Self::Error>;
-    /// Called once per planned pass with the number of passes to plan.
-    fn progress(&self, _total: usize) {}
-}
-
-/// The sink that keeps nothing: use it to collect the plan's results only.
-pub struct Collect;
-
-impl PassSink for Collect {
-    type Error = std::convert::Infallible;
-    fn pass(&self, _: &PassSeries<'_>) -> Result<(), Self::Error> {
-        Ok(())
-    }
-}
-
-/// A closure as a sink.
-pub struct FnSink<F>(pub F);
-
-impl<F, E> PassSink for FnSink<F>
-where
-    F: Fn(&PassSeries<'_>) -> Result<(), E> + Sync,
-    E: std::error::Error + Send + Sync + 'static,
-{
-    type Error = E;
-    fn pass(&self, series: &PassSeries<'_>) -> Result<(), E> {
-        (self.0)(series)
-    }
 }
 
 /// A mission prepared for planning one window.
@@ -191,7 +159,7 @@ impl Planner {
 
     /// Plan every pass without a sink.
     pub fn collect(&self) -> Result<Plan, PlanError> {
-        self.run(&super::Collect)
+        self.run(&Collect)
     }
 
     /// Plan every pass of every station, handing each to `sink`.
@@ -203,6 +171,14 @@ impl Planner {
             None => Vec::new(),
         };
         let total = found.len();
+        let ctx = PassContext {
+            stations: &self.stations,
+            rates: &self.rates,
+            step_s: self.step_s,
+            frequency_hz: self.frequency_hz,
+            rain: self.rain,
+            window_start: self.window.start(),
+        };
         let work: Vec<(Option<usize>, usize, &Pass)> = found
             .iter()
             .enumerate()
@@ -215,12 +191,12 @@ impl Planner {
                 || Scratch::new(&self.elements),
                 |scratch, &(number, si, pass)| match number {
                     Some(n) => {
-                        let r = plan_pass(self, n, si, pass, scratch, sink)
+                        let r = plan_pass(&ctx, n, si, pass, scratch, sink)
                             .map(|p| Item::Planned(Box::new(p)));
                         sink.progress(total);
                         r
                     }
-                    None => tradeoff_pass(self, si, pass, scratch)
+                    None => tradeoff_pass(&ctx, si, pass, scratch)
                         .map(|m| Item::Tradeoff(si, Box::new(m))),
                 },
             )
@@ -288,7 +264,7 @@ impl Planner {
             segments.extend_from_slice(&p.segments);
         }
         let (volume_bits, contact_s) = network::union_volume(&segments);
-        let network = super::NetworkTotal {
+        let network = NetworkTotal {
             volume_bits,
             contact_s,
         };

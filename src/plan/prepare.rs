@@ -16,7 +16,7 @@ use crate::link::budget::{LinkModel, LinkModelSpec, PolarizationSpec, RateSpec};
 use crate::link::modcod::{operating_point, scheme_index};
 use crate::link::polarization::{EllipseOrientation, Polarization};
 use crate::noise::system::{GroundPickupSpec, LnaNoise, ReceiverSpec};
-use crate::plan::rate::RateOption;
+use crate::plan::rate::{OptionId, RateOption};
 use crate::units::wavelength_m;
 
 /// Aperture efficiency assumed when a station gives its gain but no diameter, to estimate the
@@ -97,9 +97,9 @@ impl RateSet {
 
     /// The option the per-step Eb/N0 and margin of a pass are shown for: the chosen rate, else
     /// the lowest-threshold rate.
-    pub fn display_option(&self, chosen: Option<crate::plan::OptionId>) -> (usize, &RateOption) {
+    pub fn display_option(&self, chosen: Option<OptionId>) -> (usize, &RateOption) {
         match chosen {
-            Some(crate::plan::OptionId(k)) => (k, &self.ladder[k]),
+            Some(OptionId(k)) => (k, &self.ladder[k]),
             None => self.lowest_threshold(),
         }
     }

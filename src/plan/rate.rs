@@ -24,6 +24,10 @@
 //! option, the adaptive volume is at least the fixed-rate volume of every option it contains, step
 //! by step.
 
+/// Index of an option of the fixed-rate ladder (`RateSet::ladder`).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub struct OptionId(pub usize);
+
 /// One rate option: a data rate with its scheme's threshold, as seen by the planner.
 #[derive(Debug, Clone, PartialEq)]
 pub struct RateOption {

@@ -1,113 +1,15 @@
 //! What a plan adds up to: totals over the window, per UTC day, the usable mask per station and
-//! rate, and the mask trade-off. Typed and unrounded; [`crate::report`] rounds when it serializes.
+//! rate, and the mask trade-off, computed from the passes. Typed and unrounded.
 
 use super::mask::{MaskAccumulator, MAX_MASK_DEG};
 use super::prepare::{RateSet, StationModel};
-use super::{ModeResult, NetworkTotal, OptionId, PassPlan, Window};
+use super::rate::OptionId;
+use super::results::{
+    DayTotals, ModeResult, NetworkTotal, PassPlan, RainTotals, Scope, Totals, TradeoffPoint,
+    UsableMask,
+};
+use super::window::Window;
 use chrono::NaiveDate;
-
-/// Totals over the window.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Totals {
-    pub passes: usize,
-    pub passes_closing: usize,
-    pub contact_s: f64,
-    pub closed_s: f64,
-    /// Sum over passes of the fixed rate chosen per pass (a satellite over two stations at once counts twice).
-    pub volume_bits: f64,
-    pub adaptive_volume_bits: f64,
-    pub shannon_volume_bits: f64,
-    pub network: NetworkTotal,
-    /// The best single ladder rate used for every pass of the window (a modem set once), and its volume.
-    pub single_rate: Option<(OptionId, f64)>,
-    /// The availability (rain) case, when planned.
-    pub rain: Option<RainTotals>,
-    pub days: f64,
-}
-
-/// Totals of the availability (rain) case.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct RainTotals {
-    pub passes_closing: usize,
-    pub volume_bits: f64,
-    pub adaptive_volume_bits: f64,
-    pub shannon_volume_bits: f64,
-}
-
-impl Totals {
-    /// Fixed-rate volume over Shannon's bound (0 when the bound is 0).
-    pub fn fixed_efficiency(&self) -> f64 {
-        ratio(self.volume_bits, self.shannon_volume_bits)
-    }
-    pub fn adaptive_efficiency(&self) -> f64 {
-        ratio(self.adaptive_volume_bits, self.shannon_volume_bits)
-    }
-}
-
-/// `a / b`, or 0 when `b` is not positive.
-pub fn ratio(a: f64, b: f64) -> f64 {
-    if b > 0.0 {
-        a / b
-    } else {
-        0.0
-    }
-}
-
-/// Totals of one UTC day (passes counted on the day of their AOS).
-#[derive(Debug, Clone, PartialEq)]
-pub struct DayTotals {
-    pub date: NaiveDate,
-    pub passes: usize,
-    pub contact_s: f64,
-    pub volume_bits: f64,
-    pub adaptive_volume_bits: f64,
-    pub shannon_volume_bits: f64,
-    pub rain_volume_bits: Option<f64>,
-}
-
-/// Usable elevation mask of one ladder rate at one station.
-#[derive(Debug, Clone, PartialEq)]
-pub struct UsableMask {
-    pub station_index: usize,
-    pub option: OptionId,
-    /// Lowest elevation at which this rate closes on every pass whenever the satellite is above it;
-    /// `None` if it never closes.
-    pub usable_mask_deg: Option<f64>,
-    pub station_mask_deg: f64,
-    pub passes: usize,
-    pub passes_closing: usize,
-}
-
-/// What a trade-off or a total covers: one station, or every station together.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Scope {
-    Station(usize),
-    /// All stations together (the sum; overlapping passes counted at each station).
-    Network,
-}
-
-impl Scope {
-    /// The name in outputs: the station's name, or "all stations".
-    pub fn label(&self, stations: &[StationModel]) -> String {
-        match self {
-            Scope::Station(i) => stations[*i].station.name.clone(),
-            Scope::Network => NETWORK_LABEL.to_string(),
-        }
-    }
-}
-
-/// The one spelling of the all-stations scope in outputs.
-pub const NETWORK_LABEL: &str = "all stations";
-
-/// One point of the mask trade-off.
-#[derive(Debug, Clone, PartialEq)]
-pub struct TradeoffPoint {
-    pub scope: Scope,
-    pub mask_deg: usize,
-    pub contact_s_per_day: f64,
-    pub option: OptionId,
-    pub volume_bits_per_day: f64,
-}
 
 fn sum_mode(passes: &[PassPlan], f: impl Fn(&ModeResult) -> f64, rain: bool) -> f64 {
     passes

@@ -7,8 +7,8 @@ use crate::link::modcod::Provenance;
 use crate::plan::inputs::satellite_name;
 use crate::plan::prepare::RateSet;
 use crate::plan::rate::RateOption;
+use crate::plan::results::ratio;
 use crate::plan::series::Step;
-use crate::plan::summary::ratio;
 use crate::plan::{
     DayTotals, ModeResult, PassPlan, PassSeries, Plan, Planner, Totals, TradeoffPoint, UsableMask,
 };

@@ -1,0 +1,241 @@
+//! The typed results of planning: per pass, per mode, per day, per station and over the window.
+//! Unrounded; [`crate::report`] rounds when it serializes.
+
+use super::inputs::SatelliteError;
+use super::mask::MaskAccumulator;
+use super::network::Segment;
+use super::prepare::{PrepareError, StationModel};
+use super::rate::OptionId;
+use super::series::{PassWarnings, SeriesError, Step};
+use super::window::{Window, WindowError};
+use crate::geometry::Pass;
+use crate::orbit::PropagationError;
+use chrono::{DateTime, NaiveDate, Utc};
+
+/// One crossing of a rate's threshold: when, and where the satellite was.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Crossing {
+    pub time: DateTime<Utc>,
+    pub elevation_deg: f64,
+    pub azimuth_deg: f64,
+}
+
+/// Where the chosen rate starts and stops counting in a pass (its first and last counted run).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Closing {
+    pub from: Crossing,
+    pub until: Crossing,
+}
+
+/// Results of one mode (fixed-rate choice, adaptive, Shannon) for one weather case of a pass.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ModeResult {
+    /// Chosen ladder option, or `None` when no rate closes for the dwell time.
+    pub option: Option<OptionId>,
+    /// Where the chosen rate closes; `None` when no rate closes.
+    pub closing: Option<Closing>,
+    /// Lowest margin over the counted seconds of the chosen rate, dB.
+    pub min_margin_db: Option<f64>,
+    /// Highest Eb/N0 of the pass at the chosen rate (at the lowest-threshold ladder rate if none closes), dB.
+    pub max_ebn0_db: f64,
+    pub closed_s: f64,
+    pub volume_bits: f64,
+    pub adaptive_volume_bits: f64,
+    pub adaptive_switches: usize,
+    pub shannon_volume_bits: f64,
+    /// Volume each ladder rate would bring in this pass, bits.
+    pub volume_by_rate_bits: Vec<f64>,
+}
+
+/// The plan of one pass.
+#[derive(Debug, Clone)]
+pub struct PassPlan {
+    /// 1-based number in AOS order over all stations.
+    pub number: usize,
+    pub station_index: usize,
+    pub pass: Pass,
+    pub clear: ModeResult,
+    pub rain: Option<ModeResult>,
+    /// Fixed-rate closed intervals (clear sky), seconds from the window start, for the network total.
+    pub segments: Vec<Segment>,
+    pub mask: MaskAccumulator,
+    pub warnings: PassWarnings,
+    pub steps: usize,
+}
+
+/// Everything a sink gets for one pass: the plan and its time series.
+pub struct PassSeries<'a> {
+    pub plan: &'a PassPlan,
+    pub steps: &'a [Step],
+    /// Adaptive option index per step (clear sky), into `RateSet::adaptive`.
+    pub adaptive: &'a [Option<u16>],
+    /// Counted runs (step indices, inclusive) of the chosen fixed rate; empty when none closes.
+    pub chosen_runs: &'a [(usize, usize)],
+}
+
+impl PassSeries<'_> {
+    /// Whether the chosen fixed rate counts step `i`.
+    pub fn counted(&self, i: usize) -> bool {
+        self.chosen_runs.iter().any(|&(a, b)| a <= i && i <= b)
+    }
+}
+
+/// Error of planning.
+#[derive(Debug, thiserror::Error)]
+pub enum PlanError {
+    #[error(transparent)]
+    Prepare(#[from] PrepareError),
+    #[error(transparent)]
+    Satellite(#[from] SatelliteError),
+    #[error(transparent)]
+    Window(#[from] WindowError),
+    /// A request value out of its range or against another rule.
+    #[error("{key}: {message}")]
+    Request { key: &'static str, message: String },
+    #[error("{mission}: the mission lists no stations (stations: [station files])")]
+    NoStations { mission: String },
+    #[error("pass {number} at {station}: {source}")]
+    Pass {
+        number: usize,
+        station: String,
+        #[source]
+        source: SeriesError,
+    },
+    #[error("satellite: {0}")]
+    Propagator(#[source] PropagationError),
+    /// A pass sink failed (writing a file, drawing a chart).
+    #[error("{0}")]
+    Sink(#[source] Box<dyn std::error::Error + Send + Sync>),
+}
+
+/// The network total: each second counted once, at the station with the highest fixed rate.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct NetworkTotal {
+    pub volume_bits: f64,
+    pub contact_s: f64,
+}
+
+/// The plan of a window: typed and unrounded (rounding belongs to [`crate::report`]).
+#[derive(Debug, Clone)]
+pub struct Plan {
+    pub passes: Vec<PassPlan>,
+    /// Per station: the pass search stopped early (propagation error), with the error.
+    pub stopped: Vec<Option<PropagationError>>,
+    pub propagations_search: u64,
+    /// Mask accumulators per station (merged over its passes above the configured mask).
+    pub station_masks: Vec<MaskAccumulator>,
+    /// Mask accumulators per station over the passes searched from 0 deg, when the trade-off was asked.
+    pub tradeoff_masks: Option<Vec<MaskAccumulator>>,
+    pub network: NetworkTotal,
+    pub totals: Totals,
+    pub days: Vec<DayTotals>,
+    pub usable_masks: Vec<UsableMask>,
+    /// Every warning of the plan: models out of range, element age, stopped searches, thresholds.
+    pub warnings: Vec<String>,
+    /// The availability (rain) case was planned.
+    pub rain_planned: bool,
+    pub window: Window,
+}
+
+/// Totals over the window.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Totals {
+    pub passes: usize,
+    pub passes_closing: usize,
+    pub contact_s: f64,
+    pub closed_s: f64,
+    /// Sum over passes of the fixed rate chosen per pass (a satellite over two stations at once counts twice).
+    pub volume_bits: f64,
+    pub adaptive_volume_bits: f64,
+    pub shannon_volume_bits: f64,
+    pub network: NetworkTotal,
+    /// The best single ladder rate used for every pass of the window (a modem set once), and its volume.
+    pub single_rate: Option<(OptionId, f64)>,
+    /// The availability (rain) case, when planned.
+    pub rain: Option<RainTotals>,
+    pub days: f64,
+}
+
+/// Totals of the availability (rain) case.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct RainTotals {
+    pub passes_closing: usize,
+    pub volume_bits: f64,
+    pub adaptive_volume_bits: f64,
+    pub shannon_volume_bits: f64,
+}
+
+impl Totals {
+    /// Fixed-rate volume over Shannon's bound (0 when the bound is 0).
+    pub fn fixed_efficiency(&self) -> f64 {
+        ratio(self.volume_bits, self.shannon_volume_bits)
+    }
+    pub fn adaptive_efficiency(&self) -> f64 {
+        ratio(self.adaptive_volume_bits, self.shannon_volume_bits)
+    }
+}
+
+/// `a / b`, or 0 when `b` is not positive.
+pub fn ratio(a: f64, b: f64) -> f64 {
+    if b > 0.0 {
+        a / b
+    } else {
+        0.0
+    }
+}
+
+/// Totals of one UTC day (passes counted on the day of their AOS).
+#[derive(Debug, Clone, PartialEq)]
+pub struct DayTotals {
+    pub date: NaiveDate,
+    pub passes: usize,
+    pub contact_s: f64,
+    pub volume_bits: f64,
+    pub adaptive_volume_bits: f64,
+    pub shannon_volume_bits: f64,
+    pub rain_volume_bits: Option<f64>,
+}
+
+/// Usable elevation mask of one ladder rate at one station.
+#[derive(Debug, Clone, PartialEq)]
+pub struct UsableMask {
+    pub station_index: usize,
+    pub option: OptionId,
+    /// Lowest elevation at which this rate closes on every pass whenever the satellite is above it;
+    /// `None` if it never closes.
+    pub usable_mask_deg: Option<f64>,
+    pub station_mask_deg: f64,
+    pub passes: usize,
+    pub passes_closing: usize,
+}
+
+/// What a trade-off or a total covers: one station, or every station together.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Scope {
+    Station(usize),
+    /// All stations together (the sum; overlapping passes counted at each station).
+    Network,
+}
+
+impl Scope {
+    /// The name in outputs: the station's name, or "all stations".
+    pub fn label(&self, stations: &[StationModel]) -> String {
+        match self {
+            Scope::Station(i) => stations[*i].station.name.clone(),
+            Scope::Network => NETWORK_LABEL.to_string(),
+        }
+    }
+}
+
+/// The one spelling of the all-stations scope in outputs.
+pub const NETWORK_LABEL: &str = "all stations";
+
+/// One point of the mask trade-off.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TradeoffPoint {
+    pub scope: Scope,
+    pub mask_deg: usize,
+    pub contact_s_per_day: f64,
+    pub option: OptionId,
+    pub volume_bits_per_day: f64,
+}
