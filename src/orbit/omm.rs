@@ -127,13 +127,6 @@ fn json_fields(object: usize, entries: &[(String, serde_json::Value)]) -> Result
                 first_line: None,
             });
         }
-        if !is_omm_keyword(&key) {
-            return Err(OmmError::UnknownKey {
-                object,
-                key,
-                line: None,
-            });
-        }
         let s = match v {
             serde_json::Value::String(s) => s.clone(),
             serde_json::Value::Number(n) => n.to_string(),
@@ -185,13 +178,6 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
             messages.push(Fields::new());
         }
         let object = messages.len() - 1;
-        if !is_omm_keyword(&key) {
-            return Err(OmmError::UnknownKey {
-                object,
-                key,
-                line: Some(line),
-            });
-        }
         if let Some(m) = messages.last_mut() {
             if let Some((_, first_line)) = m.get(&key) {
                 return Err(OmmError::DuplicateKey {
@@ -302,17 +288,7 @@ const REQUIRED: [&str; 11] = [
 ];
 
 fn build(object: usize, f: &Fields) -> Result<ElementSet, OmmError> {
-    // Line for a "missing" error: the message's first line, if known.
-    let first_line = f.values().filter_map(|(_, l)| *l).min();
-    for field in REQUIRED {
-        if !f.contains_key(field) {
-            return Err(OmmError::MissingField {
-                object,
-                field,
-                line: first_line,
-            });
-        }
-    }
+    check_keys(object, f)?;
     let invalid = |field: &str, reason: &str| {
         let (value, line) = f.get(field).cloned().unwrap_or_default();
         OmmError::InvalidValue {
@@ -390,6 +366,35 @@ fn build(object: usize, f: &Fields) -> Result<ElementSet, OmmError> {
         )
     })?;
     Ok(ElementSet::from_elements(elements))
+}
+
+/// Every required keyword present, and no keyword outside the OMM set.
+fn check_keys(object: usize, f: &Fields) -> Result<(), OmmError> {
+    // Line for a "missing" error: the message's first line, if known.
+    let first_line = f.values().filter_map(|(_, l)| *l).min();
+    for field in REQUIRED {
+        if !f.contains_key(field) {
+            return Err(OmmError::MissingField {
+                object,
+                field,
+                line: first_line,
+            });
+        }
+    }
+    // Unknown keywords (after the required ones, so a misspelt required keyword is reported
+    // as missing): the first by line (KVN) or name (JSON).
+    if let Some((key, (_, line))) = f
+        .iter()
+        .filter(|(k, _)| !is_omm_keyword(k))
+        .min_by_key(|(k, (_, l))| (*l, k.as_str()))
+    {
+        return Err(OmmError::UnknownKey {
+            object,
+            key: key.clone(),
+            line: *line,
+        });
+    }
+    Ok(())
 }
 
 /// Only SGP4 mean elements in TEME and UTC are accepted.

@@ -196,40 +196,49 @@ pub fn parse_tle(text: &str) -> Result<Vec<ElementSet>, TleError> {
             None => return Err(TleError::MissingLine2 { line: n1 }),
         };
         i += 1;
-        let c1 = data_columns(l1, n1)?;
-        let c2 = data_columns(l2, n2)?;
-        let id1 = c1[2..7].trim();
-        let id2 = c2[2..7].trim();
-        if id1 != id2 {
-            return Err(TleError::CatalogMismatch {
-                line: n2,
-                line1: id1.to_string(),
-                line2: id2.to_string(),
-            });
-        }
-        // Blank ephemeris type (column 63) -> '0' (does not change the checksum).
-        let mut b1 = [0u8; 69];
-        b1.copy_from_slice(c1.as_bytes());
-        if b1[62] == b' ' {
-            b1[62] = b'0';
-        }
-        check_epoch(c1, n1)?;
-        let elements = sgp4::Elements::from_tle(name, &b1, c2.as_bytes())
-            .map_err(|e| field_error(&e, n1, n2))?;
-        check_element_ranges(&elements).map_err(|v| {
-            let (first_column, last_column) = v.field.tle_columns();
-            TleError::OutOfRange {
-                line: n2,
-                first_column,
-                last_column,
-                field: v.field.label(),
-                value: v.value_text(),
-                allowed: v.field.allowed().to_string(),
-            }
-        })?;
-        sets.push(ElementSet::from_elements(elements));
+        sets.push(decode_set(name, (n1, l1), (n2, l2))?);
     }
     Ok(sets)
+}
+
+/// Check and decode one line pair (file line number and text of each).
+fn decode_set(
+    name: Option<String>,
+    (n1, l1): (usize, &str),
+    (n2, l2): (usize, &str),
+) -> Result<ElementSet, TleError> {
+    let c1 = data_columns(l1, n1)?;
+    let c2 = data_columns(l2, n2)?;
+    let id1 = c1[2..7].trim();
+    let id2 = c2[2..7].trim();
+    if id1 != id2 {
+        return Err(TleError::CatalogMismatch {
+            line: n2,
+            line1: id1.to_string(),
+            line2: id2.to_string(),
+        });
+    }
+    // Blank ephemeris type (column 63) -> '0' (does not change the checksum).
+    let mut b1 = [0u8; 69];
+    b1.copy_from_slice(c1.as_bytes());
+    if b1[62] == b' ' {
+        b1[62] = b'0';
+    }
+    check_epoch(c1, n1)?;
+    let elements =
+        sgp4::Elements::from_tle(name, &b1, c2.as_bytes()).map_err(|e| field_error(&e, n1, n2))?;
+    check_element_ranges(&elements).map_err(|v| {
+        let (first_column, last_column) = v.field.tle_columns();
+        TleError::OutOfRange {
+            line: n2,
+            first_column,
+            last_column,
+            field: v.field.label(),
+            value: v.value_text(),
+            allowed: v.field.allowed().to_string(),
+        }
+    })?;
+    Ok(ElementSet::from_elements(elements))
 }
 
 /// Check the epoch of line 1: year in columns 19-20 (two digits; 57-99 = 19xx, 00-56 = 20xx, the
