@@ -80,8 +80,9 @@ pub enum OrbitInputError {
     #[error("{path}: {source}")]
     Omm {
         path: PathBuf,
+        /// Boxed: the OMM error is large (value, reason and position).
         #[source]
-        source: OmmError,
+        source: Box<OmmError>,
     },
 }
 
@@ -138,7 +139,7 @@ pub fn load_elements(path: &Path) -> Result<Vec<ElementSet>, OrbitInputError> {
         },
         ParseError::Omm(source) => OrbitInputError::Omm {
             path: path.to_path_buf(),
-            source,
+            source: Box::new(source),
         },
     })
 }

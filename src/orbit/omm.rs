@@ -42,26 +42,30 @@ pub enum OmmError {
         field: &'static str,
         line: Option<usize>,
     },
-    #[error("message {object}{}: {field} = '{value}' is not valid: {reason}", line_suffix(*.line))]
+    #[error("message {object}{}: {field} = '{value}' is not valid: {reason}", position_suffix(*.line, *.column))]
     InvalidValue {
         object: usize,
         field: String,
         value: String,
         reason: String,
         line: Option<usize>,
+        /// Column (1-based, in characters) of the value (KVN) or key (JSON).
+        column: Option<usize>,
     },
-    #[error("message {object}{}: keyword {key} is given twice{}", line_suffix(*.line), first_suffix(*.first_line))]
+    #[error("message {object}{}: keyword {key} is given twice{}", position_suffix(*.line, *.column), first_suffix(*.first_line))]
     DuplicateKey {
         object: usize,
         key: String,
         line: Option<usize>,
+        column: Option<usize>,
         first_line: Option<usize>,
     },
-    #[error("message {object}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-2; check the spelling)", line_suffix(*.line))]
+    #[error("message {object}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-2; check the spelling)", position_suffix(*.line, *.column))]
     UnknownKey {
         object: usize,
         key: String,
         line: Option<usize>,
+        column: Option<usize>,
     },
     #[error("line {line}: expected 'KEY = value', found '{text}'")]
     KvnSyntax { line: usize, text: String },
@@ -74,6 +78,14 @@ fn line_suffix(line: Option<usize>) -> String {
     }
 }
 
+fn position_suffix(line: Option<usize>, column: Option<usize>) -> String {
+    match (line, column) {
+        (Some(l), Some(c)) => format!(" (line {l}, column {c})"),
+        (Some(l), None) => format!(" (line {l})"),
+        _ => String::new(),
+    }
+}
+
 fn first_suffix(line: Option<usize>) -> String {
     match line {
         Some(l) => format!(" (first on line {l})"),
@@ -81,8 +93,16 @@ fn first_suffix(line: Option<usize>) -> String {
     }
 }
 
-/// One message's keywords: value and (for KVN) line number.
-type Fields = HashMap<String, (String, Option<usize>)>;
+/// One keyword's value and where it is (1-based line and column, when known).
+#[derive(Debug, Clone, Default)]
+struct Entry {
+    value: String,
+    line: Option<usize>,
+    column: Option<usize>,
+}
+
+/// One message's keywords.
+type Fields = HashMap<String, Entry>;
 
 /// Parse OMM JSON (an object or an array of objects). A leading UTF-8 byte-order mark is
 /// skipped. Keys are matched case-insensitively; a key given twice in one object, a key outside
@@ -101,6 +121,8 @@ pub fn parse_omm_json(text: &str) -> Result<Vec<ElementSet>, OmmError> {
     if objects.is_empty() {
         return Err(OmmError::Empty);
     }
+    let positions = json::key_positions(strip_bom(text));
+    let mut objects_seen = 0;
     objects
         .iter()
         .enumerate()
@@ -108,23 +130,36 @@ pub fn parse_omm_json(text: &str) -> Result<Vec<ElementSet>, OmmError> {
             let json::Item::Object(entries) = o else {
                 return Err(OmmError::NotAnObject { object: i });
             };
-            build(i, &json_fields(i, entries)?)
+            let pos = positions
+                .get(objects_seen)
+                .filter(|p| p.len() == entries.len());
+            objects_seen += 1;
+            build(i, &json_fields(i, entries, pos)?, None)
         })
         .collect()
 }
 
-/// One JSON object's entries as [`Fields`], checking keys and `null`s.
-fn json_fields(object: usize, entries: &[(String, serde_json::Value)]) -> Result<Fields, OmmError> {
+/// One JSON object's entries as [`Fields`], checking keys and `null`s. `positions`: line and
+/// column of each key, in the order of `entries`, if known.
+fn json_fields(
+    object: usize,
+    entries: &[(String, serde_json::Value)],
+    positions: Option<&Vec<(usize, usize)>>,
+) -> Result<Fields, OmmError> {
     let mut fields = Fields::new();
-    let mut seen = std::collections::HashSet::new();
-    for (k, v) in entries {
+    for (i, (k, v)) in entries.iter().enumerate() {
         let key = k.to_ascii_uppercase();
-        if !seen.insert(key.clone()) {
+        let (line, column) = match positions.and_then(|p| p.get(i)) {
+            Some(&(l, c)) => (Some(l), Some(c)),
+            None => (None, None),
+        };
+        if let Some(first) = fields.get(&key) {
             return Err(OmmError::DuplicateKey {
                 object,
                 key,
-                line: None,
-                first_line: None,
+                line,
+                column,
+                first_line: first.line,
             });
         }
         let s = match v {
@@ -136,13 +171,21 @@ fn json_fields(object: usize, entries: &[(String, serde_json::Value)]) -> Result
                     field: key,
                     value: "null".to_string(),
                     reason: "a required keyword needs a value, JSON null given".to_string(),
-                    line: None,
+                    line,
+                    column,
                 })
             }
             serde_json::Value::Null => continue,
             other => other.to_string(),
         };
-        fields.insert(key, (s, None));
+        fields.insert(
+            key,
+            Entry {
+                value: s,
+                line,
+                column,
+            },
+        );
     }
     Ok(fields)
 }
@@ -167,6 +210,9 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
         if key.is_empty() {
             return Err(syntax());
         }
+        // Column of the value's first character (1-based, in characters).
+        let leading = raw.chars().count() - raw.trim_start().chars().count();
+        let column = Some(leading + l.chars().count() - value.trim_start().chars().count() + 1);
         // Drop a unit in square brackets after the value.
         let value = match value.find('[') {
             Some(p) => &value[..p],
@@ -179,15 +225,21 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
         }
         let object = messages.len() - 1;
         if let Some(m) = messages.last_mut() {
-            if let Some((_, first_line)) = m.get(&key) {
+            if let Some(first) = m.get(&key) {
                 return Err(OmmError::DuplicateKey {
                     object,
                     key,
                     line: Some(line),
-                    first_line: *first_line,
+                    column,
+                    first_line: first.line,
                 });
             }
-            m.insert(key, (value, Some(line)));
+            let entry = Entry {
+                value,
+                line: Some(line),
+                column,
+            };
+            m.insert(key, entry);
         }
     }
     if messages.is_empty() {
@@ -196,7 +248,7 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
     messages
         .iter()
         .enumerate()
-        .map(|(i, f)| build(i, f))
+        .map(|(i, f)| build(i, f, f.values().filter_map(|e| e.line).min()))
         .collect()
 }
 
@@ -287,19 +339,22 @@ const REQUIRED: [&str; 11] = [
     "MEAN_MOTION_DDOT",
 ];
 
-fn build(object: usize, f: &Fields) -> Result<ElementSet, OmmError> {
-    check_keys(object, f)?;
+/// Build message `object` from its keywords; `message_line` (KVN: its first line) is given in
+/// "missing keyword" errors.
+fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<ElementSet, OmmError> {
+    check_keys(object, f, message_line)?;
     let invalid = |field: &str, reason: &str| {
-        let (value, line) = f.get(field).cloned().unwrap_or_default();
+        let e = f.get(field).cloned().unwrap_or_default();
         OmmError::InvalidValue {
             object,
             field: field.to_string(),
-            value,
+            value: e.value,
             reason: reason.to_string(),
-            line,
+            line: e.line,
+            column: e.column,
         }
     };
-    let text = |field: &str| f.get(field).map(|(v, _)| v.trim());
+    let text = |field: &str| f.get(field).map(|e| e.value.trim());
     let num = |field: &str| -> Result<f64, OmmError> {
         let v = text(field).unwrap_or("");
         v.parse::<f64>()
@@ -369,29 +424,28 @@ fn build(object: usize, f: &Fields) -> Result<ElementSet, OmmError> {
 }
 
 /// Every required keyword present, and no keyword outside the OMM set.
-fn check_keys(object: usize, f: &Fields) -> Result<(), OmmError> {
-    // Line for a "missing" error: the message's first line, if known.
-    let first_line = f.values().filter_map(|(_, l)| *l).min();
+fn check_keys(object: usize, f: &Fields, message_line: Option<usize>) -> Result<(), OmmError> {
     for field in REQUIRED {
         if !f.contains_key(field) {
             return Err(OmmError::MissingField {
                 object,
                 field,
-                line: first_line,
+                line: message_line,
             });
         }
     }
     // Unknown keywords (after the required ones, so a misspelt required keyword is reported
     // as missing): the first by line (KVN) or name (JSON).
-    if let Some((key, (_, line))) = f
+    if let Some((key, e)) = f
         .iter()
         .filter(|(k, _)| !is_omm_keyword(k))
-        .min_by_key(|(k, (_, l))| (*l, k.as_str()))
+        .min_by_key(|(k, e)| (e.line, k.as_str()))
     {
         return Err(OmmError::UnknownKey {
             object,
             key: key.clone(),
-            line: *line,
+            line: e.line,
+            column: e.column,
         });
     }
     Ok(())
@@ -404,7 +458,7 @@ fn check_theory(f: &Fields, invalid: &dyn Fn(&str, &str) -> OmmError) -> Result<
         ("REF_FRAME", &["TEME"][..]),
         ("TIME_SYSTEM", &["UTC"][..]),
     ] {
-        if let Some(v) = f.get(field).map(|(v, _)| v.trim()) {
+        if let Some(v) = f.get(field).map(|e| e.value.trim()) {
             if !allowed.iter().any(|a| a.eq_ignore_ascii_case(v)) {
                 return Err(invalid(
                     field,
@@ -538,6 +592,53 @@ mod json {
         }
     }
 
+    /// Line and column (1-based, column in characters) of each key of each OMM object, in
+    /// document order. The OMM objects are the top-level object, or the objects directly in
+    /// the top-level array. Only called on text that parsed as JSON.
+    pub fn key_positions(text: &str) -> Vec<Vec<(usize, usize)>> {
+        let mut out: Vec<Vec<(usize, usize)>> = Vec::new();
+        let (mut depth, mut object_depth) = (0usize, 1usize);
+        let (mut line, mut column) = (1usize, 0usize);
+        let (mut in_string, mut escape) = (false, false);
+        let (mut start, mut last_string) = ((0, 0), None);
+        for ch in text.chars() {
+            if ch == '\n' {
+                (line, column) = (line + 1, 0);
+                continue;
+            }
+            column += 1;
+            if in_string {
+                if escape {
+                    escape = false;
+                } else if ch == '\\' {
+                    escape = true;
+                } else if ch == '"' {
+                    in_string = false;
+                    last_string = (depth == object_depth).then_some(start);
+                }
+                continue;
+            }
+            match ch {
+                '"' => (in_string, start) = (true, (line, column)),
+                ':' if depth == object_depth => {
+                    if let (Some(p), Some(keys)) = (last_string.take(), out.last_mut()) {
+                        keys.push(p);
+                    }
+                }
+                '[' if depth == 0 => (object_depth, depth) = (2, 1),
+                '{' | '[' => {
+                    depth += 1;
+                    if ch == '{' && depth == object_depth {
+                        out.push(Vec::new());
+                    }
+                }
+                '}' | ']' => depth = depth.saturating_sub(1),
+                _ => {}
+            }
+        }
+        out
+    }
+
     impl<'de> Deserialize<'de> for Doc {
         fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Doc, D::Error> {
             d.deserialize_any(DocVisitor)
@@ -566,7 +667,7 @@ mod tests {
         let err = parse_omm_kvn(&kvn).unwrap_err();
         assert_eq!(
             err.to_string(),
-            "message 0 (line 16): INCLINATION = '197.45' is not valid: \
+            "message 0 (line 16, column 15): INCLINATION = '197.45' is not valid: \
              inclination 197.45 deg is out of range (0 to 180 deg)"
         );
         let json = JSON.replace("\"MEAN_MOTION\": 15.05472", "\"MEAN_MOTION\": 1e308");
@@ -576,6 +677,7 @@ mod tests {
             "{err:?}"
         );
         assert!(err.to_string().contains("1e308 rev/day"), "{err}");
+        assert!(err.to_string().contains("(line 14, column 5)"), "{err}");
         for (from, to) in [
             ("RA_OF_ASC_NODE = 215.3000", "RA_OF_ASC_NODE = -1"),
             ("ARG_OF_PERICENTER = 90.0000", "ARG_OF_PERICENTER = 720"),
@@ -608,14 +710,21 @@ mod tests {
                 object: 0,
                 key: "BSTAR".to_string(),
                 line: Some(27),
+                column: Some(9),
                 first_line: Some(26),
             }
         );
         let json = JSON.replace("\"BSTAR\": 0.00012,", "\"BSTAR\": 0.00012, \"bstar\": 0.1,");
         let err = parse_omm_json(&json).unwrap_err();
-        assert!(
-            matches!(&err, OmmError::DuplicateKey { key, line: None, .. } if key == "BSTAR"),
-            "{err:?}"
+        assert_eq!(
+            err,
+            OmmError::DuplicateKey {
+                object: 0,
+                key: "BSTAR".to_string(),
+                line: Some(25),
+                column: Some(23),
+                first_line: Some(25),
+            }
         );
         assert!(err.to_string().contains("BSTAR"));
     }
@@ -630,13 +739,14 @@ mod tests {
                 object: 0,
                 key: "ELEMENT_SET_NUM".to_string(),
                 line: Some(24),
+                column: Some(19),
             }
         );
         assert!(err.to_string().contains("line 24") && err.to_string().contains("ELEMENT_SET_NUM"));
         let json = JSON.replace("REV_AT_EPOCH", "REV_AT_EPOC");
         assert!(matches!(
             parse_omm_json(&json).unwrap_err(),
-            OmmError::UnknownKey { key, .. } if key == "REV_AT_EPOC"
+            OmmError::UnknownKey { key, line: Some(24), column: Some(5), .. } if key == "REV_AT_EPOC"
         ));
         // User-defined keywords are part of the standard's keyword set.
         let kvn = KVN.replace(
@@ -655,11 +765,22 @@ mod tests {
             "{err:?}"
         );
         assert!(
-            err.to_string().starts_with("message 0: MEAN_MOTION"),
+            err.to_string()
+                .starts_with("message 0 (line 14, column 5): MEAN_MOTION"),
             "{err}"
         );
         // null for an optional keyword counts as absent.
         let json = JSON.replace("\"OBJECT_ID\": \"PB-DEMO-001\"", "\"OBJECT_ID\": null");
         assert!(parse_omm_json(&json).is_ok());
+    }
+
+    #[test]
+    fn json_key_positions_skip_nested_and_strings() {
+        let text = "[\n {\"A\": 1, \"B\": {\"C\": \"x:\\\"y\"}},\n 3,\n {\"D\" : [\"E\"]}\n]";
+        assert_eq!(
+            json::key_positions(text),
+            vec![vec![(2, 3), (2, 11)], vec![(4, 3)]]
+        );
+        assert_eq!(json::key_positions("{\"K\": 1}"), vec![vec![(1, 2)]]);
     }
 }
