@@ -109,6 +109,15 @@ fn seeds_reach_propagation_or_are_refused() {
             "{name}"
         );
     }
+    // Epoch near the end of the calendar range: parsed, and propagation past that range is
+    // an error rather than a date overflow.
+    let far = omm::parse_omm_json(&text("omm_json", "far-epoch-high-drag.json")).unwrap();
+    let far_kvn = omm::parse_omm_kvn(&text("omm_kvn", "far-epoch-high-drag.kvn")).unwrap();
+    assert_eq!(far[0].epoch, far_kvn[0].epoch);
+    assert!(Propagator::new(&far[0])
+        .unwrap()
+        .propagate_minutes(10_080.0)
+        .is_err());
     let deep = omm::parse_omm_kvn(&text("omm_kvn", "deep-space-12h.kvn")).unwrap();
     assert!(Propagator::new(&deep[0]).unwrap().period_minutes() > 225.0);
     for name in ["unknown-key.kvn", "duplicate-key.kvn", "no-equals.kvn"] {

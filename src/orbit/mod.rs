@@ -7,7 +7,13 @@
 //! * [`frames`] turns TEME states into Earth-fixed states (GMST IAU-82) and WGS-84 geodetic
 //!   coordinates (NIMA TR8350.2) into Earth-centred Earth-fixed coordinates.
 //!
+//! * [`checks`] holds the element range checks both readers apply (errors name the TLE line and
+//!   columns or the OMM keyword, line and column).
+//! * [`fuzz_entry`] holds the bodies of the cargo-fuzz targets in `fuzz/`.
+//!
 //! Every input form ends in the same [`ElementSet`]; [`load_elements`] detects the form of a file.
+//! [`select`] picks one set by catalog number or name; [`select_for_window`] also resolves an
+//! element-set history (several sets of one satellite) by epoch.
 
 pub mod checks;
 pub mod frames;
