@@ -7,9 +7,17 @@
 //! * [`frames`] turns TEME states into Earth-fixed states (GMST IAU-82) and WGS-84 geodetic
 //!   coordinates (NIMA TR8350.2) into Earth-centred Earth-fixed coordinates.
 //!
+//! * [`checks`] holds the element range checks both readers apply (errors name the TLE line and
+//!   columns or the OMM keyword, line and column).
+//! * [`fuzz_entry`] holds the bodies of the cargo-fuzz targets in `fuzz/`.
+//!
 //! Every input form ends in the same [`ElementSet`]; [`load_elements`] detects the form of a file.
+//! [`select`] picks one set by catalog number or name; [`select_for_window`] also resolves an
+//! element-set history (several sets of one satellite) by epoch.
 
+pub mod checks;
 pub mod frames;
+pub mod fuzz_entry;
 pub mod omm;
 pub mod propagate;
 pub mod tle;
@@ -18,6 +26,7 @@ use std::path::{Path, PathBuf};
 
 use chrono::{DateTime, Utc};
 
+pub use checks::{check_element_ranges, ElementField, RangeViolation};
 pub use frames::{EcefState, TemeState};
 pub use omm::OmmError;
 pub use propagate::{PropagationError, Propagator};
@@ -77,8 +86,9 @@ pub enum OrbitInputError {
     #[error("{path}: {source}")]
     Omm {
         path: PathBuf,
+        /// Boxed: the OMM error is large (value, reason and position).
         #[source]
-        source: OmmError,
+        source: Box<OmmError>,
     },
 }
 
@@ -94,9 +104,10 @@ pub enum ElementFormat {
 }
 
 /// Detect the form of element text: JSON if the first non-blank character is `[` or `{`,
-/// KVN if the text contains `CCSDS_OMM_VERS`, otherwise TLE.
+/// KVN if the text contains `CCSDS_OMM_VERS`, otherwise TLE. A leading UTF-8 byte-order mark is
+/// skipped.
 pub fn detect_format(text: &str) -> ElementFormat {
-    match text.trim_start().chars().next() {
+    match checks::strip_bom(text).trim_start().chars().next() {
         Some('[') | Some('{') => ElementFormat::OmmJson,
         _ if text.contains("CCSDS_OMM_VERS") => ElementFormat::OmmKvn,
         _ => ElementFormat::Tle,
@@ -134,7 +145,7 @@ pub fn load_elements(path: &Path) -> Result<Vec<ElementSet>, OrbitInputError> {
         },
         ParseError::Omm(source) => OrbitInputError::Omm {
             path: path.to_path_buf(),
-            source,
+            source: Box::new(source),
         },
     })
 }
@@ -173,27 +184,209 @@ pub fn select<'a>(
         };
     };
     let q = query.trim();
-    let mut hits: Vec<&ElementSet> = Vec::new();
+    let hits = matching(sets, q);
+    match hits.len() {
+        0 => Err(SelectError::NoMatch {
+            query: q.to_string(),
+        }),
+        1 => Ok(&sets[hits[0]]),
+        _ => Err(SelectError::Ambiguous {
+            query: q.to_string(),
+            candidates: hits.iter().map(|&i| sets[i].label()).collect(),
+        }),
+    }
+}
+
+/// Indices of the sets matching `q` (trimmed): by catalog number if `q` is an integer that
+/// some set has, else by name (case-insensitive, exact after trimming).
+fn matching(sets: &[ElementSet], q: &str) -> Vec<usize> {
+    let mut hits: Vec<usize> = Vec::new();
     if let Ok(id) = q.parse::<u64>() {
-        hits.extend(sets.iter().filter(|s| s.norad_id == id));
+        hits.extend((0..sets.len()).filter(|&i| sets[i].norad_id == id));
     }
     if hits.is_empty() {
         let ql = q.to_lowercase();
-        hits.extend(sets.iter().filter(|s| {
-            s.name
+        hits.extend((0..sets.len()).filter(|&i| {
+            sets[i]
+                .name
                 .as_deref()
                 .map(|n| n.trim().to_lowercase() == ql)
                 .unwrap_or(false)
         }));
     }
-    match hits.len() {
-        0 => Err(SelectError::NoMatch {
-            query: q.to_string(),
-        }),
-        1 => Ok(hits[0]),
-        _ => Err(SelectError::Ambiguous {
-            query: q.to_string(),
-            candidates: hits.iter().map(|s| s.label()).collect(),
-        }),
+    hits
+}
+
+/// Why [`select_for_window`] chose its element set.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SelectionRule {
+    /// Only one set matched.
+    Only,
+    /// Several sets of the satellite: the latest with epoch at or before the window start.
+    LatestAtOrBeforeStart,
+    /// Several sets of the satellite, all after the window start: the earliest.
+    EarliestAfterStart,
+}
+
+/// Which element set [`select_for_window`] chose and why, for callers to report.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Selection {
+    /// Index of the chosen set in the slice given.
+    pub index: usize,
+    /// Epoch of the chosen set.
+    pub epoch: DateTime<Utc>,
+    /// Number of sets that matched the satellite.
+    pub candidates: usize,
+    /// The rule that chose it.
+    pub rule: SelectionRule,
+}
+
+/// Choose one element set for a planning window starting at `window_start`. Matching is as in
+/// [`select`]; with no query, all sets must belong to one satellite. When several sets of the
+/// same catalog number match (an element-set history), the latest set with epoch at or before
+/// `window_start` is chosen, or, if all are later, the earliest; of sets with equal epochs the
+/// last in the file wins (common practice: a later entry supersedes). Matches of different
+/// catalog numbers are [`SelectError::Ambiguous`].
+pub fn select_for_window(
+    sets: &[ElementSet],
+    query: Option<&str>,
+    window_start: DateTime<Utc>,
+) -> Result<(ElementSet, Selection), SelectError> {
+    if sets.is_empty() {
+        return Err(SelectError::Empty);
+    }
+    let (hits, q) = match query {
+        Some(q) => (matching(sets, q.trim()), q.trim().to_string()),
+        None => ((0..sets.len()).collect(), String::new()),
+    };
+    let Some(&first) = hits.first() else {
+        return Err(SelectError::NoMatch { query: q });
+    };
+    if hits
+        .iter()
+        .any(|&i| sets[i].norad_id != sets[first].norad_id)
+    {
+        if query.is_none() {
+            return Err(SelectError::NoneChosen { count: sets.len() });
+        }
+        let mut candidates: Vec<String> = hits.iter().map(|&i| sets[i].label()).collect();
+        candidates.dedup();
+        return Err(SelectError::Ambiguous {
+            query: q,
+            candidates,
+        });
+    }
+    let before = hits
+        .iter()
+        .copied()
+        .filter(|&i| sets[i].epoch <= window_start)
+        .max_by_key(|&i| (sets[i].epoch, i));
+    let (index, rule) = match before {
+        _ if hits.len() == 1 => (first, SelectionRule::Only),
+        Some(i) => (i, SelectionRule::LatestAtOrBeforeStart),
+        None => {
+            // All later than the window start: the earliest (last in file among equals).
+            let i = hits
+                .iter()
+                .copied()
+                .min_by_key(|&i| (sets[i].epoch, std::cmp::Reverse(i)))
+                .unwrap_or(first);
+            (i, SelectionRule::EarliestAfterStart)
+        }
+    };
+    Ok((
+        sets[index].clone(),
+        Selection {
+            index,
+            epoch: sets[index].epoch,
+            candidates: hits.len(),
+            rule,
+        },
+    ))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::timefmt::utc;
+
+    /// A set of catalog `id` with epoch 2026-12-`day` 00:00 UTC (elements of examples/sat.tle).
+    fn set(id: u64, name: &str, day: u32) -> ElementSet {
+        let text = "1 99901U          26335.50000000  .00001200  00000-0  12000-3 0   127\n\
+                    2 99901  97.5950 215.3000 0011500  90.0000 270.0000 15.05472000  1231\n";
+        let mut s = tle::parse_tle(text).unwrap().remove(0);
+        s.norad_id = id;
+        s.name = Some(name.to_string());
+        s.epoch = utc(2026, 12, day, 0, 0, 0);
+        s
+    }
+
+    #[test]
+    fn history_picks_latest_before_window() {
+        let sets = vec![
+            set(99901, "W", 1),
+            set(99901, "W", 5),
+            set(99901, "W", 3),
+            set(99902, "V", 4),
+        ];
+        let (chosen, why) =
+            select_for_window(&sets, Some("99901"), utc(2026, 12, 4, 0, 0, 0)).unwrap();
+        assert_eq!(why.index, 2);
+        assert_eq!(chosen.epoch, utc(2026, 12, 3, 0, 0, 0));
+        assert_eq!(why.candidates, 3);
+        assert_eq!(why.rule, SelectionRule::LatestAtOrBeforeStart);
+        // At exactly an epoch: that set.
+        let (_, why) = select_for_window(&sets, Some("W"), utc(2026, 12, 5, 0, 0, 0)).unwrap();
+        assert_eq!(
+            (why.index, why.rule),
+            (1, SelectionRule::LatestAtOrBeforeStart)
+        );
+        // Before all: the earliest.
+        let (_, why) = select_for_window(&sets, Some("99901"), utc(2026, 11, 1, 0, 0, 0)).unwrap();
+        assert_eq!(
+            (why.index, why.rule),
+            (0, SelectionRule::EarliestAfterStart)
+        );
+        // The old function still calls the history ambiguous.
+        assert!(matches!(
+            select(&sets, Some("99901")),
+            Err(SelectError::Ambiguous { .. })
+        ));
+    }
+
+    #[test]
+    fn window_selection_errors_and_single() {
+        let t = utc(2026, 12, 4, 0, 0, 0);
+        let sets = vec![set(99901, "A", 1), set(99902, "A", 2)];
+        assert!(matches!(
+            select_for_window(&sets, Some("a"), t),
+            Err(SelectError::Ambiguous { .. })
+        ));
+        assert_eq!(
+            select_for_window(&sets, None, t).unwrap_err(),
+            SelectError::NoneChosen { count: 2 }
+        );
+        assert!(matches!(
+            select_for_window(&sets, Some("x"), t),
+            Err(SelectError::NoMatch { .. })
+        ));
+        assert_eq!(
+            select_for_window(&[], None, t).unwrap_err(),
+            SelectError::Empty
+        );
+        let (s, why) = select_for_window(&sets, Some("99902"), t).unwrap();
+        assert_eq!(
+            (s.norad_id, why.rule, why.candidates),
+            (99902, SelectionRule::Only, 1)
+        );
+        // No query, one satellite's history: chosen by epoch.
+        let hist = vec![set(99901, "A", 1), set(99901, "A", 2)];
+        let (_, why) = select_for_window(&hist, None, t).unwrap();
+        assert_eq!(why.index, 1);
+    }
+
+    #[test]
+    fn bom_does_not_hide_json() {
+        assert_eq!(detect_format("\u{feff}[{}]"), ElementFormat::OmmJson);
     }
 }

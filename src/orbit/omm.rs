@@ -19,6 +19,7 @@ use std::collections::HashMap;
 
 use chrono::NaiveDateTime;
 
+use super::checks::{check_element_ranges, strip_bom};
 use super::ElementSet;
 
 /// A malformed OMM. `line` is the 1-based line number (KVN); `object` the 0-based index of the
@@ -41,13 +42,30 @@ pub enum OmmError {
         field: &'static str,
         line: Option<usize>,
     },
-    #[error("message {object}{}: {field} = '{value}' is not valid: {reason}", line_suffix(*.line))]
+    #[error("message {object}{}: {field} = '{value}' is not valid: {reason}", position_suffix(*.line, *.column))]
     InvalidValue {
         object: usize,
         field: String,
         value: String,
         reason: String,
         line: Option<usize>,
+        /// Column (1-based, in characters) of the value (KVN) or key (JSON).
+        column: Option<usize>,
+    },
+    #[error("message {object}{}: keyword {key} is given twice{}", position_suffix(*.line, *.column), first_suffix(*.first_line))]
+    DuplicateKey {
+        object: usize,
+        key: String,
+        line: Option<usize>,
+        column: Option<usize>,
+        first_line: Option<usize>,
+    },
+    #[error("message {object}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-2; check the spelling)", position_suffix(*.line, *.column))]
+    UnknownKey {
+        object: usize,
+        key: String,
+        line: Option<usize>,
+        column: Option<usize>,
     },
     #[error("line {line}: expected 'KEY = value', found '{text}'")]
     KvnSyntax { line: usize, text: String },
@@ -60,65 +78,141 @@ fn line_suffix(line: Option<usize>) -> String {
     }
 }
 
-/// One message's keywords: value and (for KVN) line number.
-type Fields = HashMap<String, (String, Option<usize>)>;
+fn position_suffix(line: Option<usize>, column: Option<usize>) -> String {
+    match (line, column) {
+        (Some(l), Some(c)) => format!(" (line {l}, column {c})"),
+        (Some(l), None) => format!(" (line {l})"),
+        _ => String::new(),
+    }
+}
 
-/// Parse OMM JSON (an object or an array of objects).
+fn first_suffix(line: Option<usize>) -> String {
+    match line {
+        Some(l) => format!(" (first on line {l})"),
+        None => String::new(),
+    }
+}
+
+/// One keyword's value and where it is (1-based line and column, when known).
+#[derive(Debug, Clone, Default)]
+struct Entry {
+    value: String,
+    line: Option<usize>,
+    column: Option<usize>,
+}
+
+/// One message's keywords.
+type Fields = HashMap<String, Entry>;
+
+/// Parse OMM JSON (an object or an array of objects). A leading UTF-8 byte-order mark is
+/// skipped. Keys are matched case-insensitively; a key given twice in one object, a key outside
+/// the OMM keyword set ([`is_omm_keyword`]) and `null` for a required keyword are errors; `null`
+/// for an optional keyword counts as absent.
 pub fn parse_omm_json(text: &str) -> Result<Vec<ElementSet>, OmmError> {
-    let value: serde_json::Value = serde_json::from_str(text).map_err(|e| OmmError::Json {
+    let doc: json::Doc = serde_json::from_str(strip_bom(text)).map_err(|e| OmmError::Json {
         line: e.line(),
         column: e.column(),
         reason: e.to_string(),
     })?;
-    let objects = match value {
-        serde_json::Value::Array(a) => a,
-        other => vec![other],
+    let objects = match doc {
+        json::Doc::Many(a) => a,
+        json::Doc::One(o) => vec![o],
     };
     if objects.is_empty() {
         return Err(OmmError::Empty);
     }
+    let positions = json::key_positions(strip_bom(text));
+    let mut objects_seen = 0;
     objects
         .iter()
         .enumerate()
         .map(|(i, o)| {
-            let map = o.as_object().ok_or(OmmError::NotAnObject { object: i })?;
-            let mut fields = Fields::new();
-            for (k, v) in map {
-                let s = match v {
-                    serde_json::Value::String(s) => s.clone(),
-                    serde_json::Value::Number(n) => n.to_string(),
-                    serde_json::Value::Null => continue,
-                    other => other.to_string(),
-                };
-                fields.insert(k.to_ascii_uppercase(), (s, None));
-            }
-            build(i, &fields)
+            let json::Item::Object(entries) = o else {
+                return Err(OmmError::NotAnObject { object: i });
+            };
+            let pos = positions
+                .get(objects_seen)
+                .filter(|p| p.len() == entries.len());
+            objects_seen += 1;
+            build(i, &json_fields(i, entries, pos)?, None)
         })
         .collect()
 }
 
-/// Parse OMM KVN text (one or more messages).
+/// One JSON object's entries as [`Fields`], checking keys and `null`s. `positions`: line and
+/// column of each key, in the order of `entries`, if known.
+fn json_fields(
+    object: usize,
+    entries: &[(String, serde_json::Value)],
+    positions: Option<&Vec<(usize, usize)>>,
+) -> Result<Fields, OmmError> {
+    let mut fields = Fields::new();
+    for (i, (k, v)) in entries.iter().enumerate() {
+        let key = k.to_ascii_uppercase();
+        let (line, column) = match positions.and_then(|p| p.get(i)) {
+            Some(&(l, c)) => (Some(l), Some(c)),
+            None => (None, None),
+        };
+        if let Some(first) = fields.get(&key) {
+            return Err(OmmError::DuplicateKey {
+                object,
+                key,
+                line,
+                column,
+                first_line: first.line,
+            });
+        }
+        let s = match v {
+            serde_json::Value::String(s) => s.clone(),
+            serde_json::Value::Number(n) => n.to_string(),
+            serde_json::Value::Null if REQUIRED.contains(&key.as_str()) => {
+                return Err(OmmError::InvalidValue {
+                    object,
+                    field: key,
+                    value: "null".to_string(),
+                    reason: "a required keyword needs a value, JSON null given".to_string(),
+                    line,
+                    column,
+                })
+            }
+            serde_json::Value::Null => continue,
+            other => other.to_string(),
+        };
+        fields.insert(
+            key,
+            Entry {
+                value: s,
+                line,
+                column,
+            },
+        );
+    }
+    Ok(fields)
+}
+
+/// Parse OMM KVN text (one or more messages). A leading UTF-8 byte-order mark is skipped. A
+/// keyword given twice in one message and a keyword outside the OMM keyword set
+/// ([`is_omm_keyword`]) are errors naming the line.
 pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
     let mut messages: Vec<Fields> = Vec::new();
-    for (i, raw) in text.lines().enumerate() {
+    for (i, raw) in strip_bom(text).lines().enumerate() {
         let line = i + 1;
         let l = raw.trim();
         if l.is_empty() || l.starts_with("COMMENT") {
             continue;
         }
-        let Some((key, value)) = l.split_once('=') else {
-            return Err(OmmError::KvnSyntax {
-                line,
-                text: l.to_string(),
-            });
+        let syntax = || OmmError::KvnSyntax {
+            line,
+            text: l.to_string(),
         };
+        let (key, value) = l.split_once('=').ok_or_else(syntax)?;
         let key = key.trim().to_ascii_uppercase();
         if key.is_empty() {
-            return Err(OmmError::KvnSyntax {
-                line,
-                text: l.to_string(),
-            });
+            return Err(syntax());
         }
+        // Column of the value's first character (1-based, in characters).
+        let leading = raw.chars().count() - raw.trim_start().chars().count();
+        let column = Some(leading + l.chars().count() - value.trim_start().chars().count() + 1);
         // Drop a unit in square brackets after the value.
         let value = match value.find('[') {
             Some(p) => &value[..p],
@@ -129,8 +223,23 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
         if key == "CCSDS_OMM_VERS" || messages.is_empty() {
             messages.push(Fields::new());
         }
+        let object = messages.len() - 1;
         if let Some(m) = messages.last_mut() {
-            m.insert(key, (value, Some(line)));
+            if let Some(first) = m.get(&key) {
+                return Err(OmmError::DuplicateKey {
+                    object,
+                    key,
+                    line: Some(line),
+                    column,
+                    first_line: first.line,
+                });
+            }
+            let entry = Entry {
+                value,
+                line: Some(line),
+                column,
+            };
+            m.insert(key, entry);
         }
     }
     if messages.is_empty() {
@@ -139,8 +248,81 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
     messages
         .iter()
         .enumerate()
-        .map(|(i, f)| build(i, f))
+        .map(|(i, f)| build(i, f, f.values().filter_map(|e| e.line).min()))
         .collect()
+}
+
+/// The OMM keywords of CCSDS 502.0-B-2 (Orbit Data Messages, 2009), §4.2 tables 4-1 (header),
+/// 4-2 (metadata) and 4-3 (data: mean Keplerian elements, spacecraft parameters, TLE-related
+/// parameters, covariance). From memory; user-defined keywords start with `USER_DEFINED_`.
+const OMM_KEYWORDS: [&str; 55] = [
+    // Header
+    "CCSDS_OMM_VERS",
+    "COMMENT",
+    "CREATION_DATE",
+    "ORIGINATOR",
+    // Metadata
+    "OBJECT_NAME",
+    "OBJECT_ID",
+    "CENTER_NAME",
+    "REF_FRAME",
+    "REF_FRAME_EPOCH",
+    "TIME_SYSTEM",
+    "MEAN_ELEMENT_THEORY",
+    // Mean Keplerian elements
+    "EPOCH",
+    "SEMI_MAJOR_AXIS",
+    "MEAN_MOTION",
+    "ECCENTRICITY",
+    "INCLINATION",
+    "RA_OF_ASC_NODE",
+    "ARG_OF_PERICENTER",
+    "MEAN_ANOMALY",
+    "GM",
+    // Spacecraft parameters
+    "MASS",
+    "SOLAR_RAD_AREA",
+    "SOLAR_RAD_COEFF",
+    "DRAG_AREA",
+    "DRAG_COEFF",
+    // TLE-related parameters
+    "EPHEMERIS_TYPE",
+    "CLASSIFICATION_TYPE",
+    "NORAD_CAT_ID",
+    "ELEMENT_SET_NO",
+    "REV_AT_EPOCH",
+    "BSTAR",
+    "MEAN_MOTION_DOT",
+    "MEAN_MOTION_DDOT",
+    // Covariance (lower triangle of the 6x6 position-velocity matrix)
+    "COV_REF_FRAME",
+    "CX_X",
+    "CY_X",
+    "CY_Y",
+    "CZ_X",
+    "CZ_Y",
+    "CZ_Z",
+    "CX_DOT_X",
+    "CX_DOT_Y",
+    "CX_DOT_Z",
+    "CX_DOT_X_DOT",
+    "CY_DOT_X",
+    "CY_DOT_Y",
+    "CY_DOT_Z",
+    "CY_DOT_X_DOT",
+    "CY_DOT_Y_DOT",
+    "CZ_DOT_X",
+    "CZ_DOT_Y",
+    "CZ_DOT_Z",
+    "CZ_DOT_X_DOT",
+    "CZ_DOT_Y_DOT",
+    "CZ_DOT_Z_DOT",
+];
+
+/// Whether `key` (upper case) is an OMM keyword of CCSDS 502.0-B-2 or a `USER_DEFINED_...` one.
+pub fn is_omm_keyword(key: &str) -> bool {
+    (key.starts_with("USER_DEFINED_") && key.len() > "USER_DEFINED_".len())
+        || OMM_KEYWORDS.contains(&key)
 }
 
 const REQUIRED: [&str; 11] = [
@@ -157,29 +339,22 @@ const REQUIRED: [&str; 11] = [
     "MEAN_MOTION_DDOT",
 ];
 
-fn build(object: usize, f: &Fields) -> Result<ElementSet, OmmError> {
-    // Line for a "missing" error: the message's first line, if known.
-    let first_line = f.values().filter_map(|(_, l)| *l).min();
-    for field in REQUIRED {
-        if !f.contains_key(field) {
-            return Err(OmmError::MissingField {
-                object,
-                field,
-                line: first_line,
-            });
-        }
-    }
+/// Build message `object` from its keywords; `message_line` (KVN: its first line) is given in
+/// "missing keyword" errors.
+fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<ElementSet, OmmError> {
+    check_keys(object, f, message_line)?;
     let invalid = |field: &str, reason: &str| {
-        let (value, line) = f.get(field).cloned().unwrap_or_default();
+        let e = f.get(field).cloned().unwrap_or_default();
         OmmError::InvalidValue {
             object,
             field: field.to_string(),
-            value,
+            value: e.value,
             reason: reason.to_string(),
-            line,
+            line: e.line,
+            column: e.column,
         }
     };
-    let text = |field: &str| f.get(field).map(|(v, _)| v.trim());
+    let text = |field: &str| f.get(field).map(|e| e.value.trim());
     let num = |field: &str| -> Result<f64, OmmError> {
         let v = text(field).unwrap_or("");
         v.parse::<f64>()
@@ -195,20 +370,7 @@ fn build(object: usize, f: &Fields) -> Result<ElementSet, OmmError> {
                 .map_err(|_| invalid(field, "expected a non-negative integer")),
         }
     };
-    for (field, allowed) in [
-        ("MEAN_ELEMENT_THEORY", &["SGP4", "SGP/SGP4"][..]),
-        ("REF_FRAME", &["TEME"][..]),
-        ("TIME_SYSTEM", &["UTC"][..]),
-    ] {
-        if let Some(v) = text(field) {
-            if !allowed.iter().any(|a| a.eq_ignore_ascii_case(v)) {
-                return Err(invalid(
-                    field,
-                    &format!("only {} is supported", allowed.join(" or ")),
-                ));
-            }
-        }
-    }
+    check_theory(f, &invalid)?;
     let norad_id = int_or("NORAD_CAT_ID", 0)?;
     let epoch_text = text("EPOCH").unwrap_or("");
     let datetime = parse_epoch(epoch_text).ok_or_else(|| {
@@ -217,14 +379,6 @@ fn build(object: usize, f: &Fields) -> Result<ElementSet, OmmError> {
             "expected ISO 8601 UTC such as 2026-12-01T12:00:00.000 or 2026-335T12:00:00",
         )
     })?;
-    let eccentricity = num("ECCENTRICITY")?;
-    if !(0.0..1.0).contains(&eccentricity) {
-        return Err(invalid("ECCENTRICITY", "must be in [0, 1)"));
-    }
-    let mean_motion = num("MEAN_MOTION")?;
-    if mean_motion <= 0.0 {
-        return Err(invalid("MEAN_MOTION", "must be positive (rev/day)"));
-    }
     let classification = match text("CLASSIFICATION_TYPE").unwrap_or("U") {
         "U" | "" => sgp4::Classification::Unclassified,
         "C" => sgp4::Classification::Classified,
@@ -248,14 +402,72 @@ fn build(object: usize, f: &Fields) -> Result<ElementSet, OmmError> {
         element_set_number: int_or("ELEMENT_SET_NO", 0)?,
         inclination: num("INCLINATION")?,
         right_ascension: num("RA_OF_ASC_NODE")?,
-        eccentricity,
+        eccentricity: num("ECCENTRICITY")?,
         argument_of_perigee: num("ARG_OF_PERICENTER")?,
         mean_anomaly: num("MEAN_ANOMALY")?,
-        mean_motion,
+        mean_motion: num("MEAN_MOTION")?,
         revolution_number: int_or("REV_AT_EPOCH", 0)?,
         ephemeris_type: int_or("EPHEMERIS_TYPE", 0)?.min(u8::MAX as u64) as u8,
     };
+    check_element_ranges(&elements).map_err(|v| {
+        invalid(
+            v.field.omm_keyword(),
+            &format!(
+                "{} {} is out of range ({})",
+                v.field.label(),
+                v.value_text(),
+                v.field.allowed()
+            ),
+        )
+    })?;
     Ok(ElementSet::from_elements(elements))
+}
+
+/// Every required keyword present, and no keyword outside the OMM set.
+fn check_keys(object: usize, f: &Fields, message_line: Option<usize>) -> Result<(), OmmError> {
+    for field in REQUIRED {
+        if !f.contains_key(field) {
+            return Err(OmmError::MissingField {
+                object,
+                field,
+                line: message_line,
+            });
+        }
+    }
+    // Unknown keywords (after the required ones, so a misspelt required keyword is reported
+    // as missing): the first by line (KVN) or name (JSON).
+    if let Some((key, e)) = f
+        .iter()
+        .filter(|(k, _)| !is_omm_keyword(k))
+        .min_by_key(|(k, e)| (e.line, k.as_str()))
+    {
+        return Err(OmmError::UnknownKey {
+            object,
+            key: key.clone(),
+            line: e.line,
+            column: e.column,
+        });
+    }
+    Ok(())
+}
+
+/// Only SGP4 mean elements in TEME and UTC are accepted.
+fn check_theory(f: &Fields, invalid: &dyn Fn(&str, &str) -> OmmError) -> Result<(), OmmError> {
+    for (field, allowed) in [
+        ("MEAN_ELEMENT_THEORY", &["SGP4", "SGP/SGP4"][..]),
+        ("REF_FRAME", &["TEME"][..]),
+        ("TIME_SYSTEM", &["UTC"][..]),
+    ] {
+        if let Some(v) = f.get(field).map(|e| e.value.trim()) {
+            if !allowed.iter().any(|a| a.eq_ignore_ascii_case(v)) {
+                return Err(invalid(
+                    field,
+                    &format!("only {} is supported", allowed.join(" or ")),
+                ));
+            }
+        }
+    }
+    Ok(())
 }
 
 /// ISO 8601 UTC epoch, calendar or day-of-year form, optional fraction and trailing `Z`.
@@ -274,6 +486,166 @@ fn parse_epoch(s: &str) -> Option<NaiveDateTime> {
     None
 }
 
+/// JSON reading that keeps every key of an object in order (`serde_json::Value` keeps only the
+/// last of repeated keys), so that a repeated keyword can be reported.
+mod json {
+    use std::fmt;
+
+    use serde::de::{self, Deserialize, Deserializer, IgnoredAny, MapAccess, SeqAccess, Visitor};
+
+    /// One array element (or the top-level value): an object's entries, or anything else.
+    pub enum Item {
+        Object(Vec<(String, serde_json::Value)>),
+        Other,
+    }
+
+    /// The whole document: one value or an array of values.
+    pub enum Doc {
+        One(Item),
+        Many(Vec<Item>),
+    }
+
+    fn entries<'de, A: MapAccess<'de>>(
+        mut map: A,
+    ) -> Result<Vec<(String, serde_json::Value)>, A::Error> {
+        let mut out = Vec::new();
+        while let Some((k, v)) = map.next_entry::<String, serde_json::Value>()? {
+            out.push((k, v));
+        }
+        Ok(out)
+    }
+
+    struct ItemVisitor;
+
+    impl<'de> Visitor<'de> for ItemVisitor {
+        type Value = Item;
+        fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+            f.write_str("a JSON value")
+        }
+        fn visit_map<A: MapAccess<'de>>(self, map: A) -> Result<Item, A::Error> {
+            Ok(Item::Object(entries(map)?))
+        }
+        fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<Item, A::Error> {
+            while seq.next_element::<IgnoredAny>()?.is_some() {}
+            Ok(Item::Other)
+        }
+        fn visit_bool<E: de::Error>(self, _: bool) -> Result<Item, E> {
+            Ok(Item::Other)
+        }
+        fn visit_i64<E: de::Error>(self, _: i64) -> Result<Item, E> {
+            Ok(Item::Other)
+        }
+        fn visit_u64<E: de::Error>(self, _: u64) -> Result<Item, E> {
+            Ok(Item::Other)
+        }
+        fn visit_f64<E: de::Error>(self, _: f64) -> Result<Item, E> {
+            Ok(Item::Other)
+        }
+        fn visit_str<E: de::Error>(self, _: &str) -> Result<Item, E> {
+            Ok(Item::Other)
+        }
+        fn visit_unit<E: de::Error>(self) -> Result<Item, E> {
+            Ok(Item::Other)
+        }
+    }
+
+    impl<'de> Deserialize<'de> for Item {
+        fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Item, D::Error> {
+            d.deserialize_any(ItemVisitor)
+        }
+    }
+
+    struct DocVisitor;
+
+    impl<'de> Visitor<'de> for DocVisitor {
+        type Value = Doc;
+        fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+            f.write_str("an OMM object or an array of OMM objects")
+        }
+        fn visit_map<A: MapAccess<'de>>(self, map: A) -> Result<Doc, A::Error> {
+            Ok(Doc::One(Item::Object(entries(map)?)))
+        }
+        fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<Doc, A::Error> {
+            let mut items = Vec::new();
+            while let Some(item) = seq.next_element::<Item>()? {
+                items.push(item);
+            }
+            Ok(Doc::Many(items))
+        }
+        fn visit_bool<E: de::Error>(self, _: bool) -> Result<Doc, E> {
+            Ok(Doc::One(Item::Other))
+        }
+        fn visit_i64<E: de::Error>(self, _: i64) -> Result<Doc, E> {
+            Ok(Doc::One(Item::Other))
+        }
+        fn visit_u64<E: de::Error>(self, _: u64) -> Result<Doc, E> {
+            Ok(Doc::One(Item::Other))
+        }
+        fn visit_f64<E: de::Error>(self, _: f64) -> Result<Doc, E> {
+            Ok(Doc::One(Item::Other))
+        }
+        fn visit_str<E: de::Error>(self, _: &str) -> Result<Doc, E> {
+            Ok(Doc::One(Item::Other))
+        }
+        fn visit_unit<E: de::Error>(self) -> Result<Doc, E> {
+            Ok(Doc::One(Item::Other))
+        }
+    }
+
+    /// Line and column (1-based, column in characters) of each key of each OMM object, in
+    /// document order. The OMM objects are the top-level object, or the objects directly in
+    /// the top-level array. Only called on text that parsed as JSON.
+    pub fn key_positions(text: &str) -> Vec<Vec<(usize, usize)>> {
+        let mut out: Vec<Vec<(usize, usize)>> = Vec::new();
+        let (mut depth, mut object_depth) = (0usize, 1usize);
+        let (mut line, mut column) = (1usize, 0usize);
+        let (mut in_string, mut escape) = (false, false);
+        let (mut start, mut last_string) = ((0, 0), None);
+        for ch in text.chars() {
+            if ch == '\n' {
+                (line, column) = (line + 1, 0);
+                continue;
+            }
+            column += 1;
+            if in_string {
+                if escape {
+                    escape = false;
+                } else if ch == '\\' {
+                    escape = true;
+                } else if ch == '"' {
+                    in_string = false;
+                    last_string = (depth == object_depth).then_some(start);
+                }
+                continue;
+            }
+            match ch {
+                '"' => (in_string, start) = (true, (line, column)),
+                ':' if depth == object_depth => {
+                    if let (Some(p), Some(keys)) = (last_string.take(), out.last_mut()) {
+                        keys.push(p);
+                    }
+                }
+                '[' if depth == 0 => (object_depth, depth) = (2, 1),
+                '{' | '[' => {
+                    depth += 1;
+                    if ch == '{' && depth == object_depth {
+                        out.push(Vec::new());
+                    }
+                }
+                '}' | ']' => depth = depth.saturating_sub(1),
+                _ => {}
+            }
+        }
+        out
+    }
+
+    impl<'de> Deserialize<'de> for Doc {
+        fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Doc, D::Error> {
+            d.deserialize_any(DocVisitor)
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -284,5 +656,131 @@ mod tests {
         let b = parse_epoch("2026-335T12:00:00Z").unwrap();
         assert_eq!(a, b);
         assert!(parse_epoch("1 Dec 2026").is_none());
+    }
+
+    const KVN: &str = include_str!("../../examples/sat-omm.kvn");
+    const JSON: &str = include_str!("../../examples/sat-omm.json");
+
+    #[test]
+    fn range_errors_name_keyword_and_line() {
+        let kvn = KVN.replace("INCLINATION = 97.5950", "INCLINATION = 197.45");
+        let err = parse_omm_kvn(&kvn).unwrap_err();
+        assert_eq!(
+            err.to_string(),
+            "message 0 (line 16, column 15): INCLINATION = '197.45' is not valid: \
+             inclination 197.45 deg is out of range (0 to 180 deg)"
+        );
+        let json = JSON.replace("\"MEAN_MOTION\": 15.05472", "\"MEAN_MOTION\": 1e308");
+        let err = parse_omm_json(&json).unwrap_err();
+        assert!(
+            matches!(&err, OmmError::InvalidValue { field, .. } if field == "MEAN_MOTION"),
+            "{err:?}"
+        );
+        assert!(err.to_string().contains("1e308 rev/day"), "{err}");
+        assert!(err.to_string().contains("(line 14, column 5)"), "{err}");
+        for (from, to) in [
+            ("RA_OF_ASC_NODE = 215.3000", "RA_OF_ASC_NODE = -1"),
+            ("ARG_OF_PERICENTER = 90.0000", "ARG_OF_PERICENTER = 720"),
+            ("MEAN_ANOMALY = 270.0000", "MEAN_ANOMALY = 360.5"),
+            ("MEAN_MOTION = 15.05472000", "MEAN_MOTION = 0"),
+        ] {
+            let err = parse_omm_kvn(&KVN.replace(from, to)).unwrap_err();
+            assert!(
+                matches!(&err, OmmError::InvalidValue { field, line: Some(_), .. } if from.starts_with(field.as_str())),
+                "{to}: {err:?}"
+            );
+        }
+    }
+
+    #[test]
+    fn byte_order_mark_is_skipped() {
+        assert_eq!(parse_omm_kvn(&format!("\u{feff}{KVN}")).unwrap().len(), 1);
+        assert_eq!(parse_omm_json(&format!("\u{feff}{JSON}")).unwrap().len(), 1);
+    }
+
+    #[test]
+    fn duplicate_keys_are_errors() {
+        let kvn = KVN.replace(
+            "BSTAR = 0.00012000 [1/ER]",
+            "BSTAR = 0.00012000\nBSTAR = 0.1",
+        );
+        assert_eq!(
+            parse_omm_kvn(&kvn).unwrap_err(),
+            OmmError::DuplicateKey {
+                object: 0,
+                key: "BSTAR".to_string(),
+                line: Some(27),
+                column: Some(9),
+                first_line: Some(26),
+            }
+        );
+        let json = JSON.replace("\"BSTAR\": 0.00012,", "\"BSTAR\": 0.00012, \"bstar\": 0.1,");
+        let err = parse_omm_json(&json).unwrap_err();
+        assert_eq!(
+            err,
+            OmmError::DuplicateKey {
+                object: 0,
+                key: "BSTAR".to_string(),
+                line: Some(25),
+                column: Some(23),
+                first_line: Some(25),
+            }
+        );
+        assert!(err.to_string().contains("BSTAR"));
+    }
+
+    #[test]
+    fn unknown_keys_are_errors() {
+        let kvn = KVN.replace("ELEMENT_SET_NO", "ELEMENT_SET_NUM");
+        let err = parse_omm_kvn(&kvn).unwrap_err();
+        assert_eq!(
+            err,
+            OmmError::UnknownKey {
+                object: 0,
+                key: "ELEMENT_SET_NUM".to_string(),
+                line: Some(24),
+                column: Some(19),
+            }
+        );
+        assert!(err.to_string().contains("line 24") && err.to_string().contains("ELEMENT_SET_NUM"));
+        let json = JSON.replace("REV_AT_EPOCH", "REV_AT_EPOC");
+        assert!(matches!(
+            parse_omm_json(&json).unwrap_err(),
+            OmmError::UnknownKey { key, line: Some(24), column: Some(5), .. } if key == "REV_AT_EPOC"
+        ));
+        // User-defined keywords are part of the standard's keyword set.
+        let kvn = KVN.replace(
+            "ORIGINATOR = PASSBUDGET DEMO",
+            "ORIGINATOR = X\nUSER_DEFINED_NOTE = 1",
+        );
+        assert!(parse_omm_kvn(&kvn).is_ok());
+    }
+
+    #[test]
+    fn json_null_for_required_keyword() {
+        let json = JSON.replace("\"MEAN_MOTION\": 15.05472", "\"MEAN_MOTION\": null");
+        let err = parse_omm_json(&json).unwrap_err();
+        assert!(
+            matches!(&err, OmmError::InvalidValue { field, value, .. } if field == "MEAN_MOTION" && value == "null"),
+            "{err:?}"
+        );
+        assert!(
+            err.to_string()
+                .starts_with("message 0 (line 14, column 5): MEAN_MOTION"),
+            "{err}"
+        );
+        // null for an optional keyword counts as absent.
+        let json = JSON.replace("\"OBJECT_ID\": \"PB-DEMO-001\"", "\"OBJECT_ID\": null");
+        assert!(parse_omm_json(&json).is_ok());
+    }
+
+    #[test]
+    fn json_key_positions_skip_nested_and_strings() {
+        let text = "[\n {\"A\": 1, \"B\": {\"C\": \"x:\\\"y\"}},\n 3,\n {\"D\" : [\"E\"]}\n]";
+        assert_eq!(
+            json::key_positions(text),
+            vec![vec![(2, 3), (2, 11)], vec![(4, 3)]]
+        );
+        assert_eq!(json::key_positions("{\"K\": 1}"), vec![vec![(1, 2)]]);
     }
 }

@@ -190,13 +190,22 @@ impl Propagator {
     /// TEME state `minutes` after epoch (negative = before).
     pub fn propagate_minutes(&self, minutes: f64) -> Result<TemeState, PropagationError> {
         self.count.set(self.count.get() + 1);
-        let time = || crate::timefmt::add_seconds(&self.epoch, minutes * 60.0);
-        if !minutes.is_finite() || minutes.abs() > 1.0e9 {
+        // The UTC time of `minutes`; it must be a representable date (an OMM epoch may lie
+        // near the end of the calendar range, where adding minutes would overflow).
+        let at = (minutes.is_finite() && minutes.abs() <= 1.0e9)
+            .then(|| {
+                let us = (minutes * 60.0 * 1e6).round() as i64;
+                self.epoch
+                    .checked_add_signed(chrono::Duration::microseconds(us))
+            })
+            .flatten();
+        let Some(at) = at else {
             return Err(PropagationError::TimeOutOfRange {
                 norad_id: self.norad_id,
                 minutes,
             });
-        }
+        };
+        let time = || at;
         let result = match self.initial_resonance {
             None => {
                 self.constants
@@ -260,5 +269,28 @@ impl Propagator {
     /// Earth-fixed (pseudo-Earth-fixed, see [`super::frames`]) state at UTC time `t`.
     pub fn ecef_at(&self, t: &DateTime<Utc>) -> Result<EcefState, PropagationError> {
         Ok(teme_to_ecef(&self.state_at(t)?, t))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn time_past_the_calendar_end_is_an_error_not_a_panic() {
+        let text = "1 99901U          26335.50000000  .00001200  00000-0  12000-3 0   127\n\
+                    2 99901  97.5950 215.3000 0011500  90.0000 270.0000 15.05472000  1231\n";
+        let mut set = crate::orbit::tle::parse_tle(text).unwrap().remove(0);
+        set.epoch = DateTime::<Utc>::MAX_UTC - chrono::Duration::days(1);
+        let p = Propagator::new(&set).unwrap();
+        assert!(p.propagate_minutes(0.0).is_ok());
+        assert!(matches!(
+            p.propagate_minutes(2.0 * 1440.0),
+            Err(PropagationError::TimeOutOfRange { .. })
+        ));
+        assert!(matches!(
+            p.propagate_minutes(f64::NAN),
+            Err(PropagationError::TimeOutOfRange { .. })
+        ));
     }
 }

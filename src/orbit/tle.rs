@@ -17,6 +17,7 @@
 //! read as 0, as the published code does (its integer read of a blank field gives 0).
 //! Field decoding (including Alpha-5 catalog numbers) is done by the `sgp4` crate.
 
+use super::checks::{check_element_ranges, strip_bom};
 use super::ElementSet;
 
 /// A malformed TLE file. `line` is the 1-based line number in the file.
@@ -49,6 +50,18 @@ pub enum TleError {
         line: usize,
         line1: String,
         line2: String,
+    },
+    #[error("line {line}, columns {first_column}-{last_column}: {field} {value} is out of range ({allowed})")]
+    OutOfRange {
+        line: usize,
+        first_column: usize,
+        last_column: usize,
+        /// Element name ("inclination", "epoch day").
+        field: &'static str,
+        /// The value with its unit ("197.45 deg").
+        value: String,
+        /// The accepted range ("0 to 180 deg").
+        allowed: String,
     },
     #[error("line {line}, columns {first_column}-{last_column}: {reason}")]
     Field {
@@ -115,9 +128,11 @@ fn is_line2(s: &str) -> bool {
     s.starts_with("2 ")
 }
 
-/// Parse TLE text (2-line and 3-line sets may be mixed). An empty file is an error.
+/// Parse TLE text (2-line and 3-line sets may be mixed). An empty file is an error. A UTF-8
+/// byte-order mark at the start is skipped. Elements out of range (see
+/// [`super::checks`]) are errors naming line and columns.
 pub fn parse_tle(text: &str) -> Result<Vec<ElementSet>, TleError> {
-    let lines: Vec<(usize, &str)> = text
+    let lines: Vec<(usize, &str)> = strip_bom(text)
         .lines()
         .enumerate()
         .map(|(i, l)| (i + 1, l.trim_end()))
@@ -181,28 +196,94 @@ pub fn parse_tle(text: &str) -> Result<Vec<ElementSet>, TleError> {
             None => return Err(TleError::MissingLine2 { line: n1 }),
         };
         i += 1;
-        let c1 = data_columns(l1, n1)?;
-        let c2 = data_columns(l2, n2)?;
-        let id1 = c1[2..7].trim();
-        let id2 = c2[2..7].trim();
-        if id1 != id2 {
-            return Err(TleError::CatalogMismatch {
-                line: n2,
-                line1: id1.to_string(),
-                line2: id2.to_string(),
-            });
-        }
-        // Blank ephemeris type (column 63) -> '0' (does not change the checksum).
-        let mut b1 = [0u8; 69];
-        b1.copy_from_slice(c1.as_bytes());
-        if b1[62] == b' ' {
-            b1[62] = b'0';
-        }
-        let elements = sgp4::Elements::from_tle(name, &b1, c2.as_bytes())
-            .map_err(|e| field_error(&e, n1, n2))?;
-        sets.push(ElementSet::from_elements(elements));
+        sets.push(decode_set(name, (n1, l1), (n2, l2))?);
     }
     Ok(sets)
+}
+
+/// Check and decode one line pair (file line number and text of each).
+fn decode_set(
+    name: Option<String>,
+    (n1, l1): (usize, &str),
+    (n2, l2): (usize, &str),
+) -> Result<ElementSet, TleError> {
+    let c1 = data_columns(l1, n1)?;
+    let c2 = data_columns(l2, n2)?;
+    let id1 = c1[2..7].trim();
+    let id2 = c2[2..7].trim();
+    if id1 != id2 {
+        return Err(TleError::CatalogMismatch {
+            line: n2,
+            line1: id1.to_string(),
+            line2: id2.to_string(),
+        });
+    }
+    // Blank ephemeris type (column 63) -> '0' (does not change the checksum).
+    let mut b1 = [0u8; 69];
+    b1.copy_from_slice(c1.as_bytes());
+    if b1[62] == b' ' {
+        b1[62] = b'0';
+    }
+    check_epoch(c1, n1)?;
+    let elements =
+        sgp4::Elements::from_tle(name, &b1, c2.as_bytes()).map_err(|e| field_error(&e, n1, n2))?;
+    check_element_ranges(&elements).map_err(|v| {
+        let (first_column, last_column) = v.field.tle_columns();
+        TleError::OutOfRange {
+            line: n2,
+            first_column,
+            last_column,
+            field: v.field.label(),
+            value: v.value_text(),
+            allowed: v.field.allowed().to_string(),
+        }
+    })?;
+    Ok(ElementSet::from_elements(elements))
+}
+
+/// Check the epoch of line 1: year in columns 19-20 (two digits; 57-99 = 19xx, 00-56 = 20xx, the
+/// NORAD convention), day of year with fraction in columns 21-32, from 1 to below one more than
+/// the days of that year (Spacetrack Report No. 3, 1980, element set format).
+fn check_epoch(c1: &str, line: usize) -> Result<(), TleError> {
+    let field = |first_column, last_column, reason: &str| TleError::Field {
+        line,
+        first_column,
+        last_column,
+        reason: reason.to_string(),
+    };
+    let yy = &c1[18..20];
+    if !yy.bytes().all(|b| b.is_ascii_digit()) {
+        return Err(field(19, 20, "expected a two-digit epoch year"));
+    }
+    let yy: i32 = yy.parse().unwrap_or(0);
+    let year = if yy < 57 { 2000 + yy } else { 1900 + yy };
+    let day_text = c1[20..32].trim();
+    let day: f64 = day_text
+        .parse()
+        .ok()
+        .filter(|d: &f64| {
+            d.is_finite() && day_text.bytes().all(|b| b.is_ascii_digit() || b == b'.')
+        })
+        .ok_or_else(|| {
+            field(
+                21,
+                32,
+                "expected the epoch day of year (such as 335.50000000)",
+            )
+        })?;
+    let leap = (year % 4 == 0 && year % 100 != 0) || year % 400 == 0;
+    let days = if leap { 366.0 } else { 365.0 };
+    if !(1.0..days + 1.0).contains(&day) {
+        return Err(TleError::OutOfRange {
+            line,
+            first_column: 21,
+            last_column: 32,
+            field: "epoch day",
+            value: format!("{day}"),
+            allowed: format!("1 to below {} for {year}", days + 1.0),
+        });
+    }
+    Ok(())
 }
 
 /// Map an `sgp4` crate field error to our line/column error. The crate's error keeps its
@@ -278,5 +359,102 @@ mod tests {
     fn name_line_with_zero_prefix() {
         let sets = parse_tle(&format!("0 SAT A\n{L1}\r\n{L2}\n\n")).unwrap();
         assert_eq!(sets[0].name.as_deref(), Some("SAT A"));
+    }
+
+    // The shipped example set (examples/sat.tle), an invented satellite.
+    const W1: &str = "1 99901U          26335.50000000  .00001200  00000-0  12000-3 0   127";
+    const W2: &str = "2 99901  97.5950 215.3000 0011500  90.0000 270.0000 15.05472000  1231";
+
+    /// Replace columns `first..=last` (1-based) of a data line and fix the checksum.
+    fn patch(line: &str, first: usize, text: &str) -> String {
+        let mut cols = line[..68].to_string();
+        cols.replace_range(first - 1..first - 1 + text.len(), text);
+        with_checksum(&cols).unwrap()
+    }
+
+    #[test]
+    fn inclination_out_of_range_names_columns() {
+        let l2 = patch(W2, 9, "197.4500");
+        let err = parse_tle(&format!("{W1}\n{l2}\n")).unwrap_err();
+        assert_eq!(
+            err.to_string(),
+            "line 2, columns 9-16: inclination 197.45 deg is out of range (0 to 180 deg)"
+        );
+    }
+
+    #[test]
+    fn other_elements_out_of_range() {
+        for (first, text, columns) in [
+            (18, "360.5000", (18, 25)),
+            (35, "361.0000", (35, 42)),
+            (44, "400.0000", (44, 51)),
+            (53, "17.50000000", (53, 63)),
+        ] {
+            let l2 = patch(W2, first, text);
+            match parse_tle(&format!("X\n{W1}\n{l2}\n")).unwrap_err() {
+                TleError::OutOfRange {
+                    line: 3,
+                    first_column,
+                    last_column,
+                    ..
+                } => assert_eq!((first_column, last_column), columns, "{text}"),
+                other => panic!("{text}: {other:?}"),
+            }
+        }
+    }
+
+    #[test]
+    fn zero_mean_motion_gives_line_and_columns() {
+        let l2 = patch(W2, 53, " 0.00000000");
+        let err = parse_tle(&format!("{W1}\n{l2}\n")).unwrap_err();
+        let msg = err.to_string();
+        assert!(
+            msg.starts_with("line 2, columns 53-63: mean motion 0 rev/day"),
+            "{msg}"
+        );
+    }
+
+    #[test]
+    fn bad_day_of_year_blames_day_columns() {
+        for day in ["367.50000000", "000.50000000", "366.50000000"] {
+            let l1 = patch(W1, 21, day);
+            let err = parse_tle(&format!("{l1}\n{W2}\n")).unwrap_err();
+            assert!(
+                matches!(
+                    err,
+                    TleError::OutOfRange {
+                        line: 1,
+                        first_column: 21,
+                        last_column: 32,
+                        ..
+                    }
+                ),
+                "{day}: {err:?}"
+            );
+        }
+        // 2024 is a leap year: day 366.5 is valid.
+        let l1 = patch(W1, 19, "24366.50000000");
+        assert!(parse_tle(&format!("{l1}\n{W2}\n")).is_ok());
+        let l1 = patch(W1, 21, "3x5.50000000");
+        let err = parse_tle(&format!("{l1}\n{W2}\n")).unwrap_err();
+        assert!(
+            matches!(
+                err,
+                TleError::Field {
+                    first_column: 21,
+                    last_column: 32,
+                    ..
+                }
+            ),
+            "{err:?}"
+        );
+    }
+
+    #[test]
+    fn byte_order_mark_is_skipped() {
+        let sets = parse_tle(&format!("\u{feff}{W1}\n{W2}\n")).unwrap();
+        assert_eq!(sets[0].norad_id, 99901);
+        let sets = parse_tle(&format!("\u{feff}WRENLET-1\n{W1}\n{W2}\n")).unwrap();
+        assert_eq!(sets[0].name.as_deref(), Some("WRENLET-1"));
     }
 }
