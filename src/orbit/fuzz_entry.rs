@@ -7,7 +7,9 @@
 //! it to a few times around the epoch, then turns one state Earth-fixed. Errors are expected
 //! and ignored; the property under test is that no input panics.
 
-use super::{omm, tle, ElementSet, Propagator};
+use super::elements::ElementSet;
+use super::propagate::Propagator;
+use super::{omm, tle};
 
 /// Most sets propagated per input (keeps each fuzz run short).
 pub const MAX_SETS: usize = 8;

@@ -16,6 +16,7 @@
 //! element-set history (several sets of one satellite) by epoch.
 
 pub mod checks;
+mod elements;
 pub mod frames;
 pub mod fuzz_entry;
 pub mod omm;
@@ -27,43 +28,11 @@ use std::path::{Path, PathBuf};
 use chrono::{DateTime, Utc};
 
 pub use checks::{check_element_ranges, ElementField, RangeViolation};
+pub use elements::ElementSet;
 pub use frames::{EcefState, TemeState};
 pub use omm::OmmError;
 pub use propagate::{PropagationError, Propagator};
 pub use tle::TleError;
-
-/// One satellite's mean elements, ready for SGP4.
-#[derive(Debug, Clone, PartialEq)]
-pub struct ElementSet {
-    /// Object name (line 0 of a 3-line set, `OBJECT_NAME` of an OMM); `None` for a 2-line set.
-    pub name: Option<String>,
-    /// Satellite catalog number.
-    pub norad_id: u64,
-    /// Element epoch (UTC).
-    pub epoch: DateTime<Utc>,
-    /// The elements in the form the `sgp4` crate consumes (angles in degrees, mean motion in rev/day).
-    pub elements: sgp4::Elements,
-}
-
-impl ElementSet {
-    /// Wrap `sgp4::Elements`, taking name, catalog number and epoch from them.
-    pub fn from_elements(elements: sgp4::Elements) -> ElementSet {
-        ElementSet {
-            name: elements.object_name.clone(),
-            norad_id: elements.norad_id,
-            epoch: elements.datetime.and_utc(),
-            elements,
-        }
-    }
-
-    /// A label for messages: the name if there is one, else the catalog number.
-    pub fn label(&self) -> String {
-        match &self.name {
-            Some(n) => format!("{n} ({})", self.norad_id),
-            None => format!("catalog number {}", self.norad_id),
-        }
-    }
-}
 
 /// Error loading an element file: names the file; the inner error names the line.
 #[derive(Debug, thiserror::Error)]

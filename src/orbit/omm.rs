@@ -20,7 +20,7 @@ use std::collections::HashMap;
 use chrono::NaiveDateTime;
 
 use super::checks::{check_element_ranges, strip_bom};
-use super::ElementSet;
+use super::elements::ElementSet;
 
 /// A malformed OMM. `line` is the 1-based line number (KVN); `object` the 0-based index of the
 /// message in the file.

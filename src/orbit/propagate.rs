@@ -19,8 +19,8 @@ use std::cell::Cell;
 
 use chrono::{DateTime, Utc};
 
+use super::elements::ElementSet;
 use super::frames::{teme_to_ecef, EcefState, TemeState};
-use super::ElementSet;
 
 /// WGS-72 equatorial radius, km (as in the `sgp4` crate's `WGS72` and AIAA 2006-6753 `getgravconst`).
 pub const WGS72_RADIUS_KM: f64 = 6378.135;

@@ -18,7 +18,7 @@
 //! Field decoding (including Alpha-5 catalog numbers) is done by the `sgp4` crate.
 
 use super::checks::{check_element_ranges, strip_bom};
-use super::ElementSet;
+use super::elements::ElementSet;
 
 /// A malformed TLE file. `line` is the 1-based line number in the file.
 #[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]

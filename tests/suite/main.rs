@@ -9,6 +9,7 @@ mod atmosphere_valex;
 mod chart_render;
 mod cli_budget;
 mod cli_passes;
+mod fuzz_replay;
 mod geometry_skyfield;
 mod golden_outputs;
 mod link_budget;

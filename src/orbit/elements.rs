@@ -1,0 +1,36 @@
+//! The element set every input form ends in.
+
+use chrono::{DateTime, Utc};
+
+/// One satellite's mean elements, ready for SGP4.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ElementSet {
+    /// Object name (line 0 of a 3-line set, `OBJECT_NAME` of an OMM); `None` for a 2-line set.
+    pub name: Option<String>,
+    /// Satellite catalog number.
+    pub norad_id: u64,
+    /// Element epoch (UTC).
+    pub epoch: DateTime<Utc>,
+    /// The elements in the form the `sgp4` crate consumes (angles in degrees, mean motion in rev/day).
+    pub elements: sgp4::Elements,
+}
+
+impl ElementSet {
+    /// Wrap `sgp4::Elements`, taking name, catalog number and epoch from them.
+    pub fn from_elements(elements: sgp4::Elements) -> ElementSet {
+        ElementSet {
+            name: elements.object_name.clone(),
+            norad_id: elements.norad_id,
+            epoch: elements.datetime.and_utc(),
+            elements,
+        }
+    }
+
+    /// A label for messages: the name if there is one, else the catalog number.
+    pub fn label(&self) -> String {
+        match &self.name {
+            Some(n) => format!("{n} ({})", self.norad_id),
+            None => format!("catalog number {}", self.norad_id),
+        }
+    }
+}
