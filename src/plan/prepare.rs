@@ -8,7 +8,8 @@ use crate::atmosphere::{
     mean_radiating_temperature_k, AtmosphereSite, PathSpec, PreparedAtmosphere, Weather,
 };
 use crate::config::mission::Mission;
-use crate::config::station::{GainSpec, Station};
+use crate::config::mission::{ModemConfig, TransmitterConfig};
+use crate::config::station::{GainSpec, GroundAntenna, Receiver, Station};
 use crate::config::ConfigError;
 use crate::geometry::{HorizonMask, Observer};
 use crate::link::antenna::{dish_beamwidth_deg, GroundAntennaSpec, TransmitterSpec, TxPower};
@@ -105,12 +106,18 @@ impl RateSet {
     }
 }
 
-/// Prepare one station for this mission's transmitter.
-pub fn station_model(
-    mission: &Mission,
-    st: &Station,
-    mask_override: Option<f64>,
-) -> Result<StationModel, PrepareError> {
+/// The radio blocks a budget needs, present: the mission's transmitter, the station's antenna and
+/// receiver. From here on they are plain references, not options.
+struct RadioBlocks<'a> {
+    tx: &'a TransmitterConfig,
+    ant: &'a GroundAntenna,
+    rx: &'a Receiver,
+}
+
+fn radio_blocks<'a>(
+    mission: &'a Mission,
+    st: &'a Station,
+) -> Result<RadioBlocks<'a>, PrepareError> {
     let file = &st.source;
     let tx = mission.transmitter.as_ref().ok_or_else(|| {
         model_err(
@@ -121,13 +128,59 @@ pub fn station_model(
     })?;
     let ant = st.antenna.as_ref().ok_or_else(|| model_err(file, None, "the station has no antenna block; the budget needs antenna.diameter_m or antenna.gain_dbi"))?;
     let rx = st.receiver.as_ref().ok_or_else(|| model_err(file, None, "the station has no receiver block; the budget needs receiver.lna_noise_temperature_k or lna_noise_figure_db"))?;
+    Ok(RadioBlocks { tx, ant, rx })
+}
+
+/// Prepare one station for this mission's transmitter.
+pub fn station_model(
+    mission: &Mission,
+    st: &Station,
+    mask_override: Option<f64>,
+) -> Result<StationModel, PrepareError> {
+    let file = &st.source;
+    let radio = radio_blocks(mission, st)?;
     let observer = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m)
         .map_err(|e| model_err(file, None, e))?;
     let min = mask_override.unwrap_or(st.min_elevation_deg);
     let mask = HorizonMask::new(min, st.horizon_mask.clone())
         .map_err(|e| model_err(file, None, format!("horizon_mask: {e}")))?;
-    let (diameter_m, efficiency) = antenna_aperture(&ant.gain, tx.frequency_hz);
-    let ground_spec = match ant.gain {
+    let frequency_hz = radio.tx.frequency_hz;
+    let (diameter_m, efficiency) = antenna_aperture(&radio.ant.gain, frequency_hz);
+    let link = link_model(mission, st, &radio, diameter_m)?;
+    let site = atmosphere_site(st);
+    // Circular polarization: tilt 45 deg in P.838-3 eqs (4)-(5); linear: the same 45 deg is used as
+    // the orientation along a pass is not known (documented in the README).
+    let polarization_tilt_deg = 45.0;
+    let path = PathSpec {
+        frequency_ghz: frequency_hz / 1e9,
+        polarization_tilt_deg,
+        antenna_diameter_m: diameter_m,
+        antenna_efficiency: efficiency,
+    };
+    let atmosphere = PreparedAtmosphere::new(&site, &path)
+        .map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
+    Ok(StationModel {
+        station: st.clone(),
+        observer,
+        mask,
+        link,
+        atmosphere,
+        mean_radiating_temperature_k: mean_radiating_temperature_k(st.climate.temperature_k),
+        antenna_diameter_m: diameter_m,
+        polarization_tilt_deg,
+        configured_min_elevation_deg: min,
+    })
+}
+
+/// The ground antenna as the link model wants it; a gain given directly takes the beamwidth of its
+/// aperture (`diameter_m`, given or equivalent).
+fn ground_antenna_spec(
+    ant: &GroundAntenna,
+    diameter_m: f64,
+    frequency_hz: f64,
+    file: &std::path::Path,
+) -> Result<GroundAntennaSpec, PrepareError> {
+    Ok(match ant.gain {
         GainSpec::Aperture {
             diameter_m,
             efficiency,
@@ -138,11 +191,22 @@ pub fn station_model(
         },
         GainSpec::Given { gain_dbi, .. } => GroundAntennaSpec::Gain {
             gain_dbi,
-            beamwidth_deg: dish_beamwidth_deg(diameter_m, tx.frequency_hz)
+            beamwidth_deg: dish_beamwidth_deg(diameter_m, frequency_hz)
                 .map_err(|e| model_err(file, None, e))?,
             pointing_error_deg: ant.pointing_error_deg,
         },
-    };
+    })
+}
+
+/// The link model of the mission's transmitter to this station.
+fn link_model(
+    mission: &Mission,
+    st: &Station,
+    radio: &RadioBlocks,
+    diameter_m: f64,
+) -> Result<LinkModel, PrepareError> {
+    let RadioBlocks { tx, ant, rx } = *radio;
+    let file = &st.source;
     // A radome (or any loss in front of the feed) at the ground temperature attenuates the signal
     // and adds noise: it is folded into the receiver's first passive stage together with the feed
     // loss. Two passive losses L1 (at T1) then L2 (at T2) equal one loss L1 L2 at
@@ -160,7 +224,7 @@ pub fn station_model(
             line_loss_db: tx.line_loss_db + tx.other_loss_db,
             pattern: tx.pattern.clone(),
         },
-        ground_antenna: ground_spec,
+        ground_antenna: ground_antenna_spec(ant, diameter_m, tx.frequency_hz, file)?,
         receiver: ReceiverSpec {
             feed_loss_db,
             feed_temperature_k,
@@ -193,31 +257,7 @@ pub fn station_model(
                 .unwrap_or(tx.frequency_hz),
         ),
     };
-    let link = LinkModel::new(&spec).map_err(|e| model_err(file, None, e))?;
-    let c = &st.climate;
-    let site = atmosphere_site(st);
-    // Circular polarization: tilt 45 deg in P.838-3 eqs (4)-(5); linear: the same 45 deg is used as
-    // the orientation along a pass is not known (documented in the README).
-    let polarization_tilt_deg = 45.0;
-    let path = PathSpec {
-        frequency_ghz: tx.frequency_hz / 1e9,
-        polarization_tilt_deg,
-        antenna_diameter_m: diameter_m,
-        antenna_efficiency: efficiency,
-    };
-    let atmosphere = PreparedAtmosphere::new(&site, &path)
-        .map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
-    Ok(StationModel {
-        station: st.clone(),
-        observer,
-        mask,
-        link,
-        atmosphere,
-        mean_radiating_temperature_k: mean_radiating_temperature_k(c.temperature_k),
-        antenna_diameter_m: diameter_m,
-        polarization_tilt_deg,
-        configured_min_elevation_deg: min,
-    })
+    LinkModel::new(&spec).map_err(|e| model_err(file, None, e))
 }
 
 /// The ground antenna's aperture, used for its beamwidth and for scintillation (aperture averaging
@@ -300,6 +340,54 @@ pub fn availability_weather(
     Ok(Some(w))
 }
 
+/// One rate option of the modem: its scheme's operating point at the target error rate, its
+/// spectrum on this link and its C/N0 threshold (10 log10 R + required Eb/N0 + implementation
+/// loss + required margin). A BER figure at another BER than asked adds a warning (once).
+fn rate_option(
+    path: &std::path::Path,
+    m: &ModemConfig,
+    link: &LinkModel,
+    rate_bps: f64,
+    name: &str,
+    line: Option<usize>,
+    warnings: &mut Vec<String>,
+) -> Result<(RateOption, RateSpec), PrepareError> {
+    let idx = scheme_index(name).map_err(|e| model_err(path, line, e))?;
+    let op = operating_point(idx, Some(m.target_ber))
+        .map_err(|e| model_err(path, line, format!("{name}: {e}")))?;
+    // FER/PER figures (AR4JA, DVB-S2) are for their own measure and are listed in the plan's
+    // assumptions.
+    if let (
+        crate::link::modcod::TargetMatch::Nearest { requested },
+        crate::link::modcod::ErrorMeasure::Ber,
+    ) = (op.target_match, op.measure)
+    {
+        let w = format!(
+            "{name}: no threshold at the requested BER {requested:e}; the figure for BER {:e} is used",
+            op.error_rate
+        );
+        if !warnings.contains(&w) {
+            warnings.push(w);
+        }
+    }
+    let spec = link
+        .rate_spec(rate_bps, op, m.roll_off, m.implementation_loss_db)
+        .map_err(|e| model_err(path, line, format!("{name} at {rate_bps} bit/s: {e}")))?;
+    let threshold_cn0_dbhz = crate::units::ratio_to_db(rate_bps)
+        + op.required_ebn0_db
+        + m.implementation_loss_db
+        + m.required_margin_db;
+    let option = RateOption {
+        rate_bps,
+        scheme: op.name.to_string(),
+        required_ebn0_db: op.required_ebn0_db,
+        threshold_cn0_dbhz,
+        occupied_bandwidth_hz: spec.occupied_bandwidth_hz(),
+        implementation_loss_db: m.implementation_loss_db,
+    };
+    Ok((option, spec))
+}
+
 /// Build the rate options from the mission's modem. `link` is any station's link model (the
 /// bandwidth limit and frequency are the mission's).
 pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareError> {
@@ -318,48 +406,9 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
             "modem.ladder has no rates; give at least one { rate_bps, scheme }",
         ));
     }
-    let warnings = std::cell::RefCell::new(Vec::<String>::new());
-    let option = |rate_bps: f64,
-                  name: &str,
-                  line: Option<usize>|
-     -> Result<(RateOption, RateSpec), PrepareError> {
-        let idx = scheme_index(name).map_err(|e| model_err(path, line, e))?;
-        let op = operating_point(idx, Some(m.target_ber))
-            .map_err(|e| model_err(path, line, format!("{name}: {e}")))?;
-        // A BER figure at another BER than asked is worth a warning; FER/PER figures (AR4JA,
-        // DVB-S2) are for their own measure and are listed in the plan's assumptions.
-        if let (
-            crate::link::modcod::TargetMatch::Nearest { requested },
-            crate::link::modcod::ErrorMeasure::Ber,
-        ) = (op.target_match, op.measure)
-        {
-            let w = format!(
-                "{name}: no threshold at the requested BER {requested:e}; the figure for BER {:e} is used",
-                op.error_rate
-            );
-            let mut ws = warnings.borrow_mut();
-            if !ws.contains(&w) {
-                ws.push(w);
-            }
-        }
-        let spec = link
-            .rate_spec(rate_bps, op, m.roll_off, m.implementation_loss_db)
-            .map_err(|e| model_err(path, line, format!("{name} at {rate_bps} bit/s: {e}")))?;
-        let threshold_cn0_dbhz = crate::units::ratio_to_db(rate_bps)
-            + op.required_ebn0_db
-            + m.implementation_loss_db
-            + m.required_margin_db;
-        Ok((
-            RateOption {
-                rate_bps,
-                scheme: op.name.to_string(),
-                required_ebn0_db: op.required_ebn0_db,
-                threshold_cn0_dbhz,
-                occupied_bandwidth_hz: spec.occupied_bandwidth_hz(),
-                implementation_loss_db: m.implementation_loss_db,
-            },
-            spec,
-        ))
+    let mut warnings = Vec::new();
+    let mut option = |rate_bps: f64, name: &str, line: Option<usize>| {
+        rate_option(path, m, link, rate_bps, name, line, &mut warnings)
     };
     let mut ladder = Vec::new();
     let mut ladder_specs = Vec::new();
@@ -400,7 +449,7 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         required_margin_db: m.required_margin_db,
         implementation_loss_db: m.implementation_loss_db,
         min_dwell_s: m.min_dwell_s,
-        warnings: warnings.into_inner(),
+        warnings,
     })
 }
 
