@@ -20,5 +20,6 @@ mod orbit_input;
 mod orbit_sgp4_verification;
 mod passes_min_range;
 mod passes_search;
+mod pipeline;
 mod plan_checks;
 mod plan_worked_pass;
