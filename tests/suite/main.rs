@@ -23,3 +23,4 @@ mod passes_search;
 mod pipeline;
 mod plan_checks;
 mod plan_worked_pass;
+mod readme;
