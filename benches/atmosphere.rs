@@ -2,32 +2,20 @@
 //! building a `PreparedAtmosphere` (once per station and frequency).
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use passbudget::atmosphere::{AtmosphereSite, PathSpec, PreparedAtmosphere, Weather};
+use passbudget::atmosphere::{PreparedAtmosphere, Weather};
 use std::hint::black_box;
 use std::time::Duration;
 
-fn site() -> AtmosphereSite {
-    // Invented station.
-    AtmosphereSite {
-        latitude_deg: 47.3,
-        altitude_km: 0.42,
-        pressure_hpa: 965.0,
-        temperature_k: 284.0,
-        water_vapour_density_g_m3: 8.1,
-        rain_rate_001_mm_h: 32.0,
-        rain_height_km: None,
-        cloud_liquid_kg_m2: Some(0.4),
-        wet_refractivity: None,
-    }
+#[allow(dead_code)] // each bench uses part of the shared fixtures
+#[path = "../tests/suite/common/fixtures.rs"]
+mod fixtures;
+
+fn site() -> passbudget::atmosphere::AtmosphereSite {
+    fixtures::atmosphere_site()
 }
 
-fn path() -> PathSpec {
-    PathSpec {
-        frequency_ghz: 8.2,
-        polarization_tilt_deg: 45.0,
-        antenna_diameter_m: 3.7,
-        antenna_efficiency: 0.6,
-    }
+fn path() -> passbudget::atmosphere::PathSpec {
+    fixtures::atmosphere_path(8.2)
 }
 
 fn bench(c: &mut Criterion) {

@@ -1,53 +1,16 @@
 //! Criterion benchmark of one prepared-budget evaluation (invented X-band link).
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use passbudget::link::antenna::{GroundAntennaSpec, TransmitterSpec, TxPattern, TxPower};
-use passbudget::link::budget::{
-    AtmosphereLoss, BudgetGeometry, LinkModel, LinkModelSpec, PolarizationSpec,
-};
+use passbudget::link::budget::{AtmosphereLoss, BudgetGeometry, LinkModel};
 use passbudget::link::modcod::scheme;
-use passbudget::link::polarization::{EllipseOrientation, Polarization, PolarizationSense};
-use passbudget::noise::system::{GroundPickupSpec, LnaNoise, ReceiverSpec};
 use std::hint::black_box;
 
+#[allow(dead_code)] // each bench uses part of the shared fixtures
+#[path = "../tests/suite/common/fixtures.rs"]
+mod fixtures;
+
 fn bench_evaluate(c: &mut Criterion) {
-    let spec = LinkModelSpec {
-        frequency_hz: 8.2e9,
-        transmitter: TransmitterSpec {
-            power: TxPower::Watts(2.0),
-            line_loss_db: 1.0,
-            pattern: TxPattern::CosN {
-                boresight_gain_dbi: 6.0,
-                n: None,
-            },
-        },
-        ground_antenna: GroundAntennaSpec::Dish {
-            diameter_m: 3.7,
-            efficiency: 0.6,
-            pointing_error_deg: 0.05,
-        },
-        receiver: ReceiverSpec {
-            feed_loss_db: 0.3,
-            feed_temperature_k: 290.0,
-            lna_noise: LnaNoise::TemperatureK(60.0),
-            lna_gain_db: 30.0,
-            later_noise_figure_db: 6.0,
-        },
-        ground_pickup: GroundPickupSpec::default(),
-        polarization: PolarizationSpec {
-            spacecraft: Polarization {
-                sense: PolarizationSense::Rhcp,
-                axial_ratio_db: 2.0,
-            },
-            ground: Polarization {
-                sense: PolarizationSense::Rhcp,
-                axial_ratio_db: 1.0,
-            },
-            orientation: EllipseOrientation::WorstCase,
-            extra_loss_db: 0.2,
-        },
-        max_occupied_bandwidth_hz: Some(375e6),
-    };
+    let spec = fixtures::link_spec(375e6);
     let model = LinkModel::new(&spec).unwrap();
     let op = scheme("dvbs2-8psk-3/4")
         .unwrap()

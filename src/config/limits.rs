@@ -33,6 +33,14 @@ fn unit_suffix(unit: &str) -> String {
 
 impl Range {
     /// `v` if it is finite and within the range.
+    ///
+    /// ```
+    /// use passbudget::config::limits::STEP_S;
+    ///
+    /// assert_eq!(STEP_S.check(1.0), Ok(1.0));
+    /// let e = STEP_S.check(30.0).unwrap_err();
+    /// assert_eq!(e.to_string(), "30 is out of range (0.01 to 10 s)");
+    /// ```
     pub fn check(&self, v: f64) -> Result<f64, RangeError> {
         if v.is_finite() && v >= self.min && v <= self.max {
             Ok(v)

@@ -7,13 +7,13 @@ use super::inputs::{element_age_warning, load_satellite, SatelliteError};
 use super::prepare::{
     availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel,
 };
-use super::series::{budget_at, SeriesError};
+use super::series::{budget_at, link_inputs, SeriesError};
 use crate::atmosphere::{Attenuation, Weather};
 use crate::config::limits::short_number;
 use crate::config::mission::Mission;
 use crate::config::DefaultUsed;
 use crate::geometry::Look;
-use crate::link::budget::{AtmosphereLoss, BudgetGeometry, BudgetItem, BudgetValues, RateSpec};
+use crate::link::budget::{BudgetItem, BudgetValues, RateSpec};
 use crate::orbit::ElementSet;
 use crate::timefmt::format_ms;
 use chrono::{DateTime, Utc};
@@ -107,6 +107,23 @@ impl InstantBudget {
 }
 
 /// The budget of `req` in `mission`.
+///
+/// ```no_run
+/// use passbudget::config::mission::Mission;
+/// use passbudget::plan::instant::{instant_budget, InstantGeometry, InstantRequest};
+///
+/// let mission = Mission::load("examples/wrenlet-1.yaml".as_ref())?;
+/// let req = InstantRequest {
+///     station: "Nordkam".into(),
+///     geometry: InstantGeometry::Elevation(10.0),
+///     rate_bps: None,
+///     scheme: None,
+///     exceedance_percent: None,
+/// };
+/// let b = instant_budget(&mission, &req)?;
+/// println!("margin {:.2} dB, closes: {}", b.values.margin_db, b.closes());
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
 pub fn instant_budget(
     mission: &Mission,
     req: &InstantRequest,
@@ -289,19 +306,8 @@ fn items(
         unit: "dB",
         source,
     });
-    let link_items = model.link.itemize(
-        BudgetGeometry {
-            elevation_deg: look.elevation_deg,
-            range_km: look.range_km,
-            off_nadir_deg: look.off_nadir_deg,
-        },
-        AtmosphereLoss {
-            total_db: att.total_db,
-            absorptive_db: att.absorptive_db,
-            mean_radiating_temperature_k: model.mean_radiating_temperature_k,
-        },
-        rate,
-    )?;
+    let (geometry, atmosphere_loss) = link_inputs(model, look, att);
+    let link_items = model.link.itemize(geometry, atmosphere_loss, rate)?;
     let mut items = Vec::with_capacity(link_items.len() + atmosphere.len());
     for i in link_items {
         let after_fsl = i.name == "free_space_loss";

@@ -99,26 +99,36 @@ pub fn budget_at(
 ) -> Result<(Attenuation, BudgetValues), SeriesError> {
     // The atmosphere flags (and clamps) elevations outside its range itself.
     let att = model.atmosphere.at(look.elevation_deg, weather);
+    let (geometry, atmosphere) = link_inputs(model, look, &att);
     let values = model
         .link
-        .evaluate(
-            BudgetGeometry {
-                elevation_deg: look.elevation_deg,
-                range_km: look.range_km,
-                off_nadir_deg: look.off_nadir_deg,
-            },
-            AtmosphereLoss {
-                total_db: att.total_db,
-                absorptive_db: att.absorptive_db,
-                mean_radiating_temperature_k: model.mean_radiating_temperature_k,
-            },
-            reference,
-        )
+        .evaluate(geometry, atmosphere, reference)
         .map_err(|source| SeriesError::Budget {
             elevation_deg: look.elevation_deg,
             source,
         })?;
     Ok((att, values))
+}
+
+/// What the link model takes from a look angle and the atmosphere along it.
+#[inline]
+pub fn link_inputs(
+    model: &StationModel,
+    look: &Look,
+    att: &Attenuation,
+) -> (BudgetGeometry, AtmosphereLoss) {
+    (
+        BudgetGeometry {
+            elevation_deg: look.elevation_deg,
+            range_km: look.range_km,
+            off_nadir_deg: look.off_nadir_deg,
+        },
+        AtmosphereLoss {
+            total_db: att.total_db,
+            absorptive_db: att.absorptive_db,
+            mean_radiating_temperature_k: model.mean_radiating_temperature_k,
+        },
+    )
 }
 
 /// How to sample a pass.

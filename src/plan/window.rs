@@ -77,6 +77,18 @@ impl Window {
     }
 
     /// Resolve a request against the mission's `window:` block (see the module documentation).
+    ///
+    /// ```
+    /// use passbudget::plan::{Window, WindowRequest};
+    /// use passbudget::timefmt::utc;
+    ///
+    /// let req = WindowRequest { start: Some(utc(2026, 12, 1, 12, 0, 0)), days: Some(7.0), end: None };
+    /// let w = Window::resolve(&req, None)?;
+    /// assert_eq!(w.end(), utc(2026, 12, 8, 12, 0, 0));
+    /// // Without a start (and no mission to take one from) there is no window.
+    /// assert!(Window::resolve(&WindowRequest::default(), None).is_err());
+    /// # Ok::<(), passbudget::plan::window::WindowError>(())
+    /// ```
     pub fn resolve(req: &WindowRequest, mission: Option<&Mission>) -> Result<Window, WindowError> {
         if req.end.is_some() && req.days.is_some() {
             return Err(WindowError::EndAndDays);

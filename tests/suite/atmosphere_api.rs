@@ -1,36 +1,13 @@
 //! Behaviour of the public atmosphere API: input errors, validity warnings, the clear-sky
 //! and exceedance rules of P.618-14 §2.5, low elevations, and invariants (proptest).
 
+use crate::common::fixtures::{atmosphere_path as path, atmosphere_site as site};
 use crate::common::tolerance::ATMO_RAIN_MONOTONE_REL;
 use passbudget::atmosphere::{
     rain_height, scintillation, AtmosphereError, AtmosphereSite, PathSpec, PreparedAtmosphere,
     Weather,
 };
 use proptest::prelude::*;
-
-/// Invented mid-latitude station (not a real site).
-fn site() -> AtmosphereSite {
-    AtmosphereSite {
-        latitude_deg: 47.3,
-        altitude_km: 0.42,
-        pressure_hpa: 965.0,
-        temperature_k: 284.0,
-        water_vapour_density_g_m3: 8.1,
-        rain_rate_001_mm_h: 32.0,
-        rain_height_km: Some(3.1),
-        cloud_liquid_kg_m2: Some(0.4),
-        wet_refractivity: None,
-    }
-}
-
-fn path(f: f64) -> PathSpec {
-    PathSpec {
-        frequency_ghz: f,
-        polarization_tilt_deg: 45.0,
-        antenna_diameter_m: 3.7,
-        antenna_efficiency: 0.6,
-    }
-}
 
 #[test]
 fn meaningless_inputs_are_errors_carrying_the_value() {

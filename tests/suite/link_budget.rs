@@ -6,52 +6,11 @@ use crate::common::tolerance::*;
 use passbudget::link::antenna::*;
 use passbudget::link::budget::*;
 use passbudget::link::modcod::{scheme, OperatingPoint};
-use passbudget::link::polarization::*;
 use passbudget::noise::system::*;
 use proptest::prelude::*;
 
-/// Invented demo station and spacecraft (X band, 3.7 m dish).
 fn spec() -> LinkModelSpec {
-    LinkModelSpec {
-        frequency_hz: 8.2e9,
-        transmitter: TransmitterSpec {
-            power: TxPower::Watts(2.0),
-            line_loss_db: 1.0,
-            pattern: TxPattern::CosN {
-                boresight_gain_dbi: 6.0,
-                n: None,
-            },
-        },
-        ground_antenna: GroundAntennaSpec::Dish {
-            diameter_m: 3.7,
-            efficiency: 0.6,
-            pointing_error_deg: 0.05,
-        },
-        receiver: ReceiverSpec {
-            feed_loss_db: 0.3,
-            feed_temperature_k: 290.0,
-            lna_noise: LnaNoise::TemperatureK(60.0),
-            lna_gain_db: 30.0,
-            later_noise_figure_db: 6.0,
-        },
-        ground_pickup: GroundPickupSpec {
-            spillover_fraction: 0.05,
-            ground_temperature_k: 290.0,
-        },
-        polarization: PolarizationSpec {
-            spacecraft: Polarization {
-                sense: PolarizationSense::Rhcp,
-                axial_ratio_db: 2.0,
-            },
-            ground: Polarization {
-                sense: PolarizationSense::Rhcp,
-                axial_ratio_db: 1.0,
-            },
-            orientation: EllipseOrientation::WorstCase,
-            extra_loss_db: 0.2,
-        },
-        max_occupied_bandwidth_hz: Some(20e6),
-    }
+    crate::common::fixtures::link_spec(20e6)
 }
 
 fn op(name: &str) -> OperatingPoint {

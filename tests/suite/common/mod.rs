@@ -1,8 +1,10 @@
 //! Helpers shared by the test modules: the binary runner and its assertions, the counting
-//! allocator, the reader of the `#`-commented reference CSV files, and tolerances.
+//! allocator, the reader of the `#`-commented reference CSV files, invented fixtures shared with the
+//! benchmarks, and tolerances.
 #![allow(dead_code)]
 pub mod alloc;
 pub mod bin;
 pub mod data;
+pub mod fixtures;
 pub mod plan;
 pub mod tolerance;
