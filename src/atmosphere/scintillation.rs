@@ -2,9 +2,10 @@
 //! (same steps in P.618-13). Valid 4-55 GHz, elevation θ ≥ 5°, 0.01 % < p ≤ 50 %.
 //!
 //! Nwet comes from the site, or from surface temperature and water-vapour density through
-//! the wet term of ITU-R P.453-14 §1: `N = 77.6/T·(P + 4810·e/T)`, so
-//! `Nwet = 77.6·4810·e/T² = 3.732e5·e/T²`, with `e = ρ·T/216.7` hPa (P.453-14; equation
-//! numbers not quoted because not confirmed here).
+//! the wet term of ITU-R P.453-14 eq. (4): `Nwet = 72·e/T + 3.75e5·e/T²`, with the water-vapour
+//! pressure `e = ρ·T/216.7` hPa (P.453-14 eq. (10)). (The single-term `3.732e5·e/T²` belongs
+//! to the older total-pressure form `N = 77.6/T·(P + 4810·e/T)`; with the dry term of eq. (3),
+//! `77.6·Pd/T`, the wet term needs both of its parts.)
 //!
 //! Below 5° the §2.4.2/§2.4.3 low-elevation method is not implemented: the caller
 //! evaluates this model at 5° and raises a warning.
@@ -16,11 +17,12 @@ pub const ELEVATION_MIN_DEG: f64 = 5.0;
 /// Height of the turbulent layer hL, m (P.618-14 eq (43)).
 pub const TURBULENT_LAYER_HEIGHT_M: f64 = 1000.0;
 
-/// Wet refractivity from T (K) and ρ (g/m³): `Nwet = 3.732e5 e/T²`, `e = ρT/216.7`
-/// (ITU-R P.453-14 §1).
+/// Wet refractivity from T (K) and ρ (g/m³), N-units.
 pub fn wet_refractivity_p453(temperature_k: f64, water_vapour_density_g_m3: f64) -> f64 {
+    // e = ρ T / 216.7 hPa  (P.453-14 eq. (10))
     let e = water_vapour_density_g_m3 * temperature_k / 216.7;
-    3.732e5 * e / (temperature_k * temperature_k)
+    // Nwet = 72 e/T + 3.75e5 e/T²  (P.453-14 eq. (4))
+    72.0 * e / temperature_k + 3.75e5 * e / (temperature_k * temperature_k)
 }
 
 /// Step 3: `σref = 3.6e-3 + 1e-4 Nwet` dB (eq (42)).

@@ -218,9 +218,11 @@ fn wet_refractivity_defaults_to_p453_from_t_and_rho() {
         .unwrap()
         .at(20.0, Weather::exceedance(1.0).unwrap());
     assert_eq!(a.scintillation_db, b.scintillation_db);
-    // Nwet = 3.732e5 e/T², e = ρT/216.7 (P.453-14 §1), written out independently here.
-    let e = 8.1 * 284.0 / 216.7;
-    assert!((nwet - 3.732e5 * e / (284.0 * 284.0)).abs() < 1e-9);
+    // ITU-R P.453-14 eq. (4), Nwet = 72 e/T + 3.75e5 e/T², with e = ρT/216.7 hPa (eq. (10)),
+    // worked by hand for T = 284 K, ρ = 8.1 g/m³: e = 10.61560 hPa,
+    // Nwet = 2.691279 + 49.355895 = 52.047174 N-units. The older single-term form 3.732e5 e/T²
+    // (49.12 N-units) is 5.6 % low and must not come back.
+    assert!((nwet - 52.047174).abs() < 1e-5, "Nwet {nwet}");
 }
 
 fn arb_site() -> impl Strategy<Value = AtmosphereSite> {
