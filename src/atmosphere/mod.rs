@@ -28,6 +28,7 @@
 
 pub mod cloud;
 pub mod combine;
+pub mod elevation;
 pub mod gas;
 pub mod rain;
 pub mod rain_height;
@@ -92,8 +93,7 @@ impl Weather {
     }
 }
 
-/// Elevations within this margin below 5 deg count as 5 deg for the choice of the >= 5 deg forms, deg.
-pub const LOW_ELEVATION_TOLERANCE_DEG: f64 = 1e-3;
+pub use elevation::{low_elevation_form, LOW_ELEVATION_TOLERANCE_DEG};
 
 /// Lowest exceedance accepted, percent (P.618-14 §2.5).
 pub const EXCEEDANCE_MIN_PERCENT: f64 = 0.001;
@@ -564,8 +564,8 @@ impl PreparedAtmosphere {
         let mut w = self.static_warnings;
         let el = clamp_elevation_deg(elevation_deg, &mut w);
         // The pass search lands AOS/LOS on a 5 deg mask to within ~1e-3 deg; such a step is treated
-        // as at 5 deg rather than flagged as a low-elevation case.
-        let low = el < 5.0 - LOW_ELEVATION_TOLERANCE_DEG;
+        // as at 5 deg by every model (the one rule of `elevation`).
+        let low = low_elevation_form(el);
         w.elevation_below_5_deg = low;
 
         let sin_el = el.to_radians().sin();

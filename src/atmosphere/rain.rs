@@ -65,8 +65,9 @@ pub fn attenuation_001_p618(
     let f = path.frequency_ghz;
 
     // Step 2: Ls = (hR − hs)/sin θ for θ ≥ 5° (eq (1));
-    //         Ls = 2(hR − hs)/( sqrt(sin²θ + 2(hR − hs)/Re) + sin θ ) for θ < 5° (eq (2))
-    let ls = if th_deg >= 5.0 {
+    //         Ls = 2(hR − hs)/( sqrt(sin²θ + 2(hR − hs)/Re) + sin θ ) for θ < 5° (eq (2)),
+    //         the switch taken by the one rule of `super::elevation`.
+    let ls = if !super::elevation::low_elevation_form(th_deg) {
         dh / sin_t
     } else {
         2.0 * dh / ((sin_t * sin_t + 2.0 * dh / EFFECTIVE_EARTH_RADIUS_KM).sqrt() + sin_t)

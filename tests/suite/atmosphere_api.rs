@@ -316,3 +316,28 @@ proptest! {
         prop_assert!(rarer.total_db >= more_often.total_db);
     }
 }
+
+/// The 5 deg switch of the models is one documented rule (`atmosphere::elevation`): an elevation a
+/// hair below 5 deg takes the >= 5 deg forms of every model, so the rain case does not jump by
+/// rounding. Before, rain switched to ITU-R P.618-14 eq (2) exactly at 5.0 deg while the gas model
+/// and the warnings used a tolerance: `atmosphere --elevation-deg 4.9999999` gave 2.861 dB of rain
+/// against 2.926 dB at 5 deg.
+#[test]
+fn the_five_degree_switch_is_one_rule() {
+    let prep = PreparedAtmosphere::new(&site(), &path(8.2)).unwrap();
+    let w = Weather::exceedance(0.1).unwrap();
+    let (a, b) = (prep.at(4.9999999, w), prep.at(5.0, w));
+    assert!(
+        (a.rain_db - b.rain_db).abs() < 1e-5,
+        "{} vs {}",
+        a.rain_db,
+        b.rain_db
+    );
+    assert!((a.total_db - b.total_db).abs() < 1e-5);
+    assert!(!a.warnings.elevation_below_5_deg);
+    // Clearly below the switch, the low-elevation forms apply and are flagged.
+    let low = prep.at(4.9, w);
+    assert!(low.warnings.elevation_below_5_deg);
+    assert!(passbudget::atmosphere::low_elevation_form(4.998));
+    assert!(!passbudget::atmosphere::low_elevation_form(4.9995));
+}
