@@ -9,6 +9,7 @@ pub mod horizon;
 pub mod look;
 pub mod passes;
 pub mod slant;
+pub mod sun;
 
 pub use horizon::{HorizonError, HorizonMask};
 pub use look::{doppler_hz, Look, Observer, ObserverError};

@@ -24,3 +24,4 @@ mod pipeline;
 mod plan_checks;
 mod plan_worked_pass;
 mod readme;
+mod sun_position;
