@@ -6,7 +6,8 @@ use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 use super::style::{self, stroke_line, Key, MarkerShape, Stroke};
-use super::{ChartError, MaskChartData, Plot, MASK_SIZE};
+use super::data::MaskChartData;
+use super::types::{ChartError, Plot, MASK_SIZE};
 
 const TITLE_H: u32 = 100;
 const LEGEND_W: u32 = 330;

@@ -31,58 +31,16 @@ pub mod plan;
 mod sky;
 mod style;
 mod summary;
+mod types;
 
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
 use chrono::{DateTime, NaiveDate, Utc};
-use plotters::coord::Shift;
 use plotters::prelude::*;
 
 pub use data::*;
-
-/// Pass chart size, pixels.
-pub const PASS_SIZE: (u32, u32) = (1600, 1000);
-/// Sky chart size, pixels.
-pub const SKY_SIZE: (u32, u32) = (1000, 1000);
-/// Mask trade-off chart size, pixels.
-pub const MASK_SIZE: (u32, u32) = (1600, 1000);
-/// Plan summary chart size, pixels.
-pub const SUMMARY_SIZE: (u32, u32) = (1600, 1000);
-
-/// What can go wrong while drawing or saving a chart.
-#[derive(Debug, thiserror::Error)]
-pub enum ChartError {
-    #[error("the bundled chart font could not be loaded")]
-    Font,
-    #[error("drawing the {chart} chart failed: {message}")]
-    Draw {
-        chart: &'static str,
-        message: String,
-    },
-    #[error("encoding the PNG failed: {0}")]
-    Encode(String),
-    #[error("chart input: {what} has {got} values but {expected} were expected")]
-    LengthMismatch {
-        what: String,
-        expected: usize,
-        got: usize,
-    },
-    #[error("writing chart {}: {source}", path.display())]
-    Io {
-        path: PathBuf,
-        #[source]
-        source: std::io::Error,
-    },
-}
-
-impl<E: std::error::Error + Send + Sync> From<DrawingAreaErrorKind<E>> for ChartError {
-    fn from(e: DrawingAreaErrorKind<E>) -> Self {
-        ChartError::Draw {
-            chart: "",
-            message: e.to_string(),
-        }
-    }
-}
+use types::Plot;
+pub use types::{ChartError, MASK_SIZE, PASS_SIZE, SKY_SIZE, SUMMARY_SIZE};
 
 /// Name the chart in a drawing error.
 fn in_chart(chart: &'static str) -> impl Fn(ChartError) -> ChartError {
@@ -90,15 +48,6 @@ fn in_chart(chart: &'static str) -> impl Fn(ChartError) -> ChartError {
         ChartError::Draw { message, .. } => ChartError::Draw { chart, message },
         other => other,
     }
-}
-
-/// A chart that can draw itself on any plotters backend.
-trait Plot {
-    const NAME: &'static str;
-    fn size(&self) -> (u32, u32);
-    fn plot<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), ChartError>
-    where
-        DB::ErrorType: 'static;
 }
 
 /// Draw `chart` into memory and return the PNG or SVG bytes.

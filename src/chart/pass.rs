@@ -10,7 +10,8 @@ use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 use super::style::{self, stroke_line, Key, Stroke};
-use super::{ChartError, PassChartData, Plot, PASS_SIZE};
+use super::data::PassChartData;
+use super::types::{ChartError, Plot, PASS_SIZE};
 use crate::timefmt::seconds_between;
 
 const TITLE_H: u32 = 100;

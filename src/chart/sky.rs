@@ -12,7 +12,8 @@ use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 use super::style::{self, stroke_line, Key, MarkerShape, Stroke};
-use super::{ChartError, Plot, SkyChartData, SKY_SIZE};
+use super::data::SkyChartData;
+use super::types::{ChartError, Plot, SKY_SIZE};
 
 const TITLE_H: u32 = 96;
 const LEGEND_H: u32 = 120;

@@ -32,7 +32,7 @@ use plotters::style::{FontStyle, RGBColor};
 
 use chrono::{DateTime, Utc};
 
-use super::ChartError;
+use super::types::ChartError;
 
 /// Font family name the charts use; the bundled DejaVu Sans is registered under it, so SVG
 /// viewers fall back to their own sans-serif face.

@@ -8,7 +8,8 @@ use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 use super::style::{self, Key, MarkerShape};
-use super::{ChartError, Plot, SummaryChartData, SUMMARY_SIZE};
+use super::data::SummaryChartData;
+use super::types::{ChartError, Plot, SUMMARY_SIZE};
 use crate::timefmt::seconds_between;
 
 const TITLE_H: u32 = 100;

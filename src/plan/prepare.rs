@@ -32,6 +32,12 @@ pub enum PrepareError {
     Config(#[from] ConfigError),
     #[error("{file}: {message}")]
     Model { file: String, message: String },
+    /// A value out of its range in [`crate::config::limits`].
+    #[error("{}: {source}", .source.key)]
+    Range {
+        #[source]
+        source: crate::config::limits::RangeError,
+    },
 }
 
 fn model_err(
@@ -324,8 +330,12 @@ pub fn availability_weather(
     stations: &[StationModel],
 ) -> Result<Option<Weather>, PrepareError> {
     let Some(p) = percent else { return Ok(None) };
+    // The one range of the exceedance (config::limits), for every command and the library.
+    let p = crate::config::limits::EXCEEDANCE_PERCENT
+        .check(p)
+        .map_err(|source| PrepareError::Range { source })?;
     let w = Weather::exceedance(p).map_err(|e| PrepareError::Model {
-        file: "--exceedance-percent".into(),
+        file: "exceedance_percent".into(),
         message: e.to_string(),
     })?;
     for s in stations {

@@ -175,6 +175,20 @@ fn the_library_refuses_what_the_command_line_refuses() {
         &run(&["plan", MISSION, "--exceedance-percent", "20"]),
         &["--exceedance-percent", "5"],
     );
+    // The same range for the budget at one instant (it once allowed up to 50 %).
+    clean_error(
+        &run(&[
+            "budget",
+            MISSION,
+            "--station",
+            "Nordkam",
+            "--elevation-deg",
+            "10",
+            "--exceedance-percent",
+            "20",
+        ]),
+        &["exceedance_percent", "0.001 to 5"],
+    );
 }
 
 /// The mask trade-off is gathered in the same run as the plan: asking for it changes none of the
