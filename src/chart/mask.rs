@@ -5,8 +5,8 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
-use super::style::{self, stroke_line, Key, MarkerShape, Stroke};
 use super::data::MaskChartData;
+use super::style::{self, stroke_line, Key, MarkerShape, Stroke};
 use super::types::{ChartError, Plot, MASK_SIZE};
 
 const TITLE_H: u32 = 100;

@@ -9,8 +9,8 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
-use super::style::{self, stroke_line, Key, Stroke};
 use super::data::PassChartData;
+use super::style::{self, stroke_line, Key, Stroke};
 use super::types::{ChartError, Plot, PASS_SIZE};
 use crate::timefmt::seconds_between;
 

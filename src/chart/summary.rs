@@ -7,8 +7,8 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
-use super::style::{self, Key, MarkerShape};
 use super::data::SummaryChartData;
+use super::style::{self, Key, MarkerShape};
 use super::types::{ChartError, Plot, SUMMARY_SIZE};
 use crate::timefmt::seconds_between;
 

@@ -57,4 +57,3 @@ pub(super) trait Plot {
     where
         DB::ErrorType: 'static;
 }
-

@@ -10,7 +10,9 @@
 //! refraction), like the satellite's.
 
 use super::look::Observer;
-use crate::orbit::frames::{days_since_j2000, gmst_rad, teme_to_ecef_at_angle, EcefState, TemeState};
+use crate::orbit::frames::{
+    days_since_j2000, gmst_rad, teme_to_ecef_at_angle, EcefState, TemeState,
+};
 use chrono::{DateTime, Utc};
 
 /// One astronomical unit, km (IAU 2012 Resolution B2, exact).

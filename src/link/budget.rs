@@ -541,6 +541,29 @@ struct RateFigures {
     shannon_capacity_bps: f64,
 }
 
+/// The margin over a scheme's threshold, dB: Eb/N0 - required Eb/N0 - implementation loss. The
+/// one margin formula of the project (the plan's `RateOption::margin_db` calls it).
+#[inline]
+pub fn margin_db(ebn0_db: f64, required_ebn0_db: f64, implementation_loss_db: f64) -> f64 {
+    ebn0_db - required_ebn0_db - implementation_loss_db
+}
+
+/// The C/N0 at which a rate keeps exactly the required margin, dBHz:
+/// 10 log10 R + required Eb/N0 + implementation loss + required margin. The one closing test of
+/// the project is `C/N0 >= threshold_cn0_dbhz(..)` (the plan's rate options store it).
+#[inline]
+pub fn threshold_cn0_dbhz(
+    rate_bps: f64,
+    required_ebn0_db: f64,
+    implementation_loss_db: f64,
+    required_margin_db: f64,
+) -> f64 {
+    crate::units::ratio_to_db(rate_bps)
+        + required_ebn0_db
+        + implementation_loss_db
+        + required_margin_db
+}
+
 /// Symbol rate, occupied bandwidth, Eb/N0, Es/N0, margin and Shannon capacity of `rate`
 /// at `cn0_dbhz`.
 #[inline]
@@ -551,8 +574,11 @@ fn rate_figures(cn0_dbhz: f64, rate: &RateSpec) -> RateFigures {
     // Eb/N0 = C/N0 - 10 log10(Rb) ; Es/N0 = C/N0 - 10 log10(Rs)
     let ebn0_db = cn0_dbhz - ratio_to_db(rate.rate_bps);
     let esn0_db = cn0_dbhz - ratio_to_db(symbol_rate_baud);
-    // margin = Eb/N0 - required - implementation loss
-    let margin_db = ebn0_db - rate.operating.required_ebn0_db - rate.implementation_loss_db;
+    let margin_db = margin_db(
+        ebn0_db,
+        rate.operating.required_ebn0_db,
+        rate.implementation_loss_db,
+    );
     // C = B log2(1 + C/(N0 B))
     let snr = db_to_ratio(cn0_dbhz) / occupied_bandwidth_hz;
     let shannon_capacity_bps = shannon_capacity_unchecked(occupied_bandwidth_hz, snr);

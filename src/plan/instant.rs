@@ -86,9 +86,11 @@ pub struct InstantBudget {
     pub station: StationModel,
     pub rates: RateSet,
     pub time: Option<DateTime<Utc>>,
+    /// The geometry the budget was made for. For a budget at a given elevation the azimuth is
+    /// not known: `look.azimuth_deg` is then 0 and [`InstantBudget::azimuth_deg`] says `None`.
     pub look: Look,
-    /// Azimuth is known only for a time-based geometry.
-    pub azimuth_known: bool,
+    /// Azimuth of the satellite, deg, for a time-based geometry.
+    pub azimuth_deg: Option<f64>,
     pub exceedance_percent: Option<f64>,
     pub attenuation: Attenuation,
     pub values: BudgetValues,
@@ -100,9 +102,17 @@ pub struct InstantBudget {
 }
 
 impl InstantBudget {
-    /// The link closes with the required margin.
+    /// The link closes with the required margin: C/N0 reaches the rate's threshold (the same test
+    /// the plan applies at every step).
     pub fn closes(&self) -> bool {
-        self.values.margin_db >= self.rates.required_margin_db
+        let op = self.rate.operating();
+        self.values.cn0_dbhz
+            >= crate::link::budget::threshold_cn0_dbhz(
+                self.values.rate_bps,
+                op.required_ebn0_db,
+                self.rate.implementation_loss_db(),
+                self.rates.required_margin_db,
+            )
     }
 }
 
@@ -164,8 +174,8 @@ pub fn instant_budget(
         station: model,
         rates,
         time,
+        azimuth_deg: time.map(|_| look.azimuth_deg),
         look,
-        azimuth_known: time.is_some(),
         exceedance_percent: req.exceedance_percent,
         attenuation: att,
         values,
@@ -232,8 +242,9 @@ fn look_at(
                 prop.semi_major_axis_km(),
                 e,
             )?;
+            // No azimuth for a budget at a given elevation (the budget does not use it).
             let look = Look {
-                azimuth_deg: f64::NAN,
+                azimuth_deg: 0.0,
                 elevation_deg: e,
                 range_km,
                 range_rate_km_s: 0.0,

@@ -383,10 +383,12 @@ fn rate_option(
     let spec = link
         .rate_spec(rate_bps, op, m.roll_off, m.implementation_loss_db)
         .map_err(|e| model_err(path, line, format!("{name} at {rate_bps} bit/s: {e}")))?;
-    let threshold_cn0_dbhz = crate::units::ratio_to_db(rate_bps)
-        + op.required_ebn0_db
-        + m.implementation_loss_db
-        + m.required_margin_db;
+    let threshold_cn0_dbhz = crate::link::budget::threshold_cn0_dbhz(
+        rate_bps,
+        op.required_ebn0_db,
+        m.implementation_loss_db,
+        m.required_margin_db,
+    );
     let option = RateOption {
         rate_bps,
         scheme: op.name.to_string(),

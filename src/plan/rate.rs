@@ -50,12 +50,16 @@ impl RateOption {
         cn0_dbhz - crate::units::ratio_to_db(self.rate_bps)
     }
 
-    /// Margin over the scheme's threshold: Eb/N0 - required Eb/N0 - implementation loss, dB. The
-    /// one place the margin is computed; the option closes where it reaches the required margin,
-    /// that is where C/N0 reaches `threshold_cn0_dbhz`.
+    /// Margin over the scheme's threshold at this C/N0, dB ([`crate::link::budget::margin_db`]).
+    /// The option closes where C/N0 reaches `threshold_cn0_dbhz`
+    /// ([`crate::link::budget::threshold_cn0_dbhz`]).
     #[inline]
     pub fn margin_db(&self, cn0_dbhz: f64) -> f64 {
-        self.ebn0_db(cn0_dbhz) - self.required_ebn0_db - self.implementation_loss_db
+        crate::link::budget::margin_db(
+            self.ebn0_db(cn0_dbhz),
+            self.required_ebn0_db,
+            self.implementation_loss_db,
+        )
     }
 }
 

@@ -75,7 +75,7 @@ impl BudgetDoc {
             },
             frequency_hz: b.station.link.frequency_hz(),
             elevation_deg: r4(look.elevation_deg),
-            azimuth_deg: b.azimuth_known.then(|| r4(look.azimuth_deg)),
+            azimuth_deg: b.azimuth_deg.map(r4),
             range_km: r4(look.range_km),
             off_nadir_deg: r4(look.off_nadir_deg),
             eirp_dbw: r4(v.eirp_dbw),
