@@ -336,7 +336,7 @@ pub fn with_checksum(columns_1_to_68: &str) -> Option<String> {
 mod tests {
     use super::*;
 
-    // Line pair of catalog 00005 from SGP4-VER.TLE (Vallado et al. 2006; /work/shared/REFERENCES.md §10).
+    // Line pair of catalog 00005 from SGP4-VER.TLE (Vallado et al. 2006; docs/REFERENCES.md §10).
     const L1: &str = "1 00005U 58002B   00179.78495062  .00000023  00000-0  28098-4 0  4753";
     const L2: &str = "2 00005  34.2682 348.7242 1859667 331.7664  19.3264 10.82419157413667     0.00      4320.0        360.00";
 
