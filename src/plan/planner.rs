@@ -1,6 +1,6 @@
 //! The planner: a validated request over a prepared mission, run with a pass sink.
 
-use super::inputs::{element_age_warning, load_satellite};
+use super::inputs::{element_age_warning, load_satellite, selection_note};
 use super::mask::MaskAccumulator;
 use super::pass::{plan_pass, tradeoff_pass, PassContext, Scratch};
 use super::prepare::{availability_weather, rate_set, station_model, RateSet, StationModel};
@@ -13,7 +13,9 @@ use crate::atmosphere::Weather;
 use crate::config::limits::{EXCEEDANCE_PERCENT, MIN_ELEVATION_DEG, STEP_S};
 use crate::config::mission::Mission;
 use crate::geometry::{find_passes, HorizonMask, Pass};
-use crate::orbit::{ElementSet, PropagationError, Propagator};
+use crate::orbit::{ElementSet, PropagationError, Propagator, Selection};
+use crate::timefmt::{add_seconds, format_ms, seconds_between};
+use chrono::{DateTime, Utc};
 use rayon::prelude::*;
 
 /// What to plan, beyond the mission file. Every field left `None` falls back to the file.
@@ -34,6 +36,8 @@ pub struct PlanRequest {
 pub struct Planner {
     mission: Mission,
     elements: ElementSet,
+    /// Which set of the element file was chosen, and why.
+    selection: Selection,
     stations: Vec<StationModel>,
     /// Per station, the horizon searched for the mask trade-off (from 0 deg), when asked.
     tradeoff_masks: Option<Vec<HorizonMask>>,
@@ -60,7 +64,13 @@ impl Planner {
                 mission: mission.source.display().to_string(),
             });
         }
-        let (elements, _) = load_satellite(&mission.elements_path, mission.select.as_deref())?;
+        // The window first: an element-set history is resolved against its start.
+        let window = Window::resolve(&request.window, Some(mission))?;
+        let (elements, _, selection) = load_satellite(
+            &mission.elements_path,
+            mission.select.as_deref(),
+            window.start(),
+        )?;
         let mask = request.mask_deg.or(mission.mask_deg);
         if let Some(m) = mask {
             MIN_ELEVATION_DEG
@@ -86,7 +96,6 @@ impl Planner {
             None
         };
         let rates = rate_set(mission, &stations[0].link)?;
-        let window = Window::resolve(&request.window, Some(mission))?;
         let step_s = Self::check_step(request.step_s.unwrap_or(mission.step_s), &rates)?;
         let exceedance_percent = request.exceedance_percent.or(mission.exceedance_percent);
         if let Some(p) = exceedance_percent {
@@ -100,6 +109,7 @@ impl Planner {
             frequency_hz,
             mission: mission.clone(),
             elements,
+            selection,
             stations,
             tradeoff_masks,
             rates,
@@ -134,6 +144,10 @@ impl Planner {
     pub fn elements(&self) -> &ElementSet {
         &self.elements
     }
+    /// Which set of the element file was chosen for the window, and why.
+    pub fn selection(&self) -> &Selection {
+        &self.selection
+    }
     pub fn stations(&self) -> &[StationModel] {
         &self.stations
     }
@@ -165,11 +179,17 @@ impl Planner {
     /// Plan every pass of every station, handing each to `sink`.
     pub fn run<S: PassSink>(&self, sink: &S) -> Result<Plan, PlanError> {
         let propagator = Propagator::new(&self.elements).map_err(PlanError::Propagator)?;
-        let (found, stopped, propagations_search) = self.search(&propagator, None);
-        let floor_passes = match &self.tradeoff_masks {
+        let (mut found, stopped, propagations_search) = self.search(&propagator, None);
+        let mut floor_passes = match &self.tradeoff_masks {
             Some(masks) => self.search(&propagator, Some(masks)).0,
             None => Vec::new(),
         };
+        let stop = self.propagation_stop(&propagator, &stopped);
+        if let Some(s) = &stop {
+            // One stop for the satellite: no pass from it on, whichever station's search saw it.
+            found.retain(|(_, p)| p.aos < s.time);
+            floor_passes.retain(|(_, p)| p.aos < s.time);
+        }
         let total = found.len();
         let ctx = PassContext {
             stations: &self.stations,
@@ -213,7 +233,7 @@ impl Planner {
                 }
             }
         }
-        Ok(self.finish(passes, stopped, propagations_search, tradeoff))
+        Ok(self.finish(passes, stopped, stop, propagations_search, tradeoff))
     }
 
     fn empty_masks(&self) -> Vec<MaskAccumulator> {
@@ -254,6 +274,7 @@ impl Planner {
         &self,
         passes: Vec<PassPlan>,
         stopped: Vec<Option<PropagationError>>,
+        stop: Option<PropagationStop>,
         propagations_search: u64,
         tradeoff_masks: Option<Vec<MaskAccumulator>>,
     ) -> Plan {
@@ -277,7 +298,7 @@ impl Planner {
         );
         let days = summary::days(&passes, &self.window, self.rain.is_some());
         let usable_masks = summary::usable_masks(&station_masks, &self.stations, &self.rates);
-        let warnings = self.warnings(&passes, &stopped);
+        let warnings = self.warnings(&passes, &stopped, stop.as_ref());
         Plan {
             passes,
             stopped,
@@ -295,8 +316,14 @@ impl Planner {
     }
 
     /// Every warning of a plan: per station, the static model notes and the union over its passes;
-    /// the rate options' notes; the element age; searches stopped by a propagation error.
-    fn warnings(&self, passes: &[PassPlan], stopped: &[Option<PropagationError>]) -> Vec<String> {
+    /// the rate options' notes; the element set chosen from a history; the element age; the one
+    /// propagation stop, then which stations' searches it cut.
+    fn warnings(
+        &self,
+        passes: &[PassPlan],
+        stopped: &[Option<PropagationError>],
+        stop: Option<&PropagationStop>,
+    ) -> Vec<String> {
         let mut out = Vec::new();
         for (i, s) in self.stations.iter().enumerate() {
             let mut w = PassWarnings {
@@ -313,25 +340,93 @@ impl Planner {
             );
         }
         out.extend(self.rates.warnings.iter().cloned());
+        out.extend(selection_note(&self.elements, &self.selection));
         out.extend(element_age_warning(
             &self.elements,
             self.window.start(),
             self.window.end(),
         ));
-        for (i, s) in stopped.iter().enumerate() {
-            if let Some(e) = s {
+        if let Some(s) = stop {
+            out.push(format!(
+                "{}: propagation stops at {} ({}: {}); no passes after it are planned",
+                self.elements.label(),
+                format_ms(&s.time),
+                stop_kind(&s.error),
+                s.error
+            ));
+            for (i, _) in stopped.iter().enumerate().filter(|(_, e)| e.is_some()) {
                 out.push(format!(
-                    "{}: propagation stopped during the pass search for {}: {e}; later passes are not planned",
-                    self.elements.label(),
+                    "{}: passes cut by the propagation stop",
                     self.stations[i].station.name
                 ));
             }
         }
         out
     }
+
+    /// The one time at which propagation first fails in the window, if any station's search was
+    /// stopped: bisection to 1 s between the window start (or the last time that propagates) and
+    /// the earliest stop any station's search met. Each station's search meets the failure at its
+    /// own sample time, later than the first failing second; the satellite has one.
+    fn propagation_stop(
+        &self,
+        prop: &Propagator,
+        stopped: &[Option<PropagationError>],
+    ) -> Option<PropagationStop> {
+        let start = self.window.start();
+        let earliest = stopped
+            .iter()
+            .flatten()
+            .map(|e| (error_time(prop, e, start), e))
+            .min_by_key(|(t, _)| *t)?;
+        if let Err(error) = prop.ecef_at(&start) {
+            return Some(PropagationStop { time: start, error });
+        }
+        let (mut good, mut bad) = (0.0, seconds_between(&start, &earliest.0));
+        let mut error = earliest.1.clone();
+        while bad - good > 1.0 {
+            let mid = 0.5 * (good + bad);
+            match prop.ecef_at(&add_seconds(&start, mid)) {
+                Ok(_) => good = mid,
+                Err(e) => {
+                    bad = mid;
+                    error = e;
+                }
+            }
+        }
+        Some(PropagationStop {
+            time: add_seconds(&start, bad),
+            error,
+        })
+    }
 }
 
 enum Item {
     Planned(Box<PassPlan>),
     Tradeoff(usize, Box<MaskAccumulator>),
+}
+
+/// Where propagation of the satellite first fails in the window (to 1 s), and the error there.
+#[derive(Debug, Clone)]
+struct PropagationStop {
+    time: DateTime<Utc>,
+    error: PropagationError,
+}
+
+/// The time of a propagation error (the window start for an error without one).
+fn error_time(prop: &Propagator, e: &PropagationError, start: DateTime<Utc>) -> DateTime<Utc> {
+    match e.minutes() {
+        Some(m) => add_seconds(&prop.epoch(), m * 60.0).max(start),
+        None => start,
+    }
+}
+
+/// What a propagation error means, in a word or two.
+fn stop_kind(e: &PropagationError) -> &'static str {
+    match e {
+        PropagationError::Decayed { .. } | PropagationError::SemiLatusRectum { .. } => "decay",
+        PropagationError::Eccentricity { .. } => "decay or diverged elements",
+        PropagationError::TimeOutOfRange { .. } => "time out of range",
+        PropagationError::InvalidElements { .. } => "invalid elements",
+    }
 }
