@@ -110,7 +110,18 @@ pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved>
         end: parse_time_flag("--end", input.end.as_deref())?,
         days: input.days,
     };
-    let window = Window::resolve(&request, mission.as_ref())?;
+    let window = Window::resolve(&request, mission.as_ref()).map_err(|e| {
+        let flag = if input.days.is_some() {
+            "--days"
+        } else if input.end.is_some() {
+            "--end"
+        } else if input.start.is_some() {
+            "--start"
+        } else {
+            return anyhow!("{e}");
+        };
+        anyhow!("{flag}: {e}")
+    })?;
     let (elements, propagator, selection) = load_satellite(&tle, sat.as_deref(), window.start())?;
     note(&Vec::from_iter(selection_note(&elements, &selection)));
     let stations = if !station_files.is_empty() {
