@@ -9,7 +9,9 @@ use passbudget::config::mission::Mission;
 use passbudget::config::station::Station;
 use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
 use passbudget::orbit::{ElementSet, Propagator};
-use passbudget::plan::inputs::{element_age_warning, load_satellite, selection_note};
+use passbudget::plan::inputs::{
+    element_age_warning, load_satellite, propagation_stop, selection_note,
+};
 use passbudget::plan::{Window, WindowRequest};
 use passbudget::report::geometry::{PassRow, TrackRow};
 use passbudget::report::to_csv;
@@ -199,31 +201,38 @@ fn warn_element_age(r: &Resolved) {
 }
 
 /// Passes of the satellite over every station, sorted by AOS; warnings and notes go to stderr.
+/// A propagation failure is reported once, at the first failing second of the window (the
+/// library's [`propagation_stop`]); no pass from then on is listed.
 pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize, Pass)>> {
     let mut all = Vec::new();
+    let mut stopped = Vec::new();
+    let mut empty = Vec::new();
     for (i, st) in r.stations.iter().enumerate() {
         let (obs, mask) = station_geometry(st, mask_override)?;
         let found = find_passes(&r.propagator, &obs, &mask, r.window.start(), r.window.end());
-        if let Some(e) = &found.stopped {
-            warn(&[format!(
-                "{}: propagation stopped: {e}; passes after that time are not listed",
-                r.elements.label()
-            )]);
+        if found.passes.is_empty() {
+            empty.push((i, found.stopped.is_some()));
         }
-        if found.passes.is_empty() && found.stopped.is_some() {
-            note(&[format!(
-                "{} has no pass over {} before the propagation stopped",
-                r.elements.label(),
-                st.name
-            )]);
-        } else if found.passes.is_empty() {
-            note(&[format!(
-                "{} does not rise above the mask of {} in the window",
-                r.elements.label(),
-                st.name
-            )]);
-        }
+        stopped.push(found.stopped);
         all.extend(found.passes.into_iter().map(|p| (i, p)));
+    }
+    if let Some(s) = propagation_stop(&r.propagator, r.window.start(), &stopped) {
+        warn(&[format!(
+            "{}: propagation stops at {} ({}: {}); passes after it are not listed",
+            r.elements.label(),
+            format_ms(&s.time),
+            s.kind(),
+            s.error
+        )]);
+        all.retain(|(_, p)| p.aos < s.time);
+    }
+    for (i, cut) in empty {
+        let (label, name) = (r.elements.label(), &r.stations[i].name);
+        note(&[if cut {
+            format!("{label} has no pass over {name} before the propagation stops")
+        } else {
+            format!("{label} does not rise above the mask of {name} in the window")
+        }]);
     }
     all.sort_by(|a, b| a.1.aos.cmp(&b.1.aos).then(a.0.cmp(&b.0)));
     Ok(all)

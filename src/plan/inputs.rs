@@ -107,3 +107,59 @@ pub fn element_age_warning(
         None
     }
 }
+
+/// Where propagation of a satellite first fails in a window (to 1 s), and the error there.
+#[derive(Debug, Clone)]
+pub struct PropagationStop {
+    pub time: chrono::DateTime<chrono::Utc>,
+    pub error: PropagationError,
+}
+
+impl PropagationStop {
+    /// What the error means, in a word or two.
+    pub fn kind(&self) -> &'static str {
+        match self.error {
+            PropagationError::Decayed { .. } | PropagationError::SemiLatusRectum { .. } => "decay",
+            PropagationError::Eccentricity { .. } => "decay or diverged elements",
+            PropagationError::TimeOutOfRange { .. } => "time out of range",
+            PropagationError::InvalidElements { .. } => "invalid elements",
+        }
+    }
+}
+
+/// The one time at which propagation first fails in a window starting at `start`, given the
+/// errors that stopped each station's pass search (`None`: not stopped): bisection to 1 s between
+/// the window start (or the last time that propagates) and the earliest stop any search met. Each
+/// search meets the failure at its own sample time, at or after the first failing second; the
+/// satellite has one. None when no search was stopped.
+pub fn propagation_stop(
+    prop: &Propagator,
+    start: chrono::DateTime<chrono::Utc>,
+    stopped: &[Option<PropagationError>],
+) -> Option<PropagationStop> {
+    use crate::timefmt::{add_seconds, seconds_between};
+    let at = |e: &PropagationError| match e.minutes() {
+        Some(m) => add_seconds(&prop.epoch(), m * 60.0).max(start),
+        None => start,
+    };
+    let earliest = stopped.iter().flatten().min_by_key(|e| at(e))?;
+    if let Err(error) = prop.ecef_at(&start) {
+        return Some(PropagationStop { time: start, error });
+    }
+    let (mut good, mut bad) = (0.0, seconds_between(&start, &at(earliest)));
+    let mut error = earliest.clone();
+    while bad - good > 1.0 {
+        let mid = 0.5 * (good + bad);
+        match prop.ecef_at(&add_seconds(&start, mid)) {
+            Ok(_) => good = mid,
+            Err(e) => {
+                bad = mid;
+                error = e;
+            }
+        }
+    }
+    Some(PropagationStop {
+        time: add_seconds(&start, bad),
+        error,
+    })
+}

@@ -1,6 +1,8 @@
 //! The planner: a validated request over a prepared mission, run with a pass sink.
 
-use super::inputs::{element_age_warning, load_satellite, selection_note};
+use super::inputs::{
+    element_age_warning, load_satellite, propagation_stop, selection_note, PropagationStop,
+};
 use super::mask::MaskAccumulator;
 use super::pass::{plan_pass, tradeoff_pass, PassContext, Scratch};
 use super::prepare::{availability_weather, rate_set, station_model, RateSet, StationModel};
@@ -14,8 +16,7 @@ use crate::config::limits::{EXCEEDANCE_PERCENT, MIN_ELEVATION_DEG, STEP_S};
 use crate::config::mission::Mission;
 use crate::geometry::{find_passes, HorizonMask, Pass};
 use crate::orbit::{ElementSet, PropagationError, Propagator, Selection};
-use crate::timefmt::{add_seconds, format_ms, seconds_between};
-use chrono::{DateTime, Utc};
+use crate::timefmt::format_ms;
 use rayon::prelude::*;
 
 /// What to plan, beyond the mission file. Every field left `None` falls back to the file.
@@ -184,7 +185,7 @@ impl Planner {
             Some(masks) => self.search(&propagator, Some(masks)).0,
             None => Vec::new(),
         };
-        let stop = self.propagation_stop(&propagator, &stopped);
+        let stop = propagation_stop(&propagator, self.window.start(), &stopped);
         if let Some(s) = &stop {
             // One stop for the satellite: no pass from it on, whichever station's search saw it.
             found.retain(|(_, p)| p.aos < s.time);
@@ -351,7 +352,7 @@ impl Planner {
                 "{}: propagation stops at {} ({}: {}); no passes after it are planned",
                 self.elements.label(),
                 format_ms(&s.time),
-                stop_kind(&s.error),
+                s.kind(),
                 s.error
             ));
             for (i, _) in stopped.iter().enumerate().filter(|(_, e)| e.is_some()) {
@@ -363,70 +364,9 @@ impl Planner {
         }
         out
     }
-
-    /// The one time at which propagation first fails in the window, if any station's search was
-    /// stopped: bisection to 1 s between the window start (or the last time that propagates) and
-    /// the earliest stop any station's search met. Each station's search meets the failure at its
-    /// own sample time, later than the first failing second; the satellite has one.
-    fn propagation_stop(
-        &self,
-        prop: &Propagator,
-        stopped: &[Option<PropagationError>],
-    ) -> Option<PropagationStop> {
-        let start = self.window.start();
-        let earliest = stopped
-            .iter()
-            .flatten()
-            .map(|e| (error_time(prop, e, start), e))
-            .min_by_key(|(t, _)| *t)?;
-        if let Err(error) = prop.ecef_at(&start) {
-            return Some(PropagationStop { time: start, error });
-        }
-        let (mut good, mut bad) = (0.0, seconds_between(&start, &earliest.0));
-        let mut error = earliest.1.clone();
-        while bad - good > 1.0 {
-            let mid = 0.5 * (good + bad);
-            match prop.ecef_at(&add_seconds(&start, mid)) {
-                Ok(_) => good = mid,
-                Err(e) => {
-                    bad = mid;
-                    error = e;
-                }
-            }
-        }
-        Some(PropagationStop {
-            time: add_seconds(&start, bad),
-            error,
-        })
-    }
 }
 
 enum Item {
     Planned(Box<PassPlan>),
     Tradeoff(usize, Box<MaskAccumulator>),
-}
-
-/// Where propagation of the satellite first fails in the window (to 1 s), and the error there.
-#[derive(Debug, Clone)]
-struct PropagationStop {
-    time: DateTime<Utc>,
-    error: PropagationError,
-}
-
-/// The time of a propagation error (the window start for an error without one).
-fn error_time(prop: &Propagator, e: &PropagationError, start: DateTime<Utc>) -> DateTime<Utc> {
-    match e.minutes() {
-        Some(m) => add_seconds(&prop.epoch(), m * 60.0).max(start),
-        None => start,
-    }
-}
-
-/// What a propagation error means, in a word or two.
-fn stop_kind(e: &PropagationError) -> &'static str {
-    match e {
-        PropagationError::Decayed { .. } | PropagationError::SemiLatusRectum { .. } => "decay",
-        PropagationError::Eccentricity { .. } => "decay or diverged elements",
-        PropagationError::TimeOutOfRange { .. } => "time out of range",
-        PropagationError::InvalidElements { .. } => "invalid elements",
-    }
 }

@@ -237,6 +237,20 @@ fn a_decay_is_reported_once_at_the_first_failing_second() {
     assert!(cut.iter().all(|w| !w.contains("2026")), "{cut:#?}");
     assert!(!plan.passes.is_empty());
     assert!(plan.passes.iter().all(|p| p.pass.los <= t));
+    // `passes` over the same stations: the same one stop, once.
+    let o = run(&["passes", "--mission", &path, "--format", "json"]);
+    let listed = json(&o)["passes"].as_array().unwrap().len();
+    assert_eq!(listed, plan.passes.len());
+    let err = String::from_utf8_lossy(&o.stderr);
+    let lines: Vec<&str> = err
+        .lines()
+        .filter(|l| l.contains("propagation stops at "))
+        .collect();
+    assert_eq!(lines.len(), 1, "{err}");
+    assert!(
+        lines[0].contains(&passbudget::timefmt::format_ms(&t)),
+        "{err}"
+    );
 }
 
 // ---- item 7: messages ----
