@@ -42,6 +42,31 @@ fn bench(c: &mut Criterion) {
             black_box(r.passes.len())
         })
     });
+    // A 10,000-point terrain profile (invented: a smooth ridge line plus a 0-2 deg ripple); the
+    // mask lookup is a binary search, so this row should stay near the flat-mask row above.
+    let dense = HorizonMask::new(
+        5.0,
+        (0..10_000)
+            .map(|i| {
+                let az = i as f64 * 0.036;
+                let el = 3.0 + 4.0 * (az.to_radians() * 3.0).sin() + (i % 7) as f64 * 0.3;
+                [az, el.clamp(0.0, 90.0)]
+            })
+            .collect(),
+    )
+    .unwrap();
+    g.bench_function("1 LEO x 1 station x 30 days, 10,000-point mask", |b| {
+        b.iter(|| {
+            let r = find_passes(
+                &prop,
+                &stations[0],
+                &dense,
+                t0,
+                add_seconds(&t0, 30.0 * 86400.0),
+            );
+            black_box(r.passes.len())
+        })
+    });
     let props: Vec<Propagator> = (0..100)
         .map(|i| {
             let mut set = base();

@@ -1,7 +1,7 @@
 //! `passbudget budget` (the itemized budget at one instant) and `passbudget atmosphere`.
 
 use crate::cli::table::{Align, Table};
-use crate::cli::Format;
+use crate::cli::{warn, Format};
 use anyhow::{anyhow, bail, Result};
 use passbudget::atmosphere::{mean_radiating_temperature_k, PathSpec, PreparedAtmosphere, Weather};
 use passbudget::config::mission::Mission;
@@ -94,6 +94,7 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
         e => anyhow::Error::new(e),
     })?;
     let doc = BudgetDoc::new(&b);
+    warn(&doc.warnings);
     match a.format {
         Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
         Format::Csv => write!(out, "{}", passbudget::report::to_csv(&doc.items)?)?,
@@ -144,7 +145,7 @@ fn print_budget(doc: &BudgetDoc, out: &mut dyn Write) -> Result<()> {
         doc.scheme,
         doc.shannon_gap_db
     )?;
-    print_notes(&doc.warnings, &doc.defaults, out)?;
+    print_defaults(&doc.defaults, out)?;
     writeln!(out, "Planning estimate only; see the README for cautions.")?;
     Ok(())
 }
@@ -166,10 +167,8 @@ fn item_value(value: f64, unit: &str) -> String {
     }
 }
 
-fn print_notes(warnings: &[String], defaults: &[DefaultUsed], out: &mut dyn Write) -> Result<()> {
-    for w in warnings {
-        writeln!(out, "warning: {w}")?;
-    }
+/// The defaults taken, under a table (warnings go to stderr through [`warn`], in every format).
+fn print_defaults(defaults: &[DefaultUsed], out: &mut dyn Write) -> Result<()> {
     for d in defaults {
         writeln!(out, "default: {} = {} ({})", d.key, d.value, d.source)?;
     }
@@ -200,6 +199,7 @@ pub struct AtmosphereDoc {
 /// `passbudget atmosphere`.
 pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
     let doc = atmosphere_doc(&a)?;
+    warn(&doc.warnings);
     match a.format {
         Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
         Format::Csv => write!(
@@ -348,7 +348,7 @@ fn print_atmosphere(doc: &AtmosphereDoc, out: &mut dyn Write) -> Result<()> {
         t.row(vec![n.into(), format!("{v:.3}"), u.into(), m.into()]);
     }
     write!(out, "{}", t.render())?;
-    print_notes(&doc.warnings, &doc.defaults, out)?;
+    print_defaults(&doc.defaults, out)?;
     Ok(())
 }
 

@@ -2,14 +2,16 @@
 
 use crate::cli::table::{Align, Table};
 use crate::cli::window::parse_time_flag;
-use crate::cli::{warn, Format};
+use crate::cli::{note, warn, Format};
 use anyhow::{anyhow, bail, Result};
 use passbudget::config::limits::MIN_ELEVATION_DEG;
 use passbudget::config::mission::Mission;
 use passbudget::config::station::Station;
 use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
 use passbudget::orbit::{ElementSet, Propagator};
-use passbudget::plan::inputs::{element_age_warning, load_satellite};
+use passbudget::plan::inputs::{
+    element_age_warning, load_satellite, propagation_stop, selection_note,
+};
 use passbudget::plan::{Window, WindowRequest};
 use passbudget::report::geometry::{PassRow, TrackRow};
 use passbudget::report::to_csv;
@@ -45,7 +47,7 @@ pub struct InputArgs {
 pub struct PassesArgs {
     #[command(flatten)]
     pub input: InputArgs,
-    /// Station file (repeat for several stations).
+    /// Station file (repeat for several stations; the same station twice is refused).
     #[arg(long, value_name = "FILE")]
     pub station: Vec<PathBuf>,
     /// Minimum elevation, deg: overrides each station's min_elevation_deg (the horizon mask still applies).
@@ -104,12 +106,28 @@ pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved>
             None
         }
     });
-    let (elements, propagator) = load_satellite(&tle, sat.as_deref())?;
+    // The window first: an element-set history is resolved against its start.
+    let request = WindowRequest {
+        start: parse_time_flag("--start", input.start.as_deref())?,
+        end: parse_time_flag("--end", input.end.as_deref())?,
+        days: input.days,
+    };
+    let window = Window::resolve(&request, mission.as_ref()).map_err(|e| {
+        let flag = if input.days.is_some() {
+            "--days"
+        } else if input.end.is_some() {
+            "--end"
+        } else if input.start.is_some() {
+            "--start"
+        } else {
+            return anyhow!("{e}");
+        };
+        anyhow!("{flag}: {e}")
+    })?;
+    let (elements, propagator, selection) = load_satellite(&tle, sat.as_deref(), window.start())?;
+    note(&Vec::from_iter(selection_note(&elements, &selection)));
     let stations = if !station_files.is_empty() {
-        station_files
-            .iter()
-            .map(|p| Station::load(p))
-            .collect::<Result<Vec<_>, _>>()?
+        load_stations(station_files)?
     } else {
         mission
             .as_ref()
@@ -119,12 +137,6 @@ pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved>
     if stations.is_empty() {
         bail!("no station: give --station FILE or a --mission file with stations");
     }
-    let request = WindowRequest {
-        start: parse_time_flag("--start", input.start.as_deref())?,
-        end: parse_time_flag("--end", input.end.as_deref())?,
-        days: input.days,
-    };
-    let window = Window::resolve(&request, mission.as_ref())?;
     Ok(Resolved {
         elements,
         propagator,
@@ -132,6 +144,37 @@ pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved>
         window,
         mission,
     })
+}
+
+/// The `--station` files, loaded. The same file given twice (by any path to it), or two files
+/// naming the same station, is refused: every pass would be listed twice.
+fn load_stations(files: &[PathBuf]) -> Result<Vec<Station>> {
+    let mut seen: Vec<(PathBuf, &PathBuf)> = Vec::new();
+    let mut stations: Vec<Station> = Vec::new();
+    for f in files {
+        let key = std::fs::canonicalize(f).unwrap_or_else(|_| f.clone());
+        if let Some((_, first)) = seen.iter().find(|(k, _)| *k == key) {
+            bail!(
+                "--station {}: the same station file is given twice ({} and {}); give each station once",
+                f.display(),
+                first.display(),
+                f.display()
+            );
+        }
+        seen.push((key, f));
+        let st = Station::load(f)?;
+        if let Some(b) = stations.iter().find(|b| b.name == st.name) {
+            bail!(
+                "--station {}: two station files name the station '{}' ({} and {}); give each station once",
+                f.display(),
+                st.name,
+                b.source.display(),
+                f.display()
+            );
+        }
+        stations.push(st);
+    }
+    Ok(stations)
 }
 
 /// Observer and horizon for a station, with an optional minimum-elevation override.
@@ -158,31 +201,38 @@ fn warn_element_age(r: &Resolved) {
 }
 
 /// Passes of the satellite over every station, sorted by AOS; warnings and notes go to stderr.
+/// A propagation failure is reported once, at the first failing second of the window (the
+/// library's [`propagation_stop`]); no pass from then on is listed.
 pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize, Pass)>> {
     let mut all = Vec::new();
+    let mut stopped = Vec::new();
+    let mut empty = Vec::new();
     for (i, st) in r.stations.iter().enumerate() {
         let (obs, mask) = station_geometry(st, mask_override)?;
         let found = find_passes(&r.propagator, &obs, &mask, r.window.start(), r.window.end());
-        if let Some(e) = &found.stopped {
-            eprintln!(
-                "warning: {}: propagation stopped: {e}; passes after that time are not listed",
-                r.elements.label()
-            );
+        if found.passes.is_empty() {
+            empty.push((i, found.stopped.is_some()));
         }
-        if found.passes.is_empty() && found.stopped.is_some() {
-            eprintln!(
-                "note: {} has no pass over {} before the propagation stopped",
-                r.elements.label(),
-                st.name
-            );
-        } else if found.passes.is_empty() {
-            eprintln!(
-                "note: {} does not rise above the mask of {} in the window",
-                r.elements.label(),
-                st.name
-            );
-        }
+        stopped.push(found.stopped);
         all.extend(found.passes.into_iter().map(|p| (i, p)));
+    }
+    if let Some(s) = propagation_stop(&r.propagator, r.window.start(), &stopped) {
+        warn(&[format!(
+            "{}: propagation stops at {} ({}: {}); passes after it are not listed",
+            r.elements.label(),
+            format_ms(&s.time),
+            s.kind(),
+            s.error
+        )]);
+        all.retain(|(_, p)| p.aos < s.time);
+    }
+    for (i, cut) in empty {
+        let (label, name) = (r.elements.label(), &r.stations[i].name);
+        note(&[if cut {
+            format!("{label} has no pass over {name} before the propagation stops")
+        } else {
+            format!("{label} does not rise above the mask of {name} in the window")
+        }]);
     }
     all.sort_by(|a, b| a.1.aos.cmp(&b.1.aos).then(a.0.cmp(&b.0)));
     Ok(all)
@@ -317,10 +367,10 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                 rows.push(TrackRow::new(&t, &look, frequency_hz));
             }
             Err(e) => {
-                eprintln!(
-                    "warning: {}: propagation stopped: {e}; the track ends there",
+                warn(&[format!(
+                    "{}: propagation stopped: {e}; the track ends there",
                     r.elements.label()
-                );
+                )]);
                 break;
             }
         }

@@ -84,9 +84,22 @@ pub fn main_entry() -> i32 {
 
 /// Print warnings on stderr, one line each (a closed stderr is ignored).
 pub fn warn(warnings: &[String]) {
+    to_stderr("warning", warnings);
+}
+
+/// Print notes (what the program chose, not a problem) on stderr, one line each (a closed
+/// stderr is ignored).
+pub fn note(notes: &[String]) {
+    to_stderr("note", notes);
+}
+
+/// The one writer of stderr lines: `kind: text`. Write errors (a closed or full stderr, a broken
+/// pipe) are ignored, so a lost diagnostic never costs the result on stdout. Nothing else in the
+/// binary prints to stderr except the final error line and the progress bar.
+fn to_stderr(kind: &str, lines: &[String]) {
     let mut err = std::io::stderr().lock();
-    for w in warnings {
-        let _ = writeln!(err, "warning: {w}");
+    for l in lines {
+        let _ = writeln!(err, "{kind}: {l}");
     }
 }
 

@@ -235,11 +235,23 @@ fn resolve(base: &Path, p: &str) -> PathBuf {
     }
 }
 
+/// A station file that cannot be read (missing, unreadable, empty) is traced to the mission line
+/// that lists it: `mission:line: stations: station file PATH: what is wrong`. Errors inside a
+/// station file that was read keep that file's own line.
+fn station_file_error(c: &Checker, index: usize, path: &Path, e: ConfigError) -> ConfigError {
+    if e.line.is_some() || e.path != path {
+        return e;
+    }
+    let msg = format!("station file {}: {}", path.display(), e.message);
+    c.err_at(c.item_line("stations", index), "stations", msg)
+}
+
 /// The station files, loaded; two stations may not share a name.
 fn stations(c: &Checker, base: &Path, files: &[String]) -> Result<Vec<Station>, ConfigError> {
     let mut stations: Vec<Station> = Vec::new();
     for (i, f) in files.iter().enumerate() {
-        let s = Station::load(&resolve(base, f))?;
+        let path = resolve(base, f);
+        let s = Station::load(&path).map_err(|e| station_file_error(c, i, &path, e))?;
         if stations.iter().any(|b| b.name == s.name) {
             let msg = format!("two stations are named '{}'", s.name);
             return Err(c.err_at(c.item_line("stations", i), "stations", msg));

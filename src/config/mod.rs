@@ -64,12 +64,31 @@ pub fn parse_yaml<T: serde::de::DeserializeOwned>(
         if let Some(i) = message.find(" at line ") {
             message.truncate(i);
         }
+        // A number too large for a 64-bit float (1e400) is read as a string by the YAML crate.
+        message = overflowing_number(&message).unwrap_or(message);
         // A duplicate key is reported at the start of its mapping: point at the duplicate instead.
         if let (Some(l), Some(key)) = (line, duplicate_field(&message)) {
             line = locate::duplicate_key_line(text, l, key).or(line);
         }
         ConfigError::new(path, line, None, message)
     })
+}
+
+/// serde_yaml's `invalid type: string "1e400", expected f64` for a number that overflows a
+/// 64-bit float, reworded: `1e400 is not a finite number ...` (the key prefix is kept).
+fn overflowing_number(message: &str) -> Option<String> {
+    const HEAD: &str = "invalid type: string \"";
+    let at = message.find(HEAD)?;
+    let rest = &message[at + HEAD.len()..];
+    let text = &rest[..rest.find('"')?];
+    let value: f64 = text.trim().parse().ok()?;
+    if value.is_finite() || !text.chars().any(|c| c.is_ascii_digit()) {
+        return None;
+    }
+    Some(format!(
+        "{}{text} is not a finite number (beyond the range of a 64-bit float)",
+        &message[..at]
+    ))
 }
 
 /// The key named by a "duplicate field `key`" message.

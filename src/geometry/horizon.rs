@@ -27,6 +27,8 @@ pub struct HorizonMask {
     min_elevation_deg: f64,
     /// (azimuth deg, elevation deg), sorted by azimuth, unique azimuths.
     points: Vec<[f64; 2]>,
+    /// Lowest profile elevation (a vertex), kept so that no call per search scans the points.
+    lowest_point_deg: Option<f64>,
 }
 
 impl HorizonMask {
@@ -62,9 +64,12 @@ impl HorizonMask {
                 });
             }
         }
+        let points: Vec<[f64; 2]> = indexed.into_iter().map(|(_, p)| p).collect();
+        let lowest_point_deg = points.iter().map(|p| p[1]).reduce(f64::min);
         Ok(HorizonMask {
             min_elevation_deg,
-            points: indexed.into_iter().map(|(_, p)| p).collect(),
+            points,
+            lowest_point_deg,
         })
     }
 
@@ -82,7 +87,8 @@ impl HorizonMask {
         &self.points
     }
 
-    /// Interpolated profile at `azimuth_deg` and the slope (deg per deg of azimuth) there.
+    /// Interpolated profile at `azimuth_deg` and the slope (deg per deg of azimuth) there:
+    /// O(log n) in the number of points (binary search for the segment holding the azimuth).
     fn profile(&self, azimuth_deg: f64) -> Option<(f64, f64)> {
         let pts = &self.points;
         match pts.len() {
@@ -124,17 +130,12 @@ impl HorizonMask {
         }
     }
 
-    /// Lowest mask elevation over all azimuths (the profile's minimum is at a vertex).
+    /// Lowest mask elevation over all azimuths (the profile's minimum is at a vertex; kept from
+    /// construction, O(1)).
     pub fn lowest_limit_deg(&self) -> f64 {
-        let lowest_point = self
-            .points
-            .iter()
-            .map(|p| p[1])
-            .fold(f64::INFINITY, f64::min);
-        if lowest_point.is_finite() {
-            lowest_point.max(self.min_elevation_deg)
-        } else {
-            self.min_elevation_deg
+        match self.lowest_point_deg {
+            Some(lowest) => lowest.max(self.min_elevation_deg),
+            None => self.min_elevation_deg,
         }
     }
 }

@@ -2,7 +2,8 @@
 //! name the outputs give it. Shared by the planner and the geometry commands.
 
 use crate::orbit::{
-    load_elements, select, ElementSet, OrbitInputError, PropagationError, Propagator, SelectError,
+    load_elements, select_for_window, ElementSet, OrbitInputError, PropagationError, Propagator,
+    SelectError, Selection, SelectionRule,
 };
 use std::path::{Path, PathBuf};
 
@@ -28,30 +29,51 @@ pub enum SatelliteError {
     },
 }
 
-/// Load an element file and choose one satellite (`sat`: catalog number or name; optional when the
-/// file holds one set); SGP4 is initialized to check the elements.
+/// Load an element file and choose one element set for a window starting at `window_start`
+/// (`sat`: catalog number or name; optional when the file holds one satellite). An element-set
+/// history (several sets of one satellite) gives the latest set at or before the window start, or
+/// the earliest if all are later ([`select_for_window`]); the [`Selection`] says which and why.
+/// SGP4 is initialized to check the elements.
 pub fn load_satellite(
     path: &Path,
     sat: Option<&str>,
-) -> Result<(ElementSet, Propagator), SatelliteError> {
+    window_start: chrono::DateTime<chrono::Utc>,
+) -> Result<(ElementSet, Propagator, Selection), SatelliteError> {
     let sets = load_elements(path)?;
     if sets.is_empty() {
         return Err(SatelliteError::Empty {
             path: path.to_path_buf(),
         });
     }
-    let set = select(&sets, sat)
-        .map_err(|source| SatelliteError::Select {
+    let (set, selection) =
+        select_for_window(&sets, sat, window_start).map_err(|source| SatelliteError::Select {
             path: path.to_path_buf(),
             source,
-        })?
-        .clone();
+        })?;
     let prop = Propagator::new(&set).map_err(|source| SatelliteError::Propagator {
         path: path.to_path_buf(),
         label: set.label(),
         source,
     })?;
-    Ok((set, prop))
+    Ok((set, prop, selection))
+}
+
+/// The note saying which set of an element-set history was chosen (None when only one set of
+/// the satellite was in the file).
+pub fn selection_note(set: &ElementSet, selection: &Selection) -> Option<String> {
+    let rule = match selection.rule {
+        SelectionRule::Only => return None,
+        SelectionRule::LatestAtOrBeforeStart => "the latest at or before the window start",
+        SelectionRule::EarliestAfterStart => {
+            "the earliest: every set of the file is later than the window start"
+        }
+    };
+    Some(format!(
+        "element set chosen: epoch {}, 1 of {} sets of {}: {rule}",
+        crate::timefmt::format_ms(&selection.epoch),
+        selection.candidates,
+        set.norad_id,
+    ))
 }
 
 /// The satellite's name for outputs: its name, or its catalog number.
@@ -84,4 +106,60 @@ pub fn element_age_warning(
     } else {
         None
     }
+}
+
+/// Where propagation of a satellite first fails in a window (to 1 s), and the error there.
+#[derive(Debug, Clone)]
+pub struct PropagationStop {
+    pub time: chrono::DateTime<chrono::Utc>,
+    pub error: PropagationError,
+}
+
+impl PropagationStop {
+    /// What the error means, in a word or two.
+    pub fn kind(&self) -> &'static str {
+        match self.error {
+            PropagationError::Decayed { .. } | PropagationError::SemiLatusRectum { .. } => "decay",
+            PropagationError::Eccentricity { .. } => "decay or diverged elements",
+            PropagationError::TimeOutOfRange { .. } => "time out of range",
+            PropagationError::InvalidElements { .. } => "invalid elements",
+        }
+    }
+}
+
+/// The one time at which propagation first fails in a window starting at `start`, given the
+/// errors that stopped each station's pass search (`None`: not stopped): bisection to 1 s between
+/// the window start (or the last time that propagates) and the earliest stop any search met. Each
+/// search meets the failure at its own sample time, at or after the first failing second; the
+/// satellite has one. None when no search was stopped.
+pub fn propagation_stop(
+    prop: &Propagator,
+    start: chrono::DateTime<chrono::Utc>,
+    stopped: &[Option<PropagationError>],
+) -> Option<PropagationStop> {
+    use crate::timefmt::{add_seconds, seconds_between};
+    let at = |e: &PropagationError| match e.minutes() {
+        Some(m) => add_seconds(&prop.epoch(), m * 60.0).max(start),
+        None => start,
+    };
+    let earliest = stopped.iter().flatten().min_by_key(|e| at(e))?;
+    if let Err(error) = prop.ecef_at(&start) {
+        return Some(PropagationStop { time: start, error });
+    }
+    let (mut good, mut bad) = (0.0, seconds_between(&start, &at(earliest)));
+    let mut error = earliest.clone();
+    while bad - good > 1.0 {
+        let mid = 0.5 * (good + bad);
+        match prop.ecef_at(&add_seconds(&start, mid)) {
+            Ok(_) => good = mid,
+            Err(e) => {
+                bad = mid;
+                error = e;
+            }
+        }
+    }
+    Some(PropagationStop {
+        time: add_seconds(&start, bad),
+        error,
+    })
 }

@@ -3,7 +3,7 @@
 //! It goes through [`super::series::budget_at`], the same function the plan uses at every step, so
 //! `budget --at` and the plan always agree.
 
-use super::inputs::{element_age_warning, load_satellite, SatelliteError};
+use super::inputs::{element_age_warning, load_satellite, selection_note, SatelliteError};
 use super::prepare::{
     availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel,
 };
@@ -141,7 +141,16 @@ pub fn instant_budget(
     let st = find_station(mission, &req.station)?;
     let model = station_model(mission, st, None)?;
     let rates = rate_set(mission, &model.link)?;
-    let (elements, prop) = load_satellite(&mission.elements_path, mission.select.as_deref())?;
+    // An element-set history: the set for the instant asked, else for the mission's window start,
+    // else the latest set.
+    let when = match req.geometry {
+        InstantGeometry::At(t) => t,
+        InstantGeometry::Elevation(_) => mission
+            .start
+            .unwrap_or(chrono::DateTime::<chrono::Utc>::MAX_UTC),
+    };
+    let (elements, prop, selection) =
+        load_satellite(&mission.elements_path, mission.select.as_deref(), when)?;
     let (look, time) = look_at(&model, &elements, &prop, req.geometry)?;
     let rate = rate_spec(mission, &model, &rates, req)?;
     let weather = availability_weather(req.exceedance_percent, std::slice::from_ref(&model))?
@@ -164,6 +173,7 @@ pub fn instant_budget(
                 .into(),
         );
     }
+    warnings.extend(selection_note(&elements, &selection));
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
     }

@@ -1,6 +1,8 @@
 //! The planner: a validated request over a prepared mission, run with a pass sink.
 
-use super::inputs::{element_age_warning, load_satellite};
+use super::inputs::{
+    element_age_warning, load_satellite, propagation_stop, selection_note, PropagationStop,
+};
 use super::mask::MaskAccumulator;
 use super::pass::{plan_pass, tradeoff_pass, PassContext, Scratch};
 use super::prepare::{availability_weather, rate_set, station_model, RateSet, StationModel};
@@ -13,7 +15,8 @@ use crate::atmosphere::Weather;
 use crate::config::limits::{EXCEEDANCE_PERCENT, MIN_ELEVATION_DEG, STEP_S};
 use crate::config::mission::Mission;
 use crate::geometry::{find_passes, HorizonMask, Pass};
-use crate::orbit::{ElementSet, PropagationError, Propagator};
+use crate::orbit::{ElementSet, PropagationError, Propagator, Selection};
+use crate::timefmt::format_ms;
 use rayon::prelude::*;
 
 /// What to plan, beyond the mission file. Every field left `None` falls back to the file.
@@ -34,6 +37,8 @@ pub struct PlanRequest {
 pub struct Planner {
     mission: Mission,
     elements: ElementSet,
+    /// Which set of the element file was chosen, and why.
+    selection: Selection,
     stations: Vec<StationModel>,
     /// Per station, the horizon searched for the mask trade-off (from 0 deg), when asked.
     tradeoff_masks: Option<Vec<HorizonMask>>,
@@ -60,7 +65,13 @@ impl Planner {
                 mission: mission.source.display().to_string(),
             });
         }
-        let (elements, _) = load_satellite(&mission.elements_path, mission.select.as_deref())?;
+        // The window first: an element-set history is resolved against its start.
+        let window = Window::resolve(&request.window, Some(mission))?;
+        let (elements, _, selection) = load_satellite(
+            &mission.elements_path,
+            mission.select.as_deref(),
+            window.start(),
+        )?;
         let mask = request.mask_deg.or(mission.mask_deg);
         if let Some(m) = mask {
             MIN_ELEVATION_DEG
@@ -86,7 +97,6 @@ impl Planner {
             None
         };
         let rates = rate_set(mission, &stations[0].link)?;
-        let window = Window::resolve(&request.window, Some(mission))?;
         let step_s = Self::check_step(request.step_s.unwrap_or(mission.step_s), &rates)?;
         let exceedance_percent = request.exceedance_percent.or(mission.exceedance_percent);
         if let Some(p) = exceedance_percent {
@@ -100,6 +110,7 @@ impl Planner {
             frequency_hz,
             mission: mission.clone(),
             elements,
+            selection,
             stations,
             tradeoff_masks,
             rates,
@@ -134,6 +145,10 @@ impl Planner {
     pub fn elements(&self) -> &ElementSet {
         &self.elements
     }
+    /// Which set of the element file was chosen for the window, and why.
+    pub fn selection(&self) -> &Selection {
+        &self.selection
+    }
     pub fn stations(&self) -> &[StationModel] {
         &self.stations
     }
@@ -165,11 +180,17 @@ impl Planner {
     /// Plan every pass of every station, handing each to `sink`.
     pub fn run<S: PassSink>(&self, sink: &S) -> Result<Plan, PlanError> {
         let propagator = Propagator::new(&self.elements).map_err(PlanError::Propagator)?;
-        let (found, stopped, propagations_search) = self.search(&propagator, None);
-        let floor_passes = match &self.tradeoff_masks {
+        let (mut found, stopped, propagations_search) = self.search(&propagator, None);
+        let mut floor_passes = match &self.tradeoff_masks {
             Some(masks) => self.search(&propagator, Some(masks)).0,
             None => Vec::new(),
         };
+        let stop = propagation_stop(&propagator, self.window.start(), &stopped);
+        if let Some(s) = &stop {
+            // One stop for the satellite: no pass from it on, whichever station's search saw it.
+            found.retain(|(_, p)| p.aos < s.time);
+            floor_passes.retain(|(_, p)| p.aos < s.time);
+        }
         let total = found.len();
         let ctx = PassContext {
             stations: &self.stations,
@@ -213,7 +234,7 @@ impl Planner {
                 }
             }
         }
-        Ok(self.finish(passes, stopped, propagations_search, tradeoff))
+        Ok(self.finish(passes, stopped, stop, propagations_search, tradeoff))
     }
 
     fn empty_masks(&self) -> Vec<MaskAccumulator> {
@@ -254,6 +275,7 @@ impl Planner {
         &self,
         passes: Vec<PassPlan>,
         stopped: Vec<Option<PropagationError>>,
+        stop: Option<PropagationStop>,
         propagations_search: u64,
         tradeoff_masks: Option<Vec<MaskAccumulator>>,
     ) -> Plan {
@@ -277,7 +299,7 @@ impl Planner {
         );
         let days = summary::days(&passes, &self.window, self.rain.is_some());
         let usable_masks = summary::usable_masks(&station_masks, &self.stations, &self.rates);
-        let warnings = self.warnings(&passes, &stopped);
+        let warnings = self.warnings(&passes, &stopped, stop.as_ref());
         Plan {
             passes,
             stopped,
@@ -295,8 +317,14 @@ impl Planner {
     }
 
     /// Every warning of a plan: per station, the static model notes and the union over its passes;
-    /// the rate options' notes; the element age; searches stopped by a propagation error.
-    fn warnings(&self, passes: &[PassPlan], stopped: &[Option<PropagationError>]) -> Vec<String> {
+    /// the rate options' notes; the element set chosen from a history; the element age; the one
+    /// propagation stop, then which stations' searches it cut.
+    fn warnings(
+        &self,
+        passes: &[PassPlan],
+        stopped: &[Option<PropagationError>],
+        stop: Option<&PropagationStop>,
+    ) -> Vec<String> {
         let mut out = Vec::new();
         for (i, s) in self.stations.iter().enumerate() {
             let mut w = PassWarnings {
@@ -313,16 +341,23 @@ impl Planner {
             );
         }
         out.extend(self.rates.warnings.iter().cloned());
+        out.extend(selection_note(&self.elements, &self.selection));
         out.extend(element_age_warning(
             &self.elements,
             self.window.start(),
             self.window.end(),
         ));
-        for (i, s) in stopped.iter().enumerate() {
-            if let Some(e) = s {
+        if let Some(s) = stop {
+            out.push(format!(
+                "{}: propagation stops at {} ({}: {}); no passes after it are planned",
+                self.elements.label(),
+                format_ms(&s.time),
+                s.kind(),
+                s.error
+            ));
+            for (i, _) in stopped.iter().enumerate().filter(|(_, e)| e.is_some()) {
                 out.push(format!(
-                    "{}: propagation stopped during the pass search for {}: {e}; later passes are not planned",
-                    self.elements.label(),
+                    "{}: passes cut by the propagation stop",
                     self.stations[i].station.name
                 ));
             }

@@ -196,10 +196,20 @@ fn bad_inputs_give_one_clear_line() {
         &format!("{}\n{}\n{}\n", lines[0], lines[1], &lines[2][..50]),
     );
     let empty = write(d, "empty.tle", "");
+    // Two satellites of the same name (catalog numbers 99901 and 99902): no history of one
+    // satellite, so neither the name nor an empty query chooses.
+    let other = |l: &str| {
+        passbudget::orbit::tle::with_checksum(&l.replacen("99901", "99902", 1)[..68]).unwrap()
+    };
     let two = write(
         d,
         "two.tle",
-        &format!("{good}{}\n{}\n{}\n", "OTHER-SAT", lines[1], lines[2]),
+        &format!(
+            "{good}{}\n{}\n{}\n",
+            lines[0],
+            other(lines[1]),
+            other(lines[2])
+        ),
     );
     let omm = write(
         d,
@@ -246,9 +256,18 @@ fn bad_inputs_give_one_clear_line() {
             ],
             vec!["two.tle", "nothing-like-it"],
         ),
-        // Both sets carry catalog number 99901: the selection is ambiguous.
+        // Both sets carry the name WRENLET-1 with different catalog numbers: ambiguous. (Sets of
+        // one catalog number are a history: the set for the window is chosen, see hardening.rs.)
         (
-            vec!["passes", "--tle", &two, "--sat", "99901", "--station", st],
+            vec![
+                "passes",
+                "--tle",
+                &two,
+                "--sat",
+                "wrenlet-1",
+                "--station",
+                st,
+            ],
             vec!["two.tle", "matches 2"],
         ),
         (

@@ -12,6 +12,7 @@ mod cli_passes;
 mod fuzz_replay;
 mod geometry_skyfield;
 mod golden_outputs;
+mod hardening;
 mod link_budget;
 mod link_path_antenna;
 mod modcod_thresholds;
