@@ -1,7 +1,7 @@
 //! `passbudget budget` (the itemized budget at one instant) and `passbudget atmosphere`.
 
+use crate::cli::common::{warn, Format};
 use crate::cli::table::{Align, Table};
-use crate::cli::{warn, Format};
 use anyhow::{anyhow, bail, Result};
 use passbudget::atmosphere::{mean_radiating_temperature_k, PathSpec, PreparedAtmosphere, Weather};
 use passbudget::config::mission::Mission;

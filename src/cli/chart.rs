@@ -1,7 +1,7 @@
 //! `passbudget chart`: the charts of a plan, without its CSV files.
 
+use crate::cli::common::warn;
 use crate::cli::output::{progress_bar, stage, RunSink};
-use crate::cli::warn;
 use anyhow::{bail, Context, Result};
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;

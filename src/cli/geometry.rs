@@ -1,8 +1,8 @@
 //! The geometry commands `passes` and `track`, and their inputs from flags or a mission file.
 
+use crate::cli::common::{note, warn, Format};
 use crate::cli::table::{Align, Table};
 use crate::cli::window::parse_time_flag;
-use crate::cli::{note, warn, Format};
 use anyhow::{anyhow, bail, Result};
 use passbudget::config::limits::MIN_ELEVATION_DEG;
 use passbudget::config::mission::Mission;

@@ -4,6 +4,7 @@
 
 mod budget;
 mod chart;
+mod common;
 mod geometry;
 mod output;
 mod plan;
@@ -15,14 +16,6 @@ use std::io::Write;
 
 /// Exit code for bad input, unreadable files and failed runs (usage errors exit with clap's 2).
 pub const EXIT_ERROR: i32 = 1;
-
-/// Output format chosen on the command line.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
-pub enum Format {
-    Table,
-    Csv,
-    Json,
-}
 
 #[derive(Debug, Parser)]
 #[command(name = "passbudget", version, about = "Plan satellite downlinks pass by pass: geometry, atmosphere, noise, Eb/N0, rate and data volume.", long_about = None)]
@@ -79,27 +72,6 @@ pub fn main_entry() -> i32 {
             let _ = writeln!(std::io::stderr(), "error: {}", one_line(&e));
             EXIT_ERROR
         }
-    }
-}
-
-/// Print warnings on stderr, one line each (a closed stderr is ignored).
-pub fn warn(warnings: &[String]) {
-    to_stderr("warning", warnings);
-}
-
-/// Print notes (what the program chose, not a problem) on stderr, one line each (a closed
-/// stderr is ignored).
-pub fn note(notes: &[String]) {
-    to_stderr("note", notes);
-}
-
-/// The one writer of stderr lines: `kind: text`. Write errors (a closed or full stderr, a broken
-/// pipe) are ignored, so a lost diagnostic never costs the result on stdout. Nothing else in the
-/// binary prints to stderr except the final error line and the progress bar.
-fn to_stderr(kind: &str, lines: &[String]) {
-    let mut err = std::io::stderr().lock();
-    for l in lines {
-        let _ = writeln!(err, "{kind}: {l}");
     }
 }
 

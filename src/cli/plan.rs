@@ -1,9 +1,9 @@
 //! `passbudget plan` and `passbudget mask`.
 
+use crate::cli::common::{warn, Format};
 use crate::cli::output::{progress_bar, stage, RunSink};
 use crate::cli::table::{Align, Table};
 use crate::cli::window::WindowArgs;
-use crate::cli::{warn, Format};
 use anyhow::{Context, Result};
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
