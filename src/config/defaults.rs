@@ -146,6 +146,33 @@ pub const TEMPERATURE_K: DefaultValue<f64> = reported("climate.temperature_k", 2
 pub const WATER_VAPOUR_DENSITY_G_M3: DefaultValue<f64> =
     reported("climate.water_vapour_density_g_m3", 7.5, P835);
 
+// ---- Requests (command line and library) ------------------------------------------------------
+
+/// Window length when neither the request nor the mission gives an end or a length.
+pub const WINDOW_DAYS: DefaultValue<f64> = silent("window.days", 1.0, "one day from the start");
+/// Aperture assumed for scintillation (ITU-R P.618-14 §2.4.1 aperture averaging) when a station
+/// file has no antenna block (the `atmosphere` command only; `budget` and `plan` need an antenna).
+pub const SCINTILLATION_DIAMETER_M: DefaultValue<f64> = reported(
+    "antenna.diameter_m",
+    1.0,
+    "scintillation aperture averaging: 1 m assumed (no antenna block in the station file)",
+);
+/// Aperture efficiency that goes with [`SCINTILLATION_DIAMETER_M`].
+pub const SCINTILLATION_EFFICIENCY: DefaultValue<f64> = reported(
+    "antenna.efficiency",
+    0.5,
+    "scintillation aperture averaging: efficiency 0.5 assumed (no antenna block in the station file)",
+);
+/// Polarization tilt for ITU-R P.838-3: 45 deg stands for circular polarization.
+pub const POLARIZATION_TILT_DEG: DefaultValue<f64> = silent(
+    "polarization_tilt_deg",
+    45.0,
+    "circular polarization (ITU-R P.838-3 eqs (4)-(5) with tau = 45 deg)",
+);
+/// Step of a look-angle track, s.
+pub const TRACK_STEP_S: DefaultValue<f64> =
+    silent("track.step_s", 10.0, "common practice for pointing tables");
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -155,6 +182,11 @@ mod tests {
     fn table() -> Vec<(DefaultValue<f64>, Range)> {
         vec![
             (STEP_S, limits::STEP_S),
+            (WINDOW_DAYS, limits::WINDOW_DAYS),
+            (SCINTILLATION_DIAMETER_M, limits::ANTENNA_DIAMETER_M),
+            (SCINTILLATION_EFFICIENCY, limits::ANTENNA_EFFICIENCY),
+            (POLARIZATION_TILT_DEG, limits::POLARIZATION_TILT_DEG),
+            (TRACK_STEP_S, limits::TRACK_STEP_S),
             (LINE_LOSS_DB, limits::LINE_LOSS_DB),
             (OTHER_LOSS_DB, limits::OTHER_LOSS_DB),
             (TX_AXIAL_RATIO_DB, limits::TX_AXIAL_RATIO_DB),

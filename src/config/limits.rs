@@ -473,8 +473,44 @@ pub const WET_REFRACTIVITY: Range = Range {
     unit: "N-units",
 };
 
+/// Carrier frequency given in GHz (the `atmosphere` command), the same span as [`FREQUENCY_MHZ`].
+pub const FREQUENCY_GHZ: Range = Range {
+    key: "frequency_ghz",
+    min: 0.03,
+    max: 100.0,
+    unit: "GHz",
+};
+
+/// Elevation of a budget or an atmosphere at one instant, deg.
+pub const ELEVATION_DEG: Range = Range {
+    key: "elevation_deg",
+    min: 0.0,
+    max: 90.0,
+    unit: "deg",
+};
+
+/// Polarization tilt relative to the horizontal for ITU-R P.838-3, deg.
+pub const POLARIZATION_TILT_DEG: Range = Range {
+    key: "polarization_tilt_deg",
+    min: -90.0,
+    max: 90.0,
+    unit: "deg",
+};
+
+/// Step of a look-angle track, s (a day at the most).
+pub const TRACK_STEP_S: Range = Range {
+    key: "track.step_s",
+    min: 0.01,
+    max: 86400.0,
+    unit: "s",
+};
+
 /// Every range above, for the README's table and its check.
 pub const ALL: &[Range] = &[
+    FREQUENCY_GHZ,
+    ELEVATION_DEG,
+    POLARIZATION_TILT_DEG,
+    TRACK_STEP_S,
     STEP_S,
     WINDOW_DAYS,
     EXCEEDANCE_PERCENT,

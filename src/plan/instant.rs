@@ -339,3 +339,110 @@ fn items(
     }
     Ok(items)
 }
+
+/// What to evaluate with [`atmosphere_at`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct AtmosphereRequest {
+    pub frequency_ghz: f64,
+    pub elevation_deg: f64,
+    /// Rain exceeded this percentage of an average year; `None` for clear sky.
+    pub exceedance_percent: Option<f64>,
+    /// Polarization tilt for ITU-R P.838-3, deg (45 for circular polarization).
+    pub polarization_tilt_deg: f64,
+}
+
+/// The atmosphere along one elevation at a station: each ITU-R component, the mean radiating
+/// temperature and the sky brightness temperature.
+#[derive(Debug, Clone)]
+pub struct AtmosphereAt {
+    pub attenuation: Attenuation,
+    pub mean_radiating_temperature_k: f64,
+    pub sky_temperature_k: f64,
+    pub warnings: Vec<String>,
+    /// The station's defaults plus any taken here (the scintillation aperture).
+    pub defaults: Vec<DefaultUsed>,
+}
+
+/// Error of [`atmosphere_at`].
+#[derive(Debug, thiserror::Error)]
+pub enum AtmosphereAtError {
+    #[error("{}: {source}", .source.key)]
+    Range {
+        #[source]
+        source: crate::config::limits::RangeError,
+    },
+    #[error(transparent)]
+    Prepare(#[from] PrepareError),
+    #[error("{station}: atmosphere: {source}")]
+    Model {
+        station: String,
+        #[source]
+        source: crate::atmosphere::AtmosphereError,
+    },
+    #[error("sky temperature: {0}")]
+    Noise(String),
+}
+
+/// The atmosphere at one elevation for a station, with the ranges of [`crate::config::limits`]
+/// and the station's own aperture for scintillation ([`super::prepare::antenna_aperture`], the
+/// rule of `budget` and `plan`; without an antenna block, the defaults of
+/// [`crate::config::defaults::SCINTILLATION_DIAMETER_M`]).
+pub fn atmosphere_at(
+    st: &crate::config::station::Station,
+    req: &AtmosphereRequest,
+) -> Result<AtmosphereAt, AtmosphereAtError> {
+    use crate::config::{defaults, limits};
+    let range = |r: &limits::Range, v: f64| {
+        r.check(v)
+            .map_err(|source| AtmosphereAtError::Range { source })
+    };
+    let frequency_ghz = range(&limits::FREQUENCY_GHZ, req.frequency_ghz)?;
+    let elevation_deg = range(&limits::ELEVATION_DEG, req.elevation_deg)?;
+    let tilt_deg = range(&limits::POLARIZATION_TILT_DEG, req.polarization_tilt_deg)?;
+    let mut defaults_used = st.defaults.clone();
+    let mut take = |d: &defaults::DefaultValue<f64>| {
+        defaults_used.push(DefaultUsed {
+            key: d.key.to_string(),
+            value: defaults::Shown::shown(&d.value),
+            source: d.source.to_string(),
+        });
+        d.value
+    };
+    let (diameter_m, efficiency) = match st.antenna.as_ref() {
+        Some(ant) => super::prepare::antenna_aperture(&ant.gain, frequency_ghz * 1e9),
+        None => (
+            take(&defaults::SCINTILLATION_DIAMETER_M),
+            take(&defaults::SCINTILLATION_EFFICIENCY),
+        ),
+    };
+    let site = super::prepare::atmosphere_site(st);
+    let path = crate::atmosphere::PathSpec {
+        frequency_ghz,
+        polarization_tilt_deg: tilt_deg,
+        antenna_diameter_m: diameter_m,
+        antenna_efficiency: efficiency,
+    };
+    let prepared = crate::atmosphere::PreparedAtmosphere::new(&site, &path).map_err(|source| {
+        AtmosphereAtError::Model {
+            station: st.source.display().to_string(),
+            source,
+        }
+    })?;
+    let station = std::slice::from_ref(st);
+    let weather = super::prepare::availability_weather_for(req.exceedance_percent, station)?
+        .unwrap_or(Weather::ClearSky);
+    let att = prepared.at(elevation_deg, weather);
+    let tmr = crate::atmosphere::mean_radiating_temperature_k(st.climate.temperature_k);
+    let noise = |e: &dyn std::fmt::Display| AtmosphereAtError::Noise(e.to_string());
+    let (bg, _) =
+        crate::noise::sky::background_temperature_k(frequency_ghz * 1e9).map_err(|e| noise(&e))?;
+    let tsky = crate::noise::sky::sky_temperature_p618_k(att.absorptive_db, tmr, bg)
+        .map_err(|e| noise(&e))?;
+    Ok(AtmosphereAt {
+        warnings: att.warnings.messages().map(String::from).collect(),
+        attenuation: att,
+        mean_radiating_temperature_k: tmr,
+        sky_temperature_k: tsky,
+        defaults: defaults_used,
+    })
+}

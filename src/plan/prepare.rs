@@ -329,6 +329,23 @@ pub fn availability_weather(
     percent: Option<f64>,
     stations: &[StationModel],
 ) -> Result<Option<Weather>, PrepareError> {
+    let stations: Vec<&Station> = stations.iter().map(|s| &s.station).collect();
+    availability_weather_of(percent, &stations)
+}
+
+/// [`availability_weather`] for station files (before they are prepared).
+pub fn availability_weather_for(
+    percent: Option<f64>,
+    stations: &[Station],
+) -> Result<Option<Weather>, PrepareError> {
+    let stations: Vec<&Station> = stations.iter().collect();
+    availability_weather_of(percent, &stations)
+}
+
+fn availability_weather_of(
+    percent: Option<f64>,
+    stations: &[&Station],
+) -> Result<Option<Weather>, PrepareError> {
     let Some(p) = percent else { return Ok(None) };
     // The one range of the exceedance (config::limits), for every command and the library.
     let p = crate::config::limits::EXCEEDANCE_PERCENT
@@ -339,9 +356,9 @@ pub fn availability_weather(
         message: e.to_string(),
     })?;
     for s in stations {
-        if s.station.climate.rain_rate_001_mm_h.is_none() {
+        if s.climate.rain_rate_001_mm_h.is_none() {
             return Err(model_err(
-                &s.station.source,
+                &s.source,
                 None,
                 "climate.rain_rate_001_mm_h is needed for the availability (rain) case",
             ));

@@ -106,7 +106,7 @@ impl Window {
         match (mission.and_then(|m| m.end), mission.and_then(|m| m.days)) {
             (Some(end), _) => Window::new(start, end),
             (None, Some(days)) => Window::from_days(start, days),
-            (None, None) => Window::from_days(start, 1.0),
+            (None, None) => Window::from_days(start, crate::config::defaults::WINDOW_DAYS.value),
         }
     }
 
