@@ -60,9 +60,14 @@ pub fn check_size(
         return Ok(());
     }
     let e = estimate_output(planner, request)?;
+    let narrow = if request.csv {
+        "fewer --days, one station, no --charts or --chart-format svg"
+    } else {
+        "fewer --days, one station, --pass N or --kind, --format svg"
+    };
     if e.too_large() {
         anyhow::bail!(
-            "--out {}: this run would write about {} files and {:.1} GB ({} passes; the limits are {} files and {} GB): narrow it (fewer --days, one station, no --charts or --chart-format svg) or pass --allow-large-output",
+            "--out {}: this run would write about {} files and {:.1} GB ({} passes; the limits are {} files and {} GB): narrow it ({narrow}) or pass --allow-large-output",
             out.display(),
             e.files,
             e.bytes as f64 / 1e9,
@@ -173,5 +178,56 @@ impl Drop for RunSink<'_> {
         if let Some(b) = &self.bar {
             b.finish_and_clear();
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A full disk while writing into the staging folder is reported naming the --out folder and
+    /// the file's place in it, not the hidden staging path.
+    #[test]
+    fn a_full_disk_names_the_out_folder() {
+        let dir = tempfile::tempdir().unwrap();
+        let out = dir.path().join("out");
+        let st = Staging::new(&out).unwrap();
+        let io = std::io::Error::from(std::io::ErrorKind::StorageFull);
+        let csv = FileError {
+            path: st.path().join("pass-001-a.csv"),
+            message: io.to_string(),
+            kind: Some(io.kind()),
+        };
+        let chart = passbudget::chart::ChartError::Io {
+            path: st.path().join("sky-a-20261201.png"),
+            source: std::io::Error::from(std::io::ErrorKind::StorageFull),
+        };
+        for (e, file) in [
+            (anyhow::Error::from(csv), "pass-001-a.csv"),
+            (anyhow::Error::from(chart), "sky-a-20261201.png"),
+        ] {
+            let text = in_out_folder(e, &st, &out).to_string();
+            let head = format!("--out {}: the disk is full: ", out.display());
+            assert!(text.starts_with(&head), "{text}");
+            assert!(
+                text.contains(&out.join(file).display().to_string()),
+                "{text}"
+            );
+            assert!(!text.contains(".passbudget-staging"), "{text}");
+        }
+        // Another error keeps its text, with the staging path replaced all the same.
+        let other = FileError {
+            path: st.path().join("days.csv"),
+            message: "permission denied".into(),
+            kind: Some(std::io::ErrorKind::PermissionDenied),
+        };
+        let text = in_out_folder(other.into(), &st, &out).to_string();
+        assert_eq!(
+            text,
+            format!(
+                "{}: cannot write: permission denied",
+                out.join("days.csv").display()
+            )
+        );
     }
 }
