@@ -611,7 +611,7 @@ mod tests {
     #[test]
     fn slug_cleans_names() {
         assert_eq!(slug("Sierra Baja"), "sierra-baja");
-        assert_eq!(slug("  Ñu / Station 2 "), "u-station-2");
+        assert_eq!(slug("  Ñu / Station 2 "), "ñu-station-2");
         assert_eq!(slug("***"), "unnamed");
     }
 

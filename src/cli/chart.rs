@@ -1,10 +1,14 @@
 //! `passbudget chart`: the charts of a plan, without its CSV files.
 
 use crate::cli::common::warn;
-use crate::cli::output::{progress_bar, stage, RunSink};
-use anyhow::{bail, Context, Result};
+use crate::cli::output::{
+    check_names, check_size, commit, in_out_folder, progress_bar, stage, RunSink,
+};
+use anyhow::{bail, Result};
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
+use passbudget::report::files::{ChartBytes, OutputRequest};
+use passbudget::report::CommitMode;
 use std::io::Write;
 use std::path::PathBuf;
 
@@ -51,6 +55,9 @@ pub struct ChartArgs {
     /// Folder for the chart files.
     #[arg(long, value_name = "DIR", default_value = "charts")]
     pub out: PathBuf,
+    /// Write even when the estimate of the charts' size passes the limits (1 GB or 5000 files).
+    #[arg(long)]
+    pub allow_large_output: bool,
 }
 
 /// `passbudget chart`.
@@ -64,46 +71,41 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
         summary: want(ChartKind::Summary) && whole_window,
     };
     let planner = a.window.planner(which.mask)?;
+    check_names(&planner)?;
+    let format: ChartFormat = a.format.into();
+    let request = OutputRequest {
+        csv: false,
+        pass_charts: want(ChartKind::Pass) && a.pass.is_none(),
+        sky_charts: which.sky,
+        chart_bytes: ChartBytes::of(format),
+    };
+    check_size(&planner, &request, a.allow_large_output, &a.out)?;
     let dir = staging.path().to_path_buf();
-    let charts = ChartSink::new(
-        &planner,
-        &dir,
-        a.format.into(),
-        want(ChartKind::Pass),
-        a.pass,
-    );
+    let charts = ChartSink::new(&planner, &dir, format, want(ChartKind::Pass), a.pass);
     let sink = RunSink {
         csv: None,
         charts: Some(&charts),
         bar: progress_bar(&planner),
     };
-    let plan = planner.run(&sink)?;
+    let run = planner.run(&sink);
     drop(sink);
+    let plan = run.map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;
     warn(&plan.warnings);
     if let Some(n) = a.pass {
         if !plan.passes.iter().any(|x| x.number == n) {
             bail!("--pass {n}: the plan has passes 1 to {}", plan.passes.len());
         }
     }
-    let written = window_charts(&planner, &plan, &charts, &dir, which)?;
+    let written = window_charts(&planner, &plan, &charts, &dir, which)
+        .map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;
     let passes_drawn = if want(ChartKind::Pass) {
         a.pass.map(|_| 1).unwrap_or(plan.passes.len())
     } else {
         0
     };
-    // Only the charts drawn now are replaced: other files in the folder (a plan's CSVs, other
-    // passes' charts) are left as they are.
-    let names = staging
-        .staged_names()
-        .with_context(|| format!("--out {}", a.out.display()))?;
-    staging
-        .commit(|n| names.iter().any(|x| x == n))
-        .with_context(|| {
-            format!(
-                "--out {}: cannot move the charts into place",
-                a.out.display()
-            )
-        })?;
+    // Only the charts drawn now are added or replaced: other files in the folder (a plan's CSVs,
+    // other passes' charts) are left as they are.
+    commit(staging, CommitMode::Add, &a.out)?;
     writeln!(
         out,
         "{} pass chart(s) and {} window chart(s) written to {}",

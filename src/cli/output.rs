@@ -4,20 +4,121 @@
 use anyhow::{Context, Result};
 use passbudget::chart::plan::ChartSink;
 use passbudget::plan::{PassSeries, PassSink, Planner};
-use passbudget::report::files::CsvSink;
-use passbudget::report::Staging;
+use passbudget::report::files::{
+    estimate_output, CsvSink, FileError, OutputRequest, MAX_OUTPUT_BYTES, MAX_OUTPUT_FILES,
+};
+use passbudget::report::{check_file_names, CommitMode, Staging};
+use std::io::Write;
+use std::ops::ControlFlow;
 use std::path::Path;
 
-/// Check that `dir` can be written, then open a staging folder inside it.
+/// Check that `dir` can be written, complete or clear what interrupted runs left there, then open
+/// a staging folder inside it.
 pub fn stage(dir: &Path) -> Result<Staging> {
     std::fs::create_dir_all(dir)
         .with_context(|| format!("--out {}: cannot create the folder", dir.display()))?;
-    let probe = dir.join(".passbudget-write-check");
+    let probe = dir.join(format!(".passbudget-write-check-{}", std::process::id()));
     std::fs::write(&probe, b"ok")
         .with_context(|| format!("--out {}: the folder cannot be written", dir.display()))?;
     let _ = std::fs::remove_file(&probe);
-    Staging::new(dir)
-        .with_context(|| format!("--out {}: cannot create a staging folder", dir.display()))
+    let st = Staging::new(dir).with_context(|| format!("--out {}", dir.display()))?;
+    let r = st.recovery();
+    if r.completed_commit {
+        note(&format!(
+            "--out {}: completed the move of an interrupted run's results",
+            dir.display()
+        ));
+    }
+    if r.removed_leftovers > 0 {
+        note(&format!(
+            "--out {}: removed {} staging folder(s) or temporary file(s) of interrupted runs",
+            dir.display(),
+            r.removed_leftovers
+        ));
+    }
+    Ok(st)
+}
+
+fn note(text: &str) {
+    let _ = writeln!(std::io::stderr(), "note: {text}");
+}
+
+/// Refuse a run whose stations give the same file names, before any work.
+pub fn check_names(planner: &Planner) -> Result<()> {
+    check_file_names(planner.stations().iter().map(|s| s.station.name.as_str()))?;
+    Ok(())
+}
+
+/// Refuse, before any work, a run whose estimated output passes the limits, unless `allow`.
+pub fn check_size(
+    planner: &Planner,
+    request: &OutputRequest,
+    allow: bool,
+    out: &Path,
+) -> Result<()> {
+    if allow {
+        return Ok(());
+    }
+    let e = estimate_output(planner, request)?;
+    let narrow = if request.csv {
+        "fewer --days, one station, no --charts or --chart-format svg"
+    } else {
+        "fewer --days, one station, --pass N or --kind, --format svg"
+    };
+    if e.too_large() {
+        anyhow::bail!(
+            "--out {}: this run would write about {} files and {:.1} GB ({} passes; the limits are {} files and {} GB): narrow it ({narrow}) or pass --allow-large-output",
+            out.display(),
+            e.files,
+            e.bytes as f64 / 1e9,
+            e.passes,
+            MAX_OUTPUT_FILES,
+            MAX_OUTPUT_BYTES / 1_000_000_000
+        );
+    }
+    Ok(())
+}
+
+/// Move the staged results into place. `PASSBUDGET_TEST_STOP_AFTER_MOVES=N` (a test hook) aborts
+/// the process after the N-th file moved (N = 0: just before the commit), as a kill would.
+pub fn commit(st: Staging, mode: CommitMode, out: &Path) -> Result<()> {
+    let stop: Option<usize> = std::env::var("PASSBUDGET_TEST_STOP_AFTER_MOVES")
+        .ok()
+        .and_then(|v| v.parse().ok());
+    if stop == Some(0) {
+        std::process::abort();
+    }
+    st.commit_with(mode, |n| {
+        if Some(n) == stop {
+            std::process::abort();
+        }
+        ControlFlow::Continue(())
+    })
+    .with_context(|| {
+        format!(
+            "--out {}: cannot move the results into place",
+            out.display()
+        )
+    })
+}
+
+/// An error of a run that writes into `st`: the hidden staging path is replaced by the `--out`
+/// folder, and a full disk is named as such.
+pub fn in_out_folder(e: anyhow::Error, st: &Staging, out: &Path) -> anyhow::Error {
+    let full = e.chain().any(|c| {
+        c.downcast_ref::<std::io::Error>()
+            .is_some_and(|io| io.kind() == std::io::ErrorKind::StorageFull)
+    }) || e.chain().any(|c| {
+        c.downcast_ref::<FileError>()
+            .is_some_and(|f| f.kind == Some(std::io::ErrorKind::StorageFull))
+    });
+    let text = crate::cli::one_line(&e)
+        .replace(&st.path().display().to_string(), &out.display().to_string());
+    if full {
+        anyhow::anyhow!("--out {}: the disk is full: {text}", out.display())
+    } else {
+        anyhow::anyhow!(text)
+    }
 }
 
 /// A progress bar on stderr for runs long enough to want one (indicatif draws only on a terminal).
@@ -77,5 +178,56 @@ impl Drop for RunSink<'_> {
         if let Some(b) = &self.bar {
             b.finish_and_clear();
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A full disk while writing into the staging folder is reported naming the --out folder and
+    /// the file's place in it, not the hidden staging path.
+    #[test]
+    fn a_full_disk_names_the_out_folder() {
+        let dir = tempfile::tempdir().unwrap();
+        let out = dir.path().join("out");
+        let st = Staging::new(&out).unwrap();
+        let io = std::io::Error::from(std::io::ErrorKind::StorageFull);
+        let csv = FileError {
+            path: st.path().join("pass-001-a.csv"),
+            message: io.to_string(),
+            kind: Some(io.kind()),
+        };
+        let chart = passbudget::chart::ChartError::Io {
+            path: st.path().join("sky-a-20261201.png"),
+            source: std::io::Error::from(std::io::ErrorKind::StorageFull),
+        };
+        for (e, file) in [
+            (anyhow::Error::from(csv), "pass-001-a.csv"),
+            (anyhow::Error::from(chart), "sky-a-20261201.png"),
+        ] {
+            let text = in_out_folder(e, &st, &out).to_string();
+            let head = format!("--out {}: the disk is full: ", out.display());
+            assert!(text.starts_with(&head), "{text}");
+            assert!(
+                text.contains(&out.join(file).display().to_string()),
+                "{text}"
+            );
+            assert!(!text.contains(".passbudget-staging"), "{text}");
+        }
+        // Another error keeps its text, with the staging path replaced all the same.
+        let other = FileError {
+            path: st.path().join("days.csv"),
+            message: "permission denied".into(),
+            kind: Some(std::io::ErrorKind::PermissionDenied),
+        };
+        let text = in_out_folder(other.into(), &st, &out).to_string();
+        assert_eq!(
+            text,
+            format!(
+                "{}: cannot write: permission denied",
+                out.join("days.csv").display()
+            )
+        );
     }
 }

@@ -1,21 +1,25 @@
 //! `passbudget plan` and `passbudget mask`.
 
 use crate::cli::common::{warn, Format};
-use crate::cli::output::{progress_bar, stage, RunSink};
+use crate::cli::output::{
+    check_names, check_size, commit, in_out_folder, progress_bar, stage, RunSink,
+};
 use crate::cli::table::{Align, Table};
 use crate::cli::window::WindowArgs;
-use anyhow::{Context, Result};
+use anyhow::Result;
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
 use passbudget::plan::summary::{tradeoff, usable_masks};
 use passbudget::plan::{Plan, Planner};
-use passbudget::report::files::{summary_json, write_summaries, CsvSink};
+use passbudget::report::files::{
+    summary_json, write_summaries, ChartBytes, CsvSink, OutputRequest,
+};
 use passbudget::report::plan::{PlanDoc, TradeoffRow, UsableMaskRow};
-use passbudget::report::{is_output_name, round, to_csv};
+use passbudget::report::{round, to_csv, CommitMode};
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
 use std::io::Write;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct PlanArgs {
@@ -32,6 +36,10 @@ pub struct PlanArgs {
     /// Chart file format (with --charts).
     #[arg(long, value_enum, default_value = "png", requires = "charts")]
     pub chart_format: crate::cli::chart::ChartFormatArg,
+    /// Write the --out folder even when the estimate of its size passes the limits (1 GB or
+    /// 5000 files).
+    #[arg(long, requires = "out")]
+    pub allow_large_output: bool,
 }
 
 #[derive(Debug, Clone, clap::Args)]
@@ -50,8 +58,19 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     let staging = a.out.as_deref().map(stage).transpose()?;
     // The charts' mask trade-off needs the passes below the configured mask: the same run gathers it.
     let planner = a.window.planner(a.charts)?;
-    let dir = staging.as_ref().map(|s| s.path().to_path_buf());
+    let target = a.out.clone().unwrap_or_default();
     let format: ChartFormat = a.chart_format.into();
+    if staging.is_some() {
+        check_names(&planner)?;
+        let request = OutputRequest {
+            csv: true,
+            pass_charts: a.charts,
+            sky_charts: a.charts,
+            chart_bytes: ChartBytes::of(format),
+        };
+        check_size(&planner, &request, a.allow_large_output, &target)?;
+    }
+    let dir = staging.as_ref().map(|s| s.path().to_path_buf());
     let chart_dir = dir.clone().unwrap_or_default();
     let charts = ChartSink::new(&planner, &chart_dir, format, true, None);
     let sink = RunSink {
@@ -62,32 +81,47 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
         charts: a.charts.then_some(&charts),
         bar: progress_bar(&planner),
     };
-    let plan = planner.run(&sink)?;
+    let run = planner.run(&sink);
     drop(sink);
+    let in_out = |e: anyhow::Error| match &staging {
+        Some(st) => in_out_folder(e, st, &target),
+        None => e,
+    };
+    let plan = run.map_err(|e| in_out(e.into()))?;
     warn(&plan.warnings);
     let doc = PlanDoc::new(&planner, &plan);
-    if let (Some(dir), Some(st)) = (&dir, staging) {
-        write_summaries(dir, &doc)?;
-        if a.charts {
-            let all = WindowCharts {
-                sky: true,
-                mask: true,
-                summary: true,
-            };
-            window_charts(&planner, &plan, &charts, dir, all)?;
-        }
-        let target = a.out.clone().unwrap_or_default();
-        st.commit(is_output_name).with_context(|| {
-            format!(
-                "--out {}: cannot move the results into place",
-                target.display()
-            )
-        })?;
+    if let (Some(dir), Some(st)) = (&dir, staging.as_ref()) {
+        write_files(&planner, &plan, &doc, &charts, dir, a.charts)
+            .map_err(|e| in_out_folder(e, st, &target))?;
+    }
+    if let Some(st) = staging {
+        commit(st, CommitMode::Replace, &target)?;
     }
     match a.format {
         Format::Json => write!(out, "{}", summary_json(&doc))?,
         Format::Csv => write!(out, "{}", to_csv(&doc.passes)?)?,
         Format::Table => print_plan(&planner, &plan, &doc, out)?,
+    }
+    Ok(())
+}
+
+/// The summaries and (with `charts`) the window charts, into the staging folder `dir`.
+fn write_files(
+    planner: &Planner,
+    plan: &Plan,
+    doc: &PlanDoc,
+    sink: &ChartSink,
+    dir: &Path,
+    charts: bool,
+) -> Result<()> {
+    write_summaries(dir, doc)?;
+    if charts {
+        let all = WindowCharts {
+            sky: true,
+            mask: true,
+            summary: true,
+        };
+        window_charts(planner, plan, sink, dir, all)?;
     }
     Ok(())
 }

@@ -16,12 +16,22 @@ use std::path::{Path, PathBuf};
 pub struct FileError {
     pub path: PathBuf,
     pub message: String,
+    /// The kind of the input/output error, if it was one (a full disk is `StorageFull`).
+    pub kind: Option<std::io::ErrorKind>,
 }
 
 fn file_error(path: &Path, e: impl std::fmt::Display) -> FileError {
     FileError {
         path: path.to_path_buf(),
         message: e.to_string(),
+        kind: None,
+    }
+}
+
+fn io_error(path: &Path, e: std::io::Error) -> FileError {
+    FileError {
+        kind: Some(e.kind()),
+        ..file_error(path, e)
     }
 }
 
@@ -45,7 +55,7 @@ impl PassSink for CsvSink<'_> {
             .join(pass_csv_name(s.plan.number, st, &s.plan.pass.aos));
         let rows = step_rows(s, self.planner.rates());
         let text = to_csv(&rows).map_err(|e| file_error(&path, e))?;
-        write_atomic(&path, text.as_bytes()).map_err(|e| file_error(&path, e))
+        write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))
     }
 }
 
@@ -66,7 +76,119 @@ pub fn write_summaries(dir: &Path, doc: &PlanDoc) -> Result<(), FileError> {
     for (name, text) in files {
         let path = dir.join(name);
         let text = text.map_err(|e| file_error(&path, e))?;
-        write_atomic(&path, text.as_bytes()).map_err(|e| file_error(&path, e))?;
+        write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
     }
     Ok(())
+}
+
+/// Sizes of one chart file, bytes (upper side of the charts of the shipped example, measured).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct ChartBytes {
+    /// One pass chart.
+    pub pass: u64,
+    /// One sky chart (a station's UTC day).
+    pub sky: u64,
+    /// One mask or summary chart.
+    pub window: u64,
+}
+
+/// What a run will write into its folder, for [`estimate_output`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct OutputRequest {
+    /// One time-series CSV per pass (and the four summary files).
+    pub csv: bool,
+    /// One chart per pass.
+    pub pass_charts: bool,
+    /// One sky chart per station and UTC day.
+    pub sky_charts: bool,
+    pub chart_bytes: ChartBytes,
+}
+
+/// The estimated size of a run's output.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct OutputEstimate {
+    pub passes: usize,
+    pub files: u64,
+    pub bytes: u64,
+}
+
+/// Largest output a run writes without being asked explicitly, bytes (1 GB).
+pub const MAX_OUTPUT_BYTES: u64 = 1_000_000_000;
+/// Largest number of files a run writes without being asked explicitly.
+pub const MAX_OUTPUT_FILES: u64 = 5_000;
+/// Bytes of one row of a pass's time-series CSV (the golden pass files average 225 and 231;
+/// rounded up).
+pub const CSV_ROW_BYTES: u64 = 240;
+
+impl OutputEstimate {
+    /// Whether the estimate passes [`MAX_OUTPUT_BYTES`] or [`MAX_OUTPUT_FILES`].
+    pub fn too_large(&self) -> bool {
+        self.bytes > MAX_OUTPUT_BYTES || self.files > MAX_OUTPUT_FILES
+    }
+}
+
+/// Estimate the output of a run before it starts: the passes are searched (the same search the
+/// planner runs, without the budgets), each pass's CSV has one row per step, charts have the
+/// sizes of `request.chart_bytes`.
+pub fn estimate_output(
+    planner: &Planner,
+    request: &OutputRequest,
+) -> Result<OutputEstimate, crate::orbit::PropagationError> {
+    let prop = crate::orbit::Propagator::new(planner.elements())?;
+    let w = planner.window();
+    let (mut passes, mut rows) = (0usize, 0u64);
+    for st in planner.stations() {
+        let found = crate::geometry::find_passes(&prop, &st.observer, &st.mask, w.start(), w.end());
+        passes += found.passes.len();
+        for p in &found.passes {
+            let s = (p.los - p.aos).num_milliseconds() as f64 / 1000.0;
+            rows += (s / planner.step_s()).ceil() as u64 + 2;
+        }
+    }
+    let n = passes as u64;
+    let stations = planner.stations().len() as u64;
+    let days = w.days().ceil() as u64 + 1;
+    let (mut files, mut bytes) = (0u64, 0u64);
+    let c = &request.chart_bytes;
+    if request.csv {
+        files += n + 4;
+        bytes += rows * CSV_ROW_BYTES + n * 4 * 1024;
+    }
+    if request.pass_charts {
+        files += n;
+        bytes += n * c.pass;
+    }
+    if request.sky_charts {
+        // Sky charts per station and day, and the mask (per station and all stations) and
+        // summary charts.
+        files += stations * days + stations + 2;
+        bytes += stations * days * c.sky + (stations + 2) * c.window;
+    }
+    Ok(OutputEstimate {
+        passes,
+        files,
+        bytes,
+    })
+}
+
+#[cfg(feature = "charts")]
+impl ChartBytes {
+    /// The chart sizes for a format.
+    pub fn of(format: crate::chart::ChartFormat) -> ChartBytes {
+        match format {
+            // Shipped example, one day: pass charts 316-349 kB, sky charts 225-271 kB, mask and
+            // summary charts 248-298 kB.
+            crate::chart::ChartFormat::Png => ChartBytes {
+                pass: 360_000,
+                sky: 280_000,
+                window: 300_000,
+            },
+            // The same in SVG: pass charts up to 79 kB, sky charts up to 40 kB, mask charts 84 kB.
+            crate::chart::ChartFormat::Svg => ChartBytes {
+                pass: 90_000,
+                sky: 45_000,
+                window: 90_000,
+            },
+        }
+    }
 }

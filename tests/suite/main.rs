@@ -19,6 +19,7 @@ mod modcod_thresholds;
 mod noise_sky_system;
 mod orbit_input;
 mod orbit_sgp4_verification;
+mod output_folder;
 mod passes_min_range;
 mod passes_search;
 mod pipeline;

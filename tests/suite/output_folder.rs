@@ -1,0 +1,357 @@
+//! The `--out` folder: file names unique per station, results moved into place under a journal
+//! that the next run completes after an interruption, a manifest so that only passbudget's own
+//! files are replaced or removed, leftovers of interrupted runs removed, and no run that would
+//! fill the disk without being asked.
+
+use crate::common::bin::{clean_error, command, root, run, success, write};
+use crate::common::plan::load_plan_setup;
+use passbudget::chart::ChartFormat;
+use passbudget::report::files::{estimate_output, ChartBytes, OutputRequest};
+use passbudget::report::MANIFEST;
+use std::collections::BTreeMap;
+use std::path::Path;
+use std::process::Output;
+
+const MISSION: &str = "examples/wrenlet-1.yaml";
+
+/// A copy of the shipped mission over stations at Nordkam's site with the given names.
+fn mission_with_stations(dir: &Path, names: &[&str]) -> String {
+    let station = std::fs::read_to_string(root().join("stations/nordkam.yaml")).unwrap();
+    let mission = std::fs::read_to_string(root().join(MISSION)).unwrap();
+    let mut list = String::new();
+    for (k, n) in names.iter().enumerate() {
+        let p = write(
+            dir,
+            &format!("st{k}.yaml"),
+            &station.replace("name: Nordkam", &format!("name: \"{n}\"")),
+        );
+        list.push_str(&format!("  - {p}\n"));
+    }
+    let stations = "  - ../stations/nordkam.yaml\n  - ../stations/sierra-baja.yaml\n  - ../stations/pulau-reka.yaml\n";
+    assert!(mission.contains(stations));
+    let text = mission.replace(stations, &list).replace(
+        "sat.tle",
+        &root().join("examples/sat.tle").to_string_lossy(),
+    );
+    write(dir, "mission.yaml", &text)
+}
+
+/// Every file of a folder (hidden ones too) with its bytes.
+fn contents(dir: &Path) -> BTreeMap<String, Vec<u8>> {
+    std::fs::read_dir(dir)
+        .unwrap()
+        .map(|e| e.unwrap())
+        .filter(|e| e.file_type().unwrap().is_file())
+        .map(|e| {
+            (
+                e.file_name().to_string_lossy().into_owned(),
+                std::fs::read(e.path()).unwrap(),
+            )
+        })
+        .collect()
+}
+
+fn names(dir: &Path) -> Vec<String> {
+    let mut v: Vec<String> = std::fs::read_dir(dir)
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    v.sort();
+    v
+}
+
+fn hidden(dir: &Path) -> Vec<String> {
+    names(dir)
+        .into_iter()
+        .filter(|n| n.starts_with('.'))
+        .collect()
+}
+
+/// The manifest's names equal the folder's result files (all visible files but `keep`).
+fn manifest_matches(dir: &Path, keep: &[&str]) {
+    let manifest = std::fs::read_to_string(dir.join(MANIFEST)).unwrap();
+    let listed: Vec<&str> = manifest.lines().collect();
+    let visible: Vec<String> = names(dir)
+        .into_iter()
+        .filter(|n| !n.starts_with('.') && !keep.contains(&n.as_str()))
+        .collect();
+    assert_eq!(listed, visible);
+}
+
+fn plan_into(out: &Path, extra: &[&str]) -> Output {
+    let o = out.to_string_lossy().into_owned();
+    let mut args = vec!["plan", MISSION, "--out", &o];
+    args.extend_from_slice(extra);
+    run(&args)
+}
+
+/// Stations whose names give the same file names are refused before any work, with two worker
+/// threads (before: both threads wrote the same temporary file) and with one (before: one
+/// station's charts replaced the other's).
+#[test]
+fn stations_with_the_same_file_names_are_refused_before_any_work() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = mission_with_stations(dir.path(), &["Nord Kam", "Nord-Kam"]);
+    for threads in ["1", "2"] {
+        let out = dir.path().join(format!("out{threads}"));
+        let o = out.to_string_lossy().into_owned();
+        let r = command()
+            .current_dir(root())
+            .env("RAYON_NUM_THREADS", threads)
+            .args(["plan", &mission, "--days", "0.5", "--out", &o, "--charts"])
+            .output()
+            .unwrap();
+        clean_error(
+            &r,
+            &["stations 'Nord Kam' and 'Nord-Kam' would write the same file names (nord-kam): rename one"],
+        );
+        assert!(names(&out).is_empty(), "{:?}", names(&out));
+    }
+}
+
+/// Station names in non-Latin scripts keep their letters in the file names (before: all became
+/// `unnamed`, and one station's sky and mask charts replaced the other's).
+#[test]
+fn non_latin_station_names_give_their_own_files() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = mission_with_stations(dir.path(), &["東京局", "Москва"]);
+    let out = dir.path().join("out");
+    let o = out.to_string_lossy().into_owned();
+    success(&run(&[
+        "plan",
+        &mission,
+        "--days",
+        "0.3",
+        "--out",
+        &o,
+        "--charts",
+        "--chart-format",
+        "svg",
+    ]));
+    let n = names(&out);
+    for f in [
+        "mask-東京局.svg",
+        "mask-москва.svg",
+        "mask-all-stations.svg",
+    ] {
+        assert!(n.contains(&f.to_string()), "{f} not in {n:?}");
+    }
+    let csv = |s: &str| {
+        n.iter()
+            .filter(|x| x.contains(s) && x.ends_with(".csv"))
+            .count()
+    };
+    assert!(
+        csv("-東京局-") > 0 && csv("-東京局-") == csv("-москва-"),
+        "{n:?}"
+    );
+    assert!(!n.iter().any(|x| x.contains("unnamed")), "{n:?}");
+}
+
+/// Files of the user that merely look like outputs survive a run; files of a previous run that
+/// the new run does not write are removed because the manifest lists them.
+#[test]
+fn only_files_passbudget_wrote_are_replaced_or_removed() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    std::fs::create_dir(&out).unwrap();
+    let mine = [
+        "pass-999-my-notes.csv",
+        "summary-of-meeting.png",
+        "notes.txt",
+    ];
+    for m in mine {
+        std::fs::write(out.join(m), format!("{m} by the user")).unwrap();
+    }
+    success(&plan_into(&out, &["--days", "1"]));
+    let first = names(&out);
+    manifest_matches(&out, &mine);
+    success(&plan_into(&out, &["--days", "0.5"]));
+    let second = names(&out);
+    assert!(
+        second.len() < first.len(),
+        "{} then {}",
+        first.len(),
+        second.len()
+    );
+    manifest_matches(&out, &mine);
+    for m in mine {
+        assert_eq!(
+            std::fs::read_to_string(out.join(m)).unwrap(),
+            format!("{m} by the user")
+        );
+    }
+    assert_eq!(hidden(&out), [MANIFEST]);
+}
+
+/// A result file already in the folder that passbudget did not write is not replaced: the run
+/// fails with one line and the folder is unchanged.
+#[test]
+fn a_same_named_file_of_the_user_is_not_replaced() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    std::fs::create_dir(&out).unwrap();
+    std::fs::write(out.join("summary.json"), "the user's").unwrap();
+    let before = contents(&out);
+    clean_error(
+        &plan_into(&out, &["--days", "0.3"]),
+        &["summary.json", "not written by passbudget"],
+    );
+    assert_eq!(contents(&out), before);
+}
+
+/// A kill while the results are moved into place (the test hook aborts the process after the
+/// N-th move; N = 0 just before the commit) leaves either the previous set untouched or a
+/// journal, and the next run in that folder completes the change before anything else: the
+/// folder then holds exactly the complete new set.
+#[test]
+fn a_kill_during_the_move_is_completed_by_the_next_run() {
+    let dir = tempfile::tempdir().unwrap();
+    let previous = dir.path().join("previous");
+    success(&plan_into(&previous, &["--days", "1"]));
+    let reference = dir.path().join("reference");
+    success(&plan_into(&reference, &["--days", "0.5"]));
+    let old = contents(&previous);
+    let new = contents(&reference);
+    let moves = new.len() - 1; // every file but the manifest is moved
+    for stop in [0, 1, 7, moves] {
+        let out = dir.path().join(format!("out{stop}"));
+        std::fs::create_dir(&out).unwrap();
+        for (n, b) in &old {
+            std::fs::write(out.join(n), b).unwrap();
+        }
+        let o = out.to_string_lossy().into_owned();
+        let r = command()
+            .current_dir(root())
+            .env("PASSBUDGET_TEST_STOP_AFTER_MOVES", stop.to_string())
+            .args(["plan", MISSION, "--days", "0.5", "--out", &o])
+            .output()
+            .unwrap();
+        assert!(!r.status.success(), "the hook stopped the run at {stop}");
+        if stop == 0 {
+            assert_eq!(contents(&out), old, "the previous set untouched");
+        } else {
+            assert!(out.join(".passbudget-journal").exists());
+        }
+        // The next run (here one that fails on its input right after opening the folder).
+        let r = plan_into(&out, &["--step", "0"]);
+        clean_error(&r, &["--step"]);
+        let expect = if stop == 0 { &old } else { &new };
+        assert_eq!(&contents(&out), expect, "after a stop at move {stop}");
+        assert_eq!(hidden(&out), [MANIFEST], "after a stop at move {stop}");
+    }
+}
+
+/// A process killed while it plans leaves its staging folder; the next run removes it, as it
+/// removes leftovers of other dead processes, and the previous results stay until then.
+#[test]
+fn leftovers_of_killed_runs_are_removed_by_the_next_run() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    success(&plan_into(&out, &["--days", "0.3"]));
+    let before = contents(&out);
+    let o = out.to_string_lossy().into_owned();
+    let mut child = command()
+        .current_dir(root())
+        .args(["plan", MISSION, "--days", "3", "--out", &o, "--charts"])
+        .stdout(std::process::Stdio::null())
+        .stderr(std::process::Stdio::null())
+        .spawn()
+        .unwrap();
+    let t0 = std::time::Instant::now();
+    while !names(&out)
+        .iter()
+        .any(|n| n.starts_with(".passbudget-staging-"))
+    {
+        assert!(t0.elapsed().as_secs() < 60, "no staging folder appeared");
+        std::thread::sleep(std::time::Duration::from_millis(20));
+    }
+    std::thread::sleep(std::time::Duration::from_millis(300));
+    child.kill().unwrap(); // SIGKILL
+    child.wait().unwrap();
+    let staged: Vec<String> = hidden(&out)
+        .into_iter()
+        .filter(|n| n.starts_with(".passbudget-staging-"))
+        .collect();
+    assert_eq!(staged.len(), 1);
+    // A leftover backup folder of an earlier version, of a process that has ended.
+    let mut ended = std::process::Command::new("true").spawn().unwrap();
+    let dead = ended.id();
+    ended.wait().unwrap();
+    std::fs::create_dir(out.join(format!(".passbudget-previous-{dead}"))).unwrap();
+    let visible = |m: &BTreeMap<String, Vec<u8>>| {
+        m.iter()
+            .filter(|(n, _)| !n.starts_with('.'))
+            .map(|(n, b)| (n.clone(), b.clone()))
+            .collect::<BTreeMap<_, _>>()
+    };
+    assert_eq!(
+        visible(&contents(&out)),
+        visible(&before),
+        "previous results in place"
+    );
+    let r = plan_into(&out, &["--step", "0"]);
+    clean_error(&r, &["--step"]);
+    assert!(String::from_utf8_lossy(&r.stderr).contains("removed 2"));
+    assert_eq!(contents(&out), before);
+}
+
+/// A run whose output would pass 1 GB or 5000 files is refused before any work, with one line
+/// that says how to narrow it, unless the user asks for it.
+#[test]
+fn a_very_large_output_is_refused_before_any_work() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let r = plan_into(&out, &["--days", "365", "--charts"]);
+    clean_error(
+        &r,
+        &[
+            "--out",
+            "files",
+            "GB",
+            "--days",
+            "--charts",
+            "--allow-large-output",
+        ],
+    );
+    assert!(names(&out).is_empty(), "{:?}", names(&out));
+    let r = run(&[
+        "chart",
+        MISSION,
+        "--days",
+        "365",
+        "--out",
+        &out.to_string_lossy(),
+    ]);
+    clean_error(&r, &["--allow-large-output"]);
+}
+
+/// The estimate is on the upper side of what a run writes, but not far above it (the shipped
+/// example, one day, CSVs and PNG charts).
+#[test]
+fn the_output_estimate_matches_a_real_run() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    success(&plan_into(&out, &["--days", "1", "--charts"]));
+    let files = contents(&out);
+    let written_files = files.len() as u64 - 1; // not the manifest
+    let written_bytes: u64 = files.values().map(|b| b.len() as u64).sum();
+    let setup = load_plan_setup(&root().join(MISSION));
+    let start = passbudget::timefmt::utc(2026, 12, 1, 12, 0, 0);
+    let planner = setup.planner(start, start + chrono::Duration::days(1));
+    let request = OutputRequest {
+        csv: true,
+        pass_charts: true,
+        sky_charts: true,
+        chart_bytes: ChartBytes::of(ChartFormat::Png),
+    };
+    let e = estimate_output(&planner, &request).unwrap();
+    assert!(
+        e.files >= written_files && e.files <= written_files + 6,
+        "{e:?} against {written_files} files"
+    );
+    assert!(
+        e.bytes as f64 >= written_bytes as f64 && (e.bytes as f64) < 1.5 * written_bytes as f64,
+        "{e:?} against {written_bytes} bytes"
+    );
+}
