@@ -3,13 +3,13 @@
 use crate::cli::common::{warn, Format};
 use crate::cli::table::{Align, Table};
 use anyhow::{anyhow, bail, Result};
-use passbudget::atmosphere::{mean_radiating_temperature_k, PathSpec, PreparedAtmosphere, Weather};
 use passbudget::config::mission::Mission;
 use passbudget::config::station::Station;
 use passbudget::config::DefaultUsed;
-use passbudget::noise::sky::{background_temperature_k, sky_temperature_p618_k};
-use passbudget::plan::instant::{instant_budget, InstantError, InstantGeometry, InstantRequest};
-use passbudget::plan::prepare::antenna_aperture;
+use passbudget::plan::instant::{
+    atmosphere_at, instant_budget, AtmosphereAtError, AtmosphereRequest, InstantError,
+    InstantGeometry, InstantRequest,
+};
 use passbudget::report::budget::BudgetDoc;
 use passbudget::report::round;
 use passbudget::timefmt::parse_utc;
@@ -215,57 +215,20 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
 /// The atmosphere at one elevation for a station file.
 fn atmosphere_doc(a: &AtmosphereArgs) -> Result<AtmosphereDoc> {
     let st = Station::load(&a.station)?;
-    if !(a.frequency_ghz.is_finite() && a.frequency_ghz > 0.0) {
-        bail!(
-            "--frequency-ghz {}: must be a finite number above zero",
-            a.frequency_ghz
-        );
-    }
-    if !(a.elevation_deg.is_finite() && (0.0..=90.0).contains(&a.elevation_deg)) {
-        bail!(
-            "--elevation-deg {}: out of range (0 to 90 deg)",
-            a.elevation_deg
-        );
-    }
-    let mut defaults = st.defaults.clone();
-    // The station's own aperture, by the same rule as `budget` and `plan`; without an antenna
-    // block, 1 m at 0.5 (a documented default).
-    let (d, eta) = match st.antenna.as_ref() {
-        Some(ant) => antenna_aperture(&ant.gain, a.frequency_ghz * 1e9),
-        None => {
-            defaults.push(DefaultUsed { key: "antenna.diameter_m".into(), value: "1".into(), source: "scintillation aperture averaging: 1 m at efficiency 0.5 assumed (no antenna block in the station file)".into() });
-            (1.0, 0.5)
-        }
+    let req = AtmosphereRequest {
+        frequency_ghz: a.frequency_ghz,
+        elevation_deg: a.elevation_deg,
+        exceedance_percent: a.exceedance_percent,
+        polarization_tilt_deg: a.polarization_tilt_deg,
     };
-    let c = &st.climate;
-    let site = passbudget::plan::prepare::atmosphere_site(&st);
-    let prepared = PreparedAtmosphere::new(
-        &site,
-        &PathSpec {
-            frequency_ghz: a.frequency_ghz,
-            polarization_tilt_deg: a.polarization_tilt_deg,
-            antenna_diameter_m: d,
-            antenna_efficiency: eta,
-        },
-    )
-    .map_err(|e| anyhow!("{}: atmosphere: {e}", a.station.display()))?;
-    let weather = match a.exceedance_percent {
-        Some(p) => {
-            if c.rain_rate_001_mm_h.is_none() {
-                bail!(
-                    "{}: climate.rain_rate_001_mm_h is needed for an exceedance percentage",
-                    a.station.display()
-                );
-            }
-            Weather::exceedance(p).map_err(|e| anyhow!("--exceedance-percent: {e}"))?
+    let at = atmosphere_at(&st, &req).map_err(|e| match e {
+        AtmosphereAtError::Range { source } => {
+            anyhow!("--{}: {source}", source.key.replace('_', "-"))
         }
-        None => Weather::ClearSky,
-    };
-    let att = prepared.at(a.elevation_deg, weather);
-    let tmr = mean_radiating_temperature_k(c.temperature_k);
-    let (bg, _) = background_temperature_k(a.frequency_ghz * 1e9)?;
-    let tsky = sky_temperature_p618_k(att.absorptive_db, tmr, bg)?;
-    let doc = AtmosphereDoc {
+        e => anyhow::Error::new(e),
+    })?;
+    let att = &at.attenuation;
+    Ok(AtmosphereDoc {
         station: st.name.clone(),
         frequency_ghz: a.frequency_ghz,
         elevation_deg: a.elevation_deg,
@@ -278,12 +241,11 @@ fn atmosphere_doc(a: &AtmosphereArgs) -> Result<AtmosphereDoc> {
         total_db: round(att.total_db, 6),
         rain_height_km: round(att.rain_height_km, 4),
         specific_rain_attenuation_db_km: round(att.specific_rain_attenuation_db_km, 6),
-        mean_radiating_temperature_k: round(tmr, 3),
-        sky_temperature_k: round(tsky, 3),
-        warnings: att.warnings.messages().map(String::from).collect(),
-        defaults,
-    };
-    Ok(doc)
+        mean_radiating_temperature_k: round(at.mean_radiating_temperature_k, 3),
+        sky_temperature_k: round(at.sky_temperature_k, 3),
+        warnings: at.warnings.clone(),
+        defaults: at.defaults.clone(),
+    })
 }
 
 fn print_atmosphere(doc: &AtmosphereDoc, out: &mut dyn Write) -> Result<()> {

@@ -4,7 +4,7 @@ use crate::cli::common::{note, warn, Format};
 use crate::cli::table::{Align, Table};
 use crate::cli::window::parse_time_flag;
 use anyhow::{anyhow, bail, Result};
-use passbudget::config::limits::MIN_ELEVATION_DEG;
+use passbudget::config::limits::{FREQUENCY_MHZ, MIN_ELEVATION_DEG, TRACK_STEP_S};
 use passbudget::config::mission::Mission;
 use passbudget::config::station::Station;
 use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
@@ -316,16 +316,14 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
 
 /// `passbudget track`.
 pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
-    if !(a.step.is_finite() && a.step > 0.0) {
-        bail!(
-            "--step {}: the step must be a finite number of seconds above zero",
-            a.step
-        );
-    }
+    // The ranges of the one table (config::limits).
+    TRACK_STEP_S
+        .check(a.step)
+        .map_err(|e| anyhow!("--step: {e}"))?;
     if let Some(f) = a.frequency_mhz {
-        if !(f.is_finite() && f > 0.0) {
-            bail!("--frequency-mhz {f}: must be a finite number above zero");
-        }
+        FREQUENCY_MHZ
+            .check(f)
+            .map_err(|e| anyhow!("--frequency-mhz: {e}"))?;
     }
     let stations: Vec<PathBuf> = a.station.iter().cloned().collect();
     let r = resolve(&a.input, &stations)?;

@@ -307,7 +307,7 @@ fn bad_inputs_give_one_clear_line() {
         (
             "track",
             [&day[..], &["--step", "0"]].concat(),
-            &["--step", "above zero"],
+            &["--step", "0.01 to 86400 s"],
         ),
         ("track", [&day[..], &["--step", "-5"]].concat(), &["--step"]),
         (
