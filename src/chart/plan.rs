@@ -234,12 +234,12 @@ fn mask_charts(
     let points = tradeoff(masks, planner.rates(), plan.window.days(), 1);
     let scopes = (0..stations.len())
         .map(Scope::Station)
-        .chain(std::iter::once(Scope::Network));
+        .chain(std::iter::once(Scope::AllStations));
     let mut written = Vec::new();
     for scope in scopes {
         let configured = match scope {
             Scope::Station(i) => stations[i].configured_min_elevation_deg,
-            Scope::Network => stations
+            Scope::AllStations => stations
                 .iter()
                 .map(|s| s.configured_min_elevation_deg)
                 .fold(f64::INFINITY, f64::min),

@@ -93,6 +93,9 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     warn(&plan.warnings);
     if let Some(n) = a.pass {
         if !plan.passes.iter().any(|x| x.number == n) {
+            if plan.passes.is_empty() {
+                bail!("--pass {n}: the plan has no passes in this window");
+            }
             bail!("--pass {n}: the plan has passes 1 to {}", plan.passes.len());
         }
     }

@@ -365,7 +365,7 @@ fn print_tradeoff(planner: &Planner, rows: &[TradeoffRow], out: &mut dyn Write) 
     let ladder = &planner.rates().ladder;
     let scopes = (0..planner.stations().len())
         .map(passbudget::plan::Scope::Station)
-        .chain(std::iter::once(passbudget::plan::Scope::Network));
+        .chain(std::iter::once(passbudget::plan::Scope::AllStations));
     for scope in scopes {
         let scope = scope.label(planner.stations());
         writeln!(

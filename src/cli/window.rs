@@ -15,6 +15,9 @@ pub struct WindowArgs {
     /// Start of the window, RFC 3339 UTC (default: the mission's window.start).
     #[arg(long, value_name = "TIME")]
     pub start: Option<String>,
+    /// End of the window, RFC 3339 UTC (default: --days, else the mission's window.end or window.days, else 1 day).
+    #[arg(long, value_name = "TIME", conflicts_with = "days")]
+    pub end: Option<String>,
     /// Length of the window in days (default: the mission's window.end or window.days, else 1).
     #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub days: Option<f64>,
@@ -45,7 +48,7 @@ impl WindowArgs {
         Ok(PlanRequest {
             window: WindowRequest {
                 start: parse_time_flag("--start", self.start.as_deref())?,
-                end: None,
+                end: parse_time_flag("--end", self.end.as_deref())?,
                 days: self.days,
             },
             step_s: self.step,
@@ -78,8 +81,10 @@ fn name_flag(e: PlanError, r: &PlanRequest, mission: &std::path::Path) -> anyhow
             Some(f) => anyhow!("{f}: {message}"),
             None => anyhow!("{}: {key}: {message}", mission.display()),
         },
-        PlanError::Window(w) if r.window.days.is_some() || r.window.start.is_some() => {
-            anyhow!("--start/--days: {w}")
+        PlanError::Window(w)
+            if r.window.days.is_some() || r.window.start.is_some() || r.window.end.is_some() =>
+        {
+            anyhow!("--start/--end/--days: {w}")
         }
         PlanError::Window(w) => anyhow!("{}: {w}", mission.display()),
         _ => anyhow::Error::new(e),

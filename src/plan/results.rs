@@ -213,8 +213,9 @@ pub struct UsableMask {
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Scope {
     Station(usize),
-    /// All stations together (the sum; overlapping passes counted at each station).
-    Network,
+    /// All stations together: the sum over stations, a second seen by two stations counted at
+    /// each (unlike [`NetworkTotal`], which counts each second once).
+    AllStations,
 }
 
 impl Scope {
@@ -222,7 +223,7 @@ impl Scope {
     pub fn label(&self, stations: &[StationModel]) -> String {
         match self {
             Scope::Station(i) => stations[*i].station.name.clone(),
-            Scope::Network => NETWORK_LABEL.to_string(),
+            Scope::AllStations => NETWORK_LABEL.to_string(),
         }
     }
 }

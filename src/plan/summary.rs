@@ -141,7 +141,7 @@ pub fn tradeoff(
         .iter()
         .enumerate()
         .map(|(i, m)| (Scope::Station(i), m))
-        .chain(std::iter::once((Scope::Network, &all)));
+        .chain(std::iter::once((Scope::AllStations, &all)));
     let mut rows = Vec::new();
     for (scope, acc) in scopes {
         for mask in (0..=MAX_MASK_DEG).step_by(step_deg.max(1)) {

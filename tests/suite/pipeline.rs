@@ -144,6 +144,51 @@ fn one_scintillation_antenna_for_atmosphere_and_budget() {
     );
     assert!(b > 0.1, "scintillation {b} dB at 5 deg");
     assert!((a - b).abs() < 1e-4, "atmosphere {a} dB, budget {b} dB");
+    // And `plan`: a step of the rain case carries the same atmosphere as `budget --at` its time.
+    let out = dir.path().join("out");
+    let o = run(&[
+        "plan",
+        &m,
+        "--days",
+        "1",
+        "--format",
+        "json",
+        "--out",
+        &out.to_string_lossy(),
+    ]);
+    crate::common::bin::success(&o);
+    let csv = std::fs::read_dir(&out)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .find(|p| {
+            p.extension().is_some_and(|x| x == "csv") && p.to_string_lossy().contains("pass-")
+        })
+        .expect("a pass CSV");
+    let text = std::fs::read_to_string(&csv).unwrap();
+    let mut lines = text.lines();
+    let head: Vec<&str> = lines.next().unwrap().split(',').collect();
+    let rows: Vec<Vec<&str>> = lines.map(|l| l.split(',').collect()).collect();
+    let row = &rows[rows.len() / 2];
+    let col = |name: &str| head.iter().position(|h| *h == name).unwrap();
+    let at = row[col("time")];
+    let plan_loss: f64 = row[col("rain_atmospheric_loss_db")].parse().unwrap();
+    let budget = json(&run(&[
+        "budget",
+        &m,
+        "--station",
+        "Sierra Baja",
+        "--at",
+        at,
+        "--exceedance-percent",
+        "1",
+        "--format",
+        "json",
+    ]));
+    let budget_loss = budget["atmospheric_loss_db"].as_f64().unwrap();
+    assert!(
+        (plan_loss - budget_loss).abs() < 2e-4,
+        "plan {plan_loss} dB, budget {budget_loss} dB at {at}"
+    );
 }
 
 /// Rules that protect the numbers are checked by the library, not only by the command line: a
@@ -218,5 +263,24 @@ fn the_tradeoff_does_not_change_the_plan() {
         contact_0 > a.totals.contact_s,
         "{contact_0} vs {}",
         a.totals.contact_s
+    );
+}
+
+/// `plan`, `mask` and `chart` take `--end` like `passes` and `track` (one window rule, one set of
+/// window flags).
+#[test]
+fn plan_takes_an_end_time() {
+    let doc = json(&run(&[
+        "plan",
+        MISSION,
+        "--end",
+        "2026-12-02T00:00:00Z",
+        "--format",
+        "json",
+    ]));
+    assert_eq!(doc["assumptions"]["window_end"], "2026-12-02T00:00:00.000Z");
+    clean_error(
+        &run(&["plan", MISSION, "--end", "2026-11-30T00:00:00Z"]),
+        &["--end", "not after its start"],
     );
 }
