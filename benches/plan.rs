@@ -16,7 +16,7 @@ fn planner(mission: &Mission, days: f64, tradeoff: bool) -> Planner {
             days: Some(days),
             ..Default::default()
         },
-        tradeoff,
+        search_floor_deg: tradeoff.then_some(0.0),
         ..Default::default()
     };
     Planner::new(mission, &request).unwrap()

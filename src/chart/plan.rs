@@ -231,45 +231,32 @@ fn mask_charts(
 ) -> Result<Vec<PathBuf>, ChartError> {
     let stations = planner.stations();
     let ladder = &planner.rates().ladder;
-    let points = tradeoff(masks, planner.rates(), plan.window.days(), 1);
-    let scopes = (0..stations.len())
-        .map(Scope::Station)
-        .chain(std::iter::once(Scope::AllStations));
     let mut written = Vec::new();
-    for scope in scopes {
-        let configured = match scope {
+    for t in tradeoff(masks, planner.rates(), plan.window.days(), 1) {
+        let configured = match t.scope {
             Scope::Station(i) => stations[i].configured_min_elevation_deg,
             Scope::AllStations => stations
                 .iter()
                 .map(|s| s.configured_min_elevation_deg)
                 .fold(f64::INFINITY, f64::min),
         };
-        let mine: Vec<_> = points.iter().filter(|r| r.scope == scope).collect();
-        let n = ladder.len();
-        let round1 = |x: f64| crate::report::round(x, 1);
-        let series = ladder
+        let rates = t
+            .volume_bits_per_day
             .iter()
-            .enumerate()
-            .map(|(k, o)| MaskRateSeries {
-                label: format!("{:.0} Mbit/s {}", o.rate_bps / 1e6, o.scheme),
-                volume_bits_per_day: mine
-                    .iter()
-                    .skip(k)
-                    .step_by(n)
-                    .map(|r| r.volume_bits_per_day.round())
-                    .collect(),
+            .map(|o| {
+                let option = &ladder[o.option.0];
+                MaskRateSeries {
+                    label: format!("{:.0} Mbit/s {}", option.rate_bps / 1e6, option.scheme),
+                    volume_bits_per_day: o.values.clone(),
+                }
             })
             .collect();
-        let label = scope.label(stations);
+        let label = t.scope.label(stations);
         let data = MaskChartData {
             scope: label.clone(),
-            masks_deg: mine.iter().step_by(n).map(|r| r.mask_deg as f64).collect(),
-            contact_s_per_day: mine
-                .iter()
-                .step_by(n)
-                .map(|r| round1(r.contact_s_per_day))
-                .collect(),
-            rates: series,
+            masks_deg: t.masks_deg.iter().map(|&m| m as f64).collect(),
+            contact_s_per_day: t.contact_s_per_day.clone(),
+            rates,
             configured_mask_deg: configured,
         };
         let path = dir.join(mask_file_name(&label, format));
@@ -311,9 +298,9 @@ fn summary_chart(
             .iter()
             .map(|d| DayTotals {
                 date: d.date,
-                fixed_bits: d.volume_bits.round(),
-                adaptive_bits: d.adaptive_volume_bits.round(),
-                shannon_bits: d.shannon_volume_bits.round(),
+                fixed_bits: d.volume_bits,
+                adaptive_bits: d.adaptive_volume_bits,
+                shannon_bits: d.shannon_volume_bits,
             })
             .collect(),
     };

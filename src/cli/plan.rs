@@ -330,11 +330,8 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
         .tradeoff_masks
         .as_deref()
         .expect("the planner was asked for the trade-off");
-    let rows: Vec<TradeoffRow> =
-        tradeoff(masks_acc, planner.rates(), plan.window.days(), a.mask_step)
-            .iter()
-            .map(|t| TradeoffRow::new(&planner, t))
-            .collect();
+    let series = tradeoff(masks_acc, planner.rates(), plan.window.days(), a.mask_step);
+    let rows = TradeoffRow::rows(&planner, &series);
     let masks: Vec<UsableMaskRow> = usable_masks(masks_acc, planner.stations(), planner.rates())
         .iter()
         .map(|m| UsableMaskRow::new(&planner, m))
@@ -354,20 +351,21 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
         }
         Format::Csv => write!(out, "{}", to_csv(&rows)?)?,
         Format::Table => {
-            print_tradeoff(&planner, &rows, out)?;
+            print_tradeoff(&planner, &series, out)?;
             print_usable_masks(&masks, false, out)?;
         }
     }
     Ok(())
 }
 
-fn print_tradeoff(planner: &Planner, rows: &[TradeoffRow], out: &mut dyn Write) -> Result<()> {
+fn print_tradeoff(
+    planner: &Planner,
+    series: &[passbudget::plan::TradeoffSeries],
+    out: &mut dyn Write,
+) -> Result<()> {
     let ladder = &planner.rates().ladder;
-    let scopes = (0..planner.stations().len())
-        .map(passbudget::plan::Scope::Station)
-        .chain(std::iter::once(passbudget::plan::Scope::AllStations));
-    for scope in scopes {
-        let scope = scope.label(planner.stations());
+    for t in series {
+        let scope = t.scope.label(planner.stations());
         writeln!(
             out,
             "{scope}: contact and fixed-rate volume per day against the elevation mask"
@@ -376,25 +374,25 @@ fn print_tradeoff(planner: &Planner, rows: &[TradeoffRow], out: &mut dyn Write) 
             ("mask deg".into(), Align::Right),
             ("contact min/day".into(), Align::Right),
         ];
-        for o in ladder {
-            cols.push((format!("{:.0} Mb/s Gb/day", o.rate_bps / 1e6), Align::Right));
+        for o in &t.volume_bits_per_day {
+            let rate = ladder[o.option.0].rate_bps;
+            cols.push((format!("{:.0} Mb/s Gb/day", rate / 1e6), Align::Right));
         }
         let colrefs: Vec<(&str, Align)> = cols.iter().map(|(s, a)| (s.as_str(), *a)).collect();
-        let mut t = Table::new(&colrefs);
-        let mine: Vec<&TradeoffRow> = rows.iter().filter(|r| r.scope == scope).collect();
-        for chunk in mine.chunks(ladder.len()) {
+        let mut table = Table::new(&colrefs);
+        for (i, mask) in t.masks_deg.iter().enumerate() {
             let mut cells = vec![
-                format!("{:.0}", chunk[0].mask_deg),
-                format!("{:.1}", chunk[0].contact_s_per_day / 60.0),
+                mask.to_string(),
+                format!("{:.1}", round(t.contact_s_per_day[i], 1) / 60.0),
             ];
             cells.extend(
-                chunk
+                t.volume_bits_per_day
                     .iter()
-                    .map(|r| format!("{:.2}", r.volume_bits_per_day / 1e9)),
+                    .map(|o| format!("{:.2}", o.values[i].round() / 1e9)),
             );
-            t.row(cells);
+            table.row(cells);
         }
-        writeln!(out, "{}", t.render())?;
+        writeln!(out, "{}", table.render())?;
     }
     Ok(())
 }

@@ -54,7 +54,7 @@ impl WindowArgs {
             step_s: self.step,
             exceedance_percent: self.exceedance_percent,
             mask_deg: self.mask,
-            tradeoff,
+            search_floor_deg: tradeoff.then_some(0.0),
         })
     }
 

@@ -29,8 +29,10 @@ pub struct PlanRequest {
     pub exceedance_percent: Option<f64>,
     /// Minimum elevation for every station, deg (file: `planning.mask_deg`, else each station's).
     pub mask_deg: Option<f64>,
-    /// Also accumulate the mask trade-off over the passes searched from 0 deg (in the same run).
-    pub tradeoff: bool,
+    /// Also gather the mask trade-off, in the same run, over the passes searched down to this
+    /// elevation, deg (each station's horizon mask still applies; a station whose own minimum is
+    /// lower keeps it). `Some(0.0)` shows what lowering any mask to the horizon would bring.
+    pub search_floor_deg: Option<f64>,
 }
 
 /// A mission prepared for planning one window.
@@ -83,9 +85,12 @@ impl Planner {
             .iter()
             .map(|s| station_model(mission, s, mask))
             .collect::<Result<Vec<_>, _>>()?;
-        let tradeoff_masks = if request.tradeoff {
+        let tradeoff_masks = if let Some(floor_deg) = request.search_floor_deg {
+            MIN_ELEVATION_DEG
+                .check(floor_deg)
+                .map_err(|e| request_error("search_floor_deg", e.to_string()))?;
             let floors = stations.iter().map(|s| {
-                let floor = s.configured_min_elevation_deg.min(0.0);
+                let floor = s.configured_min_elevation_deg.min(floor_deg);
                 HorizonMask::new(floor, s.station.horizon_mask.clone())
             });
             Some(

@@ -231,12 +231,22 @@ impl Scope {
 /// The one spelling of the all-stations scope in outputs.
 pub const NETWORK_LABEL: &str = "all stations";
 
-/// One point of the mask trade-off.
+/// The mask trade-off of one scope: for each mask elevation, the contact time and, per ladder
+/// option, the fixed-rate volume per day above it.
 #[derive(Debug, Clone, PartialEq)]
-pub struct TradeoffPoint {
+pub struct TradeoffSeries {
     pub scope: Scope,
-    pub mask_deg: usize,
-    pub contact_s_per_day: f64,
+    /// Mask elevations, whole degrees, rising.
+    pub masks_deg: Vec<usize>,
+    /// Contact time per day above each mask, s.
+    pub contact_s_per_day: Vec<f64>,
+    /// Per ladder option (in ladder order), the volume per day above each mask, bits.
+    pub volume_bits_per_day: Vec<OptionSeries>,
+}
+
+/// One ladder option's values along the masks of a [`TradeoffSeries`].
+#[derive(Debug, Clone, PartialEq)]
+pub struct OptionSeries {
     pub option: OptionId,
-    pub volume_bits_per_day: f64,
+    pub values: Vec<f64>,
 }

@@ -5,8 +5,8 @@ use super::mask::{MaskAccumulator, MAX_MASK_DEG};
 use super::prepare::{RateSet, StationModel};
 use super::rate::OptionId;
 use super::results::{
-    DayTotals, ModeResult, NetworkTotal, PassPlan, RainTotals, Scope, Totals, TradeoffPoint,
-    UsableMask,
+    DayTotals, ModeResult, NetworkTotal, OptionSeries, PassPlan, RainTotals, Scope, Totals,
+    TradeoffSeries, UsableMask,
 };
 use super::window::Window;
 use chrono::NaiveDate;
@@ -132,7 +132,7 @@ pub fn tradeoff(
     rates: &RateSet,
     days: f64,
     step_deg: usize,
-) -> Vec<TradeoffPoint> {
+) -> Vec<TradeoffSeries> {
     let mut all = MaskAccumulator::new(rates.ladder.len());
     for m in masks {
         all.merge(m);
@@ -142,19 +142,24 @@ pub fn tradeoff(
         .enumerate()
         .map(|(i, m)| (Scope::Station(i), m))
         .chain(std::iter::once((Scope::AllStations, &all)));
-    let mut rows = Vec::new();
-    for (scope, acc) in scopes {
-        for mask in (0..=MAX_MASK_DEG).step_by(step_deg.max(1)) {
-            for k in 0..rates.ladder.len() {
-                rows.push(TradeoffPoint {
-                    scope,
-                    mask_deg: mask,
-                    contact_s_per_day: acc.contact_above_s(mask) / days,
+    let masks_deg: Vec<usize> = (0..=MAX_MASK_DEG).step_by(step_deg.max(1)).collect();
+    scopes
+        .map(|(scope, acc)| TradeoffSeries {
+            scope,
+            contact_s_per_day: masks_deg
+                .iter()
+                .map(|&m| acc.contact_above_s(m) / days)
+                .collect(),
+            volume_bits_per_day: (0..rates.ladder.len())
+                .map(|k| OptionSeries {
                     option: OptionId(k),
-                    volume_bits_per_day: acc.volume_above_bits(k, mask) / days,
-                });
-            }
-        }
-    }
-    rows
+                    values: masks_deg
+                        .iter()
+                        .map(|&m| acc.volume_above_bits(k, m) / days)
+                        .collect(),
+                })
+                .collect(),
+            masks_deg: masks_deg.clone(),
+        })
+        .collect()
 }

@@ -10,7 +10,7 @@ use crate::plan::rate::RateOption;
 use crate::plan::results::ratio;
 use crate::plan::series::Step;
 use crate::plan::{
-    DayTotals, ModeResult, PassPlan, PassSeries, Plan, Planner, Totals, TradeoffPoint, UsableMask,
+    DayTotals, ModeResult, PassPlan, PassSeries, Plan, Planner, Totals, TradeoffSeries, UsableMask,
 };
 use crate::report::round;
 use crate::timefmt::{add_seconds, format_ms};
@@ -221,16 +221,26 @@ pub struct TradeoffRow {
 }
 
 impl TradeoffRow {
-    pub fn new(planner: &Planner, t: &TradeoffPoint) -> Self {
-        let o = &planner.rates().ladder[t.option.0];
-        TradeoffRow {
-            scope: t.scope.label(planner.stations()),
-            mask_deg: t.mask_deg as f64,
-            contact_s_per_day: round(t.contact_s_per_day, 1),
-            rate_bps: o.rate_bps,
-            scheme: o.scheme.clone(),
-            volume_bits_per_day: t.volume_bits_per_day.round(),
+    /// The rows of a trade-off, scope by scope, mask by mask, option by option.
+    pub fn rows(planner: &Planner, series: &[TradeoffSeries]) -> Vec<TradeoffRow> {
+        let mut rows = Vec::new();
+        for t in series {
+            let scope = t.scope.label(planner.stations());
+            for (i, &mask) in t.masks_deg.iter().enumerate() {
+                for o in &t.volume_bits_per_day {
+                    let option = &planner.rates().ladder[o.option.0];
+                    rows.push(TradeoffRow {
+                        scope: scope.clone(),
+                        mask_deg: mask as f64,
+                        contact_s_per_day: round(t.contact_s_per_day[i], 1),
+                        rate_bps: option.rate_bps,
+                        scheme: option.scheme.clone(),
+                        volume_bits_per_day: o.values[i].round(),
+                    });
+                }
+            }
         }
+        rows
     }
 }
 

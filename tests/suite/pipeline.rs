@@ -241,12 +241,12 @@ fn the_library_refuses_what_the_command_line_refuses() {
 #[test]
 fn the_tradeoff_does_not_change_the_plan() {
     let mission = Mission::load(&root().join(MISSION)).unwrap();
-    let day = |tradeoff| PlanRequest {
+    let day = |tradeoff: bool| PlanRequest {
         window: WindowRequest {
             days: Some(1.0),
             ..Default::default()
         },
-        tradeoff,
+        search_floor_deg: tradeoff.then_some(0.0),
         ..Default::default()
     };
     let plain = Planner::new(&mission, &day(false)).unwrap();
