@@ -77,6 +77,10 @@ fn name_flag(e: PlanError, r: &PlanRequest, mission: &std::path::Path) -> anyhow
         }
     };
     match &e {
+        PlanError::Range { key, source } => match flag(key) {
+            Some(f) => anyhow!("{f}: {source}"),
+            None => anyhow!("{}: {key}: {source}", mission.display()),
+        },
         PlanError::Request { key, message } => match flag(key) {
             Some(f) => anyhow!("{f}: {message}"),
             None => anyhow!("{}: {key}: {message}", mission.display()),

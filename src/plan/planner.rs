@@ -78,7 +78,10 @@ impl Planner {
         if let Some(m) = mask {
             MIN_ELEVATION_DEG
                 .check(m)
-                .map_err(|e| request_error("mask_deg", e.to_string()))?;
+                .map_err(|source| PlanError::Range {
+                    key: "mask_deg",
+                    source,
+                })?;
         }
         let stations = mission
             .stations
@@ -88,7 +91,10 @@ impl Planner {
         let tradeoff_masks = if let Some(floor_deg) = request.search_floor_deg {
             MIN_ELEVATION_DEG
                 .check(floor_deg)
-                .map_err(|e| request_error("search_floor_deg", e.to_string()))?;
+                .map_err(|source| PlanError::Range {
+                    key: "search_floor_deg",
+                    source,
+                })?;
             let floors = stations.iter().map(|s| {
                 let floor = s.configured_min_elevation_deg.min(floor_deg);
                 HorizonMask::new(floor, s.station.horizon_mask.clone())
@@ -107,7 +113,10 @@ impl Planner {
         if let Some(p) = exceedance_percent {
             EXCEEDANCE_PERCENT
                 .check(p)
-                .map_err(|e| request_error("exceedance_percent", e.to_string()))?;
+                .map_err(|source| PlanError::Range {
+                    key: "exceedance_percent",
+                    source,
+                })?;
         }
         let rain = availability_weather(exceedance_percent, &stations)?;
         let frequency_hz = stations[0].link.frequency_hz();
@@ -129,9 +138,10 @@ impl Planner {
     /// The step must be within [`STEP_S`] and at most half the dwell (for a dwell of 2 s or more),
     /// or the dwell rule and the closing edges are miscounted.
     fn check_step(step_s: f64, rates: &RateSet) -> Result<f64, PlanError> {
-        STEP_S
-            .check(step_s)
-            .map_err(|e| request_error("step_s", e.to_string()))?;
+        STEP_S.check(step_s).map_err(|source| PlanError::Range {
+            key: "step_s",
+            source,
+        })?;
         if rates.min_dwell_s >= 2.0 && step_s > rates.min_dwell_s / 2.0 {
             return Err(request_error(
                 "step_s",

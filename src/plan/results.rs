@@ -92,6 +92,13 @@ pub enum PlanError {
     /// A request value out of its range or against another rule.
     #[error("{key}: {message}")]
     Request { key: &'static str, message: String },
+    /// A request value out of its range in [`crate::config::limits`].
+    #[error("{key}: {source}")]
+    Range {
+        key: &'static str,
+        #[source]
+        source: crate::config::limits::RangeError,
+    },
     #[error("{mission}: the mission lists no stations (stations: [station files])")]
     NoStations { mission: String },
     #[error("pass {number} at {station}: {source}")]
