@@ -22,5 +22,6 @@ mod passes_min_range;
 mod passes_search;
 mod pipeline;
 mod plan_checks;
+mod plan_properties;
 mod plan_worked_pass;
 mod readme;
