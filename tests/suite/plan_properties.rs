@@ -175,7 +175,7 @@ fn snapshot(dir: &Path) -> BTreeMap<String, Option<Vec<u8>>> {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(24))]
+    #![proptest_config(ProptestConfig::with_cases(96))]
 
     /// Random valid missions plan without panic, every number finite, fixed <= adaptive <= Shannon.
     #[test]
@@ -194,7 +194,7 @@ proptest! {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(8))]
+    #![proptest_config(ProptestConfig::with_cases(16))]
 
     /// `plan --out` completes the folder or, on failure, leaves it as it was.
     #[test]
