@@ -45,21 +45,39 @@ pub const SHIPPED_FILES: [(&str, &str); 7] = [
     ),
 ];
 
-/// A folder (one per process, under the system's temporary folder) holding a copy of the shipped
-/// example's stations and elements ([`SHIPPED_FILES`]), written on first use. `None` when it
-/// cannot be written.
+/// A folder under the system's temporary folder holding a copy of the shipped example's stations
+/// and elements ([`SHIPPED_FILES`]), written on first use in a process. Its name carries a hash of
+/// the contents, so every process of one build shares one folder, and each file is written under a
+/// temporary name and renamed into place, so a process never reads a half-written file. `None`
+/// when it cannot be written.
 pub fn fixture_dir() -> Option<&'static Path> {
     static DIR: OnceLock<Option<PathBuf>> = OnceLock::new();
     DIR.get_or_init(|| {
-        let dir = std::env::temp_dir().join(format!("passbudget-fuzz-{}", std::process::id()));
+        let name = format!("passbudget-fuzz-fixture-{:016x}", contents_hash());
+        let dir = std::env::temp_dir().join(name);
         for (name, text) in SHIPPED_FILES {
             let path = dir.join(name);
+            if std::fs::read_to_string(&path).is_ok_and(|t| t == text) {
+                continue;
+            }
             std::fs::create_dir_all(path.parent()?).ok()?;
-            std::fs::write(&path, text).ok()?;
+            let part = path.with_extension(format!("part-{}", std::process::id()));
+            std::fs::write(&part, text).ok()?;
+            std::fs::rename(&part, &path).ok()?;
         }
         Some(dir)
     })
     .as_deref()
+}
+
+/// FNV-1a (64 bit) over the names and contents of [`SHIPPED_FILES`].
+fn contents_hash() -> u64 {
+    let bytes = SHIPPED_FILES
+        .iter()
+        .flat_map(|(n, t)| n.bytes().chain(t.bytes()));
+    bytes.fold(0xcbf2_9ce4_8422_2325, |h, b| {
+        (h ^ u64::from(b)).wrapping_mul(0x0000_0100_0000_01b3)
+    })
 }
 
 /// Where the fuzzed mission text claims to live: `examples/fuzz-mission.yaml` in the fixture

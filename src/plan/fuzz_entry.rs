@@ -103,10 +103,11 @@ fn mission_from_parts(text: &str) -> Option<(Mission, Written)> {
     mission.stations.truncate(MAX_STATIONS);
     let mut written = Written(None);
     if let Some(elements) = elements {
-        // One file per call: replay tests call this from several threads at once.
+        // One file per call: replay tests call this from several threads at once, and processes
+        // share the fixture folder.
         static CALLS: AtomicU64 = AtomicU64::new(0);
         let n = CALLS.fetch_add(1, Ordering::Relaxed);
-        let path = dir.join(format!("fuzz-elements-{n}.txt"));
+        let path = dir.join(format!("fuzz-elements-{}-{n}.txt", std::process::id()));
         written.0 = Some(path.clone());
         std::fs::write(&path, elements).ok()?;
         mission.elements_path = path;
