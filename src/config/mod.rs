@@ -8,6 +8,7 @@
 //! [`limits`], defaults in [`defaults`]; the YAML crate is used in [`parse_yaml`] only.
 
 pub mod defaults;
+pub mod fuzz_entry;
 pub mod limits;
 pub mod locate;
 pub mod mission;

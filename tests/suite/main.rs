@@ -24,6 +24,7 @@ mod passes_min_range;
 mod passes_search;
 mod pipeline;
 mod plan_checks;
+mod plan_properties;
 mod plan_worked_pass;
 mod readme;
 mod sun_position;

@@ -1,0 +1,9 @@
+//! Fuzz target `mission`: the body is the library's fuzz entry point
+//! `passbudget::config::fuzz_entry::mission`, which `tests/suite/fuzz_replay.rs` also runs on the corpus.
+#![no_main]
+
+use libfuzzer_sys::fuzz_target;
+
+fuzz_target!(|data: &[u8]| {
+    passbudget::config::fuzz_entry::mission(data);
+});
