@@ -125,7 +125,7 @@ fn short_request(mission: &Mission, tradeoff: bool) -> Option<PlanRequest> {
             days: Some(window.days().min(MAX_DAYS)),
         },
         step_s: Some(mission.step_s.max(MIN_STEP_S)),
-        tradeoff,
+        search_floor_deg: tradeoff.then_some(0.0),
         ..Default::default()
     })
 }
