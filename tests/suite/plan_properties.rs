@@ -203,7 +203,11 @@ proptest! {
         let path = write_mission(dir.path(), &s, &m);
         let out = dir.path().join("out");
         std::fs::create_dir(&out).unwrap();
-        std::fs::write(out.join("summary.json"), b"{\"older\": true}").unwrap();
+        // An earlier result set in the folder (a shorter plan at 1 s steps), and a user's file.
+        let earlier = command()
+            .arg("plan").arg(&path).args(["--days", "0.1", "--step", "1", "--out"]).arg(&out)
+            .output().unwrap();
+        prop_assert!(earlier.status.success(), "{}", String::from_utf8_lossy(&earlier.stderr));
         std::fs::write(out.join("notes.txt"), b"the user's own file").unwrap();
         let before = snapshot(&out);
         let o = command().arg("plan").arg(&path).arg("--out").arg(&out).output().unwrap();
@@ -226,8 +230,9 @@ proptest! {
         prop_assert_eq!(&after["notes.txt"], &before["notes.txt"]);
         let pass_csvs = after.keys().filter(|n| n.starts_with("pass-") && n.ends_with(".csv")).count();
         prop_assert_eq!(pass_csvs, passes);
-        // Nothing else: no staging folder or backup left behind.
-        prop_assert_eq!(after.len(), 5 + passes, "{:?}", after.keys().collect::<Vec<_>>());
+        // Nothing else: the manifest, and no staging folder, journal or file of the earlier set left behind.
+        prop_assert!(after.contains_key(".passbudget-manifest"));
+        prop_assert_eq!(after.len(), 6 + passes, "{:?}", after.keys().collect::<Vec<_>>());
         let doc: serde_json::Value = serde_json::from_slice(after["summary.json"].as_ref().unwrap()).unwrap();
         prop_assert_eq!(doc["passes"].as_array().map(Vec::len), Some(passes));
     }
