@@ -66,7 +66,7 @@ pub struct AtmosphereArgs {
     #[arg(
         long,
         value_name = "T",
-        default_value_t = 45.0,
+        default_value_t = passbudget::config::defaults::POLARIZATION_TILT_DEG.value,
         allow_hyphen_values = true
     )]
     pub polarization_tilt_deg: f64,

@@ -68,7 +68,7 @@ pub struct TrackArgs {
     #[arg(
         long,
         value_name = "SECONDS",
-        default_value_t = 10.0,
+        default_value_t = passbudget::config::defaults::TRACK_STEP_S.value,
         allow_hyphen_values = true
     )]
     pub step: f64,
