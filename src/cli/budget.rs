@@ -91,6 +91,14 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
     };
     let b = instant_budget(&mission, &req).map_err(|e| match e {
         InstantError::Elevation(v) => anyhow!("--elevation-deg {v}: out of range (0 to 90 deg)"),
+        InstantError::Range { source }
+            if source.key == passbudget::config::limits::RATE_BPS.key =>
+        {
+            anyhow!("--rate-bps: {source}")
+        }
+        InstantError::Prepare(passbudget::plan::prepare::PrepareError::Range { source }) => {
+            anyhow!("--exceedance-percent: {source}")
+        }
         e => anyhow::Error::new(e),
     })?;
     let doc = BudgetDoc::new(&b);
@@ -224,6 +232,9 @@ fn atmosphere_doc(a: &AtmosphereArgs) -> Result<AtmosphereDoc> {
     let at = atmosphere_at(&st, &req).map_err(|e| match e {
         AtmosphereAtError::Range { source } => {
             anyhow!("--{}: {source}", source.key.replace('_', "-"))
+        }
+        AtmosphereAtError::Prepare(passbudget::plan::prepare::PrepareError::Range { source }) => {
+            anyhow!("--exceedance-percent: {source}")
         }
         e => anyhow::Error::new(e),
     })?;

@@ -1,6 +1,6 @@
 //! `passbudget chart`: the charts of a plan, without its CSV files.
 
-use crate::cli::common::warn;
+use crate::cli::common::{note, warn};
 use crate::cli::output::{
     check_names, check_size, commit, in_out_folder, progress_bar, stage, RunSink,
 };
@@ -91,6 +91,7 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     drop(sink);
     let plan = run.map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;
     warn(&plan.warnings);
+    note(&plan.notes);
     if let Some(n) = a.pass {
         if !plan.passes.iter().any(|x| x.number == n) {
             if plan.passes.is_empty() {

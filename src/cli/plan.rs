@@ -1,6 +1,6 @@
 //! `passbudget plan` and `passbudget mask`.
 
-use crate::cli::common::{warn, Format};
+use crate::cli::common::{note, warn, Format};
 use crate::cli::output::{
     check_names, check_size, commit, in_out_folder, progress_bar, stage, RunSink,
 };
@@ -89,6 +89,7 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     };
     let plan = run.map_err(|e| in_out(e.into()))?;
     warn(&plan.warnings);
+    note(&plan.notes);
     let doc = PlanDoc::new(&planner, &plan);
     if let (Some(dir), Some(st)) = (&dir, staging.as_ref()) {
         write_files(&planner, &plan, &doc, &charts, dir, a.charts)
@@ -326,6 +327,7 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
     let planner = a.window.planner(true)?;
     let plan = planner.collect()?;
     warn(&plan.warnings);
+    note(&plan.notes);
     let masks_acc = plan
         .tradeoff_masks
         .as_deref()

@@ -73,6 +73,12 @@ pub enum InstantError {
     Slant(#[from] crate::geometry::slant::SlantError),
     #[error("{0}")]
     Rate(String),
+    /// A value out of its range in [`crate::config::limits`].
+    #[error("{}: {source}", .source.key)]
+    Range {
+        #[source]
+        source: crate::config::limits::RangeError,
+    },
     #[error(transparent)]
     Series(#[from] SeriesError),
     #[error(transparent)]
@@ -275,6 +281,10 @@ fn rate_spec(
     req: &InstantRequest,
 ) -> Result<RateSpec, InstantError> {
     let rate_bps = req.rate_bps.unwrap_or(rates.ladder[0].rate_bps);
+    // The one range of a data rate (config::limits), as for the ladder in the file.
+    let rate_bps = crate::config::limits::RATE_BPS
+        .check(rate_bps)
+        .map_err(|source| InstantError::Range { source })?;
     if let (None, Some(i)) = (
         &req.scheme,
         rates.ladder.iter().position(|o| o.rate_bps == rate_bps),

@@ -315,7 +315,11 @@ impl Planner {
         let days = summary::days(&passes, &self.window, self.rain.is_some());
         let usable_masks = summary::usable_masks(&station_masks, &self.stations, &self.rates);
         let warnings = self.warnings(&passes, &stopped, stop.as_ref());
+        let notes = selection_note(&self.elements, &self.selection)
+            .into_iter()
+            .collect();
         Plan {
+            notes,
             passes,
             stopped,
             propagations_search,
@@ -356,7 +360,6 @@ impl Planner {
             );
         }
         out.extend(self.rates.warnings.iter().cloned());
-        out.extend(selection_note(&self.elements, &self.selection));
         out.extend(element_age_warning(
             &self.elements,
             self.window.start(),

@@ -139,6 +139,8 @@ pub struct Plan {
     pub usable_masks: Vec<UsableMask>,
     /// Every warning of the plan: models out of range, element age, stopped searches, thresholds.
     pub warnings: Vec<String>,
+    /// What the planner chose that is not a problem (the element set taken from a history).
+    pub notes: Vec<String>,
     /// The availability (rain) case was planned.
     pub rain_planned: bool,
     pub window: Window,

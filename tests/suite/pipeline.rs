@@ -232,8 +232,24 @@ fn the_library_refuses_what_the_command_line_refuses() {
             "--exceedance-percent",
             "20",
         ]),
-        &["exceedance_percent", "0.001 to 5"],
+        &["--exceedance-percent", "0.001 to 5"],
     );
+    // A data rate on the command line has the range of the ladder's rate_bps in the file.
+    for rate in ["1e-300", "0.5"] {
+        clean_error(
+            &run(&[
+                "budget",
+                MISSION,
+                "--station",
+                "Nordkam",
+                "--elevation-deg",
+                "30",
+                "--rate-bps",
+                rate,
+            ]),
+            &["--rate-bps", "1 to 100000000000 bit/s"],
+        );
+    }
 }
 
 /// The mask trade-off is gathered in the same run as the plan: asking for it changes none of the
