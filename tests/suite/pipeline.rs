@@ -220,35 +220,25 @@ fn the_library_refuses_what_the_command_line_refuses() {
         &run(&["plan", MISSION, "--exceedance-percent", "20"]),
         &["--exceedance-percent", "5"],
     );
-    // The same range for the budget at one instant (it once allowed up to 50 %).
-    clean_error(
-        &run(&[
+    // The budget at one instant takes the same ranges: the exceedance (it once allowed up to
+    // 50 %) and a data rate (the range of the ladder's rate_bps in the file).
+    let budget_cases: [(&str, &str, &str); 3] = [
+        ("--exceedance-percent", "20", "0.001 to 5"),
+        ("--rate-bps", "1e-300", "1 to 100000000000 bit/s"),
+        ("--rate-bps", "0.5", "1 to 100000000000 bit/s"),
+    ];
+    for (flag, value, range) in budget_cases {
+        let args = [
             "budget",
             MISSION,
             "--station",
             "Nordkam",
             "--elevation-deg",
             "10",
-            "--exceedance-percent",
-            "20",
-        ]),
-        &["--exceedance-percent", "0.001 to 5"],
-    );
-    // A data rate on the command line has the range of the ladder's rate_bps in the file.
-    for rate in ["1e-300", "0.5"] {
-        clean_error(
-            &run(&[
-                "budget",
-                MISSION,
-                "--station",
-                "Nordkam",
-                "--elevation-deg",
-                "30",
-                "--rate-bps",
-                rate,
-            ]),
-            &["--rate-bps", "1 to 100000000000 bit/s"],
-        );
+            flag,
+            value,
+        ];
+        clean_error(&run(&args), &[flag, range]);
     }
 }
 
