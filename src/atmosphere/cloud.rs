@@ -1,7 +1,9 @@
 //! Cloud attenuation: ITU-R P.840-9 (08/2023).
 //!
-//! Slant-path attenuation `A = L·K_L(f)/sin θ` dB (5° ≤ θ ≤ 90°), with L the columnar
-//! liquid water content (kg/m²) and the mass absorption coefficient
+//! Slant-path attenuation `A = L·K_L(f)/sin θ` dB (5° ≤ θ ≤ 90°; Annex 1 §3.1), with L the
+//! integrated cloud liquid water content (kg/m², the quantity of the P.840-9 maps; not the
+//! "reduced" liquid water content of the P.840-7/-8 maps, which goes with Kl at 0 °C) and the
+//! mass absorption coefficient
 //!
 //! ```text
 //! K_L(f) = Kl(f, 273.75 K) · [ A1 exp(−(f − f1)²/σ1) + A2 exp(−(f − f2)²/σ2) + A3 ]

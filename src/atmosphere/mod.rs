@@ -54,8 +54,14 @@ pub struct AtmosphereSite {
     pub rain_rate_001_mm_h: f64,
     /// Rain height hR, km AMSL; `None` → P.839-2 latitude rule (warning `rain_height_defaulted`).
     pub rain_height_km: Option<f64>,
-    /// Columnar cloud liquid water L, kg/m²; `None` → no cloud attenuation (warning `cloud_not_given`).
-    pub cloud_liquid_kg_m2: Option<f64>,
+    /// Integrated cloud liquid water content L of ITU-R P.840-9 (Annex 1 §3.1; not the reduced
+    /// liquid water of P.840-7/-8), kg/m², for the clear-sky budget: a median or typical value;
+    /// `None` → no cloud loss in clear sky (warning `cloud_clear_not_given`).
+    pub cloud_liquid_clear_kg_m2: Option<f64>,
+    /// L of P.840-9 exceeded for the availability exceedance p % (for p < 1 %, the 1 % value, as
+    /// P.618-14 §2.5 takes A_C(p) = A_C(1 %)), kg/m², for [`Weather::Exceedance`]; `None` → no
+    /// cloud loss in that case (warning `cloud_exceedance_not_given`).
+    pub cloud_liquid_exceedance_kg_m2: Option<f64>,
     /// Wet term of the surface refractivity Nwet (N-units); `None` → computed from T and ρ (P.453-14).
     pub wet_refractivity: Option<f64>,
 }
@@ -107,7 +113,7 @@ pub const FREQUENCY_MAX_GHZ: f64 = 1000.0;
 pub struct Attenuation {
     /// Oxygen + water vapour (P.676-12).
     pub gas_db: f64,
-    /// Cloud liquid water (P.840-9); 0 when the site gives no cloud liquid.
+    /// Cloud liquid water (P.840-9), from the L of this weather case; 0 when the site gives none.
     pub cloud_db: f64,
     /// Rain exceeded for p % (P.618-14); 0 in clear sky and for p > 5 %.
     pub rain_db: f64,
@@ -152,12 +158,14 @@ pub struct ModelWarnings {
     pub rain_height_defaulted: bool,
     /// Rain height at or below the station: rain attenuation is 0 (P.618-14 step 2).
     pub rain_height_at_or_below_station: bool,
-    /// No cloud liquid water given: cloud attenuation taken as 0.
-    pub cloud_not_given: bool,
+    /// Clear sky evaluated without a clear-sky L: cloud attenuation taken as 0.
+    pub cloud_clear_not_given: bool,
+    /// Exceedance case evaluated without an L at the exceedance: cloud attenuation taken as 0.
+    pub cloud_exceedance_not_given: bool,
 }
 
 impl ModelWarnings {
-    fn table(&self) -> [(bool, &'static str); 13] {
+    fn table(&self) -> [(bool, &'static str); 14] {
         [
             (self.frequency_outside_gas_range, "gas (ITU-R P.676-12 Annex 2): frequency outside the 1-350 GHz range of the slant-path method"),
             (self.frequency_outside_rain_range, "rain (ITU-R P.618-14 §2.2.1.1): frequency outside the 1-55 GHz range of the method"),
@@ -171,7 +179,8 @@ impl ModelWarnings {
             (self.scintillation_exceedance_below_0_01_percent, "scintillation (ITU-R P.618-14 eq (48)): stated for 0.01 < p <= 50 %, extrapolated below 0.01 %"),
             (self.rain_height_defaulted, "rain height (ITU-R P.839-2 latitude rule): no station value given, approximate rule used"),
             (self.rain_height_at_or_below_station, "rain (ITU-R P.618-14 step 2): rain height at or below the station, rain attenuation is 0"),
-            (self.cloud_not_given, "cloud (ITU-R P.840-9): no cloud liquid water given, cloud attenuation taken as 0"),
+            (self.cloud_clear_not_given, "cloud (ITU-R P.840-9), clear sky: no clear-sky cloud liquid water L given (cloud_liquid_clear_kg_m2), cloud attenuation taken as 0"),
+            (self.cloud_exceedance_not_given, "cloud (ITU-R P.840-9), availability case: no cloud liquid water L at the exceedance given (cloud_liquid_exceedance_kg_m2), cloud attenuation taken as 0"),
         ]
     }
 
@@ -212,7 +221,9 @@ impl ModelWarnings {
             rain_height_defaulted: self.rain_height_defaulted | other.rain_height_defaulted,
             rain_height_at_or_below_station: self.rain_height_at_or_below_station
                 | other.rain_height_at_or_below_station,
-            cloud_not_given: self.cloud_not_given | other.cloud_not_given,
+            cloud_clear_not_given: self.cloud_clear_not_given | other.cloud_clear_not_given,
+            cloud_exceedance_not_given: self.cloud_exceedance_not_given
+                | other.cloud_exceedance_not_given,
         }
     }
 }
@@ -241,7 +252,7 @@ pub enum AtmosphereError {
     RainRate { rain_rate_mm_h: f64 },
     #[error("rain height {rain_height_km} km must be within 0..20 km")]
     RainHeight { rain_height_km: f64 },
-    #[error("cloud liquid water {cloud_liquid_kg_m2} kg/m2 must be zero or positive")]
+    #[error("cloud liquid water L {cloud_liquid_kg_m2} kg/m2 must be zero or positive")]
     CloudLiquid { cloud_liquid_kg_m2: f64 },
     #[error("wet refractivity {wet_refractivity} N-units must be zero or positive")]
     WetRefractivity { wet_refractivity: f64 },
@@ -279,8 +290,10 @@ pub struct PreparedAtmosphere {
     rain: RainCoefficients,
     rain_rate_001_mm_h: f64,
     rain_height_km: f64,
-    /// L·K_L, dB (zenith cloud attenuation).
-    cloud_zenith_db: f64,
+    /// L·K_L, dB (zenith cloud attenuation) in clear sky; `None` without a clear-sky L.
+    cloud_zenith_clear_db: Option<f64>,
+    /// L·K_L, dB, in the exceedance case; `None` without an L at the exceedance.
+    cloud_zenith_exceedance_db: Option<f64>,
     /// σref·f^(7/12), dB (P.618-14 eq (47) without g(x) and the elevation term).
     scint_scale_db: f64,
     /// 1.22·Deff²·f, m (numerator of x, eq (46)).
@@ -351,7 +364,13 @@ fn validate_optional_site_values(site: &AtmosphereSite) -> Result<(), Atmosphere
             AtmosphereError::RainHeight { rain_height_km: h },
         )?;
     }
-    if let Some(l) = site.cloud_liquid_kg_m2 {
+    for l in [
+        site.cloud_liquid_clear_kg_m2,
+        site.cloud_liquid_exceedance_kg_m2,
+    ]
+    .into_iter()
+    .flatten()
+    {
         check(
             l.is_finite() && l >= 0.0,
             AtmosphereError::CloudLiquid {
@@ -425,16 +444,10 @@ fn site_rain_height_km(site: &AtmosphereSite, w: &mut ModelWarnings) -> f64 {
     rain_height_km
 }
 
-/// Zenith cloud attenuation L·K_L, dB (P.840-9); 0 and flagged when no L is given.
-fn site_cloud_zenith_db(site: &AtmosphereSite, f: f64, w: &mut ModelWarnings) -> f64 {
+/// Zenith cloud attenuation L·K_L, dB (P.840-9 Annex 1 §3.1), of one L; `None` without one.
+fn cloud_zenith_db(l_kg_m2: Option<f64>, f: f64) -> Option<f64> {
     // Cloud: A = L K_L / sin θ (P.840-9).
-    match site.cloud_liquid_kg_m2 {
-        Some(l) => l * cloud::mass_absorption_coefficient_p840_9(f),
-        None => {
-            w.cloud_not_given = true;
-            0.0
-        }
-    }
+    l_kg_m2.map(|l| l * cloud::mass_absorption_coefficient_p840_9(f))
 }
 
 /// Elevation clamped into 0-90° (flagged when it was outside or not a number).
@@ -486,7 +499,6 @@ impl PreparedAtmosphere {
         let (h_o, h_w) = gas::equivalent_heights_p676_12(f, p_dry, rho, site.temperature_k);
 
         let rain_height_km = site_rain_height_km(site, &mut w);
-        let cloud_zenith_db = site_cloud_zenith_db(site, f, &mut w);
 
         // Scintillation: σref from Nwet (eq (42)), Deff (eq (44)).
         let nwet = site
@@ -508,7 +520,8 @@ impl PreparedAtmosphere {
             rain: RainCoefficients::p838_3(f),
             rain_rate_001_mm_h: site.rain_rate_001_mm_h,
             rain_height_km,
-            cloud_zenith_db,
+            cloud_zenith_clear_db: cloud_zenith_db(site.cloud_liquid_clear_kg_m2, f),
+            cloud_zenith_exceedance_db: cloud_zenith_db(site.cloud_liquid_exceedance_kg_m2, f),
             scint_scale_db: scintillation::sigma_ref_db(nwet) * f.powf(7.0 / 12.0),
             scint_x_numerator_m: 1.22 * deff_m * deff_m * f,
             static_warnings: w,
@@ -570,7 +583,18 @@ impl PreparedAtmosphere {
 
         let sin_el = el.to_radians().sin();
         let gas_db = self.gas_db(el, sin_el, low);
-        let cloud_db = self.cloud_db(sin_el, low, &mut w);
+        // Each weather case has its own L (clear: a typical value; exceedance: L at p %).
+        let cloud_zenith_db = match weather {
+            Weather::ClearSky => {
+                w.cloud_clear_not_given = self.cloud_zenith_clear_db.is_none();
+                self.cloud_zenith_clear_db
+            }
+            Weather::Exceedance { .. } => {
+                w.cloud_exceedance_not_given = self.cloud_zenith_exceedance_db.is_none();
+                self.cloud_zenith_exceedance_db
+            }
+        };
+        let cloud_db = Self::cloud_db(cloud_zenith_db.unwrap_or(0.0), sin_el, low, &mut w);
 
         let percent = match weather {
             Weather::ClearSky => {
@@ -626,16 +650,17 @@ impl PreparedAtmosphere {
         }
     }
 
-    /// Cloud attenuation at sin θ = `sin_el`, dB; below 5° (`low`) evaluated at 5° and flagged.
+    /// Cloud attenuation of zenith value `zenith_db` at sin θ = `sin_el`, dB; below 5° (`low`)
+    /// evaluated at 5° and flagged.
     #[inline]
-    fn cloud_db(&self, sin_el: f64, low: bool, w: &mut ModelWarnings) -> f64 {
+    fn cloud_db(zenith_db: f64, sin_el: f64, low: bool, w: &mut ModelWarnings) -> f64 {
         // Cloud: A = L K_L / sin θ, θ ≥ 5° (P.840-9).
         let sin_5 = 5f64.to_radians().sin();
-        if self.cloud_zenith_db > 0.0 && low {
+        if zenith_db > 0.0 && low {
             w.cloud_elevation_clamped_to_5_deg = true;
-            self.cloud_zenith_db / sin_5
-        } else if self.cloud_zenith_db > 0.0 {
-            self.cloud_zenith_db / sin_el
+            zenith_db / sin_5
+        } else if zenith_db > 0.0 {
+            zenith_db / sin_el
         } else {
             0.0
         }

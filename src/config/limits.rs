@@ -457,9 +457,17 @@ pub const RAIN_HEIGHT_KM: Range = Range {
     unit: "km",
 };
 
-/// Columnar cloud liquid water, kg/m2.
-pub const CLOUD_LIQUID_KG_M2: Range = Range {
-    key: "climate.cloud_liquid_kg_m2",
+/// Integrated cloud liquid water content L (ITU-R P.840-9) for the clear-sky budget, kg/m2.
+pub const CLOUD_LIQUID_CLEAR_KG_M2: Range = Range {
+    key: "climate.cloud_liquid_clear_kg_m2",
+    min: 0.0,
+    max: 10.0,
+    unit: "kg/m2",
+};
+
+/// Integrated cloud liquid water content L (ITU-R P.840-9) at the availability exceedance, kg/m2.
+pub const CLOUD_LIQUID_EXCEEDANCE_KG_M2: Range = Range {
+    key: "climate.cloud_liquid_exceedance_kg_m2",
     min: 0.0,
     max: 10.0,
     unit: "kg/m2",
@@ -558,7 +566,8 @@ pub const ALL: &[Range] = &[
     WATER_VAPOUR_DENSITY_G_M3,
     RAIN_RATE_001_MM_H,
     RAIN_HEIGHT_KM,
-    CLOUD_LIQUID_KG_M2,
+    CLOUD_LIQUID_CLEAR_KG_M2,
+    CLOUD_LIQUID_EXCEEDANCE_KG_M2,
     WET_REFRACTIVITY,
 ];
 

@@ -74,7 +74,10 @@ struct ClimateFile {
     water_vapour_density_g_m3: Option<f64>,
     rain_rate_001_mm_h: Option<f64>,
     rain_height_km: Option<f64>,
-    cloud_liquid_kg_m2: Option<f64>,
+    /// Retired (one L for both weather cases): accepted by the parser only to name its successors.
+    cloud_liquid_kg_m2: Option<serde::de::IgnoredAny>,
+    cloud_liquid_clear_kg_m2: Option<f64>,
+    cloud_liquid_exceedance_kg_m2: Option<f64>,
     wet_refractivity: Option<f64>,
 }
 
@@ -121,7 +124,10 @@ pub struct Climate {
     pub water_vapour_density_g_m3: f64,
     pub rain_rate_001_mm_h: Option<f64>,
     pub rain_height_km: Option<f64>,
-    pub cloud_liquid_kg_m2: Option<f64>,
+    /// Integrated cloud liquid water content L (ITU-R P.840-9) for the clear-sky budget, kg/m2.
+    pub cloud_liquid_clear_kg_m2: Option<f64>,
+    /// L (ITU-R P.840-9) exceeded for the availability exceedance, kg/m2.
+    pub cloud_liquid_exceedance_kg_m2: Option<f64>,
     pub wet_refractivity: Option<f64>,
 }
 
@@ -325,6 +331,13 @@ fn receiver(c: &mut Checker, r: &ReceiverFile) -> Result<Receiver, ConfigError> 
 /// The climate block (absent: every key from its default or unset).
 fn climate(c: &mut Checker, f: &ClimateFile) -> Result<Climate, ConfigError> {
     use limits as l;
+    if f.cloud_liquid_kg_m2.is_some() {
+        return Err(c.err(
+            "climate.cloud_liquid_kg_m2",
+            "replaced by climate.cloud_liquid_clear_kg_m2 (clear sky: a median or typical L) and \
+             climate.cloud_liquid_exceedance_kg_m2 (availability case: L at the exceedance)",
+        ));
+    }
     Ok(Climate {
         pressure_hpa: c.or_default(&l::PRESSURE_HPA, f.pressure_hpa, &dflt::PRESSURE_HPA)?,
         temperature_k: c.or_default(&l::TEMPERATURE_K, f.temperature_k, &dflt::TEMPERATURE_K)?,
@@ -335,7 +348,12 @@ fn climate(c: &mut Checker, f: &ClimateFile) -> Result<Climate, ConfigError> {
         )?,
         rain_rate_001_mm_h: c.optional(&l::RAIN_RATE_001_MM_H, f.rain_rate_001_mm_h)?,
         rain_height_km: c.optional(&l::RAIN_HEIGHT_KM, f.rain_height_km)?,
-        cloud_liquid_kg_m2: c.optional(&l::CLOUD_LIQUID_KG_M2, f.cloud_liquid_kg_m2)?,
+        cloud_liquid_clear_kg_m2: c
+            .optional(&l::CLOUD_LIQUID_CLEAR_KG_M2, f.cloud_liquid_clear_kg_m2)?,
+        cloud_liquid_exceedance_kg_m2: c.optional(
+            &l::CLOUD_LIQUID_EXCEEDANCE_KG_M2,
+            f.cloud_liquid_exceedance_kg_m2,
+        )?,
         wet_refractivity: c.optional(&l::WET_REFRACTIVITY, f.wet_refractivity)?,
     })
 }

@@ -305,7 +305,8 @@ pub fn atmosphere_site(st: &Station) -> AtmosphereSite {
         water_vapour_density_g_m3: c.water_vapour_density_g_m3,
         rain_rate_001_mm_h: c.rain_rate_001_mm_h.unwrap_or(0.0),
         rain_height_km: c.rain_height_km,
-        cloud_liquid_kg_m2: c.cloud_liquid_kg_m2,
+        cloud_liquid_clear_kg_m2: c.cloud_liquid_clear_kg_m2,
+        cloud_liquid_exceedance_kg_m2: c.cloud_liquid_exceedance_kg_m2,
         wet_refractivity: c.wet_refractivity,
     }
 }

@@ -443,9 +443,9 @@ impl Assumptions {
         let exceedance_percent = planner.exceedance_percent();
         Assumptions {
             adaptive: "at each step the highest-rate option (ladder rates and adaptive schemes) whose run of at least min_dwell_s covers the step",
-            availability_case: exceedance_percent.map(|x| format!("rain attenuation exceeded {x} % of an average year applied to every pass (P.618-14); planning figure for {:.3} % availability", 100.0 - x)),
+            availability_case: exceedance_percent.map(|x| format!("rain attenuation exceeded {x} % of an average year applied to every pass (P.618-14), with the cloud liquid water of climate.cloud_liquid_exceedance_kg_m2; planning figure for {:.3} % availability", 100.0 - x)),
             caution: CAUTION,
-            clear_sky: "gases (ITU-R P.676-12) and clouds (ITU-R P.840-9); no rain, no scintillation fade",
+            clear_sky: "gases (ITU-R P.676-12) and clouds (ITU-R P.840-9) of climate.cloud_liquid_clear_kg_m2; no rain, no scintillation fade",
             defaults,
             element_epoch: format_ms(&planner.elements().epoch),
             exceedance_percent,

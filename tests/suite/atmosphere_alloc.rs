@@ -14,7 +14,8 @@ fn at_allocates_nothing() {
         water_vapour_density_g_m3: 18.0,
         rain_rate_001_mm_h: 90.0,
         rain_height_km: None,
-        cloud_liquid_kg_m2: Some(1.1),
+        cloud_liquid_clear_kg_m2: Some(0.2),
+        cloud_liquid_exceedance_kg_m2: Some(1.1),
         wet_refractivity: None,
     };
     let path = PathSpec {

@@ -51,7 +51,7 @@ fn meaningless_inputs_are_errors_carrying_the_value() {
     ));
     assert!(matches!(
         bad(AtmosphereSite {
-            cloud_liquid_kg_m2: Some(f64::INFINITY),
+            cloud_liquid_exceedance_kg_m2: Some(f64::INFINITY),
             ..site()
         }),
         AtmosphereError::CloudLiquid { .. }
@@ -119,17 +119,56 @@ fn exceedance_follows_p618_14_section_2_5() {
 fn defaulted_inputs_raise_flags() {
     let s = AtmosphereSite {
         rain_height_km: None,
-        cloud_liquid_kg_m2: None,
+        cloud_liquid_clear_kg_m2: None,
+        cloud_liquid_exceedance_kg_m2: None,
         ..site()
     };
     let prep = PreparedAtmosphere::new(&s, &path(8.2)).unwrap();
     let a = prep.at(40.0, Weather::exceedance(0.01).unwrap());
-    assert!(a.warnings.rain_height_defaulted && a.warnings.cloud_not_given);
+    assert!(a.warnings.rain_height_defaulted && a.warnings.cloud_exceedance_not_given);
+    assert!(!a.warnings.cloud_clear_not_given);
     assert_eq!(a.rain_height_km, rain_height::rain_height_p839_2_km(47.3));
     assert_eq!(a.cloud_db, 0.0);
     let msgs: Vec<&str> = a.warnings.messages().collect();
     assert!(msgs.iter().any(|m| m.contains("P.839-2")));
-    assert!(msgs.iter().any(|m| m.contains("P.840-9")));
+    assert!(msgs
+        .iter()
+        .any(|m| m.contains("P.840-9") && m.contains("cloud_liquid_exceedance_kg_m2")));
+    // Clear sky names its own missing key, and only that one.
+    let c = prep.at(40.0, Weather::ClearSky);
+    assert!(c.warnings.cloud_clear_not_given && !c.warnings.cloud_exceedance_not_given);
+    assert!(c
+        .warnings
+        .messages()
+        .any(|m| m.contains("cloud_liquid_clear_kg_m2")));
+}
+
+/// Each weather case takes its own cloud liquid water L (ITU-R P.840-9 Annex 1 §3.1,
+/// A = L K_L / sin θ): an L given only for the availability case leaves clear sky without cloud
+/// loss, and the reverse. Before, one L served both cases, so a 1 %-exceedance value also loaded
+/// the clear-sky budget.
+#[test]
+fn clear_sky_and_exceedance_take_their_own_cloud_liquid() {
+    let only_exceedance = AtmosphereSite {
+        cloud_liquid_clear_kg_m2: None,
+        cloud_liquid_exceedance_kg_m2: Some(1.15),
+        ..site()
+    };
+    let prep = PreparedAtmosphere::new(&only_exceedance, &path(8.2)).unwrap();
+    let w = Weather::exceedance(1.0).unwrap();
+    assert_eq!(prep.at(10.0, Weather::ClearSky).cloud_db, 0.0);
+    let k_l = passbudget::atmosphere::cloud::mass_absorption_coefficient_p840_9(8.2);
+    let want = 1.15 * k_l / 10f64.to_radians().sin();
+    assert!((prep.at(10.0, w).cloud_db - want).abs() < 1e-12);
+    let only_clear = AtmosphereSite {
+        cloud_liquid_clear_kg_m2: Some(0.1),
+        cloud_liquid_exceedance_kg_m2: None,
+        ..site()
+    };
+    let prep = PreparedAtmosphere::new(&only_clear, &path(8.2)).unwrap();
+    assert_eq!(prep.at(10.0, w).cloud_db, 0.0);
+    let want = 0.1 * k_l / 10f64.to_radians().sin();
+    assert!((prep.at(10.0, Weather::ClearSky).cloud_db - want).abs() < 1e-12);
 }
 
 #[test]
@@ -244,7 +283,8 @@ fn arb_site() -> impl Strategy<Value = AtmosphereSite> {
             water_vapour_density_g_m3: rho,
             rain_rate_001_mm_h: r,
             rain_height_km: Some(hr),
-            cloud_liquid_kg_m2: Some(l),
+            cloud_liquid_clear_kg_m2: Some(l / 4.0),
+            cloud_liquid_exceedance_kg_m2: Some(l),
             wet_refractivity: None,
         })
 }
@@ -340,4 +380,37 @@ fn the_five_degree_switch_is_one_rule() {
     assert!(low.warnings.elevation_below_5_deg);
     assert!(passbudget::atmosphere::low_elevation_form(4.998));
     assert!(!passbudget::atmosphere::low_elevation_form(4.9995));
+}
+
+/// Audit reproducer (issue 10): scintillation at 5 deg, 8.15 GHz, p = 1 %, a 3.7 m dish
+/// (aperture efficiency 0.6) at a humid site (T = 296 K, rho = 14 g/m3). The audit's
+/// general-purpose ITU-R library gave 2.2553 dB; the old single-term Nwet gave 2.1625 dB.
+/// Worked by hand with ITU-R P.618-14 §2.4.1 and P.453-14 eq. (4): e = rho T / 216.7 =
+/// 19.12321 hPa (eq. (10)); Nwet = 72 e/T + 3.75e5 e/T^2 = 4.65159 + 81.84811 = 86.49971
+/// N-units; sigma_ref = 3.6e-3 + 1e-4 Nwet = 0.0122500 dB (eq (42)); L = 2 hL / (sqrt(sin^2 5 +
+/// 2.35e-4) + sin 5) = 11 386.3 m (eq (43), hL = 1000 m); Deff = sqrt(0.6) 3.7 = 2.86601 m
+/// (eq (44)); x = 1.22 Deff^2 f / L = 0.0071728 (eq (46)); g(x) = 0.965605 (eq (45));
+/// sigma = sigma_ref f^(7/12) g(x) / sin^1.2 5 = 0.751775 dB (eq (47)); a(1 %) = 3.0 (eq (48));
+/// A_S = a sigma = 2.255325 dB.
+#[test]
+fn scintillation_of_the_audit_case() {
+    let humid = AtmosphereSite {
+        temperature_k: 296.0,
+        water_vapour_density_g_m3: 14.0,
+        wet_refractivity: None,
+        ..site()
+    };
+    let p = PathSpec {
+        antenna_diameter_m: 3.7,
+        antenna_efficiency: 0.6,
+        ..path(8.15)
+    };
+    let a = PreparedAtmosphere::new(&humid, &p)
+        .unwrap()
+        .at(5.0, Weather::exceedance(1.0).unwrap());
+    assert!(
+        (a.scintillation_db - 2.255325).abs() < 5e-6,
+        "{}",
+        a.scintillation_db
+    );
 }

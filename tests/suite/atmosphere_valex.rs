@@ -31,7 +31,8 @@ fn site() -> AtmosphereSite {
         water_vapour_density_g_m3: 7.5,
         rain_rate_001_mm_h: 0.0,
         rain_height_km: Some(3.0),
-        cloud_liquid_kg_m2: None,
+        cloud_liquid_clear_kg_m2: None,
+        cloud_liquid_exceedance_kg_m2: None,
         wet_refractivity: None,
     }
 }
@@ -268,7 +269,7 @@ fn p840_9_matches_valex() {
     ];
     for (l, el, f, a) in pairs {
         let s = AtmosphereSite {
-            cloud_liquid_kg_m2: Some(l),
+            cloud_liquid_clear_kg_m2: Some(l),
             ..site()
         };
         let prep = PreparedAtmosphere::new(&s, &path(f)).unwrap();

@@ -214,3 +214,128 @@ fn budget_bad_input() {
         clean_error(&run(&args), needles);
     }
 }
+
+/// The shipped example with Sierra Baja's station file replaced by `station` (written to `dir`);
+/// returns the mission's path.
+fn example_with_sierra_baja(dir: &std::path::Path, station: &str) -> String {
+    let st = crate::common::bin::write(dir, "station.yaml", station);
+    let text = std::fs::read_to_string(root().join(EXAMPLE)).unwrap();
+    let text = text
+        .replace(
+            "sat.tle",
+            &root().join("examples/sat.tle").to_string_lossy(),
+        )
+        .replace("../stations/sierra-baja.yaml", &st)
+        .replace("../stations/", &format!("{}/stations/", root().display()));
+    crate::common::bin::write(dir, "mission.yaml", &text)
+}
+
+/// Audit reproducer (issue 10): one cloud liquid water L served both weather cases, so an L
+/// exceeded 1 % of the year (1.15 kg/m2) loaded the clear-sky budget too (at 5 deg, 8.34 dB of
+/// margin against 10.29 dB without it in the audit's case). Each case now has its own key: an L
+/// given only for the availability case leaves the clear-sky cloud loss at 0, and the availability
+/// case carries A = L K_L(f) / sin(5 deg) (ITU-R P.840-9 Annex 1 §3.1).
+#[test]
+fn clear_sky_budget_does_not_carry_the_exceedance_cloud() {
+    let dir = tempfile::tempdir().unwrap();
+    let shipped = std::fs::read_to_string(root().join("stations/sierra-baja.yaml")).unwrap();
+    let without_cloud: String = shipped
+        .lines()
+        .filter(|l| !l.trim_start().starts_with("cloud_liquid_"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let with = |extra: &str, name: &str| {
+        let d = dir.path().join(name);
+        std::fs::create_dir(&d).unwrap();
+        example_with_sierra_baja(&d, &format!("{without_cloud}{extra}"))
+    };
+    let exceedance_only = with("  cloud_liquid_exceedance_kg_m2: 1.15\n", "exceedance");
+    let none = with("", "none");
+    let both = with(
+        "  cloud_liquid_clear_kg_m2: 1.15\n  cloud_liquid_exceedance_kg_m2: 1.15\n",
+        "both",
+    );
+    let sb = "Sierra Baja";
+    let json_of = |m: &str, more: &[&str]| {
+        let mut args = vec!["--format", "json"];
+        args.extend(more);
+        json(&budget(m, sb, "5", &args))
+    };
+    let num = |v: &serde_json::Value, k: &str| v[k].as_f64().unwrap();
+    let clear = json_of(&exceedance_only, &[]);
+    assert_eq!(num(&clear, "cloud_db"), 0.0);
+    // The clear-sky margin is the one of a station without any cloud.
+    let bare = json_of(&none, &[]);
+    assert_eq!(num(&clear, "margin_db"), num(&bare, "margin_db"));
+    // The availability case carries the cloud loss of its own L (rounded to 1e-4 dB in JSON).
+    let f_ghz = 8.2125;
+    let k_l = passbudget::atmosphere::cloud::mass_absorption_coefficient_p840_9(f_ghz);
+    let want = 1.15 * k_l / 5f64.to_radians().sin();
+    let wet = json_of(&exceedance_only, &["--exceedance-percent", "1"]);
+    assert!((num(&wet, "cloud_db") - want).abs() < 1e-4, "{wet}");
+    assert!(want > 0.7, "{want}");
+    // What was fixed: the same L in clear sky costs well over a dB of margin at 5 deg.
+    let loaded = json_of(&both, &[]);
+    assert!(num(&bare, "margin_db") - num(&loaded, "margin_db") > 1.0);
+    // Each case names what it lacks.
+    let warnings = |v: &serde_json::Value| v["warnings"].to_string();
+    assert!(warnings(&clear).contains("cloud_liquid_clear_kg_m2"));
+    assert!(!warnings(&wet).contains("cloud_liquid_exceedance_kg_m2"));
+    let wet_bare = json_of(&none, &["--exceedance-percent", "1"]);
+    assert!(warnings(&wet_bare).contains("cloud_liquid_exceedance_kg_m2"));
+}
+
+/// The retired single key is refused in one line naming its file, line and both successors.
+#[test]
+fn the_retired_cloud_key_names_its_successors() {
+    let dir = tempfile::tempdir().unwrap();
+    let shipped = std::fs::read_to_string(root().join("stations/sierra-baja.yaml")).unwrap();
+    let old: String = shipped
+        .lines()
+        .filter(|l| !l.trim_start().starts_with("cloud_liquid_exceedance"))
+        .map(|l| {
+            if l.trim_start().starts_with("cloud_liquid_clear_kg_m2") {
+                "  cloud_liquid_kg_m2: 0.4\n".to_string()
+            } else {
+                format!("{l}\n")
+            }
+        })
+        .collect();
+    let line = old
+        .lines()
+        .position(|l| l.contains("cloud_liquid_kg_m2"))
+        .unwrap()
+        + 1;
+    let m = example_with_sierra_baja(dir.path(), &old);
+    clean_error(
+        &budget(&m, "Sierra Baja", "20", &[]),
+        &[
+            &format!("station.yaml:{line}: climate.cloud_liquid_kg_m2"),
+            "climate.cloud_liquid_clear_kg_m2",
+            "climate.cloud_liquid_exceedance_kg_m2",
+        ],
+    );
+}
+
+/// Audit reproducer (issue 10): `atmosphere --elevation-deg 4.9999999` gave 2.861 dB of rain
+/// against 2.926 dB at 5 deg (ITU-R P.618-14 eq (2) against eq (1) picked by rounding); the one
+/// rule of `atmosphere::elevation` makes both the same on the command line too.
+#[test]
+fn atmosphere_has_no_step_just_below_five_degrees() {
+    for st in ["stations/pulau-reka.yaml", "stations/sierra-baja.yaml"] {
+        let p = ["--exceedance-percent", "0.01"];
+        let a = atmosphere_json(st, "8.2", "4.9999999", &p);
+        let b = atmosphere_json(st, "8.2", "5", &p);
+        for k in [
+            "rain_db",
+            "gas_db",
+            "cloud_db",
+            "scintillation_db",
+            "total_db",
+        ] {
+            let (x, y) = (a[k].as_f64().unwrap(), b[k].as_f64().unwrap());
+            assert!((x - y).abs() <= 1e-4, "{st} {k}: {x} vs {y}");
+        }
+        assert!(b["rain_db"].as_f64().unwrap() > 1.0);
+    }
+}

@@ -62,7 +62,8 @@ pub fn atmosphere_site() -> AtmosphereSite {
         water_vapour_density_g_m3: 8.1,
         rain_rate_001_mm_h: 32.0,
         rain_height_km: Some(3.1),
-        cloud_liquid_kg_m2: Some(0.4),
+        cloud_liquid_clear_kg_m2: Some(0.4),
+        cloud_liquid_exceedance_kg_m2: Some(0.4),
         wet_refractivity: None,
     }
 }
