@@ -10,13 +10,14 @@
 //!   Rs       = Rb / eta (eta = information bits per symbol);  B_occ = Rs (1 + roll-off)
 //!   Eb/N0    = C/N0 - 10 log10(Rb);  Es/N0 = C/N0 - 10 log10(Rs)
 //!   margin   = Eb/N0 - required Eb/N0 - implementation loss
-//!   Shannon  = B_occ log2(1 + C/(N0 B_occ))
+//!   Shannon  = B_occ log2(1 + C/(N0 B_occ));  gap = required Eb/N0 - (2^eta_B - 1)/eta_B in dB,
+//!              eta_B = Rb / B_occ (one bandwidth for every Shannon figure, see `link::capacity`)
 //! k = Boltzmann constant (exact, SI 2019, `crate::units`).
 
 use crate::link::antenna::{
     AntennaError, GroundAntenna, GroundAntennaSpec, Transmitter, TransmitterSpec,
 };
-use crate::link::capacity::shannon_capacity_unchecked;
+use crate::link::capacity::{shannon_capacity_unchecked, shannon_limit_unchecked};
 use crate::link::modcod::OperatingPoint;
 use crate::link::path::{free_space_loss_constant_db, PathError};
 use crate::link::polarization::{
@@ -200,7 +201,9 @@ pub struct BudgetValues {
     pub esn0_db: f64,
     pub required_ebn0_db: f64,
     pub margin_db: f64,
+    /// Shannon capacity over the occupied bandwidth B = Rs (1 + roll-off), bit/s.
     pub shannon_capacity_bps: f64,
+    /// Required Eb/N0 minus the Shannon limit at eta = Rb / B (the same B), dB.
     pub shannon_gap_db: f64,
     /// The spacecraft pattern table was clamped at one of its ends.
     pub pattern_clamped: bool,
@@ -369,7 +372,7 @@ impl LinkModel {
             required_ebn0_db: op.required_ebn0_db,
             margin_db: r.margin_db,
             shannon_capacity_bps: r.shannon_capacity_bps,
-            shannon_gap_db: op.shannon_gap_db,
+            shannon_gap_db: r.shannon_gap_db,
             pattern_clamped: tx_gain.clamped,
             galactic_extrapolated: self.sky_range == SkyRange::GalacticExtrapolated,
             below_horizon: elevation_deg < 0.0,
@@ -539,6 +542,7 @@ struct RateFigures {
     esn0_db: f64,
     margin_db: f64,
     shannon_capacity_bps: f64,
+    shannon_gap_db: f64,
 }
 
 /// The margin over a scheme's threshold, dB: Eb/N0 - required Eb/N0 - implementation loss. The
@@ -579,9 +583,13 @@ fn rate_figures(cn0_dbhz: f64, rate: &RateSpec) -> RateFigures {
         rate.operating.required_ebn0_db,
         rate.implementation_loss_db,
     );
+    // Every Shannon figure uses one bandwidth, B = Rs (1 + alpha) (crate::link::capacity):
     // C = B log2(1 + C/(N0 B))
     let snr = db_to_ratio(cn0_dbhz) / occupied_bandwidth_hz;
     let shannon_capacity_bps = shannon_capacity_unchecked(occupied_bandwidth_hz, snr);
+    // gap = required Eb/N0 - 10 log10((2^eta - 1)/eta), eta = Rb / B
+    let shannon_gap_db = rate.operating.required_ebn0_db
+        - shannon_limit_unchecked(rate.rate_bps / occupied_bandwidth_hz);
     RateFigures {
         symbol_rate_baud,
         occupied_bandwidth_hz,
@@ -589,6 +597,7 @@ fn rate_figures(cn0_dbhz: f64, rate: &RateSpec) -> RateFigures {
         esn0_db,
         margin_db,
         shannon_capacity_bps,
+        shannon_gap_db,
     }
 }
 
@@ -636,7 +645,7 @@ fn path_items(v: &BudgetValues, geometry: &BudgetGeometry) -> [BudgetItem; 7] {
 }
 
 /// Budget lines of the rate: C/N0, rates, bandwidth, Eb/N0, Es/N0, requirement, margin, Shannon.
-fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 12] {
+fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 13] {
     let op = &rate.operating;
     [
         item("cn0", v.cn0_dbhz, "dBHz", "EIRP - losses + G/T - k"),
@@ -670,16 +679,22 @@ fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 12] {
             "Eb/N0 - required - implementation loss",
         ),
         item(
+            "spectral_efficiency",
+            v.rate_bps / v.occupied_bandwidth_hz,
+            "bit/s/Hz",
+            "eta = Rb / B, B = occupied bandwidth",
+        ),
+        item(
             "shannon_capacity",
             v.shannon_capacity_bps,
             "bit/s",
-            "Shannon 1948, B = occupied bandwidth",
+            "Shannon 1948: B log2(1 + C/(N0 B)), B = occupied bandwidth",
         ),
         item(
             "shannon_gap",
             v.shannon_gap_db,
             "dB",
-            "required Eb/N0 - (2^eta - 1)/eta",
+            "required Eb/N0 - (2^eta - 1)/eta, eta = Rb / B",
         ),
     ]
 }

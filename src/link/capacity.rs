@@ -5,6 +5,15 @@
 //! Tech. J. 27 (1948) (C = B log2(1 + S/N)); the BI-AWGN mutual information is the
 //! standard integral, e.g. Richardson & Urbanke, *Modern Coding Theory* (2008), ch. 4.
 //! All functions are valid for any positive finite input; other inputs are errors.
+//!
+//! **One bandwidth for every Shannon figure.** The project's convention: B is the bandwidth the
+//! signal occupies, B = Rs (1 + roll-off) for one rate (for the plan's bound over a pass, the
+//! band the modem may fill: `modem.max_bandwidth_hz`, else the widest option's occupied
+//! bandwidth). The capacity is C = B log2(1 + C/(N0 B)), the spectral efficiency is
+//! eta = Rb / B (bit/s/Hz), and the Shannon gap of a rate is its required Eb/N0 minus
+//! (2^eta - 1)/eta at that eta. A rate R therefore sits exactly its gap (in Eb/N0) from the
+//! capacity line: at Eb/N0 = (2^eta - 1)/eta the capacity over B equals R. With roll-off 0,
+//! B = Rs and eta is the scheme's information bits per symbol.
 
 use crate::units::ratio_to_db;
 
@@ -41,8 +50,8 @@ pub(crate) fn shannon_capacity_unchecked(bandwidth_hz: f64, snr: f64) -> f64 {
     bandwidth_hz * snr.ln_1p() / std::f64::consts::LN_2
 }
 
-/// Shannon-limit Eb/N0 (dB) for spectral efficiency `eta` (information bits per
-/// channel use, i.e. per symbol of bandwidth Rs): Eb/N0 >= (2^eta - 1) / eta.
+/// Shannon-limit Eb/N0 (dB) for spectral efficiency `eta` = R / B (bit/s per Hz of the
+/// bandwidth B of the capacity, see the module note): Eb/N0 >= (2^eta - 1) / eta.
 /// Tends to ln 2 = -1.59 dB as eta -> 0.
 pub fn shannon_limit_ebn0_db(eta: f64) -> Result<f64, CapacityError> {
     if !(eta > 0.0 && eta.is_finite()) {
@@ -57,7 +66,7 @@ pub(crate) fn shannon_limit_unchecked(eta: f64) -> f64 {
     ratio_to_db((eta * std::f64::consts::LN_2).exp_m1() / eta)
 }
 
-/// Gap (dB) of a scheme needing `required_ebn0_db` at spectral efficiency `eta`
+/// Gap (dB) of a scheme needing `required_ebn0_db` at spectral efficiency `eta` = R / B
 /// to the Shannon limit at the same efficiency: required - (2^eta - 1)/eta in dB.
 pub fn shannon_gap_db(required_ebn0_db: f64, eta: f64) -> Result<f64, CapacityError> {
     Ok(required_ebn0_db - shannon_limit_ebn0_db(eta)?)

@@ -154,7 +154,9 @@ pub struct OperatingPoint {
     pub measure: ErrorMeasure,
     pub target_match: TargetMatch,
     pub provenance: Provenance,
-    /// required Eb/N0 minus the Shannon limit (2^eta - 1)/eta at this efficiency, dB.
+    /// Required Eb/N0 minus the Shannon limit (2^eta - 1)/eta at eta = bits per symbol, dB: the
+    /// gap of the scheme alone, i.e. with B = Rs (roll-off 0). A rate's gap in the budget uses
+    /// its occupied bandwidth Rs (1 + roll-off) (`link::capacity`, one bandwidth convention).
     pub shannon_gap_db: f64,
 }
 

@@ -358,3 +358,49 @@ fn evaluate_allocates_nothing() {
     assert!(acc.is_finite());
     assert_eq!(after - before, 0, "evaluate allocated");
 }
+
+/// One bandwidth for every Shannon figure (README "Conventions"): B = Rs (1 + roll-off) in the
+/// capacity C = B log2(1 + C/(N0 B)) and in the gap's efficiency eta = Rb / B, with the Shannon
+/// limit Eb/N0 >= (2^eta - 1)/eta (C. E. Shannon, "A Mathematical Theory of Communication",
+/// Bell Syst. Tech. J. 27, 1948; "Communication in the Presence of Noise", Proc. IRE 37, 1949).
+/// Values worked by hand for 1 Mbit/s of ccsds-cc-r1/2 (1 information bit per symbol, required
+/// Eb/N0 4.4 dB at BER 1e-5, the scheme table) with roll-off 0.35: Rs = 1 Mbaud, B = 1.35 MHz,
+/// eta = 1/1.35 = 0.7407407 bit/s/Hz; 2^eta = 1.6710336; (2^eta - 1)/eta = 0.6710336 x 1.35 =
+/// 0.9058954 = -0.4292197 dB; gap = 4.4 + 0.4292197 = 4.8292197 dB. At C/N0 = 65 dBHz:
+/// S/N = 10^6.5 / 1.35e6 = 2.3424279, log2(3.3424279) = 1.7408964, C = 2 350 210.19 bit/s.
+/// With roll-off 0 the same rate has B = Rs, eta = 1, limit (2 - 1)/1 = 0 dB, gap 4.4 dB.
+#[test]
+fn one_bandwidth_for_every_shannon_figure() {
+    use passbudget::link::capacity::{shannon_capacity_bps, shannon_limit_ebn0_db};
+    let m = LinkModel::new(&spec()).unwrap();
+    let r = m.rate_spec(1e6, op("ccsds-cc-r1/2"), 0.35, 1.5).unwrap();
+    let v = m.evaluate(GEOM, ATM, r).unwrap();
+    assert!((v.occupied_bandwidth_hz - 1.35e6).abs() < 1e-6);
+    assert!(
+        (shannon_limit_ebn0_db(1e6 / v.occupied_bandwidth_hz).unwrap() + 0.4292197).abs() < 1e-6
+    );
+    assert!(
+        (v.shannon_gap_db - 4.8292197).abs() < 1e-6,
+        "{}",
+        v.shannon_gap_db
+    );
+    let c = shannon_capacity_bps(1.35e6, 10f64.powf(6.5) / 1.35e6).unwrap();
+    assert!((c - 2_350_210.19).abs() < 0.01, "{c}");
+    // The budget's capacity is the same formula over the same B at its own C/N0.
+    let b = v.occupied_bandwidth_hz;
+    let want = shannon_capacity_bps(b, 10f64.powf(v.cn0_dbhz / 10.0) / b).unwrap();
+    assert!((v.shannon_capacity_bps - want).abs() <= 1e-9 * want);
+    // The rate sits exactly its gap from the capacity line: at Eb/N0 = required - gap, the
+    // capacity over B equals the rate (S/N = eta (2^eta - 1)/eta = 2^eta - 1).
+    let limit_ebn0 = 10f64.powf((v.required_ebn0_db - v.shannon_gap_db) / 10.0);
+    let at_limit = shannon_capacity_bps(b, v.rate_bps * limit_ebn0 / b).unwrap();
+    assert!(
+        (at_limit - v.rate_bps).abs() <= 1e-9 * v.rate_bps,
+        "{at_limit}"
+    );
+    // Roll-off 0: B = Rs and the gap is the scheme's own (eta = bits per symbol).
+    let r0 = m.rate_spec(1e6, op("ccsds-cc-r1/2"), 0.0, 1.5).unwrap();
+    let v0 = m.evaluate(GEOM, ATM, r0).unwrap();
+    assert!((v0.shannon_gap_db - 4.4).abs() < 1e-12);
+    assert_eq!(v0.shannon_gap_db, op("ccsds-cc-r1/2").shannon_gap_db);
+}
