@@ -7,6 +7,7 @@
 
 pub mod horizon;
 pub mod look;
+pub mod moon;
 pub mod passes;
 pub mod slant;
 pub mod sun;

@@ -16,6 +16,7 @@ mod hardening;
 mod link_budget;
 mod link_path_antenna;
 mod modcod_thresholds;
+mod moon_position;
 mod noise_sky_system;
 mod orbit_input;
 mod orbit_sgp4_verification;
