@@ -17,6 +17,7 @@ mod link_budget;
 mod link_path_antenna;
 mod modcod_thresholds;
 mod moon_position;
+mod noise_disk;
 mod noise_sky_system;
 mod orbit_input;
 mod orbit_sgp4_verification;
