@@ -6,6 +6,7 @@ mod common;
 mod atmosphere_alloc;
 mod atmosphere_api;
 mod atmosphere_valex;
+mod body_track;
 mod chart_render;
 mod cli_budget;
 mod cli_passes;
