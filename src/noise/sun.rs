@@ -5,7 +5,10 @@
 //!   reading carried in a textbook's companion code, not re-read from the figure here),
 //!   interpolated linearly in log T against log f. Outside 0.05-100 GHz [`quiet_sun_brightness_k`]
 //!   returns [`SunNoiseError::FrequencyOutOfRange`]. The figure is a median over the solar cycle;
-//!   the active Sun is hotter, by orders of magnitude during radio bursts.
+//!   the active Sun is hotter, by orders of magnitude during radio bursts. A measured quiet-Sun
+//!   level at 37 GHz, 8100 ± 300 K (Kallunki & Tornikoski, Solar Physics 293:156, 2018;
+//!   docs/REFERENCES.md §8), lies 30 % above the reading there (6230 K): take the figure as
+//!   good to some tens of per cent.
 //! * **Active Sun:** an observed solar flux density `S` (solar flux units, 1 sfu =
 //!   1e-22 W m^-2 Hz^-1, both polarizations) at the link frequency, turned into the brightness
 //!   temperature of a uniform disk of solid angle Ω by the Rayleigh-Jeans law
