@@ -58,7 +58,7 @@ impl<F: Fn(f64) -> f64> PowerPattern for F {
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct DiskSpec {
     /// Half-power beamwidth of the pattern, deg: sets the grid and the quadrature spacing
-    /// (the pattern must not vary on scales much finer than a fortieth of it).
+    /// (the pattern must not vary on scales much finer than a twentieth of it, the quadrature spacing).
     pub beamwidth_deg: f64,
     /// Smallest and largest disk angular radius the table covers, deg.
     pub radius_min_deg: f64,
