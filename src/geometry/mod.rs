@@ -5,8 +5,10 @@
 //! polar motion); the station is on the WGS-84 ellipsoid (NIMA TR8350.2). Angles are geometric
 //! (no refraction).
 
+pub mod body_track;
 pub mod horizon;
 pub mod look;
+pub mod moon;
 pub mod passes;
 pub mod slant;
 pub mod sun;
