@@ -7,6 +7,7 @@ use anyhow::{anyhow, bail, Result};
 use passbudget::config::limits::{FREQUENCY_MHZ, MIN_ELEVATION_DEG, TRACK_STEP_S};
 use passbudget::config::mission::Mission;
 use passbudget::config::station::Station;
+use passbudget::geometry::sun::{separation_deg, sun_az_el_deg};
 use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
 use passbudget::orbit::{ElementSet, Propagator};
 use passbudget::plan::inputs::{
@@ -362,7 +363,9 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                 if a.above_mask && look.elevation_deg < mask.limit_deg(look.azimuth_deg) {
                     continue;
                 }
-                rows.push(TrackRow::new(&t, &look, frequency_hz));
+                let (sun_az, sun_el) = sun_az_el_deg(&obs, &t);
+                let sun_sep = separation_deg(look.azimuth_deg, look.elevation_deg, sun_az, sun_el);
+                rows.push(TrackRow::new(&t, &look, frequency_hz, sun_sep));
             }
             Err(e) => {
                 warn(&[format!(
@@ -394,6 +397,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                 ("range km", Align::Right),
                 ("rate km/s", Align::Right),
                 ("Doppler Hz", Align::Right),
+                ("Sun sep deg", Align::Right),
             ]);
             for r in &rows {
                 t.row(vec![
@@ -405,6 +409,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                     r.doppler_hz
                         .map(|d| format!("{d:.0}"))
                         .unwrap_or_else(|| "-".into()),
+                    format!("{:.1}", r.sun_separation_deg),
                 ]);
             }
             write!(out, "{}", t.render())?;

@@ -21,6 +21,7 @@
 //! # Ok::<(), Box<dyn std::error::Error>>(())
 //! ```
 
+pub mod bodies;
 pub mod fuzz_entry;
 pub mod inputs;
 pub mod instant;

@@ -57,10 +57,17 @@ pub struct TrackRow {
     pub range_km: f64,
     pub range_rate_km_s: f64,
     pub doppler_hz: Option<f64>,
+    /// Angle between the satellite's direction and the Sun's centre, deg.
+    pub sun_separation_deg: f64,
 }
 
 impl TrackRow {
-    pub fn new(t: &DateTime<Utc>, look: &Look, frequency_hz: Option<f64>) -> Self {
+    pub fn new(
+        t: &DateTime<Utc>,
+        look: &Look,
+        frequency_hz: Option<f64>,
+        sun_separation_deg: f64,
+    ) -> Self {
         TrackRow {
             time: format_ms(t),
             azimuth_deg: round(look.azimuth_deg, 4),
@@ -68,6 +75,7 @@ impl TrackRow {
             range_km: round(look.range_km, 4),
             range_rate_km_s: round(look.range_rate_km_s, 6),
             doppler_hz: frequency_hz.map(|f| round(doppler_hz(look.range_rate_km_s, f), 1)),
+            sun_separation_deg: round(sun_separation_deg, 3),
         }
     }
 }

@@ -147,12 +147,49 @@ fn track_csv_and_json_with_doppler() {
     let text = success(&out);
     assert_eq!(
         text.lines().next().unwrap(),
-        "time,azimuth_deg,elevation_deg,range_km,range_rate_km_s,doppler_hz"
+        "time,azimuth_deg,elevation_deg,range_km,range_rate_km_s,doppler_hz,sun_separation_deg"
     );
     assert!(
-        text.lines().nth(1).unwrap().ends_with(','),
+        text.lines().nth(1).unwrap().contains(",,"),
         "doppler_hz empty without a frequency"
     );
+}
+
+/// The track's `sun_separation_deg` is the angle between the satellite and the Sun. Reference:
+/// the Sun's direction from astropy 8.0.2 at Sierra Baja (tests/data/geometry/sun_astropy.csv, row
+/// 2026-12-02T08:51:00Z), separated from the track's own azimuth and elevation by the spherical
+/// law of cosines; tolerance 0.01 deg (the low-precision Sun's stated accuracy, plus rounding).
+#[test]
+fn track_sun_separation_matches_an_independent_sun() {
+    let out = run(&[
+        "track",
+        "--tle",
+        "examples/sat.tle",
+        "--station",
+        "stations/sierra-baja.yaml",
+        "--start",
+        "2026-12-02T08:51:00Z",
+        "--end",
+        "2026-12-02T08:52:00Z",
+        "--step",
+        "60",
+        "--format",
+        "json",
+    ]);
+    let doc = json(&out);
+    let p = &doc["track"][0];
+    assert_eq!(p["time"].as_str().unwrap(), "2026-12-02T08:51:00.000Z");
+    let (az, el) = (
+        p["azimuth_deg"].as_f64().unwrap().to_radians(),
+        p["elevation_deg"].as_f64().unwrap().to_radians(),
+    );
+    let (saz, sel) = (135.435367f64.to_radians(), 15.231757f64.to_radians());
+    let expected = (el.sin() * sel.sin() + el.cos() * sel.cos() * (az - saz).cos())
+        .clamp(-1.0, 1.0)
+        .acos()
+        .to_degrees();
+    let got = p["sun_separation_deg"].as_f64().unwrap();
+    assert!((got - expected).abs() < 0.01, "{got} vs {expected}");
 }
 
 #[test]

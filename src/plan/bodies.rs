@@ -1,0 +1,310 @@
+//! The Sun and the Moon as noise sources at one station: where they are
+//! ([`crate::geometry::body_track`]), how bright their disks are ([`crate::noise::sun`],
+//! [`crate::noise::moon`]) and how much of them the antenna sees ([`crate::noise::disk`], through
+//! the station's noise pattern).
+//!
+//! Built once per station (the coupling tables, [`BodyNoise::new`]); per pass one track per body
+//! ([`BodyNoise::reset`], which reuses its buffers); per step an interpolation
+//! ([`BodyNoise::at`]), nothing integrated and nothing allocated.
+//!
+//! Conventions (stated in the README):
+//! * The disk is seen through the atmosphere of the pointing direction: its brightness and the
+//!   background it hides are multiplied by the step's path transmissivity 10^(-A/10), A the
+//!   absorptive attenuation of that weather case. A body adds noise only within a few beamwidths of
+//!   boresight, where the two paths differ little.
+//! * A body below the geometric horizon adds nothing: the ground in front of it is already in the
+//!   antenna table.
+//! * The quiet Sun of ITU-R P.372 Fig. 12 unless the station gives an observed flux
+//!   (`solar_flux_sfu`). Outside 0.05-100 GHz the Sun's noise is not modelled (a warning says so).
+//! * The Moon only from 1 to 100 GHz (its 140-280 K disk adds less than 0.1 K to any antenna below
+//!   1 GHz, so no warning is raised there; the plan's notes say it).
+
+use crate::geometry::body_track::{enu_from_az_el, Body, BodyTrack, TrackError};
+use crate::geometry::Observer;
+use crate::noise::disk::{DiskCoupling, DiskError, DiskSpec, PowerPattern};
+use crate::noise::moon::{self, moon_brightness_k};
+use crate::noise::sun::{self, sun_brightness_k, SunActivity};
+use crate::units::CMB_K;
+use chrono::{DateTime, Utc};
+
+/// The Sun's and the Moon's share of the antenna noise at one instant.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct BodySample {
+    /// Angle between the pointing direction and the Sun's centre, deg.
+    pub sun_separation_deg: f64,
+    /// Antenna temperature added by the Sun, K (0 below the horizon or outside the model's range).
+    pub sun_k: f64,
+    /// Angle between the pointing direction and the Moon's centre, deg.
+    pub moon_separation_deg: f64,
+    /// Antenna temperature added by the Moon, K.
+    pub moon_k: f64,
+}
+
+/// Validity notes of the bodies' models (constant over a plan).
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
+pub struct BodyWarnings {
+    /// The frequency is outside the 0.05-100 GHz of the quiet-Sun figure: no Sun noise.
+    pub sun_not_modelled: bool,
+}
+
+impl BodyWarnings {
+    pub fn union(&self, o: &BodyWarnings) -> BodyWarnings {
+        BodyWarnings {
+            sun_not_modelled: self.sun_not_modelled || o.sun_not_modelled,
+        }
+    }
+
+    /// Messages naming the model and its range.
+    pub fn messages(&self) -> impl Iterator<Item = &'static str> {
+        self.sun_not_modelled.then_some(
+            "Sun noise (ITU-R P.372 Fig. 12): frequency outside 0.05-100 GHz, the Sun's noise is not modelled",
+        ).into_iter()
+    }
+}
+
+/// One body's disk seen through the pattern.
+#[derive(Debug, Clone)]
+struct DiskTerm<P> {
+    coupling: DiskCoupling<P>,
+}
+
+/// The Sun and the Moon at one station, prepared.
+#[derive(Debug, Clone)]
+pub struct BodyNoise<P> {
+    frequency_hz: f64,
+    activity: SunActivity,
+    sun: Option<DiskTerm<P>>,
+    moon: Option<DiskTerm<P>>,
+    warnings: BodyWarnings,
+}
+
+/// The bodies' tracks over one pass and their disk brightness for it.
+#[derive(Debug, Clone)]
+pub struct PassBodies {
+    sun: BodyTrack,
+    moon: BodyTrack,
+    sun_brightness_k: f64,
+    moon_brightness_k: f64,
+}
+
+impl PassBodies {
+    /// Tracks of both bodies from `observer` over [`start`, `end`] (brightness set by
+    /// [`BodyNoise::reset`]).
+    pub fn new(
+        observer: &Observer,
+        start: &DateTime<Utc>,
+        end: &DateTime<Utc>,
+    ) -> Result<Self, TrackError> {
+        Ok(Self {
+            sun: BodyTrack::new(Body::Sun, observer, start, end)?,
+            moon: BodyTrack::new(Body::Moon, observer, start, end)?,
+            sun_brightness_k: 0.0,
+            moon_brightness_k: 0.0,
+        })
+    }
+}
+
+impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
+    /// The coupling tables of `pattern` (half-power beamwidth `beamwidth_deg`, normalized to 4 pi)
+    /// for the Sun and, from 1 GHz, the Moon; `flux_sfu` an observed solar flux at the link
+    /// frequency (quiet Sun when `None`).
+    pub fn new(
+        pattern: &P,
+        beamwidth_deg: f64,
+        frequency_hz: f64,
+        flux_sfu: Option<f64>,
+    ) -> Result<Self, DiskError> {
+        let activity = flux_sfu.map_or(SunActivity::Quiet, SunActivity::FluxSfu);
+        let (lo, hi) = sun::QUIET_SUN_RANGE_HZ;
+        let sun_in_range = flux_sfu.is_some() || (lo..=hi).contains(&frequency_hz);
+        let sun = if sun_in_range {
+            Some(DiskTerm {
+                coupling: DiskCoupling::new(pattern.clone(), DiskSpec::sun(beamwidth_deg))?,
+            })
+        } else {
+            None
+        };
+        let (mlo, mhi) = moon::FREQUENCY_RANGE_HZ;
+        let moon = if (mlo..=mhi).contains(&frequency_hz) {
+            Some(DiskTerm {
+                coupling: DiskCoupling::new(pattern.clone(), DiskSpec::moon(beamwidth_deg))?,
+            })
+        } else {
+            None
+        };
+        Ok(Self {
+            frequency_hz,
+            activity,
+            warnings: BodyWarnings {
+                sun_not_modelled: sun.is_none(),
+            },
+            sun,
+            moon,
+        })
+    }
+
+    /// Whether the Moon's noise is modelled (1-100 GHz).
+    pub fn moon_modelled(&self) -> bool {
+        self.moon.is_some()
+    }
+
+    pub fn warnings(&self) -> BodyWarnings {
+        self.warnings
+    }
+
+    /// Follow the bodies over a new pass [`start`, `end`], reusing `bodies`' buffers.
+    pub fn reset(
+        &self,
+        bodies: &mut PassBodies,
+        start: &DateTime<Utc>,
+        end: &DateTime<Utc>,
+    ) -> Result<(), TrackError> {
+        bodies.sun.reset(start, end)?;
+        bodies.moon.reset(start, end)?;
+        // The activity was checked when the station was prepared; a failure here leaves 0 K.
+        bodies.sun_brightness_k = sun_brightness_k(
+            self.activity,
+            self.frequency_hz,
+            bodies.sun.angular_radius_deg(),
+        )
+        .unwrap_or(0.0);
+        bodies.moon_brightness_k =
+            moon_brightness_k(bodies.moon.illuminated_fraction(), self.frequency_hz).unwrap_or(0.0);
+        Ok(())
+    }
+
+    /// The bodies' noise at `t` with the antenna pointed at (`azimuth_deg`, `elevation_deg`)
+    /// through a path of transmissivity `transmissivity` (10^(-A/10)). Allocates nothing.
+    #[inline]
+    pub fn at(
+        &self,
+        bodies: &PassBodies,
+        t: &DateTime<Utc>,
+        azimuth_deg: f64,
+        elevation_deg: f64,
+        transmissivity: f64,
+    ) -> BodySample {
+        let pointing = enu_from_az_el(azimuth_deg, elevation_deg);
+        let (sun_separation_deg, sun_k) = disk_noise(
+            self.sun.as_ref(),
+            &bodies.sun,
+            t,
+            &pointing,
+            bodies.sun_brightness_k,
+            transmissivity,
+        );
+        let (moon_separation_deg, moon_k) = disk_noise(
+            self.moon.as_ref(),
+            &bodies.moon,
+            t,
+            &pointing,
+            bodies.moon_brightness_k,
+            transmissivity,
+        );
+        BodySample {
+            sun_separation_deg,
+            sun_k,
+            moon_separation_deg,
+            moon_k,
+        }
+    }
+}
+
+/// Separation (deg) and added antenna temperature (K) of one body.
+#[inline]
+fn disk_noise<P: PowerPattern + Sync>(
+    term: Option<&DiskTerm<P>>,
+    track: &BodyTrack,
+    t: &DateTime<Utc>,
+    pointing: &[f64; 3],
+    brightness_k: f64,
+    transmissivity: f64,
+) -> (f64, f64) {
+    let u = track.direction_enu(t);
+    let d = ((u[0] - pointing[0]).powi(2)
+        + (u[1] - pointing[1]).powi(2)
+        + (u[2] - pointing[2]).powi(2))
+    .sqrt();
+    // 2 asin(|u - p| / 2): accurate at small angles
+    let separation_deg = (2.0 * (d / 2.0).min(1.0).asin()).to_degrees();
+    let noise_k = match term {
+        // below the geometric horizon the ground hides the body
+        Some(term) if u[2] > 0.0 => term.coupling.added_temperature_k(
+            separation_deg,
+            track.angular_radius_deg(),
+            brightness_k * transmissivity,
+            CMB_K * transmissivity,
+        ),
+        _ => 0.0,
+    };
+    (separation_deg, noise_k)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::sun::sun_az_el_deg;
+    use chrono::TimeZone;
+
+    /// A Gaussian main beam of half-power width `hpbw_deg`, normalized to 4 pi in the small-angle
+    /// limit: G0 = 2 / sigma^2 (sigma in rad).
+    fn gaussian(hpbw_deg: f64) -> impl Fn(f64) -> f64 + Clone + Sync {
+        let sigma = (hpbw_deg / (8.0 * std::f64::consts::LN_2).sqrt()).to_radians();
+        move |psi_deg: f64| {
+            let psi = psi_deg.to_radians();
+            2.0 / (sigma * sigma) * (-psi * psi / (2.0 * sigma * sigma)).exp()
+        }
+    }
+
+    #[test]
+    fn the_sun_on_boresight_fills_its_share_of_the_beam() {
+        let observer = Observer::new(38.52, -2.31, 780.0).unwrap();
+        let t = Utc.with_ymd_and_hms(2026, 12, 2, 12, 0, 0).unwrap();
+        let hpbw = 0.7;
+        let f = 8.2e9;
+        let model = BodyNoise::new(&gaussian(hpbw), hpbw, f, None).unwrap();
+        let mut bodies = PassBodies::new(&observer, &t, &t).unwrap();
+        model.reset(&mut bodies, &t, &t).unwrap();
+        let (az, el) = sun_az_el_deg(&observer, &t);
+        assert!(el > 0.0);
+        let s = model.at(&bodies, &t, az, el, 1.0);
+        assert!(s.sun_separation_deg < 1e-3, "{}", s.sun_separation_deg);
+        // A centred uniform disk of radius r in a Gaussian beam: the beam's power inside r,
+        // 1 - exp(-4 ln 2 r^2 / theta^2) (small-angle closed form), times (Tb - T_cmb).
+        let r = bodies.sun.angular_radius_deg();
+        let tb = sun::quiet_sun_brightness_k(f).unwrap();
+        let share = 1.0 - (-4.0 * std::f64::consts::LN_2 * r * r / (hpbw * hpbw)).exp();
+        let expected = share * (tb - CMB_K);
+        assert!(
+            (s.sun_k / expected - 1.0).abs() < 0.01,
+            "{} vs {expected}",
+            s.sun_k
+        );
+        // Half the path transmissivity halves it.
+        let half = model.at(&bodies, &t, az, el, 0.5);
+        assert!((half.sun_k / s.sun_k - 0.5).abs() < 1e-9);
+        // Pointing 30 deg away: the Gaussian main beam sees nothing of it.
+        let away = model.at(&bodies, &t, az, el + 30.0, 1.0);
+        assert!((away.sun_separation_deg - 30.0).abs() < 1e-3);
+        assert!(away.sun_k < 1e-6);
+    }
+
+    #[test]
+    fn a_set_sun_adds_nothing_and_out_of_range_is_flagged() {
+        let observer = Observer::new(38.52, -2.31, 780.0).unwrap();
+        let night = Utc.with_ymd_and_hms(2026, 12, 2, 0, 0, 0).unwrap();
+        let model = BodyNoise::new(&gaussian(10.0), 10.0, 2.2e9, None).unwrap();
+        let mut bodies = PassBodies::new(&observer, &night, &night).unwrap();
+        model.reset(&mut bodies, &night, &night).unwrap();
+        let (az, el) = sun_az_el_deg(&observer, &night);
+        assert!(el < 0.0);
+        assert_eq!(model.at(&bodies, &night, az, el, 1.0).sun_k, 0.0);
+        // 437.5 MHz: the Sun is modelled (0.05-100 GHz), the Moon is not (1-100 GHz).
+        let uhf = BodyNoise::new(&gaussian(30.0), 30.0, 437.5e6, None).unwrap();
+        assert!(!uhf.warnings().sun_not_modelled && !uhf.moon_modelled());
+        // 150 GHz: neither, and the Sun's absence is a warning.
+        let w = BodyNoise::new(&gaussian(0.1), 0.1, 150e9, None).unwrap();
+        assert!(w.warnings().sun_not_modelled && !w.moon_modelled());
+        assert_eq!(w.warnings().messages().count(), 1);
+    }
+}
