@@ -10,7 +10,8 @@ pub mod plan;
 mod staging;
 
 pub use staging::{
-    read_manifest, recover, CommitMode, FolderError, Recovery, Staging, JOURNAL, MANIFEST,
+    read_manifest, recover, CommitMethod, CommitMode, FolderError, Recovery, Staging, Step,
+    JOURNAL, MANIFEST,
 };
 
 pub use atomic::write_atomic;
