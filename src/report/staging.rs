@@ -275,7 +275,7 @@ impl Staging {
                 let to = inside.dir.join(&n);
                 std::fs::copy(self.dir.join(&n), &to).map_err(io_at(&to))?;
             }
-            std::fs::remove_dir_all(&self.dir).map_err(io_at(&self.dir))?;
+            remove_tree(&self.dir)?;
         }
         let mut inside = inside;
         self.dir = std::mem::take(&mut inside.dir);
@@ -293,9 +293,32 @@ impl Staging {
 impl Drop for Staging {
     fn drop(&mut self) {
         if !self.committed && !self.dir.as_os_str().is_empty() {
-            let _ = std::fs::remove_dir_all(&self.dir);
+            let _ = remove_tree(&self.dir);
         }
     }
+}
+
+/// Remove a sibling folder, its manifest last: a removal cut short by a kill leaves a folder
+/// whose manifest still tells a later run which of its entries are passbudget's.
+fn remove_tree(path: &Path) -> Result<(), FolderError> {
+    for n in list_names(path)? {
+        if n == MANIFEST {
+            continue;
+        }
+        let p = path.join(&n);
+        let is_dir = std::fs::symlink_metadata(&p).is_ok_and(|m| m.is_dir());
+        let removed = if is_dir {
+            std::fs::remove_dir_all(&p)
+        } else {
+            std::fs::remove_file(&p)
+        };
+        removed.map_err(io_at(&p))?;
+    }
+    let m = path.join(MANIFEST);
+    if m.exists() {
+        std::fs::remove_file(&m).map_err(io_at(&m))?;
+    }
+    std::fs::remove_dir(path).map_err(io_at(path))
 }
 
 /// Every destination of a staged file is absent or a plain file the manifest `old` lists.

@@ -74,7 +74,7 @@ pub(super) fn open(final_dir: &Path) -> Result<Sibling, String> {
     std::fs::create_dir(&path).map_err(|e| format!("cannot create {}: {e}", path.display()))?;
     let s = Sibling { dir, path, token };
     if let Err(e) = set_up(&s, &meta) {
-        let _ = std::fs::remove_dir_all(&s.path);
+        let _ = super::remove_tree(&s.path);
         return Err(e);
     }
     Ok(s)
@@ -166,7 +166,7 @@ pub(super) fn commit(
     if hook(Step::Restored).is_break() {
         return Err(FolderError::Stopped);
     }
-    std::fs::remove_dir_all(&s.path).map_err(io_at(&s.path))?;
+    super::remove_tree(&s.path)?;
     Ok(Outcome::Swapped)
 }
 
@@ -206,7 +206,7 @@ fn restore(previous: &Path, dir: &Path, ours: &BTreeSet<String>) -> Result<usize
     let results = read_manifest(dir)?;
     let mut moved = 0;
     for n in list_names(previous)? {
-        if n == MANIFEST || ours.contains(&n) {
+        if n == MANIFEST || ours.contains(&n) || is_temporary(&n) {
             continue;
         }
         let from = previous.join(&n);
@@ -230,6 +230,18 @@ fn restore(previous: &Path, dir: &Path, ours: &BTreeSet<String>) -> Result<usize
         sync_dir(dir)?;
     }
     Ok(moved)
+}
+
+/// A temporary file of an atomic write (`.<name>.tmp-<pid>-<n>`), left by a kill.
+pub(super) fn is_temporary(name: &str) -> bool {
+    name.starts_with('.')
+        && name.rsplit_once(".tmp-").is_some_and(|(_, t)| {
+            t.split_once('-').is_some_and(|(a, b)| {
+                !a.is_empty()
+                    && !b.is_empty()
+                    && a.chars().chain(b.chars()).all(|c| c.is_ascii_digit())
+            })
+        })
 }
 
 /// What [`recover`] found next to a folder.
@@ -271,14 +283,16 @@ pub(super) fn recover(final_dir: &Path, alive: &dyn Fn(u32) -> bool) -> Result<F
         if !std::fs::symlink_metadata(&p).is_ok_and(|m| m.is_dir()) {
             continue;
         }
-        // A sibling never exchanged names itself in its manifest (an empty one has none); the
-        // previous folder after an exchange has the previous set's manifest, or none.
-        let swapped = super::manifest_token(&p)?.as_deref() != Some(token);
-        if swapped && !list_names(&p)?.is_empty() {
+        // A sibling never exchanged names itself in its manifest from its set-up on (before,
+        // it is empty but for a temporary file; the probe folder is always empty); the previous
+        // folder after an exchange has the previous set's manifest, or none.
+        let swapped =
+            !token.ends_with("-probe") && super::manifest_token(&p)?.as_deref() != Some(token);
+        if swapped {
             found.restored += restore(&p, &dir, &read_manifest(&p)?)?;
-            found.completed += 1;
+            found.completed += usize::from(p.join(MANIFEST).exists());
         }
-        std::fs::remove_dir_all(&p).map_err(io_at(&p))?;
+        super::remove_tree(&p)?;
         found.removed += 1;
     }
     Ok(found)

@@ -444,3 +444,51 @@ fn a_second_commit_while_one_holds_the_lock_is_refused() {
         ["notes.txt", "pass-100-b.csv", "pass-999-my-notes.csv"]
     );
 }
+
+/// Leftovers beside the folder of runs killed at other moments: a sibling killed while its
+/// manifest was first written (only a temporary file in it), the probe folder, and a previous
+/// folder of which a part (not its manifest, which goes last) was already removed: the next run
+/// removes them all and moves nothing into the folder but the user's files.
+#[cfg(target_os = "linux")]
+#[test]
+fn leftovers_beside_the_folder_are_removed_without_touching_it() {
+    let root = tempfile::tempdir().unwrap();
+    let out = folder_with_previous_set(root.path());
+    let before = seen(&out);
+    let dead = 4_000_001;
+    let early = root.path().join(format!(".out.passbudget-swap-{dead}-0"));
+    std::fs::create_dir(&early).unwrap();
+    put(
+        &early,
+        &format!("{MANIFEST}.tmp-{dead}-1").replacen('.', "..", 1),
+        "#tree",
+    );
+    let probe = root
+        .path()
+        .join(format!(".out.passbudget-swap-{dead}-2-probe"));
+    std::fs::create_dir(&probe).unwrap();
+    let previous = root.path().join(format!(".out.passbudget-swap-{dead}-3"));
+    std::fs::create_dir(&previous).unwrap();
+    put(
+        &previous,
+        MANIFEST,
+        "#tree 1-1\npass-000-a.csv\npass-001-a.csv\n",
+    );
+    put(&previous, "pass-001-a.csv", "older");
+    put(&previous, "lost.txt", "a file of the user only here");
+    let r = recover_with(&out, &|pid| pid != dead).unwrap();
+    assert_eq!(r.removed_leftovers, 3);
+    assert_eq!(r.restored_files, 1);
+    assert!(r.completed_commit);
+    assert!(siblings(&out).is_empty(), "{:?}", siblings(&out));
+    let mut expect = before;
+    expect
+        .files
+        .insert(("lost.txt".into(), "a file of the user only here".into()));
+    assert_eq!(seen(&out), expect);
+    assert_eq!(hidden(&out), [MANIFEST]);
+    assert!(swap::is_temporary("..passbudget-manifest.tmp-12-0"));
+    assert!(swap::is_temporary(".pass-001-a.csv.tmp-12-3"));
+    assert!(!swap::is_temporary("notes.tmp-12-3"));
+    assert!(!swap::is_temporary(".notes.tmp-12"));
+}
