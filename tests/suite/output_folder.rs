@@ -147,6 +147,34 @@ fn non_latin_station_names_give_their_own_files() {
     assert!(!n.iter().any(|x| x.contains("unnamed")), "{n:?}");
 }
 
+/// A station name of 300 characters: the run writes its files under a shortened name (before: it
+/// failed only when the files were written, after the work).
+#[test]
+fn a_very_long_station_name_gives_short_file_names() {
+    let dir = tempfile::tempdir().unwrap();
+    let long = format!("Nordkam {}", "Long".repeat(73));
+    let mission = mission_with_stations(dir.path(), &[&long]);
+    let out = dir.path().join("out");
+    let o = out.to_string_lossy().into_owned();
+    success(&run(&[
+        "plan",
+        &mission,
+        "--days",
+        "0.3",
+        "--out",
+        &o,
+        "--charts",
+        "--chart-format",
+        "svg",
+    ]));
+    let n = names(&out);
+    assert!(
+        n.iter().any(|x| x.starts_with("mask-nordkam-longlong")),
+        "{n:?}"
+    );
+    assert!(n.iter().all(|x| x.len() < 120), "{n:?}");
+}
+
 /// Files of the user that merely look like outputs survive a run; files of a previous run that
 /// the new run does not write are removed because the manifest lists them.
 #[test]
