@@ -420,6 +420,7 @@ pub fn read_manifest(dir: &Path) -> Result<BTreeSet<String>, FolderError> {
 }
 
 /// The `#tree` line of a folder's manifest (the sibling it was built in), if any.
+#[cfg_attr(not(target_os = "linux"), allow(dead_code))]
 fn manifest_token(dir: &Path) -> Result<Option<String>, FolderError> {
     Ok(read_manifest_text(dir)?
         .lines()

@@ -119,7 +119,12 @@ pub(super) fn commit(
     super::check_destinations(dir, staged, &old)?;
     let mut carry = Vec::new();
     for n in list_names(dir)? {
-        if n == MANIFEST || staged.contains(&n) || (mode == CommitMode::Replace && old.contains(&n))
+        // Temporary entries of passbudget runs (a write check, a temporary file) are not kept.
+        let transient = super::leftover_pid(&n).is_some() || is_temporary(&n);
+        if n == MANIFEST
+            || transient
+            || staged.contains(&n)
+            || (mode == CommitMode::Replace && old.contains(&n))
         {
             continue;
         }
@@ -206,13 +211,19 @@ fn restore(previous: &Path, dir: &Path, ours: &BTreeSet<String>) -> Result<usize
     let results = read_manifest(dir)?;
     let mut moved = 0;
     for n in list_names(previous)? {
-        if n == MANIFEST || ours.contains(&n) || is_temporary(&n) {
+        if n == MANIFEST || ours.contains(&n) {
             continue;
         }
         let from = previous.join(&n);
         let Ok(m) = std::fs::symlink_metadata(&from) else {
             continue;
         };
+        // Temporary files of passbudget runs are not given back (a staging folder of a journaled
+        // run still going on is).
+        let transient = is_temporary(&n) || super::leftover_pid(&n).is_some();
+        if transient && !m.is_dir() {
+            continue;
+        }
         let to = if results.contains(&n) {
             dir.join(format!("{n}.kept"))
         } else {

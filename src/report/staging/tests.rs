@@ -1,6 +1,5 @@
 use super::journal::Journal;
 use super::*;
-use std::io::Write;
 
 fn put(dir: &Path, name: &str, text: &str) {
     std::fs::write(dir.join(name), text).unwrap();
@@ -212,12 +211,14 @@ fn leftover_names() {
 
 /// What a reader of the folder sees: every visible entry with its bytes (a folder as `<dir>`),
 /// and the manifest's names.
+#[cfg(target_os = "linux")]
 #[derive(Debug, Clone, PartialEq, Eq)]
 struct Seen {
     files: BTreeSet<(String, String)>,
     manifest: BTreeSet<String>,
 }
 
+#[cfg(target_os = "linux")]
 fn seen(dir: &Path) -> Seen {
     let files = visible(dir)
         .into_iter()
@@ -336,6 +337,7 @@ fn files_of_the_user_changed_during_the_run_are_kept() {
         let s = stage_new(&out);
         let result = s.commit_with(CommitMode::Replace, |k| {
             if k == Step::Complete {
+                use std::io::Write;
                 std::fs::OpenOptions::new()
                     .append(true)
                     .open(out.join("notes.txt"))
