@@ -513,6 +513,28 @@ pub const TRACK_STEP_S: Range = Range {
     unit: "s",
 };
 
+/// Where one key has several ranges, what each one applies to (shown beside the key in the
+/// README's Limits table; a test checks that every key given twice is told apart here).
+pub const APPLIES_TO: &[(Range, &str)] = &[
+    (TX_FIXED_GAIN_DBI, "pattern `fixed`"),
+    (TX_COS_N_GAIN_DBI, "pattern `cos_n`, boresight"),
+    (
+        TX_TABLE_OFF_NADIR_DEG,
+        "pattern `table`, a point's off-nadir angle",
+    ),
+    (TX_TABLE_GAIN_DBI, "pattern `table`, a point's gain"),
+    (MASK_AZIMUTH_DEG, "a point's azimuth, 360 itself refused"),
+    (MASK_ELEVATION_DEG, "a point's elevation"),
+];
+
+/// What `r` applies to where its key has several ranges ([`APPLIES_TO`]); empty otherwise.
+pub fn applies_to(r: &Range) -> &'static str {
+    APPLIES_TO
+        .iter()
+        .find(|(q, _)| q == r)
+        .map_or("", |(_, what)| what)
+}
+
 /// Every range above, for the README's table and its check.
 pub const ALL: &[Range] = &[
     FREQUENCY_GHZ,

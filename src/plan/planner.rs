@@ -16,7 +16,6 @@ use crate::config::limits::{EXCEEDANCE_PERCENT, MIN_ELEVATION_DEG, STEP_S};
 use crate::config::mission::Mission;
 use crate::geometry::{find_passes, HorizonMask, Pass};
 use crate::orbit::{ElementSet, PropagationError, Propagator, Selection};
-use crate::timefmt::format_ms;
 use rayon::prelude::*;
 
 /// What to plan, beyond the mission file. Every field left `None` falls back to the file.
@@ -366,13 +365,7 @@ impl Planner {
             self.window.end(),
         ));
         if let Some(s) = stop {
-            out.push(format!(
-                "{}: propagation stops at {} ({}: {}); no passes after it are planned",
-                self.elements.label(),
-                format_ms(&s.time),
-                s.kind(),
-                s.error
-            ));
+            out.push(s.message(&self.elements.label(), "no passes after it are planned"));
             for (i, _) in stopped.iter().enumerate().filter(|(_, e)| e.is_some()) {
                 out.push(format!(
                     "{}: passes cut by the propagation stop",
