@@ -249,3 +249,150 @@ fn antenna_temperature_rises_as_the_beam_nears_the_ground_and_in_rain() {
         "{h:?}"
     );
 }
+
+/// A small UHF station (invented) for the wiring checks.
+const UHF_STATION: &str = "name: Test Uhf
+latitude_deg: 45.5
+longitude_deg: -120.3
+altitude_m: 600
+antenna:
+  gain_dbi: 14
+  polarization: rhcp
+man_made_noise: rural
+receiver:
+  lna_noise_temperature_k: 100
+climate:
+  rain_rate_001_mm_h: 20
+";
+
+fn uhf_mission(frequency_mhz: f64) -> String {
+    let elements = crate::common::bin::root().join("examples/sat.tle");
+    format!(
+        "name: uhf
+satellite:
+  elements: {}
+stations: [station.yaml]
+transmitter:
+  frequency_mhz: {frequency_mhz}
+  power_w: 1.0
+  antenna:
+    pattern: fixed
+    gain_dbi: 0
+    polarization: rhcp
+modem:
+  max_bandwidth_hz: 100000
+  ladder:
+    - {{ rate_bps: 9600, scheme: bpsk }}
+",
+        elements.to_string_lossy()
+    )
+}
+
+fn uhf_budget(frequency_mhz: f64) -> passbudget::plan::instant::InstantBudget {
+    use passbudget::plan::instant::{instant_budget, InstantGeometry, InstantRequest};
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("station.yaml"), UHF_STATION).unwrap();
+    let path = dir.path().join("mission.yaml");
+    std::fs::write(&path, uhf_mission(frequency_mhz)).unwrap();
+    let mission = passbudget::config::mission::Mission::load(&path).unwrap();
+    let req = InstantRequest {
+        station: "Test Uhf".into(),
+        geometry: InstantGeometry::Elevation(30.0),
+        rate_bps: None,
+        scheme: None,
+        exceedance_percent: Some(1.0),
+    };
+    instant_budget(&mission, &req).unwrap()
+}
+
+#[test]
+fn man_made_noise_is_added_and_warned_outside_its_range() {
+    // ITU-R P.372 Table 1, rural: Fam = 67.2 - 27.7 log10(f_MHz) dB above k T0 b,
+    // Ta = 290 K 10^(Fam/10) (docs/REFERENCES.md §8). At 145.8 MHz: Fam = 7.264 dB, Ta = 1545 K.
+    let b = uhf_budget(145.8);
+    let want = 290.0 * 10f64.powf((67.2 - 27.7 * 145.8f64.log10()) / 10.0);
+    assert!((want - 1545.0).abs() < 1.0);
+    let v = &b.values;
+    assert!(
+        (v.man_made_noise_k - want).abs() < 1e-9,
+        "{}",
+        v.man_made_noise_k
+    );
+    let sum = v.sky_noise_k + v.ground_noise_k + v.man_made_noise_k;
+    assert!((v.antenna_temperature_k - sum).abs() < 1e-9);
+    assert!((v.system_temperature_k - sum - v.receiver_noise_k).abs() < 1e-9);
+    assert!(b.items.iter().any(|i| i.name == "man_made_noise"));
+    let man_made_warning = |b: &passbudget::plan::instant::InstantBudget| {
+        b.warnings
+            .iter()
+            .any(|w| w.contains("man-made noise (ITU-R P.372 Table 1)"))
+    };
+    assert!(!man_made_warning(&b));
+    // Below 2 GHz the S.465-6 envelope is out of its range: said so.
+    assert!(b.warnings.iter().any(|w| w.contains("S.465-6")));
+    // 437.5 MHz is above the 250 MHz of the curves: extrapolated, with a warning.
+    let b = uhf_budget(437.5);
+    assert!(man_made_warning(&b), "{:?}", b.warnings);
+}
+
+#[test]
+fn plan_warnings_carry_the_noise_model_ranges() {
+    let dir = tempfile::tempdir().unwrap();
+    let setup = crate::common::plan::write_and_load(dir.path(), UHF_STATION, &uhf_mission(437.5));
+    let start = passbudget::timefmt::utc(2026, 12, 1, 12, 0, 0);
+    let plan = setup.plan_between(start, passbudget::timefmt::add_seconds(&start, 3600.0));
+    assert!(
+        plan.warnings
+            .iter()
+            .any(|w| w.starts_with("Test Uhf: man-made noise")),
+        "{:?}",
+        plan.warnings
+    );
+}
+
+#[test]
+fn station_noise_keys_are_checked_with_their_line() {
+    use passbudget::config::station::Station;
+    let path = std::path::Path::new("station.yaml");
+    // The removed key answers with the keys that replace it.
+    let old = UHF_STATION.replace(
+        "  polarization: rhcp\n",
+        "  polarization: rhcp\n  spillover_fraction: 0.05\n",
+    );
+    let e = Station::from_yaml(path, &old).unwrap_err().to_string();
+    assert!(e.starts_with("station.yaml:8:"), "{e}");
+    assert!(e.contains("antenna.ground_emissivity"), "{e}");
+    // Measured tables: rising first column, values within their range (config::limits).
+    for (table, want) in [
+        (
+            "  measured_noise_temperature_k: [[10, 60], [5, 80]]\n",
+            "measured_noise_temperature_k point 2",
+        ),
+        (
+            "  measured_noise_temperature_k: [[0, 60], [90, 6000]]\n",
+            "temperature 6000 is out of range",
+        ),
+        (
+            "  noise_pattern: [[0, 14], [90, -10]]\n",
+            "the last at 180 deg",
+        ),
+        ("  ground_emissivity: 1.5\n", "1.5 is out of range (0 to 1)"),
+    ] {
+        let text = UHF_STATION.replace(
+            "  polarization: rhcp\n",
+            &format!("  polarization: rhcp\n{table}"),
+        );
+        let e = Station::from_yaml(path, &text).unwrap_err().to_string();
+        assert!(e.starts_with("station.yaml:8:"), "{e}");
+        assert!(e.contains(want), "{e}");
+    }
+    // A measured pattern and table are accepted and reach the budget.
+    let text = UHF_STATION.replace(
+        "  polarization: rhcp\n",
+        "  polarization: rhcp\n  noise_pattern: [[0, 14], [30, 11], [60, 0], [90, -10], [180, -15]]\n  measured_noise_temperature_k: [[0, 300], [10, 150], [90, 60]]\n",
+    );
+    let s = Station::from_yaml(path, &text).unwrap();
+    let a = s.antenna.unwrap();
+    assert_eq!(a.noise_pattern.unwrap().len(), 5);
+    assert_eq!(a.measured_noise_temperature_k.unwrap()[1], [10.0, 150.0]);
+}
