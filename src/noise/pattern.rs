@@ -42,9 +42,7 @@ pub const ENVELOPE_FREQUENCY_RANGE_HZ: (f64, f64) = (2e9, 31e9);
 /// Errors of the pattern model.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum PatternError {
-    #[error(
-        "peak gain must be finite and at least 0 dBi for a reference pattern, got {gain_dbi} dBi"
-    )]
+    #[error("peak gain must be finite, got {gain_dbi} dBi")]
     Gain { gain_dbi: f64 },
     #[error("beamwidth must be positive and finite, got {beamwidth_deg} deg")]
     Beamwidth { beamwidth_deg: f64 },
@@ -206,7 +204,7 @@ impl NoisePattern {
         d_over_lambda: f64,
         frequency_hz: f64,
     ) -> Result<Self, PatternError> {
-        if !(gain_dbi.is_finite() && gain_dbi >= 0.0) {
+        if !gain_dbi.is_finite() {
             return Err(PatternError::Gain { gain_dbi });
         }
         if !(beamwidth_deg > 0.0 && beamwidth_deg.is_finite()) {
@@ -528,5 +526,19 @@ mod tests {
         // The main beam keeps the peak gain.
         assert!((p.gain_dbi(0.0) - g).abs() < 1e-12);
         assert!(p.scale() > 0.0 && p.scale() < 1.0, "k = {}", p.scale());
+        // Low and negative gains (a gain given without a diameter, -10 dBi is accepted) still
+        // give a pattern that integrates to one.
+        for g in [-10.0, -5.0, 0.0, 3.0, 12.0] {
+            let dl = (db_to_ratio(g) / 0.55).sqrt() / std::f64::consts::PI;
+            let p = NoisePattern::reference(g, 70.0 / dl, dl, 437.5e6).unwrap();
+            let r = p.rule();
+            let total: f64 = r
+                .psi_rad
+                .iter()
+                .zip(&r.weight)
+                .map(|(&x, &w)| w * p.gain(x))
+                .sum();
+            assert!((total - 1.0).abs() < 1e-9, "{g} dBi: {total}");
+        }
     }
 }

@@ -396,3 +396,43 @@ fn station_noise_keys_are_checked_with_their_line() {
     assert_eq!(a.noise_pattern.unwrap().len(), 5);
     assert_eq!(a.measured_noise_temperature_k.unwrap()[1], [10.0, 150.0]);
 }
+
+#[test]
+fn measured_antenna_temperature_takes_the_weather_excess_of_the_model() {
+    use passbudget::plan::instant::{instant_budget, InstantGeometry, InstantRequest};
+    // X band, so the rain case has a clear excess; the measured clear-sky table (invented) is
+    // linear between its points: at 30 deg, 150 + (60 - 150) (30 - 10) / 80 = 127.5 K.
+    let station = UHF_STATION
+        .replace("  gain_dbi: 14\n", "  diameter_m: 3.7\n")
+        .replace(
+            "  polarization: rhcp\n",
+            "  polarization: rhcp\n  measured_noise_temperature_k: [[0, 300], [10, 150], [90, 60]]\n",
+        )
+        .replace("man_made_noise: rural\n", "");
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("station.yaml"), &station).unwrap();
+    let path = dir.path().join("mission.yaml");
+    std::fs::write(
+        &path,
+        uhf_mission(8212.5).replace("max_bandwidth_hz: 100000", "max_bandwidth_hz: 1.0e6"),
+    )
+    .unwrap();
+    let mission = passbudget::config::mission::Mission::load(&path).unwrap();
+    let at = |exceedance_percent| {
+        let req = InstantRequest {
+            station: "Test Uhf".into(),
+            geometry: InstantGeometry::Elevation(30.0),
+            rate_bps: None,
+            scheme: None,
+            exceedance_percent,
+        };
+        instant_budget(&mission, &req).unwrap().values
+    };
+    let clear = at(None);
+    assert!((clear.antenna_temperature_k - 127.5).abs() < 1e-9);
+    assert!(clear.ground_noise_k > 0.0 && clear.sky_noise_k > clear.ground_noise_k);
+    // The rain case adds the model's excess: the sky term rises, the total with it.
+    let rain = at(Some(0.01));
+    assert!(rain.sky_noise_k > clear.sky_noise_k + 20.0, "{rain:?}");
+    assert!(rain.antenna_temperature_k > 127.5 + 20.0);
+}
