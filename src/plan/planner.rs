@@ -82,7 +82,7 @@ impl Planner {
                     source,
                 })?;
         }
-        let stations = mission
+        let mut stations = mission
             .stations
             .iter()
             .map(|s| station_model(mission, s, mask))
@@ -118,6 +118,10 @@ impl Planner {
                 })?;
         }
         let rain = availability_weather(exceedance_percent, &stations)?;
+        if let Some(w) = rain {
+            // One antenna-noise table per station for the availability case.
+            stations.iter_mut().for_each(|s| s.prepare_weather(w));
+        }
         let frequency_hz = stations[0].link.frequency_hz();
         Ok(Planner {
             frequency_hz,
@@ -347,6 +351,7 @@ impl Planner {
         for (i, s) in self.stations.iter().enumerate() {
             let mut w = PassWarnings {
                 atmosphere: s.atmosphere.static_warnings(),
+                noise: s.noise.warnings(),
                 ..Default::default()
             };
             for x in passes.iter().filter(|x| x.station_index == i) {
