@@ -32,6 +32,10 @@ fn synthetic_pass() -> PassChartData {
                     None
                 },
                 system_temperature_k: 95.0 + 150.0 * x * x * x * x,
+                sky_noise_k: 20.0 + 120.0 * x * x * x * x,
+                ground_noise_k: 5.0 + 30.0 * x * x * x * x,
+                man_made_noise_k: 0.0,
+                receiver_noise_k: 70.0,
                 atmospheric_loss_db: 0.3 + 6.0 * x.powi(8),
             }
         })

@@ -38,7 +38,13 @@ pub struct PassChartSample {
     pub closed: bool,
     /// Highest ladder rate that closes at this instant (adaptive operation), if any.
     pub adaptive_rate_bps: Option<f64>,
+    /// System noise temperature (the sum of the terms below), K.
     pub system_temperature_k: f64,
+    /// Its terms, K: sky and ground through the antenna's pattern, man-made, receiver.
+    pub sky_noise_k: f64,
+    pub ground_noise_k: f64,
+    pub man_made_noise_k: f64,
+    pub receiver_noise_k: f64,
     pub atmospheric_loss_db: f64,
 }
 

@@ -9,7 +9,7 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
-use super::data::PassChartData;
+use super::data::{PassChartData, PassChartSample};
 use super::style::{self, stroke_line, Key, Stroke};
 use super::types::{ChartError, Plot, PASS_SIZE};
 use crate::timefmt::seconds_between;
@@ -465,12 +465,14 @@ where
     DB::ErrorType: 'static,
 {
     let (plot, legend) = split_legend(area);
-    let (k_lo, k_hi) = style::finite_range(
+    // From 0 K, so the terms below Tsys show on the same axis.
+    let (_, k_hi) = style::finite_range(
         d.samples.iter().map(|s| s.system_temperature_k),
         0.10,
         10.0,
         (0.0, 300.0),
     );
+    let k_lo = 0.0f64;
     let (a_lo, a_hi) = style::finite_range(
         d.samples.iter().map(|s| s.atmospheric_loss_db),
         0.10,
@@ -516,16 +518,40 @@ where
             TCA_STROKE
         );
     }
-    let ts = Stroke::series(0, 3);
-    stroke_line!(
-        chart,
-        draw_series,
-        d.samples
-            .iter()
-            .map(|s| (s.t_s, s.system_temperature_k))
-            .collect(),
-        ts
-    );
+    // Tsys and its terms, each its own line (series 0, 2, 3, 4, 5; 1 is the atmospheric loss).
+    type Term = fn(&PassChartSample) -> f64;
+    let terms: [(usize, u32, Term, &str); 5] = [
+        (
+            0,
+            3,
+            |s| s.system_temperature_k,
+            "system noise\ntemperature (left)",
+        ),
+        (2, 2, |s| s.receiver_noise_k, "receiver (left)"),
+        (3, 2, |s| s.sky_noise_k, "sky through the\npattern (left)"),
+        (
+            4,
+            2,
+            |s| s.ground_noise_k,
+            "ground through the\npattern (left)",
+        ),
+        (5, 2, |s| s.man_made_noise_k, "man-made (left)"),
+    ];
+    let mut keys = Vec::with_capacity(6);
+    for (i, width, term, label) in terms {
+        // A term that is zero over the whole pass (no man-made noise given) is left out.
+        if i != 0 && d.samples.iter().all(|s| term(s) == 0.0) {
+            continue;
+        }
+        let stroke = Stroke::series(i, width);
+        stroke_line!(
+            chart,
+            draw_series,
+            d.samples.iter().map(|s| (s.t_s, term(s))).collect(),
+            stroke
+        );
+        keys.push((Key::Line(stroke), label.to_string()));
+    }
     let al = Stroke::series(1, 3);
     stroke_line!(
         chart,
@@ -536,12 +562,6 @@ where
             .collect(),
         al
     );
-    style::draw_legend(
-        &legend,
-        None,
-        &[
-            (Key::Line(ts), "system noise\ntemperature (left)".into()),
-            (Key::Line(al), "atmospheric loss (right)".into()),
-        ],
-    )
+    keys.push((Key::Line(al), "atmospheric loss (right)".into()));
+    style::draw_legend(&legend, None, &keys)
 }

@@ -110,6 +110,10 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
                 .flatten()
                 .map(|j| rates.adaptive[j as usize].rate_bps),
             system_temperature_k: x.system_temperature_k,
+            sky_noise_k: x.sky_noise_k,
+            ground_noise_k: x.ground_noise_k,
+            man_made_noise_k: x.man_made_noise_k,
+            receiver_noise_k: x.receiver_noise_k,
             atmospheric_loss_db: x.atmospheric_loss_db,
         })
         .collect();

@@ -218,13 +218,7 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
         all.extend(found.passes.into_iter().map(|p| (i, p)));
     }
     if let Some(s) = propagation_stop(&r.propagator, r.window.start(), &stopped) {
-        warn(&[format!(
-            "{}: propagation stops at {} ({}: {}); passes after it are not listed",
-            r.elements.label(),
-            format_ms(&s.time),
-            s.kind(),
-            s.error
-        )]);
+        warn(&[s.message(&r.elements.label(), "passes after it are not listed")]);
         all.retain(|(_, p)| p.aos < s.time);
     }
     for (i, cut) in empty {
@@ -368,10 +362,10 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                 rows.push(TrackRow::new(&t, &look, frequency_hz, sun_sep));
             }
             Err(e) => {
-                warn(&[format!(
-                    "{}: propagation stopped: {e}; the track ends there",
-                    r.elements.label()
-                )]);
+                // The same first failing second as `plan` and `passes`, not this step's time.
+                if let Some(s) = propagation_stop(&r.propagator, r.window.start(), &[Some(e)]) {
+                    warn(&[s.message(&r.elements.label(), "the track ends there")]);
+                }
                 break;
             }
         }

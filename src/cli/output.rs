@@ -7,7 +7,7 @@ use passbudget::plan::{PassSeries, PassSink, Planner};
 use passbudget::report::files::{
     estimate_output, CsvSink, FileError, OutputRequest, MAX_OUTPUT_BYTES, MAX_OUTPUT_FILES,
 };
-use passbudget::report::{check_file_names, CommitMode, Staging};
+use passbudget::report::{check_file_names, CommitMethod, CommitMode, Staging, Step};
 use std::io::Write;
 use std::ops::ControlFlow;
 use std::path::Path;
@@ -27,6 +27,13 @@ pub fn stage(dir: &Path) -> Result<Staging> {
         note(&format!(
             "--out {}: completed the move of an interrupted run's results",
             dir.display()
+        ));
+    }
+    if r.restored_files > 0 {
+        note(&format!(
+            "--out {}: moved back {} file(s) of yours changed in the folder during an interrupted run",
+            dir.display(),
+            r.restored_files
         ));
     }
     if r.removed_leftovers > 0 {
@@ -79,27 +86,30 @@ pub fn check_size(
     Ok(())
 }
 
-/// Move the staged results into place. `PASSBUDGET_TEST_STOP_AFTER_MOVES=N` (a test hook) aborts
-/// the process after the N-th file moved (N = 0: just before the commit), as a kill would.
+/// Put the staged results in place; where the folder could not be swapped in as a whole, say so
+/// in a note. `PASSBUDGET_TEST_STOP_AT=STEP` (a test hook) aborts the process at that step of the
+/// commit (`start`: just before it; else a [`Step`] in its text form, `swapped`, `moved-3`, ...),
+/// as a kill would.
 pub fn commit(st: Staging, mode: CommitMode, out: &Path) -> Result<()> {
-    let stop: Option<usize> = std::env::var("PASSBUDGET_TEST_STOP_AFTER_MOVES")
-        .ok()
-        .and_then(|v| v.parse().ok());
-    if stop == Some(0) {
+    let stop = std::env::var("PASSBUDGET_TEST_STOP_AT").ok();
+    if stop.as_deref() == Some("start") {
         std::process::abort();
     }
-    st.commit_with(mode, |n| {
-        if Some(n) == stop {
-            std::process::abort();
-        }
-        ControlFlow::Continue(())
-    })
-    .with_context(|| {
-        format!(
-            "--out {}: cannot move the results into place",
+    let method = st
+        .commit_with(mode, |step: Step| {
+            if stop.as_deref() == Some(step.to_string().as_str()) {
+                std::process::abort();
+            }
+            ControlFlow::Continue(())
+        })
+        .with_context(|| format!("--out {}: cannot put the results in place", out.display()))?;
+    if let CommitMethod::Journaled { reason } = method {
+        note(&format!(
+            "--out {}: the results were moved in file by file under a journal, not swapped in as one folder ({reason}); see \"Output folder\" in the README",
             out.display()
-        )
-    })
+        ));
+    }
+    Ok(())
 }
 
 /// An error of a run that writes into `st`: the hidden staging path is replaced by the `--out`

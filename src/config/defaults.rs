@@ -112,10 +112,10 @@ pub const GROUND_AXIAL_RATIO_DB: DefaultValue<f64> = reported(
     1.0,
     "common practice for a ground feed",
 );
-pub const SPILLOVER_FRACTION: DefaultValue<f64> = reported(
-    "antenna.spillover_fraction",
-    0.05,
-    "common practice for a reflector antenna",
+pub const GROUND_EMISSIVITY: DefaultValue<f64> = reported(
+    "antenna.ground_emissivity",
+    0.9,
+    "common practice for dry soil and vegetation at microwave frequencies",
 );
 pub const GROUND_TEMPERATURE_K: DefaultValue<f64> =
     reported("antenna.ground_temperature_k", 290.0, T0);
@@ -199,7 +199,7 @@ mod tests {
             (ANTENNA_EFFICIENCY, limits::ANTENNA_EFFICIENCY),
             (POINTING_ERROR_DEG, limits::POINTING_ERROR_DEG),
             (GROUND_AXIAL_RATIO_DB, limits::GROUND_AXIAL_RATIO_DB),
-            (SPILLOVER_FRACTION, limits::SPILLOVER_FRACTION),
+            (GROUND_EMISSIVITY, limits::GROUND_EMISSIVITY),
             (GROUND_TEMPERATURE_K, limits::GROUND_TEMPERATURE_K),
             (RADOME_LOSS_DB, limits::RADOME_LOSS_DB),
             (LNA_GAIN_DB, limits::LNA_GAIN_DB),

@@ -345,19 +345,52 @@ pub const GROUND_AXIAL_RATIO_DB: Range = Range {
     unit: "dB",
 };
 
-/// Fraction of the ground antenna's pattern that sees the ground.
-pub const SPILLOVER_FRACTION: Range = Range {
-    key: "antenna.spillover_fraction",
+/// Emissivity of the ground seen by the antenna's sidelobes (1 - e of the sky is reflected).
+pub const GROUND_EMISSIVITY: Range = Range {
+    key: "antenna.ground_emissivity",
     min: 0.0,
-    max: 0.5,
+    max: 1.0,
     unit: "",
 };
 
-/// Physical temperature of the ground seen by the spillover, K.
+/// Physical temperature of the ground seen by the sidelobes (and of a radome), K.
 pub const GROUND_TEMPERATURE_K: Range = Range {
     key: "antenna.ground_temperature_k",
     min: 150.0,
     max: 350.0,
+    unit: "K",
+};
+
+/// Off-axis angle of a point of a measured noise pattern (`antenna.noise_pattern`), deg.
+pub const NOISE_PATTERN_OFF_AXIS_DEG: Range = Range {
+    key: "antenna.noise_pattern",
+    min: 0.0,
+    max: 180.0,
+    unit: "deg",
+};
+
+/// Gain of a point of a measured noise pattern, dBi.
+pub const NOISE_PATTERN_GAIN_DBI: Range = Range {
+    key: "antenna.noise_pattern",
+    min: -60.0,
+    max: 90.0,
+    unit: "dBi",
+};
+
+/// Elevation of a point of a measured antenna temperature table, deg (the range of
+/// `min_elevation_deg`).
+pub const MEASURED_NOISE_ELEVATION_DEG: Range = Range {
+    key: "antenna.measured_noise_temperature_k",
+    min: -5.0,
+    max: 90.0,
+    unit: "deg",
+};
+
+/// Antenna temperature of a point of a measured table, K.
+pub const MEASURED_NOISE_TEMPERATURE_K: Range = Range {
+    key: "antenna.measured_noise_temperature_k",
+    min: 0.0,
+    max: 5000.0,
     unit: "K",
 };
 
@@ -513,6 +546,32 @@ pub const TRACK_STEP_S: Range = Range {
     unit: "s",
 };
 
+/// Where one key has several ranges, what each one applies to (shown beside the key in the
+/// README's Limits table; a test checks that every key given twice is told apart here).
+pub const APPLIES_TO: &[(Range, &str)] = &[
+    (TX_FIXED_GAIN_DBI, "pattern `fixed`"),
+    (TX_COS_N_GAIN_DBI, "pattern `cos_n`, boresight"),
+    (
+        TX_TABLE_OFF_NADIR_DEG,
+        "pattern `table`, a point's off-nadir angle",
+    ),
+    (TX_TABLE_GAIN_DBI, "pattern `table`, a point's gain"),
+    (MASK_AZIMUTH_DEG, "a point's azimuth, 360 itself refused"),
+    (MASK_ELEVATION_DEG, "a point's elevation"),
+    (NOISE_PATTERN_OFF_AXIS_DEG, "a point's off-axis angle"),
+    (NOISE_PATTERN_GAIN_DBI, "a point's gain"),
+    (MEASURED_NOISE_ELEVATION_DEG, "a point's elevation"),
+    (MEASURED_NOISE_TEMPERATURE_K, "a point's temperature"),
+];
+
+/// What `r` applies to where its key has several ranges ([`APPLIES_TO`]); empty otherwise.
+pub fn applies_to(r: &Range) -> &'static str {
+    APPLIES_TO
+        .iter()
+        .find(|(q, _)| q == r)
+        .map_or("", |(_, what)| what)
+}
+
 /// Every range above, for the README's table and its check.
 pub const ALL: &[Range] = &[
     FREQUENCY_GHZ,
@@ -552,9 +611,13 @@ pub const ALL: &[Range] = &[
     ANTENNA_EFFICIENCY,
     POINTING_ERROR_DEG,
     GROUND_AXIAL_RATIO_DB,
-    SPILLOVER_FRACTION,
+    GROUND_EMISSIVITY,
     GROUND_TEMPERATURE_K,
     RADOME_LOSS_DB,
+    NOISE_PATTERN_OFF_AXIS_DEG,
+    NOISE_PATTERN_GAIN_DBI,
+    MEASURED_NOISE_ELEVATION_DEG,
+    MEASURED_NOISE_TEMPERATURE_K,
     LNA_NOISE_TEMPERATURE_K,
     LNA_NOISE_FIGURE_DB,
     LNA_GAIN_DB,

@@ -437,19 +437,21 @@ fn ladder(c: &Checker, steps: &[LadderStepFile]) -> Result<Vec<LadderStep>, Conf
     Ok(ladder)
 }
 
-/// The adaptive (variable coding and modulation) block.
+/// The adaptive (variable coding and modulation) block: at least one scheme, none twice.
 fn adaptive(c: &Checker, a: &AdaptiveFile) -> Result<AdaptiveConfig, ConfigError> {
     const KEY: &str = "modem.adaptive.schemes";
     let symbol_rate_baud = c.range(&limits::SYMBOL_RATE_BAUD, a.symbol_rate_baud)?;
     if a.schemes.is_empty() {
         return Err(c.err(KEY, "needs at least one scheme"));
     }
-    let schemes = a
-        .schemes
-        .iter()
-        .enumerate()
-        .map(|(i, s)| (s.clone(), c.item_line(KEY, i)))
-        .collect();
+    let mut schemes: Vec<(String, Option<usize>)> = Vec::new();
+    for (i, s) in a.schemes.iter().enumerate() {
+        if let Some(j) = schemes.iter().position(|(o, _)| o == s) {
+            let msg = format!("{s} is already scheme {}", j + 1);
+            return Err(c.item_err(KEY, "scheme", i, msg));
+        }
+        schemes.push((s.clone(), c.item_line(KEY, i)));
+    }
     Ok(AdaptiveConfig {
         symbol_rate_baud,
         schemes,
@@ -602,6 +604,20 @@ mod tests {
         assert!(
             e.message
                 .contains("step 3: 1000000 bit/s with a is already step 1"),
+            "{e}"
+        );
+    }
+
+    /// A scheme listed twice in the adaptive set is refused at its line, as a duplicate ladder
+    /// step is (before: accepted silently).
+    #[test]
+    fn duplicate_adaptive_scheme_is_rejected() {
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n  adaptive:\n    symbol_rate_baud: 1e6\n    schemes:\n      - a\n      - b\n      - a\n";
+        let e = mission(t).unwrap_err();
+        assert_eq!(e.line, Some(12), "{e}");
+        assert!(
+            e.message
+                .contains("modem.adaptive.schemes scheme 3: a is already scheme 1"),
             "{e}"
         );
     }

@@ -39,6 +39,8 @@ struct StationFile {
     receiver: Option<ReceiverFile>,
     #[serde(default)]
     climate: Option<ClimateFile>,
+    #[serde(default)]
+    man_made_noise: Option<crate::noise::man_made::Environment>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -50,9 +52,13 @@ struct AntennaFile {
     pointing_error_deg: Option<f64>,
     polarization: Option<PolarizationSense>,
     axial_ratio_db: Option<f64>,
+    /// Removed: kept only to answer with the keys that replace it.
     spillover_fraction: Option<f64>,
     ground_temperature_k: Option<f64>,
+    ground_emissivity: Option<f64>,
     radome_loss_db: Option<f64>,
+    noise_pattern: Option<Vec<[f64; 2]>>,
+    measured_noise_temperature_k: Option<Vec<[f64; 2]>>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -100,9 +106,16 @@ pub struct GroundAntenna {
     pub pointing_error_deg: f64,
     pub polarization: PolarizationSense,
     pub axial_ratio_db: f64,
-    pub spillover_fraction: f64,
+    /// Physical temperature of the ground (and of a radome), K.
     pub ground_temperature_k: f64,
+    /// Emissivity of the ground seen by the sidelobes, 0-1.
+    pub ground_emissivity: f64,
     pub radome_loss_db: f64,
+    /// Measured power pattern for noise, `[off_axis_deg, gain_dbi]` from 0 to 180 deg; `None`:
+    /// the reference pattern (Gaussian main beam + ITU-R S.465-6 envelope).
+    pub noise_pattern: Option<Vec<[f64; 2]>>,
+    /// Measured clear-sky antenna temperature, `[elevation_deg, temperature_k]` (Y-factor).
+    pub measured_noise_temperature_k: Option<Vec<[f64; 2]>>,
 }
 
 /// Receiving chain, validated. Temperatures in K, losses and gains in dB.
@@ -144,6 +157,8 @@ pub struct Station {
     pub antenna: Option<GroundAntenna>,
     pub receiver: Option<Receiver>,
     pub climate: Climate,
+    /// Man-made noise category of the surroundings (ITU-R P.372 Table 1); `None`: not counted.
+    pub man_made_noise: Option<crate::noise::man_made::Environment>,
     /// Keys filled from defaults, with the value and its source: reported in outputs.
     pub defaults: Vec<DefaultUsed>,
 }
@@ -196,6 +211,7 @@ impl Station {
             antenna,
             receiver,
             climate,
+            man_made_noise: file.man_made_noise,
             defaults: c.defaults,
         })
     }
@@ -233,6 +249,12 @@ fn horizon_mask(c: &Checker, mut mask: Vec<[f64; 2]>) -> Result<Vec<[f64; 2]>, C
 /// The ground antenna block.
 fn antenna(c: &mut Checker, a: &AntennaFile) -> Result<GroundAntenna, ConfigError> {
     use limits as l;
+    if a.spillover_fraction.is_some() {
+        return Err(c.err(
+            "antenna.spillover_fraction",
+            "this key was removed: the ground the antenna sees through its sidelobes and spillover now comes from its reference pattern (ITU-R S.465-6 envelope, see the README's noise section); set antenna.ground_emissivity and antenna.ground_temperature_k instead",
+        ));
+    }
     let gain = antenna_gain(c, a)?;
     let pointing_error_deg = c.or_default(
         &l::POINTING_ERROR_DEG,
@@ -252,22 +274,82 @@ fn antenna(c: &mut Checker, a: &AntennaFile) -> Result<GroundAntenna, ConfigErro
             a.axial_ratio_db,
             &dflt::GROUND_AXIAL_RATIO_DB,
         )?,
-        spillover_fraction: c.or_default(
-            &l::SPILLOVER_FRACTION,
-            a.spillover_fraction,
-            &dflt::SPILLOVER_FRACTION,
-        )?,
         ground_temperature_k: c.or_default(
             &l::GROUND_TEMPERATURE_K,
             a.ground_temperature_k,
             &dflt::GROUND_TEMPERATURE_K,
+        )?,
+        ground_emissivity: c.or_default(
+            &l::GROUND_EMISSIVITY,
+            a.ground_emissivity,
+            &dflt::GROUND_EMISSIVITY,
         )?,
         radome_loss_db: c.or_default(
             &l::RADOME_LOSS_DB,
             a.radome_loss_db,
             &dflt::RADOME_LOSS_DB,
         )?,
+        noise_pattern: a
+            .noise_pattern
+            .as_ref()
+            .map(|t| noise_pattern(c, t))
+            .transpose()?,
+        measured_noise_temperature_k: a
+            .measured_noise_temperature_k
+            .as_ref()
+            .map(|t| {
+                let (e, k) = (
+                    &l::MEASURED_NOISE_ELEVATION_DEG,
+                    &l::MEASURED_NOISE_TEMPERATURE_K,
+                );
+                rising_table(c, t, (e, "elevation"), (k, "temperature"))
+            })
+            .transpose()?,
     })
+}
+
+/// A measured noise pattern: a rising table from 0 to 180 deg off axis.
+fn noise_pattern(c: &Checker, t: &[[f64; 2]]) -> Result<Vec<[f64; 2]>, ConfigError> {
+    let (a, g) = (
+        &limits::NOISE_PATTERN_OFF_AXIS_DEG,
+        &limits::NOISE_PATTERN_GAIN_DBI,
+    );
+    let t = rising_table(c, t, (a, "off-axis angle"), (g, "gain"))?;
+    if t[0][0] != 0.0 || t[t.len() - 1][0] != 180.0 {
+        return Err(c.err(
+            a.key,
+            "the first point must be at 0 deg and the last at 180 deg (the whole pattern)",
+        ));
+    }
+    Ok(t)
+}
+
+/// A table of at least two points, the first column rising, each column within its range.
+fn rising_table(
+    c: &Checker,
+    points: &[[f64; 2]],
+    first: (&limits::Range, &str),
+    second: (&limits::Range, &str),
+) -> Result<Vec<[f64; 2]>, ConfigError> {
+    let key = first.0.key;
+    if points.len() < 2 {
+        return Err(c.err(key, "needs at least two points"));
+    }
+    for (i, pt) in points.iter().enumerate() {
+        let bad = |msg: String| Err(c.item_err(key, "point", i, msg));
+        for (v, (r, what)) in [(pt[0], first), (pt[1], second)] {
+            if let Err(e) = r.check(v) {
+                return bad(format!("{what} {e}"));
+            }
+        }
+        if i > 0 && pt[0] <= points[i - 1][0] {
+            return bad(format!(
+                "the {} must rise from one point to the next",
+                first.1
+            ));
+        }
+    }
+    Ok(points.to_vec())
 }
 
 /// The ground antenna's gain: given in dBi, or from a diameter and an aperture efficiency.

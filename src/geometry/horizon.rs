@@ -84,6 +84,9 @@ impl HorizonMask {
 
     /// The profile points, sorted by azimuth.
     pub fn points(&self) -> &[[f64; 2]] {
+        // Whoever takes the slice is counted as visiting every point.
+        #[cfg(test)]
+        work::add(self.points.len());
         &self.points
     }
 
@@ -95,6 +98,13 @@ impl HorizonMask {
             0 => None,
             1 => Some((pts[0][1], 0.0)),
             len => {
+                // One evaluation: the binary search visits about log2(len) points, then the
+                // segment's two.
+                #[cfg(test)]
+                {
+                    work::evaluation();
+                    work::add((usize::BITS - len.leading_zeros()) as usize + 2);
+                }
                 let az = azimuth_deg.rem_euclid(360.0);
                 // First point with azimuth > az.
                 let i = pts.partition_point(|p| p[0] <= az);
@@ -133,6 +143,8 @@ impl HorizonMask {
     /// Lowest mask elevation over all azimuths (the profile's minimum is at a vertex; kept from
     /// construction, O(1)).
     pub fn lowest_limit_deg(&self) -> f64 {
+        #[cfg(test)]
+        work::add(1);
         match self.lowest_point_deg {
             Some(lowest) => lowest.max(self.min_elevation_deg),
             None => self.min_elevation_deg,
@@ -140,9 +152,95 @@ impl HorizonMask {
     }
 }
 
+/// Unit tests only: how many profile points the mask visits (per thread), to check that a pass
+/// search's work grows with the log of the number of points, not with it. Compiled out of every
+/// other build.
+#[cfg(test)]
+pub(crate) mod work {
+    use std::cell::Cell;
+
+    thread_local! {
+        static POINTS_VISITED: Cell<usize> = const { Cell::new(0) };
+        static EVALUATIONS: Cell<usize> = const { Cell::new(0) };
+    }
+
+    pub(crate) fn add(n: usize) {
+        POINTS_VISITED.with(|c| c.set(c.get() + n));
+    }
+
+    pub(crate) fn evaluation() {
+        EVALUATIONS.with(|c| c.set(c.get() + 1));
+    }
+
+    /// (profile evaluations, points visited) since the last call, and reset both.
+    pub(crate) fn take() -> (usize, usize) {
+        (
+            EVALUATIONS.with(|c| c.replace(0)),
+            POINTS_VISITED.with(|c| c.replace(0)),
+        )
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// (profile evaluations, points visited, passes found) of a pass search of the shipped
+    /// satellite over `days` from 2026-12-01 12:00 UTC with a rough terrain profile of `n` points.
+    fn search_work(n: usize, days: i64) -> (usize, usize, usize) {
+        let sets = crate::orbit::load_elements(std::path::Path::new("examples/sat.tle")).unwrap();
+        let prop = crate::orbit::Propagator::new(&sets[0]).unwrap();
+        let obs = crate::geometry::Observer::new(45.5, -120.3, 600.0).unwrap();
+        let points = (0..n)
+            .map(|i| {
+                let az = 360.0 * i as f64 / n as f64;
+                // A rough ridge: a 0-4 deg ripple (deterministic hash of the index) on a 2-8 deg
+                // wave, so that more points also make the profile rougher.
+                let ripple = ((i as u64).wrapping_mul(0x9e37_79b9_7f4a_7c15) >> 40) as f64
+                    / (1u64 << 24) as f64;
+                [az, 5.0 + 3.0 * (az.to_radians() * 7.0).sin() + 4.0 * ripple]
+            })
+            .collect();
+        let mask = HorizonMask::new(0.0, points).unwrap();
+        let start = crate::timefmt::utc(2026, 12, 1, 12, 0, 0);
+        work::take();
+        let found = crate::geometry::find_passes(
+            &prop,
+            &obs,
+            &mask,
+            start,
+            start + chrono::Duration::days(days),
+        );
+        let (evaluations, points) = work::take();
+        (evaluations, points, found.passes.len())
+    }
+
+    /// Item 9 of the hardening issue (a 10,000-point terrain profile made the pass search grow
+    /// faster than linearly): the search's work is counted, not timed. With 10,000 points it
+    /// evaluates the mask about as often as with 360 (the step does not shrink with the number of
+    /// points), each evaluation visits about log2 n points (binary search, no scan), and the work
+    /// grows linearly with the window. A scan of the points per evaluation would multiply the
+    /// points visited by about 600; per search, add 10,000.
+    #[test]
+    fn pass_search_work_grows_with_log_points_and_linearly_with_days() {
+        let (e360, w360, p360) = search_work(360, 3);
+        let (e10k, w10k, p10k) = search_work(10_000, 3);
+        assert!(p360 > 5 && p10k > 5, "{p360} {p10k}");
+        assert!(
+            (e10k as f64) < 1.5 * e360 as f64,
+            "{e360} -> {e10k} evaluations"
+        );
+        // log2(10000)+2 over log2(360)+2, times the evaluations' ratio.
+        let per_evaluation = (w10k as f64 / e10k as f64) / (w360 as f64 / e360 as f64);
+        assert!(
+            per_evaluation < 16.0 / 11.0 + 0.01,
+            "{w360} -> {w10k} points"
+        );
+        assert!(w10k < 12_000 + 2 * w360, "{w360} -> {w10k} points visited");
+        let (_, w10k_6, _) = search_work(10_000, 6);
+        let per_day = w10k_6 as f64 / w10k as f64;
+        assert!((1.6..2.4).contains(&per_day), "{w10k} -> {w10k_6}");
+    }
 
     #[test]
     fn interpolates_and_wraps() {

@@ -5,8 +5,11 @@
 //!   EIRP     = P_tx - L_line + G_tx(off-nadir)
 //!   C/N0     = EIRP - L_fs - A_atm - L_pol - L_point + G/T - 10 log10(k)      (dBHz)
 //!   G/T      = G_rx - 10 log10(Tsys)   (reference point: antenna terminals, see noise::system)
-//!   Tsys     = T_antenna(Tsky, elevation) + T_receiver
-//!   Tsky     = Tmr (1 - 10^(-A_abs/10)) + Tbg 10^(-A_abs/10)                 (P.618-14 eq. 69)
+//!   Tsys     = T_antenna + T_receiver,  T_antenna = T_sky + T_ground + T_man-made
+//!              (the terms of `noise::ExternalNoise`, given per instant by the caller, which
+//!              interpolates them from the station's antenna-noise tables: `noise::antenna_table`)
+//!   Tsky(boresight) = Tmr (1 - 10^(-A_abs/10)) + Tbg 10^(-A_abs/10)          (P.618-14 eq. 69;
+//!              reported as the sky brightness along the boresight, not used in Tsys)
 //!   Rs       = Rb / eta (eta = information bits per symbol);  B_occ = Rs (1 + roll-off)
 //!   Eb/N0    = C/N0 - 10 log10(Rb);  Es/N0 = C/N0 - 10 log10(Rs)
 //!   margin   = Eb/N0 - required Eb/N0 - implementation loss
@@ -24,10 +27,8 @@ use crate::link::polarization::{
     polarization_loss_db, EllipseOrientation, Polarization, PolarizationError,
 };
 use crate::noise::sky::{background_temperature_k, sky_temperature_unchecked, SkyError, SkyRange};
-use crate::noise::system::{
-    antenna_temperature_unchecked, check_pickup, GroundPickupSpec, NoiseError, Receiver,
-    ReceiverSpec,
-};
+use crate::noise::system::{NoiseError, Receiver, ReceiverSpec};
+use crate::noise::ExternalNoise;
 use crate::units::{db_to_ratio, ratio_to_db, BOLTZMANN_DBW_PER_K_HZ};
 
 /// Errors of the link budget (each carries the offending value).
@@ -67,6 +68,12 @@ pub enum BudgetError {
     Atmosphere { total_db: f64, absorptive_db: f64 },
     #[error("mean radiating temperature must be >= 0 K and finite, got {value_k} K")]
     MeanRadiatingTemperature { value_k: f64 },
+    #[error("noise terms must be >= 0 K and finite, got sky {sky_k} K, ground {ground_k} K, man-made {man_made_k} K")]
+    ExternalNoise {
+        sky_k: f64,
+        ground_k: f64,
+        man_made_k: f64,
+    },
 }
 
 /// Polarization of both ends plus a fixed extra loss (radome, other).
@@ -85,7 +92,6 @@ pub struct LinkModelSpec {
     pub transmitter: TransmitterSpec,
     pub ground_antenna: GroundAntennaSpec,
     pub receiver: ReceiverSpec,
-    pub ground_pickup: GroundPickupSpec,
     pub polarization: PolarizationSpec,
     /// Largest occupied bandwidth Rs (1 + roll-off) allowed (e.g. the band allocation), Hz.
     pub max_occupied_bandwidth_hz: Option<f64>,
@@ -189,8 +195,20 @@ pub struct BudgetValues {
     pub polarization_loss_db: f64,
     pub pointing_loss_db: f64,
     pub antenna_gain_dbi: f64,
+    /// Sky brightness along the boresight (P.618-14 eq. 69), K: shown for reference; the sky's
+    /// share of the antenna temperature is `sky_noise_k`.
     pub sky_temperature_k: f64,
+    /// Sky above the horizon through the whole pattern, K.
+    pub sky_noise_k: f64,
+    /// Ground below the horizon through the whole pattern, K.
+    pub ground_noise_k: f64,
+    /// Man-made noise of the surroundings (ITU-R P.372 Table 1), K.
+    pub man_made_noise_k: f64,
+    /// Receiver (Friis cascade at the antenna terminals), K.
+    pub receiver_noise_k: f64,
+    /// Sum of the external terms (sky, ground, man-made), K.
     pub antenna_temperature_k: f64,
+    /// Antenna temperature + receiver noise, K.
     pub system_temperature_k: f64,
     pub g_over_t_db_k: f64,
     pub cn0_dbhz: f64,
@@ -229,7 +247,6 @@ pub struct LinkModel {
     transmitter: Transmitter,
     ground: GroundAntenna,
     receiver: Receiver,
-    pickup: GroundPickupSpec,
     polarization_loss_db: f64,
     background_k: f64,
     sky_range: SkyRange,
@@ -247,7 +264,6 @@ impl LinkModel {
         let transmitter = Transmitter::new(&spec.transmitter)?;
         let ground = GroundAntenna::new(&spec.ground_antenna, f)?;
         let receiver = Receiver::new(&spec.receiver)?;
-        check_pickup(&spec.ground_pickup)?;
         let p = &spec.polarization;
         let polarization_loss_db =
             polarization_loss_db(&p.spacecraft, &p.ground, p.orientation, p.extra_loss_db)?;
@@ -262,7 +278,6 @@ impl LinkModel {
             transmitter,
             ground,
             receiver,
-            pickup: spec.ground_pickup,
             polarization_loss_db,
             background_k,
             sky_range,
@@ -321,14 +336,23 @@ impl LinkModel {
         Ok(())
     }
 
-    /// The budget at one instant. Pure; allocates nothing.
+    /// The budget at one instant, with the antenna's noise terms `external` (from the station's
+    /// antenna-noise tables). Pure; allocates nothing.
     pub fn evaluate(
         &self,
         geometry: BudgetGeometry,
         atmosphere: AtmosphereLoss,
+        external: ExternalNoise,
         rate: RateSpec,
     ) -> Result<BudgetValues, BudgetError> {
         self.check_instant(&geometry, &atmosphere, &rate)?;
+        if !external.is_valid() {
+            return Err(BudgetError::ExternalNoise {
+                sky_k: external.sky_k,
+                ground_k: external.ground_k,
+                man_made_k: external.man_made_k,
+            });
+        }
         let BudgetGeometry {
             elevation_deg,
             range_km,
@@ -340,7 +364,7 @@ impl LinkModel {
         let (eirp_dbw, tx_gain) = self.transmitter.eirp_dbw(off_nadir_deg)?;
         // L_fs = 20 log10(4 pi d / lambda)
         let free_space_loss_db = self.fsl_constant_db + 20.0 * range_km.log10();
-        let noise = self.noise_at(elevation_deg, &atmosphere);
+        let noise = self.noise_at(&atmosphere, &external);
         // C/N0 = EIRP - L_fs - A - L_pol - L_point + G/T - 10 log10(k)
         let cn0_dbhz = eirp_dbw
             - free_space_loss_db
@@ -360,6 +384,10 @@ impl LinkModel {
             pointing_loss_db: self.ground.pointing_loss_db,
             antenna_gain_dbi: self.ground.gain_dbi,
             sky_temperature_k: noise.sky_temperature_k,
+            sky_noise_k: external.sky_k,
+            ground_noise_k: external.ground_k,
+            man_made_noise_k: external.man_made_k,
+            receiver_noise_k: self.receiver.temperature_k(),
             antenna_temperature_k: noise.antenna_temperature_k,
             system_temperature_k: noise.system_temperature_k,
             g_over_t_db_k: noise.g_over_t_db_k,
@@ -420,21 +448,17 @@ impl LinkModel {
         self.check_bandwidth(rate)
     }
 
-    /// Sky, antenna and system noise temperatures and G/T at `elevation_deg`.
+    /// Boresight sky brightness, antenna and system noise temperatures and G/T.
     #[inline]
-    fn noise_at(&self, elevation_deg: f64, atmosphere: &AtmosphereLoss) -> NoiseFigures {
-        // Tsky (P.618-14 eq. 69), then antenna temperature (ground pick-up model)
+    fn noise_at(&self, atmosphere: &AtmosphereLoss, external: &ExternalNoise) -> NoiseFigures {
+        // Tsky along the boresight (P.618-14 eq. 69), for reference
         let sky_temperature_k = sky_temperature_unchecked(
             atmosphere.absorptive_db,
             atmosphere.mean_radiating_temperature_k,
             self.background_k,
         );
-        let antenna_temperature_k = antenna_temperature_unchecked(
-            sky_temperature_k,
-            elevation_deg,
-            self.ground.beamwidth_deg,
-            &self.pickup,
-        );
+        // Ta = T_sky + T_ground + T_man-made
+        let antenna_temperature_k = external.total_k();
         // Tsys = Ta + T_rx (antenna terminals)
         let system_temperature_k = antenna_temperature_k + self.receiver.temperature_k();
         // G/T = G - 10 log10(Tsys)
@@ -452,10 +476,11 @@ impl LinkModel {
         &self,
         geometry: BudgetGeometry,
         atmosphere: AtmosphereLoss,
+        external: ExternalNoise,
         rate: RateSpec,
     ) -> Result<Vec<BudgetItem>, BudgetError> {
-        let v = self.evaluate(geometry, atmosphere, rate)?;
-        let mut items = Vec::with_capacity(31);
+        let v = self.evaluate(geometry, atmosphere, external, rate)?;
+        let mut items = Vec::with_capacity(35);
         items.extend(self.transmit_items(&v));
         items.extend(path_items(&v, &geometry));
         items.extend(self.receive_items(&v));
@@ -481,7 +506,7 @@ impl LinkModel {
     }
 
     /// Budget lines of the receiving side: ground gain, noise temperatures, G/T, Boltzmann.
-    fn receive_items(&self, v: &BudgetValues) -> [BudgetItem; 7] {
+    fn receive_items(&self, v: &BudgetValues) -> [BudgetItem; 10] {
         [
             item(
                 "ground_antenna_gain",
@@ -493,17 +518,35 @@ impl LinkModel {
                 "sky_temperature",
                 v.sky_temperature_k,
                 "K",
-                "ITU-R P.618-14 eq. (69)",
+                "boresight sky brightness, ITU-R P.618-14 eq. (69)",
+            ),
+            item(
+                "sky_noise",
+                v.sky_noise_k,
+                "K",
+                "sky over the pattern (S.465-6 envelope), P.618-14 eq. (69)",
+            ),
+            item(
+                "ground_noise",
+                v.ground_noise_k,
+                "K",
+                "ground over the pattern: e Tg + (1 - e) Tsky(mirror)",
+            ),
+            item(
+                "man_made_noise",
+                v.man_made_noise_k,
+                "K",
+                "ITU-R P.372 Table 1 (0 when not given)",
             ),
             item(
                 "antenna_temperature",
                 v.antenna_temperature_k,
                 "K",
-                "ground pick-up engineering model",
+                "sky + ground + man-made",
             ),
             item(
                 "receiver_temperature",
-                self.receiver.temperature_k(),
+                v.receiver_noise_k,
                 "K",
                 "Friis cascade at antenna terminals",
             ),

@@ -1,5 +1,4 @@
-//! Antenna noise temperature (sky + ground pick-up), the Friis receiver cascade
-//! and the system noise temperature.
+//! The Friis receiver cascade and the system noise temperature.
 //!
 //! Reference point: **the antenna output terminals** (feed/waveguide input). Tsys =
 //! T_antenna + T_receiver, where T_receiver is the Friis cascade of feed/line loss,
@@ -11,25 +10,10 @@
 //! (1944) 419-422): T = T1 + T2/G1 + T3/(G1 G2) + ...; a passive loss L at physical
 //! temperature Tp has gain 1/L and noise temperature (L - 1) Tp.
 //!
-//! Ground pick-up (engineering model, common practice, designed here):
-//! * the main beam is taken Gaussian, power pattern exp(-theta^2 / (2 sigma^2)) with
-//!   sigma = theta_3dB / sqrt(8 ln 2) (so it is -3 dB at theta_3dB / 2);
-//! * the fraction of main-beam power below the geometric horizon, in the elevation
-//!   cut, is f_below = 1/2 erfc(el / (sigma sqrt 2)) (one-dimensional approximation);
-//! * a constant spillover fraction s (station parameter: feed spillover and far
-//!   side lobes) always sees the ground;
-//! * T_antenna = (1 - s) [(1 - f_below) Tsky + f_below Tground] + s Tground.
-//!
-//! T_antenna therefore rises as elevation falls (f_below grows, and Tsky grows
-//! with the longer path) and in rain (Tsky grows with A). Valid for
-//! -90 <= el <= 90 deg; the model ignores the Sun/Moon and the ground's emissivity
-//! (< 1) and reflections.
+//! The antenna's own temperature (sky, ground, man-made) comes from the pattern integral of
+//! [`super::antenna_table`]; this module adds the receiver.
 
-use crate::special::erfc;
 use crate::units::{db_to_ratio, noise_figure_db_to_temperature_k};
-
-/// Default ground brightness temperature, K (common practice: ~290 K).
-pub const DEFAULT_GROUND_TEMPERATURE_K: f64 = 290.0;
 
 /// Errors of the system-noise model.
 #[derive(Debug, Clone, Copy, PartialEq, thiserror::Error)]
@@ -45,12 +29,6 @@ pub enum NoiseError {
     NoiseFigure { what: &'static str, nf_db: f64 },
     #[error("gain must be finite, got {gain_db} dB ({what})")]
     Gain { what: &'static str, gain_db: f64 },
-    #[error("spillover fraction must be in [0, 1), got {value}")]
-    Spillover { value: f64 },
-    #[error("beamwidth must be positive and finite, got {beamwidth_deg} deg")]
-    Beamwidth { beamwidth_deg: f64 },
-    #[error("elevation must be within [-90, 90] deg, got {elevation_deg} deg")]
-    Elevation { elevation_deg: f64 },
 }
 
 /// One stage of a receiver cascade: available gain and input-referred noise temperature.
@@ -111,24 +89,6 @@ pub struct ReceiverSpec {
     pub later_noise_figure_db: f64,
 }
 
-/// Ground pick-up parameters of a station antenna.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct GroundPickupSpec {
-    /// Constant fraction of the received noise power that comes from the ground (spillover), [0, 1).
-    pub spillover_fraction: f64,
-    /// Ground brightness temperature, K.
-    pub ground_temperature_k: f64,
-}
-
-impl Default for GroundPickupSpec {
-    fn default() -> Self {
-        Self {
-            spillover_fraction: 0.05,
-            ground_temperature_k: DEFAULT_GROUND_TEMPERATURE_K,
-        }
-    }
-}
-
 /// A validated receiver: its cascade noise temperature referred to the antenna terminals.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Receiver {
@@ -185,77 +145,6 @@ impl Receiver {
     pub fn stages(&self) -> &[Stage; 3] {
         &self.stages
     }
-}
-
-/// Fraction of a Gaussian main beam (half-power beamwidth `beamwidth_deg`) below
-/// the horizon when pointed at `elevation_deg`: 1/2 erfc(el / (sigma sqrt 2)),
-/// sigma = theta_3dB / sqrt(8 ln 2). Engineering model (see module doc).
-pub fn beam_fraction_below_horizon(
-    elevation_deg: f64,
-    beamwidth_deg: f64,
-) -> Result<f64, NoiseError> {
-    check_geometry(elevation_deg, beamwidth_deg)?;
-    Ok(beam_fraction_unchecked(elevation_deg, beamwidth_deg))
-}
-
-#[inline]
-fn beam_fraction_unchecked(elevation_deg: f64, beamwidth_deg: f64) -> f64 {
-    // sigma = theta_3dB / sqrt(8 ln 2); f_below = 1/2 erfc(el / (sigma sqrt 2))
-    let sigma = beamwidth_deg / (8.0 * std::f64::consts::LN_2).sqrt();
-    0.5 * erfc(elevation_deg / (sigma * std::f64::consts::SQRT_2))
-}
-
-/// Antenna noise temperature (K) from the sky temperature (K), elevation, beamwidth
-/// and ground pick-up parameters (engineering model, see module doc):
-/// Ta = (1 - s) [(1 - f_below) Tsky + f_below Tg] + s Tg.
-pub fn antenna_temperature_k(
-    sky_temperature_k: f64,
-    elevation_deg: f64,
-    beamwidth_deg: f64,
-    pickup: &GroundPickupSpec,
-) -> Result<f64, NoiseError> {
-    check_temperature("sky temperature", sky_temperature_k)?;
-    check_geometry(elevation_deg, beamwidth_deg)?;
-    check_pickup(pickup)?;
-    Ok(antenna_temperature_unchecked(
-        sky_temperature_k,
-        elevation_deg,
-        beamwidth_deg,
-        pickup,
-    ))
-}
-
-#[inline]
-pub(crate) fn antenna_temperature_unchecked(
-    sky_temperature_k: f64,
-    elevation_deg: f64,
-    beamwidth_deg: f64,
-    pickup: &GroundPickupSpec,
-) -> f64 {
-    let f_below = beam_fraction_unchecked(elevation_deg, beamwidth_deg);
-    let s = pickup.spillover_fraction;
-    let tg = pickup.ground_temperature_k;
-    // Ta = (1 - s) [(1 - f_below) Tsky + f_below Tg] + s Tg
-    (1.0 - s) * ((1.0 - f_below) * sky_temperature_k + f_below * tg) + s * tg
-}
-
-pub(crate) fn check_pickup(p: &GroundPickupSpec) -> Result<(), NoiseError> {
-    if !(p.spillover_fraction >= 0.0 && p.spillover_fraction < 1.0) {
-        return Err(NoiseError::Spillover {
-            value: p.spillover_fraction,
-        });
-    }
-    check_temperature("ground temperature", p.ground_temperature_k)
-}
-
-fn check_geometry(elevation_deg: f64, beamwidth_deg: f64) -> Result<(), NoiseError> {
-    if !(-90.0..=90.0).contains(&elevation_deg) {
-        return Err(NoiseError::Elevation { elevation_deg });
-    }
-    if !(beamwidth_deg > 0.0 && beamwidth_deg.is_finite()) {
-        return Err(NoiseError::Beamwidth { beamwidth_deg });
-    }
-    Ok(())
 }
 
 fn check_temperature(what: &'static str, t: f64) -> Result<(), NoiseError> {

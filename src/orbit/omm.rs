@@ -60,12 +60,15 @@ pub enum OmmError {
         column: Option<usize>,
         first_line: Option<usize>,
     },
-    #[error("message {object}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-2; check the spelling)", position_suffix(*.line, *.column))]
+    #[error("message {object}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-2; check the spelling){}", position_suffix(*.line, *.column), missing.map(|m| format!("; required keyword {m} is missing")).unwrap_or_default())]
     UnknownKey {
         object: usize,
         key: String,
         line: Option<usize>,
         column: Option<usize>,
+        /// The first required keyword missing from the message, which the unknown one may be
+        /// a misspelling of.
+        missing: Option<&'static str>,
     },
     #[error("line {line}: expected 'KEY = value', found '{text}'")]
     KvnSyntax { line: usize, text: String },
@@ -109,10 +112,15 @@ type Fields = HashMap<String, Entry>;
 /// the OMM keyword set ([`is_omm_keyword`]) and `null` for a required keyword are errors; `null`
 /// for an optional keyword counts as absent.
 pub fn parse_omm_json(text: &str) -> Result<Vec<ElementSet>, OmmError> {
-    let doc: json::Doc = serde_json::from_str(strip_bom(text)).map_err(|e| OmmError::Json {
-        line: e.line(),
-        column: e.column(),
-        reason: e.to_string(),
+    let doc: json::Doc = serde_json::from_str(strip_bom(text)).map_err(|e| {
+        // serde_json's text ends in its own " at line L column C": the message gives it once.
+        let full = e.to_string();
+        let at = format!(" at line {} column {}", e.line(), e.column());
+        OmmError::Json {
+            line: e.line(),
+            column: e.column(),
+            reason: full.strip_suffix(&at).unwrap_or(&full).to_string(),
+        }
     })?;
     let objects = match doc {
         json::Doc::Many(a) => a,
@@ -423,19 +431,11 @@ fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<Eleme
     Ok(ElementSet::from_elements(elements))
 }
 
-/// Every required keyword present, and no keyword outside the OMM set.
+/// No keyword outside the OMM set, and every required keyword present. Unknown keywords come
+/// first (the first by line (KVN) or name (JSON)), naming the first missing required keyword if
+/// any: a misspelt keyword explains the missing one.
 fn check_keys(object: usize, f: &Fields, message_line: Option<usize>) -> Result<(), OmmError> {
-    for field in REQUIRED {
-        if !f.contains_key(field) {
-            return Err(OmmError::MissingField {
-                object,
-                field,
-                line: message_line,
-            });
-        }
-    }
-    // Unknown keywords (after the required ones, so a misspelt required keyword is reported
-    // as missing): the first by line (KVN) or name (JSON).
+    let missing = REQUIRED.iter().copied().find(|k| !f.contains_key(*k));
     if let Some((key, e)) = f
         .iter()
         .filter(|(k, _)| !is_omm_keyword(k))
@@ -446,9 +446,17 @@ fn check_keys(object: usize, f: &Fields, message_line: Option<usize>) -> Result<
             key: key.clone(),
             line: e.line,
             column: e.column,
+            missing,
         });
     }
-    Ok(())
+    match missing {
+        Some(field) => Err(OmmError::MissingField {
+            object,
+            field,
+            line: message_line,
+        }),
+        None => Ok(()),
+    }
 }
 
 /// Only SGP4 mean elements in TEME and UTC are accepted.
@@ -740,6 +748,7 @@ mod tests {
                 key: "ELEMENT_SET_NUM".to_string(),
                 line: Some(24),
                 column: Some(19),
+                missing: None,
             }
         );
         assert!(err.to_string().contains("line 24") && err.to_string().contains("ELEMENT_SET_NUM"));
@@ -748,6 +757,19 @@ mod tests {
             parse_omm_json(&json).unwrap_err(),
             OmmError::UnknownKey { key, line: Some(24), column: Some(5), .. } if key == "REV_AT_EPOC"
         ));
+        // A misspelt required keyword: reported as unknown (before: as missing, which did not
+        // point at the misspelt line), naming the missing keyword too.
+        let json = JSON.replace("\"BSTAR\"", "\"B_STAR\"");
+        let err = parse_omm_json(&json).unwrap_err();
+        assert!(
+            matches!(&err, OmmError::UnknownKey { key, missing: Some("BSTAR"), line: Some(_), .. } if key == "B_STAR"),
+            "{err:?}"
+        );
+        assert!(
+            err.to_string()
+                .ends_with("required keyword BSTAR is missing"),
+            "{err}"
+        );
         // User-defined keywords are part of the standard's keyword set.
         let kvn = KVN.replace(
             "ORIGINATOR = PASSBUDGET DEMO",
@@ -772,6 +794,17 @@ mod tests {
         // null for an optional keyword counts as absent.
         let json = JSON.replace("\"OBJECT_ID\": \"PB-DEMO-001\"", "\"OBJECT_ID\": null");
         assert!(parse_omm_json(&json).is_ok());
+    }
+
+    /// A number beyond f64 in OMM JSON: the position once (before: serde_json's own " at line L
+    /// column C" repeated it).
+    #[test]
+    fn json_number_overflow_gives_the_position_once() {
+        let json = JSON.replace("\"MEAN_MOTION\": 15.05472", "\"MEAN_MOTION\": 1e400");
+        let err = parse_omm_json(&json).unwrap_err().to_string();
+        assert_eq!(err.matches("line").count(), 1, "{err}");
+        assert!(err.starts_with("JSON error at line 14, column"), "{err}");
+        assert!(err.ends_with("number out of range"), "{err}");
     }
 
     #[test]

@@ -155,8 +155,13 @@ impl PassSink for CheckSteps {
     fn pass(&self, series: &PassSeries<'_>) -> Result<(), Self::Error> {
         let mut found = Vec::new();
         for (i, s) in series.steps.iter().enumerate() {
-            let rain = s.rain.map_or([0.0; 3], |r| {
-                [r.atmospheric_loss_db, r.system_temperature_k, r.cn0_dbhz]
+            let rain = s.rain.map_or([0.0; 4], |r| {
+                [
+                    r.atmospheric_loss_db,
+                    r.sky_noise_k,
+                    r.system_temperature_k,
+                    r.cn0_dbhz,
+                ]
             });
             let values = [
                 s.t_s,
@@ -171,6 +176,10 @@ impl PassSink for CheckSteps {
                 s.free_space_loss_db,
                 s.atmospheric_loss_db,
                 s.sky_temperature_k,
+                s.sky_noise_k,
+                s.ground_noise_k,
+                s.man_made_noise_k,
+                s.receiver_noise_k,
                 s.antenna_temperature_k,
                 s.system_temperature_k,
                 s.g_over_t_db_k,

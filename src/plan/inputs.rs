@@ -116,6 +116,43 @@ pub struct PropagationStop {
 }
 
 impl PropagationStop {
+    /// The one line that reports the stop, for every command:
+    /// `<satellite>: propagation stops at <time> (<kind>: <what failed>); <consequence>`, with
+    /// the time once, to the second (the first failing second, [`propagation_stop`]).
+    pub fn message(&self, satellite: &str, consequence: &str) -> String {
+        format!(
+            "{satellite}: propagation stops at {} ({}: {}); {consequence}",
+            crate::timefmt::format_ms(&self.time),
+            self.kind(),
+            self.what()
+        )
+    }
+
+    /// What failed, without the time (the message gives it once).
+    fn what(&self) -> String {
+        let number = |x: f64| {
+            if x.abs() < 1e6 {
+                format!("{x:.6}")
+            } else {
+                format!("{x:.3e}")
+            }
+        };
+        match &self.error {
+            PropagationError::InvalidElements { reason, .. } => reason.clone(),
+            PropagationError::Eccentricity { eccentricity, .. } => {
+                format!("eccentricity {} outside [0, 1)", number(*eccentricity))
+            }
+            PropagationError::SemiLatusRectum { .. } => "negative semi-latus rectum".into(),
+            PropagationError::Decayed { radius_km, .. } => format!(
+                "orbit radius {} km below the Earth's radius",
+                number(*radius_km)
+            ),
+            PropagationError::TimeOutOfRange { minutes, .. } => {
+                format!("{} min from epoch not representable", number(*minutes))
+            }
+        }
+    }
+
     /// What the error means, in a word or two.
     pub fn kind(&self) -> &'static str {
         match self.error {
@@ -128,8 +165,9 @@ impl PropagationStop {
 }
 
 /// The one time at which propagation first fails in a window starting at `start`, given the
-/// errors that stopped each station's pass search (`None`: not stopped): bisection to 1 s between
-/// the window start (or the last time that propagates) and the earliest stop any search met. Each
+/// errors that stopped each station's pass search (`None`: not stopped): bisection over whole
+/// seconds from the window start up to the earliest stop any search met, so that `plan`,
+/// `passes` and `track` (each sampling at its own times) report the same second. Each
 /// search meets the failure at its own sample time, at or after the first failing second; the
 /// satellite has one. None when no search was stopped.
 pub fn propagation_stop(
@@ -146,11 +184,24 @@ pub fn propagation_stop(
     if let Err(error) = prop.ecef_at(&start) {
         return Some(PropagationStop { time: start, error });
     }
-    let (mut good, mut bad) = (0.0, seconds_between(&start, &at(earliest)));
+    // Whole seconds from the start, so that every caller (whatever its own sampling) finds the
+    // same second: the first whole second after the start at which propagation fails.
+    let (mut good, mut bad) = (
+        0u64,
+        seconds_between(&start, &at(earliest)).ceil().max(1.0) as u64,
+    );
     let mut error = earliest.clone();
-    while bad - good > 1.0 {
-        let mid = 0.5 * (good + bad);
-        match prop.ecef_at(&add_seconds(&start, mid)) {
+    if prop.ecef_at(&add_seconds(&start, bad as f64)).is_ok() {
+        // The search met the failure between whole seconds (it does not stay failed): report
+        // the time the search met.
+        return Some(PropagationStop {
+            time: at(earliest),
+            error,
+        });
+    }
+    while bad - good > 1 {
+        let mid = (good + bad) / 2;
+        match prop.ecef_at(&add_seconds(&start, mid as f64)) {
             Ok(_) => good = mid,
             Err(e) => {
                 bad = mid;
@@ -159,7 +210,7 @@ pub fn propagation_stop(
         }
     }
     Some(PropagationStop {
-        time: add_seconds(&start, bad),
+        time: add_seconds(&start, bad as f64),
         error,
     })
 }

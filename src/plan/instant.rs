@@ -145,7 +145,7 @@ pub fn instant_budget(
     req: &InstantRequest,
 ) -> Result<InstantBudget, InstantError> {
     let st = find_station(mission, &req.station)?;
-    let model = station_model(mission, st, None)?;
+    let mut model = station_model(mission, st, None)?;
     let rates = rate_set(mission, &model.link)?;
     // An element-set history: the set for the instant asked, else for the mission's window start,
     // else the latest set.
@@ -161,8 +161,9 @@ pub fn instant_budget(
     let rate = rate_spec(mission, &model, &rates, req)?;
     let weather = availability_weather(req.exceedance_percent, std::slice::from_ref(&model))?
         .unwrap_or(Weather::ClearSky);
+    model.prepare_weather(weather);
     let (att, values) = budget_at(&model, &look, weather, rate)?;
-    let mut items = items(&model, &look, &att, rate)?;
+    let mut items = items(&model, &look, &att, weather, rate)?;
     items.push(BudgetItem {
         name: "required_margin",
         value: rates.required_margin_db,
@@ -170,6 +171,7 @@ pub fn instant_budget(
         source: "mission modem.required_margin_db",
     });
     let mut warnings: Vec<String> = att.warnings.messages().map(String::from).collect();
+    warnings.extend(model.noise.warnings().messages().map(String::from));
     if values.pattern_clamped {
         warnings.push("the spacecraft antenna table does not reach this off-nadir angle: its end value was used".into());
     }
@@ -319,6 +321,7 @@ fn items(
     model: &StationModel,
     look: &Look,
     att: &Attenuation,
+    weather: Weather,
     rate: RateSpec,
 ) -> Result<Vec<BudgetItem>, InstantError> {
     let atmosphere = [
@@ -338,7 +341,13 @@ fn items(
         source,
     });
     let (geometry, atmosphere_loss) = link_inputs(model, look, att);
-    let link_items = model.link.itemize(geometry, atmosphere_loss, rate)?;
+    let external = model
+        .noise
+        .external_at(look.elevation_deg, weather)
+        .ok_or(SeriesError::WeatherNotPrepared { weather })?;
+    let link_items = model
+        .link
+        .itemize(geometry, atmosphere_loss, external, rate)?;
     let mut items = Vec::with_capacity(link_items.len() + atmosphere.len());
     for i in link_items {
         let after_fsl = i.name == "free_space_loss";

@@ -27,6 +27,7 @@ pub mod inputs;
 pub mod instant;
 pub mod mask;
 pub mod network;
+pub mod noise;
 mod pass;
 mod planner;
 pub mod prepare;

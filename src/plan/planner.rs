@@ -16,7 +16,6 @@ use crate::config::limits::{EXCEEDANCE_PERCENT, MIN_ELEVATION_DEG, STEP_S};
 use crate::config::mission::Mission;
 use crate::geometry::{find_passes, HorizonMask, Pass};
 use crate::orbit::{ElementSet, PropagationError, Propagator, Selection};
-use crate::timefmt::format_ms;
 use rayon::prelude::*;
 
 /// What to plan, beyond the mission file. Every field left `None` falls back to the file.
@@ -83,7 +82,7 @@ impl Planner {
                     source,
                 })?;
         }
-        let stations = mission
+        let mut stations = mission
             .stations
             .iter()
             .map(|s| station_model(mission, s, mask))
@@ -119,6 +118,10 @@ impl Planner {
                 })?;
         }
         let rain = availability_weather(exceedance_percent, &stations)?;
+        if let Some(w) = rain {
+            // One antenna-noise table per station for the availability case.
+            stations.iter_mut().for_each(|s| s.prepare_weather(w));
+        }
         let frequency_hz = stations[0].link.frequency_hz();
         Ok(Planner {
             frequency_hz,
@@ -348,6 +351,7 @@ impl Planner {
         for (i, s) in self.stations.iter().enumerate() {
             let mut w = PassWarnings {
                 atmosphere: s.atmosphere.static_warnings(),
+                noise: s.noise.warnings(),
                 ..Default::default()
             };
             for x in passes.iter().filter(|x| x.station_index == i) {
@@ -366,13 +370,7 @@ impl Planner {
             self.window.end(),
         ));
         if let Some(s) = stop {
-            out.push(format!(
-                "{}: propagation stops at {} ({}: {}); no passes after it are planned",
-                self.elements.label(),
-                format_ms(&s.time),
-                s.kind(),
-                s.error
-            ));
+            out.push(s.message(&self.elements.label(), "no passes after it are planned"));
             for (i, _) in stopped.iter().enumerate().filter(|(_, e)| e.is_some()) {
                 out.push(format!(
                     "{}: passes cut by the propagation stop",

@@ -16,7 +16,8 @@ use crate::link::antenna::{dish_beamwidth_deg, GroundAntennaSpec, TransmitterSpe
 use crate::link::budget::{LinkModel, LinkModelSpec, PolarizationSpec, RateSpec};
 use crate::link::modcod::{operating_point, scheme_index};
 use crate::link::polarization::{EllipseOrientation, Polarization};
-use crate::noise::system::{GroundPickupSpec, LnaNoise, ReceiverSpec};
+use crate::noise::system::{LnaNoise, ReceiverSpec};
+use crate::plan::noise::StationNoise;
 use crate::plan::rate::{OptionId, RateOption};
 use crate::units::wavelength_m;
 
@@ -62,6 +63,8 @@ pub struct StationModel {
     pub mask: HorizonMask,
     pub link: LinkModel,
     pub atmosphere: PreparedAtmosphere,
+    /// The antenna's noise: pattern, tables per weather case, man-made term.
+    pub noise: StationNoise,
     /// Mean radiating temperature of the atmosphere, K (P.618-14 eq (70) from the surface temperature).
     pub mean_radiating_temperature_k: f64,
     /// Ground antenna diameter used for scintillation (given, or estimated from the gain), m.
@@ -165,17 +168,65 @@ pub fn station_model(
     };
     let atmosphere = PreparedAtmosphere::new(&site, &path)
         .map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
+    let tmr_k = mean_radiating_temperature_k(st.climate.temperature_k);
+    let noise = station_noise(st, radio.ant, &link, &atmosphere, tmr_k, diameter_m)?;
     Ok(StationModel {
         station: st.clone(),
         observer,
         mask,
         link,
         atmosphere,
-        mean_radiating_temperature_k: mean_radiating_temperature_k(st.climate.temperature_k),
+        noise,
+        mean_radiating_temperature_k: tmr_k,
         antenna_diameter_m: diameter_m,
         polarization_tilt_deg,
         configured_min_elevation_deg: min,
     })
+}
+
+impl StationModel {
+    /// Prepare the antenna-noise table of `weather` (the availability case) for this station.
+    pub fn prepare_weather(&mut self, weather: Weather) {
+        self.noise.prepare_weather(&self.atmosphere, weather);
+    }
+}
+
+/// The station's noise model: the reference pattern of its antenna (peak gain and beamwidth of the
+/// link model, D/lambda of its aperture) or its measured pattern, its ground, its man-made noise
+/// and a measured antenna temperature; the clear-sky table.
+fn station_noise(
+    st: &Station,
+    ant: &GroundAntenna,
+    link: &LinkModel,
+    atmosphere: &PreparedAtmosphere,
+    tmr_k: f64,
+    diameter_m: f64,
+) -> Result<StationNoise, PrepareError> {
+    let f = link.frequency_hz();
+    let ga = link.ground_antenna();
+    let pattern = match &ant.noise_pattern {
+        Some(rows) => crate::noise::pattern::NoisePattern::measured(rows),
+        None => crate::noise::pattern::NoisePattern::reference(
+            ga.gain_dbi,
+            ga.beamwidth_deg,
+            diameter_m / wavelength_m(f),
+            f,
+        ),
+    }
+    .map_err(|e| model_err(&st.source, None, format!("ground antenna pattern: {e}")))?;
+    let ground = crate::noise::antenna_table::GroundSpec {
+        temperature_k: ant.ground_temperature_k,
+        emissivity: ant.ground_emissivity,
+    };
+    Ok(StationNoise::new(
+        pattern,
+        ground,
+        atmosphere,
+        tmr_k,
+        link.background_temperature_k(),
+        st.man_made_noise.map(|e| (e, f)),
+        ant.measured_noise_temperature_k.clone(),
+    ))
 }
 
 /// The ground antenna as the link model wants it; a gain given directly takes the beamwidth of its
@@ -237,10 +288,6 @@ fn link_model(
             lna_noise: LnaNoise::TemperatureK(rx.lna_noise_temperature_k),
             lna_gain_db: rx.lna_gain_db,
             later_noise_figure_db: rx.followon_noise_figure_db,
-        },
-        ground_pickup: GroundPickupSpec {
-            spillover_fraction: ant.spillover_fraction,
-            ground_temperature_k: ant.ground_temperature_k,
         },
         polarization: PolarizationSpec {
             spacecraft: Polarization {

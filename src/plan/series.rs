@@ -8,6 +8,7 @@ use crate::atmosphere::{Attenuation, ModelWarnings, Weather};
 use crate::geometry::{doppler_hz, Look, Pass};
 use crate::link::budget::{AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, RateSpec};
 use crate::orbit::{PropagationError, Propagator};
+use crate::plan::noise::NoiseWarnings;
 use crate::plan::prepare::StationModel;
 use crate::timefmt::{add_seconds, seconds_between};
 
@@ -27,7 +28,16 @@ pub struct Step {
     pub eirp_dbw: f64,
     pub free_space_loss_db: f64,
     pub atmospheric_loss_db: f64,
+    /// Sky brightness along the boresight (P.618-14 eq. 69), K.
     pub sky_temperature_k: f64,
+    /// Sky through the whole pattern, K.
+    pub sky_noise_k: f64,
+    /// Ground through the whole pattern, K.
+    pub ground_noise_k: f64,
+    /// Man-made noise (ITU-R P.372 Table 1), K.
+    pub man_made_noise_k: f64,
+    /// Receiver noise at the antenna terminals, K.
+    pub receiver_noise_k: f64,
     pub antenna_temperature_k: f64,
     pub system_temperature_k: f64,
     pub g_over_t_db_k: f64,
@@ -40,6 +50,8 @@ pub struct Step {
 #[derive(Debug, Clone, Copy, Default, PartialEq)]
 pub struct RainStep {
     pub atmospheric_loss_db: f64,
+    /// Sky through the whole pattern in the availability case, K.
+    pub sky_noise_k: f64,
     pub system_temperature_k: f64,
     pub cn0_dbhz: f64,
 }
@@ -48,6 +60,8 @@ pub struct RainStep {
 #[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
 pub struct PassWarnings {
     pub atmosphere: ModelWarnings,
+    /// The station's noise model (pattern range, man-made noise range).
+    pub noise: NoiseWarnings,
     /// The spacecraft antenna table did not reach the off-nadir angle: its end value was used.
     pub pattern_clamped: bool,
     /// The station direction was below the geometric horizon (a negative mask).
@@ -58,6 +72,7 @@ impl PassWarnings {
     pub fn union(&self, o: &PassWarnings) -> PassWarnings {
         PassWarnings {
             atmosphere: self.atmosphere.union(&o.atmosphere),
+            noise: self.noise.union(&o.noise),
             pattern_clamped: self.pattern_clamped || o.pattern_clamped,
             below_horizon: self.below_horizon || o.below_horizon,
         }
@@ -66,6 +81,7 @@ impl PassWarnings {
     /// Messages naming the model and its range.
     pub fn messages(&self) -> Vec<String> {
         let mut m: Vec<String> = self.atmosphere.messages().map(String::from).collect();
+        m.extend(self.noise.messages().map(String::from));
         if self.pattern_clamped {
             m.push("spacecraft antenna: the pattern table does not reach the off-nadir angle, its end value was used".into());
         }
@@ -86,6 +102,8 @@ pub enum SeriesError {
         elevation_deg: f64,
         source: BudgetError,
     },
+    #[error("no antenna-noise table for {weather:?}: call StationModel::prepare_weather first")]
+    WeatherNotPrepared { weather: Weather },
 }
 
 /// The budget for one look angle at one station and weather. `reference` is any rate of the
@@ -100,9 +118,14 @@ pub fn budget_at(
     // The atmosphere flags (and clamps) elevations outside its range itself.
     let att = model.atmosphere.at(look.elevation_deg, weather);
     let (geometry, atmosphere) = link_inputs(model, look, &att);
+    // The antenna's noise terms: interpolated from the station's table of this weather.
+    let external = model
+        .noise
+        .external_at(look.elevation_deg, weather)
+        .ok_or(SeriesError::WeatherNotPrepared { weather })?;
     let values = model
         .link
-        .evaluate(geometry, atmosphere, reference)
+        .evaluate(geometry, atmosphere, external, reference)
         .map_err(|source| SeriesError::Budget {
             elevation_deg: look.elevation_deg,
             source,
@@ -159,7 +182,10 @@ pub fn fill_pass(
         reference,
     } = *how;
     steps.clear();
-    let mut warnings = PassWarnings::default();
+    let mut warnings = PassWarnings {
+        noise: model.noise.warnings(),
+        ..Default::default()
+    };
     let duration_s = seconds_between(&pass.aos, &pass.los).max(0.0);
     let n = (duration_s / step_s).floor() as usize;
     for k in 0..=n + 1 {
@@ -192,6 +218,10 @@ pub fn fill_pass(
             free_space_loss_db: v.free_space_loss_db,
             atmospheric_loss_db: att.total_db,
             sky_temperature_k: v.sky_temperature_k,
+            sky_noise_k: v.sky_noise_k,
+            ground_noise_k: v.ground_noise_k,
+            man_made_noise_k: v.man_made_noise_k,
+            receiver_noise_k: v.receiver_noise_k,
             antenna_temperature_k: v.antenna_temperature_k,
             system_temperature_k: v.system_temperature_k,
             g_over_t_db_k: v.g_over_t_db_k,
@@ -203,6 +233,7 @@ pub fn fill_pass(
             warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
             step.rain = Some(RainStep {
                 atmospheric_loss_db: ra.total_db,
+                sky_noise_k: rv.sky_noise_k,
                 system_temperature_k: rv.system_temperature_k,
                 cn0_dbhz: rv.cn0_dbhz,
             });

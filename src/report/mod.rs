@@ -10,7 +10,8 @@ pub mod plan;
 mod staging;
 
 pub use staging::{
-    read_manifest, recover, CommitMode, FolderError, Recovery, Staging, JOURNAL, MANIFEST,
+    read_manifest, recover, CommitMethod, CommitMode, FolderError, Recovery, Staging, Step,
+    JOURNAL, MANIFEST,
 };
 
 pub use atomic::write_atomic;
@@ -68,10 +69,34 @@ pub fn to_csv<T: serde::Serialize>(rows: &[T]) -> Result<String, csv::Error> {
     Ok(String::from_utf8(bytes).expect("csv writes UTF-8"))
 }
 
+/// The longest [`slug`], in bytes: with the longest prefix and suffix of a result file and the
+/// temporary name of an atomic write, a file name stays far below the 255 bytes most file systems
+/// allow.
+pub const MAX_SLUG_BYTES: usize = 64;
+
 /// File-name-safe lower-case slug: `Sierra Baja` -> `sierra-baja`, `Nord-Kam` -> `nord-kam`,
 /// `Ñu` -> `ñu`, `東京` -> `東京`. Unicode letters and digits are kept (lower-cased); every run of
-/// other characters becomes one `-`; a name with no letter or digit gives `unnamed`.
+/// other characters becomes one `-`; a name with no letter or digit gives `unnamed`. A slug longer
+/// than [`MAX_SLUG_BYTES`] keeps its beginning (whole characters) and ends in `-` and 8 hex digits
+/// of a hash of the whole name (64-bit FNV-1a, folded), so that two long names that differ only
+/// further on still give different slugs (and [`check_file_names`] catches the rare equal hash).
 pub fn slug(name: &str) -> String {
+    let s = slug_uncut(name);
+    if s.len() <= MAX_SLUG_BYTES {
+        return s;
+    }
+    let h = name.bytes().fold(0xcbf2_9ce4_8422_2325u64, |h, b| {
+        (h ^ u64::from(b)).wrapping_mul(0x0100_0000_01b3)
+    });
+    let tag = format!("-{:08x}", (h ^ (h >> 32)) as u32);
+    let mut end = MAX_SLUG_BYTES - tag.len();
+    while !s.is_char_boundary(end) {
+        end -= 1;
+    }
+    format!("{}{tag}", s[..end].trim_end_matches('-'))
+}
+
+fn slug_uncut(name: &str) -> String {
     let mut out = String::with_capacity(name.len());
     let mut dash = false;
     for c in name.chars() {
@@ -151,6 +176,27 @@ mod tests {
         assert_eq!(slug("Москва-2"), "москва-2");
         assert_ne!(slug("東京局"), slug("大阪局"));
         assert_eq!(slug("***"), "unnamed");
+    }
+
+    /// A very long station name gives a slug of at most MAX_SLUG_BYTES bytes that keeps its
+    /// beginning and stays unique (before: the whole name went into the file names, and a name of
+    /// 300 characters failed only when the files were written, after the work).
+    #[test]
+    fn long_names_give_short_unique_slugs() {
+        let a = format!("Station {}", "x".repeat(300));
+        let b = format!("Station {}y", "x".repeat(299));
+        for n in [&a, &b] {
+            let s = slug(n);
+            assert!(s.len() <= MAX_SLUG_BYTES, "{s}");
+            assert!(s.starts_with("station-xxxx"), "{s}");
+        }
+        assert_ne!(slug(&a), slug(&b));
+        assert!(check_file_names([a.as_str(), b.as_str()]).is_ok());
+        // Cut on a character boundary (3-byte characters), never inside one.
+        let s = slug(&"東".repeat(100));
+        assert!(s.len() <= MAX_SLUG_BYTES && s.starts_with("東東"), "{s}");
+        let exact = "a".repeat(MAX_SLUG_BYTES);
+        assert_eq!(slug(&exact), exact);
     }
 
     #[test]

@@ -1,40 +1,43 @@
-//! The output folder of a run: results are staged in a hidden folder, then moved into place under
-//! a journal, and a manifest records which files passbudget wrote.
+//! The output folder of a run: results are staged beside it and swapped in as one folder, or
+//! (where that cannot be done) staged inside it and moved in under a journal; a manifest records
+//! which files passbudget wrote.
 //!
-//! Files inside the output folder `DIR` that belong to passbudget (all hidden):
+//! Swap (Linux, [`swap`]): the new set is written into a sibling folder
+//! `PARENT/.NAME.passbudget-swap-<pid>-<n>/` of the output folder `PARENT/NAME`. At the commit the
+//! files the new set keeps (the user's own files, and with [`CommitMode::Add`] the earlier results
+//! it does not replace) are hard-linked into it, its manifest is written, and the two folders are
+//! exchanged with one `renameat2(RENAME_EXCHANGE)`; the previous folder, now at the sibling's
+//! path, is removed after any file of the user changed in it meanwhile is moved back. A kill at
+//! any moment leaves at `PARENT/NAME` either the complete previous folder or the complete new
+//! one; the next run removes or completes what is left beside it.
 //!
-//! * `.passbudget-manifest`: the names of the result files the last committed runs wrote, one a
-//!   line. Only these files are ever replaced or removed; nothing is deleted by name pattern.
-//! * `.passbudget-staging-<pid>-<n>/`: the results of a run in progress (process `<pid>`).
-//! * `.passbudget-journal`: written (atomically, by a hard link that fails if one exists) once
-//!   the complete new set is on disk in the staging folder; it names the staging folder, the files
-//!   to move in, the files of the previous set to remove, and the next manifest.
+//! Journal (the fallback where the folders cannot be exchanged: not Linux, the folder is a mount
+//! point, belongs to another user or holds a folder, the file system refuses the exchange;
+//! [`journal`]): the files are staged in `DIR/.passbudget-staging-<pid>-<n>/`, and a journal
+//! `DIR/.passbudget-journal` (created exclusively once the set is on disk) lists the moves; the
+//! files are renamed into place one by one and the next run completes an interrupted journal.
+//! Between the first move and the end (or the next run) the folder holds new files beside
+//! previous ones.
 //!
-//! A commit then moves the staged files into place (one `rename` each, replacing the previous
-//! file of that name), removes the previous files the journal lists, writes the manifest, removes
-//! the staging folder and finally the journal. Every step can be repeated, so a journal left by an
-//! interrupted process is completed ("rolled forward") by the next [`Staging::new`] in that folder
-//! ([`recover`]) before it does anything else; staging folders and temporary files of processes
-//! that are no longer running are removed there too.
-//!
-//! What this guarantees: no file of the previous set is removed or replaced before the complete
-//! new set is on disk; an interruption before the journal exists leaves the previous set
-//! untouched; an interruption after it leaves a change that the next run in that folder completes
-//! before it does anything else. Between the first move and the end of the commit (or, after a
-//! kill in that phase, until the next run) the folder holds the new files beside the previous
-//! files not yet removed.
+//! Both: `DIR/.passbudget-manifest` lists the result files passbudget wrote; only these are ever
+//! replaced or removed, nothing by name pattern. The folder's lock ([`lock`]) is held while a run
+//! reads the manifest and commits, and while it completes what interrupted runs left
+//! ([`recover`]), which every [`Staging::new`] does first.
 
 use std::collections::BTreeSet;
-use std::io::Write;
 use std::ops::ControlFlow;
 use std::path::{Path, PathBuf};
 
+mod journal;
+mod lock;
+#[cfg(target_os = "linux")]
+mod swap;
+
 /// The manifest file: names of the result files passbudget wrote into the folder.
 pub const MANIFEST: &str = ".passbudget-manifest";
-/// The journal of a commit in progress.
+/// The journal of a journaled commit in progress.
 pub const JOURNAL: &str = ".passbudget-journal";
 const PREFIX: &str = ".passbudget-";
-const JOURNAL_HEADER: &str = "passbudget-journal 1";
 
 /// What can go wrong with the output folder.
 #[derive(Debug, thiserror::Error)]
@@ -49,8 +52,8 @@ pub enum FolderError {
     NotAFile { path: PathBuf },
     #[error("{} exists and was not written by passbudget (it is not in {MANIFEST}): move it away or choose another folder", path.display())]
     NotOurs { path: PathBuf },
-    #[error("another passbudget run (process {pid}) is moving its results into this folder; run again when it has finished")]
-    Busy { pid: u32 },
+    #[error("another passbudget run{} is moving its results into this folder; run again when it has finished", pid.map(|p| format!(" (process {p})")).unwrap_or_default())]
+    Busy { pid: Option<u32> },
     #[error("{}: unreadable journal of an interrupted run: {reason}", path.display())]
     BadJournal { path: PathBuf, reason: String },
     #[error("the commit was stopped by its hook (test of an interruption)")]
@@ -75,6 +78,50 @@ pub enum CommitMode {
     Add,
 }
 
+/// A point of a commit at which [`Staging::commit_with`] calls its hook (for tests of
+/// interruptions). Its text form (`locked`, `linked-2`, `moved-3`, ...) names it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Step {
+    /// The folder is locked; nothing has changed yet.
+    Locked,
+    /// Swap: the n-th entry the new set keeps is linked into the new folder.
+    Linked(usize),
+    /// Swap: the new folder is complete with its manifest, just before the exchange.
+    Complete,
+    /// Swap: the folders are exchanged; the previous one is at the sibling's path.
+    Swapped,
+    /// Swap: files of the user changed meanwhile are back; the previous folder is not yet removed.
+    Restored,
+    /// Journal: the journal is on disk; nothing has moved yet.
+    Journaled,
+    /// Journal: the n-th file has moved into place.
+    Moved(usize),
+}
+
+impl std::fmt::Display for Step {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            Step::Locked => write!(f, "locked"),
+            Step::Linked(n) => write!(f, "linked-{n}"),
+            Step::Complete => write!(f, "complete"),
+            Step::Swapped => write!(f, "swapped"),
+            Step::Restored => write!(f, "restored"),
+            Step::Journaled => write!(f, "journaled"),
+            Step::Moved(n) => write!(f, "moved-{n}"),
+        }
+    }
+}
+
+/// How a commit was done.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum CommitMethod {
+    /// The new folder was swapped in as a whole.
+    Swapped,
+    /// The files were moved in one by one under a journal, for this reason (the folder's
+    /// description: "it is a mount point", ...).
+    Journaled { reason: String },
+}
+
 /// What [`recover`] found and did.
 #[derive(Debug, Clone, Default, PartialEq, Eq)]
 pub struct Recovery {
@@ -82,24 +129,58 @@ pub struct Recovery {
     pub completed_commit: bool,
     /// Staging folders and temporary files of processes no longer running that were removed.
     pub removed_leftovers: usize,
+    /// Files of the user moved back from a previous folder left by an interrupted swap.
+    pub restored_files: usize,
 }
 
-/// An output folder being filled: the files go into a hidden staging folder inside it, and
-/// [`Staging::commit`] moves them into place. Dropped without a commit, it removes its staging
-/// folder, so a failed run changes nothing in the folder.
+enum Method {
+    #[cfg(target_os = "linux")]
+    Swap(swap::Sibling),
+    Journal {
+        reason: String,
+    },
+}
+
+/// An output folder being filled: the files go into a hidden staging folder (beside it or inside
+/// it), and [`Staging::commit`] puts them in place. Dropped without a commit, it removes its
+/// staging folder, so a failed run changes nothing in the folder.
 pub struct Staging {
     final_dir: PathBuf,
     dir: PathBuf,
+    method: Method,
     committed: bool,
     recovery: Recovery,
 }
 
 impl Staging {
     /// Create `final_dir` if needed, complete or clear what interrupted runs left there
-    /// ([`recover`]), and create a staging folder inside it.
+    /// ([`recover`]), and create a staging folder: a sibling to swap in where the folders can be
+    /// exchanged, else a folder inside it.
     pub fn new(final_dir: &Path) -> Result<Staging, FolderError> {
         std::fs::create_dir_all(final_dir).map_err(io_at(final_dir))?;
         let recovery = recover(final_dir)?;
+        #[cfg(target_os = "linux")]
+        let reason = match swap::open(final_dir) {
+            Ok(s) => {
+                return Ok(Staging {
+                    final_dir: final_dir.to_path_buf(),
+                    dir: s.path.clone(),
+                    method: Method::Swap(s),
+                    committed: false,
+                    recovery,
+                })
+            }
+            Err(reason) => reason,
+        };
+        #[cfg(not(target_os = "linux"))]
+        let reason = String::from("this system cannot exchange two folders atomically");
+        let mut st = Staging::journaled(final_dir, reason)?;
+        st.recovery = recovery;
+        Ok(st)
+    }
+
+    /// A staging folder inside `final_dir`, committed under a journal (`reason`: why).
+    fn journaled(final_dir: &Path, reason: String) -> Result<Staging, FolderError> {
         let dir = final_dir.join(format!(
             "{PREFIX}staging-{}-{}",
             std::process::id(),
@@ -109,8 +190,9 @@ impl Staging {
         Ok(Staging {
             final_dir: final_dir.to_path_buf(),
             dir,
+            method: Method::Journal { reason },
             committed: false,
-            recovery,
+            recovery: Recovery::default(),
         })
     }
 
@@ -126,91 +208,160 @@ impl Staging {
 
     /// Names of the files staged so far, sorted.
     pub fn staged_names(&self) -> Result<Vec<String>, FolderError> {
-        let mut names = list_names(&self.dir)?;
+        let mut names: Vec<String> = list_names(&self.dir)?
+            .into_iter()
+            .filter(|n| n != MANIFEST)
+            .collect();
         names.sort();
         Ok(names)
     }
 
-    /// Move the staged files into place (see the module documentation for the steps and what is
+    /// Put the staged files in place (see the module documentation for the steps and what is
     /// guaranteed). Before anything changes, every destination must be absent or a plain file
     /// that the manifest lists.
-    pub fn commit(self, mode: CommitMode) -> Result<(), FolderError> {
+    pub fn commit(self, mode: CommitMode) -> Result<CommitMethod, FolderError> {
         self.commit_with(mode, |_| ControlFlow::Continue(()))
     }
 
-    /// [`Staging::commit`] calling `after_move(n)` after the n-th file moved into place; a
-    /// `Break` stops the commit there as if the process had been killed (the journal and the
-    /// staging folder stay for [`recover`]). For tests of interruptions.
+    /// [`Staging::commit`] calling `hook` at each [`Step`]; a `Break` stops the commit there as
+    /// if the process had been killed (what is on disk stays for [`recover`]). For tests.
     pub fn commit_with(
         mut self,
         mode: CommitMode,
-        after_move: impl FnMut(usize) -> ControlFlow<()>,
-    ) -> Result<(), FolderError> {
+        mut hook: impl FnMut(Step) -> ControlFlow<()>,
+    ) -> Result<CommitMethod, FolderError> {
+        let _lock = lock::lock(&self.final_dir)?;
+        if hook(Step::Locked).is_break() {
+            self.committed = true;
+            return Err(FolderError::Stopped);
+        }
         let staged = self.staged_names()?;
-        let old = read_manifest(&self.final_dir)?;
-        for n in &staged {
-            let dest = self.final_dir.join(n);
-            if let Ok(m) = std::fs::symlink_metadata(&dest) {
-                if !m.file_type().is_file() {
-                    return Err(FolderError::NotAFile { path: dest });
-                }
-                if !old.contains(n) {
-                    return Err(FolderError::NotOurs { path: dest });
-                }
+        #[cfg(target_os = "linux")]
+        if let Method::Swap(s) = &self.method {
+            let outcome = swap::commit(s, &staged, mode, &mut hook);
+            // A sibling never exchanged still names itself; after an exchange (or a simulated
+            // kill) what is at its path belongs to recover().
+            let exchanged = manifest_token(&s.path).ok().flatten().as_deref() != Some(s.token());
+            self.committed = matches!(outcome, Err(FolderError::Stopped)) || exchanged;
+            match outcome? {
+                swap::Outcome::Swapped => return Ok(CommitMethod::Swapped),
+                swap::Outcome::Fallback(reason) => self.move_inside(reason)?,
             }
         }
-        let remove: Vec<String> = match mode {
-            CommitMode::Replace => old
-                .iter()
-                .filter(|n| !staged.contains(n))
-                .cloned()
-                .collect(),
-            CommitMode::Add => Vec::new(),
+        let reason = match &self.method {
+            Method::Journal { reason } => reason.clone(),
+            #[cfg(target_os = "linux")]
+            Method::Swap(_) => unreachable!("moved inside above"),
         };
-        let mut keep: BTreeSet<String> = staged.iter().cloned().collect();
-        if mode == CommitMode::Add {
-            keep.extend(old);
-        }
-        let journal = Journal {
-            pid: std::process::id(),
-            staging: file_name(&self.dir),
-            moves: staged,
-            removes: remove,
-            manifest: keep.into_iter().collect(),
-        };
-        sync_dir(&self.dir)?;
-        write_journal(&self.final_dir, &journal)?;
-        // From here on the journal owns the staging folder.
+        // From the journal on, the journal owns the staging folder.
         self.committed = true;
-        roll_forward(&self.final_dir, &journal, after_move)
+        journal::commit(&self.final_dir, &self.dir, staged, mode, &mut hook)?;
+        Ok(CommitMethod::Journaled { reason })
+    }
+
+    /// Move the staged files from the sibling into a staging folder inside the output folder, for
+    /// a journaled commit: one rename of the folder, or where that fails (another mount of the
+    /// same file system) a copy of each file.
+    #[cfg(target_os = "linux")]
+    fn move_inside(&mut self, reason: String) -> Result<(), FolderError> {
+        let inside = Staging::journaled(&self.final_dir, reason)?;
+        let manifest = self.dir.join(MANIFEST);
+        std::fs::remove_file(&manifest).map_err(io_at(&manifest))?;
+        let renamed =
+            std::fs::remove_dir(&inside.dir).and_then(|()| std::fs::rename(&self.dir, &inside.dir));
+        if renamed.is_err() {
+            let _ = std::fs::create_dir(&inside.dir);
+            for n in self.staged_names()? {
+                let to = inside.dir.join(&n);
+                std::fs::copy(self.dir.join(&n), &to).map_err(io_at(&to))?;
+            }
+            remove_tree(&self.dir)?;
+        }
+        let mut inside = inside;
+        self.dir = std::mem::take(&mut inside.dir);
+        inside.committed = true;
+        self.method = std::mem::replace(
+            &mut inside.method,
+            Method::Journal {
+                reason: String::new(),
+            },
+        );
+        Ok(())
     }
 }
 
 impl Drop for Staging {
     fn drop(&mut self) {
-        if !self.committed {
-            let _ = std::fs::remove_dir_all(&self.dir);
+        if !self.committed && !self.dir.as_os_str().is_empty() {
+            let _ = remove_tree(&self.dir);
         }
     }
 }
 
-/// Complete what interrupted runs left in `dir`: a journal whose process is no longer running is
-/// rolled forward; staging folders and temporary files of processes no longer running are
-/// removed. A journal of a running process is an error ([`FolderError::Busy`]).
+/// Remove a sibling folder, its manifest last: a removal cut short by a kill leaves a folder
+/// whose manifest still tells a later run which of its entries are passbudget's.
+fn remove_tree(path: &Path) -> Result<(), FolderError> {
+    for n in list_names(path)? {
+        if n == MANIFEST {
+            continue;
+        }
+        let p = path.join(&n);
+        let is_dir = std::fs::symlink_metadata(&p).is_ok_and(|m| m.is_dir());
+        let removed = if is_dir {
+            std::fs::remove_dir_all(&p)
+        } else {
+            std::fs::remove_file(&p)
+        };
+        removed.map_err(io_at(&p))?;
+    }
+    let m = path.join(MANIFEST);
+    if m.exists() {
+        std::fs::remove_file(&m).map_err(io_at(&m))?;
+    }
+    std::fs::remove_dir(path).map_err(io_at(path))
+}
+
+/// Every destination of a staged file is absent or a plain file the manifest `old` lists.
+fn check_destinations(
+    dir: &Path,
+    staged: &[String],
+    old: &BTreeSet<String>,
+) -> Result<(), FolderError> {
+    for n in staged {
+        let dest = dir.join(n);
+        if let Ok(m) = std::fs::symlink_metadata(&dest) {
+            if !m.file_type().is_file() {
+                return Err(FolderError::NotAFile { path: dest });
+            }
+            if !old.contains(n) {
+                return Err(FolderError::NotOurs { path: dest });
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Complete what interrupted runs left in and beside `dir`, under the folder's lock: a journal
+/// whose process is no longer running is rolled forward; a previous folder left by an interrupted
+/// swap gives back the user's files changed meanwhile and is removed; staging folders and
+/// temporary files of processes no longer running are removed. A journal of a running process,
+/// or the lock held by another run, is an error ([`FolderError::Busy`]).
 pub fn recover(dir: &Path) -> Result<Recovery, FolderError> {
     recover_with(dir, &process_alive)
 }
 
 fn recover_with(dir: &Path, alive: &dyn Fn(u32) -> bool) -> Result<Recovery, FolderError> {
-    let mut r = Recovery::default();
-    let jpath = dir.join(JOURNAL);
-    if jpath.exists() {
-        let j = read_journal(&jpath)?;
-        if alive(j.pid) {
-            return Err(FolderError::Busy { pid: j.pid });
-        }
-        roll_forward(dir, &j, |_| ControlFlow::Continue(()))?;
-        r.completed_commit = true;
+    let _lock = lock::lock(dir)?;
+    let mut r = Recovery {
+        completed_commit: journal::recover(dir, alive)?,
+        ..Recovery::default()
+    };
+    #[cfg(target_os = "linux")]
+    {
+        let found = swap::recover(dir, alive)?;
+        r.completed_commit |= found.completed > 0;
+        r.removed_leftovers += found.removed;
+        r.restored_files += found.restored;
     }
     for name in list_names(dir)? {
         let Some(pid) = leftover_pid(&name) else {
@@ -259,159 +410,42 @@ fn process_alive(pid: u32) -> bool {
     !proc_fs.join("self").exists() || proc_fs.join(pid.to_string()).exists()
 }
 
-/// The steps of a commit after the journal; each can be repeated.
-fn roll_forward(
-    dir: &Path,
-    j: &Journal,
-    mut after_move: impl FnMut(usize) -> ControlFlow<()>,
-) -> Result<(), FolderError> {
-    let staging = dir.join(&j.staging);
-    for (i, n) in j.moves.iter().enumerate() {
-        let from = staging.join(n);
-        if from.exists() {
-            let to = dir.join(n);
-            std::fs::rename(&from, &to).map_err(io_at(&to))?;
-        }
-        if after_move(i + 1).is_break() {
-            return Err(FolderError::Stopped);
-        }
-    }
-    for n in &j.removes {
-        let p = dir.join(n);
-        if std::fs::symlink_metadata(&p).is_ok_and(|m| m.file_type().is_file()) {
-            std::fs::remove_file(&p).map_err(io_at(&p))?;
-        }
-    }
-    let mut text = String::new();
-    for n in &j.manifest {
-        text.push_str(n);
-        text.push('\n');
-    }
-    let mpath = dir.join(MANIFEST);
-    super::atomic::write_atomic(&mpath, text.as_bytes()).map_err(io_at(&mpath))?;
-    if staging.exists() {
-        std::fs::remove_dir_all(&staging).map_err(io_at(&staging))?;
-    }
-    sync_dir(dir)?;
-    let jpath = dir.join(JOURNAL);
-    std::fs::remove_file(&jpath).map_err(io_at(&jpath))?;
-    sync_dir(dir)
-}
-
 /// The names in the folder's manifest (empty when there is none).
 pub fn read_manifest(dir: &Path) -> Result<BTreeSet<String>, FolderError> {
+    Ok(read_manifest_text(dir)?
+        .lines()
+        .filter(|l| !l.is_empty() && !l.starts_with('#'))
+        .map(String::from)
+        .collect())
+}
+
+/// The `#tree` line of a folder's manifest (the sibling it was built in), if any.
+#[cfg_attr(not(target_os = "linux"), allow(dead_code))]
+fn manifest_token(dir: &Path) -> Result<Option<String>, FolderError> {
+    Ok(read_manifest_text(dir)?
+        .lines()
+        .find_map(|l| l.strip_prefix("#tree "))
+        .map(String::from))
+}
+
+fn read_manifest_text(dir: &Path) -> Result<String, FolderError> {
     let p = dir.join(MANIFEST);
     match std::fs::read_to_string(&p) {
-        Ok(t) => Ok(t
-            .lines()
-            .filter(|l| !l.is_empty())
-            .map(String::from)
-            .collect()),
-        Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok(BTreeSet::new()),
+        Ok(t) => Ok(t),
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok(String::new()),
         Err(e) => Err(io_at(&p)(e)),
     }
 }
 
-#[derive(Debug, Clone, PartialEq, Eq)]
-struct Journal {
-    pid: u32,
-    staging: String,
-    moves: Vec<String>,
-    removes: Vec<String>,
-    manifest: Vec<String>,
-}
-
-impl Journal {
-    fn to_text(&self) -> String {
-        let mut t = format!(
-            "{JOURNAL_HEADER}\npid {}\nstaging {}\n",
-            self.pid, self.staging
-        );
-        for (key, names) in [
-            ("move", &self.moves),
-            ("remove", &self.removes),
-            ("keep", &self.manifest),
-        ] {
-            for n in names {
-                t.push_str(&format!("{key} {n}\n"));
-            }
-        }
-        t.push_str("end\n");
-        t
+/// Write a folder's manifest atomically: the `#tree <token>` line (swap), then one name a line.
+fn write_manifest(dir: &Path, names: &[String], token: Option<&str>) -> Result<(), FolderError> {
+    let mut text = token.map(|t| format!("#tree {t}\n")).unwrap_or_default();
+    for n in names {
+        text.push_str(n);
+        text.push('\n');
     }
-
-    fn parse(text: &str) -> Result<Journal, String> {
-        let mut lines = text.lines();
-        if lines.next() != Some(JOURNAL_HEADER) || !text.ends_with("end\n") {
-            return Err("not a complete journal".into());
-        }
-        let mut j = Journal {
-            pid: 0,
-            staging: String::new(),
-            moves: Vec::new(),
-            removes: Vec::new(),
-            manifest: Vec::new(),
-        };
-        for l in lines.filter(|l| *l != "end") {
-            let (key, value) = l.split_once(' ').ok_or(format!("line '{l}'"))?;
-            let value = value.to_string();
-            if value.contains('/') || value.starts_with("..") {
-                return Err(format!("name '{value}' is not a plain file name"));
-            }
-            match key {
-                "pid" => j.pid = value.parse().map_err(|_| format!("pid '{value}'"))?,
-                "staging" => j.staging = value,
-                "move" => j.moves.push(value),
-                "remove" => j.removes.push(value),
-                "keep" => j.manifest.push(value),
-                _ => return Err(format!("line '{l}'")),
-            }
-        }
-        if !j.staging.starts_with(PREFIX) {
-            return Err("no staging folder".into());
-        }
-        Ok(j)
-    }
-}
-
-fn read_journal(path: &Path) -> Result<Journal, FolderError> {
-    let text = std::fs::read_to_string(path).map_err(io_at(path))?;
-    Journal::parse(&text).map_err(|reason| FolderError::BadJournal {
-        path: path.to_path_buf(),
-        reason,
-    })
-}
-
-/// Write the journal atomically and exclusively: a synced temporary file is hard-linked to the
-/// journal's name, which fails if a journal exists. A journal of a process no longer running is
-/// completed first.
-fn write_journal(dir: &Path, j: &Journal) -> Result<(), FolderError> {
-    let jpath = dir.join(JOURNAL);
-    let tmp = dir.join(format!(
-        "{JOURNAL}.tmp-{}-{}",
-        std::process::id(),
-        super::atomic::next_serial()
-    ));
-    let written = (|| {
-        let mut f = std::fs::File::create(&tmp)?;
-        f.write_all(j.to_text().as_bytes())?;
-        f.sync_all()
-    })();
-    written.map_err(io_at(&tmp))?;
-    let mut linked = std::fs::hard_link(&tmp, &jpath);
-    if linked
-        .as_ref()
-        .is_err_and(|e| e.kind() == std::io::ErrorKind::AlreadyExists)
-    {
-        if let Err(e) = recover(dir) {
-            let _ = std::fs::remove_file(&tmp);
-            return Err(e);
-        }
-        linked = std::fs::hard_link(&tmp, &jpath);
-    }
-    let _ = std::fs::remove_file(&tmp);
-    linked.map_err(io_at(&jpath))?;
-    sync_dir(dir)
+    let p = dir.join(MANIFEST);
+    super::atomic::write_atomic(&p, text.as_bytes()).map_err(io_at(&p))
 }
 
 fn list_names(dir: &Path) -> Result<Vec<String>, FolderError> {

@@ -58,6 +58,11 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
             closed: margin >= margin_req,
             adaptive_rate_bps: adaptive,
             system_temperature_k: tsys,
+            // toy split of Tsys: 70 K receiver, the rest shared by sky (80 %) and ground
+            sky_noise_k: 0.8 * (tsys - 70.0),
+            ground_noise_k: 0.2 * (tsys - 70.0),
+            man_made_noise_k: 0.0,
+            receiver_noise_k: 70.0,
             atmospheric_loss_db: atm,
         });
         t += 10.0;

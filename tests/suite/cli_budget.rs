@@ -114,6 +114,10 @@ fn budget_json_keys_and_rate_behaviour() {
         "polarization_loss_db",
         "pointing_loss_db",
         "antenna_gain_dbi",
+        "sky_noise_k",
+        "ground_noise_k",
+        "man_made_noise_k",
+        "receiver_noise_k",
         "antenna_temperature_k",
         "system_temperature_k",
         "g_over_t_db_k",
@@ -140,6 +144,11 @@ fn budget_json_keys_and_rate_behaviour() {
         "{cn0} vs {}",
         g("cn0_dbhz")
     );
+    // The noise terms add up: Ta = sky + ground + man-made, Tsys = Ta + receiver (rounded to mK).
+    let ta = g("sky_noise_k") + g("ground_noise_k") + g("man_made_noise_k");
+    assert!((ta - g("antenna_temperature_k")).abs() < 2e-3);
+    assert!((ta + g("receiver_noise_k") - g("system_temperature_k")).abs() < 3e-3);
+    assert_eq!(g("man_made_noise_k"), 0.0);
     // Slant range at 30 deg for a ~545 km orbit (spherical triangle): about 1000 km.
     assert!((g("range_km") - 1000.0).abs() < 60.0, "{}", g("range_km"));
     // Antenna temperature rises as elevation falls.

@@ -251,6 +251,35 @@ fn a_decay_is_reported_once_at_the_first_failing_second() {
         lines[0].contains(&passbudget::timefmt::format_ms(&t)),
         "{err}"
     );
+    // The time once in each line (before: the error repeated it, with the minutes from epoch).
+    let stamp = passbudget::timefmt::format_ms(&t);
+    for line in [head[0].as_str(), lines[0]] {
+        assert_eq!(line.matches("2026-").count(), 1, "{line}");
+        assert!(!line.contains("min from epoch"), "{line}");
+    }
+    // `track` (a step of 7 min) reports the same first failing second, not its step's time
+    // (before: "propagation stopped" at the sample time, a different time and resolution).
+    let o = run(&[
+        "track",
+        "--tle",
+        &tle,
+        "--station",
+        "stations/nordkam.yaml",
+        "--start",
+        "2026-12-01T12:00:00Z",
+        "--days",
+        "30",
+        "--step",
+        "420",
+    ]);
+    let err = String::from_utf8_lossy(&o.stderr);
+    let lines: Vec<&str> = err.lines().filter(|l| l.contains("propagation")).collect();
+    assert_eq!(lines.len(), 1, "{err}");
+    assert!(
+        lines[0].contains(&format!("propagation stops at {stamp} (")),
+        "{err}"
+    );
+    assert!(lines[0].ends_with("; the track ends there"), "{err}");
 }
 
 // ---- item 7: messages ----

@@ -3,6 +3,7 @@
 
 mod common;
 
+mod antenna_noise;
 mod atmosphere_alloc;
 mod atmosphere_api;
 mod atmosphere_valex;

@@ -1,13 +1,13 @@
-//! The `--out` folder: file names unique per station, results moved into place under a journal
-//! that the next run completes after an interruption, a manifest so that only passbudget's own
-//! files are replaced or removed, leftovers of interrupted runs removed, and no run that would
-//! fill the disk without being asked.
+//! The `--out` folder: file names unique per station, the new set swapped in as one folder (or,
+//! where it cannot be, moved in under a journal that the next run completes), a manifest so that
+//! only passbudget's own files are replaced or removed, leftovers of interrupted runs removed, and
+//! no run that would fill the disk without being asked.
 
 use crate::common::bin::{clean_error, command, root, run, success, write};
 use crate::common::plan::load_plan_setup;
 use passbudget::chart::ChartFormat;
 use passbudget::report::files::{estimate_output, ChartBytes, OutputRequest};
-use passbudget::report::MANIFEST;
+use passbudget::report::{read_manifest, MANIFEST};
 use std::collections::BTreeMap;
 use std::path::Path;
 use std::process::Output;
@@ -69,8 +69,7 @@ fn hidden(dir: &Path) -> Vec<String> {
 
 /// The manifest's names equal the folder's result files (all visible files but `keep`).
 fn manifest_matches(dir: &Path, keep: &[&str]) {
-    let manifest = std::fs::read_to_string(dir.join(MANIFEST)).unwrap();
-    let listed: Vec<&str> = manifest.lines().collect();
+    let listed: Vec<String> = read_manifest(dir).unwrap().into_iter().collect();
     let visible: Vec<String> = names(dir)
         .into_iter()
         .filter(|n| !n.starts_with('.') && !keep.contains(&n.as_str()))
@@ -148,6 +147,34 @@ fn non_latin_station_names_give_their_own_files() {
     assert!(!n.iter().any(|x| x.contains("unnamed")), "{n:?}");
 }
 
+/// A station name of 300 characters: the run writes its files under a shortened name (before: it
+/// failed only when the files were written, after the work).
+#[test]
+fn a_very_long_station_name_gives_short_file_names() {
+    let dir = tempfile::tempdir().unwrap();
+    let long = format!("Nordkam {}", "Long".repeat(73));
+    let mission = mission_with_stations(dir.path(), &[&long]);
+    let out = dir.path().join("out");
+    let o = out.to_string_lossy().into_owned();
+    success(&run(&[
+        "plan",
+        &mission,
+        "--days",
+        "0.3",
+        "--out",
+        &o,
+        "--charts",
+        "--chart-format",
+        "svg",
+    ]));
+    let n = names(&out);
+    assert!(
+        n.iter().any(|x| x.starts_with("mask-nordkam-longlong")),
+        "{n:?}"
+    );
+    assert!(n.iter().all(|x| x.len() < 120), "{n:?}");
+}
+
 /// Files of the user that merely look like outputs survive a run; files of a previous run that
 /// the new run does not write are removed because the manifest lists them.
 #[test]
@@ -200,46 +227,152 @@ fn a_same_named_file_of_the_user_is_not_replaced() {
     assert_eq!(contents(&out), before);
 }
 
-/// A kill while the results are moved into place (the test hook aborts the process after the
-/// N-th move; N = 0 just before the commit) leaves either the previous set untouched or a
-/// journal, and the next run in that folder completes the change before anything else: the
-/// folder then holds exactly the complete new set.
-#[test]
-fn a_kill_during_the_move_is_completed_by_the_next_run() {
-    let dir = tempfile::tempdir().unwrap();
-    let previous = dir.path().join("previous");
-    success(&plan_into(&previous, &["--days", "1"]));
-    let reference = dir.path().join("reference");
-    success(&plan_into(&reference, &["--days", "0.5"]));
-    let old = contents(&previous);
-    let new = contents(&reference);
-    let moves = new.len() - 1; // every file but the manifest is moved
-    for stop in [0, 1, 7, moves] {
-        let out = dir.path().join(format!("out{stop}"));
-        std::fs::create_dir(&out).unwrap();
-        for (n, b) in &old {
-            std::fs::write(out.join(n), b).unwrap();
-        }
-        let o = out.to_string_lossy().into_owned();
-        let r = command()
-            .current_dir(root())
-            .env("PASSBUDGET_TEST_STOP_AFTER_MOVES", stop.to_string())
-            .args(["plan", MISSION, "--days", "0.5", "--out", &o])
-            .output()
-            .unwrap();
-        assert!(!r.status.success(), "the hook stopped the run at {stop}");
-        if stop == 0 {
-            assert_eq!(contents(&out), old, "the previous set untouched");
-        } else {
-            assert!(out.join(".passbudget-journal").exists());
-        }
-        // The next run (here one that fails on its input right after opening the folder).
-        let r = plan_into(&out, &["--step", "0"]);
-        clean_error(&r, &["--step"]);
-        let expect = if stop == 0 { &old } else { &new };
-        assert_eq!(&contents(&out), expect, "after a stop at move {stop}");
-        assert_eq!(hidden(&out), [MANIFEST], "after a stop at move {stop}");
+/// What a reader of the folder sees: the visible files with the length and a 64-bit FNV-1a hash
+/// of their bytes, and the manifest's names (the manifest's own bytes name the folder it was
+/// built in).
+fn state(dir: &Path) -> (BTreeMap<String, (usize, u64)>, Vec<String>) {
+    let fnv = |b: &[u8]| {
+        b.iter().fold(0xcbf2_9ce4_8422_2325u64, |h, &x| {
+            (h ^ u64::from(x)).wrapping_mul(0x0100_0000_01b3)
+        })
+    };
+    let files = contents(dir)
+        .into_iter()
+        .filter(|(n, _)| !n.starts_with('.'))
+        .map(|(n, b)| (n, (b.len(), fnv(&b))))
+        .collect();
+    (files, read_manifest(dir).unwrap().into_iter().collect())
+}
+
+/// Entries of passbudget beside `dir` in its parent (siblings of a swap).
+fn beside(dir: &Path) -> Vec<String> {
+    let name = dir.file_name().unwrap().to_string_lossy().into_owned();
+    names(dir.parent().unwrap())
+        .into_iter()
+        .filter(|n| n.starts_with(&format!(".{name}.passbudget-")))
+        .collect()
+}
+
+/// A folder holding the results of `plan --days 1` and the user's `notes.txt` (and, for `journal`,
+/// the user's folder `drafts/`, which makes the commit fall back to the journal).
+fn previous_results(dir: &Path, name: &str, journal: bool) -> std::path::PathBuf {
+    let out = dir.join(name);
+    std::fs::create_dir(&out).unwrap();
+    std::fs::write(out.join("notes.txt"), "the user's").unwrap();
+    if journal {
+        std::fs::create_dir(out.join("drafts")).unwrap();
     }
+    success(&plan_into(&out, &["--days", "1"]));
+    out
+}
+
+/// A kill at each step of the commit (the test hook aborts the process there; `start` is just
+/// before it): the folder holds exactly the previous set or exactly the new one, and the next run
+/// in that folder leaves exactly that set (swap) or completes the change before anything else
+/// (journal: the fallback, here because the folder holds a folder of the user), with nothing
+/// left inside or beside the folder.
+#[test]
+fn a_kill_at_any_step_of_the_commit_leaves_a_complete_set() {
+    let dir = tempfile::tempdir().unwrap();
+    for journal in [false, true] {
+        let old = state(&previous_results(
+            dir.path(),
+            &format!("old{journal}"),
+            journal,
+        ));
+        let reference = previous_results(dir.path(), &format!("ref{journal}"), journal);
+        success(&plan_into(&reference, &["--days", "0.5"]));
+        let new = state(&reference);
+        let steps: &[&str] = if journal {
+            &[
+                "start",
+                "locked",
+                "journaled",
+                "moved-1",
+                "moved-7",
+                "moved-12",
+            ]
+        } else {
+            &[
+                "start", "locked", "linked-1", "complete", "swapped", "restored",
+            ]
+        };
+        for stop in steps {
+            let out = previous_results(dir.path(), &format!("out-{stop}-{journal}"), journal);
+            let o = out.to_string_lossy().into_owned();
+            let r = command()
+                .current_dir(root())
+                .env("PASSBUDGET_TEST_STOP_AT", stop)
+                .args(["plan", MISSION, "--days", "0.5", "--out", &o])
+                .output()
+                .unwrap();
+            assert!(!r.status.success(), "the hook stopped the run at {stop}");
+            let done = ["swapped", "restored"].contains(stop);
+            if !journal {
+                let expect = if done { &new } else { &old };
+                assert_eq!(&state(&out), expect, "right after a kill at {stop}");
+            }
+            // The next run (here one that fails on its input right after opening the folder).
+            let r = plan_into(&out, &["--step", "0"]);
+            clean_error(&r, &["--step"]);
+            let journaled = stop.starts_with("moved") || *stop == "journaled";
+            let expect = if done || journaled { &new } else { &old };
+            assert_eq!(&state(&out), expect, "after a kill at {stop}");
+            assert_eq!(hidden(&out), [MANIFEST], "after a kill at {stop}");
+            assert!(beside(&out).is_empty(), "{stop}: {:?}", beside(&out));
+        }
+    }
+}
+
+/// Real kills (SIGKILL) at moments spread over whole runs that replace a previous set: every
+/// time, the folder holds exactly the previous or exactly the new set, and after the next run
+/// nothing is left beside it.
+#[test]
+fn a_sigkill_at_any_moment_leaves_the_old_or_the_new_set() {
+    let dir = tempfile::tempdir().unwrap();
+    let old = state(&previous_results(dir.path(), "old", false));
+    let reference = previous_results(dir.path(), "ref", false);
+    let started = std::time::Instant::now();
+    success(&plan_into(&reference, &["--days", "0.5"]));
+    // Kills spread from the start to past the end of a whole run on this machine (whatever its
+    // load), so both outcomes occur.
+    let run_ms = started.elapsed().as_millis() as u64;
+    let spacing_ms = (run_ms * 5 / 4 / 23).max(1);
+    let new = state(&reference);
+    let mut seen_old = 0;
+    let mut seen_new = 0;
+    for k in 0..24u64 {
+        let out = previous_results(dir.path(), &format!("out{k}"), false);
+        let o = out.to_string_lossy().into_owned();
+        let mut child = command()
+            .current_dir(root())
+            .args(["plan", MISSION, "--days", "0.5", "--out", &o])
+            .stdout(std::process::Stdio::null())
+            .stderr(std::process::Stdio::null())
+            .spawn()
+            .unwrap();
+        std::thread::sleep(std::time::Duration::from_millis(spacing_ms * k));
+        let _ = child.kill();
+        child.wait().unwrap();
+        let now = state(&out);
+        assert!(
+            now == old || now == new,
+            "a kill after {} ms: a mixed folder",
+            spacing_ms * k
+        );
+        if now == old {
+            seen_old += 1;
+        } else {
+            seen_new += 1;
+        }
+        clean_error(&plan_into(&out, &["--step", "0"]), &["--step"]);
+        assert_eq!(state(&out), now, "a kill after {} ms", spacing_ms * k);
+        assert!(beside(&out).is_empty(), "{:?}", beside(&out));
+    }
+    assert!(
+        seen_old > 0 && seen_new > 0,
+        "{seen_old} old, {seen_new} new"
+    );
 }
 
 /// A process killed while it plans leaves its staging folder; the next run removes it, as it
@@ -259,21 +392,14 @@ fn leftovers_of_killed_runs_are_removed_by_the_next_run() {
         .spawn()
         .unwrap();
     let t0 = std::time::Instant::now();
-    while !names(&out)
-        .iter()
-        .any(|n| n.starts_with(".passbudget-staging-"))
-    {
+    while !beside(&out).iter().any(|n| n.contains(".passbudget-swap-")) {
         assert!(t0.elapsed().as_secs() < 60, "no staging folder appeared");
         std::thread::sleep(std::time::Duration::from_millis(20));
     }
     std::thread::sleep(std::time::Duration::from_millis(300));
     child.kill().unwrap(); // SIGKILL
     child.wait().unwrap();
-    let staged: Vec<String> = hidden(&out)
-        .into_iter()
-        .filter(|n| n.starts_with(".passbudget-staging-"))
-        .collect();
-    assert_eq!(staged.len(), 1);
+    assert_eq!(beside(&out).len(), 1, "{:?}", beside(&out));
     // A leftover backup folder of an earlier version, of a process that has ended.
     let mut ended = std::process::Command::new("true").spawn().unwrap();
     let dead = ended.id();
@@ -294,6 +420,7 @@ fn leftovers_of_killed_runs_are_removed_by_the_next_run() {
     clean_error(&r, &["--step"]);
     assert!(String::from_utf8_lossy(&r.stderr).contains("removed 2"));
     assert_eq!(contents(&out), before);
+    assert!(beside(&out).is_empty(), "{:?}", beside(&out));
 }
 
 /// A run whose output would pass 1 GB or 5000 files is refused before any work, with one line

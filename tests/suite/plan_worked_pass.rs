@@ -10,7 +10,7 @@
 //!
 //! Radio parameters are invented for the check and chosen so that each step is easy to follow:
 //! 1 W into a 0 dBi spacecraft antenna, a 40 dBi ground antenna with perfect pointing, matched
-//! circular polarization, no spillover, a 100 K LNA with 60 dB gain, uncoded BPSK at BER 1e-5.
+//! circular polarization, a measured (flat, 40 K) clear-sky antenna temperature, a 100 K LNA with 60 dB gain, uncoded BPSK at BER 1e-5.
 
 use crate::common::bin::root;
 use crate::common::plan::{write_and_load, PlanSetup};
@@ -29,7 +29,7 @@ antenna:
   pointing_error_deg: 0
   polarization: rhcp
   axial_ratio_db: 0
-  spillover_fraction: 0
+  measured_noise_temperature_k: [[0, 40], [90, 40]]
   ground_temperature_k: 290
 receiver:
   lna_noise_temperature_k: 100
@@ -125,8 +125,10 @@ fn budget_at_tca_worked_by_hand() {
     let a_lin = 10f64.powf(-atm_db / 10.0);
     let t_sky_k = tmr_k * (1.0 - a_lin) + t_bg_k * a_lin; // eq (69)
 
-    // ---- Step 5: antenna temperature: no spillover, beam (70 lambda/D = 2.13 deg) far above the horizon ----
-    let t_ant_k = t_sky_k;
+    // ---- Step 5: antenna temperature: the station's measured clear-sky table, flat at 40 K ----
+    // (the pattern integral itself is checked in antenna_noise.rs); the boresight sky temperature
+    // of step 4 is checked on its own below.
+    let t_ant_k = 40.0;
 
     // ---- Step 6: receiver by the Friis cascade, referred to the antenna terminals ----
     // T_rx = T_LNA + T_2 / G_LNA, T_2 = 290 (10^(NF/10) - 1) for NF = 10 dB.
@@ -191,8 +193,8 @@ fn budget_at_tca_worked_by_hand() {
 }
 
 /// The same pass through the planner: the elevation at which 2 Mbit/s BPSK starts to close, solved
-/// by hand from the chain above (spherical-Earth slant range, P.676-12 Annex 2 gas, P.618-14 sky
-/// temperature, Friis receiver), against the plan's `closes_from_elevation_deg`; and the volume
+/// by hand from the chain above (spherical-Earth slant range, P.676-12 Annex 2 gas, the measured
+/// 40 K antenna temperature, Friis receiver), against the plan's `closes_from_elevation_deg`; and the volume
 /// equals rate x counted seconds.
 #[test]
 fn closing_elevation_of_the_pass_worked_by_hand() {
@@ -223,8 +225,7 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
     let e_hpa = 7.5 * 288.15 / 216.7;
     let (go, gw) = specific_attenuation_p676(8.2125, 1013.25 - e_hpa, 7.5, 288.15);
     let (ho, hw) = equivalent_heights_p676_12(8.2125, 1013.25 - e_hpa, 7.5, 288.15);
-    let t_bg = 2.725 + 290.0 * 10f64.powf((52.0 - 23.0 * 8212.5f64.log10()) / 10.0);
-    let t_rx = 100.0 + 290.0 * 9.0 / 1e6;
+    let t_rx: f64 = 100.0 + 290.0 * 9.0 / 1e6;
     let cn0_hand = |el_deg: f64| {
         let el = el_deg.to_radians();
         // Law of cosines (spherical Earth): d = sqrt(r^2 - R^2 cos^2 el) - R sin el
@@ -232,9 +233,8 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
         let fsl =
             20.0 * (4.0 * std::f64::consts::PI * d_km * 1e3 / (299_792_458.0 / 8212.5e6)).log10();
         let gas = (go * ho + gw * hw) / el.sin();
-        let a = 10f64.powf(-gas / 10.0);
-        let t_sky = (37.34 + 0.81 * 288.15) * (1.0 - a) + t_bg * a;
-        0.0 - fsl - gas + 40.0 - 10.0 * (t_sky + t_rx).log10() + 228.599_167
+        // Ta: the station's measured clear-sky table, flat at 40 K
+        0.0 - fsl - gas + 40.0 - 10.0 * (40.0 + t_rx).log10() + 228.599_167
     };
     // Solve C/N0(el) = threshold (63.0103 + 9.5879 dBHz) by bisection between 5 and 60 deg.
     let thr = rates.ladder[0].threshold_cn0_dbhz;
@@ -268,14 +268,14 @@ fn closing_elevation_of_the_pass_worked_by_hand() {
 
 /// The same instant with every smaller term switched on, each worked by hand from a second route:
 /// pointing loss, polarization mismatch (through the Poincare sphere rather than the axial-ratio
-/// formula the code uses), spillover and the feed loss in the Friis cascade.
+/// formula the code uses), the measured antenna temperature and the feed loss in the Friis cascade.
 #[test]
 fn budget_with_every_term_worked_by_hand() {
     let station = STATION
         .replace("  pointing_error_deg: 0\n", "  pointing_error_deg: 0.3\n")
         .replace(
-            "  axial_ratio_db: 0\n  spillover_fraction: 0\n",
-            "  axial_ratio_db: 1.0\n  spillover_fraction: 0.05\n",
+            "  axial_ratio_db: 0\n  measured_noise_temperature_k: [[0, 40], [90, 40]]\n",
+            "  axial_ratio_db: 1.0\n  measured_noise_temperature_k: [[0, 60], [30, 45], [90, 40]]\n",
         )
         .replace(
             "  feed_loss_db: 0\n",
@@ -321,10 +321,16 @@ fn budget_with_every_term_worked_by_hand() {
         "a few tenths of a dB (common practice)"
     );
 
-    // Antenna temperature with spillover s = 0.05 at 290 K (beam far above the horizon):
-    // Ta = (1 - s) Tsky + s Tg (the ground pick-up model of src/noise/system.rs).
-    let t_ant = 0.95 * v.sky_temperature_k + 0.05 * 290.0;
-    assert!((v.antenna_temperature_k - t_ant).abs() < 1e-6);
+    // Antenna temperature from the measured clear-sky table, linear between its points:
+    // 45 + (40 - 45) (el - 30) / 60 at el = 68.33 deg (sky and ground shares add up to it).
+    let t_ant = 45.0 - 5.0 * (look.elevation_deg - 30.0) / 60.0;
+    assert!(
+        (v.antenna_temperature_k - t_ant).abs() < 1e-6,
+        "{}",
+        v.antenna_temperature_k
+    );
+    assert!((v.sky_noise_k + v.ground_noise_k - t_ant).abs() < 1e-6);
+    assert!(v.ground_noise_k > 0.0 && v.sky_noise_k > v.ground_noise_k);
     // Receiver referred to the antenna terminals, Friis (Proc. IRE 1944): a 0.3 dB feed at 290 K,
     // then the 100 K / 60 dB LNA and a 10 dB NF stage: T_rx = (L - 1) 290 + L (100 + 2610 / 1e6).
     let l = 10f64.powf(0.03);

@@ -6,7 +6,7 @@ use passbudget::atmosphere::{AtmosphereSite, PathSpec};
 use passbudget::link::antenna::{GroundAntennaSpec, TransmitterSpec, TxPattern, TxPower};
 use passbudget::link::budget::{LinkModelSpec, PolarizationSpec};
 use passbudget::link::polarization::{EllipseOrientation, Polarization, PolarizationSense};
-use passbudget::noise::system::{GroundPickupSpec, LnaNoise, ReceiverSpec};
+use passbudget::noise::system::{LnaNoise, ReceiverSpec};
 
 /// Invented demo station and spacecraft (X band, 3.7 m dish); occupied bandwidth up to `max_bandwidth_hz`.
 pub fn link_spec(max_bandwidth_hz: f64) -> LinkModelSpec {
@@ -31,10 +31,6 @@ pub fn link_spec(max_bandwidth_hz: f64) -> LinkModelSpec {
             lna_noise: LnaNoise::TemperatureK(60.0),
             lna_gain_db: 30.0,
             later_noise_figure_db: 6.0,
-        },
-        ground_pickup: GroundPickupSpec {
-            spillover_fraction: 0.05,
-            ground_temperature_k: 290.0,
         },
         polarization: PolarizationSpec {
             spacecraft: Polarization {

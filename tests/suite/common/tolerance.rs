@@ -103,3 +103,13 @@ pub const CHECK_4DP: f64 = 6e-5;
 pub const BIAWGN_DB: f64 = 1e-3;
 /// "From memory" coding thresholds: plausibility band only (docs/REFERENCES.md §2: +-0.5 dB).
 pub const FROM_MEMORY_BAND_DB: f64 = 0.5;
+
+/// Antenna temperature from the table against the direct integral, K: the bound on
+/// interpolation (the table refines to 0.02 K at each midpoint).
+pub const NOISE_TABLE_K: f64 = 0.1;
+/// The pattern integral against an independent brute-force integration over the local sky
+/// (uniform 0.05 deg x 0.5 deg grid in elevation and azimuth), K: the brute force's own error.
+pub const NOISE_BRUTE_FORCE_K: f64 = 0.3;
+/// Analytic limits of the pattern integral (isotropic sky, pencil beam), relative: quadrature
+/// rounding only.
+pub const NOISE_LIMIT_REL: f64 = 1e-9;

@@ -1,0 +1,214 @@
+//! The station's noise model, prepared once: the ground antenna's reference pattern
+//! ([`crate::noise::pattern`]), one antenna-noise table per weather case
+//! ([`crate::noise::antenna_table`], the sky brightness from the station's own atmosphere), and
+//! the man-made noise of its surroundings ([`crate::noise::man_made`]). Per step,
+//! [`StationNoise::external_at`] interpolates; nothing is integrated.
+//!
+//! A measured clear-sky antenna temperature (Y-factor, `antenna.measured_noise_temperature_k`)
+//! replaces the integral's clear-sky total; it is split into sky and ground by the integral's
+//! clear-sky shares at that elevation, and a weather case adds the integral's excess over clear
+//! sky (sky and ground terms separately: the ground term carries the reflected sky):
+//! `T_w(e) = M(e) * share(e) + [T_w,model(e) - T_clear,model(e)]`. Between the measured points the
+//! temperature is interpolated linearly; outside them the end value is held.
+
+use crate::atmosphere::{PreparedAtmosphere, Weather};
+use crate::noise::antenna_table::{AntennaNoise, AntennaNoiseTable, Brightness, GroundSpec};
+use crate::noise::man_made::{man_made_noise, Environment, ManMadeNoise};
+use crate::noise::pattern::{NoisePattern, PatternWarnings};
+use crate::noise::sky::sky_temperature_unchecked;
+use crate::noise::ExternalNoise;
+
+/// Validity notes of a station's noise model (constant over a plan).
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
+pub struct NoiseWarnings {
+    pub pattern: PatternWarnings,
+    /// The frequency is outside the 0.3-250 MHz of the P.372 Table 1 man-made noise curves.
+    pub man_made_extrapolated: bool,
+}
+
+impl NoiseWarnings {
+    pub fn union(&self, o: &NoiseWarnings) -> NoiseWarnings {
+        NoiseWarnings {
+            pattern: PatternWarnings {
+                frequency_outside_envelope_range: self.pattern.frequency_outside_envelope_range
+                    || o.pattern.frequency_outside_envelope_range,
+                main_beam_narrowed: self.pattern.main_beam_narrowed || o.pattern.main_beam_narrowed,
+            },
+            man_made_extrapolated: self.man_made_extrapolated || o.man_made_extrapolated,
+        }
+    }
+
+    /// Messages naming the model and its range.
+    pub fn messages(&self) -> impl Iterator<Item = &'static str> {
+        let man_made = self.man_made_extrapolated.then_some(
+            "man-made noise (ITU-R P.372 Table 1): frequency outside the 0.3-250 MHz of the curves, the curve is extrapolated",
+        );
+        self.pattern.messages().chain(man_made)
+    }
+}
+
+/// Everything that makes the antenna temperature of one station.
+#[derive(Debug, Clone, PartialEq)]
+pub struct StationNoise {
+    pattern: NoisePattern,
+    ground: GroundSpec,
+    mean_radiating_temperature_k: f64,
+    background_k: f64,
+    clear: AntennaNoiseTable,
+    /// The measured clear-sky table, `[elevation_deg, temperature_k]`, and the model's clear table.
+    measured: Option<(Vec<[f64; 2]>, AntennaNoiseTable)>,
+    availability: Option<(Weather, AntennaNoiseTable)>,
+    man_made: Option<(Environment, ManMadeNoise)>,
+    warnings: NoiseWarnings,
+}
+
+impl StationNoise {
+    /// The clear-sky table and the man-made term of a station.
+    pub fn new(
+        pattern: NoisePattern,
+        ground: GroundSpec,
+        atmosphere: &PreparedAtmosphere,
+        mean_radiating_temperature_k: f64,
+        background_k: f64,
+        man_made: Option<(Environment, f64)>,
+        measured: Option<Vec<[f64; 2]>>,
+    ) -> Self {
+        let man_made = man_made.map(|(e, f)| (e, man_made_noise(e, f)));
+        let warnings = NoiseWarnings {
+            pattern: pattern.warnings(),
+            man_made_extrapolated: man_made.is_some_and(|m| m.1.extrapolated),
+        };
+        let mut s = Self {
+            clear: AntennaNoiseTable::from_rows(&[]),
+            pattern,
+            ground,
+            mean_radiating_temperature_k,
+            background_k,
+            availability: None,
+            man_made,
+            warnings,
+            measured: None,
+        };
+        let model = s.model_table(atmosphere, Weather::ClearSky);
+        match measured {
+            Some(m) => {
+                s.clear = combine(&m, &model, &model);
+                s.measured = Some((m, model));
+            }
+            None => s.clear = model,
+        }
+        s
+    }
+
+    /// Build the table of `weather` (the availability case), replacing any other.
+    pub fn prepare_weather(&mut self, atmosphere: &PreparedAtmosphere, weather: Weather) {
+        if weather != Weather::ClearSky {
+            self.availability = Some((weather, self.table(atmosphere, weather)));
+        }
+    }
+
+    fn table(&self, atmosphere: &PreparedAtmosphere, weather: Weather) -> AntennaNoiseTable {
+        let model = self.model_table(atmosphere, weather);
+        match &self.measured {
+            Some((m, clear_model)) => combine(m, clear_model, &model),
+            None => model,
+        }
+    }
+
+    fn model_table(&self, atmosphere: &PreparedAtmosphere, weather: Weather) -> AntennaNoiseTable {
+        let (tmr, bg) = (self.mean_radiating_temperature_k, self.background_k);
+        // Tsky(el) = Tmr (1 - 10^(-A/10)) + Tbg 10^(-A/10)   (P.618-14 eq. 69)
+        let brightness = Brightness::new(
+            |el| sky_temperature_unchecked(atmosphere.at(el, weather).absorptive_db, tmr, bg),
+            self.ground,
+        );
+        AntennaNoiseTable::build(&self.pattern, &brightness)
+    }
+
+    /// The antenna's noise terms at `elevation_deg` in `weather`; `None` when that weather's table
+    /// was not prepared. Interpolation only; allocates nothing.
+    #[inline]
+    pub fn external_at(&self, elevation_deg: f64, weather: Weather) -> Option<ExternalNoise> {
+        let table = match (weather, &self.availability) {
+            (Weather::ClearSky, _) => &self.clear,
+            (w, Some((a, t))) if *a == w => t,
+            _ => return None,
+        };
+        let a = table.at(elevation_deg);
+        Some(ExternalNoise {
+            sky_k: a.sky_k,
+            ground_k: a.ground_k,
+            man_made_k: self.man_made_k(),
+        })
+    }
+
+    /// The man-made noise temperature, K (0 without a category).
+    pub fn man_made_k(&self) -> f64 {
+        self.man_made.map_or(0.0, |m| m.1.temperature_k)
+    }
+
+    pub fn man_made(&self) -> Option<(Environment, ManMadeNoise)> {
+        self.man_made
+    }
+
+    pub fn pattern(&self) -> &NoisePattern {
+        &self.pattern
+    }
+
+    pub fn ground(&self) -> GroundSpec {
+        self.ground
+    }
+
+    /// The clear-sky table.
+    pub fn clear_table(&self) -> &AntennaNoiseTable {
+        &self.clear
+    }
+
+    pub fn warnings(&self) -> NoiseWarnings {
+        self.warnings
+    }
+}
+
+/// The measured clear-sky table `m` with the model's shares and weather excess (module doc).
+fn combine(
+    m: &[[f64; 2]],
+    clear_model: &AntennaNoiseTable,
+    weather_model: &AntennaNoiseTable,
+) -> AntennaNoiseTable {
+    let mut elevations: Vec<f64> = weather_model.rows().map(|r| r.0).collect();
+    elevations.extend(m.iter().map(|r| r[0]));
+    elevations.sort_by(f64::total_cmp);
+    elevations.dedup();
+    let rows: Vec<(f64, AntennaNoise)> = elevations
+        .into_iter()
+        .map(|e| {
+            let (c, w) = (clear_model.at(e), weather_model.at(e));
+            let total = measured_at(m, e);
+            // share of the sky in the model's clear-sky total
+            let share = if c.total_k() > 0.0 {
+                c.sky_k / c.total_k()
+            } else {
+                1.0
+            };
+            let noise = AntennaNoise {
+                sky_k: (total * share + w.sky_k - c.sky_k).max(0.0),
+                ground_k: (total * (1.0 - share) + w.ground_k - c.ground_k).max(0.0),
+            };
+            (e, noise)
+        })
+        .collect();
+    AntennaNoiseTable::from_rows(&rows)
+}
+
+/// Linear interpolation in a measured table, the end values held outside it.
+fn measured_at(m: &[[f64; 2]], e: f64) -> f64 {
+    let i = m.partition_point(|r| r[0] <= e);
+    if i == 0 {
+        return m[0][1];
+    }
+    if i >= m.len() {
+        return m[m.len() - 1][1];
+    }
+    let (a, b) = (m[i - 1], m[i]);
+    a[1] + (b[1] - a[1]) * (e - a[0]) / (b[0] - a[0])
+}
