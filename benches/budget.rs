@@ -33,6 +33,8 @@ fn bench_evaluate(c: &mut Criterion) {
         sky_k: 30.0,
         ground_k: 9.0,
         man_made_k: 0.0,
+        sun_k: 0.0,
+        moon_k: 0.0,
     };
     c.bench_function("link_model_evaluate", |b| {
         b.iter(|| {

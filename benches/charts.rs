@@ -35,6 +35,8 @@ fn synthetic_pass() -> PassChartData {
                 sky_noise_k: 20.0 + 120.0 * x * x * x * x,
                 ground_noise_k: 5.0 + 30.0 * x * x * x * x,
                 man_made_noise_k: 0.0,
+                sun_noise_k: 0.0,
+                moon_noise_k: 0.0,
                 receiver_noise_k: 70.0,
                 atmospheric_loss_db: 0.3 + 6.0 * x.powi(8),
             }

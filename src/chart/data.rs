@@ -40,10 +40,13 @@ pub struct PassChartSample {
     pub adaptive_rate_bps: Option<f64>,
     /// System noise temperature (the sum of the terms below), K.
     pub system_temperature_k: f64,
-    /// Its terms, K: sky and ground through the antenna's pattern, man-made, receiver.
+    /// Its terms, K: sky and ground through the antenna's pattern, man-made, the Sun's and the
+    /// Moon's disks, receiver.
     pub sky_noise_k: f64,
     pub ground_noise_k: f64,
     pub man_made_noise_k: f64,
+    pub sun_noise_k: f64,
+    pub moon_noise_k: f64,
     pub receiver_noise_k: f64,
     pub atmospheric_loss_db: f64,
 }

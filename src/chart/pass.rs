@@ -518,9 +518,9 @@ where
             TCA_STROKE
         );
     }
-    // Tsys and its terms, each its own line (series 0, 2, 3, 4, 5; 1 is the atmospheric loss).
+    // Tsys and its terms, each its own line (series 0, 2-5, 8, 10; 1 is the atmospheric loss).
     type Term = fn(&PassChartSample) -> f64;
-    let terms: [(usize, u32, Term, &str); 5] = [
+    let terms: [(usize, u32, Term, &str); 7] = [
         (
             0,
             3,
@@ -536,11 +536,15 @@ where
             "ground through the\npattern (left)",
         ),
         (5, 2, |s| s.man_made_noise_k, "man-made (left)"),
+        // 8 and 10: a colour and dash unlike the amber atmospheric loss (series 1)
+        (8, 2, |s| s.sun_noise_k, "Sun (left)"),
+        (10, 2, |s| s.moon_noise_k, "Moon (left)"),
     ];
-    let mut keys = Vec::with_capacity(6);
+    let mut keys = Vec::with_capacity(8);
     for (i, width, term, label) in terms {
-        // A term that is zero over the whole pass (no man-made noise given) is left out.
-        if i != 0 && d.samples.iter().all(|s| term(s) == 0.0) {
+        // A term below 0.05 K over the whole pass (no man-made noise given, the Sun and the Moon
+        // far from the beam) is left out.
+        if i != 0 && d.samples.iter().all(|s| term(s) < 0.05) {
             continue;
         }
         let stroke = Stroke::series(i, width);

@@ -113,6 +113,8 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
             sky_noise_k: x.sky_noise_k,
             ground_noise_k: x.ground_noise_k,
             man_made_noise_k: x.man_made_noise_k,
+            sun_noise_k: x.sun_noise_k,
+            moon_noise_k: x.moon_noise_k,
             receiver_noise_k: x.receiver_noise_k,
             atmospheric_loss_db: x.atmospheric_loss_db,
         })

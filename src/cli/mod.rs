@@ -9,6 +9,7 @@ mod geometry;
 mod output;
 mod plan;
 mod table;
+mod transits;
 mod window;
 
 use clap::{Parser, Subcommand};
@@ -40,6 +41,9 @@ pub enum Command {
     Chart(chart::ChartArgs),
     /// The elevation-mask trade-off: contact time and volume per day against the mask, per rate.
     Mask(plan::MaskArgs),
+    /// Every passage of the Sun through a station's beam during a pass (and, near the
+    /// geostationary arc, the Sun-outage seasons).
+    SunTransits(transits::TransitsArgs),
 }
 
 /// Run the parsed command, writing to `out`.
@@ -52,6 +56,7 @@ pub fn run(args: Args, out: &mut dyn Write) -> anyhow::Result<()> {
         Command::Plan(a) => plan::plan(a, out),
         Command::Mask(a) => plan::mask(a, out),
         Command::Chart(a) => chart::chart(a, out),
+        Command::SunTransits(a) => transits::sun_transits(a, out),
     }
 }
 

@@ -345,6 +345,16 @@ pub const GROUND_AXIAL_RATIO_DB: Range = Range {
     unit: "dB",
 };
 
+/// Observed solar flux density at the link frequency, sfu (1e-22 W m^-2 Hz^-1): from below the
+/// quiet Sun at any frequency of the P.372 figure to the largest radio bursts (about 1e6 sfu,
+/// from memory).
+pub const SOLAR_FLUX_SFU: Range = Range {
+    key: "solar_flux_sfu",
+    min: 1.0,
+    max: 1e7,
+    unit: "sfu",
+};
+
 /// Emissivity of the ground seen by the antenna's sidelobes (1 - e of the sky is reflected).
 pub const GROUND_EMISSIVITY: Range = Range {
     key: "antenna.ground_emissivity",
@@ -612,6 +622,7 @@ pub const ALL: &[Range] = &[
     POINTING_ERROR_DEG,
     GROUND_AXIAL_RATIO_DB,
     GROUND_EMISSIVITY,
+    SOLAR_FLUX_SFU,
     GROUND_TEMPERATURE_K,
     RADOME_LOSS_DB,
     NOISE_PATTERN_OFF_AXIS_DEG,

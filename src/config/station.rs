@@ -41,6 +41,8 @@ struct StationFile {
     climate: Option<ClimateFile>,
     #[serde(default)]
     man_made_noise: Option<crate::noise::man_made::Environment>,
+    #[serde(default)]
+    solar_flux_sfu: Option<f64>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -159,6 +161,8 @@ pub struct Station {
     pub climate: Climate,
     /// Man-made noise category of the surroundings (ITU-R P.372 Table 1); `None`: not counted.
     pub man_made_noise: Option<crate::noise::man_made::Environment>,
+    /// Observed solar flux density at the link frequency, sfu; `None`: the quiet Sun of ITU-R P.372.
+    pub solar_flux_sfu: Option<f64>,
     /// Keys filled from defaults, with the value and its source: reported in outputs.
     pub defaults: Vec<DefaultUsed>,
 }
@@ -200,6 +204,7 @@ impl Station {
             .map(|r| receiver(&mut c, r))
             .transpose()?;
         let climate = climate(&mut c, &file.climate.unwrap_or_default())?;
+        let solar_flux_sfu = c.optional(&limits::SOLAR_FLUX_SFU, file.solar_flux_sfu)?;
         Ok(Station {
             name: file.name.trim().to_string(),
             source: path.to_path_buf(),
@@ -212,6 +217,7 @@ impl Station {
             receiver,
             climate,
             man_made_noise: file.man_made_noise,
+            solar_flux_sfu,
             defaults: c.defaults,
         })
     }

@@ -68,11 +68,13 @@ pub enum BudgetError {
     Atmosphere { total_db: f64, absorptive_db: f64 },
     #[error("mean radiating temperature must be >= 0 K and finite, got {value_k} K")]
     MeanRadiatingTemperature { value_k: f64 },
-    #[error("noise terms must be >= 0 K and finite, got sky {sky_k} K, ground {ground_k} K, man-made {man_made_k} K")]
+    #[error("noise terms must be >= 0 K and finite, got sky {sky_k} K, ground {ground_k} K, man-made {man_made_k} K, Sun {sun_k} K, Moon {moon_k} K")]
     ExternalNoise {
         sky_k: f64,
         ground_k: f64,
         man_made_k: f64,
+        sun_k: f64,
+        moon_k: f64,
     },
 }
 
@@ -204,9 +206,17 @@ pub struct BudgetValues {
     pub ground_noise_k: f64,
     /// Man-made noise of the surroundings (ITU-R P.372 Table 1), K.
     pub man_made_noise_k: f64,
+    /// The Sun's disk through the pattern, K (0 when not known: a budget without a time).
+    pub sun_noise_k: f64,
+    /// The Moon's disk through the pattern, K.
+    pub moon_noise_k: f64,
+    /// Angle between the pointing and the Sun's centre, deg (`None` without a time).
+    pub sun_separation_deg: Option<f64>,
+    /// Angle between the pointing and the Moon's centre, deg (`None` without a time).
+    pub moon_separation_deg: Option<f64>,
     /// Receiver (Friis cascade at the antenna terminals), K.
     pub receiver_noise_k: f64,
-    /// Sum of the external terms (sky, ground, man-made), K.
+    /// Sum of the external terms (sky, ground, man-made, Sun, Moon), K.
     pub antenna_temperature_k: f64,
     /// Antenna temperature + receiver noise, K.
     pub system_temperature_k: f64,
@@ -351,6 +361,8 @@ impl LinkModel {
                 sky_k: external.sky_k,
                 ground_k: external.ground_k,
                 man_made_k: external.man_made_k,
+                sun_k: external.sun_k,
+                moon_k: external.moon_k,
             });
         }
         let BudgetGeometry {
@@ -387,6 +399,11 @@ impl LinkModel {
             sky_noise_k: external.sky_k,
             ground_noise_k: external.ground_k,
             man_made_noise_k: external.man_made_k,
+            sun_noise_k: external.sun_k,
+            moon_noise_k: external.moon_k,
+            // set by the caller that knows the time (plan::series::budget_at)
+            sun_separation_deg: None,
+            moon_separation_deg: None,
             receiver_noise_k: self.receiver.temperature_k(),
             antenna_temperature_k: noise.antenna_temperature_k,
             system_temperature_k: noise.system_temperature_k,
@@ -480,7 +497,7 @@ impl LinkModel {
         rate: RateSpec,
     ) -> Result<Vec<BudgetItem>, BudgetError> {
         let v = self.evaluate(geometry, atmosphere, external, rate)?;
-        let mut items = Vec::with_capacity(35);
+        let mut items = Vec::with_capacity(37);
         items.extend(self.transmit_items(&v));
         items.extend(path_items(&v, &geometry));
         items.extend(self.receive_items(&v));
@@ -506,7 +523,7 @@ impl LinkModel {
     }
 
     /// Budget lines of the receiving side: ground gain, noise temperatures, G/T, Boltzmann.
-    fn receive_items(&self, v: &BudgetValues) -> [BudgetItem; 10] {
+    fn receive_items(&self, v: &BudgetValues) -> [BudgetItem; 12] {
         [
             item(
                 "ground_antenna_gain",
@@ -539,10 +556,22 @@ impl LinkModel {
                 "ITU-R P.372 Table 1 (0 when not given)",
             ),
             item(
+                "sun_noise",
+                v.sun_noise_k,
+                "K",
+                "solar disk over the pattern, ITU-R P.372 quiet Sun or given flux",
+            ),
+            item(
+                "moon_noise",
+                v.moon_noise_k,
+                "K",
+                "lunar disk over the pattern, 140-280 K by phase (1-100 GHz)",
+            ),
+            item(
                 "antenna_temperature",
                 v.antenna_temperature_k,
                 "K",
-                "sky + ground + man-made",
+                "sky + ground + man-made + Sun + Moon",
             ),
             item(
                 "receiver_temperature",

@@ -29,19 +29,29 @@ pub struct ExternalNoise {
     pub ground_k: f64,
     /// Man-made noise of the surroundings (ITU-R P.372 Table 1); 0 when not given.
     pub man_made_k: f64,
+    /// The Sun's disk near the beam ([`disk`], [`sun`]); 0 when set, far, or not known (no time).
+    pub sun_k: f64,
+    /// The Moon's disk near the beam ([`disk`], [`moon`]); 0 below 1 GHz or when not known.
+    pub moon_k: f64,
 }
 
 impl ExternalNoise {
     /// The antenna noise temperature: the sum of the terms, K.
     #[inline]
     pub fn total_k(&self) -> f64 {
-        self.sky_k + self.ground_k + self.man_made_k
+        self.sky_k + self.ground_k + self.man_made_k + self.sun_k + self.moon_k
     }
 
     /// Every term is a finite temperature >= 0.
     pub fn is_valid(&self) -> bool {
-        [self.sky_k, self.ground_k, self.man_made_k]
-            .iter()
-            .all(|t| t.is_finite() && *t >= 0.0)
+        [
+            self.sky_k,
+            self.ground_k,
+            self.man_made_k,
+            self.sun_k,
+            self.moon_k,
+        ]
+        .iter()
+        .all(|t| t.is_finite() && *t >= 0.0)
     }
 }

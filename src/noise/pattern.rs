@@ -195,6 +195,15 @@ impl OffAxisRule {
     }
 }
 
+/// The pattern as the disk coupling of the Sun and the Moon sees it (off-axis angle in deg,
+/// normalized linear gain).
+impl crate::noise::disk::PowerPattern for NoisePattern {
+    #[inline]
+    fn gain_linear(&self, off_axis_deg: f64) -> f64 {
+        self.gain(off_axis_deg.to_radians())
+    }
+}
+
 impl NoisePattern {
     /// The reference pattern of a station antenna: peak gain `gain_dbi`, half-power beamwidth
     /// `beamwidth_deg`, `d_over_lambda` (diameter in wavelengths, for psi_min) at `frequency_hz`.

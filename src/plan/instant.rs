@@ -3,17 +3,19 @@
 //! It goes through [`super::series::budget_at`], the same function the plan uses at every step, so
 //! `budget --at` and the plan always agree.
 
+use super::bodies::PassBodies;
 use super::inputs::{element_age_warning, load_satellite, selection_note, SatelliteError};
 use super::prepare::{
     availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel,
 };
-use super::series::{budget_at, link_inputs, SeriesError};
+use super::series::{budget_at, link_inputs, BodiesAt, SeriesError};
 use crate::atmosphere::{Attenuation, Weather};
 use crate::config::limits::short_number;
 use crate::config::mission::Mission;
 use crate::config::DefaultUsed;
 use crate::geometry::Look;
 use crate::link::budget::{BudgetItem, BudgetValues, RateSpec};
+use crate::noise::ExternalNoise;
 use crate::orbit::ElementSet;
 use crate::timefmt::format_ms;
 use chrono::{DateTime, Utc};
@@ -162,8 +164,20 @@ pub fn instant_budget(
     let weather = availability_weather(req.exceedance_percent, std::slice::from_ref(&model))?
         .unwrap_or(Weather::ClearSky);
     model.prepare_weather(weather);
-    let (att, values) = budget_at(&model, &look, weather, rate)?;
-    let mut items = items(&model, &look, &att, weather, rate)?;
+    // With a time, the Sun and the Moon are where they are then (a track of zero length).
+    let bodies = time
+        .map(|t| -> Result<PassBodies, SeriesError> {
+            let mut b = PassBodies::new(&model.observer, &t, &t)?;
+            model.bodies.reset(&mut b, &t, &t)?;
+            Ok(b)
+        })
+        .transpose()?;
+    let at = bodies
+        .as_ref()
+        .zip(time.as_ref())
+        .map(|(bodies, time)| BodiesAt { bodies, time });
+    let (att, values) = budget_at(&model, &look, weather, at, rate)?;
+    let mut items = items(&model, &look, &att, &values, rate)?;
     items.push(BudgetItem {
         name: "required_margin",
         value: rates.required_margin_db,
@@ -172,6 +186,7 @@ pub fn instant_budget(
     });
     let mut warnings: Vec<String> = att.warnings.messages().map(String::from).collect();
     warnings.extend(model.noise.warnings().messages().map(String::from));
+    warnings.extend(model.bodies.warnings().messages().map(String::from));
     if values.pattern_clamped {
         warnings.push("the spacecraft antenna table does not reach this off-nadir angle: its end value was used".into());
     }
@@ -321,7 +336,7 @@ fn items(
     model: &StationModel,
     look: &Look,
     att: &Attenuation,
-    weather: Weather,
+    values: &BudgetValues,
     rate: RateSpec,
 ) -> Result<Vec<BudgetItem>, InstantError> {
     let atmosphere = [
@@ -341,22 +356,47 @@ fn items(
         source,
     });
     let (geometry, atmosphere_loss) = link_inputs(model, look, att);
-    let external = model
-        .noise
-        .external_at(look.elevation_deg, weather)
-        .ok_or(SeriesError::WeatherNotPrepared { weather })?;
+    // The noise terms budget_at used (the Sun's and the Moon's need the time).
+    let external = ExternalNoise {
+        sky_k: values.sky_noise_k,
+        ground_k: values.ground_noise_k,
+        man_made_k: values.man_made_noise_k,
+        sun_k: values.sun_noise_k,
+        moon_k: values.moon_noise_k,
+    };
     let link_items = model
         .link
         .itemize(geometry, atmosphere_loss, external, rate)?;
     let mut items = Vec::with_capacity(link_items.len() + atmosphere.len());
     for i in link_items {
         let after_fsl = i.name == "free_space_loss";
+        let after_moon = i.name == "moon_noise";
         items.push(i);
         if after_fsl {
             items.extend(atmosphere.iter().cloned());
         }
+        if after_moon {
+            items.extend(separation_items(values));
+        }
     }
     Ok(items)
+}
+
+/// The Sun's and the Moon's angles from the pointing, when the budget has a time.
+fn separation_items(values: &BudgetValues) -> impl Iterator<Item = BudgetItem> {
+    let sun = values.sun_separation_deg.map(|value| BudgetItem {
+        name: "sun_separation",
+        value,
+        unit: "deg",
+        source: "Sun: Astronomical Almanac low-precision formulae",
+    });
+    let moon = values.moon_separation_deg.map(|value| BudgetItem {
+        name: "moon_separation",
+        value,
+        unit: "deg",
+        source: "Moon: Meeus ch. 47",
+    });
+    sun.into_iter().chain(moon)
 }
 
 /// What to evaluate with [`atmosphere_at`].

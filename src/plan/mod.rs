@@ -36,6 +36,7 @@ pub mod results;
 pub mod series;
 mod sink;
 pub mod summary;
+pub mod transits;
 pub mod window;
 
 pub use planner::{PlanRequest, Planner};

@@ -139,6 +139,8 @@ impl StationNoise {
             sky_k: a.sky_k,
             ground_k: a.ground_k,
             man_made_k: self.man_made_k(),
+            sun_k: 0.0,
+            moon_k: 0.0,
         })
     }
 

@@ -1,12 +1,15 @@
 //! One pass: its budget time series, the fixed rate, the adaptive schedule, Shannon's bound, the
 //! mask accumulators and the network segments.
 
+use super::bodies::PassBodies;
 use super::mask::MaskAccumulator;
 use super::network::Segment;
 use super::prepare::{RateSet, StationModel};
 use super::rate::OptionId;
 use super::rate::{adaptive_schedule, choose_fixed, kept_runs, switch_count};
-use super::results::{Closing, Crossing, ModeResult, PassPlan, PassSeries, PlanError};
+use super::results::{
+    BodyExposure, Closing, Crossing, ModeResult, PassPlan, PassSeries, PlanError,
+};
 use super::series::{fill_pass, PassWarnings, StepPlan};
 use super::sink::PassSink;
 use crate::atmosphere::Weather;
@@ -55,6 +58,8 @@ pub(super) struct Scratch {
     schedule: Vec<Option<u16>>,
     rain_schedule: Vec<Option<u16>>,
     runs: Vec<(usize, usize)>,
+    /// The Sun's and the Moon's tracks, one per station (built at its first pass, then reset).
+    bodies: Vec<Option<PassBodies>>,
 }
 
 impl Scratch {
@@ -68,6 +73,7 @@ impl Scratch {
             schedule: Vec::new(),
             rain_schedule: Vec::new(),
             runs: Vec::new(),
+            bodies: Vec::new(),
         }
     }
 
@@ -86,7 +92,14 @@ impl Scratch {
             rain: planner.rain(),
             reference: planner.rates().ladder_specs[0],
         };
-        let mut warnings = fill_pass(prop, model, pass, &how, &mut self.steps)?;
+        if self.bodies.len() < planner.stations().len() {
+            self.bodies.resize_with(planner.stations().len(), || None);
+        }
+        let bodies = match &mut self.bodies[station_index] {
+            Some(b) => b,
+            slot => slot.insert(PassBodies::new(&model.observer, &pass.aos, &pass.aos)?),
+        };
+        let mut warnings = fill_pass(prop, model, pass, &how, &mut self.steps, bodies)?;
         warnings.atmosphere = warnings
             .atmosphere
             .union(&model.atmosphere.static_warnings());
@@ -192,6 +205,7 @@ pub(super) fn plan_pass<S: PassSink>(
         mask,
         warnings,
         steps: s.steps.len(),
+        bodies: BodyExposure::over(&s.steps),
     };
     sink.pass(&PassSeries {
         plan: &plan,

@@ -320,6 +320,7 @@ impl Planner {
         let warnings = self.warnings(&passes, &stopped, stop.as_ref());
         let notes = selection_note(&self.elements, &self.selection)
             .into_iter()
+            .chain(summary::sun_note(&passes, &self.stations))
             .collect();
         Plan {
             notes,

@@ -16,7 +16,9 @@ use crate::link::antenna::{dish_beamwidth_deg, GroundAntennaSpec, TransmitterSpe
 use crate::link::budget::{LinkModel, LinkModelSpec, PolarizationSpec, RateSpec};
 use crate::link::modcod::{operating_point, scheme_index};
 use crate::link::polarization::{EllipseOrientation, Polarization};
+use crate::noise::pattern::NoisePattern;
 use crate::noise::system::{LnaNoise, ReceiverSpec};
+use crate::plan::bodies::BodyNoise;
 use crate::plan::noise::StationNoise;
 use crate::plan::rate::{OptionId, RateOption};
 use crate::units::wavelength_m;
@@ -65,6 +67,8 @@ pub struct StationModel {
     pub atmosphere: PreparedAtmosphere,
     /// The antenna's noise: pattern, tables per weather case, man-made term.
     pub noise: StationNoise,
+    /// The Sun and the Moon seen through the same pattern.
+    pub bodies: BodyNoise<NoisePattern>,
     /// Mean radiating temperature of the atmosphere, K (P.618-14 eq (70) from the surface temperature).
     pub mean_radiating_temperature_k: f64,
     /// Ground antenna diameter used for scintillation (given, or estimated from the gain), m.
@@ -170,6 +174,13 @@ pub fn station_model(
         .map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
     let tmr_k = mean_radiating_temperature_k(st.climate.temperature_k);
     let noise = station_noise(st, radio.ant, &link, &atmosphere, tmr_k, diameter_m)?;
+    let bodies = BodyNoise::new(
+        noise.pattern(),
+        link.ground_antenna().beamwidth_deg,
+        link.frequency_hz(),
+        st.solar_flux_sfu,
+    )
+    .map_err(|e| model_err(&st.source, None, format!("Sun and Moon noise: {e}")))?;
     Ok(StationModel {
         station: st.clone(),
         observer,
@@ -177,6 +188,7 @@ pub fn station_model(
         link,
         atmosphere,
         noise,
+        bodies,
         mean_radiating_temperature_k: tmr_k,
         antenna_diameter_m: diameter_m,
         polarization_tilt_deg,

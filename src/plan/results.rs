@@ -61,6 +61,52 @@ pub struct PassPlan {
     pub mask: MaskAccumulator,
     pub warnings: PassWarnings,
     pub steps: usize,
+    /// The Sun and the Moon near the beam during the pass (clear sky).
+    pub bodies: BodyExposure,
+}
+
+/// How close the Sun and the Moon came to the beam in one pass, and what they cost (clear sky).
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct BodyExposure {
+    /// Smallest angle between the pointing and the Sun's centre, deg (`None`: a pass of no step).
+    pub min_sun_separation_deg: Option<f64>,
+    /// Largest antenna temperature added by the Sun, K.
+    pub max_sun_noise_k: f64,
+    /// Seconds in which the Sun raises the system noise temperature by more than 1 dB.
+    pub sun_degraded_s: f64,
+    /// Smallest angle between the pointing and the Moon's centre, deg.
+    pub min_moon_separation_deg: Option<f64>,
+    /// Largest antenna temperature added by the Moon, K.
+    pub max_moon_noise_k: f64,
+}
+
+/// The rise of the system noise temperature (dB) above which the Sun is said to degrade a step.
+pub const SUN_DEGRADED_RISE_DB: f64 = 1.0;
+
+impl BodyExposure {
+    /// Gather the bodies' figures over a pass's steps.
+    pub fn over(steps: &[Step]) -> BodyExposure {
+        let min = |a: Option<f64>, b: Option<f64>| match (a, b) {
+            (Some(x), Some(y)) => Some(x.min(y)),
+            (x, None) | (None, x) => x,
+        };
+        // Tsys / (Tsys - T_sun) > 10^(rise/10)  <=>  T_sun > Tsys (1 - 10^(-rise/10))
+        let share = 1.0 - 10f64.powf(-SUN_DEGRADED_RISE_DB / 10.0);
+        steps
+            .iter()
+            .fold(BodyExposure::default(), |e, s| BodyExposure {
+                min_sun_separation_deg: min(e.min_sun_separation_deg, s.sun_separation_deg),
+                max_sun_noise_k: e.max_sun_noise_k.max(s.sun_noise_k),
+                sun_degraded_s: e.sun_degraded_s
+                    + if s.sun_noise_k > share * s.system_temperature_k {
+                        s.weight_s
+                    } else {
+                        0.0
+                    },
+                min_moon_separation_deg: min(e.min_moon_separation_deg, s.moon_separation_deg),
+                max_moon_noise_k: e.max_moon_noise_k.max(s.moon_noise_k),
+            })
+    }
 }
 
 /// Everything a sink gets for one pass: the plan and its time series.

@@ -5,12 +5,15 @@
 //! command uses it too, so the two always agree.
 
 use crate::atmosphere::{Attenuation, ModelWarnings, Weather};
+use crate::geometry::body_track::TrackError;
 use crate::geometry::{doppler_hz, Look, Pass};
 use crate::link::budget::{AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, RateSpec};
 use crate::orbit::{PropagationError, Propagator};
+use crate::plan::bodies::{BodySample, PassBodies};
 use crate::plan::noise::NoiseWarnings;
 use crate::plan::prepare::StationModel;
 use crate::timefmt::{add_seconds, seconds_between};
+use chrono::{DateTime, Utc};
 
 /// One step of a pass. All fields are plain numbers so a pass's steps live in one reusable buffer.
 #[derive(Debug, Clone, Copy, Default, PartialEq)]
@@ -36,6 +39,14 @@ pub struct Step {
     pub ground_noise_k: f64,
     /// Man-made noise (ITU-R P.372 Table 1), K.
     pub man_made_noise_k: f64,
+    /// The Sun's disk through the pattern, K.
+    pub sun_noise_k: f64,
+    /// The Moon's disk through the pattern, K.
+    pub moon_noise_k: f64,
+    /// Angle between the pointing and the Sun's centre, deg (always known in a plan).
+    pub sun_separation_deg: Option<f64>,
+    /// Angle between the pointing and the Moon's centre, deg (always known in a plan).
+    pub moon_separation_deg: Option<f64>,
     /// Receiver noise at the antenna terminals, K.
     pub receiver_noise_k: f64,
     pub antenna_temperature_k: f64,
@@ -62,6 +73,8 @@ pub struct PassWarnings {
     pub atmosphere: ModelWarnings,
     /// The station's noise model (pattern range, man-made noise range).
     pub noise: NoiseWarnings,
+    /// The Sun's and the Moon's models.
+    pub bodies: crate::plan::bodies::BodyWarnings,
     /// The spacecraft antenna table did not reach the off-nadir angle: its end value was used.
     pub pattern_clamped: bool,
     /// The station direction was below the geometric horizon (a negative mask).
@@ -73,6 +86,7 @@ impl PassWarnings {
         PassWarnings {
             atmosphere: self.atmosphere.union(&o.atmosphere),
             noise: self.noise.union(&o.noise),
+            bodies: self.bodies.union(&o.bodies),
             pattern_clamped: self.pattern_clamped || o.pattern_clamped,
             below_horizon: self.below_horizon || o.below_horizon,
         }
@@ -82,6 +96,7 @@ impl PassWarnings {
     pub fn messages(&self) -> Vec<String> {
         let mut m: Vec<String> = self.atmosphere.messages().map(String::from).collect();
         m.extend(self.noise.messages().map(String::from));
+        m.extend(self.bodies.messages().map(String::from));
         if self.pattern_clamped {
             m.push("spacecraft antenna: the pattern table does not reach the off-nadir angle, its end value was used".into());
         }
@@ -104,33 +119,68 @@ pub enum SeriesError {
     },
     #[error("no antenna-noise table for {weather:?}: call StationModel::prepare_weather first")]
     WeatherNotPrepared { weather: Weather },
+    #[error("Sun and Moon: {0}")]
+    Bodies(#[from] TrackError),
+}
+
+/// The time of a look angle and the Sun's and the Moon's tracks around it: what the budget needs to
+/// count their noise.
+#[derive(Debug, Clone, Copy)]
+pub struct BodiesAt<'a> {
+    pub bodies: &'a PassBodies,
+    pub time: &'a DateTime<Utc>,
 }
 
 /// The budget for one look angle at one station and weather. `reference` is any rate of the
-/// mission: C/N0, G/T and the temperatures do not depend on it.
+/// mission: C/N0, G/T and the temperatures do not depend on it. With `at` (the time and the
+/// bodies' tracks) the Sun's and the Moon's noise and separations are counted; without it (a
+/// budget at an elevation, no time) they are 0 and `None`.
 #[inline]
 pub fn budget_at(
     model: &StationModel,
     look: &Look,
     weather: Weather,
+    at: Option<BodiesAt>,
     reference: RateSpec,
 ) -> Result<(Attenuation, BudgetValues), SeriesError> {
     // The atmosphere flags (and clamps) elevations outside its range itself.
     let att = model.atmosphere.at(look.elevation_deg, weather);
     let (geometry, atmosphere) = link_inputs(model, look, &att);
     // The antenna's noise terms: interpolated from the station's table of this weather.
-    let external = model
+    let mut external = model
         .noise
         .external_at(look.elevation_deg, weather)
         .ok_or(SeriesError::WeatherNotPrepared { weather })?;
-    let values = model
+    let sample = at.map(|a| body_sample(model, look, &att, a));
+    if let Some(s) = sample {
+        external.sun_k = s.sun_k;
+        external.moon_k = s.moon_k;
+    }
+    let mut values = model
         .link
         .evaluate(geometry, atmosphere, external, reference)
         .map_err(|source| SeriesError::Budget {
             elevation_deg: look.elevation_deg,
             source,
         })?;
+    values.sun_separation_deg = sample.map(|s| s.sun_separation_deg);
+    values.moon_separation_deg = sample.map(|s| s.moon_separation_deg);
     Ok((att, values))
+}
+
+/// The Sun's and the Moon's noise along `look`, their disks seen through the path's absorptive
+/// attenuation (transmissivity 10^(-A/10); `plan::bodies` states the convention).
+#[inline]
+fn body_sample(model: &StationModel, look: &Look, att: &Attenuation, a: BodiesAt) -> BodySample {
+    // tau = 10^(-A_abs/10)
+    let transmissivity = 10f64.powf(-att.absorptive_db / 10.0);
+    model.bodies.at(
+        a.bodies,
+        a.time,
+        look.azimuth_deg,
+        look.elevation_deg,
+        transmissivity,
+    )
 }
 
 /// What the link model takes from a look angle and the atmosphere along it.
@@ -166,7 +216,12 @@ pub struct StepPlan {
     pub reference: RateSpec,
 }
 
+/// Span of the Sun's and the Moon's tracks, s: a longer pass (a satellite that never sets) is
+/// followed one day at a time, so the tracks stay small.
+const BODY_SPAN_S: f64 = 86_400.0;
+
 /// Fill `steps` for `pass` at `step_s`: samples at AOS, AOS + step, ... and a final one at LOS.
+/// `bodies` (for this station: [`PassBodies`] holds its observer) is reset over the pass.
 /// Allocates nothing once `steps` has grown to the longest pass.
 pub fn fill_pass(
     prop: &Propagator,
@@ -174,6 +229,7 @@ pub fn fill_pass(
     pass: &Pass,
     how: &StepPlan,
     steps: &mut Vec<Step>,
+    bodies: &mut PassBodies,
 ) -> Result<PassWarnings, SeriesError> {
     let StepPlan {
         step_s,
@@ -184,10 +240,12 @@ pub fn fill_pass(
     steps.clear();
     let mut warnings = PassWarnings {
         noise: model.noise.warnings(),
+        bodies: model.bodies.warnings(),
         ..Default::default()
     };
     let duration_s = seconds_between(&pass.aos, &pass.los).max(0.0);
     let n = (duration_s / step_s).floor() as usize;
+    let mut tracked_to_s = -1.0;
     for k in 0..=n + 1 {
         let mut t_s = k as f64 * step_s;
         if k == n + 1 || t_s > duration_s - 1e-6 {
@@ -199,9 +257,19 @@ pub fn fill_pass(
             }
             t_s = duration_s;
         }
-        let state = prop.ecef_at(&add_seconds(&pass.aos, t_s))?;
+        let time = add_seconds(&pass.aos, t_s);
+        if t_s > tracked_to_s {
+            tracked_to_s = (t_s + BODY_SPAN_S).min(duration_s);
+            let end = add_seconds(&pass.aos, tracked_to_s);
+            model.bodies.reset(bodies, &time, &end)?;
+        }
+        let at = Some(BodiesAt {
+            bodies,
+            time: &time,
+        });
+        let state = prop.ecef_at(&time)?;
         let look = model.observer.look(&state);
-        let (att, v) = budget_at(model, &look, Weather::ClearSky, reference)?;
+        let (att, v) = budget_at(model, &look, Weather::ClearSky, at, reference)?;
         warnings.atmosphere = warnings.atmosphere.union(&att.warnings);
         warnings.pattern_clamped |= v.pattern_clamped;
         warnings.below_horizon |= v.below_horizon;
@@ -221,6 +289,10 @@ pub fn fill_pass(
             sky_noise_k: v.sky_noise_k,
             ground_noise_k: v.ground_noise_k,
             man_made_noise_k: v.man_made_noise_k,
+            sun_noise_k: v.sun_noise_k,
+            moon_noise_k: v.moon_noise_k,
+            sun_separation_deg: v.sun_separation_deg,
+            moon_separation_deg: v.moon_separation_deg,
             receiver_noise_k: v.receiver_noise_k,
             antenna_temperature_k: v.antenna_temperature_k,
             system_temperature_k: v.system_temperature_k,
@@ -229,7 +301,7 @@ pub fn fill_pass(
             rain: None,
         };
         if let Some(w) = rain {
-            let (ra, rv) = budget_at(model, &look, w, reference)?;
+            let (ra, rv) = budget_at(model, &look, w, at, reference)?;
             warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
             step.rain = Some(RainStep {
                 atmospheric_loss_db: ra.total_db,

@@ -6,7 +6,7 @@ use super::prepare::{RateSet, StationModel};
 use super::rate::OptionId;
 use super::results::{
     DayTotals, ModeResult, NetworkTotal, OptionSeries, PassPlan, RainTotals, Scope, Totals,
-    TradeoffSeries, UsableMask,
+    TradeoffSeries, UsableMask, SUN_DEGRADED_RISE_DB,
 };
 use super::window::Window;
 use chrono::NaiveDate;
@@ -162,4 +162,41 @@ pub fn tradeoff(
             masks_deg: masks_deg.clone(),
         })
         .collect()
+}
+
+/// What the Sun did to the window's passes, in one line: the passes where it raised the system
+/// noise temperature by more than [`SUN_DEGRADED_RISE_DB`], else its closest approach to a beam.
+/// `None` for a plan without passes.
+pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String> {
+    let name = |p: &PassPlan| stations[p.station_index].station.name.as_str();
+    let degraded: Vec<String> = passes
+        .iter()
+        .filter(|p| p.bodies.sun_degraded_s > 0.0)
+        .map(|p| {
+            format!(
+                "pass {} ({}, {:.0} s, up to {:.0} K)",
+                p.number,
+                name(p),
+                p.bodies.sun_degraded_s,
+                p.bodies.max_sun_noise_k
+            )
+        })
+        .collect();
+    if !degraded.is_empty() {
+        return Some(format!(
+            "Sun: raises the system noise temperature by more than {SUN_DEGRADED_RISE_DB} dB in {}",
+            degraded.join(", ")
+        ));
+    }
+    let closest = passes
+        .iter()
+        .filter_map(|p| p.bodies.min_sun_separation_deg.map(|d| (d, p)))
+        .min_by(|a, b| a.0.total_cmp(&b.0))?;
+    let (d, p) = closest;
+    Some(format!(
+        "Sun: raises no step's system noise temperature by {SUN_DEGRADED_RISE_DB} dB; closest to a beam {d:.1} deg (pass {}, {}), adding at most {:.2} K",
+        p.number,
+        name(p),
+        p.bodies.max_sun_noise_k
+    ))
 }

@@ -8,6 +8,7 @@ pub mod files;
 pub mod geometry;
 pub mod plan;
 mod staging;
+pub mod transits;
 
 pub use staging::{
     read_manifest, recover, CommitMethod, CommitMode, FolderError, Recovery, Staging, Step,

@@ -62,6 +62,8 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
             sky_noise_k: 0.8 * (tsys - 70.0),
             ground_noise_k: 0.2 * (tsys - 70.0),
             man_made_noise_k: 0.0,
+            sun_noise_k: 0.0,
+            moon_noise_k: 0.0,
             receiver_noise_k: 70.0,
             atmospheric_loss_db: atm,
         });

@@ -28,6 +28,8 @@ const EXT: ExternalNoise = ExternalNoise {
     sky_k: 20.0,
     ground_k: 8.0,
     man_made_k: 3.0,
+    sun_k: 0.0,
+    moon_k: 0.0,
 };
 const ATM: AtmosphereLoss = AtmosphereLoss {
     total_db: 0.3,

@@ -31,4 +31,5 @@ mod plan_checks;
 mod plan_properties;
 mod plan_worked_pass;
 mod readme;
+mod sun_noise;
 mod sun_position;

@@ -156,7 +156,7 @@ fn budget_at_tca_worked_by_hand() {
         (look.range_km - range_km).abs() < 1e-3,
         "geometry agrees with Skyfield"
     );
-    let (att, v) = budget_at(model, &look, Weather::ClearSky, rates.ladder_specs[0]).unwrap();
+    let (att, v) = budget_at(model, &look, Weather::ClearSky, None, rates.ladder_specs[0]).unwrap();
 
     let tol = 0.01; // dB: the geometry differs from Skyfield's by < 1e-3 km (< 2e-5 dB)
     assert!(
@@ -287,7 +287,7 @@ fn budget_with_every_term_worked_by_hand() {
     let setup = write_and_load(dir.path(), &station, &mission);
     let (model, rates) = (&setup.stations[0], &setup.rates);
     let look = look_at_reference_mid_pass(&setup);
-    let (att, v) = budget_at(model, &look, Weather::ClearSky, rates.ladder_specs[0]).unwrap();
+    let (att, v) = budget_at(model, &look, Weather::ClearSky, None, rates.ladder_specs[0]).unwrap();
 
     // Pointing: theta_3dB = 70 lambda / D (common practice) = 70 x 0.036505 / 1.2 = 2.1295 deg;
     // L = 12 (0.3 / 2.1295)^2 dB (common practice).

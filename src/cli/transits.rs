@@ -1,0 +1,127 @@
+//! `passbudget sun-transits`: every passage of the Sun through a station's beam during a pass.
+
+use crate::cli::common::{note, warn, Format};
+use crate::cli::table::{Align, Table};
+use crate::cli::window::WindowArgs;
+use anyhow::Result;
+use passbudget::plan::transits::{near_geostationary, outage_seasons, TransitSink};
+use passbudget::report::to_csv;
+use passbudget::report::transits::{SeasonRow, TransitRow};
+use serde::Serialize;
+use std::io::Write;
+
+#[derive(Debug, Clone, clap::Args)]
+pub struct TransitsArgs {
+    #[command(flatten)]
+    pub window: WindowArgs,
+    #[arg(long, value_enum, default_value = "table")]
+    pub format: Format,
+}
+
+/// `passbudget sun-transits`.
+pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
+    let planner = a.window.planner(false)?;
+    let sink = TransitSink::new();
+    let plan = planner.run(&sink)?;
+    warn(&plan.warnings);
+    note(&plan.notes);
+    let transits = sink.transits();
+    let stations = planner.stations();
+    let rows: Vec<TransitRow> = transits
+        .iter()
+        .map(|t| TransitRow::new(stations, t))
+        .collect();
+    // Seasons only mean something for a satellite that stays near the geostationary arc.
+    let seasons: Option<Vec<SeasonRow>> = near_geostationary(planner.elements()).then(|| {
+        outage_seasons(&transits, stations.len())
+            .iter()
+            .map(|s| SeasonRow::new(stations, s))
+            .collect()
+    });
+    match a.format {
+        Format::Json => {
+            #[derive(Serialize)]
+            struct Doc<'a> {
+                transits: &'a [TransitRow],
+                outage_seasons: Option<&'a [SeasonRow]>,
+            }
+            let doc = Doc {
+                transits: &rows,
+                outage_seasons: seasons.as_deref(),
+            };
+            writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
+        }
+        Format::Csv => write!(out, "{}", to_csv(&rows)?)?,
+        Format::Table => print_table(&rows, seasons.as_deref(), out)?,
+    }
+    Ok(())
+}
+
+fn print_table(
+    rows: &[TransitRow],
+    seasons: Option<&[SeasonRow]>,
+    out: &mut dyn Write,
+) -> Result<()> {
+    if rows.is_empty() {
+        writeln!(
+            out,
+            "No Sun transit: the Sun raises no station's system noise temperature by 0.1 dB or more during a pass in this window."
+        )?;
+    } else {
+        let mut t = Table::new(&[
+            ("station", Align::Left),
+            ("pass", Align::Right),
+            ("in beam from (UTC)", Align::Left),
+            ("until", Align::Left),
+            ("closest", Align::Left),
+            ("az deg", Align::Right),
+            ("el deg", Align::Right),
+            ("sep deg", Align::Right),
+            ("Sun K", Align::Right),
+            ("Tsys rise dB", Align::Right),
+            ("s > 1 dB", Align::Right),
+        ]);
+        for r in rows {
+            t.row(vec![
+                r.station.clone(),
+                r.pass.to_string(),
+                r.start.clone(),
+                r.end[11..].to_string(),
+                r.closest[11..].to_string(),
+                format!("{:.1}", r.closest_azimuth_deg),
+                format!("{:.1}", r.closest_elevation_deg),
+                format!("{:.2}", r.min_separation_deg),
+                format!("{:.1}", r.max_sun_noise_k),
+                format!("{:.2}", r.max_rise_db),
+                format!("{:.0}", r.degraded_s),
+            ]);
+        }
+        write!(out, "{}", t.render())?;
+    }
+    if let Some(seasons) = seasons {
+        writeln!(
+            out,
+            "\nSun-outage seasons (consecutive days with a transit):"
+        )?;
+        let mut t = Table::new(&[
+            ("station", Align::Left),
+            ("first day", Align::Left),
+            ("last day", Align::Left),
+            ("days", Align::Right),
+            ("Sun K", Align::Right),
+            ("Tsys rise dB", Align::Right),
+        ]);
+        for s in seasons {
+            t.row(vec![
+                s.station.clone(),
+                s.first_day.clone(),
+                s.last_day.clone(),
+                s.days.to_string(),
+                format!("{:.1}", s.max_sun_noise_k),
+                format!("{:.2}", s.max_rise_db),
+            ]);
+        }
+        write!(out, "{}", t.render())?;
+    }
+    Ok(())
+}

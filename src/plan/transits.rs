@@ -1,0 +1,194 @@
+//! Sun transits: the stretches of each pass in which the Sun, seen through the station's antenna
+//! pattern, raises the system noise temperature by at least [`TRANSIT_RISE_DB`], with what it
+//! costs there; and, for a satellite near the geostationary arc, the seasons these transits make
+//! (a transit a day over consecutive days: the Sun-outage seasons around the equinoxes).
+//!
+//! The rule is the noise, not a geometric cone: how far from boresight the Sun matters depends on
+//! the beam, the frequency, the Sun's activity and the receiver, all of which the noise includes.
+//!
+//! [`TransitSink`] is a [`PassSink`]: run a [`super::Planner`] with it and take
+//! [`TransitSink::transits`]. The figures come from the plan's own steps (clear sky), so they
+//! agree with its per-step CSV.
+
+use super::results::{PassSeries, SUN_DEGRADED_RISE_DB};
+use super::series::Step;
+use super::sink::PassSink;
+use crate::orbit::ElementSet;
+use crate::timefmt::add_seconds;
+use chrono::{DateTime, NaiveDate, Utc};
+use std::sync::Mutex;
+
+/// One passage of the Sun through a station's beam during a pass.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SunTransit {
+    pub station_index: usize,
+    pub pass_number: usize,
+    /// First and last step with the Sun's disk in the half-power beam.
+    pub start: DateTime<Utc>,
+    pub end: DateTime<Utc>,
+    /// The step closest to the Sun: its time, the pointing there, and the separation, deg.
+    pub closest: DateTime<Utc>,
+    pub closest_azimuth_deg: f64,
+    pub closest_elevation_deg: f64,
+    pub min_separation_deg: f64,
+    /// Largest antenna temperature the Sun adds, K.
+    pub max_sun_noise_k: f64,
+    /// Largest rise of the system noise temperature, 10 log10(Tsys / (Tsys - T_sun)), dB.
+    pub max_rise_db: f64,
+    /// Seconds with a rise above [`SUN_DEGRADED_RISE_DB`].
+    pub degraded_s: f64,
+}
+
+/// The rise of the system noise temperature from which the Sun counts as in the beam, dB (our
+/// choice: about the smallest rise a Y-factor measurement shows).
+pub const TRANSIT_RISE_DB: f64 = 0.1;
+
+/// Consecutive days with a transit at one station (satellites near the geostationary arc only).
+#[derive(Debug, Clone, PartialEq)]
+pub struct OutageSeason {
+    pub station_index: usize,
+    pub first_day: NaiveDate,
+    pub last_day: NaiveDate,
+    /// Days with a transit.
+    pub days: usize,
+    pub max_sun_noise_k: f64,
+    pub max_rise_db: f64,
+}
+
+/// Collects the Sun transits of a plan's passes.
+#[derive(Default)]
+pub struct TransitSink {
+    found: Mutex<Vec<SunTransit>>,
+}
+
+impl TransitSink {
+    pub fn new() -> Self {
+        Self::default()
+    }
+
+    /// The transits found, in time order.
+    pub fn transits(self) -> Vec<SunTransit> {
+        let mut v = self.found.into_inner().unwrap_or_else(|e| e.into_inner());
+        v.sort_by(|a, b| {
+            a.start
+                .cmp(&b.start)
+                .then(a.station_index.cmp(&b.station_index))
+        });
+        v
+    }
+}
+
+impl PassSink for TransitSink {
+    type Error = std::convert::Infallible;
+    fn pass(&self, series: &PassSeries<'_>) -> Result<(), Self::Error> {
+        let p = series.plan;
+        let inside = |s: &Step| rise_db(s) >= TRANSIT_RISE_DB;
+        let mut found = Vec::new();
+        let steps = series.steps;
+        let mut i = 0;
+        while i < steps.len() {
+            if !inside(&steps[i]) {
+                i += 1;
+                continue;
+            }
+            let j = (i..steps.len())
+                .find(|&k| !inside(&steps[k]))
+                .unwrap_or(steps.len());
+            found.push(transit(
+                p.station_index,
+                p.number,
+                &p.pass.aos,
+                &steps[i..j],
+            ));
+            i = j;
+        }
+        if !found.is_empty() {
+            let mut all = self.found.lock().unwrap_or_else(|e| e.into_inner());
+            all.extend(found);
+        }
+        Ok(())
+    }
+}
+
+/// The transit made of `run` (steps of one pass, all in the beam, at least one).
+fn transit(
+    station_index: usize,
+    pass_number: usize,
+    aos: &DateTime<Utc>,
+    run: &[Step],
+) -> SunTransit {
+    let sep = |s: &Step| s.sun_separation_deg.unwrap_or(f64::INFINITY);
+    let closest = run
+        .iter()
+        .min_by(|a, b| sep(a).total_cmp(&sep(b)))
+        .unwrap_or(&run[0]);
+    SunTransit {
+        station_index,
+        pass_number,
+        start: add_seconds(aos, run[0].t_s),
+        end: add_seconds(aos, run[run.len() - 1].t_s),
+        closest: add_seconds(aos, closest.t_s),
+        closest_azimuth_deg: closest.azimuth_deg,
+        closest_elevation_deg: closest.elevation_deg,
+        min_separation_deg: sep(closest),
+        max_sun_noise_k: run.iter().map(|s| s.sun_noise_k).fold(0.0, f64::max),
+        max_rise_db: run.iter().map(rise_db).fold(0.0, f64::max),
+        degraded_s: run
+            .iter()
+            .filter(|s| rise_db(s) > SUN_DEGRADED_RISE_DB)
+            // from +0 (an empty f64 sum is -0)
+            .fold(0.0, |a, s| a + s.weight_s),
+    }
+}
+
+/// Rise of the system noise temperature due to the Sun: 10 log10(Tsys / (Tsys - T_sun)), dB.
+fn rise_db(s: &Step) -> f64 {
+    10.0 * (s.system_temperature_k / (s.system_temperature_k - s.sun_noise_k)).log10()
+}
+
+/// Mean motion range, rev/day, taken as "near the geostationary arc" (common practice: a
+/// geosynchronous orbit makes one revolution per sidereal day, 1.0027 rev/day).
+pub const NEAR_GEOSTATIONARY_REV_PER_DAY: (f64, f64) = (0.9, 1.1);
+
+/// Whether `elements` describe a satellite near the geostationary arc (mean motion within
+/// [`NEAR_GEOSTATIONARY_REV_PER_DAY`], eccentricity below 0.1, inclination below 15 deg).
+pub fn near_geostationary(elements: &ElementSet) -> bool {
+    let e = &elements.elements;
+    let (lo, hi) = NEAR_GEOSTATIONARY_REV_PER_DAY;
+    (lo..=hi).contains(&e.mean_motion) && e.eccentricity < 0.1 && e.inclination < 15.0
+}
+
+/// Group `transits` (in time order) into runs of consecutive UTC days per station.
+pub fn outage_seasons(transits: &[SunTransit], stations: usize) -> Vec<OutageSeason> {
+    let mut seasons: Vec<OutageSeason> = Vec::new();
+    for station_index in 0..stations {
+        let mut current: Option<OutageSeason> = None;
+        for t in transits.iter().filter(|t| t.station_index == station_index) {
+            let day = t.start.date_naive();
+            match current.as_mut() {
+                Some(s) if day <= s.last_day + chrono::Duration::days(1) => {
+                    if day > s.last_day {
+                        s.days += 1;
+                        s.last_day = day;
+                    }
+                    s.max_sun_noise_k = s.max_sun_noise_k.max(t.max_sun_noise_k);
+                    s.max_rise_db = s.max_rise_db.max(t.max_rise_db);
+                }
+                _ => {
+                    seasons.extend(current.take());
+                    current = Some(OutageSeason {
+                        station_index,
+                        first_day: day,
+                        last_day: day,
+                        days: 1,
+                        max_sun_noise_k: t.max_sun_noise_k,
+                        max_rise_db: t.max_rise_db,
+                    });
+                }
+            }
+        }
+        seasons.extend(current);
+    }
+    seasons.sort_by(|a, b| a.first_day.cmp(&b.first_day));
+    seasons
+}
