@@ -189,6 +189,55 @@ pub fn outage_seasons(transits: &[SunTransit], stations: usize) -> Vec<OutageSea
         }
         seasons.extend(current);
     }
-    seasons.sort_by(|a, b| a.first_day.cmp(&b.first_day));
+    seasons.sort_by_key(|s| s.first_day);
     seasons
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use chrono::TimeZone;
+
+    fn transit(station_index: usize, day: u32, sun_k: f64) -> SunTransit {
+        let t = Utc.with_ymd_and_hms(2027, 3, day, 12, 0, 0).unwrap();
+        SunTransit {
+            station_index,
+            pass_number: 1,
+            start: t,
+            end: t,
+            closest: t,
+            closest_azimuth_deg: 180.0,
+            closest_elevation_deg: 40.0,
+            min_separation_deg: 0.1,
+            max_sun_noise_k: sun_k,
+            max_rise_db: sun_k / 100.0,
+            degraded_s: 0.0,
+        }
+    }
+
+    /// Consecutive days make one season per station; a gap of a day starts another.
+    #[test]
+    fn seasons_group_consecutive_days_per_station() {
+        let transits = [
+            transit(0, 1, 10.0),
+            transit(1, 1, 5.0),
+            transit(0, 2, 30.0),
+            transit(0, 2, 40.0),
+            transit(0, 3, 20.0),
+            transit(0, 5, 1.0),
+        ];
+        let s = outage_seasons(&transits, 2);
+        assert_eq!(s.len(), 3);
+        let first = s
+            .iter()
+            .find(|x| x.station_index == 0 && x.days == 3)
+            .unwrap();
+        assert_eq!(first.first_day.to_string(), "2027-03-01");
+        assert_eq!(first.last_day.to_string(), "2027-03-03");
+        assert_eq!(first.max_sun_noise_k, 40.0);
+        assert!(s.iter().any(|x| x.station_index == 0
+            && x.days == 1
+            && x.first_day.to_string() == "2027-03-05"));
+        assert!(s.iter().any(|x| x.station_index == 1 && x.days == 1));
+    }
 }
