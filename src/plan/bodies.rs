@@ -173,8 +173,9 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
         Ok(())
     }
 
-    /// The bodies' noise at `t` with the antenna pointed at (`azimuth_deg`, `elevation_deg`)
-    /// through a path of transmissivity `transmissivity` (10^(-A/10)). Allocates nothing.
+    /// The bodies' noise at `t` with the antenna pointed at (`azimuth_deg`, `elevation_deg`),
+    /// before the atmosphere: the caller multiplies the noise terms by the path's transmissivity
+    /// 10^(-A/10) of its weather case (`plan::series::budget_at`). Allocates nothing.
     #[inline]
     pub fn at(
         &self,
@@ -182,7 +183,6 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
         t: &DateTime<Utc>,
         azimuth_deg: f64,
         elevation_deg: f64,
-        transmissivity: f64,
     ) -> BodySample {
         let pointing = enu_from_az_el(azimuth_deg, elevation_deg);
         let (sun_separation_deg, sun_k) = disk_noise(
@@ -191,7 +191,6 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
             t,
             &pointing,
             bodies.sun_brightness_k,
-            transmissivity,
         );
         let (moon_separation_deg, moon_k) = disk_noise(
             self.moon.as_ref(),
@@ -199,7 +198,6 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
             t,
             &pointing,
             bodies.moon_brightness_k,
-            transmissivity,
         );
         BodySample {
             sun_separation_deg,
@@ -218,7 +216,6 @@ fn disk_noise<P: PowerPattern + Sync>(
     t: &DateTime<Utc>,
     pointing: &[f64; 3],
     brightness_k: f64,
-    transmissivity: f64,
 ) -> (f64, f64) {
     let u = track.direction_enu(t);
     let d = ((u[0] - pointing[0]).powi(2)
@@ -232,8 +229,8 @@ fn disk_noise<P: PowerPattern + Sync>(
         Some(term) if u[2] > 0.0 => term.coupling.added_temperature_k(
             separation_deg,
             track.angular_radius_deg(),
-            brightness_k * transmissivity,
-            CMB_K * transmissivity,
+            brightness_k,
+            CMB_K,
         ),
         _ => 0.0,
     };
@@ -267,7 +264,7 @@ mod tests {
         model.reset(&mut bodies, &t, &t).unwrap();
         let (az, el) = sun_az_el_deg(&observer, &t);
         assert!(el > 0.0);
-        let s = model.at(&bodies, &t, az, el, 1.0);
+        let s = model.at(&bodies, &t, az, el);
         assert!(s.sun_separation_deg < 1e-3, "{}", s.sun_separation_deg);
         // A centred uniform disk of radius r in a Gaussian beam: the beam's power inside r,
         // 1 - exp(-4 ln 2 r^2 / theta^2) (small-angle closed form), times (Tb - T_cmb).
@@ -280,11 +277,8 @@ mod tests {
             "{} vs {expected}",
             s.sun_k
         );
-        // Half the path transmissivity halves it.
-        let half = model.at(&bodies, &t, az, el, 0.5);
-        assert!((half.sun_k / s.sun_k - 0.5).abs() < 1e-9);
         // Pointing 30 deg away: the Gaussian main beam sees nothing of it.
-        let away = model.at(&bodies, &t, az, el + 30.0, 1.0);
+        let away = model.at(&bodies, &t, az, el + 30.0);
         assert!((away.sun_separation_deg - 30.0).abs() < 1e-3);
         assert!(away.sun_k < 1e-6);
     }
@@ -298,7 +292,7 @@ mod tests {
         model.reset(&mut bodies, &night, &night).unwrap();
         let (az, el) = sun_az_el_deg(&observer, &night);
         assert!(el < 0.0);
-        assert_eq!(model.at(&bodies, &night, az, el, 1.0).sun_k, 0.0);
+        assert_eq!(model.at(&bodies, &night, az, el).sun_k, 0.0);
         // 437.5 MHz: the Sun is modelled (0.05-100 GHz), the Moon is not (1-100 GHz).
         let uhf = BodyNoise::new(&gaussian(30.0), 30.0, 437.5e6, None).unwrap();
         assert!(!uhf.warnings().sun_not_modelled && !uhf.moon_modelled());

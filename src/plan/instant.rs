@@ -8,7 +8,7 @@ use super::inputs::{element_age_warning, load_satellite, selection_note, Satelli
 use super::prepare::{
     availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel,
 };
-use super::series::{budget_at, link_inputs, BodiesAt, SeriesError};
+use super::series::{budget_at, link_inputs, SeriesError};
 use crate::atmosphere::{Attenuation, Weather};
 use crate::config::limits::short_number;
 use crate::config::mission::Mission;
@@ -175,7 +175,7 @@ pub fn instant_budget(
     let at = bodies
         .as_ref()
         .zip(time.as_ref())
-        .map(|(bodies, time)| BodiesAt { bodies, time });
+        .map(|(b, t)| model.bodies.at(b, t, look.azimuth_deg, look.elevation_deg));
     let (att, values) = budget_at(&model, &look, weather, at, rate)?;
     let mut items = items(&model, &look, &att, &values, rate)?;
     items.push(BudgetItem {

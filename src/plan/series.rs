@@ -13,7 +13,6 @@ use crate::plan::bodies::{BodySample, PassBodies};
 use crate::plan::noise::NoiseWarnings;
 use crate::plan::prepare::StationModel;
 use crate::timefmt::{add_seconds, seconds_between};
-use chrono::{DateTime, Utc};
 
 /// One step of a pass. All fields are plain numbers so a pass's steps live in one reusable buffer.
 #[derive(Debug, Clone, Copy, Default, PartialEq)]
@@ -123,24 +122,17 @@ pub enum SeriesError {
     Bodies(#[from] TrackError),
 }
 
-/// The time of a look angle and the Sun's and the Moon's tracks around it: what the budget needs to
-/// count their noise.
-#[derive(Debug, Clone, Copy)]
-pub struct BodiesAt<'a> {
-    pub bodies: &'a PassBodies,
-    pub time: &'a DateTime<Utc>,
-}
-
 /// The budget for one look angle at one station and weather. `reference` is any rate of the
-/// mission: C/N0, G/T and the temperatures do not depend on it. With `at` (the time and the
-/// bodies' tracks) the Sun's and the Moon's noise and separations are counted; without it (a
-/// budget at an elevation, no time) they are 0 and `None`.
+/// mission: C/N0, G/T and the temperatures do not depend on it. With `bodies` (the Sun and the
+/// Moon at this instant, unattenuated: [`crate::plan::bodies::BodyNoise::at`] with transmissivity
+/// 1) their noise, seen through this weather's path, and their separations are counted; without
+/// it (a budget at an elevation, no time) they are 0 and `None`.
 #[inline]
 pub fn budget_at(
     model: &StationModel,
     look: &Look,
     weather: Weather,
-    at: Option<BodiesAt>,
+    bodies: Option<BodySample>,
     reference: RateSpec,
 ) -> Result<(Attenuation, BudgetValues), SeriesError> {
     // The atmosphere flags (and clamps) elevations outside its range itself.
@@ -151,10 +143,12 @@ pub fn budget_at(
         .noise
         .external_at(look.elevation_deg, weather)
         .ok_or(SeriesError::WeatherNotPrepared { weather })?;
-    let sample = at.map(|a| body_sample(model, look, &att, a));
-    if let Some(s) = sample {
-        external.sun_k = s.sun_k;
-        external.moon_k = s.moon_k;
+    if let Some(s) = bodies {
+        // The disks are seen through the path of the pointing direction (plan::bodies):
+        // tau = 10^(-A_abs/10), and their added noise is proportional to it.
+        let transmissivity = 10f64.powf(-att.absorptive_db / 10.0);
+        external.sun_k = s.sun_k * transmissivity;
+        external.moon_k = s.moon_k * transmissivity;
     }
     let mut values = model
         .link
@@ -163,24 +157,9 @@ pub fn budget_at(
             elevation_deg: look.elevation_deg,
             source,
         })?;
-    values.sun_separation_deg = sample.map(|s| s.sun_separation_deg);
-    values.moon_separation_deg = sample.map(|s| s.moon_separation_deg);
+    values.sun_separation_deg = bodies.map(|s| s.sun_separation_deg);
+    values.moon_separation_deg = bodies.map(|s| s.moon_separation_deg);
     Ok((att, values))
-}
-
-/// The Sun's and the Moon's noise along `look`, their disks seen through the path's absorptive
-/// attenuation (transmissivity 10^(-A/10); `plan::bodies` states the convention).
-#[inline]
-fn body_sample(model: &StationModel, look: &Look, att: &Attenuation, a: BodiesAt) -> BodySample {
-    // tau = 10^(-A_abs/10)
-    let transmissivity = 10f64.powf(-att.absorptive_db / 10.0);
-    model.bodies.at(
-        a.bodies,
-        a.time,
-        look.azimuth_deg,
-        look.elevation_deg,
-        transmissivity,
-    )
 }
 
 /// What the link model takes from a look angle and the atmosphere along it.
@@ -263,12 +242,14 @@ pub fn fill_pass(
             let end = add_seconds(&pass.aos, tracked_to_s);
             model.bodies.reset(bodies, &time, &end)?;
         }
-        let at = Some(BodiesAt {
-            bodies,
-            time: &time,
-        });
         let state = prop.ecef_at(&time)?;
         let look = model.observer.look(&state);
+        // The bodies once per step; each weather case attenuates them along its own path.
+        let at = Some(
+            model
+                .bodies
+                .at(bodies, &time, look.azimuth_deg, look.elevation_deg),
+        );
         let (att, v) = budget_at(model, &look, Weather::ClearSky, at, reference)?;
         warnings.atmosphere = warnings.atmosphere.union(&att.warnings);
         warnings.pattern_clamped |= v.pattern_clamped;
