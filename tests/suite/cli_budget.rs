@@ -226,7 +226,7 @@ fn budget_bad_input() {
 
 /// The shipped example with Sierra Baja's station file replaced by `station` (written to `dir`);
 /// returns the mission's path.
-fn example_with_sierra_baja(dir: &std::path::Path, station: &str) -> String {
+pub(crate) fn example_with_sierra_baja(dir: &std::path::Path, station: &str) -> String {
     let st = crate::common::bin::write(dir, "station.yaml", station);
     let text = std::fs::read_to_string(root().join(EXAMPLE)).unwrap();
     let text = text

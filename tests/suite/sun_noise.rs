@@ -117,3 +117,50 @@ fn budget_at_the_transit_agrees_with_the_plan() {
         "{err}"
     );
 }
+
+/// An observed solar flux (station key `solar_flux_sfu`) replaces the quiet Sun: the Rayleigh-Jeans
+/// brightness T = S lambda^2 / (2 k Omega) is linear in S, so twice the flux gives twice the
+/// Sun's added noise (less the 2.725 K of sky it hides: a 1e-4 effect at 1e4 K); a flux of 0 is
+/// refused with its line.
+#[test]
+fn an_observed_solar_flux_scales_the_sun_noise() {
+    let dir = tempfile::tempdir().unwrap();
+    let base =
+        std::fs::read_to_string(crate::common::bin::root().join("stations/sierra-baja.yaml"))
+            .unwrap();
+    let sun_k = |flux: &str| {
+        let sub = dir.path().join(flux);
+        std::fs::create_dir_all(&sub).unwrap();
+        let station = format!("{base}\nsolar_flux_sfu: {flux}\n");
+        let mission = crate::cli_budget::example_with_sierra_baja(&sub, &station);
+        let b = json(&run(&[
+            "budget",
+            &mission,
+            "--station",
+            "Sierra Baja",
+            "--at",
+            "2026-12-02T08:52:07.839Z",
+            "--format",
+            "json",
+        ]));
+        b["sun_noise_k"].as_f64().unwrap()
+    };
+    let (one, two) = (sun_k("300"), sun_k("600"));
+    assert!(one > 10.0, "{one}");
+    assert!((two / one - 2.0).abs() < 1e-3, "{one} {two}");
+    let sub = dir.path().join("zero");
+    std::fs::create_dir_all(&sub).unwrap();
+    let mission =
+        crate::cli_budget::example_with_sierra_baja(&sub, &format!("{base}\nsolar_flux_sfu: 0\n"));
+    crate::common::bin::clean_error(
+        &run(&[
+            "budget",
+            &mission,
+            "--station",
+            "Sierra Baja",
+            "--elevation-deg",
+            "20",
+        ]),
+        &["solar_flux_sfu"],
+    );
+}
