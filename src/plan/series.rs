@@ -124,9 +124,9 @@ pub enum SeriesError {
 
 /// The budget for one look angle at one station and weather. `reference` is any rate of the
 /// mission: C/N0, G/T and the temperatures do not depend on it. With `bodies` (the Sun and the
-/// Moon at this instant, unattenuated: [`crate::plan::bodies::BodyNoise::at`] with transmissivity
-/// 1) their noise, seen through this weather's path, and their separations are counted; without
-/// it (a budget at an elevation, no time) they are 0 and `None`.
+/// Moon at this instant before the atmosphere, from [`crate::plan::bodies::BodyNoise::at`]), their
+/// noise seen through this weather's path and their separations are counted; without it (a budget
+/// at an elevation, no time) they are 0 and `None`.
 #[inline]
 pub fn budget_at(
     model: &StationModel,
