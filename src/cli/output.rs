@@ -15,13 +15,12 @@ use std::path::Path;
 /// Check that `dir` can be written, complete or clear what interrupted runs left there, then open
 /// a staging folder inside it.
 pub fn stage(dir: &Path) -> Result<Staging> {
-    std::fs::create_dir_all(dir)
-        .with_context(|| format!("--out {}: cannot create the folder", dir.display()))?;
+    // Staging::new creates the folder if needed (and a failed run removes it again).
+    let st = Staging::new(dir).with_context(|| format!("--out {}", dir.display()))?;
     let probe = dir.join(format!(".passbudget-write-check-{}", std::process::id()));
     std::fs::write(&probe, b"ok")
         .with_context(|| format!("--out {}: the folder cannot be written", dir.display()))?;
     let _ = std::fs::remove_file(&probe);
-    let st = Staging::new(dir).with_context(|| format!("--out {}", dir.display()))?;
     let r = st.recovery();
     if r.completed_commit {
         note(&format!(

@@ -33,10 +33,16 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
         .collect();
     // Seasons only mean something for a satellite that stays near the geostationary arc.
     let seasons: Option<Vec<SeasonRow>> = near_geostationary(planner.elements()).then(|| {
-        outage_seasons(&transits, stations.len())
-            .iter()
-            .map(|s| SeasonRow::new(stations, s))
-            .collect()
+        let w = &plan.window;
+        let last = w.end() - chrono::Duration::nanoseconds(1);
+        outage_seasons(
+            &transits,
+            stations.len(),
+            (w.start().date_naive(), last.date_naive()),
+        )
+        .iter()
+        .map(|s| SeasonRow::new(stations, s))
+        .collect()
     });
     match a.format {
         Format::Json => {
@@ -108,8 +114,10 @@ fn print_table(
             ("first day", Align::Left),
             ("last day", Align::Left),
             ("days", Align::Right),
+            ("days > 1 dB", Align::Right),
             ("Sun K", Align::Right),
             ("Tsys rise dB", Align::Right),
+            ("", Align::Left),
         ]);
         for s in seasons {
             t.row(vec![
@@ -117,8 +125,14 @@ fn print_table(
                 s.first_day.clone(),
                 s.last_day.clone(),
                 s.days.to_string(),
+                s.degraded_days.to_string(),
                 format!("{:.1}", s.max_sun_noise_k),
                 format!("{:.2}", s.max_rise_db),
+                if s.cut_by_window {
+                    "cut by the window".into()
+                } else {
+                    String::new()
+                },
             ]);
         }
         write!(out, "{}", t.render())?;

@@ -49,10 +49,14 @@ pub struct OutageSeason {
     pub station_index: usize,
     pub first_day: NaiveDate,
     pub last_day: NaiveDate,
-    /// Days with a transit.
+    /// Days with a transit (a rise of at least [`TRANSIT_RISE_DB`]).
     pub days: usize,
+    /// Days with a rise above [`SUN_DEGRADED_RISE_DB`].
+    pub degraded_days: usize,
     pub max_sun_noise_k: f64,
     pub max_rise_db: f64,
+    /// The season touches the window's first or last day: it may begin earlier or end later.
+    pub cut_by_window: bool,
 }
 
 /// Collects the Sun transits of a plan's passes.
@@ -158,11 +162,16 @@ pub fn near_geostationary(elements: &ElementSet) -> bool {
     (lo..=hi).contains(&e.mean_motion) && e.eccentricity < 0.1 && e.inclination < 15.0
 }
 
-/// Group `transits` (in time order) into runs of consecutive UTC days per station.
-pub fn outage_seasons(transits: &[SunTransit], stations: usize) -> Vec<OutageSeason> {
+/// Group `transits` (in time order) into runs of consecutive UTC days per station; `window` is the
+/// first and last UTC day of the planned window.
+pub fn outage_seasons(
+    transits: &[SunTransit],
+    stations: usize,
+    window: (NaiveDate, NaiveDate),
+) -> Vec<OutageSeason> {
     let mut seasons: Vec<OutageSeason> = Vec::new();
     for station_index in 0..stations {
-        let mut current: Option<OutageSeason> = None;
+        let mut current: Option<Open> = None;
         for t in transits.iter().filter(|t| t.station_index == station_index) {
             let day = t.start.date_naive();
             match current.as_mut() {
@@ -170,27 +179,62 @@ pub fn outage_seasons(transits: &[SunTransit], stations: usize) -> Vec<OutageSea
                     if day > s.last_day {
                         s.days += 1;
                         s.last_day = day;
+                        s.degraded_today = false;
+                    }
+                    if t.degraded_s > 0.0 && !s.degraded_today {
+                        s.degraded_days += 1;
+                        s.degraded_today = true;
                     }
                     s.max_sun_noise_k = s.max_sun_noise_k.max(t.max_sun_noise_k);
                     s.max_rise_db = s.max_rise_db.max(t.max_rise_db);
                 }
                 _ => {
-                    seasons.extend(current.take());
-                    current = Some(OutageSeason {
+                    seasons.extend(current.take().map(|o| o.close(window)));
+                    current = Some(Open {
                         station_index,
                         first_day: day,
                         last_day: day,
                         days: 1,
+                        degraded_days: usize::from(t.degraded_s > 0.0),
+                        degraded_today: t.degraded_s > 0.0,
                         max_sun_noise_k: t.max_sun_noise_k,
                         max_rise_db: t.max_rise_db,
                     });
                 }
             }
         }
-        seasons.extend(current);
+        seasons.extend(current.map(|o| o.close(window)));
     }
     seasons.sort_by_key(|s| s.first_day);
     seasons
+}
+
+/// A season being gathered.
+struct Open {
+    station_index: usize,
+    first_day: NaiveDate,
+    last_day: NaiveDate,
+    days: usize,
+    degraded_days: usize,
+    /// A transit of `last_day` already counted in `degraded_days`.
+    degraded_today: bool,
+    max_sun_noise_k: f64,
+    max_rise_db: f64,
+}
+
+impl Open {
+    fn close(self, window: (NaiveDate, NaiveDate)) -> OutageSeason {
+        OutageSeason {
+            station_index: self.station_index,
+            first_day: self.first_day,
+            last_day: self.last_day,
+            days: self.days,
+            degraded_days: self.degraded_days,
+            max_sun_noise_k: self.max_sun_noise_k,
+            max_rise_db: self.max_rise_db,
+            cut_by_window: self.first_day <= window.0 || self.last_day >= window.1,
+        }
+    }
 }
 
 #[cfg(test)]
@@ -211,7 +255,7 @@ mod tests {
             min_separation_deg: 0.1,
             max_sun_noise_k: sun_k,
             max_rise_db: sun_k / 100.0,
-            degraded_s: 0.0,
+            degraded_s: if sun_k >= 30.0 { 5.0 } else { 0.0 },
         }
     }
 
@@ -226,7 +270,8 @@ mod tests {
             transit(0, 3, 20.0),
             transit(0, 5, 1.0),
         ];
-        let s = outage_seasons(&transits, 2);
+        let day = |d| NaiveDate::from_ymd_opt(2027, 3, d).unwrap();
+        let s = outage_seasons(&transits, 2, (day(1), day(31)));
         assert_eq!(s.len(), 3);
         let first = s
             .iter()
@@ -235,6 +280,11 @@ mod tests {
         assert_eq!(first.first_day.to_string(), "2027-03-01");
         assert_eq!(first.last_day.to_string(), "2027-03-03");
         assert_eq!(first.max_sun_noise_k, 40.0);
+        // day 2 has two transits above 1 dB: one degraded day
+        assert_eq!(first.degraded_days, 1);
+        assert!(first.cut_by_window, "it starts on the window's first day");
+        let late = s.iter().find(|x| x.first_day == day(5)).unwrap();
+        assert!(!late.cut_by_window && late.degraded_days == 0);
         assert!(s.iter().any(|x| x.station_index == 0
             && x.days == 1
             && x.first_day.to_string() == "2027-03-05"));

@@ -127,7 +127,8 @@ impl BudgetDoc {
                 .iter()
                 .map(|i| ItemRow {
                     name: i.name.into(),
-                    value: i.value,
+                    // + 0.0: a loss of 0 dB listed as -0 dB would read as a sign
+                    value: i.value + 0.0,
                     unit: i.unit.into(),
                     source: i.source.into(),
                 })

@@ -122,7 +122,8 @@ fn slug_uncut(name: &str) -> String {
 /// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).
 pub fn round(x: f64, digits: i32) -> f64 {
     let s = 10f64.powi(digits);
-    (x * s).round() / s
+    // + 0.0 turns a negative zero (a tiny negative value rounded) into 0
+    (x * s).round() / s + 0.0
 }
 
 /// Minutes:seconds for durations in tables.

@@ -150,6 +150,8 @@ pub struct Staging {
     method: Method,
     committed: bool,
     recovery: Recovery,
+    /// This run created `final_dir`: a run that fails removes it again (if still empty).
+    created: bool,
 }
 
 impl Staging {
@@ -157,7 +159,20 @@ impl Staging {
     /// ([`recover`]), and create a staging folder: a sibling to swap in where the folders can be
     /// exchanged, else a folder inside it.
     pub fn new(final_dir: &Path) -> Result<Staging, FolderError> {
+        let created = !final_dir.exists();
         std::fs::create_dir_all(final_dir).map_err(io_at(final_dir))?;
+        let st = Self::open(final_dir);
+        if st.is_err() && created {
+            let _ = std::fs::remove_dir(final_dir);
+        }
+        st.map(|mut st| {
+            st.created = created;
+            st
+        })
+    }
+
+    /// [`Staging::new`] once `final_dir` exists.
+    fn open(final_dir: &Path) -> Result<Staging, FolderError> {
         let recovery = recover(final_dir)?;
         #[cfg(target_os = "linux")]
         let reason = match swap::open(final_dir) {
@@ -168,6 +183,7 @@ impl Staging {
                     method: Method::Swap(s),
                     committed: false,
                     recovery,
+                    created: false,
                 })
             }
             Err(reason) => reason,
@@ -193,6 +209,7 @@ impl Staging {
             method: Method::Journal { reason },
             committed: false,
             recovery: Recovery::default(),
+            created: false,
         })
     }
 
@@ -294,6 +311,10 @@ impl Drop for Staging {
     fn drop(&mut self) {
         if !self.committed && !self.dir.as_os_str().is_empty() {
             let _ = remove_tree(&self.dir);
+            if self.created {
+                // only an empty folder: never anything the user put there meanwhile
+                let _ = std::fs::remove_dir(&self.final_dir);
+            }
         }
     }
 }

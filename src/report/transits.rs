@@ -47,8 +47,10 @@ pub struct SeasonRow {
     pub first_day: String,
     pub last_day: String,
     pub days: usize,
+    pub degraded_days: usize,
     pub max_sun_noise_k: f64,
     pub max_rise_db: f64,
+    pub cut_by_window: bool,
 }
 
 impl SeasonRow {
@@ -58,8 +60,10 @@ impl SeasonRow {
             first_day: s.first_day.to_string(),
             last_day: s.last_day.to_string(),
             days: s.days,
+            degraded_days: s.degraded_days,
             max_sun_noise_k: round(s.max_sun_noise_k, 3),
             max_rise_db: round(s.max_rise_db, 3),
+            cut_by_window: s.cut_by_window,
         }
     }
 }

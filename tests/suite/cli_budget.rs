@@ -348,3 +348,17 @@ fn atmosphere_has_no_step_just_below_five_degrees() {
         assert!(b["rain_db"].as_f64().unwrap() > 1.0);
     }
 }
+
+/// No output shows a negative zero (a loss of "-0 dB" reads as a gain): the clear-sky budget's
+/// rain and scintillation lines are 0 in JSON and CSV.
+#[test]
+fn budget_outputs_carry_no_negative_zero() {
+    for format in ["json", "csv"] {
+        let text =
+            crate::common::bin::success(&budget(EXAMPLE, "Nordkam", "20", &["--format", format]));
+        assert!(
+            !text.contains("-0.0,") && !text.contains("-0.0\n") && !text.contains(",-0,"),
+            "{format}: {text}"
+        );
+    }
+}

@@ -104,7 +104,11 @@ fn stations_with_the_same_file_names_are_refused_before_any_work() {
             &r,
             &["stations 'Nord Kam' and 'Nord-Kam' would write the same file names (nord-kam): rename one"],
         );
-        assert!(names(&out).is_empty(), "{:?}", names(&out));
+        assert!(
+            !out.exists(),
+            "the run created {} and left it",
+            out.display()
+        );
     }
 }
 
@@ -441,7 +445,11 @@ fn a_very_large_output_is_refused_before_any_work() {
             "--allow-large-output",
         ],
     );
-    assert!(names(&out).is_empty(), "{:?}", names(&out));
+    assert!(
+        !out.exists(),
+        "the run created {} and left it",
+        out.display()
+    );
     let r = run(&[
         "chart",
         MISSION,
@@ -480,5 +488,23 @@ fn the_output_estimate_matches_a_real_run() {
     assert!(
         e.bytes as f64 >= written_bytes as f64 && (e.bytes as f64) < 1.5 * written_bytes as f64,
         "{e:?} against {written_bytes} bytes"
+    );
+}
+
+/// A run that fails leaves no trace: an output folder it created is removed again (the README's
+/// exit-code section says DIR is unchanged; before, a new empty DIR was left behind).
+#[test]
+fn a_failed_run_does_not_leave_the_folder_it_created() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("new-folder");
+    clean_error(&plan_into(&out, &["--step", "0"]), &["--step"]);
+    assert!(!out.exists(), "{} was left behind", out.display());
+    // A folder that existed stays, with what it held.
+    std::fs::create_dir(&out).unwrap();
+    std::fs::write(out.join("notes.txt"), "mine").unwrap();
+    clean_error(&plan_into(&out, &["--step", "0"]), &["--step"]);
+    assert_eq!(
+        std::fs::read_to_string(out.join("notes.txt")).unwrap(),
+        "mine"
     );
 }
