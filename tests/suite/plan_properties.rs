@@ -31,6 +31,10 @@ struct StationParams {
     diameter_m: f64,
     lna_noise_temperature_k: f64,
     rain_rate_001_mm_h: f64,
+    /// The noise keys: man-made category, an observed solar flux (sfu), ground emissivity.
+    man_made_noise: Option<&'static str>,
+    solar_flux_sfu: Option<f64>,
+    ground_emissivity: f64,
 }
 
 /// Invented mission parameters; the element file is the shipped example's (epoch
@@ -58,16 +62,31 @@ fn station_params() -> impl Strategy<Value = StationParams> {
         1.0f64..12.0,
         30.0f64..300.0,
         0.0f64..120.0,
+        (
+            prop::option::of(prop::sample::select(vec![
+                "city",
+                "residential",
+                "rural",
+                "quiet_rural",
+            ])),
+            prop::option::of(1.0f64..1e6),
+            0.0f64..=1.0,
+        ),
     )
-        .prop_map(|(la, lo, alt, mask, d, lna, rain)| StationParams {
-            latitude_deg: la,
-            longitude_deg: lo,
-            altitude_m: alt,
-            min_elevation_deg: mask,
-            diameter_m: d,
-            lna_noise_temperature_k: lna,
-            rain_rate_001_mm_h: rain,
-        })
+        .prop_map(
+            |(la, lo, alt, mask, d, lna, rain, (mm, flux, e))| StationParams {
+                latitude_deg: la,
+                longitude_deg: lo,
+                altitude_m: alt,
+                min_elevation_deg: mask,
+                diameter_m: d,
+                lna_noise_temperature_k: lna,
+                rain_rate_001_mm_h: rain,
+                man_made_noise: mm,
+                solar_flux_sfu: flux,
+                ground_emissivity: e,
+            },
+        )
 }
 
 /// `dwell` is the strategy of `modem.min_dwell_s`.
@@ -96,9 +115,10 @@ fn mission_params(dwell: impl Strategy<Value = u32>) -> impl Strategy<Value = Mi
 }
 
 fn station_yaml(s: &StationParams) -> String {
-    format!(
+    let mut y = format!(
         "name: Proptest Station\nlatitude_deg: {}\nlongitude_deg: {}\naltitude_m: {}\n\
          min_elevation_deg: {}\nantenna:\n  diameter_m: {}\n  efficiency: 0.6\n  polarization: rhcp\n\
+         \x20 ground_emissivity: {}\n\
          receiver:\n  lna_noise_temperature_k: {}\n  lna_gain_db: 30\nclimate:\n  pressure_hpa: 1000\n\
          \x20 temperature_k: 288\n  water_vapour_density_g_m3: 7.5\n  rain_rate_001_mm_h: {}\n",
         s.latitude_deg,
@@ -106,9 +126,17 @@ fn station_yaml(s: &StationParams) -> String {
         s.altitude_m,
         s.min_elevation_deg,
         s.diameter_m,
+        s.ground_emissivity,
         s.lna_noise_temperature_k,
         s.rain_rate_001_mm_h
-    )
+    );
+    if let Some(m) = s.man_made_noise {
+        y.push_str(&format!("man_made_noise: {m}\n"));
+    }
+    if let Some(f) = s.solar_flux_sfu {
+        y.push_str(&format!("solar_flux_sfu: {f}\n"));
+    }
+    y
 }
 
 /// A mission YAML naming `station.yaml` beside it and the shipped example's elements.
@@ -250,6 +278,9 @@ fn plan_violations_flags_a_broken_plan() {
         diameter_m: 7.3,
         lna_noise_temperature_k: 45.0,
         rain_rate_001_mm_h: 22.0,
+        man_made_noise: None,
+        solar_flux_sfu: None,
+        ground_emissivity: 0.9,
     };
     let m = MissionParams {
         power_w: 2.0,
