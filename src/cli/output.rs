@@ -16,7 +16,13 @@ use std::path::Path;
 /// a staging folder inside it.
 pub fn stage(dir: &Path) -> Result<Staging> {
     // Staging::new creates the folder if needed (and a failed run removes it again).
-    let st = Staging::new(dir).with_context(|| format!("--out {}", dir.display()))?;
+    let st = Staging::new(dir).with_context(|| {
+        if dir.is_dir() {
+            format!("--out {}", dir.display())
+        } else {
+            format!("--out {}: cannot create the folder", dir.display())
+        }
+    })?;
     let probe = dir.join(format!(".passbudget-write-check-{}", std::process::id()));
     std::fs::write(&probe, b"ok")
         .with_context(|| format!("--out {}: the folder cannot be written", dir.display()))?;
