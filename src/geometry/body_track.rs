@@ -74,6 +74,13 @@ pub fn enu_from_az_el(azimuth_deg: f64, elevation_deg: f64) -> [f64; 3] {
     [sa * ce, ca * ce, se]
 }
 
+/// Angle between two unit vectors, deg: 2 asin(|u - p| / 2), accurate at small angles.
+#[inline]
+pub fn chord_separation_deg(u: &[f64; 3], p: &[f64; 3]) -> f64 {
+    let d = ((u[0] - p[0]).powi(2) + (u[1] - p[1]).powi(2) + (u[2] - p[2]).powi(2)).sqrt();
+    (2.0 * (d / 2.0).min(1.0).asin()).to_degrees()
+}
+
 /// The direction of the Sun or the Moon from one station over a span of time.
 #[derive(Debug, Clone)]
 pub struct BodyTrack {
@@ -191,10 +198,10 @@ impl BodyTrack {
     /// Angle between the body's centre and the pointing direction (azimuth, elevation in deg)
     /// at `t`, deg: 2 asin(|u − p| / 2), accurate at small angles.
     pub fn separation_deg(&self, t: &DateTime<Utc>, azimuth_deg: f64, elevation_deg: f64) -> f64 {
-        let u = self.direction_enu(t);
-        let p = enu_from_az_el(azimuth_deg, elevation_deg);
-        let d = ((u[0] - p[0]).powi(2) + (u[1] - p[1]).powi(2) + (u[2] - p[2]).powi(2)).sqrt();
-        (2.0 * (d / 2.0).min(1.0).asin()).to_degrees()
+        chord_separation_deg(
+            &self.direction_enu(t),
+            &enu_from_az_el(azimuth_deg, elevation_deg),
+        )
     }
 
     /// Angular radius of the body's disk at the middle of the span, deg.

@@ -19,7 +19,9 @@
 //! * The Moon only from 1 to 100 GHz (its 140-280 K disk adds less than 0.1 K to any antenna below
 //!   1 GHz, so no warning is raised there; the plan's notes say it).
 
-use crate::geometry::body_track::{enu_from_az_el, Body, BodyTrack, TrackError};
+use crate::geometry::body_track::{
+    chord_separation_deg, enu_from_az_el, Body, BodyTrack, TrackError,
+};
 use crate::geometry::Observer;
 use crate::noise::disk::{DiskCoupling, DiskError, DiskSpec, PowerPattern};
 use crate::noise::moon::{self, moon_brightness_k};
@@ -218,12 +220,7 @@ fn disk_noise<P: PowerPattern + Sync>(
     brightness_k: f64,
 ) -> (f64, f64) {
     let u = track.direction_enu(t);
-    let d = ((u[0] - pointing[0]).powi(2)
-        + (u[1] - pointing[1]).powi(2)
-        + (u[2] - pointing[2]).powi(2))
-    .sqrt();
-    // 2 asin(|u - p| / 2): accurate at small angles
-    let separation_deg = (2.0 * (d / 2.0).min(1.0).asin()).to_degrees();
+    let separation_deg = chord_separation_deg(&u, pointing);
     let noise_k = match term {
         // below the geometric horizon the ground hides the body
         Some(term) if u[2] > 0.0 => term.coupling.added_temperature_k(

@@ -83,6 +83,11 @@ pub struct BodyExposure {
 /// The rise of the system noise temperature (dB) above which the Sun is said to degrade a step.
 pub const SUN_DEGRADED_RISE_DB: f64 = 1.0;
 
+/// How much the Sun raises a step's system noise temperature: 10 log10(Tsys / (Tsys - T_sun)), dB.
+pub fn sun_rise_db(s: &Step) -> f64 {
+    10.0 * (s.system_temperature_k / (s.system_temperature_k - s.sun_noise_k)).log10()
+}
+
 impl BodyExposure {
     /// Gather the bodies' figures over a pass's steps.
     pub fn over(steps: &[Step]) -> BodyExposure {
@@ -90,15 +95,13 @@ impl BodyExposure {
             (Some(x), Some(y)) => Some(x.min(y)),
             (x, None) | (None, x) => x,
         };
-        // Tsys / (Tsys - T_sun) > 10^(rise/10)  <=>  T_sun > Tsys (1 - 10^(-rise/10))
-        let share = 1.0 - 10f64.powf(-SUN_DEGRADED_RISE_DB / 10.0);
         steps
             .iter()
             .fold(BodyExposure::default(), |e, s| BodyExposure {
                 min_sun_separation_deg: min(e.min_sun_separation_deg, s.sun_separation_deg),
                 max_sun_noise_k: e.max_sun_noise_k.max(s.sun_noise_k),
                 sun_degraded_s: e.sun_degraded_s
-                    + if s.sun_noise_k > share * s.system_temperature_k {
+                    + if sun_rise_db(s) > SUN_DEGRADED_RISE_DB {
                         s.weight_s
                     } else {
                         0.0

@@ -10,7 +10,7 @@
 //! [`TransitSink::transits`]. The figures come from the plan's own steps (clear sky), so they
 //! agree with its per-step CSV.
 
-use super::results::{PassSeries, SUN_DEGRADED_RISE_DB};
+use super::results::{sun_rise_db as rise_db, PassSeries, SUN_DEGRADED_RISE_DB};
 use super::series::Step;
 use super::sink::PassSink;
 use crate::orbit::ElementSet;
@@ -143,11 +143,6 @@ fn transit(
             // from +0 (an empty f64 sum is -0)
             .fold(0.0, |a, s| a + s.weight_s),
     }
-}
-
-/// Rise of the system noise temperature due to the Sun: 10 log10(Tsys / (Tsys - T_sun)), dB.
-fn rise_db(s: &Step) -> f64 {
-    10.0 * (s.system_temperature_k / (s.system_temperature_k - s.sun_noise_k)).log10()
 }
 
 /// Mean motion range, rev/day, taken as "near the geostationary arc" (common practice: a
