@@ -11,6 +11,7 @@ pub mod atmosphere;
 #[cfg(feature = "charts")]
 pub mod chart;
 pub mod config;
+pub mod engfmt;
 pub mod geometry;
 pub mod link;
 pub mod noise;

@@ -470,63 +470,7 @@ pub fn zero_based_max(values: impl IntoIterator<Item = f64>, pad: f64, min: f64)
     (m * (1.0 + pad)).max(min)
 }
 
-/// A display unit for bit volumes: (divisor, unit name).
-pub fn volume_unit(max_bits: f64) -> (f64, &'static str) {
-    if max_bits >= 1e12 {
-        (1e12, "Tbit")
-    } else if max_bits >= 1e9 {
-        (1e9, "Gbit")
-    } else if max_bits >= 1e6 {
-        (1e6, "Mbit")
-    } else if max_bits >= 1e3 {
-        (1e3, "kbit")
-    } else {
-        (1.0, "bit")
-    }
-}
-
-/// A volume for titles: `31.2 Gbit`, `850 Mbit`.
-pub fn format_volume(bits: f64) -> String {
-    if !bits.is_finite() {
-        return "n/a".into();
-    }
-    let (div, unit) = volume_unit(bits.abs());
-    format!("{} {unit}", three_digits(bits / div))
-}
-
-/// A rate for titles: `50 Mbit/s`, `1.5 Mbit/s`, `256 kbit/s`.
-pub fn format_rate(bps: f64) -> String {
-    if !bps.is_finite() {
-        return "n/a".into();
-    }
-    let (div, unit) = if bps.abs() >= 1e9 {
-        (1e9, "Gbit/s")
-    } else if bps.abs() >= 1e6 {
-        (1e6, "Mbit/s")
-    } else if bps.abs() >= 1e3 {
-        (1e3, "kbit/s")
-    } else {
-        (1.0, "bit/s")
-    };
-    format!("{} {unit}", three_digits(bps / div))
-}
-
-/// About three significant digits without trailing zeros: 31.2, 850, 1.5, 0.25.
-fn three_digits(x: f64) -> String {
-    let a = x.abs();
-    let s = if a >= 100.0 {
-        format!("{x:.0}")
-    } else if a >= 10.0 {
-        format!("{x:.1}")
-    } else {
-        format!("{x:.2}")
-    };
-    if s.contains('.') {
-        s.trim_end_matches('0').trim_end_matches('.').to_string()
-    } else {
-        s
-    }
-}
+pub use crate::engfmt::{rate as format_rate, volume as format_volume, volume_unit};
 
 /// Axis number label: at most two decimals, trailing zeros removed (`60`, `2.5`, `0.25`).
 pub fn num_label(v: &f64) -> String {
@@ -613,15 +557,6 @@ mod tests {
         assert_eq!(slug("Sierra Baja"), "sierra-baja");
         assert_eq!(slug("  Ñu / Station 2 "), "ñu-station-2");
         assert_eq!(slug("***"), "unnamed");
-    }
-
-    #[test]
-    fn formats_units() {
-        assert_eq!(format_volume(31.24e9), "31.2 Gbit");
-        assert_eq!(format_volume(850e6), "850 Mbit");
-        assert_eq!(format_rate(50e6), "50 Mbit/s");
-        assert_eq!(format_rate(1.5e6), "1.5 Mbit/s");
-        assert_eq!(format_rate(256e3), "256 kbit/s");
     }
 
     #[test]
