@@ -8,6 +8,17 @@
 /// Elevations within this margin below 5 deg count as 5 deg for the choice of the >= 5 deg forms, deg.
 pub const LOW_ELEVATION_TOLERANCE_DEG: f64 = 1e-3;
 
+/// Elevations within this margin below 0 deg count as 0 deg without a warning: a pass searched
+/// on a 0 deg mask has its AOS and LOS found to about 1e-3 deg, either side of the horizon.
+pub const HORIZON_TOLERANCE_DEG: f64 = 1e-3;
+
+/// Whether `elevation_deg` is below the geometric horizon by more than the rounding of a pass
+/// search ([`HORIZON_TOLERANCE_DEG`]).
+#[inline]
+pub fn below_horizon(elevation_deg: f64) -> bool {
+    elevation_deg < -HORIZON_TOLERANCE_DEG
+}
+
 /// Whether the below-5-deg forms apply at `elevation_deg`.
 #[inline]
 pub fn low_elevation_form(elevation_deg: f64) -> bool {

@@ -456,7 +456,10 @@ fn clamp_elevation_deg(elevation_deg: f64, w: &mut ModelWarnings) -> f64 {
     if (0.0..=90.0).contains(&elevation_deg) {
         elevation_deg
     } else {
-        w.elevation_clamped = true;
+        // A rounding below the horizon is 0 deg, not a clamp worth a warning.
+        // (NaN is never a rounding: it is flagged.)
+        let rounding = (-elevation::HORIZON_TOLERANCE_DEG..0.0).contains(&elevation_deg);
+        w.elevation_clamped |= !rounding;
         if elevation_deg > 90.0 {
             90.0
         } else {

@@ -48,6 +48,9 @@ pub struct BudgetArgs {
     pub exceedance_percent: Option<f64>,
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
+    /// Budget at a time more than 90 days from the element epoch (refused otherwise).
+    #[arg(long)]
+    pub allow_stale_elements: bool,
 }
 
 #[derive(Debug, Clone, clap::Args)]
@@ -88,8 +91,12 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
         rate_bps: a.rate_bps,
         scheme: a.scheme.clone(),
         exceedance_percent: a.exceedance_percent,
+        allow_stale_elements: a.allow_stale_elements,
     };
     let b = instant_budget(&mission, &req).map_err(|e| match e {
+        InstantError::StaleElements(s) => {
+            anyhow!("--at: {s}; --allow-stale-elements budgets anyway")
+        }
         InstantError::Elevation(v) => anyhow!("--elevation-deg {v}: out of range (0 to 90 deg)"),
         InstantError::Range { source }
             if source.key == passbudget::config::limits::RATE_BPS.key =>

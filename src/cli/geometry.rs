@@ -223,11 +223,7 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
     }
     for (i, cut) in empty {
         let (label, name) = (r.elements.label(), &r.stations[i].name);
-        note(&[if cut {
-            format!("{label} has no pass over {name} before the propagation stops")
-        } else {
-            format!("{label} does not rise above the mask of {name} in the window")
-        }]);
+        note(&[passbudget::plan::summary::no_pass_note(&label, name, cut)]);
     }
     all.sort_by(|a, b| a.1.aos.cmp(&b.1.aos).then(a.0.cmp(&b.0)));
     Ok(all)

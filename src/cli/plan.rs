@@ -9,6 +9,7 @@ use crate::cli::window::WindowArgs;
 use anyhow::Result;
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
+use passbudget::engfmt;
 use passbudget::plan::summary::{tradeoff, usable_masks};
 use passbudget::plan::{Plan, Planner};
 use passbudget::report::files::{
@@ -127,18 +128,44 @@ fn write_files(
     Ok(())
 }
 
-fn gbit(bits: f64) -> String {
-    format!("{:.2}", bits / 1e9)
+/// A column of volumes in one unit chosen from its largest value (`Gbit`, `Mbit`, ...), each
+/// number with about three significant digits.
+struct VolumeColumn {
+    div: f64,
+    unit: &'static str,
 }
 
-fn mbps(r: Option<f64>) -> String {
-    r.map(|x| format!("{:.0}", x / 1e6))
-        .unwrap_or_else(|| "-".into())
+impl VolumeColumn {
+    fn over(values: impl IntoIterator<Item = f64>) -> Self {
+        let max = values
+            .into_iter()
+            .filter(|v| v.is_finite())
+            .fold(0.0f64, |m, v| m.max(v.abs()));
+        let (div, unit) = engfmt::volume_unit(max);
+        VolumeColumn { div, unit }
+    }
+
+    fn cell(&self, bits: f64) -> String {
+        engfmt::three_digits(bits / self.div)
+    }
+
+    fn header(&self, what: &str) -> String {
+        format!("{what} {}", self.unit)
+    }
+}
+
+fn rate_cell(r: Option<f64>) -> String {
+    r.map(engfmt::rate).unwrap_or_else(|| "-".into())
 }
 
 fn hh_mm_ss(seconds: f64) -> String {
     let s = seconds.max(0.0).round() as i64;
     format!("{}:{:02}:{:02}", s / 3600, (s / 60) % 60, s % 60)
+}
+
+/// An elevation for a table: one decimal, never `-0.0`.
+fn deg1(x: f64) -> String {
+    format!("{:.1}", round(x, 1))
 }
 
 fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
@@ -155,85 +182,116 @@ fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write
     print_days(doc, out)?;
     print_totals(planner, doc, out)?;
     print_usable_masks(&doc.usable_masks, true, out)?;
-    writeln!(out, "Planning estimates only; frequency use needs a licence and coordination by the national administration. See the README.")?;
+    writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
     Ok(())
 }
 
 fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
     let rain = planner.exceedance_percent().is_some();
-    let mut cols = vec![
-        ("#", Align::Right),
-        ("station", Align::Left),
-        ("AOS (UTC)", Align::Left),
-        ("LOS", Align::Left),
-        ("max el", Align::Right),
-        ("rate Mb/s", Align::Right),
-        ("scheme", Align::Left),
-        ("closes from", Align::Left),
-        ("until", Align::Left),
-        ("min margin", Align::Right),
-        ("fixed Gb", Align::Right),
-        ("adapt Gb", Align::Right),
-        ("Shannon Gb", Align::Right),
+    let vol = VolumeColumn::over(doc.passes.iter().flat_map(|r| {
+        [
+            r.volume_bits,
+            r.adaptive_volume_bits,
+            r.shannon_volume_bits,
+            r.rain_volume_bits.unwrap_or(0.0),
+        ]
+    }));
+    let mut cols: Vec<(String, Align)> = vec![
+        ("#".into(), Align::Right),
+        ("station".into(), Align::Left),
+        ("AOS (UTC)".into(), Align::Left),
+        ("LOS".into(), Align::Left),
+        ("max el".into(), Align::Right),
+        ("rate".into(), Align::Right),
+        ("scheme".into(), Align::Left),
+        ("closes from".into(), Align::Left),
+        ("until".into(), Align::Left),
+        ("margin@TCA".into(), Align::Right),
+        (vol.header("fixed"), Align::Right),
+        (vol.header("adapt"), Align::Right),
+        (vol.header("Shannon"), Align::Right),
     ];
     if rain {
-        cols.push(("rain Mb/s", Align::Right));
-        cols.push(("rain Gb", Align::Right));
+        cols.push(("rain rate".into(), Align::Right));
+        cols.push((vol.header("rain"), Align::Right));
     }
-    let mut t = Table::new(&cols);
+    let mut t = Table::new(&columns(&cols));
+    let mut cut = false;
     for (r, x) in doc.passes.iter().zip(&plan.passes) {
         let closes = |c: Option<passbudget::plan::Crossing>| match c {
-            Some(c) => format!("{} @{:.1}", c.time.format("%H:%M:%S"), c.elevation_deg),
+            Some(c) => format!("{} @{}", c.time.format("%H:%M:%S"), deg1(c.elevation_deg)),
             None => "-".into(),
         };
         let closing = x.clear.closing;
+        cut |= x.pass.starts_before_window || x.pass.ends_after_window;
+        let mark = |on: bool, m: &str| if on { m } else { "" }.to_string();
         let mut cells = vec![
             r.number.to_string(),
             r.station.clone(),
-            x.pass.aos.format("%m-%d %H:%M:%S").to_string(),
-            x.pass.los.format("%H:%M:%S").to_string(),
-            format!("{:.1}", r.max_elevation_deg),
-            mbps(r.rate_bps),
+            mark(x.pass.starts_before_window, "<")
+                + &x.pass.aos.format("%m-%d %H:%M:%S").to_string(),
+            x.pass.los.format("%H:%M:%S").to_string() + &mark(x.pass.ends_after_window, ">"),
+            deg1(r.max_elevation_deg),
+            rate_cell(r.rate_bps),
             r.scheme.clone().unwrap_or_else(|| "no rate closes".into()),
             closes(closing.map(|c| c.from)),
             closes(closing.map(|c| c.until)),
-            r.min_margin_db
+            r.tca_margin_db
                 .map(|m| format!("{m:.1}"))
                 .unwrap_or_else(|| "-".into()),
-            gbit(r.volume_bits),
-            gbit(r.adaptive_volume_bits),
-            gbit(r.shannon_volume_bits),
+            vol.cell(r.volume_bits),
+            vol.cell(r.adaptive_volume_bits),
+            vol.cell(r.shannon_volume_bits),
         ];
         if rain {
-            cells.push(mbps(r.rain_rate_bps));
-            cells.push(gbit(r.rain_volume_bits.unwrap_or(0.0)));
+            cells.push(rate_cell(r.rain_rate_bps));
+            cells.push(vol.cell(r.rain_volume_bits.unwrap_or(0.0)));
         }
         t.row(cells);
     }
     write!(out, "{}", t.render())?;
+    writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
+    if cut {
+        writeln!(out, "<AOS: the pass began before the window (the time shown is the window start); LOS>: it ends after the window.")?;
+    }
     writeln!(out)?;
     Ok(())
 }
 
+fn columns(cols: &[(String, Align)]) -> Vec<(&str, Align)> {
+    cols.iter().map(|(s, a)| (s.as_str(), *a)).collect()
+}
+
 fn print_days(doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
-    let mut d = Table::new(&[
-        ("day (UTC)", Align::Left),
-        ("passes", Align::Right),
-        ("contact h:mm:ss", Align::Right),
-        ("fixed Gb", Align::Right),
-        ("adapt Gb", Align::Right),
-        ("Shannon Gb", Align::Right),
-        ("rain Gb", Align::Right),
-    ]);
+    let vol = VolumeColumn::over(doc.days.iter().flat_map(|r| {
+        [
+            r.volume_bits,
+            r.adaptive_volume_bits,
+            r.shannon_volume_bits,
+            r.rain_volume_bits.unwrap_or(0.0),
+        ]
+    }));
+    let cols: Vec<(String, Align)> = vec![
+        ("day (UTC)".into(), Align::Left),
+        ("passes".into(), Align::Right),
+        ("contact h:mm:ss".into(), Align::Right),
+        (vol.header("fixed"), Align::Right),
+        (vol.header("adapt"), Align::Right),
+        (vol.header("Shannon"), Align::Right),
+        (vol.header("rain"), Align::Right),
+    ];
+    let mut d = Table::new(&columns(&cols));
     for r in &doc.days {
         d.row(vec![
             r.date.clone(),
             r.passes.to_string(),
             hh_mm_ss(r.contact_s),
-            gbit(r.volume_bits),
-            gbit(r.adaptive_volume_bits),
-            gbit(r.shannon_volume_bits),
-            r.rain_volume_bits.map(gbit).unwrap_or_else(|| "-".into()),
+            vol.cell(r.volume_bits),
+            vol.cell(r.adaptive_volume_bits),
+            vol.cell(r.shannon_volume_bits),
+            r.rain_volume_bits
+                .map(|v| vol.cell(v))
+                .unwrap_or_else(|| "-".into()),
         ]);
     }
     write!(out, "{}", d.render())?;
@@ -248,39 +306,61 @@ fn print_totals(planner: &Planner, doc: &PlanDoc, out: &mut dyn Write) -> Result
         "Window totals ({:.2} days, {} passes, {} with a closing rate):",
         tot.days, tot.passes, tot.passes_closing
     )?;
+    let line = |label: &str, bits: f64, note: String| {
+        format!("  {label:<24}{:>12}   {note}", engfmt::volume(bits))
+    };
     writeln!(
         out,
-        "  fixed rate per pass     {:>9} Gbit   ({:.0} % of Shannon)",
-        gbit(tot.volume_bits),
-        tot.fixed_efficiency * 100.0
+        "{}",
+        line(
+            "fixed rate per pass",
+            tot.volume_bits,
+            format!("({:.0} % of Shannon)", tot.fixed_efficiency * 100.0)
+        )
     )?;
     writeln!(
         out,
-        "  adaptive                {:>9} Gbit   ({:.0} % of Shannon)",
-        gbit(tot.adaptive_volume_bits),
-        tot.adaptive_efficiency * 100.0
+        "{}",
+        line(
+            "adaptive",
+            tot.adaptive_volume_bits,
+            format!("({:.0} % of Shannon)", tot.adaptive_efficiency * 100.0)
+        )
     )?;
     writeln!(
         out,
-        "  Shannon bound           {:>9} Gbit   (over {:.0} MHz)",
-        gbit(tot.shannon_volume_bits),
-        planner.rates().shannon_bandwidth_hz / 1e6
+        "{}",
+        line(
+            "Shannon bound",
+            tot.shannon_volume_bits,
+            format!(
+                "(over {})",
+                engfmt::hertz(planner.rates().shannon_bandwidth_hz)
+            )
+        )
     )?;
     if let (Some(r), Some(s)) = (tot.single_rate_bps, &tot.single_rate_scheme) {
         writeln!(
             out,
-            "  one rate for all passes {:>9} Gbit   (best single rate {:.0} Mbit/s {s})",
-            gbit(tot.single_rate_volume_bits),
-            r / 1e6
+            "{}",
+            line(
+                "one rate for all passes",
+                tot.single_rate_volume_bits,
+                format!("(best single rate {} {s})", engfmt::rate(r))
+            )
         )?;
     }
     writeln!(
         out,
-        "  network (each second once, best station) {} Gbit",
-        gbit(tot.network_volume_bits)
+        "{}",
+        line(
+            "network",
+            tot.network_volume_bits,
+            "(each second once, best station)".into()
+        )
     )?;
     if let (Some(v), Some(x)) = (tot.rain_volume_bits, planner.exceedance_percent()) {
-        writeln!(out, "  availability case, rain exceeded {x} % of the year: fixed {} Gbit, adaptive {} Gbit, {} passes closing", gbit(v), gbit(tot.rain_adaptive_volume_bits.unwrap_or(0.0)), tot.rain_passes_closing.unwrap_or(0))?;
+        writeln!(out, "  availability case, rain exceeded {x} % of the year: fixed {}, adaptive {}, {} passes closing", engfmt::volume(v), engfmt::volume(tot.rain_adaptive_volume_bits.unwrap_or(0.0)), tot.rain_passes_closing.unwrap_or(0))?;
     }
     writeln!(out)?;
     Ok(())
@@ -290,7 +370,7 @@ fn print_totals(planner: &Planner, doc: &PlanDoc, out: &mut dyn Write) -> Result
 fn print_usable_masks(masks: &[UsableMaskRow], plan: bool, out: &mut dyn Write) -> Result<()> {
     let mut cols = vec![
         ("station", Align::Left),
-        ("rate Mb/s", Align::Right),
+        ("rate", Align::Right),
         ("scheme", Align::Left),
         ("usable mask", Align::Right),
     ];
@@ -301,10 +381,10 @@ fn print_usable_masks(masks: &[UsableMaskRow], plan: bool, out: &mut dyn Write) 
     for r in masks {
         let mut cells = vec![
             r.station.clone(),
-            format!("{:.0}", r.rate_bps / 1e6),
+            engfmt::rate(r.rate_bps),
             r.scheme.clone(),
             r.usable_mask_deg
-                .map(|v| format!("{:.1} deg", round(v, 1)))
+                .map(|v| format!("{} deg", deg1(v)))
                 .unwrap_or_else(|| "never closes".into()),
         ];
         if plan {
@@ -376,9 +456,17 @@ fn print_tradeoff(
             ("mask deg".into(), Align::Right),
             ("contact min/day".into(), Align::Right),
         ];
+        let vol = VolumeColumn::over(
+            t.volume_bits_per_day
+                .iter()
+                .flat_map(|o| o.values.iter().copied()),
+        );
         for o in &t.volume_bits_per_day {
-            let rate = ladder[o.option.0].rate_bps;
-            cols.push((format!("{:.0} Mb/s Gb/day", rate / 1e6), Align::Right));
+            let r = &ladder[o.option.0];
+            cols.push((
+                format!("{} {} {}/day", engfmt::rate(r.rate_bps), r.scheme, vol.unit),
+                Align::Right,
+            ));
         }
         let colrefs: Vec<(&str, Align)> = cols.iter().map(|(s, a)| (s.as_str(), *a)).collect();
         let mut table = Table::new(&colrefs);
@@ -390,7 +478,7 @@ fn print_tradeoff(
             cells.extend(
                 t.volume_bits_per_day
                     .iter()
-                    .map(|o| format!("{:.2}", o.values[i].round() / 1e9)),
+                    .map(|o| vol.cell(o.values[i].round())),
             );
             table.row(cells);
         }

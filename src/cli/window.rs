@@ -30,6 +30,10 @@ pub struct WindowArgs {
     /// Minimum elevation, deg, overriding every station's min_elevation_deg.
     #[arg(long, value_name = "DEG", allow_hyphen_values = true)]
     pub mask: Option<f64>,
+    /// Plan even when the window lies more than 90 days from the element epoch (refused
+    /// otherwise: the positions are off by hundreds to thousands of km).
+    #[arg(long)]
+    pub allow_stale_elements: bool,
 }
 
 /// Parse an optional RFC 3339 flag value, naming the flag in the message.
@@ -55,6 +59,7 @@ impl WindowArgs {
             exceedance_percent: self.exceedance_percent,
             mask_deg: self.mask,
             search_floor_deg: tradeoff.then_some(0.0),
+            allow_stale_elements: self.allow_stale_elements,
         })
     }
 
@@ -91,6 +96,7 @@ fn name_flag(e: PlanError, r: &PlanRequest, mission: &std::path::Path) -> anyhow
             anyhow!("--start/--end/--days: {w}")
         }
         PlanError::Window(w) => anyhow!("{}: {w}", mission.display()),
+        PlanError::StaleElements(s) => anyhow!("{s}; --allow-stale-elements plans anyway"),
         _ => anyhow::Error::new(e),
     }
 }

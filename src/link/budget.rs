@@ -420,7 +420,7 @@ impl LinkModel {
             shannon_gap_db: r.shannon_gap_db,
             pattern_clamped: tx_gain.clamped,
             galactic_extrapolated: self.sky_range == SkyRange::GalacticExtrapolated,
-            below_horizon: elevation_deg < 0.0,
+            below_horizon: crate::atmosphere::elevation::below_horizon(elevation_deg),
         })
     }
 

@@ -126,6 +126,8 @@ fn short_request(mission: &Mission, tradeoff: bool) -> Option<PlanRequest> {
         },
         step_s: Some(mission.step_s.max(MIN_STEP_S)),
         search_floor_deg: tradeoff.then_some(0.0),
+        // the fuzzer's windows may lie anywhere: plan them all
+        allow_stale_elements: true,
         ..Default::default()
     })
 }

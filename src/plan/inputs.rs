@@ -81,28 +81,101 @@ pub fn satellite_name(set: &ElementSet) -> String {
     set.name.clone().unwrap_or_else(|| set.norad_id.to_string())
 }
 
-/// The element-age warning, if any: more than 7 days between the epoch and either end of the
-/// window warns, more than 30 days warns strongly. Along-track error of a LEO element set grows by
-/// roughly 1-3 km a day (common practice).
+/// Beyond this many days between the element epoch and either end of the window, planning is
+/// refused unless the caller allows stale elements: SGP4 errors by then are hundreds to
+/// thousands of km for a LEO orbit, so pass times are off by minutes and the passes themselves
+/// may not exist (common practice: element sets are refreshed daily to weekly).
+pub const MAX_ELEMENT_AGE_DAYS: f64 = 90.0;
+
+/// How far a window reaches from the element epoch.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ElementAge {
+    /// Largest distance in days between the epoch and either end of the window.
+    pub days: f64,
+    /// Whether that farthest end lies before the epoch (a window before the elements).
+    pub before_epoch: bool,
+    /// A window of no length (one instant).
+    pub instant: bool,
+}
+
+impl ElementAge {
+    pub fn of(
+        set: &ElementSet,
+        start: chrono::DateTime<chrono::Utc>,
+        end: chrono::DateTime<chrono::Utc>,
+    ) -> ElementAge {
+        let days =
+            |t: chrono::DateTime<chrono::Utc>| (t - set.epoch).num_seconds() as f64 / 86400.0;
+        let (a, b) = (days(start), days(end));
+        let far = if a.abs() >= b.abs() { a } else { b };
+        ElementAge {
+            days: far.abs(),
+            before_epoch: far < 0.0,
+            instant: start == end,
+        }
+    }
+
+    fn reach(&self, set: &ElementSet) -> String {
+        format!(
+            "{} {:.1} days {} the epoch of {} ({})",
+            if self.instant {
+                "the time is"
+            } else {
+                "the window reaches"
+            },
+            self.days,
+            if self.before_epoch { "before" } else { "after" },
+            set.label(),
+            crate::timefmt::format_ms(&set.epoch),
+        )
+    }
+}
+
+/// Error: the window is too far from the element epoch (see [`MAX_ELEMENT_AGE_DAYS`]).
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[error("{reach}, more than the {MAX_ELEMENT_AGE_DAYS} days allowed: positions that far from the epoch are off by hundreds to thousands of km; get elements near the window")]
+pub struct StaleElements {
+    reach: String,
+    pub days: f64,
+}
+
+/// Refuse a window more than [`MAX_ELEMENT_AGE_DAYS`] from the epoch unless `allow`.
+pub fn check_element_age(
+    set: &ElementSet,
+    start: chrono::DateTime<chrono::Utc>,
+    end: chrono::DateTime<chrono::Utc>,
+    allow: bool,
+) -> Result<(), StaleElements> {
+    let age = ElementAge::of(set, start, end);
+    if allow || age.days <= MAX_ELEMENT_AGE_DAYS {
+        Ok(())
+    } else {
+        Err(StaleElements {
+            reach: age.reach(set),
+            days: age.days,
+        })
+    }
+}
+
+/// The element-age warning, if any, its words scaled with the age: more than 7 days between the
+/// epoch and either end of the window warns; more than 30 days warns strongly; more than
+/// [`MAX_ELEMENT_AGE_DAYS`] (only reached when stale elements were allowed) says the positions
+/// are meaningless. A LEO element set's along-track error grows by roughly 1-3 km a day in its
+/// first week and faster after, with drag (common practice); the growth is not modelled.
 pub fn element_age_warning(
     set: &ElementSet,
     start: chrono::DateTime<chrono::Utc>,
     end: chrono::DateTime<chrono::Utc>,
 ) -> Option<String> {
-    let days =
-        |t: chrono::DateTime<chrono::Utc>| ((t - set.epoch).num_seconds() as f64 / 86400.0).abs();
-    let worst = days(start).max(days(end));
-    let epoch = crate::timefmt::format_ms(&set.epoch);
-    if worst > 30.0 {
-        Some(format!(
-            "STALE ELEMENTS: the window reaches {worst:.1} days from the epoch of {} ({epoch}); along-track errors of several tens of km or more are likely: get fresh elements before relying on these times",
-            set.label(),
-        ))
-    } else if worst > 7.0 {
-        Some(format!(
-            "the window reaches {worst:.1} days from the epoch of {} ({epoch}); a LEO element set drifts by roughly 1-3 km a day along track (common practice)",
-            set.label(),
-        ))
+    let age = ElementAge::of(set, start, end);
+    let reach = age.reach(set);
+    let d = age.days;
+    if d > MAX_ELEMENT_AGE_DAYS {
+        Some(format!("STALE ELEMENTS, ALLOWED ON REQUEST: {reach}; errors of hundreds to thousands of km: pass times, geometry and every number that follows from them are not meaningful"))
+    } else if d > 30.0 {
+        Some(format!("STALE ELEMENTS: {reach}; errors of many tens to hundreds of km are likely (pass times off by tens of seconds to minutes): get fresh elements before relying on these numbers"))
+    } else if d > 7.0 {
+        Some(format!("{reach}; errors grow by roughly 1-3 km a day along track for a LEO element set (common practice), so about {:.0}-{:.0} km now: check pass times against fresh elements", d, 3.0 * d))
     } else {
         None
     }

@@ -41,6 +41,9 @@ pub struct InstantRequest {
     pub scheme: Option<String>,
     /// Rain exceeded this percentage of an average year (default: clear sky).
     pub exceedance_percent: Option<f64>,
+    /// Budget at a time more than
+    /// [`MAX_ELEMENT_AGE_DAYS`](super::inputs::MAX_ELEMENT_AGE_DAYS) from the element epoch.
+    pub allow_stale_elements: bool,
 }
 
 /// Error of [`instant_budget`].
@@ -56,6 +59,8 @@ pub enum InstantError {
     Prepare(#[from] PrepareError),
     #[error(transparent)]
     Satellite(#[from] SatelliteError),
+    #[error(transparent)]
+    StaleElements(#[from] super::inputs::StaleElements),
     #[error("{satellite}: {source}")]
     Propagation {
         satellite: String,
@@ -137,6 +142,7 @@ impl InstantBudget {
 ///     rate_bps: None,
 ///     scheme: None,
 ///     exceedance_percent: None,
+///     allow_stale_elements: false,
 /// };
 /// let b = instant_budget(&mission, &req)?;
 /// println!("margin {:.2} dB, closes: {}", b.values.margin_db, b.closes());
@@ -159,6 +165,9 @@ pub fn instant_budget(
     };
     let (elements, prop, selection) =
         load_satellite(&mission.elements_path, mission.select.as_deref(), when)?;
+    if let InstantGeometry::At(t) = req.geometry {
+        super::inputs::check_element_age(&elements, t, t, req.allow_stale_elements)?;
+    }
     let (look, time) = look_at(&model, &elements, &prop, req.geometry)?;
     let rate = rate_spec(mission, &model, &rates, req)?;
     let weather = availability_weather(req.exceedance_percent, std::slice::from_ref(&model))?
@@ -458,7 +467,16 @@ pub fn atmosphere_at(
     let frequency_ghz = range(&limits::FREQUENCY_GHZ, req.frequency_ghz)?;
     let elevation_deg = range(&limits::ELEVATION_DEG, req.elevation_deg)?;
     let tilt_deg = range(&limits::POLARIZATION_TILT_DEG, req.polarization_tilt_deg)?;
-    let mut defaults_used = st.defaults.clone();
+    // Only the defaults the atmosphere uses: the climate, and the aperture for scintillation.
+    let used = |key: &str| {
+        key.starts_with("climate.") || key == "antenna.efficiency" || key == "antenna.diameter_m"
+    };
+    let mut defaults_used: Vec<DefaultUsed> = st
+        .defaults
+        .iter()
+        .filter(|d| used(&d.key))
+        .cloned()
+        .collect();
     let mut take = |d: &defaults::DefaultValue<f64>| {
         defaults_used.push(DefaultUsed {
             key: d.key.to_string(),

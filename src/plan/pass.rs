@@ -352,10 +352,18 @@ fn mode_result(
         ),
         None => (None, None),
     };
+    // The margin at the highest step (closest approach for one station): what the pass offers
+    // at its best, of the chosen rate, or of the easiest rate when none closes (then negative).
+    let tca_margin_db = steps
+        .iter()
+        .zip(cn0)
+        .max_by(|a, b| a.0.elevation_deg.total_cmp(&b.0.elevation_deg))
+        .map(|(_, c)| o.margin_db(*c));
     ModeResult {
         option: fixed.option.map(OptionId),
         closing,
         min_margin_db,
+        tca_margin_db,
         max_ebn0_db,
         closed_s: fixed.closed_s,
         volume_bits: fixed.volume_bits,

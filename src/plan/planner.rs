@@ -32,6 +32,10 @@ pub struct PlanRequest {
     /// elevation, deg (each station's horizon mask still applies; a station whose own minimum is
     /// lower keeps it). `Some(0.0)` shows what lowering any mask to the horizon would bring.
     pub search_floor_deg: Option<f64>,
+    /// Plan even when the window lies more than
+    /// [`MAX_ELEMENT_AGE_DAYS`](super::inputs::MAX_ELEMENT_AGE_DAYS) from the element epoch
+    /// (the outputs then say the numbers are not meaningful).
+    pub allow_stale_elements: bool,
 }
 
 /// A mission prepared for planning one window.
@@ -72,6 +76,12 @@ impl Planner {
             &mission.elements_path,
             mission.select.as_deref(),
             window.start(),
+        )?;
+        super::inputs::check_element_age(
+            &elements,
+            window.start(),
+            window.end(),
+            request.allow_stale_elements,
         )?;
         let mask = request.mask_deg.or(mission.mask_deg);
         if let Some(m) = mask {
@@ -320,6 +330,12 @@ impl Planner {
         let warnings = self.warnings(&passes, &stopped, stop.as_ref());
         let notes = selection_note(&self.elements, &self.selection)
             .into_iter()
+            .chain(summary::no_pass_notes(
+                &self.elements.label(),
+                &passes,
+                &self.stations,
+                &stopped,
+            ))
             .chain(summary::sun_note(&passes, &self.stations))
             .collect();
         Plan {

@@ -36,6 +36,9 @@ pub struct ModeResult {
     pub closing: Option<Closing>,
     /// Lowest margin over the counted seconds of the chosen rate, dB.
     pub min_margin_db: Option<f64>,
+    /// Margin at the pass's highest step, dB: of the chosen rate, or of the lowest-threshold
+    /// ladder rate when none closes (then usually negative). `None` for a pass of no step.
+    pub tca_margin_db: Option<f64>,
     /// Highest Eb/N0 of the pass at the chosen rate (at the lowest-threshold ladder rate if none closes), dB.
     pub max_ebn0_db: f64,
     pub closed_s: f64,
@@ -138,6 +141,8 @@ pub enum PlanError {
     Satellite(#[from] SatelliteError),
     #[error(transparent)]
     Window(#[from] WindowError),
+    #[error(transparent)]
+    StaleElements(#[from] super::inputs::StaleElements),
     /// A request value out of its range or against another rule.
     #[error("{key}: {message}")]
     Request { key: &'static str, message: String },

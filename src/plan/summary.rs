@@ -164,6 +164,35 @@ pub fn tradeoff(
         .collect()
 }
 
+/// The note for a station with no pass in the window: the satellite does not rise above its
+/// mask, or (`cut`) the propagation stopped first. One owner for `passes` and `plan`.
+pub fn no_pass_note(satellite: &str, station: &str, cut: bool) -> String {
+    if cut {
+        format!("{satellite} has no pass over {station} before the propagation stops")
+    } else {
+        format!("{satellite} does not rise above the mask of {station} in the window")
+    }
+}
+
+/// Notes for the stations with no pass in a plan (their rows would otherwise read only as
+/// "never closes, 0 of 0").
+pub fn no_pass_notes(
+    satellite: &str,
+    passes: &[PassPlan],
+    stations: &[StationModel],
+    stopped: &[Option<crate::orbit::PropagationError>],
+) -> Vec<String> {
+    stations
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| !passes.iter().any(|p| p.station_index == *i))
+        .map(|(i, s)| {
+            let cut = stopped.get(i).is_some_and(|e| e.is_some());
+            no_pass_note(satellite, &s.station.name, cut)
+        })
+        .collect()
+}
+
 /// What the Sun did to the window's passes, in one line: the passes where it raised the system
 /// noise temperature by more than [`SUN_DEGRADED_RISE_DB`], else its closest approach to a beam.
 /// `None` for a plan without passes.

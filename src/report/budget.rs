@@ -42,6 +42,7 @@ pub struct BudgetDoc {
     pub system_temperature_k: f64,
     pub g_over_t_db_k: f64,
     pub cn0_dbhz: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub rate_bps: f64,
     pub scheme: String,
     pub symbol_rate_baud: f64,

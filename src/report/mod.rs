@@ -119,6 +119,25 @@ fn slug_uncut(name: &str) -> String {
     }
 }
 
+/// Serialize a quantity that is usually a whole number (a rate in bit/s, a volume in bits) as an
+/// integer when it is one (`50000000`, not `50000000.0`), else as a float.
+pub fn whole<S: serde::Serializer>(x: &f64, s: S) -> Result<S::Ok, S::Error> {
+    // 2^53: every integer below it is exact in an f64
+    if x.fract() == 0.0 && x.abs() < 9.007_199_254_740_992e15 {
+        s.serialize_i64(*x as i64)
+    } else {
+        s.serialize_f64(*x)
+    }
+}
+
+/// [`whole`] for an optional quantity (`None` stays empty/null).
+pub fn whole_opt<S: serde::Serializer>(x: &Option<f64>, s: S) -> Result<S::Ok, S::Error> {
+    match x {
+        Some(v) => whole(v, s),
+        None => s.serialize_none(),
+    }
+}
+
 /// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).
 pub fn round(x: f64, digits: i32) -> f64 {
     let s = 10f64.powi(digits);
@@ -211,6 +230,31 @@ mod tests {
         let e = check_file_names(["All Stations"]).unwrap_err();
         assert!(e.to_string().contains("all-stations"), "{e}");
         assert!(check_file_names(["東京局", "大阪局", "Sierra Baja"]).is_ok());
+    }
+
+    #[test]
+    fn whole_quantities_serialize_as_integers() {
+        #[derive(serde::Serialize)]
+        struct R {
+            #[serde(serialize_with = "whole")]
+            rate_bps: f64,
+            #[serde(serialize_with = "whole_opt")]
+            volume_bits: Option<f64>,
+            #[serde(serialize_with = "whole_opt")]
+            none_bits: Option<f64>,
+            #[serde(serialize_with = "whole")]
+            odd_bps: f64,
+        }
+        let r = R {
+            rate_bps: 50e6,
+            volume_bits: Some(1.5e12),
+            none_bits: None,
+            odd_bps: 9600.5,
+        };
+        assert_eq!(
+            to_csv(&[r]).unwrap(),
+            "rate_bps,volume_bits,none_bits,odd_bps\n50000000,1500000000000,,9600.5\n"
+        );
     }
 
     #[test]

@@ -27,6 +27,7 @@ pub struct PlanPassRow {
     pub los: String,
     pub duration_s: f64,
     pub max_elevation_deg: f64,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rate_bps: Option<f64>,
     pub scheme: Option<String>,
     pub closes_from: Option<String>,
@@ -36,17 +37,25 @@ pub struct PlanPassRow {
     pub closes_from_azimuth_deg: Option<f64>,
     pub closes_until_azimuth_deg: Option<f64>,
     pub min_margin_db: Option<f64>,
+    pub tca_margin_db: Option<f64>,
     pub max_ebn0_db: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub adaptive_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub shannon_volume_bits: f64,
     pub adaptive_switches: usize,
     pub fixed_efficiency: f64,
     pub adaptive_efficiency: f64,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rain_rate_bps: Option<f64>,
     pub rain_scheme: Option<String>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rain_volume_bits: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rain_adaptive_volume_bits: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rain_shannon_volume_bits: Option<f64>,
     pub min_sun_separation_deg: Option<f64>,
     pub max_sun_noise_k: f64,
@@ -89,6 +98,7 @@ impl PlanPassRow {
             closes_from_azimuth_deg: c.closing.map(|x| r3(x.from.azimuth_deg)),
             closes_until_azimuth_deg: c.closing.map(|x| r3(x.until.azimuth_deg)),
             min_margin_db: c.min_margin_db.map(r3),
+            tca_margin_db: c.tca_margin_db.map(r3),
             max_ebn0_db: r3(c.max_ebn0_db),
             volume_bits: c.volume_bits.round(),
             adaptive_volume_bits: c.adaptive_volume_bits.round(),
@@ -120,20 +130,29 @@ pub struct TotalsRow {
     pub passes_closing: usize,
     pub contact_s: f64,
     pub closed_s: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub adaptive_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub shannon_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub network_volume_bits: f64,
     pub network_contact_s: f64,
     pub fixed_efficiency: f64,
     pub adaptive_efficiency: f64,
     /// The best single ladder rate used for every pass of the window (a modem set once), and its volume.
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub single_rate_bps: Option<f64>,
     pub single_rate_scheme: Option<String>,
+    #[serde(serialize_with = "crate::report::whole")]
     pub single_rate_volume_bits: f64,
     pub rain_passes_closing: Option<usize>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rain_volume_bits: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rain_adaptive_volume_bits: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rain_shannon_volume_bits: Option<f64>,
     pub days: f64,
 }
@@ -171,9 +190,13 @@ pub struct DayRow {
     pub date: String,
     pub passes: usize,
     pub contact_s: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub adaptive_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub shannon_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub rain_volume_bits: Option<f64>,
 }
 
@@ -195,6 +218,7 @@ impl From<&DayTotals> for DayRow {
 #[derive(Debug, Clone, Serialize)]
 pub struct UsableMaskRow {
     pub station: String,
+    #[serde(serialize_with = "crate::report::whole")]
     pub rate_bps: f64,
     pub scheme: String,
     /// Lowest elevation at which this rate closes on every pass whenever the satellite is above it; null if it never closes.
@@ -225,8 +249,10 @@ pub struct TradeoffRow {
     pub scope: String,
     pub mask_deg: f64,
     pub contact_s_per_day: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub rate_bps: f64,
     pub scheme: String,
+    #[serde(serialize_with = "crate::report::whole")]
     pub volume_bits_per_day: f64,
 }
 
@@ -282,12 +308,14 @@ pub struct StepRow {
     pub sun_separation_deg: Option<f64>,
     pub moon_separation_deg: Option<f64>,
     /// Rate the Eb/N0 and margin are given for: the chosen fixed rate, else the lowest ladder rate.
+    #[serde(serialize_with = "crate::report::whole")]
     pub rate_bps: f64,
     pub ebn0_db: f64,
     pub margin_db: f64,
     /// The chosen fixed rate counts this step (margin met, inside a run of at least the dwell time).
     pub closed: bool,
     pub adaptive_scheme: Option<String>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub adaptive_rate_bps: Option<f64>,
     pub rain_atmospheric_loss_db: Option<f64>,
     pub rain_sky_noise_k: Option<f64>,
@@ -380,6 +408,7 @@ pub struct RateOptionRow {
     pub error_rate: f64,
     pub mode: &'static str,
     pub occupied_bandwidth_hz: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub rate_bps: f64,
     pub required_ebn0_db: f64,
     pub scheme: String,

@@ -302,6 +302,7 @@ fn uhf_budget(frequency_mhz: f64) -> passbudget::plan::instant::InstantBudget {
         rate_bps: None,
         scheme: None,
         exceedance_percent: Some(1.0),
+        allow_stale_elements: false,
     };
     instant_budget(&mission, &req).unwrap()
 }
@@ -426,6 +427,7 @@ fn measured_antenna_temperature_takes_the_weather_excess_of_the_model() {
             rate_bps: None,
             scheme: None,
             exceedance_percent,
+            allow_stale_elements: false,
         };
         instant_budget(&mission, &req).unwrap().values
     };

@@ -371,7 +371,7 @@ fn the_element_age_warning_prints_once() {
             String::from_utf8_lossy(&o.stdout),
             String::from_utf8_lossy(&o.stderr)
         );
-        let n = all.matches("days from the epoch").count();
+        let n = all.matches("days after the epoch").count();
         assert_eq!(n, 1, "{args:?}: {all}");
     }
 }

@@ -21,6 +21,7 @@ mod modcod_thresholds;
 mod moon_position;
 mod noise_disk;
 mod noise_sky_system;
+mod operator_outputs;
 mod orbit_input;
 mod orbit_sgp4_verification;
 mod output_folder;

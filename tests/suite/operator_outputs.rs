@@ -1,0 +1,204 @@
+//! What the operator reads: rates and volumes in engineering units, warnings in the machine
+//! outputs, element age, a 0 deg mask, stations with no pass, cut passes, integers for integer
+//! quantities. The expected unit texts follow SI prefix usage (BIPM SI Brochure, 9th ed., §3);
+//! the element-age tiers are common practice (element sets are refreshed daily to weekly).
+
+use crate::common::bin::{clean_error, json, root, run, success, write};
+
+/// An invented 437.5 MHz cubesat link over an invented Yagi station (test input only).
+fn uhf_mission(dir: &std::path::Path) -> String {
+    std::fs::copy(root().join("examples/sat.tle"), dir.join("sat.tle")).unwrap();
+    write(
+        dir,
+        "yagi.yaml",
+        "name: Campo Alto UHF\nlatitude_deg: 40.5\nlongitude_deg: -3.7\naltitude_m: 650\nmin_elevation_deg: 0\nman_made_noise: residential\nantenna:\n  gain_dbi: 14\n  pointing_error_deg: 2\nreceiver:\n  lna_noise_temperature_k: 60\nclimate:\n  rain_rate_001_mm_h: 30\n  rain_height_km: 3.5\n",
+    );
+    write(
+        dir,
+        "uhf.yaml",
+        "name: UHF test\nsatellite:\n  elements: sat.tle\nstations: [yagi.yaml]\nwindow:\n  start: 2026-12-01T12:00:00Z\n  days: 1\nplanning:\n  exceedance_percent: 1\ntransmitter:\n  frequency_mhz: 437.5\n  power_w: 1.0\n  antenna:\n    pattern: fixed\n    gain_dbi: 0\n    polarization: linear\nmodem:\n  max_bandwidth_hz: 25.0e3\n  ladder:\n    - { rate_bps: 1200, scheme: ccsds-cc-r1/2 }\n    - { rate_bps: 9600, scheme: ccsds-cc-r1/2 }\n",
+    )
+}
+
+#[test]
+fn kbit_rates_and_small_volumes_keep_their_digits() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = uhf_mission(dir.path());
+    let table = success(&run(&["plan", &mission]));
+    assert!(table.contains("9.6 kbit/s"), "{table}");
+    assert!(table.contains("(over 25 kHz)"), "{table}");
+    assert!(table.contains("Mbit"), "{table}");
+    assert!(!table.contains("Mb/s"), "{table}");
+    // no rate or bandwidth rounded to a bare 0 of a larger unit
+    assert!(
+        !table.contains(" 0 Mbit/s") && !table.contains("over 0 MHz"),
+        "{table}"
+    );
+    // the usable-mask table tells the two rates apart
+    assert!(table.contains("1.2 kbit/s"), "{table}");
+}
+
+#[test]
+fn a_zero_mask_raises_no_horizon_or_clamp_warning() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = uhf_mission(dir.path());
+    let o = run(&["plan", &mission]);
+    let table = success(&o);
+    let stderr = String::from_utf8_lossy(&o.stderr);
+    assert!(!stderr.contains("below the geometric horizon"), "{stderr}");
+    assert!(!stderr.contains("clamped into range"), "{stderr}");
+    assert!(!table.contains("@-0.0"), "{table}");
+}
+
+#[test]
+fn integer_quantities_are_written_as_integers() {
+    let o = run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--days",
+        "1",
+        "--format",
+        "csv",
+    ]);
+    let text = success(&o);
+    let mut r = csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .from_reader(text.as_bytes());
+    let h = r.headers().unwrap().clone();
+    let rate = h.iter().position(|c| c == "rate_bps").unwrap();
+    let volume = h.iter().position(|c| c == "volume_bits").unwrap();
+    let mut seen = 0;
+    for row in r.records() {
+        let row = row.unwrap();
+        for i in [rate, volume] {
+            if !row[i].is_empty() {
+                assert!(row[i].parse::<u64>().is_ok(), "{}", &row[i]);
+                seen += 1;
+            }
+        }
+    }
+    assert!(seen > 10);
+}
+
+#[test]
+fn the_margin_at_closest_approach_is_reported() {
+    let doc = json(&run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--days",
+        "1",
+        "--format",
+        "json",
+    ]));
+    let passes = doc["passes"].as_array().unwrap();
+    // On a pass that closes only part of the way (AOS and LOS outside the closing run), the
+    // lowest counted margin is the required margin by construction; the margin at the highest
+    // step is what the pass offers and is at least as large.
+    let mut differ = 0;
+    for p in passes {
+        let (Some(min), Some(tca)) = (p["min_margin_db"].as_f64(), p["tca_margin_db"].as_f64())
+        else {
+            continue;
+        };
+        assert!(tca >= min - 1e-9, "{p}");
+        if tca > min + 0.5 {
+            differ += 1;
+        }
+    }
+    assert!(
+        differ > 3,
+        "margin at TCA should inform where the minimum does not"
+    );
+}
+
+#[test]
+fn a_window_far_from_the_epoch_is_refused_unless_allowed() {
+    let base = [
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--start",
+        "2030-12-01T00:00:00Z",
+        "--days",
+        "1",
+    ];
+    clean_error(
+        &run(&base),
+        &[
+            "1461.5 days after the epoch",
+            "90 days",
+            "--allow-stale-elements",
+        ],
+    );
+    let mut args = base.to_vec();
+    args.extend(["--allow-stale-elements", "--format", "json"]);
+    let doc = json(&run(&args));
+    let w = doc["assumptions"]["warnings"].to_string();
+    assert!(w.contains("STALE ELEMENTS, ALLOWED ON REQUEST"), "{w}");
+    assert!(w.contains("not meaningful"), "{w}");
+    // Before the epoch: said so, and the warning is in the JSON, not only on stderr.
+    let doc = json(&run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--start",
+        "2026-10-01T00:00:00Z",
+        "--days",
+        "1",
+        "--format",
+        "json",
+    ]));
+    let w = doc["assumptions"]["warnings"].to_string();
+    assert!(
+        w.contains("61.5 days before the epoch") && w.contains("STALE ELEMENTS"),
+        "{w}"
+    );
+    // budget at one instant follows the same rule
+    clean_error(
+        &run(&[
+            "budget",
+            "examples/wrenlet-1.yaml",
+            "--station",
+            "Nordkam",
+            "--at",
+            "2030-12-01T00:00:00Z",
+        ]),
+        &["--at", "--allow-stale-elements"],
+    );
+}
+
+#[test]
+fn a_station_with_no_pass_is_named() {
+    let o = run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--days",
+        "0.1",
+        "--mask",
+        "89",
+    ]);
+    success(&o);
+    let stderr = String::from_utf8_lossy(&o.stderr);
+    for s in ["Nordkam", "Sierra Baja", "Pulau Reka"] {
+        assert!(
+            stderr.contains(&format!(
+                "does not rise above the mask of {s} in the window"
+            )),
+            "{stderr}"
+        );
+    }
+}
+
+#[test]
+fn a_pass_cut_by_the_window_is_marked_in_the_table() {
+    // 2026-12-01T22:10:00Z falls inside the example's pass 6 (Sierra Baja, 22:06:28-22:16:14).
+    let table = success(&run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--start",
+        "2026-12-01T22:10:00Z",
+        "--end",
+        "2026-12-01T22:12:00Z",
+    ]));
+    assert!(table.contains("<12-01 22:10:00"), "{table}");
+    assert!(table.contains("22:12:00>"), "{table}");
+    assert!(table.contains("began before the window"), "{table}");
+}
