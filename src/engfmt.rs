@@ -43,6 +43,15 @@ pub fn hertz(hz: f64) -> String {
     with_unit(hz, hertz_unit(hz))
 }
 
+/// A carrier frequency in MHz, the trade's unit, with its decimals: `437.5 MHz`, `8212.5 MHz`.
+pub fn frequency_mhz(hz: f64) -> String {
+    if !hz.is_finite() {
+        return "n/a".into();
+    }
+    let s = format!("{:.3}", hz / 1e6);
+    format!("{} MHz", s.trim_end_matches('0').trim_end_matches('.'))
+}
+
 fn with_unit(x: f64, (div, unit): (f64, &str)) -> String {
     if !x.is_finite() {
         return "n/a".into();
@@ -105,6 +114,9 @@ mod tests {
         assert_eq!(hertz(25e3), "25 kHz");
         assert_eq!(hertz(11.52e3), "11.5 kHz");
         assert_eq!(volume(f64::NAN), "n/a");
+        assert_eq!(frequency_mhz(437.5e6), "437.5 MHz");
+        assert_eq!(frequency_mhz(8212.5e6), "8212.5 MHz");
+        assert_eq!(frequency_mhz(2.2e9), "2200 MHz");
     }
 
     #[test]

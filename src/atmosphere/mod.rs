@@ -184,10 +184,45 @@ impl ModelWarnings {
         ]
     }
 
+    /// The models whose frequency range is passed, each as `model (source, range)`, for one
+    /// grouped line ([`crate::plan::series::PassWarnings::lines`]).
+    pub fn frequency_ranges(&self) -> impl Iterator<Item = &'static str> {
+        [
+            (
+                self.frequency_outside_gas_range,
+                "gas (ITU-R P.676-12 Annex 2, 1-350 GHz)",
+            ),
+            (
+                self.frequency_outside_rain_range,
+                "rain (ITU-R P.618-14 §2.2.1.1, 1-55 GHz)",
+            ),
+            (
+                self.frequency_outside_cloud_range,
+                "cloud (ITU-R P.840-9, 1-200 GHz)",
+            ),
+            (
+                self.frequency_outside_scintillation_range,
+                "scintillation (ITU-R P.618-14 §2.4.1, 4-55 GHz)",
+            ),
+        ]
+        .into_iter()
+        .filter(|(on, _)| *on)
+        .map(|(_, m)| m)
+    }
+
     /// Human-readable messages for the raised flags, each naming the model and its range.
     pub fn messages(&self) -> impl Iterator<Item = &'static str> {
         self.table()
             .into_iter()
+            .filter(|(on, _)| *on)
+            .map(|(_, msg)| msg)
+    }
+
+    /// [`Self::messages`] without the frequency-range ones (those are in [`Self::frequency_ranges`]).
+    pub fn other_messages(&self) -> impl Iterator<Item = &'static str> {
+        self.table()
+            .into_iter()
+            .skip(4)
             .filter(|(on, _)| *on)
             .map(|(_, msg)| msg)
     }

@@ -2,6 +2,15 @@
 //! notes on stderr (a leaf module: the commands and `mod.rs` do not import each other).
 
 use std::io::Write;
+use std::sync::atomic::{AtomicBool, Ordering};
+
+/// `--quiet`: warnings and notes are not printed on stderr (they stay in the JSON and CSV outputs).
+static QUIET: AtomicBool = AtomicBool::new(false);
+
+/// Set by `--quiet` before the command runs.
+pub fn set_quiet(quiet: bool) {
+    QUIET.store(quiet, Ordering::Relaxed);
+}
 
 /// Output format chosen on the command line.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
@@ -26,6 +35,9 @@ pub fn note(notes: &[String]) {
 /// pipe) are ignored, so a lost diagnostic never costs the result on stdout. Nothing else in the
 /// binary prints to stderr except the final error line and the progress bar.
 fn to_stderr(kind: &str, lines: &[String]) {
+    if QUIET.load(Ordering::Relaxed) {
+        return;
+    }
     let mut err = std::io::stderr().lock();
     for l in lines {
         let _ = writeln!(err, "{kind}: {l}");

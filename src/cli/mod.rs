@@ -23,6 +23,10 @@ pub const EXIT_ERROR: i32 = 1;
 pub struct Args {
     #[command(subcommand)]
     pub command: Command,
+    /// Print no warnings or notes on stderr (they stay in the JSON and CSV outputs and the
+    /// chart footers; errors are still printed).
+    #[arg(long, global = true)]
+    pub quiet: bool,
 }
 
 #[derive(Debug, Subcommand)]
@@ -48,6 +52,7 @@ pub enum Command {
 
 /// Run the parsed command, writing to `out`.
 pub fn run(args: Args, out: &mut dyn Write) -> anyhow::Result<()> {
+    common::set_quiet(args.quiet);
     match args.command {
         Command::Passes(a) => geometry::passes(a, out),
         Command::Track(a) => geometry::track(a, out),

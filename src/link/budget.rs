@@ -258,6 +258,8 @@ pub struct LinkModel {
     ground: GroundAntenna,
     receiver: Receiver,
     polarization_loss_db: f64,
+    /// The fixed extra loss included in `polarization_loss_db` (radome, other), dB.
+    polarization_extra_db: f64,
     background_k: f64,
     sky_range: SkyRange,
     fsl_constant_db: f64,
@@ -289,6 +291,7 @@ impl LinkModel {
             ground,
             receiver,
             polarization_loss_db,
+            polarization_extra_db: p.extra_loss_db,
             background_k,
             sky_range,
             fsl_constant_db: free_space_loss_constant_db(f),
@@ -499,7 +502,7 @@ impl LinkModel {
         let v = self.evaluate(geometry, atmosphere, external, rate)?;
         let mut items = Vec::with_capacity(37);
         items.extend(self.transmit_items(&v));
-        items.extend(path_items(&v, &geometry));
+        items.extend(path_items(&v, &geometry, self.polarization_extra_db));
         items.extend(self.receive_items(&v));
         items.extend(rate_items(&v, &rate));
         Ok(items)
@@ -684,7 +687,7 @@ fn item(name: &'static str, value: f64, unit: &'static str, source: &'static str
 }
 
 /// Budget lines of the path: geometry, free-space, atmospheric, polarization and pointing losses.
-fn path_items(v: &BudgetValues, geometry: &BudgetGeometry) -> [BudgetItem; 7] {
+fn path_items(v: &BudgetValues, geometry: &BudgetGeometry, extra_db: f64) -> [BudgetItem; 7] {
     [
         item("elevation", geometry.elevation_deg, "deg", "geometry"),
         item("range", geometry.range_km, "km", "geometry"),
@@ -705,7 +708,11 @@ fn path_items(v: &BudgetValues, geometry: &BudgetGeometry) -> [BudgetItem; 7] {
             "polarization_loss",
             -v.polarization_loss_db,
             "dB",
-            "polarization loss factor (Seybold 2005) + extra",
+            if extra_db == 0.0 {
+                "polarization loss factor (Seybold 2005)"
+            } else {
+                "polarization loss factor (Seybold 2005) + the spec's extra loss"
+            },
         ),
         item(
             "pointing_loss",

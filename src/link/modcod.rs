@@ -182,7 +182,7 @@ pub const MPSK_APPROX_MAX_BER: f64 = 1e-2;
 /// Default BER for uncoded schemes when none is requested.
 pub const DEFAULT_UNCODED_BER: f64 = 1e-5;
 
-const CCSDS_MEMO: &str = "CCSDS 130.1-G performance curves, from memory (not re-read); +-0.5 dB";
+const CCSDS_MEMO: &str = "CCSDS 130.1-G performance curves, from memory (unconfirmed); +-0.5 dB";
 const CC_7_8_MEMO: &str =
     "CCSDS 130.1-G: r1/2 value from memory + 2.4 dB r7/8 gap stated in 130.1-G-1 §4.6";
 const DVBS2_T13: &str =

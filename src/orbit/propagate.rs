@@ -33,20 +33,20 @@ pub const WGS72_MU_KM3_S2: f64 = 398_600.8;
 pub enum PropagationError {
     #[error("catalog number {norad_id}: elements cannot be propagated: {reason}")]
     InvalidElements { norad_id: u64, reason: String },
-    #[error("catalog number {norad_id}: propagated eccentricity {eccentricity} outside [0, 1) at {time} ({minutes:.3} min from epoch): elements diverged or orbit decayed")]
+    #[error("catalog number {norad_id}: propagated eccentricity {eccentricity} outside [0, 1) at {} ({minutes:.3} min from epoch): elements diverged or orbit decayed", crate::timefmt::format_ms(.time))]
     Eccentricity {
         norad_id: u64,
         eccentricity: f64,
         minutes: f64,
         time: DateTime<Utc>,
     },
-    #[error("catalog number {norad_id}: negative semi-latus rectum at {time} ({minutes:.3} min from epoch): orbit decayed")]
+    #[error("catalog number {norad_id}: negative semi-latus rectum at {} ({minutes:.3} min from epoch): orbit decayed", crate::timefmt::format_ms(.time))]
     SemiLatusRectum {
         norad_id: u64,
         minutes: f64,
         time: DateTime<Utc>,
     },
-    #[error("catalog number {norad_id}: orbit radius {radius_km:.1} km is below the Earth's radius at {time} ({minutes:.3} min from epoch): decayed")]
+    #[error("catalog number {norad_id}: orbit radius {radius_km:.1} km is below the Earth's radius at {} ({minutes:.3} min from epoch): decayed", crate::timefmt::format_ms(.time))]
     Decayed {
         norad_id: u64,
         radius_km: f64,

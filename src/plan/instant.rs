@@ -193,12 +193,15 @@ pub fn instant_budget(
         unit: "dB",
         source: "mission modem.required_margin_db",
     });
-    let mut warnings: Vec<String> = att.warnings.messages().map(String::from).collect();
-    warnings.extend(model.noise.warnings().messages().map(String::from));
-    warnings.extend(model.bodies.warnings().messages().map(String::from));
-    if values.pattern_clamped {
-        warnings.push("the spacecraft antenna table does not reach this off-nadir angle: its end value was used".into());
+    // The same lines as a plan's: frequency ranges grouped in one.
+    let mut warnings = super::series::PassWarnings {
+        atmosphere: att.warnings,
+        noise: model.noise.warnings(),
+        bodies: model.bodies.warnings(),
+        pattern_clamped: values.pattern_clamped,
+        below_horizon: values.below_horizon,
     }
+    .lines(model.link.frequency_hz());
     if values.galactic_extrapolated {
         warnings.push(
             "galactic background extrapolated beyond ITU-R P.372's range (a term below 1 K here)"

@@ -45,6 +45,32 @@ impl NoiseWarnings {
         );
         self.pattern.messages().chain(man_made)
     }
+
+    /// The noise models whose frequency range is passed, as `model (source, range)`.
+    pub fn frequency_ranges(&self) -> impl Iterator<Item = &'static str> {
+        [
+            (
+                self.pattern.frequency_outside_envelope_range,
+                "sidelobe envelope (ITU-R S.465-6, 2-31 GHz)",
+            ),
+            (
+                self.man_made_extrapolated,
+                "man-made noise (ITU-R P.372 Table 1, 0.3-250 MHz)",
+            ),
+        ]
+        .into_iter()
+        .filter(|(on, _)| *on)
+        .map(|(_, m)| m)
+    }
+
+    /// [`Self::messages`] without the frequency-range ones.
+    pub fn other_messages(&self) -> impl Iterator<Item = &'static str> {
+        PatternWarnings {
+            frequency_outside_envelope_range: false,
+            ..self.pattern
+        }
+        .messages()
+    }
 }
 
 /// Everything that makes the antenna temperature of one station.

@@ -366,19 +366,31 @@ impl Planner {
     ) -> Vec<String> {
         let mut out = Vec::new();
         for (i, s) in self.stations.iter().enumerate() {
-            let mut w = PassWarnings {
+            let fixed = PassWarnings {
                 atmosphere: s.atmosphere.static_warnings(),
                 noise: s.noise.warnings(),
                 ..Default::default()
             };
-            for x in passes.iter().filter(|x| x.station_index == i) {
-                w = w.union(&x.warnings);
+            let own: Vec<Vec<String>> = passes
+                .iter()
+                .filter(|x| x.station_index == i)
+                .map(|x| x.warnings.lines(self.frequency_hz))
+                .collect();
+            let always = fixed.lines(self.frequency_hz);
+            let union = passes
+                .iter()
+                .filter(|x| x.station_index == i)
+                .fold(fixed, |w, x| w.union(&x.warnings));
+            // One line per model and station; a warning raised by some passes only says how many.
+            for m in union.lines(self.frequency_hz) {
+                let k = own.iter().filter(|l| l.contains(&m)).count();
+                let count = if always.contains(&m) || k == own.len() {
+                    String::new()
+                } else {
+                    format!(" ({k} of {} passes)", own.len())
+                };
+                out.push(format!("{}: {m}{count}", s.station.name));
             }
-            out.extend(
-                w.messages()
-                    .into_iter()
-                    .map(|m| format!("{}: {m}", s.station.name)),
-            );
         }
         out.extend(self.rates.warnings.iter().cloned());
         out.extend(element_age_warning(

@@ -91,17 +91,44 @@ impl PassWarnings {
         }
     }
 
-    /// Messages naming the model and its range.
-    pub fn messages(&self) -> Vec<String> {
-        let mut m: Vec<String> = self.atmosphere.messages().map(String::from).collect();
-        m.extend(self.noise.messages().map(String::from));
-        m.extend(self.bodies.messages().map(String::from));
+    /// The warnings as lines to show: the models used outside their frequency range grouped in
+    /// one line (they hold for every step at this frequency), then one line per other warning.
+    pub fn lines(&self, frequency_hz: f64) -> Vec<String> {
+        let ranges: Vec<&str> = self
+            .atmosphere
+            .frequency_ranges()
+            .chain(self.noise.frequency_ranges())
+            .collect();
+        let mut m = Vec::new();
+        if !ranges.is_empty() {
+            m.push(format!(
+                "{} is outside the stated frequency range of {}: those terms are extrapolated estimates",
+                crate::engfmt::frequency_mhz(frequency_hz),
+                ranges.join(", ")
+            ));
+        }
+        m.extend(self.atmosphere.other_messages().map(String::from));
+        m.extend(self.noise.other_messages().map(String::from));
+        m.extend(self.others());
+        m
+    }
+
+    fn others(&self) -> Vec<String> {
+        let mut m: Vec<String> = self.bodies.messages().map(String::from).collect();
         if self.pattern_clamped {
             m.push("spacecraft antenna: the pattern table does not reach the off-nadir angle, its end value was used".into());
         }
         if self.below_horizon {
             m.push("geometry: the satellite was below the geometric horizon (negative mask); atmosphere evaluated at 0 deg".into());
         }
+        m
+    }
+
+    /// Messages naming the model and its range.
+    pub fn messages(&self) -> Vec<String> {
+        let mut m: Vec<String> = self.atmosphere.messages().map(String::from).collect();
+        m.extend(self.noise.messages().map(String::from));
+        m.extend(self.others());
         m
     }
 }

@@ -327,7 +327,7 @@ fn man_made_noise_is_added_and_warned_outside_its_range() {
     let man_made_warning = |b: &passbudget::plan::instant::InstantBudget| {
         b.warnings
             .iter()
-            .any(|w| w.contains("man-made noise (ITU-R P.372 Table 1)"))
+            .any(|w| w.contains("man-made noise (ITU-R P.372 Table 1, 0.3-250 MHz)"))
     };
     assert!(!man_made_warning(&b));
     // Below 2 GHz the S.465-6 envelope is out of its range: said so.
@@ -346,7 +346,8 @@ fn plan_warnings_carry_the_noise_model_ranges() {
     assert!(
         plan.warnings
             .iter()
-            .any(|w| w.starts_with("Test Uhf: man-made noise")),
+            .any(|w| w.starts_with("Test Uhf: 437.5 MHz is outside")
+                && w.contains("man-made noise (ITU-R P.372 Table 1, 0.3-250 MHz)")),
         "{:?}",
         plan.warnings
     );

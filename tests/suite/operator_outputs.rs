@@ -202,3 +202,63 @@ fn a_pass_cut_by_the_window_is_marked_in_the_table() {
     assert!(table.contains("22:12:00>"), "{table}");
     assert!(table.contains("began before the window"), "{table}");
 }
+
+#[test]
+fn model_range_warnings_are_grouped_and_quiet_keeps_them_in_the_json() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = uhf_mission(dir.path());
+    let o = run(&["plan", &mission]);
+    success(&o);
+    let stderr = String::from_utf8_lossy(&o.stderr);
+    let warnings: Vec<&str> = stderr
+        .lines()
+        .filter(|l| l.starts_with("warning"))
+        .collect();
+    // Six models are outside their frequency range at 437.5 MHz: one line names them all.
+    let ranges: Vec<&&str> = warnings
+        .iter()
+        .filter(|l| l.contains("outside the stated frequency range"))
+        .collect();
+    assert_eq!(ranges.len(), 1, "{stderr}");
+    for model in [
+        "P.676-12",
+        "P.618-14 §2.2.1.1",
+        "P.840-9",
+        "§2.4.1",
+        "S.465-6",
+        "P.372 Table 1",
+    ] {
+        assert!(ranges[0].contains(model), "{model}: {}", ranges[0]);
+    }
+    assert!(warnings.len() <= 5, "{stderr}");
+    // --quiet: nothing on stderr, the same warnings in the JSON.
+    let o = run(&["plan", &mission, "--quiet", "--format", "json"]);
+    assert!(
+        o.stderr.is_empty(),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    let doc = json(&o);
+    let w = doc["assumptions"]["warnings"].to_string();
+    assert!(w.contains("outside the stated frequency range"), "{w}");
+}
+
+#[test]
+fn the_budget_names_no_extra_loss_that_is_not_there() {
+    let doc = json(&run(&[
+        "budget",
+        "examples/wrenlet-1.yaml",
+        "--station",
+        "Nordkam",
+        "--elevation-deg",
+        "20",
+        "--format",
+        "json",
+    ]));
+    let items = doc["items"].as_array().unwrap();
+    let pol = items
+        .iter()
+        .find(|i| i["name"] == "polarization_loss")
+        .unwrap();
+    assert!(!pol["source"].as_str().unwrap().contains("extra"), "{pol}");
+}
