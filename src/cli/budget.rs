@@ -112,7 +112,11 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
     warn(&doc.warnings);
     match a.format {
         Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
-        Format::Csv => write!(out, "{}", passbudget::report::to_csv(&doc.items)?)?,
+        Format::Csv => write!(
+            out,
+            "{}",
+            passbudget::report::to_csv(&doc.items, &doc.warnings)?
+        )?,
         Format::Table => print_budget(&doc, out)?,
     }
     Ok(())
@@ -220,7 +224,10 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
         Format::Csv => write!(
             out,
             "{}",
-            passbudget::report::to_csv(std::slice::from_ref(&AtmosphereRow::from(&doc)))?
+            passbudget::report::to_csv(
+                std::slice::from_ref(&AtmosphereRow::from(&doc)),
+                &doc.warnings
+            )?
         )?,
         Format::Table => print_atmosphere(&doc, out)?,
     }

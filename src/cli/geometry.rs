@@ -253,7 +253,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                 serde_json::to_string_pretty(&Doc { passes: &rows })?
             )?;
         }
-        Format::Csv => write!(out, "{}", to_csv(&rows)?)?,
+        Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
         Format::Table => {
             let mut t = Table::new(&[
                 ("station", Align::Left),
@@ -378,7 +378,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                 serde_json::to_string_pretty(&Doc { track: &rows })?
             )?;
         }
-        Format::Csv => write!(out, "{}", to_csv(&rows)?)?,
+        Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
         Format::Table => {
             let mut t = Table::new(&[
                 ("time (UTC)", Align::Left),

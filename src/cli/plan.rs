@@ -101,7 +101,7 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     }
     match a.format {
         Format::Json => write!(out, "{}", summary_json(&doc))?,
-        Format::Csv => write!(out, "{}", to_csv(&doc.passes)?)?,
+        Format::Csv => write!(out, "{}", to_csv(&doc.passes, &doc.assumptions.warnings)?)?,
         Format::Table => print_plan(&planner, &plan, &doc, out)?,
     }
     Ok(())
@@ -431,7 +431,7 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
             };
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
-        Format::Csv => write!(out, "{}", to_csv(&rows)?)?,
+        Format::Csv => write!(out, "{}", to_csv(&rows, &plan.warnings)?)?,
         Format::Table => {
             print_tradeoff(&planner, &series, out)?;
             print_usable_masks(&masks, false, out)?;

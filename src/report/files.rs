@@ -54,7 +54,8 @@ impl PassSink for CsvSink<'_> {
             .dir
             .join(pass_csv_name(s.plan.number, st, &s.plan.pass.aos));
         let rows = step_rows(s, self.planner.rates());
-        let text = to_csv(&rows).map_err(|e| file_error(&path, e))?;
+        let warnings = s.plan.warnings.lines(self.planner.frequency_hz());
+        let text = to_csv(&rows, &warnings).map_err(|e| file_error(&path, e))?;
         write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))
     }
 }
@@ -67,11 +68,12 @@ pub fn summary_json(doc: &PlanDoc) -> String {
 /// Write `summary.json`, `summary.csv`, `days.csv` and `masks.csv` into `dir`.
 pub fn write_summaries(dir: &Path, doc: &PlanDoc) -> Result<(), FileError> {
     let days: Vec<&DayRow> = doc.days.iter().collect();
+    let w = &doc.assumptions.warnings;
     let files: [(&str, Result<String, csv::Error>); 4] = [
         ("summary.json", Ok(summary_json(doc))),
-        ("summary.csv", to_csv(&doc.passes)),
-        ("days.csv", to_csv(&days)),
-        ("masks.csv", to_csv(&doc.usable_masks)),
+        ("summary.csv", to_csv(&doc.passes, w)),
+        ("days.csv", to_csv(&days, w)),
+        ("masks.csv", to_csv(&doc.usable_masks, w)),
     ];
     for (name, text) in files {
         let path = dir.join(name);

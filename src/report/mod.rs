@@ -58,9 +58,17 @@ pub fn check_file_names<'a>(stations: impl IntoIterator<Item = &'a str>) -> Resu
     Ok(())
 }
 
-/// Serialize rows to CSV text with one header row.
-pub fn to_csv<T: serde::Serialize>(rows: &[T]) -> Result<String, csv::Error> {
-    let mut w = csv::Writer::from_writer(Vec::new());
+/// Serialize rows to CSV text: `#` comment lines first (the [`plan::CAUTION`] every output
+/// carries, then one `# warning: ...` line per warning), then one header row and the rows. Read it
+/// with `#` as the comment character (pandas: `comment="#"`; the `csv` crate:
+/// `ReaderBuilder::comment(Some(b'#'))`).
+pub fn to_csv<T: serde::Serialize>(rows: &[T], warnings: &[String]) -> Result<String, csv::Error> {
+    let mut head = format!("# {}\n", plan::CAUTION);
+    for w in warnings {
+        // one line each, whatever the text holds
+        head.push_str(&format!("# warning: {}\n", w.replace(['\n', '\r'], " ")));
+    }
+    let mut w = csv::Writer::from_writer(head.into_bytes());
     for r in rows {
         w.serialize(r)?;
     }
@@ -252,7 +260,13 @@ mod tests {
             odd_bps: 9600.5,
         };
         assert_eq!(
-            to_csv(&[r]).unwrap(),
+            to_csv(&[r], &[])
+                .unwrap()
+                .lines()
+                .skip(1)
+                .collect::<Vec<_>>()
+                .join("\n")
+                + "\n",
             "rate_bps,volume_bits,none_bits,odd_bps\n50000000,1500000000000,,9600.5\n"
         );
     }

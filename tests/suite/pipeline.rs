@@ -165,7 +165,7 @@ fn one_scintillation_antenna_for_atmosphere_and_budget() {
         })
         .expect("a pass CSV");
     let text = std::fs::read_to_string(&csv).unwrap();
-    let mut lines = text.lines();
+    let mut lines = text.lines().filter(|l| !l.starts_with('#'));
     let head: Vec<&str> = lines.next().unwrap().split(',').collect();
     let rows: Vec<Vec<&str>> = lines.map(|l| l.split(',').collect()).collect();
     let row = &rows[rows.len() / 2];

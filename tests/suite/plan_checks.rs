@@ -150,7 +150,10 @@ fn time_series_step_equals_budget_at_and_rate_doubling_costs_3_01_db() {
                 .starts_with(&format!("pass-{number:03}-sierra-baja-"))
         })
         .unwrap();
-    let mut rdr = csv::Reader::from_path(csv_path).unwrap();
+    let mut rdr = csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .from_path(csv_path)
+        .unwrap();
     let headers = rdr.headers().unwrap().clone();
     let rows: Vec<csv::StringRecord> = rdr.records().map(|r| r.unwrap()).collect();
     let col = |name: &str| headers.iter().position(|h| h == name).unwrap();
