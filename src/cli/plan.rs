@@ -25,6 +25,7 @@ use std::path::{Path, PathBuf};
 pub struct PlanArgs {
     #[command(flatten)]
     pub window: WindowArgs,
+    /// Output on stdout: a table for people, or CSV (one row per pass) or JSON (the summary).
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
     /// Folder for the per-pass CSV time series and the summary (CSV and JSON).
@@ -46,11 +47,17 @@ pub struct PlanArgs {
 pub struct MaskArgs {
     #[command(flatten)]
     pub window: WindowArgs,
+    /// Output on stdout: a table for people, or CSV (one row per mask, rate and station) or JSON.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
-    /// Mask elevation step of the trade-off table, deg.
-    #[arg(long, value_name = "DEG", default_value_t = 5)]
-    pub mask_step: usize,
+    /// Mask elevation step of the trade-off table, deg (whole degrees).
+    #[arg(
+        long = "mask-step-deg",
+        alias = "mask-step",
+        value_name = "DEG",
+        default_value_t = 5
+    )]
+    pub mask_step_deg: usize,
 }
 
 /// `passbudget plan`.
@@ -163,6 +170,7 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
     let rain = planner.exceedance_percent().is_some();
     let mut cols = vec![
         ("#", Align::Right),
+        ("pass id", Align::Left),
         ("station", Align::Left),
         ("AOS (UTC)", Align::Left),
         ("LOS", Align::Left),
@@ -189,6 +197,7 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
         let closing = x.clear.closing;
         let mut cells = vec![
             r.number.to_string(),
+            r.pass_id.clone(),
             r.station.clone(),
             x.pass.aos.format("%m-%d %H:%M:%S").to_string(),
             x.pass.los.format("%H:%M:%S").to_string(),
@@ -321,8 +330,8 @@ fn print_usable_masks(masks: &[UsableMaskRow], plan: bool, out: &mut dyn Write) 
 
 /// `passbudget mask`.
 pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
-    if a.mask_step == 0 {
-        anyhow::bail!("--mask-step 0: the step must be at least 1 deg");
+    if a.mask_step_deg == 0 {
+        anyhow::bail!("--mask-step-deg 0: the step must be at least 1 deg");
     }
     let planner = a.window.planner(true)?;
     let plan = planner.collect()?;
@@ -332,7 +341,12 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
         .tradeoff_masks
         .as_deref()
         .expect("the planner was asked for the trade-off");
-    let series = tradeoff(masks_acc, planner.rates(), plan.window.days(), a.mask_step);
+    let series = tradeoff(
+        masks_acc,
+        planner.rates(),
+        plan.window.days(),
+        a.mask_step_deg,
+    );
     let rows = TradeoffRow::rows(&planner, &series);
     let masks: Vec<UsableMaskRow> = usable_masks(masks_acc, planner.stations(), planner.rates())
         .iter()

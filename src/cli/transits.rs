@@ -14,6 +14,7 @@ use std::io::Write;
 pub struct TransitsArgs {
     #[command(flatten)]
     pub window: WindowArgs,
+    /// Output on stdout: a table for people, or CSV (one row per transit) or JSON.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
 }
