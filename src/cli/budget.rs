@@ -29,7 +29,7 @@ pub struct BudgetArgs {
     /// Elevation, deg; the slant range follows from the orbit's semi-major axis.
     #[arg(
         long,
-        value_name = "E",
+        value_name = "DEG",
         allow_hyphen_values = true,
         conflicts_with = "at",
         required_unless_present = "at"
@@ -39,7 +39,7 @@ pub struct BudgetArgs {
     #[arg(long, value_name = "TIME")]
     pub at: Option<String>,
     /// Data rate, bit/s (default: the first rate of the ladder). Its scheme is the ladder's for that rate, or --scheme.
-    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    #[arg(long, value_name = "BPS", allow_hyphen_values = true)]
     pub rate_bps: Option<f64>,
     /// Modulation and coding scheme (default: the ladder's).
     #[arg(long, value_name = "NAME")]
@@ -83,7 +83,7 @@ pub struct AtmosphereArgs {
     /// Polarization tilt relative to the horizontal, deg (45 = circular).
     #[arg(
         long,
-        value_name = "T",
+        value_name = "DEG",
         default_value_t = passbudget::config::defaults::POLARIZATION_TILT_DEG.value,
         allow_hyphen_values = true
     )]

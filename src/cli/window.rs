@@ -17,7 +17,7 @@ const SET_HELP: &str = "Override a key of the mission file (transmitter.power_w=
 /// `--set` overrides of its keys.
 #[derive(Debug, Clone, clap::Args)]
 pub struct MissionArgs {
-    /// Mission file (YAML).
+    /// Mission file (YAML), required.
     #[arg(value_name = "MISSION", required_unless_present = "mission_flag")]
     pub mission: Option<PathBuf>,
     #[arg(
