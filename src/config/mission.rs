@@ -173,6 +173,9 @@ pub struct Mission {
     pub transmitter: Option<TransmitterConfig>,
     pub modem: Option<ModemConfig>,
     pub defaults: Vec<DefaultUsed>,
+    /// The keys given by `--set` (the dotted key, the argument), for messages about them raised
+    /// after validation ([`Mission::origin`]).
+    pub set_keys: Vec<(String, String)>,
 }
 
 /// The planning window as validated: start, end, days.
@@ -240,7 +243,26 @@ impl Mission {
             transmitter,
             modem,
             defaults: c.defaults,
+            set_keys: applied
+                .iter()
+                .map(|a| (a.key.clone(), a.arg.clone()))
+                .collect(),
         })
+    }
+
+    /// Where a key's value came from, for a message: `file: --set ARG` for a key given by
+    /// `--set` (or lying under one), else `file:line` (or `file` without a line).
+    pub fn origin(&self, key: &str, line: Option<usize>) -> String {
+        let set = self
+            .set_keys
+            .iter()
+            .rev()
+            .find(|(k, _)| key == k || key.starts_with(&format!("{k}.")));
+        match (set, line) {
+            (Some((_, arg)), _) => format!("{}: --set {arg}", self.source.display()),
+            (None, Some(l)) => format!("{}:{l}", self.source.display()),
+            (None, None) => self.source.display().to_string(),
+        }
     }
 }
 

@@ -184,6 +184,9 @@ fn invalid_overrides_are_refused_naming_the_argument() {
         &plan("transmitter.power_w"),
         &["--set transmitter.power_w", "KEY=VALUE"],
     );
+    // Rules checked after the file's validation (the scheme names, the band) name it too.
+    let ladder = "modem.ladder=[{rate_bps: 1e6, scheme: bpsk-9}]";
+    clean_error(&plan(ladder), &[&format!("--set {ladder}"), "bpsk-9"]);
     // The dwell rule of the planner names the --set argument too.
     clean_error(
         &plan("planning.step_s=8"),
