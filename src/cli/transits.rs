@@ -78,6 +78,7 @@ fn print_table(
         let mut t = Table::new(&[
             ("station", Align::Left),
             ("pass", Align::Right),
+            ("pass id", Align::Left),
             ("in beam from (UTC)", Align::Left),
             ("until", Align::Left),
             ("closest", Align::Left),
@@ -92,6 +93,7 @@ fn print_table(
             t.row(vec![
                 r.station.clone(),
                 r.pass.to_string(),
+                r.pass_id.clone(),
                 r.start.clone(),
                 r.end[11..].to_string(),
                 r.closest[11..].to_string(),

@@ -125,7 +125,12 @@ fn slug_uncut(name: &str) -> String {
 /// window cuts, that is the highest point of the whole pass, outside the window if need be
 /// ([`crate::geometry::Pass::full_tca`]); the minute is cut, not rounded.
 pub fn pass_id(station: &str, pass: &crate::geometry::Pass) -> String {
-    format!("{}-{}", slug(station), pass.full_tca.format("%Y%m%dT%H%MZ"))
+    pass_id_at(station, &pass.full_tca)
+}
+
+/// [`pass_id`] from the station's name and the pass's `full_tca`.
+pub fn pass_id_at(station: &str, full_tca: &chrono::DateTime<chrono::Utc>) -> String {
+    format!("{}-{}", slug(station), full_tca.format("%Y%m%dT%H%MZ"))
 }
 
 /// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).

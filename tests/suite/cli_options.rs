@@ -377,3 +377,17 @@ fn chart_pass_takes_the_identifier() {
         &["--pass nordkam-19990101T0000Z", "no pass of this window"],
     );
 }
+
+/// `sun-transits` names each transit's pass by the same identifier as `plan` (project
+/// consistency: one identifier everywhere).
+#[test]
+fn sun_transits_carry_the_plan_pass_id() {
+    let t = json(&run(&["sun-transits", EXAMPLE, "--format", "json"]));
+    let plan = json(&run(&["plan", EXAMPLE, "--format", "json"]));
+    let transits = t["transits"].as_array().unwrap();
+    assert!(!transits.is_empty());
+    for tr in transits {
+        let n = tr["pass"].as_u64().unwrap() as usize;
+        assert_eq!(tr["pass_id"], plan["passes"][n - 1]["pass_id"], "{tr}");
+    }
+}
