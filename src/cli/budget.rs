@@ -2,8 +2,9 @@
 
 use crate::cli::common::{warn, Format};
 use crate::cli::table::{Align, Table};
+use crate::cli::window::{stations_and_mission, MissionArgs};
 use anyhow::{anyhow, bail, Result};
-use passbudget::config::mission::Mission;
+use passbudget::config::limits::FREQUENCY_MHZ;
 use passbudget::config::station::Station;
 use passbudget::config::DefaultUsed;
 use passbudget::plan::instant::{
@@ -19,16 +20,16 @@ use std::path::PathBuf;
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct BudgetArgs {
-    /// Mission file.
-    #[arg(value_name = "MISSION")]
-    pub mission: PathBuf,
-    /// Station by name (as in its station file).
-    #[arg(long, value_name = "NAME")]
+    #[command(flatten)]
+    pub mission: MissionArgs,
+    /// Station: a station file, or the name of one of the mission's stations (case and
+    /// punctuation ignored).
+    #[arg(long, value_name = "FILE|NAME")]
     pub station: String,
     /// Elevation, deg; the slant range follows from the orbit's semi-major axis.
     #[arg(
         long,
-        value_name = "E",
+        value_name = "DEG",
         allow_hyphen_values = true,
         conflicts_with = "at",
         required_unless_present = "at"
@@ -38,7 +39,7 @@ pub struct BudgetArgs {
     #[arg(long, value_name = "TIME")]
     pub at: Option<String>,
     /// Data rate, bit/s (default: the first rate of the ladder). Its scheme is the ladder's for that rate, or --scheme.
-    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    #[arg(long, value_name = "BPS", allow_hyphen_values = true)]
     pub rate_bps: Option<f64>,
     /// Modulation and coding scheme (default: the ladder's).
     #[arg(long, value_name = "NAME")]
@@ -46,6 +47,7 @@ pub struct BudgetArgs {
     /// Rain exceeded P % of an average year (default: clear sky).
     #[arg(long, value_name = "P", allow_hyphen_values = true)]
     pub exceedance_percent: Option<f64>,
+    /// Output on stdout: a table for people, or CSV (one row per budget item) or JSON.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
     /// Budget at a time more than 90 days from the element epoch (refused otherwise).
@@ -58,9 +60,25 @@ pub struct AtmosphereArgs {
     /// Station file.
     #[arg(long, value_name = "FILE")]
     pub station: PathBuf,
-    #[arg(long, value_name = "F", allow_hyphen_values = true)]
-    pub frequency_ghz: f64,
-    #[arg(long, value_name = "E", allow_hyphen_values = true)]
+    /// Frequency, MHz.
+    #[arg(
+        long,
+        value_name = "MHZ",
+        allow_hyphen_values = true,
+        required_unless_present = "frequency_ghz"
+    )]
+    pub frequency_mhz: Option<f64>,
+    /// The older spelling, in GHz (hidden; --frequency-mhz is the one unit of every command).
+    #[arg(
+        long,
+        value_name = "GHZ",
+        allow_hyphen_values = true,
+        hide = true,
+        conflicts_with = "frequency_mhz"
+    )]
+    pub frequency_ghz: Option<f64>,
+    /// Elevation, deg.
+    #[arg(long, value_name = "DEG", allow_hyphen_values = true)]
     pub elevation_deg: f64,
     /// Exceedance percentage of an average year (default: clear sky).
     #[arg(long, value_name = "P", allow_hyphen_values = true)]
@@ -68,25 +86,34 @@ pub struct AtmosphereArgs {
     /// Polarization tilt relative to the horizontal, deg (45 = circular).
     #[arg(
         long,
-        value_name = "T",
+        value_name = "DEG",
         default_value_t = passbudget::config::defaults::POLARIZATION_TILT_DEG.value,
         allow_hyphen_values = true
     )]
     pub polarization_tilt_deg: f64,
+    /// Output on stdout: a table for people, or CSV (one row) or JSON.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
 }
 
 /// `passbudget budget`.
 pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
-    let mission = Mission::load(&a.mission)?;
+    let overrides = a.mission.overrides()?;
+    let values = std::slice::from_ref(&a.station);
+    let (stations, mission) = stations_and_mission(values, Some(a.mission.path()), &overrides)?;
+    let mut mission = mission.expect("a mission file was given");
+    let station = &stations[0];
+    if !mission.stations.iter().any(|s| s == station) {
+        // A station file of its own: the budget is that station's.
+        mission.stations = vec![station.clone()];
+    }
     let geometry = match (&a.at, a.elevation_deg) {
         (Some(t), _) => InstantGeometry::At(parse_utc(t).map_err(|e| anyhow!("--at: {e}"))?),
         (None, Some(e)) => InstantGeometry::Elevation(e),
         (None, None) => bail!("give --elevation-deg E or --at TIME"),
     };
     let req = InstantRequest {
-        station: a.station.clone(),
+        station: station.name.clone(),
         geometry,
         rate_bps: a.rate_bps,
         scheme: a.scheme.clone(),
@@ -237,8 +264,18 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
 /// The atmosphere at one elevation for a station file.
 fn atmosphere_doc(a: &AtmosphereArgs) -> Result<AtmosphereDoc> {
     let st = Station::load(&a.station)?;
+    let frequency_ghz = match (a.frequency_mhz, a.frequency_ghz) {
+        (Some(mhz), _) => {
+            FREQUENCY_MHZ
+                .check(mhz)
+                .map_err(|e| anyhow!("--frequency-mhz: {e}"))?;
+            mhz / 1e3
+        }
+        (None, Some(ghz)) => ghz,
+        (None, None) => bail!("give --frequency-mhz F"),
+    };
     let req = AtmosphereRequest {
-        frequency_ghz: a.frequency_ghz,
+        frequency_ghz,
         elevation_deg: a.elevation_deg,
         exceedance_percent: a.exceedance_percent,
         polarization_tilt_deg: a.polarization_tilt_deg,
@@ -255,7 +292,7 @@ fn atmosphere_doc(a: &AtmosphereArgs) -> Result<AtmosphereDoc> {
     let att = &at.attenuation;
     Ok(AtmosphereDoc {
         station: st.name.clone(),
-        frequency_ghz: a.frequency_ghz,
+        frequency_ghz,
         elevation_deg: a.elevation_deg,
         exceedance_percent: a.exceedance_percent,
         polarization_tilt_deg: a.polarization_tilt_deg,

@@ -7,8 +7,9 @@ use crate::cli::output::{
 use anyhow::{bail, Result};
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
+use passbudget::plan::Planner;
 use passbudget::report::files::{ChartBytes, OutputRequest};
-use passbudget::report::CommitMode;
+use passbudget::report::{pass_id, CommitMode};
 use std::io::Write;
 use std::path::PathBuf;
 
@@ -42,16 +43,24 @@ pub enum ChartKind {
 pub struct ChartArgs {
     #[command(flatten)]
     pub window: crate::cli::window::WindowArgs,
-    /// Draw only pass N (its pass chart and sky track); the numbers are those of `plan`.
-    #[arg(long, value_name = "N", conflicts_with = "all")]
-    pub pass: Option<usize>,
+    /// Draw only one pass (its pass chart and sky track): its identifier (`passes` and `plan`
+    /// show it, e.g. nordkam-20261202T0111Z) or its number in `plan`'s table for the same window.
+    #[arg(long, value_name = "ID|N", conflicts_with = "all")]
+    pub pass: Option<String>,
     /// Draw every pass (the default).
     #[arg(long)]
     pub all: bool,
+    /// Which charts to draw.
     #[arg(long, value_enum, default_value = "all")]
     pub kind: ChartKind,
-    #[arg(long, value_enum, default_value = "png")]
-    pub format: ChartFormatArg,
+    /// Chart file format.
+    #[arg(
+        long = "chart-format",
+        alias = "format",
+        value_enum,
+        default_value = "png"
+    )]
+    pub chart_format: ChartFormatArg,
     /// Folder for the chart files.
     #[arg(long, value_name = "DIR", default_value = "charts")]
     pub out: PathBuf,
@@ -72,7 +81,12 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     };
     let planner = a.window.planner(which.mask)?;
     check_names(&planner)?;
-    let format: ChartFormat = a.format.into();
+    let pass = a
+        .pass
+        .as_deref()
+        .map(|p| pass_number(&planner, p))
+        .transpose()?;
+    let format: ChartFormat = a.chart_format.into();
     let request = OutputRequest {
         csv: false,
         pass_charts: want(ChartKind::Pass) && a.pass.is_none(),
@@ -81,7 +95,7 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     };
     check_size(&planner, &request, a.allow_large_output, &a.out)?;
     let dir = staging.path().to_path_buf();
-    let charts = ChartSink::new(&planner, &dir, format, want(ChartKind::Pass), a.pass);
+    let charts = ChartSink::new(&planner, &dir, format, want(ChartKind::Pass), pass);
     let sink = RunSink {
         csv: None,
         charts: Some(&charts),
@@ -92,7 +106,7 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     let plan = run.map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;
     warn(&plan.warnings);
     note(&plan.notes);
-    if let Some(n) = a.pass {
+    if let Some(n) = pass {
         if !plan.passes.iter().any(|x| x.number == n) {
             if plan.passes.is_empty() {
                 bail!("--pass {n}: the plan has no passes in this window");
@@ -103,7 +117,7 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     let written = window_charts(&planner, &plan, &charts, &dir, which)
         .map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;
     let passes_drawn = if want(ChartKind::Pass) {
-        a.pass.map(|_| 1).unwrap_or(plan.passes.len())
+        pass.map(|_| 1).unwrap_or(plan.passes.len())
     } else {
         0
     };
@@ -118,4 +132,28 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
         a.out.display()
     )?;
     Ok(())
+}
+
+/// The plan's number of the pass `--pass` names: a number as given, or the pass whose identifier
+/// ([`pass_id`]) it is (case ignored).
+fn pass_number(planner: &Planner, given: &str) -> Result<usize> {
+    if let Ok(n) = given.trim().parse::<usize>() {
+        return Ok(n);
+    }
+    let passes = planner.passes()?;
+    let name = |si: usize| &planner.stations()[si].station.name;
+    if let Some(k) = passes
+        .iter()
+        .position(|(si, p)| pass_id(name(*si), p).eq_ignore_ascii_case(given.trim()))
+    {
+        return Ok(k + 1);
+    }
+    match (passes.first(), passes.last()) {
+        (Some((sa, a)), Some((sb, b))) => bail!(
+            "--pass {given}: no pass of this window has that identifier (the window holds {} to {}; `passbudget passes` lists them)",
+            pass_id(name(*sa), a),
+            pass_id(name(*sb), b)
+        ),
+        _ => bail!("--pass {given}: the plan has no passes in this window"),
+    }
 }

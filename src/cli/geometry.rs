@@ -2,7 +2,7 @@
 
 use crate::cli::common::{note, warn, Format};
 use crate::cli::table::{Align, Table};
-use crate::cli::window::parse_time_flag;
+use crate::cli::window::{parse_time_flag, stations_and_mission, OptionalMissionArgs};
 use anyhow::{anyhow, bail, Result};
 use passbudget::config::limits::{FREQUENCY_MHZ, MIN_ELEVATION_DEG, TRACK_STEP_S};
 use passbudget::config::mission::Mission;
@@ -19,14 +19,13 @@ use passbudget::report::to_csv;
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
 use std::io::Write;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 /// Orbit, stations and window, from flags or a mission file (flags win).
 #[derive(Debug, Clone, clap::Args)]
 pub struct InputArgs {
-    /// Mission file supplying any input not given by a flag.
-    #[arg(long, value_name = "FILE")]
-    pub mission: Option<PathBuf>,
+    #[command(flatten)]
+    pub mission: OptionalMissionArgs,
     /// Element file: TLE (2- or 3-line), CCSDS OMM JSON or OMM KVN.
     #[arg(long, value_name = "FILE")]
     pub tle: Option<PathBuf>,
@@ -40,7 +39,7 @@ pub struct InputArgs {
     #[arg(long, value_name = "TIME", conflicts_with = "days")]
     pub end: Option<String>,
     /// Length of the window in days.
-    #[arg(long, value_name = "N", allow_hyphen_values = true)]
+    #[arg(long, value_name = "DAYS", allow_hyphen_values = true)]
     pub days: Option<f64>,
 }
 
@@ -48,12 +47,19 @@ pub struct InputArgs {
 pub struct PassesArgs {
     #[command(flatten)]
     pub input: InputArgs,
-    /// Station file (repeat for several stations; the same station twice is refused).
-    #[arg(long, value_name = "FILE")]
-    pub station: Vec<PathBuf>,
+    /// Station: a station file, or the name of one of the mission's stations (repeat for
+    /// several; the same station twice is refused; default: the mission's stations).
+    #[arg(long, value_name = "FILE|NAME")]
+    pub station: Vec<String>,
     /// Minimum elevation, deg: overrides each station's min_elevation_deg (the horizon mask still applies).
-    #[arg(long, value_name = "DEG", allow_hyphen_values = true)]
-    pub mask: Option<f64>,
+    #[arg(
+        long = "mask-deg",
+        alias = "mask",
+        value_name = "DEG",
+        allow_hyphen_values = true
+    )]
+    pub mask_deg: Option<f64>,
+    /// Output on stdout: a table for people, or CSV (one row per pass) or JSON.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
 }
@@ -62,23 +68,26 @@ pub struct PassesArgs {
 pub struct TrackArgs {
     #[command(flatten)]
     pub input: InputArgs,
-    /// Station file.
-    #[arg(long, value_name = "FILE")]
-    pub station: Option<PathBuf>,
+    /// Station: a station file, or the name of one of the mission's stations (default: the
+    /// mission's only station).
+    #[arg(long, value_name = "FILE|NAME")]
+    pub station: Option<String>,
     /// Step between points, s.
     #[arg(
-        long,
+        long = "step-s",
+        alias = "step",
         value_name = "SECONDS",
         default_value_t = passbudget::config::defaults::TRACK_STEP_S.value,
         allow_hyphen_values = true
     )]
-    pub step: f64,
-    /// Downlink frequency, MHz, for the Doppler shift.
-    #[arg(long, value_name = "F", allow_hyphen_values = true)]
+    pub step_s: f64,
+    /// Downlink frequency, MHz, for the Doppler shift (default: the mission's transmitter.frequency_mhz).
+    #[arg(long, value_name = "MHZ", allow_hyphen_values = true)]
     pub frequency_mhz: Option<f64>,
     /// Only points where the satellite is above the station's mask.
     #[arg(long)]
     pub above_mask: bool,
+    /// Output on stdout: CSV (one row per point), JSON or a table.
     #[arg(long, value_enum, default_value = "csv")]
     pub format: Format,
 }
@@ -93,13 +102,15 @@ pub struct Resolved {
 }
 
 /// Load everything `passes`/`track` need; the window follows the library's one rule.
-pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved> {
-    let mission = input.mission.as_deref().map(Mission::load).transpose()?;
+pub fn resolve(input: &InputArgs, station_args: &[String]) -> Result<Resolved> {
+    let overrides = input.mission.overrides()?;
+    check_distinct_files(station_args)?;
+    let (chosen, mission) = stations_and_mission(station_args, input.mission.path(), &overrides)?;
     let tle = input
         .tle
         .clone()
         .or_else(|| mission.as_ref().map(|m| m.elements_path.clone()))
-        .ok_or_else(|| anyhow!("no element file: give --tle FILE or a --mission file"))?;
+        .ok_or_else(|| anyhow!("no element file: give --tle FILE or a mission file"))?;
     let sat = input.sat.clone().or_else(|| {
         if input.tle.is_none() {
             mission.as_ref().and_then(|m| m.select.clone())
@@ -127,8 +138,8 @@ pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved>
     })?;
     let (elements, propagator, selection) = load_satellite(&tle, sat.as_deref(), window.start())?;
     note(&Vec::from_iter(selection_note(&elements, &selection)));
-    let stations = if !station_files.is_empty() {
-        load_stations(station_files)?
+    let stations = if !station_args.is_empty() {
+        check_distinct_stations(station_args, chosen)?
     } else {
         mission
             .as_ref()
@@ -136,7 +147,7 @@ pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved>
             .unwrap_or_default()
     };
     if stations.is_empty() {
-        bail!("no station: give --station FILE or a --mission file with stations");
+        bail!("no station: give --station FILE or a mission file with stations");
     }
     Ok(Resolved {
         elements,
@@ -147,33 +158,35 @@ pub fn resolve(input: &InputArgs, station_files: &[PathBuf]) -> Result<Resolved>
     })
 }
 
-/// The `--station` files, loaded. The same file given twice (by any path to it), or two files
-/// naming the same station, is refused: every pass would be listed twice.
-fn load_stations(files: &[PathBuf]) -> Result<Vec<Station>> {
-    let mut seen: Vec<(PathBuf, &PathBuf)> = Vec::new();
-    let mut stations: Vec<Station> = Vec::new();
-    for f in files {
-        let key = std::fs::canonicalize(f).unwrap_or_else(|_| f.clone());
+/// The same station file given twice (by any path to it) is refused: every pass would be listed
+/// twice.
+fn check_distinct_files(values: &[String]) -> Result<()> {
+    let mut seen: Vec<(PathBuf, &String)> = Vec::new();
+    for f in values.iter().filter(|v| Path::new(v).is_file()) {
+        let key = std::fs::canonicalize(f).unwrap_or_else(|_| PathBuf::from(f));
         if let Some((_, first)) = seen.iter().find(|(k, _)| *k == key) {
             bail!(
-                "--station {}: the same station file is given twice ({} and {}); give each station once",
-                f.display(),
-                first.display(),
-                f.display()
+                "--station {f}: the same station file is given twice ({first} and {f}); give each station once"
             );
         }
         seen.push((key, f));
-        let st = Station::load(f)?;
-        if let Some(b) = stations.iter().find(|b| b.name == st.name) {
+    }
+    Ok(())
+}
+
+/// Two `--station` values naming the same station (two files of one station, or a name given
+/// twice) are refused.
+fn check_distinct_stations(values: &[String], stations: Vec<Station>) -> Result<Vec<Station>> {
+    for (i, st) in stations.iter().enumerate() {
+        if let Some(b) = stations[..i].iter().find(|b| b.name == st.name) {
             bail!(
-                "--station {}: two station files name the station '{}' ({} and {}); give each station once",
-                f.display(),
+                "--station {}: two --station values name the station '{}' ({} and {}); give each station once",
+                values[i],
                 st.name,
                 b.source.display(),
-                f.display()
+                st.source.display()
             );
         }
-        stations.push(st);
     }
     Ok(stations)
 }
@@ -188,7 +201,7 @@ pub fn station_geometry(
     let min = mask_override.unwrap_or(st.min_elevation_deg);
     MIN_ELEVATION_DEG
         .check(min)
-        .map_err(|e| anyhow!("--mask: {e}"))?;
+        .map_err(|e| anyhow!("--mask-deg: {e}"))?;
     let mask = HorizonMask::new(min, st.horizon_mask.clone())
         .map_err(|e| anyhow!("{}: horizon_mask: {e}", st.source.display()))?;
     Ok((obs, mask))
@@ -233,7 +246,7 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
 pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
     let r = resolve(&a.input, &a.station)?;
     let mask = a
-        .mask
+        .mask_deg
         .or_else(|| r.mission.as_ref().and_then(|m| m.mask_deg));
     warn_element_age(&r);
     let all = all_passes(&r, mask)?;
@@ -256,6 +269,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
         Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
         Format::Table => {
             let mut t = Table::new(&[
+                ("pass id", Align::Left),
                 ("station", Align::Left),
                 ("AOS (UTC)", Align::Left),
                 ("TCA (UTC)", Align::Left),
@@ -267,7 +281,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                 ("min range km", Align::Right),
                 ("", Align::Left),
             ]);
-            for (i, p) in &all {
+            for ((i, p), row) in all.iter().zip(&rows) {
                 let flags = match (p.starts_before_window, p.ends_after_window) {
                     (true, true) => "cut at both ends",
                     (true, false) => "cut at window start",
@@ -275,6 +289,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                     _ => "",
                 };
                 t.row(vec![
+                    row.pass_id.clone(),
                     r.stations[*i].name.clone(),
                     p.aos.format("%Y-%m-%d %H:%M:%S").to_string(),
                     p.tca.format("%H:%M:%S").to_string(),
@@ -309,18 +324,18 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
 pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
     // The ranges of the one table (config::limits).
     TRACK_STEP_S
-        .check(a.step)
-        .map_err(|e| anyhow!("--step: {e}"))?;
+        .check(a.step_s)
+        .map_err(|e| anyhow!("--step-s: {e}"))?;
     if let Some(f) = a.frequency_mhz {
         FREQUENCY_MHZ
             .check(f)
             .map_err(|e| anyhow!("--frequency-mhz: {e}"))?;
     }
-    let stations: Vec<PathBuf> = a.station.iter().cloned().collect();
+    let stations: Vec<String> = a.station.iter().cloned().collect();
     let r = resolve(&a.input, &stations)?;
     if r.stations.len() > 1 {
         bail!(
-            "track follows one station: give --station FILE (the mission file lists {})",
+            "track follows one station: give --station FILE|NAME (the mission file lists {})",
             r.stations.len()
         );
     }
@@ -329,11 +344,11 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             .as_ref()
             .and_then(|m| m.transmitter.as_ref().map(|t| t.frequency_hz))
     });
-    let n = r.window.days() * 86400.0 / a.step;
+    let n = r.window.days() * 86400.0 / a.step_s;
     if n > 5e6 {
         bail!(
-            "--step {} over this window gives {:.0} points; use a longer step or a shorter window",
-            a.step,
+            "--step-s {} over this window gives {:.0} points; use a longer step or a shorter window",
+            a.step_s,
             n
         );
     }
@@ -346,7 +361,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
         &obs,
         r.window.start(),
         r.window.end(),
-        a.step,
+        a.step_s,
     ) {
         match item {
             Ok((t, look)) => {

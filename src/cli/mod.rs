@@ -5,6 +5,7 @@
 mod budget;
 mod chart;
 mod common;
+mod compare;
 mod geometry;
 mod output;
 mod plan;
@@ -48,6 +49,9 @@ pub enum Command {
     /// Every passage of the Sun through a station's beam during a pass (and, near the
     /// geostationary arc, the Sun-outage seasons).
     SunTransits(transits::TransitsArgs),
+    /// Two plans of one window side by side (two missions, or one mission and --set-b
+    /// overrides): per-pass and total differences, passes matched by their identifier.
+    Compare(compare::CompareArgs),
 }
 
 /// Run the parsed command, writing to `out`.
@@ -62,6 +66,7 @@ pub fn run(args: Args, out: &mut dyn Write) -> anyhow::Result<()> {
         Command::Mask(a) => plan::mask(a, out),
         Command::Chart(a) => chart::chart(a, out),
         Command::SunTransits(a) => transits::sun_transits(a, out),
+        Command::Compare(a) => compare::compare(a, out),
     }
 }
 

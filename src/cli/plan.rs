@@ -26,6 +26,7 @@ use std::path::{Path, PathBuf};
 pub struct PlanArgs {
     #[command(flatten)]
     pub window: WindowArgs,
+    /// Output on stdout: a table for people, or CSV (one row per pass) or JSON (the summary).
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
     /// Folder for the per-pass CSV time series and the summary (CSV and JSON).
@@ -47,11 +48,17 @@ pub struct PlanArgs {
 pub struct MaskArgs {
     #[command(flatten)]
     pub window: WindowArgs,
+    /// Output on stdout: a table for people, or CSV (one row per mask, rate and station) or JSON.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
-    /// Mask elevation step of the trade-off table, deg.
-    #[arg(long, value_name = "DEG", default_value_t = 5)]
-    pub mask_step: usize,
+    /// Mask elevation step of the trade-off table, deg (whole degrees).
+    #[arg(
+        long = "mask-step-deg",
+        alias = "mask-step",
+        value_name = "DEG",
+        default_value_t = 5
+    )]
+    pub mask_step_deg: usize,
 }
 
 /// `passbudget plan`.
@@ -198,6 +205,7 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
     }));
     let mut cols: Vec<(String, Align)> = vec![
         ("#".into(), Align::Right),
+        ("pass id".into(), Align::Left),
         ("station".into(), Align::Left),
         ("AOS (UTC)".into(), Align::Left),
         ("LOS".into(), Align::Left),
@@ -227,6 +235,7 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
         let mark = |on: bool, m: &str| if on { m } else { "" }.to_string();
         let mut cells = vec![
             r.number.to_string(),
+            r.pass_id.clone(),
             r.station.clone(),
             mark(x.pass.starts_before_window, "<")
                 + &x.pass.aos.format("%m-%d %H:%M:%S").to_string(),
@@ -401,8 +410,8 @@ fn print_usable_masks(masks: &[UsableMaskRow], plan: bool, out: &mut dyn Write) 
 
 /// `passbudget mask`.
 pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
-    if a.mask_step == 0 {
-        anyhow::bail!("--mask-step 0: the step must be at least 1 deg");
+    if a.mask_step_deg == 0 {
+        anyhow::bail!("--mask-step-deg 0: the step must be at least 1 deg");
     }
     let planner = a.window.planner(true)?;
     let plan = planner.collect()?;
@@ -412,7 +421,12 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
         .tradeoff_masks
         .as_deref()
         .expect("the planner was asked for the trade-off");
-    let series = tradeoff(masks_acc, planner.rates(), plan.window.days(), a.mask_step);
+    let series = tradeoff(
+        masks_acc,
+        planner.rates(),
+        plan.window.days(),
+        a.mask_step_deg,
+    );
     let rows = TradeoffRow::rows(&planner, &series);
     let masks: Vec<UsableMaskRow> = usable_masks(masks_acc, planner.stations(), planner.rates())
         .iter()

@@ -14,6 +14,7 @@ use std::io::Write;
 pub struct TransitsArgs {
     #[command(flatten)]
     pub window: WindowArgs,
+    /// Output on stdout: a table for people, or CSV (one row per transit) or JSON.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
 }
@@ -77,6 +78,7 @@ fn print_table(
         let mut t = Table::new(&[
             ("station", Align::Left),
             ("pass", Align::Right),
+            ("pass id", Align::Left),
             ("in beam from (UTC)", Align::Left),
             ("until", Align::Left),
             ("closest", Align::Left),
@@ -91,6 +93,7 @@ fn print_table(
             t.row(vec![
                 r.station.clone(),
                 r.pass.to_string(),
+                r.pass_id.clone(),
                 r.start.clone(),
                 r.end[11..].to_string(),
                 r.closest[11..].to_string(),

@@ -3,7 +3,8 @@
 
 use super::defaults as dflt;
 use super::limits;
-use super::{parse_yaml, read_text, Checker, ConfigError, DefaultUsed};
+use super::overrides::{parse_with, Overrides};
+use super::{read_text, Checker, ConfigError, DefaultUsed};
 use crate::config::station::Station;
 use crate::link::antenna::TxPattern;
 use crate::link::polarization::PolarizationSense;
@@ -172,6 +173,9 @@ pub struct Mission {
     pub transmitter: Option<TransmitterConfig>,
     pub modem: Option<ModemConfig>,
     pub defaults: Vec<DefaultUsed>,
+    /// The keys given by `--set` (the dotted key, the argument), for messages about them raised
+    /// after validation ([`Mission::origin`]).
+    pub set_keys: Vec<(String, String)>,
 }
 
 /// The planning window as validated: start, end, days.
@@ -184,17 +188,35 @@ type Window = (
 impl Mission {
     /// Load and validate a mission file and the station files it names.
     pub fn load(path: &Path) -> Result<Mission, ConfigError> {
+        Self::load_with(path, &Overrides::default())
+    }
+
+    /// Load and validate a mission file and its station files with `--set` overrides applied
+    /// (see [`crate::config::overrides`]); every override naming a station must reach one.
+    pub fn load_with(path: &Path, overrides: &Overrides) -> Result<Mission, ConfigError> {
         let text = read_text(path)?;
-        Self::from_yaml(path, &text)
+        Self::from_yaml_with(path, &text, overrides)
     }
 
     /// Parse and validate mission YAML text, loading the station files it names (relative to
     /// `path`'s folder); `path` is used in messages.
     pub fn from_yaml(path: &Path, text: &str) -> Result<Mission, ConfigError> {
-        let file: MissionFile = parse_yaml(path, text)?;
-        let mut c = Checker::new(path, text);
+        Self::from_yaml_with(path, text, &Overrides::default())
+    }
+
+    /// [`Mission::from_yaml`] with overrides.
+    pub fn from_yaml_with(
+        path: &Path,
+        text: &str,
+        overrides: &Overrides,
+    ) -> Result<Mission, ConfigError> {
+        let applied = overrides.mission();
+        let file: MissionFile = parse_with(path, text, &applied)?;
+        let mut c = Checker::new(path, text, &applied);
         let base = path.parent().map(Path::to_path_buf).unwrap_or_default();
-        let stations = stations(&c, &base, &file.stations)?;
+        let stations = stations(&c, &base, &file.stations, overrides)?;
+        let names: Vec<&str> = stations.iter().map(|s| s.name.as_str()).collect();
+        overrides.check_stations(path, &names)?;
         let (start, end, days) = window(&c, &file.window.unwrap_or_default())?;
         let p = file.planning.unwrap_or_default();
         let step_s = c.or_default(&limits::STEP_S, p.step_s, &dflt::STEP_S)?;
@@ -221,7 +243,26 @@ impl Mission {
             transmitter,
             modem,
             defaults: c.defaults,
+            set_keys: applied
+                .iter()
+                .map(|a| (a.key.clone(), a.arg.clone()))
+                .collect(),
         })
+    }
+
+    /// Where a key's value came from, for a message: `file: --set ARG` for a key given by
+    /// `--set` (or lying under one), else `file:line` (or `file` without a line).
+    pub fn origin(&self, key: &str, line: Option<usize>) -> String {
+        let set = self
+            .set_keys
+            .iter()
+            .rev()
+            .find(|(k, _)| key == k || key.starts_with(&format!("{k}.")));
+        match (set, line) {
+            (Some((_, arg)), _) => format!("{}: --set {arg}", self.source.display()),
+            (None, Some(l)) => format!("{}:{l}", self.source.display()),
+            (None, None) => self.source.display().to_string(),
+        }
     }
 }
 
@@ -239,7 +280,7 @@ fn resolve(base: &Path, p: &str) -> PathBuf {
 /// that lists it: `mission:line: stations: station file PATH: what is wrong`. Errors inside a
 /// station file that was read keep that file's own line.
 fn station_file_error(c: &Checker, index: usize, path: &Path, e: ConfigError) -> ConfigError {
-    if e.line.is_some() || e.path != path {
+    if e.line.is_some() || e.set.is_some() || e.path != path {
         return e;
     }
     let msg = format!("station file {}: {}", path.display(), e.message);
@@ -247,11 +288,17 @@ fn station_file_error(c: &Checker, index: usize, path: &Path, e: ConfigError) ->
 }
 
 /// The station files, loaded; two stations may not share a name.
-fn stations(c: &Checker, base: &Path, files: &[String]) -> Result<Vec<Station>, ConfigError> {
+fn stations(
+    c: &Checker,
+    base: &Path,
+    files: &[String],
+    overrides: &Overrides,
+) -> Result<Vec<Station>, ConfigError> {
     let mut stations: Vec<Station> = Vec::new();
     for (i, f) in files.iter().enumerate() {
         let path = resolve(base, f);
-        let s = Station::load(&path).map_err(|e| station_file_error(c, i, &path, e))?;
+        let s =
+            Station::load_with(&path, overrides).map_err(|e| station_file_error(c, i, &path, e))?;
         if stations.iter().any(|b| b.name == s.name) {
             let msg = format!("two stations are named '{}'", s.name);
             return Err(c.err_at(c.item_line("stations", i), "stations", msg));

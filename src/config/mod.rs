@@ -4,26 +4,35 @@
 //! (`deny_unknown_fields`, so a misspelt key is an error; serde enums for the closed sets, so a
 //! wrong name is an error with its line), then validation, one function per block, through one
 //! context (`Checker`) shared by the mission and station files, so the physics only ever sees
-//! valid values. Every error names the file, the line and the key. Accepted ranges are in
-//! [`limits`], defaults in [`defaults`]; the YAML crate is used in [`parse_yaml`] only.
+//! valid values. Every error names the file, the line and the key (or, for a value given by
+//! `--set`, the argument: [`overrides`]). Accepted ranges are in [`limits`], defaults in
+//! [`defaults`]; the YAML crate is used in [`parse_yaml`] and [`overrides`] only.
 
 pub mod defaults;
 pub mod fuzz_entry;
 pub mod limits;
 pub mod locate;
 pub mod mission;
+pub mod overrides;
 pub mod station;
 
 use std::path::{Path, PathBuf};
 
-/// A configuration error: which file, which line (1-based, when known), which key, and what is wrong.
+/// A configuration error: which file, which line (1-based, when known), which key, and what is
+/// wrong. A value given on the command line (`--set KEY=VALUE`) is named by its argument in
+/// place of a line: `file: --set KEY=VALUE: message`.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
-#[error("{}{}: {message}", path.display(), line.map(|l| format!(":{l}")).unwrap_or_default())]
+#[error("{}{}: {message}", path.display(), match set {
+    Some(s) => format!(": --set {s}"),
+    None => line.map(|l| format!(":{l}")).unwrap_or_default(),
+})]
 pub struct ConfigError {
     pub path: PathBuf,
     pub line: Option<usize>,
     pub key: Option<String>,
     pub message: String,
+    /// The `--set` argument that gave the value, when the error is about one.
+    pub set: Option<String>,
 }
 
 impl ConfigError {
@@ -38,7 +47,15 @@ impl ConfigError {
             line,
             key: key.map(str::to_string),
             message: message.into(),
+            set: None,
         }
+    }
+
+    /// The same error, about the value of a `--set` argument (no line).
+    pub fn set_by(mut self, arg: &str) -> Self {
+        self.set = Some(arg.to_string());
+        self.line = None;
+        self
     }
 }
 
@@ -104,25 +121,42 @@ pub(crate) struct Checker<'a> {
     pub path: &'a Path,
     pub text: &'a str,
     pub defaults: Vec<DefaultUsed>,
+    /// The `--set` overrides applied to this file: their keys have no line.
+    pub overrides: &'a [overrides::Applied],
 }
 
 impl<'a> Checker<'a> {
-    pub fn new(path: &'a Path, text: &'a str) -> Self {
+    pub fn new(path: &'a Path, text: &'a str, overrides: &'a [overrides::Applied]) -> Self {
         Checker {
             path,
             text,
             defaults: Vec::new(),
+            overrides,
         }
     }
 
-    /// 1-based line of a dotted key (`"antenna.efficiency"`).
+    /// 1-based line of a dotted key (`"antenna.efficiency"`); none for a key set by `--set`.
     pub fn line(&self, key: &str) -> Option<usize> {
+        if overrides::overridden(self.overrides, key).is_some() {
+            return None;
+        }
         locate::key_line(self.text, &key.split('.').collect::<Vec<_>>())
     }
 
     /// 1-based line of item `index` (0-based) of the list under a dotted key.
     pub fn item_line(&self, key: &str, index: usize) -> Option<usize> {
+        if overrides::overridden(self.overrides, key).is_some() {
+            return None;
+        }
         locate::list_item_line(self.text, &key.split('.').collect::<Vec<_>>(), index)
+    }
+
+    /// The error as it reads for a key set by `--set`: naming the argument.
+    fn named(&self, key: &str, e: ConfigError) -> ConfigError {
+        match overrides::overridden(self.overrides, key) {
+            Some(o) => e.set_by(&o.arg),
+            None => e,
+        }
     }
 
     /// An error about a dotted key, at the key's line: `file:line: key: msg`.
@@ -137,7 +171,10 @@ impl<'a> Checker<'a> {
         key: &str,
         msg: impl std::fmt::Display,
     ) -> ConfigError {
-        ConfigError::new(self.path, line, Some(key), format!("{key}: {msg}"))
+        self.named(
+            key,
+            ConfigError::new(self.path, line, Some(key), format!("{key}: {msg}")),
+        )
     }
 
     /// An error about item `index` (0-based) of the list under `key`, named `what` (point, step):
@@ -151,7 +188,7 @@ impl<'a> Checker<'a> {
     ) -> ConfigError {
         let line = self.item_line(key, index);
         let message = format!("{key} {what} {}: {msg}", index + 1);
-        ConfigError::new(self.path, line, Some(key), message)
+        self.named(key, ConfigError::new(self.path, line, Some(key), message))
     }
 
     /// `v` checked against its range; the error names the range's key and line.

@@ -17,10 +17,17 @@
 
 use super::defaults as dflt;
 use super::limits;
+use super::overrides::{parse_with, Overrides};
 use super::{parse_yaml, read_text, Checker, ConfigError, DefaultUsed};
 pub use crate::link::polarization::PolarizationSense;
 use serde::Deserialize;
 use std::path::{Path, PathBuf};
+
+/// The station's name alone, to know which overrides apply before the file is read.
+#[derive(Debug, Clone, Deserialize)]
+struct NameOnly {
+    name: String,
+}
 
 #[derive(Debug, Clone, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -170,14 +177,37 @@ pub struct Station {
 impl Station {
     /// Load and validate a station file.
     pub fn load(path: &Path) -> Result<Station, ConfigError> {
+        Self::load_with(path, &Overrides::default())
+    }
+
+    /// Load and validate a station file with the `--set station.NAME.KEY=VALUE` overrides that
+    /// name it applied (validated as the file is).
+    pub fn load_with(path: &Path, overrides: &Overrides) -> Result<Station, ConfigError> {
         let text = read_text(path)?;
-        Self::from_yaml(path, &text)
+        Self::from_yaml_with(path, &text, overrides)
     }
 
     /// Parse and validate station YAML text; `path` is used in messages.
     pub fn from_yaml(path: &Path, text: &str) -> Result<Station, ConfigError> {
-        let file: StationFile = parse_yaml(path, text)?;
-        let mut c = Checker::new(path, text);
+        Self::from_yaml_with(path, text, &Overrides::default())
+    }
+
+    /// [`Station::from_yaml`] with overrides.
+    pub fn from_yaml_with(
+        path: &Path,
+        text: &str,
+        overrides: &Overrides,
+    ) -> Result<Station, ConfigError> {
+        let applied = match overrides.is_empty() {
+            true => Vec::new(),
+            // The overrides that apply follow from the station's name in the file.
+            false => match parse_yaml::<NameOnly>(path, text) {
+                Ok(n) => overrides.station(n.name.trim()),
+                Err(_) => Vec::new(),
+            },
+        };
+        let file: StationFile = parse_with(path, text, &applied)?;
+        let mut c = Checker::new(path, text, &applied);
         if file.name.trim().is_empty() {
             return Err(c.err("name", "must not be empty"));
         }
@@ -221,6 +251,20 @@ impl Station {
             defaults: c.defaults,
         })
     }
+}
+
+/// Whether `given` (from the command line) names the station `name`: the same words, with case
+/// and every run of characters other than letters and digits ignored (`Pulau Reka`,
+/// `pulau-reka` and `PULAU_REKA` all name the station `Pulau Reka`).
+pub fn same_station(given: &str, name: &str) -> bool {
+    let words = |s: &str| {
+        s.split(|c: char| !c.is_alphanumeric())
+            .filter(|w| !w.is_empty())
+            .map(str::to_lowercase)
+            .collect::<Vec<_>>()
+    };
+    let g = words(given);
+    !g.is_empty() && g == words(name)
 }
 
 /// Horizon mask points `[azimuth_deg, elevation_deg]`, checked and sorted by azimuth.

@@ -60,6 +60,11 @@ pub struct Pass {
     pub aos: DateTime<Utc>,
     /// Time of maximum elevation within the pass.
     pub tca: DateTime<Utc>,
+    /// Time of maximum elevation of the whole pass: `tca`, except for a pass the window cuts
+    /// after (or before) its highest point, whose maximum is searched outside the window (up to
+    /// one orbital period; a satellite that stays in view that long keeps `tca`). It does not
+    /// change with the window, so it identifies the pass.
+    pub full_tca: DateTime<Utc>,
     /// Loss of signal: the satellite sets below the mask (or the window end).
     pub los: DateTime<Utc>,
     pub max_elevation_deg: f64,
@@ -573,6 +578,30 @@ impl Search<'_> {
         })
     }
 
+    /// The elevation maximum outside the window of a pass whose highest point inside lies at a
+    /// window edge (`edge`: elevation falling there at the start, rising at the end): walk away
+    /// from the window in steps of the cap until the elevation rate changes sign, then refine.
+    /// `None` after one orbital period or a propagation error (the pass keeps its in-window TCA;
+    /// an error outside the window does not stop the search inside it).
+    fn tca_beyond(&self, edge: Sample, lim: &SearchLimits) -> Option<Sample> {
+        let dir = if edge.look.elevation_rate_deg_s < 0.0 {
+            -1.0
+        } else {
+            1.0
+        };
+        let steps = (lim.horizon_s / 1.5 / lim.cap_s).ceil() as usize + 1;
+        let mut cur = edge;
+        for _ in 0..steps {
+            let nxt = self.eval(cur.t + dir * lim.cap_s).ok()?;
+            if dir * nxt.look.elevation_rate_deg_s <= 0.0 {
+                let (up, down) = if dir > 0.0 { (cur, nxt) } else { (nxt, cur) };
+                return self.refine_tca(up, down).ok();
+            }
+            cur = nxt;
+        }
+        None
+    }
+
     /// The pass entered at sample `s` (g > 0) from `prev`: AOS, walk to LOS, TCA, smallest
     /// range. Returns the pass and the sample to resume the search from.
     fn assemble_pass(
@@ -590,9 +619,16 @@ impl Search<'_> {
             walk.best
         };
         let min_range_km = self.min_range_km(aos_s, tca, walk.los_s)?;
+        let rate = tca.look.elevation_rate_deg_s;
+        let beyond = if (starts_before && rate < 0.0) || (walk.ends_after && rate > 0.0) {
+            self.tca_beyond(tca, lim)
+        } else {
+            None
+        };
         let pass = Pass {
             aos: add_seconds(&self.start, aos_t),
             tca: add_seconds(&self.start, tca.t),
+            full_tca: add_seconds(&self.start, beyond.map_or(tca.t, |b| b.t)),
             los: add_seconds(&self.start, walk.los_t),
             max_elevation_deg: tca.look.elevation_deg,
             aos_azimuth_deg: aos_s.look.azimuth_deg,

@@ -200,6 +200,18 @@ impl Planner {
         self.frequency_hz
     }
 
+    /// The passes a run plans, in its order (the 1-based pass number is the index + 1), with
+    /// their station index: the same search and the same propagation stop as [`Planner::run`],
+    /// without the budgets.
+    pub fn passes(&self) -> Result<Vec<(usize, Pass)>, PlanError> {
+        let propagator = Propagator::new(&self.elements).map_err(PlanError::Propagator)?;
+        let (mut found, stopped, _) = self.search(&propagator, None);
+        if let Some(s) = propagation_stop(&propagator, self.window.start(), &stopped) {
+            found.retain(|(_, p)| p.aos < s.time);
+        }
+        Ok(found)
+    }
+
     /// Plan every pass without a sink.
     pub fn collect(&self) -> Result<Plan, PlanError> {
         self.run(&Collect)

@@ -431,17 +431,19 @@ fn availability_weather_of(
 /// spectrum on this link and its C/N0 threshold (10 log10 R + required Eb/N0 + implementation
 /// loss + required margin). A BER figure at another BER than asked adds a warning (once).
 fn rate_option(
-    path: &std::path::Path,
+    at: &str,
     m: &ModemConfig,
     link: &LinkModel,
     rate_bps: f64,
     name: &str,
-    line: Option<usize>,
     warnings: &mut Vec<String>,
 ) -> Result<(RateOption, RateSpec), PrepareError> {
-    let idx = scheme_index(name).map_err(|e| model_err(path, line, e))?;
-    let op = operating_point(idx, Some(m.target_ber))
-        .map_err(|e| model_err(path, line, format!("{name}: {e}")))?;
+    let err = |message: String| PrepareError::Model {
+        file: at.to_string(),
+        message,
+    };
+    let idx = scheme_index(name).map_err(|e| err(e.to_string()))?;
+    let op = operating_point(idx, Some(m.target_ber)).map_err(|e| err(format!("{name}: {e}")))?;
     // FER/PER figures (AR4JA, DVB-S2) are for their own measure and are listed in the plan's
     // assumptions.
     if let (
@@ -459,7 +461,7 @@ fn rate_option(
     }
     let spec = link
         .rate_spec(rate_bps, op, m.roll_off, m.implementation_loss_db)
-        .map_err(|e| model_err(path, line, format!("{name} at {rate_bps} bit/s: {e}")))?;
+        .map_err(|e| err(format!("{name} at {rate_bps} bit/s: {e}")))?;
     let threshold_cn0_dbhz = crate::link::budget::threshold_cn0_dbhz(
         rate_bps,
         op.required_ebn0_db,
@@ -496,13 +498,15 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         ));
     }
     let mut warnings = Vec::new();
-    let mut option = |rate_bps: f64, name: &str, line: Option<usize>| {
-        rate_option(path, m, link, rate_bps, name, line, &mut warnings)
+    // Where an item came from: its line in the file, or the --set argument that gave it.
+    let at = |key: &str, line: Option<usize>| mission.origin(key, line);
+    let mut option = |rate_bps: f64, name: &str, at: String| {
+        rate_option(&at, m, link, rate_bps, name, &mut warnings)
     };
     let mut ladder = Vec::new();
     let mut ladder_specs = Vec::new();
     for st in &m.ladder {
-        let (o, s) = option(st.rate_bps, &st.scheme, st.line)?;
+        let (o, s) = option(st.rate_bps, &st.scheme, at("modem.ladder", st.line))?;
         ladder.push(o);
         ladder_specs.push(s);
     }
@@ -513,9 +517,13 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         .collect();
     if let Some(a) = &m.adaptive {
         for (name, line) in &a.schemes {
-            let idx = scheme_index(name).map_err(|e| model_err(path, *line, e))?;
+            let at = at("modem.adaptive.schemes", *line);
+            let idx = scheme_index(name).map_err(|e| PrepareError::Model {
+                file: at.clone(),
+                message: e.to_string(),
+            })?;
             let eta = crate::link::modcod::schemes()[idx].spectral_efficiency;
-            adaptive.push(option(a.symbol_rate_baud * eta, name, *line)?);
+            adaptive.push(option(a.symbol_rate_baud * eta, name, at)?);
         }
     }
     adaptive.sort_by(|x, y| {

@@ -23,6 +23,9 @@ use std::sync::Mutex;
 pub struct SunTransit {
     pub station_index: usize,
     pub pass_number: usize,
+    /// The pass's highest elevation over the whole pass ([`crate::geometry::Pass::full_tca`]),
+    /// which identifies it.
+    pub pass_tca: DateTime<Utc>,
     /// First and last step with the Sun's disk in the half-power beam.
     pub start: DateTime<Utc>,
     pub end: DateTime<Utc>,
@@ -98,12 +101,7 @@ impl PassSink for TransitSink {
             let j = (i..steps.len())
                 .find(|&k| !inside(&steps[k]))
                 .unwrap_or(steps.len());
-            found.push(transit(
-                p.station_index,
-                p.number,
-                &p.pass.aos,
-                &steps[i..j],
-            ));
+            found.push(transit(p, &steps[i..j]));
             i = j;
         }
         if !found.is_empty() {
@@ -115,20 +113,17 @@ impl PassSink for TransitSink {
 }
 
 /// The transit made of `run` (steps of one pass, all in the beam, at least one).
-fn transit(
-    station_index: usize,
-    pass_number: usize,
-    aos: &DateTime<Utc>,
-    run: &[Step],
-) -> SunTransit {
+fn transit(p: &super::PassPlan, run: &[Step]) -> SunTransit {
+    let aos = &p.pass.aos;
     let sep = |s: &Step| s.sun_separation_deg.unwrap_or(f64::INFINITY);
     let closest = run
         .iter()
         .min_by(|a, b| sep(a).total_cmp(&sep(b)))
         .unwrap_or(&run[0]);
     SunTransit {
-        station_index,
-        pass_number,
+        station_index: p.station_index,
+        pass_number: p.number,
+        pass_tca: p.pass.full_tca,
         start: add_seconds(aos, run[0].t_s),
         end: add_seconds(aos, run[run.len() - 1].t_s),
         closest: add_seconds(aos, closest.t_s),
@@ -242,6 +237,7 @@ mod tests {
         SunTransit {
             station_index,
             pass_number: 1,
+            pass_tca: t,
             start: t,
             end: t,
             closest: t,

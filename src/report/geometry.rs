@@ -14,6 +14,8 @@ pub struct PassRow {
     pub satellite: String,
     pub norad_id: u64,
     pub station: String,
+    /// The pass's identifier, the same whatever the window ([`crate::report::pass_id`]).
+    pub pass_id: String,
     pub aos: String,
     pub tca: String,
     pub los: String,
@@ -33,6 +35,7 @@ impl PassRow {
             satellite: satellite_name(set),
             norad_id: set.norad_id,
             station: station.to_string(),
+            pass_id: crate::report::pass_id(station, p),
             aos: format_ms(&p.aos),
             tca: format_ms(&p.tca),
             los: format_ms(&p.los),

@@ -4,6 +4,7 @@
 
 mod atomic;
 pub mod budget;
+pub mod compare;
 pub mod files;
 pub mod geometry;
 pub mod plan;
@@ -144,6 +145,19 @@ pub fn whole_opt<S: serde::Serializer>(x: &Option<f64>, s: S) -> Result<S::Ok, S
         Some(v) => whole(v, s),
         None => s.serialize_none(),
     }
+}
+
+/// The identifier of a pass that does not change with the window: the station's [`slug`] and
+/// the minute (UTC) of the pass's highest elevation, `nordkam-20261202T0111Z`. For a pass the
+/// window cuts, that is the highest point of the whole pass, outside the window if need be
+/// ([`crate::geometry::Pass::full_tca`]); the minute is cut, not rounded.
+pub fn pass_id(station: &str, pass: &crate::geometry::Pass) -> String {
+    pass_id_at(station, &pass.full_tca)
+}
+
+/// [`pass_id`] from the station's name and the pass's `full_tca`.
+pub fn pass_id_at(station: &str, full_tca: &chrono::DateTime<chrono::Utc>) -> String {
+    format!("{}-{}", slug(station), full_tca.format("%Y%m%dT%H%MZ"))
 }
 
 /// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).

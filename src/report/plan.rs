@@ -20,6 +20,8 @@ use serde::Serialize;
 #[derive(Debug, Clone, Serialize)]
 pub struct PlanPassRow {
     pub number: usize,
+    /// The pass's identifier, the same whatever the window ([`crate::report::pass_id`]).
+    pub pass_id: String,
     pub satellite: String,
     pub station: String,
     pub aos: String,
@@ -80,10 +82,12 @@ impl PlanPassRow {
         let o = chosen(rates, c);
         let rain = p.rain.as_ref();
         let rain_o = rain.and_then(|r| chosen(rates, r));
+        let station = &planner.stations()[p.station_index].station.name;
         PlanPassRow {
             number: p.number,
+            pass_id: crate::report::pass_id(station, &p.pass),
             satellite: satellite_name(planner.elements()),
-            station: planner.stations()[p.station_index].station.name.clone(),
+            station: station.clone(),
             aos: format_ms(&p.pass.aos),
             tca: format_ms(&p.pass.tca),
             los: format_ms(&p.pass.los),

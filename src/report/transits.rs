@@ -11,6 +11,8 @@ use serde::Serialize;
 pub struct TransitRow {
     pub station: String,
     pub pass: usize,
+    /// The pass's identifier ([`crate::report::pass_id`]).
+    pub pass_id: String,
     pub start: String,
     pub end: String,
     pub closest: String,
@@ -24,9 +26,11 @@ pub struct TransitRow {
 
 impl TransitRow {
     pub fn new(stations: &[StationModel], t: &SunTransit) -> Self {
+        let station = &stations[t.station_index].station.name;
         TransitRow {
-            station: stations[t.station_index].station.name.clone(),
+            station: station.clone(),
             pass: t.pass_number,
+            pass_id: crate::report::pass_id_at(station, &t.pass_tca),
             start: format_ms(&t.start),
             end: format_ms(&t.end),
             closest: format_ms(&t.closest),

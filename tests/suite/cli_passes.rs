@@ -81,7 +81,7 @@ fn passes_csv_has_one_header_row_and_mission_inputs_work() {
     // The caution first, as a comment line (every CSV carries it), then one header row.
     assert!(text.starts_with("# Planning estimates only"), "{text}");
     let mut lines = text.lines().filter(|l| !l.starts_with('#'));
-    assert_eq!(lines.next().unwrap(), "satellite,norad_id,station,aos,tca,los,duration_s,max_elevation_deg,aos_azimuth_deg,tca_azimuth_deg,los_azimuth_deg,min_range_km,starts_before_window,ends_after_window");
+    assert_eq!(lines.next().unwrap(), "satellite,norad_id,station,pass_id,aos,tca,los,duration_s,max_elevation_deg,aos_azimuth_deg,tca_azimuth_deg,los_azimuth_deg,min_range_km,starts_before_window,ends_after_window");
     assert!(lines.count() > 3);
 }
 

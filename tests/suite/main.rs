@@ -10,6 +10,7 @@ mod atmosphere_valex;
 mod body_track;
 mod chart_render;
 mod cli_budget;
+mod cli_options;
 mod cli_passes;
 mod fuzz_replay;
 mod geometry_skyfield;
