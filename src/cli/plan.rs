@@ -10,12 +10,12 @@ use anyhow::Result;
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
 use passbudget::engfmt;
-use passbudget::plan::summary::{tradeoff, usable_masks};
+use passbudget::plan::summary::tradeoff;
 use passbudget::plan::{Plan, Planner};
 use passbudget::report::files::{
     summary_json, write_summaries, ChartBytes, CsvSink, OutputRequest,
 };
-use passbudget::report::plan::{PlanDoc, TradeoffRow, UsableMaskRow};
+use passbudget::report::plan::{MaskFailureRow, PlanDoc, TradeoffRow, UsableMaskRow};
 use passbudget::report::{round, to_csv, CommitMode};
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
@@ -188,7 +188,7 @@ fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write
     print_passes(planner, plan, doc, out)?;
     print_days(doc, out)?;
     print_totals(planner, doc, out)?;
-    print_usable_masks(&doc.usable_masks, true, out)?;
+    print_usable_masks(&doc.usable_masks, &doc.mask_failures, out)?;
     writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
     Ok(())
 }
@@ -375,36 +375,61 @@ fn print_totals(planner: &Planner, doc: &PlanDoc, out: &mut dyn Write) -> Result
     Ok(())
 }
 
-/// The usable-mask table (`plan` with the passes-closing column, `mask` without).
-fn print_usable_masks(masks: &[UsableMaskRow], plan: bool, out: &mut dyn Write) -> Result<()> {
-    let mut cols = vec![
+/// The usable-mask table: per station and rate, the robust mask (closes on the configured share
+/// of passes above it), the strict one (every pass) and the passes closing at all; then the
+/// passes that fail above the robust mask, where and by how much.
+fn print_usable_masks(
+    masks: &[UsableMaskRow],
+    failures: &[MaskFailureRow],
+    out: &mut dyn Write,
+) -> Result<()> {
+    let share = masks.first().map_or(95.0, |m| m.mask_share_percent);
+    let robust_header = format!("usable mask ({share} %)");
+    let mut m = Table::new(&[
         ("station", Align::Left),
         ("rate", Align::Right),
         ("scheme", Align::Left),
-        ("usable mask", Align::Right),
-    ];
-    if plan {
-        cols.push(("passes closing", Align::Right));
-    }
-    let mut m = Table::new(&cols);
+        (robust_header.as_str(), Align::Right),
+        ("every pass", Align::Right),
+        ("passes closing", Align::Right),
+    ]);
+    let deg = |v: Option<f64>| {
+        v.map(|v| format!("{} deg", deg1(v)))
+            .unwrap_or_else(|| "never closes".into())
+    };
     for r in masks {
-        let mut cells = vec![
+        m.row(vec![
             r.station.clone(),
             engfmt::rate(r.rate_bps),
             r.scheme.clone(),
-            r.usable_mask_deg
-                .map(|v| format!("{} deg", deg1(v)))
-                .unwrap_or_else(|| "never closes".into()),
-        ];
-        if plan {
-            cells.push(format!("{} of {}", r.passes_closing, r.passes));
-        }
-        m.row(cells);
+            deg(r.robust_mask_deg),
+            deg(r.usable_mask_deg),
+            format!("{} of {}", r.passes_closing, r.passes),
+        ]);
     }
-    if plan {
-        writeln!(out, "Usable elevation mask per rate (the rate closes on every pass whenever the satellite is above it):")?;
-    }
+    writeln!(out, "Usable elevation mask per rate: the rate closes whenever the satellite is above it, on {share} % of the passes and on every pass:")?;
     write!(out, "{}", m.render())?;
+    if !failures.is_empty() {
+        writeln!(out, "Passes that fail above the {share} % mask (their highest step where the rate does not count):")?;
+        for f in failures {
+            let how = if f.margin_db < f.required_margin_db {
+                format!("misses by {:.2} dB", f.required_margin_db - f.margin_db)
+            } else {
+                "closes, but for less than the dwell time".into()
+            };
+            writeln!(
+                out,
+                "  {} {} {}: pass {} ({}) at {} el {} deg: {how}",
+                f.station,
+                engfmt::rate(f.rate_bps),
+                f.scheme,
+                f.pass,
+                f.pass_id,
+                &f.time[11..19],
+                deg1(f.elevation_deg)
+            )?;
+        }
+    }
     Ok(())
 }
 
@@ -428,19 +453,24 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
         a.mask_step_deg,
     );
     let rows = TradeoffRow::rows(&planner, &series);
-    let masks: Vec<UsableMaskRow> = usable_masks(masks_acc, planner.stations(), planner.rates())
+    // The same usable masks as `plan` (the planned passes, each with its own record).
+    let masks: Vec<UsableMaskRow> = plan
+        .usable_masks
         .iter()
         .map(|m| UsableMaskRow::new(&planner, m))
         .collect();
+    let failures = MaskFailureRow::rows(&planner, &plan, &plan.usable_masks);
     match a.format {
         Format::Json => {
             #[derive(Serialize)]
             struct Doc<'a> {
                 usable_masks: &'a [UsableMaskRow],
+                mask_failures: &'a [MaskFailureRow],
                 tradeoff: &'a [TradeoffRow],
             }
             let doc = Doc {
                 usable_masks: &masks,
+                mask_failures: &failures,
                 tradeoff: &rows,
             };
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
@@ -448,7 +478,7 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
         Format::Csv => write!(out, "{}", to_csv(&rows, &plan.warnings)?)?,
         Format::Table => {
             print_tradeoff(&planner, &series, out)?;
-            print_usable_masks(&masks, false, out)?;
+            print_usable_masks(&masks, &failures, out)?;
         }
     }
     Ok(())

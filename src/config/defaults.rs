@@ -58,6 +58,11 @@ const fn silent<T>(key: &'static str, value: T, source: &'static str) -> Default
 // ---- Mission file ------------------------------------------------------------------------------
 
 pub const STEP_S: DefaultValue<f64> = silent("planning.step_s", 1.0, "one budget step per second");
+pub const MASK_SHARE_PERCENT: DefaultValue<f64> = silent(
+    "planning.mask_share_percent",
+    95.0,
+    "a rate's usable mask holds on 95 % of passes",
+);
 pub const LINE_LOSS_DB: DefaultValue<f64> =
     silent("transmitter.line_loss_db", 0.0, "no loss given");
 pub const OTHER_LOSS_DB: DefaultValue<f64> =
@@ -183,6 +188,7 @@ mod tests {
         vec![
             (STEP_S, limits::STEP_S),
             (WINDOW_DAYS, limits::WINDOW_DAYS),
+            (MASK_SHARE_PERCENT, limits::MASK_SHARE_PERCENT),
             (SCINTILLATION_DIAMETER_M, limits::ANTENNA_DIAMETER_M),
             (SCINTILLATION_EFFICIENCY, limits::ANTENNA_EFFICIENCY),
             (POLARIZATION_TILT_DEG, limits::POLARIZATION_TILT_DEG),

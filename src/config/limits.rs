@@ -96,6 +96,14 @@ pub const EXCEEDANCE_PERCENT: Range = Range {
     unit: "%",
 };
 
+/// Share of a station's passes on which a rate must close above its usable mask, %.
+pub const MASK_SHARE_PERCENT: Range = Range {
+    key: "planning.mask_share_percent",
+    min: 50.0,
+    max: 100.0,
+    unit: "%",
+};
+
 /// Minimum elevation of a station or of a mask override, deg.
 pub const MIN_ELEVATION_DEG: Range = Range {
     key: "min_elevation_deg",
@@ -591,6 +599,7 @@ pub const ALL: &[Range] = &[
     STEP_S,
     WINDOW_DAYS,
     EXCEEDANCE_PERCENT,
+    MASK_SHARE_PERCENT,
     MIN_ELEVATION_DEG,
     FREQUENCY_MHZ,
     PLANNING_MASK_DEG,

@@ -50,6 +50,7 @@ struct PlanningFile {
     step_s: Option<f64>,
     exceedance_percent: Option<f64>,
     mask_deg: Option<f64>,
+    mask_share_percent: Option<f64>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -170,6 +171,8 @@ pub struct Mission {
     pub step_s: f64,
     pub exceedance_percent: Option<f64>,
     pub mask_deg: Option<f64>,
+    /// Share of passes on which a rate must close above its usable mask, % (the robust mask).
+    pub mask_share_percent: f64,
     pub transmitter: Option<TransmitterConfig>,
     pub modem: Option<ModemConfig>,
     pub defaults: Vec<DefaultUsed>,
@@ -222,6 +225,11 @@ impl Mission {
         let step_s = c.or_default(&limits::STEP_S, p.step_s, &dflt::STEP_S)?;
         let exceedance_percent = c.optional(&limits::EXCEEDANCE_PERCENT, p.exceedance_percent)?;
         let mask_deg = c.optional(&limits::PLANNING_MASK_DEG, p.mask_deg)?;
+        let mask_share_percent = c.or_default(
+            &limits::MASK_SHARE_PERCENT,
+            p.mask_share_percent,
+            &dflt::MASK_SHARE_PERCENT,
+        )?;
         let transmitter = file
             .transmitter
             .as_ref()
@@ -240,6 +248,7 @@ impl Mission {
             step_s,
             exceedance_percent,
             mask_deg,
+            mask_share_percent,
             transmitter,
             modem,
             defaults: c.defaults,

@@ -9,6 +9,17 @@
 pub const MAX_MASK_DEG: usize = 40;
 const BINS: usize = MAX_MASK_DEG + 1;
 
+/// The highest step of a pass at which a rate did not count: where the pass fails the rate.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct OpenStep {
+    pub elevation_deg: f64,
+    /// Seconds from the pass's AOS.
+    pub t_s: f64,
+    /// The rate's margin at that step, dB (at or above the required margin when the step closed
+    /// but its run was shorter than the dwell time).
+    pub margin_db: f64,
+}
+
 /// Accumulators for the mask trade-off and the usable mask, one set per station.
 #[derive(Debug, Clone, PartialEq)]
 pub struct MaskAccumulator {
@@ -18,6 +29,8 @@ pub struct MaskAccumulator {
     pub volume_bins_bits: Vec<[f64; BINS]>,
     /// Per option: highest elevation seen where the option did not close (deg), or -inf.
     pub highest_open_elevation_deg: Vec<f64>,
+    /// Per option: that step (of the pass; merged accumulators keep the highest).
+    pub highest_open_step: Vec<Option<OpenStep>>,
     /// Per option: number of passes in which it closed at all.
     pub passes_closing: Vec<usize>,
     pub passes: usize,
@@ -29,6 +42,7 @@ impl MaskAccumulator {
             contact_bins_s: [0.0; BINS],
             volume_bins_bits: vec![[0.0; BINS]; options],
             highest_open_elevation_deg: vec![f64::NEG_INFINITY; options],
+            highest_open_step: vec![None; options],
             passes_closing: vec![0; options],
             passes: 0,
         }
@@ -43,7 +57,7 @@ impl MaskAccumulator {
         }
     }
 
-    /// Add one step: its elevation, weight and, per option, whether it closed (kept run).
+    /// Add one step's contact: its elevation and weight.
     #[inline]
     pub fn add_contact(&mut self, elevation_deg: f64, weight_s: f64) {
         if let Some(b) = Self::bin(elevation_deg) {
@@ -51,6 +65,8 @@ impl MaskAccumulator {
         }
     }
 
+    /// Add one step of one option: whether it counted (a kept run); `open` gives the step's time
+    /// from AOS and the option's margin, asked only for a step higher than any open one before.
     #[inline]
     pub fn add_option(
         &mut self,
@@ -59,6 +75,7 @@ impl MaskAccumulator {
         elevation_deg: f64,
         weight_s: f64,
         closed: bool,
+        open: impl FnOnce() -> (f64, f64),
     ) {
         if closed {
             if let Some(b) = Self::bin(elevation_deg) {
@@ -66,6 +83,12 @@ impl MaskAccumulator {
             }
         } else if elevation_deg > self.highest_open_elevation_deg[option] {
             self.highest_open_elevation_deg[option] = elevation_deg;
+            let (t_s, margin_db) = open();
+            self.highest_open_step[option] = Some(OpenStep {
+                elevation_deg,
+                t_s,
+                margin_db,
+            });
         }
     }
 
@@ -77,8 +100,10 @@ impl MaskAccumulator {
             for (mine, theirs) in self.volume_bins_bits[k].iter_mut().zip(v) {
                 *mine += theirs;
             }
-            self.highest_open_elevation_deg[k] =
-                self.highest_open_elevation_deg[k].max(other.highest_open_elevation_deg[k]);
+            if other.highest_open_elevation_deg[k] > self.highest_open_elevation_deg[k] {
+                self.highest_open_elevation_deg[k] = other.highest_open_elevation_deg[k];
+                self.highest_open_step[k] = other.highest_open_step[k];
+            }
             self.passes_closing[k] += other.passes_closing[k];
         }
         self.passes += other.passes;
@@ -117,7 +142,7 @@ mod tests {
         let mut m = MaskAccumulator::new(1);
         for (el, closed) in [(2.5, false), (10.2, true), (45.0, true), (12.0, true)] {
             m.add_contact(el, 1.0);
-            m.add_option(0, 100.0, el, 1.0, closed);
+            m.add_option(0, 100.0, el, 1.0, closed, || (0.0, -1.0));
         }
         m.passes_closing[0] = 1;
         assert_eq!(m.contact_above_s(0), 4.0);

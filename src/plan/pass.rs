@@ -135,7 +135,10 @@ impl Scratch {
                     r += 1;
                 }
                 let closed = r < self.runs.len() && self.runs[r].0 <= i;
-                acc.add_option(k, o.rate_bps, st.elevation_deg, st.weight_s, closed);
+                let cn0 = self.cn0[i];
+                acc.add_option(k, o.rate_bps, st.elevation_deg, st.weight_s, closed, || {
+                    (st.t_s, o.margin_db(cn0))
+                });
             }
         }
         acc

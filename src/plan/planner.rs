@@ -338,7 +338,13 @@ impl Planner {
             self.window.days(),
         );
         let days = summary::days(&passes, &self.window, self.rain.is_some());
-        let usable_masks = summary::usable_masks(&station_masks, &self.stations, &self.rates);
+        let usable_masks = summary::usable_masks(
+            &station_masks,
+            &passes,
+            &self.stations,
+            &self.rates,
+            self.mission.mask_share_percent,
+        );
         let warnings = self.warnings(&passes, &stopped, stop.as_ref());
         let notes = selection_note(&self.elements, &self.selection)
             .into_iter()

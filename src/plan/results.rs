@@ -267,9 +267,23 @@ pub struct UsableMask {
     /// Lowest elevation at which this rate closes on every pass whenever the satellite is above it;
     /// `None` if it never closes.
     pub usable_mask_deg: Option<f64>,
+    /// Lowest elevation above which it closes on the configured share of passes
+    /// (`planning.mask_share_percent`); `None` if it never closes.
+    pub robust_mask_deg: Option<f64>,
+    /// The passes on which it fails above the robust mask: where, and by how much.
+    pub failures: Vec<MaskFailure>,
     pub station_mask_deg: f64,
     pub passes: usize,
     pub passes_closing: usize,
+}
+
+/// A pass on which a rate does not count above its robust mask: the highest such step.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MaskFailure {
+    pub pass_number: usize,
+    pub station_index: usize,
+    pub time: DateTime<Utc>,
+    pub step: super::mask::OpenStep,
 }
 
 /// What a trade-off or a total covers: one station, or every station together.

@@ -5,8 +5,8 @@ use super::mask::{MaskAccumulator, MAX_MASK_DEG};
 use super::prepare::{RateSet, StationModel};
 use super::rate::OptionId;
 use super::results::{
-    DayTotals, ModeResult, NetworkTotal, OptionSeries, PassPlan, RainTotals, Scope, Totals,
-    TradeoffSeries, UsableMask, SUN_DEGRADED_RISE_DB,
+    DayTotals, MaskFailure, ModeResult, NetworkTotal, OptionSeries, PassPlan, RainTotals, Scope,
+    Totals, TradeoffSeries, UsableMask, SUN_DEGRADED_RISE_DB,
 };
 use super::window::Window;
 use chrono::NaiveDate;
@@ -101,21 +101,32 @@ pub fn days(p: &[PassPlan], window: &Window, rain_planned: bool) -> Vec<DayTotal
     by_day.into_values().collect()
 }
 
-/// Usable masks per station and ladder rate, from the per-station mask accumulators.
+/// Usable masks per station and ladder rate, from the per-station mask accumulators: the strict
+/// mask (the rate closes on every pass above it) and, from `passes` (the planned passes, each
+/// with its own accumulator), the robust mask: the lowest elevation above which the rate closes
+/// on at least `share_percent` % of the station's passes, with the passes that fail above it.
 pub fn usable_masks(
     masks: &[MaskAccumulator],
+    passes: &[PassPlan],
     stations: &[StationModel],
     rates: &RateSet,
+    share_percent: f64,
 ) -> Vec<UsableMask> {
     let mut rows = Vec::new();
     for (i, st) in stations.iter().enumerate() {
         let acc = &masks[i];
         let station_mask = st.configured_min_elevation_deg;
+        let own: Vec<&PassPlan> = passes.iter().filter(|p| p.station_index == i).collect();
         for k in 0..rates.ladder.len() {
+            let usable_mask_deg = acc.usable_mask_deg(k, station_mask);
+            // a rate that never closes has no mask to fail above
+            let robust = usable_mask_deg.and(robust_mask(&own, k, share_percent, station_mask));
             rows.push(UsableMask {
                 station_index: i,
                 option: OptionId(k),
-                usable_mask_deg: acc.usable_mask_deg(k, station_mask),
+                usable_mask_deg,
+                robust_mask_deg: robust.as_ref().map(|r| r.0),
+                failures: robust.map(|r| r.1).unwrap_or_default(),
                 station_mask_deg: station_mask,
                 passes: acc.passes,
                 passes_closing: acc.passes_closing[k],
@@ -123,6 +134,51 @@ pub fn usable_masks(
         }
     }
     rows
+}
+
+/// The resolution of the robust mask, deg.
+pub const ROBUST_MASK_STEP_DEG: f64 = 0.1;
+
+/// The robust mask of ladder option `k` over one station's passes and the passes failing above
+/// it; `None` without passes. A pass fails above elevation M when its highest step where the
+/// rate does not count lies above M; the robust mask is the lowest M (not below the station's
+/// mask) that at least `share_percent` % of the passes do not fail above, rounded up to
+/// [`ROBUST_MASK_STEP_DEG`] (so a pass that opens the rate a hundredth of a degree above its
+/// neighbours is not listed as failing).
+fn robust_mask(
+    passes: &[&PassPlan],
+    k: usize,
+    share_percent: f64,
+    station_mask_deg: f64,
+) -> Option<(f64, Vec<MaskFailure>)> {
+    if passes.is_empty() {
+        return None;
+    }
+    let mut highest: Vec<f64> = passes
+        .iter()
+        .map(|p| p.mask.highest_open_elevation_deg[k])
+        .collect();
+    highest.sort_by(f64::total_cmp);
+    // the smallest count of passes that makes the share, at least one
+    let need = ((share_percent / 100.0 * passes.len() as f64) - 1e-9)
+        .ceil()
+        .max(1.0) as usize;
+    let quantile = highest[need.min(highest.len()) - 1];
+    let mask_deg =
+        ((quantile / ROBUST_MASK_STEP_DEG).ceil() * ROBUST_MASK_STEP_DEG).max(station_mask_deg);
+    let failures = passes
+        .iter()
+        .filter_map(|p| {
+            let step = p.mask.highest_open_step[k]?;
+            (step.elevation_deg > mask_deg).then_some(MaskFailure {
+                pass_number: p.number,
+                station_index: p.station_index,
+                time: crate::timefmt::add_seconds(&p.pass.aos, step.t_s),
+                step,
+            })
+        })
+        .collect();
+    Some((mask_deg, failures))
 }
 
 /// The mask trade-off for each station and for all stations together, masks 0..=40 deg in

@@ -230,6 +230,57 @@ pub struct UsableMaskRow {
     pub station_mask_deg: f64,
     pub passes: usize,
     pub passes_closing: usize,
+    /// Lowest elevation above which it closes on `mask_share_percent` % of the passes; null if it never closes.
+    pub robust_mask_deg: Option<f64>,
+    pub mask_share_percent: f64,
+    /// How many passes fail above the robust mask (listed in the JSON's `mask_failures`).
+    pub passes_failing: usize,
+}
+
+/// A pass on which a rate fails above its robust mask: where, and by how much.
+#[derive(Debug, Clone, Serialize)]
+pub struct MaskFailureRow {
+    pub station: String,
+    #[serde(serialize_with = "crate::report::whole")]
+    pub rate_bps: f64,
+    pub scheme: String,
+    pub pass: usize,
+    pub pass_id: String,
+    /// The highest step of the pass where the rate does not count.
+    pub time: String,
+    pub elevation_deg: f64,
+    /// The rate's margin there, dB; below `required_margin_db` it misses by the difference (at
+    /// or above it, the step closed but its run was shorter than the dwell time).
+    pub margin_db: f64,
+    pub required_margin_db: f64,
+}
+
+impl MaskFailureRow {
+    /// The rows of every usable mask's failures, in the order of the masks.
+    pub fn rows(planner: &Planner, plan: &Plan, masks: &[UsableMask]) -> Vec<Self> {
+        let mut out = Vec::new();
+        for m in masks {
+            let o = &planner.rates().ladder[m.option.0];
+            let station = &planner.stations()[m.station_index].station.name;
+            for f in &m.failures {
+                let pass = plan.passes.iter().find(|p| p.number == f.pass_number);
+                out.push(MaskFailureRow {
+                    station: station.clone(),
+                    rate_bps: o.rate_bps,
+                    scheme: o.scheme.clone(),
+                    pass: f.pass_number,
+                    pass_id: pass
+                        .map(|p| crate::report::pass_id(station, &p.pass))
+                        .unwrap_or_default(),
+                    time: format_ms(&f.time),
+                    elevation_deg: round(f.step.elevation_deg, 3),
+                    margin_db: round(f.step.margin_db, 3),
+                    required_margin_db: planner.rates().required_margin_db,
+                });
+            }
+        }
+        out
+    }
 }
 
 impl UsableMaskRow {
@@ -243,6 +294,9 @@ impl UsableMaskRow {
             station_mask_deg: m.station_mask_deg,
             passes: m.passes,
             passes_closing: m.passes_closing,
+            robust_mask_deg: m.robust_mask_deg.map(|v| round(v, 2)),
+            mask_share_percent: planner.mission().mask_share_percent,
+            passes_failing: m.failures.len(),
         }
     }
 }
@@ -536,6 +590,8 @@ pub struct PlanDoc {
     pub totals: TotalsRow,
     pub days: Vec<DayRow>,
     pub usable_masks: Vec<UsableMaskRow>,
+    /// The passes on which a rate fails above its robust mask (see `usable_masks`).
+    pub mask_failures: Vec<MaskFailureRow>,
     pub assumptions: Assumptions,
 }
 
@@ -555,6 +611,7 @@ impl PlanDoc {
                 .iter()
                 .map(|m| UsableMaskRow::new(planner, m))
                 .collect(),
+            mask_failures: MaskFailureRow::rows(planner, plan, &plan.usable_masks),
             assumptions: Assumptions::new(planner, plan),
         }
     }
