@@ -192,7 +192,7 @@ fn print_budget(doc: &BudgetDoc, out: &mut dyn Write) -> Result<()> {
         doc.shannon_gap_db
     )?;
     print_defaults(&doc.defaults, out)?;
-    writeln!(out, "Planning estimate only; see the README for cautions.")?;
+    writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
     Ok(())
 }
 
@@ -256,7 +256,10 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
                 &doc.warnings
             )?
         )?,
-        Format::Table => print_atmosphere(&doc, out)?,
+        Format::Table => {
+            print_atmosphere(&doc, out)?;
+            writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
+        }
     }
     Ok(())
 }

@@ -98,7 +98,10 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
                 .collect();
             write!(out, "{}", to_csv(&cmp.passes, &warnings)?)?
         }
-        Format::Table => print_comparison(&runs, &cmp, out)?,
+        Format::Table => {
+            print_comparison(&runs, &cmp, out)?;
+            writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
+        }
     }
     Ok(())
 }

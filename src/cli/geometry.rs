@@ -311,10 +311,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                 format_ms(&r.window.end())
             )?;
             write!(out, "{}", t.render())?;
-            writeln!(
-                out,
-                "Planning estimates only; see the README for accuracy and cautions."
-            )?;
+            writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
         }
     }
     Ok(())
@@ -418,6 +415,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
                 ]);
             }
             write!(out, "{}", t.render())?;
+            writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
         }
     }
     Ok(())

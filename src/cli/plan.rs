@@ -479,6 +479,7 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
         Format::Table => {
             print_tradeoff(&planner, &series, out)?;
             print_usable_masks(&masks, &failures, out)?;
+            writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
         }
     }
     Ok(())

@@ -59,7 +59,10 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
         Format::Csv => write!(out, "{}", to_csv(&rows, &plan.warnings)?)?,
-        Format::Table => print_table(&rows, seasons.as_deref(), out)?,
+        Format::Table => {
+            print_table(&rows, seasons.as_deref(), out)?;
+            writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
+        }
     }
     Ok(())
 }

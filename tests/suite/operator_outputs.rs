@@ -336,3 +336,53 @@ fn the_robust_mask_holds_on_its_share_of_passes() {
         &["planning.mask_share_percent", "40"],
     );
 }
+
+/// Every table output ends with the one caution line (planning estimates; licence and
+/// coordination), and every CSV starts with it.
+#[test]
+fn every_table_and_csv_carries_the_caution() {
+    let m = "examples/wrenlet-1.yaml";
+    let runs: [&[&str]; 8] = [
+        &["plan", m, "--days", "0.3"],
+        &["mask", m, "--days", "0.3"],
+        &["passes", m, "--days", "0.3", "--format", "table"],
+        &[
+            "track",
+            m,
+            "--station",
+            "Nordkam",
+            "--days",
+            "0.01",
+            "--format",
+            "table",
+        ],
+        &["budget", m, "--station", "Nordkam", "--elevation-deg", "20"],
+        &[
+            "atmosphere",
+            "--station",
+            "stations/nordkam.yaml",
+            "--frequency-mhz",
+            "8212.5",
+            "--elevation-deg",
+            "20",
+        ],
+        &["sun-transits", m, "--days", "0.3"],
+        &["compare", m, "--days", "0.3"],
+    ];
+    for args in runs {
+        let text = success(&run(&[args, &["--quiet"]].concat()));
+        assert!(
+            text.trim_end()
+                .ends_with("coordination by the national administration."),
+            "{args:?}: {text}"
+        );
+        let mut csv_args = args.to_vec();
+        csv_args.retain(|a| *a != "table" && *a != "--format");
+        csv_args.extend(["--format", "csv", "--quiet"]);
+        let text = success(&run(&csv_args));
+        assert!(
+            text.starts_with("# Planning estimates only"),
+            "{csv_args:?}: {text}"
+        );
+    }
+}
