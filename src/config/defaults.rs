@@ -58,6 +58,16 @@ const fn silent<T>(key: &'static str, value: T, source: &'static str) -> Default
 // ---- Mission file ------------------------------------------------------------------------------
 
 pub const STEP_S: DefaultValue<f64> = silent("planning.step_s", 1.0, "one budget step per second");
+pub const HYSTERESIS_DB: DefaultValue<f64> = reported(
+    "modem.adaptive.hysteresis_db",
+    0.5,
+    "common practice: a switch up needs half a dB more than the threshold",
+);
+pub const RELOCK_S: DefaultValue<f64> = reported(
+    "modem.adaptive.relock_s",
+    1.0,
+    "common practice for a receiver that re-acquires frame lock after a change of scheme",
+);
 pub const MASK_SHARE_PERCENT: DefaultValue<f64> = silent(
     "planning.mask_share_percent",
     95.0,
@@ -189,6 +199,8 @@ mod tests {
             (STEP_S, limits::STEP_S),
             (WINDOW_DAYS, limits::WINDOW_DAYS),
             (MASK_SHARE_PERCENT, limits::MASK_SHARE_PERCENT),
+            (HYSTERESIS_DB, limits::HYSTERESIS_DB),
+            (RELOCK_S, limits::RELOCK_S),
             (SCINTILLATION_DIAMETER_M, limits::ANTENNA_DIAMETER_M),
             (SCINTILLATION_EFFICIENCY, limits::ANTENNA_EFFICIENCY),
             (POLARIZATION_TILT_DEG, limits::POLARIZATION_TILT_DEG),

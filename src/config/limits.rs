@@ -264,6 +264,22 @@ pub const RATE_BPS: Range = Range {
 };
 
 /// Symbol rate of the adaptive mode, baud.
+/// Extra margin before the adaptive modem switches up, dB.
+pub const HYSTERESIS_DB: Range = Range {
+    key: "modem.adaptive.hysteresis_db",
+    min: 0.0,
+    max: 10.0,
+    unit: "dB",
+};
+
+/// Data lost at each change of scheme while the receiver re-locks, s.
+pub const RELOCK_S: Range = Range {
+    key: "modem.adaptive.relock_s",
+    min: 0.0,
+    max: 600.0,
+    unit: "s",
+};
+
 pub const SYMBOL_RATE_BAUD: Range = Range {
     key: "modem.adaptive.symbol_rate_baud",
     min: 1.0,
@@ -620,6 +636,8 @@ pub const ALL: &[Range] = &[
     MIN_DWELL_S,
     RATE_BPS,
     SYMBOL_RATE_BAUD,
+    HYSTERESIS_DB,
+    RELOCK_S,
     LATITUDE_DEG,
     LONGITUDE_DEG,
     ALTITUDE_M,

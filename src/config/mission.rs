@@ -110,6 +110,9 @@ struct LadderStepFile {
 struct AdaptiveFile {
     symbol_rate_baud: f64,
     schemes: Vec<String>,
+    hysteresis_db: Option<f64>,
+    relock_s: Option<f64>,
+    with_ladder: Option<bool>,
 }
 
 /// Spacecraft transmitter, validated. The pattern is the link model's own: the file gives no
@@ -139,6 +142,12 @@ pub struct LadderStep {
 pub struct AdaptiveConfig {
     pub symbol_rate_baud: f64,
     pub schemes: Vec<(String, Option<usize>)>,
+    /// Extra margin a higher scheme needs before the modem switches up to it, dB.
+    pub hysteresis_db: f64,
+    /// Data lost at each change of scheme while the receiver re-locks, s.
+    pub relock_s: f64,
+    /// Also switch among the fixed ladder's rates (a second waveform; off by default).
+    pub with_ladder: bool,
 }
 
 /// Modem, validated.
@@ -494,7 +503,7 @@ fn ladder(c: &Checker, steps: &[LadderStepFile]) -> Result<Vec<LadderStep>, Conf
 }
 
 /// The adaptive (variable coding and modulation) block: at least one scheme, none twice.
-fn adaptive(c: &Checker, a: &AdaptiveFile) -> Result<AdaptiveConfig, ConfigError> {
+fn adaptive(c: &mut Checker, a: &AdaptiveFile) -> Result<AdaptiveConfig, ConfigError> {
     const KEY: &str = "modem.adaptive.schemes";
     let symbol_rate_baud = c.range(&limits::SYMBOL_RATE_BAUD, a.symbol_rate_baud)?;
     if a.schemes.is_empty() {
@@ -508,9 +517,18 @@ fn adaptive(c: &Checker, a: &AdaptiveFile) -> Result<AdaptiveConfig, ConfigError
         }
         schemes.push((s.clone(), c.item_line(KEY, i)));
     }
+    let hysteresis_db = c.or_default(
+        &limits::HYSTERESIS_DB,
+        a.hysteresis_db,
+        &dflt::HYSTERESIS_DB,
+    )?;
+    let relock_s = c.or_default(&limits::RELOCK_S, a.relock_s, &dflt::RELOCK_S)?;
     Ok(AdaptiveConfig {
         symbol_rate_baud,
         schemes,
+        hysteresis_db,
+        relock_s,
+        with_ladder: a.with_ladder.unwrap_or(false),
     })
 }
 

@@ -335,8 +335,14 @@ fn mode_result(
 ) -> ModeResult {
     let rates = planner.rates();
     let fixed = choose_fixed(cn0, weights, &rates.ladder, rates.min_dwell_s);
-    let adaptive_volume_bits =
-        adaptive_schedule(cn0, weights, &rates.adaptive, rates.min_dwell_s, schedule);
+    let adaptive_volume_bits = adaptive_schedule(
+        cn0,
+        weights,
+        &rates.adaptive,
+        rates.min_dwell_s,
+        rates.switching(),
+        schedule,
+    );
     let shown = fixed.option.unwrap_or_else(|| rates.lowest_threshold().0);
     let o = &rates.ladder[shown];
     let max_ebn0_db = cn0

@@ -369,6 +369,7 @@ impl Planner {
             usable_masks,
             warnings,
             rain_planned: self.rain.is_some(),
+            adaptive_dominates: self.rates.adaptive_dominates(),
             window: self.window,
         }
     }

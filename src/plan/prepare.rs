@@ -86,7 +86,9 @@ pub struct RateSet {
     /// The fixed-rate ladder, in file order.
     pub ladder: Vec<RateOption>,
     pub ladder_specs: Vec<RateSpec>,
-    /// Options of the adaptive mode: every ladder rate and every adaptive scheme, sorted by rate.
+    /// Options of the adaptive mode, sorted by rate: the adaptive block's schemes at its symbol
+    /// rate (one waveform, as a real ACM/VCM modem); the ladder's rates too only with
+    /// `modem.adaptive.with_ladder`; the ladder alone without an adaptive block.
     pub adaptive: Vec<RateOption>,
     pub adaptive_specs: Vec<RateSpec>,
     /// Bandwidth for Shannon's bound: `modem.max_bandwidth_hz`, else the widest option, Hz.
@@ -94,11 +96,35 @@ pub struct RateSet {
     pub required_margin_db: f64,
     pub implementation_loss_db: f64,
     pub min_dwell_s: f64,
+    /// Extra margin before the adaptive mode switches up, dB (0 without an adaptive block).
+    pub hysteresis_db: f64,
+    /// Data lost at each change of the adaptive scheme, s (0 without an adaptive block).
+    pub relock_s: f64,
     /// Notes on the thresholds (e.g. a scheme whose figure is for another error rate than asked).
     pub warnings: Vec<String>,
 }
 
 impl RateSet {
+    /// Whether the adaptive volume is at least the fixed-rate volume by construction: every
+    /// ladder rate is an adaptive option and switching costs nothing (no hysteresis, no re-lock).
+    pub fn adaptive_dominates(&self) -> bool {
+        self.hysteresis_db == 0.0
+            && self.relock_s == 0.0
+            && self.ladder.iter().all(|l| {
+                self.adaptive.iter().any(|a| {
+                    a.rate_bps == l.rate_bps && a.threshold_cn0_dbhz <= l.threshold_cn0_dbhz
+                })
+            })
+    }
+
+    /// How the adaptive mode switches.
+    pub fn switching(&self) -> super::rate::Switching {
+        super::rate::Switching {
+            hysteresis_db: self.hysteresis_db,
+            relock_s: self.relock_s,
+        }
+    }
+
     /// The ladder option with the lowest C/N0 threshold (the first of equals): the rate the
     /// per-step Eb/N0 and margin are shown for when no rate closes.
     pub fn lowest_threshold(&self) -> (usize, &RateOption) {
@@ -510,11 +536,17 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         ladder.push(o);
         ladder_specs.push(s);
     }
-    let mut adaptive: Vec<(RateOption, RateSpec)> = ladder
-        .iter()
-        .cloned()
-        .zip(ladder_specs.iter().cloned())
-        .collect();
+    // The ladder switches adaptively only without an adaptive block, or when asked to.
+    let union = m.adaptive.as_ref().is_none_or(|a| a.with_ladder);
+    let mut adaptive: Vec<(RateOption, RateSpec)> = if union {
+        ladder
+            .iter()
+            .cloned()
+            .zip(ladder_specs.iter().cloned())
+            .collect()
+    } else {
+        Vec::new()
+    };
     if let Some(a) = &m.adaptive {
         for (name, line) in &a.schemes {
             let at = at("modem.adaptive.schemes", *line);
@@ -546,6 +578,8 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
         required_margin_db: m.required_margin_db,
         implementation_loss_db: m.implementation_loss_db,
         min_dwell_s: m.min_dwell_s,
+        hysteresis_db: m.adaptive.as_ref().map_or(0.0, |a| a.hysteresis_db),
+        relock_s: m.adaptive.as_ref().map_or(0.0, |a| a.relock_s),
         warnings,
     })
 }

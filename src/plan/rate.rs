@@ -164,43 +164,82 @@ pub fn choose_fixed(
     }
 }
 
-/// Adaptive schedule: at each step the highest-rate option whose kept run covers the step.
-/// `schedule` receives one entry per step (`None` where nothing closes); returns the volume in bits.
+/// How the adaptive modem switches: the extra margin a switch up needs, and the data lost at
+/// each change of scheme.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Switching {
+    /// A higher-rate option is taken only where C/N0 passes its threshold by this much, dB.
+    pub hysteresis_db: f64,
+    /// After each change of scheme (not the first lock of a run), this many seconds carry no data.
+    pub relock_s: f64,
+}
+
+/// Adaptive schedule, as a modem with hysteresis would run it. The link is up on the kept runs
+/// (at least `min_dwell_s`) of the option with the lowest threshold; within a run the modem starts
+/// on the highest-rate option that closes with `hysteresis_db` to spare (else the lowest), steps
+/// down at once to the highest-rate option that still closes when the current one stops closing,
+/// and steps up to the highest-rate option that closes with `hysteresis_db` to spare. Each change
+/// costs `relock_s` of data. With no hysteresis and no re-lock time this is, at every step, the
+/// highest-rate option that closes, so the volume is at least every option's fixed-rate volume.
+/// `schedule` receives one entry per step (`None` where the link is down); returns the volume in
+/// bits.
 pub fn adaptive_schedule(
     cn0_dbhz: &[f64],
     weights_s: &[f64],
     options: &[RateOption],
     min_dwell_s: f64,
+    switching: Switching,
     schedule: &mut Vec<Option<u16>>,
 ) -> f64 {
     schedule.clear();
     schedule.resize(cn0_dbhz.len(), None);
+    let Some(lowest) = (0..options.len()).min_by(|&a, &b| {
+        options[a]
+            .threshold_cn0_dbhz
+            .total_cmp(&options[b].threshold_cn0_dbhz)
+    }) else {
+        return 0.0;
+    };
+    // the highest-rate option closing at `cn0` with `spare` dB to spare
+    let best = |cn0: f64, spare: f64| {
+        (0..options.len())
+            .filter(|&k| cn0 >= options[k].threshold_cn0_dbhz + spare)
+            .max_by(|&a, &b| options[a].rate_bps.total_cmp(&options[b].rate_bps))
+    };
     let mut runs = Vec::new();
-    for (k, o) in options.iter().enumerate() {
-        kept_runs(
-            cn0_dbhz,
-            weights_s,
-            o.threshold_cn0_dbhz,
-            min_dwell_s,
-            &mut runs,
-        );
-        for &(a, b) in &runs {
-            for s in &mut schedule[a..=b] {
-                let better = match *s {
-                    None => true,
-                    Some(j) => o.rate_bps > options[j as usize].rate_bps,
-                };
-                if better {
-                    *s = Some(k as u16);
+    kept_runs(
+        cn0_dbhz,
+        weights_s,
+        options[lowest].threshold_cn0_dbhz,
+        min_dwell_s,
+        &mut runs,
+    );
+    let mut volume = 0.0;
+    for &(a, b) in &runs {
+        let mut current = best(cn0_dbhz[a], switching.hysteresis_db).unwrap_or(lowest);
+        let mut relock_left_s = 0.0;
+        for i in a..=b {
+            let c = cn0_dbhz[i];
+            let next = if c < options[current].threshold_cn0_dbhz {
+                best(c, 0.0).unwrap_or(lowest)
+            } else {
+                match best(c, switching.hysteresis_db) {
+                    Some(k) if options[k].rate_bps > options[current].rate_bps => k,
+                    _ => current,
                 }
+            };
+            if next != current {
+                current = next;
+                relock_left_s = switching.relock_s;
             }
+            let w = weights_s[i];
+            let counted_s = (w - relock_left_s).max(0.0);
+            relock_left_s = (relock_left_s - w).max(0.0);
+            volume += options[current].rate_bps * counted_s;
+            schedule[i] = Some(current as u16);
         }
     }
-    schedule
-        .iter()
-        .zip(weights_s)
-        .map(|(s, w)| s.map(|k| options[k as usize].rate_bps * w).unwrap_or(0.0))
-        .sum()
+    volume
 }
 
 /// Number of scheme changes in an adaptive schedule (entering or leaving "no link" not counted).
@@ -252,11 +291,52 @@ mod tests {
         let options = [opt(1e6, 72.0), opt(10e6, 82.0), opt(40e6, 89.5)];
         let fixed = choose_fixed(&cn0, &w, &options, 10.0);
         let mut sched = Vec::new();
-        let adaptive = adaptive_schedule(&cn0, &w, &options, 10.0, &mut sched);
+        let free = Switching {
+            hysteresis_db: 0.0,
+            relock_s: 0.0,
+        };
+        let adaptive = adaptive_schedule(&cn0, &w, &options, 10.0, free, &mut sched);
         for v in &fixed.volume_by_option_bits {
             assert!(adaptive >= *v);
         }
         assert_eq!(switch_count(&sched), 4);
+    }
+
+    /// A C/N0 that wobbles by 0.2 dB around a threshold: without hysteresis the modem switches
+    /// at every wobble; with 0.5 dB it stays on the lower option; each switch costs the re-lock
+    /// time (the volume drops by exactly relock x the rate switched to, per switch).
+    #[test]
+    fn hysteresis_stops_switching_on_a_wobble_and_relock_costs_data() {
+        let cn0: Vec<f64> = (0..200)
+            .map(|i| if i % 20 < 10 { 82.1 } else { 81.9 })
+            .collect();
+        let w = vec![1.0; 200];
+        let options = [opt(1e6, 72.0), opt(10e6, 82.0)];
+        let mut sched = Vec::new();
+        let free = Switching {
+            hysteresis_db: 0.0,
+            relock_s: 0.0,
+        };
+        let v0 = adaptive_schedule(&cn0, &w, &options, 10.0, free, &mut sched);
+        let switches = switch_count(&sched);
+        assert_eq!(switches, 19);
+        let costly = Switching {
+            hysteresis_db: 0.0,
+            relock_s: 2.0,
+        };
+        let v1 = adaptive_schedule(&cn0, &w, &options, 10.0, costly, &mut sched);
+        // 10 switches down (1 Mbit/s) and 9 up (10 Mbit/s), 2 s each
+        assert!(
+            (v0 - v1 - 2.0 * (10.0 * 1e6 + 9.0 * 10e6)).abs() < 1e-3,
+            "{v0} {v1}"
+        );
+        let steady = Switching {
+            hysteresis_db: 0.5,
+            relock_s: 2.0,
+        };
+        let v2 = adaptive_schedule(&cn0, &w, &options, 10.0, steady, &mut sched);
+        assert_eq!(switch_count(&sched), 0);
+        assert_eq!(v2, 200.0 * 1e6);
     }
 
     #[test]

@@ -197,6 +197,9 @@ pub struct Plan {
     pub notes: Vec<String>,
     /// The availability (rain) case was planned.
     pub rain_planned: bool,
+    /// The adaptive mode can use every ladder rate with no hysteresis and no re-lock time, so
+    /// its volume is at least the fixed rate's on every pass ([`super::prepare::RateSet::adaptive_dominates`]).
+    pub adaptive_dominates: bool,
     pub window: Window,
 }
 

@@ -3,7 +3,8 @@
 //! window of 0.25-2 days starting within three days of the element epoch, a step of 1-5 s.
 //!
 //! Library: no panic, every number of the plan finite, and per pass fixed <= adaptive <= Shannon
-//! (the adaptive modem may use every ladder rate, DEVELOPERS.md; no coded rate beats Shannon's
+//! (the random missions give the adaptive modem every ladder rate and free switching,
+//! `with_ladder`, no hysteresis or re-lock time, DEVELOPERS.md; no coded rate beats Shannon's
 //! capacity, C. E. Shannon, "A Mathematical Theory of Communication", 1948, theorem 17). The
 //! checks are `passbudget::plan::fuzz_entry::plan_violations`, the ones the `plan` fuzz target
 //! asserts; `plan_violations_flags_a_broken_plan` shows they can fail.
@@ -152,7 +153,7 @@ fn mission_yaml(m: &MissionParams) -> String {
         .map(|(i, r)| format!("    - {{ rate_bps: {r}, scheme: {} }}\n", schemes[i % 3]))
         .collect();
     let adaptive = if m.adaptive {
-        "  adaptive:\n    symbol_rate_baud: 20.0e6\n    schemes: [dvbs2-qpsk-1/4, dvbs2-qpsk-1/2, dvbs2-8psk-2/3, dvbs2-16apsk-3/4]\n"
+        "  adaptive:\n    symbol_rate_baud: 20.0e6\n    schemes: [dvbs2-qpsk-1/4, dvbs2-qpsk-1/2, dvbs2-8psk-2/3, dvbs2-16apsk-3/4]\n    with_ladder: true\n    hysteresis_db: 0\n    relock_s: 0\n"
     } else {
         ""
     };
