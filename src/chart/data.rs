@@ -89,16 +89,21 @@ pub struct SkyPoint {
     pub margin_db: Option<f64>,
 }
 
-/// One pass drawn on the sky chart. AOS, TCA and LOS labels go at the first point, the
-/// highest point and the last point.
+/// One pass drawn on the sky chart. AOS, TCA and LOS markers go at the first point, the
+/// highest point and the last point; the track carries `label` beside its highest point, and the
+/// table beside the chart lists the label with the times, the maximum elevation and the rate.
 #[derive(Debug, Clone, PartialEq)]
 pub struct SkyPass {
-    /// Short label, e.g. `03 10:42Z`.
+    /// Short track label, the pass number, e.g. `16`.
     pub label: String,
     pub points: Vec<SkyPoint>,
     pub aos: DateTime<Utc>,
     pub tca: DateTime<Utc>,
     pub los: DateTime<Utc>,
+    pub max_elevation_deg: f64,
+    /// The fixed rate whose margin colours the track; `None` when no rate closes (the track's
+    /// margin is then that of the ladder rate with the lowest threshold).
+    pub rate_bps: Option<f64>,
 }
 
 /// A polar sky chart of one station: horizon mask and one or more pass tracks.

@@ -5,6 +5,7 @@
 
 use super::{
     mask_file_name, pass_file_name, save_mask, save_pass, save_sky, save_summary, sky_file_name,
+    sky_pass_file_name,
     summary_file_name, ChartError, ChartFormat, DayTotals, MaskChartData, MaskRateSeries,
     PassChartData, PassChartSample, SkyChartData, SkyPass, SkyPoint, SummaryBar, SummaryChartData,
 };
@@ -195,11 +196,13 @@ fn sky_charts(
                 .entry((x.station_index, x.pass.aos.date_naive()))
                 .or_default()
                 .push(SkyPass {
-                    label: format!("#{:03}", x.number),
+                    label: x.number.to_string(),
                     points: points.clone(),
                     aos: x.pass.aos,
                     tca: x.pass.tca,
                     los: x.pass.los,
+                    max_elevation_deg: x.pass.max_elevation_deg,
+                    rate_bps: x.clear.option.map(|k| planner.rates().ladder[k.0].rate_bps),
                 });
         }
     }
@@ -221,7 +224,13 @@ fn sky_charts(
                 required_margin_db: planner.rates().required_margin_db,
                 passes,
             };
-            let path = dir.join(sky_file_name(&st.station.name, day, sink.format));
+            // One pass alone (`chart --pass N`) gets its own name: the day's chart of every pass
+            // keeps its file.
+            let name = match sink.only {
+                Some(n) => sky_pass_file_name(&st.station.name, day, n, sink.format),
+                None => sky_file_name(&st.station.name, day, sink.format),
+            };
+            let path = dir.join(name);
             save_sky(&data, &path, sink.format)?;
             Ok(path)
         })

@@ -88,6 +88,40 @@ pub fn note_font(color: RGBColor) -> TextStyle<'static> {
     (FONT, NOTE_PX).into_font().color(&color)
 }
 
+/// Height of one footer line (the caution under every chart), pixels.
+pub const FOOTER_LINE_PX: u32 = 22;
+
+/// Break `text` at spaces into lines no wider than `max_px` in `font` (a word longer than a line
+/// stands alone).
+pub fn wrap_text<DB: DrawingBackend>(
+    area: &DrawingArea<DB, plotters::coord::Shift>,
+    text: &str,
+    font: &TextStyle,
+    max_px: u32,
+) -> Result<Vec<String>, ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    let mut lines: Vec<String> = Vec::new();
+    let mut cur = String::new();
+    for word in text.split_whitespace() {
+        let candidate = if cur.is_empty() {
+            word.to_string()
+        } else {
+            format!("{cur} {word}")
+        };
+        if !cur.is_empty() && area.estimate_text_size(&candidate, font)?.0 > max_px {
+            lines.push(std::mem::replace(&mut cur, word.to_string()));
+        } else {
+            cur = candidate;
+        }
+    }
+    if !cur.is_empty() {
+        lines.push(cur);
+    }
+    Ok(lines)
+}
+
 /// A line look: colour, width and an optional dash pattern (dash, gap) in pixels.
 #[derive(Debug, Clone, Copy)]
 pub struct Stroke {
