@@ -318,6 +318,19 @@ pub fn draw_legend<DB: DrawingBackend>(
 where
     DB::ErrorType: 'static,
 {
+    draw_legend_spaced(area, title, entries, 10)
+}
+
+/// [`draw_legend`] with `gap` pixels between entries (a short panel takes 3).
+pub fn draw_legend_spaced<DB: DrawingBackend>(
+    area: &DrawingArea<DB, plotters::coord::Shift>,
+    title: Option<&str>,
+    entries: &[(Key, String)],
+    gap: i32,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
     let line_h = 22;
     let mut y = 8;
     if let Some(t) = title {
@@ -374,7 +387,7 @@ where
                 )),
             ))?;
         }
-        y += line_h * label.split('\n').count() as i32 + 10;
+        y += line_h * label.split('\n').count() as i32 + gap;
     }
     Ok(())
 }
