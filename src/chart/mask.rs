@@ -55,7 +55,11 @@ impl Plot for MaskChartData {
 
 /// The distinct finite configured masks, rising.
 fn mask_groups(masks: &[(String, f64)]) -> Vec<f64> {
-    let mut v: Vec<f64> = masks.iter().map(|(_, m)| *m).filter(|m| m.is_finite()).collect();
+    let mut v: Vec<f64> = masks
+        .iter()
+        .map(|(_, m)| *m)
+        .filter(|m| m.is_finite())
+        .collect();
     v.sort_by(f64::total_cmp);
     v.dedup();
     v

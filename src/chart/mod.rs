@@ -92,7 +92,12 @@ where
     root.fill(&WHITE)?;
     let (w, h) = root.dim_in_pixel();
     let font = style::note_font(style::MUTED);
-    let lines = style::wrap_text(root, crate::report::plan::CAUTION, &font, w.saturating_sub(60))?;
+    let lines = style::wrap_text(
+        root,
+        crate::report::plan::CAUTION,
+        &font,
+        w.saturating_sub(60),
+    )?;
     let footer_h = (lines.len() as u32 * style::FOOTER_LINE_PX + 14).min(h / 4);
     let (body, footer) = root.split_vertically(h - footer_h);
     chart.plot(&body)?;
@@ -147,7 +152,7 @@ pub fn save_pass(data: &PassChartData, path: &Path, format: ChartFormat) -> Resu
     save(path, &draw_pass(data, format)?)
 }
 
-/// Draw the sky track chart (1000x1000).
+/// Draw the sky track chart (1400x1000).
 pub fn draw_sky(data: &SkyChartData, format: ChartFormat) -> Result<Vec<u8>, ChartError> {
     render(data, format)
 }

@@ -166,6 +166,8 @@ fn vline(t: f64, y: (f64, f64)) -> Vec<(f64, f64)> {
 }
 
 const TCA_STROKE: Stroke = Stroke::dashed(style::SLATE, 1, 4, 4);
+/// The rain case, the same look in every panel (amber: no other series of those panels uses it).
+const RAIN_STROKE: Stroke = Stroke::dashed(style::AMBER, 3, 12, 5);
 
 fn panel_geometry<DB: DrawingBackend>(
     d: &PassChartData,
@@ -418,7 +420,7 @@ where
         ),
     );
     if d.samples.iter().any(|s| s.rain.is_some()) {
-        let rs = Stroke::dashed(style::PLUM, 3, 12, 5);
+        let rs = RAIN_STROKE;
         stroke_line!(
             chart,
             draw_series,
@@ -509,10 +511,7 @@ where
         marked = true;
     }
     if marked {
-        keys.push((
-            Key::Line(mark),
-            "fixed rate closes from/until".into(),
-        ));
+        keys.push((Key::Line(mark), "fixed rate closes from/until".into()));
     } else {
         let msg = if d.rate_bps.is_none() {
             "no ladder rate closes on this pass"
@@ -574,7 +573,12 @@ where
         .label_style(style::tick_font())
         .draw()?;
     if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
-        stroke_line!(chart, draw_series, vline(c.tca_s, (0.0, rate_hi)), TCA_STROKE);
+        stroke_line!(
+            chart,
+            draw_series,
+            vline(c.tca_s, (0.0, rate_hi)),
+            TCA_STROKE
+        );
     }
     let mut steps = Vec::with_capacity(2 * d.samples.len());
     let mut fixed = Vec::with_capacity(2 * d.samples.len());
@@ -596,7 +600,7 @@ where
     }
     let fx = Stroke::solid(style::NAVY, 5);
     stroke_line!(chart, draw_series, fixed, fx);
-    let ad = Stroke::dashed(style::AMBER, 3, 12, 5);
+    let ad = Stroke::dashed(style::PLUM, 3, 12, 5);
     stroke_line!(chart, draw_series, steps, ad);
     let fixed_label = match d.rate_bps {
         Some(r) => format!("fixed rate {}\n(seconds it counts)", style::format_rate(r)),
@@ -686,7 +690,7 @@ where
         keys.push((Key::Line(stroke), label.to_string()));
     }
     if d.samples.iter().any(|s| s.rain.is_some()) {
-        let rs = Stroke::dashed(style::PLUM, 3, 12, 5);
+        let rs = RAIN_STROKE;
         stroke_line!(
             chart,
             draw_series,

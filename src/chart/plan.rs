@@ -5,9 +5,9 @@
 
 use super::{
     mask_file_name, pass_file_name, save_mask, save_pass, save_sky, save_summary, sky_file_name,
-    sky_pass_file_name,
-    summary_file_name, ChartError, ChartFormat, DayTotals, MaskChartData, MaskRateSeries,
-    PassChartData, PassChartRain, PassChartSample, SkyChartData, SkyPass, SkyPoint, SummaryBar, SummaryChartData,
+    sky_pass_file_name, summary_file_name, ChartError, ChartFormat, DayTotals, MaskChartData,
+    MaskRateSeries, PassChartData, PassChartRain, PassChartSample, SkyChartData, SkyPass, SkyPoint,
+    SummaryBar, SummaryChartData,
 };
 use crate::plan::inputs::satellite_name;
 use crate::plan::summary::tradeoff;
@@ -278,11 +278,7 @@ fn mask_charts(
             .map(|o| {
                 let option = &ladder[o.option.0];
                 MaskRateSeries {
-                    label: format!(
-                        "{} {}",
-                        crate::engfmt::rate(option.rate_bps),
-                        option.scheme
-                    ),
+                    label: format!("{} {}", crate::engfmt::rate(option.rate_bps), option.scheme),
                     volume_bits_per_day: o.values.clone(),
                 }
             })

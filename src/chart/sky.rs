@@ -364,7 +364,13 @@ where
     for (n, at) in tops {
         let text = d.passes[n].label.clone();
         let (tw, th) = plot_area.estimate_text_size(&text, &font)?;
-        let b = place_label(at, (tw as i32 + 8, th as i32 + 4), bounds, &track_px, &placed);
+        let b = place_label(
+            at,
+            (tw as i32 + 8, th as i32 + 4),
+            bounds,
+            &track_px,
+            &placed,
+        );
         placed.push(b);
         plot_area.draw(&Rectangle::new([(b.0, b.1), (b.2, b.3)], WHITE.filled()))?;
         plot_area.draw(&Rectangle::new(

@@ -272,7 +272,9 @@ where
         (style::NAVY, "fixed rate (sum\nover stations)".into(), |t| {
             Some(t.fixed_bits)
         }),
-        (style::AMBER, "adaptive rate".into(), |t| Some(t.adaptive_bits)),
+        (style::AMBER, "adaptive rate".into(), |t| {
+            Some(t.adaptive_bits)
+        }),
     ];
     if has_network {
         kinds.push((
@@ -286,11 +288,9 @@ where
             .rain_exceedance_percent
             .map(|p| format!(" ({p} %)"))
             .unwrap_or_default();
-        kinds.push((
-            style::PLUM,
-            format!("fixed rate, rain\ncase{pct}"),
-            |t| t.rain_bits,
-        ));
+        kinds.push((style::PLUM, format!("fixed rate, rain\ncase{pct}"), |t| {
+            t.rain_bits
+        }));
     }
     let max_bits = d
         .days
@@ -444,12 +444,10 @@ where
             let px = style::rel(&area_px, chart.backend_coord(p));
             style::draw_marker(&area_px, MarkerShape::series(k), px, 5, s.color)?;
         }
-        keys.push((Key::LineMarker(s, MarkerShape::series(k)), label.to_string()));
+        keys.push((
+            Key::LineMarker(s, MarkerShape::series(k)),
+            label.to_string(),
+        ));
     }
-    style::draw_legend_spaced(
-        &legend,
-        Some("Share of Shannon's bound"),
-        &keys,
-        4,
-    )
+    style::draw_legend_spaced(&legend, Some("Share of Shannon's bound"), &keys, 4)
 }
