@@ -403,7 +403,9 @@ where
             .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), v| {
                 (a.min(v), b.max(v))
             });
-        if lo.is_finite() {
+        if lo.is_finite() && format!("{lo:.1}") == format!("{hi:.1}") {
+            format!("{lo:.1} dB")
+        } else if lo.is_finite() {
             format!("{lo:.1}–{hi:.1} dB")
         } else {
             "n/a".into()
