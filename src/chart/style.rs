@@ -542,9 +542,11 @@ pub fn deg_or_na(v: f64) -> String {
     }
 }
 
-/// Tick step choices for UTC time axes, seconds.
-const TIME_STEPS_S: [i64; 16] = [
+/// Tick step choices for UTC time axes, seconds (up to 4, 7, 14, 28, 56, 112, 224 and 448 days,
+/// so a month, a year or the longest window of 3660 days keeps its date labels apart).
+const TIME_STEPS_S: [i64; 24] = [
     10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200, 10800, 21600, 43200, 86400, 172800,
+    345600, 604800, 1209600, 2419200, 4838400, 9676800, 19353600, 38707200,
 ];
 
 /// Ticks for a UTC time axis whose coordinate is seconds since `origin` over `[lo_s, hi_s]`:
@@ -615,6 +617,20 @@ mod tests {
         assert_eq!(ticks[0], 43.0);
         assert_eq!(ticks.len(), 10);
         assert_eq!(time_label(&aos, ticks[0], step, false), "01:24");
+    }
+
+    #[test]
+    fn long_windows_get_few_date_ticks() {
+        let start = crate::timefmt::utc(2026, 12, 1, 12, 0, 0);
+        for days in [30.0, 365.0, 3660.0] {
+            let (step, ticks) = time_ticks(&start, 0.0, days * 86400.0, 10);
+            assert!(
+                step >= 86400 && ticks.len() <= 12,
+                "{days} d: {step} s, {ticks:?}"
+            );
+        }
+        // 30 days: a tick every 4 days
+        assert_eq!(time_ticks(&start, 0.0, 30.0 * 86400.0, 10).0, 345600);
     }
 
     #[test]

@@ -325,17 +325,32 @@ where
     // Days the window covers only in part: shaded, with their hours, so a short day does not
     // read as a drop.
     let mut any_partial = false;
+    let slot_px = chart.plotting_area().dim_in_pixel().0 as f64 / n as f64;
+    let note = style::note_font(style::INK);
     for i in (0..d.days.len()).filter(|&i| axis.partial(i)) {
         any_partial = true;
         chart.draw_series(std::iter::once(Rectangle::new(
             [(i as f64, 0.0), (i as f64 + 1.0, y_hi)],
             style::TERRAIN.mix(0.45).filled(),
         )))?;
-        chart.draw_series(std::iter::once(Text::new(
-            format!("partial day: {:.1} h", axis.window_h[i]),
-            (i as f64 + 0.5, y_hi),
-            style::note_font(style::INK).pos(Pos::new(HPos::Center, VPos::Top)),
-        )))?;
+        // The longest text that fits the day's slot (the legend explains the shading).
+        let hours = axis.window_h[i];
+        let texts = [
+            format!("partial day: {hours:.1} h"),
+            format!("{hours:.0} h"),
+        ];
+        let fits = |t: &String| {
+            plot.estimate_text_size(t, &note)
+                .map(|(tw, _)| (tw as f64) < slot_px - 4.0)
+                .unwrap_or(false)
+        };
+        if let Some(text) = texts.into_iter().find(fits) {
+            chart.draw_series(std::iter::once(Text::new(
+                text,
+                (i as f64 + 0.5, y_hi),
+                note.clone().pos(Pos::new(HPos::Center, VPos::Top)),
+            )))?;
+        }
     }
     let bar_w = 0.76 / kinds.len() as f64;
     for (i, t) in d.days.iter().enumerate() {
