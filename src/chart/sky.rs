@@ -403,6 +403,12 @@ where
     if no_budget {
         entries.push((Key::Line(bin_stroke(Bin::NoData)), "no budget".into()));
     }
+    if d.passes.iter().any(|p| p.rate_bps.is_none()) {
+        entries.push((
+            Key::Blank,
+            "\"none closes\": margin at the\nlowest-threshold rate".into(),
+        ));
+    }
     entries.extend([
         (Key::Band(style::TERRAIN, 1.0), "below horizon mask".into()),
         (Key::Blank, "AOS ●   TCA ◆   LOS ■".into()),

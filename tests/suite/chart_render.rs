@@ -690,6 +690,8 @@ fn sky_legend_lists_no_budget_only_when_drawn() {
     }
     let svg = svg_text(draw_sky(&d, ChartFormat::Svg).unwrap());
     assert!(!svg.contains("no budget"));
+    // every pass of the sample has a rate: no note on passes without one
+    assert!(!svg.contains("none closes"));
     // each track is numbered on the sky and in the table, without AOS/LOS time labels on the sky
     for p in &d.passes {
         assert!(
@@ -699,6 +701,11 @@ fn sky_legend_lists_no_budget_only_when_drawn() {
         );
     }
     assert!(!svg.contains("AOS 0") && !svg.contains("LOS 0"));
+    // a pass without a closing rate: the table and the legend say which margin its track shows
+    d.passes[1].rate_bps = None;
+    let svg = svg_text(draw_sky(&d, ChartFormat::Svg).unwrap());
+    assert!(svg.contains("none closes"));
+    assert!(svg.contains("lowest-threshold rate"));
 }
 
 /// A rate that never closes (every value 0) says so in the legend instead of hiding on the zero
