@@ -212,20 +212,12 @@ pub fn sky_file_name(station: &str, day: NaiveDate, format: ChartFormat) -> Stri
     )
 }
 
-/// The sky chart of one pass (`chart --pass N`): `sky-sierra-baja-20261202-pass-016.png`, so it
-/// never replaces the day's chart of every pass ([`sky_file_name`]).
-pub fn sky_pass_file_name(
-    station: &str,
-    day: NaiveDate,
-    pass_number: usize,
-    format: ChartFormat,
-) -> String {
-    format!(
-        "sky-{}-{}-pass-{pass_number:03}.{}",
-        style::slug(station),
-        day.format("%Y%m%d"),
-        format.extension()
-    )
+/// The sky chart of one pass (`chart --pass ID`), named by the pass's identifier
+/// ([`crate::report::pass_id`], which does not change with the window):
+/// `sky-sierra-baja-20261202T0854Z.png`, so it never replaces the day's chart of every pass
+/// ([`sky_file_name`]).
+pub fn sky_pass_file_name(pass_id: &str, format: ChartFormat) -> String {
+    format!("sky-{pass_id}.{}", format.extension())
 }
 
 /// `mask-sierra-baja.png`, `mask-network.png`
@@ -267,8 +259,8 @@ mod tests {
             "sky-sierra-baja-20261202.svg"
         );
         assert_eq!(
-            sky_pass_file_name("Sierra Baja", day, 16, ChartFormat::Png),
-            "sky-sierra-baja-20261202-pass-016.png"
+            sky_pass_file_name("sierra-baja-20261202T0854Z", ChartFormat::Png),
+            "sky-sierra-baja-20261202T0854Z.png"
         );
         assert_eq!(
             mask_file_name("network", ChartFormat::Png),

@@ -241,10 +241,16 @@ fn sky_charts(
                 required_margin_db: planner.rates().required_margin_db,
                 passes,
             };
-            // One pass alone (`chart --pass N`) gets its own name: the day's chart of every pass
-            // keeps its file.
-            let name = match sink.only {
-                Some(n) => sky_pass_file_name(&st.station.name, day, n, sink.format),
+            // One pass alone (`chart --pass ID`) gets its own name, from the pass's identifier:
+            // the day's chart of every pass keeps its file.
+            let one = sink
+                .only
+                .and_then(|n| plan.passes.iter().find(|x| x.number == n));
+            let name = match one {
+                Some(x) => sky_pass_file_name(
+                    &crate::report::pass_id(&st.station.name, &x.pass),
+                    sink.format,
+                ),
                 None => sky_file_name(&st.station.name, day, sink.format),
             };
             let path = dir.join(name);

@@ -785,8 +785,8 @@ fn summary_marks_partial_days() {
     assert!(!svg.contains("network") && !svg.contains("rain"));
 }
 
-/// `chart --pass N` writes its one-pass sky chart under its own name and leaves the day's sky
-/// chart of every pass as `plan --charts` wrote it (it used to overwrite it).
+/// `chart --pass ID` writes its one-pass sky chart under the pass's identifier and leaves the
+/// day's sky chart of every pass as `plan --charts` wrote it (it used to overwrite it).
 #[test]
 fn chart_of_one_pass_keeps_the_days_sky_chart() {
     use crate::common::bin::{run, success};
@@ -800,16 +800,21 @@ fn chart_of_one_pass_keeps_the_days_sky_chart() {
     let day = NaiveDate::from_ymd_opt(2026, 12, 1).unwrap();
     let days_chart = out.join(sky_file_name("Nordkam", day, ChartFormat::Png));
     let before = std::fs::read(&days_chart).unwrap();
-    // pass 3 is Nordkam's first pass of the day (the README's table)
-    success(&run(&[
-        "chart", mission, "--days", "1", "--out", &o, "--pass", "3", "--kind", "sky",
-    ]));
-    assert_eq!(std::fs::read(&days_chart).unwrap(), before);
-    let one = out.join(sky_pass_file_name("Nordkam", day, 3, ChartFormat::Png));
-    assert_eq!(
-        one.file_name().unwrap().to_string_lossy(),
-        "sky-nordkam-20261201-pass-003.png"
-    );
-    let (w, h, _, _) = png_stats(&std::fs::read(&one).unwrap());
-    assert_eq!((w, h), SKY_SIZE);
+    let one_name = "sky-nordkam-20261201T1852Z.png";
+    // pass 3 is Nordkam's first pass of the day (AOS 18:49:37, LOS 18:54:59: the README's table);
+    // by its number and by its identifier
+    for pass in ["3", "nordkam-20261201T1852Z"] {
+        success(&run(&[
+            "chart", mission, "--days", "1", "--out", &o, "--pass", pass, "--kind", "sky",
+        ]));
+        assert_eq!(std::fs::read(&days_chart).unwrap(), before);
+        let one = out.join(one_name);
+        assert_eq!(
+            sky_pass_file_name("nordkam-20261201T1852Z", ChartFormat::Png),
+            one_name
+        );
+        let (w, h, _, _) = png_stats(&std::fs::read(&one).unwrap());
+        assert_eq!((w, h), SKY_SIZE);
+        std::fs::remove_file(&one).unwrap();
+    }
 }
