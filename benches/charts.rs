@@ -52,6 +52,7 @@ fn synthetic_pass() -> PassChartData {
         satellite: "KESTREL-7 (synthetic)".into(),
         station: "Sierra Baja".into(),
         pass_number: 3,
+        pass_id: "sierra-baja-20261202T0129Z".into(),
         aos,
         tca: aos + Duration::seconds(400),
         los: aos + Duration::seconds(800),

@@ -71,6 +71,9 @@ pub struct PassChartData {
     pub satellite: String,
     pub station: String,
     pub pass_number: usize,
+    /// The pass's identifier, which does not change with the window
+    /// ([`crate::report::pass_id`], e.g. `sierra-baja-20261202T0854Z`); empty when none.
+    pub pass_id: String,
     pub aos: DateTime<Utc>,
     pub tca: DateTime<Utc>,
     pub los: DateTime<Utc>,

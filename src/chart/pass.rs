@@ -39,8 +39,13 @@ impl Plot for PassChartData {
 }
 
 fn title_lines(d: &PassChartData) -> (String, String) {
+    let id = if d.pass_id.is_empty() {
+        String::new()
+    } else {
+        format!(" ({})", d.pass_id)
+    };
     let line1 = format!(
-        "{} over {} · pass {} · {}",
+        "{} over {} · pass {}{id} · {}",
         d.satellite,
         d.station,
         d.pass_number,

@@ -134,6 +134,7 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
         satellite: satellite_name(planner.elements()),
         station: planner.stations()[plan.station_index].station.name.clone(),
         pass_number: plan.number,
+        pass_id: crate::report::pass_id(&st.station.name, &plan.pass),
         aos: plan.pass.aos,
         tca: plan.pass.tca,
         los: plan.pass.los,

@@ -96,6 +96,10 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
         satellite: "KESTREL-7 (synthetic)".into(),
         station: "Sierra Baja".into(),
         pass_number,
+        pass_id: format!(
+            "sierra-baja-{}",
+            (aos + Duration::seconds(half as i64)).format("%Y%m%dT%H%MZ")
+        ),
         aos,
         tca: at(half),
         los: at(dur),
@@ -186,7 +190,10 @@ fn pass_svg_has_labels() {
     dump("pass.svg", svg.as_bytes());
     assert!(svg.starts_with("<svg"));
     for needle in [
-        "KESTREL-7 (synthetic) over Sierra Baja · pass 3 · 2026-12-02",
+        &format!(
+            "KESTREL-7 (synthetic) over Sierra Baja · pass 3 ({}) · 2026-12-02",
+            d.pass_id
+        ),
         "25 Mbit/s ccsds-rs-cc",
         "Elevation (deg)",
         "Slant range (km)",
