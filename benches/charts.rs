@@ -39,6 +39,12 @@ fn synthetic_pass() -> PassChartData {
                 moon_noise_k: 0.0,
                 receiver_noise_k: 70.0,
                 atmospheric_loss_db: 0.3 + 6.0 * x.powi(8),
+                mask_elevation_deg: 5.0,
+                rain: Some(PassChartRain {
+                    ebn0_db: ebn0 - 1.5,
+                    system_temperature_k: 125.0 + 150.0 * x * x * x * x,
+                    atmospheric_loss_db: 1.3 + 6.0 * x.powi(8),
+                }),
             }
         })
         .collect();
@@ -46,6 +52,7 @@ fn synthetic_pass() -> PassChartData {
         satellite: "KESTREL-7 (synthetic)".into(),
         station: "Sierra Baja".into(),
         pass_number: 3,
+        pass_id: "sierra-baja-20261202T0129Z".into(),
         aos,
         tca: aos + Duration::seconds(400),
         los: aos + Duration::seconds(800),
@@ -58,6 +65,9 @@ fn synthetic_pass() -> PassChartData {
         required_margin_db: 3.0,
         closes_from: Some(aos + Duration::seconds(150)),
         closes_until: Some(aos + Duration::seconds(650)),
+        rain_exceedance_percent: Some(1.0),
+        rain_rate_bps: Some(25e6),
+        rain_volume_bits: Some(25e6 * 400.0),
         samples,
     }
 }
@@ -65,7 +75,7 @@ fn synthetic_pass() -> PassChartData {
 fn synthetic_sky(p: &PassChartData) -> SkyChartData {
     let passes = (0..4)
         .map(|k| SkyPass {
-            label: format!("{:02} 01:23Z", k + 1),
+            label: format!("{}", k + 1),
             points: p
                 .samples
                 .iter()
@@ -78,6 +88,8 @@ fn synthetic_sky(p: &PassChartData) -> SkyChartData {
             aos: p.aos,
             tca: p.tca,
             los: p.los,
+            max_elevation_deg: 60.0 / (k + 1) as f64,
+            rate_bps: Some(25e6),
         })
         .collect();
     SkyChartData {
@@ -109,7 +121,7 @@ fn synthetic_mask() -> MaskChartData {
             })
             .collect(),
         masks_deg: masks,
-        configured_mask_deg: 10.0,
+        configured_masks_deg: vec![("Sierra Baja".into(), 10.0), ("Punta Lenga".into(), 5.0)],
     }
 }
 
@@ -130,6 +142,8 @@ fn synthetic_summary(p: &PassChartData) -> SummaryChartData {
             fixed_bits: 300e9,
             adaptive_bits: 420e9,
             shannon_bits: 700e9,
+            network_bits: Some(280e9),
+            rain_bits: Some(250e9),
         })
         .collect();
     SummaryChartData {
@@ -143,6 +157,7 @@ fn synthetic_summary(p: &PassChartData) -> SummaryChartData {
         ],
         passes,
         days,
+        rain_exceedance_percent: Some(1.0),
     }
 }
 
@@ -163,7 +178,7 @@ fn bench(c: &mut Criterion) {
     let summary = synthetic_summary(&d);
     let mut g = c.benchmark_group("other_charts_png");
     g.sample_size(10);
-    g.bench_function("sky_1000x1000", |b| {
+    g.bench_function("sky_1400x1000", |b| {
         b.iter(|| draw_sky(&sky, ChartFormat::Png).unwrap())
     });
     g.bench_function("mask_1600x1000", |b| {

@@ -49,6 +49,20 @@ pub struct PassChartSample {
     pub moon_noise_k: f64,
     pub receiver_noise_k: f64,
     pub atmospheric_loss_db: f64,
+    /// The station's mask at the satellite's azimuth (the larger of the minimum elevation and
+    /// the horizon mask), deg.
+    pub mask_elevation_deg: f64,
+    /// Availability (rain) case at the same rate as `ebn0_db`, when planned: Eb/N0 (dB), system
+    /// noise temperature (K) and atmospheric loss (dB).
+    pub rain: Option<PassChartRain>,
+}
+
+/// The availability (rain) case at one instant of a pass.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct PassChartRain {
+    pub ebn0_db: f64,
+    pub system_temperature_k: f64,
+    pub atmospheric_loss_db: f64,
 }
 
 /// Everything the pass chart shows about one pass.
@@ -57,6 +71,9 @@ pub struct PassChartData {
     pub satellite: String,
     pub station: String,
     pub pass_number: usize,
+    /// The pass's identifier, which does not change with the window
+    /// ([`crate::report::pass_id`], e.g. `sierra-baja-20261202T0854Z`); empty when none.
+    pub pass_id: String,
     pub aos: DateTime<Utc>,
     pub tca: DateTime<Utc>,
     pub los: DateTime<Utc>,
@@ -77,6 +94,11 @@ pub struct PassChartData {
     pub closes_from: Option<DateTime<Utc>>,
     /// Last instant the chosen rate closes.
     pub closes_until: Option<DateTime<Utc>>,
+    /// The availability case, when planned: rain exceeded this percentage of an average year.
+    pub rain_exceedance_percent: Option<f64>,
+    /// The rain case's fixed rate (`None`: no rate closes in rain) and its volume, bits.
+    pub rain_rate_bps: Option<f64>,
+    pub rain_volume_bits: Option<f64>,
     pub samples: Vec<PassChartSample>,
 }
 
@@ -89,16 +111,21 @@ pub struct SkyPoint {
     pub margin_db: Option<f64>,
 }
 
-/// One pass drawn on the sky chart. AOS, TCA and LOS labels go at the first point, the
-/// highest point and the last point.
+/// One pass drawn on the sky chart. AOS, TCA and LOS markers go at the first point, the
+/// highest point and the last point; the track carries `label` beside its highest point, and the
+/// table beside the chart lists the label with the times, the maximum elevation and the rate.
 #[derive(Debug, Clone, PartialEq)]
 pub struct SkyPass {
-    /// Short label, e.g. `03 10:42Z`.
+    /// Short track label, the pass number, e.g. `16`.
     pub label: String,
     pub points: Vec<SkyPoint>,
     pub aos: DateTime<Utc>,
     pub tca: DateTime<Utc>,
     pub los: DateTime<Utc>,
+    pub max_elevation_deg: f64,
+    /// The fixed rate whose margin colours the track; `None` when no rate closes (the track's
+    /// margin is then that of the ladder rate with the lowest threshold).
+    pub rate_bps: Option<f64>,
 }
 
 /// A polar sky chart of one station: horizon mask and one or more pass tracks.
@@ -118,7 +145,7 @@ pub struct SkyChartData {
 /// Volume per day against mask elevation for one ladder rate.
 #[derive(Debug, Clone, PartialEq)]
 pub struct MaskRateSeries {
-    /// e.g. `50 Mbit/s ccsds-rs-cc`.
+    /// e.g. `50 Mbit/s ccsds-rs-cc`. The chart adds "never closes" when every value is 0.
     pub label: String,
     /// One value per entry of [`MaskChartData::masks_deg`].
     pub volume_bits_per_day: Vec<f64>,
@@ -134,7 +161,9 @@ pub struct MaskChartData {
     /// Contact time per day above each mask, seconds.
     pub contact_s_per_day: Vec<f64>,
     pub rates: Vec<MaskRateSeries>,
-    pub configured_mask_deg: f64,
+    /// The configured mask of each station in the scope: (station name, deg). One entry for a
+    /// station's chart; every station for the all-stations chart (each gets its own line).
+    pub configured_masks_deg: Vec<(String, f64)>,
 }
 
 /// One pass on the plan summary timeline.
@@ -156,6 +185,11 @@ pub struct DayTotals {
     pub adaptive_bits: f64,
     /// Shannon-capacity bound on the same passes.
     pub shannon_bits: f64,
+    /// The network total of the day's passes: each second counted once, at the station with the
+    /// highest fixed rate (`None`: not given).
+    pub network_bits: Option<f64>,
+    /// Fixed-rate volume in the availability (rain) case, when planned.
+    pub rain_bits: Option<f64>,
 }
 
 /// Plan summary over the whole window.
@@ -167,4 +201,6 @@ pub struct SummaryChartData {
     pub stations: Vec<String>,
     pub passes: Vec<SummaryBar>,
     pub days: Vec<DayTotals>,
+    /// The availability case's exceedance percentage, when planned (for the legend).
+    pub rain_exceedance_percent: Option<f64>,
 }

@@ -1,5 +1,8 @@
 //! Mask trade-off chart: contact time per day (top) and volume per day for each ladder rate
-//! (bottom) against the elevation mask, with the configured mask marked in both panels.
+//! (bottom) against the elevation mask, with each station's configured mask marked in both panels
+//! (one line per distinct value, named by its stations when they differ). A rate that never
+//! closes lies on the zero line, and one whose volume stays below 3 % of the axis nearly so: their
+//! legend entries say so (with the largest volume per day of the second kind).
 
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -50,6 +53,18 @@ impl Plot for MaskChartData {
     }
 }
 
+/// The distinct finite configured masks, rising.
+fn mask_groups(masks: &[(String, f64)]) -> Vec<f64> {
+    let mut v: Vec<f64> = masks
+        .iter()
+        .map(|(_, m)| *m)
+        .filter(|m| m.is_finite())
+        .collect();
+    v.sort_by(f64::total_cmp);
+    v.dedup();
+    v
+}
+
 /// Indices of the points that get a marker: about every 5° (at most ~10 markers per line).
 fn marker_indices(masks: &[f64]) -> Vec<usize> {
     let n = masks.len();
@@ -75,11 +90,24 @@ where
         (30, 18),
         style::title_font(),
     ))?;
-    title.draw(&Text::new(
-        format!(
-            "contact time and data volume per day above each mask · configured mask {}",
-            style::deg_or_na(d.configured_mask_deg)
+    let groups = mask_groups(&d.configured_masks_deg);
+    let configured = match groups.as_slice() {
+        [] => "no configured mask".to_string(),
+        [m] if d.configured_masks_deg.len() == 1 => {
+            format!("configured mask {}", style::deg_or_na(*m))
+        }
+        [m] => format!("configured mask {} at every station", style::deg_or_na(*m)),
+        _ => format!(
+            "configured mask per station: {}",
+            d.configured_masks_deg
+                .iter()
+                .map(|(s, m)| format!("{s} {}", style::deg_or_na(*m)))
+                .collect::<Vec<_>>()
+                .join(", ")
         ),
+    };
+    title.draw(&Text::new(
+        format!("contact time and data volume per day above each mask · {configured}"),
         (30, 60),
         style::label_font(),
     ))?;
@@ -110,7 +138,6 @@ where
     let panel_h = (h - TITLE_H - x_axis_h) / 2;
     let (top, bottom) = body.split_vertically(panel_h);
     let marks = marker_indices(&d.masks_deg);
-    let cfg = d.configured_mask_deg;
     let cfg_stroke = Stroke::dashed(style::INK, 2, 10, 6);
 
     // Top: contact time.
@@ -157,16 +184,19 @@ where
                 style::draw_marker(&area, MarkerShape::Circle, px, 5, style::SLATE)?;
             }
         }
-        if cfg.is_finite() {
-            stroke_line!(
-                chart,
-                draw_series,
-                vec![(cfg, 0.0), (cfg, y_hi)],
-                cfg_stroke
-            );
+        // One line per configured value, labelled with its stations when they differ; labels of
+        // nearby lines step down so they do not overlap.
+        for (k, m) in groups.iter().enumerate() {
+            stroke_line!(chart, draw_series, vec![(*m, 0.0), (*m, y_hi)], cfg_stroke);
+            // with several values, the subtitle names the stations of each
+            let text = if groups.len() > 1 {
+                format!(" {m:.1}°")
+            } else {
+                format!(" configured mask {m:.1}°")
+            };
             chart.draw_series(std::iter::once(Text::new(
-                format!(" configured mask {cfg:.1}°"),
-                (cfg, y_hi),
+                text,
+                (*m, y_hi * (1.0 - 0.09 * k as f64)),
                 style::note_font(style::INK).pos(Pos::new(HPos::Left, VPos::Top)),
             )))?;
         }
@@ -231,7 +261,24 @@ where
                 style::draw_marker(&area, shape, px, 5, s.color)?;
             }
         }
-        keys.push((Key::LineMarker(s, shape), r.label.clone()));
+        // A rate that never closes, or brings too little to show at this scale, says so.
+        let most = r
+            .volume_bits_per_day
+            .iter()
+            .filter(|v| v.is_finite())
+            .fold(0.0f64, |a, v| a.max(*v));
+        let label = if most <= 0.0 {
+            format!("{}\nnever closes (on the 0 line)", r.label)
+        } else if most < 0.03 * max_bits {
+            format!(
+                "{}\n≤ {}/day, near the 0 line",
+                r.label,
+                style::format_volume(most)
+            )
+        } else {
+            r.label.clone()
+        };
+        keys.push((Key::LineMarker(s, shape), label));
     }
     if d.rates.is_empty() {
         chart.draw_series(std::iter::once(Text::new(
@@ -240,13 +287,8 @@ where
             style::label_font().pos(Pos::new(HPos::Center, VPos::Center)),
         )))?;
     }
-    if cfg.is_finite() {
-        stroke_line!(
-            chart,
-            draw_series,
-            vec![(cfg, 0.0), (cfg, v_hi)],
-            cfg_stroke
-        );
+    for m in &groups {
+        stroke_line!(chart, draw_series, vec![(*m, 0.0), (*m, v_hi)], cfg_stroke);
     }
     keys.push((Key::Line(cfg_stroke), "configured mask".into()));
     style::draw_legend(&legend, Some("Fixed rate"), &keys)

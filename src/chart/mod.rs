@@ -59,7 +59,7 @@ fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError
             let mut rgb = vec![255u8; w as usize * h as usize * 3];
             {
                 let root = BitMapBackend::with_buffer(&mut rgb, (w, h)).into_drawing_area();
-                chart.plot(&root).map_err(in_chart(P::NAME))?;
+                plot_with_caution(chart, &root).map_err(in_chart(P::NAME))?;
                 root.present()
                     .map_err(ChartError::from)
                     .map_err(in_chart(P::NAME))?;
@@ -70,7 +70,7 @@ fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError
             let mut svg = String::new();
             {
                 let root = SVGBackend::with_string(&mut svg, (w, h)).into_drawing_area();
-                chart.plot(&root).map_err(in_chart(P::NAME))?;
+                plot_with_caution(chart, &root).map_err(in_chart(P::NAME))?;
                 root.present()
                     .map_err(ChartError::from)
                     .map_err(in_chart(P::NAME))?;
@@ -78,6 +78,37 @@ fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError
             Ok(svg.into_bytes())
         }
     }
+}
+
+/// Draw `chart` above a footer that carries the outputs' one caution
+/// ([`crate::report::plan::CAUTION`]), wrapped to the chart's width.
+fn plot_with_caution<P: Plot, DB: DrawingBackend>(
+    chart: &P,
+    root: &DrawingArea<DB, plotters::coord::Shift>,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    root.fill(&WHITE)?;
+    let (w, h) = root.dim_in_pixel();
+    let font = style::note_font(style::MUTED);
+    let lines = style::wrap_text(
+        root,
+        crate::report::plan::CAUTION,
+        &font,
+        w.saturating_sub(60),
+    )?;
+    let footer_h = (lines.len() as u32 * style::FOOTER_LINE_PX + 14).min(h / 4);
+    let (body, footer) = root.split_vertically(h - footer_h);
+    chart.plot(&body)?;
+    for (i, line) in lines.into_iter().enumerate() {
+        footer.draw(&Text::new(
+            line,
+            (30, 4 + i as i32 * style::FOOTER_LINE_PX as i32),
+            font.clone(),
+        ))?;
+    }
+    Ok(())
 }
 
 /// Encode an 8-bit RGB buffer as PNG with the fast deflate setting: on the pass chart about 10 ms
@@ -121,7 +152,7 @@ pub fn save_pass(data: &PassChartData, path: &Path, format: ChartFormat) -> Resu
     save(path, &draw_pass(data, format)?)
 }
 
-/// Draw the sky track chart (1000x1000).
+/// Draw the sky track chart (1400x1000).
 pub fn draw_sky(data: &SkyChartData, format: ChartFormat) -> Result<Vec<u8>, ChartError> {
     render(data, format)
 }
@@ -181,6 +212,14 @@ pub fn sky_file_name(station: &str, day: NaiveDate, format: ChartFormat) -> Stri
     )
 }
 
+/// The sky chart of one pass (`chart --pass ID`), named by the pass's identifier
+/// ([`crate::report::pass_id`], which does not change with the window):
+/// `sky-sierra-baja-20261202T0854Z.png`, so it never replaces the day's chart of every pass
+/// ([`sky_file_name`]).
+pub fn sky_pass_file_name(pass_id: &str, format: ChartFormat) -> String {
+    format!("sky-{pass_id}.{}", format.extension())
+}
+
 /// `mask-sierra-baja.png`, `mask-network.png`
 pub fn mask_file_name(scope: &str, format: ChartFormat) -> String {
     format!("mask-{}.{}", style::slug(scope), format.extension())
@@ -218,6 +257,10 @@ mod tests {
         assert_eq!(
             sky_file_name("Sierra Baja", day, ChartFormat::Svg),
             "sky-sierra-baja-20261202.svg"
+        );
+        assert_eq!(
+            sky_pass_file_name("sierra-baja-20261202T0854Z", ChartFormat::Png),
+            "sky-sierra-baja-20261202T0854Z.png"
         );
         assert_eq!(
             mask_file_name("network", ChartFormat::Png),

@@ -1,10 +1,15 @@
-//! Pass chart: three stacked panels on a shared UTC time axis from AOS to LOS.
+//! Pass chart: four stacked panels on a shared UTC time axis from AOS to LOS, each with one
+//! y axis per quantity and its legend in a column to its right.
 //!
-//! (a) elevation (deg) and slant range (km, right axis); (b) Eb/N0 (dB) against the level where
-//! the margin is 0 and the required-margin band above it, the adaptive rate as a step line (right
-//! axis), and the instants the chosen rate starts and stops closing; (c) system noise temperature
-//! (K) and atmospheric loss (dB, right axis). Each panel has its legend in a column to its right.
+//! (a) elevation (deg) with the station's mask at the satellite's azimuth filled below it, and
+//! slant range (km, right axis); (b) Eb/N0 (dB) at the chosen rate, clear sky and, when planned,
+//! the rain case, against the level where the margin is 0 and the required-margin band above it,
+//! with the instants the chosen rate starts and stops closing and the atmospheric loss of both
+//! cases in the legend; (c) the data rate (engineering units): the adaptive rate as a step line
+//! and the fixed rate over the seconds it counts; (d) the system noise temperature (K) and its
+//! terms (receiver, sky, ground, man-made, the Sun, the Moon), and the rain case's total.
 
+use plotters::coord::ranged1d::Ranged;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
@@ -15,7 +20,7 @@ use super::types::{ChartError, Plot, PASS_SIZE};
 use crate::timefmt::seconds_between;
 
 const TITLE_H: u32 = 100;
-const LEGEND_W: u32 = 300;
+const LEGEND_W: u32 = 330;
 const Y_AXIS_W: u32 = 95;
 
 impl Plot for PassChartData {
@@ -34,8 +39,13 @@ impl Plot for PassChartData {
 }
 
 fn title_lines(d: &PassChartData) -> (String, String) {
+    let id = if d.pass_id.is_empty() {
+        String::new()
+    } else {
+        format!(" ({})", d.pass_id)
+    };
     let line1 = format!(
-        "{} over {} · pass {} · {}",
+        "{} over {} · pass {}{id} · {}",
         d.satellite,
         d.station,
         d.pass_number,
@@ -46,8 +56,18 @@ fn title_lines(d: &PassChartData) -> (String, String) {
         (Some(r), None) => style::format_rate(r),
         (None, _) => "no rate closes".to_string(),
     };
+    let rain = match (d.rain_exceedance_percent, d.rain_volume_bits) {
+        (Some(p), Some(v)) => format!(
+            " · rain ({p} %): {}, {}",
+            d.rain_rate_bps
+                .map(style::format_rate)
+                .unwrap_or_else(|| "no rate closes".into()),
+            style::format_volume(v)
+        ),
+        _ => String::new(),
+    };
     let line2 = format!(
-        "max elevation {} · {rate} · volume {} (adaptive {})",
+        "max elevation {} · {rate} · volume {} (adaptive {}){rain}",
         style::deg_or_na(d.max_elevation_deg),
         style::format_volume(d.volume_bits),
         style::format_volume(d.adaptive_volume_bits),
@@ -96,9 +116,11 @@ where
 
     let body_h = h - TITLE_H;
     let bottom_axis_h = 62;
-    let panel_h = (body_h - bottom_axis_h) / 3;
-    let (pa, rest) = body.split_vertically(panel_h);
-    let (pb, pc) = rest.split_vertically(panel_h);
+    // Shares of the height: geometry 24 %, Eb/N0 29 %, rate 19 %, noise the rest (with the axis).
+    let panels_h = (body_h - bottom_axis_h) as f64;
+    let (pa, rest) = body.split_vertically((0.24 * panels_h) as u32);
+    let (pb, rest) = rest.split_vertically((0.29 * panels_h) as u32);
+    let (pr, pc) = rest.split_vertically((0.19 * panels_h) as u32);
 
     let tca_s = seconds_between(&d.aos, &d.tca);
     let ctx = Ctx {
@@ -110,6 +132,7 @@ where
     };
     panel_geometry(d, &pa, &ctx)?;
     panel_link(d, &pb, &ctx)?;
+    panel_rate(d, &pr, &ctx)?;
     panel_noise(d, &pc, &ctx, bottom_axis_h)?;
     Ok(())
 }
@@ -120,6 +143,18 @@ struct Ctx<'a> {
     ticks: &'a [f64],
     fmt_t: &'a dyn Fn(&f64) -> String,
     tca_s: f64,
+}
+
+/// A panel's legend, its entries close together (the panels are short).
+fn legend_in<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    title: Option<&str>,
+    entries: &[(Key, String)],
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    style::draw_legend_spaced(area, title, entries, 3)
 }
 
 /// Split a panel into chart and legend column.
@@ -136,6 +171,8 @@ fn vline(t: f64, y: (f64, f64)) -> Vec<(f64, f64)> {
 }
 
 const TCA_STROKE: Stroke = Stroke::dashed(style::SLATE, 1, 4, 4);
+/// The rain case, the same look in every panel (amber: no other series of those panels uses it).
+const RAIN_STROKE: Stroke = Stroke::dashed(style::AMBER, 3, 12, 5);
 
 fn panel_geometry<DB: DrawingBackend>(
     d: &PassChartData,
@@ -191,6 +228,21 @@ where
         .label_style(style::tick_font())
         .draw()?;
 
+    // The station's mask at the satellite's azimuth, filled from the axis' floor up to it.
+    let mask: Vec<(f64, f64)> = d
+        .samples
+        .iter()
+        .filter(|s| s.t_s.is_finite() && s.mask_elevation_deg.is_finite())
+        .map(|s| (s.t_s, s.mask_elevation_deg.clamp(el_min, el_max)))
+        .collect();
+    let mask_edge = Stroke::solid(style::TERRAIN_EDGE, 2);
+    if let (Some(a), Some(b)) = (mask.first(), mask.last()) {
+        let mut poly = mask.clone();
+        poly.push((b.0, el_min));
+        poly.push((a.0, el_min));
+        chart.draw_series(std::iter::once(Polygon::new(poly, style::TERRAIN.filled())))?;
+        stroke_line!(chart, draw_series, mask.clone(), mask_edge);
+    }
     let tca = TCA_STROKE;
     stroke_line!(chart, draw_series, vline(c.tca_s, (el_min, el_max)), tca);
     let el = Stroke::series(0, 3);
@@ -246,13 +298,17 @@ where
         )))?;
     }
 
-    style::draw_legend(
+    legend_in(
         &legend,
         None,
         &[
             (Key::Line(el), "elevation (left)".into()),
             (Key::Line(rg), "slant range (right)".into()),
             (Key::Line(tca), "closest approach".into()),
+            (
+                Key::Band(style::TERRAIN, 1.0),
+                "station mask at the\nsatellite's azimuth".into(),
+            ),
         ],
     )
 }
@@ -272,28 +328,17 @@ where
     } else {
         0.0
     };
+    let rain_eb = |s: &PassChartSample| s.rain.map(|r| r.ebn0_db).unwrap_or(f64::NAN);
     let (y_lo, y_hi) = style::finite_range(
         d.samples
             .iter()
-            .map(|s| s.ebn0_db)
+            .flat_map(|s| [s.ebn0_db, rain_eb(s)])
             .chain(req)
             .chain(req.map(|r| r + margin)),
         0.10,
         3.0,
         (0.0, 10.0),
     );
-    let max_rate = d
-        .samples
-        .iter()
-        .filter_map(|s| s.adaptive_rate_bps)
-        .filter(|v| v.is_finite())
-        .fold(0.0f64, f64::max);
-    let (rate_div, rate_unit) = if max_rate >= 1e6 {
-        (1e6, "Mbit/s")
-    } else {
-        (1e3, "kbit/s")
-    };
-    let rate_hi = style::zero_based_max([max_rate / rate_div], 0.12, 1.0);
 
     let mut chart = ChartBuilder::on(&plot)
         .margin_top(30)
@@ -304,8 +349,7 @@ where
         .build_cartesian_2d(
             style::TickAxis::new(c.t_lo, c.t_hi, c.ticks.to_vec()),
             y_lo..y_hi,
-        )?
-        .set_secondary_coord(c.t_lo..c.t_hi, 0.0..rate_hi);
+        )?;
     chart
         .configure_mesh()
         .bold_line_style(style::GRID)
@@ -313,14 +357,6 @@ where
         .y_label_formatter(&style::num_label)
         .x_label_formatter(&|_| String::new())
         .y_desc("Eb/N0 (dB)")
-        .y_labels(6)
-        .axis_desc_style(style::label_font())
-        .label_style(style::tick_font())
-        .draw()?;
-    chart
-        .configure_secondary_axes()
-        .y_label_formatter(&style::num_label)
-        .y_desc(format!("Adaptive rate ({rate_unit})"))
         .y_labels(6)
         .axis_desc_style(style::label_font())
         .label_style(style::tick_font())
@@ -337,7 +373,7 @@ where
             )))?;
             keys.push((
                 Key::Band(band_color, 0.35),
-                format!("required margin\n({margin:.1} dB above margin 0)"),
+                format!("required margin {margin:.1} dB"),
             ));
         }
         stroke_line!(
@@ -346,7 +382,7 @@ where
             vec![(c.t_lo, r), (c.t_hi, r)],
             req_stroke
         );
-        keys.push((Key::Line(req_stroke), format!("margin 0: Eb/N0 {r:.1} dB")));
+        keys.push((Key::Line(req_stroke), format!("margin 0 (Eb/N0 {r:.1} dB)")));
     }
 
     if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
@@ -359,27 +395,78 @@ where
         d.samples.iter().map(|s| (s.t_s, s.ebn0_db)).collect(),
         eb
     );
-    let eb_label = match d.rate_bps {
-        Some(r) => format!("Eb/N0 at {}", style::format_rate(r)),
-        None => "Eb/N0 at lowest rate".to_string(),
+    let at_rate = match d.rate_bps {
+        Some(r) => style::format_rate(r),
+        None => "lowest rate".to_string(),
     };
-    keys.insert(0, (Key::Line(eb), eb_label));
-
-    // Adaptive rate as a step line: each sample's rate holds until the next sample.
-    let mut steps = Vec::with_capacity(2 * d.samples.len());
-    for (i, s) in d.samples.iter().enumerate() {
-        let r = s.adaptive_rate_bps.filter(|v| v.is_finite()).unwrap_or(0.0) / rate_div;
-        let t_next = d.samples.get(i + 1).map(|n| n.t_s).unwrap_or(s.t_s);
-        steps.push((s.t_s, r));
-        if t_next != s.t_s {
-            steps.push((t_next, r));
+    let loss = |f: &dyn Fn(&PassChartSample) -> f64| {
+        let (lo, hi) = d
+            .samples
+            .iter()
+            .map(f)
+            .filter(|v| v.is_finite())
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), v| {
+                (a.min(v), b.max(v))
+            });
+        if lo.is_finite() && format!("{lo:.1}") == format!("{hi:.1}") {
+            format!("{lo:.1} dB")
+        } else if lo.is_finite() {
+            format!("{lo:.1}–{hi:.1} dB")
+        } else {
+            "n/a".into()
         }
+    };
+    keys.insert(
+        0,
+        (
+            Key::Line(eb),
+            format!(
+                "Eb/N0 at {at_rate}\nclear sky, atm. loss {}",
+                loss(&|s| s.atmospheric_loss_db)
+            ),
+        ),
+    );
+    if d.samples.iter().any(|s| s.rain.is_some()) {
+        let rs = RAIN_STROKE;
+        stroke_line!(
+            chart,
+            draw_series,
+            d.samples.iter().map(|s| (s.t_s, rain_eb(s))).collect(),
+            rs
+        );
+        let pct = d
+            .rain_exceedance_percent
+            .map(|p| format!(" ({p} %)"))
+            .unwrap_or_default();
+        keys.insert(
+            1,
+            (
+                Key::Line(rs),
+                format!(
+                    "rain case{pct},\natm. loss {}",
+                    loss(&|s| s.rain.map(|r| r.atmospheric_loss_db).unwrap_or(f64::NAN))
+                ),
+            ),
+        );
     }
-    let ad = Stroke::dashed(style::AMBER, 3, 12, 5);
-    stroke_line!(chart, draw_secondary_series, steps, ad);
-    keys.push((Key::Line(ad), "adaptive rate (right)".into()));
+    closing_marks(d, &mut chart, c, (y_lo, y_hi), &mut keys)?;
+    legend_in(&legend, None, &keys)
+}
 
-    // Instants where the chosen rate starts and stops closing.
+/// The instants where the chosen rate starts and stops closing, labelled; or a note saying why
+/// there are none.
+fn closing_marks<DB: DrawingBackend, X, Y>(
+    d: &PassChartData,
+    chart: &mut ChartContext<DB, Cartesian2d<X, Y>>,
+    c: &Ctx,
+    (y_lo, y_hi): (f64, f64),
+    keys: &mut Vec<(Key, String)>,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+    X: Ranged<ValueType = f64>,
+    Y: Ranged<ValueType = f64>,
+{
     let mark = Stroke::solid(style::INK, 2);
     let f = style::note_font(style::INK);
     let mut marked = false;
@@ -431,10 +518,7 @@ where
         marked = true;
     }
     if marked {
-        keys.push((
-            Key::Line(mark),
-            "chosen rate starts /\nstops closing".into(),
-        ));
+        keys.push((Key::Line(mark), "fixed rate closes from/until".into()));
     } else {
         let msg = if d.rate_bps.is_none() {
             "no ladder rate closes on this pass"
@@ -451,8 +535,92 @@ where
                 .pos(Pos::new(HPos::Center, VPos::Bottom)),
         )))?;
     }
+    Ok(())
+}
 
-    style::draw_legend(&legend, None, &keys)
+/// The data rate on its own axis: the adaptive rate as a step line (each sample's rate holds
+/// until the next sample) and the chosen fixed rate over the samples it counts.
+fn panel_rate<DB: DrawingBackend>(
+    d: &PassChartData,
+    area: &DrawingArea<DB, Shift>,
+    c: &Ctx,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    let (plot, legend) = split_legend(area);
+    let max_rate = d
+        .samples
+        .iter()
+        .filter_map(|s| s.adaptive_rate_bps)
+        .chain(d.rate_bps)
+        .filter(|v| v.is_finite())
+        .fold(0.0f64, f64::max);
+    let (rate_div, rate_unit) = crate::engfmt::rate_unit(max_rate);
+    let rate_hi = style::zero_based_max([max_rate / rate_div], 0.15, 1.0);
+    let mut chart = ChartBuilder::on(&plot)
+        .margin_top(14)
+        .margin_left(10)
+        .x_label_area_size(8)
+        .y_label_area_size(Y_AXIS_W)
+        .right_y_label_area_size(Y_AXIS_W)
+        .build_cartesian_2d(
+            style::TickAxis::new(c.t_lo, c.t_hi, c.ticks.to_vec()),
+            0.0..rate_hi,
+        )?;
+    chart
+        .configure_mesh()
+        .bold_line_style(style::GRID)
+        .light_line_style(TRANSPARENT)
+        .y_label_formatter(&style::num_label)
+        .x_label_formatter(&|_| String::new())
+        .y_desc(format!("Rate ({rate_unit})"))
+        .y_labels(5)
+        .axis_desc_style(style::label_font())
+        .label_style(style::tick_font())
+        .draw()?;
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
+        stroke_line!(
+            chart,
+            draw_series,
+            vline(c.tca_s, (0.0, rate_hi)),
+            TCA_STROKE
+        );
+    }
+    let mut steps = Vec::with_capacity(2 * d.samples.len());
+    let mut fixed = Vec::with_capacity(2 * d.samples.len());
+    for (i, s) in d.samples.iter().enumerate() {
+        let r = s.adaptive_rate_bps.filter(|v| v.is_finite()).unwrap_or(0.0) / rate_div;
+        let t_next = d.samples.get(i + 1).map(|n| n.t_s).unwrap_or(s.t_s);
+        let f = match d.rate_bps {
+            Some(x) if s.closed => x / rate_div,
+            _ => f64::NAN,
+        };
+        steps.push((s.t_s, r));
+        fixed.push((s.t_s, f));
+        if t_next != s.t_s {
+            steps.push((t_next, r));
+            // a counted sample's rate holds until the next sample only if that one counts too
+            let next_closed = d.samples.get(i + 1).is_some_and(|n| n.closed);
+            fixed.push((t_next, if next_closed { f } else { f64::NAN }));
+        }
+    }
+    let fx = Stroke::solid(style::NAVY, 5);
+    stroke_line!(chart, draw_series, fixed, fx);
+    let ad = Stroke::dashed(style::PLUM, 3, 12, 5);
+    stroke_line!(chart, draw_series, steps, ad);
+    let fixed_label = match d.rate_bps {
+        Some(r) => format!("fixed rate {}\n(seconds it counts)", style::format_rate(r)),
+        None => "fixed rate: none closes".into(),
+    };
+    legend_in(
+        &legend,
+        None,
+        &[
+            (Key::Line(ad), "adaptive rate\n(highest that closes)".into()),
+            (Key::Line(fx), fixed_label),
+        ],
+    )
 }
 
 fn panel_noise<DB: DrawingBackend>(
@@ -465,20 +633,17 @@ where
     DB::ErrorType: 'static,
 {
     let (plot, legend) = split_legend(area);
+    let rain_t = |s: &PassChartSample| s.rain.map(|r| r.system_temperature_k).unwrap_or(f64::NAN);
     // From 0 K, so the terms below Tsys show on the same axis.
     let (_, k_hi) = style::finite_range(
-        d.samples.iter().map(|s| s.system_temperature_k),
+        d.samples
+            .iter()
+            .flat_map(|s| [s.system_temperature_k, rain_t(s)]),
         0.10,
         10.0,
         (0.0, 300.0),
     );
     let k_lo = 0.0f64;
-    let (a_lo, a_hi) = style::finite_range(
-        d.samples.iter().map(|s| s.atmospheric_loss_db),
-        0.10,
-        0.5,
-        (0.0, 1.0),
-    );
     let mut chart = ChartBuilder::on(&plot)
         .margin_top(14)
         .margin_left(10)
@@ -487,9 +652,8 @@ where
         .right_y_label_area_size(Y_AXIS_W)
         .build_cartesian_2d(
             style::TickAxis::new(c.t_lo, c.t_hi, c.ticks.to_vec()),
-            k_lo.max(0.0)..k_hi,
-        )?
-        .set_secondary_coord(c.t_lo..c.t_hi, a_lo.max(0.0)..a_hi);
+            k_lo..k_hi,
+        )?;
     chart
         .configure_mesh()
         .bold_line_style(style::GRID)
@@ -497,48 +661,24 @@ where
         .y_label_formatter(&style::num_label)
         .x_label_formatter(c.fmt_t)
         .x_desc("Time (UTC)")
-        .y_desc("System noise temp. (K)")
-        .y_labels(6)
-        .axis_desc_style(style::label_font())
-        .label_style(style::tick_font())
-        .draw()?;
-    chart
-        .configure_secondary_axes()
-        .y_label_formatter(&style::num_label)
-        .y_desc("Atmospheric loss (dB)")
-        .y_labels(6)
+        .y_desc("Noise temp. (K)")
+        .y_labels(5)
         .axis_desc_style(style::label_font())
         .label_style(style::tick_font())
         .draw()?;
     if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
-        stroke_line!(
-            chart,
-            draw_series,
-            vline(c.tca_s, (k_lo.max(0.0), k_hi)),
-            TCA_STROKE
-        );
+        stroke_line!(chart, draw_series, vline(c.tca_s, (k_lo, k_hi)), TCA_STROKE);
     }
-    // Tsys and its terms, each its own line (series 0, 2-5, 8, 10; 1 is the atmospheric loss).
+    // Tsys and its terms, each its own line (series 0, 2-5, 8, 10).
     type Term = fn(&PassChartSample) -> f64;
     let terms: [(usize, u32, Term, &str); 7] = [
-        (
-            0,
-            3,
-            |s| s.system_temperature_k,
-            "system noise\ntemperature (left)",
-        ),
-        (2, 2, |s| s.receiver_noise_k, "receiver (left)"),
-        (3, 2, |s| s.sky_noise_k, "sky through the\npattern (left)"),
-        (
-            4,
-            2,
-            |s| s.ground_noise_k,
-            "ground through the\npattern (left)",
-        ),
-        (5, 2, |s| s.man_made_noise_k, "man-made (left)"),
-        // 8 and 10: a colour and dash unlike the amber atmospheric loss (series 1)
-        (8, 2, |s| s.sun_noise_k, "Sun (left)"),
-        (10, 2, |s| s.moon_noise_k, "Moon (left)"),
+        (0, 3, |s| s.system_temperature_k, "Tsys, clear sky"),
+        (2, 2, |s| s.receiver_noise_k, "receiver"),
+        (3, 2, |s| s.sky_noise_k, "sky through the pattern"),
+        (4, 2, |s| s.ground_noise_k, "ground through the pattern"),
+        (5, 2, |s| s.man_made_noise_k, "man-made"),
+        (8, 2, |s| s.sun_noise_k, "Sun"),
+        (10, 2, |s| s.moon_noise_k, "Moon"),
     ];
     let mut keys = Vec::with_capacity(8);
     for (i, width, term, label) in terms {
@@ -556,16 +696,19 @@ where
         );
         keys.push((Key::Line(stroke), label.to_string()));
     }
-    let al = Stroke::series(1, 3);
-    stroke_line!(
-        chart,
-        draw_secondary_series,
-        d.samples
-            .iter()
-            .map(|s| (s.t_s, s.atmospheric_loss_db))
-            .collect(),
-        al
-    );
-    keys.push((Key::Line(al), "atmospheric loss (right)".into()));
-    style::draw_legend(&legend, None, &keys)
+    if d.samples.iter().any(|s| s.rain.is_some()) {
+        let rs = RAIN_STROKE;
+        stroke_line!(
+            chart,
+            draw_series,
+            d.samples.iter().map(|s| (s.t_s, rain_t(s))).collect(),
+            rs
+        );
+        let pct = d
+            .rain_exceedance_percent
+            .map(|p| format!(" ({p} %)"))
+            .unwrap_or_default();
+        keys.insert(1, (Key::Line(rs), format!("Tsys, rain case{pct}")));
+    }
+    legend_in(&legend, None, &keys)
 }

@@ -5,8 +5,9 @@
 
 use super::{
     mask_file_name, pass_file_name, save_mask, save_pass, save_sky, save_summary, sky_file_name,
-    summary_file_name, ChartError, ChartFormat, DayTotals, MaskChartData, MaskRateSeries,
-    PassChartData, PassChartSample, SkyChartData, SkyPass, SkyPoint, SummaryBar, SummaryChartData,
+    sky_pass_file_name, summary_file_name, ChartError, ChartFormat, DayTotals, MaskChartData,
+    MaskRateSeries, PassChartData, PassChartRain, PassChartSample, SkyChartData, SkyPass, SkyPoint,
+    SummaryBar, SummaryChartData,
 };
 use crate::plan::inputs::satellite_name;
 use crate::plan::summary::tradeoff;
@@ -91,6 +92,7 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
     let rates = planner.rates();
     let (_, o) = rates.display_option(plan.clear.option);
     let chosen = plan.clear.option.map(|k| &rates.ladder[k.0]);
+    let st = &planner.stations()[plan.station_index];
     let samples = s
         .steps
         .iter()
@@ -117,12 +119,22 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
             moon_noise_k: x.moon_noise_k,
             receiver_noise_k: x.receiver_noise_k,
             atmospheric_loss_db: x.atmospheric_loss_db,
+            mask_elevation_deg: st
+                .mask
+                .limit_deg(x.azimuth_deg)
+                .max(st.configured_min_elevation_deg),
+            rain: x.rain.map(|r| PassChartRain {
+                ebn0_db: o.ebn0_db(r.cn0_dbhz),
+                system_temperature_k: r.system_temperature_k,
+                atmospheric_loss_db: r.atmospheric_loss_db,
+            }),
         })
         .collect();
     PassChartData {
         satellite: satellite_name(planner.elements()),
         station: planner.stations()[plan.station_index].station.name.clone(),
         pass_number: plan.number,
+        pass_id: crate::report::pass_id(&st.station.name, &plan.pass),
         aos: plan.pass.aos,
         tca: plan.pass.tca,
         los: plan.pass.los,
@@ -135,6 +147,13 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
         required_margin_db: rates.required_margin_db,
         closes_from: plan.clear.closing.map(|c| c.from.time),
         closes_until: plan.clear.closing.map(|c| c.until.time),
+        rain_exceedance_percent: plan.rain.as_ref().and(planner.exceedance_percent()),
+        rain_rate_bps: plan
+            .rain
+            .as_ref()
+            .and_then(|r| r.option)
+            .map(|k| rates.ladder[k.0].rate_bps),
+        rain_volume_bits: plan.rain.as_ref().map(|r| r.volume_bits),
         samples,
     }
 }
@@ -195,11 +214,13 @@ fn sky_charts(
                 .entry((x.station_index, x.pass.aos.date_naive()))
                 .or_default()
                 .push(SkyPass {
-                    label: format!("#{:03}", x.number),
+                    label: x.number.to_string(),
                     points: points.clone(),
                     aos: x.pass.aos,
                     tca: x.pass.tca,
                     los: x.pass.los,
+                    max_elevation_deg: x.pass.max_elevation_deg,
+                    rate_bps: x.clear.option.map(|k| planner.rates().ladder[k.0].rate_bps),
                 });
         }
     }
@@ -221,7 +242,19 @@ fn sky_charts(
                 required_margin_db: planner.rates().required_margin_db,
                 passes,
             };
-            let path = dir.join(sky_file_name(&st.station.name, day, sink.format));
+            // One pass alone (`chart --pass ID`) gets its own name, from the pass's identifier:
+            // the day's chart of every pass keeps its file.
+            let one = sink
+                .only
+                .and_then(|n| plan.passes.iter().find(|x| x.number == n));
+            let name = match one {
+                Some(x) => sky_pass_file_name(
+                    &crate::report::pass_id(&st.station.name, &x.pass),
+                    sink.format,
+                ),
+                None => sky_file_name(&st.station.name, day, sink.format),
+            };
+            let path = dir.join(name);
             save_sky(&data, &path, sink.format)?;
             Ok(path)
         })
@@ -239,12 +272,12 @@ fn mask_charts(
     let ladder = &planner.rates().ladder;
     let mut written = Vec::new();
     for t in tradeoff(masks, planner.rates(), plan.window.days(), 1) {
+        let configured = |s: &crate::plan::prepare::StationModel| {
+            (s.station.name.clone(), s.configured_min_elevation_deg)
+        };
         let configured = match t.scope {
-            Scope::Station(i) => stations[i].configured_min_elevation_deg,
-            Scope::AllStations => stations
-                .iter()
-                .map(|s| s.configured_min_elevation_deg)
-                .fold(f64::INFINITY, f64::min),
+            Scope::Station(i) => vec![configured(&stations[i])],
+            Scope::AllStations => stations.iter().map(configured).collect(),
         };
         let rates = t
             .volume_bits_per_day
@@ -252,7 +285,7 @@ fn mask_charts(
             .map(|o| {
                 let option = &ladder[o.option.0];
                 MaskRateSeries {
-                    label: format!("{:.0} Mbit/s {}", option.rate_bps / 1e6, option.scheme),
+                    label: format!("{} {}", crate::engfmt::rate(option.rate_bps), option.scheme),
                     volume_bits_per_day: o.values.clone(),
                 }
             })
@@ -263,13 +296,26 @@ fn mask_charts(
             masks_deg: t.masks_deg.iter().map(|&m| m as f64).collect(),
             contact_s_per_day: t.contact_s_per_day.clone(),
             rates,
-            configured_mask_deg: configured,
+            configured_masks_deg: configured,
         };
         let path = dir.join(mask_file_name(&label, format));
         save_mask(&data, &path, format)?;
         written.push(path);
     }
     Ok(written)
+}
+
+/// The network total of one UTC day's passes (the day of their AOS, as the plan's daily totals
+/// count them): their fixed-rate segments through the plan's one network rule
+/// ([`crate::plan::network::union_volume`]), each second once at the highest rate.
+fn day_network_bits(plan: &Plan, date: NaiveDate) -> f64 {
+    let segments: Vec<_> = plan
+        .passes
+        .iter()
+        .filter(|x| x.pass.aos.date_naive() == date)
+        .flat_map(|x| x.segments.iter().copied())
+        .collect();
+    crate::plan::network::union_volume(&segments).0
 }
 
 fn summary_chart(
@@ -307,8 +353,14 @@ fn summary_chart(
                 fixed_bits: d.volume_bits,
                 adaptive_bits: d.adaptive_volume_bits,
                 shannon_bits: d.shannon_volume_bits,
+                network_bits: Some(day_network_bits(plan, d.date)),
+                rain_bits: d.rain_volume_bits,
             })
             .collect(),
+        rain_exceedance_percent: plan
+            .rain_planned
+            .then(|| planner.exceedance_percent())
+            .flatten(),
     };
     let path = dir.join(summary_file_name(
         &satellite,

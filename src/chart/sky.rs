@@ -2,21 +2,26 @@
 //! east to the right (the view of an observer looking up, drawn as a map); elevation is 90° at the
 //! centre and 0° at the rim, linear in elevation. The horizon mask (the larger of the station's
 //! minimum elevation and its azimuth-dependent mask) is filled from the rim inward. Each pass
-//! track is drawn in segments whose look follows the margin bin of the segment's first point:
-//! margin at least the required margin – NAVY, solid; between 0 and the required margin – AMBER,
-//! long dashes; below 0 – PLUM, short dashes; no budget – SLATE, thin dots. AOS, TCA and LOS carry
-//! a circle, a diamond and a square.
+//! track is drawn in segments whose look follows the clear-sky margin bin, at the pass's fixed
+//! rate, of the segment's first point: margin at least the required margin – NAVY, solid; between
+//! 0 and the required margin – AMBER, long dashes; below 0 – PLUM, short dashes; no budget –
+//! SLATE, thin dots (in the legend only when a track has such a point). AOS, TCA and LOS carry a
+//! circle, a diamond and a square; each track carries its pass number in a box placed clear of
+//! every track and marker, and the table beside the sky lists each number with its AOS, TCA,
+//! maximum elevation, LOS and rate (no time labels on the sky, so none collide or get clipped at
+//! the rim).
 
-use plotters::coord::Shift;
+use plotters::coord::{CoordTranslate, Shift};
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
-use super::data::SkyChartData;
+use super::data::{SkyChartData, SkyPoint};
 use super::style::{self, stroke_line, Key, MarkerShape, Stroke};
 use super::types::{ChartError, Plot, SKY_SIZE};
 
 const TITLE_H: u32 = 96;
-const LEGEND_H: u32 = 120;
+/// Width of the column beside the sky: the pass table and the legend.
+const TABLE_W: u32 = 500;
 /// Plot extent in units of the rim radius (room for azimuth labels).
 const EXTENT: f64 = 1.13;
 
@@ -108,6 +113,81 @@ impl Plot for SkyChartData {
     }
 }
 
+/// A label's box in pixels: (x0, y0, x1, y1).
+type PxBox = (i32, i32, i32, i32);
+
+fn overlaps(a: PxBox, b: PxBox) -> bool {
+    a.0 < b.2 && b.0 < a.2 && a.1 < b.3 && b.1 < a.3
+}
+
+/// Place a `tw` x `th` label near `at`: the first of the candidate positions around it (nearest
+/// first, in rings of growing distance) that stays inside `bounds` and covers no track point, no
+/// marker and no label already placed; else the candidate that covers the fewest.
+fn place_label(
+    at: (i32, i32),
+    (tw, th): (i32, i32),
+    bounds: PxBox,
+    track_px: &[(i32, i32)],
+    placed: &[PxBox],
+) -> PxBox {
+    let mut best: Option<(usize, PxBox)> = None;
+    for dist in [14, 26, 40, 56, 76] {
+        for k in 0..16 {
+            let a = std::f64::consts::PI * k as f64 / 8.0;
+            let (cx, cy) = (
+                at.0 + (dist as f64 * a.cos()) as i32,
+                at.1 - (dist as f64 * a.sin()) as i32,
+            );
+            // the box's nearest corner or edge sits at the candidate point
+            let x0 = if a.cos() > 0.3 {
+                cx
+            } else if a.cos() < -0.3 {
+                cx - tw
+            } else {
+                cx - tw / 2
+            };
+            let y0 = if a.sin() > 0.3 {
+                cy - th
+            } else if a.sin() < -0.3 {
+                cy
+            } else {
+                cy - th / 2
+            };
+            let b = (x0, y0, x0 + tw, y0 + th);
+            if b.0 < bounds.0 || b.1 < bounds.1 || b.2 > bounds.2 || b.3 > bounds.3 {
+                continue;
+            }
+            let grown = (b.0 - 3, b.1 - 3, b.2 + 3, b.3 + 3);
+            let hits = track_px
+                .iter()
+                .filter(|p| p.0 >= grown.0 && p.0 <= grown.2 && p.1 >= grown.1 && p.1 <= grown.3)
+                .count()
+                + 1000 * placed.iter().filter(|p| overlaps(grown, **p)).count();
+            if hits == 0 {
+                return b;
+            }
+            if best.is_none_or(|(h, _)| hits < h) {
+                best = Some((hits, b));
+            }
+        }
+    }
+    best.map(|(_, b)| b)
+        .unwrap_or((at.0 + 10, at.1 - th / 2, at.0 + 10 + tw, at.1 + th / 2))
+}
+
+/// Points every few pixels along a polyline (pixels), so a label box between two samples of a
+/// track still sees the track.
+fn densify(px: &[(i32, i32)], out: &mut Vec<(i32, i32)>) {
+    for w in px.windows(2) {
+        let (a, b) = (w[0], w[1]);
+        let n = ((b.0 - a.0).abs().max((b.1 - a.1).abs()) / 3).max(1);
+        for k in 0..n {
+            out.push((a.0 + (b.0 - a.0) * k / n, a.1 + (b.1 - a.1) * k / n));
+        }
+    }
+    out.extend(px.last());
+}
+
 fn plot_sky<DB: DrawingBackend>(
     d: &SkyChartData,
     root: &DrawingArea<DB, Shift>,
@@ -118,7 +198,8 @@ where
     root.fill(&WHITE)?;
     let (w, h) = root.dim_in_pixel();
     let (title, rest) = root.split_vertically(TITLE_H);
-    let (polar, legend) = rest.split_vertically(h - TITLE_H - LEGEND_H);
+    let polar_side = (h - TITLE_H).min(w.saturating_sub(TABLE_W));
+    let (polar, side) = rest.split_horizontally(polar_side);
     title.draw(&Text::new(
         format!("{} over {} · {}", d.satellite, d.station, d.title_date),
         (24, 16),
@@ -140,11 +221,8 @@ where
         style::label_font(),
     ))?;
 
-    let side = (h - TITLE_H - LEGEND_H).min(w);
-    let pad = (w - side) / 2;
     let mut chart = ChartBuilder::on(&polar)
-        .margin_left(pad)
-        .margin_right(pad)
+        .margin(4)
         .build_cartesian_2d(-EXTENT..EXTENT, -EXTENT..EXTENT)?;
 
     // Horizon mask: one polygon from the rim (r = 1) around, then back along the mask line.
@@ -218,17 +296,32 @@ where
         )))?;
     }
 
-    // Tracks, in runs of equal margin bin.
-    let mut placed: Vec<(i32, i32, i32, i32)> = Vec::new();
-    for p in &d.passes {
+    // Tracks, in runs of equal margin bin, then their markers; the pixels of both are kept so
+    // that the labels placed afterwards avoid every track.
+    let plot_area = chart.plotting_area().strip_coord_spec();
+    let spec = chart.as_coord_spec().clone();
+    let mut track_px: Vec<(i32, i32)> = Vec::new();
+    let mut placed: Vec<PxBox> = Vec::new();
+    let mut tops: Vec<(usize, (i32, i32))> = Vec::new();
+    let mut no_budget = false;
+    for (n, p) in d.passes.iter().enumerate() {
         let pts: Vec<_> = p
             .points
             .iter()
             .filter(|q| q.azimuth_deg.is_finite() && q.elevation_deg.is_finite())
             .collect();
+        let px_of = |q: &SkyPoint| {
+            style::rel(
+                &plot_area,
+                spec.translate(&xy(q.azimuth_deg, q.elevation_deg)),
+            )
+        };
+        let px: Vec<(i32, i32)> = pts.iter().map(|q| px_of(q)).collect();
+        densify(&px, &mut track_px);
         let mut i = 0;
         while i + 1 < pts.len() {
             let b = bin(pts[i].margin_db, req);
+            no_budget |= b == Bin::NoData;
             let mut j = i + 1;
             while j + 1 < pts.len() && bin(pts[j].margin_db, req) == b {
                 j += 1;
@@ -247,94 +340,145 @@ where
             .copied()
             .max_by(|a, b| a.elevation_deg.total_cmp(&b.elevation_deg))
             .unwrap_or(first);
-        let plot_area = chart.plotting_area().strip_coord_spec();
         let marks = [
-            (
-                first,
-                MarkerShape::Circle,
-                format!("AOS {}", p.aos.format("%H:%M")),
-            ),
-            (
-                top,
-                MarkerShape::Diamond,
-                format!("{} TCA {}", p.label, p.tca.format("%H:%M")),
-            ),
-            (
-                last,
-                MarkerShape::Square,
-                format!("LOS {}", p.los.format("%H:%M")),
-            ),
+            (first, MarkerShape::Circle),
+            (top, MarkerShape::Diamond),
+            (last, MarkerShape::Square),
         ];
-        for (k, (q, shape, text)) in marks.into_iter().enumerate() {
+        for (k, (q, shape)) in marks.into_iter().enumerate() {
             if k == 2 && pts.len() == 1 {
                 break;
             }
-            let c = xy(q.azimuth_deg, q.elevation_deg);
-            let px = style::rel(&plot_area, chart.backend_coord(&c));
+            let at = px_of(q);
             let color = bin_stroke(bin(q.margin_db, req)).color;
-            style::draw_marker(&plot_area, shape, px, 7, color)?;
-            // Text on the side towards the centre so it stays inside the rim; moved up or down
-            // when it would cover a label already placed.
-            let (dx, hpos) = if c.0 > 0.0 {
-                (-12, HPos::Right)
-            } else {
-                (12, HPos::Left)
-            };
-            let base_dy: i32 = if c.1 > 0.0 { 12 } else { -12 };
-            let tw = (text.chars().count() as f64 * style::NOTE_PX * 0.56) as i32;
-            let th = style::NOTE_PX as i32 + 2;
-            let boxes_at = |dy: i32| {
-                let x0 = if dx < 0 { px.0 + dx - tw } else { px.0 + dx };
-                let y0 = px.1 + dy - th / 2;
-                (x0, y0, x0 + tw, y0 + th)
-            };
-            let free = |b: (i32, i32, i32, i32), placed: &[(i32, i32, i32, i32)]| {
-                placed
-                    .iter()
-                    .all(|p| b.2 <= p.0 || p.2 <= b.0 || b.3 <= p.1 || p.3 <= b.1)
-            };
-            let dy = [0, 20, 40, 60, 80, -20]
-                .iter()
-                .map(|k| base_dy + k * base_dy.signum())
-                .find(|&dy| free(boxes_at(dy), &placed))
-                .unwrap_or(base_dy);
-            let b = boxes_at(dy);
-            placed.push(b);
-            plot_area.draw(&Rectangle::new(
-                [(b.0 - 2, b.1), (b.2 + 2, b.3)],
-                WHITE.mix(0.8).filled(),
-            ))?;
-            let font = style::note_font(style::INK).pos(Pos::new(hpos, VPos::Center));
-            plot_area.draw(&Text::new(text, (px.0 + dx, px.1 + dy), font))?;
+            style::draw_marker(&plot_area, shape, at, 7, color)?;
+            placed.push((at.0 - 9, at.1 - 9, at.0 + 9, at.1 + 9));
         }
+        tops.push((n, px_of(top)));
     }
 
-    let cols = legend.split_evenly((1, 3));
-    let entries: [Vec<(Key, String)>; 3] = [
-        vec![
-            (
-                Key::Line(bin_stroke(Bin::Met)),
-                format!("margin ≥ {req:.1} dB"),
-            ),
-            (
-                Key::Line(bin_stroke(Bin::Marginal)),
-                format!("margin 0 to {req:.1} dB"),
-            ),
-        ],
-        vec![
-            (Key::Line(bin_stroke(Bin::Fails)), "margin < 0 dB".into()),
-            (Key::Line(bin_stroke(Bin::NoData)), "no budget".into()),
-        ],
-        vec![
-            (Key::Band(style::TERRAIN, 1.0), "below horizon mask".into()),
-            (Key::Blank, "AOS ●   TCA ◆   LOS ■".into()),
-        ],
-    ];
-    for (col, e) in cols.iter().zip(entries.iter()) {
-        let inner = col.margin(10, 0, 40, 0);
-        style::draw_legend(&inner, None, e)?;
+    // Track labels (the pass number), beside the highest point, clear of every track.
+    let (aw, ah) = plot_area.dim_in_pixel();
+    let bounds = (0, 0, aw as i32, ah as i32);
+    let font = style::label_font();
+    for (n, at) in tops {
+        let text = d.passes[n].label.clone();
+        let (tw, th) = plot_area.estimate_text_size(&text, &font)?;
+        let b = place_label(
+            at,
+            (tw as i32 + 8, th as i32 + 4),
+            bounds,
+            &track_px,
+            &placed,
+        );
+        placed.push(b);
+        plot_area.draw(&Rectangle::new([(b.0, b.1), (b.2, b.3)], WHITE.filled()))?;
+        plot_area.draw(&Rectangle::new(
+            [(b.0, b.1), (b.2, b.3)],
+            ShapeStyle {
+                color: style::INK.to_rgba(),
+                filled: false,
+                stroke_width: 1,
+            },
+        ))?;
+        plot_area.draw(&Text::new(
+            text,
+            ((b.0 + b.2) / 2, (b.1 + b.3) / 2),
+            font.clone().pos(Pos::new(HPos::Center, VPos::Center)),
+        ))?;
     }
-    Ok(())
+
+    let table_h = pass_table(d, &side.margin(20, 0, 10, 10))?;
+    let mut entries: Vec<(Key, String)> = vec![
+        (
+            Key::Line(bin_stroke(Bin::Met)),
+            format!("margin ≥ {req:.1} dB"),
+        ),
+        (
+            Key::Line(bin_stroke(Bin::Marginal)),
+            format!("margin 0 to {req:.1} dB"),
+        ),
+        (Key::Line(bin_stroke(Bin::Fails)), "margin < 0 dB".into()),
+    ];
+    if no_budget {
+        entries.push((Key::Line(bin_stroke(Bin::NoData)), "no budget".into()));
+    }
+    if d.passes.iter().any(|p| p.rate_bps.is_none()) {
+        entries.push((
+            Key::Blank,
+            "\"none closes\": margin at the\nlowest-threshold rate".into(),
+        ));
+    }
+    entries.extend([
+        (Key::Band(style::TERRAIN, 1.0), "below horizon mask".into()),
+        (Key::Blank, "AOS ●   TCA ◆   LOS ■".into()),
+    ]);
+    let legend = side.margin(table_h as u32 + 40, 0, 10, 10);
+    style::draw_legend(
+        &legend,
+        Some("Clear-sky margin at the pass's rate"),
+        &entries,
+    )
+}
+
+/// The table beside the sky: one row per pass (label, AOS, TCA with the maximum elevation, LOS,
+/// the fixed rate whose margin colours the track). Returns the height it took, pixels.
+fn pass_table<DB: DrawingBackend>(
+    d: &SkyChartData,
+    area: &DrawingArea<DB, Shift>,
+) -> Result<i32, ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    // columns: x offset of each column's left edge (pixels)
+    const COLS: [i32; 6] = [0, 44, 134, 224, 292, 382];
+    let row_h = 24;
+    let font = style::note_font(style::INK);
+    let head = style::note_font(style::MUTED);
+    area.draw(&Text::new("Passes (UTC)", (0, 0), style::label_font()))?;
+    let mut y = 34;
+    for (x, t) in COLS
+        .iter()
+        .zip(["#", "AOS", "TCA", "max el", "LOS", "rate"])
+    {
+        area.draw(&Text::new(t.to_string(), (*x, y), head.clone()))?;
+    }
+    y += row_h;
+    let (_, ah) = area.dim_in_pixel();
+    // room for the legend below (about 8 entries)
+    let max_rows = ((ah as i32 - y - 260) / row_h).max(1) as usize;
+    let shown = if d.passes.len() > max_rows {
+        max_rows - 1
+    } else {
+        d.passes.len()
+    };
+    for p in &d.passes[..shown] {
+        let rate = p
+            .rate_bps
+            .map(style::format_rate)
+            .unwrap_or_else(|| "none closes".into());
+        let cells = [
+            p.label.clone(),
+            p.aos.format("%H:%M:%S").to_string(),
+            p.tca.format("%H:%M:%S").to_string(),
+            style::deg_or_na(p.max_elevation_deg),
+            p.los.format("%H:%M:%S").to_string(),
+            rate,
+        ];
+        for (x, t) in COLS.iter().zip(cells) {
+            area.draw(&Text::new(t, (*x, y), font.clone()))?;
+        }
+        y += row_h;
+    }
+    if shown < d.passes.len() {
+        area.draw(&Text::new(
+            format!("… and {} more (see summary.csv)", d.passes.len() - shown),
+            (0, y),
+            head,
+        ))?;
+        y += row_h;
+    }
+    Ok(y)
 }
 
 #[cfg(test)]

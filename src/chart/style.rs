@@ -88,6 +88,40 @@ pub fn note_font(color: RGBColor) -> TextStyle<'static> {
     (FONT, NOTE_PX).into_font().color(&color)
 }
 
+/// Height of one footer line (the caution under every chart), pixels.
+pub const FOOTER_LINE_PX: u32 = 22;
+
+/// Break `text` at spaces into lines no wider than `max_px` in `font` (a word longer than a line
+/// stands alone).
+pub fn wrap_text<DB: DrawingBackend>(
+    area: &DrawingArea<DB, plotters::coord::Shift>,
+    text: &str,
+    font: &TextStyle,
+    max_px: u32,
+) -> Result<Vec<String>, ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    let mut lines: Vec<String> = Vec::new();
+    let mut cur = String::new();
+    for word in text.split_whitespace() {
+        let candidate = if cur.is_empty() {
+            word.to_string()
+        } else {
+            format!("{cur} {word}")
+        };
+        if !cur.is_empty() && area.estimate_text_size(&candidate, font)?.0 > max_px {
+            lines.push(std::mem::replace(&mut cur, word.to_string()));
+        } else {
+            cur = candidate;
+        }
+    }
+    if !cur.is_empty() {
+        lines.push(cur);
+    }
+    Ok(lines)
+}
+
 /// A line look: colour, width and an optional dash pattern (dash, gap) in pixels.
 #[derive(Debug, Clone, Copy)]
 pub struct Stroke {
@@ -284,6 +318,19 @@ pub fn draw_legend<DB: DrawingBackend>(
 where
     DB::ErrorType: 'static,
 {
+    draw_legend_spaced(area, title, entries, 10)
+}
+
+/// [`draw_legend`] with `gap` pixels between entries (a short panel takes 3).
+pub fn draw_legend_spaced<DB: DrawingBackend>(
+    area: &DrawingArea<DB, plotters::coord::Shift>,
+    title: Option<&str>,
+    entries: &[(Key, String)],
+    gap: i32,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
     let line_h = 22;
     let mut y = 8;
     if let Some(t) = title {
@@ -340,7 +387,7 @@ where
                 )),
             ))?;
         }
-        y += line_h * label.split('\n').count() as i32 + 10;
+        y += line_h * label.split('\n').count() as i32 + gap;
     }
     Ok(())
 }
@@ -495,9 +542,11 @@ pub fn deg_or_na(v: f64) -> String {
     }
 }
 
-/// Tick step choices for UTC time axes, seconds.
-const TIME_STEPS_S: [i64; 16] = [
+/// Tick step choices for UTC time axes, seconds (up to 4, 7, 14, 28, 56, 112, 224 and 448 days,
+/// so a month, a year or the longest window of 3660 days keeps its date labels apart).
+const TIME_STEPS_S: [i64; 24] = [
     10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200, 10800, 21600, 43200, 86400, 172800,
+    345600, 604800, 1209600, 2419200, 4838400, 9676800, 19353600, 38707200,
 ];
 
 /// Ticks for a UTC time axis whose coordinate is seconds since `origin` over `[lo_s, hi_s]`:
@@ -568,6 +617,20 @@ mod tests {
         assert_eq!(ticks[0], 43.0);
         assert_eq!(ticks.len(), 10);
         assert_eq!(time_label(&aos, ticks[0], step, false), "01:24");
+    }
+
+    #[test]
+    fn long_windows_get_few_date_ticks() {
+        let start = crate::timefmt::utc(2026, 12, 1, 12, 0, 0);
+        for days in [30.0, 365.0, 3660.0] {
+            let (step, ticks) = time_ticks(&start, 0.0, days * 86400.0, 10);
+            assert!(
+                step >= 86400 && ticks.len() <= 12,
+                "{days} d: {step} s, {ticks:?}"
+            );
+        }
+        // 30 days: a tick every 4 days
+        assert_eq!(time_ticks(&start, 0.0, 30.0 * 86400.0, 10).0, 345600);
     }
 
     #[test]

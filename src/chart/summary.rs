@@ -1,13 +1,16 @@
 //! Plan summary chart: a timeline of the planning window with one bar per pass (x = AOS,
 //! height = fixed-rate volume, colour and marker shape = station, adaptive volume as a marker
-//! above the bar), and a second panel with daily totals (fixed, adaptive, Shannon bound) as
-//! grouped bars.
+//! above the bar); the daily totals as grouped bars (fixed rate summed over the stations,
+//! adaptive, the network total that counts each second once, and the rain case when planned),
+//! with the days the window covers only in part shaded and labelled with their hours; and, on
+//! its own axis, what share of Shannon's bound over the whole band the fixed and adaptive totals
+//! reach each day (the bound itself would dwarf the real volumes on a shared axis).
 
 use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
-use super::data::SummaryChartData;
+use super::data::{DayTotals, SummaryChartData};
 use super::style::{self, Key, MarkerShape};
 use super::types::{ChartError, Plot, SUMMARY_SIZE};
 use crate::timefmt::seconds_between;
@@ -65,12 +68,20 @@ where
     ))?;
     title.draw(&Text::new(
         format!(
-            "{} passes at {} station{} · fixed rate {} · adaptive {} · Shannon bound {}",
+            "{} passes at {} station{} · fixed rate {} · adaptive {}{} · Shannon bound {}",
             d.passes.len(),
             d.stations.len(),
             if d.stations.len() == 1 { "" } else { "s" },
             style::format_volume(finite_sum(d.passes.iter().map(|p| p.volume_bits))),
             style::format_volume(finite_sum(d.passes.iter().map(|p| p.adaptive_volume_bits))),
+            if d.days.iter().any(|t| t.network_bits.is_some()) {
+                format!(
+                    " · network {}",
+                    style::format_volume(finite_sum(d.days.iter().filter_map(|t| t.network_bits)))
+                )
+            } else {
+                String::new()
+            },
             style::format_volume(finite_sum(d.days.iter().map(|p| p.shannon_bits))),
         ),
         (30, 60),
@@ -78,10 +89,58 @@ where
     ))?;
 
     let x_axis_h = 62;
-    let panel_h = (h - TITLE_H - x_axis_h) / 2 + 40;
-    let (top, bottom) = body.split_vertically(panel_h);
+    let panels_h = (h - TITLE_H - x_axis_h) as f64;
+    let (top, rest) = body.split_vertically((0.42 * panels_h) as u32);
+    let (middle, bottom) = rest.split_vertically((0.36 * panels_h) as u32);
     timeline(d, &top, w)?;
-    daily(d, &bottom, w, x_axis_h)
+    let days = DayAxis::new(d);
+    daily(d, &days, &middle, w)?;
+    shannon_share(d, &days, &bottom, w, x_axis_h)
+}
+
+/// The categorical day axis shared by the daily panels: one slot per UTC day, the window's
+/// hours in each day, and the label formatter.
+struct DayAxis {
+    ticks: Vec<f64>,
+    /// Hours of the window in each day (24 for a whole day).
+    window_h: Vec<f64>,
+    every: usize,
+}
+
+impl DayAxis {
+    fn new(d: &SummaryChartData) -> Self {
+        let window_h = d
+            .days
+            .iter()
+            .map(|t| {
+                let day0 = t.date.and_time(chrono::NaiveTime::MIN).and_utc();
+                let day1 = day0 + chrono::Duration::days(1);
+                let a = day0.max(d.start);
+                let b = day1.min(d.end);
+                (seconds_between(&a, &b) / 3600.0).clamp(0.0, 24.0)
+            })
+            .collect();
+        DayAxis {
+            ticks: (0..d.days.len()).map(|i| i as f64 + 0.5).collect(),
+            window_h,
+            // Label only as many days as fit (about 14).
+            every: d.days.len().div_ceil(14).max(1),
+        }
+    }
+
+    fn label(&self, d: &SummaryChartData, v: f64) -> String {
+        let i = v.floor();
+        if i < 0.0 || (i as usize) >= d.days.len() || (i as usize) % self.every != 0 {
+            String::new()
+        } else {
+            d.days[i as usize].date.format("%a %m-%d").to_string()
+        }
+    }
+
+    /// Whether day `i` is only partly inside the window (by more than a minute).
+    fn partial(&self, i: usize) -> bool {
+        self.window_h.get(i).is_some_and(|h| *h < 24.0 - 1.0 / 60.0)
+    }
 }
 
 fn timeline<DB: DrawingBackend>(
@@ -197,73 +256,115 @@ where
 
 fn daily<DB: DrawingBackend>(
     d: &SummaryChartData,
+    axis: &DayAxis,
     area: &DrawingArea<DB, Shift>,
     w: u32,
-    x_axis_h: u32,
 ) -> Result<(), ChartError>
 where
     DB::ErrorType: 'static,
 {
     let (plot, legend) = area.split_horizontally(w - LEGEND_W);
     let n = d.days.len().max(1);
+    let has_network = d.days.iter().any(|t| t.network_bits.is_some());
+    let has_rain = d.days.iter().any(|t| t.rain_bits.is_some());
+    type Pick = fn(&DayTotals) -> Option<f64>;
+    let mut kinds: Vec<(RGBColor, String, Pick)> = vec![
+        (style::NAVY, "fixed rate (sum\nover stations)".into(), |t| {
+            Some(t.fixed_bits)
+        }),
+        (style::AMBER, "adaptive rate".into(), |t| {
+            Some(t.adaptive_bits)
+        }),
+    ];
+    if has_network {
+        kinds.push((
+            style::SKY,
+            "network: each second\nonce, best station".into(),
+            |t| t.network_bits,
+        ));
+    }
+    if has_rain {
+        let pct = d
+            .rain_exceedance_percent
+            .map(|p| format!(" ({p} %)"))
+            .unwrap_or_default();
+        kinds.push((style::PLUM, format!("fixed rate, rain\ncase{pct}"), |t| {
+            t.rain_bits
+        }));
+    }
     let max_bits = d
         .days
         .iter()
-        .flat_map(|t| [t.fixed_bits, t.adaptive_bits, t.shannon_bits])
+        .flat_map(|t| kinds.iter().filter_map(|k| (k.2)(t)))
         .filter(|v| v.is_finite())
         .fold(0.0f64, f64::max);
     let (div, unit) = style::volume_unit(max_bits);
-    let y_hi = style::zero_based_max([max_bits / div], 0.12, 1.0);
-    let ticks: Vec<f64> = (0..d.days.len()).map(|i| i as f64 + 0.5).collect();
-    let days = &d.days;
-    // Label only as many days as fit (about 14).
-    let every = d.days.len().div_ceil(14).max(1);
-    let fmt = move |v: &f64| {
-        let i = v.floor();
-        if i < 0.0 || (i as usize) >= days.len() || (i as usize) % every != 0 {
-            String::new()
-        } else {
-            days[i as usize].date.format("%a %m-%d").to_string()
-        }
-    };
+    let y_hi = style::zero_based_max([max_bits / div], 0.18, 1.0);
     let mut chart = ChartBuilder::on(&plot)
         .margin_top(20)
         .margin_left(10)
         .margin_right(24)
-        .x_label_area_size(x_axis_h)
+        .x_label_area_size(8)
         .y_label_area_size(Y_AXIS_W)
-        .build_cartesian_2d(style::TickAxis::new(0.0, n as f64, ticks), 0.0..y_hi)?;
+        .build_cartesian_2d(
+            style::TickAxis::new(0.0, n as f64, axis.ticks.clone()),
+            0.0..y_hi,
+        )?;
     chart
         .configure_mesh()
         .bold_line_style(style::GRID)
         .light_line_style(TRANSPARENT)
         .disable_x_mesh()
-        .x_label_formatter(&fmt)
+        .x_label_formatter(&|_| String::new())
         .y_label_formatter(&style::num_label)
-        .x_desc("UTC day")
         .y_desc(format!("Volume per day ({unit})"))
-        .y_labels(6)
+        .y_labels(5)
         .axis_desc_style(style::label_font())
         .label_style(style::tick_font())
         .draw()?;
-    let kinds = [
-        (style::NAVY, "fixed rate"),
-        (style::AMBER, "adaptive rate"),
-        (style::SKY, "Shannon bound"),
-    ];
+    // Days the window covers only in part: shaded, with their hours, so a short day does not
+    // read as a drop.
+    let mut any_partial = false;
+    let slot_px = chart.plotting_area().dim_in_pixel().0 as f64 / n as f64;
+    let note = style::note_font(style::INK);
+    for i in (0..d.days.len()).filter(|&i| axis.partial(i)) {
+        any_partial = true;
+        chart.draw_series(std::iter::once(Rectangle::new(
+            [(i as f64, 0.0), (i as f64 + 1.0, y_hi)],
+            style::TERRAIN.mix(0.45).filled(),
+        )))?;
+        // The longest text that fits the day's slot (the legend explains the shading).
+        let hours = axis.window_h[i];
+        let texts = [
+            format!("partial day: {hours:.1} h"),
+            format!("{hours:.0} h"),
+        ];
+        let fits = |t: &String| {
+            plot.estimate_text_size(t, &note)
+                .map(|(tw, _)| (tw as f64) < slot_px - 4.0)
+                .unwrap_or(false)
+        };
+        if let Some(text) = texts.into_iter().find(fits) {
+            chart.draw_series(std::iter::once(Text::new(
+                text,
+                (i as f64 + 0.5, y_hi),
+                note.clone().pos(Pos::new(HPos::Center, VPos::Top)),
+            )))?;
+        }
+    }
+    let bar_w = 0.76 / kinds.len() as f64;
     for (i, t) in d.days.iter().enumerate() {
-        for (k, v) in [t.fixed_bits, t.adaptive_bits, t.shannon_bits]
-            .into_iter()
-            .enumerate()
-        {
-            let v = v / div;
+        for (k, (color, _, pick)) in kinds.iter().enumerate() {
+            let Some(v) = pick(t).map(|v| v / div) else {
+                continue;
+            };
             if !v.is_finite() || v <= 0.0 {
                 continue;
             }
-            let x0 = i as f64 + 0.12 + k as f64 * 0.25;
-            let x1 = x0 + 0.25;
+            let x0 = i as f64 + 0.12 + k as f64 * bar_w;
+            let x1 = x0 + bar_w;
             chart.draw_series([
-                Rectangle::new([(x0, 0.0), (x1, v)], kinds[k].0.filled()),
+                Rectangle::new([(x0, 0.0), (x1, v)], color.filled()),
                 Rectangle::new([(x0, 0.0), (x1, v)], bar_edge()),
             ])?;
         }
@@ -275,9 +376,93 @@ where
             style::title_font().pos(Pos::new(HPos::Center, VPos::Center)),
         )))?;
     }
-    let keys: Vec<(Key, String)> = kinds
+    let mut keys: Vec<(Key, String)> = kinds
         .iter()
-        .map(|(c, l)| (Key::Band(*c, 1.0), l.to_string()))
+        .map(|(c, l, _)| (Key::Band(*c, 1.0), l.clone()))
         .collect();
-    style::draw_legend(&legend, Some("Daily total"), &keys)
+    if any_partial {
+        keys.push((
+            Key::Band(style::TERRAIN, 0.45),
+            "day the window\ncovers in part".into(),
+        ));
+    }
+    style::draw_legend_spaced(&legend, Some("Daily total"), &keys, 4)
+}
+
+/// Each day's fixed and adaptive totals as a share of Shannon's bound over the whole band
+/// (a percentage, so the bound does not dwarf the volumes above).
+fn shannon_share<DB: DrawingBackend>(
+    d: &SummaryChartData,
+    axis: &DayAxis,
+    area: &DrawingArea<DB, Shift>,
+    w: u32,
+    x_axis_h: u32,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    let (plot, legend) = area.split_horizontally(w - LEGEND_W);
+    let n = d.days.len().max(1);
+    let share = |v: f64, b: f64| {
+        if b > 0.0 && v.is_finite() && b.is_finite() {
+            100.0 * v / b
+        } else {
+            f64::NAN
+        }
+    };
+    let fixed: Vec<(f64, f64)> = d
+        .days
+        .iter()
+        .enumerate()
+        .map(|(i, t)| (i as f64 + 0.5, share(t.fixed_bits, t.shannon_bits)))
+        .collect();
+    let adaptive: Vec<(f64, f64)> = d
+        .days
+        .iter()
+        .enumerate()
+        .map(|(i, t)| (i as f64 + 0.5, share(t.adaptive_bits, t.shannon_bits)))
+        .collect();
+    let y_hi = style::zero_based_max(fixed.iter().chain(&adaptive).map(|p| p.1), 0.25, 5.0);
+    let fmt = |v: &f64| axis.label(d, *v);
+    let mut chart = ChartBuilder::on(&plot)
+        .margin_top(10)
+        .margin_left(10)
+        .margin_right(24)
+        .x_label_area_size(x_axis_h)
+        .y_label_area_size(Y_AXIS_W)
+        .build_cartesian_2d(
+            style::TickAxis::new(0.0, n as f64, axis.ticks.clone()),
+            0.0..y_hi,
+        )?;
+    chart
+        .configure_mesh()
+        .bold_line_style(style::GRID)
+        .light_line_style(TRANSPARENT)
+        .disable_x_mesh()
+        .x_label_formatter(&fmt)
+        .y_label_formatter(&style::num_label)
+        .x_desc("UTC day")
+        .y_desc("% of Shannon")
+        .y_labels(4)
+        .axis_desc_style(style::label_font())
+        .label_style(style::tick_font())
+        .draw()?;
+    let area_px = chart.plotting_area().strip_coord_spec();
+    let mut keys = Vec::new();
+    for (k, (pts, label)) in [(fixed, "fixed rate"), (adaptive, "adaptive rate")]
+        .into_iter()
+        .enumerate()
+    {
+        let s = style::Stroke::series(k, 3);
+        style::stroke_line!(chart, draw_series, pts.clone(), s);
+        for p in pts.iter().filter(|p| p.1.is_finite()) {
+            let px = style::rel(&area_px, chart.backend_coord(p));
+            style::draw_marker(&area_px, MarkerShape::series(k), px, 5, s.color)?;
+        }
+        keys.push((
+            Key::LineMarker(s, MarkerShape::series(k)),
+            label.to_string(),
+        ));
+    }
+    style::draw_legend_spaced(&legend, Some("Share of Shannon's bound"), &keys, 4)
 }

@@ -7,8 +7,8 @@ use std::path::PathBuf;
 
 /// Pass chart size, pixels.
 pub const PASS_SIZE: (u32, u32) = (1600, 1000);
-/// Sky chart size, pixels.
-pub const SKY_SIZE: (u32, u32) = (1000, 1000);
+/// Sky chart size, pixels (the sky and, beside it, the pass table and the legend).
+pub const SKY_SIZE: (u32, u32) = (1400, 1000);
 /// Mask trade-off chart size, pixels.
 pub const MASK_SIZE: (u32, u32) = (1600, 1000);
 /// Plan summary chart size, pixels.

@@ -66,6 +66,14 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
             moon_noise_k: 0.0,
             receiver_noise_k: 70.0,
             atmospheric_loss_db: atm,
+            // toy terrain: 8 deg towards the first half of the pass, 5 deg after
+            mask_elevation_deg: if t < half { 8.0 } else { 5.0 },
+            // toy rain case: 2 dB more loss and 40 K more noise
+            rain: Some(PassChartRain {
+                ebn0_db: ebn0 - 2.0 - 10.0 * ((tsys + 40.0) / tsys).log10(),
+                system_temperature_k: tsys + 40.0,
+                atmospheric_loss_db: atm + 2.0,
+            }),
         });
         t += 10.0;
     }
@@ -88,6 +96,10 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
         satellite: "KESTREL-7 (synthetic)".into(),
         station: "Sierra Baja".into(),
         pass_number,
+        pass_id: format!(
+            "sierra-baja-{}",
+            (aos + Duration::seconds(half as i64)).format("%Y%m%dT%H%MZ")
+        ),
         aos,
         tca: at(half),
         los: at(dur),
@@ -100,6 +112,9 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
         required_margin_db: margin_req,
         closes_from: first.map(at),
         closes_until: last.map(at),
+        rain_exceedance_percent: Some(1.0),
+        rain_rate_bps: first.map(|_| 10e6),
+        rain_volume_bits: Some(10e6 * closed_s),
         samples,
     }
 }
@@ -175,14 +190,20 @@ fn pass_svg_has_labels() {
     dump("pass.svg", svg.as_bytes());
     assert!(svg.starts_with("<svg"));
     for needle in [
-        "KESTREL-7 (synthetic) over Sierra Baja · pass 3 · 2026-12-02",
+        &format!(
+            "KESTREL-7 (synthetic) over Sierra Baja · pass 3 ({}) · 2026-12-02",
+            d.pass_id
+        ),
         "25 Mbit/s ccsds-rs-cc",
         "Elevation (deg)",
         "Slant range (km)",
         "Eb/N0 (dB)",
-        "Adaptive rate (Mbit/s)",
-        "System noise temp. (K)",
-        "Atmospheric loss (dB)",
+        "Rate (Mbit/s)",
+        "Noise temp. (K)",
+        "rain case (1 %),",
+        "Tsys, rain case (1 %)",
+        "station mask at the",
+        "rain (1 %): 10 Mbit/s",
         "Time (UTC)",
         "AOS 01:23:17",
         &format!("LOS {}", d.los.format("%H:%M:%S")),
@@ -333,7 +354,7 @@ fn sample_sky() -> SkyChartData {
     {
         let p = synthetic_pass(i + 1, utc(2026, 12, 2, hour, 10, 0), offset);
         passes.push(SkyPass {
-            label: format!("{:02} {}Z", p.pass_number, p.aos.format("%H:%M")),
+            label: p.pass_number.to_string(),
             points: p
                 .samples
                 .iter()
@@ -352,6 +373,8 @@ fn sample_sky() -> SkyChartData {
             aos: p.aos,
             tca: p.tca,
             los: p.los,
+            max_elevation_deg: p.max_elevation_deg,
+            rate_bps: p.rate_bps,
         });
     }
     SkyChartData {
@@ -377,15 +400,20 @@ fn sky_renders() {
     let d = sample_sky();
     render_checked(
         "sky",
-        (1000, 1000),
+        (1400, 1000),
         |f| draw_sky(&d, f),
         &[
             "Sierra Baja",
             "\nN\n",
             "\nE\n",
-            "AOS 01:10",
-            "01 01:10Z TCA",
+            // the table beside the sky: the pass number with its times and rate
+            "Passes (UTC)",
+            "01:10:00",
+            &d.passes[2].los.format("%H:%M:%S").to_string(),
+            "25 Mbit/s",
+            "Clear-sky margin at the pass&apos;s rate",
             "margin &lt; 0 dB",
+            "no budget",
             "below horizon mask",
         ],
     );
@@ -424,7 +452,7 @@ fn sample_mask() -> MaskChartData {
             })
             .collect(),
         masks_deg: masks,
-        configured_mask_deg: 10.0,
+        configured_masks_deg: vec![("Sierra Baja".into(), 10.0)],
     }
 }
 
@@ -502,6 +530,8 @@ fn sample_summary() -> SummaryChartData {
                 fixed_bits: f,
                 adaptive_bits: a,
                 shannon_bits: 1.6 * a,
+                network_bits: Some(0.9 * f),
+                rain_bits: Some(0.7 * f),
             }
         })
         .collect();
@@ -512,6 +542,7 @@ fn sample_summary() -> SummaryChartData {
         stations,
         passes,
         days,
+        rain_exceedance_percent: Some(1.0),
     }
 }
 
@@ -531,8 +562,15 @@ fn summary_renders() {
             "Shannon bound",
             "2026-12-03",
             "Thu 12-03",
+            "network: each second",
+            "fixed rate, rain",
+            "% of Shannon",
+            "Share of Shannon&apos;s bound",
         ],
     );
+    // a window of whole days: no day is marked partial
+    let svg = String::from_utf8(draw_summary(&d, ChartFormat::Svg).unwrap()).unwrap();
+    assert!(!svg.contains("partial day"));
     assert_eq!(
         summary_file_name(&d.satellite, &d.start, &d.end, ChartFormat::Svg),
         "summary-kestrel-7-synthetic-20261202-20261209.svg"
@@ -567,7 +605,7 @@ fn non_finite_inputs_do_not_leak_or_panic() {
     let mut mask = sample_mask();
     mask.contact_s_per_day[4] = f64::NAN;
     mask.rates[0].volume_bits_per_day[7] = f64::INFINITY;
-    mask.configured_mask_deg = f64::NAN;
+    mask.configured_masks_deg[0].1 = f64::NAN;
     no_nan(draw_mask(&mask, ChartFormat::Svg).unwrap());
     draw_mask(&mask, ChartFormat::Png).unwrap();
 
@@ -577,4 +615,213 @@ fn non_finite_inputs_do_not_leak_or_panic() {
     sum.days[1].shannon_bits = f64::NAN;
     no_nan(draw_summary(&sum, ChartFormat::Svg).unwrap());
     draw_summary(&sum, ChartFormat::Png).unwrap();
+}
+
+fn svg_text(bytes: Vec<u8>) -> String {
+    String::from_utf8(bytes).unwrap()
+}
+
+/// Every chart carries the outputs' one caution (the text `summary.json` has in
+/// `assumptions.caution`), wrapped to the chart's width: its first sentence fits on one line of
+/// every chart, and no word of it is lost.
+#[test]
+fn every_chart_carries_the_caution() {
+    let caution = passbudget::report::plan::CAUTION;
+    let first = caution.split(". ").next().unwrap();
+    assert!(first.contains("safety-of-life"));
+    let words: Vec<&str> = caution.split_whitespace().collect();
+    let charts = [
+        svg_text(draw_pass(&sample_pass(), ChartFormat::Svg).unwrap()),
+        svg_text(draw_sky(&sample_sky(), ChartFormat::Svg).unwrap()),
+        svg_text(draw_mask(&sample_mask(), ChartFormat::Svg).unwrap()),
+        svg_text(draw_summary(&sample_summary(), ChartFormat::Svg).unwrap()),
+    ];
+    for svg in &charts {
+        assert!(svg.contains(first), "caution missing");
+        for w in &words {
+            assert!(svg.contains(w), "caution word {w:?} missing");
+        }
+    }
+}
+
+/// A kbit/s link reads in kbit/s on the pass chart: its rate axis, title and legend (a 9.6 kbit/s
+/// rate once printed as "0 Mbit/s"). Units as in the SI Brochure (BIPM, 9th ed., section 3).
+#[test]
+fn pass_chart_of_a_kbit_link_speaks_kbit() {
+    let mut d = sample_pass();
+    let scale = 9600.0 / d.rate_bps.unwrap();
+    d.rate_bps = Some(9600.0);
+    d.rain_rate_bps = Some(1200.0);
+    for s in &mut d.samples {
+        s.adaptive_rate_bps = s.adaptive_rate_bps.map(|r| r * scale);
+    }
+    let svg = svg_text(draw_pass(&d, ChartFormat::Svg).unwrap());
+    for needle in [
+        "9.6 kbit/s ccsds-rs-cc",
+        "Rate (kbit/s)",
+        "Eb/N0 at 9.6 kbit/s",
+        "fixed rate 9.6 kbit/s",
+        "rain (1 %): 1.2 kbit/s",
+    ] {
+        assert!(svg.contains(needle), "SVG lacks {needle:?}");
+    }
+    assert!(!svg.contains("0 Mbit/s"));
+    assert!(!svg.contains("Mbit/s)"));
+}
+
+/// The pass chart without a rain case draws neither rain line nor rain legend.
+#[test]
+fn pass_chart_without_rain_case() {
+    let mut d = sample_pass();
+    d.rain_exceedance_percent = None;
+    d.rain_rate_bps = None;
+    d.rain_volume_bits = None;
+    for s in &mut d.samples {
+        s.rain = None;
+    }
+    let svg = svg_text(draw_pass(&d, ChartFormat::Svg).unwrap());
+    assert!(!svg.contains("rain"), "a rain entry without a rain case");
+    assert!(svg.contains("Tsys, clear sky"));
+}
+
+/// "no budget" is in the sky legend only when a track has a point without a budget (the sample's
+/// first pass has some); a legend entry for a look that is never drawn was misleading.
+#[test]
+fn sky_legend_lists_no_budget_only_when_drawn() {
+    let mut d = sample_sky();
+    assert!(svg_text(draw_sky(&d, ChartFormat::Svg).unwrap()).contains("no budget"));
+    for p in &mut d.passes {
+        for q in &mut p.points {
+            q.margin_db = q.margin_db.or(Some(1.0));
+        }
+    }
+    let svg = svg_text(draw_sky(&d, ChartFormat::Svg).unwrap());
+    assert!(!svg.contains("no budget"));
+    // every pass of the sample has a rate: no note on passes without one
+    assert!(!svg.contains("none closes"));
+    // each track is numbered on the sky and in the table, without AOS/LOS time labels on the sky
+    for p in &d.passes {
+        assert!(
+            svg.contains(&format!("\n{}\n", p.label)),
+            "label {}",
+            p.label
+        );
+    }
+    assert!(!svg.contains("AOS 0") && !svg.contains("LOS 0"));
+    // a pass without a closing rate: the table and the legend say which margin its track shows
+    d.passes[1].rate_bps = None;
+    let svg = svg_text(draw_sky(&d, ChartFormat::Svg).unwrap());
+    assert!(svg.contains("none closes"));
+    assert!(svg.contains("lowest-threshold rate"));
+}
+
+/// A rate that never closes (every value 0) says so in the legend instead of hiding on the zero
+/// line; a rate far below the others gives its largest volume per day.
+#[test]
+fn mask_legend_marks_never_closing_and_tiny_rates() {
+    let mut d = sample_mask();
+    let n = d.masks_deg.len();
+    d.rates.push(MaskRateSeries {
+        label: "9.6 kbit/s cc-r1/2".into(),
+        volume_bits_per_day: vec![0.0; n],
+    });
+    d.rates.push(MaskRateSeries {
+        label: "1.2 kbit/s cc-r1/2".into(),
+        volume_bits_per_day: (0..n).map(|i| 1e6 * (n - i) as f64).collect(),
+    });
+    let svg = svg_text(draw_mask(&d, ChartFormat::Svg).unwrap());
+    assert!(svg.contains("9.6 kbit/s cc-r1/2"));
+    assert!(svg.contains("never closes (on the 0 line)"));
+    // the largest value of the tiny rate: 41 x 1 Mbit
+    assert!(svg.contains("≤ 41 Mbit/day, near the 0 line"));
+    // the rates that close at their scale carry no such note
+    assert_eq!(svg.matches("never closes").count(), 1);
+    assert_eq!(svg.matches("near the 0 line").count(), 1);
+}
+
+/// The all-stations mask chart names each station's configured mask (it said "configured mask
+/// 3.0 deg" when the stations used 3, 5 and 5) and draws a line at each distinct value.
+#[test]
+fn mask_chart_of_all_stations_names_each_mask() {
+    let mut d = sample_mask();
+    d.scope = "all stations".into();
+    d.configured_masks_deg = vec![
+        ("Nordkam".into(), 5.0),
+        ("Sierra Baja".into(), 3.0),
+        ("Pulau Reka".into(), 5.0),
+    ];
+    let svg = svg_text(draw_mask(&d, ChartFormat::Svg).unwrap());
+    assert!(svg
+        .contains("configured mask per station: Nordkam 5.0°, Sierra Baja 3.0°, Pulau Reka 5.0°"));
+    assert!(!svg.contains("configured mask 3.0°"));
+    assert!(svg.contains(" 3.0°") && svg.contains(" 5.0°"));
+    // every station at the same mask: said once
+    for m in &mut d.configured_masks_deg {
+        m.1 = 5.0;
+    }
+    let svg = svg_text(draw_mask(&d, ChartFormat::Svg).unwrap());
+    assert!(svg.contains("configured mask 5.0° at every station"));
+}
+
+/// Days the window covers only in part are marked with their hours (a 12 h first day read as a
+/// drop in volume), and the rain and network totals are in the legend only when given.
+#[test]
+fn summary_marks_partial_days() {
+    let mut d = sample_summary();
+    d.start += Duration::hours(12);
+    d.end += Duration::hours(6);
+    d.days.push(DayTotals {
+        date: NaiveDate::from_ymd_opt(2026, 12, 9).unwrap(),
+        fixed_bits: 1e11,
+        adaptive_bits: 1.2e11,
+        shannon_bits: 2e11,
+        network_bits: None,
+        rain_bits: None,
+    });
+    let svg = svg_text(draw_summary(&d, ChartFormat::Svg).unwrap());
+    assert!(svg.contains("partial day: 12.0 h"), "first day");
+    assert!(svg.contains("partial day: 6.0 h"), "last day");
+    assert_eq!(svg.matches("partial day:").count(), 2);
+    assert!(svg.contains("day the window"));
+    for t in &mut d.days {
+        t.network_bits = None;
+        t.rain_bits = None;
+    }
+    d.rain_exceedance_percent = None;
+    let svg = svg_text(draw_summary(&d, ChartFormat::Svg).unwrap());
+    assert!(!svg.contains("network") && !svg.contains("rain"));
+}
+
+/// `chart --pass ID` writes its one-pass sky chart under the pass's identifier and leaves the
+/// day's sky chart of every pass as `plan --charts` wrote it (it used to overwrite it).
+#[test]
+fn chart_of_one_pass_keeps_the_days_sky_chart() {
+    use crate::common::bin::{run, success};
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let o = out.to_string_lossy().into_owned();
+    let mission = "examples/wrenlet-1.yaml";
+    success(&run(&[
+        "plan", mission, "--days", "1", "--out", &o, "--charts",
+    ]));
+    let day = NaiveDate::from_ymd_opt(2026, 12, 1).unwrap();
+    let days_chart = out.join(sky_file_name("Nordkam", day, ChartFormat::Png));
+    let before = std::fs::read(&days_chart).unwrap();
+    let one_name = "sky-nordkam-20261201T1852Z.png";
+    // pass 3 is Nordkam's first pass of the day (AOS 18:49:37, LOS 18:54:59: the README's table);
+    // by its number and by its identifier
+    for pass in ["3", "nordkam-20261201T1852Z"] {
+        success(&run(&[
+            "chart", mission, "--days", "1", "--out", &o, "--pass", pass, "--kind", "sky",
+        ]));
+        assert_eq!(std::fs::read(&days_chart).unwrap(), before);
+        let one = out.join(one_name);
+        assert_eq!(
+            sky_pass_file_name("nordkam-20261201T1852Z", ChartFormat::Png),
+            one_name
+        );
+        let (w, h, _, _) = png_stats(&std::fs::read(&one).unwrap());
+        assert_eq!((w, h), SKY_SIZE);
+        std::fs::remove_file(&one).unwrap();
+    }
 }
