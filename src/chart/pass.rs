@@ -617,7 +617,7 @@ where
         &legend,
         None,
         &[
-            (Key::Line(ad), "adaptive rate\n(highest that closes)".into()),
+            (Key::Line(ad), "adaptive rate\n(one modem, hysteresis)".into()),
             (Key::Line(fx), fixed_label),
         ],
     )
