@@ -49,6 +49,7 @@ fn synthetic_pass() -> PassChartData {
         })
         .collect();
     PassChartData {
+        warnings: Vec::new(),
         satellite: "KESTREL-7 (synthetic)".into(),
         station: "Sierra Baja".into(),
         pass_number: 3,
@@ -93,6 +94,7 @@ fn synthetic_sky(p: &PassChartData) -> SkyChartData {
         })
         .collect();
     SkyChartData {
+        warnings: Vec::new(),
         station: "Sierra Baja".into(),
         satellite: "KESTREL-7 (synthetic)".into(),
         title_date: "2026-12-02".into(),
@@ -107,6 +109,7 @@ fn synthetic_mask() -> MaskChartData {
     let masks: Vec<f64> = (0..=40).map(f64::from).collect();
     let contact = |m: f64| 4.0 * 3600.0 * ((90.0 - m) / 90.0).powi(3);
     MaskChartData {
+        warnings: Vec::new(),
         scope: "network".into(),
         contact_s_per_day: masks.iter().map(|&m| contact(m)).collect(),
         rates: [10e6, 25e6, 50e6, 100e6]
@@ -147,6 +150,7 @@ fn synthetic_summary(p: &PassChartData) -> SummaryChartData {
         })
         .collect();
     SummaryChartData {
+        warnings: Vec::new(),
         satellite: "KESTREL-7 (synthetic)".into(),
         start,
         end: start + Duration::days(7),

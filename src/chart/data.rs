@@ -100,6 +100,8 @@ pub struct PassChartData {
     pub rain_rate_bps: Option<f64>,
     pub rain_volume_bits: Option<f64>,
     pub samples: Vec<PassChartSample>,
+    /// Warnings printed in the footer under the caution (e.g. stale elements).
+    pub warnings: Vec<String>,
 }
 
 /// One point of a sky track.
@@ -140,6 +142,8 @@ pub struct SkyChartData {
     pub horizon_mask: Vec<[f64; 2]>,
     pub required_margin_db: f64,
     pub passes: Vec<SkyPass>,
+    /// Warnings printed in the footer under the caution (e.g. stale elements).
+    pub warnings: Vec<String>,
 }
 
 /// Volume per day against mask elevation for one ladder rate.
@@ -164,6 +168,8 @@ pub struct MaskChartData {
     /// The configured mask of each station in the scope: (station name, deg). One entry for a
     /// station's chart; every station for the all-stations chart (each gets its own line).
     pub configured_masks_deg: Vec<(String, f64)>,
+    /// Warnings printed in the footer under the caution (e.g. stale elements).
+    pub warnings: Vec<String>,
 }
 
 /// One pass on the plan summary timeline.
@@ -203,4 +209,6 @@ pub struct SummaryChartData {
     pub days: Vec<DayTotals>,
     /// The availability case's exceedance percentage, when planned (for the legend).
     pub rain_exceedance_percent: Option<f64>,
+    /// Warnings printed in the footer under the caution (e.g. stale elements).
+    pub warnings: Vec<String>,
 }

@@ -41,6 +41,9 @@ pub(super) fn check(d: &MaskChartData) -> Result<(), ChartError> {
 impl Plot for MaskChartData {
     const NAME: &'static str = "mask";
 
+    fn warnings(&self) -> &[String] {
+        &self.warnings
+    }
     fn size(&self) -> (u32, u32) {
         MASK_SIZE
     }

@@ -92,12 +92,20 @@ where
     root.fill(&WHITE)?;
     let (w, h) = root.dim_in_pixel();
     let font = style::note_font(style::MUTED);
-    let lines = style::wrap_text(
+    let mut lines = style::wrap_text(
         root,
         crate::report::plan::CAUTION,
         &font,
         w.saturating_sub(60),
     )?;
+    for warning in chart.warnings() {
+        lines.extend(style::wrap_text(
+            root,
+            &format!("warning: {warning}"),
+            &font,
+            w.saturating_sub(60),
+        )?);
+    }
     let footer_h = (lines.len() as u32 * style::FOOTER_LINE_PX + 14).min(h / 4);
     let (body, footer) = root.split_vertically(h - footer_h);
     chart.plot(&body)?;

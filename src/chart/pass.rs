@@ -26,6 +26,9 @@ const Y_AXIS_W: u32 = 95;
 impl Plot for PassChartData {
     const NAME: &'static str = "pass";
 
+    fn warnings(&self) -> &[String] {
+        &self.warnings
+    }
     fn size(&self) -> (u32, u32) {
         PASS_SIZE
     }
@@ -617,7 +620,10 @@ where
         &legend,
         None,
         &[
-            (Key::Line(ad), "adaptive rate\n(one modem, hysteresis)".into()),
+            (
+                Key::Line(ad),
+                "adaptive rate\n(one modem, hysteresis)".into(),
+            ),
             (Key::Line(fx), fixed_label),
         ],
     )

@@ -86,6 +86,15 @@ impl PassSink for ChartSink<'_> {
     }
 }
 
+/// The warnings every chart of a plan prints under its caution: the element-age warning when the
+/// window lies more than a week from the element epoch (the CSV and JSON carry every warning).
+pub fn chart_warnings(planner: &Planner) -> Vec<String> {
+    let w = planner.window();
+    crate::plan::inputs::element_age_warning(planner.elements(), w.start(), w.end())
+        .into_iter()
+        .collect()
+}
+
 /// The pass chart input of one pass.
 pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
     let plan = s.plan;
@@ -131,6 +140,7 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
         })
         .collect();
     PassChartData {
+        warnings: chart_warnings(planner),
         satellite: satellite_name(planner.elements()),
         station: planner.stations()[plan.station_index].station.name.clone(),
         pass_number: plan.number,
@@ -234,6 +244,7 @@ fn sky_charts(
         .map(|((si, day), passes)| {
             let st = &planner.stations()[si];
             let data = SkyChartData {
+                warnings: chart_warnings(planner),
                 station: st.station.name.clone(),
                 satellite: satellite.clone(),
                 title_date: day.format("%Y-%m-%d").to_string(),
@@ -292,6 +303,7 @@ fn mask_charts(
             .collect();
         let label = t.scope.label(stations);
         let data = MaskChartData {
+            warnings: chart_warnings(planner),
             scope: label.clone(),
             masks_deg: t.masks_deg.iter().map(|&m| m as f64).collect(),
             contact_s_per_day: t.contact_s_per_day.clone(),
@@ -326,6 +338,7 @@ fn summary_chart(
 ) -> Result<PathBuf, ChartError> {
     let satellite = satellite_name(planner.elements());
     let data = SummaryChartData {
+        warnings: chart_warnings(planner),
         satellite: satellite.clone(),
         start: plan.window.start(),
         end: plan.window.end(),

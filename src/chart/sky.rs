@@ -101,6 +101,9 @@ fn mask_at(points: &[[f64; 2]], min_deg: f64, azimuth_deg: f64) -> f64 {
 impl Plot for SkyChartData {
     const NAME: &'static str = "sky";
 
+    fn warnings(&self) -> &[String] {
+        &self.warnings
+    }
     fn size(&self) -> (u32, u32) {
         SKY_SIZE
     }

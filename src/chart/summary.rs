@@ -22,6 +22,9 @@ const Y_AXIS_W: u32 = 95;
 impl Plot for SummaryChartData {
     const NAME: &'static str = "summary";
 
+    fn warnings(&self) -> &[String] {
+        &self.warnings
+    }
     fn size(&self) -> (u32, u32) {
         SUMMARY_SIZE
     }

@@ -53,6 +53,8 @@ impl<E: std::error::Error + Send + Sync> From<DrawingAreaErrorKind<E>> for Chart
 pub(super) trait Plot {
     const NAME: &'static str;
     fn size(&self) -> (u32, u32);
+    /// Warnings for the footer, under the caution (the element-age warning of stale elements).
+    fn warnings(&self) -> &[String];
     fn plot<DB: DrawingBackend>(&self, root: &DrawingArea<DB, Shift>) -> Result<(), ChartError>
     where
         DB::ErrorType: 'static;

@@ -93,6 +93,7 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
         .map(|s| s.elevation_deg)
         .fold(f64::MIN, f64::max);
     PassChartData {
+        warnings: Vec::new(),
         satellite: "KESTREL-7 (synthetic)".into(),
         station: "Sierra Baja".into(),
         pass_number,
@@ -378,6 +379,7 @@ fn sample_sky() -> SkyChartData {
         });
     }
     SkyChartData {
+        warnings: Vec::new(),
         station: "Sierra Baja".into(),
         satellite: "KESTREL-7 (synthetic)".into(),
         title_date: "2026-12-02".into(),
@@ -442,6 +444,7 @@ fn sample_mask() -> MaskChartData {
         (100e6, 25.0, "100 Mbit/s 8psk-ldpc"),
     ];
     MaskChartData {
+        warnings: Vec::new(),
         scope: "Sierra Baja".into(),
         contact_s_per_day: masks.iter().map(|&m| contact(m)).collect(),
         rates: ladder
@@ -536,6 +539,7 @@ fn sample_summary() -> SummaryChartData {
         })
         .collect();
     SummaryChartData {
+        warnings: Vec::new(),
         satellite: "KESTREL-7 (synthetic)".into(),
         start,
         end: start + Duration::days(7),

@@ -386,3 +386,36 @@ fn every_table_and_csv_carries_the_caution() {
         );
     }
 }
+
+/// Stale elements are said in the chart footers too, under the caution (SVG text is searchable).
+#[test]
+fn chart_footers_carry_the_element_age_warning() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("charts");
+    let o = run(&[
+        "chart",
+        "examples/wrenlet-1.yaml",
+        "--start",
+        "2026-12-20T00:00:00Z",
+        "--days",
+        "0.3",
+        "--kind",
+        "summary",
+        "--chart-format",
+        "svg",
+        "--out",
+        &out.to_string_lossy(),
+        "--quiet",
+    ]);
+    success(&o);
+    let svg = std::fs::read_dir(&out)
+        .unwrap()
+        .map(|e| std::fs::read_to_string(e.unwrap().path()).unwrap())
+        .find(|t| t.contains("<svg"))
+        .expect("a summary chart");
+    assert!(svg.contains("Planning estimates only"), "caution missing");
+    assert!(
+        svg.contains("days after the epoch"),
+        "element-age warning missing"
+    );
+}
