@@ -391,33 +391,37 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             )?;
         }
         Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
-        Format::Table => {
-            let mut t = Table::new(&[
-                ("time (UTC)", Align::Left),
-                ("az deg", Align::Right),
-                ("el deg", Align::Right),
-                ("range km", Align::Right),
-                ("rate km/s", Align::Right),
-                ("Doppler Hz", Align::Right),
-                ("Sun sep deg", Align::Right),
-            ]);
-            for r in &rows {
-                t.row(vec![
-                    r.time.clone(),
-                    format!("{:.2}", r.azimuth_deg),
-                    format!("{:.2}", r.elevation_deg),
-                    format!("{:.1}", r.range_km),
-                    format!("{:.4}", r.range_rate_km_s),
-                    r.doppler_hz
-                        .map(|d| format!("{d:.0}"))
-                        .unwrap_or_else(|| "-".into()),
-                    format!("{:.1}", r.sun_separation_deg),
-                ]);
-            }
-            write!(out, "{}", t.render())?;
-            writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
-        }
+        Format::Table => print_track(&rows, out)?,
     }
+    Ok(())
+}
+
+/// The track as a table, with the caution under it.
+fn print_track(rows: &[TrackRow], out: &mut dyn Write) -> Result<()> {
+    let mut t = Table::new(&[
+        ("time (UTC)", Align::Left),
+        ("az deg", Align::Right),
+        ("el deg", Align::Right),
+        ("range km", Align::Right),
+        ("rate km/s", Align::Right),
+        ("Doppler Hz", Align::Right),
+        ("Sun sep deg", Align::Right),
+    ]);
+    for r in rows {
+        t.row(vec![
+            r.time.clone(),
+            format!("{:.2}", r.azimuth_deg),
+            format!("{:.2}", r.elevation_deg),
+            format!("{:.1}", r.range_km),
+            format!("{:.4}", r.range_rate_km_s),
+            r.doppler_hz
+                .map(|d| format!("{d:.0}"))
+                .unwrap_or_else(|| "-".into()),
+            format!("{:.1}", r.sun_separation_deg),
+        ]);
+    }
+    write!(out, "{}", t.render())?;
+    writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
     Ok(())
 }
 
