@@ -1,6 +1,6 @@
 //! Radio link: free-space loss ([`path`]), spacecraft and ground antennas
 //! ([`antenna`]), polarization mismatch ([`polarization`]), modulation and coding
-//! ([`modcod`]), channel capacity ([`capacity`]) and the prepared link budget
+//! ([`modcod`], the mission's own schemes in [`schemes`]), channel capacity ([`capacity`]) and the prepared link budget
 //! ([`budget`]). Special functions (erfc, Q and inverses) live in [`crate::special`].
 //!
 //! The budget takes atmospheric numbers as plain inputs
@@ -10,5 +10,6 @@ pub mod antenna;
 pub mod budget;
 pub mod capacity;
 pub mod modcod;
+pub mod schemes;
 pub mod path;
 pub mod polarization;
