@@ -133,13 +133,11 @@ mod tests {
 }
 
 /// 1-based line of `key` inside the list item that starts at line `item_line` (1-based, the line
-/// of its `- `): the first line of the item whose key is `key`, else the item's own line (a flow
-/// item `- { a: 1, b: 2 }` is one line).
-pub fn item_key_line(text: &str, item_line: usize, key: &str) -> usize {
+/// of its `- `): the first line of the item whose key is `key`; `None` when no line of the item
+/// starts with it (a key inside a flow mapping `- { a: 1, b: 2 }` is not seen).
+pub fn item_key_line(text: &str, item_line: usize, key: &str) -> Option<usize> {
     let lines: Vec<&str> = text.lines().collect();
-    let Some(first) = lines.get(item_line.saturating_sub(1)) else {
-        return item_line;
-    };
+    let first = lines.get(item_line.checked_sub(1)?)?;
     let dash = first.len() - first.trim_start().len();
     for (i, raw) in lines.iter().enumerate().skip(item_line - 1) {
         let t = raw.trim_start();
@@ -153,9 +151,9 @@ pub fn item_key_line(text: &str, item_line: usize, key: &str) -> usize {
         let body = t.strip_prefix("- ").unwrap_or(t);
         if let Some(rest) = body.strip_prefix(key) {
             if rest.trim_start().starts_with(':') {
-                return i + 1;
+                return Some(i + 1);
             }
         }
     }
-    item_line
+    None
 }

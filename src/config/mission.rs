@@ -547,16 +547,20 @@ fn user_schemes(c: &Checker, files: &[SchemeFile]) -> Result<SchemeRegistry, Con
     const KEY: &str = "modem.schemes";
     let mut user = Vec::new();
     for (i, f) in files.iter().enumerate() {
+        // The error's line: the line of the key within the item (of its last part, else of its
+        // first: `overhead: { efficiency: 2 }`), else the item's.
         let at = |key: &str, msg: String| {
-            let line = c
-                .item_line(KEY, i)
-                .map(|l| super::locate::item_key_line(c.text, l, key));
+            let line = c.item_line(KEY, i).map(|l| {
+                let find = |k: &str| super::locate::item_key_line(c.text, l, k);
+                let last = key.rsplit('.').next().unwrap_or(key);
+                let first = key.split('.').next().unwrap_or(key);
+                find(last).or_else(|| find(first)).unwrap_or(l)
+            });
             let full = format!("{KEY}.{key}");
             c.err_at(line, &full, format!("scheme {} ({}): {msg}", i + 1, f.name))
         };
         let spec = user_scheme_spec(f).map_err(|(key, msg)| at(key, msg))?;
-        let s = UserScheme::new(&spec)
-            .map_err(|e| at(e.key(&spec.threshold).rsplit('.').next().unwrap_or(""), e.to_string()))?;
+        let s = UserScheme::new(&spec).map_err(|e| at(e.key(&spec.threshold), e.to_string()))?;
         user.push(s);
     }
     SchemeRegistry::new(user).map_err(|e| {
@@ -570,7 +574,7 @@ fn user_schemes(c: &Checker, files: &[SchemeFile]) -> Result<SchemeRegistry, Con
         };
         let line = c
             .item_line(KEY, i)
-            .map(|l| super::locate::item_key_line(c.text, l, "name"));
+            .map(|l| super::locate::item_key_line(c.text, l, "name").unwrap_or(l));
         c.err_at(line, &format!("{KEY}.name"), format!("scheme {}: {e}", i + 1))
     })
 }
