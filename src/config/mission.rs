@@ -575,16 +575,19 @@ fn user_schemes(c: &Checker, files: &[SchemeFile]) -> Result<SchemeRegistry, Con
         let line = c
             .item_line(KEY, i)
             .map(|l| super::locate::item_key_line(c.text, l, "name").unwrap_or(l));
-        c.err_at(line, &format!("{KEY}.name"), format!("scheme {}: {e}", i + 1))
+        c.err_at(
+            line,
+            &format!("{KEY}.name"),
+            format!("scheme {}: {e}", i + 1),
+        )
     })
 }
 
 /// The library's description of one user scheme: its ranges ([`limits`]) checked, one threshold
 /// and one form of overhead. An error is `(key, message)`.
 fn user_scheme_spec(f: &SchemeFile) -> Result<UserSchemeSpec, (&'static str, String)> {
-    let range = |key: &'static str, r: &limits::Range, v: f64| {
-        r.check(v).map_err(|e| (key, e.to_string()))
-    };
+    let range =
+        |key: &'static str, r: &limits::Range, v: f64| r.check(v).map_err(|e| (key, e.to_string()));
     range(
         "bits_per_symbol",
         &limits::SCHEME_BITS_PER_SYMBOL,
@@ -688,7 +691,10 @@ fn ladder(
     for (i, st) in steps.iter().enumerate() {
         let bad = |msg: String| c.item_err(KEY, "step", i, msg);
         let index = schemes.index(&st.scheme).map_err(|e| bad(e.to_string()))?;
-        let name = schemes.name(index).map(|n| n.to_string()).unwrap_or_default();
+        let name = schemes
+            .name(index)
+            .map(|n| n.to_string())
+            .unwrap_or_default();
         let rates: Vec<(f64, Option<f64>)> = match (st.rate_bps, &st.symbol_rates_baud) {
             (Some(r), None) => vec![(r, None)],
             (None, Some(bauds)) if !bauds.is_empty() => {

@@ -10,6 +10,6 @@ pub mod antenna;
 pub mod budget;
 pub mod capacity;
 pub mod modcod;
-pub mod schemes;
 pub mod path;
 pub mod polarization;
+pub mod schemes;

@@ -22,8 +22,12 @@
 //!   Eb/N0 = Es/N0 - 10 log10(eta).
 //!
 //! Eb/N0 is always per information bit. Frame overheads outside the code (CCSDS
-//! attached sync markers, DVB-S2 pilots) are not included for CCSDS; for DVB-S2 the
+//! attached sync markers, DVB-S2 pilots) are not included for CCSDS (framing efficiency 1; the
+//! mission's own schemes of [`crate::link::schemes`] carry an overhead); for DVB-S2 the
 //! BBHEADER and PLHEADER are included through eta.
+//!
+//! A second search of the published text (2026-12-02) found the CCSDS figures' captions but no
+//! number read off them: the CCSDS thresholds stay "from memory" (docs/REFERENCES.md §2).
 //!
 //! Target error rate: a coded scheme's threshold is for the error rate and measure
 //! (BER, FER, PER) of the figure it came from. Requesting another rate returns the
@@ -265,7 +269,9 @@ pub enum ModcodError {
     ApproximationRange { value: f64, max: f64 },
     #[error("scheme index {index} out of range (registry has {len} schemes)")]
     Index { index: usize, len: usize },
-    #[error("scheme {name:?} is a built-in scheme's name; give the mission's own scheme another name")]
+    #[error(
+        "scheme {name:?} is a built-in scheme's name; give the mission's own scheme another name"
+    )]
     ClashesWithBuiltin { name: String },
     #[error("scheme {name:?} is defined twice")]
     Duplicate { name: String },
