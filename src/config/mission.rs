@@ -543,7 +543,7 @@ fn modem(c: &mut Checker, m: &ModemFile) -> Result<ModemConfig, ConfigError> {
 
 /// The mission's own schemes with the built-in catalogue: each validated
 /// ([`UserScheme::new`]), none named like a built-in scheme or like another.
-fn user_schemes(c: &Checker, files: &[SchemeFile]) -> Result<SchemeRegistry, ConfigError> {
+fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry, ConfigError> {
     const KEY: &str = "modem.schemes";
     let mut user = Vec::new();
     for (i, f) in files.iter().enumerate() {
@@ -561,6 +561,16 @@ fn user_schemes(c: &Checker, files: &[SchemeFile]) -> Result<SchemeRegistry, Con
         };
         let spec = user_scheme_spec(f).map_err(|(key, msg)| at(key, msg))?;
         let s = UserScheme::new(&spec).map_err(|e| at(e.key(&spec.threshold), e.to_string()))?;
+        // Where the choice moves the threshold (an overhead below 100 % efficiency), the basis
+        // taken for an Eb/N0 given without `ebn0_per` is listed among the defaults.
+        let eb = !matches!(spec.threshold, UserThreshold::EsN0 { .. });
+        if f.ebn0_per.is_none() && eb && s.framing_efficiency < 1.0 {
+            c.defaults.push(super::DefaultUsed {
+                key: format!("modem.schemes.ebn0_per ({})", s.name),
+                value: "code_input_bit".into(),
+                source: "a code's threshold is stated per bit entering the code".into(),
+            });
+        }
         user.push(s);
     }
     SchemeRegistry::new(user).map_err(|e| {

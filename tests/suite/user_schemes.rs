@@ -265,7 +265,18 @@ const GOOD: &str = "  schemes:\n    - name: own-ldpc\n      bits_per_symbol: 2\n
 
 #[test]
 fn bad_schemes_are_refused_with_file_line_and_key() {
-    assert!(load(GOOD).is_ok(), "{:?}", load(GOOD).err());
+    // The good block: its table's 4.15 dB at 1e-6 is per bit entering the code (the default,
+    // listed among the defaults since the 32-bit marker in 8192 bits moves it): per information
+    // bit 4.15 + 10 log10(8192 / 8160) dB (computed).
+    let good = load(GOOD).unwrap();
+    assert!(good
+        .defaults
+        .iter()
+        .any(|d| d.key == "modem.schemes.ebn0_per (own-ldpc)" && d.value == "code_input_bit"));
+    let reg = &good.modem.as_ref().unwrap().schemes;
+    let op = reg.operating_point(reg.index("own-ldpc").unwrap(), None).unwrap();
+    let want = 4.15 + 10.0 * (8192.0f64 / 8160.0).log10();
+    assert!((op.required_ebn0_db - want).abs() < 1e-12, "{}", op.required_ebn0_db);
     let dir = tempfile::tempdir().unwrap();
     let cases: &[(&str, &str, &str, &[&str])] = &[
         (
