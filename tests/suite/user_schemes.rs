@@ -274,9 +274,15 @@ fn bad_schemes_are_refused_with_file_line_and_key() {
         .iter()
         .any(|d| d.key == "modem.schemes.ebn0_per (own-ldpc)" && d.value == "code_input_bit"));
     let reg = &good.modem.as_ref().unwrap().schemes;
-    let op = reg.operating_point(reg.index("own-ldpc").unwrap(), None).unwrap();
+    let op = reg
+        .operating_point(reg.index("own-ldpc").unwrap(), None)
+        .unwrap();
     let want = 4.15 + 10.0 * (8192.0f64 / 8160.0).log10();
-    assert!((op.required_ebn0_db - want).abs() < 1e-12, "{}", op.required_ebn0_db);
+    assert!(
+        (op.required_ebn0_db - want).abs() < 1e-12,
+        "{}",
+        op.required_ebn0_db
+    );
     let dir = tempfile::tempdir().unwrap();
     let cases: &[(&str, &str, &str, &[&str])] = &[
         (
@@ -320,6 +326,18 @@ fn bad_schemes_are_refused_with_file_line_and_key() {
             "name: own-ldpc",
             "name: CCSDS-LDPC-R7/8",
             &[":18:", "modem.schemes.name", "built-in"],
+        ),
+        (
+            "two thresholds",
+            "      error_rate: 1.0e-6\n",
+            "      required_ebn0_db: 4.0\n      error_rate: 1.0e-6\n",
+            &[":22:", "modem.schemes.required_ebn0_db", "only one of"],
+        ),
+        (
+            "a code rate that is not a number",
+            "code_rate: 0.8745",
+            "code_rate: half",
+            &[":20:", "code_rate"],
         ),
         (
             "an unknown scheme in the ladder",
