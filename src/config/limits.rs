@@ -264,6 +264,63 @@ pub const RATE_BPS: Range = Range {
 };
 
 /// Symbol rate of the adaptive mode, baud.
+/// Symbol rate of a ladder item given as `symbol_rates_baud`, baud (the adaptive mode's range).
+pub const LADDER_SYMBOL_RATE_BAUD: Range = Range {
+    key: "modem.ladder.symbol_rates_baud",
+    min: 1.0,
+    max: 1e10,
+    unit: "baud",
+};
+
+/// Bits per channel symbol of a user scheme (BPSK 1 to 65536-ary 16).
+pub const SCHEME_BITS_PER_SYMBOL: Range = Range {
+    key: "modem.schemes.bits_per_symbol",
+    min: 1.0,
+    max: 16.0,
+    unit: "",
+};
+
+/// Error rate a user scheme's threshold is for (BER, FER or PER).
+pub const SCHEME_ERROR_RATE: Range = Range {
+    key: "modem.schemes.error_rate",
+    min: 1e-15,
+    max: 0.4,
+    unit: "",
+};
+
+/// Required Eb/N0 of a user scheme, dB (Shannon's limit is -1.59 dB; checked against the limit
+/// at the scheme's spectral efficiency too).
+pub const SCHEME_EBN0_DB: Range = Range {
+    key: "modem.schemes.required_ebn0_db",
+    min: -2.0,
+    max: 40.0,
+    unit: "dB",
+};
+
+/// Required Es/N0 of a user scheme, dB.
+pub const SCHEME_ESN0_DB: Range = Range {
+    key: "modem.schemes.required_esn0_db",
+    min: -15.0,
+    max: 40.0,
+    unit: "dB",
+};
+
+/// A point of a user scheme's table: its error rate.
+pub const SCHEME_TABLE_ERROR_RATE: Range = Range {
+    key: "modem.schemes.table",
+    min: 1e-15,
+    max: 0.4,
+    unit: "",
+};
+
+/// A point of a user scheme's table: its Eb/N0, dB.
+pub const SCHEME_TABLE_EBN0_DB: Range = Range {
+    key: "modem.schemes.table",
+    min: -2.0,
+    max: 40.0,
+    unit: "dB",
+};
+
 /// Extra margin before the adaptive modem switches up, dB.
 pub const HYSTERESIS_DB: Range = Range {
     key: "modem.adaptive.hysteresis_db",
@@ -596,6 +653,8 @@ pub const APPLIES_TO: &[(Range, &str)] = &[
     (NOISE_PATTERN_GAIN_DBI, "a point's gain"),
     (MEASURED_NOISE_ELEVATION_DEG, "a point's elevation"),
     (MEASURED_NOISE_TEMPERATURE_K, "a point's temperature"),
+    (SCHEME_TABLE_ERROR_RATE, "a point's error rate"),
+    (SCHEME_TABLE_EBN0_DB, "a point's Eb/N0"),
 ];
 
 /// What `r` applies to where its key has several ranges ([`APPLIES_TO`]); empty otherwise.
@@ -635,6 +694,13 @@ pub const ALL: &[Range] = &[
     MAX_BANDWIDTH_HZ,
     MIN_DWELL_S,
     RATE_BPS,
+    LADDER_SYMBOL_RATE_BAUD,
+    SCHEME_BITS_PER_SYMBOL,
+    SCHEME_ERROR_RATE,
+    SCHEME_EBN0_DB,
+    SCHEME_ESN0_DB,
+    SCHEME_TABLE_ERROR_RATE,
+    SCHEME_TABLE_EBN0_DB,
     SYMBOL_RATE_BAUD,
     HYSTERESIS_DB,
     RELOCK_S,

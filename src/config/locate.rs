@@ -100,6 +100,32 @@ pub fn duplicate_key_line(text: &str, map_line: usize, key: &str) -> Option<usiz
     None
 }
 
+/// 1-based line of `key` inside the list item that starts at line `item_line` (1-based, the line
+/// of its `- `): the first line of the item whose key is `key`; `None` when no line of the item
+/// starts with it (a key inside a flow mapping `- { a: 1, b: 2 }` is not seen).
+pub fn item_key_line(text: &str, item_line: usize, key: &str) -> Option<usize> {
+    let lines: Vec<&str> = text.lines().collect();
+    let first = lines.get(item_line.checked_sub(1)?)?;
+    let dash = first.len() - first.trim_start().len();
+    for (i, raw) in lines.iter().enumerate().skip(item_line - 1) {
+        let t = raw.trim_start();
+        if t.is_empty() || t.starts_with('#') {
+            continue;
+        }
+        let indent = raw.len() - t.len();
+        if i + 1 > item_line && indent <= dash {
+            break;
+        }
+        let body = t.strip_prefix("- ").unwrap_or(t);
+        if let Some(rest) = body.strip_prefix(key) {
+            if rest.trim_start().starts_with(':') {
+                return Some(i + 1);
+            }
+        }
+    }
+    None
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -7,7 +7,11 @@ use super::overrides::{parse_with, Overrides};
 use super::{read_text, Checker, ConfigError, DefaultUsed};
 use crate::config::station::Station;
 use crate::link::antenna::TxPattern;
+use crate::link::modcod::ErrorMeasure;
 use crate::link::polarization::PolarizationSense;
+use crate::link::schemes::{
+    EbN0Basis, Framing, SchemeRegistry, UserScheme, UserSchemeSpec, UserThreshold,
+};
 use serde::Deserialize;
 use std::path::{Path, PathBuf};
 
@@ -93,16 +97,65 @@ struct ModemFile {
     max_bandwidth_hz: Option<f64>,
     min_dwell_s: Option<f64>,
     #[serde(default)]
+    schemes: Vec<SchemeFile>,
+    #[serde(default)]
     ladder: Vec<LadderStepFile>,
     #[serde(default)]
     adaptive: Option<AdaptiveFile>,
 }
 
+/// A ladder item: one rate (`rate_bps`, the information rate) or one scheme at several symbol
+/// rates (`symbol_rates_baud`).
 #[derive(Debug, Clone, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct LadderStepFile {
-    rate_bps: f64,
+    rate_bps: Option<f64>,
+    symbol_rates_baud: Option<Vec<f64>>,
     scheme: String,
+}
+
+/// What a user scheme's error rate counts.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize)]
+#[serde(rename_all = "lowercase")]
+enum MeasureFile {
+    Ber,
+    Fer,
+    Per,
+}
+
+/// Which bit a user scheme's Eb/N0 is stated per.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize)]
+#[serde(rename_all = "snake_case")]
+enum EbN0PerFile {
+    CodeInputBit,
+    InformationBit,
+}
+
+/// One of the mission's own schemes (`modem.schemes`).
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SchemeFile {
+    name: String,
+    bits_per_symbol: u32,
+    code_rate: f64,
+    required_ebn0_db: Option<f64>,
+    required_esn0_db: Option<f64>,
+    table: Option<Vec<[f64; 2]>>,
+    ebn0_per: Option<EbN0PerFile>,
+    error_rate: f64,
+    error_measure: MeasureFile,
+    overhead: Option<OverheadFile>,
+}
+
+/// A user scheme's framing overhead: one frame's bits, or the efficiency itself.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct OverheadFile {
+    sync_marker_bits: Option<u64>,
+    parity_bits: Option<u64>,
+    header_bits: Option<u64>,
+    frame_bits: Option<u64>,
+    efficiency: Option<f64>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -131,8 +184,12 @@ pub struct TransmitterConfig {
 /// One step of the fixed-rate ladder.
 #[derive(Debug, Clone, PartialEq)]
 pub struct LadderStep {
+    /// Information rate, bit/s (given, or the symbol rate x the scheme's spectral efficiency).
     pub rate_bps: f64,
+    /// The scheme's name as the registry spells it (lower case).
     pub scheme: String,
+    /// The symbol rate, when the step was given by `symbol_rates_baud`.
+    pub symbol_rate_baud: Option<f64>,
     /// 1-based line in the mission file, for later errors (unknown scheme, bandwidth).
     pub line: Option<usize>,
 }
@@ -162,6 +219,9 @@ pub struct ModemConfig {
     pub min_dwell_s: f64,
     pub ladder: Vec<LadderStep>,
     pub adaptive: Option<AdaptiveConfig>,
+    /// The schemes the ladder and the adaptive set may name: the built-in catalogue and the
+    /// mission's own (`modem.schemes`).
+    pub schemes: SchemeRegistry,
     /// 1-based line of the `modem` key in the mission file, for later errors about the block.
     pub line: Option<usize>,
 }
@@ -454,6 +514,7 @@ fn tx_table(c: &Checker, points: &[[f64; 2]]) -> Result<Vec<[f64; 2]>, ConfigErr
 /// The modem block.
 fn modem(c: &mut Checker, m: &ModemFile) -> Result<ModemConfig, ConfigError> {
     use limits as l;
+    let schemes = user_schemes(c, &m.schemes)?;
     Ok(ModemConfig {
         roll_off: c.or_default(&l::ROLL_OFF, m.roll_off, &dflt::ROLL_OFF)?,
         implementation_loss_db: c.or_default(
@@ -469,41 +530,232 @@ fn modem(c: &mut Checker, m: &ModemFile) -> Result<ModemConfig, ConfigError> {
         target_ber: c.or_default(&l::TARGET_BER, m.target_ber, &dflt::TARGET_BER)?,
         max_bandwidth_hz: c.optional(&l::MAX_BANDWIDTH_HZ, m.max_bandwidth_hz)?,
         min_dwell_s: c.or_default(&l::MIN_DWELL_S, m.min_dwell_s, &dflt::MIN_DWELL_S)?,
-        ladder: ladder(c, &m.ladder)?,
-        adaptive: m.adaptive.as_ref().map(|a| adaptive(c, a)).transpose()?,
+        ladder: ladder(c, &m.ladder, &schemes)?,
+        adaptive: m
+            .adaptive
+            .as_ref()
+            .map(|a| adaptive(c, a, &schemes))
+            .transpose()?,
+        schemes,
         line: c.line("modem"),
     })
 }
 
-/// The fixed-rate ladder: each rate within its range, no step given twice.
-fn ladder(c: &Checker, steps: &[LadderStepFile]) -> Result<Vec<LadderStep>, ConfigError> {
+/// The mission's own schemes with the built-in catalogue: each validated
+/// ([`UserScheme::new`]), none named like a built-in scheme or like another.
+fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry, ConfigError> {
+    const KEY: &str = "modem.schemes";
+    let mut user = Vec::new();
+    for (i, f) in files.iter().enumerate() {
+        // The error's line: the line of the key within the item (of its last part, else of its
+        // first: `overhead: { efficiency: 2 }`), else the item's.
+        let at = |key: &str, msg: String| {
+            let line = c.item_line(KEY, i).map(|l| {
+                let find = |k: &str| super::locate::item_key_line(c.text, l, k);
+                let last = key.rsplit('.').next().unwrap_or(key);
+                let first = key.split('.').next().unwrap_or(key);
+                find(last).or_else(|| find(first)).unwrap_or(l)
+            });
+            let full = format!("{KEY}.{key}");
+            c.err_at(line, &full, format!("scheme {} ({}): {msg}", i + 1, f.name))
+        };
+        let spec = user_scheme_spec(f).map_err(|(key, msg)| at(key, msg))?;
+        let s = UserScheme::new(&spec).map_err(|e| at(e.key(&spec.threshold), e.to_string()))?;
+        // Where the choice moves the threshold (an overhead below 100 % efficiency), the basis
+        // taken for an Eb/N0 given without `ebn0_per` is listed among the defaults.
+        let eb = !matches!(spec.threshold, UserThreshold::EsN0 { .. });
+        if f.ebn0_per.is_none() && eb && s.framing_efficiency < 1.0 {
+            c.defaults.push(super::DefaultUsed {
+                key: format!("modem.schemes.ebn0_per ({})", s.name),
+                value: "code_input_bit".into(),
+                source: "a code's threshold is stated per bit entering the code".into(),
+            });
+        }
+        user.push(s);
+    }
+    SchemeRegistry::new(user).map_err(|e| {
+        let i = match &e {
+            crate::link::modcod::ModcodError::ClashesWithBuiltin { name }
+            | crate::link::modcod::ModcodError::Duplicate { name } => files
+                .iter()
+                .rposition(|f| f.name.trim().eq_ignore_ascii_case(name))
+                .unwrap_or(0),
+            _ => 0,
+        };
+        let line = c
+            .item_line(KEY, i)
+            .map(|l| super::locate::item_key_line(c.text, l, "name").unwrap_or(l));
+        c.err_at(
+            line,
+            &format!("{KEY}.name"),
+            format!("scheme {}: {e}", i + 1),
+        )
+    })
+}
+
+/// The library's description of one user scheme: its ranges ([`limits`]) checked, one threshold
+/// and one form of overhead. An error is `(key, message)`.
+fn user_scheme_spec(f: &SchemeFile) -> Result<UserSchemeSpec, (&'static str, String)> {
+    let range =
+        |key: &'static str, r: &limits::Range, v: f64| r.check(v).map_err(|e| (key, e.to_string()));
+    range(
+        "bits_per_symbol",
+        &limits::SCHEME_BITS_PER_SYMBOL,
+        f.bits_per_symbol as f64,
+    )?;
+    range("error_rate", &limits::SCHEME_ERROR_RATE, f.error_rate)?;
+    let per = match f.ebn0_per {
+        Some(EbN0PerFile::InformationBit) => EbN0Basis::InformationBit,
+        _ => EbN0Basis::CodeInputBit,
+    };
+    let threshold = match (f.required_ebn0_db, f.required_esn0_db, &f.table) {
+        (Some(db), None, None) => UserThreshold::EbN0 {
+            db: range("required_ebn0_db", &limits::SCHEME_EBN0_DB, db)?,
+            per,
+        },
+        (None, Some(db), None) => {
+            if f.ebn0_per.is_some() {
+                let msg = "ebn0_per applies to an Eb/N0 threshold, not to required_esn0_db";
+                return Err(("ebn0_per", msg.into()));
+            }
+            UserThreshold::EsN0 {
+                db: range("required_esn0_db", &limits::SCHEME_ESN0_DB, db)?,
+            }
+        }
+        (None, None, Some(t)) => {
+            for (k, p) in t.iter().enumerate() {
+                let point = |e: limits::RangeError| ("table", format!("point {}: {e}", k + 1));
+                limits::SCHEME_TABLE_ERROR_RATE.check(p[0]).map_err(point)?;
+                limits::SCHEME_TABLE_EBN0_DB.check(p[1]).map_err(point)?;
+            }
+            UserThreshold::Table {
+                points: t.iter().map(|p| (p[0], p[1])).collect(),
+                per,
+            }
+        }
+        (None, None, None) => {
+            let msg = "no threshold: give one of required_ebn0_db, required_esn0_db or table";
+            return Err(("required_ebn0_db", msg.into()));
+        }
+        _ => {
+            let msg = "give only one of required_ebn0_db, required_esn0_db and table";
+            return Err(("required_ebn0_db", msg.into()));
+        }
+    };
+    Ok(UserSchemeSpec {
+        name: f.name.clone(),
+        bits_per_symbol: f.bits_per_symbol,
+        code_rate: f.code_rate,
+        threshold,
+        error_rate: f.error_rate,
+        measure: match f.error_measure {
+            MeasureFile::Ber => ErrorMeasure::Ber,
+            MeasureFile::Fer => ErrorMeasure::Fer,
+            MeasureFile::Per => ErrorMeasure::Per,
+        },
+        framing: framing(f.overhead.as_ref())?,
+    })
+}
+
+/// The overhead block: `frame_bits` with the sync marker, parity and header bits in it (each 0
+/// when left out), or `efficiency`; not both.
+fn framing(o: Option<&OverheadFile>) -> Result<Framing, (&'static str, String)> {
+    let Some(o) = o else { return Ok(Framing::None) };
+    match (o.frame_bits, o.efficiency) {
+        (Some(frame_bits), None) => Ok(Framing::Frame {
+            sync_marker_bits: o.sync_marker_bits.unwrap_or(0),
+            parity_bits: o.parity_bits.unwrap_or(0),
+            header_bits: o.header_bits.unwrap_or(0),
+            frame_bits,
+        }),
+        (None, Some(e)) => {
+            if o.sync_marker_bits.or(o.parity_bits).or(o.header_bits).is_some() {
+                let msg = "give the frame's bits (frame_bits with sync_marker_bits, parity_bits, header_bits) or efficiency, not both";
+                return Err(("overhead", msg.into()));
+            }
+            Ok(Framing::Efficiency(e))
+        }
+        (Some(_), Some(_)) => Err((
+            "overhead",
+            "give frame_bits (with its sync marker, parity and header bits) or efficiency, not both".into(),
+        )),
+        (None, None) => Err((
+            "overhead",
+            "needs frame_bits (with sync_marker_bits, parity_bits, header_bits) or efficiency".into(),
+        )),
+    }
+}
+
+/// The fixed-rate ladder: each item a rate (`rate_bps`) or a scheme at several symbol rates
+/// (`symbol_rates_baud`), every scheme known to `schemes`, each rate within its range, no step
+/// given twice.
+fn ladder(
+    c: &Checker,
+    steps: &[LadderStepFile],
+    schemes: &SchemeRegistry,
+) -> Result<Vec<LadderStep>, ConfigError> {
     const KEY: &str = "modem.ladder";
     let mut ladder: Vec<LadderStep> = Vec::new();
+    // The file's item of each step, for messages.
+    let mut items: Vec<usize> = Vec::new();
     for (i, st) in steps.iter().enumerate() {
-        if let Err(e) = limits::RATE_BPS.check(st.rate_bps) {
-            return Err(c.item_err(KEY, "step", i, format!("rate_bps {e}")));
+        let bad = |msg: String| c.item_err(KEY, "step", i, msg);
+        let index = schemes.index(&st.scheme).map_err(|e| bad(e.to_string()))?;
+        let name = schemes
+            .name(index)
+            .map(|n| n.to_string())
+            .unwrap_or_default();
+        let rates: Vec<(f64, Option<f64>)> = match (st.rate_bps, &st.symbol_rates_baud) {
+            (Some(r), None) => vec![(r, None)],
+            (None, Some(bauds)) if !bauds.is_empty() => {
+                let eta = schemes.spectral_efficiency(index);
+                let mut v = Vec::new();
+                for b in bauds {
+                    let b = limits::LADDER_SYMBOL_RATE_BAUD
+                        .check(*b)
+                        .map_err(|e| bad(format!("symbol_rates_baud {e}")))?;
+                    // Rb = Rs x eta (information bits per symbol)
+                    v.push((b * eta, Some(b)));
+                }
+                v
+            }
+            (None, Some(_)) => return Err(bad("symbol_rates_baud lists no rate".into())),
+            (Some(_), Some(_)) => {
+                return Err(bad("give rate_bps or symbol_rates_baud, not both".into()))
+            }
+            (None, None) => return Err(bad("needs rate_bps or symbol_rates_baud".into())),
+        };
+        for (rate_bps, symbol_rate_baud) in rates {
+            if let Err(e) = limits::RATE_BPS.check(rate_bps) {
+                return Err(bad(format!("rate_bps {e}")));
+            }
+            let same = |o: &LadderStep| o.rate_bps == rate_bps && o.scheme == name;
+            if let Some(j) = ladder.iter().position(same) {
+                let msg = format!(
+                    "{} bit/s with {name} is already step {}",
+                    limits::short_number(rate_bps),
+                    items[j] + 1
+                );
+                return Err(bad(msg));
+            }
+            ladder.push(LadderStep {
+                rate_bps,
+                scheme: name.clone(),
+                symbol_rate_baud,
+                line: c.item_line(KEY, i),
+            });
+            items.push(i);
         }
-        let same = |o: &LadderStep| o.rate_bps == st.rate_bps && o.scheme == st.scheme;
-        if let Some(j) = ladder.iter().position(same) {
-            let msg = format!(
-                "{} bit/s with {} is already step {}",
-                limits::short_number(st.rate_bps),
-                st.scheme,
-                j + 1
-            );
-            return Err(c.item_err(KEY, "step", i, msg));
-        }
-        ladder.push(LadderStep {
-            rate_bps: st.rate_bps,
-            scheme: st.scheme.clone(),
-            line: c.item_line(KEY, i),
-        });
     }
     Ok(ladder)
 }
 
 /// The adaptive (variable coding and modulation) block: at least one scheme, none twice.
-fn adaptive(c: &mut Checker, a: &AdaptiveFile) -> Result<AdaptiveConfig, ConfigError> {
+fn adaptive(
+    c: &mut Checker,
+    a: &AdaptiveFile,
+    registry: &SchemeRegistry,
+) -> Result<AdaptiveConfig, ConfigError> {
     const KEY: &str = "modem.adaptive.schemes";
     let symbol_rate_baud = c.range(&limits::SYMBOL_RATE_BAUD, a.symbol_rate_baud)?;
     if a.schemes.is_empty() {
@@ -511,6 +763,9 @@ fn adaptive(c: &mut Checker, a: &AdaptiveFile) -> Result<AdaptiveConfig, ConfigE
     }
     let mut schemes: Vec<(String, Option<usize>)> = Vec::new();
     for (i, s) in a.schemes.iter().enumerate() {
+        registry
+            .index(s)
+            .map_err(|e| c.item_err(KEY, "scheme", i, e))?;
         if let Some(j) = schemes.iter().position(|(o, _)| o == s) {
             let msg = format!("{s} is already scheme {}", j + 1);
             return Err(c.item_err(KEY, "scheme", i, msg));
@@ -660,7 +915,7 @@ mod tests {
 
     #[test]
     fn tiny_rate_is_rejected_with_its_line() {
-        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n    - { rate_bps: 1e-300, scheme: a }\n";
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: qpsk }\n    - { rate_bps: 1e-300, scheme: qpsk }\n";
         let e = mission(t).unwrap_err();
         assert_eq!(e.line, Some(7));
         assert!(
@@ -672,12 +927,12 @@ mod tests {
 
     #[test]
     fn duplicate_ladder_step_is_rejected() {
-        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n    - { rate_bps: 1e6, scheme: b }\n    - { rate_bps: 1.0e6, scheme: a }\n";
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: qpsk }\n    - { rate_bps: 1e6, scheme: bpsk }\n    - { rate_bps: 1.0e6, scheme: qpsk }\n";
         let e = mission(t).unwrap_err();
         assert_eq!(e.line, Some(8));
         assert!(
             e.message
-                .contains("step 3: 1000000 bit/s with a is already step 1"),
+                .contains("step 3: 1000000 bit/s with qpsk is already step 1"),
             "{e}"
         );
     }
@@ -686,12 +941,12 @@ mod tests {
     /// step is (before: accepted silently).
     #[test]
     fn duplicate_adaptive_scheme_is_rejected() {
-        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n  adaptive:\n    symbol_rate_baud: 1e6\n    schemes:\n      - a\n      - b\n      - a\n";
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: qpsk }\n  adaptive:\n    symbol_rate_baud: 1e6\n    schemes:\n      - qpsk\n      - bpsk\n      - qpsk\n";
         let e = mission(t).unwrap_err();
         assert_eq!(e.line, Some(12), "{e}");
         assert!(
             e.message
-                .contains("modem.adaptive.schemes scheme 3: a is already scheme 1"),
+                .contains("modem.adaptive.schemes scheme 3: qpsk is already scheme 1"),
             "{e}"
         );
     }
@@ -699,7 +954,7 @@ mod tests {
     #[test]
     fn modem_line_and_reported_defaults() {
         let m = mission(
-            "planning:\n  step_s: 2\nmodem:\n  ladder:\n    - { rate_bps: 1e6, scheme: a }\n",
+            "planning:\n  step_s: 2\nmodem:\n  ladder:\n    - { rate_bps: 1e6, scheme: qpsk }\n",
         )
         .unwrap();
         let modem = m.modem.unwrap();

@@ -176,9 +176,14 @@ impl RateSpec {
     pub fn implementation_loss_db(&self) -> f64 {
         self.implementation_loss_db
     }
-    /// Symbol rate Rs = Rb / eta, baud.
+    /// Symbol rate Rs = Rb / eta, baud (eta = bits per symbol x code rate x framing efficiency).
     pub fn symbol_rate_baud(&self) -> f64 {
         self.rate_bps / self.operating.spectral_efficiency
+    }
+    /// Channel (coded) bit rate Rc = Rs x bits per symbol, bit/s: the information rate with the
+    /// framing overhead and the code's redundancy.
+    pub fn channel_rate_bps(&self) -> f64 {
+        self.symbol_rate_baud() * self.operating.bits_per_symbol as f64
     }
     /// Occupied bandwidth Rs (1 + roll-off), Hz.
     pub fn occupied_bandwidth_hz(&self) -> f64 {
@@ -222,7 +227,10 @@ pub struct BudgetValues {
     pub system_temperature_k: f64,
     pub g_over_t_db_k: f64,
     pub cn0_dbhz: f64,
+    /// Information rate, bit/s (Eb is per information bit).
     pub rate_bps: f64,
+    /// Channel (coded) bit rate: symbol rate x bits per symbol, bit/s.
+    pub channel_rate_bps: f64,
     pub symbol_rate_baud: f64,
     pub occupied_bandwidth_hz: f64,
     pub ebn0_db: f64,
@@ -247,7 +255,8 @@ pub struct BudgetItem {
     pub name: &'static str,
     pub value: f64,
     pub unit: &'static str,
-    pub source: &'static str,
+    /// Where the value comes from (a scheme's name for its threshold, so not always static).
+    pub source: std::borrow::Cow<'static, str>,
 }
 
 /// A prepared, validated link: everything that does not change during a pass.
@@ -413,6 +422,7 @@ impl LinkModel {
             g_over_t_db_k: noise.g_over_t_db_k,
             cn0_dbhz,
             rate_bps: rate.rate_bps,
+            channel_rate_bps: rate.channel_rate_bps(),
             symbol_rate_baud: r.symbol_rate_baud,
             occupied_bandwidth_hz: r.occupied_bandwidth_hz,
             ebn0_db: r.ebn0_db,
@@ -500,7 +510,7 @@ impl LinkModel {
         rate: RateSpec,
     ) -> Result<Vec<BudgetItem>, BudgetError> {
         let v = self.evaluate(geometry, atmosphere, external, rate)?;
-        let mut items = Vec::with_capacity(37);
+        let mut items = Vec::with_capacity(39);
         items.extend(self.transmit_items(&v));
         items.extend(path_items(&v, &geometry, self.polarization_extra_db));
         items.extend(self.receive_items(&v));
@@ -677,12 +687,17 @@ fn rate_figures(cn0_dbhz: f64, rate: &RateSpec) -> RateFigures {
 }
 
 /// One printed budget line.
-fn item(name: &'static str, value: f64, unit: &'static str, source: &'static str) -> BudgetItem {
+fn item(
+    name: &'static str,
+    value: f64,
+    unit: &'static str,
+    source: impl Into<std::borrow::Cow<'static, str>>,
+) -> BudgetItem {
     BudgetItem {
         name,
         value,
         unit,
-        source,
+        source: source.into(),
     }
 }
 
@@ -724,11 +739,23 @@ fn path_items(v: &BudgetValues, geometry: &BudgetGeometry, extra_db: f64) -> [Bu
 }
 
 /// Budget lines of the rate: C/N0, rates, bandwidth, Eb/N0, Es/N0, requirement, margin, Shannon.
-fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 13] {
+fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 15] {
     let op = &rate.operating;
     [
         item("cn0", v.cn0_dbhz, "dBHz", "EIRP - losses + G/T - k"),
         item("data_rate", v.rate_bps, "bit/s", "input"),
+        item(
+            "framing_efficiency",
+            op.framing_efficiency,
+            "",
+            "information bits per bit entering the code",
+        ),
+        item(
+            "channel_rate",
+            v.channel_rate_bps,
+            "bit/s",
+            "Rb / (framing efficiency x code rate) = Rs x bits per symbol",
+        ),
         item("symbol_rate", v.symbol_rate_baud, "baud", "Rb / eta"),
         item(
             "occupied_bandwidth",
@@ -738,7 +765,12 @@ fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 13] {
         ),
         item("ebn0", v.ebn0_db, "dB", "C/N0 - 10 log10(Rb)"),
         item("esn0", v.esn0_db, "dB", "C/N0 - 10 log10(Rs)"),
-        item("required_ebn0", v.required_ebn0_db, "dB", op.name),
+        item(
+            "required_ebn0",
+            v.required_ebn0_db,
+            "dB",
+            format!("{} (per information bit)", op.name),
+        ),
         item(
             "required_error_rate",
             op.error_rate,
@@ -779,9 +811,5 @@ fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 13] {
 }
 
 fn provenance_text(op: &OperatingPoint) -> &'static str {
-    match op.provenance {
-        crate::link::modcod::Provenance::Computed(s)
-        | crate::link::modcod::Provenance::Published(s)
-        | crate::link::modcod::Provenance::FromMemory(s) => s,
-    }
+    op.provenance.status_and_source().1
 }

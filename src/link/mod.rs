@@ -1,6 +1,6 @@
 //! Radio link: free-space loss ([`path`]), spacecraft and ground antennas
 //! ([`antenna`]), polarization mismatch ([`polarization`]), modulation and coding
-//! ([`modcod`]), channel capacity ([`capacity`]) and the prepared link budget
+//! ([`modcod`], the mission's own schemes in [`schemes`]), channel capacity ([`capacity`]) and the prepared link budget
 //! ([`budget`]). Special functions (erfc, Q and inverses) live in [`crate::special`].
 //!
 //! The budget takes atmospheric numbers as plain inputs
@@ -12,3 +12,4 @@ pub mod capacity;
 pub mod modcod;
 pub mod path;
 pub mod polarization;
+pub mod schemes;

@@ -22,8 +22,12 @@
 //!   Eb/N0 = Es/N0 - 10 log10(eta).
 //!
 //! Eb/N0 is always per information bit. Frame overheads outside the code (CCSDS
-//! attached sync markers, DVB-S2 pilots) are not included for CCSDS; for DVB-S2 the
+//! attached sync markers, DVB-S2 pilots) are not included for CCSDS (framing efficiency 1; the
+//! mission's own schemes of [`crate::link::schemes`] carry an overhead); for DVB-S2 the
 //! BBHEADER and PLHEADER are included through eta.
+//!
+//! A second search of the published text (2026-12-02) found the CCSDS figures' captions but no
+//! number read off them: the CCSDS thresholds stay "from memory" (docs/REFERENCES.md §2).
 //!
 //! Target error rate: a coded scheme's threshold is for the error rate and measure
 //! (BER, FER, PER) of the figure it came from. Requesting another rate returns the
@@ -98,6 +102,94 @@ pub enum Provenance {
     Published(&'static str),
     /// Recalled from a published figure, not re-checked against the document.
     FromMemory(&'static str),
+    /// Given by the user in the mission file (`modem.schemes`), named in the string.
+    User(&'static str),
+}
+
+impl Provenance {
+    /// The status word of the outputs (`threshold_status`) and the source text.
+    pub fn status_and_source(self) -> (&'static str, &'static str) {
+        match self {
+            Provenance::Computed(s) => ("computed", s),
+            Provenance::Published(s) => ("published", s),
+            Provenance::FromMemory(s) => ("from memory", s),
+            Provenance::User(s) => ("user", s),
+        }
+    }
+}
+
+/// Longest scheme name, bytes: names are kept inline ([`SchemeName`]) so that an operating point
+/// stays `Copy` and the per-step budget allocates nothing.
+pub const SCHEME_NAME_MAX: usize = 40;
+
+/// A scheme's name (built-in or from the mission file), stored inline, lower case.
+#[derive(Clone, Copy, PartialEq, Eq, Hash)]
+pub struct SchemeName {
+    len: u8,
+    bytes: [u8; SCHEME_NAME_MAX],
+}
+
+impl SchemeName {
+    /// The name, trimmed and lower-cased; `None` when empty or longer than [`SCHEME_NAME_MAX`]
+    /// bytes.
+    pub fn new(name: &str) -> Option<SchemeName> {
+        let lower = name.trim().to_lowercase();
+        let b = lower.as_bytes();
+        if b.is_empty() || b.len() > SCHEME_NAME_MAX {
+            return None;
+        }
+        let mut bytes = [0u8; SCHEME_NAME_MAX];
+        bytes[..b.len()].copy_from_slice(b);
+        Some(SchemeName {
+            len: b.len() as u8,
+            bytes,
+        })
+    }
+
+    /// A built-in name (at most [`SCHEME_NAME_MAX`] bytes, lower case: checked by a test).
+    const fn builtin(name: &'static str) -> SchemeName {
+        let b = name.as_bytes();
+        let mut bytes = [0u8; SCHEME_NAME_MAX];
+        let mut i = 0;
+        while i < b.len() {
+            bytes[i] = b[i];
+            i += 1;
+        }
+        SchemeName {
+            len: b.len() as u8,
+            bytes,
+        }
+    }
+
+    pub fn as_str(&self) -> &str {
+        // Built from a &str cut at its own length: always valid UTF-8.
+        std::str::from_utf8(&self.bytes[..self.len as usize]).unwrap_or("")
+    }
+}
+
+impl std::ops::Deref for SchemeName {
+    type Target = str;
+    fn deref(&self) -> &str {
+        self.as_str()
+    }
+}
+
+impl std::fmt::Display for SchemeName {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.as_str())
+    }
+}
+
+impl std::fmt::Debug for SchemeName {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{:?}", self.as_str())
+    }
+}
+
+impl PartialEq<&str> for SchemeName {
+    fn eq(&self, other: &&str) -> bool {
+        self.as_str() == *other
+    }
 }
 
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -142,10 +234,16 @@ pub enum TargetMatch {
 /// A scheme at a chosen error rate: everything the budget needs, Copy.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct OperatingPoint {
+    /// Index in the scheme registry (the built-in list, then the mission's own schemes:
+    /// [`crate::link::schemes::SchemeRegistry`]).
     pub scheme_index: usize,
-    pub name: &'static str,
+    pub name: SchemeName,
     pub bits_per_symbol: u32,
     pub code_rate: f64,
+    /// Information bits per bit entering the code (1 without framing overhead): the share of
+    /// the frame left after sync markers, outer-code parity and headers.
+    pub framing_efficiency: f64,
+    /// Information bits per channel symbol: bits per symbol x code rate x framing efficiency.
     pub spectral_efficiency: f64,
     pub required_ebn0_db: f64,
     pub required_esn0_db: f64,
@@ -164,16 +262,19 @@ pub struct OperatingPoint {
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum ModcodError {
     #[error("unknown modulation/coding scheme {name:?}{}", if close.is_empty() { "; see the README for the scheme names".to_string() } else { format!("; close names: {}", close.join(", ")) })]
-    UnknownScheme {
-        name: String,
-        close: Vec<&'static str>,
-    },
+    UnknownScheme { name: String, close: Vec<String> },
     #[error("target error rate must be in (0, 0.5), got {value}")]
     TargetErrorRate { value: f64 },
     #[error("BER {value} is above {max}, where the nearest-neighbour M-PSK approximation stops being useful")]
     ApproximationRange { value: f64, max: f64 },
     #[error("scheme index {index} out of range (registry has {len} schemes)")]
     Index { index: usize, len: usize },
+    #[error(
+        "scheme {name:?} is a built-in scheme's name; give the mission's own scheme another name"
+    )]
+    ClashesWithBuiltin { name: String },
+    #[error("scheme {name:?} is defined twice")]
+    Duplicate { name: String },
 }
 
 /// Largest BER accepted by the nearest-neighbour M-PSK (M >= 8) approximation.
@@ -443,26 +544,35 @@ pub fn schemes() -> &'static [Scheme] {
 /// Index of a scheme by name (exact, case-insensitive). Unknown names give the
 /// closest registered names (edit distance <= 3, or containing the name).
 pub fn scheme_index(name: &str) -> Result<usize, ModcodError> {
-    let wanted = name.trim().to_ascii_lowercase();
+    let wanted = name.trim().to_lowercase();
     if let Some(i) = SCHEMES.iter().position(|s| s.name == wanted) {
         return Ok(i);
     }
-    let mut scored: Vec<(usize, &'static str)> = SCHEMES
+    let names: Vec<&str> = SCHEMES.iter().map(|s| s.name).collect();
+    Err(ModcodError::UnknownScheme {
+        name: name.to_string(),
+        close: close_names(&wanted, &names)
+            .into_iter()
+            .map(String::from)
+            .collect(),
+    })
+}
+
+/// The names close to `wanted` (edit distance <= 3, or containing it), closest first, at most 6.
+pub(crate) fn close_names<'a>(wanted: &str, names: &[&'a str]) -> Vec<&'a str> {
+    let mut scored: Vec<(usize, &'a str)> = names
         .iter()
-        .filter_map(|s| {
-            let d = edit_distance(&wanted, s.name);
-            if d <= 3 || (!wanted.is_empty() && s.name.contains(wanted.as_str())) {
-                Some((d, s.name))
+        .filter_map(|&n| {
+            let d = edit_distance(wanted, n);
+            if d <= 3 || (!wanted.is_empty() && n.contains(wanted)) {
+                Some((d, n))
             } else {
                 None
             }
         })
         .collect();
     scored.sort_by(|a, b| a.0.cmp(&b.0).then(a.1.cmp(b.1)));
-    Err(ModcodError::UnknownScheme {
-        name: name.to_string(),
-        close: scored.into_iter().take(6).map(|(_, n)| n).collect(),
-    })
+    scored.into_iter().take(6).map(|(_, n)| n).collect()
 }
 
 /// A scheme by name; see [`scheme_index`].
@@ -570,7 +680,7 @@ impl Scheme {
         self.operating_point_at(index, target_error_rate)
     }
 
-    fn operating_point_at(
+    pub(crate) fn operating_point_at(
         &self,
         scheme_index: usize,
         target: Option<f64>,
@@ -608,9 +718,10 @@ impl Scheme {
         };
         Ok(OperatingPoint {
             scheme_index,
-            name: self.name,
+            name: SchemeName::builtin(self.name),
             bits_per_symbol: self.bits_per_symbol(),
             code_rate: self.code_rate,
+            framing_efficiency: 1.0,
             spectral_efficiency: eta,
             required_ebn0_db: ebn0_db,
             // Es/N0 = Eb/N0 + 10 log10(eta)

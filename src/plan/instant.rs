@@ -191,7 +191,7 @@ pub fn instant_budget(
         name: "required_margin",
         value: rates.required_margin_db,
         unit: "dB",
-        source: "mission modem.required_margin_db",
+        source: "mission modem.required_margin_db".into(),
     });
     // The same lines as a plan's: frequency ranges grouped in one.
     let mut warnings = super::series::PassWarnings {
@@ -329,9 +329,11 @@ fn rate_spec(
         .clone()
         .unwrap_or_else(|| rates.ladder[0].scheme.clone());
     let bad = |e: &dyn std::fmt::Display| InstantError::Rate(format!("{name}: {e}"));
-    let idx = crate::link::modcod::scheme_index(&name).map_err(|e| bad(&e))?;
-    let op =
-        crate::link::modcod::operating_point(idx, Some(modem.target_ber)).map_err(|e| bad(&e))?;
+    let idx = modem.schemes.index(&name).map_err(|e| bad(&e))?;
+    let op = modem
+        .schemes
+        .operating_point(idx, Some(modem.target_ber))
+        .map_err(|e| bad(&e))?;
     model
         .link
         .rate_spec(rate_bps, op, modem.roll_off, modem.implementation_loss_db)
@@ -365,7 +367,7 @@ fn items(
         name,
         value: -value,
         unit: "dB",
-        source,
+        source: source.into(),
     });
     let (geometry, atmosphere_loss) = link_inputs(model, look, att);
     // The noise terms budget_at used (the Sun's and the Moon's need the time).
@@ -400,13 +402,13 @@ fn separation_items(values: &BudgetValues) -> impl Iterator<Item = BudgetItem> {
         name: "sun_separation",
         value,
         unit: "deg",
-        source: "Sun: Astronomical Almanac low-precision formulae",
+        source: "Sun: Astronomical Almanac low-precision formulae".into(),
     });
     let moon = values.moon_separation_deg.map(|value| BudgetItem {
         name: "moon_separation",
         value,
         unit: "deg",
-        source: "Moon: Meeus ch. 47",
+        source: "Moon: Meeus ch. 47".into(),
     });
     sun.into_iter().chain(moon)
 }

@@ -14,7 +14,6 @@ use crate::config::ConfigError;
 use crate::geometry::{HorizonMask, Observer};
 use crate::link::antenna::{dish_beamwidth_deg, GroundAntennaSpec, TransmitterSpec, TxPower};
 use crate::link::budget::{LinkModel, LinkModelSpec, PolarizationSpec, RateSpec};
-use crate::link::modcod::{operating_point, scheme_index};
 use crate::link::polarization::{EllipseOrientation, Polarization};
 use crate::noise::pattern::NoisePattern;
 use crate::noise::system::{LnaNoise, ReceiverSpec};
@@ -468,8 +467,11 @@ fn rate_option(
         file: at.to_string(),
         message,
     };
-    let idx = scheme_index(name).map_err(|e| err(e.to_string()))?;
-    let op = operating_point(idx, Some(m.target_ber)).map_err(|e| err(format!("{name}: {e}")))?;
+    let idx = m.schemes.index(name).map_err(|e| err(e.to_string()))?;
+    let op = m
+        .schemes
+        .operating_point(idx, Some(m.target_ber))
+        .map_err(|e| err(format!("{name}: {e}")))?;
     // FER/PER figures (AR4JA, DVB-S2) are for their own measure and are listed in the plan's
     // assumptions.
     if let (
@@ -550,11 +552,11 @@ pub fn rate_set(mission: &Mission, link: &LinkModel) -> Result<RateSet, PrepareE
     if let Some(a) = &m.adaptive {
         for (name, line) in &a.schemes {
             let at = at("modem.adaptive.schemes", *line);
-            let idx = scheme_index(name).map_err(|e| PrepareError::Model {
+            let idx = m.schemes.index(name).map_err(|e| PrepareError::Model {
                 file: at.clone(),
                 message: e.to_string(),
             })?;
-            let eta = crate::link::modcod::schemes()[idx].spectral_efficiency;
+            let eta = m.schemes.spectral_efficiency(idx);
             adaptive.push(option(a.symbol_rate_baud * eta, name, at)?);
         }
     }

@@ -45,6 +45,10 @@ pub struct BudgetDoc {
     #[serde(serialize_with = "crate::report::whole")]
     pub rate_bps: f64,
     pub scheme: String,
+    /// Channel (coded) bit rate: symbol rate x bits per symbol, bit/s.
+    pub channel_rate_bps: f64,
+    /// Information bits per bit entering the code (1 without framing overhead).
+    pub framing_efficiency: f64,
     pub symbol_rate_baud: f64,
     pub occupied_bandwidth_hz: f64,
     pub ebn0_db: f64,
@@ -112,6 +116,8 @@ impl BudgetDoc {
             cn0_dbhz: r4(v.cn0_dbhz),
             rate_bps: v.rate_bps,
             scheme: b.rate.operating().name.to_string(),
+            channel_rate_bps: round(v.channel_rate_bps, 1),
+            framing_efficiency: round(b.rate.operating().framing_efficiency, 6),
             symbol_rate_baud: round(v.symbol_rate_baud, 1),
             occupied_bandwidth_hz: round(v.occupied_bandwidth_hz, 1),
             ebn0_db: r4(v.ebn0_db),
@@ -131,7 +137,7 @@ impl BudgetDoc {
                     // + 0.0: a loss of 0 dB listed as -0 dB would read as a sign
                     value: i.value + 0.0,
                     unit: i.unit.into(),
-                    source: i.source.into(),
+                    source: i.source.to_string(),
                 })
                 .collect(),
             warnings: b.warnings.clone(),

@@ -3,7 +3,6 @@
 //! here.
 
 use crate::config::DefaultUsed;
-use crate::link::modcod::Provenance;
 use crate::plan::inputs::satellite_name;
 use crate::plan::prepare::RateSet;
 use crate::plan::rate::RateOption;
@@ -462,14 +461,19 @@ impl DefaultRow {
 /// published before the types were introduced).
 #[derive(Debug, Clone, Serialize)]
 pub struct RateOptionRow {
+    /// Channel (coded) bit rate: symbol rate x bits per symbol, bit/s.
+    pub channel_rate_bps: f64,
     pub error_measure: String,
     pub error_rate: f64,
+    /// Information bits per bit entering the code (1 without framing overhead).
+    pub framing_efficiency: f64,
     pub mode: &'static str,
     pub occupied_bandwidth_hz: f64,
     #[serde(serialize_with = "crate::report::whole")]
     pub rate_bps: f64,
     pub required_ebn0_db: f64,
     pub scheme: String,
+    pub symbol_rate_baud: f64,
     pub threshold_cn0_dbhz: f64,
     pub threshold_source: &'static str,
     pub threshold_status: &'static str,
@@ -478,19 +482,18 @@ pub struct RateOptionRow {
 impl RateOptionRow {
     fn new(mode: &'static str, o: &RateOption, spec: &crate::link::budget::RateSpec) -> Self {
         let op = spec.operating();
-        let (threshold_status, threshold_source) = match op.provenance {
-            Provenance::Computed(s) => ("computed", s),
-            Provenance::Published(s) => ("published", s),
-            Provenance::FromMemory(s) => ("from memory", s),
-        };
+        let (threshold_status, threshold_source) = op.provenance.status_and_source();
         RateOptionRow {
+            channel_rate_bps: round(spec.channel_rate_bps(), 1),
             error_measure: format!("{:?}", op.measure).to_uppercase(),
             error_rate: op.error_rate,
+            framing_efficiency: round(op.framing_efficiency, 6),
             mode,
             occupied_bandwidth_hz: o.occupied_bandwidth_hz.round(),
             rate_bps: o.rate_bps,
             required_ebn0_db: o.required_ebn0_db,
             scheme: o.scheme.clone(),
+            symbol_rate_baud: round(spec.symbol_rate_baud(), 1),
             threshold_cn0_dbhz: round(o.threshold_cn0_dbhz, 4),
             threshold_source,
             threshold_status,

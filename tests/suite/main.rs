@@ -35,3 +35,4 @@ mod plan_worked_pass;
 mod readme;
 mod sun_noise;
 mod sun_position;
+mod user_schemes;
