@@ -617,7 +617,10 @@ where
         &legend,
         None,
         &[
-            (Key::Line(ad), "adaptive rate\n(one modem, hysteresis)".into()),
+            (
+                Key::Line(ad),
+                "adaptive rate\n(one modem, hysteresis)".into(),
+            ),
             (Key::Line(fx), fixed_label),
         ],
     )

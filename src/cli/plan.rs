@@ -223,6 +223,18 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
         cols.push(("rain rate".into(), Align::Right));
         cols.push((vol.header("rain"), Align::Right));
     }
+    // The mount's lost seconds when a station gives its mount; the pfd margin when a pass is over.
+    let mount = doc.passes.iter().any(|r| r.mount_lost_s.is_some());
+    let pfd_over = doc
+        .passes
+        .iter()
+        .any(|r| r.pfd_margin_db.is_some_and(|m| m < 0.0));
+    if mount {
+        cols.push(("mount lost".into(), Align::Right));
+    }
+    if pfd_over {
+        cols.push(("pfd margin".into(), Align::Right));
+    }
     let mut t = Table::new(&columns(&cols));
     let mut cut = false;
     for (r, x) in doc.passes.iter().zip(&plan.passes) {
@@ -256,10 +268,30 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
             cells.push(rate_cell(r.rain_rate_bps));
             cells.push(vol.cell(r.rain_volume_bits.unwrap_or(0.0)));
         }
+        if mount {
+            cells.push(match r.mount_lost_s {
+                Some(s) if s > 0.0 => format!("{s:.0} s"),
+                Some(_) => "0".into(),
+                None => "-".into(),
+            });
+        }
+        if pfd_over {
+            cells.push(
+                r.pfd_margin_db
+                    .map(|m| format!("{m:.1}{}", if m < 0.0 { " !" } else { "" }))
+                    .unwrap_or_else(|| "-".into()),
+            );
+        }
         t.row(cells);
     }
     write!(out, "{}", t.render())?;
     writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
+    if mount {
+        writeln!(out, "mount lost: seconds the station's mount cannot follow (its axes lag the satellite by more than a quarter beamwidth, the zenith keyhole of an az-el mount); they count for no rate or volume.")?;
+    }
+    if pfd_over {
+        writeln!(out, "pfd margin: the Article 21 limit minus the power flux-density at the station, worst over the pass, dB; '!' over the limit (a warning; compliance is for the administration to decide).")?;
+    }
     if cut {
         writeln!(out, "<AOS: the pass began before the window (the time shown is the window start); LOS>: it ends after the window.")?;
     }

@@ -11,4 +11,5 @@ pub mod budget;
 pub mod capacity;
 pub mod modcod;
 pub mod path;
+pub mod pfd;
 pub mod polarization;

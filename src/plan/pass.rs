@@ -8,7 +8,7 @@ use super::prepare::{RateSet, StationModel};
 use super::rate::OptionId;
 use super::rate::{adaptive_schedule, choose_fixed, kept_runs, switch_count};
 use super::results::{
-    BodyExposure, Closing, Crossing, ModeResult, PassPlan, PassSeries, PlanError,
+    BodyExposure, Closing, Crossing, ModeResult, MountTracking, PassPlan, PassSeries, PlanError,
 };
 use super::series::{fill_pass, PassWarnings, StepPlan};
 use super::sink::PassSink;
@@ -27,6 +27,8 @@ pub(super) struct PassContext<'a> {
     pub frequency_hz: f64,
     pub rain: Option<Weather>,
     pub window_start: DateTime<Utc>,
+    /// The band's Article 21 limit, when passbudget has a row for it.
+    pub pfd_band: Option<crate::link::pfd::BandLimit>,
 }
 
 impl PassContext<'_> {
@@ -106,7 +108,7 @@ impl Scratch {
         self.weights.clear();
         self.weights.extend(self.steps.iter().map(|x| x.weight_s));
         self.cn0.clear();
-        self.cn0.extend(self.steps.iter().map(|x| x.cn0_dbhz));
+        self.cn0.extend(self.steps.iter().map(tracked_cn0));
         Ok(warnings)
     }
 
@@ -115,7 +117,8 @@ impl Scratch {
         let rates = planner.rates();
         let mut acc = MaskAccumulator::new(rates.ladder.len());
         acc.passes = 1;
-        for st in self.steps.iter() {
+        // Steps the mount cannot follow are left out of the bins altogether.
+        for st in self.steps.iter().filter(|x| !x.untracked) {
             acc.add_contact(st.elevation_deg, st.weight_s);
         }
         for (k, o) in rates.ladder.iter().enumerate() {
@@ -133,6 +136,9 @@ impl Scratch {
             for (i, st) in self.steps.iter().enumerate() {
                 while r < self.runs.len() && self.runs[r].1 < i {
                     r += 1;
+                }
+                if st.untracked {
+                    continue;
                 }
                 let closed = r < self.runs.len() && self.runs[r].0 <= i;
                 let cn0 = self.cn0[i];
@@ -170,7 +176,7 @@ pub(super) fn plan_pass<S: PassSink>(
     s: &mut Scratch,
     sink: &S,
 ) -> Result<PassPlan, PlanError> {
-    let warnings = s
+    let mut warnings = s
         .fill(planner, station_index, pass)
         .map_err(|source| PlanError::Pass {
             number,
@@ -182,11 +188,11 @@ pub(super) fn plan_pass<S: PassSink>(
     let segments = chosen_segments(planner, pass, &clear, s);
     let rain = if planner.rain().is_some() {
         s.rain_cn0.clear();
-        s.rain_cn0.extend(
-            s.steps
-                .iter()
-                .map(|x| x.rain.map_or(f64::NAN, |r| r.cn0_dbhz)),
-        );
+        s.rain_cn0.extend(s.steps.iter().map(|x| match x.rain {
+            Some(r) if !x.untracked => r.cn0_dbhz,
+            Some(_) => f64::NEG_INFINITY,
+            None => f64::NAN,
+        }));
         Some(mode_result(
             planner,
             pass,
@@ -198,7 +204,15 @@ pub(super) fn plan_pass<S: PassSink>(
     } else {
         None
     };
+    // The pfd at the station for the carrier of the chosen rate (the lowest-threshold one when
+    // none closes).
+    let pfd = planner.pfd_band.as_ref().and_then(|b| {
+        let (_, o) = planner.rates().display_option(clear.option);
+        super::pfd::pass_margin(b, &s.steps, o.occupied_bandwidth_hz)
+    });
+    warnings.pfd_exceeded = pfd.is_some_and(|(m, _)| m < 0.0);
     let plan = PassPlan {
+        pfd_margin_db: pfd.map(|p| p.0),
         number,
         station_index,
         pass: pass.clone(),
@@ -209,6 +223,10 @@ pub(super) fn plan_pass<S: PassSink>(
         warnings,
         steps: s.steps.len(),
         bodies: BodyExposure::over(&s.steps),
+        mount: planner.stations()[station_index]
+            .station
+            .mount
+            .map(|_| MountTracking::over(&s.steps)),
     };
     sink.pass(&PassSeries {
         plan: &plan,
@@ -251,6 +269,18 @@ fn chosen_segments(
     segments
 }
 
+/// The C/N0 the rate decisions see: the step's own, or -inf where the mount cannot follow, so no
+/// option closes there (fixed-rate runs, the adaptive schedule, Shannon's bound and the network
+/// segments all skip the step) without a second buffer.
+#[inline]
+fn tracked_cn0(s: &Step) -> f64 {
+    if s.untracked {
+        f64::NEG_INFINITY
+    } else {
+        s.cn0_dbhz
+    }
+}
+
 /// Shannon capacity integrated over the pass: sum of w B log2(1 + (C/N0) / B), bits.
 fn shannon_volume_bits(cn0_dbhz: &[f64], weights_s: &[f64], bandwidth_hz: f64) -> f64 {
     cn0_dbhz
@@ -273,7 +303,12 @@ fn interpolate_crossing(
 ) -> (f64, f64, f64) {
     let (a, b) = (&steps[i0], &steps[i1]);
     let d = cn0[i1] - cn0[i0];
-    let f = if d.abs() > 1e-12 {
+    // A neighbour the mount cannot follow (C/N0 -inf): the run begins or ends at the tracked step.
+    let f = if !cn0[i0].is_finite() {
+        1.0
+    } else if !cn0[i1].is_finite() {
+        0.0
+    } else if d.abs() > 1e-12 {
         ((threshold - cn0[i0]) / d).clamp(0.0, 1.0)
     } else {
         0.0
@@ -366,6 +401,7 @@ fn mode_result(
     let tca_margin_db = steps
         .iter()
         .zip(cn0)
+        .filter(|(_, c)| **c > f64::NEG_INFINITY)
         .max_by(|a, b| a.0.elevation_deg.total_cmp(&b.0.elevation_deg))
         .map(|(_, c)| o.margin_db(*c));
     ModeResult {

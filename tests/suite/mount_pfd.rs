@@ -1,0 +1,137 @@
+//! The antenna mount (what it cannot follow is lost) and the pfd check against the Radio
+//! Regulations' Article 21 limits, on the shipped example (invented satellite and stations) and on
+//! bad input.
+
+use crate::common::bin::{clean_error, json, root, run, write};
+use passbudget::geometry::mount::keyhole_seconds_closed_form;
+use passbudget::orbit::Propagator;
+
+const MISSION: &str = "examples/wrenlet-1.yaml";
+
+/// Pass 6 of the example (Sierra Baja, 86.5 deg, an az-el mount of 8 deg/s in azimuth): the
+/// seconds its azimuth rate limit is exceeded against the closed form of `geometry::mount`
+/// (straight-line pass; derived there from first principles), with the speed and the closest
+/// range of the SGP4 geometry at closest approach; and the lost seconds, which add the time the
+/// mount needs to catch up, are at least that and are taken off the pass's volume.
+#[test]
+fn keyhole_of_the_example_overhead_pass_against_the_closed_form() {
+    let doc = json(&run(&["plan", MISSION, "--days", "1", "--format", "json"]));
+    let p = doc["passes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|p| p["number"] == 6)
+        .unwrap();
+    assert_eq!(p["station"], "Sierra Baja");
+    let e = p["max_elevation_deg"].as_f64().unwrap();
+    assert!((e - 86.5).abs() < 0.1, "{e}");
+    let setup = crate::common::plan::load_plan_setup(&root().join(MISSION));
+    let prop = Propagator::new(&setup.elements).unwrap();
+    let tca = chrono::DateTime::parse_from_rfc3339(p["tca"].as_str().unwrap())
+        .unwrap()
+        .with_timezone(&chrono::Utc);
+    let state = prop.ecef_at(&tca).unwrap();
+    let station = setup
+        .stations
+        .iter()
+        .find(|s| s.station.name == "Sierra Baja")
+        .unwrap();
+    let look = station.observer.look(&state);
+    // the station is fixed in the Earth-fixed frame: the satellite's speed there is its speed
+    // relative to the station; at closest approach it is across the line of sight
+    let v = state.velocity_km_s;
+    let speed = (v[0] * v[0] + v[1] * v[1] + v[2] * v[2]).sqrt();
+    assert!(
+        look.range_rate_km_s.abs() < 0.05,
+        "{}",
+        look.range_rate_km_s
+    );
+    let limit = station.station.mount.unwrap().primary_max_rate_deg_s;
+    let want = keyhole_seconds_closed_form(speed, look.range_km, e, limit);
+    let got = p["mount_rate_exceeded_s"].as_f64().unwrap();
+    // 1 s steps (a run of n steps counts n s) and the track's curvature: 1.5 s
+    assert!((got - want).abs() <= 1.5, "{got} s vs closed form {want} s");
+    let peak = p["peak_primary_rate_deg_s"].as_f64().unwrap();
+    let want_peak = (speed / look.range_km).to_degrees() / e.to_radians().cos();
+    assert!(
+        (peak - want_peak).abs() < 0.05 * want_peak,
+        "{peak} vs {want_peak}"
+    );
+    let lost = p["mount_lost_s"].as_f64().unwrap();
+    assert!(lost >= got && lost > 0.0, "{lost}");
+    // Without the mount the pass brings more.
+    let free = json(&run(&[
+        "plan",
+        MISSION,
+        "--days",
+        "1",
+        "--format",
+        "json",
+        "--set",
+        "station.sierra-baja.mount.primary_max_rate_deg_s=100",
+    ]));
+    let q = &free["passes"].as_array().unwrap()[5];
+    assert_eq!(q["number"], 6);
+    assert_eq!(q["mount_lost_s"], 0.0);
+    let (v_free, v_mount) = (
+        q["volume_bits"].as_f64().unwrap(),
+        p["volume_bits"].as_f64().unwrap(),
+    );
+    let rate = p["rate_bps"].as_f64().unwrap();
+    assert!(v_free > v_mount, "{v_free} {v_mount}");
+    // Lost seconds at the chosen rate, within one step at each edge of the gap.
+    assert!(
+        (v_free - v_mount - lost * rate).abs() <= 2.0 * rate,
+        "{v_free} {v_mount}"
+    );
+}
+
+/// A mount limit of zero or below, a key of another mount type, a missing key: one line naming
+/// the file, the line and the key.
+#[test]
+fn bad_mount_input_is_refused_with_its_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(root().join("stations/sierra-baja.yaml")).unwrap();
+    let mission_text = std::fs::read_to_string(root().join(MISSION))
+        .unwrap()
+        .replace("../stations/", "")
+        .replace(
+            "elements: sat.tle",
+            &format!("elements: {}", root().join("examples/sat.tle").display()),
+        );
+    for f in ["nordkam.yaml", "pulau-reka.yaml"] {
+        std::fs::copy(root().join("stations").join(f), dir.path().join(f)).unwrap();
+    }
+    let mission = write(dir.path(), "mission.yaml", &mission_text);
+    let line_of = |t: &str, key: &str| t.lines().position(|l| l.contains(key)).unwrap() + 1;
+    for (from, to, key) in [
+        (
+            "primary_max_rate_deg_s: 8 ",
+            "primary_max_rate_deg_s: 0 ",
+            "mount.primary_max_rate_deg_s",
+        ),
+        (
+            "secondary_max_rate_deg_s: 5 ",
+            "secondary_max_rate_deg_s: -2 ",
+            "mount.secondary_max_rate_deg_s",
+        ),
+        (
+            "primary_max_acceleration_deg_s2: 5",
+            "primary_max_acceleration_deg_s2: 0",
+            "mount.primary_max_acceleration_deg_s2",
+        ),
+        ("type: az-el", "type: x-y", "mount.axis_azimuth_deg"),
+    ] {
+        let t = text.replace(from, to);
+        assert_ne!(t, text, "{from}");
+        write(dir.path(), "sierra-baja.yaml", &t);
+        let o = run(&["plan", &mission, "--days", "1"]);
+        let line = if key == "mount.axis_azimuth_deg" {
+            // a missing key: the line of its block
+            line_of(&t, "mount:")
+        } else {
+            line_of(&t, to.trim())
+        };
+        clean_error(&o, &[&format!("sierra-baja.yaml:{line}:"), key]);
+    }
+}
