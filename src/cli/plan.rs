@@ -285,7 +285,7 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
         t.row(cells);
     }
     write!(out, "{}", t.render())?;
-    writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
+    writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step the mount can follow, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
     if mount {
         writeln!(out, "mount lost: seconds the station's mount cannot follow (its axes lag the satellite by more than a quarter beamwidth, the zenith keyhole of an az-el mount); they count for no rate or volume.")?;
     }

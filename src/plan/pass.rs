@@ -105,6 +105,7 @@ impl Scratch {
         warnings.atmosphere = warnings
             .atmosphere
             .union(&model.atmosphere.static_warnings());
+        lose_short_stretches(&mut self.steps, planner.rates().min_dwell_s);
         self.weights.clear();
         self.weights.extend(self.steps.iter().map(|x| x.weight_s));
         self.cn0.clear();
@@ -183,7 +184,13 @@ pub(super) fn plan_pass<S: PassSink>(
             station: planner.stations()[station_index].station.name.clone(),
             source,
         })?;
-    let clear = mode_result(planner, pass, &s.steps, &s.cn0, &s.weights, &mut s.schedule);
+    let clear = mode_result(
+        planner,
+        pass,
+        (&s.steps, &s.cn0, &s.weights),
+        |x| x.cn0_dbhz,
+        &mut s.schedule,
+    );
     let mask = s.mask_accumulator(planner);
     let segments = chosen_segments(planner, pass, &clear, s);
     let rain = if planner.rain().is_some() {
@@ -196,9 +203,8 @@ pub(super) fn plan_pass<S: PassSink>(
         Some(mode_result(
             planner,
             pass,
-            &s.steps,
-            &s.rain_cn0,
-            &s.weights,
+            (&s.steps, &s.rain_cn0, &s.weights),
+            |x| x.rain.map_or(f64::NAN, |r| r.cn0_dbhz),
             &mut s.rain_schedule,
         ))
     } else {
@@ -267,6 +273,31 @@ fn chosen_segments(
         }
     }
     segments
+}
+
+/// Where the mount loses the satellite, a stretch of tracked steps shorter than the dwell time
+/// (between two losses, or between a loss and AOS or LOS) is lost too: the modem cannot lock in
+/// it, and the mask would otherwise take it for the link failing there.
+fn lose_short_stretches(steps: &mut [Step], min_dwell_s: f64) {
+    if !steps.iter().any(|s| s.untracked) {
+        return;
+    }
+    let mut i = 0;
+    while i < steps.len() {
+        if steps[i].untracked {
+            i += 1;
+            continue;
+        }
+        let start = i;
+        let mut held_s = 0.0;
+        while i < steps.len() && !steps[i].untracked {
+            held_s += steps[i].weight_s;
+            i += 1;
+        }
+        if held_s + 1e-9 < min_dwell_s {
+            steps[start..i].iter_mut().for_each(|s| s.untracked = true);
+        }
+    }
 }
 
 /// The C/N0 the rate decisions see: the step's own, or -inf where the mount cannot follow, so no
@@ -360,12 +391,13 @@ fn closing(
     })
 }
 
+/// The rate choice of one weather case: `cn0` is what the rate decisions see (-inf where the
+/// mount cannot follow), `own_cn0` the step's own C/N0 of this case.
 fn mode_result(
     planner: &PassContext,
     pass: &Pass,
-    steps: &[Step],
-    cn0: &[f64],
-    weights: &[f64],
+    (steps, cn0, weights): (&[Step], &[f64], &[f64]),
+    own_cn0: impl Fn(&Step) -> f64,
     schedule: &mut Vec<Option<u16>>,
 ) -> ModeResult {
     let rates = planner.rates();
@@ -380,10 +412,16 @@ fn mode_result(
     );
     let shown = fixed.option.unwrap_or_else(|| rates.lowest_threshold().0);
     let o = &rates.ladder[shown];
-    let max_ebn0_db = cn0
-        .iter()
-        .map(|c| o.ebn0_db(*c))
-        .fold(f64::NEG_INFINITY, f64::max);
+    // Over the steps the mount can follow; over every step when it follows none.
+    let max_of = |c: &mut dyn Iterator<Item = f64>| {
+        c.filter(|c| c.is_finite())
+            .map(|c| o.ebn0_db(c))
+            .fold(f64::NEG_INFINITY, f64::max)
+    };
+    let mut max_ebn0_db = max_of(&mut cn0.iter().copied());
+    if max_ebn0_db == f64::NEG_INFINITY {
+        max_ebn0_db = max_of(&mut steps.iter().map(own_cn0));
+    }
     let (closing, min_margin_db) = match fixed.option {
         Some(_) => (
             closing(pass, steps, cn0, o.threshold_cn0_dbhz, &fixed.runs),

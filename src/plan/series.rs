@@ -58,8 +58,9 @@ pub struct Step {
     pub primary_rate_deg_s: f64,
     pub secondary_rate_deg_s: f64,
     /// The mount cannot follow here (its follower points further from the satellite than
-    /// [`MOUNT_TOLERANCE_BEAMWIDTHS`] of the beamwidth): the step is lost, and no rate, volume,
-    /// mask bin or network segment counts it.
+    /// [`MOUNT_TOLERANCE_BEAMWIDTHS`] of the beamwidth, or the step lies in a stretch of tracked
+    /// steps shorter than the dwell time next to such a loss): the step is lost, and no rate,
+    /// volume, mask bin or network segment counts it.
     pub untracked: bool,
     /// An axis rate or acceleration demanded here is beyond the mount's limit (the keyhole).
     pub rate_exceeded: bool,
