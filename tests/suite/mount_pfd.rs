@@ -135,3 +135,121 @@ fn bad_mount_input_is_refused_with_its_line() {
         clean_error(&o, &[&format!("sierra-baja.yaml:{line}:"), key]);
     }
 }
+
+/// `budget --format json`'s pfd at its own geometry, recomputed by hand from its EIRP, range and
+/// occupied bandwidth: pfd = EIRP - 10 log10(4 pi d^2) - 10 log10(B / 4 kHz), against the
+/// 8025-8500 MHz row (from memory: -150 dB(W/m2) in 4 kHz at 0-5 deg, +0.5 dB/deg to -140 at 25
+/// deg and above; the form as in 47 CFR §25.208).
+#[test]
+fn budget_pfd_fields_by_hand() {
+    for elevation in ["3", "10", "20", "40"] {
+        let d = json(&run(&[
+            "budget",
+            MISSION,
+            "--station",
+            "nordkam",
+            "--elevation-deg",
+            elevation,
+            "--format",
+            "json",
+        ]));
+        let f = |k: &str| d[k].as_f64().unwrap();
+        let d_m = f("range_km") * 1e3;
+        let want = f("eirp_dbw")
+            - 10.0 * (4.0 * std::f64::consts::PI * d_m * d_m).log10()
+            - 10.0 * (f("occupied_bandwidth_hz") / 4e3).log10();
+        assert!(
+            (f("pfd_dbw_m2") - want).abs() < 2e-4,
+            "{} vs {want}",
+            f("pfd_dbw_m2")
+        );
+        assert_eq!(f("pfd_reference_bandwidth_hz"), 4000.0);
+        let e: f64 = elevation.parse().unwrap();
+        let limit = -150.0 + 0.5 * (e.clamp(5.0, 25.0) - 5.0);
+        assert_eq!(f("pfd_limit_dbw_m2"), limit);
+        assert!((f("pfd_margin_db") - (limit - f("pfd_dbw_m2"))).abs() < 2e-4);
+        assert!(d["pfd_limit_status"]
+            .as_str()
+            .unwrap()
+            .contains("from memory"));
+    }
+    // No row for the band: null fields and a warning, not an error.
+    let d = json(&run(&[
+        "budget",
+        MISSION,
+        "--station",
+        "nordkam",
+        "--elevation-deg",
+        "10",
+        "--set",
+        "transmitter.frequency_mhz=5000",
+        "--format",
+        "json",
+    ]));
+    assert!(d["pfd_dbw_m2"].is_null() && d["pfd_margin_db"].is_null());
+    assert!(d["warnings"]
+        .to_string()
+        .contains("no Article 21 Table 21-4 row"));
+}
+
+/// A transmitter 34 dB stronger than the example's (5 kW) is over the limit: the plan still runs
+/// (exit 0), warns on stderr and in `assumptions.warnings` and the passes' warnings, and the `pfd`
+/// block's worst margins are each option's minimum over 0-90 deg, the example's own by 34 dB less.
+#[test]
+fn plan_pfd_over_the_limit_is_a_warning() {
+    let base = json(&run(&["plan", MISSION, "--days", "1", "--format", "json"]));
+    let o = run(&[
+        "plan",
+        MISSION,
+        "--days",
+        "1",
+        "--format",
+        "json",
+        "--set",
+        "transmitter.power_w=5000",
+    ]);
+    let loud = json(&o);
+    let stderr = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        stderr.contains("exceeds the Article 21 Table 21-4 limit"),
+        "{stderr}"
+    );
+    assert!(stderr.contains("compliance is for the administration to decide"));
+    let (a, b) = (&base["pfd"], &loud["pfd"]);
+    assert_eq!(a["band"], "8025-8500 MHz");
+    assert_eq!(a["reference_bandwidth_hz"], 4000.0);
+    let gain_db = 10.0 * (5000.0f64 / 2.0).log10();
+    for (x, y) in a["options"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .zip(b["options"].as_array().unwrap())
+    {
+        let (mx, my) = (
+            x["worst_margin_db"].as_f64().unwrap(),
+            y["worst_margin_db"].as_f64().unwrap(),
+        );
+        assert!(mx > 0.0 && my < 0.0);
+        assert!((mx - my - gain_db).abs() < 2e-4, "{mx} {my}");
+        let limit = x["limit_dbw_m2"].as_f64().unwrap();
+        let angle = x["worst_arrival_deg"].as_f64().unwrap();
+        assert_eq!(limit, -150.0 + 0.5 * (angle.clamp(5.0, 25.0) - 5.0));
+    }
+    let warnings = loud["assumptions"]["warnings"].to_string();
+    assert!(warnings.contains("pfd:"), "{warnings}");
+    for (p, q) in base["passes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .zip(loud["passes"].as_array().unwrap())
+    {
+        let (mp, mq) = (
+            p["pfd_margin_db"].as_f64().unwrap(),
+            q["pfd_margin_db"].as_f64().unwrap(),
+        );
+        assert!(mp > 0.0, "{mp}");
+        if mq < 0.0 {
+            assert!(q["warnings"].as_str().unwrap().contains("pfd:"));
+        }
+    }
+}
