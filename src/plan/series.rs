@@ -6,7 +6,8 @@
 
 use crate::atmosphere::{Attenuation, ModelWarnings, Weather};
 use crate::geometry::body_track::TrackError;
-use crate::geometry::{doppler_hz, AxisRates, Look, Pass};
+use crate::geometry::mount::Follower;
+use crate::geometry::{doppler_hz, AxisRates, Look, Mount, Pass};
 use crate::link::budget::{AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, RateSpec};
 use crate::orbit::{PropagationError, Propagator};
 use crate::plan::bodies::{BodySample, PassBodies};
@@ -272,9 +273,8 @@ pub fn fill_pass(
     let duration_s = seconds_between(&pass.aos, &pass.los).max(0.0);
     let n = (duration_s / step_s).floor() as usize;
     let mut tracked_to_s = -1.0;
-    // The mount's follower (started at the first step) and its pointing tolerance.
+    // The mount's follower, started at the first step.
     let mut follower = None;
-    let tolerance_deg = MOUNT_TOLERANCE_BEAMWIDTHS * model.link.ground_antenna().beamwidth_deg;
     for k in 0..=n + 1 {
         let mut t_s = k as f64 * step_s;
         if k == n + 1 || t_s > duration_s - 1e-6 {
@@ -304,7 +304,50 @@ pub fn fill_pass(
         warnings.atmosphere = warnings.atmosphere.union(&att.warnings);
         warnings.pattern_clamped |= v.pattern_clamped;
         warnings.below_horizon |= v.below_horizon;
-        let mut step = Step {
+        let mut step = Step::clear_sky(t_s, &look, frequency_hz, &att, &v);
+        if let Some(m) = &model.station.mount {
+            let enu = model.observer.enu(&state);
+            let tolerance_deg =
+                MOUNT_TOLERANCE_BEAMWIDTHS * model.link.ground_antenna().beamwidth_deg;
+            follow_mount(
+                m,
+                enu,
+                steps.last(),
+                (&mut follower, tolerance_deg),
+                &mut step,
+            );
+        }
+        if let Some(w) = rain {
+            let (ra, rv) = budget_at(model, &look, w, at, reference)?;
+            warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
+            step.rain = Some(RainStep {
+                atmospheric_loss_db: ra.total_db,
+                sky_noise_k: rv.sky_noise_k,
+                system_temperature_k: rv.system_temperature_k,
+                cn0_dbhz: rv.cn0_dbhz,
+            });
+        }
+        if let Some(prev) = steps.last_mut() {
+            prev.weight_s = t_s - prev.t_s;
+        }
+        steps.push(step);
+        if t_s >= duration_s {
+            break;
+        }
+    }
+    Ok(warnings)
+}
+
+impl Step {
+    /// A step's clear-sky values (no rain case, no mount yet; the weight is set by the next step).
+    fn clear_sky(
+        t_s: f64,
+        look: &Look,
+        frequency_hz: f64,
+        att: &Attenuation,
+        v: &BudgetValues,
+    ) -> Step {
+        Step {
             t_s,
             weight_s: 0.0,
             azimuth_deg: look.azimuth_deg,
@@ -334,41 +377,32 @@ pub fn fill_pass(
             secondary_rate_deg_s: 0.0,
             untracked: false,
             rate_exceeded: false,
-        };
-        if let Some(m) = &model.station.mount {
-            let (rho, rho_rate) = model.observer.enu(&state);
-            let r = m.rates(&rho, &rho_rate);
-            let before = steps.last().map(|p: &Step| {
-                let b = AxisRates {
-                    primary_deg_s: p.primary_rate_deg_s,
-                    secondary_deg_s: p.secondary_rate_deg_s,
-                };
-                (b, t_s - p.t_s)
-            });
-            step.primary_rate_deg_s = r.primary_deg_s;
-            step.secondary_rate_deg_s = r.secondary_deg_s;
-            step.rate_exceeded = !m.can_follow(r, before);
-            let f = follower.get_or_insert_with(|| m.start(&rho));
-            let dt_s = before.map_or(0.0, |b| b.1);
-            step.untracked = m.follow(f, &rho, dt_s) > tolerance_deg;
-        }
-        if let Some(w) = rain {
-            let (ra, rv) = budget_at(model, &look, w, at, reference)?;
-            warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
-            step.rain = Some(RainStep {
-                atmospheric_loss_db: ra.total_db,
-                sky_noise_k: rv.sky_noise_k,
-                system_temperature_k: rv.system_temperature_k,
-                cn0_dbhz: rv.cn0_dbhz,
-            });
-        }
-        if let Some(prev) = steps.last_mut() {
-            prev.weight_s = t_s - prev.t_s;
-        }
-        steps.push(step);
-        if t_s >= duration_s {
-            break;
         }
     }
-    Ok(warnings)
+}
+
+/// The mount at one step: the axis rates it needs (`enu`: the line of sight and its rate,
+/// east/north/up), whether they (or the accelerations since `prev`) exceed its limits, and
+/// whether its follower (started at the pass's first step) still points within the tolerance.
+fn follow_mount(
+    m: &Mount,
+    (rho, rho_rate): ([f64; 3], [f64; 3]),
+    prev: Option<&Step>,
+    (follower, tolerance_deg): (&mut Option<Follower>, f64),
+    step: &mut Step,
+) {
+    let r = m.rates(&rho, &rho_rate);
+    let before = prev.map(|p| {
+        let b = AxisRates {
+            primary_deg_s: p.primary_rate_deg_s,
+            secondary_deg_s: p.secondary_rate_deg_s,
+        };
+        (b, step.t_s - p.t_s)
+    });
+    step.primary_rate_deg_s = r.primary_deg_s;
+    step.secondary_rate_deg_s = r.secondary_deg_s;
+    step.rate_exceeded = !m.can_follow(r, before);
+    let f = follower.get_or_insert_with(|| m.start(&rho));
+    let dt_s = before.map_or(0.0, |b| b.1);
+    step.untracked = m.follow(f, &rho, dt_s) > tolerance_deg;
 }
