@@ -12,6 +12,7 @@
 //! antenna: {...}                    # optional for passes/track, required for budget/plan
 //! receiver: {...}
 //! climate: {...}
+//! mount: {type: az-el, primary_max_rate_deg_s: 8, secondary_max_rate_deg_s: 5}   # optional
 //! ```
 //! The radio blocks are documented key by key in the README.
 

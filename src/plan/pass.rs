@@ -456,3 +456,34 @@ fn mode_result(
         volume_by_rate_bits: fixed.volume_by_option_bits,
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Between two losses, 5 tracked seconds are lost too under a 10 s dwell; 10 are kept; a pass
+    /// without a loss is left alone.
+    #[test]
+    fn short_tracked_stretches_next_to_a_loss_are_lost() {
+        let pattern = |lost: &[usize], n: usize| -> Vec<Step> {
+            (0..n)
+                .map(|i| Step {
+                    t_s: i as f64,
+                    weight_s: 1.0,
+                    untracked: lost.contains(&i),
+                    ..Default::default()
+                })
+                .collect()
+        };
+        let mut s = pattern(&[20, 26], 60);
+        lose_short_stretches(&mut s, 10.0);
+        assert!((20..=26).all(|i| s[i].untracked));
+        assert!(!s[19].untracked && !s[27].untracked);
+        let mut s = pattern(&[20, 31], 60);
+        lose_short_stretches(&mut s, 10.0);
+        assert!((21..=30).all(|i| !s[i].untracked));
+        let mut s = pattern(&[], 5);
+        lose_short_stretches(&mut s, 10.0);
+        assert!(s.iter().all(|x| !x.untracked));
+    }
+}

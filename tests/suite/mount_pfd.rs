@@ -86,6 +86,61 @@ fn keyhole_of_the_example_overhead_pass_against_the_closed_form() {
     );
 }
 
+/// The pass's time series marks the steps the mount cannot follow (`tracked` false): as many
+/// seconds as `mount_lost_s`, around the highest step, and none of them counts for the fixed
+/// rate (`closed`) or the adaptive schedule.
+#[test]
+fn the_lost_steps_count_for_nothing_in_the_time_series() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let o = run(&[
+        "plan",
+        MISSION,
+        "--days",
+        "1",
+        "--quiet",
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert!(o.status.success());
+    let csv = std::fs::read_dir(&out)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .find(|p| p.to_string_lossy().contains("pass-006-sierra-baja"))
+        .unwrap();
+    let mut r = csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .from_path(&csv)
+        .unwrap();
+    let h = r.headers().unwrap().clone();
+    let col = |k: &str| h.iter().position(|x| x == k).unwrap();
+    let (tracked, closed, adaptive, elevation, t) = (
+        col("tracked"),
+        col("closed"),
+        col("adaptive_scheme"),
+        col("elevation_deg"),
+        col("t_s"),
+    );
+    let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+    let lost: Vec<&csv::StringRecord> = rows.iter().filter(|x| &x[tracked] == "false").collect();
+    // 1 s steps: each stands for one second
+    assert_eq!(lost.len(), 11);
+    let top = rows
+        .iter()
+        .max_by(|a, b| {
+            let e = |x: &csv::StringRecord| x[elevation].parse::<f64>().unwrap();
+            e(a).total_cmp(&e(b))
+        })
+        .unwrap();
+    let t_top: f64 = top[t].parse().unwrap();
+    for x in &lost {
+        assert_eq!(&x[closed], "false");
+        assert_eq!(&x[adaptive], "");
+        let dt = (x[t].parse::<f64>().unwrap() - t_top).abs();
+        assert!(dt < 15.0, "lost step {dt} s from the highest");
+    }
+}
+
 /// A mount limit of zero or below, a key of another mount type, a missing key: one line naming
 /// the file, the line and the key.
 #[test]
