@@ -223,6 +223,7 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
         cols.push(("rain rate".into(), Align::Right));
         cols.push((vol.header("rain"), Align::Right));
     }
+    let (mount, pfd_over) = mount_and_pfd_columns(doc, &mut cols);
     let mut t = Table::new(&columns(&cols));
     let mut cut = false;
     for (r, x) in doc.passes.iter().zip(&plan.passes) {
@@ -256,14 +257,63 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
             cells.push(rate_cell(r.rain_rate_bps));
             cells.push(vol.cell(r.rain_volume_bits.unwrap_or(0.0)));
         }
+        mount_and_pfd_cells(r, (mount, pfd_over), &mut cells);
         t.row(cells);
     }
     write!(out, "{}", t.render())?;
-    writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
+    writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step the mount can follow, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
+    mount_and_pfd_legend((mount, pfd_over), out)?;
     if cut {
         writeln!(out, "<AOS: the pass began before the window (the time shown is the window start); LOS>: it ends after the window.")?;
     }
     writeln!(out)?;
+    Ok(())
+}
+
+/// The mount's lost seconds when a station gives its mount; the pfd margin when a pass is over.
+fn mount_and_pfd_columns(doc: &PlanDoc, cols: &mut Vec<(String, Align)>) -> (bool, bool) {
+    let mount = doc.passes.iter().any(|r| r.mount_lost_s.is_some());
+    let pfd_over = doc
+        .passes
+        .iter()
+        .any(|r| r.pfd_margin_db.is_some_and(|m| m < 0.0));
+    if mount {
+        cols.push(("mount lost".into(), Align::Right));
+    }
+    if pfd_over {
+        cols.push(("pfd margin".into(), Align::Right));
+    }
+    (mount, pfd_over)
+}
+
+fn mount_and_pfd_cells(
+    r: &passbudget::report::plan::PlanPassRow,
+    (mount, pfd_over): (bool, bool),
+    cells: &mut Vec<String>,
+) {
+    if mount {
+        cells.push(match r.mount_lost_s {
+            Some(s) if s > 0.0 => format!("{s:.0} s"),
+            Some(_) => "0".into(),
+            None => "-".into(),
+        });
+    }
+    if pfd_over {
+        cells.push(
+            r.pfd_margin_db
+                .map(|m| format!("{m:.1}{}", if m < 0.0 { " !" } else { "" }))
+                .unwrap_or_else(|| "-".into()),
+        );
+    }
+}
+
+fn mount_and_pfd_legend((mount, pfd_over): (bool, bool), out: &mut dyn Write) -> Result<()> {
+    if mount {
+        writeln!(out, "mount lost: seconds the station's mount cannot follow (its axes lag the satellite by more than a quarter beamwidth, the zenith keyhole of an az-el mount); they count for no rate or volume.")?;
+    }
+    if pfd_over {
+        writeln!(out, "pfd margin: the Article 21 limit minus the power flux-density at the station, worst over the pass, dB; '!' over the limit (a warning; compliance is for the administration to decide).")?;
+    }
     Ok(())
 }
 

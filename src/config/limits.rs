@@ -410,6 +410,58 @@ pub const ANTENNA_EFFICIENCY: Range = Range {
     unit: "",
 };
 
+/// Largest rate of a mount axis, deg/s (a limit of 0 would stop the antenna).
+pub const MOUNT_MAX_RATE_DEG_S: Range = Range {
+    key: "mount.primary_max_rate_deg_s",
+    min: 0.01,
+    max: 100.0,
+    unit: "deg/s",
+};
+
+/// Largest rate of the mount's secondary axis, deg/s.
+pub const MOUNT_SECONDARY_MAX_RATE_DEG_S: Range = Range {
+    key: "mount.secondary_max_rate_deg_s",
+    ..MOUNT_MAX_RATE_DEG_S
+};
+
+/// Largest acceleration of a mount axis, deg/s2.
+pub const MOUNT_MAX_ACCELERATION_DEG_S2: Range = Range {
+    key: "mount.primary_max_acceleration_deg_s2",
+    min: 0.01,
+    max: 1000.0,
+    unit: "deg/s2",
+};
+
+/// Largest acceleration of the mount's secondary axis, deg/s2.
+pub const MOUNT_SECONDARY_MAX_ACCELERATION_DEG_S2: Range = Range {
+    key: "mount.secondary_max_acceleration_deg_s2",
+    ..MOUNT_MAX_ACCELERATION_DEG_S2
+};
+
+/// Azimuth of an x-y mount's X axis, deg (0 and 180 are the same north-south axis).
+pub const MOUNT_AXIS_AZIMUTH_DEG: Range = Range {
+    key: "mount.axis_azimuth_deg",
+    min: 0.0,
+    max: 360.0,
+    unit: "deg",
+};
+
+/// Tilt of a tilted az-el mount's base from the horizontal, deg.
+pub const MOUNT_TILT_DEG: Range = Range {
+    key: "mount.tilt_deg",
+    min: 0.0,
+    max: 90.0,
+    unit: "deg",
+};
+
+/// Azimuth towards which a tilted az-el mount's base is tilted, deg.
+pub const MOUNT_TILT_AZIMUTH_DEG: Range = Range {
+    key: "mount.tilt_azimuth_deg",
+    min: 0.0,
+    max: 360.0,
+    unit: "deg",
+};
+
 /// Ground antenna pointing error, deg.
 pub const POINTING_ERROR_DEG: Range = Range {
     key: "antenna.pointing_error_deg",
@@ -713,6 +765,13 @@ pub const ALL: &[Range] = &[
     ANTENNA_GAIN_DBI,
     ANTENNA_EFFICIENCY,
     POINTING_ERROR_DEG,
+    MOUNT_MAX_RATE_DEG_S,
+    MOUNT_SECONDARY_MAX_RATE_DEG_S,
+    MOUNT_MAX_ACCELERATION_DEG_S2,
+    MOUNT_SECONDARY_MAX_ACCELERATION_DEG_S2,
+    MOUNT_AXIS_AZIMUTH_DEG,
+    MOUNT_TILT_DEG,
+    MOUNT_TILT_AZIMUTH_DEG,
     GROUND_AXIAL_RATIO_DB,
     GROUND_EMISSIVITY,
     SOLAR_FLUX_SFU,

@@ -12,6 +12,7 @@
 //! antenna: {...}                    # optional for passes/track, required for budget/plan
 //! receiver: {...}
 //! climate: {...}
+//! mount: {type: az-el, primary_max_rate_deg_s: 8, secondary_max_rate_deg_s: 5}   # optional
 //! ```
 //! The radio blocks are documented key by key in the README.
 
@@ -50,6 +51,33 @@ struct StationFile {
     man_made_noise: Option<crate::noise::man_made::Environment>,
     #[serde(default)]
     solar_flux_sfu: Option<f64>,
+    #[serde(default)]
+    mount: Option<MountFile>,
+}
+
+/// The mount's geometry, by name in the file.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize)]
+enum MountType {
+    #[serde(rename = "az-el")]
+    AzEl,
+    #[serde(rename = "x-y")]
+    XY,
+    #[serde(rename = "tilted-az-el")]
+    TiltedAzEl,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct MountFile {
+    #[serde(rename = "type")]
+    kind: MountType,
+    primary_max_rate_deg_s: f64,
+    secondary_max_rate_deg_s: f64,
+    primary_max_acceleration_deg_s2: Option<f64>,
+    secondary_max_acceleration_deg_s2: Option<f64>,
+    axis_azimuth_deg: Option<f64>,
+    tilt_deg: Option<f64>,
+    tilt_azimuth_deg: Option<f64>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -170,6 +198,8 @@ pub struct Station {
     pub man_made_noise: Option<crate::noise::man_made::Environment>,
     /// Observed solar flux density at the link frequency, sfu; `None`: the quiet Sun of ITU-R P.372.
     pub solar_flux_sfu: Option<f64>,
+    /// The antenna mount and its axis limits; `None`: every step is taken as trackable.
+    pub mount: Option<crate::geometry::Mount>,
     /// Keys filled from defaults, with the value and its source: reported in outputs.
     pub defaults: Vec<DefaultUsed>,
 }
@@ -235,6 +265,7 @@ impl Station {
             .transpose()?;
         let climate = climate(&mut c, &file.climate.unwrap_or_default())?;
         let solar_flux_sfu = c.optional(&limits::SOLAR_FLUX_SFU, file.solar_flux_sfu)?;
+        let mount = file.mount.as_ref().map(|m| mount(&c, m)).transpose()?;
         Ok(Station {
             name: file.name.trim().to_string(),
             source: path.to_path_buf(),
@@ -248,6 +279,7 @@ impl Station {
             climate,
             man_made_noise: file.man_made_noise,
             solar_flux_sfu,
+            mount,
             defaults: c.defaults,
         })
     }
@@ -294,6 +326,63 @@ fn horizon_mask(c: &Checker, mut mask: Vec<[f64; 2]>) -> Result<Vec<[f64; 2]>, C
         return Err(c.err(az.key, msg));
     }
     Ok(mask)
+}
+
+/// The mount block: its type, the keys that type needs, and the axis limits.
+fn mount(c: &Checker, m: &MountFile) -> Result<crate::geometry::Mount, ConfigError> {
+    use crate::geometry::MountKind;
+    use limits as l;
+    let needed = |r: &l::Range, v: Option<f64>, kind: &str| match v {
+        Some(v) => c.range(r, v),
+        None => Err(c.err(r.key, format!("required for a mount of type {kind}"))),
+    };
+    let unused = |r: &l::Range, v: Option<f64>, kind: &str| match v {
+        Some(_) => Err(c.err(r.key, format!("does not apply to a mount of type {kind}"))),
+        None => Ok(()),
+    };
+    let (axis, tilt, tilt_az) = (
+        &l::MOUNT_AXIS_AZIMUTH_DEG,
+        &l::MOUNT_TILT_DEG,
+        &l::MOUNT_TILT_AZIMUTH_DEG,
+    );
+    let kind = match m.kind {
+        MountType::AzEl => {
+            unused(axis, m.axis_azimuth_deg, "az-el")?;
+            unused(tilt, m.tilt_deg, "az-el")?;
+            unused(tilt_az, m.tilt_azimuth_deg, "az-el")?;
+            MountKind::AzEl
+        }
+        MountType::XY => {
+            unused(tilt, m.tilt_deg, "x-y")?;
+            unused(tilt_az, m.tilt_azimuth_deg, "x-y")?;
+            MountKind::XY {
+                axis_azimuth_deg: needed(axis, m.axis_azimuth_deg, "x-y")?,
+            }
+        }
+        MountType::TiltedAzEl => {
+            unused(axis, m.axis_azimuth_deg, "tilted-az-el")?;
+            MountKind::TiltedAzEl {
+                tilt_deg: needed(tilt, m.tilt_deg, "tilted-az-el")?,
+                tilt_azimuth_deg: needed(tilt_az, m.tilt_azimuth_deg, "tilted-az-el")?,
+            }
+        }
+    };
+    Ok(crate::geometry::Mount {
+        kind,
+        primary_max_rate_deg_s: c.range(&l::MOUNT_MAX_RATE_DEG_S, m.primary_max_rate_deg_s)?,
+        secondary_max_rate_deg_s: c.range(
+            &l::MOUNT_SECONDARY_MAX_RATE_DEG_S,
+            m.secondary_max_rate_deg_s,
+        )?,
+        primary_max_acceleration_deg_s2: c.optional(
+            &l::MOUNT_MAX_ACCELERATION_DEG_S2,
+            m.primary_max_acceleration_deg_s2,
+        )?,
+        secondary_max_acceleration_deg_s2: c.optional(
+            &l::MOUNT_SECONDARY_MAX_ACCELERATION_DEG_S2,
+            m.secondary_max_acceleration_deg_s2,
+        )?,
+    })
 }
 
 /// The ground antenna block.

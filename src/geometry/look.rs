@@ -124,6 +124,26 @@ impl Observer {
         self.up
     }
 
+    /// The station-to-satellite vector and its rate in east/north/up components (km, km/s),
+    /// for the mount's axes ([`crate::geometry::mount`]).
+    pub fn enu(&self, sat: &EcefState) -> ([f64; 3], [f64; 3]) {
+        let r = &sat.position_km;
+        let v = &sat.velocity_km_s;
+        let rho = [
+            r[0] - self.position_km[0],
+            r[1] - self.position_km[1],
+            r[2] - self.position_km[2],
+        ];
+        (
+            [
+                dot(&self.east, &rho),
+                dot(&self.north, &rho),
+                dot(&self.up, &rho),
+            ],
+            [dot(&self.east, v), dot(&self.north, v), dot(&self.up, v)],
+        )
+    }
+
     /// Look angles, range, rates and off-nadir angle to an Earth-fixed satellite state.
     pub fn look(&self, sat: &EcefState) -> Look {
         let r = &sat.position_km;

@@ -9,10 +9,12 @@ pub mod body_track;
 pub mod horizon;
 pub mod look;
 pub mod moon;
+pub mod mount;
 pub mod passes;
 pub mod slant;
 pub mod sun;
 
 pub use horizon::{HorizonError, HorizonMask};
 pub use look::{doppler_hz, Look, Observer, ObserverError};
+pub use mount::{AxisRates, Mount, MountKind};
 pub use passes::{find_passes, track, Pass, PassSearch, Track};

@@ -11,5 +11,6 @@ pub mod budget;
 pub mod capacity;
 pub mod modcod;
 pub mod path;
+pub mod pfd;
 pub mod polarization;
 pub mod schemes;

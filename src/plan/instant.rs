@@ -112,6 +112,8 @@ pub struct InstantBudget {
     pub items: Vec<BudgetItem>,
     pub warnings: Vec<String>,
     pub defaults: Vec<DefaultUsed>,
+    /// The pfd at the station against the band's Article 21 limit (`None`: no row for the band).
+    pub pfd: Option<crate::link::pfd::PfdAt>,
 }
 
 impl InstantBudget {
@@ -200,6 +202,7 @@ pub fn instant_budget(
         bodies: model.bodies.warnings(),
         pattern_clamped: values.pattern_clamped,
         below_horizon: values.below_horizon,
+        pfd_exceeded: false,
     }
     .lines(model.link.frequency_hz());
     if values.galactic_extrapolated {
@@ -208,6 +211,8 @@ pub fn instant_budget(
                 .into(),
         );
     }
+    let pfd = pfd_at(&model, &look, &values);
+    warnings.extend(pfd_warning(&model, pfd.as_ref()));
     warnings.extend(selection_note(&elements, &selection));
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
@@ -228,7 +233,44 @@ pub fn instant_budget(
         items,
         warnings,
         defaults,
+        pfd,
     })
+}
+
+/// The pfd at the station for this budget's carrier, against the band's limit
+/// ([`crate::link::pfd`]); `None` when passbudget has no row for the band.
+fn pfd_at(
+    model: &StationModel,
+    look: &Look,
+    values: &crate::link::budget::BudgetValues,
+) -> Option<crate::link::pfd::PfdAt> {
+    crate::link::pfd::BandLimit::for_frequency(model.link.frequency_hz()).map(|b| {
+        b.at(
+            values.eirp_dbw,
+            look.range_km,
+            look.elevation_deg,
+            values.occupied_bandwidth_hz,
+        )
+    })
+}
+
+/// The pfd's warning: no row for the band, or over the limit.
+fn pfd_warning(model: &StationModel, pfd: Option<&crate::link::pfd::PfdAt>) -> Option<String> {
+    let f = model.link.frequency_hz();
+    match pfd {
+        None => Some(format!(
+            "pfd: passbudget has no Article 21 Table 21-4 row for {}: the power flux-density is not checked",
+            crate::engfmt::frequency_mhz(f)
+        )),
+        Some(p) if p.margin_db < 0.0 => Some(format!(
+            "pfd: {:.1} dB(W/m2) in {} exceeds the Article 21 Table 21-4 limit ({:.1}) by {:.1} dB at this geometry (limit row from memory); compliance is for the administration to decide",
+            p.pfd_dbw_m2,
+            super::pfd::reference_label(p.reference_bandwidth_hz),
+            p.limit_dbw_m2,
+            -p.margin_db
+        )),
+        Some(_) => None,
+    }
 }
 
 fn find_station<'m>(

@@ -29,6 +29,7 @@ pub mod mask;
 pub mod network;
 pub mod noise;
 mod pass;
+pub mod pfd;
 mod planner;
 pub mod prepare;
 pub mod rate;
@@ -42,8 +43,9 @@ pub mod window;
 pub use planner::{PlanRequest, Planner};
 pub use rate::OptionId;
 pub use results::{
-    Closing, Crossing, DayTotals, ModeResult, NetworkTotal, OptionSeries, PassPlan, PassSeries,
-    Plan, PlanError, RainTotals, Scope, Totals, TradeoffSeries, UsableMask, NETWORK_LABEL,
+    Closing, Crossing, DayTotals, ModeResult, MountTracking, NetworkTotal, OptionSeries, PassPlan,
+    PassSeries, Plan, PlanError, RainTotals, Scope, Totals, TradeoffSeries, UsableMask,
+    NETWORK_LABEL,
 };
 pub use sink::{Collect, FnSink, PassSink};
 pub use window::{Window, WindowRequest};

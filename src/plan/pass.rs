@@ -8,7 +8,7 @@ use super::prepare::{RateSet, StationModel};
 use super::rate::OptionId;
 use super::rate::{adaptive_schedule, choose_fixed, kept_runs, switch_count};
 use super::results::{
-    BodyExposure, Closing, Crossing, ModeResult, PassPlan, PassSeries, PlanError,
+    BodyExposure, Closing, Crossing, ModeResult, MountTracking, PassPlan, PassSeries, PlanError,
 };
 use super::series::{fill_pass, PassWarnings, StepPlan};
 use super::sink::PassSink;
@@ -27,6 +27,8 @@ pub(super) struct PassContext<'a> {
     pub frequency_hz: f64,
     pub rain: Option<Weather>,
     pub window_start: DateTime<Utc>,
+    /// The band's Article 21 limit, when passbudget has a row for it.
+    pub pfd_band: Option<crate::link::pfd::BandLimit>,
 }
 
 impl PassContext<'_> {
@@ -103,10 +105,11 @@ impl Scratch {
         warnings.atmosphere = warnings
             .atmosphere
             .union(&model.atmosphere.static_warnings());
+        lose_short_stretches(&mut self.steps, planner.rates().min_dwell_s);
         self.weights.clear();
         self.weights.extend(self.steps.iter().map(|x| x.weight_s));
         self.cn0.clear();
-        self.cn0.extend(self.steps.iter().map(|x| x.cn0_dbhz));
+        self.cn0.extend(self.steps.iter().map(tracked_cn0));
         Ok(warnings)
     }
 
@@ -115,7 +118,8 @@ impl Scratch {
         let rates = planner.rates();
         let mut acc = MaskAccumulator::new(rates.ladder.len());
         acc.passes = 1;
-        for st in self.steps.iter() {
+        // Steps the mount cannot follow are left out of the bins altogether.
+        for st in self.steps.iter().filter(|x| !x.untracked) {
             acc.add_contact(st.elevation_deg, st.weight_s);
         }
         for (k, o) in rates.ladder.iter().enumerate() {
@@ -133,6 +137,9 @@ impl Scratch {
             for (i, st) in self.steps.iter().enumerate() {
                 while r < self.runs.len() && self.runs[r].1 < i {
                     r += 1;
+                }
+                if st.untracked {
+                    continue;
                 }
                 let closed = r < self.runs.len() && self.runs[r].0 <= i;
                 let cn0 = self.cn0[i];
@@ -170,35 +177,48 @@ pub(super) fn plan_pass<S: PassSink>(
     s: &mut Scratch,
     sink: &S,
 ) -> Result<PassPlan, PlanError> {
-    let warnings = s
+    let mut warnings = s
         .fill(planner, station_index, pass)
         .map_err(|source| PlanError::Pass {
             number,
             station: planner.stations()[station_index].station.name.clone(),
             source,
         })?;
-    let clear = mode_result(planner, pass, &s.steps, &s.cn0, &s.weights, &mut s.schedule);
+    let clear = mode_result(
+        planner,
+        pass,
+        (&s.steps, &s.cn0, &s.weights),
+        |x| x.cn0_dbhz,
+        &mut s.schedule,
+    );
     let mask = s.mask_accumulator(planner);
     let segments = chosen_segments(planner, pass, &clear, s);
     let rain = if planner.rain().is_some() {
         s.rain_cn0.clear();
-        s.rain_cn0.extend(
-            s.steps
-                .iter()
-                .map(|x| x.rain.map_or(f64::NAN, |r| r.cn0_dbhz)),
-        );
+        s.rain_cn0.extend(s.steps.iter().map(|x| match x.rain {
+            Some(r) if !x.untracked => r.cn0_dbhz,
+            Some(_) => f64::NEG_INFINITY,
+            None => f64::NAN,
+        }));
         Some(mode_result(
             planner,
             pass,
-            &s.steps,
-            &s.rain_cn0,
-            &s.weights,
+            (&s.steps, &s.rain_cn0, &s.weights),
+            |x| x.rain.map_or(f64::NAN, |r| r.cn0_dbhz),
             &mut s.rain_schedule,
         ))
     } else {
         None
     };
+    // The pfd at the station for the carrier of the chosen rate (the lowest-threshold one when
+    // none closes).
+    let pfd = planner.pfd_band.as_ref().and_then(|b| {
+        let (_, o) = planner.rates().display_option(clear.option);
+        super::pfd::pass_margin(b, &s.steps, o.occupied_bandwidth_hz)
+    });
+    warnings.pfd_exceeded = pfd.is_some_and(|(m, _)| m < 0.0);
     let plan = PassPlan {
+        pfd_margin_db: pfd.map(|p| p.0),
         number,
         station_index,
         pass: pass.clone(),
@@ -209,6 +229,10 @@ pub(super) fn plan_pass<S: PassSink>(
         warnings,
         steps: s.steps.len(),
         bodies: BodyExposure::over(&s.steps),
+        mount: planner.stations()[station_index]
+            .station
+            .mount
+            .map(|_| MountTracking::over(&s.steps)),
     };
     sink.pass(&PassSeries {
         plan: &plan,
@@ -251,6 +275,43 @@ fn chosen_segments(
     segments
 }
 
+/// Where the mount loses the satellite, a stretch of tracked steps shorter than the dwell time
+/// (between two losses, or between a loss and AOS or LOS) is lost too: the modem cannot lock in
+/// it, and the mask would otherwise take it for the link failing there.
+fn lose_short_stretches(steps: &mut [Step], min_dwell_s: f64) {
+    if !steps.iter().any(|s| s.untracked) {
+        return;
+    }
+    let mut i = 0;
+    while i < steps.len() {
+        if steps[i].untracked {
+            i += 1;
+            continue;
+        }
+        let start = i;
+        let mut held_s = 0.0;
+        while i < steps.len() && !steps[i].untracked {
+            held_s += steps[i].weight_s;
+            i += 1;
+        }
+        if held_s + 1e-9 < min_dwell_s {
+            steps[start..i].iter_mut().for_each(|s| s.untracked = true);
+        }
+    }
+}
+
+/// The C/N0 the rate decisions see: the step's own, or -inf where the mount cannot follow, so no
+/// option closes there (fixed-rate runs, the adaptive schedule, Shannon's bound and the network
+/// segments all skip the step) without a second buffer.
+#[inline]
+fn tracked_cn0(s: &Step) -> f64 {
+    if s.untracked {
+        f64::NEG_INFINITY
+    } else {
+        s.cn0_dbhz
+    }
+}
+
 /// Shannon capacity integrated over the pass: sum of w B log2(1 + (C/N0) / B), bits.
 fn shannon_volume_bits(cn0_dbhz: &[f64], weights_s: &[f64], bandwidth_hz: f64) -> f64 {
     cn0_dbhz
@@ -273,7 +334,12 @@ fn interpolate_crossing(
 ) -> (f64, f64, f64) {
     let (a, b) = (&steps[i0], &steps[i1]);
     let d = cn0[i1] - cn0[i0];
-    let f = if d.abs() > 1e-12 {
+    // A neighbour the mount cannot follow (C/N0 -inf): the run begins or ends at the tracked step.
+    let f = if !cn0[i0].is_finite() {
+        1.0
+    } else if !cn0[i1].is_finite() {
+        0.0
+    } else if d.abs() > 1e-12 {
         ((threshold - cn0[i0]) / d).clamp(0.0, 1.0)
     } else {
         0.0
@@ -325,12 +391,13 @@ fn closing(
     })
 }
 
+/// The rate choice of one weather case: `cn0` is what the rate decisions see (-inf where the
+/// mount cannot follow), `own_cn0` the step's own C/N0 of this case.
 fn mode_result(
     planner: &PassContext,
     pass: &Pass,
-    steps: &[Step],
-    cn0: &[f64],
-    weights: &[f64],
+    (steps, cn0, weights): (&[Step], &[f64], &[f64]),
+    own_cn0: impl Fn(&Step) -> f64,
     schedule: &mut Vec<Option<u16>>,
 ) -> ModeResult {
     let rates = planner.rates();
@@ -345,10 +412,16 @@ fn mode_result(
     );
     let shown = fixed.option.unwrap_or_else(|| rates.lowest_threshold().0);
     let o = &rates.ladder[shown];
-    let max_ebn0_db = cn0
-        .iter()
-        .map(|c| o.ebn0_db(*c))
-        .fold(f64::NEG_INFINITY, f64::max);
+    // Over the steps the mount can follow; over every step when it follows none.
+    let max_of = |c: &mut dyn Iterator<Item = f64>| {
+        c.filter(|c| c.is_finite())
+            .map(|c| o.ebn0_db(c))
+            .fold(f64::NEG_INFINITY, f64::max)
+    };
+    let mut max_ebn0_db = max_of(&mut cn0.iter().copied());
+    if max_ebn0_db == f64::NEG_INFINITY {
+        max_ebn0_db = max_of(&mut steps.iter().map(own_cn0));
+    }
     let (closing, min_margin_db) = match fixed.option {
         Some(_) => (
             closing(pass, steps, cn0, o.threshold_cn0_dbhz, &fixed.runs),
@@ -366,6 +439,7 @@ fn mode_result(
     let tca_margin_db = steps
         .iter()
         .zip(cn0)
+        .filter(|(_, c)| **c > f64::NEG_INFINITY)
         .max_by(|a, b| a.0.elevation_deg.total_cmp(&b.0.elevation_deg))
         .map(|(_, c)| o.margin_db(*c));
     ModeResult {
@@ -380,5 +454,36 @@ fn mode_result(
         adaptive_switches: switch_count(schedule),
         shannon_volume_bits: shannon_volume_bits(cn0, weights, rates.shannon_bandwidth_hz),
         volume_by_rate_bits: fixed.volume_by_option_bits,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Between two losses, 5 tracked seconds are lost too under a 10 s dwell; 10 are kept; a pass
+    /// without a loss is left alone.
+    #[test]
+    fn short_tracked_stretches_next_to_a_loss_are_lost() {
+        let pattern = |lost: &[usize], n: usize| -> Vec<Step> {
+            (0..n)
+                .map(|i| Step {
+                    t_s: i as f64,
+                    weight_s: 1.0,
+                    untracked: lost.contains(&i),
+                    ..Default::default()
+                })
+                .collect()
+        };
+        let mut s = pattern(&[20, 26], 60);
+        lose_short_stretches(&mut s, 10.0);
+        assert!((20..=26).all(|i| s[i].untracked));
+        assert!(!s[19].untracked && !s[27].untracked);
+        let mut s = pattern(&[20, 31], 60);
+        lose_short_stretches(&mut s, 10.0);
+        assert!((21..=30).all(|i| !s[i].untracked));
+        let mut s = pattern(&[], 5);
+        lose_short_stretches(&mut s, 10.0);
+        assert!(s.iter().all(|x| !x.untracked));
     }
 }

@@ -53,6 +53,8 @@ pub struct Planner {
     exceedance_percent: Option<f64>,
     rain: Option<Weather>,
     frequency_hz: f64,
+    /// The pfd check of every rate option against the band's Article 21 limit.
+    pfd: super::pfd::PfdCheck,
 }
 
 fn request_error(key: &'static str, message: impl Into<String>) -> PlanError {
@@ -133,7 +135,9 @@ impl Planner {
             stations.iter_mut().for_each(|s| s.prepare_weather(w));
         }
         let frequency_hz = stations[0].link.frequency_hz();
+        let pfd = super::pfd::PfdCheck::new(&stations[0].link, &rates, &elements);
         Ok(Planner {
+            pfd,
             frequency_hz,
             mission: mission.clone(),
             elements,
@@ -195,6 +199,10 @@ impl Planner {
     pub fn rain(&self) -> Option<Weather> {
         self.rain
     }
+    /// The pfd check of the rate options ([`super::pfd`]).
+    pub fn pfd(&self) -> &super::pfd::PfdCheck {
+        &self.pfd
+    }
     /// Downlink carrier frequency, Hz.
     pub fn frequency_hz(&self) -> f64 {
         self.frequency_hz
@@ -239,6 +247,7 @@ impl Planner {
             frequency_hz: self.frequency_hz,
             rain: self.rain,
             window_start: self.window.start(),
+            pfd_band: self.pfd.band,
         };
         let work: Vec<(Option<usize>, usize, &Pass)> = found
             .iter()
@@ -412,6 +421,7 @@ impl Planner {
             }
         }
         out.extend(self.rates.warnings.iter().cloned());
+        out.extend(self.pfd.warnings(self.frequency_hz));
         out.extend(element_age_warning(
             &self.elements,
             self.window.start(),

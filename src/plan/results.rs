@@ -66,6 +66,41 @@ pub struct PassPlan {
     pub steps: usize,
     /// The Sun and the Moon near the beam during the pass (clear sky).
     pub bodies: BodyExposure,
+    /// The worst margin of the pfd at the station against the band's Article 21 limit over the
+    /// pass, at the chosen rate's occupied bandwidth, dB (`None`: no row for the band).
+    pub pfd_margin_db: Option<f64>,
+    /// What the station's mount could not follow (`None`: the station gives no mount).
+    pub mount: Option<MountTracking>,
+}
+
+/// The mount over one pass.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct MountTracking {
+    /// Seconds the mount cannot follow (steps where it points further from the satellite than
+    /// the tolerance, each standing for the time to the next step): counted as lost.
+    pub lost_s: f64,
+    /// Seconds in which an axis rate or acceleration demanded is beyond its limit (the keyhole
+    /// itself; the lost time adds the time to catch up).
+    pub rate_exceeded_s: f64,
+    /// The largest rates the two axes need over the pass, deg/s (absolute values).
+    pub peak_primary_rate_deg_s: f64,
+    pub peak_secondary_rate_deg_s: f64,
+}
+
+impl MountTracking {
+    /// Gather the mount's figures over a pass's steps.
+    pub fn over(steps: &[Step]) -> MountTracking {
+        steps
+            .iter()
+            .fold(MountTracking::default(), |m, s| MountTracking {
+                lost_s: m.lost_s + if s.untracked { s.weight_s } else { 0.0 },
+                rate_exceeded_s: m.rate_exceeded_s + if s.rate_exceeded { s.weight_s } else { 0.0 },
+                peak_primary_rate_deg_s: m.peak_primary_rate_deg_s.max(s.primary_rate_deg_s.abs()),
+                peak_secondary_rate_deg_s: m
+                    .peak_secondary_rate_deg_s
+                    .max(s.secondary_rate_deg_s.abs()),
+            })
+    }
 }
 
 /// How close the Sun and the Moon came to the beam in one pass, and what they cost (clear sky).

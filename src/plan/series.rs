@@ -6,7 +6,8 @@
 
 use crate::atmosphere::{Attenuation, ModelWarnings, Weather};
 use crate::geometry::body_track::TrackError;
-use crate::geometry::{doppler_hz, Look, Pass};
+use crate::geometry::mount::Follower;
+use crate::geometry::{doppler_hz, AxisRates, Look, Mount, Pass};
 use crate::link::budget::{AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, RateSpec};
 use crate::orbit::{PropagationError, Propagator};
 use crate::plan::bodies::{BodySample, PassBodies};
@@ -54,7 +55,21 @@ pub struct Step {
     pub cn0_dbhz: f64,
     /// Availability case (rain exceeded p % of the year); `None` when not planned.
     pub rain: Option<RainStep>,
+    /// Rates the mount's two axes need here, deg/s (0 without a mount).
+    pub primary_rate_deg_s: f64,
+    pub secondary_rate_deg_s: f64,
+    /// The mount cannot follow here (its follower points further from the satellite than
+    /// [`MOUNT_TOLERANCE_BEAMWIDTHS`] of the beamwidth, or the step lies in a stretch of tracked
+    /// steps shorter than the dwell time next to such a loss): the step is lost, and no rate,
+    /// volume, mask bin or network segment counts it.
+    pub untracked: bool,
+    /// An axis rate or acceleration demanded here is beyond the mount's limit (the keyhole).
+    pub rate_exceeded: bool,
 }
+
+/// The pointing error, in half-power beamwidths, beyond which a step the mount lags on is lost:
+/// a quarter beamwidth costs 12 (1/4)^2 = 0.75 dB by the pointing-loss rule (common practice).
+pub const MOUNT_TOLERANCE_BEAMWIDTHS: f64 = 0.25;
 
 /// The availability case at one step.
 #[derive(Debug, Clone, Copy, Default, PartialEq)]
@@ -78,6 +93,8 @@ pub struct PassWarnings {
     pub pattern_clamped: bool,
     /// The station direction was below the geometric horizon (a negative mask).
     pub below_horizon: bool,
+    /// The power flux-density at the station exceeded the band's Article 21 limit.
+    pub pfd_exceeded: bool,
 }
 
 impl PassWarnings {
@@ -88,6 +105,7 @@ impl PassWarnings {
             bodies: self.bodies.union(&o.bodies),
             pattern_clamped: self.pattern_clamped || o.pattern_clamped,
             below_horizon: self.below_horizon || o.below_horizon,
+            pfd_exceeded: self.pfd_exceeded || o.pfd_exceeded,
         }
     }
 
@@ -117,6 +135,9 @@ impl PassWarnings {
         let mut m: Vec<String> = self.bodies.messages().map(String::from).collect();
         if self.pattern_clamped {
             m.push("spacecraft antenna: the pattern table does not reach the off-nadir angle, its end value was used".into());
+        }
+        if self.pfd_exceeded {
+            m.push("pfd: the power flux-density at the station exceeds the Article 21 Table 21-4 limit of the band at the chosen rate (pass field pfd_margin_db; compliance is for the administration to decide)".into());
         }
         if self.below_horizon {
             m.push("geometry: the satellite was below the geometric horizon (negative mask); atmosphere evaluated at 0 deg".into());
@@ -252,6 +273,8 @@ pub fn fill_pass(
     let duration_s = seconds_between(&pass.aos, &pass.los).max(0.0);
     let n = (duration_s / step_s).floor() as usize;
     let mut tracked_to_s = -1.0;
+    // The mount's follower, started at the first step.
+    let mut follower = None;
     for k in 0..=n + 1 {
         let mut t_s = k as f64 * step_s;
         if k == n + 1 || t_s > duration_s - 1e-6 {
@@ -281,7 +304,50 @@ pub fn fill_pass(
         warnings.atmosphere = warnings.atmosphere.union(&att.warnings);
         warnings.pattern_clamped |= v.pattern_clamped;
         warnings.below_horizon |= v.below_horizon;
-        let mut step = Step {
+        let mut step = Step::clear_sky(t_s, &look, frequency_hz, &att, &v);
+        if let Some(m) = &model.station.mount {
+            let enu = model.observer.enu(&state);
+            let tolerance_deg =
+                MOUNT_TOLERANCE_BEAMWIDTHS * model.link.ground_antenna().beamwidth_deg;
+            follow_mount(
+                m,
+                enu,
+                steps.last(),
+                (&mut follower, tolerance_deg),
+                &mut step,
+            );
+        }
+        if let Some(w) = rain {
+            let (ra, rv) = budget_at(model, &look, w, at, reference)?;
+            warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
+            step.rain = Some(RainStep {
+                atmospheric_loss_db: ra.total_db,
+                sky_noise_k: rv.sky_noise_k,
+                system_temperature_k: rv.system_temperature_k,
+                cn0_dbhz: rv.cn0_dbhz,
+            });
+        }
+        if let Some(prev) = steps.last_mut() {
+            prev.weight_s = t_s - prev.t_s;
+        }
+        steps.push(step);
+        if t_s >= duration_s {
+            break;
+        }
+    }
+    Ok(warnings)
+}
+
+impl Step {
+    /// A step's clear-sky values (no rain case, no mount yet; the weight is set by the next step).
+    fn clear_sky(
+        t_s: f64,
+        look: &Look,
+        frequency_hz: f64,
+        att: &Attenuation,
+        v: &BudgetValues,
+    ) -> Step {
+        Step {
             t_s,
             weight_s: 0.0,
             azimuth_deg: look.azimuth_deg,
@@ -307,24 +373,36 @@ pub fn fill_pass(
             g_over_t_db_k: v.g_over_t_db_k,
             cn0_dbhz: v.cn0_dbhz,
             rain: None,
-        };
-        if let Some(w) = rain {
-            let (ra, rv) = budget_at(model, &look, w, at, reference)?;
-            warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
-            step.rain = Some(RainStep {
-                atmospheric_loss_db: ra.total_db,
-                sky_noise_k: rv.sky_noise_k,
-                system_temperature_k: rv.system_temperature_k,
-                cn0_dbhz: rv.cn0_dbhz,
-            });
-        }
-        if let Some(prev) = steps.last_mut() {
-            prev.weight_s = t_s - prev.t_s;
-        }
-        steps.push(step);
-        if t_s >= duration_s {
-            break;
+            primary_rate_deg_s: 0.0,
+            secondary_rate_deg_s: 0.0,
+            untracked: false,
+            rate_exceeded: false,
         }
     }
-    Ok(warnings)
+}
+
+/// The mount at one step: the axis rates it needs (`enu`: the line of sight and its rate,
+/// east/north/up), whether they (or the accelerations since `prev`) exceed its limits, and
+/// whether its follower (started at the pass's first step) still points within the tolerance.
+fn follow_mount(
+    m: &Mount,
+    (rho, rho_rate): ([f64; 3], [f64; 3]),
+    prev: Option<&Step>,
+    (follower, tolerance_deg): (&mut Option<Follower>, f64),
+    step: &mut Step,
+) {
+    let r = m.rates(&rho, &rho_rate);
+    let before = prev.map(|p| {
+        let b = AxisRates {
+            primary_deg_s: p.primary_rate_deg_s,
+            secondary_deg_s: p.secondary_rate_deg_s,
+        };
+        (b, step.t_s - p.t_s)
+    });
+    step.primary_rate_deg_s = r.primary_deg_s;
+    step.secondary_rate_deg_s = r.secondary_deg_s;
+    step.rate_exceeded = !m.can_follow(r, before);
+    let f = follower.get_or_insert_with(|| m.start(&rho));
+    let dt_s = before.map_or(0.0, |b| b.1);
+    step.untracked = m.follow(f, &rho, dt_s) > tolerance_deg;
 }

@@ -60,6 +60,16 @@ pub struct BudgetDoc {
     pub closes: bool,
     pub shannon_capacity_bps: f64,
     pub shannon_gap_db: f64,
+    /// Power flux-density at the station in the band's reference bandwidth, dB(W/m2) (null: no
+    /// Article 21 row for the band).
+    pub pfd_dbw_m2: Option<f64>,
+    pub pfd_reference_bandwidth_hz: Option<f64>,
+    /// The Article 21 Table 21-4 limit at this angle of arrival (the elevation), dB(W/m2).
+    pub pfd_limit_dbw_m2: Option<f64>,
+    /// Limit minus pfd, dB (negative: over the limit; a warning, not an error).
+    pub pfd_margin_db: Option<f64>,
+    /// How the limit's row is known (from memory until read in the Radio Regulations).
+    pub pfd_limit_status: Option<&'static str>,
     pub items: Vec<ItemRow>,
     pub warnings: Vec<String>,
     pub defaults: Vec<DefaultUsed>,
@@ -129,6 +139,11 @@ impl BudgetDoc {
             closes: b.closes(),
             shannon_capacity_bps: v.shannon_capacity_bps.round(),
             shannon_gap_db: r4(v.shannon_gap_db),
+            pfd_dbw_m2: b.pfd.map(|p| r4(p.pfd_dbw_m2)),
+            pfd_reference_bandwidth_hz: b.pfd.map(|p| p.reference_bandwidth_hz),
+            pfd_limit_dbw_m2: b.pfd.map(|p| r4(p.limit_dbw_m2)),
+            pfd_margin_db: b.pfd.map(|p| r4(p.margin_db)),
+            pfd_limit_status: b.pfd.map(|_| crate::link::pfd::FROM_MEMORY),
             items: b
                 .items
                 .iter()

@@ -63,6 +63,16 @@ pub struct PlanPassRow {
     pub sun_degraded_s: f64,
     pub min_moon_separation_deg: Option<f64>,
     pub max_moon_noise_k: f64,
+    /// The worst pfd margin at the station over the pass (limit minus pfd, chosen rate), dB;
+    /// null when passbudget has no Article 21 row for the band.
+    pub pfd_margin_db: Option<f64>,
+    /// Seconds the station's mount cannot follow (lost); null without a mount.
+    pub mount_lost_s: Option<f64>,
+    /// Seconds in which an axis rate or acceleration demanded exceeds the mount's limit.
+    pub mount_rate_exceeded_s: Option<f64>,
+    /// The largest rates the mount's primary and secondary axes need, deg/s; null without a mount.
+    pub peak_primary_rate_deg_s: Option<f64>,
+    pub peak_secondary_rate_deg_s: Option<f64>,
     pub starts_before_window: bool,
     pub ends_after_window: bool,
     /// Model-range warnings raised along this pass (clear sky and rain case), joined by "; ".
@@ -119,6 +129,11 @@ impl PlanPassRow {
             sun_degraded_s: r3(p.bodies.sun_degraded_s),
             min_moon_separation_deg: p.bodies.min_moon_separation_deg.map(r3),
             max_moon_noise_k: r3(p.bodies.max_moon_noise_k),
+            pfd_margin_db: p.pfd_margin_db.map(r3),
+            mount_lost_s: p.mount.map(|m| r3(m.lost_s)),
+            mount_rate_exceeded_s: p.mount.map(|m| r3(m.rate_exceeded_s)),
+            peak_primary_rate_deg_s: p.mount.map(|m| r3(m.peak_primary_rate_deg_s)),
+            peak_secondary_rate_deg_s: p.mount.map(|m| r3(m.peak_secondary_rate_deg_s)),
             starts_before_window: p.pass.starts_before_window,
             ends_after_window: p.pass.ends_after_window,
             warnings: p.warnings.messages().join("; "),
@@ -371,6 +386,8 @@ pub struct StepRow {
     pub margin_db: f64,
     /// The chosen fixed rate counts this step (margin met, inside a run of at least the dwell time).
     pub closed: bool,
+    /// The station's mount can follow this step (always true without a mount).
+    pub tracked: bool,
     pub adaptive_scheme: Option<String>,
     #[serde(serialize_with = "crate::report::whole_opt")]
     pub adaptive_rate_bps: Option<f64>,
@@ -425,6 +442,7 @@ pub fn step_rows(series: &PassSeries, rates: &RateSet) -> Vec<StepRow> {
                 ebn0_db: round(o.ebn0_db(s.cn0_dbhz), 4),
                 margin_db: round(o.margin_db(s.cn0_dbhz), 4),
                 closed: series.counted(i),
+                tracked: !s.untracked,
                 adaptive_scheme: a.map(|x| x.scheme.clone()),
                 adaptive_rate_bps: a.map(|x| round(x.rate_bps, 1)),
                 rain_atmospheric_loss_db: s.rain.map(|r| round(r.atmospheric_loss_db, 4)),
@@ -595,7 +613,73 @@ pub struct PlanDoc {
     pub usable_masks: Vec<UsableMaskRow>,
     /// The passes on which a rate fails above its robust mask (see `usable_masks`).
     pub mask_failures: Vec<MaskFailureRow>,
+    /// Every rate option's worst pfd margin over all angles of arrival.
+    pub pfd: PfdBlock,
     pub assumptions: Assumptions,
+}
+
+/// The pfd check of a plan: the band's Article 21 row and every rate option's worst case over
+/// all angles of arrival.
+#[derive(Debug, Clone, Serialize)]
+pub struct PfdBlock {
+    /// `8025-8500 MHz`, or null when passbudget has no row for the frequency.
+    pub band: Option<String>,
+    pub services: Option<&'static str>,
+    pub reference_bandwidth_hz: Option<f64>,
+    /// How the limit's row is known.
+    pub limit_status: &'static str,
+    pub altitude_km: f64,
+    pub method: &'static str,
+    pub caution: &'static str,
+    pub options: Vec<PfdOptionRow>,
+}
+
+/// One rate option's worst case over the angles of arrival.
+#[derive(Debug, Clone, Serialize)]
+pub struct PfdOptionRow {
+    pub mode: &'static str,
+    #[serde(serialize_with = "crate::report::whole")]
+    pub rate_bps: f64,
+    pub scheme: String,
+    pub occupied_bandwidth_hz: f64,
+    /// Limit minus pfd at the worst angle, dB (negative: over the limit).
+    pub worst_margin_db: f64,
+    pub worst_arrival_deg: f64,
+    pub pfd_dbw_m2: f64,
+    pub limit_dbw_m2: f64,
+}
+
+impl PfdBlock {
+    pub fn new(planner: &Planner) -> Self {
+        let c = planner.pfd();
+        let r4 = |x: f64| round(x, 4);
+        PfdBlock {
+            band: c.band.map(|b| b.label()),
+            services: c.band.map(|b| b.services),
+            reference_bandwidth_hz: c.band.map(|b| b.reference_bandwidth_hz),
+            limit_status: match &c.band {
+                Some(b) => b.status,
+                None => "no Article 21 Table 21-4 row for this frequency in passbudget's table: not checked",
+            },
+            altitude_km: round(c.altitude_km, 3),
+            method: "pfd = EIRP(off-nadir) - 10 log10(4 pi d^2) - 10 log10(max(B, B_ref) / B_ref), B the option's occupied bandwidth (spectrum uniform over it), at every angle of arrival 0-90 deg (0.1 deg steps) from the perigee altitude of the mean elements over a spherical Earth of 6378.137 km; free space, no atmospheric loss",
+            caution: "Compliance with the Radio Regulations is for the administration to decide; this is a planning estimate.",
+            options: c
+                .options
+                .iter()
+                .map(|o| PfdOptionRow {
+                    mode: o.mode,
+                    rate_bps: o.rate_bps,
+                    scheme: o.scheme.clone(),
+                    occupied_bandwidth_hz: o.occupied_bandwidth_hz.round(),
+                    worst_margin_db: r4(o.worst.margin_db),
+                    worst_arrival_deg: round(o.worst.arrival_deg, 1),
+                    pfd_dbw_m2: r4(o.worst.pfd_dbw_m2),
+                    limit_dbw_m2: r4(o.worst.limit_dbw_m2),
+                })
+                .collect(),
+        }
+    }
 }
 
 impl PlanDoc {
@@ -615,6 +699,7 @@ impl PlanDoc {
                 .map(|m| UsableMaskRow::new(planner, m))
                 .collect(),
             mask_failures: MaskFailureRow::rows(planner, plan, &plan.usable_masks),
+            pfd: PfdBlock::new(planner),
             assumptions: Assumptions::new(planner, plan),
         }
     }

@@ -20,6 +20,7 @@ mod link_budget;
 mod link_path_antenna;
 mod modcod_thresholds;
 mod moon_position;
+mod mount_pfd;
 mod noise_disk;
 mod noise_sky_system;
 mod operator_outputs;

@@ -1,0 +1,285 @@
+//! Power flux-density (pfd) at the Earth's surface against the limits of the ITU Radio
+//! Regulations, Article 21 (No. 21.16, Table 21-4): a limit per reference bandwidth (4 kHz or
+//! 1 MHz) that depends on the angle of arrival δ above the horizontal plane,
+//!
+//! ```text
+//! limit(δ) = L0                 0 <= δ <= 5 deg
+//!          = L0 + 0.5 (δ - 5)   5 <  δ <= 25 deg
+//!          = L0 + 10            25 < δ <= 90 deg        dB(W/m2) in the reference bandwidth
+//! ```
+//!
+//! under free-space conditions, for all methods of modulation. The form of the rows is confirmed
+//! through 47 CFR §25.208, which states the same three-part form for the FSS bands it mirrors
+//! ("(δ−5)/2", "obtained under assumed free-space propagation conditions";
+//! <http://hallikainen.org/org/FCC/FccRules/2016/25/208>). **The band rows below (L0 and the
+//! reference bandwidth of each band) are from memory**: no readable copy of the Radio Regulations
+//! text could be found to confirm them (`TABLE_21_4`'s `status` says so, and so does every output
+//! that uses them).
+//!
+//! The pfd of a carrier spread uniformly over its occupied bandwidth B (the modem's Rs (1 + roll-off)):
+//!
+//! ```text
+//! pfd = EIRP - 10 log10(4 pi d^2) - 10 log10(max(B, B_ref) / B_ref)      dB(W/m2) in B_ref
+//! ```
+//!
+//! (a carrier narrower than B_ref puts all of its power in one reference bandwidth). Whether an
+//! emission complies is for the administration to decide; this is a planning estimate.
+
+/// One band of Table 21-4.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct BandLimit {
+    pub low_mhz: f64,
+    pub high_mhz: f64,
+    /// The services the row is for, as the table names them.
+    pub services: &'static str,
+    /// The limit for angles of arrival 0-5 deg, dB(W/m2) in the reference bandwidth.
+    pub low_angle_limit_dbw_m2: f64,
+    /// Reference bandwidth, Hz (4 kHz or 1 MHz).
+    pub reference_bandwidth_hz: f64,
+    /// How well the row is known ("from memory" until read in the Radio Regulations).
+    pub status: &'static str,
+}
+
+/// The rows of Table 21-4 passbudget knows (space-to-Earth bands of the space science services).
+/// All from memory (see the module documentation).
+pub const TABLE_21_4: &[BandLimit] = &[
+    BandLimit {
+        low_mhz: 2025.0,
+        high_mhz: 2110.0,
+        services: "space operation, Earth exploration-satellite, space research (space-to-Earth, space-to-space)",
+        low_angle_limit_dbw_m2: -154.0,
+        reference_bandwidth_hz: 4e3,
+        status: FROM_MEMORY,
+    },
+    BandLimit {
+        low_mhz: 2200.0,
+        high_mhz: 2300.0,
+        services: "space operation, Earth exploration-satellite, space research (space-to-Earth, space-to-space)",
+        low_angle_limit_dbw_m2: -154.0,
+        reference_bandwidth_hz: 4e3,
+        status: FROM_MEMORY,
+    },
+    BandLimit {
+        low_mhz: 8025.0,
+        high_mhz: 8500.0,
+        services: "Earth exploration-satellite, space research (space-to-Earth)",
+        low_angle_limit_dbw_m2: -150.0,
+        reference_bandwidth_hz: 4e3,
+        status: FROM_MEMORY,
+    },
+    BandLimit {
+        low_mhz: 25_250.0,
+        high_mhz: 27_500.0,
+        services: "Earth exploration-satellite, space research (space-to-Earth)",
+        low_angle_limit_dbw_m2: -115.0,
+        reference_bandwidth_hz: 1e6,
+        status: FROM_MEMORY,
+    },
+];
+
+/// The status of a row not read in the Radio Regulations text.
+pub const FROM_MEMORY: &str =
+    "from memory: Radio Regulations Article 21 Table 21-4 row not confirmed in the text";
+
+/// The Earth's radius for the angle-of-arrival geometry: WGS-84 equatorial radius, km.
+pub const EARTH_RADIUS_KM: f64 = 6378.137;
+
+impl BandLimit {
+    /// The band of `frequency_hz`, if passbudget's table has one.
+    pub fn for_frequency(frequency_hz: f64) -> Option<&'static BandLimit> {
+        let f_mhz = frequency_hz / 1e6;
+        TABLE_21_4
+            .iter()
+            .find(|b| f_mhz >= b.low_mhz && f_mhz <= b.high_mhz)
+    }
+
+    /// The limit at angle of arrival `arrival_deg`, dB(W/m2) in the reference bandwidth.
+    pub fn limit_dbw_m2(&self, arrival_deg: f64) -> f64 {
+        let d = arrival_deg.clamp(0.0, 90.0);
+        self.low_angle_limit_dbw_m2 + 0.5 * (d.clamp(5.0, 25.0) - 5.0)
+    }
+}
+
+/// pfd of `eirp_dbw` at `distance_km`, spread over `occupied_bandwidth_hz`, in
+/// `reference_bandwidth_hz`, dB(W/m2).
+pub fn pfd_dbw_m2(
+    eirp_dbw: f64,
+    distance_km: f64,
+    occupied_bandwidth_hz: f64,
+    reference_bandwidth_hz: f64,
+) -> f64 {
+    let d_m = distance_km * 1e3;
+    let spread_db = 10.0 * (4.0 * std::f64::consts::PI * d_m * d_m).log10();
+    let share_db =
+        10.0 * (occupied_bandwidth_hz.max(reference_bandwidth_hz) / reference_bandwidth_hz).log10();
+    eirp_dbw - spread_db - share_db
+}
+
+/// For a satellite at `altitude_km` over a spherical Earth of [`EARTH_RADIUS_KM`], the distance
+/// (km) and the off-nadir angle (deg) to the point where it arrives at `arrival_deg`:
+///
+/// ```text
+/// sin(off-nadir) = R cos δ / (R + h)
+/// d = sqrt((R + h)^2 - R^2 cos^2 δ) - R sin δ
+/// ```
+pub fn arrival_geometry(altitude_km: f64, arrival_deg: f64) -> (f64, f64) {
+    let r = EARTH_RADIUS_KM;
+    let rs = r + altitude_km;
+    let (s, c) = arrival_deg.to_radians().sin_cos();
+    let d = (rs * rs - r * r * c * c).sqrt() - r * s;
+    (d, (r * c / rs).asin().to_degrees())
+}
+
+/// The pfd at one geometry against the band's limit.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct PfdAt {
+    pub pfd_dbw_m2: f64,
+    pub reference_bandwidth_hz: f64,
+    pub limit_dbw_m2: f64,
+    /// Limit minus pfd, dB (negative: over the limit).
+    pub margin_db: f64,
+}
+
+impl BandLimit {
+    /// The pfd of `eirp_dbw` over `occupied_bandwidth_hz` at `range_km`, arriving at
+    /// `elevation_deg` (the angle of arrival at a station is its elevation), and its margin.
+    pub fn at(
+        &self,
+        eirp_dbw: f64,
+        range_km: f64,
+        elevation_deg: f64,
+        occupied_bandwidth_hz: f64,
+    ) -> PfdAt {
+        let pfd = pfd_dbw_m2(
+            eirp_dbw,
+            range_km,
+            occupied_bandwidth_hz,
+            self.reference_bandwidth_hz,
+        );
+        let limit = self.limit_dbw_m2(elevation_deg);
+        PfdAt {
+            pfd_dbw_m2: pfd,
+            reference_bandwidth_hz: self.reference_bandwidth_hz,
+            limit_dbw_m2: limit,
+            margin_db: limit - pfd,
+        }
+    }
+
+    /// The band as a label: `8025-8500 MHz`.
+    pub fn label(&self) -> String {
+        format!("{}-{} MHz", self.low_mhz, self.high_mhz)
+    }
+}
+
+/// The worst case over the angles of arrival of one carrier.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct WorstArrival {
+    /// Limit minus pfd at the worst angle, dB (negative: over the limit).
+    pub margin_db: f64,
+    pub arrival_deg: f64,
+    pub pfd_dbw_m2: f64,
+    pub limit_dbw_m2: f64,
+}
+
+/// The smallest margin over angles of arrival 0-90 deg (every 0.1 deg) of a carrier of
+/// `occupied_bandwidth_hz` from `altitude_km`, with EIRP `eirp_at(off_nadir_deg)`.
+pub fn worst_arrival(
+    band: &BandLimit,
+    altitude_km: f64,
+    occupied_bandwidth_hz: f64,
+    eirp_at: impl Fn(f64) -> f64,
+) -> WorstArrival {
+    (0..=900)
+        .map(|k| {
+            let arrival_deg = k as f64 * 0.1;
+            let (d, off_nadir) = arrival_geometry(altitude_km, arrival_deg);
+            let pfd = pfd_dbw_m2(
+                eirp_at(off_nadir),
+                d,
+                occupied_bandwidth_hz,
+                band.reference_bandwidth_hz,
+            );
+            let limit = band.limit_dbw_m2(arrival_deg);
+            WorstArrival {
+                margin_db: limit - pfd,
+                arrival_deg,
+                pfd_dbw_m2: pfd,
+                limit_dbw_m2: limit,
+            }
+        })
+        .min_by(|a, b| a.margin_db.total_cmp(&b.margin_db))
+        .expect("901 angles")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The limit's three parts (the form of 47 CFR §25.208, which mirrors Table 21-4; the
+    /// 8025-8500 MHz row's -150 dB(W/m2) in 4 kHz is from memory).
+    #[test]
+    fn limit_against_the_table_form() {
+        let b = BandLimit::for_frequency(8.2e9).unwrap();
+        assert_eq!(b.reference_bandwidth_hz, 4e3);
+        for (angle, want) in [
+            (0.0, -150.0),
+            (5.0, -150.0),
+            (10.0, -147.5),
+            (15.0, -145.0),
+            (25.0, -140.0),
+            (60.0, -140.0),
+            (90.0, -140.0),
+        ] {
+            assert_eq!(b.limit_dbw_m2(angle), want, "{angle}");
+        }
+        assert!(BandLimit::for_frequency(5.0e9).is_none());
+        assert_eq!(
+            BandLimit::for_frequency(26e9)
+                .unwrap()
+                .reference_bandwidth_hz,
+            1e6
+        );
+    }
+
+    /// A worked case by hand: EIRP 10 dBW at 1000 km spread over 10 MHz, in 4 kHz:
+    /// 10 log10(4 pi (1e6 m)^2) = 10 log10(1.256637e13) = 130.9921 dB;
+    /// 10 log10(10e6 / 4e3) = 10 log10(2500) = 33.9794 dB;
+    /// pfd = 10 - 130.9921 - 33.9794 = -154.9715 dB(W/m2) in 4 kHz; against -140 at 30 deg,
+    /// a margin of 14.97 dB. A 2 kHz carrier puts all its power in one 4 kHz: -120.9921.
+    #[test]
+    fn worked_case_by_hand() {
+        let p = pfd_dbw_m2(10.0, 1000.0, 10e6, 4e3);
+        assert!((p + 154.9715).abs() < 1e-4, "{p}");
+        let b = BandLimit::for_frequency(8.2e9).unwrap();
+        assert!((b.limit_dbw_m2(30.0) - p - 14.9715).abs() < 1e-4);
+        assert!((pfd_dbw_m2(10.0, 1000.0, 2e3, 4e3) + 120.9921).abs() < 1e-4);
+    }
+
+    /// Geometry: at 90 deg the distance is the altitude and the off-nadir angle 0; at 0 deg the
+    /// distance is the tangent sqrt((R+h)^2 - R^2) and sin(off-nadir) = R/(R+h).
+    #[test]
+    fn arrival_geometry_limits() {
+        let (d, t) = arrival_geometry(500.0, 90.0);
+        assert!((d - 500.0).abs() < 1e-9 && t.abs() < 1e-6);
+        let (d, t) = arrival_geometry(500.0, 0.0);
+        let r = EARTH_RADIUS_KM;
+        assert!((d - ((r + 500.0).powi(2) - r * r).sqrt()).abs() < 1e-9);
+        assert!((t - (r / (r + 500.0)).asin().to_degrees()).abs() < 1e-9);
+    }
+
+    /// An isotropic transmitter: the worst angle is where the limit is lowest for the shortest
+    /// distance, i.e. at 5 deg (limit still -150, distance shorter than at 0 deg) or overhead.
+    #[test]
+    fn worst_arrival_of_an_isotropic_carrier() {
+        let b = BandLimit::for_frequency(8.2e9).unwrap();
+        let w = worst_arrival(b, 600.0, 1e6, |_| 0.0);
+        let check = |a: f64| {
+            let (d, _) = arrival_geometry(600.0, a);
+            b.limit_dbw_m2(a) - pfd_dbw_m2(0.0, d, 1e6, 4e3)
+        };
+        assert_eq!(w.margin_db, check(w.arrival_deg));
+        for a in [0.0, 3.0, 5.0, 10.0, 25.0, 45.0, 90.0] {
+            assert!(check(a) >= w.margin_db - 1e-12, "{a}");
+        }
+    }
+}
