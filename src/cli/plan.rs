@@ -278,7 +278,7 @@ fn mount_and_pfd_columns(doc: &PlanDoc, cols: &mut Vec<(String, Align)>) -> (boo
         .iter()
         .any(|r| r.pfd_margin_db.is_some_and(|m| m < 0.0));
     if mount {
-        cols.push(("mount lost".into(), Align::Right));
+        cols.push(("mount lost s".into(), Align::Right));
     }
     if pfd_over {
         cols.push(("pfd margin".into(), Align::Right));
@@ -293,8 +293,7 @@ fn mount_and_pfd_cells(
 ) {
     if mount {
         cells.push(match r.mount_lost_s {
-            Some(s) if s > 0.0 => format!("{s:.0} s"),
-            Some(_) => "0".into(),
+            Some(s) => format!("{s:.0}"),
             None => "-".into(),
         });
     }
