@@ -426,3 +426,40 @@ fn chart_footers_carry_the_element_age_warning() {
         "element-age warning missing"
     );
 }
+
+/// The adaptive modem's switching keys are checked with their file, line and key (issue: bad
+/// input gives one clear line): a hysteresis below zero, a negative re-lock time.
+#[test]
+fn bad_switching_keys_name_their_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(root().join("examples/wrenlet-1.yaml"))
+        .unwrap()
+        .replace(
+            "elements: sat.tle",
+            &format!("elements: {}", root().join("examples/sat.tle").display()),
+        )
+        .replace(
+            "../stations/",
+            &format!("{}/", root().join("stations").display()),
+        );
+    let line = text
+        .lines()
+        .position(|l| l.contains("symbol_rate_baud:"))
+        .unwrap()
+        + 2;
+    for (key, value) in [("hysteresis_db", "-0.5"), ("relock_s", "-1")] {
+        let bad = text.replace(
+            "    symbol_rate_baud: 60.0e6",
+            &format!("    symbol_rate_baud: 60.0e6\n    {key}: {value}"),
+        );
+        let path = write(dir.path(), "bad.yaml", &bad);
+        clean_error(
+            &run(&["plan", &path]),
+            &[
+                &format!("bad.yaml:{line}"),
+                &format!("modem.adaptive.{key}"),
+                "out of range",
+            ],
+        );
+    }
+}
