@@ -183,11 +183,11 @@ fn print_budget(doc: &BudgetDoc, out: &mut dyn Write) -> Result<()> {
     write!(out, "{}", t.render())?;
     writeln!(
         out,
-        "margin {:.2} dB against a required {:.1} dB: the link {} at {:.0} bit/s ({}); Shannon gap at the occupied bandwidth {:.2} dB",
+        "margin {:.2} dB against a required {:.1} dB: the link {} at {} ({}); Shannon gap at the occupied bandwidth {:.2} dB",
         doc.margin_db,
         doc.required_margin_db,
         if doc.closes { "closes" } else { "does not close" },
-        doc.rate_bps,
+        passbudget::engfmt::rate(doc.rate_bps),
         doc.scheme,
         doc.shannon_gap_db
     )?;

@@ -84,8 +84,12 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
                 b: &'a RunDoc,
                 #[serde(flatten)]
                 comparison: &'a Comparison,
+                caution: &'static str,
+                warnings: Vec<String>,
             }
             let doc = Doc {
+                caution: passbudget::report::plan::CAUTION,
+                warnings: run_warnings(&plan_a.warnings, &plan_b.warnings),
                 a: &runs[0],
                 b: &runs[1],
                 comparison: &cmp,
@@ -93,9 +97,7 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
         Format::Csv => {
-            let warnings: Vec<String> = (plan_a.warnings.iter().map(|w| format!("run A: {w}")))
-                .chain(plan_b.warnings.iter().map(|w| format!("run B: {w}")))
-                .collect();
+            let warnings = run_warnings(&plan_a.warnings, &plan_b.warnings);
             write!(out, "{}", to_csv(&cmp.passes, &warnings)?)?
         }
         Format::Table => {
@@ -223,4 +225,12 @@ fn pass_cells(p: &PassDiffRow) -> Vec<String> {
         opt(p.b_peak_margin_db, db),
         signed(p.diff_peak_margin_db, db),
     ]
+}
+
+/// Both runs' warnings, each marked with its run.
+fn run_warnings(a: &[String], b: &[String]) -> Vec<String> {
+    a.iter()
+        .map(|w| format!("run A: {w}"))
+        .chain(b.iter().map(|w| format!("run B: {w}")))
+        .collect()
 }

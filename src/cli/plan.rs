@@ -447,13 +447,25 @@ fn print_usable_masks(
             .unwrap_or_else(|| "never closes".into())
     };
     for r in masks {
+        // a station without a pass has no mask to speak of (the note on stderr says why)
+        let deg = |v: Option<f64>| {
+            if r.passes == 0 {
+                "no pass".to_string()
+            } else {
+                deg(v)
+            }
+        };
         m.row(vec![
             r.station.clone(),
             engfmt::rate(r.rate_bps),
             r.scheme.clone(),
             deg(r.robust_mask_deg),
             deg(r.usable_mask_deg),
-            format!("{} of {}", r.passes_closing, r.passes),
+            if r.passes == 0 {
+                "-".into()
+            } else {
+                format!("{} of {}", r.passes_closing, r.passes)
+            },
         ]);
     }
     writeln!(out, "Usable elevation mask per rate: the rate closes whenever the satellite is above it, on {share} % of the passes and on every pass:")?;

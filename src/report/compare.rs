@@ -25,15 +25,21 @@ pub struct PassDiffRow {
     pub station: String,
     /// `both`, `a` or `b`: the runs that hold the pass.
     pub in_runs: String,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub a_rate_bps: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub b_rate_bps: Option<f64>,
     pub a_scheme: Option<String>,
     pub b_scheme: Option<String>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub a_volume_bits: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
     pub b_volume_bits: Option<f64>,
     /// Fixed-rate volume, B - A (a pass missing from a run counts 0), bits.
+    #[serde(serialize_with = "crate::report::whole")]
     pub diff_volume_bits: f64,
     /// Adaptive volume, B - A, bits.
+    #[serde(serialize_with = "crate::report::whole")]
     pub diff_adaptive_volume_bits: f64,
     pub a_closes_from: Option<String>,
     pub b_closes_from: Option<String>,
@@ -61,14 +67,23 @@ pub struct TotalsDiffRow {
     pub passes_matched: usize,
     pub a_passes_closing: usize,
     pub b_passes_closing: usize,
+    #[serde(serialize_with = "crate::report::whole")]
     pub a_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub b_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub diff_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub a_adaptive_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub b_adaptive_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub diff_adaptive_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub a_network_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub b_network_volume_bits: f64,
+    #[serde(serialize_with = "crate::report::whole")]
     pub diff_network_volume_bits: f64,
     /// Passes whose chosen rate differs (in both runs).
     pub passes_rate_changed: usize,

@@ -54,7 +54,14 @@ impl PassSink for CsvSink<'_> {
             .dir
             .join(pass_csv_name(s.plan.number, st, &s.plan.pass.aos));
         let rows = step_rows(s, self.planner.rates());
-        let warnings = s.plan.warnings.lines(self.planner.frequency_hz());
+        // The element age (the one warning of the whole run that every number depends on), then
+        // the pass's own.
+        let w = self.planner.window();
+        let mut warnings: Vec<String> =
+            crate::plan::inputs::element_age_warning(self.planner.elements(), w.start(), w.end())
+                .into_iter()
+                .collect();
+        warnings.extend(s.plan.warnings.lines(self.planner.frequency_hz()));
         let text = to_csv(&rows, &warnings).map_err(|e| file_error(&path, e))?;
         write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))
     }

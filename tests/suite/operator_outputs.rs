@@ -133,7 +133,10 @@ fn a_window_far_from_the_epoch_is_refused_unless_allowed() {
     args.extend(["--allow-stale-elements", "--format", "json"]);
     let doc = json(&run(&args));
     let w = doc["assumptions"]["warnings"].to_string();
-    assert!(w.contains("STALE ELEMENTS, ALLOWED ON REQUEST"), "{w}");
+    assert!(
+        w.contains("STALE ELEMENTS") && w.contains("more than the 90 days"),
+        "{w}"
+    );
     assert!(w.contains("not meaningful"), "{w}");
     // Before the epoch: said so, and the warning is in the JSON, not only on stderr.
     let doc = json(&run(&[
@@ -175,7 +178,12 @@ fn a_station_with_no_pass_is_named() {
         "--mask",
         "89",
     ]);
-    success(&o);
+    let table = success(&o);
+    // the mask table says why it has no figure
+    assert!(
+        table.contains("no pass") && !table.contains("0 of 0"),
+        "{table}"
+    );
     let stderr = String::from_utf8_lossy(&o.stderr);
     for s in ["Nordkam", "Sierra Baja", "Pulau Reka"] {
         assert!(
@@ -462,4 +470,64 @@ fn bad_switching_keys_name_their_line() {
             ],
         );
     }
+}
+
+/// The stale-element warning reaches every output of a run: each pass's time series too, and the
+/// comparison's JSON (with the caution); the comparison writes integer quantities as integers.
+#[test]
+fn stale_elements_reach_every_output() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let o = run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--start",
+        "2026-12-20T00:00:00Z",
+        "--days",
+        "0.2",
+        "--out",
+        &out.to_string_lossy(),
+        "--quiet",
+    ]);
+    success(&o);
+    let pass_csv = std::fs::read_dir(&out)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .find(|p| {
+            p.file_name()
+                .unwrap()
+                .to_string_lossy()
+                .starts_with("pass-")
+        })
+        .expect("a pass CSV");
+    let text = std::fs::read_to_string(pass_csv).unwrap();
+    let head: Vec<&str> = text.lines().take_while(|l| l.starts_with('#')).collect();
+    assert!(
+        head.iter().any(|l| l.contains("days after the epoch")),
+        "{head:?}"
+    );
+    let doc = json(&run(&[
+        "compare",
+        "examples/wrenlet-1.yaml",
+        "--start",
+        "2026-12-20T00:00:00Z",
+        "--days",
+        "0.2",
+        "--set-b",
+        "transmitter.power_w=4",
+        "--format",
+        "json",
+        "--quiet",
+    ]));
+    assert!(doc["caution"]
+        .as_str()
+        .unwrap()
+        .starts_with("Planning estimates only"));
+    assert!(
+        doc["warnings"].to_string().contains("days after the epoch"),
+        "{doc}"
+    );
+    let p = &doc["passes"][0];
+    assert!(p["a_rate_bps"].is_u64(), "{p}");
+    assert!(p["a_volume_bits"].is_u64(), "{p}");
 }
