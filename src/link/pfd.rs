@@ -82,7 +82,7 @@ pub const FROM_MEMORY: &str =
     "from memory: Radio Regulations Article 21 Table 21-4 row not confirmed in the text";
 
 /// The Earth's radius for the angle-of-arrival geometry: WGS-84 equatorial radius, km.
-pub const EARTH_RADIUS_KM: f64 = 6378.137;
+pub const EARTH_RADIUS_KM: f64 = crate::units::WGS84_A_KM;
 
 impl BandLimit {
     /// The band of `frequency_hz`, if passbudget's table has one.

@@ -26,6 +26,13 @@ impl ElementSet {
         }
     }
 
+    /// Semi-major axis from the mean motion, a = (mu / n^2)^(1/3) with n in rad/s and the WGS-72
+    /// mu of SGP4 (the one rule, used by the propagator and the pfd geometry), km.
+    pub fn semi_major_axis_km(&self) -> f64 {
+        let n_rad_s = self.elements.mean_motion * std::f64::consts::TAU / 86_400.0;
+        (super::propagate::WGS72_MU_KM3_S2 / (n_rad_s * n_rad_s)).cbrt()
+    }
+
     /// A label for messages: the name if there is one, else the catalog number.
     pub fn label(&self) -> String {
         match &self.name {

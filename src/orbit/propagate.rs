@@ -128,9 +128,7 @@ impl Propagator {
         )
         .map_err(|err| invalid(err.to_string()))?;
         let initial_resonance = constants.initial_state();
-        // a = (μ / n²)^(1/3) with n in rad/s
-        let n_rad_s = e.mean_motion * std::f64::consts::TAU / 86_400.0;
-        let semi_major_axis_km = (WGS72_MU_KM3_S2 / (n_rad_s * n_rad_s)).cbrt();
+        let semi_major_axis_km = set.semi_major_axis_km();
         Ok(Propagator {
             norad_id: set.norad_id,
             name: set.name.clone(),

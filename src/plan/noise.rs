@@ -38,14 +38,6 @@ impl NoiseWarnings {
         }
     }
 
-    /// Messages naming the model and its range.
-    pub fn messages(&self) -> impl Iterator<Item = &'static str> {
-        let man_made = self.man_made_extrapolated.then_some(
-            "man-made noise (ITU-R P.372 Table 1): frequency outside the 0.3-250 MHz of the curves, the curve is extrapolated",
-        );
-        self.pattern.messages().chain(man_made)
-    }
-
     /// The noise models whose frequency range is passed, as `model (source, range)`.
     pub fn frequency_ranges(&self) -> impl Iterator<Item = &'static str> {
         [
@@ -63,7 +55,7 @@ impl NoiseWarnings {
         .map(|(_, m)| m)
     }
 
-    /// [`Self::messages`] without the frequency-range ones.
+    /// The other noise-model warnings (the frequency ranges are in [`Self::frequency_ranges`]).
     pub fn other_messages(&self) -> impl Iterator<Item = &'static str> {
         PatternWarnings {
             frequency_outside_envelope_range: false,

@@ -8,9 +8,6 @@ use crate::link::budget::LinkModel;
 use crate::link::pfd::{worst_arrival, BandLimit, WorstArrival};
 use crate::orbit::ElementSet;
 
-/// WGS-72 gravitational parameter (the SGP4 constants), km3/s2.
-const MU_KM3_S2: f64 = 398_600.8;
-
 /// One rate option's worst case over the angles of arrival.
 #[derive(Debug, Clone, PartialEq)]
 pub struct PfdOption {
@@ -35,9 +32,8 @@ pub struct PfdCheck {
 
 /// Perigee altitude of the mean elements: a (1 - e) - R, a = (mu / n^2)^(1/3), km.
 pub fn perigee_altitude_km(elements: &ElementSet) -> f64 {
-    let n_rad_s = elements.elements.mean_motion * 2.0 * std::f64::consts::PI / 86_400.0;
-    let a = (MU_KM3_S2 / (n_rad_s * n_rad_s)).cbrt();
-    a * (1.0 - elements.elements.eccentricity) - crate::link::pfd::EARTH_RADIUS_KM
+    elements.semi_major_axis_km() * (1.0 - elements.elements.eccentricity)
+        - crate::link::pfd::EARTH_RADIUS_KM
 }
 
 impl PfdCheck {

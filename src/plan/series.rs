@@ -144,14 +144,6 @@ impl PassWarnings {
         }
         m
     }
-
-    /// Messages naming the model and its range.
-    pub fn messages(&self) -> Vec<String> {
-        let mut m: Vec<String> = self.atmosphere.messages().map(String::from).collect();
-        m.extend(self.noise.messages().map(String::from));
-        m.extend(self.others());
-        m
-    }
 }
 
 /// Error while following a pass.

@@ -136,7 +136,7 @@ impl PlanPassRow {
             peak_secondary_rate_deg_s: p.mount.map(|m| r3(m.peak_secondary_rate_deg_s)),
             starts_before_window: p.pass.starts_before_window,
             ends_after_window: p.pass.ends_after_window,
-            warnings: p.warnings.messages().join("; "),
+            warnings: p.warnings.lines(planner.frequency_hz()).join("; "),
         }
     }
 }
