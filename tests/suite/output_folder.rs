@@ -328,6 +328,32 @@ fn a_kill_at_any_step_of_the_commit_leaves_a_complete_set() {
     }
 }
 
+/// One `plan --out` into a folder holding a previous set, killed (SIGKILL) after `delay_ms`; then
+/// a failing run in the same folder completes any interrupted change. Returns the folder's state.
+fn kill_after(
+    dir: &Path,
+    k: usize,
+    delay_ms: u64,
+) -> (BTreeMap<String, (usize, u64)>, Vec<String>) {
+    let out = previous_results(dir, &format!("out{k}"), false);
+    let o = out.to_string_lossy().into_owned();
+    let mut child = command()
+        .current_dir(root())
+        .args(["plan", MISSION, "--days", "0.5", "--out", &o])
+        .stdout(std::process::Stdio::null())
+        .stderr(std::process::Stdio::null())
+        .spawn()
+        .unwrap();
+    std::thread::sleep(std::time::Duration::from_millis(delay_ms));
+    let _ = child.kill();
+    child.wait().unwrap();
+    let now = state(&out);
+    clean_error(&plan_into(&out, &["--step", "0"]), &["--step"]);
+    assert_eq!(state(&out), now, "a kill after {delay_ms} ms");
+    assert!(beside(&out).is_empty(), "{:?}", beside(&out));
+    now
+}
+
 /// Real kills (SIGKILL) at moments spread over whole runs that replace a previous set: every
 /// time, the folder holds exactly the previous or exactly the new set, and after the next run
 /// nothing is left beside it.
@@ -343,35 +369,31 @@ fn a_sigkill_at_any_moment_leaves_the_old_or_the_new_set() {
     let run_ms = started.elapsed().as_millis() as u64;
     let spacing_ms = (run_ms * 5 / 4 / 23).max(1);
     let new = state(&reference);
-    let mut seen_old = 0;
-    let mut seen_new = 0;
-    for k in 0..24u64 {
-        let out = previous_results(dir.path(), &format!("out{k}"), false);
-        let o = out.to_string_lossy().into_owned();
-        let mut child = command()
-            .current_dir(root())
-            .args(["plan", MISSION, "--days", "0.5", "--out", &o])
-            .stdout(std::process::Stdio::null())
-            .stderr(std::process::Stdio::null())
-            .spawn()
-            .unwrap();
-        std::thread::sleep(std::time::Duration::from_millis(spacing_ms * k));
-        let _ = child.kill();
-        child.wait().unwrap();
-        let now = state(&out);
+    let (mut seen_old, mut seen_new) = (0, 0);
+    // 24 kills spread over a run; then, on a machine so loaded that none landed after the commit
+    // (or none before it), later (earlier) ones until each outcome has occurred once.
+    let mut delays: Vec<u64> = (0..24u64).map(|k| spacing_ms * k).collect();
+    let mut k = 0;
+    while k < delays.len() {
+        let delay_ms = delays[k];
+        let now = kill_after(dir.path(), k, delay_ms);
         assert!(
             now == old || now == new,
-            "a kill after {} ms: a mixed folder",
-            spacing_ms * k
+            "a kill after {delay_ms} ms: a mixed folder"
         );
         if now == old {
             seen_old += 1;
         } else {
             seen_new += 1;
         }
-        clean_error(&plan_into(&out, &["--step", "0"]), &["--step"]);
-        assert_eq!(state(&out), now, "a kill after {} ms", spacing_ms * k);
-        assert!(beside(&out).is_empty(), "{:?}", beside(&out));
+        k += 1;
+        if k == delays.len() && delays.len() < 32 {
+            if seen_new == 0 {
+                delays.push(delays[k - 1] * 2 + run_ms);
+            } else if seen_old == 0 {
+                delays.push(0);
+            }
+        }
     }
     assert!(
         seen_old > 0 && seen_new > 0,
