@@ -4,6 +4,8 @@
 //! * [`omm`] reads CCSDS Orbit Mean-Elements Messages (CCSDS 502.0-B-2) in JSON and KVN form.
 //! * [`propagate`] runs SGP4/SDP4 (Vallado, Crawford, Hujsak, Kelso, "Revisiting Spacetrack
 //!   Report #3", AIAA 2006-6753) through the `sgp4` crate with WGS-72 constants.
+//! * [`spline`] interpolates Earth-fixed states between SGP4 knots over a pass (cubic Hermite,
+//!   near-Earth orbits; deep-space orbits are propagated directly).
 //! * [`frames`] turns TEME states into Earth-fixed states (GMST IAU-82) and WGS-84 geodetic
 //!   coordinates (NIMA TR8350.2) into Earth-centred Earth-fixed coordinates.
 //!
@@ -21,6 +23,7 @@ pub mod frames;
 pub mod fuzz_entry;
 pub mod omm;
 pub mod propagate;
+pub mod spline;
 pub mod tle;
 
 use std::path::{Path, PathBuf};
@@ -32,6 +35,7 @@ pub use elements::ElementSet;
 pub use frames::{EcefState, TemeState};
 pub use omm::OmmError;
 pub use propagate::{PropagationError, Propagator};
+pub use spline::EcefSpline;
 pub use tle::TleError;
 
 /// Error loading an element file: names the file; the inner error names the line.

@@ -85,6 +85,8 @@ pub struct Propagator {
     semi_major_axis_km: f64,
     eccentricity: f64,
     period_minutes: f64,
+    /// SGP4's near-Earth branch (Brouwer mean motion above 2 pi / 225 min), not SDP4.
+    near_earth: bool,
 }
 
 impl std::fmt::Debug for Propagator {
@@ -119,6 +121,9 @@ impl Propagator {
             e.mean_motion * (std::f64::consts::PI / 720.0),
         )
         .map_err(|err| invalid(err.to_string()))?;
+        // The crate's own test for its near-Earth branch (AIAA 2006-6753 `sgp4init`: period
+        // below 225 min from the un-Kozai'd mean motion).
+        let near_earth = orbit.mean_motion > 2.0 * std::f64::consts::PI / 225.0;
         let constants = sgp4::Constants::new(
             sgp4::WGS72,
             sgp4::iau_epoch_to_sidereal_time,
@@ -140,6 +145,7 @@ impl Propagator {
             semi_major_axis_km,
             eccentricity: e.eccentricity,
             period_minutes: 1440.0 / e.mean_motion,
+            near_earth,
         })
     }
 
@@ -168,6 +174,12 @@ impl Propagator {
     /// Orbital period at epoch, minutes (1440 / mean motion in rev/day).
     pub fn period_minutes(&self) -> f64 {
         self.period_minutes
+    }
+
+    /// Whether SGP4 runs its near-Earth branch (period below 225 min); `false` for SDP4, whose
+    /// velocity is not exactly the derivative of its position (the lunar-solar terms).
+    pub fn is_near_earth(&self) -> bool {
+        self.near_earth
     }
 
     /// Number of SGP4 evaluations made so far.
