@@ -249,6 +249,31 @@ pub struct BudgetValues {
     pub below_horizon: bool,
 }
 
+/// The rate-free part of the budget at one instant ([`LinkModel::evaluate_link`]). Copy, no
+/// allocation.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct LinkValues {
+    /// Spacecraft antenna gain toward the station, dBi.
+    pub spacecraft_gain_dbi: f64,
+    pub eirp_dbw: f64,
+    pub free_space_loss_db: f64,
+    pub atmospheric_loss_db: f64,
+    /// Sky brightness along the boresight (P.618-14 eq. 69), K.
+    pub sky_temperature_k: f64,
+    /// The external noise terms it was given, K.
+    pub external: ExternalNoise,
+    /// Receiver (Friis cascade at the antenna terminals), K.
+    pub receiver_noise_k: f64,
+    pub antenna_temperature_k: f64,
+    pub system_temperature_k: f64,
+    pub g_over_t_db_k: f64,
+    pub cn0_dbhz: f64,
+    /// The spacecraft pattern table was clamped at one of its ends.
+    pub pattern_clamped: bool,
+    /// The station direction is below the geometric horizon (elevation < 0).
+    pub below_horizon: bool,
+}
+
 /// One line of the printed budget.
 #[derive(Debug, Clone, PartialEq)]
 pub struct BudgetItem {
@@ -367,7 +392,40 @@ impl LinkModel {
         external: ExternalNoise,
         rate: RateSpec,
     ) -> Result<BudgetValues, BudgetError> {
-        self.check_instant(&geometry, &atmosphere, &rate)?;
+        // Tsky along the boresight (P.618-14 eq. 69), for reference
+        let sky_temperature_k = sky_temperature_unchecked(
+            atmosphere.absorptive_db,
+            atmosphere.mean_radiating_temperature_k,
+            self.background_k,
+        );
+        self.evaluate_with_sky(geometry, atmosphere, sky_temperature_k, external, rate)
+    }
+
+    /// [`Self::evaluate`] with the boresight sky brightness given (a plan's step interpolates it
+    /// from the station's path table, `plan::path_table`, with the attenuation).
+    pub fn evaluate_with_sky(
+        &self,
+        geometry: BudgetGeometry,
+        atmosphere: AtmosphereLoss,
+        sky_temperature_k: f64,
+        external: ExternalNoise,
+        rate: RateSpec,
+    ) -> Result<BudgetValues, BudgetError> {
+        let link = self.evaluate_link(geometry, atmosphere, sky_temperature_k, external)?;
+        self.with_rate(&link, rate)
+    }
+
+    /// The part of the budget that does not depend on the rate, down to C/N0 (what a plan's step
+    /// keeps: each rate option then reduces to a C/N0 threshold). Pure; allocates nothing.
+    #[inline]
+    pub fn evaluate_link(
+        &self,
+        geometry: BudgetGeometry,
+        atmosphere: AtmosphereLoss,
+        sky_temperature_k: f64,
+        external: ExternalNoise,
+    ) -> Result<LinkValues, BudgetError> {
+        check_instant(&geometry, &atmosphere)?;
         if !external.is_valid() {
             return Err(BudgetError::ExternalNoise {
                 sky_k: external.sky_k,
@@ -388,7 +446,7 @@ impl LinkModel {
         let (eirp_dbw, tx_gain) = self.transmitter.eirp_dbw(off_nadir_deg)?;
         // L_fs = 20 log10(4 pi d / lambda)
         let free_space_loss_db = self.fsl_constant_db + 20.0 * range_km.log10();
-        let noise = self.noise_at(&atmosphere, &external);
+        let noise = self.noise_at(sky_temperature_k, &external);
         // C/N0 = EIRP - L_fs - A - L_pol - L_point + G/T - 10 log10(k)
         let cn0_dbhz = eirp_dbw
             - free_space_loss_db
@@ -397,30 +455,51 @@ impl LinkModel {
             - self.ground.pointing_loss_db
             + noise.g_over_t_db_k
             - BOLTZMANN_DBW_PER_K_HZ;
-        let r = rate_figures(cn0_dbhz, &rate);
-        let op = &rate.operating;
-        Ok(BudgetValues {
+        Ok(LinkValues {
             spacecraft_gain_dbi: tx_gain.gain_dbi,
             eirp_dbw,
             free_space_loss_db,
             atmospheric_loss_db: total_db,
-            polarization_loss_db: self.polarization_loss_db,
-            pointing_loss_db: self.ground.pointing_loss_db,
-            antenna_gain_dbi: self.ground.gain_dbi,
             sky_temperature_k: noise.sky_temperature_k,
-            sky_noise_k: external.sky_k,
-            ground_noise_k: external.ground_k,
-            man_made_noise_k: external.man_made_k,
-            sun_noise_k: external.sun_k,
-            moon_noise_k: external.moon_k,
-            // set by the caller that knows the time (plan::series::budget_at)
-            sun_separation_deg: None,
-            moon_separation_deg: None,
+            external,
             receiver_noise_k: self.receiver.temperature_k(),
             antenna_temperature_k: noise.antenna_temperature_k,
             system_temperature_k: noise.system_temperature_k,
             g_over_t_db_k: noise.g_over_t_db_k,
             cn0_dbhz,
+            pattern_clamped: tx_gain.clamped,
+            below_horizon: crate::atmosphere::elevation::below_horizon(elevation_deg),
+        })
+    }
+
+    /// The whole budget from the rate-free part and a rate (its figures from C/N0), the rate
+    /// checked against the bandwidth limit.
+    pub fn with_rate(&self, l: &LinkValues, rate: RateSpec) -> Result<BudgetValues, BudgetError> {
+        self.check_bandwidth(&rate)?;
+        let r = rate_figures(l.cn0_dbhz, &rate);
+        let op = &rate.operating;
+        Ok(BudgetValues {
+            spacecraft_gain_dbi: l.spacecraft_gain_dbi,
+            eirp_dbw: l.eirp_dbw,
+            free_space_loss_db: l.free_space_loss_db,
+            atmospheric_loss_db: l.atmospheric_loss_db,
+            polarization_loss_db: self.polarization_loss_db,
+            pointing_loss_db: self.ground.pointing_loss_db,
+            antenna_gain_dbi: self.ground.gain_dbi,
+            sky_temperature_k: l.sky_temperature_k,
+            sky_noise_k: l.external.sky_k,
+            ground_noise_k: l.external.ground_k,
+            man_made_noise_k: l.external.man_made_k,
+            sun_noise_k: l.external.sun_k,
+            moon_noise_k: l.external.moon_k,
+            // set by the caller that knows the time (plan::series::budget_at)
+            sun_separation_deg: None,
+            moon_separation_deg: None,
+            receiver_noise_k: l.receiver_noise_k,
+            antenna_temperature_k: l.antenna_temperature_k,
+            system_temperature_k: l.system_temperature_k,
+            g_over_t_db_k: l.g_over_t_db_k,
+            cn0_dbhz: l.cn0_dbhz,
             rate_bps: rate.rate_bps,
             channel_rate_bps: rate.channel_rate_bps(),
             symbol_rate_baud: r.symbol_rate_baud,
@@ -431,62 +510,15 @@ impl LinkModel {
             margin_db: r.margin_db,
             shannon_capacity_bps: r.shannon_capacity_bps,
             shannon_gap_db: r.shannon_gap_db,
-            pattern_clamped: tx_gain.clamped,
+            pattern_clamped: l.pattern_clamped,
             galactic_extrapolated: self.sky_range == SkyRange::GalacticExtrapolated,
-            below_horizon: crate::atmosphere::elevation::below_horizon(elevation_deg),
+            below_horizon: l.below_horizon,
         })
-    }
-
-    /// Reject an instant the budget cannot be evaluated at: range, elevation, atmospheric
-    /// loss, mean radiating temperature, then the rate's bandwidth (in that order).
-    #[inline]
-    fn check_instant(
-        &self,
-        geometry: &BudgetGeometry,
-        atmosphere: &AtmosphereLoss,
-        rate: &RateSpec,
-    ) -> Result<(), BudgetError> {
-        let BudgetGeometry {
-            elevation_deg,
-            range_km,
-            ..
-        } = *geometry;
-        if !(range_km > 0.0 && range_km.is_finite()) {
-            return Err(BudgetError::Range { range_km });
-        }
-        if !(-90.0..=90.0).contains(&elevation_deg) {
-            return Err(BudgetError::Elevation { elevation_deg });
-        }
-        let AtmosphereLoss {
-            total_db,
-            absorptive_db,
-            mean_radiating_temperature_k: tmr_k,
-        } = *atmosphere;
-        if !(total_db >= 0.0
-            && total_db.is_finite()
-            && absorptive_db >= 0.0
-            && absorptive_db.is_finite())
-        {
-            return Err(BudgetError::Atmosphere {
-                total_db,
-                absorptive_db,
-            });
-        }
-        if !(tmr_k >= 0.0 && tmr_k.is_finite()) {
-            return Err(BudgetError::MeanRadiatingTemperature { value_k: tmr_k });
-        }
-        self.check_bandwidth(rate)
     }
 
     /// Boresight sky brightness, antenna and system noise temperatures and G/T.
     #[inline]
-    fn noise_at(&self, atmosphere: &AtmosphereLoss, external: &ExternalNoise) -> NoiseFigures {
-        // Tsky along the boresight (P.618-14 eq. 69), for reference
-        let sky_temperature_k = sky_temperature_unchecked(
-            atmosphere.absorptive_db,
-            atmosphere.mean_radiating_temperature_k,
-            self.background_k,
-        );
+    fn noise_at(&self, sky_temperature_k: f64, external: &ExternalNoise) -> NoiseFigures {
         // Ta = T_sky + T_ground + T_man-made
         let antenna_temperature_k = external.total_k();
         // Tsys = Ta + T_rx (antenna terminals)
@@ -607,6 +639,45 @@ impl LinkModel {
             ),
         ]
     }
+}
+
+/// Reject an instant the budget cannot be evaluated at: range, elevation, atmospheric loss, mean
+/// radiating temperature (in that order; the rate's bandwidth is checked after them).
+#[inline]
+fn check_instant(
+    geometry: &BudgetGeometry,
+    atmosphere: &AtmosphereLoss,
+) -> Result<(), BudgetError> {
+    let BudgetGeometry {
+        elevation_deg,
+        range_km,
+        ..
+    } = *geometry;
+    if !(range_km > 0.0 && range_km.is_finite()) {
+        return Err(BudgetError::Range { range_km });
+    }
+    if !(-90.0..=90.0).contains(&elevation_deg) {
+        return Err(BudgetError::Elevation { elevation_deg });
+    }
+    let AtmosphereLoss {
+        total_db,
+        absorptive_db,
+        mean_radiating_temperature_k: tmr_k,
+    } = *atmosphere;
+    if !(total_db >= 0.0
+        && total_db.is_finite()
+        && absorptive_db >= 0.0
+        && absorptive_db.is_finite())
+    {
+        return Err(BudgetError::Atmosphere {
+            total_db,
+            absorptive_db,
+        });
+    }
+    if !(tmr_k >= 0.0 && tmr_k.is_finite()) {
+        return Err(BudgetError::MeanRadiatingTemperature { value_k: tmr_k });
+    }
+    Ok(())
 }
 
 /// Noise side of the budget at one instant.

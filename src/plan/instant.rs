@@ -1,10 +1,13 @@
 //! The itemized budget at one instant: one station of a mission, at a given time (geometry from
 //! the propagated orbit) or at a given elevation (slant range from the orbit's semi-major axis).
-//! It goes through [`super::series::budget_at`], the same function the plan uses at every step, so
-//! `budget --at` and the plan always agree.
+//! It goes through [`super::series::budget_at`], which ends in the same function as the plan's
+//! steps (`link_of_terms`); the plan interpolates the orbit and the elevation-only terms
+//! ([`crate::orbit::spline`], [`super::path_table`]) where this computes them directly, so
+//! `budget --at` and the plan agree to within those stated bounds.
 
 use super::bodies::PassBodies;
 use super::inputs::{element_age_warning, load_satellite, selection_note, SatelliteError};
+use super::path_table::PathTerms;
 use super::prepare::{
     availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel,
 };
@@ -411,7 +414,12 @@ fn items(
         unit: "dB",
         source: source.into(),
     });
-    let (geometry, atmosphere_loss) = link_inputs(model, look, att);
+    let terms = PathTerms::of(
+        att,
+        model.mean_radiating_temperature_k,
+        model.link.background_temperature_k(),
+    );
+    let (geometry, atmosphere_loss) = link_inputs(model, look, &terms);
     // The noise terms budget_at used (the Sun's and the Moon's need the time).
     let external = ExternalNoise {
         sky_k: values.sky_noise_k,

@@ -29,6 +29,7 @@ pub mod mask;
 pub mod network;
 pub mod noise;
 mod pass;
+pub mod path_table;
 pub mod pfd;
 mod planner;
 pub mod prepare;

@@ -14,7 +14,7 @@ use super::series::{fill_pass, PassWarnings, StepPlan};
 use super::sink::PassSink;
 use crate::atmosphere::Weather;
 use crate::geometry::Pass;
-use crate::orbit::{ElementSet, PropagationError, Propagator};
+use crate::orbit::{EcefSpline, ElementSet, PropagationError, Propagator};
 use crate::plan::series::Step;
 use crate::timefmt::{add_seconds, seconds_between};
 use chrono::{DateTime, Utc};
@@ -53,6 +53,8 @@ impl PassContext<'_> {
 pub(super) struct Scratch {
     /// Each worker builds its own propagator (it keeps mutable state and is not `Sync`).
     prop: Result<Propagator, PropagationError>,
+    /// The orbit over the current pass, interpolated between SGP4 knots.
+    orbit: EcefSpline,
     steps: Vec<Step>,
     cn0: Vec<f64>,
     rain_cn0: Vec<f64>,
@@ -68,6 +70,7 @@ impl Scratch {
     pub(super) fn new(elements: &ElementSet) -> Scratch {
         Scratch {
             prop: Propagator::new(elements),
+            orbit: EcefSpline::new(),
             steps: Vec::new(),
             cn0: Vec::new(),
             rain_cn0: Vec::new(),
@@ -92,7 +95,6 @@ impl Scratch {
             step_s: planner.step_s(),
             frequency_hz: planner.frequency_hz(),
             rain: planner.rain(),
-            reference: planner.rates().ladder_specs[0],
         };
         if self.bodies.len() < planner.stations().len() {
             self.bodies.resize_with(planner.stations().len(), || None);
@@ -101,7 +103,14 @@ impl Scratch {
             Some(b) => b,
             slot => slot.insert(PassBodies::new(&model.observer, &pass.aos, &pass.aos)?),
         };
-        let mut warnings = fill_pass(prop, model, pass, &how, &mut self.steps, bodies)?;
+        let mut warnings = fill_pass(
+            (prop, &mut self.orbit),
+            model,
+            pass,
+            &how,
+            &mut self.steps,
+            bodies,
+        )?;
         warnings.atmosphere = warnings
             .atmosphere
             .union(&model.atmosphere.static_warnings());

@@ -19,6 +19,7 @@ use crate::noise::pattern::NoisePattern;
 use crate::noise::system::{LnaNoise, ReceiverSpec};
 use crate::plan::bodies::BodyNoise;
 use crate::plan::noise::StationNoise;
+use crate::plan::path_table::PathTables;
 use crate::plan::rate::{OptionId, RateOption};
 use crate::units::wavelength_m;
 
@@ -66,6 +67,9 @@ pub struct StationModel {
     pub atmosphere: PreparedAtmosphere,
     /// The antenna's noise: pattern, tables per weather case, man-made term.
     pub noise: StationNoise,
+    /// The elevation-only terms of the path (attenuation, boresight sky, transmissivity),
+    /// tabulated per weather case for the plan's steps.
+    pub path: PathTables,
     /// The Sun and the Moon seen through the same pattern.
     pub bodies: BodyNoise<NoisePattern>,
     /// Mean radiating temperature of the atmosphere, K (P.618-14 eq (70) from the surface temperature).
@@ -199,6 +203,7 @@ pub fn station_model(
         .map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
     let tmr_k = mean_radiating_temperature_k(st.climate.temperature_k);
     let noise = station_noise(st, radio.ant, &link, &atmosphere, tmr_k, diameter_m)?;
+    let path = PathTables::new(&atmosphere, tmr_k, link.background_temperature_k());
     let bodies = BodyNoise::new(
         noise.pattern(),
         link.ground_antenna().beamwidth_deg,
@@ -213,6 +218,7 @@ pub fn station_model(
         link,
         atmosphere,
         noise,
+        path,
         bodies,
         mean_radiating_temperature_k: tmr_k,
         antenna_diameter_m: diameter_m,
@@ -222,9 +228,11 @@ pub fn station_model(
 }
 
 impl StationModel {
-    /// Prepare the antenna-noise table of `weather` (the availability case) for this station.
+    /// Prepare the antenna-noise and path tables of `weather` (the availability case) for this
+    /// station.
     pub fn prepare_weather(&mut self, weather: Weather) {
         self.noise.prepare_weather(&self.atmosphere, weather);
+        self.path.prepare_weather(weather);
     }
 }
 

@@ -1,17 +1,23 @@
 //! The budget time series over one pass: at a fixed step from AOS to LOS, the geometry, the
 //! atmosphere and the noise, down to C/N0 (clear sky and, optionally, the availability case).
 //!
-//! [`budget_at`] is the one function that turns a look angle into a budget; the `budget --at`
-//! command uses it too, so the two always agree.
+//! [`budget_at`] (the `budget --at` command: the atmosphere computed directly and itemized) and
+//! [`link_tabulated`] (a plan's step: the elevation-only terms from the station's path tables,
+//! [`crate::plan::path_table`]) end in one function from a look angle and its path terms to the
+//! link, so the two agree to within the tables' stated bound. A plan's steps take the orbit from
+//! [`crate::orbit::spline`] (SGP4 knots, interpolated), also within a stated bound.
 
 use crate::atmosphere::{Attenuation, ModelWarnings, Weather};
 use crate::geometry::body_track::TrackError;
 use crate::geometry::mount::Follower;
 use crate::geometry::{doppler_hz, AxisRates, Look, Mount, Pass};
-use crate::link::budget::{AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, RateSpec};
-use crate::orbit::{PropagationError, Propagator};
+use crate::link::budget::{
+    AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, LinkValues, RateSpec,
+};
+use crate::orbit::{EcefSpline, PropagationError, Propagator};
 use crate::plan::bodies::{BodySample, PassBodies};
 use crate::plan::noise::NoiseWarnings;
+use crate::plan::path_table::PathTerms;
 use crate::plan::prepare::StationModel;
 use crate::timefmt::{add_seconds, seconds_between};
 
@@ -166,7 +172,8 @@ pub enum SeriesError {
 /// mission: C/N0, G/T and the temperatures do not depend on it. With `bodies` (the Sun and the
 /// Moon at this instant before the atmosphere, from [`crate::plan::bodies::BodyNoise::at`]), their
 /// noise seen through this weather's path and their separations are counted; without it (a budget
-/// at an elevation, no time) they are 0 and `None`.
+/// at an elevation, no time) they are 0 and `None`. The atmosphere is computed directly (itemized);
+/// a plan's steps take the same link through [`link_tabulated`].
 #[inline]
 pub fn budget_at(
     model: &StationModel,
@@ -177,7 +184,56 @@ pub fn budget_at(
 ) -> Result<(Attenuation, BudgetValues), SeriesError> {
     // The atmosphere flags (and clamps) elevations outside its range itself.
     let att = model.atmosphere.at(look.elevation_deg, weather);
-    let (geometry, atmosphere) = link_inputs(model, look, &att);
+    let terms = PathTerms::of(
+        &att,
+        model.mean_radiating_temperature_k,
+        model.link.background_temperature_k(),
+    );
+    let link = link_of_terms(model, look, &terms, weather, bodies)?;
+    let mut values =
+        model
+            .link
+            .with_rate(&link, reference)
+            .map_err(|source| SeriesError::Budget {
+                elevation_deg: look.elevation_deg,
+                source,
+            })?;
+    values.sun_separation_deg = bodies.map(|s| s.sun_separation_deg);
+    values.moon_separation_deg = bodies.map(|s| s.moon_separation_deg);
+    Ok((att, values))
+}
+
+/// The rate-free part of [`budget_at`] (down to C/N0) with the elevation-only terms (attenuation,
+/// boresight sky brightness, path transmissivity) interpolated from the station's path table of
+/// `weather` ([`crate::plan::path_table`], within its stated bound of the direct computation): a
+/// plan's step.
+#[inline]
+pub fn link_tabulated(
+    model: &StationModel,
+    look: &Look,
+    weather: Weather,
+    bodies: Option<BodySample>,
+) -> Result<(PathTerms, LinkValues), SeriesError> {
+    let terms = model
+        .path
+        .table(weather)
+        .ok_or(SeriesError::WeatherNotPrepared { weather })?
+        .at(look.elevation_deg);
+    let link = link_of_terms(model, look, &terms, weather, bodies)?;
+    Ok((terms, link))
+}
+
+/// The link from the elevation-only terms of the path: the one function both [`budget_at`] and
+/// [`link_tabulated`] end in.
+#[inline]
+fn link_of_terms(
+    model: &StationModel,
+    look: &Look,
+    terms: &PathTerms,
+    weather: Weather,
+    bodies: Option<BodySample>,
+) -> Result<LinkValues, SeriesError> {
+    let (geometry, atmosphere) = link_inputs(model, look, terms);
     // The antenna's noise terms: interpolated from the station's table of this weather.
     let mut external = model
         .noise
@@ -185,29 +241,25 @@ pub fn budget_at(
         .ok_or(SeriesError::WeatherNotPrepared { weather })?;
     if let Some(s) = bodies {
         // The disks are seen through the path of the pointing direction (plan::bodies):
-        // tau = 10^(-A_abs/10), and their added noise is proportional to it.
-        let transmissivity = 10f64.powf(-att.absorptive_db / 10.0);
-        external.sun_k = s.sun_k * transmissivity;
-        external.moon_k = s.moon_k * transmissivity;
+        // their added noise is proportional to the transmissivity tau = 10^(-A_abs/10).
+        external.sun_k = s.sun_k * terms.transmissivity;
+        external.moon_k = s.moon_k * terms.transmissivity;
     }
-    let mut values = model
+    model
         .link
-        .evaluate(geometry, atmosphere, external, reference)
+        .evaluate_link(geometry, atmosphere, terms.sky_temperature_k, external)
         .map_err(|source| SeriesError::Budget {
             elevation_deg: look.elevation_deg,
             source,
-        })?;
-    values.sun_separation_deg = bodies.map(|s| s.sun_separation_deg);
-    values.moon_separation_deg = bodies.map(|s| s.moon_separation_deg);
-    Ok((att, values))
+        })
 }
 
-/// What the link model takes from a look angle and the atmosphere along it.
+/// What the link model takes from a look angle and the path's terms along it.
 #[inline]
 pub fn link_inputs(
     model: &StationModel,
     look: &Look,
-    att: &Attenuation,
+    terms: &PathTerms,
 ) -> (BudgetGeometry, AtmosphereLoss) {
     (
         BudgetGeometry {
@@ -216,8 +268,8 @@ pub fn link_inputs(
             off_nadir_deg: look.off_nadir_deg,
         },
         AtmosphereLoss {
-            total_db: att.total_db,
-            absorptive_db: att.absorptive_db,
+            total_db: terms.total_db,
+            absorptive_db: terms.absorptive_db,
             mean_radiating_temperature_k: model.mean_radiating_temperature_k,
         },
     )
@@ -231,8 +283,6 @@ pub struct StepPlan {
     pub frequency_hz: f64,
     /// Availability case, if planned.
     pub rain: Option<Weather>,
-    /// Any rate of the mission (C/N0 does not depend on it).
-    pub reference: RateSpec,
 }
 
 /// Span of the Sun's and the Moon's tracks, s: a longer pass (a satellite that never sets) is
@@ -240,10 +290,13 @@ pub struct StepPlan {
 const BODY_SPAN_S: f64 = 86_400.0;
 
 /// Fill `steps` for `pass` at `step_s`: samples at AOS, AOS + step, ... and a final one at LOS.
-/// `bodies` (for this station: [`PassBodies`] holds its observer) is reset over the pass.
-/// Allocates nothing once `steps` has grown to the longest pass.
+/// `bodies` (for this station: [`PassBodies`] holds its observer) is reset over the pass, and
+/// `orbit` to its SGP4 knots (the steps' states are interpolated between them,
+/// [`crate::orbit::spline`]); the elevation-only terms come from the station's path tables
+/// ([`link_tabulated`]). Allocates nothing once `steps` (and `orbit`) have grown to the longest
+/// pass.
 pub fn fill_pass(
-    prop: &Propagator,
+    (prop, orbit): (&Propagator, &mut EcefSpline),
     model: &StationModel,
     pass: &Pass,
     how: &StepPlan,
@@ -254,7 +307,6 @@ pub fn fill_pass(
         step_s,
         frequency_hz,
         rain,
-        reference,
     } = *how;
     steps.clear();
     let mut warnings = PassWarnings {
@@ -265,6 +317,7 @@ pub fn fill_pass(
     let duration_s = seconds_between(&pass.aos, &pass.los).max(0.0);
     let n = (duration_s / step_s).floor() as usize;
     let mut tracked_to_s = -1.0;
+    orbit.reset(prop, &pass.aos, &pass.los)?;
     // The mount's follower, started at the first step.
     let mut follower = None;
     for k in 0..=n + 1 {
@@ -284,7 +337,7 @@ pub fn fill_pass(
             let end = add_seconds(&pass.aos, tracked_to_s);
             model.bodies.reset(bodies, &time, &end)?;
         }
-        let state = prop.ecef_at(&time)?;
+        let state = orbit.at(prop, t_s)?;
         let look = model.observer.look(&state);
         // The bodies once per step; each weather case attenuates them along its own path.
         let at = Some(
@@ -292,11 +345,11 @@ pub fn fill_pass(
                 .bodies
                 .at(bodies, &time, look.azimuth_deg, look.elevation_deg),
         );
-        let (att, v) = budget_at(model, &look, Weather::ClearSky, at, reference)?;
+        let (att, v) = link_tabulated(model, &look, Weather::ClearSky, at)?;
         warnings.atmosphere = warnings.atmosphere.union(&att.warnings);
         warnings.pattern_clamped |= v.pattern_clamped;
         warnings.below_horizon |= v.below_horizon;
-        let mut step = Step::clear_sky(t_s, &look, frequency_hz, &att, &v);
+        let mut step = Step::clear_sky(t_s, &look, frequency_hz, &att, &v, at);
         if let Some(m) = &model.station.mount {
             let enu = model.observer.enu(&state);
             let tolerance_deg =
@@ -310,11 +363,11 @@ pub fn fill_pass(
             );
         }
         if let Some(w) = rain {
-            let (ra, rv) = budget_at(model, &look, w, at, reference)?;
+            let (ra, rv) = link_tabulated(model, &look, w, at)?;
             warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
             step.rain = Some(RainStep {
                 atmospheric_loss_db: ra.total_db,
-                sky_noise_k: rv.sky_noise_k,
+                sky_noise_k: rv.external.sky_k,
                 system_temperature_k: rv.system_temperature_k,
                 cn0_dbhz: rv.cn0_dbhz,
             });
@@ -336,8 +389,9 @@ impl Step {
         t_s: f64,
         look: &Look,
         frequency_hz: f64,
-        att: &Attenuation,
-        v: &BudgetValues,
+        att: &PathTerms,
+        v: &LinkValues,
+        bodies: Option<BodySample>,
     ) -> Step {
         Step {
             t_s,
@@ -352,13 +406,13 @@ impl Step {
             free_space_loss_db: v.free_space_loss_db,
             atmospheric_loss_db: att.total_db,
             sky_temperature_k: v.sky_temperature_k,
-            sky_noise_k: v.sky_noise_k,
-            ground_noise_k: v.ground_noise_k,
-            man_made_noise_k: v.man_made_noise_k,
-            sun_noise_k: v.sun_noise_k,
-            moon_noise_k: v.moon_noise_k,
-            sun_separation_deg: v.sun_separation_deg,
-            moon_separation_deg: v.moon_separation_deg,
+            sky_noise_k: v.external.sky_k,
+            ground_noise_k: v.external.ground_k,
+            man_made_noise_k: v.external.man_made_k,
+            sun_noise_k: v.external.sun_k,
+            moon_noise_k: v.external.moon_k,
+            sun_separation_deg: bodies.map(|s| s.sun_separation_deg),
+            moon_separation_deg: bodies.map(|s| s.moon_separation_deg),
             receiver_noise_k: v.receiver_noise_k,
             antenna_temperature_k: v.antenna_temperature_k,
             system_temperature_k: v.system_temperature_k,

@@ -16,6 +16,7 @@ mod fuzz_replay;
 mod geometry_skyfield;
 mod golden_outputs;
 mod hardening;
+mod interpolation_bounds;
 mod link_budget;
 mod link_path_antenna;
 mod modcod_thresholds;

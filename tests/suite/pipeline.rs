@@ -144,7 +144,9 @@ fn one_scintillation_antenna_for_atmosphere_and_budget() {
     );
     assert!(b > 0.1, "scintillation {b} dB at 5 deg");
     assert!((a - b).abs() < 1e-4, "atmosphere {a} dB, budget {b} dB");
-    // And `plan`: a step of the rain case carries the same atmosphere as `budget --at` its time.
+    // And `plan`: a step of the rain case carries the same atmosphere as `budget --at` its time,
+    // to within the path table's stated bound (a plan interpolates it; `budget --at` computes it
+    // directly) and the CSV's rounding to 1e-4 dB.
     let out = dir.path().join("out");
     let o = run(&[
         "plan",
@@ -185,8 +187,9 @@ fn one_scintillation_antenna_for_atmosphere_and_budget() {
         "json",
     ]));
     let budget_loss = budget["atmospheric_loss_db"].as_f64().unwrap();
+    let tol_db = passbudget::plan::path_table::TABLE_TOLERANCE_DB + 2e-4;
     assert!(
-        (plan_loss - budget_loss).abs() < 2e-4,
+        (plan_loss - budget_loss).abs() < tol_db,
         "plan {plan_loss} dB, budget {budget_loss} dB at {at}"
     );
 }
