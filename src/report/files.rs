@@ -3,7 +3,7 @@
 //! `masks.csv`). Files are written atomically; the folder as a whole is staged by
 //! [`super::Staging`].
 
-use super::plan::{step_rows, DayRow, PlanDoc};
+use super::plan::{DayRow, PlanDoc};
 use super::{slug, to_csv, write_atomic};
 use crate::plan::{PassSeries, PassSink, Planner};
 use crate::timefmt::file_stamp;
@@ -53,7 +53,6 @@ impl PassSink for CsvSink<'_> {
         let path = self
             .dir
             .join(pass_csv_name(s.plan.number, st, &s.plan.pass.aos));
-        let rows = step_rows(s, self.planner.rates());
         // The element age (the one warning of the whole run that every number depends on), then
         // the pass's own.
         let w = self.planner.window();
@@ -62,8 +61,8 @@ impl PassSink for CsvSink<'_> {
                 .into_iter()
                 .collect();
         warnings.extend(s.plan.warnings.lines(self.planner.frequency_hz()));
-        let text = to_csv(&rows, &warnings).map_err(|e| file_error(&path, e))?;
-        write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))
+        let text = super::step_csv::pass_csv(s, self.planner.rates(), &warnings);
+        write_atomic(&path, &text).map_err(|e| io_error(&path, e))
     }
 }
 

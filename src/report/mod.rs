@@ -9,6 +9,7 @@ pub mod files;
 pub mod geometry;
 pub mod plan;
 mod staging;
+pub mod step_csv;
 pub mod transits;
 
 pub use staging::{
