@@ -144,7 +144,12 @@ fn encode_png(rgb: &[u8], w: u32, h: u32) -> Result<Vec<u8>, ChartError> {
 }
 
 fn save(path: &Path, bytes: &[u8]) -> Result<(), ChartError> {
-    crate::report::write_atomic(path, bytes).map_err(|source| ChartError::Io {
+    save_in(path, bytes, crate::report::WriteMode::Atomic)
+}
+
+/// Write chart bytes in `mode` (staged when the folder is a staging folder).
+fn save_in(path: &Path, bytes: &[u8], mode: crate::report::WriteMode) -> Result<(), ChartError> {
+    crate::report::write_output(path, bytes, mode).map_err(|source| ChartError::Io {
         path: path.to_path_buf(),
         source,
     })

@@ -16,7 +16,7 @@ use passbudget::report::files::{
     summary_json, write_summaries, ChartBytes, CsvSink, OutputRequest,
 };
 use passbudget::report::plan::{MaskFailureRow, PlanDoc, TradeoffRow, UsableMaskRow};
-use passbudget::report::{round, to_csv, CommitMode};
+use passbudget::report::{round, to_csv, CommitMode, WriteMode};
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
 use std::io::Write;
@@ -80,11 +80,12 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     }
     let dir = staging.as_ref().map(|s| s.path().to_path_buf());
     let chart_dir = dir.clone().unwrap_or_default();
-    let charts = ChartSink::new(&planner, &chart_dir, format, true, None);
+    let charts = ChartSink::new(&planner, &chart_dir, format, true, None).staged();
     let sink = RunSink {
         csv: dir.as_deref().map(|d| CsvSink {
             planner: &planner,
             dir: d,
+            mode: WriteMode::Staged,
         }),
         charts: a.charts.then_some(&charts),
         bar: progress_bar(&planner),
@@ -123,7 +124,7 @@ fn write_files(
     dir: &Path,
     charts: bool,
 ) -> Result<()> {
-    write_summaries(dir, doc)?;
+    write_summaries(dir, doc, WriteMode::Staged)?;
     if charts {
         let all = WindowCharts {
             sky: true,

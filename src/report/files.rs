@@ -4,7 +4,7 @@
 //! [`super::Staging`].
 
 use super::plan::{DayRow, PlanDoc};
-use super::{slug, to_csv, write_atomic};
+use super::{slug, to_csv, write_output, WriteMode};
 use crate::plan::{PassSeries, PassSink, Planner};
 use crate::timefmt::file_stamp;
 use chrono::{DateTime, Utc};
@@ -44,6 +44,8 @@ pub fn pass_csv_name(number: usize, station: &str, aos: &DateTime<Utc>) -> Strin
 pub struct CsvSink<'a> {
     pub planner: &'a Planner,
     pub dir: &'a Path,
+    /// [`WriteMode::Staged`] when `dir` is a staging folder ([`super::Staging::path`]).
+    pub mode: WriteMode,
 }
 
 impl PassSink for CsvSink<'_> {
@@ -62,7 +64,7 @@ impl PassSink for CsvSink<'_> {
                 .collect();
         warnings.extend(s.plan.warnings.lines(self.planner.frequency_hz()));
         let text = super::step_csv::pass_csv(s, self.planner.rates(), &warnings);
-        write_atomic(&path, &text).map_err(|e| io_error(&path, e))
+        write_output(&path, &text, self.mode).map_err(|e| io_error(&path, e))
     }
 }
 
@@ -72,7 +74,7 @@ pub fn summary_json(doc: &PlanDoc) -> String {
 }
 
 /// Write `summary.json`, `summary.csv`, `days.csv` and `masks.csv` into `dir`.
-pub fn write_summaries(dir: &Path, doc: &PlanDoc) -> Result<(), FileError> {
+pub fn write_summaries(dir: &Path, doc: &PlanDoc, mode: WriteMode) -> Result<(), FileError> {
     let days: Vec<&DayRow> = doc.days.iter().collect();
     let w = &doc.assumptions.warnings;
     let files: [(&str, Result<String, csv::Error>); 4] = [
@@ -84,7 +86,7 @@ pub fn write_summaries(dir: &Path, doc: &PlanDoc) -> Result<(), FileError> {
     for (name, text) in files {
         let path = dir.join(name);
         let text = text.map_err(|e| file_error(&path, e))?;
-        write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
+        write_output(&path, text.as_bytes(), mode).map_err(|e| io_error(&path, e))?;
     }
     Ok(())
 }
