@@ -22,9 +22,11 @@
 //! in greyscale print. Titles are 30 px, axis labels 22 px, tick labels 18 px, notes 17 px.
 //!
 //! Text uses the bundled DejaVu Sans (`fonts/`, Bitstream Vera licence) through plotters'
-//! `ab_glyph` renderer, so no system font library is needed.
+//! `ab_glyph` renderer, so no system font library is needed; on PNG charts each glyph is
+//! rasterised once per size and thread ([`glyphs`]), with the same pixels.
 
 pub mod data;
+mod glyphs;
 mod mask;
 pub mod palette;
 mod pass;
@@ -59,7 +61,8 @@ fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError
         ChartFormat::Png => {
             let mut rgb = vec![255u8; w as usize * h as usize * 3];
             {
-                let root = BitMapBackend::with_buffer(&mut rgb, (w, h)).into_drawing_area();
+                let root = glyphs::CachedText(BitMapBackend::with_buffer(&mut rgb, (w, h)))
+                    .into_drawing_area();
                 plot_with_caution(chart, &root).map_err(in_chart(P::NAME))?;
                 root.present()
                     .map_err(ChartError::from)
