@@ -12,12 +12,12 @@
 //! family or style goes through plotters unchanged.
 
 use ab_glyph::{Font, FontRef, GlyphId, ScaleFont};
-use plotters_backend::{
-    BackendColor, BackendCoord, BackendStyle, BackendTextStyle, DrawingBackend, DrawingErrorKind,
-};
 use plotters::prelude::BitMapBackend;
 use plotters::style::text_anchor::{HPos, VPos};
 use plotters::style::FontStyle;
+use plotters_backend::{
+    BackendColor, BackendCoord, BackendStyle, BackendTextStyle, DrawingBackend, DrawingErrorKind,
+};
 use std::cell::RefCell;
 use std::collections::HashMap;
 use std::rc::Rc;
@@ -218,8 +218,15 @@ mod tests {
         root.fill(&WHITE).unwrap();
         let font = super::super::style::FONT;
         let left = |v| Pos::new(HPos::Left, v);
-        let items: [(&str, f64, (i32, i32), Pos, FontTransform); 6] = [
-            ("AVATAR To WAVE · 36.8°", 30.0, (5, 5), left(VPos::Top), FontTransform::None),
+        type Item<'a> = (&'a str, f64, (i32, i32), Pos, FontTransform);
+        let items: [Item; 6] = [
+            (
+                "AVATAR To WAVE · 36.8°",
+                30.0,
+                (5, 5),
+                left(VPos::Top),
+                FontTransform::None,
+            ),
             (
                 "Elevation (deg)",
                 22.0,
@@ -234,7 +241,13 @@ mod tests {
                 Pos::new(HPos::Right, VPos::Bottom),
                 FontTransform::None,
             ),
-            ("cut by the edge", 17.0, (380, 120), left(VPos::Center), FontTransform::None),
+            (
+                "cut by the edge",
+                17.0,
+                (380, 120),
+                left(VPos::Center),
+                FontTransform::None,
+            ),
             (
                 "Noise temp. (K)",
                 22.0,
@@ -242,7 +255,13 @@ mod tests {
                 Pos::new(HPos::Center, VPos::Center),
                 FontTransform::Rotate90,
             ),
-            ("ñ 東 km/s", 17.5, (60, 250), left(VPos::Top), FontTransform::None),
+            (
+                "ñ 東 km/s",
+                17.5,
+                (60, 250),
+                left(VPos::Top),
+                FontTransform::None,
+            ),
         ];
         for (i, (t, size, at, anchor, tr)) in items.into_iter().enumerate() {
             let colour = [RGBColor(0x1c, 0x3d, 0x72), RGBColor(0xe6, 0x95, 0x20)][i % 2];
@@ -276,7 +295,10 @@ mod tests {
             draw_texts(&root);
             root.present().unwrap();
         }
-        assert!(plain.iter().filter(|&&b| b != 255).count() > 5_000, "text was drawn");
+        assert!(
+            plain.iter().filter(|&&b| b != 255).count() > 5_000,
+            "text was drawn"
+        );
         assert!(plain == cached, "the cached glyphs changed pixels");
     }
 }

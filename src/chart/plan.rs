@@ -5,9 +5,9 @@
 
 use super::{
     draw_mask, draw_pass, draw_sky, draw_summary, mask_file_name, pass_file_name, save_in,
-    sky_file_name, sky_pass_file_name, summary_file_name, ChartError, ChartFormat, DayTotals, MaskChartData,
-    MaskRateSeries, PassChartData, PassChartRain, PassChartSample, SkyChartData, SkyPass, SkyPoint,
-    SummaryBar, SummaryChartData,
+    sky_file_name, sky_pass_file_name, summary_file_name, ChartError, ChartFormat, DayTotals,
+    MaskChartData, MaskRateSeries, PassChartData, PassChartRain, PassChartSample, SkyChartData,
+    SkyPass, SkyPoint, SummaryBar, SummaryChartData,
 };
 use crate::plan::inputs::satellite_name;
 use crate::plan::summary::tradeoff;

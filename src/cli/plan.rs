@@ -304,11 +304,7 @@ fn mount_and_pfd_columns(
     (mount, pfd_over)
 }
 
-fn mount_and_pfd_cells(
-    r: &PlanPassRow,
-    (mount, pfd_over): (bool, bool),
-    cells: &mut Vec<String>,
-) {
+fn mount_and_pfd_cells(r: &PlanPassRow, (mount, pfd_over): (bool, bool), cells: &mut Vec<String>) {
     if mount {
         cells.push(match r.mount_lost_s {
             Some(s) => format!("{s:.0}"),
