@@ -1,6 +1,7 @@
 //! Criterion benchmarks of the pass-by-pass plan on the shipped example (invented satellite
 //! WRENLET-1 over three invented stations, 1 s steps, clear sky plus the 1 % rain case):
-//! a 7-day plan on one core and on every core, the same with the mask trade-off, and a 365-day
+//! a 7-day plan on one core and on every core, the same with the mask trade-off, the same writing
+//! every pass's CSV time series (as `plan --out` does, into a staging folder), and a 365-day
 //! plan. Everything goes through the library's `Planner`, as a library user would.
 
 use criterion::{criterion_group, criterion_main, Criterion};
@@ -41,6 +42,15 @@ fn bench_plan(c: &mut Criterion) {
     });
     g.bench_function("7_days_3_stations_all_threads", |b| {
         b.iter(|| black_box(week.collect().unwrap().passes.len()))
+    });
+    let dir = tempfile::tempdir().unwrap();
+    let csv = passbudget::report::files::CsvSink {
+        planner: &week,
+        dir: dir.path(),
+        mode: passbudget::report::WriteMode::Staged,
+    };
+    g.bench_function("7_days_3_stations_with_csv_files_all_threads", |b| {
+        b.iter(|| black_box(week.run(&csv).unwrap().passes.len()))
     });
     g.bench_function("7_days_3_stations_with_tradeoff_all_threads", |b| {
         b.iter(|| black_box(week_tradeoff.collect().unwrap().passes.len()))

@@ -4,15 +4,16 @@
 //! UTC day), the mask charts (per station and all stations) and the plan summary.
 
 use super::{
-    mask_file_name, pass_file_name, save_mask, save_pass, save_sky, save_summary, sky_file_name,
-    sky_pass_file_name, summary_file_name, ChartError, ChartFormat, DayTotals, MaskChartData,
-    MaskRateSeries, PassChartData, PassChartRain, PassChartSample, SkyChartData, SkyPass, SkyPoint,
-    SummaryBar, SummaryChartData,
+    draw_mask, draw_pass, draw_sky, draw_summary, mask_file_name, pass_file_name, save_in,
+    sky_file_name, sky_pass_file_name, summary_file_name, ChartError, ChartFormat, DayTotals,
+    MaskChartData, MaskRateSeries, PassChartData, PassChartRain, PassChartSample, SkyChartData,
+    SkyPass, SkyPoint, SummaryBar, SummaryChartData,
 };
 use crate::plan::inputs::satellite_name;
 use crate::plan::summary::tradeoff;
 use crate::plan::Scope;
 use crate::plan::{PassSeries, PassSink, Plan, Planner};
+use crate::report::WriteMode;
 use chrono::NaiveDate;
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
@@ -38,6 +39,8 @@ pub struct ChartSink<'a> {
     passes: bool,
     /// Only this pass number.
     only: Option<usize>,
+    /// How the chart files are written ([`ChartSink::staged`]).
+    mode: WriteMode,
     sky: Mutex<BTreeMap<usize, Vec<SkyPoint>>>,
 }
 
@@ -55,8 +58,16 @@ impl<'a> ChartSink<'a> {
             format,
             passes,
             only,
+            mode: WriteMode::Atomic,
             sky: Mutex::new(BTreeMap::new()),
         }
+    }
+
+    /// Write the charts as the files of a staging folder ([`WriteMode::Staged`]): `dir` is
+    /// [`crate::report::Staging::path`], whose commit flushes them.
+    pub fn staged(mut self) -> Self {
+        self.mode = WriteMode::Staged;
+        self
     }
 }
 
@@ -80,7 +91,7 @@ impl PassSink for ChartSink<'_> {
                 &s.plan.pass.aos,
                 self.format,
             ));
-            save_pass(&data, &path, self.format)?;
+            save_in(&path, &draw_pass(&data, self.format)?, self.mode)?;
         }
         Ok(())
     }
@@ -201,11 +212,11 @@ pub fn window_charts(
     }
     if which.mask {
         if let Some(masks) = &plan.tradeoff_masks {
-            written.extend(mask_charts(planner, plan, masks, dir, sink.format)?);
+            written.extend(mask_charts(planner, plan, masks, dir, sink)?);
         }
     }
     if which.summary {
-        written.push(summary_chart(planner, plan, dir, sink.format)?);
+        written.push(summary_chart(planner, plan, dir, sink)?);
     }
     Ok(written)
 }
@@ -266,7 +277,7 @@ fn sky_charts(
                 None => sky_file_name(&st.station.name, day, sink.format),
             };
             let path = dir.join(name);
-            save_sky(&data, &path, sink.format)?;
+            save_in(&path, &draw_sky(&data, sink.format)?, sink.mode)?;
             Ok(path)
         })
         .collect()
@@ -277,8 +288,9 @@ fn mask_charts(
     plan: &Plan,
     masks: &[crate::plan::mask::MaskAccumulator],
     dir: &Path,
-    format: ChartFormat,
+    sink: &ChartSink,
 ) -> Result<Vec<PathBuf>, ChartError> {
+    let format = sink.format;
     let stations = planner.stations();
     let ladder = &planner.rates().ladder;
     let mut written = Vec::new();
@@ -311,7 +323,7 @@ fn mask_charts(
             configured_masks_deg: configured,
         };
         let path = dir.join(mask_file_name(&label, format));
-        save_mask(&data, &path, format)?;
+        save_in(&path, &draw_mask(&data, format)?, sink.mode)?;
         written.push(path);
     }
     Ok(written)
@@ -334,8 +346,9 @@ fn summary_chart(
     planner: &Planner,
     plan: &Plan,
     dir: &Path,
-    format: ChartFormat,
+    sink: &ChartSink,
 ) -> Result<PathBuf, ChartError> {
+    let format = sink.format;
     let satellite = satellite_name(planner.elements());
     let data = SummaryChartData {
         warnings: chart_warnings(planner),
@@ -381,6 +394,6 @@ fn summary_chart(
         &plan.window.end(),
         format,
     ));
-    save_summary(&data, &path, format)?;
+    save_in(&path, &draw_summary(&data, format)?, sink.mode)?;
     Ok(path)
 }

@@ -39,7 +39,7 @@ use super::types::ChartError;
 pub const FONT: &str = "sans-serif";
 
 /// DejaVu Sans (Bitstream Vera licence, see `fonts/LICENSE-DejaVu.txt`).
-static DEJAVU_SANS: &[u8] = include_bytes!("fonts/DejaVuSans.ttf");
+pub(super) static DEJAVU_SANS: &[u8] = include_bytes!("fonts/DejaVuSans.ttf");
 
 static FONT_READY: OnceLock<bool> = OnceLock::new();
 

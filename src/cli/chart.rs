@@ -95,7 +95,7 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     };
     check_size(&planner, &request, a.allow_large_output, &a.out)?;
     let dir = staging.path().to_path_buf();
-    let charts = ChartSink::new(&planner, &dir, format, want(ChartKind::Pass), pass);
+    let charts = ChartSink::new(&planner, &dir, format, want(ChartKind::Pass), pass).staged();
     let sink = RunSink {
         csv: None,
         charts: Some(&charts),

@@ -11,12 +11,12 @@ use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
 use passbudget::engfmt;
 use passbudget::plan::summary::tradeoff;
-use passbudget::plan::{Plan, Planner};
+use passbudget::plan::{PassPlan, Plan, Planner};
 use passbudget::report::files::{
     summary_json, write_summaries, ChartBytes, CsvSink, OutputRequest,
 };
-use passbudget::report::plan::{MaskFailureRow, PlanDoc, TradeoffRow, UsableMaskRow};
-use passbudget::report::{round, to_csv, CommitMode};
+use passbudget::report::plan::{MaskFailureRow, PlanDoc, PlanPassRow, TradeoffRow, UsableMaskRow};
+use passbudget::report::{round, to_csv, CommitMode, WriteMode};
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
 use std::io::Write;
@@ -80,11 +80,12 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     }
     let dir = staging.as_ref().map(|s| s.path().to_path_buf());
     let chart_dir = dir.clone().unwrap_or_default();
-    let charts = ChartSink::new(&planner, &chart_dir, format, true, None);
+    let charts = ChartSink::new(&planner, &chart_dir, format, true, None).staged();
     let sink = RunSink {
         csv: dir.as_deref().map(|d| CsvSink {
             planner: &planner,
             dir: d,
+            mode: WriteMode::Staged,
         }),
         charts: a.charts.then_some(&charts),
         bar: progress_bar(&planner),
@@ -98,7 +99,13 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     let plan = run.map_err(|e| in_out(e.into()))?;
     warn(&plan.warnings);
     note(&plan.notes);
-    let doc = PlanDoc::new(&planner, &plan);
+    // The pass rows only for a document that is written (JSON, CSV, the --out files); the
+    // table makes each row as it prints it.
+    let doc = if a.format == Format::Table && staging.is_none() {
+        PlanDoc::without_pass_rows(&planner, &plan)
+    } else {
+        PlanDoc::new(&planner, &plan)
+    };
     if let (Some(dir), Some(st)) = (&dir, staging.as_ref()) {
         write_files(&planner, &plan, &doc, &charts, dir, a.charts)
             .map_err(|e| in_out_folder(e, st, &target))?;
@@ -123,7 +130,7 @@ fn write_files(
     dir: &Path,
     charts: bool,
 ) -> Result<()> {
-    write_summaries(dir, doc)?;
+    write_summaries(dir, doc, WriteMode::Staged)?;
     if charts {
         let all = WindowCharts {
             sky: true,
@@ -185,7 +192,7 @@ fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write
         format_ms(&plan.window.end()),
         planner.step_s()
     )?;
-    print_passes(planner, plan, doc, out)?;
+    print_passes(planner, plan, out)?;
     print_days(doc, out)?;
     print_totals(planner, doc, out)?;
     print_usable_masks(&doc.usable_masks, &doc.mask_failures, out)?;
@@ -193,9 +200,11 @@ fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write
     Ok(())
 }
 
-fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
+fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<()> {
     let rain = planner.exceedance_percent().is_some();
-    let vol = VolumeColumn::over(doc.passes.iter().flat_map(|r| {
+    let row = |x: &PassPlan| PlanPassRow::new(planner, x);
+    let vol = VolumeColumn::over(plan.passes.iter().flat_map(|x| {
+        let r = row(x);
         [
             r.volume_bits,
             r.adaptive_volume_bits,
@@ -223,16 +232,20 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
         cols.push(("rain rate".into(), Align::Right));
         cols.push((vol.header("rain"), Align::Right));
     }
-    let (mount, pfd_over) = mount_and_pfd_columns(doc, &mut cols);
-    let mut t = Table::new(&columns(&cols));
-    let mut cut = false;
-    for (r, x) in doc.passes.iter().zip(&plan.passes) {
+    let (mount, pfd_over) = mount_and_pfd_columns(plan.passes.iter().map(row), &mut cols);
+    let t = Table::new(&columns(&cols));
+    let cut = plan
+        .passes
+        .iter()
+        .any(|x| x.pass.starts_before_window || x.pass.ends_after_window);
+    let cells = |k: usize| {
+        let x = &plan.passes[k];
+        let r = row(x);
         let closes = |c: Option<passbudget::plan::Crossing>| match c {
             Some(c) => format!("{} @{}", c.time.format("%H:%M:%S"), deg1(c.elevation_deg)),
             None => "-".into(),
         };
         let closing = x.clear.closing;
-        cut |= x.pass.starts_before_window || x.pass.ends_after_window;
         let mark = |on: bool, m: &str| if on { m } else { "" }.to_string();
         let mut cells = vec![
             r.number.to_string(),
@@ -257,10 +270,12 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
             cells.push(rate_cell(r.rain_rate_bps));
             cells.push(vol.cell(r.rain_volume_bits.unwrap_or(0.0)));
         }
-        mount_and_pfd_cells(r, (mount, pfd_over), &mut cells);
-        t.row(cells);
-    }
-    write!(out, "{}", t.render())?;
+        mount_and_pfd_cells(&r, (mount, pfd_over), &mut cells);
+        cells
+    };
+    t.render_rows(plan.passes.len(), cells, &mut |line| {
+        out.write_all(line.as_bytes())
+    })?;
     writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step the mount can follow, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
     mount_and_pfd_legend((mount, pfd_over), out)?;
     if cut {
@@ -271,12 +286,15 @@ fn print_passes(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Wri
 }
 
 /// The mount's lost seconds when a station gives its mount; the pfd margin when a pass is over.
-fn mount_and_pfd_columns(doc: &PlanDoc, cols: &mut Vec<(String, Align)>) -> (bool, bool) {
-    let mount = doc.passes.iter().any(|r| r.mount_lost_s.is_some());
-    let pfd_over = doc
-        .passes
-        .iter()
-        .any(|r| r.pfd_margin_db.is_some_and(|m| m < 0.0));
+fn mount_and_pfd_columns(
+    rows: impl Iterator<Item = PlanPassRow>,
+    cols: &mut Vec<(String, Align)>,
+) -> (bool, bool) {
+    let (mut mount, mut pfd_over) = (false, false);
+    for r in rows {
+        mount |= r.mount_lost_s.is_some();
+        pfd_over |= r.pfd_margin_db.is_some_and(|m| m < 0.0);
+    }
     if mount {
         cols.push(("mount lost s".into(), Align::Right));
     }
@@ -286,11 +304,7 @@ fn mount_and_pfd_columns(doc: &PlanDoc, cols: &mut Vec<(String, Align)>) -> (boo
     (mount, pfd_over)
 }
 
-fn mount_and_pfd_cells(
-    r: &passbudget::report::plan::PlanPassRow,
-    (mount, pfd_over): (bool, bool),
-    cells: &mut Vec<String>,
-) {
+fn mount_and_pfd_cells(r: &PlanPassRow, (mount, pfd_over): (bool, bool), cells: &mut Vec<String>) {
     if mount {
         cells.push(match r.mount_lost_s {
             Some(s) => format!("{s:.0}"),

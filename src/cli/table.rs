@@ -29,15 +29,32 @@ impl Table {
     }
 
     pub fn render(&self) -> String {
-        let n = self.headers.len();
+        let mut out = String::new();
+        self.render_rows(self.rows.len(), |i| self.rows[i].clone(), &mut |s| {
+            out.push_str(s);
+            Ok::<(), std::convert::Infallible>(())
+        })
+        .expect("writing into a String");
+        out
+    }
+
+    /// Render the header and `n` rows made by `row` (called twice per row: once for the column
+    /// widths, once to write it), handing each line to `emit`: the same text as [`Table::row`]
+    /// and [`Table::render`] without holding every row.
+    pub fn render_rows<E>(
+        &self,
+        n: usize,
+        row: impl Fn(usize) -> Vec<String>,
+        emit: &mut dyn FnMut(&str) -> Result<(), E>,
+    ) -> Result<(), E> {
         let mut width: Vec<usize> = self.headers.iter().map(|h| h.chars().count()).collect();
-        for r in &self.rows {
-            for (i, c) in r.iter().enumerate().take(n) {
+        let columns = width.len();
+        for k in 0..n {
+            for (i, c) in row(k).iter().enumerate().take(columns) {
                 width[i] = width[i].max(c.chars().count());
             }
         }
-        let mut out = String::new();
-        let line = |cells: &[String], out: &mut String| {
+        let line = |cells: &[String], emit: &mut dyn FnMut(&str) -> Result<(), E>| {
             let mut s = String::new();
             for (i, c) in cells.iter().enumerate() {
                 let pad = width[i].saturating_sub(c.chars().count());
@@ -55,16 +72,18 @@ impl Table {
                     }
                 }
             }
-            out.push_str(s.trim_end());
-            out.push('\n');
+            let end = s.trim_end().len();
+            s.truncate(end);
+            s.push('\n');
+            emit(&s)
         };
-        line(&self.headers, &mut out);
+        line(&self.headers, emit)?;
         let rule: Vec<String> = width.iter().map(|w| "-".repeat(*w)).collect();
-        line(&rule, &mut out);
-        for r in &self.rows {
-            line(r, &mut out);
+        line(&rule, emit)?;
+        for k in 0..n {
+            line(&row(k), emit)?;
         }
-        out
+        Ok(())
     }
 }
 
@@ -82,5 +101,15 @@ mod tests {
         assert_eq!(lines[0], "name    value");
         assert_eq!(lines[2], "a         1.5");
         assert_eq!(lines[3], "longer  10.25");
+        // The same text streamed row by row.
+        let rows = [["a", "1.5"], ["longer", "10.25"]];
+        let mut streamed = String::new();
+        Table::new(&[("name", Align::Left), ("value", Align::Right)])
+            .render_rows(2, |i| rows[i].map(String::from).to_vec(), &mut |l| {
+                streamed.push_str(l);
+                Ok::<(), ()>(())
+            })
+            .unwrap();
+        assert_eq!(streamed, s);
     }
 }

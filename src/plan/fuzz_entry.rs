@@ -230,7 +230,10 @@ pub fn plan_violations(plan: &Plan) -> Vec<String> {
             let what = format!("pass {} segment", p.number);
             finite(&mut out, &what, &[s.start_s, s.end_s, s.rate_bps]);
         }
-        mask(&mut out, &format!("pass {} mask", p.number), &p.mask);
+        for step in p.mask.highest_open_step.iter().flatten() {
+            let what = format!("pass {} highest open step", p.number);
+            finite(&mut out, &what, &[step.elevation_deg, step.t_s]);
+        }
     }
     totals(&mut out, plan);
     for m in plan

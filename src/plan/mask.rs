@@ -36,6 +36,31 @@ pub struct MaskAccumulator {
     pub passes: usize,
 }
 
+/// What a planned pass keeps of its [`MaskAccumulator`] once the run has merged it into its
+/// station's ([`super::Plan::station_masks`]): per ladder option, the highest step where the
+/// rate does not count (the robust mask and its failures need it per pass). The bins stay with
+/// the station: a pass's own are 8 bytes x 41 x (options + 1), most of what a pass held.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct PassMask {
+    /// Per ladder option; `None` when the rate counts on every step of the pass.
+    pub highest_open_step: Box<[Option<OpenStep>]>,
+}
+
+impl PassMask {
+    /// The part of a pass's accumulator the pass keeps.
+    pub fn of(acc: &MaskAccumulator) -> PassMask {
+        PassMask {
+            highest_open_step: acc.highest_open_step.clone().into_boxed_slice(),
+        }
+    }
+
+    /// The elevation of the highest step where option `k` does not count, deg; -inf when it
+    /// counts on every step (as [`MaskAccumulator::highest_open_elevation_deg`]).
+    pub fn highest_open_elevation_deg(&self, k: usize) -> f64 {
+        self.highest_open_step[k].map_or(f64::NEG_INFINITY, |s| s.elevation_deg)
+    }
+}
+
 impl MaskAccumulator {
     pub fn new(options: usize) -> Self {
         MaskAccumulator {

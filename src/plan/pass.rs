@@ -185,7 +185,7 @@ pub(super) fn plan_pass<S: PassSink>(
     pass: &Pass,
     s: &mut Scratch,
     sink: &S,
-) -> Result<PassPlan, PlanError> {
+) -> Result<(PassPlan, MaskAccumulator), PlanError> {
     let mut warnings = s
         .fill(planner, station_index, pass)
         .map_err(|source| PlanError::Pass {
@@ -234,7 +234,7 @@ pub(super) fn plan_pass<S: PassSink>(
         clear,
         rain,
         segments,
-        mask,
+        mask: super::mask::PassMask::of(&mask),
         warnings,
         steps: s.steps.len(),
         bodies: BodyExposure::over(&s.steps),
@@ -250,7 +250,7 @@ pub(super) fn plan_pass<S: PassSink>(
         chosen_runs: &s.runs,
     })
     .map_err(|e| PlanError::Sink(Box::new(e)))?;
-    Ok(plan)
+    Ok((plan, mask))
 }
 
 /// The counted runs of the chosen fixed rate (left in `s.runs` for the sink) as network segments,

@@ -255,35 +255,46 @@ impl Planner {
             .map(|(k, (si, p))| (Some(k + 1), *si, p))
             .chain(floor_passes.iter().map(|(si, p)| (None, *si, p)))
             .collect();
-        let results: Vec<Result<Item, PlanError>> = work
-            .par_iter()
-            .map_init(
-                || Scratch::new(&self.elements),
-                |scratch, &(number, si, pass)| match number {
-                    Some(n) => {
-                        let r = plan_pass(&ctx, n, si, pass, scratch, sink)
-                            .map(|p| Item::Planned(Box::new(p)));
-                        sink.progress(total);
-                        r
-                    }
-                    None => tradeoff_pass(&ctx, si, pass, scratch)
-                        .map(|m| Item::Tradeoff(si, Box::new(m))),
-                },
-            )
-            .collect();
         let mut passes = Vec::with_capacity(total);
+        let mut station_masks = self.empty_masks();
         let mut tradeoff = self.tradeoff_masks.as_ref().map(|_| self.empty_masks());
-        for r in results {
-            match r? {
-                Item::Planned(p) => passes.push(*p),
-                Item::Tradeoff(si, m) => {
-                    if let Some(t) = tradeoff.as_mut() {
-                        t[si].merge(&m);
+        // In chunks: a chunk's passes are planned in parallel, then merged in pass order (the
+        // same order, so the same sums, as merging them all at the end), so that what a pass
+        // holds only until it is merged (its elevation bins) does not pile up with the window.
+        for chunk in work.chunks(WORK_CHUNK) {
+            let results: Vec<Result<Item, PlanError>> = chunk
+                .par_iter()
+                .map_init(
+                    || Scratch::new(&self.elements),
+                    |scratch, &(number, si, pass)| match number {
+                        Some(n) => {
+                            let r = plan_pass(&ctx, n, si, pass, scratch, sink)
+                                .map(|(p, m)| Item::Planned(Box::new((p, m))));
+                            sink.progress(total);
+                            r
+                        }
+                        None => tradeoff_pass(&ctx, si, pass, scratch)
+                            .map(|m| Item::Tradeoff(si, Box::new(m))),
+                    },
+                )
+                .collect();
+            for r in results {
+                match r? {
+                    Item::Planned(p) => {
+                        let (p, m) = *p;
+                        station_masks[p.station_index].merge(&m);
+                        passes.push(p);
+                    }
+                    Item::Tradeoff(si, m) => {
+                        if let Some(t) = tradeoff.as_mut() {
+                            t[si].merge(&m);
+                        }
                     }
                 }
             }
         }
-        Ok(self.finish(passes, stopped, stop, propagations_search, tradeoff))
+        let masks = (station_masks, tradeoff);
+        Ok(self.finish(passes, stopped, stop, propagations_search, masks))
     }
 
     fn empty_masks(&self) -> Vec<MaskAccumulator> {
@@ -326,12 +337,10 @@ impl Planner {
         stopped: Vec<Option<PropagationError>>,
         stop: Option<PropagationStop>,
         propagations_search: u64,
-        tradeoff_masks: Option<Vec<MaskAccumulator>>,
+        (station_masks, tradeoff_masks): (Vec<MaskAccumulator>, Option<Vec<MaskAccumulator>>),
     ) -> Plan {
-        let mut station_masks = self.empty_masks();
         let mut segments = Vec::new();
         for p in &passes {
-            station_masks[p.station_index].merge(&p.mask);
             segments.extend_from_slice(&p.segments);
         }
         let (volume_bits, contact_s) = network::union_volume(&segments);
@@ -440,7 +449,12 @@ impl Planner {
     }
 }
 
+/// Passes (and trade-off passes) planned in parallel between two merges: bounds what is held at
+/// once (a pass's elevation bins, about 3 kB with 7 ladder rates) whatever the window; large
+/// enough to keep both cores busy.
+const WORK_CHUNK: usize = 256;
+
 enum Item {
-    Planned(Box<PassPlan>),
+    Planned(Box<(PassPlan, MaskAccumulator)>),
     Tradeoff(usize, Box<MaskAccumulator>),
 }

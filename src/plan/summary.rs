@@ -156,7 +156,7 @@ fn robust_mask(
     }
     let mut highest: Vec<f64> = passes
         .iter()
-        .map(|p| p.mask.highest_open_elevation_deg[k])
+        .map(|p| p.mask.highest_open_elevation_deg(k))
         .collect();
     highest.sort_by(f64::total_cmp);
     // the smallest count of passes that makes the share, at least one

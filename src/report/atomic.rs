@@ -39,3 +39,35 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
     }
     result
 }
+
+/// How an output file is written.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum WriteMode {
+    /// [`write_atomic`]: a temporary file, flushed to disk, renamed over the target. For a file
+    /// written where readers may look.
+    #[default]
+    Atomic,
+    /// [`write_staged`]: into a staging folder ([`super::Staging`]), whose commit makes the whole
+    /// set durable with one flush and puts it in place atomically.
+    Staged,
+}
+
+/// Write a file of a staging folder: created and written in place, not flushed. Nobody reads the
+/// staging folder before its commit, which flushes every staged file with one call before it puts
+/// the set in place ([`super::Staging::commit`]); a run killed before the commit leaves a staging
+/// folder the next run removes.
+pub fn write_staged(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
+    let result = std::fs::File::create(path).and_then(|mut f| f.write_all(bytes));
+    if result.is_err() {
+        let _ = std::fs::remove_file(path);
+    }
+    result
+}
+
+/// Write `bytes` to `path` in `mode`.
+pub fn write_output(path: &Path, bytes: &[u8], mode: WriteMode) -> std::io::Result<()> {
+    match mode {
+        WriteMode::Atomic => write_atomic(path, bytes),
+        WriteMode::Staged => write_staged(path, bytes),
+    }
+}

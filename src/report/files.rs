@@ -3,8 +3,8 @@
 //! `masks.csv`). Files are written atomically; the folder as a whole is staged by
 //! [`super::Staging`].
 
-use super::plan::{step_rows, DayRow, PlanDoc};
-use super::{slug, to_csv, write_atomic};
+use super::plan::{DayRow, PlanDoc};
+use super::{slug, to_csv, write_output, WriteMode};
 use crate::plan::{PassSeries, PassSink, Planner};
 use crate::timefmt::file_stamp;
 use chrono::{DateTime, Utc};
@@ -44,6 +44,8 @@ pub fn pass_csv_name(number: usize, station: &str, aos: &DateTime<Utc>) -> Strin
 pub struct CsvSink<'a> {
     pub planner: &'a Planner,
     pub dir: &'a Path,
+    /// [`WriteMode::Staged`] when `dir` is a staging folder ([`super::Staging::path`]).
+    pub mode: WriteMode,
 }
 
 impl PassSink for CsvSink<'_> {
@@ -53,7 +55,6 @@ impl PassSink for CsvSink<'_> {
         let path = self
             .dir
             .join(pass_csv_name(s.plan.number, st, &s.plan.pass.aos));
-        let rows = step_rows(s, self.planner.rates());
         // The element age (the one warning of the whole run that every number depends on), then
         // the pass's own.
         let w = self.planner.window();
@@ -62,8 +63,8 @@ impl PassSink for CsvSink<'_> {
                 .into_iter()
                 .collect();
         warnings.extend(s.plan.warnings.lines(self.planner.frequency_hz()));
-        let text = to_csv(&rows, &warnings).map_err(|e| file_error(&path, e))?;
-        write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))
+        let text = super::step_csv::pass_csv(s, self.planner.rates(), &warnings);
+        write_output(&path, &text, self.mode).map_err(|e| io_error(&path, e))
     }
 }
 
@@ -73,7 +74,7 @@ pub fn summary_json(doc: &PlanDoc) -> String {
 }
 
 /// Write `summary.json`, `summary.csv`, `days.csv` and `masks.csv` into `dir`.
-pub fn write_summaries(dir: &Path, doc: &PlanDoc) -> Result<(), FileError> {
+pub fn write_summaries(dir: &Path, doc: &PlanDoc, mode: WriteMode) -> Result<(), FileError> {
     let days: Vec<&DayRow> = doc.days.iter().collect();
     let w = &doc.assumptions.warnings;
     let files: [(&str, Result<String, csv::Error>); 4] = [
@@ -85,7 +86,7 @@ pub fn write_summaries(dir: &Path, doc: &PlanDoc) -> Result<(), FileError> {
     for (name, text) in files {
         let path = dir.join(name);
         let text = text.map_err(|e| file_error(&path, e))?;
-        write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
+        write_output(&path, text.as_bytes(), mode).map_err(|e| io_error(&path, e))?;
     }
     Ok(())
 }
@@ -185,12 +186,12 @@ impl ChartBytes {
     /// The chart sizes for a format.
     pub fn of(format: crate::chart::ChartFormat) -> ChartBytes {
         match format {
-            // Shipped example, one day: pass charts 378-416 kB, sky charts 292-362 kB, mask and
-            // summary charts 312-332 kB (the week's: pass charts up to 421 kB, sky charts 449 kB).
+            // Palette PNGs of the shipped example's week: pass charts 139-159 kB, sky charts
+            // up to 162 kB, mask charts up to 114 kB, the summary 187 kB.
             crate::chart::ChartFormat::Png => ChartBytes {
-                pass: 440_000,
-                sky: 380_000,
-                window: 350_000,
+                pass: 170_000,
+                sky: 170_000,
+                window: 200_000,
             },
             // The same in SVG: pass charts up to 148 kB, sky charts up to 54 kB (the week's 68 kB),
             // mask charts 89 kB.

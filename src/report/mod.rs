@@ -9,6 +9,7 @@ pub mod files;
 pub mod geometry;
 pub mod plan;
 mod staging;
+pub mod step_csv;
 pub mod transits;
 
 pub use staging::{
@@ -16,7 +17,7 @@ pub use staging::{
     JOURNAL, MANIFEST,
 };
 
-pub use atomic::write_atomic;
+pub use atomic::{write_atomic, write_output, write_staged, WriteMode};
 
 /// Two names of one run that give the same file names.
 #[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]

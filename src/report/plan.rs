@@ -685,12 +685,22 @@ impl PfdBlock {
 impl PlanDoc {
     pub fn new(planner: &Planner, plan: &Plan) -> Self {
         PlanDoc {
-            satellite: satellite_name(planner.elements()),
             passes: plan
                 .passes
                 .iter()
                 .map(|p| PlanPassRow::new(planner, p))
                 .collect(),
+            ..Self::without_pass_rows(planner, plan)
+        }
+    }
+
+    /// Every part but the pass rows (`passes` is empty), for a reader that makes each pass's row
+    /// when it needs it ([`PlanPassRow::new`]; the `plan` table): the rows are most of the
+    /// document, about 1 kB per pass.
+    pub fn without_pass_rows(planner: &Planner, plan: &Plan) -> Self {
+        PlanDoc {
+            satellite: satellite_name(planner.elements()),
+            passes: Vec::new(),
             totals: TotalsRow::new(&plan.totals, planner.rates()),
             days: plan.days.iter().map(DayRow::from).collect(),
             usable_masks: plan

@@ -253,6 +253,7 @@ impl Staging {
             return Err(FolderError::Stopped);
         }
         let staged = self.staged_names()?;
+        sync_staged(&self.dir, &staged)?;
         #[cfg(target_os = "linux")]
         if let Method::Swap(s) = &self.method {
             let outcome = swap::commit(s, &staged, mode, &mut hook);
@@ -482,6 +483,31 @@ fn file_name(p: &Path) -> String {
     p.file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default()
+}
+
+/// Flush the staged files to disk before any of them is put in place. They were written without a
+/// flush each ([`super::write_staged`]); Linux: one `syncfs(2)` of the file system that holds the
+/// staging folder (every staged file's data and metadata with one call); elsewhere one `fsync`
+/// per file. After this the commit's own steps (manifest, exchange or journal) make the set
+/// visible, each flushed as before, so a power cut leaves the previous set or the complete new
+/// one, never a new file with lost contents.
+fn sync_staged(dir: &Path, staged: &[String]) -> Result<(), FolderError> {
+    #[cfg(target_os = "linux")]
+    {
+        let _ = staged;
+        let f = std::fs::File::open(dir).map_err(io_at(dir))?;
+        rustix::fs::syncfs(&f).map_err(|e| io_at(dir)(e.into()))
+    }
+    #[cfg(not(target_os = "linux"))]
+    {
+        for n in staged {
+            let p = dir.join(n);
+            std::fs::File::open(&p)
+                .and_then(|f| f.sync_all())
+                .map_err(io_at(&p))?;
+        }
+        Ok(())
+    }
 }
 
 /// Flush a folder's entries (renames, new files) to disk. Folders cannot be opened for syncing

@@ -131,9 +131,12 @@ fn dump(name: &str, bytes: &[u8]) {
     }
 }
 
-/// Decode a PNG; return (width, height, number of distinct colours, share of non-white pixels).
+/// Decode a PNG (palette or RGB); return (width, height, number of distinct colours, share of
+/// non-white pixels).
 fn png_stats(bytes: &[u8]) -> (u32, u32, usize, f64) {
-    let decoder = png::Decoder::new(std::io::Cursor::new(bytes));
+    let mut decoder = png::Decoder::new(std::io::Cursor::new(bytes));
+    // palette PNGs: expand each index to its RGB colour
+    decoder.set_transformations(png::Transformations::EXPAND);
     let mut reader = decoder.read_info().expect("valid PNG header");
     let mut buf = vec![0; reader.output_buffer_size()];
     let info = reader.next_frame(&mut buf).expect("valid PNG data");

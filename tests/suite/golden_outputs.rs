@@ -69,3 +69,33 @@ fn first_difference(name: &str, stored: &Path, new: &[u8]) -> String {
         new.lines().count()
     )
 }
+
+/// The fast per-pass CSV writer (`report::step_csv`) against the `csv` crate serializing the
+/// `StepRow`s, on every pass of the example week (rain case on, adaptive schedule, a mount):
+/// byte-identical.
+#[test]
+fn fast_pass_csv_matches_serde_rows() {
+    use passbudget::config::mission::Mission;
+    use passbudget::plan::{FnSink, PassSeries, PlanRequest, Planner};
+    use passbudget::report::plan::step_rows;
+    use passbudget::report::{step_csv::pass_csv, to_csv};
+    let mission = Mission::load(&root().join("examples/wrenlet-1.yaml")).unwrap();
+    let planner = Planner::new(&mission, &PlanRequest::default()).unwrap();
+    let warnings = vec!["a warning, with a comma".to_string()];
+    let checked = std::sync::atomic::AtomicUsize::new(0);
+    let sink = FnSink(|s: &PassSeries<'_>| {
+        let want = to_csv(&step_rows(s, planner.rates()), &warnings).unwrap();
+        let got = pass_csv(s, planner.rates(), &warnings);
+        assert_eq!(
+            String::from_utf8(got).unwrap(),
+            want,
+            "pass {}",
+            s.plan.number
+        );
+        checked.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+        Ok::<(), std::io::Error>(())
+    });
+    let plan = planner.run(&sink).unwrap();
+    assert!(plan.passes.len() > 100);
+    assert_eq!(checked.into_inner(), plan.passes.len());
+}

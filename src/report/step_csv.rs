@@ -1,0 +1,353 @@
+//! The per-pass time-series CSV written straight into one byte buffer: the same bytes as
+//! serializing [`super::plan::StepRow`]s with the `csv` crate ([`super::to_csv`]), at a fraction
+//! of the cost (no row structs, no time strings, no scheme-name copies, fixed-decimal numbers).
+//!
+//! Numbers: a value rounded to `d` decimals is `k / 10^d` for a whole `k`; while `|k| < 10^15`
+//! (at most 15 significant digits) and the value is 0 or at least 1e-5, the shortest decimal
+//! that reads back as the rounded value (what `ryu`, the `csv` crate's float writer, prints) is
+//! `k / 10^d` itself with its trailing zeros cut: the next decimal of 15 digits or fewer lies at
+//! least 1e-15 of the value away, farther than the half-ulp (1.1e-16 of the value) within which a
+//! decimal reads back as the same double. So [`push_rounded`] writes the digits of `k` directly
+//! (`12.5`, `0.0001`, `300.0`), and hands every other value (below 1e-5: `ryu` then writes an
+//! exponent; huge, infinite or NaN) to `ryu`. `tests::fixed_matches_ryu` checks this against
+//! `ryu` itself.
+
+use super::plan::CAUTION;
+use super::round;
+use crate::plan::prepare::RateSet;
+use crate::plan::series::Step;
+use crate::plan::PassSeries;
+use chrono::{DateTime, Datelike, Timelike, Utc};
+
+/// The header row, in the field order of [`super::plan::StepRow`].
+pub const STEP_HEADER: &str = "time,t_s,azimuth_deg,elevation_deg,range_km,range_rate_km_s,doppler_hz,off_nadir_deg,eirp_dbw,free_space_loss_db,atmospheric_loss_db,sky_temperature_k,sky_noise_k,ground_noise_k,man_made_noise_k,sun_noise_k,moon_noise_k,receiver_noise_k,antenna_temperature_k,system_temperature_k,g_over_t_db_k,cn0_dbhz,sun_separation_deg,moon_separation_deg,rate_bps,ebn0_db,margin_db,closed,tracked,adaptive_scheme,adaptive_rate_bps,rain_atmospheric_loss_db,rain_sky_noise_k,rain_system_temperature_k,rain_cn0_dbhz,rain_margin_db";
+
+/// Bytes of one row of the shipped example, rounded up (to size the buffer once).
+const ROW_BYTES: usize = 320;
+
+const POW10: [f64; 7] = [1.0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6];
+
+/// Write `round(x, decimals)` as the `csv` crate writes that `f64` (see the module note).
+pub fn push_rounded(buf: &mut Vec<u8>, x: f64, decimals: usize) {
+    let k = (x * POW10[decimals]).round();
+    let r = k / POW10[decimals] + 0.0;
+    // (NaN fails the first test, as an infinity does)
+    let in_range = k.abs() < 1e15;
+    if !in_range || (k != 0.0 && r.abs() < 1e-5) {
+        push_ryu(buf, r);
+        return;
+    }
+    if k < 0.0 {
+        buf.push(b'-');
+    }
+    let k = k.abs() as u64;
+    let scale = POW10[decimals] as u64;
+    push_u64(buf, k / scale);
+    buf.push(b'.');
+    let mut frac = k % scale;
+    if frac == 0 {
+        buf.push(b'0');
+        return;
+    }
+    let mut width = decimals;
+    while frac % 10 == 0 {
+        frac /= 10;
+        width -= 1;
+    }
+    let mut digits = [b'0'; 6];
+    for d in digits[..width].iter_mut().rev() {
+        *d = b'0' + (frac % 10) as u8;
+        frac /= 10;
+    }
+    buf.extend_from_slice(&digits[..width]);
+}
+
+fn push_ryu(buf: &mut Vec<u8>, x: f64) {
+    buf.extend_from_slice(ryu::Buffer::new().format(x).as_bytes());
+}
+
+fn push_u64(buf: &mut Vec<u8>, mut n: u64) {
+    let mut digits = [0u8; 20];
+    let mut i = digits.len();
+    loop {
+        i -= 1;
+        digits[i] = b'0' + (n % 10) as u8;
+        n /= 10;
+        if n == 0 {
+            break;
+        }
+    }
+    buf.extend_from_slice(&digits[i..]);
+}
+
+/// A quantity that is usually whole, as [`super::whole`] serializes it through the `csv` crate.
+fn push_whole(buf: &mut Vec<u8>, x: f64) {
+    if x.fract() == 0.0 && x.abs() < 9.007_199_254_740_992e15 {
+        let n = x as i64;
+        if n < 0 {
+            buf.push(b'-');
+        }
+        push_u64(buf, n.unsigned_abs());
+    } else {
+        push_ryu(buf, x);
+    }
+}
+
+fn push_opt(buf: &mut Vec<u8>, x: Option<f64>, decimals: usize) {
+    if let Some(x) = x {
+        push_rounded(buf, x, decimals);
+    }
+}
+
+/// A text field, quoted as the `csv` crate quotes it (only when it holds `,`, `"`, CR or LF).
+fn push_text(buf: &mut Vec<u8>, s: &str) {
+    if s.bytes().any(|b| matches!(b, b',' | b'"' | b'\r' | b'\n')) {
+        buf.push(b'"');
+        for b in s.bytes() {
+            if b == b'"' {
+                buf.push(b'"');
+            }
+            buf.push(b);
+        }
+        buf.push(b'"');
+    } else {
+        buf.extend_from_slice(s.as_bytes());
+    }
+}
+
+fn push_2(buf: &mut Vec<u8>, n: u32) {
+    buf.extend_from_slice(&[b'0' + (n / 10) as u8, b'0' + (n % 10) as u8]);
+}
+
+/// `aos + t_s` as [`crate::timefmt::format_ms`] writes it (`2026-12-02T01:23:45.678Z`): the
+/// offset rounded to the microsecond, the milliseconds cut. Years outside 0-9999 and leap
+/// seconds go through `format_ms` itself.
+fn push_time(buf: &mut Vec<u8>, aos: &DateTime<Utc>, t_s: f64) {
+    let t = crate::timefmt::add_seconds(aos, t_s);
+    let year = t.year();
+    if !(0..=9999).contains(&year) || t.nanosecond() >= 1_000_000_000 {
+        buf.extend_from_slice(crate::timefmt::format_ms(&t).as_bytes());
+        return;
+    }
+    let y = year as u32;
+    push_2(buf, y / 100);
+    push_2(buf, y % 100);
+    buf.push(b'-');
+    push_2(buf, t.month());
+    buf.push(b'-');
+    push_2(buf, t.day());
+    buf.push(b'T');
+    push_2(buf, t.hour());
+    buf.push(b':');
+    push_2(buf, t.minute());
+    buf.push(b':');
+    push_2(buf, t.second());
+    let ms = t.nanosecond() / 1_000_000;
+    buf.extend_from_slice(&[
+        b'.',
+        b'0' + (ms / 100) as u8,
+        b'0' + (ms / 10 % 10) as u8,
+        b'0' + (ms % 10) as u8,
+        b'Z',
+    ]);
+}
+
+fn push_bool(buf: &mut Vec<u8>, b: bool) {
+    buf.extend_from_slice(if b { b"true" } else { b"false" });
+}
+
+/// The whole time-series CSV of one pass: the caution and warning comment lines, the header and
+/// one row per step, byte for byte what [`super::to_csv`] gives for
+/// [`super::plan::step_rows`].
+pub fn pass_csv(series: &PassSeries, rates: &RateSet, warnings: &[String]) -> Vec<u8> {
+    let mut buf = Vec::with_capacity(1024 + series.steps.len() * ROW_BYTES);
+    buf.extend_from_slice(b"# ");
+    buf.extend_from_slice(CAUTION.as_bytes());
+    buf.push(b'\n');
+    for w in warnings {
+        buf.extend_from_slice(b"# warning: ");
+        buf.extend_from_slice(w.replace(['\n', '\r'], " ").as_bytes());
+        buf.push(b'\n');
+    }
+    if series.steps.is_empty() {
+        return buf;
+    }
+    buf.extend_from_slice(STEP_HEADER.as_bytes());
+    buf.push(b'\n');
+    let (_, o) = rates.display_option(series.plan.clear.option);
+    let aos = series.plan.pass.aos;
+    for (i, s) in series.steps.iter().enumerate() {
+        let a = series
+            .adaptive
+            .get(i)
+            .copied()
+            .flatten()
+            .map(|j| &rates.adaptive[j as usize]);
+        push_step(&mut buf, &aos, s);
+        push_whole(&mut buf, o.rate_bps);
+        buf.push(b',');
+        push_rounded(&mut buf, o.ebn0_db(s.cn0_dbhz), 4);
+        buf.push(b',');
+        push_rounded(&mut buf, o.margin_db(s.cn0_dbhz), 4);
+        buf.push(b',');
+        push_bool(&mut buf, series.counted(i));
+        buf.push(b',');
+        push_bool(&mut buf, !s.untracked);
+        buf.push(b',');
+        if let Some(a) = a {
+            push_text(&mut buf, &a.scheme);
+        }
+        buf.push(b',');
+        if let Some(a) = a {
+            push_whole(&mut buf, round(a.rate_bps, 1));
+        }
+        let r = s.rain;
+        for (x, d) in [
+            (r.map(|r| r.atmospheric_loss_db), 4),
+            (r.map(|r| r.sky_noise_k), 3),
+            (r.map(|r| r.system_temperature_k), 3),
+            (r.map(|r| r.cn0_dbhz), 4),
+            (r.map(|r| o.margin_db(r.cn0_dbhz)), 4),
+        ] {
+            buf.push(b',');
+            push_opt(&mut buf, x, d);
+        }
+        buf.push(b'\n');
+    }
+    buf
+}
+
+/// The fields of a step from `time` to `moon_separation_deg`, each followed by a comma.
+fn push_step(buf: &mut Vec<u8>, aos: &DateTime<Utc>, s: &Step) {
+    push_time(buf, aos, s.t_s);
+    for (x, d) in [
+        (s.t_s, 3),
+        (s.azimuth_deg, 4),
+        (s.elevation_deg, 4),
+        (s.range_km, 4),
+        (s.range_rate_km_s, 6),
+        (s.doppler_hz, 1),
+        (s.off_nadir_deg, 4),
+        (s.eirp_dbw, 4),
+        (s.free_space_loss_db, 4),
+        (s.atmospheric_loss_db, 4),
+        (s.sky_temperature_k, 3),
+        (s.sky_noise_k, 3),
+        (s.ground_noise_k, 3),
+        (s.man_made_noise_k, 3),
+        (s.sun_noise_k, 3),
+        (s.moon_noise_k, 3),
+        (s.receiver_noise_k, 3),
+        (s.antenna_temperature_k, 3),
+        (s.system_temperature_k, 3),
+        (s.g_over_t_db_k, 4),
+        (s.cn0_dbhz, 4),
+    ] {
+        buf.push(b',');
+        push_rounded(buf, x, d);
+    }
+    buf.push(b',');
+    push_opt(buf, s.sun_separation_deg, 3);
+    buf.push(b',');
+    push_opt(buf, s.moon_separation_deg, 3);
+    buf.push(b',');
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Reference: the `csv` crate's own float writer (`ryu`) on the rounded value.
+    fn reference(x: f64, d: usize) -> String {
+        ryu::Buffer::new().format(round(x, d as i32)).to_string()
+    }
+
+    fn fast(x: f64, d: usize) -> String {
+        let mut b = Vec::new();
+        push_rounded(&mut b, x, d);
+        String::from_utf8(b).unwrap()
+    }
+
+    /// The fixed-decimal writer against `ryu` (the `csv` crate's float writer) over values of
+    /// every magnitude the time series holds and beyond, edge values included.
+    #[test]
+    fn fixed_matches_ryu() {
+        let edges = [
+            0.0,
+            -0.0,
+            1e-7,
+            -1e-7,
+            4.9e-6,
+            5e-6,
+            9.99e-6,
+            1e-5,
+            1.5e-5,
+            0.00005,
+            0.0001,
+            0.5,
+            -0.5,
+            1.0,
+            10.0,
+            123.45,
+            -123.4567,
+            99999.99995,
+            1e11,
+            1e14,
+            9.99e14,
+            1e15,
+            1e16,
+            1e20,
+            f64::MAX,
+            f64::MIN_POSITIVE,
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+            f64::NAN,
+            2.675,
+            1.0005,
+            0.30000000000000004,
+        ];
+        for &x in &edges {
+            for d in [1, 3, 4, 6] {
+                assert_eq!(fast(x, d), reference(x, d), "x = {x:e}, {d} decimals");
+            }
+        }
+        // A deterministic sweep (64-bit LCG) over magnitudes 1e-8 to 1e12 and both signs.
+        let mut state = 0x2545_f491_4f6c_dd1du64;
+        for _ in 0..400_000 {
+            state = state
+                .wrapping_mul(6_364_136_223_846_793_005)
+                .wrapping_add(1_442_695_040_888_963_407);
+            let unit = (state >> 11) as f64 / (1u64 << 53) as f64;
+            let exp = ((state >> 3) % 21) as i32 - 8;
+            let sign = if state & 1 == 0 { 1.0 } else { -1.0 };
+            let x = sign * unit * 10f64.powi(exp);
+            let d = [1, 3, 4, 6][(state >> 60) as usize % 4];
+            assert_eq!(fast(x, d), reference(x, d), "x = {x:e}, {d} decimals");
+        }
+    }
+
+    #[test]
+    fn whole_and_text_fields() {
+        let mut b = Vec::new();
+        push_whole(&mut b, 50e6);
+        b.push(b' ');
+        push_whole(&mut b, 9600.5);
+        b.push(b' ');
+        push_text(&mut b, "a,\"b\"");
+        assert_eq!(
+            String::from_utf8(b).unwrap(),
+            "50000000 9600.5 \"a,\"\"b\"\"\""
+        );
+    }
+
+    #[test]
+    fn times_match_format_ms() {
+        let aos = crate::timefmt::parse_utc("2026-12-31T23:59:58.9995Z").unwrap();
+        for t_s in [0.0, 0.0004, 0.0006, 1.0, 1.25, 86_400.5, 3.0e7] {
+            let mut b = Vec::new();
+            push_time(&mut b, &aos, t_s);
+            let want = crate::timefmt::format_ms(&crate::timefmt::add_seconds(&aos, t_s));
+            assert_eq!(String::from_utf8(b).unwrap(), want, "t_s {t_s}");
+        }
+    }
+}
