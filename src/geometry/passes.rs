@@ -256,45 +256,30 @@ impl Search<'_> {
             hu[0] * p[1] - hu[1] * p[0],
         ];
         let w = hn / (rn * rn);
-        let dtau = 30.0;
-        let slack = omega_max * dtau;
-        let m0 = 0.5f64.to_radians();
-        let k = (4.0 * e + 0.01) * w;
-        // Entry is possible at grid time τ iff γ(τ) <= θ(τ) = γc + slack + m0 + k τ, i.e.
-        // cos γ(τ) >= cos θ(τ) (while θ < π); cos θ is advanced by the same recurrence.
-        let theta0 = gamma_cone + slack + m0;
-        let (mut sth, mut cth) = theta0.sin_cos();
-        let (sk, ck) = (k * dtau).sin_cos();
-        let (sw, cw) = (w * dtau).sin_cos();
-        let (se, ce) = (w_e * dtau).sin_cos();
-        let (mut c, mut sn) = (1.0f64, 0.0f64);
-        let mut st = self.obs_unit;
-        let steps = (horizon / dtau).ceil() as usize;
-        for i in 0..=steps {
-            let tau = i as f64 * dtau;
-            if theta0 + k * tau >= std::f64::consts::PI {
-                return tau;
+        let cone = PredictedCone {
+            p,
+            q,
+            station: self.obs_unit,
+            w,
+            gamma_cone,
+            m0: 0.5f64.to_radians(),
+            k: (4.0 * e + 0.01) * w,
+            omega_max,
+        };
+        // A coarse grid of 30 s, then the coarse interval of the first possible entry again at
+        // 3 s (its slack ω_max Δτ is ten times smaller).
+        let coarse = 30.0;
+        let steps = (horizon / coarse).ceil() as usize;
+        match cone.first_entry(0.0, coarse, steps) {
+            None => horizon,
+            Some(0) => 0.0,
+            Some(i) => {
+                let from = (i - 1) as f64 * coarse;
+                let fine = coarse / 10.0;
+                cone.first_entry(from, fine, 10)
+                    .map_or(i as f64 * coarse, |j| from + j as f64 * fine)
             }
-            let u = [
-                c * p[0] + sn * q[0],
-                c * p[1] + sn * q[1],
-                c * p[2] + sn * q[2],
-            ];
-            let cg = u[0] * st[0] + u[1] * st[1] + u[2] * st[2];
-            if cg >= cth {
-                return tau;
-            }
-            // Advance the rotations by one grid step (angle-addition recurrences).
-            let c2 = c * cw - sn * sw;
-            sn = sn * cw + c * sw;
-            c = c2;
-            let cth2 = cth * ck - sth * sk;
-            sth = sth * ck + cth * sk;
-            cth = cth2;
-            // R3(-ω⊕ Δτ): x' = cos x - sin y, y' = sin x + cos y
-            st = [ce * st[0] - se * st[1], se * st[0] + ce * st[1], st[2]];
         }
-        horizon
     }
 
     /// Root of g (azimuth-dependent mask: g has corners) between `a` and `b` (g of opposite signs, g(a) <= 0 < g(b) or the reverse).
@@ -526,6 +511,63 @@ impl Search<'_> {
     }
 }
 
+/// The circular-orbit prediction of `Search::predicted_skip`: satellite direction
+/// u(τ) = cos(wτ) P + sin(wτ) Q, station direction s(τ) = R3(-ω⊕ τ) ŝ, visibility cone γc,
+/// error margin m0 + k τ and the rate bound ω_max.
+struct PredictedCone {
+    p: [f64; 3],
+    q: [f64; 3],
+    station: [f64; 3],
+    w: f64,
+    gamma_cone: f64,
+    m0: f64,
+    k: f64,
+    omega_max: f64,
+}
+
+impl PredictedCone {
+    /// Index i of the first grid point τ_i = `from` + i `dtau` (i <= `steps`) from which the
+    /// satellite may enter the cone before τ_i + `dtau`: γ(τ_i) <= θ = γc + ω_max dtau + m0 +
+    /// k (τ_i + dtau), i.e. cos γ(τ_i) >= cos θ (θ < π); `None` if there is none.
+    fn first_entry(&self, from: f64, dtau: f64, steps: usize) -> Option<usize> {
+        let w_e = EARTH_ROTATION_RAD_S;
+        let theta_at =
+            |tau: f64| self.gamma_cone + self.omega_max * dtau + self.m0 + self.k * (tau + dtau);
+        let (mut sn, mut c) = (self.w * from).sin_cos();
+        let (se0, ce0) = (w_e * from).sin_cos();
+        let s0 = self.station;
+        // R3(-ω⊕ τ): x' = cos x - sin y, y' = sin x + cos y
+        let mut st = [ce0 * s0[0] - se0 * s0[1], se0 * s0[0] + ce0 * s0[1], s0[2]];
+        let (mut sth, mut cth) = theta_at(from).sin_cos();
+        let (sk, ck) = (self.k * dtau).sin_cos();
+        let (sw, cw) = (self.w * dtau).sin_cos();
+        let (se, ce) = (w_e * dtau).sin_cos();
+        let (p, q) = (&self.p, &self.q);
+        for i in 0..=steps {
+            if theta_at(from + i as f64 * dtau) >= std::f64::consts::PI {
+                return Some(i);
+            }
+            let u = [
+                c * p[0] + sn * q[0],
+                c * p[1] + sn * q[1],
+                c * p[2] + sn * q[2],
+            ];
+            if u[0] * st[0] + u[1] * st[1] + u[2] * st[2] >= cth {
+                return Some(i);
+            }
+            // Advance the rotations by one grid step (angle-addition recurrences).
+            let c2 = c * cw - sn * sw;
+            sn = sn * cw + c * sw;
+            c = c2;
+            let cth2 = cth * ck - sth * sk;
+            sth = sth * ck + cth * sk;
+            cth = cth2;
+            st = [ce * st[0] - se * st[1], se * st[0] + ce * st[1], st[2]];
+        }
+        None
+    }
+}
+
 /// Root of the secant of g through `neg` and `pos` (their midpoint when g is equal at both).
 fn secant_root(neg: &Sample, pos: &Sample) -> f64 {
     if pos.g - neg.g != 0.0 {
@@ -547,6 +589,21 @@ fn newton_accepted(cur: &Sample, other: &Sample) -> bool {
     let g2 = ((cur.gdot - other.gdot) / dt).abs();
     let bound = 2.0 * (g2 * delta * delta / (2.0 * cur.gdot.abs()) + 1e-3 * delta);
     delta <= TIME_TOLERANCE_S && bound <= 0.25 * TIME_TOLERANCE_S
+}
+
+/// The visibility cone for the predicted skip from sample `s` (e < 0.05): γc for the largest
+/// radius the satellite can reach within the skip's horizon (1.5 periods), the sample's radius
+/// plus the swing 2 a (e + 0.002) + 5 km (perigee to apogee, plus a change of e of 0.002 from
+/// the long-period terms and drag and 5 km for SGP4's short-period radial term, whose amplitude
+/// k2 / (2p) is ~1.6 km for a LEO), never above the global r_max.
+fn local_cone(s: &Sample, lim: &SearchLimits) -> f64 {
+    let rn = (s.r[0] * s.r[0] + s.r[1] * s.r[1] + s.r[2] * s.r[2]).sqrt();
+    let r = (rn + lim.radius_swing_km).min(lim.r_max_km);
+    if lim.cone_eps <= -89.9f64.to_radians() {
+        std::f64::consts::PI
+    } else {
+        ((lim.station_r_km * lim.cone_eps.cos() / r).clamp(-1.0, 1.0)).acos() - lim.cone_eps
+    }
 }
 
 /// Time (s) before which the elevation cannot reach the lowest mask elevation from the sample:
@@ -628,7 +685,9 @@ fn hermite_max(up: &Sample, down: &Sample) -> Option<f64> {
             r2
         }
     };
-    (0.0..=1.0).contains(&s).then_some(up.t + s * (down.t - up.t))
+    (0.0..=1.0)
+        .contains(&s)
+        .then_some(up.t + s * (down.t - up.t))
 }
 
 fn better(a: Sample, b: Sample) -> Sample {
@@ -679,6 +738,13 @@ struct SearchLimits {
     v_max_km_s: f64,
     /// Lowest mask elevation, deg.
     lowest_mask_deg: f64,
+    /// Station geocentric radius (km) and the cone's elevation ε (rad).
+    station_r_km: f64,
+    cone_eps: f64,
+    /// r_max (km) and the bound on the radius swing over the predicted skip's horizon,
+    /// 2 a (e + 0.002) + 5 km (see `Search::local_cone`).
+    r_max_km: f64,
+    radius_swing_km: f64,
 }
 
 /// Unit vector of the station's geocentric direction, its geocentric radius (km) and δ, the
@@ -731,6 +797,10 @@ fn search_limits(
         v_max_km_s: (WGS72_MU_KM3_S2 * (2.0 / r_p_min - 1.0 / a_max)).sqrt()
             + EARTH_ROTATION_RAD_S * r_max,
         lowest_mask_deg: mask.lowest_limit_deg(),
+        station_r_km: station_r,
+        cone_eps: eps,
+        r_max_km: r_max,
+        radius_swing_km: 2.0 * a * (e + 0.002) + 5.0,
     }
 }
 
@@ -765,10 +835,15 @@ impl Search<'_> {
     /// largest angular rate of the line of sight (see `elevation_bound_s`).
     fn step_below_mask(&self, s: &Sample, lim: &SearchLimits) -> f64 {
         let gamma = s.gamma();
-        let step = if gamma > lim.gamma_cone {
-            let linear = (gamma - lim.gamma_cone) / lim.omega_max;
+        let local = if lim.e < 0.05 {
+            local_cone(s, lim)
+        } else {
+            lim.gamma_cone
+        };
+        let step = if gamma > local {
+            let linear = ((gamma - lim.gamma_cone) / lim.omega_max).max(0.0);
             let predicted = if lim.e < 0.05 {
-                self.predicted_skip(s, lim.gamma_cone, lim.omega_max, lim.e, lim.horizon_s)
+                self.predicted_skip(s, local, lim.omega_max, lim.e, lim.horizon_s)
             } else {
                 0.0
             };
