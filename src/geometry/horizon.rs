@@ -29,6 +29,8 @@ pub struct HorizonMask {
     points: Vec<[f64; 2]>,
     /// Lowest profile elevation (a vertex), kept so that no call per search scans the points.
     lowest_point_deg: Option<f64>,
+    /// Highest profile elevation, kept for the same reason.
+    highest_point_deg: Option<f64>,
 }
 
 impl HorizonMask {
@@ -66,10 +68,12 @@ impl HorizonMask {
         }
         let points: Vec<[f64; 2]> = indexed.into_iter().map(|(_, p)| p).collect();
         let lowest_point_deg = points.iter().map(|p| p[1]).reduce(f64::min);
+        let highest_point_deg = points.iter().map(|p| p[1]).reduce(f64::max);
         Ok(HorizonMask {
             min_elevation_deg,
             points,
             lowest_point_deg,
+            highest_point_deg,
         })
     }
 
@@ -138,6 +142,13 @@ impl HorizonMask {
             Some((el, s)) if el > self.min_elevation_deg => s,
             _ => 0.0,
         }
+    }
+
+    /// The limit depends on azimuth (some profile point lies above the minimum elevation); a
+    /// pass search needs the azimuth of each sample only then. O(1).
+    pub fn needs_azimuth(&self) -> bool {
+        self.highest_point_deg
+            .is_some_and(|highest| highest > self.min_elevation_deg)
     }
 
     /// Lowest mask elevation over all azimuths (the profile's minimum is at a vertex; kept from

@@ -23,26 +23,58 @@
 //!    * Predicted skip (e < 0.05 only; an error model, not a strict bound): γ is predicted
 //!      over the next 1.5 periods from the sample's state with a circular orbit under the
 //!      turning Earth, less a margin growing as 0.5° + (4e + 0.01) × (angle travelled) plus
-//!      ω_max × 30 s between grid points (see `predicted_skip`). Its safety is checked in
-//!      tests/passes_search.rs against 1 s scans over varied LEO orbits and stations.
+//!      ω_max × Δτ between grid points (Δτ = 30 s, then 3 s inside the first 30 s interval
+//!      where entry is possible). The cone of this test is γc for the largest radius the
+//!      satellite can reach within the horizon, the sample's radius plus 2 a (e + 0.002) + 5 km
+//!      (perigee to apogee, a change of e from long-period terms and drag, SGP4's short-period
+//!      radial term of amplitude k2 / 2p ≈ 1.6 km in LEO), at most r_max (see `local_cone`,
+//!      `predicted_skip`). Its safety is checked in tests/passes_search.rs against 1 s scans over
+//!      varied LEO orbits and stations.
+//!    * Elevation bound (strict): the line of sight turns at most at |v|/ρ, |v| <= v_max (vis-viva
+//!      at the lowest perigee plus ω⊕ r_max) and ρ(τ) >= ρ0 - v_max τ, so the elevation cannot
+//!      rise by Δ before (ρ0 / v_max)(1 - e^-Δ) (`elevation_bound_s`; any step below the mask is
+//!      at least that).
 //!
 //!    Every skip is at least [`FLOOR_STEP_S`].
 //! 2. **Sample inside the cone** at [`FLOOR_STEP_S`] (19 s) while g ≤ 0: any pass lasting
 //!    ≥ [`GUARANTEED_PASS_S`] (20 s) contains a sample, so none is missed (shorter ones may be).
-//! 3. **Refine** roots of g with safeguarded Newton steps (ġ from the analytic elevation rate
-//!    and the mask slope times the azimuth rate), kept inside a sign-change bracket; TCA by
-//!    the same on the elevation rate. Inside a pass the search walks with Newton predictions
-//!    towards the next root (capped at 1/32 of a period).
+//!    With a mask that does not depend on azimuth, a step while g rises ends 5 % + 0.2 s past
+//!    the Newton-predicted AOS when that comes sooner, so the AOS bracket has a near end.
+//! 3. **Refine** roots of g by Newton steps from the latest sample (ġ from the analytic
+//!    elevation rate, plus the mask slope times the azimuth rate), kept inside the sign-change
+//!    bracket. With a mask that does not depend on azimuth (g smooth) a Newton estimate is
+//!    accepted without a further evaluation when its Taylor error bound, twice
+//!    |g''| δ² / (2|ġ|) + 1e-3 δ (δ the Newton step, g'' from the two latest samples), is at
+//!    most a quarter of the tolerance (`newton_accepted`); a mask with azimuth corners closes
+//!    the bracket to the tolerance. TCA: evaluations at the maximum of the cubic Hermite
+//!    interpolant (elevation and rate at both ends) of the shrinking bracket, until the next
+//!    predicted maximum lies within half the tolerance of the last sample. On deep-space (SDP4)
+//!    orbits SGP4's velocity is not the derivative of its position (~1e-3 km/s apart on an
+//!    e = 0.7 orbit, seconds of TCA), so TCA there is refined by Newton steps on central
+//!    differences of the elevation of positions (±1 s).
+//!    Inside a pass the search walks towards the next event: with a mask that does not depend
+//!    on azimuth on a near-Earth orbit with e < 0.05 (one elevation maximum per pass), first to
+//!    10 % past the closest approach of a straight line at the AOS velocity, then to 3 % + 1 s
+//!    past the AOS mirrored about the TCA; otherwise with Newton predictions capped at 1/32 of
+//!    a period.
 //!
-//! Cost for a 550 km LEO over a mid-latitude station: ≈ 180 propagations per day with a 0°
-//! mask, ≈ 100 with 10° (tests/passes_search.rs); completeness is checked there against a
-//! brute-force 1 s scan. A propagation error stops the search; passes found before are kept.
+//! Each evaluation works in plain seconds from the window start and computes no azimuth (unless
+//! the mask needs it) and no off-nadir angle; the pass's azimuths are computed once at the end.
+//!
+//! Cost (tests/passes_search.rs, `propagation_budget_over_the_station_and_mask_grid`): about
+//! 120 propagations per LEO satellite-day averaged over stations at 0, 45 and 61° latitude and
+//! masks of 0, 5 and 10° (four LEO orbits, 7 days; 170 before this method), from about 65 at
+//! the equator with a 10° mask to about 210 at 61° with a 0° mask. Completeness is checked there
+//! against a brute-force 1 s scan. A propagation error stops the search; passes found before
+//! are kept.
 
 use chrono::{DateTime, Utc};
 
 use super::horizon::HorizonMask;
 use super::look::{Look, Observer};
-use crate::orbit::frames::EARTH_ROTATION_RAD_S;
+use crate::orbit::frames::{
+    days_since_j2000, gmst_rad, teme_to_ecef_at_angle, EcefState, EARTH_ROTATION_RAD_S,
+};
 use crate::orbit::propagate::{PropagationError, Propagator, WGS72_MU_KM3_S2};
 use crate::timefmt::{add_seconds, seconds_between};
 
@@ -105,12 +137,32 @@ struct Sample {
     g: f64,
     /// ġ, deg/s.
     gdot: f64,
-    /// Geocentric angle satellite-station, rad.
-    gamma: f64,
-    look: Look,
+    /// cos γ, γ the geocentric angle satellite-station.
+    cos_gamma: f64,
+    /// Geometric elevation (deg) and its rate (deg/s, from SGP4's velocity).
+    elevation_deg: f64,
+    elevation_rate_deg_s: f64,
+    /// Slant range (km) and its rate (km/s).
+    range_km: f64,
+    range_rate_km_s: f64,
     /// Earth-fixed position (km) and velocity (km/s).
     r: [f64; 3],
     v: [f64; 3],
+}
+
+impl Sample {
+    /// Geocentric angle satellite-station, rad.
+    fn gamma(&self) -> f64 {
+        self.cos_gamma.clamp(-1.0, 1.0).acos()
+    }
+
+    /// Full look angles (azimuth, off-nadir angle) of the sample, for the reported pass.
+    fn look(&self, obs: &Observer) -> Look {
+        obs.look(&EcefState {
+            position_km: self.r,
+            velocity_km_s: self.v,
+        })
+    }
 }
 
 struct Search<'a> {
@@ -119,24 +171,75 @@ struct Search<'a> {
     mask: &'a HorizonMask,
     start: DateTime<Utc>,
     obs_unit: [f64; 3],
+    /// Minutes from the element epoch to the window start.
+    epoch_offset_min: f64,
+    /// Days of UT1 (= UTC) since J2000.0 at the window start.
+    start_days_j2000: f64,
+    /// The mask depends on azimuth (else g is smooth: elevation minus a constant).
+    azimuth_mask: bool,
+    /// Mask elevation when it does not depend on azimuth, deg.
+    flat_limit_deg: f64,
+    /// Position-consistent TCA refinement (SDP4: its velocity is not the derivative of its
+    /// position, so an elevation rate built from it misplaces the maximum).
+    positions_for_tca: bool,
+    /// The walk through a pass may use predicted steps (see `walk_step`).
+    predicted_walk: bool,
 }
 
+/// Time step of the central differences of elevation used for TCA on deep-space orbits, s.
+/// Truncation error of the derivative ~ h² |ε'''| / 6, i.e. a TCA error ~ h² |ε'''| / (6 |ε''|)
+/// < 0.002 s for elevation curves with a time scale |ε''/ε'''| above 100 s (orbits with a period
+/// of 225 min or more); rounding ~ 1e-12 rad / (h |ε''|), below 1e-4 s for |ε''| > 1e-8 rad/s².
+const TCA_DIFFERENCE_STEP_S: f64 = 1.0;
+
 impl Search<'_> {
+    /// One SGP4 evaluation at `t` s after the window start, with the quantities the search needs
+    /// (no azimuth unless the mask depends on it; no off-nadir angle).
     fn eval(&self, t: f64) -> Result<Sample, PropagationError> {
-        let s = self.prop.ecef_at(&add_seconds(&self.start, t))?;
-        let look = self.obs.look(&s);
+        let teme = self
+            .prop
+            .propagate_minutes(self.epoch_offset_min + t / 60.0)?;
+        let s = teme_to_ecef_at_angle(&teme, gmst_rad(self.start_days_j2000 + t / 86_400.0));
+        // The formulas of `Observer::look`, without azimuth and off-nadir angle.
+        let ([e, n, u], [ed, nd, ud]) = self.obs.enu(&s);
+        let h2 = e * e + n * n;
+        let h = h2.sqrt();
+        let range_km = (h2 + u * u).sqrt();
+        let elevation_deg = u.atan2(h).to_degrees();
+        let elevation_rate_deg_s = if h > 1e-9 {
+            let hd = (e * ed + n * nd) / h;
+            ((ud * h - u * hd) / (range_km * range_km)).to_degrees()
+        } else {
+            0.0
+        };
+        let (g, gdot) = if !self.azimuth_mask {
+            (elevation_deg - self.flat_limit_deg, elevation_rate_deg_s)
+        } else if h > 1e-9 {
+            let az = e.atan2(n).to_degrees().rem_euclid(360.0);
+            let az = if az >= 360.0 { 0.0 } else { az };
+            let az_rate = ((ed * n - e * nd) / h2).to_degrees();
+            (
+                elevation_deg - self.mask.limit_deg(az),
+                // ġ = d(el)/dt - (d mask / d az) d(az)/dt
+                elevation_rate_deg_s - self.mask.slope_deg_per_deg(az) * az_rate,
+            )
+        } else {
+            (elevation_deg - self.mask.limit_deg(0.0), 0.0)
+        };
         let r = s.position_km;
         let rn = (r[0] * r[0] + r[1] * r[1] + r[2] * r[2]).sqrt();
-        let c = (r[0] * self.obs_unit[0] + r[1] * self.obs_unit[1] + r[2] * self.obs_unit[2]) / rn;
-        let limit = self.mask.limit_deg(look.azimuth_deg);
-        let slope = self.mask.slope_deg_per_deg(look.azimuth_deg);
         Ok(Sample {
             t,
-            g: look.elevation_deg - limit,
-            // ġ = d(el)/dt - (d mask / d az) d(az)/dt
-            gdot: look.elevation_rate_deg_s - slope * look.azimuth_rate_deg_s,
-            gamma: c.clamp(-1.0, 1.0).acos(),
-            look,
+            g,
+            gdot,
+            cos_gamma: (r[0] * self.obs_unit[0]
+                + r[1] * self.obs_unit[1]
+                + r[2] * self.obs_unit[2])
+                / rn,
+            elevation_deg,
+            elevation_rate_deg_s,
+            range_km,
+            range_rate_km_s: (e * ed + n * nd + u * ud) / range_km,
             r,
             v: s.velocity_km_s,
         })
@@ -183,50 +286,39 @@ impl Search<'_> {
             hu[0] * p[1] - hu[1] * p[0],
         ];
         let w = hn / (rn * rn);
-        let dtau = 30.0;
-        let slack = omega_max * dtau;
-        let m0 = 0.5f64.to_radians();
-        let k = (4.0 * e + 0.01) * w;
-        // Entry is possible at grid time τ iff γ(τ) <= θ(τ) = γc + slack + m0 + k τ, i.e.
-        // cos γ(τ) >= cos θ(τ) (while θ < π); cos θ is advanced by the same recurrence.
-        let theta0 = gamma_cone + slack + m0;
-        let (mut sth, mut cth) = theta0.sin_cos();
-        let (sk, ck) = (k * dtau).sin_cos();
-        let (sw, cw) = (w * dtau).sin_cos();
-        let (se, ce) = (w_e * dtau).sin_cos();
-        let (mut c, mut sn) = (1.0f64, 0.0f64);
-        let mut st = self.obs_unit;
-        let steps = (horizon / dtau).ceil() as usize;
-        for i in 0..=steps {
-            let tau = i as f64 * dtau;
-            if theta0 + k * tau >= std::f64::consts::PI {
-                return tau;
+        let cone = PredictedCone {
+            p,
+            q,
+            station: self.obs_unit,
+            w,
+            gamma_cone,
+            m0: 0.5f64.to_radians(),
+            k: (4.0 * e + 0.01) * w,
+            omega_max,
+        };
+        // A coarse grid of 30 s, then the coarse interval of the first possible entry again at
+        // 3 s (its slack ω_max Δτ is ten times smaller).
+        let coarse = 30.0;
+        let steps = (horizon / coarse).ceil() as usize;
+        match cone.first_entry(0.0, coarse, steps) {
+            None => horizon,
+            Some(0) => 0.0,
+            Some(i) => {
+                let from = (i - 1) as f64 * coarse;
+                let fine = coarse / 10.0;
+                cone.first_entry(from, fine, 10)
+                    .map_or(i as f64 * coarse, |j| from + j as f64 * fine)
             }
-            let u = [
-                c * p[0] + sn * q[0],
-                c * p[1] + sn * q[1],
-                c * p[2] + sn * q[2],
-            ];
-            let cg = u[0] * st[0] + u[1] * st[1] + u[2] * st[2];
-            if cg >= cth {
-                return tau;
-            }
-            // Advance the rotations by one grid step (angle-addition recurrences).
-            let c2 = c * cw - sn * sw;
-            sn = sn * cw + c * sw;
-            c = c2;
-            let cth2 = cth * ck - sth * sk;
-            sth = sth * ck + cth * sk;
-            cth = cth2;
-            // R3(-ω⊕ Δτ): x' = cos x - sin y, y' = sin x + cos y
-            st = [ce * st[0] - se * st[1], se * st[0] + ce * st[1], st[2]];
         }
-        horizon
     }
 
-    /// Root of g between `a` and `b` (g of opposite signs, g(a) <= 0 < g(b) or the reverse).
+    /// Root of g (azimuth-dependent mask: g has corners) between `a` and `b` (g of opposite signs, g(a) <= 0 < g(b) or the reverse).
     /// Returns (root estimate s, sample with g <= 0, sample with g > 0).
-    fn refine_g(&self, a: Sample, b: Sample) -> Result<(f64, Sample, Sample), PropagationError> {
+    fn refine_root_corners(
+        &self,
+        a: Sample,
+        b: Sample,
+    ) -> Result<(f64, Sample, Sample), PropagationError> {
         let (mut neg, mut pos) = if a.g <= 0.0 { (a, b) } else { (b, a) };
         for _ in 0..40 {
             let lo = neg.t.min(pos.t);
@@ -261,12 +353,71 @@ impl Search<'_> {
                 pos = s;
             }
         }
-        let root = if pos.g - neg.g != 0.0 {
-            neg.t - neg.g * (pos.t - neg.t) / (pos.g - neg.g)
+        Ok((secant_root(&neg, &pos), neg, pos))
+    }
+
+    /// Root of g between `a` and `b` (opposite signs): (root, sample with g <= 0, sample with
+    /// g > 0).
+    fn refine_root(&self, a: Sample, b: Sample) -> Result<(f64, Sample, Sample), PropagationError> {
+        if self.azimuth_mask {
+            self.refine_root_corners(a, b)
         } else {
-            0.5 * (neg.t + pos.t)
+            self.refine_root_smooth(a, b)
+        }
+    }
+
+    /// Root of a smooth g (no azimuth-dependent mask) between `a` and `b` (opposite signs).
+    /// Newton steps from the latest sample, kept inside the sign-change bracket (cubic Hermite
+    /// interpolation of the bracket when Newton leaves it, bisection as the last resort). A Newton
+    /// estimate t - g/ġ from a sample at distance δ = |g/ġ| from the root is off by
+    /// |g''| δ² / (2 |ġ|) (Taylor remainder) plus δ times the relative error of ġ (SGP4's velocity
+    /// against the derivative of its position: ~3e-6 for SGP4, ~1e-3 for SDP4): it is accepted
+    /// without a further evaluation when twice that bound, with g'' from the change of ġ between
+    /// the two latest samples, is at most a quarter of [`TIME_TOLERANCE_S`] and δ is below it.
+    /// Returns (root, sample with g <= 0, sample with g > 0).
+    fn refine_root_smooth(
+        &self,
+        a: Sample,
+        b: Sample,
+    ) -> Result<(f64, Sample, Sample), PropagationError> {
+        let (mut neg, mut pos) = if a.g <= 0.0 { (a, b) } else { (b, a) };
+        // The latest sample and the one before (for g''): start from the end nearer the root.
+        let (mut cur, mut other) = if neg.g.abs() < pos.g.abs() {
+            (neg, pos)
+        } else {
+            (pos, neg)
         };
-        Ok((root, neg, pos))
+        for _ in 0..40 {
+            let lo = neg.t.min(pos.t);
+            let hi = neg.t.max(pos.t);
+            let newton = if cur.gdot != 0.0 {
+                cur.t - cur.g / cur.gdot
+            } else {
+                f64::NAN
+            };
+            if newton >= lo && newton <= hi && newton_accepted(&cur, &other) {
+                return Ok((newton, neg, pos));
+            }
+            if hi - lo <= TIME_TOLERANCE_S {
+                break;
+            }
+            let mut tn = newton;
+            if !(tn > lo && tn < hi) {
+                tn = hermite_root(&neg, &pos).unwrap_or(0.5 * (lo + hi));
+            }
+            // Keep away from the bracket ends so that it shrinks.
+            let eps = 0.25 * TIME_TOLERANCE_S;
+            tn = tn.clamp(lo + eps.min(0.5 * (hi - lo)), hi - eps.min(0.5 * (hi - lo)));
+            let s = self.eval(tn)?;
+            if s.g <= 0.0 {
+                neg = s;
+            } else {
+                pos = s;
+            }
+            other = cur;
+            cur = s;
+        }
+        Ok((secant_root(&neg, &pos), neg, pos))
     }
 
     /// The smallest slant range of a pass: the ranges at AOS, TCA and LOS and, where the range
@@ -275,12 +426,8 @@ impl Search<'_> {
     /// no propagation is spent: skipping a zero of |rr| < 0.05 km/s misses at most rr^2 / (2 r'')
     /// ~ 0.02 km of range.
     fn min_range_km(&self, aos: Sample, tca: Sample, los: Sample) -> Result<f64, PropagationError> {
-        let rr = |s: &Sample| s.look.range_rate_km_s;
-        let mut best = aos
-            .look
-            .range_km
-            .min(tca.look.range_km)
-            .min(los.look.range_km);
+        let rr = |s: &Sample| s.range_rate_km_s;
+        let mut best = aos.range_km.min(tca.range_km).min(los.range_km);
         if rr(&tca).abs() < 0.05 {
             return Ok(best);
         }
@@ -295,7 +442,7 @@ impl Search<'_> {
             // Regula falsi: t = t_a - rr_a (t_b - t_a) / (rr_b - rr_a)
             let t = a.t - rr(&a) * (b.t - a.t) / (rr(&b) - rr(&a));
             let s = self.eval(t.clamp(a.t, b.t))?;
-            best = best.min(s.look.range_km);
+            best = best.min(s.range_km);
             if rr(&s).abs() < 1e-4 {
                 break;
             }
@@ -308,53 +455,273 @@ impl Search<'_> {
         Ok(best)
     }
 
-    /// Zero of the elevation rate between `a` (rate > 0) and `b` (rate <= 0): the local
-    /// maximum of elevation. Illinois-modified regula falsi on the rate.
+    /// The local maximum of elevation between `a` (rate > 0) and `b` (rate <= 0).
     fn refine_tca(&self, a: Sample, b: Sample) -> Result<Sample, PropagationError> {
-        let rate = |s: &Sample| s.look.elevation_rate_deg_s;
+        if self.positions_for_tca {
+            self.refine_tca_positions(a, b)
+        } else {
+            self.refine_tca_rates(a, b)
+        }
+    }
+
+    /// TCA from SGP4's elevation rate (near-Earth: its velocity is the derivative of its position
+    /// within ~2e-5 km/s, an elevation-rate error that moves TCA by < 1e-3 s for the elevation
+    /// curvatures of LEO passes). Each step evaluates at the maximum of the cubic Hermite
+    /// interpolant of the bracket (elevation and rate at both ends), the bracket shrinking to the
+    /// sign change of the rate; the sample is the TCA when the next predicted maximum lies within
+    /// half of [`TIME_TOLERANCE_S`] of it.
+    fn refine_tca_rates(&self, a: Sample, b: Sample) -> Result<Sample, PropagationError> {
+        let rate = |s: &Sample| s.elevation_rate_deg_s;
         let (mut up, mut down) = (a, b);
-        let (mut fu, mut fd) = (rate(&up), rate(&down));
-        let mut side = 0i8;
+        let mut last: Option<Sample> = None;
         for _ in 0..40 {
-            if (down.t - up.t).abs() <= TIME_TOLERANCE_S {
-                break;
-            }
-            let mut tn = up.t - fu * (down.t - up.t) / (fd - fu);
             let lo = up.t.min(down.t);
             let hi = up.t.max(down.t);
-            if !(tn > lo && tn < hi) {
-                tn = 0.5 * (lo + hi);
+            let predicted = hermite_max(&up, &down)
+                .unwrap_or_else(|| up.t - rate(&up) * (down.t - up.t) / (rate(&down) - rate(&up)));
+            if let Some(l) = last {
+                if (predicted - l.t).abs() <= 0.5 * TIME_TOLERANCE_S {
+                    return Ok(l);
+                }
             }
+            if hi - lo <= TIME_TOLERANCE_S {
+                break;
+            }
+            let mut tn = if predicted > lo && predicted < hi {
+                predicted
+            } else {
+                0.5 * (lo + hi)
+            };
             // Keep away from the ends so the bracket shrinks on both sides.
             let eps = 0.25 * TIME_TOLERANCE_S;
             tn = tn.clamp(lo + eps, hi - eps);
             let s = self.eval(tn)?;
             if rate(&s) > 0.0 {
                 up = s;
-                fu = rate(&s);
-                if side == 1 {
-                    fd *= 0.5;
-                }
-                side = 1;
             } else {
                 down = s;
-                fd = rate(&s);
-                if side == -1 {
-                    fu *= 0.5;
-                }
-                side = -1;
             }
+            last = Some(s);
         }
-        Ok(if up.look.elevation_deg >= down.look.elevation_deg {
-            up
-        } else {
-            down
-        })
+        Ok(better(up, down))
+    }
+
+    /// TCA from positions only (deep space): Newton steps on the elevation with its first and
+    /// second derivatives taken by central differences over ±[`TCA_DIFFERENCE_STEP_S`], from
+    /// the maximum of the Hermite interpolant of the bracket (SGP4's rates there only start
+    /// the iteration). The middle sample is the TCA once the Newton step is below half of
+    /// [`TIME_TOLERANCE_S`]. The iteration may leave the bracket by a tenth of its width plus
+    /// 60 s, since the bracket's rates are SDP4's (off by up to several seconds of TCA).
+    fn refine_tca_positions(&self, a: Sample, b: Sample) -> Result<Sample, PropagationError> {
+        let h = TCA_DIFFERENCE_STEP_S;
+        let lo = a.t.min(b.t);
+        let hi = a.t.max(b.t);
+        let widen = 0.1 * (hi - lo) + 60.0;
+        let mut t = hermite_max(&a, &b).unwrap_or(0.5 * (lo + hi));
+        let mut best = better(a, b);
+        for _ in 0..20 {
+            let m = self.eval(t - h)?;
+            let c = self.eval(t)?;
+            let p = self.eval(t + h)?;
+            best = better(best, c);
+            let d1 = (p.elevation_deg - m.elevation_deg) / (2.0 * h);
+            let d2 = (p.elevation_deg - 2.0 * c.elevation_deg + m.elevation_deg) / (h * h);
+            let step = if d2 < 0.0 {
+                -d1 / d2
+            } else {
+                // Not concave here: move uphill by a tenth of the bracket.
+                d1.signum() * 0.1 * (hi - lo).max(10.0 * h)
+            };
+            if d2 < 0.0 && step.abs() <= 0.5 * TIME_TOLERANCE_S {
+                return Ok(c);
+            }
+            t = (t + step).clamp(lo - widen, hi + widen);
+        }
+        Ok(best)
     }
 }
 
+/// The circular-orbit prediction of `Search::predicted_skip`: satellite direction
+/// u(τ) = cos(wτ) P + sin(wτ) Q, station direction s(τ) = R3(-ω⊕ τ) ŝ, visibility cone γc,
+/// error margin m0 + k τ and the rate bound ω_max.
+struct PredictedCone {
+    p: [f64; 3],
+    q: [f64; 3],
+    station: [f64; 3],
+    w: f64,
+    gamma_cone: f64,
+    m0: f64,
+    k: f64,
+    omega_max: f64,
+}
+
+impl PredictedCone {
+    /// Index i of the first grid point τ_i = `from` + i `dtau` (i <= `steps`) from which the
+    /// satellite may enter the cone before τ_i + `dtau`: γ(τ_i) <= θ = γc + ω_max dtau + m0 +
+    /// k (τ_i + dtau), i.e. cos γ(τ_i) >= cos θ (θ < π); `None` if there is none.
+    fn first_entry(&self, from: f64, dtau: f64, steps: usize) -> Option<usize> {
+        let w_e = EARTH_ROTATION_RAD_S;
+        let theta_at =
+            |tau: f64| self.gamma_cone + self.omega_max * dtau + self.m0 + self.k * (tau + dtau);
+        let (mut sn, mut c) = (self.w * from).sin_cos();
+        let (se0, ce0) = (w_e * from).sin_cos();
+        let s0 = self.station;
+        // R3(-ω⊕ τ): x' = cos x - sin y, y' = sin x + cos y
+        let mut st = [ce0 * s0[0] - se0 * s0[1], se0 * s0[0] + ce0 * s0[1], s0[2]];
+        let (mut sth, mut cth) = theta_at(from).sin_cos();
+        let (sk, ck) = (self.k * dtau).sin_cos();
+        let (sw, cw) = (self.w * dtau).sin_cos();
+        let (se, ce) = (w_e * dtau).sin_cos();
+        let (p, q) = (&self.p, &self.q);
+        for i in 0..=steps {
+            if theta_at(from + i as f64 * dtau) >= std::f64::consts::PI {
+                return Some(i);
+            }
+            let u = [
+                c * p[0] + sn * q[0],
+                c * p[1] + sn * q[1],
+                c * p[2] + sn * q[2],
+            ];
+            if u[0] * st[0] + u[1] * st[1] + u[2] * st[2] >= cth {
+                return Some(i);
+            }
+            // Advance the rotations by one grid step (angle-addition recurrences).
+            let c2 = c * cw - sn * sw;
+            sn = sn * cw + c * sw;
+            c = c2;
+            let cth2 = cth * ck - sth * sk;
+            sth = sth * ck + cth * sk;
+            cth = cth2;
+            st = [ce * st[0] - se * st[1], se * st[0] + ce * st[1], st[2]];
+        }
+        None
+    }
+}
+
+/// Root of the secant of g through `neg` and `pos` (their midpoint when g is equal at both).
+fn secant_root(neg: &Sample, pos: &Sample) -> f64 {
+    if pos.g - neg.g != 0.0 {
+        neg.t - neg.g * (pos.t - neg.t) / (pos.g - neg.g)
+    } else {
+        0.5 * (neg.t + pos.t)
+    }
+}
+
+/// Acceptance test of the Newton estimate from `cur` (see `Search::refine_root_smooth`): with
+/// δ = |g/ġ| and g'' estimated from the change of ġ between `other` and `cur`, the bound
+/// 2 (|g''| δ² / (2 |ġ|) + 1e-3 δ) must be at most [`TIME_TOLERANCE_S`] / 4.
+fn newton_accepted(cur: &Sample, other: &Sample) -> bool {
+    let dt = cur.t - other.t;
+    if cur.gdot == 0.0 || dt.abs() < 1e-3 {
+        return false;
+    }
+    let delta = (cur.g / cur.gdot).abs();
+    let g2 = ((cur.gdot - other.gdot) / dt).abs();
+    let bound = 2.0 * (g2 * delta * delta / (2.0 * cur.gdot.abs()) + 1e-3 * delta);
+    delta <= TIME_TOLERANCE_S && bound <= 0.25 * TIME_TOLERANCE_S
+}
+
+/// The visibility cone for the predicted skip from sample `s` (e < 0.05): γc for the largest
+/// radius the satellite can reach within the skip's horizon (1.5 periods), the sample's radius
+/// plus the swing 2 a (e + 0.002) + 5 km (perigee to apogee, plus a change of e of 0.002 from
+/// the long-period terms and drag and 5 km for SGP4's short-period radial term, whose amplitude
+/// k2 / (2p) is ~1.6 km for a LEO), never above the global r_max.
+fn local_cone(s: &Sample, lim: &SearchLimits) -> f64 {
+    let rn = (s.r[0] * s.r[0] + s.r[1] * s.r[1] + s.r[2] * s.r[2]).sqrt();
+    let r = (rn + lim.radius_swing_km).min(lim.r_max_km);
+    if lim.cone_eps <= -89.9f64.to_radians() {
+        std::f64::consts::PI
+    } else {
+        ((lim.station_r_km * lim.cone_eps.cos() / r).clamp(-1.0, 1.0)).acos() - lim.cone_eps
+    }
+}
+
+/// Time (s) before which the elevation cannot reach the lowest mask elevation from the sample:
+/// the line of sight turns at most at |v|/ρ, with |v| <= v_max and ρ(τ) >= ρ0 - v_max τ, so
+/// in τ it turns by at most ln(ρ0 / (ρ0 - v_max τ)) rad, and the elevation changes by no more
+/// than that angle. Reaching a rise Δ takes τ >= (ρ0 / v_max)(1 - e^-Δ). 0 when Δ <= 0.
+fn elevation_bound_s(s: &Sample, lim: &SearchLimits) -> f64 {
+    let rise_rad = (lim.lowest_mask_deg - s.elevation_deg).to_radians();
+    if rise_rad <= 0.0 {
+        return 0.0;
+    }
+    s.range_km / lim.v_max_km_s * (1.0 - (-rise_rad).exp())
+}
+
+/// Cubic Hermite interpolation on [t0, t1] of values y and slopes m: the polynomial's
+/// coefficients in s = (t - t0) / (t1 - t0): p(s) = c0 + c1 s + c2 s² + c3 s³.
+fn hermite(t0: f64, y0: f64, m0: f64, t1: f64, y1: f64, m1: f64) -> [f64; 4] {
+    let h = t1 - t0;
+    let (d0, d1) = (h * m0, h * m1);
+    [
+        y0,
+        d0,
+        3.0 * (y1 - y0) - 2.0 * d0 - d1,
+        2.0 * (y0 - y1) + d0 + d1,
+    ]
+}
+
+/// Root of the cubic Hermite interpolant of g through `a` and `b` (g of opposite signs): Newton
+/// on the polynomial from the secant root, inside the bracket; `None` if it does not converge.
+fn hermite_root(a: &Sample, b: &Sample) -> Option<f64> {
+    let c = hermite(a.t, a.g, a.gdot, b.t, b.g, b.gdot);
+    let mut s = if b.g != a.g { a.g / (a.g - b.g) } else { 0.5 };
+    for _ in 0..12 {
+        let p = c[0] + s * (c[1] + s * (c[2] + s * c[3]));
+        let dp = c[1] + s * (2.0 * c[2] + s * 3.0 * c[3]);
+        if dp == 0.0 {
+            return None;
+        }
+        let next = s - p / dp;
+        if !(0.0..=1.0).contains(&next) {
+            return None;
+        }
+        if (next - s).abs() < 1e-12 {
+            return Some(a.t + next * (b.t - a.t));
+        }
+        s = next;
+    }
+    Some(a.t + s * (b.t - a.t))
+}
+
+/// Maximum of the cubic Hermite interpolant of elevation (values and rates) through `up`
+/// (rate > 0) and `down` (rate <= 0): the zero of its derivative where the second derivative
+/// is negative, inside the bracket; `None` if there is none.
+fn hermite_max(up: &Sample, down: &Sample) -> Option<f64> {
+    let c = hermite(
+        up.t,
+        up.elevation_deg,
+        up.elevation_rate_deg_s,
+        down.t,
+        down.elevation_deg,
+        down.elevation_rate_deg_s,
+    );
+    // p'(s) = c1 + 2 c2 s + 3 c3 s²
+    let (qa, qb, qc) = (3.0 * c[3], 2.0 * c[2], c[1]);
+    let s = if qa.abs() < 1e-14 * (qb.abs() + qc.abs()) {
+        (qb != 0.0).then(|| -qc / qb)?
+    } else {
+        let disc = qb * qb - 4.0 * qa * qc;
+        if disc < 0.0 {
+            return None;
+        }
+        let sq = disc.sqrt();
+        // Of the two roots, the one where p'' = 2 qa s + qb is negative (a maximum).
+        let r1 = (-qb + sq) / (2.0 * qa);
+        let r2 = (-qb - sq) / (2.0 * qa);
+        if 2.0 * qa * r1 + qb < 0.0 {
+            r1
+        } else {
+            r2
+        }
+    };
+    (0.0..=1.0)
+        .contains(&s)
+        .then_some(up.t + s * (down.t - up.t))
+}
+
 fn better(a: Sample, b: Sample) -> Sample {
-    if b.look.elevation_deg > a.look.elevation_deg {
+    if b.elevation_deg > a.elevation_deg {
         b
     } else {
         a
@@ -394,6 +761,20 @@ struct SearchLimits {
     cap_s: f64,
     /// Horizon of the predicted skip, s.
     horizon_s: f64,
+    /// Largest predicted step of the walk inside a pass (`Search::walk_step`), s.
+    predicted_cap_s: f64,
+    /// Bound on the satellite's Earth-fixed speed, km/s: vis-viva at the lowest perigee for the
+    /// largest semi-major axis, plus ω⊕ r_max.
+    v_max_km_s: f64,
+    /// Lowest mask elevation, deg.
+    lowest_mask_deg: f64,
+    /// Station geocentric radius (km) and the cone's elevation ε (rad).
+    station_r_km: f64,
+    cone_eps: f64,
+    /// r_max (km) and the bound on the radius swing over the predicted skip's horizon,
+    /// 2 a (e + 0.002) + 5 km (see `Search::local_cone`).
+    r_max_km: f64,
+    radius_swing_km: f64,
 }
 
 /// Unit vector of the station's geocentric direction, its geocentric radius (km) and δ, the
@@ -441,6 +822,15 @@ fn search_limits(
         e,
         cap_s: (prop.period_minutes() * 60.0 / 32.0).clamp(60.0, 3600.0),
         horizon_s: 1.5 * prop.period_minutes() * 60.0,
+        predicted_cap_s: prop.period_minutes() * 60.0 / 6.0,
+        // v² = μ (2 / r_p - 1 / a) at the lowest perigee and the largest semi-major axis
+        v_max_km_s: (WGS72_MU_KM3_S2 * (2.0 / r_p_min - 1.0 / a_max)).sqrt()
+            + EARTH_ROTATION_RAD_S * r_max,
+        lowest_mask_deg: mask.lowest_limit_deg(),
+        station_r_km: station_r,
+        cone_eps: eps,
+        r_max_km: r_max,
+        radius_swing_km: 2.0 * a * (e + 0.002) + 5.0,
     }
 }
 
@@ -468,20 +858,33 @@ struct LosWalk {
 }
 
 impl Search<'_> {
-    /// Step below the mask (method steps 1 and 2): skip ahead outside the visibility cone,
-    /// else sample at [`FLOOR_STEP_S`].
+    /// Step below the mask (method steps 1 and 2): skip ahead outside the visibility cone, else
+    /// sample at [`FLOOR_STEP_S`] (shortened to land just past the AOS that a Newton step on a
+    /// rising smooth g predicts, so that the AOS is refined from a near sample). Both are
+    /// lengthened to the time the elevation needs to reach the lowest mask elevation at the
+    /// largest angular rate of the line of sight (see `elevation_bound_s`).
     fn step_below_mask(&self, s: &Sample, lim: &SearchLimits) -> f64 {
-        if s.gamma > lim.gamma_cone {
-            let linear = (s.gamma - lim.gamma_cone) / lim.omega_max;
+        let gamma = s.gamma();
+        let local = if lim.e < 0.05 {
+            local_cone(s, lim)
+        } else {
+            lim.gamma_cone
+        };
+        let step = if gamma > local {
+            let linear = ((gamma - lim.gamma_cone) / lim.omega_max).max(0.0);
             let predicted = if lim.e < 0.05 {
-                self.predicted_skip(s, lim.gamma_cone, lim.omega_max, lim.e, lim.horizon_s)
+                self.predicted_skip(s, local, lim.omega_max, lim.e, lim.horizon_s)
             } else {
                 0.0
             };
             linear.max(predicted).max(FLOOR_STEP_S)
+        } else if !self.azimuth_mask && s.gdot > 0.0 {
+            // Newton: t - g/ġ; 5 % + 0.2 s past it.
+            FLOOR_STEP_S.min(-s.g / s.gdot * 1.05 + 0.2)
         } else {
             FLOOR_STEP_S
-        }
+        };
+        step.max(elevation_bound_s(s, lim)).max(TIME_TOLERANCE_S)
     }
 
     /// AOS of the pass entered at sample `s` (g > 0) from `prev` (g <= 0): (AOS time, sample
@@ -494,37 +897,63 @@ impl Search<'_> {
     ) -> Result<(f64, Sample, Sample), PropagationError> {
         Ok(match prev {
             Some(pr) => {
-                let (root, neg, pos) = self.refine_g(pr, s)?;
+                let (root, neg, pos) = self.refine_root(pr, s)?;
                 (root, nearer(root, neg, pos), pos)
             }
             None => (0.0, s, s),
         })
     }
 
-    /// Step of the walk inside a pass from `cur` (`last` is the sample before): the cap, cut
-    /// to a Newton prediction of the LOS when g falls and to a prediction of the elevation
-    /// maximum when the elevation rate slows.
+    /// Step of the walk inside a pass from `cur` (`last` is the sample before, `aos_t` the AOS,
+    /// `tca` the refined maximum once passed). Predicted steps (`predicted_walk`: near-Earth,
+    /// e < 0.05, mask without azimuth dependence, where the elevation has one maximum per
+    /// pass): the first step after the AOS aims 10 % past the closest approach of a straight
+    /// line at the sample's velocity (τ = -ρ ρ̇ / |v|²), the step after the maximum 3 % + 1 s past
+    /// the AOS mirrored about it; both at most a sixth of the period. Otherwise, or after those:
+    /// the cap, cut to a Newton prediction of the LOS when g falls and to a prediction of the
+    /// elevation maximum when the elevation rate slows.
     #[inline]
     fn walk_step(
+        &self,
         cur: &Sample,
         last: Option<Sample>,
-        starts_before: bool,
+        aos_t: Option<f64>,
+        tca: Option<Sample>,
         lim: &SearchLimits,
     ) -> f64 {
+        if self.predicted_walk {
+            match (aos_t, tca, last) {
+                (Some(aos_t), Some(tca), _) => {
+                    let target = tca.t + (tca.t - aos_t) * 1.03 + 1.0;
+                    if target > cur.t + TIME_TOLERANCE_S {
+                        return (target - cur.t).min(lim.predicted_cap_s);
+                    }
+                }
+                (Some(_), None, None) if cur.elevation_rate_deg_s > 0.0 => {
+                    let v = cur.v;
+                    let v2 = v[0] * v[0] + v[1] * v[1] + v[2] * v[2];
+                    let tau = -cur.range_km * cur.range_rate_km_s / v2;
+                    if tau > 0.0 {
+                        return (tau * 1.1 + 1.0).clamp(TIME_TOLERANCE_S, lim.predicted_cap_s);
+                    }
+                }
+                _ => {}
+            }
+        }
         let mut dt = lim.cap_s;
         if cur.gdot < 0.0 {
             dt = dt.min(-cur.g / cur.gdot * 1.05 + TIME_TOLERANCE_S);
         }
-        let rate = cur.look.elevation_rate_deg_s;
+        let rate = cur.elevation_rate_deg_s;
         if rate > 0.0 {
             if let Some(l) = last {
-                let acc = (rate - l.look.elevation_rate_deg_s) / (cur.t - l.t);
+                let acc = (rate - l.elevation_rate_deg_s) / (cur.t - l.t);
                 if acc < 0.0 {
                     dt = dt.min(-rate / acc * 1.2 + TIME_TOLERANCE_S);
                 }
             }
         }
-        if last.is_none() && !starts_before {
+        if last.is_none() && aos_t.is_some() {
             // First step after AOS: the time to TCA is unknown; a quarter of the cap
             // starts the curvature estimate of the elevation rate early.
             dt = dt.min(0.25 * lim.cap_s);
@@ -537,30 +966,31 @@ impl Search<'_> {
     fn walk_to_los(
         &self,
         first_in: Sample,
-        starts_before: bool,
+        aos_t: Option<f64>,
         lim: &SearchLimits,
     ) -> Result<LosWalk, PropagationError> {
         let mut best = first_in;
         let mut cur = first_in;
         let mut last: Option<Sample> = None;
+        let mut tca: Option<Sample> = None;
+        let rising = |s: &Sample| s.elevation_rate_deg_s > 0.0;
         let (los_t, los_s, after_los, ends_after) = loop {
-            let dt = Self::walk_step(&cur, last, starts_before, lim);
+            let dt = self.walk_step(&cur, last, aos_t, tca, lim);
             let tn = (cur.t + dt).min(lim.total_s);
             let nxt = self.eval(tn)?;
             if nxt.g <= 0.0 {
-                let (root, neg, pos) = self.refine_g(cur, nxt)?;
+                let (root, neg, pos) = self.refine_root(cur, nxt)?;
                 // A maximum between cur and the LOS bracket end.
-                if cur.look.elevation_rate_deg_s > 0.0
-                    && pos.look.elevation_rate_deg_s <= 0.0
-                    && pos.t > cur.t
-                {
+                if rising(&cur) && !rising(&pos) && pos.t > cur.t {
                     best = better(best, self.refine_tca(cur, pos)?);
                 }
                 best = better(best, pos);
                 break (root, nearer(root, neg, pos), neg, false);
             }
-            if cur.look.elevation_rate_deg_s > 0.0 && nxt.look.elevation_rate_deg_s <= 0.0 {
-                best = better(best, self.refine_tca(cur, nxt)?);
+            if rising(&cur) && !rising(&nxt) {
+                let m = self.refine_tca(cur, nxt)?;
+                tca = Some(tca.map_or(m, |t| better(t, m)));
+                best = better(best, m);
             }
             best = better(best, nxt);
             if tn >= lim.total_s {
@@ -584,7 +1014,7 @@ impl Search<'_> {
     /// `None` after one orbital period or a propagation error (the pass keeps its in-window TCA;
     /// an error outside the window does not stop the search inside it).
     fn tca_beyond(&self, edge: Sample, lim: &SearchLimits) -> Option<Sample> {
-        let dir = if edge.look.elevation_rate_deg_s < 0.0 {
+        let dir = if edge.elevation_rate_deg_s < 0.0 {
             -1.0
         } else {
             1.0
@@ -593,7 +1023,7 @@ impl Search<'_> {
         let mut cur = edge;
         for _ in 0..steps {
             let nxt = self.eval(cur.t + dir * lim.cap_s).ok()?;
-            if dir * nxt.look.elevation_rate_deg_s <= 0.0 {
+            if dir * nxt.elevation_rate_deg_s <= 0.0 {
                 let (up, down) = if dir > 0.0 { (cur, nxt) } else { (nxt, cur) };
                 return self.refine_tca(up, down).ok();
             }
@@ -612,14 +1042,14 @@ impl Search<'_> {
     ) -> Result<(Pass, Sample), PropagationError> {
         let (aos_t, aos_s, first_in) = self.refine_aos(prev, s)?;
         let starts_before = prev.is_none();
-        let walk = self.walk_to_los(first_in, starts_before, lim)?;
+        let walk = self.walk_to_los(first_in, (!starts_before).then_some(aos_t), lim)?;
         let tca = if starts_before {
             better(walk.best, s)
         } else {
             walk.best
         };
         let min_range_km = self.min_range_km(aos_s, tca, walk.los_s)?;
-        let rate = tca.look.elevation_rate_deg_s;
+        let rate = tca.elevation_rate_deg_s;
         let beyond = if (starts_before && rate < 0.0) || (walk.ends_after && rate > 0.0) {
             self.tca_beyond(tca, lim)
         } else {
@@ -630,10 +1060,10 @@ impl Search<'_> {
             tca: add_seconds(&self.start, tca.t),
             full_tca: add_seconds(&self.start, beyond.map_or(tca.t, |b| b.t)),
             los: add_seconds(&self.start, walk.los_t),
-            max_elevation_deg: tca.look.elevation_deg,
-            aos_azimuth_deg: aos_s.look.azimuth_deg,
-            tca_azimuth_deg: tca.look.azimuth_deg,
-            los_azimuth_deg: walk.los_s.look.azimuth_deg,
+            max_elevation_deg: tca.elevation_deg,
+            aos_azimuth_deg: aos_s.look(self.obs).azimuth_deg,
+            tca_azimuth_deg: tca.look(self.obs).azimuth_deg,
+            los_azimuth_deg: walk.los_s.look(self.obs).azimuth_deg,
             min_range_km,
             starts_before_window: starts_before,
             ends_after_window: walk.ends_after,
@@ -658,12 +1088,19 @@ fn search(
     }
     let (obs_unit, station_r, delta) = station_direction(obs);
     let lim = search_limits(prop, mask, station_r, delta, total);
+    let azimuth_mask = mask.needs_azimuth();
     let srch = Search {
         prop,
         obs,
         mask,
         start,
         obs_unit,
+        epoch_offset_min: seconds_between(&prop.epoch(), &start) / 60.0,
+        start_days_j2000: days_since_j2000(&start),
+        azimuth_mask,
+        flat_limit_deg: mask.lowest_limit_deg(),
+        positions_for_tca: prop.is_deep_space(),
+        predicted_walk: !azimuth_mask && !prop.is_deep_space() && lim.e < 0.05,
     };
     let mut s = srch.eval(0.0)?;
     let mut prev: Option<Sample> = None;

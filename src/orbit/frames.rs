@@ -70,8 +70,19 @@ pub fn gmst_rad(days_ut1_since_j2000: f64) -> f64 {
         + 0.093104 * tut1 * tut1
         + (876_600.0 * 3600.0 + 8_640_184.812_866) * tut1
         + 67_310.548_41;
-    // θ = GMST · (π/180) / 240 mod 2π
-    (gmst_s * std::f64::consts::PI / 180.0 / 240.0).rem_euclid(std::f64::consts::TAU)
+    // θ = GMST · (π/180) / 240 mod 2π. The wrap is done on the seconds of time, modulo one
+    // turn (86400 s): subtracting a whole number of turns from a value whose last bit is
+    // ~1e-7 s is exact, and a floor is much cheaper than `rem_euclid` on an angle of ~1e5 rad.
+    let mut within_turn_s = gmst_s - 86_400.0 * (gmst_s / 86_400.0).floor();
+    if within_turn_s < 0.0 {
+        within_turn_s += 86_400.0;
+    }
+    let theta = within_turn_s * (std::f64::consts::PI / 43_200.0);
+    if theta >= std::f64::consts::TAU {
+        theta - std::f64::consts::TAU
+    } else {
+        theta
+    }
 }
 
 /// TEME -> pseudo-Earth-fixed at Greenwich sidereal angle `gmst_rad`:

@@ -85,8 +85,10 @@ pub struct Propagator {
     semi_major_axis_km: f64,
     eccentricity: f64,
     period_minutes: f64,
-    /// SGP4's near-Earth branch (Brouwer mean motion above 2 pi / 225 min), not SDP4.
-    near_earth: bool,
+    /// Microseconds from the epoch to the first and the last representable date.
+    representable_us: (i64, i64),
+    /// SDP4 (deep-space) branch.
+    deep_space: bool,
 }
 
 impl std::fmt::Debug for Propagator {
@@ -121,9 +123,8 @@ impl Propagator {
             e.mean_motion * (std::f64::consts::PI / 720.0),
         )
         .map_err(|err| invalid(err.to_string()))?;
-        // The crate's own test for its near-Earth branch (AIAA 2006-6753 `sgp4init`: period
-        // below 225 min from the un-Kozai'd mean motion).
-        let near_earth = orbit.mean_motion > 2.0 * std::f64::consts::PI / 225.0;
+        // The crate's own branch test (Brouwer mean motion, rad/min, against 2π / 225 min).
+        let deep_space = orbit.mean_motion <= std::f64::consts::TAU / 225.0;
         let constants = sgp4::Constants::new(
             sgp4::WGS72,
             sgp4::iau_epoch_to_sidereal_time,
@@ -145,8 +146,15 @@ impl Propagator {
             semi_major_axis_km,
             eccentricity: e.eccentricity,
             period_minutes: 1440.0 / e.mean_motion,
-            near_earth,
+            representable_us: representable_us(set.epoch),
+            deep_space,
         })
+    }
+
+    /// The SDP4 branch (period of 225 min or more): lunar-solar terms; its velocity is not the
+    /// time derivative of its position (AIAA 2006-6753 leaves the long-period rates out of it).
+    pub fn is_deep_space(&self) -> bool {
+        self.deep_space
     }
 
     pub fn norad_id(&self) -> u64 {
@@ -179,7 +187,7 @@ impl Propagator {
     /// Whether SGP4 runs its near-Earth branch (period below 225 min); `false` for SDP4, whose
     /// velocity is not exactly the derivative of its position (the lunar-solar terms).
     pub fn is_near_earth(&self) -> bool {
-        self.near_earth
+        !self.deep_space
     }
 
     /// Number of SGP4 evaluations made so far.
@@ -200,22 +208,22 @@ impl Propagator {
     /// TEME state `minutes` after epoch (negative = before).
     pub fn propagate_minutes(&self, minutes: f64) -> Result<TemeState, PropagationError> {
         self.count.set(self.count.get() + 1);
-        // The UTC time of `minutes`; it must be a representable date (an OMM epoch may lie
-        // near the end of the calendar range, where adding minutes would overflow).
-        let at = (minutes.is_finite() && minutes.abs() <= 1.0e9)
-            .then(|| {
-                let us = (minutes * 60.0 * 1e6).round() as i64;
-                self.epoch
-                    .checked_add_signed(chrono::Duration::microseconds(us))
-            })
-            .flatten();
-        let Some(at) = at else {
+        // The UTC time of `minutes` must be a representable date (an OMM epoch may lie near the
+        // end of the calendar range, where adding minutes would overflow). The range is kept in
+        // whole microseconds from the epoch, so the check needs no date arithmetic; the date
+        // itself is made only for an error message.
+        let us = (minutes * 60.0 * 1e6).round();
+        if !(minutes.is_finite()
+            && minutes.abs() <= 1.0e9
+            && us >= self.representable_us.0 as f64
+            && us <= self.representable_us.1 as f64)
+        {
             return Err(PropagationError::TimeOutOfRange {
                 norad_id: self.norad_id,
                 minutes,
             });
-        };
-        let time = || at;
+        }
+        let time = || self.epoch + chrono::Duration::microseconds(us as i64);
         let result = match self.initial_resonance {
             None => {
                 self.constants
@@ -280,6 +288,18 @@ impl Propagator {
     pub fn ecef_at(&self, t: &DateTime<Utc>) -> Result<EcefState, PropagationError> {
         Ok(teme_to_ecef(&self.state_at(t)?, t))
     }
+}
+
+/// Microseconds from `epoch` to the first and the last date chrono can represent (saturated at
+/// the i64 range: the propagation itself refuses |minutes| > 1e9 first).
+fn representable_us(epoch: DateTime<Utc>) -> (i64, i64) {
+    let before = (DateTime::<Utc>::MIN_UTC - epoch)
+        .num_microseconds()
+        .unwrap_or(i64::MIN);
+    let after = (DateTime::<Utc>::MAX_UTC - epoch)
+        .num_microseconds()
+        .unwrap_or(i64::MAX);
+    (before, after)
 }
 
 #[cfg(test)]

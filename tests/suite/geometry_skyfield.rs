@@ -147,3 +147,52 @@ fn passes_match_skyfield() {
     }
     eprintln!("worst pass time {worst_t:.4} s, max elevation {worst_el:e} deg; {} propagations for 2 days", found.propagations);
 }
+
+/// TCA on an eccentric deep-space orbit: the invented MOLNIYA-DEMO (12 h, e = 0.72) over an
+/// invented station, against the maximum of Skyfield's altitude (Skyfield 1.55 + python-sgp4
+/// 2.27, positions only; tests/data/geometry/eccentric_tca_skyfield.csv, made by
+/// make_eccentric_tca_reference.py beside it). SDP4's velocity is not the derivative of its
+/// position (~1.4e-3 km/s apart here), so a TCA taken where an elevation rate built from that
+/// velocity vanishes is seconds off; the search refines on positions (0.05 s: issue target).
+#[test]
+fn eccentric_orbit_tca_matches_skyfield() {
+    let rows = read_csv("geometry/eccentric_tca_skyfield.csv");
+    let text = std::fs::read_to_string(format!(
+        "{}/tests/data/geometry/eccentric_tca_skyfield.csv",
+        env!("CARGO_MANIFEST_DIR")
+    ))
+    .unwrap();
+    let header = text.lines().nth(1).unwrap();
+    let (l1, l2) = header
+        .trim_start_matches("# Invented MOLNIYA-DEMO (99904): ")
+        .split_once(" / ")
+        .unwrap();
+    let sets = passbudget::orbit::parse_elements(&format!("MOLNIYA-DEMO\n{l1}\n{l2}\n")).unwrap();
+    let prop = Propagator::new(&sets[0]).unwrap();
+    assert!(prop.is_deep_space());
+    let obs = Observer::new(55.0, 37.0, 200.0).unwrap();
+    let origin = utc(2026, 12, 1, 12, 0, 0);
+    let found = find_passes(
+        &prop,
+        &obs,
+        &HorizonMask::flat(10.0).unwrap(),
+        origin,
+        add_seconds(&origin, 3.0 * 86400.0),
+    );
+    assert!(found.stopped.is_none());
+    assert_eq!(found.passes.len(), rows.len(), "{:#?}", found.passes);
+    let (mut worst_tca, mut worst_root, mut worst_el) = (0f64, 0f64, 0f64);
+    for (p, r) in found.passes.iter().zip(&rows) {
+        let tca = (seconds_between(&origin, &p.tca) - r.num("tca_s")).abs();
+        let aos = (seconds_between(&origin, &p.aos) - r.num("aos_s")).abs();
+        let los = (seconds_between(&origin, &p.los) - r.num("los_s")).abs();
+        let el = (p.max_elevation_deg - r.num("max_elevation_deg")).abs();
+        assert!(tca < 0.05, "TCA {} vs Skyfield {} s", p.tca, r.num("tca_s"));
+        assert!(aos < 0.05 && los < 0.05, "AOS/LOS off by {aos} / {los} s");
+        assert!(el < 1e-3, "max elevation off by {el} deg");
+        worst_tca = worst_tca.max(tca);
+        worst_root = worst_root.max(aos).max(los);
+        worst_el = worst_el.max(el);
+    }
+    eprintln!("eccentric orbit: worst TCA {worst_tca:.4} s, AOS/LOS {worst_root:.4} s, max elevation {worst_el:e} deg; {} propagations for 3 days", found.propagations);
+}

@@ -151,6 +151,66 @@ fn propagation_budget_leo_seven_days() {
     }
 }
 
+/// Propagations per satellite-day of the pass search over the grid of the issue: stations at
+/// 0, 45 and 61 deg latitude, flat masks of 0, 5 and 10 deg, 7 days, for WRENLET-1 and three
+/// invented LEO variants (400 km at 51.6 deg, 800 km sun-synchronous, 1200 km at 65 deg).
+/// Returns (average over all, average for WRENLET-1).
+fn grid_propagations_per_day() -> (f64, f64) {
+    let t0 = utc(2026, 12, 1, 12, 0, 0);
+    let days = 7.0;
+    let base = load_elements(Path::new("examples/sat.tle"))
+        .unwrap()
+        .remove(0);
+    // (mean motion rev/day, inclination deg, RAAN deg)
+    let orbits = [
+        (
+            base.elements.mean_motion,
+            base.elements.inclination,
+            base.elements.right_ascension,
+        ),
+        (15.50, 51.6, 30.0),
+        (14.28, 98.6, 150.0),
+        (13.30, 65.0, 270.0),
+    ];
+    let (mut all, mut first, mut n) = (0.0, 0.0, 0.0);
+    for (k, (mm, incl, raan)) in orbits.into_iter().enumerate() {
+        let mut set = base.clone();
+        set.elements.mean_motion = mm;
+        set.elements.inclination = incl;
+        set.elements.right_ascension = raan;
+        let prop = Propagator::new(&set).unwrap();
+        for lat in [0.0, 45.0, 61.0] {
+            let obs = Observer::new(lat, 10.0, 100.0).unwrap();
+            for mask_deg in [0.0, 5.0, 10.0] {
+                let mask = HorizonMask::flat(mask_deg).unwrap();
+                let found = find_passes(&prop, &obs, &mask, t0, add_seconds(&t0, days * 86400.0));
+                assert!(found.stopped.is_none());
+                assert!(!found.passes.is_empty(), "{mm} rev/day over {lat} deg");
+                let per_day = found.propagations as f64 / days;
+                eprintln!(
+                    "orbit {k} ({mm} rev/day, {incl} deg), station {lat} deg, mask {mask_deg} deg: {} passes, {per_day:.0} propagations per day",
+                    found.passes.len()
+                );
+                all += per_day;
+                n += 1.0;
+                if k == 0 {
+                    first += per_day / 9.0;
+                }
+            }
+        }
+    }
+    (all / n, first)
+}
+
+#[test]
+fn propagation_budget_over_the_station_and_mask_grid() {
+    let (average, wrenlet) = grid_propagations_per_day();
+    eprintln!("average {average:.1} propagations per satellite-day (WRENLET-1 alone {wrenlet:.1})");
+    // Target of the pass-search issue: <= 150 per LEO satellite-day averaged over the grid.
+    assert!(average <= 150.0, "{average}");
+    assert!(wrenlet <= 150.0, "{wrenlet}");
+}
+
 #[test]
 fn window_edges_are_flagged() {
     let prop = wrenlet();
