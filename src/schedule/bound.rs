@@ -9,7 +9,7 @@ use clarabel::solver::{
 };
 
 use super::model::Problem;
-use super::store::generated_until;
+use super::store::{advance_with, generated_until, SatState};
 
 /// Largest relaxation (variables) solved as an LP; above it only the combinatorial bound.
 pub const LP_MAX_VARIABLES: usize = 12_000;
@@ -32,31 +32,42 @@ fn q_of(problem: &Problem, c: usize) -> f64 {
     cand.rate_bps * cand.duty
 }
 
-/// Integrates over time `f(values of the intervals active)`; `items` are `(lo, hi, value)`.
-fn integrate(items: &[(f64, f64, f64)], f: impl Fn(&mut Vec<f64>) -> f64) -> f64 {
+/// Steps `(from_s, f(values of the intervals active))` over time; `items` are
+/// `(lo, hi, value)`. The last step (value 0) starts at the last end.
+fn steps(items: &[(f64, f64, f64)], f: impl Fn(&mut Vec<f64>) -> f64) -> Vec<(f64, f64)> {
     let mut points: Vec<f64> = items.iter().flat_map(|i| [i.0, i.1]).collect();
     points.sort_by(f64::total_cmp);
     points.dedup();
     let mut order: Vec<usize> = (0..items.len()).collect();
     order.sort_by(|&a, &b| items[a].0.total_cmp(&items[b].0));
-    let (mut total, mut next, mut active) = (0.0, 0usize, Vec::<usize>::new());
+    let (mut out, mut next, mut active) = (
+        Vec::with_capacity(points.len()),
+        0usize,
+        Vec::<usize>::new(),
+    );
     let mut values = Vec::new();
-    for w in points.windows(2) {
-        while next < order.len() && items[order[next]].0 <= w[0] {
+    for &t in &points {
+        while next < order.len() && items[order[next]].0 <= t {
             active.push(order[next]);
             next += 1;
         }
-        active.retain(|&i| items[i].1 > w[0]);
+        active.retain(|&i| items[i].1 > t);
         values.clear();
         values.extend(active.iter().map(|&i| items[i].2));
-        total += f(&mut values) * (w[1] - w[0]);
+        out.push((t, f(&mut values)));
     }
-    total
+    out
 }
 
-/// `min(satellite side, antenna side)`: per satellite, the smaller of its data (initial +
-/// generated) and the integral of its `max_downlinks` best drains over time; per antenna, the
-/// integral of the best weighted drain over time.
+fn integral(steps: &[(f64, f64)]) -> f64 {
+    steps.windows(2).map(|w| w[0].1 * (w[1].0 - w[0].0)).sum()
+}
+
+/// `min(satellite side, antenna side)`. Satellite side: each satellite alone, every bookable
+/// candidate booked whole (its `max_downlinks` best drains at each instant), simulated through
+/// its store; a fluid store delivers at least as much under a larger drain at every instant
+/// (the fill is then lower or equal everywhere, so is the loss), so no schedule delivers more
+/// for that satellite. Antenna side: the integral of the best weighted drain on each antenna.
 pub(crate) fn combinatorial(problem: &Problem, spans: Spans, weights: &[f64]) -> f64 {
     let mut by_sat = vec![Vec::new(); problem.satellites.len()];
     let mut by_antenna = vec![Vec::new(); problem.antennas.len()];
@@ -71,17 +82,18 @@ pub(crate) fn combinatorial(problem: &Problem, spans: Spans, weights: &[f64]) ->
         .enumerate()
         .map(|(s, sat)| {
             let k = sat.max_downlinks;
-            let link = integrate(&by_sat[s], |v| {
+            let drain = steps(&by_sat[s], |v| {
                 v.sort_by(|a, b| b.total_cmp(a));
                 v.iter().take(k).sum()
             });
-            let data = sat.initial_fill_bits + generated_until(sat, problem.window_s);
-            weights[s] * link.min(data)
+            let mut st = SatState::start(sat);
+            advance_with(sat, &mut st, problem.window_s, 0.0, &drain);
+            weights[s] * st.delivered_bits
         })
         .sum();
     let antenna_side: f64 = by_antenna
         .iter()
-        .map(|items| integrate(items, |v| v.iter().copied().fold(0.0, f64::max)))
+        .map(|items| integral(&steps(items, |v| v.iter().copied().fold(0.0, f64::max))))
         .sum();
     sat_side.min(antenna_side)
 }

@@ -84,7 +84,9 @@
 //!   [`MAX_ROUNDS`]). It is a local optimum for single-antenna moves, not a proved optimum.
 //!
 //! Contacts that end up delivering nothing (empty store, no generation) are dropped and
-//! reported as [`NotBooked::NothingOnBoard`].
+//! reported as [`NotBooked::NothingOnBoard`]; a bookable candidate left out is reported as
+//! [`NotBooked::LostToOverlap`] when booked contacts take its antenna or its downlinks during
+//! its span, else as [`NotBooked::NoGain`].
 //!
 //! # Bound
 //!
@@ -106,9 +108,11 @@
 //!   fraction; the fill and loss of the fluid store at the breakpoints satisfy the balance);
 //!   turnarounds, minimum lengths and the "once per candidate" rule are dropped. A relative
 //!   margin [`bound::LP_MARGIN`] covers the solver's tolerance.
-//! * **Combinatorial** (always): the smaller of the satellite side `sum_s w_s min(initial +
-//!   generated, ∫ best max_downlinks drains)` and the antenna side
-//!   `sum_a ∫ max over candidates of w_s * drain` — each a relaxation of one family of
+//! * **Combinatorial** (always): the smaller of the satellite side (each satellite alone with
+//!   every bookable candidate booked whole, at most `max_downlinks` at once, its store
+//!   simulated: a fluid store delivers at least as much under a larger drain at every instant,
+//!   because its fill, hence its loss, is then never higher) and the antenna side
+//!   (`sum_a ∫ max over candidates of w_s * drain`), each a relaxation of one family of
 //!   constraints.
 //!
 //! # Testing
@@ -229,12 +233,15 @@ fn is_sequential(problem: &Problem, opts: &[Opt]) -> bool {
                 .is_none_or(|o| problem.satellites[o.sat].max_downlinks == 1))
 }
 
+/// Steps `(from_s, downlinks running)` of one satellite's fixed contacts.
+type CountSteps = Vec<(f64, usize)>;
+
 /// Per satellite, the drain profile and the downlink count profile of `fixed` contacts.
 fn fixed_profiles(
     problem: &Problem,
     opts: &[Opt],
     fixed: &[usize],
-) -> (Vec<Vec<(f64, f64)>>, Vec<Vec<(f64, usize)>>) {
+) -> (Vec<Vec<(f64, f64)>>, Vec<CountSteps>) {
     let n = problem.satellites.len();
     let mut events: Vec<Vec<(f64, i8, f64)>> = vec![Vec::new(); n];
     for &i in fixed {
@@ -431,7 +438,7 @@ pub fn schedule_with(
         chosen.retain(|&i| !is_empty[opts[i].cand]);
         (contacts, sats, antennas) = outcome::evaluate(problem, &opts, &chosen, &raw);
     }
-    let not_booked = rejections(problem.candidates.len(), &spans, &contacts, &is_empty);
+    let not_booked = rejections(problem, &spans, &contacts, &is_empty);
     let weighted_delivered = problem
         .satellites
         .iter()
@@ -458,12 +465,28 @@ pub fn schedule_with(
     })
 }
 
+/// Whether candidate `i`'s whole clipped span `(lo, hi)` is free of the booked contacts.
+fn span_is_free(problem: &Problem, i: usize, (lo, hi): (f64, f64), contacts: &[Contact]) -> bool {
+    let c = &problem.candidates[i];
+    let turn = problem.antennas[c.antenna].turnaround_s;
+    let antenna_free = contacts
+        .iter()
+        .filter(|b| b.antenna == c.antenna)
+        .all(|b| b.end_s <= lo - turn || b.setup_start_s >= hi);
+    let running = contacts
+        .iter()
+        .filter(|b| b.satellite == c.satellite && b.start_s < hi && b.end_s > lo)
+        .count();
+    antenna_free && running < problem.satellites[c.satellite].max_downlinks
+}
+
 fn rejections(
-    n: usize,
+    problem: &Problem,
     spans: &[Result<(f64, f64), NotBooked>],
     contacts: &[Contact],
     empty: &[bool],
 ) -> Vec<Rejection> {
+    let n = problem.candidates.len();
     let mut booked = vec![false; n];
     for c in contacts {
         booked[c.candidate] = true;
@@ -475,8 +498,129 @@ fn rejections(
             reason: match spans[i] {
                 Err(reason) => reason,
                 Ok(_) if empty[i] => NotBooked::NothingOnBoard,
+                Ok(span) if span_is_free(problem, i, span, contacts) => NotBooked::NoGain,
                 Ok(_) => NotBooked::LostToOverlap,
             },
         })
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn one_antenna(turnaround_s: f64, blocked: Vec<(f64, f64)>) -> Antenna {
+        Antenna {
+            name: "a".into(),
+            station: "s".into(),
+            turnaround_s,
+            rules: BookingRules {
+                blocked,
+                ..Default::default()
+            },
+        }
+    }
+
+    fn sat(capacity_bits: f64, initial_fill_bits: f64) -> Satellite {
+        Satellite {
+            name: "s".into(),
+            priority_weight: 1.0,
+            capacity_bits,
+            initial_fill_bits,
+            generation: Generation::AverageBps(0.0),
+            max_downlinks: 1,
+        }
+    }
+
+    fn cand(satellite: usize, start_s: f64, end_s: f64, rate_bps: f64) -> Candidate {
+        Candidate {
+            satellite,
+            antenna: 0,
+            start_s,
+            end_s,
+            rate_bps,
+            duty: 1.0,
+            peak_elevation_deg: 45.0,
+            pass_ref: 0,
+        }
+    }
+
+    // Two overlapping passes on one antenna, 10 s turnaround: 0..100 at 1 bit/s and
+    // 80..200 at 2 bit/s. Whole first pass: 100 + 2 * 90 = 280; cut the first at 70 so the
+    // second runs whole: 70 + 2 * 120 = 310 (hand-computed; the cut is at the other
+    // candidate's start minus the turnaround).
+    #[test]
+    fn an_overlap_is_resolved_by_shortening_the_cheaper_contact() {
+        let p = Problem {
+            window_s: 300.0,
+            satellites: vec![sat(1e6, 1e6), sat(1e6, 1e6)],
+            antennas: vec![one_antenna(10.0, Vec::new())],
+            candidates: vec![cand(0, 0.0, 100.0, 1.0), cand(1, 80.0, 200.0, 2.0)],
+        };
+        let s = schedule(&p).unwrap();
+        assert_eq!(s.method, Method::Sequential);
+        assert_eq!(s.weighted_delivered, 310.0);
+        assert_eq!(
+            (
+                s.contacts[0].start_s,
+                s.contacts[0].end_s,
+                s.contacts[0].shortened
+            ),
+            (0.0, 70.0, true)
+        );
+        assert_eq!(
+            (s.contacts[1].setup_start_s, s.contacts[1].shortened),
+            (70.0, false)
+        );
+        assert_eq!(s.antennas[0].booked_s, 190.0);
+        assert_eq!(s.not_booked, Vec::new());
+    }
+
+    // 50 bit on board and nothing generated: two passes that could take 100 bit each deliver
+    // 50 bit in all; the second finds the store empty and is dropped.
+    #[test]
+    fn a_contact_never_delivers_more_than_is_on_board() {
+        let p = Problem {
+            window_s: 300.0,
+            satellites: vec![sat(100.0, 50.0)],
+            antennas: vec![one_antenna(0.0, Vec::new())],
+            candidates: vec![cand(0, 0.0, 100.0, 1.0), cand(0, 150.0, 250.0, 1.0)],
+        };
+        let s = schedule(&p).unwrap();
+        assert_eq!(s.delivered_bits, 50.0);
+        assert_eq!(s.contacts.len(), 1);
+        assert_eq!(
+            s.not_booked,
+            vec![Rejection {
+                candidate: 1,
+                reason: NotBooked::NoGain
+            }]
+        );
+        assert_eq!(s.satellites[0].final_fill_bits, 0.0);
+    }
+
+    // A block from 40 to 50 s with a 5 s turnaround forbids 40..55: the candidate 0..100
+    // keeps 55..100 (45 s) over 0..40 (40 s).
+    #[test]
+    fn a_blocked_period_clips_to_the_longest_part() {
+        let mut p = Problem {
+            window_s: 300.0,
+            satellites: vec![sat(1e6, 1e6)],
+            antennas: vec![one_antenna(5.0, vec![(40.0, 50.0)])],
+            candidates: vec![cand(0, 0.0, 100.0, 1.0)],
+        };
+        assert_eq!(bookable_spans(&p), vec![Ok((55.0, 100.0))]);
+        p.antennas[0].rules.min_contact_s = 50.0;
+        assert_eq!(
+            bookable_spans(&p),
+            vec![Err(NotBooked::ShorterThanMinContact)]
+        );
+        p.antennas[0].rules.blocked = vec![(0.0, 100.0)];
+        assert_eq!(bookable_spans(&p), vec![Err(NotBooked::Blocked)]);
+        p.antennas[0].rules.min_peak_elevation_deg = 50.0;
+        assert_eq!(
+            bookable_spans(&p),
+            vec![Err(NotBooked::BelowMinPeakElevation)]
+        );
+    }
 }

@@ -12,8 +12,13 @@ pub enum NotBooked {
     Blocked,
     /// Its longest part outside blocked periods is shorter than `min_contact_s`.
     ShorterThanMinContact,
-    /// Bookable, but other contacts took the antenna or the satellite's downlinks.
+    /// Bookable, but booked contacts take the antenna (with the turnarounds) or all the
+    /// satellite's downlinks during part of its span.
     LostToOverlap,
+    /// Bookable and its whole span was free, but booking it would not have raised the
+    /// objective (typically: nothing on board by then). Proved only for
+    /// [`super::Method::Sequential`].
+    NoGain,
     /// The scheduler booked it but the store had nothing for it: dropped.
     NothingOnBoard,
 }

@@ -504,13 +504,13 @@ fn same_input_same_schedule_and_permutation_maps_back() {
         .iter()
         .map(|c| (order[c.candidate], c.start_s, c.end_s, c.volume_bits))
         .collect();
-    mapped.sort_by(|x, y| x.0.cmp(&y.0));
+    mapped.sort_by_key(|x| x.0);
     let mut original: Vec<(usize, f64, f64, f64)> = a
         .contacts
         .iter()
         .map(|c| (c.candidate, c.start_s, c.end_s, c.volume_bits))
         .collect();
-    original.sort_by(|x, y| x.0.cmp(&y.0));
+    original.sort_by_key(|x| x.0);
     assert_eq!(mapped, original);
     assert_eq!(a.weighted_delivered, b.weighted_delivered);
 }
