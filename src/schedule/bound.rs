@@ -17,6 +17,10 @@ pub const LP_MAX_VARIABLES: usize = 12_000;
 /// Relative margin added to the LP optimum for the interior-point solver's tolerances.
 pub const LP_MARGIN: f64 = 1e-6;
 
+/// Relative margin on the combinatorial bound for floating-point rounding (the bound can be
+/// tight: a satellite that delivers all its data).
+pub const COMBINATORIAL_MARGIN: f64 = 1e-9;
+
 /// Which bound was the smaller.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum BoundMethod {
@@ -95,7 +99,7 @@ pub(crate) fn combinatorial(problem: &Problem, spans: Spans, weights: &[f64]) ->
         .iter()
         .map(|items| integral(&steps(items, |v| v.iter().copied().fold(0.0, f64::max))))
         .sum();
-    sat_side.min(antenna_side)
+    sat_side.min(antenna_side) * (1.0 + COMBINATORIAL_MARGIN)
 }
 
 /// Rows of a sparse LP in clarabel's form `A x + s = b`.

@@ -113,7 +113,8 @@
 //!   simulated: a fluid store delivers at least as much under a larger drain at every instant,
 //!   because its fill, hence its loss, is then never higher) and the antenna side
 //!   (`sum_a ∫ max over candidates of w_s * drain`), each a relaxation of one family of
-//!   constraints.
+//!   constraints; plus a relative margin [`bound::COMBINATORIAL_MARGIN`] for rounding (the
+//!   bound is tight when a satellite delivers all its data).
 //!
 //! # Testing
 //!
