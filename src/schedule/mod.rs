@@ -98,7 +98,7 @@
 //! optimality gap proper. Each bound is the smaller of:
 //!
 //! * **LP relaxation** (`bound.rs`, solved by the `clarabel` interior-point solver) when it has
-//!   at most [`bound::LP_MAX_VARIABLES`] variables: a variable `u` in `[0, 1]` per candidate
+//!   at most [`LP_MAX_VARIABLES`] variables: a variable `u` in `[0, 1]` per candidate
 //!   and elementary interval between consecutive span ends of all bookable candidates (the
 //!   fraction of the interval delivered at full drain), per antenna and interval
 //!   `sum u <= 1`, per satellite and interval `sum u <= max_downlinks`, and per satellite a
@@ -107,13 +107,13 @@
 //!   point with the same objective (`u` = delivered / (drain * length) is at most the booked
 //!   fraction; the fill and loss of the fluid store at the breakpoints satisfy the balance);
 //!   turnarounds, minimum lengths and the "once per candidate" rule are dropped. A relative
-//!   margin [`bound::LP_MARGIN`] covers the solver's tolerance.
+//!   margin [`LP_MARGIN`] covers the solver's tolerance.
 //! * **Combinatorial** (always): the smaller of the satellite side (each satellite alone with
 //!   every bookable candidate booked whole, at most `max_downlinks` at once, its store
 //!   simulated: a fluid store delivers at least as much under a larger drain at every instant,
 //!   because its fill, hence its loss, is then never higher) and the antenna side
 //!   (`sum_a ∫ max over candidates of w_s * drain`), each a relaxation of one family of
-//!   constraints; plus a relative margin [`bound::COMBINATORIAL_MARGIN`] for rounding (the
+//!   constraints; plus a relative margin [`COMBINATORIAL_MARGIN`] for rounding (the
 //!   bound is tight when a satellite delivers all its data).
 //!
 //! # Testing
@@ -129,7 +129,7 @@ mod space;
 mod store;
 mod sweep;
 
-pub use bound::{BoundMethod, LP_MARGIN, LP_MAX_VARIABLES};
+pub use bound::{BoundMethod, COMBINATORIAL_MARGIN, LP_MARGIN, LP_MAX_VARIABLES};
 pub use model::{
     Antenna, BookingRules, Candidate, Generation, GenerationWindow, Problem, Satellite,
     ScheduleError,
