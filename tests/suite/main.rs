@@ -35,6 +35,7 @@ mod plan_checks;
 mod plan_properties;
 mod plan_worked_pass;
 mod readme;
+mod schedule_exhaustive;
 mod sun_noise;
 mod sun_position;
 mod user_schemes;

@@ -7,4 +7,5 @@ pub mod bin;
 pub mod data;
 pub mod fixtures;
 pub mod plan;
+pub mod schedule_gen;
 pub mod tolerance;
