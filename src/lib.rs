@@ -18,6 +18,7 @@ pub mod noise;
 pub mod orbit;
 pub mod plan;
 pub mod report;
+pub mod schedule;
 pub mod special;
 pub mod timefmt;
 pub mod units;

@@ -24,6 +24,7 @@
 //! Text uses the bundled DejaVu Sans (`fonts/`, Bitstream Vera licence) through plotters'
 //! `ab_glyph` renderer, so no system font library is needed.
 
+pub mod contacts;
 pub mod data;
 mod mask;
 mod pass;
