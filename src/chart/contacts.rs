@@ -119,7 +119,7 @@ where
             "Antenna timeline · {} · {} to {}",
             d.mission,
             d.start.format("%Y-%m-%d %H:%MZ"),
-            d.end.format("%H:%MZ")
+            d.end.format("%Y-%m-%d %H:%MZ")
         ),
         (30, 18),
         style::title_font(),
@@ -141,10 +141,11 @@ where
     let fmt = move |v: &f64| style::time_label(&start, *v, step, false);
     let n = d.antennas.len().max(1);
     let rows: Vec<f64> = (0..n).map(|i| i as f64 + 0.5).collect();
+    // Antenna 0 is the top row: the row at y in [i, i + 1) is antenna n - 1 - i.
     let names = d.antennas.clone();
     let row_label = move |v: &f64| {
-        let i = v.floor();
-        names.get(i as usize).cloned().unwrap_or_default()
+        let i = v.floor() as usize;
+        names.get(n - 1 - i.min(n - 1)).cloned().unwrap_or_default()
     };
     let mut chart = ChartBuilder::on(&plot)
         .margin_top(10)

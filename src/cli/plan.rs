@@ -104,8 +104,8 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     let plan = run.map_err(|e| in_out(e.into()))?;
     warn(&plan.warnings);
     note(&plan.notes);
-    let cp = contact_plan(&[&planner], std::slice::from_ref(&plan))
-        .map_err(|e| in_out(e.into()))?;
+    let cp =
+        contact_plan(&[&planner], std::slice::from_ref(&plan)).map_err(|e| in_out(e.into()))?;
     let doc = PlanDoc::with_contacts(&planner, &plan, &cp);
     if let (Some(dir), Some(st)) = (&dir, staging.as_ref()) {
         write_files(&planner, &plan, &doc, &charts, dir, a.charts)

@@ -243,22 +243,15 @@ impl FleetDoc {
         contact: ContactDoc,
     ) -> FleetDoc {
         let w = planners[0].window();
-        let mut warnings: Vec<String> = Vec::new();
         let mut passes = Vec::new();
         for (p, plan) in planners.iter().zip(plans) {
-            let name = crate::plan::fleet::name_of(p);
-            for m in &plan.warnings {
-                let line = format!("{name}: {m}");
-                if !warnings.contains(&line) {
-                    warnings.push(line);
-                }
-            }
             passes.extend(
                 plan.passes
                     .iter()
                     .map(|x| super::plan::PlanPassRow::new(p, x)),
             );
         }
+        let warnings = fleet_warnings(planners, plans);
         FleetDoc {
             mission: planners[0].mission().name.clone(),
             window_start: format_ms(&w.start()),
@@ -277,6 +270,30 @@ impl FleetDoc {
             caution: super::plan::CAUTION,
         }
     }
+}
+
+/// Each warning once, prefixed with the satellites that raised it (`every satellite` when all did).
+fn fleet_warnings(planners: &[&crate::plan::Planner], plans: &[Plan]) -> Vec<String> {
+    let mut by_text: Vec<(String, Vec<String>)> = Vec::new();
+    for (p, plan) in planners.iter().zip(plans) {
+        let name = crate::plan::fleet::name_of(p);
+        for m in &plan.warnings {
+            match by_text.iter_mut().find(|(t, _)| t == m) {
+                Some((_, who)) if !who.contains(&name) => who.push(name.clone()),
+                Some(_) => {}
+                None => by_text.push((m.clone(), vec![name.clone()])),
+            }
+        }
+    }
+    by_text
+        .into_iter()
+        .map(
+            |(text, who)| match who.len() == planners.len() && who.len() > 1 {
+                true => format!("every satellite: {text}"),
+                false => format!("{}: {text}", who.join(", ")),
+            },
+        )
+        .collect()
 }
 
 /// Write the contact plan's files into `dir`: `contacts.csv`, `satellites.csv`, `stations.csv`
