@@ -314,3 +314,51 @@ fn a_fleet_needs_a_satellite_for_single_satellite_commands() {
         .iter()
         .all(|p| p["satellite"] == "KESTREL-C"));
 }
+
+/// A satellite that gets no contact, and a store that overflows, are results: the run succeeds,
+/// every satellite is listed with no delivery, and the loss is what the store could not hold
+/// (generated + initial fill - capacity, nothing delivered).
+#[test]
+fn no_contact_and_a_full_store_are_results_not_errors() {
+    let dir = tempfile::tempdir().unwrap();
+    let root = crate::common::bin::root();
+    for f in ["kestrel.tle", "kestrel-c-imaging.csv"] {
+        std::fs::copy(root.join("examples/fleet").join(f), dir.path().join(f)).unwrap();
+    }
+    let fleet = std::fs::read_to_string(root.join(FLEET))
+        .unwrap()
+        .replace(
+            "../../stations",
+            &root.join("stations").display().to_string(),
+        )
+        .replace("min_peak_elevation_deg: 10", "min_peak_elevation_deg: 90");
+    // Keep Pulau Reka alone, where no pass peaks at 90 deg.
+    let keep: String = fleet
+        .lines()
+        .filter(|l| !(l.contains("stations/") && !l.contains("pulau-reka")))
+        .filter(|l| !l.contains("station: Sierra Baja"))
+        .filter(|l| !l.contains("blocked:") && !l.contains("{ start:"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let m = write(dir.path(), "m.yaml", &keep);
+    let doc = json(&run(&[
+        "plan", &m, "--format", "json", "--quiet", "--days", "2",
+    ]));
+    assert_eq!(doc["contacts"].as_array().unwrap().len(), 0);
+    for s in doc["satellites"].as_array().unwrap() {
+        assert_eq!(num(&s["delivered_bits"]), 0.0, "{s}");
+        assert_eq!(s["max_latency_s"], Value::Null, "{s}");
+    }
+    let d = doc["satellites"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|s| s["name"] == "KESTREL-D")
+        .unwrap();
+    // 6 Mbit/s for 2 days = 1.0368e12 bit into a 2.56e11 bit store, empty at the start.
+    assert!(
+        (num(&d["lost_bits"]) - (1.0368e12 - 2.56e11)).abs() < 1e3,
+        "{d}"
+    );
+    assert_eq!(num(&d["final_fill_bits"]), 2.56e11);
+}
