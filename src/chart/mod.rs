@@ -25,6 +25,7 @@
 //! `ab_glyph` renderer, so no system font library is needed; on PNG charts each glyph is
 //! rasterised once per size and thread ([`glyphs`]), with the same pixels.
 
+pub mod contacts;
 pub mod data;
 mod glyphs;
 mod mask;

@@ -133,7 +133,7 @@ impl DayAxis {
 
     fn label(&self, d: &SummaryChartData, v: f64) -> String {
         let i = v.floor();
-        if i < 0.0 || (i as usize) >= d.days.len() || (i as usize) % self.every != 0 {
+        if i < 0.0 || (i as usize) >= d.days.len() || !(i as usize).is_multiple_of(self.every) {
             String::new()
         } else {
             d.days[i as usize].date.format("%a %m-%d").to_string()

@@ -6,6 +6,8 @@ mod budget;
 mod chart;
 mod common;
 mod compare;
+mod contacts;
+mod fleet;
 mod geometry;
 mod output;
 mod plan;

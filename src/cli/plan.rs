@@ -10,8 +10,10 @@ use anyhow::Result;
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
 use passbudget::engfmt;
+use passbudget::plan::fleet::{contact_plan, ContactPlan};
 use passbudget::plan::summary::tradeoff;
 use passbudget::plan::{PassPlan, Plan, Planner};
+use passbudget::report::contacts::{write_contact_files, ContactDoc};
 use passbudget::report::files::{
     summary_json, write_summaries, ChartBytes, CsvSink, OutputRequest,
 };
@@ -63,6 +65,10 @@ pub struct MaskArgs {
 
 /// `passbudget plan`.
 pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
+    let mission = a.window.load_mission()?;
+    if mission.satellites.len() > 1 && a.window.satellite.is_none() {
+        return crate::cli::fleet::plan_fleet(&a, &mission, out);
+    }
     let staging = a.out.as_deref().map(stage).transpose()?;
     // The charts' mask trade-off needs the passes below the configured mask: the same run gathers it.
     let planner = a.window.planner(a.charts)?;
@@ -99,15 +105,20 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     let plan = run.map_err(|e| in_out(e.into()))?;
     warn(&plan.warnings);
     note(&plan.notes);
+    let cp =
+        contact_plan(&[&planner], std::slice::from_ref(&plan)).map_err(|e| in_out(e.into()))?;
     // The pass rows only for a document that is written (JSON, CSV, the --out files); the
     // table makes each row as it prints it.
-    let doc = if a.format == Format::Table && staging.is_none() {
+    let mut doc = if a.format == Format::Table && staging.is_none() {
         PlanDoc::without_pass_rows(&planner, &plan)
     } else {
         PlanDoc::new(&planner, &plan)
     };
+    let plans = std::slice::from_ref(&plan);
+    doc.attach(ContactDoc::new(&cp, plans, planner.stations()));
     if let (Some(dir), Some(st)) = (&dir, staging.as_ref()) {
         write_files(&planner, &plan, &doc, &charts, dir, a.charts)
+            .and_then(|()| write_contacts(&planner, &cp, &doc, dir, &a))
             .map_err(|e| in_out_folder(e, st, &target))?;
     }
     if let Some(st) = staging {
@@ -118,6 +129,38 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
         Format::Csv => write!(out, "{}", to_csv(&doc.passes, &doc.assumptions.warnings)?)?,
         Format::Table => print_plan(&planner, &plan, &doc, out)?,
     }
+    Ok(())
+}
+
+/// The contact plan's files (and charts with `--charts`) into the staging folder `dir`.
+fn write_contacts(
+    planner: &Planner,
+    cp: &ContactPlan,
+    doc: &PlanDoc,
+    dir: &Path,
+    a: &PlanArgs,
+) -> Result<()> {
+    let Some(c) = &doc.contact else {
+        return Ok(());
+    };
+    let warnings = &doc.assumptions.warnings;
+    write_contact_files(dir, c, warnings, cp.window_start)?;
+    if a.charts {
+        contact_charts(cp, c, (&planner.mission().name, warnings), dir, a)?;
+    }
+    Ok(())
+}
+
+/// The antenna timeline and storage charts of a contact plan, into `dir`.
+pub fn contact_charts(
+    cp: &ContactPlan,
+    doc: &ContactDoc,
+    (mission, warnings): (&str, &[String]),
+    dir: &Path,
+    a: &PlanArgs,
+) -> Result<()> {
+    let format: ChartFormat = a.chart_format.into();
+    passbudget::chart::contacts::draw_contact_charts(cp, doc, mission, warnings, dir, format)?;
     Ok(())
 }
 
@@ -192,7 +235,14 @@ fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write
         format_ms(&plan.window.end()),
         planner.step_s()
     )?;
+    if let Some(c) = &doc.contact {
+        crate::cli::contacts::print_headline(c, doc.totals.volume_bits, out)?;
+        writeln!(out)?;
+    }
     print_passes(planner, plan, out)?;
+    if let Some(c) = &doc.contact {
+        crate::cli::contacts::print_contact_plan(c, out)?;
+    }
     print_days(doc, out)?;
     print_totals(planner, doc, out)?;
     print_usable_masks(&doc.usable_masks, &doc.mask_failures, out)?;
@@ -375,7 +425,7 @@ fn print_totals(planner: &Planner, doc: &PlanDoc, out: &mut dyn Write) -> Result
     let tot = &doc.totals;
     writeln!(
         out,
-        "Window totals ({:.2} days, {} passes, {} with a closing rate):",
+        "Window totals per pass, unconstrained (every pass counted, no antenna or store limit; {:.2} days, {} passes, {} with a closing rate):",
         tot.days, tot.passes, tot.passes_closing
     )?;
     let line = |label: &str, bits: f64, note: String| {

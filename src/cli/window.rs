@@ -110,6 +110,10 @@ pub struct WindowArgs {
     /// otherwise: the positions are off by hundreds to thousands of km).
     #[arg(long)]
     pub allow_stale_elements: bool,
+    /// One satellite of a fleet mission (its name in the mission file); `plan` without it
+    /// plans the whole fleet, the other commands need it for a fleet.
+    #[arg(long, value_name = "NAME")]
+    pub satellite: Option<String>,
 }
 
 /// Parse an optional RFC 3339 flag value, naming the flag in the message.
@@ -158,7 +162,7 @@ impl WindowArgs {
         overrides: &Overrides,
         window: Option<&Window>,
     ) -> Result<Planner> {
-        let mission = Mission::load_with(path, overrides)?;
+        let mission = self.one_satellite(Mission::load_with(path, overrides)?)?;
         let mut request = self.request(tradeoff)?;
         if let Some(w) = window {
             request.window = WindowRequest {
@@ -171,9 +175,54 @@ impl WindowArgs {
     }
 }
 
+impl WindowArgs {
+    /// The mission as the satellite of `--satellite` sees it; a fleet mission needs the flag.
+    pub fn one_satellite(&self, mission: Mission) -> Result<Mission> {
+        let names = || {
+            mission
+                .satellites
+                .iter()
+                .filter_map(|s| s.name.clone())
+                .collect::<Vec<_>>()
+                .join(", ")
+        };
+        match &self.satellite {
+            Some(n) => {
+                let i = mission
+                    .satellites
+                    .iter()
+                    .position(|s| s.name.as_deref().is_some_and(|m| same_station(n, m)));
+                match i {
+                    Some(i) => Ok(mission.for_satellite(i)),
+                    None if mission.satellites.len() == 1 => Ok(mission),
+                    None => bail!(
+                        "--satellite {n}: not a satellite of the mission ({})",
+                        names()
+                    ),
+                }
+            }
+            None if mission.satellites.len() > 1 => bail!(
+                "{}: the mission has {} satellites ({}): choose one with --satellite NAME",
+                mission.source.display(),
+                mission.satellites.len(),
+                names()
+            ),
+            None => Ok(mission),
+        }
+    }
+
+    /// The mission of these flags (with the `--set` overrides), as the file gives it.
+    pub fn load_mission(&self) -> Result<Mission> {
+        Ok(Mission::load_with(
+            self.mission.path(),
+            &self.mission.overrides()?,
+        )?)
+    }
+}
+
 /// A request error names the flag when the value came from one, else the `--set` argument that
 /// gave the file's key (`planning.KEY`), else the file's key.
-fn name_flag(
+pub fn name_flag(
     e: PlanError,
     r: &PlanRequest,
     mission: &std::path::Path,

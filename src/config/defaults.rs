@@ -106,6 +106,22 @@ pub const MIN_DWELL_S: DefaultValue<f64> = reported(
     "common practice for acquisition and frame lock",
 );
 
+// ---- Contact plan ------------------------------------------------------------------------------
+
+pub const INITIAL_FILL_BITS: DefaultValue<f64> = silent(
+    "onboard.initial_fill_bits",
+    0.0,
+    "an empty store at the window start",
+);
+pub const PRIORITY: DefaultValue<f64> = silent("satellites.priority", 1.0, "every satellite alike");
+pub const DOWNLINKS: DefaultValue<f64> = silent("satellites.downlinks", 1.0, "one transmitter");
+pub const ANTENNAS: DefaultValue<f64> = silent("antennas", 1.0, "one antenna per station file");
+pub const TURNAROUND_S: DefaultValue<f64> = reported(
+    "booking.turnaround_s",
+    60.0,
+    "common practice: slew to the next AOS and configure the receiver",
+);
+
 // ---- Station file ------------------------------------------------------------------------------
 
 pub const MIN_ELEVATION_DEG: DefaultValue<f64> =
@@ -227,6 +243,10 @@ mod tests {
             (PRESSURE_HPA, limits::PRESSURE_HPA),
             (TEMPERATURE_K, limits::TEMPERATURE_K),
             (WATER_VAPOUR_DENSITY_G_M3, limits::WATER_VAPOUR_DENSITY_G_M3),
+            (PRIORITY, limits::PRIORITY),
+            (DOWNLINKS, limits::DOWNLINKS),
+            (ANTENNAS, limits::ANTENNAS),
+            (TURNAROUND_S, limits::TURNAROUND_S),
         ]
     }
 

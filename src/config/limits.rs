@@ -717,6 +717,70 @@ pub fn applies_to(r: &Range) -> &'static str {
         .map_or("", |(_, what)| what)
 }
 
+/// Capacity of a satellite's store and its fill, bits (up to 1 Pbit).
+pub const STORAGE_BITS: Range = Range {
+    key: "onboard.storage_bits",
+    min: 0.0,
+    max: 1e15,
+    unit: "bit",
+};
+
+/// Data generation rate of a payload, bit/s (0 to 100 Gbit/s).
+pub const GENERATION_BPS: Range = Range {
+    key: "onboard.generation_bps",
+    min: 0.0,
+    max: 1e11,
+    unit: "bit/s",
+};
+
+/// Priority weight of a satellite in the contact plan (delivered bits count this many times).
+pub const PRIORITY: Range = Range {
+    key: "satellites.priority",
+    min: 0.001,
+    max: 1000.0,
+    unit: "",
+};
+
+/// Downlinks a satellite can run at once.
+pub const DOWNLINKS: Range = Range {
+    key: "satellites.downlinks",
+    min: 1.0,
+    max: 16.0,
+    unit: "",
+};
+
+/// Identical antennas at one station.
+pub const ANTENNAS: Range = Range {
+    key: "antennas",
+    min: 1.0,
+    max: 64.0,
+    unit: "",
+};
+
+/// Slew and set-up time of an antenna before each contact, s (up to 1 h).
+pub const TURNAROUND_S: Range = Range {
+    key: "booking.turnaround_s",
+    min: 0.0,
+    max: 3600.0,
+    unit: "s",
+};
+
+/// Shortest contact an antenna books, s (up to 1 h).
+pub const MIN_CONTACT_S: Range = Range {
+    key: "booking.min_contact_s",
+    min: 0.0,
+    max: 3600.0,
+    unit: "s",
+};
+
+/// Lowest peak elevation of a contact an antenna books, deg.
+pub const MIN_PEAK_ELEVATION_DEG: Range = Range {
+    key: "booking.min_peak_elevation_deg",
+    min: 0.0,
+    max: 90.0,
+    unit: "deg",
+};
+
 /// Every range above, for the README's table and its check.
 pub const ALL: &[Range] = &[
     FREQUENCY_GHZ,
@@ -795,6 +859,14 @@ pub const ALL: &[Range] = &[
     CLOUD_LIQUID_CLEAR_KG_M2,
     CLOUD_LIQUID_EXCEEDANCE_KG_M2,
     WET_REFRACTIVITY,
+    STORAGE_BITS,
+    GENERATION_BPS,
+    PRIORITY,
+    DOWNLINKS,
+    ANTENNAS,
+    TURNAROUND_S,
+    MIN_CONTACT_S,
+    MIN_PEAK_ELEVATION_DEG,
 ];
 
 #[cfg(test)]

@@ -19,7 +19,12 @@ use std::path::{Path, PathBuf};
 #[serde(deny_unknown_fields)]
 struct MissionFile {
     name: String,
-    satellite: SatelliteFile,
+    #[serde(default)]
+    satellite: Option<SatelliteFile>,
+    #[serde(default)]
+    satellites: Option<Vec<SatelliteFile>>,
+    #[serde(default)]
+    booking: Option<Vec<super::fleet::BookingRuleFile>>,
     #[serde(default)]
     stations: Vec<String>,
     #[serde(default)]
@@ -35,9 +40,21 @@ struct MissionFile {
 #[derive(Debug, Clone, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct SatelliteFile {
+    #[serde(default)]
+    name: Option<String>,
     elements: String,
     #[serde(default)]
     select: Option<String>,
+    #[serde(default)]
+    priority: Option<f64>,
+    #[serde(default)]
+    downlinks: Option<f64>,
+    #[serde(default)]
+    onboard: Option<super::fleet::OnboardFile>,
+    #[serde(default)]
+    transmitter: Option<TransmitterFile>,
+    #[serde(default)]
+    modem: Option<ModemFile>,
 }
 
 #[derive(Debug, Clone, Default, Deserialize)]
@@ -226,11 +243,35 @@ pub struct ModemConfig {
     pub line: Option<usize>,
 }
 
+/// One satellite of the mission, validated: its elements, its radio (its own blocks, else the
+/// mission's shared ones) and what the contact plan needs.
+#[derive(Debug, Clone)]
+pub struct SatelliteConfig {
+    /// The name given in the file (`None`: the element set's name is used).
+    pub name: Option<String>,
+    pub elements_path: PathBuf,
+    pub select: Option<String>,
+    /// Weight of this satellite's delivered bits in the contact plan.
+    pub priority_weight: f64,
+    /// Downlinks it can run at once.
+    pub max_downlinks: usize,
+    /// Its data on board (`None`: it always has data to send; no storage is followed).
+    pub onboard: Option<super::fleet::Onboard>,
+    pub transmitter: Option<TransmitterConfig>,
+    pub modem: Option<ModemConfig>,
+    /// 1-based line of the satellite in the mission file.
+    pub line: Option<usize>,
+}
+
 /// A validated mission.
 #[derive(Debug, Clone)]
 pub struct Mission {
     pub name: String,
     pub source: PathBuf,
+    /// Every satellite of the mission (one for the `satellite:` form). The fields below that
+    /// describe one satellite (`elements_path`, `select`, `transmitter`, `modem`) are the first
+    /// one's; [`Mission::for_satellite`] gives the mission seen by another.
+    pub satellites: Vec<SatelliteConfig>,
     pub elements_path: PathBuf,
     pub select: Option<String>,
     pub stations: Vec<Station>,
@@ -289,8 +330,8 @@ impl Mission {
         let stations = stations(&c, &base, &file.stations, overrides)?;
         let names: Vec<&str> = stations.iter().map(|s| s.name.as_str()).collect();
         overrides.check_stations(path, &names)?;
-        let (start, end, days) = window(&c, &file.window.unwrap_or_default())?;
-        let p = file.planning.unwrap_or_default();
+        let (start, end, days) = window(&c, &file.window.clone().unwrap_or_default())?;
+        let p = file.planning.clone().unwrap_or_default();
         let step_s = c.or_default(&limits::STEP_S, p.step_s, &dflt::STEP_S)?;
         let exceedance_percent = c.optional(&limits::EXCEEDANCE_PERCENT, p.exceedance_percent)?;
         let mask_deg = c.optional(&limits::PLANNING_MASK_DEG, p.mask_deg)?;
@@ -305,11 +346,22 @@ impl Mission {
             .map(|t| transmitter(&mut c, t))
             .transpose()?;
         let modem = file.modem.as_ref().map(|m| modem(&mut c, m)).transpose()?;
+        let satellites = satellites(&mut c, &file, &base, (&transmitter, &modem))?;
+        let mut stations = stations;
+        booking_rules(
+            &c,
+            file.booking.as_deref().unwrap_or_default(),
+            &mut stations,
+        )?;
+        let first = &satellites[0];
         Ok(Mission {
             name: file.name,
             source: path.to_path_buf(),
-            elements_path: resolve(&base, &file.satellite.elements),
-            select: file.satellite.select,
+            elements_path: first.elements_path.clone(),
+            select: first.select.clone(),
+            transmitter: first.transmitter.clone(),
+            modem: first.modem.clone(),
+            satellites,
             stations,
             start,
             end,
@@ -318,14 +370,26 @@ impl Mission {
             exceedance_percent,
             mask_deg,
             mask_share_percent,
-            transmitter,
-            modem,
             defaults: c.defaults,
             set_keys: applied
                 .iter()
                 .map(|a| (a.key.clone(), a.arg.clone()))
                 .collect(),
         })
+    }
+
+    /// The mission as satellite `index` sees it: its elements and radio in the single-satellite
+    /// fields, and itself as the only satellite.
+    pub fn for_satellite(&self, index: usize) -> Mission {
+        let s = &self.satellites[index];
+        Mission {
+            elements_path: s.elements_path.clone(),
+            select: s.select.clone(),
+            transmitter: s.transmitter.clone(),
+            modem: s.modem.clone(),
+            satellites: vec![s.clone()],
+            ..self.clone()
+        }
     }
 
     /// Where a key's value came from, for a message: `file: --set ARG` for a key given by
@@ -345,7 +409,7 @@ impl Mission {
 }
 
 /// A path from the mission file: absolute, or relative to the mission file's folder.
-fn resolve(base: &Path, p: &str) -> PathBuf {
+pub(super) fn resolve(base: &Path, p: &str) -> PathBuf {
     let pb = PathBuf::from(p);
     if pb.is_absolute() {
         pb
@@ -384,6 +448,155 @@ fn stations(
         stations.push(s);
     }
     Ok(stations)
+}
+
+/// The satellites: `satellite:` (one) or `satellites:` (a fleet, each named, no name twice), each
+/// with its own transmitter and modem or the mission's shared ones.
+fn satellites(
+    c: &mut Checker,
+    file: &MissionFile,
+    base: &Path,
+    shared: (&Option<TransmitterConfig>, &Option<ModemConfig>),
+) -> Result<Vec<SatelliteConfig>, ConfigError> {
+    const KEY: &str = "satellites";
+    match (&file.satellite, &file.satellites) {
+        (Some(s), None) => {
+            let one = satellite(c, "satellite", s, base, shared, true)?;
+            Ok(vec![one])
+        }
+        (None, Some(list)) if !list.is_empty() => {
+            let mut out: Vec<SatelliteConfig> = Vec::new();
+            for (i, s) in list.iter().enumerate() {
+                let Some(name) = s.name.as_deref().map(str::trim).filter(|n| !n.is_empty()) else {
+                    return Err(c.item_err(KEY, "item", i, "needs a name"));
+                };
+                if out.iter().any(|o| o.name.as_deref() == Some(name)) {
+                    let msg = format!("two satellites are named '{name}'");
+                    return Err(c.item_err(KEY, "item", i, msg));
+                }
+                let item = c
+                    .item_line(KEY, i)
+                    .and_then(|l| super::item_block(c.text, l));
+                let mut sub = match &item {
+                    Some(b) => {
+                        Checker::within(c.path, b, format!("{KEY} item {} ({name}): ", i + 1))
+                    }
+                    None => Checker::new(c.path, c.text, c.overrides),
+                };
+                let one = satellite(&mut sub, "", s, base, shared, false)?;
+                for d in sub.defaults {
+                    if !c.defaults.iter().any(|e| e.key == d.key) {
+                        c.defaults.push(d);
+                    }
+                }
+                out.push(SatelliteConfig {
+                    line: c.item_line(KEY, i),
+                    ..one
+                });
+            }
+            Ok(out)
+        }
+        (None, Some(_)) => Err(c.err(KEY, "lists no satellite")),
+        (Some(_), Some(_)) => Err(c.err(
+            KEY,
+            "give satellite (one) or satellites (a fleet), not both",
+        )),
+        (None, None) => Err(ConfigError::new(
+            c.path,
+            None,
+            Some("satellite"),
+            "missing field `satellite` (or `satellites` for a fleet)",
+        )),
+    }
+}
+
+/// One satellite's block, its keys under `prefix` (`"satellite"`, or `""` in an item checker).
+fn satellite(
+    c: &mut Checker,
+    prefix: &str,
+    s: &SatelliteFile,
+    base: &Path,
+    shared: (&Option<TransmitterConfig>, &Option<ModemConfig>),
+    single: bool,
+) -> Result<SatelliteConfig, ConfigError> {
+    let key = |k: &str| match prefix {
+        "" => k.to_string(),
+        p => format!("{p}.{k}"),
+    };
+    let priority_weight = match s.priority {
+        Some(v) => limits::PRIORITY
+            .check(v)
+            .map_err(|e| c.err(&key("priority"), e))?,
+        None => c.default(&dflt::PRIORITY),
+    };
+    let max_downlinks = match s.downlinks {
+        Some(v) => {
+            let n = limits::DOWNLINKS
+                .check(v)
+                .map_err(|e| c.err(&key("downlinks"), e))?;
+            if n.fract() != 0.0 {
+                return Err(c.err(&key("downlinks"), format!("{n} is not a whole number")));
+            }
+            n as usize
+        }
+        None => c.default(&dflt::DOWNLINKS) as usize,
+    };
+    let onboard = s
+        .onboard
+        .as_ref()
+        .map(|o| super::fleet::onboard(c, &key("onboard"), o, base))
+        .transpose()?;
+    if single
+        && (s.transmitter.is_some() && shared.0.is_some()
+            || s.modem.is_some() && shared.1.is_some())
+    {
+        return Err(c.err(
+            &key("transmitter"),
+            "give the transmitter and modem once: in the satellite block or at the top level",
+        ));
+    }
+    let transmitter = match &s.transmitter {
+        Some(t) => Some(transmitter(c, t)?),
+        None => shared.0.clone(),
+    };
+    let modem = match &s.modem {
+        Some(m) => Some(modem(c, m)?),
+        None => shared.1.clone(),
+    };
+    Ok(SatelliteConfig {
+        name: s.name.as_ref().map(|n| n.trim().to_string()),
+        elements_path: resolve(base, &s.elements),
+        select: s.select.clone(),
+        priority_weight,
+        max_downlinks,
+        onboard,
+        transmitter,
+        modem,
+        line: c.line(if prefix.is_empty() {
+            "elements"
+        } else {
+            prefix
+        }),
+    })
+}
+
+/// The mission's booking rules (`booking:` items naming a station), applied to the stations.
+fn booking_rules(
+    c: &Checker,
+    rules: &[super::fleet::BookingRuleFile],
+    stations: &mut [Station],
+) -> Result<(), ConfigError> {
+    for (i, r) in rules.iter().enumerate() {
+        let Some(st) = stations
+            .iter_mut()
+            .find(|s| crate::config::station::same_station(&r.station, &s.name))
+        else {
+            let msg = format!("no station of the mission is named '{}'", r.station);
+            return Err(c.item_err("booking", "rule", i, msg));
+        };
+        super::fleet::apply_rule(c, i, r, &mut st.booking)?;
+    }
+    Ok(())
 }
 
 /// The planning window: start, and end or length in days.
@@ -551,7 +764,7 @@ fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry,
         // first: `overhead: { efficiency: 2 }`), else the item's.
         let at = |key: &str, msg: String| {
             let line = c.item_line(KEY, i).map(|l| {
-                let find = |k: &str| super::locate::item_key_line(c.text, l, k);
+                let find = |k: &str| c.item_key_line(l, k);
                 let last = key.rsplit('.').next().unwrap_or(key);
                 let first = key.split('.').next().unwrap_or(key);
                 find(last).or_else(|| find(first)).unwrap_or(l)
@@ -584,7 +797,7 @@ fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry,
         };
         let line = c
             .item_line(KEY, i)
-            .map(|l| super::locate::item_key_line(c.text, l, "name").unwrap_or(l));
+            .map(|l| c.item_key_line(l, "name").unwrap_or(l));
         c.err_at(
             line,
             &format!("{KEY}.name"),

@@ -9,6 +9,7 @@
 //! [`defaults`]; the YAML crate is used in [`parse_yaml`] and [`overrides`] only.
 
 pub mod defaults;
+pub mod fleet;
 pub mod fuzz_entry;
 pub mod limits;
 pub mod locate;
@@ -123,6 +124,30 @@ pub(crate) struct Checker<'a> {
     pub defaults: Vec<DefaultUsed>,
     /// The `--set` overrides applied to this file: their keys have no line.
     pub overrides: &'a [overrides::Applied],
+    /// For a block of a list item checked on its own ([`Checker::item_block`]): the item's text
+    /// starts this many lines into the file, and messages name the item first.
+    line_offset: usize,
+    prefix: String,
+}
+
+/// The text of one item of a list (`satellites:`), de-indented so that its keys read as a
+/// document's top-level keys, and the 0-based line of the file where it starts.
+pub(crate) fn item_block(text: &str, item_line: usize) -> Option<(String, usize)> {
+    let lines: Vec<&str> = text.lines().collect();
+    let first = lines.get(item_line.checked_sub(1)?)?;
+    let dash = first.len() - first.trim_start().len();
+    let body = first.trim_start().strip_prefix("- ")?;
+    let indent = dash + 2;
+    let mut out = vec![body.to_string()];
+    for raw in lines.iter().skip(item_line) {
+        let t = raw.trim_start();
+        let here = raw.len() - t.len();
+        if !t.is_empty() && !t.starts_with('#') && here <= dash {
+            break;
+        }
+        out.push(raw.get(indent.min(here)..).unwrap_or("").to_string());
+    }
+    Some((out.join("\n"), item_line - 1))
 }
 
 impl<'a> Checker<'a> {
@@ -132,7 +157,25 @@ impl<'a> Checker<'a> {
             text,
             defaults: Vec::new(),
             overrides,
+            line_offset: 0,
+            prefix: String::new(),
         }
+    }
+
+    /// A checker of one list item's block (from [`item_block`]): lines are the file's, and every
+    /// message starts with `prefix` (`satellites item 2 (KESTREL-B): `).
+    pub fn within(path: &'a Path, block: &'a (String, usize), prefix: String) -> Checker<'a> {
+        Checker {
+            line_offset: block.1,
+            prefix,
+            ..Checker::new(path, &block.0, &[])
+        }
+    }
+
+    /// 1-based line (in the file) of `key` inside the block of the list item at `item_line`.
+    pub fn item_key_line(&self, item_line: usize, key: &str) -> Option<usize> {
+        locate::item_key_line(self.text, item_line.checked_sub(self.line_offset)?, key)
+            .map(|l| l + self.line_offset)
     }
 
     /// 1-based line of a dotted key (`"antenna.efficiency"`); none for a key set by `--set`.
@@ -141,6 +184,7 @@ impl<'a> Checker<'a> {
             return None;
         }
         locate::key_line(self.text, &key.split('.').collect::<Vec<_>>())
+            .map(|l| l + self.line_offset)
     }
 
     /// 1-based line of item `index` (0-based) of the list under a dotted key.
@@ -149,6 +193,12 @@ impl<'a> Checker<'a> {
             return None;
         }
         locate::list_item_line(self.text, &key.split('.').collect::<Vec<_>>(), index)
+            .map(|l| l + self.line_offset)
+    }
+
+    /// The first line of the list item this checker reads, when it reads one.
+    fn block_line(&self) -> Option<usize> {
+        (self.line_offset > 0).then_some(self.line_offset + 1)
     }
 
     /// The error as it reads for a key set by `--set`: naming the argument.
@@ -173,7 +223,12 @@ impl<'a> Checker<'a> {
     ) -> ConfigError {
         self.named(
             key,
-            ConfigError::new(self.path, line, Some(key), format!("{key}: {msg}")),
+            ConfigError::new(
+                self.path,
+                line.or(self.block_line()),
+                Some(key),
+                format!("{}{key}: {msg}", self.prefix),
+            ),
         )
     }
 
@@ -186,8 +241,8 @@ impl<'a> Checker<'a> {
         index: usize,
         msg: impl std::fmt::Display,
     ) -> ConfigError {
-        let line = self.item_line(key, index);
-        let message = format!("{key} {what} {}: {msg}", index + 1);
+        let line = self.item_line(key, index).or(self.block_line());
+        let message = format!("{}{key} {what} {}: {msg}", self.prefix, index + 1);
         self.named(key, ConfigError::new(self.path, line, Some(key), message))
     }
 

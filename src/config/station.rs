@@ -53,6 +53,10 @@ struct StationFile {
     solar_flux_sfu: Option<f64>,
     #[serde(default)]
     mount: Option<MountFile>,
+    #[serde(default)]
+    antennas: Option<f64>,
+    #[serde(default)]
+    booking: Option<super::fleet::BookingFile>,
 }
 
 /// The mount's geometry, by name in the file.
@@ -200,6 +204,10 @@ pub struct Station {
     pub solar_flux_sfu: Option<f64>,
     /// The antenna mount and its axis limits; `None`: every step is taken as trackable.
     pub mount: Option<crate::geometry::Mount>,
+    /// Identical antennas at the site, each booked on its own in the contact plan.
+    pub antennas: usize,
+    /// The antennas' booking rules (turnaround, minimum contact, blocked periods).
+    pub booking: super::fleet::Booking,
     /// Keys filled from defaults, with the value and its source: reported in outputs.
     pub defaults: Vec<DefaultUsed>,
 }
@@ -266,6 +274,8 @@ impl Station {
         let climate = climate(&mut c, &file.climate.unwrap_or_default())?;
         let solar_flux_sfu = c.optional(&limits::SOLAR_FLUX_SFU, file.solar_flux_sfu)?;
         let mount = file.mount.as_ref().map(|m| mount(&c, m)).transpose()?;
+        let antennas = whole(&c, &limits::ANTENNAS, file.antennas)?.unwrap_or(1);
+        let booking = super::fleet::booking(&mut c, &file.booking.unwrap_or_default())?;
         Ok(Station {
             name: file.name.trim().to_string(),
             source: path.to_path_buf(),
@@ -280,9 +290,26 @@ impl Station {
             man_made_noise: file.man_made_noise,
             solar_flux_sfu,
             mount,
+            antennas,
+            booking,
             defaults: c.defaults,
         })
     }
+}
+
+/// A whole number within its range (`antennas: 2`), or `None` when not given.
+pub(super) fn whole(
+    c: &Checker,
+    r: &limits::Range,
+    v: Option<f64>,
+) -> Result<Option<usize>, ConfigError> {
+    let Some(v) = c.optional(r, v)? else {
+        return Ok(None);
+    };
+    if v.fract() != 0.0 {
+        return Err(c.err(r.key, format!("{v} is not a whole number")));
+    }
+    Ok(Some(v as usize))
 }
 
 /// Whether `given` (from the command line) names the station `name`: the same words, with case

@@ -22,6 +22,7 @@
 //! ```
 
 pub mod bodies;
+pub mod fleet;
 pub mod fuzz_entry;
 pub mod inputs;
 pub mod instant;

@@ -201,6 +201,9 @@ pub enum PlanError {
     },
     #[error("satellite: {0}")]
     Propagator(#[source] PropagationError),
+    /// The contact plan's inputs were refused by the scheduler.
+    #[error("contact plan: {0}")]
+    Schedule(#[source] crate::schedule::ScheduleError),
     /// A pass sink failed (writing a file, drawing a chart).
     #[error("{0}")]
     Sink(#[source] Box<dyn std::error::Error + Send + Sync>),

@@ -20,7 +20,7 @@ pub struct FileError {
     pub kind: Option<std::io::ErrorKind>,
 }
 
-fn file_error(path: &Path, e: impl std::fmt::Display) -> FileError {
+pub(crate) fn file_error(path: &Path, e: impl std::fmt::Display) -> FileError {
     FileError {
         path: path.to_path_buf(),
         message: e.to_string(),
@@ -28,7 +28,7 @@ fn file_error(path: &Path, e: impl std::fmt::Display) -> FileError {
     }
 }
 
-fn io_error(path: &Path, e: std::io::Error) -> FileError {
+pub(crate) fn io_error(path: &Path, e: std::io::Error) -> FileError {
     FileError {
         kind: Some(e.kind()),
         ..file_error(path, e)
@@ -161,7 +161,8 @@ pub fn estimate_output(
     let (mut files, mut bytes) = (0u64, 0u64);
     let c = &request.chart_bytes;
     if request.csv {
-        files += n + 4;
+        // Per pass, the four summaries, the contact plan's three tables and a calendar per station.
+        files += n + 4 + 3 + stations;
         bytes += rows * CSV_ROW_BYTES + n * 4 * 1024;
     }
     if request.pass_charts {
@@ -169,10 +170,12 @@ pub fn estimate_output(
         bytes += n * c.pass;
     }
     if request.sky_charts {
-        // Sky charts per station and day, and the mask (per station and all stations) and
-        // summary charts.
-        files += stations * days + stations + 2;
-        bytes += stations * days * c.sky + (stations + 2) * c.window;
+        // Sky charts per station and day, the mask (per station and all stations) and summary
+        // charts, and the contact plan's timeline per day (and its storage chart when a store
+        // is followed).
+        let storage = u64::from(planner.mission().satellites[0].onboard.is_some());
+        files += stations * days + stations + 2 + days + storage;
+        bytes += stations * days * c.sky + (stations + 2 + days + storage) * c.window;
     }
     Ok(OutputEstimate {
         passes,

@@ -4,7 +4,9 @@
 
 mod atomic;
 pub mod budget;
+pub mod calendar;
 pub mod compare;
+pub mod contacts;
 pub mod files;
 pub mod geometry;
 pub mod plan;

@@ -3,7 +3,6 @@
 //! here.
 
 use crate::config::DefaultUsed;
-use crate::plan::inputs::satellite_name;
 use crate::plan::prepare::RateSet;
 use crate::plan::rate::RateOption;
 use crate::plan::results::ratio;
@@ -95,7 +94,7 @@ impl PlanPassRow {
         PlanPassRow {
             number: p.number,
             pass_id: crate::report::pass_id(station, &p.pass),
-            satellite: satellite_name(planner.elements()),
+            satellite: crate::plan::fleet::name_of(planner),
             station: station.clone(),
             aos: format_ms(&p.pass.aos),
             tca: format_ms(&p.pass.tca),
@@ -144,6 +143,13 @@ impl PlanPassRow {
 /// Totals over the window.
 #[derive(Debug, Clone, Serialize)]
 pub struct TotalsRow {
+    /// What the contact plan delivers: the sum over its booked contacts (absent where no
+    /// contact plan was made).
+    #[serde(
+        serialize_with = "crate::report::whole_opt",
+        skip_serializing_if = "Option::is_none"
+    )]
+    pub delivered_bits: Option<f64>,
     pub passes: usize,
     pub passes_closing: usize,
     pub contact_s: f64,
@@ -179,6 +185,7 @@ impl TotalsRow {
     pub fn new(t: &Totals, rates: &RateSet) -> Self {
         let single = t.single_rate.map(|(k, v)| (&rates.ladder[k.0], v));
         TotalsRow {
+            delivered_bits: None,
             passes: t.passes,
             passes_closing: t.passes_closing,
             contact_s: round(t.contact_s, 1),
@@ -607,6 +614,10 @@ impl Assumptions {
 #[derive(Debug, Clone, Serialize)]
 pub struct PlanDoc {
     pub satellite: String,
+    /// The contact plan: `contacts`, `satellites`, `stations`, `schedule_bound`, `scheduler_s`
+    /// (present in `plan`'s summary; see [`PlanDoc::attach`]).
+    #[serde(flatten)]
+    pub contact: Option<super::contacts::ContactDoc>,
     pub passes: Vec<PlanPassRow>,
     pub totals: TotalsRow,
     pub days: Vec<DayRow>,
@@ -683,6 +694,28 @@ impl PfdBlock {
 }
 
 impl PlanDoc {
+    /// The summary of a plan with its contact plan (what `plan` writes).
+    pub fn with_contacts(
+        planner: &Planner,
+        plan: &Plan,
+        contacts: &crate::plan::fleet::ContactPlan,
+    ) -> Self {
+        let mut doc = PlanDoc::new(planner, plan);
+        let plans = std::slice::from_ref(plan);
+        doc.attach(super::contacts::ContactDoc::new(
+            contacts,
+            plans,
+            planner.stations(),
+        ));
+        doc
+    }
+
+    /// Add the contact plan: its fields, and the delivered total first among the totals.
+    pub fn attach(&mut self, contact: super::contacts::ContactDoc) {
+        self.totals.delivered_bits = Some(contact.delivered_bits());
+        self.contact = Some(contact);
+    }
+
     pub fn new(planner: &Planner, plan: &Plan) -> Self {
         PlanDoc {
             passes: plan
@@ -699,7 +732,8 @@ impl PlanDoc {
     /// document, about 1 kB per pass.
     pub fn without_pass_rows(planner: &Planner, plan: &Plan) -> Self {
         PlanDoc {
-            satellite: satellite_name(planner.elements()),
+            satellite: crate::plan::fleet::name_of(planner),
+            contact: None,
             passes: Vec::new(),
             totals: TotalsRow::new(&plan.totals, planner.rates()),
             days: plan.days.iter().map(DayRow::from).collect(),

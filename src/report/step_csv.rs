@@ -50,7 +50,7 @@ pub fn push_rounded(buf: &mut Vec<u8>, x: f64, decimals: usize) {
         return;
     }
     let mut width = decimals;
-    while frac % 10 == 0 {
+    while frac.is_multiple_of(10) {
         frac /= 10;
         width -= 1;
     }

@@ -12,6 +12,7 @@ mod chart_render;
 mod cli_budget;
 mod cli_options;
 mod cli_passes;
+mod contact_plan;
 mod fuzz_replay;
 mod geometry_skyfield;
 mod golden_outputs;

@@ -4,8 +4,9 @@
 
 use crate::common::bin::{clean_error, json, root, run};
 use passbudget::config::mission::Mission;
+use passbudget::plan::fleet::contact_plan;
 use passbudget::plan::{PlanRequest, Planner, WindowRequest};
-use passbudget::report::plan::TotalsRow;
+use passbudget::report::plan::PlanDoc;
 
 const MISSION: &str = "examples/wrenlet-1.yaml";
 
@@ -30,7 +31,9 @@ fn library_totals_equal_the_command_line_totals() {
     let mission = Mission::load(&root().join(MISSION)).unwrap();
     let planner = Planner::new(&mission, &PlanRequest::default()).unwrap();
     let plan = planner.collect().unwrap();
-    let lib = serde_json::to_value(TotalsRow::new(&plan.totals, planner.rates())).unwrap();
+    let contacts = contact_plan(&[&planner], std::slice::from_ref(&plan)).unwrap();
+    let doc = PlanDoc::with_contacts(&planner, &plan, &contacts);
+    let lib = serde_json::to_value(&doc.totals).unwrap();
     let cli = json(&run(&["plan", MISSION, "--format", "json"]));
     assert_eq!(lib, cli["totals"]);
     assert!(lib["passes"].as_u64().unwrap() > 100);

@@ -252,7 +252,7 @@ proptest! {
         }
         let mission = Mission::load(&path).unwrap();
         let passes = Planner::new(&mission, &PlanRequest::default()).unwrap().collect().unwrap().passes.len();
-        for name in ["summary.json", "summary.csv", "days.csv", "masks.csv"] {
+        for name in ["summary.json", "summary.csv", "days.csv", "masks.csv", "contacts.csv", "satellites.csv", "stations.csv", "calendar-proptest-station.ics"] {
             prop_assert!(matches!(after.get(name), Some(Some(_))), "{} missing", name);
         }
         prop_assert_ne!(&after["summary.json"], &before["summary.json"]);
@@ -261,7 +261,7 @@ proptest! {
         prop_assert_eq!(pass_csvs, passes);
         // Nothing else: the manifest, and no staging folder, journal or file of the earlier set left behind.
         prop_assert!(after.contains_key(".passbudget-manifest"));
-        prop_assert_eq!(after.len(), 6 + passes, "{:?}", after.keys().collect::<Vec<_>>());
+        prop_assert_eq!(after.len(), 10 + passes, "{:?}", after.keys().collect::<Vec<_>>());
         let doc: serde_json::Value = serde_json::from_slice(after["summary.json"].as_ref().unwrap()).unwrap();
         prop_assert_eq!(doc["passes"].as_array().map(Vec::len), Some(passes));
     }

@@ -1,0 +1,147 @@
+//! The contact plan on stdout (`plan`): booked contacts, each satellite's data, each station's
+//! booked time and the headline figure, the delivered data.
+
+use crate::cli::table::{Align, Table};
+use anyhow::Result;
+use passbudget::engfmt;
+use passbudget::report::contacts::ContactDoc;
+use std::io::Write;
+
+fn cell_or_dash(x: Option<String>) -> String {
+    x.unwrap_or_else(|| "-".into())
+}
+
+fn hours(seconds: f64) -> String {
+    let s = seconds.max(0.0).round() as i64;
+    format!("{}:{:02}:{:02}", s / 3600, (s / 60) % 60, s % 60)
+}
+
+/// `2026-12-02T01:23:45.678Z` as `12-02 01:23:45`.
+fn short_time(rfc3339: &str) -> String {
+    rfc3339
+        .get(5..19)
+        .map(|s| s.replace('T', " "))
+        .unwrap_or_else(|| rfc3339.to_string())
+}
+
+/// The headline: what the schedule delivers, with its bound, before anything else.
+pub fn print_headline(
+    doc: &ContactDoc,
+    unconstrained_bits: f64,
+    out: &mut dyn Write,
+) -> Result<()> {
+    let b = &doc.schedule_bound;
+    writeln!(
+        out,
+        "Delivered (contact plan): {} in {} contacts; schedule bound {} (gap {:.1} %, scheduled in {:.0} ms); unconstrained sum over passes {} (no antenna, store or turnaround limit)",
+        engfmt::volume(doc.delivered_bits()),
+        doc.contacts.len(),
+        engfmt::volume(b.delivered_upper_bits),
+        b.gap * 100.0,
+        doc.scheduler_s * 1e3,
+        engfmt::volume(unconstrained_bits)
+    )?;
+    Ok(())
+}
+
+/// The booked contacts, then the satellites and the stations.
+pub fn print_contact_plan(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
+    writeln!(out, "Contact plan (booked contacts):")?;
+    let mut t = Table::new(&[
+        ("satellite", Align::Left),
+        ("antenna", Align::Left),
+        ("set-up (UTC)", Align::Left),
+        ("start", Align::Left),
+        ("end", Align::Left),
+        ("el start/end", Align::Right),
+        ("rate", Align::Right),
+        ("scheme", Align::Left),
+        ("min margin", Align::Right),
+        ("delivered", Align::Right),
+    ]);
+    for c in &doc.contacts {
+        t.row(vec![
+            c.satellite.clone(),
+            c.antenna.clone(),
+            short_time(&c.setup_start),
+            c.start.get(11..19).unwrap_or("").to_string(),
+            c.end.get(11..19).unwrap_or("").to_string() + if c.shortened { " *" } else { "" },
+            format!("{:.1}/{:.1}", c.start_elevation_deg, c.end_elevation_deg),
+            engfmt::rate(c.rate_bps),
+            c.scheme.clone(),
+            cell_or_dash(c.min_margin_db.map(|m| format!("{m:.1} dB"))),
+            engfmt::volume(c.volume_bits),
+        ]);
+    }
+    write!(out, "{}", t.render())?;
+    if doc.contacts.iter().any(|c| c.shortened) {
+        writeln!(
+            out,
+            "*: shortened to make room for another contact, its set-up or a blocked period."
+        )?;
+    }
+    writeln!(out)?;
+    print_satellites(doc, out)?;
+    print_stations(doc, out)
+}
+
+fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
+    let mut t = Table::new(&[
+        ("satellite", Align::Left),
+        ("priority", Align::Right),
+        ("contacts", Align::Right),
+        ("generated", Align::Right),
+        ("delivered", Align::Right),
+        ("lost (full)", Align::Right),
+        ("store peak", Align::Right),
+        ("left on board", Align::Right),
+        ("latency max/median", Align::Right),
+    ]);
+    let vol = |x: Option<f64>| cell_or_dash(x.map(engfmt::volume));
+    for s in &doc.satellites {
+        let latency = match (s.max_latency_s, s.median_latency_s) {
+            (Some(m), Some(d)) => format!("{}/{}", hours(m), hours(d)),
+            _ => "-".into(),
+        };
+        t.row(vec![
+            s.name.clone(),
+            engfmt::three_digits(s.priority),
+            s.contacts.to_string(),
+            vol(s.generated_bits),
+            engfmt::volume(s.delivered_bits),
+            vol(s.lost_bits),
+            vol(s.storage_peak_bits),
+            vol(s.final_fill_bits),
+            latency,
+        ]);
+    }
+    write!(out, "{}", t.render())?;
+    if doc.satellites.iter().any(|s| !s.onboard_followed) {
+        writeln!(out, "-: no onboard block: the satellite always has data to send, its store is not followed.")?;
+    }
+    writeln!(out, "latency: age of the oldest data on board at the start of each downlink (h:mm:ss), the largest and the median.")?;
+    writeln!(out)?;
+    Ok(())
+}
+
+fn print_stations(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
+    let mut t = Table::new(&[
+        ("station", Align::Left),
+        ("antennas", Align::Right),
+        ("contacts", Align::Right),
+        ("booked h:mm:ss", Align::Right),
+        ("utilization", Align::Right),
+    ]);
+    for s in &doc.stations {
+        t.row(vec![
+            s.name.clone(),
+            s.antennas.to_string(),
+            s.contacts.to_string(),
+            hours(s.booked_s),
+            format!("{:.1} %", s.utilization * 100.0),
+        ]);
+    }
+    write!(out, "{}", t.render())?;
+    writeln!(out)?;
+    Ok(())
+}

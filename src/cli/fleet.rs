@@ -1,0 +1,83 @@
+//! `passbudget plan` on a mission with several satellites: every satellite planned over the
+//! shared stations, then one contact plan for the fleet.
+
+use crate::cli::common::{warn, Format};
+use crate::cli::output::{commit, in_out_folder, stage};
+use crate::cli::plan::PlanArgs;
+use anyhow::Result;
+use passbudget::config::mission::Mission;
+use passbudget::plan::fleet::{ContactPlan, FleetPlanner};
+use passbudget::report::contacts::{write_contact_files, ContactDoc, FleetDoc};
+use passbudget::report::{to_csv, CommitMode};
+use std::io::Write;
+use std::path::Path;
+
+/// Plan the whole fleet of `mission` and print (and with `--out`, write) its contact plan.
+pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Result<()> {
+    let staging = a.out.as_deref().map(stage).transpose()?;
+    let request = a.window.request(false)?;
+    let fleet = FleetPlanner::new(mission, &request).map_err(|e| {
+        crate::cli::window::name_flag(
+            e,
+            &request,
+            &mission.source,
+            &a.window.mission.overrides().unwrap_or_default(),
+        )
+    })?;
+    let target = a.out.clone().unwrap_or_default();
+    let in_out = |e: anyhow::Error| match &staging {
+        Some(st) => in_out_folder(e, st, &target),
+        None => e,
+    };
+    let (plans, cp) = fleet.run().map_err(|e| in_out(e.into()))?;
+    let planners: Vec<_> = fleet.planners().iter().collect();
+    let cdoc = ContactDoc::new(&cp, &plans, fleet.planners()[0].stations());
+    let doc = FleetDoc::new(&planners, &plans, cdoc);
+    warn(&doc.warnings);
+    if let Some(st) = staging {
+        write_fleet_files(&doc, &cp, a, st.path()).map_err(|e| in_out_folder(e, &st, &target))?;
+        commit(st, CommitMode::Replace, &target)?;
+    }
+    match a.format {
+        Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
+        Format::Csv => write!(out, "{}", to_csv(&doc.contact.contacts, &doc.warnings)?)?,
+        Format::Table => print_fleet(&doc, out)?,
+    }
+    Ok(())
+}
+
+/// `summary.json`, the contact plan's CSV and calendar files, each satellite's pass list and
+/// (with `--charts`) the timeline and storage charts.
+fn write_fleet_files(doc: &FleetDoc, cp: &ContactPlan, a: &PlanArgs, dir: &Path) -> Result<()> {
+    let json = serde_json::to_string_pretty(doc)? + "\n";
+    passbudget::report::write_atomic(&dir.join("summary.json"), json.as_bytes())?;
+    let passes = to_csv(&doc.passes, &doc.warnings)?;
+    passbudget::report::write_atomic(&dir.join("passes.csv"), passes.as_bytes())?;
+    write_contact_files(dir, &doc.contact, &doc.warnings, cp.window_start)?;
+    if a.charts {
+        crate::cli::plan::contact_charts(cp, &doc.contact, (&doc.mission, &doc.warnings), dir, a)?;
+    }
+    Ok(())
+}
+
+fn print_fleet(doc: &FleetDoc, out: &mut dyn Write) -> Result<()> {
+    writeln!(
+        out,
+        "{}: {} satellites over {} station(s), {} to {}",
+        doc.mission,
+        doc.contact.satellites.len(),
+        doc.contact.stations.len(),
+        doc.window_start,
+        doc.window_end
+    )?;
+    crate::cli::contacts::print_headline(&doc.contact, doc.totals.unconstrained_volume_bits, out)?;
+    writeln!(out)?;
+    crate::cli::contacts::print_contact_plan(&doc.contact, out)?;
+    writeln!(
+        out,
+        "{} passes, {} with a closing rate; per-pass detail: plan --satellite NAME (or passes.csv with --out).",
+        doc.totals.passes, doc.totals.passes_closing
+    )?;
+    writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
+    Ok(())
+}

@@ -1,0 +1,336 @@
+//! The contact plan: every satellite of the mission planned over the shared stations, then the
+//! schedule ([`crate::schedule`]) choosing which antenna takes which contact, for how long, with
+//! the data each satellite has on board.
+//!
+//! A contact candidate is a pass whose fixed rate closes: its span runs from the first to the
+//! last closed second of that rate (the pass's `segments`), its volume is the rate times the
+//! closed seconds, spread evenly over the span when the span is shortened. A station with
+//! several antennas gives one candidate per antenna. A satellite with no `onboard:` block always
+//! has data to send: its store is taken as full from the start and as large as everything it
+//! could deliver in the window, so the store never limits it.
+//!
+//! ```no_run
+//! use passbudget::config::mission::Mission;
+//! use passbudget::plan::{fleet::FleetPlanner, PlanRequest};
+//!
+//! let mission = Mission::load("examples/fleet/kestrel-fleet.yaml".as_ref())?;
+//! let fleet = FleetPlanner::new(&mission, &PlanRequest::default())?;
+//! let (plans, contacts) = fleet.run()?;
+//! println!("{} passes, {} contacts booked", plans.iter().map(|p| p.passes.len()).sum::<usize>(), contacts.contacts.len());
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
+
+use super::inputs::satellite_name;
+use super::{Plan, PlanError, PlanRequest, Planner};
+use crate::config::fleet::{Generation as GenerationConfig, Onboard};
+use crate::config::mission::{Mission, SatelliteConfig};
+use crate::orbit::Propagator;
+use crate::schedule::{self, Antenna, BookingRules, Candidate, Generation, Satellite, Schedule};
+use crate::timefmt::{add_seconds, seconds_between};
+use chrono::{DateTime, Utc};
+
+/// Every satellite of a mission, prepared for one window.
+pub struct FleetPlanner {
+    planners: Vec<Planner>,
+    names: Vec<String>,
+}
+
+impl FleetPlanner {
+    /// One planner per satellite (the same request for all; each checks its own elements).
+    pub fn new(mission: &Mission, request: &PlanRequest) -> Result<FleetPlanner, PlanError> {
+        let planners = (0..mission.satellites.len())
+            .map(|i| Planner::new(&mission.for_satellite(i), request))
+            .collect::<Result<Vec<_>, _>>()?;
+        let names = planners.iter().map(name_of).collect();
+        Ok(FleetPlanner { planners, names })
+    }
+
+    pub fn planners(&self) -> &[Planner] {
+        &self.planners
+    }
+
+    /// The satellites' names: given in the mission file, else the element set's.
+    pub fn names(&self) -> &[String] {
+        &self.names
+    }
+
+    /// Plan every satellite, then schedule the contacts.
+    pub fn run(&self) -> Result<(Vec<Plan>, ContactPlan), PlanError> {
+        let plans = self
+            .planners
+            .iter()
+            .map(Planner::collect)
+            .collect::<Result<Vec<_>, _>>()?;
+        let refs: Vec<&Planner> = self.planners.iter().collect();
+        let contacts = contact_plan(&refs, &plans)?;
+        Ok((plans, contacts))
+    }
+}
+
+/// A satellite's name for the contact plan: the mission file's, else its element set's.
+pub fn name_of(p: &Planner) -> String {
+    p.mission().satellites[0]
+        .name
+        .clone()
+        .unwrap_or_else(|| satellite_name(p.elements()))
+}
+
+/// One booked contact, as an operator books it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BookedContact {
+    pub satellite: usize,
+    pub station: usize,
+    /// 0-based index among the station's antennas.
+    pub antenna: usize,
+    /// The planned pass (index into that satellite's `Plan::passes`).
+    pub pass: usize,
+    pub start: DateTime<Utc>,
+    pub end: DateTime<Utc>,
+    /// When the antenna starts slewing and setting up (start - turnaround).
+    pub setup_start: DateTime<Utc>,
+    pub rate_bps: f64,
+    pub scheme: String,
+    /// What the contact delivers: the link's volume, or less when the store runs out, bits.
+    pub volume_bits: f64,
+    /// Lowest margin of the chosen rate over the pass's closed seconds, dB (a shortened contact's
+    /// own lowest margin is at least this).
+    pub min_margin_db: Option<f64>,
+    pub start_elevation_deg: f64,
+    pub end_elevation_deg: f64,
+    /// Shortened to make room for another contact (or by a blocked period).
+    pub shortened: bool,
+}
+
+/// The schedule of a window, with what it was built from.
+#[derive(Debug, Clone)]
+pub struct ContactPlan {
+    pub satellites: Vec<String>,
+    /// Whether each satellite has an `onboard:` block (otherwise its store is not followed).
+    pub followed: Vec<bool>,
+    /// Each satellite's priority weight.
+    pub priority: Vec<f64>,
+    /// Each satellite's store capacity as scheduled, bits.
+    pub capacity_bits: Vec<f64>,
+    /// Each antenna's blocked periods.
+    pub antenna_blocked: Vec<Vec<(DateTime<Utc>, DateTime<Utc>)>>,
+    /// Every antenna: (station index, index among the station's antennas).
+    pub antennas: Vec<(usize, usize)>,
+    pub candidates: Vec<Candidate>,
+    pub schedule: Schedule,
+    pub contacts: Vec<BookedContact>,
+    /// Wall time of the scheduler itself, s.
+    pub scheduler_s: f64,
+    pub window_start: DateTime<Utc>,
+    pub window_s: f64,
+}
+
+/// Build the contact candidates of planned satellites (all planned over the same stations and
+/// window) and schedule them.
+pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan, PlanError> {
+    let first = planners[0];
+    let window = first.window();
+    let window_s = seconds_between(&window.start(), &window.end());
+    let stations = first.stations();
+    let mut antennas = Vec::new();
+    let mut resources = Vec::new();
+    for (si, st) in stations.iter().enumerate() {
+        for k in 0..st.station.antennas {
+            antennas.push((si, k));
+            resources.push(antenna(&st.station, k, window.start()));
+        }
+    }
+    let mut candidates = Vec::new();
+    for (sat, plan) in plans.iter().enumerate() {
+        for (pi, p) in plan.passes.iter().enumerate() {
+            let Some(c) = candidate(sat, pi, p, planners[sat]) else {
+                continue;
+            };
+            for (ai, _) in antennas
+                .iter()
+                .enumerate()
+                .filter(|(_, a)| a.0 == p.station_index)
+            {
+                candidates.push(Candidate { antenna: ai, ..c });
+            }
+        }
+    }
+    let satellites: Vec<Satellite> = planners
+        .iter()
+        .enumerate()
+        .map(|(i, p)| satellite(i, p, &candidates, window.start()))
+        .collect();
+    let capacity_bits = satellites.iter().map(|s| s.capacity_bits).collect();
+    let antenna_blocked = antennas
+        .iter()
+        .map(|&(si, _)| stations[si].station.booking.blocked.clone())
+        .collect();
+    let problem = schedule::Problem {
+        window_s,
+        satellites,
+        antennas: resources,
+        candidates: candidates.clone(),
+    };
+    let clock = std::time::Instant::now();
+    let sched = schedule::schedule(&problem).map_err(PlanError::Schedule)?;
+    let scheduler_s = clock.elapsed().as_secs_f64();
+    let contacts = booked(&sched, &candidates, &antennas, planners, plans)?;
+    Ok(ContactPlan {
+        satellites: planners.iter().map(|p| name_of(p)).collect(),
+        followed: planners
+            .iter()
+            .map(|p| p.mission().satellites[0].onboard.is_some())
+            .collect(),
+        priority: planners
+            .iter()
+            .map(|p| p.mission().satellites[0].priority_weight)
+            .collect(),
+        capacity_bits,
+        antenna_blocked,
+        antennas,
+        candidates,
+        schedule: sched,
+        contacts,
+        scheduler_s,
+        window_start: window.start(),
+        window_s,
+    })
+}
+
+/// Antenna `k` of a station, its blocked periods in seconds from the window start.
+fn antenna(st: &crate::config::station::Station, k: usize, start: DateTime<Utc>) -> Antenna {
+    let b = &st.booking;
+    Antenna {
+        name: antenna_name(&st.name, st.antennas, k),
+        station: st.name.clone(),
+        turnaround_s: b.turnaround_s,
+        rules: BookingRules {
+            min_contact_s: b.min_contact_s,
+            min_peak_elevation_deg: b.min_peak_elevation_deg,
+            blocked: b
+                .blocked
+                .iter()
+                .map(|(s, e)| (seconds_between(&start, s), seconds_between(&start, e)))
+                .collect(),
+        },
+    }
+}
+
+/// An antenna's name: the station's, numbered when the station has several.
+pub fn antenna_name(station: &str, antennas: usize, k: usize) -> String {
+    if antennas > 1 {
+        format!("{station} #{}", k + 1)
+    } else {
+        station.to_string()
+    }
+}
+
+/// The candidate of a planned pass (antenna 0; the caller sets it), when its fixed rate closes.
+fn candidate(sat: usize, pi: usize, p: &super::PassPlan, planner: &Planner) -> Option<Candidate> {
+    let option = p.clear.option?;
+    let (first, last) = (p.segments.first()?, p.segments.last()?);
+    let span_s = last.end_s - first.start_s;
+    if span_s <= 0.0 || p.clear.closed_s <= 0.0 {
+        return None;
+    }
+    Some(Candidate {
+        satellite: sat,
+        antenna: 0,
+        start_s: first.start_s,
+        end_s: last.end_s,
+        rate_bps: planner.rates().ladder[option.0].rate_bps,
+        duty: (p.clear.volume_bits / (planner.rates().ladder[option.0].rate_bps * span_s))
+            .clamp(1e-9, 1.0),
+        peak_elevation_deg: p.pass.max_elevation_deg,
+        pass_ref: pi,
+    })
+}
+
+/// A satellite of the schedule: its `onboard:` block, or an always-full store as large as all it
+/// could deliver.
+fn satellite(i: usize, p: &Planner, candidates: &[Candidate], start: DateTime<Utc>) -> Satellite {
+    let cfg: &SatelliteConfig = &p.mission().satellites[0];
+    let (capacity_bits, initial_fill_bits, generation) = match &cfg.onboard {
+        Some(o) => onboard(o, start),
+        None => {
+            let all: f64 = candidates
+                .iter()
+                .filter(|c| c.satellite == i)
+                .map(|c| c.rate_bps * c.duty * (c.end_s - c.start_s))
+                .sum();
+            (all, all, Generation::AverageBps(0.0))
+        }
+    };
+    Satellite {
+        name: name_of(p),
+        priority_weight: cfg.priority_weight,
+        capacity_bits,
+        initial_fill_bits,
+        generation,
+        max_downlinks: cfg.max_downlinks,
+    }
+}
+
+fn onboard(o: &Onboard, start: DateTime<Utc>) -> (f64, f64, Generation) {
+    let generation = match &o.generation {
+        GenerationConfig::Average { rate_bps } => Generation::AverageBps(*rate_bps),
+        GenerationConfig::Windows { windows, .. } => Generation::Windows(
+            windows
+                .iter()
+                .map(|w| schedule::GenerationWindow {
+                    start_s: seconds_between(&start, &w.start),
+                    end_s: seconds_between(&start, &w.end),
+                    rate_bps: w.rate_bps,
+                })
+                .collect(),
+        ),
+    };
+    (o.storage_bits, o.initial_fill_bits, generation)
+}
+
+/// The booked contacts in operator terms: times, the scheme, the elevations at start and end.
+fn booked(
+    s: &Schedule,
+    candidates: &[Candidate],
+    antennas: &[(usize, usize)],
+    planners: &[&Planner],
+    plans: &[Plan],
+) -> Result<Vec<BookedContact>, PlanError> {
+    let props = planners
+        .iter()
+        .map(|p| Propagator::new(p.elements()).map_err(PlanError::Propagator))
+        .collect::<Result<Vec<_>, _>>()?;
+    let start = planners[0].window().start();
+    let mut out = Vec::with_capacity(s.contacts.len());
+    for b in &s.contacts {
+        let c = &candidates[b.candidate];
+        let (si, k) = antennas[c.antenna];
+        let planner = planners[c.satellite];
+        let pass = &plans[c.satellite].passes[c.pass_ref];
+        let observer = &planner.stations()[si].observer;
+        let elevation = |t: DateTime<Utc>| -> Result<f64, PlanError> {
+            let ecef = props[c.satellite]
+                .ecef_at(&t)
+                .map_err(PlanError::Propagator)?;
+            Ok(observer.look(&ecef).elevation_deg)
+        };
+        let (t0, t1) = (add_seconds(&start, b.start_s), add_seconds(&start, b.end_s));
+        let option = pass.clear.option.map(|o| &planner.rates().ladder[o.0]);
+        out.push(BookedContact {
+            satellite: c.satellite,
+            station: si,
+            antenna: k,
+            pass: c.pass_ref,
+            start: t0,
+            end: t1,
+            setup_start: add_seconds(&start, b.setup_start_s),
+            rate_bps: c.rate_bps,
+            scheme: option.map(|o| o.scheme.clone()).unwrap_or_default(),
+            volume_bits: b.volume_bits,
+            min_margin_db: pass.clear.min_margin_db,
+            start_elevation_deg: elevation(t0)?,
+            end_elevation_deg: elevation(t1)?,
+            shortened: b.shortened,
+        });
+    }
+    Ok(out)
+}

@@ -1,0 +1,67 @@
+//! The booked contacts as iCalendar (RFC 5545), one calendar per station, so operations staff see
+//! them in their own calendars. Written with the `icalendar` crate.
+//!
+//! Each contact is one event (VEVENT, RFC 5545 section 3.6.1) from the antenna's set-up start to
+//! the contact's end: the antenna is busy for all of it. The summary names the satellite, the
+//! antenna and the rate; the description gives the contact's start, the elevations, the scheme,
+//! the expected volume and the planning caution. The UID is stable from run to run for the same
+//! contact (satellite, antenna, pass), so a calendar that imports a new plan updates its events.
+
+use super::contacts::ContactRow;
+use chrono::{DateTime, Utc};
+use icalendar::{Calendar, Component, Event, EventLike};
+
+/// The calendar of one station's booked contacts (`rows` may hold other stations': they are
+/// left out). `stamp` is the DTSTAMP of every event: `plan` gives the window start, not the
+/// time of the run, so that the same inputs write the same files.
+pub fn station_calendar(
+    station: &str,
+    rows: &[ContactRow],
+    stamp: DateTime<Utc>,
+) -> Result<String, String> {
+    let mut cal = Calendar::new();
+    cal.name(&format!("passbudget contacts: {station}"));
+    for r in rows.iter().filter(|r| r.station == station) {
+        cal.push(event(r, stamp)?);
+    }
+    Ok(cal.done().to_string())
+}
+
+fn event(r: &ContactRow, stamp: DateTime<Utc>) -> Result<Event, String> {
+    let time = |s: &str| crate::timefmt::parse_utc(s);
+    let (setup, end) = (time(&r.setup_start)?, time(&r.end)?);
+    let uid = format!(
+        "{}-{}-{}@passbudget",
+        super::slug(&r.satellite),
+        super::slug(&r.antenna),
+        r.pass_id
+    );
+    let description = format!(
+        "Set-up from {}; contact {} to {} ({:.0} s), elevation {:.1} to {:.1} deg.\nRate {} ({}), expected {}{}.\n{}",
+        r.setup_start,
+        r.start,
+        r.end,
+        r.duration_s,
+        r.start_elevation_deg,
+        r.end_elevation_deg,
+        crate::engfmt::rate(r.rate_bps),
+        r.scheme,
+        crate::engfmt::volume(r.volume_bits),
+        if r.shortened { ", shortened to fit the schedule" } else { "" },
+        super::plan::CAUTION
+    );
+    Ok(Event::new()
+        .uid(&uid)
+        .timestamp(stamp)
+        .summary(&format!(
+            "{} downlink, {} ({})",
+            r.satellite,
+            r.antenna,
+            crate::engfmt::rate(r.rate_bps)
+        ))
+        .description(&description)
+        .location(&r.antenna)
+        .starts(setup)
+        .ends(end)
+        .done())
+}

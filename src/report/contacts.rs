@@ -1,0 +1,325 @@
+//! Wire format of the contact plan: the booked contacts, each satellite's data, each station's
+//! booked time and the schedule's bound (public interface; fields documented in the README).
+
+use crate::plan::fleet::{antenna_name, BookedContact, ContactPlan};
+use crate::plan::prepare::StationModel;
+use crate::plan::Plan;
+use crate::report::round;
+use crate::timefmt::format_ms;
+use serde::Serialize;
+
+/// One booked contact.
+#[derive(Debug, Clone, Serialize)]
+pub struct ContactRow {
+    pub satellite: String,
+    pub station: String,
+    /// The antenna: the station's name, numbered (`Nordkam #2`) when it has several.
+    pub antenna: String,
+    pub start: String,
+    pub end: String,
+    /// When the antenna starts slewing and setting up for this contact.
+    pub setup_start: String,
+    pub duration_s: f64,
+    #[serde(serialize_with = "crate::report::whole")]
+    pub rate_bps: f64,
+    pub scheme: String,
+    /// What the contact delivers (limited by the data on board), bits.
+    #[serde(serialize_with = "crate::report::whole")]
+    pub volume_bits: f64,
+    pub min_margin_db: Option<f64>,
+    pub start_elevation_deg: f64,
+    pub end_elevation_deg: f64,
+    /// Shortened to make room for another contact or a blocked period.
+    pub shortened: bool,
+    /// The pass it books ([`crate::report::pass_id`]).
+    pub pass_id: String,
+}
+
+/// One satellite's data over the window.
+#[derive(Debug, Clone, Serialize)]
+pub struct SatelliteRow {
+    pub name: String,
+    pub priority: f64,
+    /// Whether its store is followed (an `onboard:` block); when not, the generation, loss,
+    /// storage and latency fields are null.
+    pub onboard_followed: bool,
+    #[serde(serialize_with = "crate::report::whole_opt")]
+    pub generated_bits: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole")]
+    pub delivered_bits: f64,
+    #[serde(serialize_with = "crate::report::whole_opt")]
+    pub lost_bits: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
+    pub storage_peak_bits: Option<f64>,
+    #[serde(serialize_with = "crate::report::whole_opt")]
+    pub final_fill_bits: Option<f64>,
+    /// Age of the oldest data on board at the start of each downlink: the largest and the median, s.
+    pub max_latency_s: Option<f64>,
+    pub median_latency_s: Option<f64>,
+    pub contacts: usize,
+    /// The sum over its passes at the fixed rate, with no antenna, store or turnaround limit.
+    #[serde(serialize_with = "crate::report::whole")]
+    pub unconstrained_volume_bits: f64,
+}
+
+/// One station's booked time.
+#[derive(Debug, Clone, Serialize)]
+pub struct StationRow {
+    pub name: String,
+    pub antennas: usize,
+    pub contacts: usize,
+    /// Contact time booked over all its antennas (set-up not included), s.
+    pub booked_s: f64,
+    /// Booked time over (window length x antennas).
+    pub utilization: f64,
+}
+
+/// The schedule's upper bound on the delivered data.
+#[derive(Debug, Clone, Serialize)]
+pub struct ScheduleBoundRow {
+    #[serde(serialize_with = "crate::report::whole")]
+    pub delivered_upper_bits: f64,
+    /// (bound - delivered) / bound.
+    pub gap: f64,
+}
+
+/// The contact plan's part of a summary.
+#[derive(Debug, Clone, Serialize)]
+pub struct ContactDoc {
+    pub contacts: Vec<ContactRow>,
+    pub satellites: Vec<SatelliteRow>,
+    pub stations: Vec<StationRow>,
+    pub schedule_bound: ScheduleBoundRow,
+    /// Wall time of the scheduler, s: shown in the table, kept out of the files (it changes from
+    /// run to run, and the same inputs write the same files).
+    #[serde(skip)]
+    pub scheduler_s: f64,
+}
+
+impl ContactDoc {
+    /// The rows of a contact plan over `stations` (the planners' stations, shared by the fleet).
+    pub fn new(cp: &ContactPlan, plans: &[Plan], stations: &[StationModel]) -> Self {
+        let stations: Vec<(String, usize)> = stations
+            .iter()
+            .map(|s| (s.station.name.clone(), s.station.antennas))
+            .collect();
+        let stations = stations.as_slice();
+        let contacts = cp
+            .contacts
+            .iter()
+            .map(|c| contact_row(cp, plans, stations, c))
+            .collect();
+        let satellites = (0..cp.satellites.len())
+            .map(|i| satellite_row(cp, plans, i))
+            .collect();
+        let station_rows = stations
+            .iter()
+            .enumerate()
+            .map(|(si, (name, n))| {
+                let booked_s: f64 = cp
+                    .contacts
+                    .iter()
+                    .filter(|c| c.station == si)
+                    .map(|c| (c.end - c.start).as_seconds_f64())
+                    .sum();
+                StationRow {
+                    name: name.clone(),
+                    antennas: *n,
+                    contacts: cp.contacts.iter().filter(|c| c.station == si).count(),
+                    booked_s: round(booked_s, 1),
+                    utilization: round(booked_s / (cp.window_s * *n as f64), 4),
+                }
+            })
+            .collect();
+        ContactDoc {
+            contacts,
+            satellites,
+            stations: station_rows,
+            schedule_bound: ScheduleBoundRow {
+                delivered_upper_bits: cp.schedule.bound.delivered_upper_bits.round(),
+                gap: round(cp.schedule.bound.gap, 4),
+            },
+            scheduler_s: round(cp.scheduler_s, 4),
+        }
+    }
+
+    /// The sum over the booked contacts, bits.
+    pub fn delivered_bits(&self) -> f64 {
+        self.contacts.iter().map(|c| c.volume_bits).sum()
+    }
+}
+
+fn contact_row(
+    cp: &ContactPlan,
+    plans: &[Plan],
+    stations: &[(String, usize)],
+    c: &BookedContact,
+) -> ContactRow {
+    let (name, n) = &stations[c.station];
+    let pass = &plans[c.satellite].passes[c.pass].pass;
+    ContactRow {
+        satellite: cp.satellites[c.satellite].clone(),
+        station: name.clone(),
+        antenna: antenna_name(name, *n, c.antenna),
+        start: format_ms(&c.start),
+        end: format_ms(&c.end),
+        setup_start: format_ms(&c.setup_start),
+        duration_s: round((c.end - c.start).as_seconds_f64(), 1),
+        rate_bps: c.rate_bps,
+        scheme: c.scheme.clone(),
+        volume_bits: c.volume_bits.round(),
+        min_margin_db: c.min_margin_db.map(|m| round(m, 2)),
+        start_elevation_deg: round(c.start_elevation_deg, 2),
+        end_elevation_deg: round(c.end_elevation_deg, 2),
+        shortened: c.shortened,
+        pass_id: crate::report::pass_id(name, pass),
+    }
+}
+
+fn satellite_row(cp: &ContactPlan, plans: &[Plan], i: usize) -> SatelliteRow {
+    let s = &cp.schedule.satellites[i];
+    let followed = cp.followed[i];
+    let when = |x: f64| followed.then_some(x.round());
+    let latency = followed && !s.latencies_s.is_empty();
+    SatelliteRow {
+        name: cp.satellites[i].clone(),
+        priority: cp.priority[i],
+        onboard_followed: followed,
+        generated_bits: when(s.generated_bits),
+        delivered_bits: cp
+            .contacts
+            .iter()
+            .filter(|c| c.satellite == i)
+            .map(|c| c.volume_bits.round())
+            .sum(),
+        lost_bits: when(s.lost_bits),
+        storage_peak_bits: when(s.storage_peak_bits),
+        final_fill_bits: when(s.final_fill_bits),
+        max_latency_s: latency.then_some(round(s.max_latency_s, 1)),
+        median_latency_s: latency.then_some(round(s.median_latency_s, 1)),
+        contacts: cp.contacts.iter().filter(|c| c.satellite == i).count(),
+        unconstrained_volume_bits: plans[i].totals.volume_bits.round(),
+    }
+}
+
+/// The whole fleet's summary (`plan --format json` and `summary.json` for a mission with several
+/// satellites): the contact plan, the totals, every satellite's passes and every warning.
+#[derive(Debug, Clone, Serialize)]
+pub struct FleetDoc {
+    pub mission: String,
+    pub window_start: String,
+    pub window_end: String,
+    pub totals: FleetTotalsRow,
+    #[serde(flatten)]
+    pub contact: ContactDoc,
+    /// Every satellite's passes (the `satellite` field says whose), in AOS order per satellite.
+    pub passes: Vec<super::plan::PlanPassRow>,
+    /// Each warning once, prefixed with the satellite it concerns.
+    pub warnings: Vec<String>,
+    pub caution: &'static str,
+}
+
+/// The fleet's totals: the delivered data first.
+#[derive(Debug, Clone, Serialize)]
+pub struct FleetTotalsRow {
+    /// The sum over the booked contacts.
+    #[serde(serialize_with = "crate::report::whole")]
+    pub delivered_bits: f64,
+    pub contacts: usize,
+    pub passes: usize,
+    pub passes_closing: usize,
+    /// The sum over every satellite's passes at its fixed rate, with no antenna, store or
+    /// turnaround limit (two satellites over one antenna both count).
+    #[serde(serialize_with = "crate::report::whole")]
+    pub unconstrained_volume_bits: f64,
+    pub days: f64,
+}
+
+impl FleetDoc {
+    /// `planners[i]` planned `plans[i]`.
+    pub fn new(
+        planners: &[&crate::plan::Planner],
+        plans: &[Plan],
+        contact: ContactDoc,
+    ) -> FleetDoc {
+        let w = planners[0].window();
+        let mut passes = Vec::new();
+        for (p, plan) in planners.iter().zip(plans) {
+            passes.extend(
+                plan.passes
+                    .iter()
+                    .map(|x| super::plan::PlanPassRow::new(p, x)),
+            );
+        }
+        let warnings = fleet_warnings(planners, plans);
+        FleetDoc {
+            mission: planners[0].mission().name.clone(),
+            window_start: format_ms(&w.start()),
+            window_end: format_ms(&w.end()),
+            totals: FleetTotalsRow {
+                delivered_bits: contact.delivered_bits(),
+                contacts: contact.contacts.len(),
+                passes: plans.iter().map(|p| p.totals.passes).sum(),
+                passes_closing: plans.iter().map(|p| p.totals.passes_closing).sum(),
+                unconstrained_volume_bits: plans.iter().map(|p| p.totals.volume_bits.round()).sum(),
+                days: round(w.days(), 4),
+            },
+            contact,
+            passes,
+            warnings,
+            caution: super::plan::CAUTION,
+        }
+    }
+}
+
+/// Each warning once, prefixed with the satellites that raised it (`every satellite` when all did).
+fn fleet_warnings(planners: &[&crate::plan::Planner], plans: &[Plan]) -> Vec<String> {
+    let mut by_text: Vec<(String, Vec<String>)> = Vec::new();
+    for (p, plan) in planners.iter().zip(plans) {
+        let name = crate::plan::fleet::name_of(p);
+        for m in &plan.warnings {
+            match by_text.iter_mut().find(|(t, _)| t == m) {
+                Some((_, who)) if !who.contains(&name) => who.push(name.clone()),
+                Some(_) => {}
+                None => by_text.push((m.clone(), vec![name.clone()])),
+            }
+        }
+    }
+    by_text
+        .into_iter()
+        .map(
+            |(text, who)| match who.len() == planners.len() && who.len() > 1 {
+                true => format!("every satellite: {text}"),
+                false => format!("{}: {text}", who.join(", ")),
+            },
+        )
+        .collect()
+}
+
+/// Write the contact plan's files into `dir`: `contacts.csv`, `satellites.csv`, `stations.csv`
+/// and one iCalendar file per station, `calendar-<station>.ics` (`stamp`: the events' DTSTAMP; see [`super::calendar::station_calendar`]).
+pub fn write_contact_files(
+    dir: &std::path::Path,
+    doc: &ContactDoc,
+    warnings: &[String],
+    stamp: chrono::DateTime<chrono::Utc>,
+) -> Result<(), super::files::FileError> {
+    use super::files::{file_error, io_error};
+    let files: [(&str, Result<String, csv::Error>); 3] = [
+        ("contacts.csv", super::to_csv(&doc.contacts, warnings)),
+        ("satellites.csv", super::to_csv(&doc.satellites, warnings)),
+        ("stations.csv", super::to_csv(&doc.stations, warnings)),
+    ];
+    for (name, text) in files {
+        let path = dir.join(name);
+        let text = text.map_err(|e| file_error(&path, e))?;
+        super::atomic::write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
+    }
+    for s in &doc.stations {
+        let path = dir.join(format!("calendar-{}.ics", super::slug(&s.name)));
+        let text = super::calendar::station_calendar(&s.name, &doc.contacts, stamp)
+            .map_err(|e| io_error(&path, std::io::Error::other(e)))?;
+        super::atomic::write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
+    }
+    Ok(())
+}

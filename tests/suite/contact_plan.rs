@@ -1,0 +1,364 @@
+//! The contact plan end to end: the JSON contract of `plan` for the single-satellite and the
+//! fleet examples, every booking constraint checked on the shipped fleet, the iCalendar files
+//! against RFC 5545's structure, and bad fleet input.
+//!
+//! Sources: RFC 5545 (iCalendar) section 3.1 (content lines end with CRLF), section 3.4 (a
+//! VCALENDAR object), section 3.6.1 (VEVENT with UID, DTSTAMP, DTSTART), section 3.3.5 (UTC
+//! DATE-TIME form `YYYYMMDDTHHMMSSZ`). The constraints are the issue's definition of a valid
+//! schedule, checked independently of the scheduler from its published outputs.
+
+use crate::common::bin::{clean_error, json, run, success, write};
+use chrono::{DateTime, Utc};
+use serde_json::Value;
+
+const FLEET: &str = "examples/fleet/kestrel-fleet.yaml";
+const SINGLE: &str = "examples/wrenlet-1.yaml";
+
+fn time(v: &Value) -> DateTime<Utc> {
+    DateTime::parse_from_rfc3339(v.as_str().unwrap())
+        .unwrap()
+        .with_timezone(&Utc)
+}
+
+fn num(v: &Value) -> f64 {
+    v.as_f64().unwrap()
+}
+
+/// The contract of issue "contact plan": contacts, satellites, stations, schedule_bound and
+/// totals.delivered_bits (the sum over the contacts), with every listed field present.
+fn check_contract(doc: &Value) {
+    for c in doc["contacts"].as_array().unwrap() {
+        for k in [
+            "satellite",
+            "station",
+            "start",
+            "end",
+            "rate_bps",
+            "volume_bits",
+        ] {
+            assert!(!c[k].is_null(), "contact without {k}: {c}");
+        }
+    }
+    for s in doc["satellites"].as_array().unwrap() {
+        for k in ["name", "delivered_bits"] {
+            assert!(!s[k].is_null(), "satellite without {k}: {s}");
+        }
+        for k in [
+            "generated_bits",
+            "lost_bits",
+            "storage_peak_bits",
+            "max_latency_s",
+        ] {
+            assert!(s.get(k).is_some(), "satellite without {k}: {s}");
+        }
+    }
+    for s in doc["stations"].as_array().unwrap() {
+        for k in ["name", "booked_s", "utilization"] {
+            assert!(!s[k].is_null(), "station without {k}: {s}");
+        }
+        assert!((0.0..=1.0).contains(&num(&s["utilization"])), "{s}");
+    }
+    let b = &doc["schedule_bound"];
+    let sum: f64 = doc["contacts"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| num(&c["volume_bits"]))
+        .sum();
+    assert_eq!(num(&doc["totals"]["delivered_bits"]), sum);
+    assert!(
+        num(&b["delivered_upper_bits"]) >= sum * (1.0 - 1e-9),
+        "bound below delivered: {b}"
+    );
+    assert!((0.0..=1.0).contains(&num(&b["gap"])), "{b}");
+}
+
+/// Every booking constraint, from the published contacts: one contact per antenna at a time
+/// with the set-up (turnaround) before it; one downlink per satellite at a time (the example's
+/// satellites have one transmitter each); blocked periods kept free; rules respected.
+fn check_constraints(doc: &Value, blocked: &[(&str, &str, &str)]) {
+    let contacts = doc["contacts"].as_array().unwrap();
+    for (i, a) in contacts.iter().enumerate() {
+        let (a0, a1, s0) = (time(&a["start"]), time(&a["end"]), time(&a["setup_start"]));
+        assert!(a1 > a0 && s0 <= a0, "{a}");
+        for b in &contacts[i + 1..] {
+            let (b0, b1, bs) = (time(&b["start"]), time(&b["end"]), time(&b["setup_start"]));
+            if a["antenna"] == b["antenna"] {
+                assert!(
+                    a1 <= bs || b1 <= s0,
+                    "antenna overlap (set-up included):\n{a}\n{b}"
+                );
+            }
+            if a["satellite"] == b["satellite"] {
+                assert!(
+                    a1 <= b0 || b1 <= a0,
+                    "one satellite twice at once:\n{a}\n{b}"
+                );
+            }
+        }
+        for (station, from, to) in blocked {
+            if a["station"] == *station {
+                let (f, t) = (time(&Value::from(*from)), time(&Value::from(*to)));
+                assert!(a1 <= f || s0 >= t, "contact in a blocked period: {a}");
+            }
+        }
+    }
+}
+
+#[test]
+fn the_fleet_example_gives_the_contract_and_keeps_every_constraint() {
+    let doc = json(&run(&["plan", FLEET, "--format", "json", "--quiet"]));
+    check_contract(&doc);
+    check_constraints(
+        &doc,
+        &[(
+            "Sierra Baja",
+            "2026-12-03T06:00:00Z",
+            "2026-12-03T18:00:00Z",
+        )],
+    );
+    let sats = doc["satellites"].as_array().unwrap();
+    assert_eq!(sats.len(), 4);
+    for s in sats {
+        // Conservation: what was on board at the start plus what was made is delivered, lost or
+        // still on board. Initial fills from the mission file.
+        let initial = match s["name"].as_str().unwrap() {
+            "KESTREL-A" => 2.0e11,
+            "KESTREL-C" => 1.0e11,
+            _ => 0.0,
+        };
+        let (g, d, l, f) = (
+            num(&s["generated_bits"]),
+            num(&s["delivered_bits"]),
+            num(&s["lost_bits"]),
+            num(&s["final_fill_bits"]),
+        );
+        assert!(
+            (initial + g - d - l - f).abs() <= 16.0,
+            "not conserved: {s}"
+        );
+        assert!(num(&s["storage_peak_bits"]) <= 1.0e12, "{s}");
+    }
+    // Rules of the example: Pulau Reka books no contact peaking below 10 deg, Punta Gaviota none
+    // shorter than 120 s.
+    for c in doc["contacts"].as_array().unwrap() {
+        if c["station"] == "Punta Gaviota" {
+            assert!(num(&c["duration_s"]) >= 120.0 - 1e-6, "{c}");
+        }
+    }
+    // The headline is the schedule's, never above the unconstrained sum over passes.
+    let t = &doc["totals"];
+    assert!(num(&t["delivered_bits"]) <= num(&t["unconstrained_volume_bits"]));
+}
+
+#[test]
+fn a_single_satellite_plan_books_hand_overs_and_never_exceeds_the_network_total() {
+    let doc = json(&run(&["plan", SINGLE, "--format", "json", "--quiet"]));
+    check_contract(&doc);
+    check_constraints(&doc, &[]);
+    // One transmitter over three stations: the delivered data cannot exceed the network total,
+    // which counts each second once at the best station with no turnaround.
+    let t = &doc["totals"];
+    assert!(num(&t["delivered_bits"]) <= num(&t["network_volume_bits"]) + 1.0);
+    assert!(num(&t["delivered_bits"]) > 0.5 * num(&t["network_volume_bits"]));
+}
+
+#[test]
+fn the_table_puts_the_delivered_data_first() {
+    let out = success(&run(&["plan", FLEET, "--quiet"]));
+    let first = out.lines().nth(1).unwrap();
+    assert!(first.starts_with("Delivered (contact plan)"), "{first}");
+    assert!(out.contains("Contact plan (booked contacts):"), "{out}");
+    let single = success(&run(&["plan", SINGLE, "--quiet", "--days", "1"]));
+    assert!(single
+        .lines()
+        .nth(1)
+        .unwrap()
+        .starts_with("Delivered (contact plan)"));
+    assert!(single.contains("unconstrained"), "{single}");
+}
+
+/// RFC 5545: CRLF line ends (3.1), one VCALENDAR (3.4), a VEVENT per booked contact of the
+/// station with UID, DTSTAMP, DTSTART and DTEND in UTC form (3.6.1, 3.3.5).
+#[test]
+fn calendars_are_rfc_5545_with_one_event_per_contact() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let o = run(&[
+        "plan",
+        FLEET,
+        "--quiet",
+        "--format",
+        "json",
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    let doc = json(&o);
+    for st in doc["stations"].as_array().unwrap() {
+        let name = st["name"].as_str().unwrap();
+        let slug = name.to_lowercase().replace(' ', "-");
+        let text = std::fs::read_to_string(out.join(format!("calendar-{slug}.ics"))).unwrap();
+        assert!(text.starts_with("BEGIN:VCALENDAR\r\n"), "{text}");
+        assert!(text.trim_end().ends_with("END:VCALENDAR"));
+        assert_eq!(
+            text.matches('\n').count(),
+            text.matches("\r\n").count(),
+            "content lines end with CRLF"
+        );
+        let events = text.matches("BEGIN:VEVENT").count();
+        let n = doc["contacts"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .filter(|c| c["station"] == name)
+            .count();
+        assert_eq!(events, n, "{name}");
+        let utc = |line: &str| {
+            let v = line.split(':').nth(1).unwrap().trim_end();
+            v.len() == 16 && v.ends_with('Z') && v.as_bytes()[8] == b'T'
+        };
+        for key in ["UID:", "DTSTAMP:", "DTSTART:", "DTEND:"] {
+            let lines: Vec<&str> = text.lines().filter(|l| l.starts_with(key)).collect();
+            assert_eq!(lines.len(), n, "{key} in {name}");
+            if key != "UID:" {
+                assert!(
+                    lines.iter().all(|l| utc(l)),
+                    "{key} not UTC DATE-TIME: {lines:?}"
+                );
+            }
+        }
+    }
+    for f in [
+        "contacts.csv",
+        "satellites.csv",
+        "stations.csv",
+        "summary.json",
+        "passes.csv",
+    ] {
+        assert!(out.join(f).is_file(), "{f}");
+    }
+}
+
+#[test]
+fn bad_fleet_input_names_the_file_line_and_key() {
+    let dir = tempfile::tempdir().unwrap();
+    let root = crate::common::bin::root();
+    let fleet = std::fs::read_to_string(root.join(FLEET)).unwrap();
+    for f in ["kestrel.tle", "kestrel-c-imaging.csv"] {
+        std::fs::copy(root.join("examples/fleet").join(f), dir.path().join(f)).unwrap();
+    }
+    let stations = root.join("stations").display().to_string();
+    let fleet = fleet.replace("../../stations", &stations);
+    let cases: [(&str, &str, &[&str]); 5] = [
+        (
+            "name: KESTREL-B",
+            "name: KESTREL-A",
+            &[":16:", "two satellites are named 'KESTREL-A'"],
+        ),
+        (
+            "storage_bits: 2.56e11",
+            "storage_bits: -1",
+            &[":33:", "onboard.storage_bits", "out of range"],
+        ),
+        (
+            "station: Pulau Reka",
+            "station: Nowhere",
+            &[":52:", "booking rule 2", "Nowhere"],
+        ),
+        (
+            "end: 2026-12-03T18:00:00Z",
+            "end: noon",
+            &[":51:", "booking.blocked", "RFC 3339"],
+        ),
+        (
+            "generation_bps: 6.0e6",
+            "generation_bps: -5",
+            &[":34:", "generation_bps", "out of range"],
+        ),
+    ];
+    for (from, to, needles) in cases {
+        assert!(fleet.contains(from), "{from}");
+        let m = write(dir.path(), "m.yaml", &fleet.replacen(from, to, 1));
+        clean_error(&run(&["plan", &m]), needles);
+    }
+    let csv = "start,end,rate_bps\n2026-12-01T13:30:00Z,2026-12-01T13:40:00Z,1e6\n2026-12-01T13:35:00Z,2026-12-01T13:50:00Z,1e6\n";
+    write(dir.path(), "kestrel-c-imaging.csv", csv);
+    let m = write(dir.path(), "m.yaml", &fleet);
+    clean_error(
+        &run(&["plan", &m]),
+        &["kestrel-c-imaging.csv:3", "overlapping"],
+    );
+}
+
+#[test]
+fn a_fleet_needs_a_satellite_for_single_satellite_commands() {
+    clean_error(
+        &run(&["mask", FLEET]),
+        &["4 satellites", "--satellite NAME"],
+    );
+    let doc = json(&run(&[
+        "plan",
+        FLEET,
+        "--satellite",
+        "kestrel-c",
+        "--days",
+        "1",
+        "--format",
+        "json",
+        "--quiet",
+    ]));
+    assert_eq!(doc["satellite"], "KESTREL-C");
+    assert!(doc["passes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .all(|p| p["satellite"] == "KESTREL-C"));
+}
+
+/// A satellite that gets no contact, and a store that overflows, are results: the run succeeds,
+/// every satellite is listed with no delivery, and the loss is what the store could not hold
+/// (generated + initial fill - capacity, nothing delivered).
+#[test]
+fn no_contact_and_a_full_store_are_results_not_errors() {
+    let dir = tempfile::tempdir().unwrap();
+    let root = crate::common::bin::root();
+    for f in ["kestrel.tle", "kestrel-c-imaging.csv"] {
+        std::fs::copy(root.join("examples/fleet").join(f), dir.path().join(f)).unwrap();
+    }
+    let fleet = std::fs::read_to_string(root.join(FLEET))
+        .unwrap()
+        .replace(
+            "../../stations",
+            &root.join("stations").display().to_string(),
+        )
+        .replace("min_peak_elevation_deg: 10", "min_peak_elevation_deg: 90");
+    // Keep Pulau Reka alone, where no pass peaks at 90 deg.
+    let keep: String = fleet
+        .lines()
+        .filter(|l| !l.contains("stations/") || l.contains("pulau-reka"))
+        .filter(|l| !l.contains("station: Sierra Baja"))
+        .filter(|l| !l.contains("blocked:") && !l.contains("{ start:"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let m = write(dir.path(), "m.yaml", &keep);
+    let doc = json(&run(&[
+        "plan", &m, "--format", "json", "--quiet", "--days", "2",
+    ]));
+    assert_eq!(doc["contacts"].as_array().unwrap().len(), 0);
+    for s in doc["satellites"].as_array().unwrap() {
+        assert_eq!(num(&s["delivered_bits"]), 0.0, "{s}");
+        assert_eq!(s["max_latency_s"], Value::Null, "{s}");
+    }
+    let d = doc["satellites"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|s| s["name"] == "KESTREL-D")
+        .unwrap();
+    // 6 Mbit/s for 2 days = 1.0368e12 bit into a 2.56e11 bit store, empty at the start.
+    assert!(
+        (num(&d["lost_bits"]) - (1.0368e12 - 2.56e11)).abs() < 1e3,
+        "{d}"
+    );
+    assert_eq!(num(&d["final_fill_bits"]), 2.56e11);
+}
