@@ -38,9 +38,14 @@ pub struct FleetPlanner {
 impl FleetPlanner {
     /// One planner per satellite (the same request for all; each checks its own elements).
     pub fn new(mission: &Mission, request: &PlanRequest) -> Result<FleetPlanner, PlanError> {
-        let planners = (0..mission.satellites.len())
-            .map(|i| Planner::new(&mission.for_satellite(i), request))
-            .collect::<Result<Vec<_>, _>>()?;
+        let mut planners: Vec<Planner> = Vec::with_capacity(mission.satellites.len());
+        for i in 0..mission.satellites.len() {
+            let m = mission.for_satellite(i);
+            let f = m.transmitter.as_ref().map(|t| t.frequency_hz);
+            // The station tables of an earlier satellite on the same frequency are the same.
+            let same = planners.iter().find(|p| Some(p.frequency_hz()) == f);
+            planners.push(Planner::new_reusing(&m, request, same)?);
+        }
         let names = planners.iter().map(name_of).collect();
         Ok(FleetPlanner { planners, names })
     }

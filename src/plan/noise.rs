@@ -120,7 +120,8 @@ impl StationNoise {
 
     /// Build the table of `weather` (the availability case), replacing any other.
     pub fn prepare_weather(&mut self, atmosphere: &PreparedAtmosphere, weather: Weather) {
-        if weather != Weather::ClearSky {
+        let done = self.availability.as_ref().map(|(w, _)| *w) == Some(weather);
+        if weather != Weather::ClearSky && !done {
             self.availability = Some((weather, self.table(atmosphere, weather)));
         }
     }

@@ -314,7 +314,8 @@ impl PathTables {
 
     /// Build the table of `weather` (the availability case), replacing any other.
     pub fn prepare_weather(&mut self, weather: Weather) {
-        if weather != Weather::ClearSky {
+        let done = self.availability.as_ref().map(|t| t.weather) == Some(weather);
+        if weather != Weather::ClearSky && !done {
             let c = &self.clear;
             self.availability = Some(PathTable::build(
                 &c.atmosphere,

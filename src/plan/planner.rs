@@ -5,7 +5,9 @@ use super::inputs::{
 };
 use super::mask::MaskAccumulator;
 use super::pass::{plan_pass, tradeoff_pass, PassContext, Scratch};
-use super::prepare::{availability_weather, rate_set, station_model, RateSet, StationModel};
+use super::prepare::{
+    availability_weather, rate_set, station_model_reusing, RateSet, StationModel,
+};
 use super::results::{NetworkTotal, PassPlan, Plan, PlanError};
 use super::series::PassWarnings;
 use super::sink::{Collect, PassSink};
@@ -67,6 +69,16 @@ fn request_error(key: &'static str, message: impl Into<String>) -> PlanError {
 impl Planner {
     /// Check the request against the mission and prepare every model.
     pub fn new(mission: &Mission, request: &PlanRequest) -> Result<Planner, PlanError> {
+        Self::new_reusing(mission, request, None)
+    }
+
+    /// [`Planner::new`], reusing the station tables `other` prepared where they are the same
+    /// (the same station at the same frequency: another satellite of a fleet).
+    pub fn new_reusing(
+        mission: &Mission,
+        request: &PlanRequest,
+        other: Option<&Planner>,
+    ) -> Result<Planner, PlanError> {
         if mission.stations.is_empty() {
             return Err(PlanError::NoStations {
                 mission: mission.source.display().to_string(),
@@ -97,7 +109,11 @@ impl Planner {
         let mut stations = mission
             .stations
             .iter()
-            .map(|s| station_model(mission, s, mask))
+            .enumerate()
+            .map(|(i, s)| {
+                let reuse = other.and_then(|o| o.stations.get(i));
+                station_model_reusing(mission, s, mask, reuse)
+            })
             .collect::<Result<Vec<_>, _>>()?;
         let tradeoff_masks = if let Some(floor_deg) = request.search_floor_deg {
             MIN_ELEVATION_DEG

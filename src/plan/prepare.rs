@@ -179,6 +179,19 @@ pub fn station_model(
     st: &Station,
     mask_override: Option<f64>,
 ) -> Result<StationModel, PrepareError> {
+    station_model_reusing(mission, st, mask_override, None)
+}
+
+/// [`station_model`], taking the station's atmosphere, noise, path and Sun/Moon tables from
+/// `reuse` (the same station prepared for another satellite of a fleet) when it was prepared at
+/// the same frequency: those depend only on the station and the frequency, and building them is
+/// most of the cost of preparing a station.
+pub fn station_model_reusing(
+    mission: &Mission,
+    st: &Station,
+    mask_override: Option<f64>,
+    reuse: Option<&StationModel>,
+) -> Result<StationModel, PrepareError> {
     let file = &st.source;
     let radio = radio_blocks(mission, st)?;
     let observer = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m)
@@ -189,6 +202,23 @@ pub fn station_model(
     let frequency_hz = radio.tx.frequency_hz;
     let (diameter_m, efficiency) = antenna_aperture(&radio.ant.gain, frequency_hz);
     let link = link_model(mission, st, &radio, diameter_m)?;
+    let same = |r: &&StationModel| r.station == *st && r.link.frequency_hz() == frequency_hz;
+    if let Some(r) = reuse.filter(same) {
+        return Ok(StationModel {
+            station: st.clone(),
+            observer,
+            mask,
+            link,
+            atmosphere: r.atmosphere.clone(),
+            noise: r.noise.clone(),
+            path: r.path.clone(),
+            bodies: r.bodies.clone(),
+            mean_radiating_temperature_k: r.mean_radiating_temperature_k,
+            antenna_diameter_m: diameter_m,
+            polarization_tilt_deg: r.polarization_tilt_deg,
+            configured_min_elevation_deg: min,
+        });
+    }
     let site = atmosphere_site(st);
     // Circular polarization: tilt 45 deg in P.838-3 eqs (4)-(5); linear: the same 45 deg is used as
     // the orientation along a pass is not known (documented in the README).

@@ -362,3 +362,30 @@ fn no_contact_and_a_full_store_are_results_not_errors() {
     );
     assert_eq!(num(&d["final_fill_bits"]), 2.56e11);
 }
+
+/// A fleet's satellites share the station tables prepared for the first satellite on the same
+/// frequency; every satellite's plan is the same as when it is planned on its own.
+#[test]
+fn shared_station_tables_change_no_satellite_plan() {
+    use passbudget::config::mission::Mission;
+    use passbudget::plan::fleet::FleetPlanner;
+    use passbudget::plan::{PlanRequest, Planner, WindowRequest};
+    let mission = Mission::load(&crate::common::bin::root().join(FLEET)).unwrap();
+    let request = PlanRequest {
+        window: WindowRequest {
+            days: Some(1.0),
+            ..Default::default()
+        },
+        exceedance_percent: Some(1.0),
+        ..Default::default()
+    };
+    let fleet = FleetPlanner::new(&mission, &request).unwrap();
+    let (plans, _) = fleet.run().unwrap();
+    for (i, plan) in plans.iter().enumerate() {
+        let alone = Planner::new(&mission.for_satellite(i), &request)
+            .unwrap()
+            .collect()
+            .unwrap();
+        assert_eq!(plan.totals, alone.totals, "satellite {i}");
+    }
+}
