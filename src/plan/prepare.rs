@@ -209,7 +209,7 @@ pub fn station_model_reusing(
             observer,
             mask,
             link,
-            atmosphere: r.atmosphere.clone(),
+            atmosphere: r.atmosphere,
             noise: r.noise.clone(),
             path: r.path.clone(),
             bodies: r.bodies.clone(),
