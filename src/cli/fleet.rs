@@ -32,7 +32,8 @@ pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Resul
     let (plans, cp) = fleet.run().map_err(|e| in_out(e.into()))?;
     let planners: Vec<_> = fleet.planners().iter().collect();
     let cdoc = ContactDoc::new(&cp, &plans, fleet.planners()[0].stations());
-    let doc = FleetDoc::new(&planners, &plans, cdoc);
+    let rows = a.format != Format::Table || staging.is_some();
+    let doc = FleetDoc::new(&planners, &plans, cdoc, rows);
     warn(&doc.warnings);
     if let Some(st) = staging {
         write_fleet_files(&doc, &cp, a, st.path()).map_err(|e| in_out_folder(e, &st, &target))?;

@@ -236,15 +236,17 @@ pub struct FleetTotalsRow {
 }
 
 impl FleetDoc {
-    /// `planners[i]` planned `plans[i]`.
+    /// `planners[i]` planned `plans[i]`; `pass_rows`: also every pass's row (for JSON, CSV and
+    /// files; a table does without them, and they are most of the document's memory).
     pub fn new(
         planners: &[&crate::plan::Planner],
         plans: &[Plan],
         contact: ContactDoc,
+        pass_rows: bool,
     ) -> FleetDoc {
         let w = planners[0].window();
         let mut passes = Vec::new();
-        for (p, plan) in planners.iter().zip(plans) {
+        for (p, plan) in planners.iter().zip(plans).filter(|_| pass_rows) {
             passes.extend(
                 plan.passes
                     .iter()
