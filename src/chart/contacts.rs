@@ -126,7 +126,7 @@ where
     ))?;
     title.draw(&Text::new(
         format!(
-            "{} booked contacts, {} candidates not booked, on {} antennas",
+            "{} booked contacts, {} passes no antenna booked, on {} antennas",
             d.booked.len(),
             d.unbooked.len(),
             d.antennas.len()
@@ -192,31 +192,25 @@ where
             style::GRID.filled(),
         )])?;
     }
+    // A contact is at least 1/400 of the day wide (about 3 px), so a short one reads as a contact
+    // in its satellite's colour, not as a set-up mark; its outline only where it is wider.
+    let min_w = span / 400.0;
     for b in &d.booked {
         let c = satellite_color(b.satellite);
+        let (x0, x1) = (x(&b.start), x(&b.end));
+        let (lo, hi) = (y(b.antenna, 0.15), y(b.antenna, 0.85));
+        let setup = [
+            (x(&b.setup_start), y(b.antenna, 0.42)),
+            (x0, y(b.antenna, 0.58)),
+        ];
         chart.draw_series([
-            Rectangle::new(
-                [
-                    (x(&b.setup_start), y(b.antenna, 0.42)),
-                    (x(&b.start), y(b.antenna, 0.58)),
-                ],
-                style::INK.filled(),
-            ),
-            Rectangle::new(
-                [
-                    (x(&b.start), y(b.antenna, 0.15)),
-                    (x(&b.end), y(b.antenna, 0.85)),
-                ],
-                c.filled(),
-            ),
-            Rectangle::new(
-                [
-                    (x(&b.start), y(b.antenna, 0.15)),
-                    (x(&b.end), y(b.antenna, 0.85)),
-                ],
-                style::INK.stroke_width(1),
-            ),
+            Rectangle::new(setup, style::INK.filled()),
+            Rectangle::new([(x0, lo), (x1.max(x0 + min_w), hi)], c.filled()),
         ])?;
+        if x1 - x0 > 2.0 * min_w {
+            let edge = style::INK.stroke_width(1);
+            chart.draw_series([Rectangle::new([(x0, lo), (x1, hi)], edge)])?;
+        }
     }
     if d.booked.is_empty() && d.unbooked.is_empty() {
         chart.draw_series(std::iter::once(Text::new(
@@ -235,7 +229,7 @@ where
         Key::Line(Stroke::solid(style::INK, 6)),
         "set-up (turnaround)".into(),
     ));
-    keys.push((Key::Band(style::GRID, 1.0), "candidate not booked".into()));
+    keys.push((Key::Band(style::GRID, 1.0), "pass no antenna booked".into()));
     keys.push((Key::Band(style::TERRAIN, 1.0), "antenna blocked".into()));
     style::draw_legend(&legend, Some("Satellite"), &keys)
 }
@@ -365,14 +359,18 @@ pub fn contact_chart_data(
             end: at(c.end_s),
         })
         .collect();
-    let taken: std::collections::HashSet<usize> =
-        cp.schedule.contacts.iter().map(|c| c.candidate).collect();
+    // A pass booked on any antenna is not a lost candidate on the station's other antennas.
+    let taken: std::collections::HashSet<(usize, usize)> = cp
+        .schedule
+        .contacts
+        .iter()
+        .map(|c| (c.satellite, cp.candidates[c.candidate].pass_ref))
+        .collect();
     let unbooked: Vec<TimelineBar> = cp
         .candidates
         .iter()
-        .enumerate()
-        .filter(|(i, _)| !taken.contains(i))
-        .map(|(_, c)| TimelineBar {
+        .filter(|c| !taken.contains(&(c.satellite, c.pass_ref)))
+        .map(|c| TimelineBar {
             antenna: c.antenna,
             satellite: c.satellite,
             setup_start: at(c.start_s),

@@ -31,13 +31,23 @@ pub fn print_headline(
     out: &mut dyn Write,
 ) -> Result<()> {
     let b = &doc.schedule_bound;
+    let weighted = doc.satellites.iter().any(|s| s.priority != 1.0);
+    let gap = if weighted {
+        format!(
+            "gap {:.1} %, {:.1} % on the priority-weighted total the schedule maximizes",
+            b.gap * 100.0,
+            b.weighted_gap * 100.0
+        )
+    } else {
+        format!("gap {:.1} %", b.gap * 100.0)
+    };
     writeln!(
         out,
-        "Delivered (contact plan): {} in {} contacts; schedule bound {} (gap {:.1} %, scheduled in {:.0} ms); unconstrained sum over passes {} (no antenna, store or turnaround limit)",
+        "Delivered (contact plan): {} in {} contacts; schedule bound {} ({gap}; {}, scheduled in {:.0} ms); unconstrained sum over passes {} (no antenna, store or turnaround limit)",
         engfmt::volume(doc.delivered_bits()),
         doc.contacts.len(),
         engfmt::volume(b.delivered_upper_bits),
-        b.gap * 100.0,
+        b.method,
         doc.scheduler_s * 1e3,
         engfmt::volume(unconstrained_bits)
     )?;
@@ -96,6 +106,7 @@ fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
         ("store peak", Align::Right),
         ("left on board", Align::Right),
         ("latency max/median", Align::Right),
+        ("passes not booked", Align::Right),
     ]);
     let vol = |x: Option<f64>| cell_or_dash(x.map(engfmt::volume));
     for s in &doc.satellites {
@@ -113,6 +124,7 @@ fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
             vol(s.storage_peak_bits),
             vol(s.final_fill_bits),
             latency,
+            s.not_booked.to_string(),
         ]);
     }
     write!(out, "{}", t.render())?;
@@ -120,6 +132,7 @@ fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
         writeln!(out, "-: no onboard block: the satellite always has data to send, its store is not followed.")?;
     }
     writeln!(out, "latency: age of the oldest data on board at the start of each downlink (h:mm:ss), the largest and the median.")?;
+    writeln!(out, "passes not booked: passes with a closing rate no antenna took (the reasons are in satellites.csv and the JSON: rules, blocked periods, overlap, nothing on board).")?;
     writeln!(out)?;
     Ok(())
 }

@@ -228,8 +228,9 @@ fn deg1(x: f64) -> String {
 fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
     writeln!(
         out,
-        "{} over {} station(s), {} to {}, step {} s",
+        "{}: {} over {} station(s), {} to {}, step {} s",
         planner.mission().name,
+        doc.satellite,
         planner.stations().len(),
         format_ms(&plan.window.start()),
         format_ms(&plan.window.end()),

@@ -122,7 +122,12 @@ pub(super) fn onboard(
         None => c.default(&dflt::INITIAL_FILL_BITS),
     };
     if initial_fill_bits > storage_bits {
-        return Err(c.err(&k("initial_fill_bits"), "is more than storage_bits"));
+        let msg = format!(
+            "{} bit is more than storage_bits ({} bit)",
+            limits::short_number(initial_fill_bits),
+            limits::short_number(storage_bits)
+        );
+        return Err(c.err(&k("initial_fill_bits"), msg));
     }
     let generation = match (o.generation_bps, &o.generation_file) {
         (Some(r), None) => Generation::Average {

@@ -46,20 +46,28 @@ pub fn list_item_line(text: &str, key_path: &[&str], index: usize) -> Option<usi
     if lines[base - 1].contains('[') && lines[base - 1].trim_end().ends_with(']') {
         return Some(base);
     }
+    // Items are the `- ` lines at the indentation of the first one: the dashes of lists nested
+    // inside an item (a table, blocked periods) are deeper and do not count.
     let mut count = 0usize;
+    let mut item_indent: Option<usize> = None;
     for (i, raw) in lines.iter().enumerate().skip(base) {
         let t = raw.trim_start();
         if t.is_empty() || t.starts_with('#') {
             continue;
         }
-        if t.starts_with("- ") || t == "-" {
-            if count == index {
-                return Some(i + 1);
-            }
-            count += 1;
-        } else if !raw.starts_with(' ') {
-            break;
+        let indent = raw.len() - t.len();
+        let dash = t.starts_with("- ") || t == "-";
+        match item_indent {
+            None if dash => item_indent = Some(indent),
+            None => break,
+            Some(d) if indent < d || (indent == d && !dash) => break,
+            Some(d) if indent > d => continue,
+            Some(_) => {}
         }
+        if count == index {
+            return Some(i + 1);
+        }
+        count += 1;
     }
     Some(base)
 }
@@ -129,6 +137,17 @@ pub fn item_key_line(text: &str, item_line: usize, key: &str) -> Option<usize> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn list_items_skip_nested_lists() {
+        let text =
+            "a:\n  - name: x\n    table:\n      - [0, 1]\n      - [1, 2]\n  - name: y\nb:\n  - 1\n";
+        assert_eq!(list_item_line(text, &["a"], 0), Some(2));
+        assert_eq!(list_item_line(text, &["a"], 1), Some(6));
+        assert_eq!(list_item_line(text, &["b"], 0), Some(8));
+        let flush = "a:\n- name: x\n  t:\n  - 1\n- name: y\nb: 2\n";
+        assert_eq!(list_item_line(flush, &["a"], 1), Some(5));
+    }
 
     #[test]
     fn finds_nested_keys() {

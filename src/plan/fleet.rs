@@ -136,12 +136,17 @@ pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan
     let window = first.window();
     let window_s = seconds_between(&window.start(), &window.end());
     let stations = first.stations();
+    // A contact shorter than the modem's dwell brings nothing a modem can lock on.
+    let dwell_s = planners
+        .iter()
+        .map(|p| p.rates().min_dwell_s)
+        .fold(0.0, f64::max);
     let mut antennas = Vec::new();
     let mut resources = Vec::new();
     for (si, st) in stations.iter().enumerate() {
         for k in 0..st.station.antennas {
             antennas.push((si, k));
-            resources.push(antenna(&st.station, k, window.start()));
+            resources.push(antenna(&st.station, k, window.start(), dwell_s));
         }
     }
     let mut candidates = Vec::new();
@@ -201,15 +206,21 @@ pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan
     })
 }
 
-/// Antenna `k` of a station, its blocked periods in seconds from the window start.
-fn antenna(st: &crate::config::station::Station, k: usize, start: DateTime<Utc>) -> Antenna {
+/// Antenna `k` of a station, its blocked periods in seconds from the window start; no contact
+/// shorter than the station's `min_contact_s` or the modem's dwell `dwell_s`.
+fn antenna(
+    st: &crate::config::station::Station,
+    k: usize,
+    start: DateTime<Utc>,
+    dwell_s: f64,
+) -> Antenna {
     let b = &st.booking;
     Antenna {
         name: antenna_name(&st.name, st.antennas, k),
         station: st.name.clone(),
         turnaround_s: b.turnaround_s,
         rules: BookingRules {
-            min_contact_s: b.min_contact_s,
+            min_contact_s: b.min_contact_s.max(dwell_s),
             min_peak_elevation_deg: b.min_peak_elevation_deg,
             blocked: b
                 .blocked

@@ -8,7 +8,7 @@
 //! contact (satellite, antenna, pass), so a calendar that imports a new plan updates its events.
 
 use super::contacts::ContactRow;
-use chrono::{DateTime, Utc};
+use chrono::{DateTime, Timelike, Utc};
 use icalendar::{Calendar, Component, Event, EventLike};
 
 /// The calendar of one station's booked contacts (`rows` may hold other stations': they are
@@ -19,7 +19,15 @@ pub fn station_calendar(
     rows: &[ContactRow],
     stamp: DateTime<Utc>,
 ) -> Result<String, String> {
-    let mut cal = Calendar::new();
+    // RFC 5545 section 3.6: VERSION and PRODID (this program as the product), Gregorian scale.
+    let mut cal = Calendar::empty();
+    for (k, v) in [
+        ("VERSION", "2.0"),
+        ("PRODID", "-//passbudget//contact plan//EN"),
+        ("CALSCALE", "GREGORIAN"),
+    ] {
+        cal.append_property(icalendar::Property::new(k, v));
+    }
     cal.name(&format!("passbudget contacts: {station}"));
     for r in rows.iter().filter(|r| r.station == station) {
         cal.push(event(r, stamp)?);
@@ -29,7 +37,14 @@ pub fn station_calendar(
 
 fn event(r: &ContactRow, stamp: DateTime<Utc>) -> Result<Event, String> {
     let time = |s: &str| crate::timefmt::parse_utc(s);
+    // The event covers the whole contact: DATE-TIME has whole seconds (RFC 5545 section 3.3.5),
+    // so the set-up start is rounded down and the end up.
     let (setup, end) = (time(&r.setup_start)?, time(&r.end)?);
+    let setup = setup.with_nanosecond(0).unwrap_or(setup);
+    let end = match end.nanosecond() {
+        0 => end,
+        _ => end.with_nanosecond(0).unwrap_or(end) + chrono::Duration::seconds(1),
+    };
     let uid = format!(
         "{}-{}-{}@passbudget",
         super::slug(&r.satellite),

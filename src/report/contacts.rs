@@ -60,6 +60,18 @@ pub struct SatelliteRow {
     /// The sum over its passes at the fixed rate, with no antenna, store or turnaround limit.
     #[serde(serialize_with = "crate::report::whole")]
     pub unconstrained_volume_bits: f64,
+    /// Its passes with a closing rate that no antenna booked: all of them, then by the reason
+    /// (of the first antenna that had the pass): below the minimum peak elevation, blocked,
+    /// shorter than the minimum contact, lost to overlap (other contacts with their set-up, or
+    /// the satellite's downlinks, took the time), no gain (free, but booking it adds nothing:
+    /// nothing on board by then), nothing on board.
+    pub not_booked: usize,
+    pub not_booked_below_min_peak_elevation: usize,
+    pub not_booked_blocked: usize,
+    pub not_booked_shorter_than_min_contact: usize,
+    pub not_booked_lost_to_overlap: usize,
+    pub not_booked_no_gain: usize,
+    pub not_booked_nothing_on_board: usize,
 }
 
 /// One station's booked time.
@@ -74,13 +86,31 @@ pub struct StationRow {
     pub utilization: f64,
 }
 
-/// The schedule's upper bound on the delivered data.
+/// The schedule's upper bound on the delivered data, and how the schedule was found.
 #[derive(Debug, Clone, Serialize)]
 pub struct ScheduleBoundRow {
     #[serde(serialize_with = "crate::report::whole")]
     pub delivered_upper_bits: f64,
     /// (bound - delivered) / bound.
     pub gap: f64,
+    /// The bound on what the scheduler maximizes, the delivered bits weighted by priority.
+    pub weighted_upper: f64,
+    /// (weighted bound - weighted delivered) / weighted bound.
+    pub weighted_gap: f64,
+    /// `exact`, `exact search cut short (not proved optimal)` or `heuristic (antenna rounds)`.
+    pub method: &'static str,
+}
+
+/// Passes of a satellite that no antenna booked, by the reason of the first antenna that had it
+/// (the `not_booked_*` fields of [`SatelliteRow`]).
+#[derive(Debug, Clone, Default)]
+struct NotBookedCounts {
+    below_min_peak_elevation: usize,
+    blocked: usize,
+    shorter_than_min_contact: usize,
+    lost_to_overlap: usize,
+    no_gain: usize,
+    nothing_on_board: usize,
 }
 
 /// The contact plan's part of a summary.
@@ -135,10 +165,7 @@ impl ContactDoc {
             contacts,
             satellites,
             stations: station_rows,
-            schedule_bound: ScheduleBoundRow {
-                delivered_upper_bits: cp.schedule.bound.delivered_upper_bits.round(),
-                gap: round(cp.schedule.bound.gap, 4),
-            },
+            schedule_bound: bound_row(&cp.schedule),
             scheduler_s: round(cp.scheduler_s, 4),
         }
     }
@@ -147,6 +174,50 @@ impl ContactDoc {
     pub fn delivered_bits(&self) -> f64 {
         self.contacts.iter().map(|c| c.volume_bits).sum()
     }
+}
+
+fn bound_row(s: &crate::schedule::Schedule) -> ScheduleBoundRow {
+    use crate::schedule::Method;
+    ScheduleBoundRow {
+        delivered_upper_bits: s.bound.delivered_upper_bits.round(),
+        gap: round(s.bound.gap, 4),
+        weighted_upper: s.bound.weighted_upper.round(),
+        weighted_gap: round(s.bound.weighted_gap, 4),
+        method: match s.method {
+            Method::Sequential => "exact",
+            Method::SequentialCapped => "exact search cut short (not proved optimal)",
+            Method::AntennaRounds { .. } => "heuristic (antenna rounds)",
+        },
+    }
+}
+
+/// Satellite `i`'s passes no antenna booked, each counted once with the reason of its first
+/// candidate (a pass at a station of several antennas has one candidate per antenna).
+fn not_booked(cp: &ContactPlan, i: usize) -> NotBookedCounts {
+    use crate::schedule::NotBooked as N;
+    let booked: std::collections::HashSet<usize> = cp
+        .contacts
+        .iter()
+        .filter(|c| c.satellite == i)
+        .map(|c| c.pass)
+        .collect();
+    let mut seen = std::collections::HashSet::new();
+    let mut row = NotBookedCounts::default();
+    for r in &cp.schedule.not_booked {
+        let c = &cp.candidates[r.candidate];
+        if c.satellite != i || booked.contains(&c.pass_ref) || !seen.insert(c.pass_ref) {
+            continue;
+        }
+        *match r.reason {
+            N::BelowMinPeakElevation => &mut row.below_min_peak_elevation,
+            N::Blocked => &mut row.blocked,
+            N::ShorterThanMinContact => &mut row.shorter_than_min_contact,
+            N::LostToOverlap => &mut row.lost_to_overlap,
+            N::NoGain => &mut row.no_gain,
+            N::NothingOnBoard => &mut row.nothing_on_board,
+        } += 1;
+    }
+    row
 }
 
 fn contact_row(
@@ -181,6 +252,7 @@ fn satellite_row(cp: &ContactPlan, plans: &[Plan], i: usize) -> SatelliteRow {
     let followed = cp.followed[i];
     let when = |x: f64| followed.then_some(x.round());
     let latency = followed && !s.latencies_s.is_empty();
+    let n = not_booked(cp, i);
     SatelliteRow {
         name: cp.satellites[i].clone(),
         priority: cp.priority[i],
@@ -199,6 +271,18 @@ fn satellite_row(cp: &ContactPlan, plans: &[Plan], i: usize) -> SatelliteRow {
         median_latency_s: latency.then_some(round(s.median_latency_s, 1)),
         contacts: cp.contacts.iter().filter(|c| c.satellite == i).count(),
         unconstrained_volume_bits: plans[i].totals.volume_bits.round(),
+        not_booked: n.below_min_peak_elevation
+            + n.blocked
+            + n.shorter_than_min_contact
+            + n.lost_to_overlap
+            + n.no_gain
+            + n.nothing_on_board,
+        not_booked_below_min_peak_elevation: n.below_min_peak_elevation,
+        not_booked_blocked: n.blocked,
+        not_booked_shorter_than_min_contact: n.shorter_than_min_contact,
+        not_booked_lost_to_overlap: n.lost_to_overlap,
+        not_booked_no_gain: n.no_gain,
+        not_booked_nothing_on_board: n.nothing_on_board,
     }
 }
 

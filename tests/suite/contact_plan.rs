@@ -249,7 +249,14 @@ fn bad_fleet_input_names_the_file_line_and_key() {
     }
     let stations = root.join("stations").display().to_string();
     let fleet = fleet.replace("../../stations", &stations);
-    let cases: [(&str, &str, &[&str]); 5] = [
+    // A name given twice: the line of that item (nested `- ` lines do not count as items; see
+    // `config::locate`).
+    let cases: [(&str, &str, &[&str]); 6] = [
+        (
+            "name: KESTREL-D",
+            "name: KESTREL-A",
+            &[":29:", "two satellites are named 'KESTREL-A'"],
+        ),
         (
             "name: KESTREL-B",
             "name: KESTREL-A",
@@ -263,7 +270,7 @@ fn bad_fleet_input_names_the_file_line_and_key() {
         (
             "station: Pulau Reka",
             "station: Nowhere",
-            &[":52:", "booking rule 2", "Nowhere"],
+            &[":53:", "booking rule 2", "Nowhere"],
         ),
         (
             "end: 2026-12-03T18:00:00Z",
