@@ -392,10 +392,12 @@ fn print_days(doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
             r.adaptive_volume_bits,
             r.shannon_volume_bits,
             r.rain_volume_bits.unwrap_or(0.0),
+            r.delivered_bits.unwrap_or(0.0),
         ]
     }));
     let cols: Vec<(String, Align)> = vec![
         ("day (UTC)".into(), Align::Left),
+        (vol.header("delivered"), Align::Right),
         ("passes".into(), Align::Right),
         ("contact h:mm:ss".into(), Align::Right),
         (vol.header("fixed"), Align::Right),
@@ -407,6 +409,9 @@ fn print_days(doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
     for r in &doc.days {
         d.row(vec![
             r.date.clone(),
+            r.delivered_bits
+                .map(|v| vol.cell(v))
+                .unwrap_or_else(|| "-".into()),
             r.passes.to_string(),
             hh_mm_ss(r.contact_s),
             vol.cell(r.volume_bits),
@@ -418,6 +423,7 @@ fn print_days(doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
         ]);
     }
     write!(out, "{}", d.render())?;
+    writeln!(out, "delivered: the contact plan's data of the day; fixed, adapt, Shannon, rain: every pass counted, unconstrained (passes counted on the day of their AOS).")?;
     writeln!(out)?;
     Ok(())
 }

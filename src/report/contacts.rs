@@ -174,6 +174,32 @@ impl ContactDoc {
     pub fn delivered_bits(&self) -> f64 {
         self.contacts.iter().map(|c| c.volume_bits).sum()
     }
+
+    /// What the contacts deliver on the UTC day `date` (`YYYY-MM-DD`), each contact's volume
+    /// spread evenly over its time, bits (rounded to whole bits).
+    pub fn delivered_on(&self, date: &str) -> f64 {
+        let Ok(day) = chrono::NaiveDate::parse_from_str(date, "%Y-%m-%d") else {
+            return 0.0;
+        };
+        let d0 = day.and_time(chrono::NaiveTime::MIN).and_utc();
+        let d1 = d0 + chrono::Duration::days(1);
+        let mut bits = 0.0;
+        for c in &self.contacts {
+            let (Ok(s), Ok(e)) = (parse(&c.start), parse(&c.end)) else {
+                continue;
+            };
+            let whole = (e - s).as_seconds_f64();
+            let part = (e.min(d1) - s.max(d0)).as_seconds_f64();
+            if whole > 0.0 && part > 0.0 {
+                bits += c.volume_bits * part / whole;
+            }
+        }
+        bits.round()
+    }
+}
+
+fn parse(t: &str) -> Result<chrono::DateTime<chrono::Utc>, String> {
+    crate::timefmt::parse_utc(t)
 }
 
 fn bound_row(s: &crate::schedule::Schedule) -> ScheduleBoundRow {

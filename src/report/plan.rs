@@ -213,6 +213,13 @@ impl TotalsRow {
 #[derive(Debug, Clone, Serialize)]
 pub struct DayRow {
     pub date: String,
+    /// What the contact plan delivers this UTC day (a contact across midnight split by its time),
+    /// bits; absent where no contact plan was made.
+    #[serde(
+        serialize_with = "crate::report::whole_opt",
+        skip_serializing_if = "Option::is_none"
+    )]
+    pub delivered_bits: Option<f64>,
     pub passes: usize,
     pub contact_s: f64,
     #[serde(serialize_with = "crate::report::whole")]
@@ -229,6 +236,7 @@ impl From<&DayTotals> for DayRow {
     fn from(d: &DayTotals) -> Self {
         DayRow {
             date: d.date.to_string(),
+            delivered_bits: None,
             passes: d.passes,
             contact_s: round(d.contact_s, 1),
             volume_bits: d.volume_bits.round(),
@@ -713,6 +721,9 @@ impl PlanDoc {
     /// Add the contact plan: its fields, and the delivered total first among the totals.
     pub fn attach(&mut self, contact: super::contacts::ContactDoc) {
         self.totals.delivered_bits = Some(contact.delivered_bits());
+        for d in &mut self.days {
+            d.delivered_bits = Some(contact.delivered_on(&d.date));
+        }
         self.contact = Some(contact);
     }
 
