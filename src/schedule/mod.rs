@@ -281,6 +281,61 @@ fn busiest(count: &[(f64, usize)], x: f64, y: f64) -> usize {
         .fold(at_x, usize::max)
 }
 
+/// Whether two options book the same pass of one satellite at one station (on two of its
+/// antennas): the same satellite and `pass_ref`, antennas of the same station.
+fn same_pass(problem: &Problem, opts: &[Opt], i: usize, j: usize) -> bool {
+    let (ci, cj) = (
+        &problem.candidates[opts[i].cand],
+        &problem.candidates[opts[j].cand],
+    );
+    ci.satellite == cj.satellite
+        && ci.pass_ref == cj.pass_ref
+        && problem.antennas[ci.antenna].station == problem.antennas[cj.antenna].station
+}
+
+/// The best selection on antenna `a` with every other antenna's selection held, except the
+/// pieces in `released` (other antennas' contacts of a pass antenna `a` also offers): the
+/// objective and the chosen options.
+fn plan_antenna(
+    problem: &Problem,
+    opts: &[Opt],
+    sel: &[Vec<usize>],
+    mine: &[usize],
+    a: usize,
+    released: &[usize],
+) -> (f64, Vec<usize>) {
+    let fixed: Vec<usize> = sel
+        .iter()
+        .enumerate()
+        .filter(|(b, _)| *b != a)
+        .flat_map(|(_, v)| v.iter().copied())
+        .filter(|i| !released.contains(i))
+        .collect();
+    let (drains, counts) = fixed_profiles(problem, opts, &fixed);
+    let local: Vec<usize> = mine
+        .iter()
+        .copied()
+        .filter(|&i| {
+            busiest(&counts[opts[i].sat], opts[i].x_s, opts[i].y_s)
+                < problem.satellites[opts[i].sat].max_downlinks
+        })
+        .collect();
+    let local_opts: Vec<Opt> = local.iter().map(|&i| opts[i]).collect();
+    let r = Sweep {
+        problem,
+        opts: &local_opts,
+        profiles: &drains,
+        cap: ROUND_CAP,
+    }
+    .run();
+    (r.value, r.chosen.iter().map(|&k| local[k]).collect())
+}
+
+/// Re-plans one antenna at a time with the others held, for up to [`MAX_ROUNDS`] rounds. Where a
+/// pass is split over two antennas of one station (a piece booked on each), the antenna is also
+/// re-planned with the other antennas' pieces of its passes released, so the pass can move whole
+/// onto it; the better of the two is kept (as much data in fewer contacts counts as better), and
+/// the objective never decreases.
 fn antenna_rounds(problem: &Problem, opts: &[Opt]) -> (Vec<usize>, usize) {
     let mut by_antenna: Vec<Vec<usize>> = vec![Vec::new(); problem.antennas.len()];
     for (i, o) in opts.iter().enumerate() {
@@ -291,32 +346,35 @@ fn antenna_rounds(problem: &Problem, opts: &[Opt]) -> (Vec<usize>, usize) {
     for round in 1..=MAX_ROUNDS {
         let mut improved = false;
         for a in (0..by_antenna.len()).filter(|&a| !by_antenna[a].is_empty()) {
-            let fixed: Vec<usize> = sel
+            let (mut value, mut chosen) = plan_antenna(problem, opts, &sel, &by_antenna[a], a, &[]);
+            let released: Vec<usize> = sel
                 .iter()
                 .enumerate()
                 .filter(|(b, _)| *b != a)
                 .flat_map(|(_, v)| v.iter().copied())
+                .filter(|&j| sel[a].iter().any(|&i| same_pass(problem, opts, i, j)))
                 .collect();
-            let (drains, counts) = fixed_profiles(problem, opts, &fixed);
-            let local: Vec<usize> = by_antenna[a]
-                .iter()
-                .copied()
-                .filter(|&i| {
-                    busiest(&counts[opts[i].sat], opts[i].x_s, opts[i].y_s)
-                        < problem.satellites[opts[i].sat].max_downlinks
-                })
-                .collect();
-            let local_opts: Vec<Opt> = local.iter().map(|&i| opts[i]).collect();
-            let r = Sweep {
-                problem,
-                opts: &local_opts,
-                profiles: &drains,
-                cap: ROUND_CAP,
+            let eps = |x: f64| 1e-12 * x.max(1.0);
+            let booked = |chosen: &[usize], dropped: usize| {
+                sel.iter().map(Vec::len).sum::<usize>() - sel[a].len() - dropped + chosen.len()
+            };
+            let mut drop: &[usize] = &[];
+            if !released.is_empty() {
+                let (v, c) = plan_antenna(problem, opts, &sel, &by_antenna[a], a, &released);
+                // More delivered, or as much in fewer contacts (one pass on one antenna, not
+                // split over two with two set-ups).
+                let fewer = booked(&c, released.len()) < booked(&chosen, 0);
+                if v > value + eps(value) || (v >= value - eps(value) && fewer) {
+                    (value, chosen, drop) = (v, c, &released);
+                }
             }
-            .run();
-            if r.value > best + 1e-12 * best.max(1.0) {
-                sel[a] = r.chosen.iter().map(|&k| local[k]).collect();
-                best = r.value;
+            let fewer = booked(&chosen, drop.len()) < booked(&sel[a], 0);
+            if value > best + eps(best) || (value >= best - eps(best) && fewer) {
+                for v in sel.iter_mut() {
+                    v.retain(|i| !drop.contains(i));
+                }
+                sel[a] = chosen;
+                best = value;
                 improved = true;
             }
         }
