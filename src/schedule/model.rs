@@ -72,7 +72,9 @@ pub struct Candidate {
     /// `rate_bps * duty * l`.
     pub duty: f64,
     pub peak_elevation_deg: f64,
-    /// Opaque to the scheduler: the caller's index of the pass.
+    /// The caller's index of the pass: candidates of one satellite with the same `pass_ref` on
+    /// antennas of the same station are one pass offered to each antenna (the antenna rounds
+    /// move such a pass whole onto one antenna where it was split).
     pub pass_ref: usize,
 }
 
