@@ -150,6 +150,7 @@ fn synthetic_summary(p: &PassChartData) -> SummaryChartData {
         })
         .collect();
     SummaryChartData {
+        delivered_bits: None,
         warnings: Vec::new(),
         satellite: "KESTREL-7 (synthetic)".into(),
         start,

@@ -202,6 +202,9 @@ pub struct DayTotals {
 #[derive(Debug, Clone, PartialEq)]
 pub struct SummaryChartData {
     pub satellite: String,
+    /// What the contact plan delivers over the window, bits: the subtitle's first figure (the
+    /// bars and daily totals count every pass, unconstrained).
+    pub delivered_bits: Option<f64>,
     pub start: DateTime<Utc>,
     pub end: DateTime<Utc>,
     pub stations: Vec<String>,

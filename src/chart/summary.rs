@@ -71,7 +71,10 @@ where
     ))?;
     title.draw(&Text::new(
         format!(
-            "{} passes at {} station{} · fixed rate {} · adaptive {}{} · Shannon bound {}",
+            "{}{} passes at {} station{} · every pass: fixed rate {} · adaptive {}{} · Shannon bound {}",
+            d.delivered_bits
+                .map(|b| format!("delivered {} (contact plan) · ", style::format_volume(b)))
+                .unwrap_or_default(),
             d.passes.len(),
             d.stations.len(),
             if d.stations.len() == 1 { "" } else { "s" },

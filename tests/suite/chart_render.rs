@@ -542,6 +542,7 @@ fn sample_summary() -> SummaryChartData {
         })
         .collect();
     SummaryChartData {
+        delivered_bits: Some(1.5e12),
         warnings: Vec::new(),
         satellite: "KESTREL-7 (synthetic)".into(),
         start,
@@ -831,4 +832,22 @@ fn chart_of_one_pass_keeps_the_days_sky_chart() {
         assert_eq!((w, h), SKY_SIZE);
         std::fs::remove_file(&one).unwrap();
     }
+}
+
+/// The summary chart leads with the contact plan's delivered data, the per-pass totals after it
+/// labelled as every pass's.
+#[test]
+fn the_summary_chart_leads_with_the_delivered_data() {
+    let svg = String::from_utf8(
+        passbudget::chart::draw_summary(&sample_summary(), passbudget::chart::ChartFormat::Svg)
+            .unwrap(),
+    )
+    .unwrap();
+    let delivered = svg
+        .find("delivered 1.5 Tbit (contact plan)")
+        .expect("delivered first");
+    let every = svg
+        .find("every pass: fixed rate")
+        .expect("per-pass totals labelled");
+    assert!(delivered < every);
 }
