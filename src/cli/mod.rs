@@ -42,7 +42,8 @@ pub enum Command {
     Atmosphere(budget::AtmosphereArgs),
     /// The itemized downlink budget at one elevation or one instant.
     Budget(budget::BudgetArgs),
-    /// Plan every pass: rate per pass (fixed and adaptive), usable mask, data volume.
+    /// Plan every pass (rate per pass, fixed and adaptive; usable mask; data volume) and book the
+    /// contacts: which antenna takes which pass, for one satellite or a fleet.
     Plan(plan::PlanArgs),
     /// Pass charts, sky tracks, mask trade-off and plan summary (PNG or SVG).
     Chart(chart::ChartArgs),

@@ -28,10 +28,12 @@ use std::path::{Path, PathBuf};
 pub struct PlanArgs {
     #[command(flatten)]
     pub window: WindowArgs,
-    /// Output on stdout: a table for people, or CSV (one row per pass) or JSON (the summary).
+    /// Output on stdout: a table for people, or CSV (one row per pass; one per booked contact for
+    /// a fleet) or JSON (the summary with the contact plan).
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
-    /// Folder for the per-pass CSV time series and the summary (CSV and JSON).
+    /// Folder for the per-pass CSV time series, the summary (CSV and JSON) and the contact plan
+    /// (contacts, satellites and stations CSV, one iCalendar file per station).
     #[arg(long, value_name = "DIR")]
     pub out: Option<PathBuf>,
     /// Also draw the charts into the --out folder.

@@ -5,7 +5,7 @@ use crate::plan::fleet::{antenna_name, BookedContact, ContactPlan};
 use crate::plan::prepare::StationModel;
 use crate::plan::Plan;
 use crate::report::round;
-use crate::timefmt::format_ms;
+use crate::timefmt::{format_ms, parse_utc};
 use serde::Serialize;
 
 /// One booked contact.
@@ -175,31 +175,31 @@ impl ContactDoc {
         self.contacts.iter().map(|c| c.volume_bits).sum()
     }
 
-    /// What the contacts deliver on the UTC day `date` (`YYYY-MM-DD`), each contact's volume
-    /// spread evenly over its time, bits (rounded to whole bits).
-    pub fn delivered_on(&self, date: &str) -> f64 {
-        let Ok(day) = chrono::NaiveDate::parse_from_str(date, "%Y-%m-%d") else {
-            return 0.0;
-        };
-        let d0 = day.and_time(chrono::NaiveTime::MIN).and_utc();
-        let d1 = d0 + chrono::Duration::days(1);
-        let mut bits = 0.0;
+    /// What the contacts deliver on each UTC day, each contact's volume spread evenly over its
+    /// time (a contact across midnight split by its time), bits: one pass over the contacts.
+    pub fn delivered_by_day(&self) -> std::collections::BTreeMap<chrono::NaiveDate, f64> {
+        let mut days = std::collections::BTreeMap::new();
         for c in &self.contacts {
-            let (Ok(s), Ok(e)) = (parse(&c.start), parse(&c.end)) else {
+            let (Ok(s), Ok(e)) = (parse_utc(&c.start), parse_utc(&c.end)) else {
                 continue;
             };
             let whole = (e - s).as_seconds_f64();
-            let part = (e.min(d1) - s.max(d0)).as_seconds_f64();
-            if whole > 0.0 && part > 0.0 {
-                bits += c.volume_bits * part / whole;
+            let mut day = s.date_naive();
+            while whole > 0.0 && day <= e.date_naive() {
+                let d0 = day.and_time(chrono::NaiveTime::MIN).and_utc();
+                let d1 = d0 + chrono::Duration::days(1);
+                let part = (e.min(d1) - s.max(d0)).as_seconds_f64();
+                if part > 0.0 {
+                    *days.entry(day).or_insert(0.0) += c.volume_bits * part / whole;
+                }
+                day = day.succ_opt().unwrap_or(day);
+                if d1 >= e {
+                    break;
+                }
             }
         }
-        bits.round()
+        days
     }
-}
-
-fn parse(t: &str) -> Result<chrono::DateTime<chrono::Utc>, String> {
-    crate::timefmt::parse_utc(t)
 }
 
 fn bound_row(s: &crate::schedule::Schedule) -> ScheduleBoundRow {

@@ -721,8 +721,11 @@ impl PlanDoc {
     /// Add the contact plan: its fields, and the delivered total first among the totals.
     pub fn attach(&mut self, contact: super::contacts::ContactDoc) {
         self.totals.delivered_bits = Some(contact.delivered_bits());
+        let by_day = contact.delivered_by_day();
         for d in &mut self.days {
-            d.delivered_bits = Some(contact.delivered_on(&d.date));
+            let day = chrono::NaiveDate::parse_from_str(&d.date, "%Y-%m-%d").ok();
+            let bits = day.and_then(|k| by_day.get(&k)).copied().unwrap_or(0.0);
+            d.delivered_bits = Some(bits.round());
         }
         self.contact = Some(contact);
     }
