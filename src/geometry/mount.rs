@@ -109,6 +109,8 @@ pub struct Follower {
     rate_deg_s: [f64; 2],
     /// The target's axis angles at the previous step.
     target_deg: [f64; 2],
+    /// The gimbal's frame `(p, q, a)`, computed once per pass (see [`Mount::frame`]).
+    frame: [[f64; 3]; 3],
 }
 
 /// `x` wrapped to (-180, 180].
@@ -118,6 +120,53 @@ fn wrap180(x: f64) -> f64 {
         y - 360.0
     } else {
         y
+    }
+}
+
+/// The axis angles pointing along `rho_enu_km` in the gimbal frame `(p, q, a)`, deg.
+fn angles_in(frame: &[[f64; 3]; 3], rho_enu_km: &[f64; 3]) -> [f64; 2] {
+    let [p, q, a] = frame;
+    let (x, y, z) = (dot(rho_enu_km, p), dot(rho_enu_km, q), dot(rho_enu_km, a));
+    [
+        y.atan2(x).to_degrees(),
+        z.atan2((x * x + y * y).sqrt()).to_degrees(),
+    ]
+}
+
+/// The unit vector (east/north/up) along the axis angles `angles_deg` of the gimbal frame.
+fn direction_in(frame: &[[f64; 3]; 3], angles_deg: [f64; 2]) -> [f64; 3] {
+    let [p, q, a] = frame;
+    let (sp, cp) = angles_deg[0].to_radians().sin_cos();
+    let (ss, cs) = angles_deg[1].to_radians().sin_cos();
+    [0, 1, 2].map(|i| cs * (cp * p[i] + sp * q[i]) + ss * a[i])
+}
+
+/// The angle between the directions of two sets of axis angles, deg.
+fn pointing_error_deg(frame: &[[f64; 3]; 3], from_deg: [f64; 2], to_deg: [f64; 2]) -> f64 {
+    let (d, t) = (direction_in(frame, from_deg), direction_in(frame, to_deg));
+    dot(&d, &t).clamp(-1.0, 1.0).acos().to_degrees()
+}
+
+/// The axis rates in the gimbal frame (see [`Mount::rates`]).
+fn rates_in(
+    frame: &[[f64; 3]; 3],
+    rho_enu_km: &[f64; 3],
+    rho_rate_enu_km_s: &[f64; 3],
+) -> AxisRates {
+    let [p, q, a] = frame;
+    let (x, y, z) = (dot(rho_enu_km, p), dot(rho_enu_km, q), dot(rho_enu_km, a));
+    let (xd, yd, zd) = (
+        dot(rho_rate_enu_km_s, p),
+        dot(rho_rate_enu_km_s, q),
+        dot(rho_rate_enu_km_s, a),
+    );
+    let r2 = x * x + y * y + z * z;
+    let h2 = (x * x + y * y).max(1e-18 * r2);
+    let h = h2.sqrt();
+    let hd = (x * xd + y * yd) / h;
+    AxisRates {
+        primary_deg_s: ((x * yd - y * xd) / h2).to_degrees(),
+        secondary_deg_s: ((zd * h - z * hd) / r2).to_degrees(),
     }
 }
 
@@ -135,40 +184,67 @@ impl Mount {
     /// The axis angles pointing along `rho_enu_km`, deg: primary in (-180, 180], secondary in
     /// [-90, 90].
     pub fn angles(&self, rho_enu_km: &[f64; 3]) -> [f64; 2] {
-        let [p, q, a] = self.frame();
-        let (x, y, z) = (
-            dot(rho_enu_km, &p),
-            dot(rho_enu_km, &q),
-            dot(rho_enu_km, &a),
-        );
-        [
-            y.atan2(x).to_degrees(),
-            z.atan2((x * x + y * y).sqrt()).to_degrees(),
-        ]
+        angles_in(&self.frame(), rho_enu_km)
     }
 
     /// The unit vector (east/north/up) the axes point along at `angles_deg`.
     pub fn direction(&self, angles_deg: [f64; 2]) -> [f64; 3] {
-        let [p, q, a] = self.frame();
-        let (sp, cp) = angles_deg[0].to_radians().sin_cos();
-        let (ss, cs) = angles_deg[1].to_radians().sin_cos();
-        [0, 1, 2].map(|i| cs * (cp * p[i] + sp * q[i]) + ss * a[i])
+        direction_in(&self.frame(), angles_deg)
     }
 
     /// A follower on target at `rho_enu_km` (the pass's first step), at rest.
     pub fn start(&self, rho_enu_km: &[f64; 3]) -> Follower {
-        let t = self.angles(rho_enu_km);
+        let frame = self.frame();
+        let t = angles_in(&frame, rho_enu_km);
         Follower {
             angle_deg: t,
             rate_deg_s: [0.0; 2],
             target_deg: t,
+            frame,
         }
     }
 
     /// Move the follower `dt_s` on, towards the target now at `rho_enu_km`; returns the angle
     /// between where the antenna points and the target, deg.
     pub fn follow(&self, f: &mut Follower, rho_enu_km: &[f64; 3], dt_s: f64) -> f64 {
-        let target = self.angles(rho_enu_km);
+        let target = self.step_follower(f, rho_enu_km, dt_s);
+        pointing_error_deg(&f.frame, f.angle_deg, target)
+    }
+
+    /// As [`Mount::follow`], but only whether the pointing error exceeds `tolerance_deg`. The
+    /// angle between two directions of the gimbal is at most the sum of their axis-angle
+    /// differences (a path along the secondary axis, |Δs|, then along the primary's circle,
+    /// |Δp| cos s <= |Δp|, is no shorter than the great circle), so while the follower keeps up
+    /// that sum settles the answer without the trigonometry; the same answer as `follow`.
+    pub fn follow_lost(
+        &self,
+        f: &mut Follower,
+        rho_enu_km: &[f64; 3],
+        dt_s: f64,
+        tolerance_deg: f64,
+    ) -> bool {
+        let target = self.step_follower(f, rho_enu_km, dt_s);
+        let [lag_p, lag_s] = f.lag_deg();
+        if lag_p.abs() + lag_s.abs() <= tolerance_deg {
+            return false;
+        }
+        pointing_error_deg(&f.frame, f.angle_deg, target) > tolerance_deg
+    }
+
+    /// The axis rates to follow the satellite, in the follower's frame (as [`Mount::rates`]).
+    pub fn rates_for(
+        &self,
+        f: &Follower,
+        rho_enu_km: &[f64; 3],
+        rho_rate_enu_km_s: &[f64; 3],
+    ) -> AxisRates {
+        rates_in(&f.frame, rho_enu_km, rho_rate_enu_km_s)
+    }
+
+    /// Advance the follower `dt_s` towards the target now at `rho_enu_km`; returns the target's
+    /// axis angles.
+    fn step_follower(&self, f: &mut Follower, rho_enu_km: &[f64; 3], dt_s: f64) -> [f64; 2] {
+        let target = angles_in(&f.frame, rho_enu_km);
         if dt_s > 0.0 {
             let limits = [
                 (
@@ -204,8 +280,7 @@ impl Mount {
             f.angle_deg[0] = wrap180(f.angle_deg[0]);
             f.target_deg = target;
         }
-        let (d, t) = (self.direction(f.angle_deg), self.direction(target));
-        dot(&d, &t).clamp(-1.0, 1.0).acos().to_degrees()
+        target
     }
 
     /// The frame `(p, q, a)` of the gimbal, in east/north/up components.
@@ -231,25 +306,7 @@ impl Mount {
     /// (station to satellite, east/north/up). At the keyhole itself (h = 0) the primary rate is
     /// taken at h = 1e-9 of the range: finite, far above any limit.
     pub fn rates(&self, rho_enu_km: &[f64; 3], rho_rate_enu_km_s: &[f64; 3]) -> AxisRates {
-        let [p, q, a] = self.frame();
-        let (x, y, z) = (
-            dot(rho_enu_km, &p),
-            dot(rho_enu_km, &q),
-            dot(rho_enu_km, &a),
-        );
-        let (xd, yd, zd) = (
-            dot(rho_rate_enu_km_s, &p),
-            dot(rho_rate_enu_km_s, &q),
-            dot(rho_rate_enu_km_s, &a),
-        );
-        let r2 = x * x + y * y + z * z;
-        let h2 = (x * x + y * y).max(1e-18 * r2);
-        let h = h2.sqrt();
-        let hd = (x * xd + y * yd) / h;
-        AxisRates {
-            primary_deg_s: ((x * yd - y * xd) / h2).to_degrees(),
-            secondary_deg_s: ((zd * h - z * hd) / r2).to_degrees(),
-        }
+        rates_in(&self.frame(), rho_enu_km, rho_rate_enu_km_s)
     }
 
     /// Whether the rates (and the accelerations from the step before, `dt_s` earlier; `None` at
@@ -424,6 +481,37 @@ mod tests {
             err = m.follow(&mut f, &line(r0, e, v, t).0, dt);
         }
         assert!(err <= 0.01 && t > t_end + 1.0, "caught up at {t} s");
+    }
+
+    /// `follow_lost` (the axis-angle bound first) gives `follow`'s answer at every step of a
+    /// keyhole pass, on each mount kind and at tolerances from 0.001 to 5 deg.
+    #[test]
+    fn follow_lost_matches_follow() {
+        let kinds = [
+            MountKind::AzEl,
+            MountKind::XY {
+                axis_azimuth_deg: 20.0,
+            },
+            MountKind::TiltedAzEl {
+                tilt_deg: 10.0,
+                tilt_azimuth_deg: 200.0,
+            },
+        ];
+        let mut lost_seen = 0;
+        for kind in kinds {
+            let m = Mount { kind, ..az_el(3.0) };
+            for tol in [0.001, 0.05, 0.3, 5.0] {
+                let (mut a, mut b) = (m.start(&line(600.0, 88.0, 7.5, -90.0).0), None);
+                for k in 1..1800 {
+                    let rho = line(600.0, 88.0, 7.5, -90.0 + 0.1 * k as f64).0;
+                    let want = m.follow(&mut a, &rho, 0.1) > tol;
+                    let f = b.get_or_insert_with(|| m.start(&line(600.0, 88.0, 7.5, -90.0).0));
+                    assert_eq!(m.follow_lost(f, &rho, 0.1, tol), want, "{kind:?} {tol} {k}");
+                    lost_seen += usize::from(want);
+                }
+            }
+        }
+        assert!(lost_seen > 0);
     }
 
     #[test]

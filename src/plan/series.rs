@@ -437,7 +437,8 @@ fn follow_mount(
     (follower, tolerance_deg): (&mut Option<Follower>, f64),
     step: &mut Step,
 ) {
-    let r = m.rates(&rho, &rho_rate);
+    let f = follower.get_or_insert_with(|| m.start(&rho));
+    let r = m.rates_for(f, &rho, &rho_rate);
     let before = prev.map(|p| {
         let b = AxisRates {
             primary_deg_s: p.primary_rate_deg_s,
@@ -448,7 +449,6 @@ fn follow_mount(
     step.primary_rate_deg_s = r.primary_deg_s;
     step.secondary_rate_deg_s = r.secondary_deg_s;
     step.rate_exceeded = !m.can_follow(r, before);
-    let f = follower.get_or_insert_with(|| m.start(&rho));
     let dt_s = before.map_or(0.0, |b| b.1);
-    step.untracked = m.follow(f, &rho, dt_s) > tolerance_deg;
+    step.untracked = m.follow_lost(f, &rho, dt_s, tolerance_deg);
 }
