@@ -115,7 +115,14 @@ pub struct Follower {
 
 /// `x` wrapped to (-180, 180].
 fn wrap180(x: f64) -> f64 {
-    let y = x.rem_euclid(360.0);
+    // rem_euclid's own result where |x| < 360 (fmod is exact there), without its division
+    let y = if (0.0..360.0).contains(&x) {
+        x
+    } else if x < 0.0 && x > -360.0 {
+        x + 360.0
+    } else {
+        x.rem_euclid(360.0)
+    };
     if y > 180.0 {
         y - 360.0
     } else {
@@ -512,6 +519,23 @@ mod tests {
             }
         }
         assert!(lost_seen > 0);
+    }
+
+    #[test]
+    fn wrap180_equals_the_rem_euclid_form() {
+        let reference = |x: f64| {
+            let y = x.rem_euclid(360.0);
+            if y > 180.0 {
+                y - 360.0
+            } else {
+                y
+            }
+        };
+        let edges = [0.0, -0.0, 180.0, -180.0, 360.0, -360.0, 1e-300, -1e-300, 540.0, -719.9];
+        let sweep = (-4000..4000).map(|k| k as f64 * 0.2371);
+        for x in edges.into_iter().chain(sweep) {
+            assert_eq!(wrap180(x).to_bits(), reference(x).to_bits(), "{x}");
+        }
     }
 
     #[test]
