@@ -4,7 +4,7 @@
 use crate::cli::table::{Align, Table};
 use anyhow::Result;
 use passbudget::engfmt;
-use passbudget::report::contacts::ContactDoc;
+use passbudget::report::contacts::{ContactDoc, ContactRows};
 use std::io::Write;
 
 fn cell_or_dash(x: Option<String>) -> String {
@@ -45,7 +45,7 @@ pub fn print_headline(
         out,
         "Delivered (contact plan): {} in {} contacts; schedule bound {} ({gap}; {}, scheduled in {:.0} ms); unconstrained sum over passes {} (no antenna, store or turnaround limit)",
         engfmt::volume(doc.delivered_bits()),
-        doc.contacts.len(),
+        doc.booked.contacts,
         engfmt::volume(b.delivered_upper_bits),
         b.method,
         doc.scheduler_s * 1e3,
@@ -54,10 +54,11 @@ pub fn print_headline(
     Ok(())
 }
 
-/// The booked contacts, then the satellites and the stations.
-pub fn print_contact_plan(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
+/// The booked contacts (each row made as it is written: `rows`), then the satellites and the
+/// stations.
+pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Write) -> Result<()> {
     writeln!(out, "Contact plan (booked contacts):")?;
-    let mut t = Table::new(&[
+    let t = Table::new(&[
         ("satellite", Align::Left),
         ("antenna", Align::Left),
         ("set-up (UTC)", Align::Left),
@@ -69,22 +70,25 @@ pub fn print_contact_plan(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
         ("min margin", Align::Right),
         ("delivered", Align::Right),
     ]);
-    for c in &doc.contacts {
-        t.row(vec![
-            c.satellite.clone(),
-            c.antenna.clone(),
+    let cells = |k: usize| {
+        let c = rows.row(k);
+        vec![
+            c.satellite,
+            c.antenna,
             short_time(&c.setup_start),
             c.start.get(11..19).unwrap_or("").to_string(),
             c.end.get(11..19).unwrap_or("").to_string() + if c.shortened { " *" } else { "" },
             format!("{:.1}/{:.1}", c.start_elevation_deg, c.end_elevation_deg),
             engfmt::rate(c.rate_bps),
-            c.scheme.clone(),
+            c.scheme,
             cell_or_dash(c.min_margin_db.map(|m| format!("{m:.1} dB"))),
             engfmt::volume(c.volume_bits),
-        ]);
-    }
-    write!(out, "{}", t.render())?;
-    if doc.contacts.iter().any(|c| c.shortened) {
+        ]
+    };
+    t.render_rows(rows.len(), cells, &mut |line| {
+        out.write_all(line.as_bytes())
+    })?;
+    if doc.booked.any_shortened {
         writeln!(
             out,
             "*: shortened to make room for another contact, its set-up or a blocked period."

@@ -7,7 +7,7 @@ use crate::cli::plan::PlanArgs;
 use anyhow::Result;
 use passbudget::config::mission::Mission;
 use passbudget::plan::fleet::{ContactPlan, FleetPlanner};
-use passbudget::report::contacts::{write_contact_files, ContactDoc, FleetDoc};
+use passbudget::report::contacts::{write_contact_files, ContactDoc, ContactRows, FleetDoc};
 use passbudget::report::{to_csv, CommitMode};
 use std::io::Write;
 use std::path::Path;
@@ -31,8 +31,14 @@ pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Resul
     };
     let (plans, cp) = fleet.run().map_err(|e| in_out(e.into()))?;
     let planners: Vec<_> = fleet.planners().iter().collect();
-    let cdoc = ContactDoc::new(&cp, &plans, fleet.planners()[0].stations());
+    // The pass and contact rows only for a document that is written (JSON, CSV, the --out
+    // files); the table makes each contact's row as it prints it.
     let rows = a.format != Format::Table || staging.is_some();
+    let stations = fleet.planners()[0].stations();
+    let cdoc = match rows {
+        true => ContactDoc::new(&cp, &plans, stations),
+        false => ContactDoc::without_contact_rows(&cp, &plans, stations),
+    };
     let doc = FleetDoc::new(&planners, &plans, cdoc, rows);
     warn(&doc.warnings);
     if let Some(st) = staging {
@@ -42,7 +48,7 @@ pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Resul
     match a.format {
         Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
         Format::Csv => write!(out, "{}", to_csv(&doc.contact.contacts, &doc.warnings)?)?,
-        Format::Table => print_fleet(&doc, out)?,
+        Format::Table => print_fleet(&doc, &ContactRows::new(&cp, &plans, stations), out)?,
     }
     Ok(())
 }
@@ -61,7 +67,7 @@ fn write_fleet_files(doc: &FleetDoc, cp: &ContactPlan, a: &PlanArgs, dir: &Path)
     Ok(())
 }
 
-fn print_fleet(doc: &FleetDoc, out: &mut dyn Write) -> Result<()> {
+fn print_fleet(doc: &FleetDoc, rows: &ContactRows, out: &mut dyn Write) -> Result<()> {
     writeln!(
         out,
         "{}: {} satellites over {} station(s), {} to {}",
@@ -73,7 +79,7 @@ fn print_fleet(doc: &FleetDoc, out: &mut dyn Write) -> Result<()> {
     )?;
     crate::cli::contacts::print_headline(&doc.contact, doc.totals.unconstrained_volume_bits, out)?;
     writeln!(out)?;
-    crate::cli::contacts::print_contact_plan(&doc.contact, out)?;
+    crate::cli::contacts::print_contact_plan(&doc.contact, rows, out)?;
     writeln!(
         out,
         "{} passes, {} with a closing rate; per-pass detail: plan --satellite NAME (or passes.csv with --out).",

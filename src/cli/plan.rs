@@ -13,7 +13,7 @@ use passbudget::engfmt;
 use passbudget::plan::fleet::{contact_plan, ContactPlan};
 use passbudget::plan::summary::tradeoff;
 use passbudget::plan::{PassPlan, Plan, Planner};
-use passbudget::report::contacts::{write_contact_files, ContactDoc};
+use passbudget::report::contacts::{write_contact_files, ContactDoc, ContactRows};
 use passbudget::report::files::{
     summary_json, write_summaries, ChartBytes, CsvSink, OutputRequest,
 };
@@ -111,13 +111,21 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
         contact_plan(&[&planner], std::slice::from_ref(&plan)).map_err(|e| in_out(e.into()))?;
     // The pass rows only for a document that is written (JSON, CSV, the --out files); the
     // table makes each row as it prints it.
-    let mut doc = if a.format == Format::Table && staging.is_none() {
-        PlanDoc::without_pass_rows(&planner, &plan)
-    } else {
-        PlanDoc::new(&planner, &plan)
-    };
+    // Likewise the booked contacts' rows.
     let plans = std::slice::from_ref(&plan);
-    doc.attach(ContactDoc::new(&cp, plans, planner.stations()));
+    let doc = if a.format == Format::Table && staging.is_none() {
+        let mut doc = PlanDoc::without_pass_rows(&planner, &plan);
+        doc.attach(ContactDoc::without_contact_rows(
+            &cp,
+            plans,
+            planner.stations(),
+        ));
+        doc
+    } else {
+        let mut doc = PlanDoc::new(&planner, &plan);
+        doc.attach(ContactDoc::new(&cp, plans, planner.stations()));
+        doc
+    };
     if let (Some(dir), Some(st)) = (&dir, staging.as_ref()) {
         write_files(&planner, &plan, &doc, &charts, dir, a.charts)
             .and_then(|()| write_contacts(&planner, &cp, &doc, dir, &a))
@@ -129,7 +137,7 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     match a.format {
         Format::Json => write!(out, "{}", summary_json(&doc))?,
         Format::Csv => write!(out, "{}", to_csv(&doc.passes, &doc.assumptions.warnings)?)?,
-        Format::Table => print_plan(&planner, &plan, &doc, out)?,
+        Format::Table => print_plan(&planner, &plan, &doc, &cp, out)?,
     }
     Ok(())
 }
@@ -227,7 +235,13 @@ fn deg1(x: f64) -> String {
     format!("{:.1}", round(x, 1))
 }
 
-fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
+fn print_plan(
+    planner: &Planner,
+    plan: &Plan,
+    doc: &PlanDoc,
+    cp: &ContactPlan,
+    out: &mut dyn Write,
+) -> Result<()> {
     writeln!(
         out,
         "{}: {} over {} station(s), {} to {}, step {} s",
@@ -244,7 +258,8 @@ fn print_plan(planner: &Planner, plan: &Plan, doc: &PlanDoc, out: &mut dyn Write
     }
     print_passes(planner, plan, out)?;
     if let Some(c) = &doc.contact {
-        crate::cli::contacts::print_contact_plan(c, out)?;
+        let rows = ContactRows::new(cp, std::slice::from_ref(plan), planner.stations());
+        crate::cli::contacts::print_contact_plan(c, &rows, out)?;
     }
     print_days(doc, out)?;
     print_totals(planner, doc, out)?;

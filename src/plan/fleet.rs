@@ -164,6 +164,7 @@ pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan
             }
         }
     }
+    candidates.shrink_to_fit();
     let satellites: Vec<Satellite> = planners
         .iter()
         .enumerate()
@@ -178,11 +179,13 @@ pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan
         window_s,
         satellites,
         antennas: resources,
-        candidates: candidates.clone(),
+        // Moved in and back out: one copy of the candidates, which grow with the window.
+        candidates,
     };
     let clock = std::time::Instant::now();
     let sched = schedule::schedule(&problem).map_err(PlanError::Schedule)?;
     let scheduler_s = clock.elapsed().as_secs_f64();
+    let candidates = problem.candidates;
     let contacts = booked(&sched, &candidates, &antennas, planners, plans)?;
     Ok(ContactPlan {
         satellites: planners.iter().map(|p| name_of(p)).collect(),

@@ -124,25 +124,135 @@ pub struct ContactDoc {
     /// run to run, and the same inputs write the same files).
     #[serde(skip)]
     pub scheduler_s: f64,
+    /// Figures over every booked contact, gathered from the rows as they were made: the same
+    /// whether `contacts` keeps the rows ([`ContactDoc::new`]) or not
+    /// ([`ContactDoc::without_contact_rows`]).
+    #[serde(skip)]
+    pub booked: BookedSummary,
+}
+
+/// What the rest of a summary needs from the booked contacts' rows (the count, the sums per
+/// window and per day), gathered one row at a time so that the rows need not be kept.
+#[derive(Debug, Clone)]
+pub struct BookedSummary {
+    pub contacts: usize,
+    /// The sum of the rows' (rounded) volumes, in contact order, bits.
+    pub delivered_bits: f64,
+    /// Per UTC day, the rows' volumes spread evenly over their (millisecond) times, bits.
+    pub delivered_by_day: std::collections::BTreeMap<chrono::NaiveDate, f64>,
+    /// A contact was shortened to make room for another one, a set-up or a blocked period.
+    pub any_shortened: bool,
+}
+
+impl Default for BookedSummary {
+    fn default() -> Self {
+        BookedSummary {
+            contacts: 0,
+            // The neutral element of `Iterator::sum` (the sum was taken over the kept rows
+            // before), so that even an empty plan's total keeps its sign bit.
+            delivered_bits: std::iter::empty::<f64>().sum(),
+            delivered_by_day: Default::default(),
+            any_shortened: false,
+        }
+    }
+}
+
+impl BookedSummary {
+    /// Add one contact's row.
+    pub fn add(&mut self, c: &ContactRow) {
+        self.contacts += 1;
+        self.delivered_bits += c.volume_bits;
+        self.any_shortened |= c.shortened;
+        let (Ok(s), Ok(e)) = (parse_utc(&c.start), parse_utc(&c.end)) else {
+            return;
+        };
+        let whole = (e - s).as_seconds_f64();
+        let mut day = s.date_naive();
+        while whole > 0.0 && day <= e.date_naive() {
+            let d0 = day.and_time(chrono::NaiveTime::MIN).and_utc();
+            let d1 = d0 + chrono::Duration::days(1);
+            let part = (e.min(d1) - s.max(d0)).as_seconds_f64();
+            if part > 0.0 {
+                *self.delivered_by_day.entry(day).or_insert(0.0) += c.volume_bits * part / whole;
+            }
+            day = day.succ_opt().unwrap_or(day);
+            if d1 >= e {
+                break;
+            }
+        }
+    }
+}
+
+/// Makes the row of any booked contact of a contact plan when it is needed (a table writes the
+/// rows one at a time; the rows of a year are a few MB).
+pub struct ContactRows<'a> {
+    cp: &'a ContactPlan,
+    plans: &'a [Plan],
+    stations: Vec<(String, usize)>,
+}
+
+impl<'a> ContactRows<'a> {
+    /// The rows of `cp` over `stations` (the planners' stations, shared by the fleet).
+    pub fn new(cp: &'a ContactPlan, plans: &'a [Plan], stations: &[StationModel]) -> Self {
+        let stations = stations
+            .iter()
+            .map(|s| (s.station.name.clone(), s.station.antennas))
+            .collect();
+        ContactRows {
+            cp,
+            plans,
+            stations,
+        }
+    }
+
+    /// The number of booked contacts.
+    pub fn len(&self) -> usize {
+        self.cp.contacts.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.cp.contacts.is_empty()
+    }
+
+    /// The row of the `k`-th booked contact.
+    pub fn row(&self, k: usize) -> ContactRow {
+        contact_row(self.cp, self.plans, &self.stations, &self.cp.contacts[k])
+    }
 }
 
 impl ContactDoc {
     /// The rows of a contact plan over `stations` (the planners' stations, shared by the fleet).
     pub fn new(cp: &ContactPlan, plans: &[Plan], stations: &[StationModel]) -> Self {
-        let stations: Vec<(String, usize)> = stations
-            .iter()
-            .map(|s| (s.station.name.clone(), s.station.antennas))
-            .collect();
-        let stations = stations.as_slice();
-        let contacts = cp
-            .contacts
-            .iter()
-            .map(|c| contact_row(cp, plans, stations, c))
-            .collect();
+        Self::build(cp, plans, stations, true)
+    }
+
+    /// Every part but the booked contacts' rows (`contacts` is empty; `booked` holds their
+    /// count and sums), for a reader that makes each row when it needs it ([`ContactRows`]:
+    /// the `plan` table).
+    pub fn without_contact_rows(
+        cp: &ContactPlan,
+        plans: &[Plan],
+        stations: &[StationModel],
+    ) -> Self {
+        Self::build(cp, plans, stations, false)
+    }
+
+    fn build(cp: &ContactPlan, plans: &[Plan], stations: &[StationModel], keep: bool) -> Self {
+        let rows = ContactRows::new(cp, plans, stations);
+        let mut booked = BookedSummary::default();
+        let mut contacts = Vec::with_capacity(if keep { rows.len() } else { 0 });
+        for k in 0..rows.len() {
+            let row = rows.row(k);
+            booked.add(&row);
+            if keep {
+                contacts.push(row);
+            }
+        }
         let satellites = (0..cp.satellites.len())
             .map(|i| satellite_row(cp, plans, i))
             .collect();
-        let station_rows = stations
+        let station_rows = rows
+            .stations
             .iter()
             .enumerate()
             .map(|(si, (name, n))| {
@@ -167,38 +277,19 @@ impl ContactDoc {
             stations: station_rows,
             schedule_bound: bound_row(&cp.schedule),
             scheduler_s: round(cp.scheduler_s, 4),
+            booked,
         }
     }
 
     /// The sum over the booked contacts, bits.
     pub fn delivered_bits(&self) -> f64 {
-        self.contacts.iter().map(|c| c.volume_bits).sum()
+        self.booked.delivered_bits
     }
 
     /// What the contacts deliver on each UTC day, each contact's volume spread evenly over its
     /// time (a contact across midnight split by its time), bits: one pass over the contacts.
     pub fn delivered_by_day(&self) -> std::collections::BTreeMap<chrono::NaiveDate, f64> {
-        let mut days = std::collections::BTreeMap::new();
-        for c in &self.contacts {
-            let (Ok(s), Ok(e)) = (parse_utc(&c.start), parse_utc(&c.end)) else {
-                continue;
-            };
-            let whole = (e - s).as_seconds_f64();
-            let mut day = s.date_naive();
-            while whole > 0.0 && day <= e.date_naive() {
-                let d0 = day.and_time(chrono::NaiveTime::MIN).and_utc();
-                let d1 = d0 + chrono::Duration::days(1);
-                let part = (e.min(d1) - s.max(d0)).as_seconds_f64();
-                if part > 0.0 {
-                    *days.entry(day).or_insert(0.0) += c.volume_bits * part / whole;
-                }
-                day = day.succ_opt().unwrap_or(day);
-                if d1 >= e {
-                    break;
-                }
-            }
-        }
-        days
+        self.booked.delivered_by_day.clone()
     }
 }
 
@@ -370,7 +461,7 @@ impl FleetDoc {
             window_end: format_ms(&w.end()),
             totals: FleetTotalsRow {
                 delivered_bits: contact.delivered_bits(),
-                contacts: contact.contacts.len(),
+                contacts: contact.booked.contacts,
                 passes: plans.iter().map(|p| p.totals.passes).sum(),
                 passes_closing: plans.iter().map(|p| p.totals.passes_closing).sum(),
                 unconstrained_volume_bits: plans.iter().map(|p| p.totals.volume_bits.round()).sum(),

@@ -199,22 +199,22 @@ pub struct Schedule {
 }
 
 fn build_opts(problem: &Problem, spans: &[Result<(f64, f64), NotBooked>]) -> Vec<Opt> {
-    let mut opts: Vec<Opt> = decision_space(problem, spans)
-        .into_iter()
-        .flatten()
-        .map(|t| {
-            let c = &problem.candidates[t.cand];
-            Opt {
-                cand: t.cand,
-                sat: c.satellite,
-                antenna: c.antenna,
-                x_s: t.x_s,
-                y_s: t.y_s,
-                q_bps: c.rate_bps * c.duty,
-                span_end_s: spans[t.cand].map_or(c.end_s, |s| s.1),
-            }
-        })
-        .collect();
+    let space = decision_space(problem, spans);
+    // Sized once: collecting the flattened trims would grow the vector by doubling (up to twice
+    // the trims held, and both copies while it moves; this vector is the peak of a year's plan).
+    let mut opts: Vec<Opt> = Vec::with_capacity(space.iter().map(Vec::len).sum());
+    opts.extend(space.into_iter().flatten().map(|t| {
+        let c = &problem.candidates[t.cand];
+        Opt {
+            cand: t.cand,
+            sat: c.satellite,
+            antenna: c.antenna,
+            x_s: t.x_s,
+            y_s: t.y_s,
+            q_bps: c.rate_bps * c.duty,
+            span_end_s: spans[t.cand].map_or(c.end_s, |s| s.1),
+        }
+    }));
     opts.sort_by(|a, b| {
         a.x_s
             .total_cmp(&b.x_s)
