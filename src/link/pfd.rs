@@ -18,8 +18,8 @@
 //!   -115 + 0.5 (δ - 5) at 5-25 deg, -105 at 25-90 deg, read in 47 CFR §25.208(p) ("the Earth
 //!   exploration-satellite service in the band 25.5-27 GHz"; eCFR text after 89 FR 34167 of
 //!   30 April 2024, read in a public mirror of the eCFR, `section-25.208.md`): the FCC's
-//!   rule carrying the Article 21 limit for that band. The Radio Regulations' own text was not
-//!   read, so the row is confirmed through that rule, not in the Regulations.
+//!   domestic rule for that band. The Radio Regulations' own text was not read, so the row is
+//!   confirmed in that rule, not in the Regulations.
 //! * **2025-2110, 2200-2300 and 8025-8500 MHz**: **from memory**. No readable copy of the Radio
 //!   Regulations, of a national rule or of an ITU-R or CEPT text quoting these rows was found
 //!   (docs/REFERENCES.md §12 lists what was searched).
