@@ -26,8 +26,10 @@
 //! mission's own schemes of [`crate::link::schemes`] carry an overhead); for DVB-S2 the
 //! BBHEADER and PLHEADER are included through eta.
 //!
-//! A second search of the published text (2026-12-02) found the CCSDS figures' captions but no
-//! number read off them: the CCSDS thresholds stay "from memory" (docs/REFERENCES.md §2).
+//! A second and a third search of the published text (2026-12-02: 130.1-G-1/-2 pages, 131.0-B
+//! copies, 131.4-M-1, DSN 810-005 module 208) found the CCSDS figures' captions but no table or
+//! sentence giving a threshold with its error rate: the CCSDS thresholds stay "from memory"
+//! (docs/REFERENCES.md §2 lists what was searched).
 //!
 //! Target error rate: a coded scheme's threshold is for the error rate and measure
 //! (BER, FER, PER) of the figure it came from. Requesting another rate returns the

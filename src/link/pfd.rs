@@ -11,10 +11,18 @@
 //! under free-space conditions, for all methods of modulation. The form of the rows is confirmed
 //! through 47 CFR §25.208, which states the same three-part form for the FSS bands it mirrors
 //! ("(δ−5)/2", "obtained under assumed free-space propagation conditions";
-//! <http://hallikainen.org/org/FCC/FccRules/2016/25/208>). **The band rows below (L0 and the
-//! reference bandwidth of each band) are from memory**: no readable copy of the Radio Regulations
-//! text could be found to confirm them (`TABLE_21_4`'s `status` says so, and so does every output
-//! that uses them).
+//! <http://hallikainen.org/org/FCC/FccRules/2016/25/208>).
+//!
+//! How each band row is known (`BandLimit::status`, shown by every output that uses it):
+//! * **25.5-27 GHz (EESS, space-to-Earth)**: -115 dB(W/m2) in any 1 MHz at 0-5 deg,
+//!   -115 + 0.5 (δ - 5) at 5-25 deg, -105 at 25-90 deg, read in 47 CFR §25.208(p) ("the Earth
+//!   exploration-satellite service in the band 25.5-27 GHz"; eCFR text after 89 FR 34167 of
+//!   30 April 2024, read in a public mirror of the eCFR, `section-25.208.md`): the FCC's
+//!   domestic rule for that band. The Radio Regulations' own text was not read, so the row is
+//!   confirmed in that rule, not in the Regulations.
+//! * **2025-2110, 2200-2300 and 8025-8500 MHz**: **from memory**. No readable copy of the Radio
+//!   Regulations, of a national rule or of an ITU-R or CEPT text quoting these rows was found
+//!   (docs/REFERENCES.md §12 lists what was searched).
 //!
 //! The pfd of a carrier spread uniformly over its occupied bandwidth B (the modem's Rs (1 + roll-off)):
 //!
@@ -36,12 +44,13 @@ pub struct BandLimit {
     pub low_angle_limit_dbw_m2: f64,
     /// Reference bandwidth, Hz (4 kHz or 1 MHz).
     pub reference_bandwidth_hz: f64,
-    /// How well the row is known ("from memory" until read in the Radio Regulations).
+    /// How well the row is known: [`FROM_MEMORY`], or the text it was read in.
     pub status: &'static str,
 }
 
 /// The rows of Table 21-4 passbudget knows (space-to-Earth bands of the space science services).
-/// All from memory (see the module documentation).
+/// The 25.5-27 GHz row is read in 47 CFR §25.208(p); the others are from memory (see the module
+/// documentation).
 pub const TABLE_21_4: &[BandLimit] = &[
     BandLimit {
         low_mhz: 2025.0,
@@ -68,18 +77,21 @@ pub const TABLE_21_4: &[BandLimit] = &[
         status: FROM_MEMORY,
     },
     BandLimit {
-        low_mhz: 25_250.0,
-        high_mhz: 27_500.0,
-        services: "Earth exploration-satellite, space research (space-to-Earth)",
+        low_mhz: 25_500.0,
+        high_mhz: 27_000.0,
+        services: "Earth exploration-satellite (space-to-Earth)",
         low_angle_limit_dbw_m2: -115.0,
         reference_bandwidth_hz: 1e6,
-        status: FROM_MEMORY,
+        status: CFR_25_208_P,
     },
 ];
 
 /// The status of a row not read in the Radio Regulations text.
 pub const FROM_MEMORY: &str =
     "from memory: Radio Regulations Article 21 Table 21-4 row not confirmed in the text";
+
+/// The status of the 25.5-27 GHz row: read in the FCC's rule that carries the limit.
+pub const CFR_25_208_P: &str = "read in 47 CFR 25.208(p) (FCC rule for EESS space-to-Earth in 25.5-27 GHz, eCFR text after 89 FR 34167, 30 April 2024): -115 dB(W/m2) in 1 MHz at 0-5 deg, +0.5 dB/deg, -105 at 25-90 deg; the Radio Regulations text itself not read";
 
 /// The Earth's radius for the angle-of-arrival geometry: WGS-84 equatorial radius, km.
 pub const EARTH_RADIUS_KM: f64 = crate::units::WGS84_A_KM;
@@ -138,6 +150,8 @@ pub struct PfdAt {
     pub limit_dbw_m2: f64,
     /// Limit minus pfd, dB (negative: over the limit).
     pub margin_db: f64,
+    /// How the band's row is known ([`BandLimit::status`]).
+    pub limit_status: &'static str,
 }
 
 impl BandLimit {
@@ -162,12 +176,18 @@ impl BandLimit {
             reference_bandwidth_hz: self.reference_bandwidth_hz,
             limit_dbw_m2: limit,
             margin_db: limit - pfd,
+            limit_status: self.status,
         }
     }
 
     /// The band as a label: `8025-8500 MHz`.
     pub fn label(&self) -> String {
         format!("{}-{} MHz", self.low_mhz, self.high_mhz)
+    }
+
+    /// Whether the row was read in a published text (not from memory).
+    pub fn confirmed(&self) -> bool {
+        self.status != FROM_MEMORY
     }
 }
 
@@ -233,12 +253,12 @@ mod tests {
             assert_eq!(b.limit_dbw_m2(angle), want, "{angle}");
         }
         assert!(BandLimit::for_frequency(5.0e9).is_none());
-        assert_eq!(
-            BandLimit::for_frequency(26e9)
-                .unwrap()
-                .reference_bandwidth_hz,
-            1e6
-        );
+        // 47 CFR §25.208(p): EESS in 25.5-27 GHz, 1 MHz reference bandwidth
+        let ka = BandLimit::for_frequency(26e9).unwrap();
+        assert_eq!(ka.reference_bandwidth_hz, 1e6);
+        assert!(ka.confirmed() && !b.confirmed());
+        assert!(BandLimit::for_frequency(25.3e9).is_none());
+        assert!(BandLimit::for_frequency(27.2e9).is_none());
     }
 
     /// A worked case by hand: EIRP 10 dBW at 1000 km spread over 10 MHz, in 4 kHz:

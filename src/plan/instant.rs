@@ -266,11 +266,12 @@ fn pfd_warning(model: &StationModel, pfd: Option<&crate::link::pfd::PfdAt>) -> O
             crate::engfmt::frequency_mhz(f)
         )),
         Some(p) if p.margin_db < 0.0 => Some(format!(
-            "pfd: {:.1} dB(W/m2) in {} exceeds the Article 21 Table 21-4 limit ({:.1}) by {:.1} dB at this geometry (limit row from memory); compliance is for the administration to decide",
+            "pfd: {:.1} dB(W/m2) in {} exceeds the Article 21 Table 21-4 limit ({:.1}) by {:.1} dB at this geometry (limit row {}); compliance is for the administration to decide",
             p.pfd_dbw_m2,
             super::pfd::reference_label(p.reference_bandwidth_hz),
             p.limit_dbw_m2,
-            -p.margin_db
+            -p.margin_db,
+            p.limit_status
         )),
         Some(_) => None,
     }

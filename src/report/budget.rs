@@ -68,7 +68,8 @@ pub struct BudgetDoc {
     pub pfd_limit_dbw_m2: Option<f64>,
     /// Limit minus pfd, dB (negative: over the limit; a warning, not an error).
     pub pfd_margin_db: Option<f64>,
-    /// How the limit's row is known (from memory until read in the Radio Regulations).
+    /// How the limit's row is known (`link::pfd::BandLimit::status`: from memory, or the text it
+    /// was read in).
     pub pfd_limit_status: Option<&'static str>,
     pub items: Vec<ItemRow>,
     pub warnings: Vec<String>,
@@ -143,7 +144,7 @@ impl BudgetDoc {
             pfd_reference_bandwidth_hz: b.pfd.map(|p| p.reference_bandwidth_hz),
             pfd_limit_dbw_m2: b.pfd.map(|p| r4(p.limit_dbw_m2)),
             pfd_margin_db: b.pfd.map(|p| r4(p.margin_db)),
-            pfd_limit_status: b.pfd.map(|_| crate::link::pfd::FROM_MEMORY),
+            pfd_limit_status: b.pfd.map(|p| p.limit_status),
             items: b
                 .items
                 .iter()

@@ -308,3 +308,51 @@ fn plan_pfd_over_the_limit_is_a_warning() {
         }
     }
 }
+
+/// The 25.5-27 GHz row against the text it was read in: 47 CFR §25.208(p) (eCFR text after
+/// 89 FR 34167, 30 April 2024): for "the Earth exploration-satellite service in the band
+/// 25.5-27 GHz", -115 dB(W/m2) in any 1 MHz band at 0-5 deg, -115 + 0.5 (δ - 5) at 5-25 deg and
+/// -105 at 25-90 deg, under assumed free-space conditions. The band's edges are the rule's
+/// (25.4 and 27.1 GHz have no row), and `budget` reports the row's source, not "from memory".
+#[test]
+fn ka_row_against_47_cfr_25_208_p() {
+    use passbudget::link::pfd::BandLimit;
+    let ka = BandLimit::for_frequency(26.0e9).unwrap();
+    assert_eq!((ka.low_mhz, ka.high_mhz), (25_500.0, 27_000.0));
+    assert_eq!(ka.reference_bandwidth_hz, 1e6);
+    for (angle, want) in [
+        (0.0, -115.0),
+        (5.0, -115.0),
+        (10.0, -112.5),
+        (15.0, -110.0),
+        (25.0, -105.0),
+        (60.0, -105.0),
+        (90.0, -105.0),
+    ] {
+        assert_eq!(ka.limit_dbw_m2(angle), want, "{angle}");
+    }
+    assert!(ka.status.contains("47 CFR 25.208(p)") && ka.confirmed());
+    assert!(BandLimit::for_frequency(25.4e9).is_none());
+    assert!(BandLimit::for_frequency(27.1e9).is_none());
+    // the other rows stay flagged
+    for f in [2.05e9, 2.25e9, 8.2e9] {
+        assert!(!BandLimit::for_frequency(f).unwrap().confirmed(), "{f}");
+    }
+    let d = json(&run(&[
+        "budget",
+        MISSION,
+        "--station",
+        "nordkam",
+        "--elevation-deg",
+        "15",
+        "--set",
+        "transmitter.frequency_mhz=26000",
+        "--format",
+        "json",
+    ]));
+    assert_eq!(d["pfd_reference_bandwidth_hz"], 1e6);
+    assert_eq!(d["pfd_limit_dbw_m2"], -110.0);
+    let status = d["pfd_limit_status"].as_str().unwrap();
+    assert!(status.contains("47 CFR 25.208(p)"), "{status}");
+    assert!(!status.contains("from memory"), "{status}");
+}
