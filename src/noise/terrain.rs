@@ -28,10 +28,10 @@
 //!
 //! Status: this is the direct integral only. A table over (elevation above the terrain,
 //! azimuth) with bilinear interpolation was tried (36 azimuth columns, rows refined as the 1-D
-//! table's): on the shipped example's profile it took 3-20 s to build per station and weather
-//! case and missed a 0.25 K bound by up to 5 K next to the profile's highest vertex, so the plan's
-//! steps still take the 1-D table (terrain at the geometric horizon); see the README's noise
-//! section.
+//! table's): on the shipped example's profile it needed 8,000-22,000 direct integrals per station
+//! and weather case (seconds; one integral is 0.2-0.7 ms, `benches/noise.rs`) and missed a 0.25 K
+//! bound by up to 5 K next to the profile's highest vertex, so the plan's steps still take the 1-D
+//! table (terrain at the geometric horizon); see the README's noise section.
 
 use super::antenna_table::{integrate, AntennaNoise, Brightness, Rings};
 use super::pattern::{NoisePattern, GL4, GL8};
@@ -228,8 +228,8 @@ fn half_power_half_width_deg(pattern: &NoisePattern) -> f64 {
 }
 
 /// The antenna noise at boresight elevation `elevation_deg` and azimuth `azimuth_deg` under the
-/// terrain `terrain` ([`terrain_profile`]), integrated directly (module doc). Build-time cost
-/// (about a millisecond for a 3.7 m dish at X band near the terrain); not for a per-step call.
+/// terrain `terrain` ([`terrain_profile`]), integrated directly (module doc). 0.2-0.7 ms for a
+/// 3.7 m dish at X band (`benches/noise.rs`): not for a per-step call.
 pub fn terrain_antenna_noise(
     pattern: &NoisePattern,
     brightness: &Brightness,
