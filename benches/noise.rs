@@ -1,12 +1,15 @@
 //! Criterion benchmarks of the antenna-noise model: building one station's table (the pattern
 //! integral over boresight elevation, clear sky and the rain case) and one interpolation (the
-//! per-step cost). Invented X-band station of the shared fixtures (3.7 m dish).
+//! per-step cost), and one direct terrain integral (`noise::terrain`, the example's Sierra Baja
+//! profile: 1 deg above its 12 deg peak, and at 30 deg facing its low side). Invented X-band
+//! station of the shared fixtures (3.7 m dish).
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use passbudget::atmosphere::{PreparedAtmosphere, Weather};
 use passbudget::noise::antenna_table::{AntennaNoiseTable, Brightness, GroundSpec};
 use passbudget::noise::pattern::NoisePattern;
 use passbudget::noise::sky::sky_temperature_p618_k;
+use passbudget::noise::terrain::{terrain_antenna_noise, terrain_profile};
 use std::hint::black_box;
 
 #[allow(dead_code)] // each bench uses part of the shared fixtures
@@ -45,6 +48,27 @@ fn bench_noise(c: &mut Criterion) {
     });
     let table = AntennaNoiseTable::build(&pattern, &brightness(Weather::ClearSky));
     g.bench_function("table_lookup", |b| b.iter(|| table.at(black_box(7.3))));
+    let terrain = terrain_profile(&[
+        [0.0, 2.0],
+        [60.0, 4.0],
+        [110.0, 9.0],
+        [150.0, 12.0],
+        [200.0, 6.0],
+        [270.0, 3.0],
+        [330.0, 2.0],
+    ])
+    .unwrap();
+    let clear = brightness(Weather::ClearSky);
+    for (name, el, az) in [
+        ("terrain_direct_13_deg_facing_peak", 13.0, 150.0),
+        ("terrain_direct_30_deg_low_side", 30.0, 330.0),
+    ] {
+        g.bench_function(name, |b| {
+            b.iter(|| {
+                terrain_antenna_noise(&pattern, &clear, &terrain, black_box(el), black_box(az))
+            })
+        });
+    }
     g.finish();
 }
 

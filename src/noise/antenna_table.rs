@@ -139,7 +139,7 @@ pub struct AntennaNoiseTable {
 
 /// The pattern's rule, with the gain folded into the weights, and the band of off-axis angles each
 /// ring stands for (its share of the Gauss-Legendre interval), for the horizon cut.
-struct Rings {
+pub(crate) struct Rings {
     cos_psi: Vec<f64>,
     sin_psi: Vec<f64>,
     weight: Vec<f64>,
@@ -151,7 +151,7 @@ struct Rings {
 }
 
 impl Rings {
-    fn of(pattern: &NoisePattern) -> Self {
+    pub(crate) fn of(pattern: &NoisePattern) -> Self {
         let rule = pattern.rule();
         Self {
             cos_psi: rule.psi_rad.iter().map(|p| p.cos()).collect(),
@@ -228,7 +228,7 @@ fn band_sky_share(
 /// over the ring's band of off-axis angles, [`band_sky_share`]): a single ring's share grows like
 /// a square root where it starts to touch the horizon, the band's average smoothly, which keeps
 /// the table over elevation smooth.
-fn integrate(rings: &Rings, b: &Brightness, elevation_deg: f64) -> AntennaNoise {
+pub(crate) fn integrate(rings: &Rings, b: &Brightness, elevation_deg: f64) -> AntennaNoise {
     let pi = std::f64::consts::PI;
     let e_rad = elevation_deg.to_radians();
     let (se, ce) = e_rad.sin_cos();

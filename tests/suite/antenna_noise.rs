@@ -441,17 +441,18 @@ fn measured_antenna_temperature_takes_the_weather_excess_of_the_model() {
     assert!(rain.antenna_temperature_k > 127.5 + 20.0);
 }
 
-/// Against one real antenna: a manufacturer's antenna-temperature curve of a 10 m C-band earth
-/// station (published on satsig.net, "Satellite antenna noise temperature and elevation angle":
-/// 46, 35, 29, 24, 17, 14 K at 5, 10, 15, 20, 30, 40 deg, before the feed's own few kelvin). The
-/// reference pattern (S.465-6 envelope scaled to 4 pi, ground emissivity 0.9) over a P.835 mean
-/// atmosphere at 4 GHz with an aperture efficiency of 0.6 comes out 3 to 13 K LOWER at every
-/// elevation: a real reflector's spillover and blockage put more power on the ground than the
-/// scaled envelope does. This test records that known optimism (README, "Accuracy"): the model
-/// must stay below the curve and within 15 K of it; a station that knows its antenna gives
+/// The published C-band curves of tests/data/noise/c_band_antenna_temperature.csv (satsig.net,
+/// "Satellite antenna noise temperature and elevation angle": a manufacturer's 10 m, 18 m and 6 m
+/// antennas, before the feed's own few kelvin). The reference pattern (S.465-6 envelope scaled to
+/// 4 pi, ground emissivity 0.9) over a P.835 mean atmosphere at 4 GHz with an aperture
+/// efficiency of 0.6 (assumed: the page gives none) comes out LOWER at every tabulated elevation
+/// of every curve: a real reflector's spillover and blockage put more power on the ground than the
+/// scaled envelope does, and the 18 m curve's flat 25 K at 30-40 deg is more than sky and sidelobes
+/// give. This test records that known optimism (README, "Noise temperature"): the model must stay
+/// below each curve and within the offsets measured here; a station that knows its antenna gives
 /// `antenna.measured_noise_temperature_k`.
 #[test]
-fn reference_pattern_against_a_published_ten_metre_curve() {
+fn reference_pattern_against_published_c_band_curves() {
     let site = passbudget::atmosphere::AtmosphereSite {
         latitude_deg: 40.0,
         altitude_km: 0.1,
@@ -464,33 +465,51 @@ fn reference_pattern_against_a_published_ten_metre_curve() {
         cloud_liquid_exceedance_kg_m2: None,
         wet_refractivity: None,
     };
-    let mut path = atmosphere_path(4.0);
-    path.antenna_diameter_m = 10.0;
-    path.antenna_efficiency = 0.6;
-    let atm = PreparedAtmosphere::new(&site, &path).unwrap();
-    // Tmr = 37.34 + 0.81 x 288.15 K (P.618-14 eq. 70)
-    let b = Brightness::new(
-        |el| {
-            sky_temperature_p618_k(atm.at(el, Weather::ClearSky).absorptive_db, 270.74, 2.73)
-                .unwrap()
-        },
-        GROUND,
-    );
-    let table = AntennaNoiseTable::build(&dish(10.0, 4.0e9, 0.6), &b);
-    let published = [
-        (5.0, 46.0),
-        (10.0, 35.0),
-        (15.0, 29.0),
-        (20.0, 24.0),
-        (30.0, 17.0),
-        (40.0, 14.0),
-    ];
-    for (el, t_pub) in published {
-        let a = table.at(el);
-        let ours = a.sky_k + a.ground_k;
-        assert!(
-            ours < t_pub && t_pub - ours < 15.0,
-            "{el} deg: model {ours:.1} K, published {t_pub} K"
+    let text = std::fs::read_to_string(
+        crate::common::bin::root().join("tests/data/noise/c_band_antenna_temperature.csv"),
+    )
+    .unwrap();
+    let rows: Vec<[f64; 3]> = text
+        .lines()
+        .filter(|l| !l.starts_with('#') && !l.starts_with("diameter_m"))
+        .map(|l| {
+            let v: Vec<f64> = l.split(',').map(|x| x.trim().parse().unwrap()).collect();
+            [v[0], v[1], v[2]]
+        })
+        .collect();
+    assert_eq!(rows.len(), 14);
+    let mut report = String::new();
+    for diameter_m in [10.0, 18.0, 6.0] {
+        let mut path = atmosphere_path(4.0);
+        path.antenna_diameter_m = diameter_m;
+        path.antenna_efficiency = 0.6;
+        let atm = PreparedAtmosphere::new(&site, &path).unwrap();
+        // Tmr = 37.34 + 0.81 x 288.15 K (P.618-14 eq. 70)
+        let b = Brightness::new(
+            |el| {
+                sky_temperature_p618_k(atm.at(el, Weather::ClearSky).absorptive_db, 270.74, 2.73)
+                    .unwrap()
+            },
+            GROUND,
         );
+        let table = AntennaNoiseTable::build(&dish(diameter_m, 4.0e9, 0.6), &b);
+        for [_, el, t_pub] in rows.iter().filter(|r| r[0] == diameter_m) {
+            let ours = table.at(*el).total_k();
+            report.push_str(&format!(
+                "{diameter_m} m {el} deg: model {ours:.1} K, published {t_pub} K, short {:.1} K\n",
+                t_pub - ours
+            ));
+            let (lo, hi) = C_BAND_SHORTFALL_K;
+            assert!(
+                t_pub - ours > lo && t_pub - ours < hi,
+                "{diameter_m} m, {el} deg: model {ours:.1} K, published {t_pub} K"
+            );
+        }
     }
+    eprint!("{report}");
 }
+
+/// How far below the published C-band curves the model lies, K: measured 2.8 to 15.6 K (10 m:
+/// 11.3, 13.0, 11.8, 9.3, 4.6, 2.8 K at 5-40 deg; 18 m: 10.0, 13.6, 14.7, 13.1, 14.2 K; 6 m:
+/// 15.6, 14.1, 10.7 K), with a margin of about 0.5 K for a change of quadrature.
+const C_BAND_SHORTFALL_K: (f64, f64) = (2.3, 16.1);

@@ -39,4 +39,5 @@ mod readme;
 mod schedule_exhaustive;
 mod sun_noise;
 mod sun_position;
+mod terrain_noise;
 mod user_schemes;
