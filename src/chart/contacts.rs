@@ -14,6 +14,7 @@ use super::types::{ChartError, Plot};
 use super::ChartFormat;
 use crate::plan::fleet::{antenna_name, ContactPlan};
 use crate::report::contacts::ContactDoc;
+use crate::report::WriteMode;
 use crate::timefmt::{add_seconds, seconds_between};
 
 /// Timeline chart size, pixels.
@@ -440,26 +441,31 @@ pub fn contact_chart_data(
 }
 
 /// Draw the contact plan's charts into `dir`: `timeline-YYYYMMDD.EXT` per UTC day and
-/// `storage.EXT` when a store is followed.
+/// `storage.EXT` when a store is followed; drawn in parallel, written in `mode`
+/// ([`WriteMode::Staged`] into a staging folder, whose commit flushes them).
 pub fn draw_contact_charts(
     cp: &ContactPlan,
     doc: &ContactDoc,
     mission: &str,
     warnings: &[String],
     dir: &Path,
-    format: ChartFormat,
+    (format, mode): (ChartFormat, WriteMode),
 ) -> Result<(), ChartError> {
+    use rayon::prelude::*;
     let (timelines, storage) = contact_chart_data(cp, doc, mission, warnings);
     let ext = format.extension();
-    for t in &timelines {
-        let path = dir.join(format!("timeline-{}.{ext}", t.start.format("%Y%m%d")));
-        super::save(&path, &super::render(t, format)?)?;
-    }
-    if let Some(s) = storage {
-        super::save(
-            &dir.join(format!("storage.{ext}")),
-            &super::render(&s, format)?,
-        )?;
-    }
-    Ok(())
+    let storage_job = storage.map(|s| (dir.join(format!("storage.{ext}")), s));
+    let (timelines, storage) = rayon::join(
+        || {
+            timelines.par_iter().try_for_each(|t| {
+                let path = dir.join(format!("timeline-{}.{ext}", t.start.format("%Y%m%d")));
+                super::save_in(&path, &super::render(t, format)?, mode)
+            })
+        },
+        || match &storage_job {
+            Some((path, s)) => super::save_in(path, &super::render(s, format)?, mode),
+            None => Ok(()),
+        },
+    );
+    timelines.and(storage)
 }

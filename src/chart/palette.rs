@@ -91,10 +91,16 @@ fn runs(rgb: &[u8], mut f: impl FnMut(u32, usize)) {
     let mut i = 1;
     while i < n {
         // Eight pixels that each equal the one before them continue the run: one comparison of
-        // 24 bytes with the same bytes shifted by a pixel (most of a chart is long runs).
-        if i + 8 <= n && rgb[3 * i..3 * i + 24] == rgb[3 * i - 3..3 * i + 21] {
-            i += 8;
-            continue;
+        // 24 bytes with the same bytes shifted by a pixel (most of a chart is long runs). Fixed-
+        // size arrays, so the comparison is inlined rather than a call.
+        if i + 8 <= n {
+            let (a, b) = (&rgb[3 * i..3 * i + 24], &rgb[3 * i - 3..3 * i + 21]);
+            let a: &[u8; 24] = a.try_into().expect("24 bytes");
+            let b: &[u8; 24] = b.try_into().expect("24 bytes");
+            if a == b {
+                i += 8;
+                continue;
+            }
         }
         let k = key(i);
         if k != current {
@@ -110,6 +116,14 @@ fn runs(rgb: &[u8], mut f: impl FnMut(u32, usize)) {
 /// The palette of an RGB buffer and its indexed image: (palette as RGB triples, one index per
 /// pixel).
 pub fn quantize(rgb: &[u8]) -> (Vec<u8>, Vec<u8>) {
+    let mut indices = Vec::new();
+    let palette = quantize_into(rgb, &mut indices);
+    (palette, indices)
+}
+
+/// [`quantize`] into a caller's index buffer (reused from chart to chart: no fresh pages to
+/// fault in); returns the palette.
+pub fn quantize_into(rgb: &[u8], indices: &mut Vec<u8>) -> Vec<u8> {
     let mut table = ColourTable::new();
     // The buffer is read once: its runs are kept for the indexed image.
     let mut all_runs: Vec<(u32, u32)> = Vec::with_capacity(rgb.len() / 64);
@@ -130,17 +144,30 @@ pub fn quantize(rgb: &[u8]) -> (Vec<u8>, Vec<u8>) {
         let s = table.slot(c);
         table.values[s] = u32::from(nearest(&kept, c));
     }
-    let mut indices = Vec::with_capacity(rgb.len() / 3);
+    indices.clear();
+    indices.resize(rgb.len() / 3, 0);
+    let mut at = 0;
+    // Runs alternate between few colours: remember the last lookup.
+    let mut last = (u32::MAX, 0u8);
     for (c, n) in all_runs {
-        let s = table.slot(c);
-        let i = table.values[s] as u8;
-        indices.extend(std::iter::repeat_n(i, n as usize));
+        if c != last.0 {
+            let s = table.slot(c);
+            last = (c, table.values[s] as u8);
+        }
+        let n = n as usize;
+        if n <= 16 && at + 16 <= indices.len() {
+            // A short run (edges, text): one 16-byte store, the bytes past the run overwritten by
+            // the runs after it; no call to memset.
+            let block: &mut [u8; 16] = (&mut indices[at..at + 16]).try_into().expect("16 bytes");
+            *block = [last.1; 16];
+        } else {
+            indices[at..at + n].fill(last.1);
+        }
+        at += n;
     }
-    let palette = kept
-        .iter()
+    kept.iter()
         .flat_map(|&c| [(c >> 16) as u8, (c >> 8) as u8, c as u8])
-        .collect();
-    (palette, indices)
+        .collect()
 }
 
 /// The index of the palette colour nearest to `c` (squared RGB distance; the first on a tie).

@@ -198,7 +198,8 @@ fn sky_points(planner: &Planner, s: &PassSeries) -> Vec<SkyPoint> {
 }
 
 /// Sky charts (per station and UTC day), mask charts (per station and all stations; they need a
-/// plan run with the trade-off) and the summary. Returns the files written.
+/// plan run with the trade-off) and the summary, drawn in parallel. Returns the files written,
+/// in that order.
 pub fn window_charts(
     planner: &Planner,
     plan: &Plan,
@@ -206,19 +207,37 @@ pub fn window_charts(
     dir: &Path,
     which: WindowCharts,
 ) -> Result<Vec<PathBuf>, ChartError> {
-    let mut written = Vec::new();
+    let mut jobs = Vec::new();
     if which.sky {
-        written.extend(sky_charts(planner, plan, sink, dir)?);
+        jobs.extend(sky_charts(planner, plan, sink, dir));
     }
     if which.mask {
         if let Some(masks) = &plan.tradeoff_masks {
-            written.extend(mask_charts(planner, plan, masks, dir, sink)?);
+            jobs.extend(mask_charts(planner, plan, masks, dir, sink));
         }
     }
     if which.summary {
-        written.push(summary_chart(planner, plan, dir, sink)?);
+        jobs.push(summary_chart(planner, plan, dir, sink));
     }
-    Ok(written)
+    use rayon::prelude::*;
+    jobs.into_par_iter()
+        .map(|(path, chart)| {
+            let bytes = match &chart {
+                WindowChart::Sky(d) => draw_sky(d, sink.format)?,
+                WindowChart::Mask(d) => draw_mask(d, sink.format)?,
+                WindowChart::Summary(d) => draw_summary(d, sink.format)?,
+            };
+            save_in(&path, &bytes, sink.mode)?;
+            Ok(path)
+        })
+        .collect()
+}
+
+/// One window chart's input.
+enum WindowChart {
+    Sky(SkyChartData),
+    Mask(MaskChartData),
+    Summary(Box<SummaryChartData>),
 }
 
 fn sky_charts(
@@ -226,7 +245,7 @@ fn sky_charts(
     plan: &Plan,
     sink: &ChartSink,
     dir: &Path,
-) -> Result<Vec<PathBuf>, ChartError> {
+) -> Vec<(PathBuf, WindowChart)> {
     let tracks = sink.sky.lock().unwrap_or_else(|e| e.into_inner());
     let mut groups: BTreeMap<(usize, NaiveDate), Vec<SkyPass>> = BTreeMap::new();
     for x in &plan.passes {
@@ -247,11 +266,9 @@ fn sky_charts(
     }
     drop(tracks);
     let satellite = satellite_name(planner.elements());
-    // One chart per station and day, drawn in parallel.
-    use rayon::prelude::*;
-    let groups: Vec<((usize, NaiveDate), Vec<SkyPass>)> = groups.into_iter().collect();
+    // One chart per station and day.
     groups
-        .into_par_iter()
+        .into_iter()
         .map(|((si, day), passes)| {
             let st = &planner.stations()[si];
             let data = SkyChartData {
@@ -276,9 +293,7 @@ fn sky_charts(
                 ),
                 None => sky_file_name(&st.station.name, day, sink.format),
             };
-            let path = dir.join(name);
-            save_in(&path, &draw_sky(&data, sink.format)?, sink.mode)?;
-            Ok(path)
+            (dir.join(name), WindowChart::Sky(data))
         })
         .collect()
 }
@@ -289,11 +304,10 @@ fn mask_charts(
     masks: &[crate::plan::mask::MaskAccumulator],
     dir: &Path,
     sink: &ChartSink,
-) -> Result<Vec<PathBuf>, ChartError> {
-    let format = sink.format;
+) -> Vec<(PathBuf, WindowChart)> {
     let stations = planner.stations();
     let ladder = &planner.rates().ladder;
-    let mut written = Vec::new();
+    let mut jobs = Vec::new();
     for t in tradeoff(masks, planner.rates(), plan.window.days(), 1) {
         let configured = |s: &crate::plan::prepare::StationModel| {
             (s.station.name.clone(), s.configured_min_elevation_deg)
@@ -322,11 +336,12 @@ fn mask_charts(
             rates,
             configured_masks_deg: configured,
         };
-        let path = dir.join(mask_file_name(&label, format));
-        save_in(&path, &draw_mask(&data, format)?, sink.mode)?;
-        written.push(path);
+        jobs.push((
+            dir.join(mask_file_name(&label, sink.format)),
+            WindowChart::Mask(data),
+        ));
     }
-    Ok(written)
+    jobs
 }
 
 /// The network total of one UTC day's passes (the day of their AOS, as the plan's daily totals
@@ -347,7 +362,7 @@ fn summary_chart(
     plan: &Plan,
     dir: &Path,
     sink: &ChartSink,
-) -> Result<PathBuf, ChartError> {
+) -> (PathBuf, WindowChart) {
     let format = sink.format;
     let satellite = satellite_name(planner.elements());
     // The headline is the contact plan's (the same rule as `plan`'s table and summary).
@@ -399,6 +414,5 @@ fn summary_chart(
         &plan.window.end(),
         format,
     ));
-    save_in(&path, &draw_summary(&data, format)?, sink.mode)?;
-    Ok(path)
+    (path, WindowChart::Summary(Box::new(data)))
 }

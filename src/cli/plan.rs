@@ -161,7 +161,7 @@ fn write_contacts(
     Ok(())
 }
 
-/// The antenna timeline and storage charts of a contact plan, into `dir`.
+/// The antenna timeline and storage charts of a contact plan, into the staging folder `dir`.
 pub fn contact_charts(
     cp: &ContactPlan,
     doc: &ContactDoc,
@@ -170,7 +170,8 @@ pub fn contact_charts(
     a: &PlanArgs,
 ) -> Result<()> {
     let format: ChartFormat = a.chart_format.into();
-    passbudget::chart::contacts::draw_contact_charts(cp, doc, mission, warnings, dir, format)?;
+    let how = (format, WriteMode::Staged);
+    passbudget::chart::contacts::draw_contact_charts(cp, doc, mission, warnings, dir, how)?;
     Ok(())
 }
 
