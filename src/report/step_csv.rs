@@ -30,8 +30,8 @@ const POW10: [f64; 7] = [1.0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6];
 /// Write `round(x, decimals)` as the `csv` crate writes that `f64` (see the module note).
 pub fn push_rounded(buf: &mut Vec<u8>, x: f64, decimals: usize) {
     let scaled = x * POW10[decimals];
-    // (NaN fails the test, as an infinity does)
-    if !(scaled.abs() < 1e15) {
+    // (an infinity fails the second test)
+    if scaled.is_nan() || scaled.abs() >= 1e15 {
         push_rounded_slow(buf, x, decimals);
         return;
     }
@@ -49,7 +49,7 @@ pub fn push_rounded(buf: &mut Vec<u8>, x: f64, decimals: usize) {
     // whole part (at least `0`).
     let mut n = k.unsigned_abs();
     let mut width = decimals;
-    while width > 0 && n % 10 == 0 {
+    while width > 0 && n.is_multiple_of(10) {
         n /= 10;
         width -= 1;
     }
