@@ -160,7 +160,7 @@ pub fn pass_id(station: &str, pass: &crate::geometry::Pass) -> String {
 
 /// [`pass_id`] from the station's name and the pass's `full_tca`.
 pub fn pass_id_at(station: &str, full_tca: &chrono::DateTime<chrono::Utc>) -> String {
-    format!("{}-{}", slug(station), full_tca.format("%Y%m%dT%H%MZ"))
+    format!("{}-{}", slug(station), crate::timefmt::file_stamp(full_tca))
 }
 
 /// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).

@@ -29,37 +29,62 @@ const POW10: [f64; 7] = [1.0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6];
 
 /// Write `round(x, decimals)` as the `csv` crate writes that `f64` (see the module note).
 pub fn push_rounded(buf: &mut Vec<u8>, x: f64, decimals: usize) {
-    let k = (x * POW10[decimals]).round();
-    let r = k / POW10[decimals] + 0.0;
-    // (NaN fails the first test, as an infinity does)
-    let in_range = k.abs() < 1e15;
-    if !in_range || (k != 0.0 && r.abs() < 1e-5) {
-        push_ryu(buf, r);
+    let scaled = x * POW10[decimals];
+    // (an infinity fails the second test)
+    if scaled.is_nan() || scaled.abs() >= 1e15 {
+        push_rounded_slow(buf, x, decimals);
         return;
     }
-    if k < 0.0 {
-        buf.push(b'-');
-    }
-    let k = k.abs() as u64;
-    let scale = POW10[decimals] as u64;
-    push_u64(buf, k / scale);
-    buf.push(b'.');
-    let mut frac = k % scale;
-    if frac == 0 {
-        buf.push(b'0');
+    // `scaled.round()` without the library call: below 2^53 the fraction `scaled - trunc` is
+    // exact, and halves go away from zero as `f64::round` takes them.
+    let whole = scaled as i64;
+    let frac = scaled - whole as f64;
+    let k = whole + i64::from(frac >= 0.5) - i64::from(frac <= -0.5);
+    if k != 0 && (k as f64 / POW10[decimals]).abs() < 1e-5 {
+        push_ryu(buf, k as f64 / POW10[decimals] + 0.0);
         return;
     }
+    // The digits are written right to left into a stack buffer and copied once: the trailing
+    // zeros of the decimals cut (`300.0`: one zero kept), then the decimals, the point and the
+    // whole part (at least `0`).
+    let mut n = k.unsigned_abs();
     let mut width = decimals;
-    while frac.is_multiple_of(10) {
-        frac /= 10;
+    while width > 0 && n.is_multiple_of(10) {
+        n /= 10;
         width -= 1;
     }
-    let mut digits = [b'0'; 6];
-    for d in digits[..width].iter_mut().rev() {
-        *d = b'0' + (frac % 10) as u8;
-        frac /= 10;
+    // At most a sign, 15 digits, a point and a kept zero.
+    let mut out = [b'0'; 24];
+    let mut at = out.len() - 1;
+    if width == 0 {
+        at -= 1;
+    } else {
+        for _ in 0..width {
+            out[at] = b'0' + (n % 10) as u8;
+            n /= 10;
+            at -= 1;
+        }
     }
-    buf.extend_from_slice(&digits[..width]);
+    out[at] = b'.';
+    loop {
+        at -= 1;
+        out[at] = b'0' + (n % 10) as u8;
+        n /= 10;
+        if n == 0 {
+            break;
+        }
+    }
+    if k < 0 {
+        at -= 1;
+        out[at] = b'-';
+    }
+    buf.extend_from_slice(&out[at..]);
+}
+
+/// [`push_rounded`] for values outside the fixed-decimal range: `ryu` on the rounded value.
+fn push_rounded_slow(buf: &mut Vec<u8>, x: f64, decimals: usize) {
+    let k = (x * POW10[decimals]).round();
+    push_ryu(buf, k / POW10[decimals] + 0.0);
 }
 
 fn push_ryu(buf: &mut Vec<u8>, x: f64) {
@@ -305,6 +330,15 @@ mod tests {
             2.675,
             1.0005,
             0.30000000000000004,
+            // exact halves after scaling (rounded away from zero, as `f64::round` does)
+            0.25,
+            -0.25,
+            0.125,
+            -0.125,
+            0.0625,
+            -2.5e-6,
+            4503599627.3705,
+            -999_999_999.999_999_5,
         ];
         for &x in &edges {
             for d in [1, 3, 4, 6] {
