@@ -531,7 +531,9 @@ mod tests {
                 y
             }
         };
-        let edges = [0.0, -0.0, 180.0, -180.0, 360.0, -360.0, 1e-300, -1e-300, 540.0, -719.9];
+        let edges = [
+            0.0, -0.0, 180.0, -180.0, 360.0, -360.0, 1e-300, -1e-300, 540.0, -719.9,
+        ];
         let sweep = (-4000..4000).map(|k| k as f64 * 0.2371);
         for x in edges.into_iter().chain(sweep) {
             assert_eq!(wrap180(x).to_bits(), reference(x).to_bits(), "{x}");
