@@ -54,12 +54,13 @@ pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Resul
 }
 
 /// `summary.json`, the contact plan's CSV and calendar files, each satellite's pass list and
-/// (with `--charts`) the timeline and storage charts.
+/// (with `--charts`) the timeline and storage charts, into the staging folder `dir` (its commit
+/// flushes them all at once).
 fn write_fleet_files(doc: &FleetDoc, cp: &ContactPlan, a: &PlanArgs, dir: &Path) -> Result<()> {
     let json = serde_json::to_string_pretty(doc)? + "\n";
-    passbudget::report::write_atomic(&dir.join("summary.json"), json.as_bytes())?;
+    passbudget::report::write_staged(&dir.join("summary.json"), json.as_bytes())?;
     let passes = to_csv(&doc.passes, &doc.warnings)?;
-    passbudget::report::write_atomic(&dir.join("passes.csv"), passes.as_bytes())?;
+    passbudget::report::write_staged(&dir.join("passes.csv"), passes.as_bytes())?;
     write_contact_files(dir, &doc.contact, &doc.warnings, cp.window_start)?;
     if a.charts {
         crate::cli::plan::contact_charts(cp, &doc.contact, (&doc.mission, &doc.warnings), dir, a)?;

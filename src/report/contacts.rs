@@ -499,8 +499,9 @@ fn fleet_warnings(planners: &[&crate::plan::Planner], plans: &[Plan]) -> Vec<Str
         .collect()
 }
 
-/// Write the contact plan's files into `dir`: `contacts.csv`, `satellites.csv`, `stations.csv`
-/// and one iCalendar file per station, `calendar-<station>.ics` (`stamp`: the events' DTSTAMP; see [`super::calendar::station_calendar`]).
+/// Write the contact plan's files into the staging folder `dir` (not flushed one by one: the
+/// staging commit flushes the set; [`super::write_staged`]): `contacts.csv`, `satellites.csv`,
+/// `stations.csv` and one iCalendar file per station, `calendar-<station>.ics` (`stamp`: the events' DTSTAMP; see [`super::calendar::station_calendar`]).
 pub fn write_contact_files(
     dir: &std::path::Path,
     doc: &ContactDoc,
@@ -516,13 +517,13 @@ pub fn write_contact_files(
     for (name, text) in files {
         let path = dir.join(name);
         let text = text.map_err(|e| file_error(&path, e))?;
-        super::atomic::write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
+        super::atomic::write_staged(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
     }
     for s in &doc.stations {
         let path = dir.join(format!("calendar-{}.ics", super::slug(&s.name)));
         let text = super::calendar::station_calendar(&s.name, &doc.contacts, stamp)
             .map_err(|e| io_error(&path, std::io::Error::other(e)))?;
-        super::atomic::write_atomic(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
+        super::atomic::write_staged(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
     }
     Ok(())
 }
