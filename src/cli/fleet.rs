@@ -8,7 +8,7 @@ use anyhow::Result;
 use passbudget::config::mission::Mission;
 use passbudget::plan::fleet::{ContactPlan, FleetPlanner};
 use passbudget::report::contacts::{write_contact_files, ContactDoc, ContactRows, FleetDoc};
-use passbudget::report::{to_csv, CommitMode};
+use passbudget::report::{to_csv, write_output, CommitMode, WriteMode};
 use std::io::Write;
 use std::path::Path;
 
@@ -58,10 +58,19 @@ pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Resul
 /// flushes them all at once).
 fn write_fleet_files(doc: &FleetDoc, cp: &ContactPlan, a: &PlanArgs, dir: &Path) -> Result<()> {
     let json = serde_json::to_string_pretty(doc)? + "\n";
-    passbudget::report::write_staged(&dir.join("summary.json"), json.as_bytes())?;
+    write_output(
+        &dir.join("summary.json"),
+        json.as_bytes(),
+        WriteMode::Staged,
+    )?;
     let passes = to_csv(&doc.passes, &doc.warnings)?;
-    passbudget::report::write_staged(&dir.join("passes.csv"), passes.as_bytes())?;
-    write_contact_files(dir, &doc.contact, &doc.warnings, cp.window_start)?;
+    write_output(
+        &dir.join("passes.csv"),
+        passes.as_bytes(),
+        WriteMode::Staged,
+    )?;
+    let how = (cp.window_start, WriteMode::Staged);
+    write_contact_files(dir, &doc.contact, &doc.warnings, how)?;
     if a.charts {
         crate::cli::plan::contact_charts(cp, &doc.contact, (&doc.mission, &doc.warnings), dir, a)?;
     }

@@ -154,7 +154,7 @@ fn write_contacts(
         return Ok(());
     };
     let warnings = &doc.assumptions.warnings;
-    write_contact_files(dir, c, warnings, cp.window_start)?;
+    write_contact_files(dir, c, warnings, (cp.window_start, WriteMode::Staged))?;
     if a.charts {
         contact_charts(cp, c, (&planner.mission().name, warnings), dir, a)?;
     }

@@ -288,8 +288,8 @@ impl ContactDoc {
 
     /// What the contacts deliver on each UTC day, each contact's volume spread evenly over its
     /// time (a contact across midnight split by its time), bits: one pass over the contacts.
-    pub fn delivered_by_day(&self) -> std::collections::BTreeMap<chrono::NaiveDate, f64> {
-        self.booked.delivered_by_day.clone()
+    pub fn delivered_by_day(&self) -> &std::collections::BTreeMap<chrono::NaiveDate, f64> {
+        &self.booked.delivered_by_day
     }
 }
 
@@ -499,14 +499,15 @@ fn fleet_warnings(planners: &[&crate::plan::Planner], plans: &[Plan]) -> Vec<Str
         .collect()
 }
 
-/// Write the contact plan's files into the staging folder `dir` (not flushed one by one: the
-/// staging commit flushes the set; [`super::write_staged`]): `contacts.csv`, `satellites.csv`,
-/// `stations.csv` and one iCalendar file per station, `calendar-<station>.ics` (`stamp`: the events' DTSTAMP; see [`super::calendar::station_calendar`]).
+/// Write the contact plan's files into `dir` in `mode` (a staging folder: not flushed one by one,
+/// its commit flushes the set): `contacts.csv`, `satellites.csv`, `stations.csv` and one
+/// iCalendar file per station, `calendar-<station>.ics` (`stamp`: the events' DTSTAMP; see
+/// [`super::calendar::station_calendar`]).
 pub fn write_contact_files(
     dir: &std::path::Path,
     doc: &ContactDoc,
     warnings: &[String],
-    stamp: chrono::DateTime<chrono::Utc>,
+    (stamp, mode): (chrono::DateTime<chrono::Utc>, super::WriteMode),
 ) -> Result<(), super::files::FileError> {
     use super::files::{file_error, io_error};
     let files: [(&str, Result<String, csv::Error>); 3] = [
@@ -517,13 +518,13 @@ pub fn write_contact_files(
     for (name, text) in files {
         let path = dir.join(name);
         let text = text.map_err(|e| file_error(&path, e))?;
-        super::atomic::write_staged(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
+        super::write_output(&path, text.as_bytes(), mode).map_err(|e| io_error(&path, e))?;
     }
     for s in &doc.stations {
         let path = dir.join(format!("calendar-{}.ics", super::slug(&s.name)));
         let text = super::calendar::station_calendar(&s.name, &doc.contacts, stamp)
             .map_err(|e| io_error(&path, std::io::Error::other(e)))?;
-        super::atomic::write_staged(&path, text.as_bytes()).map_err(|e| io_error(&path, e))?;
+        super::write_output(&path, text.as_bytes(), mode).map_err(|e| io_error(&path, e))?;
     }
     Ok(())
 }
