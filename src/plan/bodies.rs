@@ -16,8 +16,11 @@
 //!   antenna table.
 //! * The quiet Sun of ITU-R P.372 Fig. 12 unless the station gives an observed flux
 //!   (`solar_flux_sfu`). Outside 0.05-100 GHz the Sun's noise is not modelled (a warning says so).
-//! * The Moon only from 1 to 100 GHz (its 140-280 K disk adds less than 0.1 K to any antenna below
-//!   1 GHz, so no warning is raised there; the plan's notes say it).
+//! * The Moon only from 1 to 100 GHz, the range of its phase model. Below 1 GHz it is left out, and
+//!   a warning says so when the antenna could see it: when a 280 K disk of the Moon's largest
+//!   apparent size (0.284 deg radius, at perigee seen from the surface) on boresight would add
+//!   0.1 K or more, T = 280 K x G0 x Omega / (4 pi) (a disk much smaller than the beam), G0 the
+//!   pattern's boresight gain. A 3.7 m dish at 900 MHz (29 dBi) would see about 1 K.
 
 use crate::geometry::body_track::{
     chord_separation_deg, enu_from_az_el, Body, BodyTrack, TrackError,
@@ -47,21 +50,41 @@ pub struct BodySample {
 pub struct BodyWarnings {
     /// The frequency is outside the 0.05-100 GHz of the quiet-Sun figure: no Sun noise.
     pub sun_not_modelled: bool,
+    /// The frequency is below the Moon's 1-100 GHz model and the antenna's gain is high enough for
+    /// the lunar disk to add 0.1 K or more: no Moon noise.
+    pub moon_not_modelled: bool,
 }
 
 impl BodyWarnings {
     pub fn union(&self, o: &BodyWarnings) -> BodyWarnings {
         BodyWarnings {
             sun_not_modelled: self.sun_not_modelled || o.sun_not_modelled,
+            moon_not_modelled: self.moon_not_modelled || o.moon_not_modelled,
         }
     }
 
     /// Messages naming the model and its range.
     pub fn messages(&self) -> impl Iterator<Item = &'static str> {
-        self.sun_not_modelled.then_some(
+        let sun = self.sun_not_modelled.then_some(
             "Sun noise (ITU-R P.372 Fig. 12): frequency outside 0.05-100 GHz, the Sun's noise is not modelled",
-        ).into_iter()
+        );
+        let moon = self.moon_not_modelled.then_some(
+            "Moon noise: frequency below the 1-100 GHz of the lunar disk model, not added; with this antenna's gain the Moon in the main beam could add 0.1 K or more",
+        );
+        sun.into_iter().chain(moon)
     }
+}
+
+/// The Moon's term below which leaving it out needs no warning, K (our choice).
+const MOON_NOTICE_K: f64 = 0.1;
+
+/// Largest antenna temperature the Moon can add to an antenna of boresight gain `g0` (linear): a
+/// full-Moon disk (280 K) of its largest apparent radius (topocentric at perigee, 350,000 km) on
+/// boresight, small against the beam: T = Tb G0 Omega / (4 pi).
+fn moon_bound_k(g0: f64) -> f64 {
+    let r = moon::moon_angular_radius_deg(350_000.0).to_radians();
+    let omega_sr = 2.0 * std::f64::consts::PI * (1.0 - r.cos());
+    moon::FULL_MOON_K * g0 * omega_sr / (4.0 * std::f64::consts::PI)
 }
 
 /// One body's disk seen through the pattern.
@@ -127,6 +150,8 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
             None
         };
         let (mlo, mhi) = moon::FREQUENCY_RANGE_HZ;
+        let moon_visible_below_range =
+            frequency_hz < mlo && moon_bound_k(pattern.gain_linear(0.0)) >= MOON_NOTICE_K;
         let moon = if (mlo..=mhi).contains(&frequency_hz) {
             Some(DiskTerm {
                 coupling: DiskCoupling::new(pattern.clone(), DiskSpec::moon(beamwidth_deg))?,
@@ -139,6 +164,7 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
             activity,
             warnings: BodyWarnings {
                 sun_not_modelled: sun.is_none(),
+                moon_not_modelled: moon_visible_below_range,
             },
             sun,
             moon,
@@ -293,6 +319,26 @@ mod tests {
         // 437.5 MHz: the Sun is modelled (0.05-100 GHz), the Moon is not (1-100 GHz).
         let uhf = BodyNoise::new(&gaussian(30.0), 30.0, 437.5e6, None).unwrap();
         assert!(!uhf.warnings().sun_not_modelled && !uhf.moon_modelled());
+        // A 30 deg beam (about 16 dBi) would see under 0.1 K of the Moon: no warning. A 3.7 m dish
+        // at 900 MHz (about 6.3 deg, 29 dBi) could see about 1 K: the warning says it is left out.
+        assert!(!uhf.warnings().moon_not_modelled);
+        assert_eq!(uhf.warnings().messages().count(), 0);
+        let dish = BodyNoise::new(&gaussian(6.3), 6.3, 900e6, None).unwrap();
+        assert!(dish.warnings().moon_not_modelled && !dish.moon_modelled());
+        assert!(dish
+            .warnings()
+            .messages()
+            .any(|m| m.starts_with("Moon noise")));
+        // The bound by hand: G0 = 2 / sigma^2 of the Gaussian beam, Omega of a 0.2844 deg disk.
+        let g0 = gaussian(6.3)(0.0);
+        let omega = std::f64::consts::PI * 0.2844f64.to_radians().powi(2);
+        let by_hand = 280.0 * g0 * omega / (4.0 * std::f64::consts::PI);
+        assert!(
+            (moon_bound_k(g0) - by_hand).abs() < 0.01 * by_hand,
+            "{}",
+            moon_bound_k(g0)
+        );
+        assert!(by_hand > 0.5 && by_hand < 2.0, "{by_hand}");
         // 150 GHz: neither, and the Sun's absence is a warning.
         let w = BodyNoise::new(&gaussian(0.1), 0.1, 150e9, None).unwrap();
         assert!(w.warnings().sun_not_modelled && !w.moon_modelled());
