@@ -33,7 +33,9 @@
 
 use crate::units::{db_to_ratio, ratio_to_db};
 
-/// Highest share of the power the Gaussian main beam may hold before its width is reduced.
+/// Highest share of the power the Gaussian main beam may hold before its width is reduced (our
+/// choice: it leaves at least 5 % of the power to the sidelobes and the ground, the order of a
+/// reflector's spillover and sidelobe loss, common practice).
 pub const MAX_MAIN_BEAM_FRACTION: f64 = 0.95;
 
 /// Frequency range of ITU-R S.465-6, Hz.
