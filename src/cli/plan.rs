@@ -563,24 +563,35 @@ fn print_usable_masks(
         writeln!(out, "Passes that fail above the {share} % mask (their highest step where the rate does not count):")?;
         for f in failures {
             let how = if f.margin_db < f.required_margin_db {
-                format!("misses by {:.2} dB", f.required_margin_db - f.margin_db)
+                misses_by(f.required_margin_db - f.margin_db)
             } else {
                 "closes, but for less than the dwell time".into()
             };
             writeln!(
                 out,
-                "  {} {} {}: pass {} ({}) at {} el {} deg: {how}",
+                "  {} {} {}: pass {} ({}) at {} el {:.2} deg: {how}",
                 f.station,
                 engfmt::rate(f.rate_bps),
                 f.scheme,
                 f.pass,
                 f.pass_id,
                 &f.time[11..19],
-                deg1(f.elevation_deg)
+                // two decimals: above a mask rounded up to 0.1 deg, one decimal could read as equal
+                round(f.elevation_deg, 2)
             )?;
         }
     }
     Ok(())
+}
+
+/// How far a failing step misses its margin: `misses by 0.12 dB`, or `misses by <0.01 dB` for a
+/// shortfall that two decimals would show as 0.00.
+fn misses_by(shortfall_db: f64) -> String {
+    if shortfall_db < 0.005 {
+        "misses by <0.01 dB".into()
+    } else {
+        format!("misses by {shortfall_db:.2} dB")
+    }
 }
 
 /// `passbudget mask`.
