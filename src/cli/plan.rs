@@ -17,7 +17,9 @@ use passbudget::report::contacts::{write_contact_files, ContactDoc, ContactRows}
 use passbudget::report::files::{
     summary_json, write_summaries, ChartBytes, CsvSink, OutputRequest,
 };
-use passbudget::report::plan::{MaskFailureRow, PlanDoc, PlanPassRow, TradeoffRow, UsableMaskRow};
+use passbudget::report::plan::{
+    MaskFailureRow, PfdBlock, PlanDoc, PlanPassRow, TradeoffRow, UsableMaskRow,
+};
 use passbudget::report::{round, to_csv, CommitMode, WriteMode};
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
@@ -106,7 +108,16 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     };
     let plan = run.map_err(|e| in_out(e.into()))?;
     warn(&plan.warnings);
-    note(&plan.notes);
+    // the table prints the unconfirmed values in its own notes: not twice on the terminal
+    let unconfirmed = passbudget::plan::pfd::unconfirmed_notes(planner.rates(), planner.pfd());
+    let table = a.format == Format::Table;
+    let notes: Vec<String> = plan
+        .notes
+        .iter()
+        .filter(|n| !(table && unconfirmed.contains(n)))
+        .cloned()
+        .collect();
+    note(&notes);
     let cp =
         contact_plan(&[&planner], std::slice::from_ref(&plan)).map_err(|e| in_out(e.into()))?;
     // The pass rows only for a document that is written (JSON, CSV, the --out files); the
@@ -265,7 +276,60 @@ fn print_plan(
     print_days(doc, out)?;
     print_totals(planner, doc, out)?;
     print_usable_masks(&doc.usable_masks, &doc.mask_failures, out)?;
+    print_pfd(&doc.pfd, out)?;
+    for n in passbudget::plan::pfd::unconfirmed_notes(planner.rates(), planner.pfd()) {
+        writeln!(out, "note: {n}")?;
+    }
     writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
+    Ok(())
+}
+
+/// The pfd block: every rate option's worst margin over the angles of arrival against the
+/// band's Article 21 limit (the JSON's `pfd.options`).
+fn print_pfd(pfd: &PfdBlock, out: &mut dyn Write) -> Result<()> {
+    let (Some(band), Some(bref)) = (&pfd.band, pfd.reference_bandwidth_hz) else {
+        writeln!(out, "pfd: {}", pfd.limit_status)?;
+        writeln!(out)?;
+        return Ok(());
+    };
+    // `from memory`, or where the row was read (`read in 47 CFR 25.208(p)`)
+    let status = if pfd.limit_status.starts_with("from memory") {
+        "from memory"
+    } else {
+        pfd.limit_status
+            .split(" (")
+            .next()
+            .unwrap_or(pfd.limit_status)
+    };
+    writeln!(
+        out,
+        "pfd: worst margin per rate option over every angle of arrival, against the Article 21 limit of {band} (in {}; a negative margin is over the limit):",
+        passbudget::plan::pfd::reference_label(bref)
+    )?;
+    let mut t = Table::new(&[
+        ("mode", Align::Left),
+        ("rate", Align::Right),
+        ("scheme", Align::Left),
+        ("worst margin dB", Align::Right),
+        ("angle of arrival", Align::Right),
+        ("limit status", Align::Left),
+    ]);
+    for o in &pfd.options {
+        t.row(vec![
+            o.mode.to_string(),
+            engfmt::rate(o.rate_bps),
+            o.scheme.clone(),
+            format!(
+                "{:.1}{}",
+                round(o.worst_margin_db, 1),
+                if o.worst_margin_db < 0.0 { " !" } else { "" }
+            ),
+            format!("{} deg", deg1(o.worst_arrival_deg)),
+            status.to_string(),
+        ]);
+    }
+    write!(out, "{}", t.render())?;
+    writeln!(out)?;
     Ok(())
 }
 

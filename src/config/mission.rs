@@ -35,6 +35,28 @@ struct MissionFile {
     transmitter: Option<TransmitterFile>,
     #[serde(default)]
     modem: Option<ModemFile>,
+    #[serde(default)]
+    pfd: Option<PfdFile>,
+}
+
+/// The pfd check's options (`pfd:`).
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct PfdFile {
+    #[serde(default)]
+    spectrum: Option<PfdSpectrum>,
+}
+
+/// How the pfd check spreads a carrier's power over its occupied bandwidth (`pfd.spectrum`): a
+/// closed set, so a wrong name is serde's error, with its line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum PfdSpectrum {
+    /// Uniform over the occupied bandwidth (the default).
+    #[default]
+    Uniform,
+    /// The raised-cosine spectrum of the modem's `roll_off`.
+    RaisedCosine,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -283,6 +305,8 @@ pub struct Mission {
     pub mask_deg: Option<f64>,
     /// Share of passes on which a rate must close above its usable mask, % (the robust mask).
     pub mask_share_percent: f64,
+    /// `pfd.spectrum` (default uniform).
+    pub pfd_spectrum: PfdSpectrum,
     pub transmitter: Option<TransmitterConfig>,
     pub modem: Option<ModemConfig>,
     pub defaults: Vec<DefaultUsed>,
@@ -299,6 +323,20 @@ type Window = (
 );
 
 impl Mission {
+    /// The spectrum the pfd check assumes ([`crate::link::pfd::Spectrum`]): uniform, or the
+    /// raised cosine of this satellite's modem roll-off.
+    pub fn pfd_spectrum(&self) -> crate::link::pfd::Spectrum {
+        match self.pfd_spectrum {
+            PfdSpectrum::Uniform => crate::link::pfd::Spectrum::Uniform,
+            PfdSpectrum::RaisedCosine => crate::link::pfd::Spectrum::RaisedCosine {
+                roll_off: self
+                    .modem
+                    .as_ref()
+                    .map_or(dflt::ROLL_OFF.value, |m| m.roll_off),
+            },
+        }
+    }
+
     /// Load and validate a mission file and the station files it names.
     pub fn load(path: &Path) -> Result<Mission, ConfigError> {
         Self::load_with(path, &Overrides::default())
@@ -370,6 +408,11 @@ impl Mission {
             exceedance_percent,
             mask_deg,
             mask_share_percent,
+            pfd_spectrum: file
+                .pfd
+                .as_ref()
+                .and_then(|p| p.spectrum)
+                .unwrap_or_default(),
             defaults: c.defaults,
             set_keys: applied
                 .iter()
@@ -1152,7 +1195,7 @@ mod tests {
         assert_eq!(e.line, Some(12), "{e}");
         assert!(
             e.message
-                .contains("modem.adaptive.schemes scheme 3: qpsk is already scheme 1"),
+                .contains("modem.adaptive.schemes[2]: qpsk is already modem.adaptive.schemes[0]"),
             "{e}"
         );
     }

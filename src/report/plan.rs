@@ -648,7 +648,7 @@ pub struct PfdBlock {
     /// How the limit's row is known.
     pub limit_status: &'static str,
     pub altitude_km: f64,
-    pub method: &'static str,
+    pub method: String,
     pub caution: &'static str,
     pub options: Vec<PfdOptionRow>,
 }
@@ -668,6 +668,15 @@ pub struct PfdOptionRow {
     pub limit_dbw_m2: f64,
 }
 
+/// How the pfd block was computed, in words; the uniform spectrum's text as it always was.
+fn pfd_method(spectrum: crate::link::pfd::Spectrum) -> String {
+    const WHERE: &str = "at every angle of arrival 0-90 deg (0.1 deg steps) from the perigee altitude of the mean elements over a spherical Earth of 6378.137 km; free space, no atmospheric loss";
+    match spectrum {
+        crate::link::pfd::Spectrum::Uniform => format!("pfd = EIRP(off-nadir) - 10 log10(4 pi d^2) - 10 log10(max(B, B_ref) / B_ref), B the option's occupied bandwidth (spectrum uniform over it), {WHERE}"),
+        s => format!("pfd = EIRP(off-nadir) - 10 log10(4 pi d^2) + 10 log10(share), share the largest part of the power in one B_ref ({}), {WHERE}", s.label()),
+    }
+}
+
 impl PfdBlock {
     pub fn new(planner: &Planner) -> Self {
         let c = planner.pfd();
@@ -681,14 +690,14 @@ impl PfdBlock {
                 None => "no Article 21 Table 21-4 row for this frequency in passbudget's table: not checked",
             },
             altitude_km: round(c.altitude_km, 3),
-            method: "pfd = EIRP(off-nadir) - 10 log10(4 pi d^2) - 10 log10(max(B, B_ref) / B_ref), B the option's occupied bandwidth (spectrum uniform over it), at every angle of arrival 0-90 deg (0.1 deg steps) from the perigee altitude of the mean elements over a spherical Earth of 6378.137 km; free space, no atmospheric loss",
+            method: pfd_method(c.spectrum),
             caution: "Compliance with the Radio Regulations is for the administration to decide; this is a planning estimate.",
             options: c
                 .options
                 .iter()
                 .map(|o| PfdOptionRow {
                     mode: o.mode,
-                    rate_bps: o.rate_bps,
+                    rate_bps: o.rate_bps.round(),
                     scheme: o.scheme.clone(),
                     occupied_bandwidth_hz: o.occupied_bandwidth_hz.round(),
                     worst_margin_db: r4(o.worst.margin_db),
