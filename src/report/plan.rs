@@ -523,7 +523,8 @@ impl RateOptionRow {
             framing_efficiency: round(op.framing_efficiency, 6),
             mode,
             occupied_bandwidth_hz: o.occupied_bandwidth_hz.round(),
-            rate_bps: o.rate_bps,
+            // whole bit/s: an adaptive option's rate is symbol rate x efficiency (128249999.99999999)
+            rate_bps: o.rate_bps.round(),
             required_ebn0_db: o.required_ebn0_db,
             scheme: o.scheme.clone(),
             symbol_rate_baud: round(spec.symbol_rate_baud(), 1),
@@ -541,7 +542,13 @@ pub const CAUTION: &str = "Planning estimates only, not for safety-of-life decis
 /// alphabetical order (the order the summary has always had).
 #[derive(Debug, Clone, Serialize)]
 pub struct Assumptions {
-    pub adaptive: &'static str,
+    pub adaptive: String,
+    /// The adaptive mode's switching as used (given in the mission file or the default): the extra
+    /// margin before it switches up, dB; the seconds lost at each change; whether the ladder's
+    /// rates are in its set.
+    pub adaptive_hysteresis_db: f64,
+    pub adaptive_relock_s: f64,
+    pub adaptive_with_ladder: bool,
     pub availability_case: Option<String>,
     pub caution: &'static str,
     pub clear_sky: &'static str,
@@ -592,8 +599,12 @@ impl Assumptions {
             .zip(&rates.adaptive_specs)
             .map(|(o, s)| RateOptionRow::new("adaptive", o, s));
         let exceedance_percent = planner.exceedance_percent();
+        let block = mission.modem.as_ref().and_then(|m| m.adaptive.as_ref());
         Assumptions {
-            adaptive: "at each step the highest-rate option (ladder rates and adaptive schemes) whose run of at least min_dwell_s covers the step",
+            adaptive: adaptive_rule(block.is_some()),
+            adaptive_hysteresis_db: rates.hysteresis_db,
+            adaptive_relock_s: rates.relock_s,
+            adaptive_with_ladder: block.is_none_or(|a| a.with_ladder),
             availability_case: exceedance_percent.map(|x| format!("rain attenuation exceeded {x} % of an average year applied to every pass (P.618-14), with the cloud liquid water of climate.cloud_liquid_exceedance_kg_m2; planning figure for {:.3} % availability", 100.0 - x)),
             caution: CAUTION,
             clear_sky: "gases (ITU-R P.676-12) and clouds (ITU-R P.840-9) of climate.cloud_liquid_clear_kg_m2; no rain, no scintillation fade",
@@ -616,6 +627,17 @@ impl Assumptions {
             window_start: format_ms(&plan.window.start()),
         }
     }
+}
+
+/// The adaptive mode's rule in words (`assumptions.adaptive`): one waveform switching with
+/// hysteresis and a re-lock time ([`crate::plan::rate`]), its figures in the fields beside it.
+fn adaptive_rule(has_block: bool) -> String {
+    let set = if has_block {
+        "one waveform: the modem.adaptive schemes at its symbol rate (and the ladder's rates only with adaptive_with_ladder)"
+    } else {
+        "no modem.adaptive block: the ladder's rates as one modem"
+    };
+    format!("{set}; the link is up on the runs of at least min_dwell_s of its lowest-threshold option; within a run it steps down at once when its scheme stops closing and up only where a higher-rate scheme closes with adaptive_hysteresis_db to spare, losing adaptive_relock_s at each change; adaptive >= fixed holds by construction only with the ladder in the set, hysteresis 0 and re-lock 0")
 }
 
 /// The whole plan summary (`summary.json`, `plan --format json`).
