@@ -1186,6 +1186,21 @@ mod tests {
         );
     }
 
+    /// One item giving the same symbol rate twice names itself once, not "step 2 ... is already
+    /// step 2".
+    #[test]
+    fn duplicate_symbol_rate_within_one_item_is_rejected() {
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: qpsk }\n    - { symbol_rates_baud: [2e6, 2e6], scheme: qpsk }\n";
+        let e = mission(t).unwrap_err();
+        assert_eq!(e.line, Some(7), "{e}");
+        assert!(
+            e.message
+                .contains("modem.ladder[1]: symbol_rates_baud gives 4000000 bit/s with qpsk twice"),
+            "{e}"
+        );
+        assert!(!e.message.contains("already"), "{e}");
+    }
+
     /// A scheme listed twice in the adaptive set is refused at its line, as a duplicate ladder
     /// step is (before: accepted silently).
     #[test]
