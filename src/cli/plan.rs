@@ -17,7 +17,9 @@ use passbudget::report::contacts::{write_contact_files, ContactDoc, ContactRows}
 use passbudget::report::files::{
     summary_json, write_summaries, ChartBytes, CsvSink, OutputRequest,
 };
-use passbudget::report::plan::{MaskFailureRow, PlanDoc, PlanPassRow, TradeoffRow, UsableMaskRow};
+use passbudget::report::plan::{
+    MaskFailureRow, PfdBlock, PlanDoc, PlanPassRow, TradeoffRow, UsableMaskRow,
+};
 use passbudget::report::{round, to_csv, CommitMode, WriteMode};
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
@@ -106,7 +108,16 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     };
     let plan = run.map_err(|e| in_out(e.into()))?;
     warn(&plan.warnings);
-    note(&plan.notes);
+    // the table prints the unconfirmed values in its own notes: not twice on the terminal
+    let unconfirmed = passbudget::plan::pfd::unconfirmed_notes(planner.rates(), planner.pfd());
+    let table = a.format == Format::Table;
+    let notes: Vec<String> = plan
+        .notes
+        .iter()
+        .filter(|n| !(table && unconfirmed.contains(n)))
+        .cloned()
+        .collect();
+    note(&notes);
     let cp =
         contact_plan(&[&planner], std::slice::from_ref(&plan)).map_err(|e| in_out(e.into()))?;
     // The pass rows only for a document that is written (JSON, CSV, the --out files); the
@@ -265,7 +276,60 @@ fn print_plan(
     print_days(doc, out)?;
     print_totals(planner, doc, out)?;
     print_usable_masks(&doc.usable_masks, &doc.mask_failures, out)?;
+    print_pfd(&doc.pfd, out)?;
+    for n in passbudget::plan::pfd::unconfirmed_notes(planner.rates(), planner.pfd()) {
+        writeln!(out, "note: {n}")?;
+    }
     writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
+    Ok(())
+}
+
+/// The pfd block: every rate option's worst margin over the angles of arrival against the
+/// band's Article 21 limit (the JSON's `pfd.options`).
+fn print_pfd(pfd: &PfdBlock, out: &mut dyn Write) -> Result<()> {
+    let (Some(band), Some(bref)) = (&pfd.band, pfd.reference_bandwidth_hz) else {
+        writeln!(out, "pfd: {}", pfd.limit_status)?;
+        writeln!(out)?;
+        return Ok(());
+    };
+    // `from memory`, or where the row was read (`read in 47 CFR 25.208(p)`)
+    let status = if pfd.limit_status.starts_with("from memory") {
+        "from memory"
+    } else {
+        pfd.limit_status
+            .split(" (")
+            .next()
+            .unwrap_or(pfd.limit_status)
+    };
+    writeln!(
+        out,
+        "pfd: worst margin per rate option over every angle of arrival, against the Article 21 limit of {band} (in {}; a negative margin is over the limit):",
+        passbudget::plan::pfd::reference_label(bref)
+    )?;
+    let mut t = Table::new(&[
+        ("mode", Align::Left),
+        ("rate", Align::Right),
+        ("scheme", Align::Left),
+        ("worst margin dB", Align::Right),
+        ("angle of arrival", Align::Right),
+        ("limit status", Align::Left),
+    ]);
+    for o in &pfd.options {
+        t.row(vec![
+            o.mode.to_string(),
+            engfmt::rate(o.rate_bps),
+            o.scheme.clone(),
+            format!(
+                "{:.1}{}",
+                round(o.worst_margin_db, 1),
+                if o.worst_margin_db < 0.0 { " !" } else { "" }
+            ),
+            format!("{} deg", deg1(o.worst_arrival_deg)),
+            status.to_string(),
+        ]);
+    }
+    write!(out, "{}", t.render())?;
+    writeln!(out)?;
     Ok(())
 }
 
@@ -563,24 +627,35 @@ fn print_usable_masks(
         writeln!(out, "Passes that fail above the {share} % mask (their highest step where the rate does not count):")?;
         for f in failures {
             let how = if f.margin_db < f.required_margin_db {
-                format!("misses by {:.2} dB", f.required_margin_db - f.margin_db)
+                misses_by(f.required_margin_db - f.margin_db)
             } else {
                 "closes, but for less than the dwell time".into()
             };
             writeln!(
                 out,
-                "  {} {} {}: pass {} ({}) at {} el {} deg: {how}",
+                "  {} {} {}: pass {} ({}) at {} el {:.2} deg: {how}",
                 f.station,
                 engfmt::rate(f.rate_bps),
                 f.scheme,
                 f.pass,
                 f.pass_id,
                 &f.time[11..19],
-                deg1(f.elevation_deg)
+                // two decimals: above a mask rounded up to 0.1 deg, one decimal could read as equal
+                round(f.elevation_deg, 2)
             )?;
         }
     }
     Ok(())
+}
+
+/// How far a failing step misses its margin: `misses by 0.12 dB`, or `misses by <0.01 dB` for a
+/// shortfall that two decimals would show as 0.00.
+fn misses_by(shortfall_db: f64) -> String {
+    if shortfall_db < 0.005 {
+        "misses by <0.01 dB".into()
+    } else {
+        format!("misses by {shortfall_db:.2} dB")
+    }
 }
 
 /// `passbudget mask`.

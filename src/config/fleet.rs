@@ -277,7 +277,7 @@ pub(super) fn apply_rule(
 fn blocked(c: &Checker, key: &str, items: &[BlockedFile]) -> Result<Vec<Period>, ConfigError> {
     let mut out = Vec::new();
     for (i, b) in items.iter().enumerate() {
-        let bad = |m: String| c.item_err(key, "period", i, m);
+        let bad = |m: String| c.item_err(key, i, m);
         out.push(period(b).map_err(bad)?);
     }
     out.sort();

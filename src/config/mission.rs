@@ -35,6 +35,28 @@ struct MissionFile {
     transmitter: Option<TransmitterFile>,
     #[serde(default)]
     modem: Option<ModemFile>,
+    #[serde(default)]
+    pfd: Option<PfdFile>,
+}
+
+/// The pfd check's options (`pfd:`).
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct PfdFile {
+    #[serde(default)]
+    spectrum: Option<PfdSpectrum>,
+}
+
+/// How the pfd check spreads a carrier's power over its occupied bandwidth (`pfd.spectrum`): a
+/// closed set, so a wrong name is serde's error, with its line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum PfdSpectrum {
+    /// Uniform over the occupied bandwidth (the default).
+    #[default]
+    Uniform,
+    /// The raised-cosine spectrum of the modem's `roll_off`.
+    RaisedCosine,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -283,6 +305,8 @@ pub struct Mission {
     pub mask_deg: Option<f64>,
     /// Share of passes on which a rate must close above its usable mask, % (the robust mask).
     pub mask_share_percent: f64,
+    /// `pfd.spectrum` (default uniform).
+    pub pfd_spectrum: PfdSpectrum,
     pub transmitter: Option<TransmitterConfig>,
     pub modem: Option<ModemConfig>,
     pub defaults: Vec<DefaultUsed>,
@@ -299,6 +323,20 @@ type Window = (
 );
 
 impl Mission {
+    /// The spectrum the pfd check assumes ([`crate::link::pfd::Spectrum`]): uniform, or the
+    /// raised cosine of this satellite's modem roll-off.
+    pub fn pfd_spectrum(&self) -> crate::link::pfd::Spectrum {
+        match self.pfd_spectrum {
+            PfdSpectrum::Uniform => crate::link::pfd::Spectrum::Uniform,
+            PfdSpectrum::RaisedCosine => crate::link::pfd::Spectrum::RaisedCosine {
+                roll_off: self
+                    .modem
+                    .as_ref()
+                    .map_or(dflt::ROLL_OFF.value, |m| m.roll_off),
+            },
+        }
+    }
+
     /// Load and validate a mission file and the station files it names.
     pub fn load(path: &Path) -> Result<Mission, ConfigError> {
         Self::load_with(path, &Overrides::default())
@@ -370,6 +408,11 @@ impl Mission {
             exceedance_percent,
             mask_deg,
             mask_share_percent,
+            pfd_spectrum: file
+                .pfd
+                .as_ref()
+                .and_then(|p| p.spectrum)
+                .unwrap_or_default(),
             defaults: c.defaults,
             set_keys: applied
                 .iter()
@@ -468,19 +511,17 @@ fn satellites(
             let mut out: Vec<SatelliteConfig> = Vec::new();
             for (i, s) in list.iter().enumerate() {
                 let Some(name) = s.name.as_deref().map(str::trim).filter(|n| !n.is_empty()) else {
-                    return Err(c.item_err(KEY, "item", i, "needs a name"));
+                    return Err(c.item_err(KEY, i, "needs a name"));
                 };
                 if out.iter().any(|o| o.name.as_deref() == Some(name)) {
                     let msg = format!("two satellites are named '{name}'");
-                    return Err(c.item_err(KEY, "item", i, msg));
+                    return Err(c.item_err(KEY, i, msg));
                 }
                 let item = c
                     .item_line(KEY, i)
                     .and_then(|l| super::item_block(c.text, l));
                 let mut sub = match &item {
-                    Some(b) => {
-                        Checker::within(c.path, b, format!("{KEY} item {} ({name}): ", i + 1))
-                    }
+                    Some(b) => Checker::within(c.path, b, format!("{KEY}[{i}] ({name}): ")),
                     None => Checker::new(c.path, c.text, c.overrides),
                 };
                 let one = satellite(&mut sub, "", s, base, shared, false)?;
@@ -592,7 +633,7 @@ fn booking_rules(
             .find(|s| crate::config::station::same_station(&r.station, &s.name))
         else {
             let msg = format!("no station of the mission is named '{}'", r.station);
-            return Err(c.item_err("booking", "rule", i, msg));
+            return Err(c.item_err("booking", i, msg));
         };
         super::fleet::apply_rule(c, i, r, &mut st.booking)?;
     }
@@ -710,7 +751,7 @@ fn tx_table(c: &Checker, points: &[[f64; 2]]) -> Result<Vec<[f64; 2]>, ConfigErr
         return Err(c.err(angle.key, "needs at least two points"));
     }
     for (i, pt) in points.iter().enumerate() {
-        let bad = |msg: String| Err(c.item_err(angle.key, "point", i, msg));
+        let bad = |msg: String| Err(c.item_err(angle.key, i, msg));
         if let Err(e) = angle.check(pt[0]) {
             return bad(format!("off-nadir angle {e}"));
         }
@@ -769,8 +810,8 @@ fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry,
                 let first = key.split('.').next().unwrap_or(key);
                 find(last).or_else(|| find(first)).unwrap_or(l)
             });
-            let full = format!("{KEY}.{key}");
-            c.err_at(line, &full, format!("scheme {} ({}): {msg}", i + 1, f.name))
+            let full = format!("{KEY}[{i}].{key}");
+            c.err_at(line, &full, format!("{msg} (scheme {})", f.name))
         };
         let spec = user_scheme_spec(f).map_err(|(key, msg)| at(key, msg))?;
         let s = UserScheme::new(&spec).map_err(|e| at(e.key(&spec.threshold), e.to_string()))?;
@@ -798,11 +839,7 @@ fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry,
         let line = c
             .item_line(KEY, i)
             .map(|l| c.item_key_line(l, "name").unwrap_or(l));
-        c.err_at(
-            line,
-            &format!("{KEY}.name"),
-            format!("scheme {}: {e}", i + 1),
-        )
+        c.err_at(line, &format!("{KEY}[{i}].name"), e)
     })
 }
 
@@ -912,7 +949,7 @@ fn ladder(
     // The file's item of each step, for messages.
     let mut items: Vec<usize> = Vec::new();
     for (i, st) in steps.iter().enumerate() {
-        let bad = |msg: String| c.item_err(KEY, "step", i, msg);
+        let bad = |msg: String| c.item_err(KEY, i, msg);
         let index = schemes.index(&st.scheme).map_err(|e| bad(e.to_string()))?;
         let name = schemes
             .name(index)
@@ -944,11 +981,12 @@ fn ladder(
             }
             let same = |o: &LadderStep| o.rate_bps == rate_bps && o.scheme == name;
             if let Some(j) = ladder.iter().position(same) {
-                let msg = format!(
-                    "{} bit/s with {name} is already step {}",
-                    limits::short_number(rate_bps),
-                    items[j] + 1
-                );
+                let rate = limits::short_number(rate_bps);
+                let msg = if items[j] == i {
+                    format!("symbol_rates_baud gives {rate} bit/s with {name} twice")
+                } else {
+                    format!("{rate} bit/s with {name} is already {KEY}[{}]", items[j])
+                };
                 return Err(bad(msg));
             }
             ladder.push(LadderStep {
@@ -976,12 +1014,10 @@ fn adaptive(
     }
     let mut schemes: Vec<(String, Option<usize>)> = Vec::new();
     for (i, s) in a.schemes.iter().enumerate() {
-        registry
-            .index(s)
-            .map_err(|e| c.item_err(KEY, "scheme", i, e))?;
+        registry.index(s).map_err(|e| c.item_err(KEY, i, e))?;
         if let Some(j) = schemes.iter().position(|(o, _)| o == s) {
-            let msg = format!("{s} is already scheme {}", j + 1);
-            return Err(c.item_err(KEY, "scheme", i, msg));
+            let msg = format!("{s} is already {KEY}[{j}]");
+            return Err(c.item_err(KEY, i, msg));
         }
         schemes.push((s.clone(), c.item_line(KEY, i)));
     }
@@ -1075,7 +1111,7 @@ mod tests {
         assert_eq!(e.line, Some(11));
         assert!(
             e.message
-                .contains("point 2: gain 5500 is out of range (-60 to 60 dBi)"),
+                .contains("[1]: gain 5500 is out of range (-60 to 60 dBi)"),
             "{e}"
         );
         let ant = "    pattern: table\n    table:\n      - [10, 3]\n      - [5, 4]\n";
@@ -1133,7 +1169,7 @@ mod tests {
         assert_eq!(e.line, Some(7));
         assert!(
             e.message
-                .contains("step 2: rate_bps 1.000000e-300 is out of range"),
+                .contains("modem.ladder[1]: rate_bps 1.000000e-300 is out of range"),
             "{e}"
         );
     }
@@ -1145,9 +1181,24 @@ mod tests {
         assert_eq!(e.line, Some(8));
         assert!(
             e.message
-                .contains("step 3: 1000000 bit/s with qpsk is already step 1"),
+                .contains("modem.ladder[2]: 1000000 bit/s with qpsk is already modem.ladder[0]"),
             "{e}"
         );
+    }
+
+    /// One item giving the same symbol rate twice names itself once, not "step 2 ... is already
+    /// step 2".
+    #[test]
+    fn duplicate_symbol_rate_within_one_item_is_rejected() {
+        let t = "modem:\n  ladder:\n    - { rate_bps: 1e6, scheme: qpsk }\n    - { symbol_rates_baud: [2e6, 2e6], scheme: qpsk }\n";
+        let e = mission(t).unwrap_err();
+        assert_eq!(e.line, Some(7), "{e}");
+        assert!(
+            e.message
+                .contains("modem.ladder[1]: symbol_rates_baud gives 4000000 bit/s with qpsk twice"),
+            "{e}"
+        );
+        assert!(!e.message.contains("already"), "{e}");
     }
 
     /// A scheme listed twice in the adaptive set is refused at its line, as a duplicate ladder
@@ -1159,7 +1210,7 @@ mod tests {
         assert_eq!(e.line, Some(12), "{e}");
         assert!(
             e.message
-                .contains("modem.adaptive.schemes scheme 3: qpsk is already scheme 1"),
+                .contains("modem.adaptive.schemes[2]: qpsk is already modem.adaptive.schemes[0]"),
             "{e}"
         );
     }

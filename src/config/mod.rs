@@ -163,7 +163,7 @@ impl<'a> Checker<'a> {
     }
 
     /// A checker of one list item's block (from [`item_block`]): lines are the file's, and every
-    /// message starts with `prefix` (`satellites item 2 (KESTREL-B): `).
+    /// message starts with `prefix` (`satellites[1] (KESTREL-B): `).
     pub fn within(path: &'a Path, block: &'a (String, usize), prefix: String) -> Checker<'a> {
         Checker {
             line_offset: block.1,
@@ -232,17 +232,11 @@ impl<'a> Checker<'a> {
         )
     }
 
-    /// An error about item `index` (0-based) of the list under `key`, named `what` (point, step):
-    /// `file:line: key what N: msg`.
-    pub fn item_err(
-        &self,
-        key: &str,
-        what: &str,
-        index: usize,
-        msg: impl std::fmt::Display,
-    ) -> ConfigError {
+    /// An error about item `index` (0-based) of the list under `key`, in the index form of
+    /// serde's own errors (`modem.schemes[1].error_measure: ...`): `file:line: key[index]: msg`.
+    pub fn item_err(&self, key: &str, index: usize, msg: impl std::fmt::Display) -> ConfigError {
         let line = self.item_line(key, index).or(self.block_line());
-        let message = format!("{}{key} {what} {}: {msg}", self.prefix, index + 1);
+        let message = format!("{}{key}[{index}]: {msg}", self.prefix);
         self.named(key, ConfigError::new(self.path, line, Some(key), message))
     }
 

@@ -338,10 +338,10 @@ fn horizon_mask(c: &Checker, mut mask: Vec<[f64; 2]>) -> Result<Vec<[f64; 2]>, C
                 az.min,
                 az.max
             );
-            return Err(c.item_err(az.key, "point", i, msg));
+            return Err(c.item_err(az.key, i, msg));
         }
         if let Err(e) = limits::MASK_ELEVATION_DEG.check(p[1]) {
-            return Err(c.item_err(az.key, "point", i, format!("elevation {e}")));
+            return Err(c.item_err(az.key, i, format!("elevation {e}")));
         }
     }
     mask.sort_by(|a, b| a[0].total_cmp(&b[0]));
@@ -502,7 +502,7 @@ fn rising_table(
         return Err(c.err(key, "needs at least two points"));
     }
     for (i, pt) in points.iter().enumerate() {
-        let bad = |msg: String| Err(c.item_err(key, "point", i, msg));
+        let bad = |msg: String| Err(c.item_err(key, i, msg));
         for (v, (r, what)) in [(pt[0], first), (pt[1], second)] {
             if let Err(e) = r.check(v) {
                 return bad(format!("{what} {e}"));

@@ -32,6 +32,30 @@
 //!
 //! (a carrier narrower than B_ref puts all of its power in one reference bandwidth). Whether an
 //! emission complies is for the administration to decide; this is a planning estimate.
+//!
+//! A raised-cosine spectrum (`pfd.spectrum: raised-cosine`, [`Spectrum::RaisedCosine`]) instead:
+//! the power spectral density of a carrier of symbol rate Rs = B / (1 + α) shaped by the
+//! raised-cosine spectrum of roll-off α (J. G. Proakis, *Digital Communications*, 4th ed.,
+//! section 9.2, the raised-cosine spectrum X_rc(f); from memory, not re-read), normalized to the
+//! carrier power P:
+//!
+//! ```text
+//! S(f) = P / Rs                                              |f| <= (1 - α) Rs / 2
+//!      = P / (2 Rs) [1 + cos(π / (α Rs) (|f| - (1 - α) Rs / 2))]   (1 - α) Rs / 2 < |f| <= (1 + α) Rs / 2
+//!      = 0                                                   beyond
+//! ```
+//!
+//! S is even and non-increasing in |f|, so the reference bandwidth holding the most power is the
+//! one centred on the carrier, and its share is the closed-form integral
+//! `2 F(B_ref / 2)`, with F(x) = ∫_0^x S / P:
+//!
+//! ```text
+//! F(x) = x / Rs                                               x <= f1 = (1 - α) Rs / 2
+//!      = f1 / Rs + [(x - f1) + (α Rs / π) sin(π (x - f1) / (α Rs))] / (2 Rs)   f1 < x <= f2
+//!      = 1 / 2                                                x > f2 = (1 + α) Rs / 2
+//! ```
+//!
+//! For B_ref << Rs the share is B_ref / Rs: 10 log10(1 + α) dB above the uniform assumption.
 
 /// One band of Table 21-4.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -112,7 +136,60 @@ impl BandLimit {
     }
 }
 
-/// pfd of `eirp_dbw` at `distance_km`, spread over `occupied_bandwidth_hz`, in
+/// How the carrier's power is spread over its occupied bandwidth (`pfd.spectrum`).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Spectrum {
+    /// Uniform over the occupied bandwidth B (the default).
+    Uniform,
+    /// The raised-cosine spectrum of the modem's roll-off α over B = Rs (1 + α).
+    RaisedCosine { roll_off: f64 },
+}
+
+impl Spectrum {
+    /// The largest share of the carrier's power in any window of `reference_bandwidth_hz`, for a
+    /// carrier of `occupied_bandwidth_hz` (0 < share <= 1).
+    pub fn peak_share(&self, occupied_bandwidth_hz: f64, reference_bandwidth_hz: f64) -> f64 {
+        match *self {
+            Spectrum::Uniform => {
+                reference_bandwidth_hz / occupied_bandwidth_hz.max(reference_bandwidth_hz)
+            }
+            Spectrum::RaisedCosine { roll_off } => {
+                let a = roll_off.clamp(0.0, 1.0);
+                let rs = occupied_bandwidth_hz / (1.0 + a);
+                (2.0 * raised_cosine_half_share(rs, a, reference_bandwidth_hz / 2.0)).min(1.0)
+            }
+        }
+    }
+
+    /// The words of the outputs: `uniform over the occupied bandwidth` or the roll-off's shape.
+    pub fn label(&self) -> String {
+        match self {
+            Spectrum::Uniform => "spectrum uniform over the occupied bandwidth".into(),
+            Spectrum::RaisedCosine { roll_off } => {
+                format!("raised-cosine spectrum of roll-off {roll_off} (the worst B_ref window, centred)")
+            }
+        }
+    }
+}
+
+/// F(x) = ∫_0^x S(f) df / P of the raised-cosine spectrum of symbol rate `rs` and roll-off `a`
+/// (module documentation).
+fn raised_cosine_half_share(rs: f64, a: f64, x: f64) -> f64 {
+    let f1 = (1.0 - a) * rs / 2.0;
+    let f2 = (1.0 + a) * rs / 2.0;
+    if x <= f1 {
+        x / rs
+    } else if x <= f2 && a > 0.0 {
+        let u = x - f1;
+        f1 / rs
+            + (u + a * rs / std::f64::consts::PI * (std::f64::consts::PI * u / (a * rs)).sin())
+                / (2.0 * rs)
+    } else {
+        0.5
+    }
+}
+
+/// pfd of `eirp_dbw` at `distance_km`, spread uniformly over `occupied_bandwidth_hz`, in
 /// `reference_bandwidth_hz`, dB(W/m2).
 pub fn pfd_dbw_m2(
     eirp_dbw: f64,
@@ -120,11 +197,40 @@ pub fn pfd_dbw_m2(
     occupied_bandwidth_hz: f64,
     reference_bandwidth_hz: f64,
 ) -> f64 {
+    pfd_shaped_dbw_m2(
+        eirp_dbw,
+        distance_km,
+        occupied_bandwidth_hz,
+        reference_bandwidth_hz,
+        Spectrum::Uniform,
+    )
+}
+
+/// pfd of `eirp_dbw` at `distance_km` with the `spectrum`'s largest share of the power in one
+/// `reference_bandwidth_hz`, dB(W/m2): EIRP - 10 log10(4 pi d^2) + 10 log10(share).
+pub fn pfd_shaped_dbw_m2(
+    eirp_dbw: f64,
+    distance_km: f64,
+    occupied_bandwidth_hz: f64,
+    reference_bandwidth_hz: f64,
+    spectrum: Spectrum,
+) -> f64 {
     let d_m = distance_km * 1e3;
     let spread_db = 10.0 * (4.0 * std::f64::consts::PI * d_m * d_m).log10();
-    let share_db =
-        10.0 * (occupied_bandwidth_hz.max(reference_bandwidth_hz) / reference_bandwidth_hz).log10();
-    eirp_dbw - spread_db - share_db
+    let share_db = match spectrum {
+        // the uniform case exactly as before: 10 log10(max(B, B_ref) / B_ref)
+        Spectrum::Uniform => {
+            -10.0
+                * (occupied_bandwidth_hz.max(reference_bandwidth_hz) / reference_bandwidth_hz)
+                    .log10()
+        }
+        s => {
+            10.0 * s
+                .peak_share(occupied_bandwidth_hz, reference_bandwidth_hz)
+                .log10()
+        }
+    };
+    eirp_dbw - spread_db + share_db
 }
 
 /// For a satellite at `altitude_km` over a spherical Earth of [`EARTH_RADIUS_KM`], the distance
@@ -163,12 +269,14 @@ impl BandLimit {
         range_km: f64,
         elevation_deg: f64,
         occupied_bandwidth_hz: f64,
+        spectrum: Spectrum,
     ) -> PfdAt {
-        let pfd = pfd_dbw_m2(
+        let pfd = pfd_shaped_dbw_m2(
             eirp_dbw,
             range_km,
             occupied_bandwidth_hz,
             self.reference_bandwidth_hz,
+            spectrum,
         );
         let limit = self.limit_dbw_m2(elevation_deg);
         PfdAt {
@@ -206,18 +314,19 @@ pub struct WorstArrival {
 pub fn worst_arrival(
     band: &BandLimit,
     altitude_km: f64,
-    occupied_bandwidth_hz: f64,
+    (occupied_bandwidth_hz, spectrum): (f64, Spectrum),
     eirp_at: impl Fn(f64) -> f64,
 ) -> WorstArrival {
     (0..=900)
         .map(|k| {
             let arrival_deg = k as f64 * 0.1;
             let (d, off_nadir) = arrival_geometry(altitude_km, arrival_deg);
-            let pfd = pfd_dbw_m2(
+            let pfd = pfd_shaped_dbw_m2(
                 eirp_at(off_nadir),
                 d,
                 occupied_bandwidth_hz,
                 band.reference_bandwidth_hz,
+                spectrum,
             );
             let limit = band.limit_dbw_m2(arrival_deg);
             WorstArrival {
@@ -292,7 +401,7 @@ mod tests {
     #[test]
     fn worst_arrival_of_an_isotropic_carrier() {
         let b = BandLimit::for_frequency(8.2e9).unwrap();
-        let w = worst_arrival(b, 600.0, 1e6, |_| 0.0);
+        let w = worst_arrival(b, 600.0, (1e6, Spectrum::Uniform), |_| 0.0);
         let check = |a: f64| {
             let (d, _) = arrival_geometry(600.0, a);
             b.limit_dbw_m2(a) - pfd_dbw_m2(0.0, d, 1e6, 4e3)
@@ -301,5 +410,78 @@ mod tests {
         for a in [0.0, 3.0, 5.0, 10.0, 25.0, 45.0, 90.0] {
             assert!(check(a) >= w.margin_db - 1e-12, "{a}");
         }
+    }
+
+    /// Raised cosine, B_ref << Rs, by hand: all of B_ref lies in the flat part, where the
+    /// density is P / Rs, so the share is B_ref / Rs. Rs = 100 Mbaud, α = 0.35, B = 135 MHz,
+    /// B_ref = 4 kHz: share 4e3 / 1e8 = 4e-5 (-43.9794 dB), against the uniform 4e3 / 1.35e8
+    /// (-45.2827 dB): 10 log10(1.35) = 1.3033 dB more.
+    #[test]
+    fn raised_cosine_narrow_reference_by_hand() {
+        let rc = Spectrum::RaisedCosine { roll_off: 0.35 };
+        let share = rc.peak_share(135e6, 4e3);
+        assert!((share - 4e-5).abs() < 1e-15, "{share}");
+        let uniform = pfd_dbw_m2(10.0, 1000.0, 135e6, 4e3);
+        let shaped = pfd_shaped_dbw_m2(10.0, 1000.0, 135e6, 4e3, rc);
+        assert!(
+            (shaped - uniform - 1.3033).abs() < 1e-4,
+            "{}",
+            shaped - uniform
+        );
+        assert!(
+            (shaped - (10.0 - 130.9921 - 43.9794)).abs() < 1e-4,
+            "{shaped}"
+        );
+    }
+
+    /// Raised cosine, B_ref comparable to Rs: the closed form against a numerical integral of
+    /// the density over every position of the window (Simpson, 20,000 intervals), whose largest
+    /// value is the worst window; and the whole carrier inside a wide B_ref.
+    #[test]
+    fn raised_cosine_wide_reference_against_an_integral() {
+        let density = |rs: f64, a: f64, f: f64| {
+            let (f1, f2) = ((1.0 - a) * rs / 2.0, (1.0 + a) * rs / 2.0);
+            let x = f.abs();
+            if x <= f1 {
+                1.0 / rs
+            } else if x <= f2 {
+                (1.0 + (std::f64::consts::PI / (a * rs) * (x - f1)).cos()) / (2.0 * rs)
+            } else {
+                0.0
+            }
+        };
+        let simpson = |lo: f64, hi: f64, g: &dyn Fn(f64) -> f64| {
+            let n = 20_000;
+            let h = (hi - lo) / n as f64;
+            let mut sum = g(lo) + g(hi);
+            for k in 1..n {
+                sum += g(lo + k as f64 * h) * if k % 2 == 1 { 4.0 } else { 2.0 };
+            }
+            sum * h / 3.0
+        };
+        for (a, rs, bref) in [
+            (0.35, 1e6, 1e6),
+            (0.2, 2e6, 1e6),
+            (0.5, 1e6, 1.2e6),
+            (1.0, 1e6, 0.7e6),
+        ] {
+            let g = |f: f64| density(rs, a, f);
+            // the whole spectrum integrates to 1
+            let total = simpson(-(1.0 + a) * rs / 2.0, (1.0 + a) * rs / 2.0, &g);
+            assert!((total - 1.0).abs() < 1e-9, "{total}");
+            let worst = (-40..=40)
+                .map(|k| {
+                    let c = k as f64 * rs / 100.0;
+                    simpson(c - bref / 2.0, c + bref / 2.0, &g)
+                })
+                .fold(0.0, f64::max);
+            let share = Spectrum::RaisedCosine { roll_off: a }.peak_share(rs * (1.0 + a), bref);
+            assert!((share - worst).abs() < 1e-9, "a {a}: {share} vs {worst}");
+        }
+        let rc = Spectrum::RaisedCosine { roll_off: 0.35 };
+        assert_eq!(rc.peak_share(1.35e6, 2e6), 1.0);
+        // α = 0: a rectangle of width Rs, the same as uniform
+        let rect = Spectrum::RaisedCosine { roll_off: 0.0 };
+        assert!((rect.peak_share(1e6, 4e3) - 4e-3).abs() < 1e-15);
     }
 }

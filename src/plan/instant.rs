@@ -214,7 +214,9 @@ pub fn instant_budget(
                 .into(),
         );
     }
-    let pfd = pfd_at(&model, &look, &values);
+    let spectrum = mission.pfd_spectrum();
+    let pfd = pfd_at(&model, &look, &values, spectrum);
+    items.extend(pfd.iter().flat_map(|p| pfd_items(p, spectrum)));
     warnings.extend(pfd_warning(&model, pfd.as_ref()));
     warnings.extend(selection_note(&elements, &selection));
     if let Some(t) = time {
@@ -246,6 +248,7 @@ fn pfd_at(
     model: &StationModel,
     look: &Look,
     values: &crate::link::budget::BudgetValues,
+    spectrum: crate::link::pfd::Spectrum,
 ) -> Option<crate::link::pfd::PfdAt> {
     crate::link::pfd::BandLimit::for_frequency(model.link.frequency_hz()).map(|b| {
         b.at(
@@ -253,8 +256,51 @@ fn pfd_at(
             look.range_km,
             look.elevation_deg,
             values.occupied_bandwidth_hz,
+            spectrum,
         )
     })
+}
+
+/// The pfd's items of the budget (the JSON's `pfd_*` fields, for the table and the CSV): the pfd
+/// in the band's reference bandwidth, that bandwidth, the limit (its source: how the band's row
+/// is known) and the margin.
+fn pfd_items(p: &crate::link::pfd::PfdAt, spectrum: crate::link::pfd::Spectrum) -> [BudgetItem; 4] {
+    let per = super::pfd::reference_label(p.reference_bandwidth_hz);
+    let status = if p.limit_status.starts_with("from memory") {
+        "from memory (Article 21 Table 21-4 row not confirmed in the text)"
+    } else {
+        p.limit_status
+    };
+    [
+        BudgetItem {
+            name: "pfd",
+            value: p.pfd_dbw_m2,
+            unit: "dB(W/m2)",
+            source: match spectrum {
+                crate::link::pfd::Spectrum::Uniform => format!("in {per}: EIRP - 10 log10(4 pi d^2) - 10 log10(max(B, B_ref) / B_ref), {}", spectrum.label()),
+                _ => format!("in {per}: EIRP - 10 log10(4 pi d^2) + 10 log10(largest share of the power in one B_ref), {}", spectrum.label()),
+            }
+            .into(),
+        },
+        BudgetItem {
+            name: "pfd_reference_bandwidth",
+            value: p.reference_bandwidth_hz,
+            unit: "Hz",
+            source: "the band's Article 21 Table 21-4 row".into(),
+        },
+        BudgetItem {
+            name: "pfd_limit",
+            value: p.limit_dbw_m2,
+            unit: "dB(W/m2)",
+            source: format!("at this angle of arrival (the elevation); {status}").into(),
+        },
+        BudgetItem {
+            name: "pfd_margin",
+            value: p.margin_db,
+            unit: "dB",
+            source: "limit minus pfd (negative: over the limit, a warning; compliance is for the administration to decide)".into(),
+        },
+    ]
 }
 
 /// The pfd's warning: no row for the band, or over the limit.

@@ -29,6 +29,7 @@ pub(super) struct PassContext<'a> {
     pub window_start: DateTime<Utc>,
     /// The band's Article 21 limit, when passbudget has a row for it.
     pub pfd_band: Option<crate::link::pfd::BandLimit>,
+    pub pfd_spectrum: crate::link::pfd::Spectrum,
 }
 
 impl PassContext<'_> {
@@ -223,7 +224,7 @@ pub(super) fn plan_pass<S: PassSink>(
     // none closes).
     let pfd = planner.pfd_band.as_ref().and_then(|b| {
         let (_, o) = planner.rates().display_option(clear.option);
-        super::pfd::pass_margin(b, &s.steps, o.occupied_bandwidth_hz)
+        super::pfd::pass_margin(b, &s.steps, (o.occupied_bandwidth_hz, planner.pfd_spectrum))
     });
     warnings.pfd_exceeded = pfd.is_some_and(|(m, _)| m < 0.0);
     let plan = PassPlan {

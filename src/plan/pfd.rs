@@ -5,7 +5,7 @@
 use super::prepare::RateSet;
 use super::series::Step;
 use crate::link::budget::LinkModel;
-use crate::link::pfd::{worst_arrival, BandLimit, WorstArrival};
+use crate::link::pfd::{worst_arrival, BandLimit, Spectrum, WorstArrival};
 use crate::orbit::ElementSet;
 
 /// One rate option's worst case over the angles of arrival.
@@ -27,6 +27,8 @@ pub struct PfdCheck {
     /// The altitude the worst case is taken at: the perigee of the mean elements above the
     /// WGS-84 equatorial radius (the lowest altitude of the orbit, so the shortest distances), km.
     pub altitude_km: f64,
+    /// How each carrier's power is spread over its occupied bandwidth (`pfd.spectrum`).
+    pub spectrum: Spectrum,
     pub options: Vec<PfdOption>,
 }
 
@@ -37,7 +39,12 @@ pub fn perigee_altitude_km(elements: &ElementSet) -> f64 {
 }
 
 impl PfdCheck {
-    pub fn new(link: &LinkModel, rates: &RateSet, elements: &ElementSet) -> PfdCheck {
+    pub fn new(
+        link: &LinkModel,
+        rates: &RateSet,
+        elements: &ElementSet,
+        spectrum: Spectrum,
+    ) -> PfdCheck {
         let band = BandLimit::for_frequency(link.frequency_hz()).copied();
         let altitude_km = perigee_altitude_km(elements);
         let eirp_at = |off_nadir_deg: f64| {
@@ -57,7 +64,12 @@ impl PfdCheck {
                         rate_bps: o.rate_bps,
                         scheme: o.scheme.clone(),
                         occupied_bandwidth_hz: o.occupied_bandwidth_hz,
-                        worst: worst_arrival(b, altitude_km, o.occupied_bandwidth_hz, eirp_at),
+                        worst: worst_arrival(
+                            b,
+                            altitude_km,
+                            (o.occupied_bandwidth_hz, spectrum),
+                            eirp_at,
+                        ),
                     })
                     .collect()
             }
@@ -65,6 +77,7 @@ impl PfdCheck {
         PfdCheck {
             band,
             altitude_km,
+            spectrum,
             options,
         }
     }
@@ -108,12 +121,12 @@ pub fn reference_label(hz: f64) -> &'static str {
 }
 
 /// The worst margin at the station over a pass's steps for a carrier of
-/// `occupied_bandwidth_hz` (every step, tracked or not: the flux arrives either way), with the
-/// elevation where it occurs.
+/// `occupied_bandwidth_hz` spread as `spectrum` (every step, tracked or not: the flux arrives
+/// either way), with the elevation where it occurs.
 pub fn pass_margin(
     band: &BandLimit,
     steps: &[Step],
-    occupied_bandwidth_hz: f64,
+    (occupied_bandwidth_hz, spectrum): (f64, Spectrum),
 ) -> Option<(f64, f64)> {
     steps
         .iter()
@@ -123,8 +136,43 @@ pub fn pass_margin(
                 s.range_km,
                 s.elevation_deg,
                 occupied_bandwidth_hz,
+                spectrum,
             );
             (p.margin_db, s.elevation_deg)
         })
         .min_by(|a, b| a.0.total_cmp(&b.0))
+}
+
+/// The values a plan rests on that were recalled, not read in a published text, one line per
+/// kind: the rate options whose threshold is from memory (the built-in CCSDS figures; their names
+/// grouped, each once), and the pfd limit's band row when it is from memory. Every output of a
+/// plan carries them (the table's notes, the CSV `#` lines, the JSON's `assumptions.warnings`).
+pub fn unconfirmed_notes(rates: &RateSet, pfd: &PfdCheck) -> Vec<String> {
+    let mut names: Vec<&str> = Vec::new();
+    for spec in rates.ladder_specs.iter().chain(&rates.adaptive_specs) {
+        let op = spec.operating();
+        if matches!(
+            op.provenance,
+            crate::link::modcod::Provenance::FromMemory(_)
+        ) && !names.contains(&op.name.as_str())
+        {
+            names.push(op.name.as_str());
+        }
+    }
+    let mut out = Vec::new();
+    if !names.is_empty() {
+        out.push(format!(
+            "from memory: the required Eb/N0 of {} (built-in CCSDS thresholds, not confirmed in a published table; threshold_status in the rate options); a measured threshold can replace them (modem.schemes)",
+            names.join(", ")
+        ));
+    }
+    if let Some(b) = pfd.band.as_ref().filter(|b| !b.confirmed()) {
+        out.push(format!(
+            "from memory: the pfd limit of {} ({} dB(W/m2) in {} at 0-5 deg, Radio Regulations Article 21 Table 21-4) is not confirmed in the text; the pfd margins rest on it (limit_status)",
+            b.label(),
+            b.low_angle_limit_dbw_m2,
+            reference_label(b.reference_bandwidth_hz)
+        ));
+    }
+    out
 }

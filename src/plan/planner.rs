@@ -151,7 +151,8 @@ impl Planner {
             stations.iter_mut().for_each(|s| s.prepare_weather(w));
         }
         let frequency_hz = stations[0].link.frequency_hz();
-        let pfd = super::pfd::PfdCheck::new(&stations[0].link, &rates, &elements);
+        let pfd =
+            super::pfd::PfdCheck::new(&stations[0].link, &rates, &elements, mission.pfd_spectrum());
         Ok(Planner {
             pfd,
             frequency_hz,
@@ -264,6 +265,7 @@ impl Planner {
             rain: self.rain,
             window_start: self.window.start(),
             pfd_band: self.pfd.band,
+            pfd_spectrum: self.pfd.spectrum,
         };
         let work: Vec<(Option<usize>, usize, &Pass)> = found
             .iter()
@@ -389,6 +391,7 @@ impl Planner {
                 &stopped,
             ))
             .chain(summary::sun_note(&passes, &self.stations))
+            .chain(super::pfd::unconfirmed_notes(&self.rates, &self.pfd))
             .collect();
         Plan {
             notes,

@@ -118,7 +118,10 @@ pub fn usable_masks(
         let station_mask = st.configured_min_elevation_deg;
         let own: Vec<&PassPlan> = passes.iter().filter(|p| p.station_index == i).collect();
         for k in 0..rates.ladder.len() {
-            let usable_mask_deg = acc.usable_mask_deg(k, station_mask);
+            // the strict mask by the same rounding rule as the robust one, so robust <= strict
+            let usable_mask_deg = acc
+                .usable_mask_deg(k, f64::NEG_INFINITY)
+                .map(|h| round_up_mask_deg(h).max(station_mask));
             // a rate that never closes has no mask to fail above
             let robust = usable_mask_deg.and(robust_mask(&own, k, share_percent, station_mask));
             rows.push(UsableMask {
@@ -136,15 +139,28 @@ pub fn usable_masks(
     rows
 }
 
-/// The resolution of the robust mask, deg.
+/// The resolution of both usable masks (strict and robust), deg.
 pub const ROBUST_MASK_STEP_DEG: f64 = 0.1;
+
+/// The one rounding rule of the usable masks: an elevation rounded up to
+/// [`ROBUST_MASK_STEP_DEG`] (a mask is a bound the rate closes above, so it rounds up). Applied to
+/// the strict mask (the highest step of any pass where the rate does not count) and the robust one
+/// (a quantile of the same per-pass elevations, never above their maximum), it keeps
+/// robust <= strict. The 1e-9 step guard keeps an elevation already on the grid (14.8 computed as
+/// 14.800000000000001) from moving up a step.
+pub fn round_up_mask_deg(elevation_deg: f64) -> f64 {
+    let steps = (elevation_deg / ROBUST_MASK_STEP_DEG - 1e-9).ceil();
+    // whole tenths, then back to degrees with one division (no accumulated error)
+    steps / (1.0 / ROBUST_MASK_STEP_DEG)
+}
 
 /// The robust mask of ladder option `k` over one station's passes and the passes failing above
 /// it; `None` without passes. A pass fails above elevation M when its highest step where the
 /// rate does not count lies above M; the robust mask is the lowest M (not below the station's
-/// mask) that at least `share_percent` % of the passes do not fail above, rounded up to
-/// [`ROBUST_MASK_STEP_DEG`] (so a pass that opens the rate a hundredth of a degree above its
-/// neighbours is not listed as failing).
+/// mask) that at least `share_percent` % of the passes do not fail above, rounded up by
+/// [`round_up_mask_deg`] (so a pass that opens the rate a hundredth of a degree above its
+/// neighbours is not listed as failing). A pass fails when its elevation, rounded by the same
+/// rule, lies above the mask: with the robust mask equal to the strict one, no pass fails.
 fn robust_mask(
     passes: &[&PassPlan],
     k: usize,
@@ -164,13 +180,12 @@ fn robust_mask(
         .ceil()
         .max(1.0) as usize;
     let quantile = highest[need.min(highest.len()) - 1];
-    let mask_deg =
-        ((quantile / ROBUST_MASK_STEP_DEG).ceil() * ROBUST_MASK_STEP_DEG).max(station_mask_deg);
+    let mask_deg = round_up_mask_deg(quantile).max(station_mask_deg);
     let failures = passes
         .iter()
         .filter_map(|p| {
             let step = p.mask.highest_open_step[k]?;
-            (step.elevation_deg > mask_deg).then_some(MaskFailure {
+            (round_up_mask_deg(step.elevation_deg) > mask_deg).then_some(MaskFailure {
                 pass_number: p.number,
                 station_index: p.station_index,
                 time: crate::timefmt::add_seconds(&p.pass.aos, step.t_s),
@@ -284,4 +299,28 @@ pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String
         name(p),
         p.bodies.max_sun_noise_k
     ))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::round_up_mask_deg;
+
+    /// The one rounding rule of the usable masks: up to the next 0.1 deg, an elevation already on
+    /// the grid unchanged (also when computed with floating-point noise).
+    #[test]
+    fn masks_round_up_to_a_tenth() {
+        for (el, want) in [
+            (14.81, 14.9),
+            (14.8, 14.8),
+            (14.8 + 2e-15, 14.8),
+            (14.8 - 2e-15, 14.8),
+            (5.76, 5.8),
+            (12.87, 12.9),
+            (0.0, 0.0),
+            (-0.04, 0.0),
+        ] {
+            assert_eq!(round_up_mask_deg(el), want, "{el}");
+        }
+        assert_eq!(round_up_mask_deg(f64::NEG_INFINITY), f64::NEG_INFINITY);
+    }
 }

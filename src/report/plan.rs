@@ -523,7 +523,8 @@ impl RateOptionRow {
             framing_efficiency: round(op.framing_efficiency, 6),
             mode,
             occupied_bandwidth_hz: o.occupied_bandwidth_hz.round(),
-            rate_bps: o.rate_bps,
+            // whole bit/s: an adaptive option's rate is symbol rate x efficiency (128249999.99999999)
+            rate_bps: o.rate_bps.round(),
             required_ebn0_db: o.required_ebn0_db,
             scheme: o.scheme.clone(),
             symbol_rate_baud: round(spec.symbol_rate_baud(), 1),
@@ -541,7 +542,13 @@ pub const CAUTION: &str = "Planning estimates only, not for safety-of-life decis
 /// alphabetical order (the order the summary has always had).
 #[derive(Debug, Clone, Serialize)]
 pub struct Assumptions {
-    pub adaptive: &'static str,
+    pub adaptive: String,
+    /// The adaptive mode's switching as used (given in the mission file or the default): the extra
+    /// margin before it switches up, dB; the seconds lost at each change; whether the ladder's
+    /// rates are in its set.
+    pub adaptive_hysteresis_db: f64,
+    pub adaptive_relock_s: f64,
+    pub adaptive_with_ladder: bool,
     pub availability_case: Option<String>,
     pub caution: &'static str,
     pub clear_sky: &'static str,
@@ -592,8 +599,12 @@ impl Assumptions {
             .zip(&rates.adaptive_specs)
             .map(|(o, s)| RateOptionRow::new("adaptive", o, s));
         let exceedance_percent = planner.exceedance_percent();
+        let block = mission.modem.as_ref().and_then(|m| m.adaptive.as_ref());
         Assumptions {
-            adaptive: "at each step the highest-rate option (ladder rates and adaptive schemes) whose run of at least min_dwell_s covers the step",
+            adaptive: adaptive_rule(block.is_some()),
+            adaptive_hysteresis_db: rates.hysteresis_db,
+            adaptive_relock_s: rates.relock_s,
+            adaptive_with_ladder: block.is_none_or(|a| a.with_ladder),
             availability_case: exceedance_percent.map(|x| format!("rain attenuation exceeded {x} % of an average year applied to every pass (P.618-14), with the cloud liquid water of climate.cloud_liquid_exceedance_kg_m2; planning figure for {:.3} % availability", 100.0 - x)),
             caution: CAUTION,
             clear_sky: "gases (ITU-R P.676-12) and clouds (ITU-R P.840-9) of climate.cloud_liquid_clear_kg_m2; no rain, no scintillation fade",
@@ -616,6 +627,17 @@ impl Assumptions {
             window_start: format_ms(&plan.window.start()),
         }
     }
+}
+
+/// The adaptive mode's rule in words (`assumptions.adaptive`): one waveform switching with
+/// hysteresis and a re-lock time ([`crate::plan::rate`]), its figures in the fields beside it.
+fn adaptive_rule(has_block: bool) -> String {
+    let set = if has_block {
+        "one waveform: the modem.adaptive schemes at its symbol rate (and the ladder's rates only with adaptive_with_ladder)"
+    } else {
+        "no modem.adaptive block: the ladder's rates as one modem"
+    };
+    format!("{set}; the link is up on the runs of at least min_dwell_s of its lowest-threshold option; within a run it steps down at once when its scheme stops closing and up only where a higher-rate scheme closes with adaptive_hysteresis_db to spare, losing adaptive_relock_s at each change; adaptive >= fixed holds by construction only with the ladder in the set, hysteresis 0 and re-lock 0")
 }
 
 /// The whole plan summary (`summary.json`, `plan --format json`).
@@ -648,7 +670,7 @@ pub struct PfdBlock {
     /// How the limit's row is known.
     pub limit_status: &'static str,
     pub altitude_km: f64,
-    pub method: &'static str,
+    pub method: String,
     pub caution: &'static str,
     pub options: Vec<PfdOptionRow>,
 }
@@ -668,6 +690,15 @@ pub struct PfdOptionRow {
     pub limit_dbw_m2: f64,
 }
 
+/// How the pfd block was computed, in words; the uniform spectrum's text as it always was.
+fn pfd_method(spectrum: crate::link::pfd::Spectrum) -> String {
+    const WHERE: &str = "at every angle of arrival 0-90 deg (0.1 deg steps) from the perigee altitude of the mean elements over a spherical Earth of 6378.137 km; free space, no atmospheric loss";
+    match spectrum {
+        crate::link::pfd::Spectrum::Uniform => format!("pfd = EIRP(off-nadir) - 10 log10(4 pi d^2) - 10 log10(max(B, B_ref) / B_ref), B the option's occupied bandwidth (spectrum uniform over it), {WHERE}"),
+        s => format!("pfd = EIRP(off-nadir) - 10 log10(4 pi d^2) + 10 log10(share), share the largest part of the power in one B_ref ({}), {WHERE}", s.label()),
+    }
+}
+
 impl PfdBlock {
     pub fn new(planner: &Planner) -> Self {
         let c = planner.pfd();
@@ -681,14 +712,14 @@ impl PfdBlock {
                 None => "no Article 21 Table 21-4 row for this frequency in passbudget's table: not checked",
             },
             altitude_km: round(c.altitude_km, 3),
-            method: "pfd = EIRP(off-nadir) - 10 log10(4 pi d^2) - 10 log10(max(B, B_ref) / B_ref), B the option's occupied bandwidth (spectrum uniform over it), at every angle of arrival 0-90 deg (0.1 deg steps) from the perigee altitude of the mean elements over a spherical Earth of 6378.137 km; free space, no atmospheric loss",
+            method: pfd_method(c.spectrum),
             caution: "Compliance with the Radio Regulations is for the administration to decide; this is a planning estimate.",
             options: c
                 .options
                 .iter()
                 .map(|o| PfdOptionRow {
                     mode: o.mode,
-                    rate_bps: o.rate_bps,
+                    rate_bps: o.rate_bps.round(),
                     scheme: o.scheme.clone(),
                     occupied_bandwidth_hz: o.occupied_bandwidth_hz.round(),
                     worst_margin_db: r4(o.worst.margin_db),

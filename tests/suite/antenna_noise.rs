@@ -369,7 +369,7 @@ fn station_noise_keys_are_checked_with_their_line() {
     for (table, want) in [
         (
             "  measured_noise_temperature_k: [[10, 60], [5, 80]]\n",
-            "measured_noise_temperature_k point 2",
+            "measured_noise_temperature_k[1]",
         ),
         (
             "  measured_noise_temperature_k: [[0, 60], [90, 6000]]\n",

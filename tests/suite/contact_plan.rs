@@ -286,7 +286,7 @@ fn bad_fleet_input_names_the_file_line_and_key() {
         (
             "station: Pulau Reka",
             "station: Nowhere",
-            &[":53:", "booking rule 2", "Nowhere"],
+            &[":53:", "booking[1]", "Nowhere"],
         ),
         (
             "end: 2026-12-03T18:00:00Z",

@@ -2,7 +2,7 @@
 //! Regulations' Article 21 limits, on the shipped example (invented satellite and stations) and on
 //! bad input.
 
-use crate::common::bin::{clean_error, json, root, run, write};
+use crate::common::bin::{clean_error, json, root, run, success, write};
 use passbudget::geometry::mount::keyhole_seconds_closed_form;
 use passbudget::orbit::Propagator;
 
@@ -355,4 +355,189 @@ fn ka_row_against_47_cfr_25_208_p() {
     let status = d["pfd_limit_status"].as_str().unwrap();
     assert!(status.contains("47 CFR 25.208(p)"), "{status}");
     assert!(!status.contains("from memory"), "{status}");
+}
+
+/// `budget`'s table and CSV carry the pfd as items (the JSON's `pfd_*` fields), with the row's
+/// status in the limit's source; on stdout, so `--quiet` keeps them.
+#[test]
+fn budget_table_and_csv_carry_the_pfd() {
+    let args = |format: &str| {
+        run(&[
+            "budget",
+            MISSION,
+            "--station",
+            "nordkam",
+            "--elevation-deg",
+            "20",
+            "--quiet",
+            "--format",
+            format,
+        ])
+    };
+    let d = json(&args("json"));
+    let table = success(&args("table"));
+    for (item, value) in [
+        ("pfd ", format!("{:.2}", d["pfd_dbw_m2"].as_f64().unwrap())),
+        ("pfd reference bandwidth", "4000".to_string()),
+        (
+            "pfd limit",
+            format!("{:.2}", d["pfd_limit_dbw_m2"].as_f64().unwrap()),
+        ),
+        (
+            "pfd margin",
+            format!("{:.2}", d["pfd_margin_db"].as_f64().unwrap()),
+        ),
+    ] {
+        let line = table
+            .lines()
+            .find(|l| l.starts_with(item))
+            .unwrap_or_else(|| panic!("{item}: {table}"));
+        assert!(line.contains(&value), "{line} vs {value}");
+    }
+    let limit_line = table.lines().find(|l| l.starts_with("pfd limit")).unwrap();
+    assert!(limit_line.contains("from memory"), "{limit_line}");
+    let csv = success(&args("csv"));
+    for name in [
+        "pfd,",
+        "pfd_reference_bandwidth,",
+        "pfd_limit,",
+        "pfd_margin,",
+    ] {
+        assert!(csv.lines().any(|l| l.starts_with(name)), "{name}: {csv}");
+    }
+}
+
+/// The plan's table shows every rate option's worst pfd margin (the JSON's `pfd.options`), and
+/// the table's notes and the CSV's `#` lines say which values are from memory: one line for the
+/// built-in thresholds (the names grouped) and one for the band's row.
+#[test]
+fn plan_table_and_csv_flag_the_unconfirmed_values() {
+    let d = json(&run(&[
+        "plan", MISSION, "--days", "1", "--quiet", "--format", "json",
+    ]));
+    let o = run(&["plan", MISSION, "--days", "1", "--quiet"]);
+    let table = success(&o);
+    assert!(
+        table.contains("pfd: worst margin per rate option"),
+        "{table}"
+    );
+    for opt in d["pfd"]["options"].as_array().unwrap() {
+        let margin = format!("{:.1}", opt["worst_margin_db"].as_f64().unwrap());
+        let angle = format!("{:.1} deg", opt["worst_arrival_deg"].as_f64().unwrap());
+        let scheme = opt["scheme"].as_str().unwrap();
+        assert!(
+            table.lines().any(|l| l.contains(scheme)
+                && l.contains(&margin)
+                && l.contains(&angle)
+                && l.contains("from memory")),
+            "{opt}: {table}"
+        );
+    }
+    let from_memory: Vec<&str> = table
+        .lines()
+        .filter(|l| l.starts_with("note: from memory"))
+        .collect();
+    assert_eq!(from_memory.len(), 2, "{table}");
+    assert!(
+        from_memory[0].contains("ccsds-rs-cc, ccsds-ldpc-r7/8"),
+        "{table}"
+    );
+    assert!(from_memory[1].contains("8025-8500 MHz"), "{table}");
+    // quiet: nothing on stderr, the table keeps them
+    assert!(
+        o.stderr.is_empty(),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    let csv = success(&run(&[
+        "plan", MISSION, "--days", "1", "--quiet", "--format", "csv",
+    ]));
+    let comments: Vec<&str> = csv.lines().filter(|l| l.starts_with('#')).collect();
+    assert_eq!(
+        comments
+            .iter()
+            .filter(|l| l.contains("from memory:"))
+            .count(),
+        2,
+        "{csv}"
+    );
+    // and the JSON's warnings
+    let warnings = d["assumptions"]["warnings"].to_string();
+    assert!(
+        warnings.contains("from memory: the required Eb/N0"),
+        "{warnings}"
+    );
+}
+
+/// `pfd.spectrum: raised-cosine` (the raised-cosine spectrum of the modem's roll-off; Proakis,
+/// Digital Communications, the raised-cosine spectrum, from memory): with a 4 kHz reference far
+/// narrower than every option's symbol rate, the density in B_ref is P / Rs instead of
+/// P / (Rs (1 + α)), so every worst margin drops by 10 log10(1 + 0.35) = 1.3033 dB (the
+/// example's roll-off, the default 0.35) and the budget's pfd rises by as much. A wrong value is
+/// refused with the file, line and key.
+#[test]
+fn raised_cosine_spectrum_moves_the_pfd_by_the_roll_off() {
+    let plan = |extra: &[&str]| {
+        let mut a = vec![
+            "plan", MISSION, "--days", "1", "--quiet", "--format", "json",
+        ];
+        a.extend_from_slice(extra);
+        json(&run(&a))
+    };
+    let set = ["--set", "pfd.spectrum=raised-cosine"];
+    let (u, r) = (plan(&[]), plan(&set));
+    let step_db = 10.0 * 1.35f64.log10();
+    for (x, y) in u["pfd"]["options"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .zip(r["pfd"]["options"].as_array().unwrap())
+    {
+        let d = x["worst_margin_db"].as_f64().unwrap() - y["worst_margin_db"].as_f64().unwrap();
+        assert!((d - step_db).abs() < 2e-4, "{d}");
+    }
+    assert!(r["pfd"]["method"]
+        .as_str()
+        .unwrap()
+        .contains("raised-cosine"));
+    let budget = |extra: &[&str]| {
+        let mut a = vec![
+            "budget",
+            MISSION,
+            "--station",
+            "nordkam",
+            "--elevation-deg",
+            "20",
+            "--format",
+            "json",
+        ];
+        a.extend_from_slice(extra);
+        json(&run(&a))
+    };
+    let d =
+        budget(&set)["pfd_dbw_m2"].as_f64().unwrap() - budget(&[])["pfd_dbw_m2"].as_f64().unwrap();
+    assert!((d - step_db).abs() < 2e-4, "{d}");
+    // a wrong value: file, line and key
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(root().join(MISSION))
+        .unwrap()
+        .replace(
+            "../stations/",
+            &format!("{}/", root().join("stations").display()),
+        )
+        .replace(
+            "elements: sat.tle",
+            &format!("elements: {}", root().join("examples/sat.tle").display()),
+        )
+        + "pfd:\n  spectrum: gaussian\n";
+    let lines = text.lines().count();
+    let mission = write(dir.path(), "mission.yaml", &text);
+    clean_error(
+        &run(&["plan", &mission, "--days", "1"]),
+        &[
+            &format!("mission.yaml:{lines}:"),
+            "pfd.spectrum",
+            "gaussian",
+        ],
+    );
 }
