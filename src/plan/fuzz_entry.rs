@@ -230,7 +230,7 @@ pub fn plan_violations(plan: &Plan) -> Vec<String> {
             let what = format!("pass {} segment", p.number);
             finite(&mut out, &what, &[s.start_s, s.end_s, s.rate_bps]);
         }
-        for step in p.mask.highest_open_step.iter().flatten() {
+        for step in p.mask.steps() {
             let what = format!("pass {} highest open step", p.number);
             finite(&mut out, &what, &[step.elevation_deg, step.t_s]);
         }

@@ -40,24 +40,60 @@ pub struct MaskAccumulator {
 /// station's ([`super::Plan::station_masks`]): per ladder option, the highest step where the
 /// rate does not count (the robust mask and its failures need it per pass). The bins stay with
 /// the station: a pass's own are 8 bytes x 41 x (options + 1), most of what a pass held.
-#[derive(Debug, Clone, PartialEq, Default)]
+#[derive(Debug, Clone, Default)]
 pub struct PassMask {
-    /// Per ladder option; `None` when the rate counts on every step of the pass.
-    pub highest_open_step: Box<[Option<OpenStep>]>,
+    /// Per ladder option; a NaN elevation where the rate counts on every step of the pass. The
+    /// accumulator never keeps a NaN elevation (no comparison lets one in), so NaN is free to
+    /// mark "none": 24 bytes an option instead of an `Option`'s 32.
+    open: Box<[OpenStep]>,
 }
+
+/// The mark of "no open step" in a [`PassMask`].
+const NO_STEP: OpenStep = OpenStep {
+    elevation_deg: f64::NAN,
+    t_s: f64::NAN,
+    margin_db: f64::NAN,
+};
 
 impl PassMask {
     /// The part of a pass's accumulator the pass keeps.
     pub fn of(acc: &MaskAccumulator) -> PassMask {
         PassMask {
-            highest_open_step: acc.highest_open_step.clone().into_boxed_slice(),
+            open: acc
+                .highest_open_step
+                .iter()
+                .map(|s| s.unwrap_or(NO_STEP))
+                .collect(),
         }
+    }
+
+    /// The highest step where option `k` does not count; `None` when it counts on every step.
+    pub fn step(&self, k: usize) -> Option<OpenStep> {
+        let s = self.open[k];
+        (!s.elevation_deg.is_nan()).then_some(s)
+    }
+
+    /// The open steps of the options that have one, in ladder order.
+    pub fn steps(&self) -> impl Iterator<Item = OpenStep> + '_ {
+        (0..self.open.len()).filter_map(|k| self.step(k))
+    }
+
+    /// Replace option `k`'s step (`None`, or a step of NaN elevation: the rate counts on every step).
+    pub fn set_step(&mut self, k: usize, step: Option<OpenStep>) {
+        self.open[k] = step.unwrap_or(NO_STEP);
     }
 
     /// The elevation of the highest step where option `k` does not count, deg; -inf when it
     /// counts on every step (as [`MaskAccumulator::highest_open_elevation_deg`]).
     pub fn highest_open_elevation_deg(&self, k: usize) -> f64 {
-        self.highest_open_step[k].map_or(f64::NEG_INFINITY, |s| s.elevation_deg)
+        self.step(k).map_or(f64::NEG_INFINITY, |s| s.elevation_deg)
+    }
+}
+
+impl PartialEq for PassMask {
+    fn eq(&self, other: &PassMask) -> bool {
+        self.open.len() == other.open.len()
+            && (0..self.open.len()).all(|k| self.step(k) == other.step(k))
     }
 }
 

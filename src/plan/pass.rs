@@ -263,25 +263,27 @@ fn chosen_segments(
 ) -> Vec<Segment> {
     let rates = planner.rates();
     let offset_s = seconds_between(&planner.window_start, &pass.aos);
-    let mut segments = Vec::new();
     s.runs.clear();
-    if let Some(OptionId(k)) = clear.option {
-        kept_runs(
-            &s.cn0,
-            &s.weights,
-            rates.ladder[k].threshold_cn0_dbhz,
-            rates.min_dwell_s,
-            &mut s.runs,
-        );
-        for &(a, b) in &s.runs {
-            segments.push(Segment {
-                start_s: offset_s + s.steps[a].t_s,
-                end_s: offset_s + s.steps[b].t_s + s.steps[b].weight_s,
-                rate_bps: rates.ladder[k].rate_bps,
-            });
-        }
-    }
-    segments
+    let Some(OptionId(k)) = clear.option else {
+        return Vec::new();
+    };
+    kept_runs(
+        &s.cn0,
+        &s.weights,
+        rates.ladder[k].threshold_cn0_dbhz,
+        rates.min_dwell_s,
+        &mut s.runs,
+    );
+    // Collected from an exact-size iterator, so allocated to the runs' count (a pushed vector
+    // starts at four segments, and most passes have one: the pass keeps these to the end).
+    s.runs
+        .iter()
+        .map(|&(a, b)| Segment {
+            start_s: offset_s + s.steps[a].t_s,
+            end_s: offset_s + s.steps[b].t_s + s.steps[b].weight_s,
+            rate_bps: rates.ladder[k].rate_bps,
+        })
+        .collect()
 }
 
 /// Where the mount loses the satellite, a stretch of tracked steps shorter than the dwell time
@@ -462,7 +464,7 @@ fn mode_result(
         adaptive_volume_bits,
         adaptive_switches: switch_count(schedule),
         shannon_volume_bits: shannon_volume_bits(cn0, weights, rates.shannon_bandwidth_hz),
-        volume_by_rate_bits: fixed.volume_by_option_bits,
+        volume_by_rate_bits: fixed.volume_by_option_bits.into_boxed_slice(),
     }
 }
 

@@ -47,7 +47,7 @@ pub struct ModeResult {
     pub adaptive_switches: usize,
     pub shannon_volume_bits: f64,
     /// Volume each ladder rate would bring in this pass, bits.
-    pub volume_by_rate_bits: Vec<f64>,
+    pub volume_by_rate_bits: Box<[f64]>,
 }
 
 /// The plan of one pass.

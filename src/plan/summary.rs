@@ -169,7 +169,7 @@ fn robust_mask(
     let failures = passes
         .iter()
         .filter_map(|p| {
-            let step = p.mask.highest_open_step[k]?;
+            let step = p.mask.step(k)?;
             (step.elevation_deg > mask_deg).then_some(MaskFailure {
                 pass_number: p.number,
                 station_index: p.station_index,
