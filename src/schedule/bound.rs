@@ -223,6 +223,30 @@ fn storage_rows(problem: &Problem, spans: Spans, l: &Layout, scale: f64, rows: &
     col
 }
 
+/// The rows (equalities first) as clarabel's `A` with `n` columns, and the right-hand side.
+/// The rows are consumed and the triplets sized once: this and the solver's copies are the
+/// largest memory of a plan that solves its LP (about 8 MB at `LP_MAX_VARIABLES`).
+fn constraint_matrix(rows: Rows, n: usize) -> (CscMatrix<f64>, Vec<f64>) {
+    let all = || rows.eq.iter().chain(&rows.le);
+    let entries: usize = all().map(|r| r.0.len()).sum();
+    let (mut ii, mut jj, mut vv) = (
+        Vec::with_capacity(entries),
+        Vec::with_capacity(entries),
+        Vec::with_capacity(entries),
+    );
+    let mut b = Vec::with_capacity(rows.eq.len() + rows.le.len());
+    for (r, (row, rhs)) in all().enumerate() {
+        for &(col, v) in row {
+            ii.push(r);
+            jj.push(col);
+            vv.push(v);
+        }
+        b.push(*rhs);
+    }
+    drop(rows);
+    (CscMatrix::new_from_triplets(b.len(), n, ii, jj, vv), b)
+}
+
 /// The LP relaxation's optimum (plus [`LP_MARGIN`]), or `None` if the solver does not
 /// report a solution.
 pub(crate) fn linear_program(problem: &Problem, spans: Spans, weights: &[f64]) -> Option<f64> {
@@ -245,24 +269,17 @@ pub(crate) fn linear_program(problem: &Problem, spans: Spans, weights: &[f64]) -
             q[col + j - j0] = -w * (l.points[j + 1] - l.points[j]);
         }
     }
-    let (mut ii, mut jj, mut vv, mut b) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());
-    for (r, (row, rhs)) in rows.eq.iter().chain(&rows.le).enumerate() {
-        for &(col, v) in row {
-            ii.push(r);
-            jj.push(col);
-            vv.push(v);
-        }
-        b.push(*rhs);
-    }
-    let a = CscMatrix::new_from_triplets(b.len(), n, ii, jj, vv);
+    let (eq_rows, le_rows) = (rows.eq.len(), rows.le.len());
+    let (a, b) = constraint_matrix(rows, n);
     let p = CscMatrix::<f64>::zeros((n, n));
-    let cones: Vec<SupportedConeT<f64>> =
-        vec![ZeroConeT(rows.eq.len()), NonnegativeConeT(rows.le.len())];
+    let cones: Vec<SupportedConeT<f64>> = vec![ZeroConeT(eq_rows), NonnegativeConeT(le_rows)];
     let settings = DefaultSettingsBuilder::default()
         .verbose(false)
         .build()
         .ok()?;
     let mut solver = DefaultSolver::new(&p, &q, &a, &b, &cones, settings).ok()?;
+    // The solver keeps its own (scaled) copies: ours go before it factors.
+    drop((a, b, p, q));
     solver.solve();
     let sol = &solver.solution;
     if !matches!(
