@@ -39,7 +39,10 @@ fn q_of(problem: &Problem, c: usize) -> f64 {
 /// Steps `(from_s, f(values of the intervals active))` over time; `items` are
 /// `(lo, hi, value)`. The last step (value 0) starts at the last end.
 fn steps(items: &[(f64, f64, f64)], f: impl Fn(&mut Vec<f64>) -> f64) -> Vec<(f64, f64)> {
-    let mut points: Vec<f64> = items.iter().flat_map(|i| [i.0, i.1]).collect();
+    // Sized once (a flattened iterator would grow it by doubling; a year's candidates are the
+    // scheduler's peak here).
+    let mut points: Vec<f64> = Vec::with_capacity(2 * items.len());
+    points.extend(items.iter().flat_map(|i| [i.0, i.1]));
     points.sort_by(f64::total_cmp);
     points.dedup();
     let mut order: Vec<usize> = (0..items.len()).collect();
@@ -95,6 +98,7 @@ pub(crate) fn combinatorial(problem: &Problem, spans: Spans, weights: &[f64]) ->
             weights[s] * st.delivered_bits
         })
         .sum();
+    drop(by_sat);
     let antenna_side: f64 = by_antenna
         .iter()
         .map(|items| integral(&steps(items, |v| v.iter().copied().fold(0.0, f64::max))))
