@@ -307,11 +307,6 @@ fn mode(out: &mut Vec<String>, what: &str, m: &ModeResult, dominates: bool) {
         m.shannon_volume_bits,
     ];
     finite(out, what, &values);
-    finite(
-        out,
-        &format!("{what} volume by rate"),
-        &m.volume_by_rate_bits,
-    );
     if let Some(c) = &m.closing {
         let angles = [
             c.from.elevation_deg,

@@ -4,7 +4,7 @@ use super::inputs::{
     element_age_warning, load_satellite, propagation_stop, selection_note, PropagationStop,
 };
 use super::mask::MaskAccumulator;
-use super::pass::{plan_pass, tradeoff_pass, PassContext, Scratch};
+use super::pass::{plan_pass, tradeoff_pass, PassContext, Planned, Scratch};
 use super::prepare::{
     availability_weather, rate_set, station_model_reusing, RateSet, StationModel,
 };
@@ -274,6 +274,8 @@ impl Planner {
         let mut passes = Vec::with_capacity(total);
         let mut station_masks = self.empty_masks();
         let mut tradeoff = self.tradeoff_masks.as_ref().map(|_| self.empty_masks());
+        // Per ladder rate, the clear-sky volume over the passes (an empty sum is -0.0, as `sum`'s).
+        let mut by_rate = vec![-0.0; self.rates.ladder.len()];
         // In chunks: a chunk's passes are planned in parallel, then merged in pass order (the
         // same order, so the same sums, as merging them all at the end), so that what a pass
         // holds only until it is merged (its elevation bins) does not pile up with the window.
@@ -285,7 +287,7 @@ impl Planner {
                     |scratch, &(number, si, pass)| match number {
                         Some(n) => {
                             let r = plan_pass(&ctx, n, si, pass, scratch, sink)
-                                .map(|(p, m)| Item::Planned(Box::new((p, m))));
+                                .map(|p| Item::Planned(Box::new(p)));
                             sink.progress(total);
                             r
                         }
@@ -297,9 +299,17 @@ impl Planner {
             for r in results {
                 match r? {
                     Item::Planned(p) => {
-                        let (p, m) = *p;
-                        station_masks[p.station_index].merge(&m);
-                        passes.push(p);
+                        let Planned {
+                            plan,
+                            mask,
+                            volume_by_rate_bits,
+                        } = *p;
+                        station_masks[plan.station_index].merge(&mask);
+                        // In pass order: the same sums as summing over the passes at the end.
+                        for (sum, v) in by_rate.iter_mut().zip(volume_by_rate_bits) {
+                            *sum += v;
+                        }
+                        passes.push(plan);
                     }
                     Item::Tradeoff(si, m) => {
                         if let Some(t) = tradeoff.as_mut() {
@@ -310,7 +320,8 @@ impl Planner {
             }
         }
         let masks = (station_masks, tradeoff);
-        Ok(self.finish(passes, stopped, stop, propagations_search, masks))
+        let found = (passes, &by_rate[..]);
+        Ok(self.finish(found, stopped, stop, propagations_search, masks))
     }
 
     fn empty_masks(&self) -> Vec<MaskAccumulator> {
@@ -349,7 +360,7 @@ impl Planner {
 
     fn finish(
         &self,
-        passes: Vec<PassPlan>,
+        (passes, by_rate): (Vec<PassPlan>, &[f64]),
         stopped: Vec<Option<PropagationError>>,
         stop: Option<PropagationStop>,
         propagations_search: u64,
@@ -366,7 +377,7 @@ impl Planner {
         };
         let totals = summary::totals(
             &passes,
-            &self.rates,
+            by_rate,
             self.rain.is_some(),
             network,
             self.window.days(),
@@ -471,6 +482,6 @@ impl Planner {
 const WORK_CHUNK: usize = 256;
 
 enum Item {
-    Planned(Box<(PassPlan, MaskAccumulator)>),
+    Planned(Box<Planned>),
     Tradeoff(usize, Box<MaskAccumulator>),
 }

@@ -46,8 +46,6 @@ pub struct ModeResult {
     pub adaptive_volume_bits: f64,
     pub adaptive_switches: usize,
     pub shannon_volume_bits: f64,
-    /// Volume each ladder rate would bring in this pass, bits.
-    pub volume_by_rate_bits: Box<[f64]>,
 }
 
 /// The plan of one pass.

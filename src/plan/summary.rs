@@ -26,17 +26,17 @@ fn sum_mode(passes: &[PassPlan], f: impl Fn(&ModeResult) -> f64, rain: bool) -> 
         + 0.0 // an empty sum is -0.0; report 0
 }
 
-/// Totals over the window.
+/// Totals over the window; `by_rate` is each ladder rate's clear-sky volume summed over the
+/// passes (in ladder order), bits.
 pub fn totals(
     p: &[PassPlan],
-    rates: &RateSet,
+    by_rate: &[f64],
     rain_planned: bool,
     network: NetworkTotal,
     days: f64,
 ) -> Totals {
     let mut single: Option<(OptionId, f64)> = None;
-    for k in 0..rates.ladder.len() {
-        let v: f64 = p.iter().map(|x| x.clear.volume_by_rate_bits[k]).sum();
+    for (k, &v) in by_rate.iter().enumerate() {
         if v > 0.0 && single.is_none_or(|(_, b)| v > b) {
             single = Some((OptionId(k), v));
         }
