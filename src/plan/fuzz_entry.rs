@@ -230,10 +230,6 @@ pub fn plan_violations(plan: &Plan) -> Vec<String> {
             let what = format!("pass {} segment", p.number);
             finite(&mut out, &what, &[s.start_s, s.end_s, s.rate_bps]);
         }
-        for step in p.mask.steps() {
-            let what = format!("pass {} highest open step", p.number);
-            finite(&mut out, &what, &[step.elevation_deg, step.t_s]);
-        }
     }
     totals(&mut out, plan);
     for m in plan
@@ -247,6 +243,10 @@ pub fn plan_violations(plan: &Plan) -> Vec<String> {
         let what = format!("usable mask of station {}", u.station_index);
         finite(&mut out, &what, &[u.station_mask_deg]);
         finite(&mut out, &what, u.usable_mask_deg.as_slice());
+        for f in &u.failures {
+            let what = format!("pass {} highest open step", f.pass_number);
+            finite(&mut out, &what, &[f.step.elevation_deg, f.step.t_s]);
+        }
     }
     out
 }

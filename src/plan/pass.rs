@@ -237,7 +237,6 @@ pub(super) fn plan_pass<S: PassSink>(
         clear,
         rain,
         segments,
-        mask: super::mask::PassMask::of(&mask),
         warnings,
         steps: s.steps.len(),
         bodies: BodyExposure::over(&s.steps),
@@ -261,8 +260,9 @@ pub(super) fn plan_pass<S: PassSink>(
 }
 
 /// A planned pass with what the run merges and then drops: its elevation bins (into the
-/// station's [`MaskAccumulator`]) and the volume each ladder rate would bring in it (into the
-/// per-rate sums that choose [`super::Totals::single_rate`]), so that a pass keeps neither.
+/// station's [`MaskAccumulator`]; its highest open steps into [`super::mask::OpenSteps`]) and
+/// the volume each ladder rate would bring in it (into the per-rate sums that choose
+/// [`super::Totals::single_rate`]), so that a pass keeps none of them.
 pub(super) struct Planned {
     pub plan: PassPlan,
     pub mask: MaskAccumulator,

@@ -3,7 +3,7 @@
 use super::inputs::{
     element_age_warning, load_satellite, propagation_stop, selection_note, PropagationStop,
 };
-use super::mask::MaskAccumulator;
+use super::mask::{MaskAccumulator, OpenSteps};
 use super::pass::{plan_pass, tradeoff_pass, PassContext, Planned, Scratch};
 use super::prepare::{
     availability_weather, rate_set, station_model_reusing, RateSet, StationModel,
@@ -276,6 +276,7 @@ impl Planner {
         let mut tradeoff = self.tradeoff_masks.as_ref().map(|_| self.empty_masks());
         // Per ladder rate, the clear-sky volume over the passes (an empty sum is -0.0, as `sum`'s).
         let mut by_rate = vec![-0.0; self.rates.ladder.len()];
+        let mut open = OpenSteps::with_capacity(self.rates.ladder.len(), total);
         // In chunks: a chunk's passes are planned in parallel, then merged in pass order (the
         // same order, so the same sums, as merging them all at the end), so that what a pass
         // holds only until it is merged (its elevation bins) does not pile up with the window.
@@ -305,6 +306,7 @@ impl Planner {
                             volume_by_rate_bits,
                         } = *p;
                         station_masks[plan.station_index].merge(&mask);
+                        open.push(&mask);
                         // In pass order: the same sums as summing over the passes at the end.
                         for (sum, v) in by_rate.iter_mut().zip(volume_by_rate_bits) {
                             *sum += v;
@@ -320,7 +322,7 @@ impl Planner {
             }
         }
         let masks = (station_masks, tradeoff);
-        let found = (passes, &by_rate[..]);
+        let found = (passes, &by_rate[..], open);
         Ok(self.finish(found, stopped, stop, propagations_search, masks))
     }
 
@@ -360,7 +362,7 @@ impl Planner {
 
     fn finish(
         &self,
-        (passes, by_rate): (Vec<PassPlan>, &[f64]),
+        (passes, by_rate, open): (Vec<PassPlan>, &[f64], OpenSteps),
         stopped: Vec<Option<PropagationError>>,
         stop: Option<PropagationStop>,
         propagations_search: u64,
@@ -385,7 +387,7 @@ impl Planner {
         let days = summary::days(&passes, &self.window, self.rain.is_some());
         let usable_masks = summary::usable_masks(
             &station_masks,
-            &passes,
+            (&passes, &open),
             &self.stations,
             &self.rates,
             self.mission.mask_share_percent,

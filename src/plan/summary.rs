@@ -1,7 +1,7 @@
 //! What a plan adds up to: totals over the window, per UTC day, the usable mask per station and
 //! rate, and the mask trade-off, computed from the passes. Typed and unrounded.
 
-use super::mask::{MaskAccumulator, MAX_MASK_DEG};
+use super::mask::{MaskAccumulator, OpenSteps, MAX_MASK_DEG};
 use super::prepare::{RateSet, StationModel};
 use super::rate::OptionId;
 use super::results::{
@@ -102,12 +102,12 @@ pub fn days(p: &[PassPlan], window: &Window, rain_planned: bool) -> Vec<DayTotal
 }
 
 /// Usable masks per station and ladder rate, from the per-station mask accumulators: the strict
-/// mask (the rate closes on every pass above it) and, from `passes` (the planned passes, each
-/// with its own accumulator), the robust mask: the lowest elevation above which the rate closes
+/// mask (the rate closes on every pass above it) and, from `passes` (the planned passes, with
+/// their highest open steps in the same order), the robust mask: the lowest elevation above which the rate closes
 /// on at least `share_percent` % of the station's passes, with the passes that fail above it.
 pub fn usable_masks(
     masks: &[MaskAccumulator],
-    passes: &[PassPlan],
+    (passes, open): (&[PassPlan], &OpenSteps),
     stations: &[StationModel],
     rates: &RateSet,
     share_percent: f64,
@@ -116,11 +116,20 @@ pub fn usable_masks(
     for (i, st) in stations.iter().enumerate() {
         let acc = &masks[i];
         let station_mask = st.configured_min_elevation_deg;
-        let own: Vec<&PassPlan> = passes.iter().filter(|p| p.station_index == i).collect();
+        let own: Vec<(usize, &PassPlan)> = passes
+            .iter()
+            .enumerate()
+            .filter(|(_, p)| p.station_index == i)
+            .collect();
         for k in 0..rates.ladder.len() {
             let usable_mask_deg = acc.usable_mask_deg(k, station_mask);
             // a rate that never closes has no mask to fail above
-            let robust = usable_mask_deg.and(robust_mask(&own, k, share_percent, station_mask));
+            let robust = usable_mask_deg.and(robust_mask(
+                (&own, open),
+                k,
+                share_percent,
+                station_mask,
+            ));
             rows.push(UsableMask {
                 station_index: i,
                 option: OptionId(k),
@@ -146,7 +155,7 @@ pub const ROBUST_MASK_STEP_DEG: f64 = 0.1;
 /// [`ROBUST_MASK_STEP_DEG`] (so a pass that opens the rate a hundredth of a degree above its
 /// neighbours is not listed as failing).
 fn robust_mask(
-    passes: &[&PassPlan],
+    (passes, open): (&[(usize, &PassPlan)], &OpenSteps),
     k: usize,
     share_percent: f64,
     station_mask_deg: f64,
@@ -156,7 +165,7 @@ fn robust_mask(
     }
     let mut highest: Vec<f64> = passes
         .iter()
-        .map(|p| p.mask.highest_open_elevation_deg(k))
+        .map(|&(j, _)| open.highest_open_elevation_deg(j, k))
         .collect();
     highest.sort_by(f64::total_cmp);
     // the smallest count of passes that makes the share, at least one
@@ -168,8 +177,8 @@ fn robust_mask(
         ((quantile / ROBUST_MASK_STEP_DEG).ceil() * ROBUST_MASK_STEP_DEG).max(station_mask_deg);
     let failures = passes
         .iter()
-        .filter_map(|p| {
-            let step = p.mask.step(k)?;
+        .filter_map(|&(j, p)| {
+            let step = open.step(j, k)?;
             (step.elevation_deg > mask_deg).then_some(MaskFailure {
                 pass_number: p.number,
                 station_index: p.station_index,
