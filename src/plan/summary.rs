@@ -103,8 +103,9 @@ pub fn days(p: &[PassPlan], window: &Window, rain_planned: bool) -> Vec<DayTotal
 
 /// Usable masks per station and ladder rate, from the per-station mask accumulators: the strict
 /// mask (the rate closes on every pass above it) and, from `passes` (the planned passes, with
-/// their highest open steps in the same order), the robust mask: the lowest elevation above which the rate closes
-/// on at least `share_percent` % of the station's passes, with the passes that fail above it.
+/// their highest open steps in the same order), the robust mask: the lowest elevation above
+/// which the rate closes on at least `share_percent` % of the station's passes, with the passes
+/// that fail above it.
 pub fn usable_masks(
     masks: &[MaskAccumulator],
     (passes, open): (&[PassPlan], &OpenSteps),
@@ -124,12 +125,8 @@ pub fn usable_masks(
         for k in 0..rates.ladder.len() {
             let usable_mask_deg = acc.usable_mask_deg(k, station_mask);
             // a rate that never closes has no mask to fail above
-            let robust = usable_mask_deg.and(robust_mask(
-                (&own, open),
-                k,
-                share_percent,
-                station_mask,
-            ));
+            let robust =
+                usable_mask_deg.and(robust_mask((&own, open), k, share_percent, station_mask));
             rows.push(UsableMask {
                 station_index: i,
                 option: OptionId(k),

@@ -229,7 +229,8 @@ fn storage_rows(problem: &Problem, spans: Spans, l: &Layout, scale: f64, rows: &
 
 /// The rows (equalities first) as clarabel's `A` with `n` columns, and the right-hand side.
 /// The rows are consumed and the triplets sized once: this and the solver's copies are the
-/// largest memory of a plan that solves its LP (about 8 MB at `LP_MAX_VARIABLES`).
+/// largest memory of a plan that solves its LP (with clarabel's own, about 10 MB at
+/// `LP_MAX_VARIABLES`).
 fn constraint_matrix(rows: Rows, n: usize) -> (CscMatrix<f64>, Vec<f64>) {
     let all = || rows.eq.iter().chain(&rows.le);
     let entries: usize = all().map(|r| r.0.len()).sum();
