@@ -230,10 +230,6 @@ pub fn plan_violations(plan: &Plan) -> Vec<String> {
             let what = format!("pass {} segment", p.number);
             finite(&mut out, &what, &[s.start_s, s.end_s, s.rate_bps]);
         }
-        for step in p.mask.highest_open_step.iter().flatten() {
-            let what = format!("pass {} highest open step", p.number);
-            finite(&mut out, &what, &[step.elevation_deg, step.t_s]);
-        }
     }
     totals(&mut out, plan);
     for m in plan
@@ -247,6 +243,10 @@ pub fn plan_violations(plan: &Plan) -> Vec<String> {
         let what = format!("usable mask of station {}", u.station_index);
         finite(&mut out, &what, &[u.station_mask_deg]);
         finite(&mut out, &what, u.usable_mask_deg.as_slice());
+        for f in &u.failures {
+            let what = format!("pass {} highest open step", f.pass_number);
+            finite(&mut out, &what, &[f.step.elevation_deg, f.step.t_s]);
+        }
     }
     out
 }
@@ -307,11 +307,6 @@ fn mode(out: &mut Vec<String>, what: &str, m: &ModeResult, dominates: bool) {
         m.shannon_volume_bits,
     ];
     finite(out, what, &values);
-    finite(
-        out,
-        &format!("{what} volume by rate"),
-        &m.volume_by_rate_bits,
-    );
     if let Some(c) = &m.closing {
         let angles = [
             c.from.elevation_deg,

@@ -36,28 +36,55 @@ pub struct MaskAccumulator {
     pub passes: usize,
 }
 
-/// What a planned pass keeps of its [`MaskAccumulator`] once the run has merged it into its
-/// station's ([`super::Plan::station_masks`]): per ladder option, the highest step where the
-/// rate does not count (the robust mask and its failures need it per pass). The bins stay with
-/// the station: a pass's own are 8 bytes x 41 x (options + 1), most of what a pass held.
-#[derive(Debug, Clone, PartialEq, Default)]
-pub struct PassMask {
-    /// Per ladder option; `None` when the rate counts on every step of the pass.
-    pub highest_open_step: Box<[Option<OpenStep>]>,
+/// What the run keeps of each planned pass's [`MaskAccumulator`] once it has merged the pass's
+/// bins into its station's ([`super::Plan::station_masks`]): per pass and ladder option, the
+/// highest step where the rate does not count, which the robust mask and its failures need
+/// ([`super::summary::usable_masks`]). One flat array, pass-major, made during the run and
+/// dropped once the usable masks are made, so the plan does not carry it into the schedule.
+#[derive(Debug, Clone, Default)]
+pub struct OpenSteps {
+    options: usize,
+    /// `options` entries per pass; a NaN elevation where the rate counts on every step of the
+    /// pass. The accumulator never keeps a NaN elevation (no comparison lets one in), so NaN
+    /// is free to mark "none": 24 bytes an entry instead of an `Option`'s 32.
+    open: Vec<OpenStep>,
 }
 
-impl PassMask {
-    /// The part of a pass's accumulator the pass keeps.
-    pub fn of(acc: &MaskAccumulator) -> PassMask {
-        PassMask {
-            highest_open_step: acc.highest_open_step.clone().into_boxed_slice(),
+/// The mark of "no open step" in [`OpenSteps`].
+const NO_STEP: OpenStep = OpenStep {
+    elevation_deg: f64::NAN,
+    t_s: f64::NAN,
+    margin_db: f64::NAN,
+};
+
+impl OpenSteps {
+    /// Room for `passes` passes of `options` ladder options.
+    pub fn with_capacity(options: usize, passes: usize) -> OpenSteps {
+        OpenSteps {
+            options,
+            open: Vec::with_capacity(options * passes),
         }
     }
 
-    /// The elevation of the highest step where option `k` does not count, deg; -inf when it
-    /// counts on every step (as [`MaskAccumulator::highest_open_elevation_deg`]).
-    pub fn highest_open_elevation_deg(&self, k: usize) -> f64 {
-        self.highest_open_step[k].map_or(f64::NEG_INFINITY, |s| s.elevation_deg)
+    /// Add the next pass, from its accumulator.
+    pub fn push(&mut self, acc: &MaskAccumulator) {
+        debug_assert_eq!(acc.highest_open_step.len(), self.options);
+        self.open
+            .extend(acc.highest_open_step.iter().map(|s| s.unwrap_or(NO_STEP)));
+    }
+
+    /// The highest step of pass `pass` (0-based, in the plan's order) where option `k` does not
+    /// count; `None` when it counts on every step.
+    pub fn step(&self, pass: usize, k: usize) -> Option<OpenStep> {
+        let s = self.open[pass * self.options + k];
+        (!s.elevation_deg.is_nan()).then_some(s)
+    }
+
+    /// The elevation of that step, deg; -inf when the option counts on every step (as
+    /// [`MaskAccumulator::highest_open_elevation_deg`]).
+    pub fn highest_open_elevation_deg(&self, pass: usize, k: usize) -> f64 {
+        self.step(pass, k)
+            .map_or(f64::NEG_INFINITY, |s| s.elevation_deg)
     }
 }
 

@@ -186,7 +186,7 @@ pub(super) fn plan_pass<S: PassSink>(
     pass: &Pass,
     s: &mut Scratch,
     sink: &S,
-) -> Result<(PassPlan, MaskAccumulator), PlanError> {
+) -> Result<Planned, PlanError> {
     let mut warnings = s
         .fill(planner, station_index, pass)
         .map_err(|source| PlanError::Pass {
@@ -194,7 +194,7 @@ pub(super) fn plan_pass<S: PassSink>(
             station: planner.stations()[station_index].station.name.clone(),
             source,
         })?;
-    let clear = mode_result(
+    let (clear, volume_by_rate_bits) = mode_result(
         planner,
         pass,
         (&s.steps, &s.cn0, &s.weights),
@@ -210,13 +210,16 @@ pub(super) fn plan_pass<S: PassSink>(
             Some(_) => f64::NEG_INFINITY,
             None => f64::NAN,
         }));
-        Some(mode_result(
-            planner,
-            pass,
-            (&s.steps, &s.rain_cn0, &s.weights),
-            |x| x.rain.map_or(f64::NAN, |r| r.cn0_dbhz),
-            &mut s.rain_schedule,
-        ))
+        Some(
+            mode_result(
+                planner,
+                pass,
+                (&s.steps, &s.rain_cn0, &s.weights),
+                |x| x.rain.map_or(f64::NAN, |r| r.cn0_dbhz),
+                &mut s.rain_schedule,
+            )
+            .0,
+        )
     } else {
         None
     };
@@ -235,7 +238,6 @@ pub(super) fn plan_pass<S: PassSink>(
         clear,
         rain,
         segments,
-        mask: super::mask::PassMask::of(&mask),
         warnings,
         steps: s.steps.len(),
         bodies: BodyExposure::over(&s.steps),
@@ -251,7 +253,22 @@ pub(super) fn plan_pass<S: PassSink>(
         chosen_runs: &s.runs,
     })
     .map_err(|e| PlanError::Sink(Box::new(e)))?;
-    Ok((plan, mask))
+    Ok(Planned {
+        plan,
+        mask,
+        volume_by_rate_bits,
+    })
+}
+
+/// A planned pass with what the run merges and then drops: its elevation bins (into the
+/// station's [`MaskAccumulator`]; its highest open steps into [`super::mask::OpenSteps`]) and
+/// the volume each ladder rate would bring in it (into the per-rate sums that choose
+/// [`super::Totals::single_rate`]), so that a pass keeps none of them.
+pub(super) struct Planned {
+    pub plan: PassPlan,
+    pub mask: MaskAccumulator,
+    /// Per ladder rate, clear sky, bits.
+    pub volume_by_rate_bits: Vec<f64>,
 }
 
 /// The counted runs of the chosen fixed rate (left in `s.runs` for the sink) as network segments,
@@ -264,25 +281,27 @@ fn chosen_segments(
 ) -> Vec<Segment> {
     let rates = planner.rates();
     let offset_s = seconds_between(&planner.window_start, &pass.aos);
-    let mut segments = Vec::new();
     s.runs.clear();
-    if let Some(OptionId(k)) = clear.option {
-        kept_runs(
-            &s.cn0,
-            &s.weights,
-            rates.ladder[k].threshold_cn0_dbhz,
-            rates.min_dwell_s,
-            &mut s.runs,
-        );
-        for &(a, b) in &s.runs {
-            segments.push(Segment {
-                start_s: offset_s + s.steps[a].t_s,
-                end_s: offset_s + s.steps[b].t_s + s.steps[b].weight_s,
-                rate_bps: rates.ladder[k].rate_bps,
-            });
-        }
-    }
-    segments
+    let Some(OptionId(k)) = clear.option else {
+        return Vec::new();
+    };
+    kept_runs(
+        &s.cn0,
+        &s.weights,
+        rates.ladder[k].threshold_cn0_dbhz,
+        rates.min_dwell_s,
+        &mut s.runs,
+    );
+    // Collected from an exact-size iterator, so allocated to the runs' count (a pushed vector
+    // starts at four segments, and most passes have one: the pass keeps these to the end).
+    s.runs
+        .iter()
+        .map(|&(a, b)| Segment {
+            start_s: offset_s + s.steps[a].t_s,
+            end_s: offset_s + s.steps[b].t_s + s.steps[b].weight_s,
+            rate_bps: rates.ladder[k].rate_bps,
+        })
+        .collect()
 }
 
 /// Where the mount loses the satellite, a stretch of tracked steps shorter than the dwell time
@@ -402,14 +421,15 @@ fn closing(
 }
 
 /// The rate choice of one weather case: `cn0` is what the rate decisions see (-inf where the
-/// mount cannot follow), `own_cn0` the step's own C/N0 of this case.
+/// mount cannot follow), `own_cn0` the step's own C/N0 of this case. With it, the volume each
+/// ladder rate would bring in the pass, bits.
 fn mode_result(
     planner: &PassContext,
     pass: &Pass,
     (steps, cn0, weights): (&[Step], &[f64], &[f64]),
     own_cn0: impl Fn(&Step) -> f64,
     schedule: &mut Vec<Option<u16>>,
-) -> ModeResult {
+) -> (ModeResult, Vec<f64>) {
     let rates = planner.rates();
     let fixed = choose_fixed(cn0, weights, &rates.ladder, rates.min_dwell_s);
     let adaptive_volume_bits = adaptive_schedule(
@@ -452,7 +472,7 @@ fn mode_result(
         .filter(|(_, c)| **c > f64::NEG_INFINITY)
         .max_by(|a, b| a.0.elevation_deg.total_cmp(&b.0.elevation_deg))
         .map(|(_, c)| o.margin_db(*c));
-    ModeResult {
+    let mode = ModeResult {
         option: fixed.option.map(OptionId),
         closing,
         min_margin_db,
@@ -463,8 +483,8 @@ fn mode_result(
         adaptive_volume_bits,
         adaptive_switches: switch_count(schedule),
         shannon_volume_bits: shannon_volume_bits(cn0, weights, rates.shannon_bandwidth_hz),
-        volume_by_rate_bits: fixed.volume_by_option_bits,
-    }
+    };
+    (mode, fixed.volume_by_option_bits)
 }
 
 #[cfg(test)]

@@ -3,8 +3,8 @@
 use super::inputs::{
     element_age_warning, load_satellite, propagation_stop, selection_note, PropagationStop,
 };
-use super::mask::MaskAccumulator;
-use super::pass::{plan_pass, tradeoff_pass, PassContext, Scratch};
+use super::mask::{MaskAccumulator, OpenSteps};
+use super::pass::{plan_pass, tradeoff_pass, PassContext, Planned, Scratch};
 use super::prepare::{
     availability_weather, rate_set, station_model_reusing, RateSet, StationModel,
 };
@@ -276,6 +276,9 @@ impl Planner {
         let mut passes = Vec::with_capacity(total);
         let mut station_masks = self.empty_masks();
         let mut tradeoff = self.tradeoff_masks.as_ref().map(|_| self.empty_masks());
+        // Per ladder rate, the clear-sky volume over the passes (an empty sum is -0.0, as `sum`'s).
+        let mut by_rate = vec![-0.0; self.rates.ladder.len()];
+        let mut open = OpenSteps::with_capacity(self.rates.ladder.len(), total);
         // In chunks: a chunk's passes are planned in parallel, then merged in pass order (the
         // same order, so the same sums, as merging them all at the end), so that what a pass
         // holds only until it is merged (its elevation bins) does not pile up with the window.
@@ -287,7 +290,7 @@ impl Planner {
                     |scratch, &(number, si, pass)| match number {
                         Some(n) => {
                             let r = plan_pass(&ctx, n, si, pass, scratch, sink)
-                                .map(|(p, m)| Item::Planned(Box::new((p, m))));
+                                .map(|p| Item::Planned(Box::new(p)));
                             sink.progress(total);
                             r
                         }
@@ -299,9 +302,18 @@ impl Planner {
             for r in results {
                 match r? {
                     Item::Planned(p) => {
-                        let (p, m) = *p;
-                        station_masks[p.station_index].merge(&m);
-                        passes.push(p);
+                        let Planned {
+                            plan,
+                            mask,
+                            volume_by_rate_bits,
+                        } = *p;
+                        station_masks[plan.station_index].merge(&mask);
+                        open.push(&mask);
+                        // In pass order: the same sums as summing over the passes at the end.
+                        for (sum, v) in by_rate.iter_mut().zip(volume_by_rate_bits) {
+                            *sum += v;
+                        }
+                        passes.push(plan);
                     }
                     Item::Tradeoff(si, m) => {
                         if let Some(t) = tradeoff.as_mut() {
@@ -312,7 +324,8 @@ impl Planner {
             }
         }
         let masks = (station_masks, tradeoff);
-        Ok(self.finish(passes, stopped, stop, propagations_search, masks))
+        let found = (passes, &by_rate[..], open);
+        Ok(self.finish(found, stopped, stop, propagations_search, masks))
     }
 
     fn empty_masks(&self) -> Vec<MaskAccumulator> {
@@ -351,7 +364,7 @@ impl Planner {
 
     fn finish(
         &self,
-        passes: Vec<PassPlan>,
+        (passes, by_rate, open): (Vec<PassPlan>, &[f64], OpenSteps),
         stopped: Vec<Option<PropagationError>>,
         stop: Option<PropagationStop>,
         propagations_search: u64,
@@ -368,7 +381,7 @@ impl Planner {
         };
         let totals = summary::totals(
             &passes,
-            &self.rates,
+            by_rate,
             self.rain.is_some(),
             network,
             self.window.days(),
@@ -376,7 +389,7 @@ impl Planner {
         let days = summary::days(&passes, &self.window, self.rain.is_some());
         let usable_masks = summary::usable_masks(
             &station_masks,
-            &passes,
+            (&passes, &open),
             &self.stations,
             &self.rates,
             self.mission.mask_share_percent,
@@ -474,6 +487,6 @@ impl Planner {
 const WORK_CHUNK: usize = 256;
 
 enum Item {
-    Planned(Box<(PassPlan, MaskAccumulator)>),
+    Planned(Box<Planned>),
     Tradeoff(usize, Box<MaskAccumulator>),
 }

@@ -2,7 +2,7 @@
 //! Unrounded; [`crate::report`] rounds when it serializes.
 
 use super::inputs::SatelliteError;
-use super::mask::{MaskAccumulator, PassMask};
+use super::mask::MaskAccumulator;
 use super::network::Segment;
 use super::prepare::{PrepareError, StationModel};
 use super::rate::OptionId;
@@ -46,8 +46,6 @@ pub struct ModeResult {
     pub adaptive_volume_bits: f64,
     pub adaptive_switches: usize,
     pub shannon_volume_bits: f64,
-    /// Volume each ladder rate would bring in this pass, bits.
-    pub volume_by_rate_bits: Vec<f64>,
 }
 
 /// The plan of one pass.
@@ -61,9 +59,6 @@ pub struct PassPlan {
     pub rain: Option<ModeResult>,
     /// Fixed-rate closed intervals (clear sky), seconds from the window start, for the network total.
     pub segments: Vec<Segment>,
-    /// The highest step per ladder rate where it does not count (the pass's elevation bins are
-    /// merged into [`Plan::station_masks`] during the run and not kept).
-    pub mask: PassMask,
     pub warnings: PassWarnings,
     pub steps: usize,
     /// The Sun and the Moon near the beam during the pass (clear sky).

@@ -1,7 +1,7 @@
 //! What a plan adds up to: totals over the window, per UTC day, the usable mask per station and
 //! rate, and the mask trade-off, computed from the passes. Typed and unrounded.
 
-use super::mask::{MaskAccumulator, MAX_MASK_DEG};
+use super::mask::{MaskAccumulator, OpenSteps, MAX_MASK_DEG};
 use super::prepare::{RateSet, StationModel};
 use super::rate::OptionId;
 use super::results::{
@@ -26,17 +26,17 @@ fn sum_mode(passes: &[PassPlan], f: impl Fn(&ModeResult) -> f64, rain: bool) -> 
         + 0.0 // an empty sum is -0.0; report 0
 }
 
-/// Totals over the window.
+/// Totals over the window; `by_rate` is each ladder rate's clear-sky volume summed over the
+/// passes (in ladder order), bits.
 pub fn totals(
     p: &[PassPlan],
-    rates: &RateSet,
+    by_rate: &[f64],
     rain_planned: bool,
     network: NetworkTotal,
     days: f64,
 ) -> Totals {
     let mut single: Option<(OptionId, f64)> = None;
-    for k in 0..rates.ladder.len() {
-        let v: f64 = p.iter().map(|x| x.clear.volume_by_rate_bits[k]).sum();
+    for (k, &v) in by_rate.iter().enumerate() {
         if v > 0.0 && single.is_none_or(|(_, b)| v > b) {
             single = Some((OptionId(k), v));
         }
@@ -102,12 +102,13 @@ pub fn days(p: &[PassPlan], window: &Window, rain_planned: bool) -> Vec<DayTotal
 }
 
 /// Usable masks per station and ladder rate, from the per-station mask accumulators: the strict
-/// mask (the rate closes on every pass above it) and, from `passes` (the planned passes, each
-/// with its own accumulator), the robust mask: the lowest elevation above which the rate closes
-/// on at least `share_percent` % of the station's passes, with the passes that fail above it.
+/// mask (the rate closes on every pass above it) and, from `passes` (the planned passes, with
+/// their highest open steps in the same order), the robust mask: the lowest elevation above
+/// which the rate closes on at least `share_percent` % of the station's passes, with the passes
+/// that fail above it.
 pub fn usable_masks(
     masks: &[MaskAccumulator],
-    passes: &[PassPlan],
+    (passes, open): (&[PassPlan], &OpenSteps),
     stations: &[StationModel],
     rates: &RateSet,
     share_percent: f64,
@@ -116,14 +117,19 @@ pub fn usable_masks(
     for (i, st) in stations.iter().enumerate() {
         let acc = &masks[i];
         let station_mask = st.configured_min_elevation_deg;
-        let own: Vec<&PassPlan> = passes.iter().filter(|p| p.station_index == i).collect();
+        let own: Vec<(usize, &PassPlan)> = passes
+            .iter()
+            .enumerate()
+            .filter(|(_, p)| p.station_index == i)
+            .collect();
         for k in 0..rates.ladder.len() {
             // the strict mask by the same rounding rule as the robust one, so robust <= strict
             let usable_mask_deg = acc
                 .usable_mask_deg(k, f64::NEG_INFINITY)
                 .map(|h| round_up_mask_deg(h).max(station_mask));
             // a rate that never closes has no mask to fail above
-            let robust = usable_mask_deg.and(robust_mask(&own, k, share_percent, station_mask));
+            let robust =
+                usable_mask_deg.and(robust_mask((&own, open), k, share_percent, station_mask));
             rows.push(UsableMask {
                 station_index: i,
                 option: OptionId(k),
@@ -162,7 +168,7 @@ pub fn round_up_mask_deg(elevation_deg: f64) -> f64 {
 /// neighbours is not listed as failing). A pass fails when its elevation, rounded by the same
 /// rule, lies above the mask: with the robust mask equal to the strict one, no pass fails.
 fn robust_mask(
-    passes: &[&PassPlan],
+    (passes, open): (&[(usize, &PassPlan)], &OpenSteps),
     k: usize,
     share_percent: f64,
     station_mask_deg: f64,
@@ -172,7 +178,7 @@ fn robust_mask(
     }
     let mut highest: Vec<f64> = passes
         .iter()
-        .map(|p| p.mask.highest_open_elevation_deg(k))
+        .map(|&(j, _)| open.highest_open_elevation_deg(j, k))
         .collect();
     highest.sort_by(f64::total_cmp);
     // the smallest count of passes that makes the share, at least one
@@ -183,8 +189,8 @@ fn robust_mask(
     let mask_deg = round_up_mask_deg(quantile).max(station_mask_deg);
     let failures = passes
         .iter()
-        .filter_map(|p| {
-            let step = p.mask.highest_open_step[k]?;
+        .filter_map(|&(j, p)| {
+            let step = open.step(j, k)?;
             (round_up_mask_deg(step.elevation_deg) > mask_deg).then_some(MaskFailure {
                 pass_number: p.number,
                 station_index: p.station_index,

@@ -39,7 +39,10 @@ fn q_of(problem: &Problem, c: usize) -> f64 {
 /// Steps `(from_s, f(values of the intervals active))` over time; `items` are
 /// `(lo, hi, value)`. The last step (value 0) starts at the last end.
 fn steps(items: &[(f64, f64, f64)], f: impl Fn(&mut Vec<f64>) -> f64) -> Vec<(f64, f64)> {
-    let mut points: Vec<f64> = items.iter().flat_map(|i| [i.0, i.1]).collect();
+    // Sized once (a flattened iterator would grow it by doubling; a year's candidates are the
+    // scheduler's peak here).
+    let mut points: Vec<f64> = Vec::with_capacity(2 * items.len());
+    points.extend(items.iter().flat_map(|i| [i.0, i.1]));
     points.sort_by(f64::total_cmp);
     points.dedup();
     let mut order: Vec<usize> = (0..items.len()).collect();
@@ -95,6 +98,7 @@ pub(crate) fn combinatorial(problem: &Problem, spans: Spans, weights: &[f64]) ->
             weights[s] * st.delivered_bits
         })
         .sum();
+    drop(by_sat);
     let antenna_side: f64 = by_antenna
         .iter()
         .map(|items| integral(&steps(items, |v| v.iter().copied().fold(0.0, f64::max))))
@@ -223,6 +227,31 @@ fn storage_rows(problem: &Problem, spans: Spans, l: &Layout, scale: f64, rows: &
     col
 }
 
+/// The rows (equalities first) as clarabel's `A` with `n` columns, and the right-hand side.
+/// The rows are consumed and the triplets sized once: this and the solver's copies are the
+/// largest memory of a plan that solves its LP (with clarabel's own, about 10 MB at
+/// `LP_MAX_VARIABLES`).
+fn constraint_matrix(rows: Rows, n: usize) -> (CscMatrix<f64>, Vec<f64>) {
+    let all = || rows.eq.iter().chain(&rows.le);
+    let entries: usize = all().map(|r| r.0.len()).sum();
+    let (mut ii, mut jj, mut vv) = (
+        Vec::with_capacity(entries),
+        Vec::with_capacity(entries),
+        Vec::with_capacity(entries),
+    );
+    let mut b = Vec::with_capacity(rows.eq.len() + rows.le.len());
+    for (r, (row, rhs)) in all().enumerate() {
+        for &(col, v) in row {
+            ii.push(r);
+            jj.push(col);
+            vv.push(v);
+        }
+        b.push(*rhs);
+    }
+    drop(rows);
+    (CscMatrix::new_from_triplets(b.len(), n, ii, jj, vv), b)
+}
+
 /// The LP relaxation's optimum (plus [`LP_MARGIN`]), or `None` if the solver does not
 /// report a solution.
 pub(crate) fn linear_program(problem: &Problem, spans: Spans, weights: &[f64]) -> Option<f64> {
@@ -245,24 +274,17 @@ pub(crate) fn linear_program(problem: &Problem, spans: Spans, weights: &[f64]) -
             q[col + j - j0] = -w * (l.points[j + 1] - l.points[j]);
         }
     }
-    let (mut ii, mut jj, mut vv, mut b) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());
-    for (r, (row, rhs)) in rows.eq.iter().chain(&rows.le).enumerate() {
-        for &(col, v) in row {
-            ii.push(r);
-            jj.push(col);
-            vv.push(v);
-        }
-        b.push(*rhs);
-    }
-    let a = CscMatrix::new_from_triplets(b.len(), n, ii, jj, vv);
+    let (eq_rows, le_rows) = (rows.eq.len(), rows.le.len());
+    let (a, b) = constraint_matrix(rows, n);
     let p = CscMatrix::<f64>::zeros((n, n));
-    let cones: Vec<SupportedConeT<f64>> =
-        vec![ZeroConeT(rows.eq.len()), NonnegativeConeT(rows.le.len())];
+    let cones: Vec<SupportedConeT<f64>> = vec![ZeroConeT(eq_rows), NonnegativeConeT(le_rows)];
     let settings = DefaultSettingsBuilder::default()
         .verbose(false)
         .build()
         .ok()?;
     let mut solver = DefaultSolver::new(&p, &q, &a, &b, &cones, settings).ok()?;
+    // The solver keeps its own (scaled) copies: ours go before it factors.
+    drop((a, b, p, q));
     solver.solve();
     let sol = &solver.solution;
     if !matches!(

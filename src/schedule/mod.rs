@@ -205,33 +205,30 @@ fn build_opts(problem: &Problem, spans: &[Result<(f64, f64), NotBooked>]) -> Vec
     let mut opts: Vec<Opt> = Vec::with_capacity(space.iter().map(Vec::len).sum());
     opts.extend(space.into_iter().flatten().map(|t| {
         let c = &problem.candidates[t.cand];
-        Opt {
-            cand: t.cand,
-            sat: c.satellite,
-            antenna: c.antenna,
-            x_s: t.x_s,
-            y_s: t.y_s,
-            q_bps: c.rate_bps * c.duty,
-            span_end_s: spans[t.cand].map_or(c.end_s, |s| s.1),
-        }
+        Opt::new(
+            (t.cand, c.satellite, c.antenna),
+            (t.x_s, t.y_s),
+            c.rate_bps * c.duty,
+            spans[t.cand].map_or(c.end_s, |s| s.1),
+        )
     }));
     opts.sort_by(|a, b| {
         a.x_s
             .total_cmp(&b.x_s)
             .then(a.y_s.total_cmp(&b.y_s))
-            .then(a.cand.cmp(&b.cand))
+            .then(a.cand().cmp(&b.cand()))
     });
     opts
 }
 
 fn is_sequential(problem: &Problem, opts: &[Opt]) -> bool {
-    let one_antenna = opts.windows(2).all(|w| w[0].antenna == w[1].antenna);
-    let one_sat = opts.windows(2).all(|w| w[0].sat == w[1].sat);
+    let one_antenna = opts.windows(2).all(|w| w[0].antenna() == w[1].antenna());
+    let one_sat = opts.windows(2).all(|w| w[0].sat() == w[1].sat());
     one_antenna
         || (one_sat
             && opts
                 .first()
-                .is_none_or(|o| problem.satellites[o.sat].max_downlinks == 1))
+                .is_none_or(|o| problem.satellites[o.sat()].max_downlinks == 1))
 }
 
 /// Steps `(from_s, downlinks running)` of one satellite's fixed contacts.
@@ -247,8 +244,8 @@ fn fixed_profiles(
     let mut events: Vec<Vec<(f64, i8, f64)>> = vec![Vec::new(); n];
     for &i in fixed {
         let o = &opts[i];
-        events[o.sat].push((o.x_s, 1, o.q_bps));
-        events[o.sat].push((o.y_s, -1, o.q_bps));
+        events[o.sat()].push((o.x_s, 1, o.q_bps));
+        events[o.sat()].push((o.y_s, -1, o.q_bps));
     }
     let (mut drains, mut counts) = (vec![Vec::new(); n], vec![Vec::new(); n]);
     for s in 0..n {
@@ -285,8 +282,8 @@ fn busiest(count: &[(f64, usize)], x: f64, y: f64) -> usize {
 /// antennas): the same satellite and `pass_ref`, antennas of the same station.
 fn same_pass(problem: &Problem, opts: &[Opt], i: usize, j: usize) -> bool {
     let (ci, cj) = (
-        &problem.candidates[opts[i].cand],
-        &problem.candidates[opts[j].cand],
+        &problem.candidates[opts[i].cand()],
+        &problem.candidates[opts[j].cand()],
     );
     ci.satellite == cj.satellite
         && ci.pass_ref == cj.pass_ref
@@ -316,8 +313,8 @@ fn plan_antenna(
         .iter()
         .copied()
         .filter(|&i| {
-            busiest(&counts[opts[i].sat], opts[i].x_s, opts[i].y_s)
-                < problem.satellites[opts[i].sat].max_downlinks
+            busiest(&counts[opts[i].sat()], opts[i].x_s, opts[i].y_s)
+                < problem.satellites[opts[i].sat()].max_downlinks
         })
         .collect();
     let local_opts: Vec<Opt> = local.iter().map(|&i| opts[i]).collect();
@@ -339,7 +336,7 @@ fn plan_antenna(
 fn antenna_rounds(problem: &Problem, opts: &[Opt]) -> (Vec<usize>, usize) {
     let mut by_antenna: Vec<Vec<usize>> = vec![Vec::new(); problem.antennas.len()];
     for (i, o) in opts.iter().enumerate() {
-        by_antenna[o.antenna].push(i);
+        by_antenna[o.antenna()].push(i);
     }
     let mut sel: Vec<Vec<usize>> = vec![Vec::new(); problem.antennas.len()];
     let mut best = 0.0f64;
@@ -494,7 +491,7 @@ pub fn schedule_with(
         is_empty[c] = true;
     }
     if !empty.is_empty() {
-        chosen.retain(|&i| !is_empty[opts[i].cand]);
+        chosen.retain(|&i| !is_empty[opts[i].cand()]);
         (contacts, sats, antennas) = outcome::evaluate(problem, &opts, &chosen, &raw);
     }
     let not_booked = rejections(problem, &spans, &contacts, &is_empty);

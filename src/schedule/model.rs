@@ -118,6 +118,14 @@ pub enum ScheduleError {
         field: &'static str,
         index: usize,
     },
+    /// More entries than the scheduler's compact indices hold (65,535 satellites or antennas,
+    /// 4,294,967,295 candidates).
+    #[error("{what}: {count} entries, more than the scheduler handles ({max})")]
+    TooMany {
+        what: &'static str,
+        count: usize,
+        max: usize,
+    },
     #[error("candidates[{candidate}]: the span {start_s} s to {end_s} s is empty or outside the window [0, {window_s}] s")]
     Span {
         candidate: usize,
@@ -262,6 +270,14 @@ fn validate_candidate(i: usize, c: &Candidate, problem: &Problem) -> Result<(), 
 /// Checks every rule of the input model; the first broken rule is the error.
 pub fn validate(problem: &Problem) -> Result<(), ScheduleError> {
     positive(|| "window_s".to_string(), problem.window_s)?;
+    let counts = [
+        ("satellites", problem.satellites.len(), u16::MAX as usize),
+        ("antennas", problem.antennas.len(), u16::MAX as usize),
+        ("candidates", problem.candidates.len(), u32::MAX as usize),
+    ];
+    if let Some(&(what, count, max)) = counts.iter().find(|c| c.1 > c.2) {
+        return Err(ScheduleError::TooMany { what, count, max });
+    }
     for (i, sat) in problem.satellites.iter().enumerate() {
         validate_satellite(i, sat)?;
     }

@@ -88,7 +88,8 @@ fn simulate_satellite(
     let mut running: Vec<usize> = Vec::new();
     let mut volumes = vec![0.0; mine.len()];
     let mut latencies = vec![0.0; mine.len()];
-    for &(t_s, is_start, k) in &events {
+    // Consumed: the events are freed before the timeline is made.
+    for (t_s, is_start, k) in events {
         step(
             sat,
             &mut st,
@@ -116,17 +117,19 @@ fn simulate_satellite(
         opts,
         &mut volumes,
     );
+    let Trace { fill, kept, lost } = trace;
+    drop(kept);
     let outcome = SatelliteOutcome {
         generated_bits: generated_until(sat, problem.window_s),
         delivered_bits: st.delivered_bits,
         lost_bits: st.lost_bits,
-        storage_peak_bits: trace.fill.iter().map(|p| p.1).fold(0.0, f64::max),
+        storage_peak_bits: fill.iter().map(|p| p.1).fold(0.0, f64::max),
         final_fill_bits: st.fill_bits,
         max_latency_s: latencies.iter().copied().fold(0.0, f64::max),
         median_latency_s: median(&latencies),
         latencies_s: latencies,
-        storage_timeline: slope_changes(&trace.fill),
-        lost_intervals: trace.lost,
+        storage_timeline: slope_changes(fill),
+        lost_intervals: lost,
     };
     (volumes, outcome)
 }
@@ -169,25 +172,25 @@ pub(crate) fn evaluate(
         let mut mine: Vec<usize> = booked
             .iter()
             .copied()
-            .filter(|&i| opts[i].sat == s)
+            .filter(|&i| opts[i].sat() == s)
             .collect();
         mine.sort_by(|&i, &j| {
             opts[i]
                 .x_s
                 .total_cmp(&opts[j].x_s)
-                .then(opts[i].antenna.cmp(&opts[j].antenna))
+                .then(opts[i].antenna().cmp(&opts[j].antenna()))
         });
         let (volumes, outcome) = simulate_satellite(problem, s, opts, &mine);
         for (k, &i) in mine.iter().enumerate() {
             let o = &opts[i];
-            let (s0, e0) = spans_raw[o.cand];
+            let (s0, e0) = spans_raw[o.cand()];
             contacts.push(Contact {
-                candidate: o.cand,
+                candidate: o.cand(),
                 satellite: s,
-                antenna: o.antenna,
+                antenna: o.antenna(),
                 start_s: o.x_s,
                 end_s: o.y_s,
-                setup_start_s: o.x_s - problem.antennas[o.antenna].turnaround_s,
+                setup_start_s: o.x_s - problem.antennas[o.antenna()].turnaround_s,
                 volume_bits: volumes[k],
                 shortened: o.x_s > s0 || o.y_s < e0,
             });

@@ -211,14 +211,16 @@ pub(crate) fn oldest_age_s(
 }
 
 /// Keeps only the points where the slope changes (and the two ends).
-pub(crate) fn slope_changes(points: &[(f64, f64)]) -> Vec<(f64, f64)> {
-    let mut dedup: Vec<(f64, f64)> = Vec::with_capacity(points.len());
-    for &p in points {
-        match dedup.last_mut() {
-            Some(last) if (p.0 - last.0).abs() <= 1e-9 => last.1 = p.1,
-            _ => dedup.push(p),
+pub(crate) fn slope_changes(mut points: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
+    // In place: a year's trace is the largest vector of the schedule's evaluation.
+    points.dedup_by(|p, last| {
+        let same = (p.0 - last.0).abs() <= 1e-9;
+        if same {
+            last.1 = p.1;
         }
-    }
+        same
+    });
+    let dedup = points;
     let mut out: Vec<(f64, f64)> = Vec::with_capacity(dedup.len());
     for (i, &p) in dedup.iter().enumerate() {
         if i == 0 || i + 1 == dedup.len() {
@@ -233,6 +235,7 @@ pub(crate) fn slope_changes(points: &[(f64, f64)]) -> Vec<(f64, f64)> {
             out.push(p);
         }
     }
+    out.shrink_to_fit();
     out
 }
 
@@ -265,7 +268,7 @@ mod tests {
         );
         assert_eq!(trace.lost, vec![(1.0, 5.0)]);
         assert_eq!(
-            slope_changes(&trace.fill),
+            slope_changes(trace.fill.clone()),
             vec![(0.0, 90.0), (1.0, 100.0), (5.0, 100.0)]
         );
     }

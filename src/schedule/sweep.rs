@@ -16,16 +16,48 @@ use super::model::Problem;
 use super::store::{advance_with, SatState};
 
 /// A trim ready for the sweep: candidate, satellite, antenna, span and drain `q = rate * duty`.
+/// The indices are kept compact (40 bytes a trim; a year's plan holds about 20,000 trims);
+/// [`super::model::validate`] refuses a problem they cannot hold.
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct Opt {
-    pub cand: usize,
-    pub sat: usize,
-    pub antenna: usize,
+    cand: u32,
+    sat: u16,
+    antenna: u16,
     pub x_s: f64,
     pub y_s: f64,
     pub q_bps: f64,
     /// End of the candidate's clipped span: the candidate stays "live" until then.
     pub span_end_s: f64,
+}
+
+impl Opt {
+    /// A trim of candidate `cand` (of satellite `sat`, on `antenna`), indices within the limits
+    /// [`super::model::validate`] checks.
+    pub fn new(
+        (cand, sat, antenna): (usize, usize, usize),
+        (x_s, y_s): (f64, f64),
+        q_bps: f64,
+        span_end_s: f64,
+    ) -> Opt {
+        Opt {
+            cand: cand as u32,
+            sat: sat as u16,
+            antenna: antenna as u16,
+            x_s,
+            y_s,
+            q_bps,
+            span_end_s,
+        }
+    }
+    pub fn cand(&self) -> usize {
+        self.cand as usize
+    }
+    pub fn sat(&self) -> usize {
+        self.sat as usize
+    }
+    pub fn antenna(&self) -> usize {
+        self.antenna as usize
+    }
 }
 
 #[derive(Debug, Clone)]
@@ -184,26 +216,26 @@ impl Sweep<'_> {
         let mut child = parent.clone();
         child.node = node;
         child.seq = seq;
-        child.touch[o.sat] = node;
-        let st = &mut child.sats[o.sat];
+        child.touch[o.sat()] = node;
+        let st = &mut child.sats[o.sat()];
         advance_with(
-            &self.problem.satellites[o.sat],
+            &self.problem.satellites[o.sat()],
             st,
             o.x_s,
             0.0,
-            &self.profiles[o.sat],
+            &self.profiles[o.sat()],
         );
         advance_with(
-            &self.problem.satellites[o.sat],
+            &self.problem.satellites[o.sat()],
             st,
             o.y_s,
             o.q_bps,
-            &self.profiles[o.sat],
+            &self.profiles[o.sat()],
         );
-        let turn = self.problem.antennas[o.antenna].turnaround_s;
-        child.ready.retain(|r| r.0 != o.antenna);
-        child.ready.push((o.antenna, o.y_s + turn));
-        child.live.push((o.cand, o.span_end_s));
+        let turn = self.problem.antennas[o.antenna()].turnaround_s;
+        child.ready.retain(|r| r.0 != o.antenna());
+        child.ready.push((o.antenna(), o.y_s + turn));
+        child.live.push((o.cand(), o.span_end_s));
         child
     }
 
@@ -211,8 +243,8 @@ impl Sweep<'_> {
         label
             .ready
             .iter()
-            .all(|r| r.0 != o.antenna || r.1 <= o.x_s + 1e-9)
-            && label.live.iter().all(|l| l.0 != o.cand)
+            .all(|r| r.0 != o.antenna() || r.1 <= o.x_s + 1e-9)
+            && label.live.iter().all(|l| l.0 != o.cand())
     }
 
     /// Runs the sweep.

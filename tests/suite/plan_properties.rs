@@ -320,10 +320,16 @@ fn plan_violations_flags_a_broken_plan() {
     broken.station_masks[0].contact_bins_s[3] = f64::INFINITY;
     assert_eq!(plan_violations(&broken).len(), 1);
     let mut broken = plan;
-    broken.passes[k].mask.highest_open_step[0] = Some(passbudget::plan::mask::OpenStep {
-        elevation_deg: 12.0,
-        t_s: f64::NAN,
-        margin_db: -1.0,
-    });
+    let failure = passbudget::plan::results::MaskFailure {
+        pass_number: broken.passes[k].number,
+        station_index: broken.passes[k].station_index,
+        time: broken.passes[k].pass.aos,
+        step: passbudget::plan::mask::OpenStep {
+            elevation_deg: 12.0,
+            t_s: f64::NAN,
+            margin_db: -1.0,
+        },
+    };
+    broken.usable_masks[0].failures.push(failure);
     assert_eq!(plan_violations(&broken).len(), 1);
 }
