@@ -14,7 +14,9 @@
 //!   whose horizon is raised to `h` everywhere ([`Brightness::raised`]: the sky of true
 //!   elevation e' + h above it, the terrain's grazing brightness for h below it, the flat ground
 //!   further down), at the elevation u above that horizon; built at the heights of [`LEVELS_DEG`]
-//!   that span the profile and interpolated linearly between them at the same u;
+//!   that span the profile and keep the sky's brightness just above the edge within
+//!   [`LEVEL_TOLERANCE_K`] of linear between them, and interpolated linearly between them at the
+//!   same u;
 //! * `R` is the rest: the direct integral minus the raised-horizon term, on a grid of azimuth
 //!   columns (every profile kink, rungs around each kink at [`RUNGS_DEG`], and at most
 //!   [`MAX_GAP_DEG`] apart) and rows of u ([`ROWS_DEG`]), bilinear. It holds the far terrain (the
@@ -37,16 +39,19 @@ pub const LEVELS_DEG: [f64; 45] = [
     28.0, 32.0, 36.0, 40.0, 45.0, 50.0, 55.0, 60.0, 70.0, 80.0, 90.0,
 ];
 
+/// Largest departure of Tsky(h) from its linear interpolation between raised-horizon tables, K.
+pub const LEVEL_TOLERANCE_K: f64 = 0.25;
+
 /// Rows of the correction grid: the boresight's height above the beam's profile height, deg.
-pub const ROWS_DEG: [f64; 15] = [
-    -40.0, -12.0, -5.0, -2.0, -1.0, 0.0, 1.0, 2.0, 4.0, 8.0, 15.0, 25.0, 40.0, 60.0, 90.0,
+pub const ROWS_DEG: [f64; 13] = [
+    -12.0, -5.0, -2.0, -1.0, 0.0, 1.0, 2.0, 4.0, 8.0, 15.0, 25.0, 45.0, 90.0,
 ];
 
 /// Columns added on both sides of every profile kink, deg of azimuth.
-pub const RUNGS_DEG: [f64; 1] = [2.0];
+pub const RUNGS_DEG: [f64; 2] = [2.0, 6.0];
 
 /// Largest azimuth gap between correction columns, deg.
-pub const MAX_GAP_DEG: f64 = 15.0;
+pub const MAX_GAP_DEG: f64 = 20.0;
 
 /// Spacing of the beam-averaged profile height, deg (finer for a beam narrower than 0.2 deg).
 pub const EDGE_STEP_DEG: f64 = 0.05;
@@ -122,7 +127,7 @@ impl TerrainNoiseTable {
         let last = LEVELS_DEG
             .partition_point(|&l| l < highest)
             .min(LEVELS_DEG.len() - 1);
-        let levels_deg = LEVELS_DEG[first..=last].to_vec();
+        let levels_deg = levels(&LEVELS_DEG[first..=last], brightness);
         let tables: Vec<AntennaNoiseTable> = levels_deg
             .par_iter()
             .map(|&h| AntennaNoiseTable::build(pattern, &brightness.raised(h)))
@@ -280,6 +285,30 @@ fn beam_height_deg(terrain: &HorizonMask, azimuth_deg: f64, sigma_deg: f64) -> f
         norm += w;
     }
     sum / norm
+}
+
+/// The heights of `candidates` (ascending) that keep the sky's brightness just above the edge,
+/// Tsky(h), within [`LEVEL_TOLERANCE_K`] of its linear interpolation between kept heights
+/// (checked at 4 points of each gap): the main beam half over the edge sees about that
+/// brightness, the quantity that changes fastest with h at a fixed height above the edge.
+fn levels(candidates: &[f64], brightness: &Brightness) -> Vec<f64> {
+    let sky = |h: f64| brightness.side_at(h.to_radians().sin(), false);
+    let straight = |a: f64, b: f64| {
+        (1..=4).all(|i| {
+            let x = a + (b - a) * i as f64 / 5.0;
+            let line = sky(a) + (sky(b) - sky(a)) * (x - a) / (b - a);
+            (sky(x) - line).abs() <= LEVEL_TOLERANCE_K
+        })
+    };
+    let mut kept = vec![candidates[0]];
+    for k in 1..candidates.len() {
+        let last = kept[kept.len() - 1];
+        let next = candidates.get(k + 1).copied();
+        if next.is_none_or(|n| !straight(last, n)) {
+            kept.push(candidates[k]);
+        }
+    }
+    kept
 }
 
 /// The raised tables on the union of their rows, and that grid.

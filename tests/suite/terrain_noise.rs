@@ -376,3 +376,28 @@ fn a_pass_low_over_the_terrain_has_a_higher_system_temperature_than_one_over_the
         "ground {g_facing:.2} vs {g_low:.2} K, Tsys {t_facing:.2} vs {t_low:.2} K"
     );
 }
+
+#[test]
+fn terrain_lookups_allocate_nothing() {
+    // The plan's step reads the terrain table through StationNoise::external_at: no allocation
+    // (the hot path's rule; counted per thread by common::alloc).
+    use crate::common::alloc::thread_allocations;
+    let p = dish(3.7, 8.2e9, 0.6);
+    let b = fixture_sky(8.2, Weather::ClearSky);
+    let table = TerrainNoiseTable::build(&p, &b, &sierra());
+    let atm = PreparedAtmosphere::new(&atmosphere_site(), &atmosphere_path(8.2)).unwrap();
+    let noise = StationNoise::new(p, GROUND, &atm, 275.0, 2.73, None, None, Some(sierra()));
+    let before = thread_allocations();
+    let mut acc = 0.0;
+    for i in 0..2000 {
+        let (e, a) = (-2.0 + (i % 90) as f64, (i as f64 * 7.3) % 360.0);
+        acc += table.at(e, a).total_k();
+        acc += noise
+            .external_at(e, a, Weather::ClearSky)
+            .unwrap()
+            .total_k();
+    }
+    let after = thread_allocations();
+    assert!(acc.is_finite());
+    assert_eq!(after - before, 0, "terrain lookups allocated");
+}

@@ -112,7 +112,7 @@ pub const NOISE_TABLE_K: f64 = 0.1;
 pub const NOISE_BRUTE_FORCE_K: f64 = 0.3;
 
 /// The terrain table (noise::terrain_table) against the direct terrain integral, K: the largest
-/// difference measured on the probe directions of `terrain_noise.rs` was 0.50 K (3.7 m X band,
+/// difference measured on the probe directions of `terrain_noise.rs` was 0.48 K (3.7 m X band,
 /// clear sky, 1 deg beside the profile's 12 deg peak: the wedge the peak makes in the main beam,
 /// which the beam-averaged profile height follows only in the mean); most directions are within
 /// 0.05 K.
