@@ -38,7 +38,7 @@ use super::pattern::{NoisePattern, GL4, GL8};
 use crate::geometry::HorizonMask;
 
 /// Most profile kinks taken as azimuth cuts; a denser profile is cut every 360/MAX_KINKS deg.
-const MAX_KINKS: usize = 72;
+pub(crate) const MAX_KINKS: usize = 72;
 
 /// The terrain profile of a station for noise: `H(az) = max(0, profile)`, or `None` when the
 /// profile never rises above the geometric horizon (the 1-D table is then exact).

@@ -19,7 +19,8 @@
 //!   same u;
 //! * `R` is the rest: the direct integral minus the raised-horizon term, on a grid of azimuth
 //!   columns (every profile kink, rungs around each kink at [`RUNGS_DEG`], and at most
-//!   [`MAX_GAP_DEG`] apart) and rows of u ([`ROWS_DEG`]), bilinear. It holds the far terrain (the
+//!   [`MAX_GAP_DEG`] apart; for a profile of 72 kinks or more, every 5 deg without rungs) and
+//!   rows of u ([`ROWS_DEG`]), bilinear. It holds the far terrain (the
 //!   profile elsewhere than at the beam's azimuth), smooth over degrees.
 //!
 //! The bound of the lookup against the direct integral is checked in
@@ -28,7 +29,7 @@
 
 use super::antenna_table::{AntennaNoise, AntennaNoiseTable, Brightness};
 use super::pattern::NoisePattern;
-use super::terrain::{half_power_half_width_deg, TerrainIntegrator};
+use super::terrain::{half_power_half_width_deg, TerrainIntegrator, MAX_KINKS};
 use crate::geometry::HorizonMask;
 use rayon::prelude::*;
 
@@ -336,11 +337,18 @@ fn buckets(rows: &[f64]) -> Vec<u32> {
 }
 
 /// The correction columns: every kink, rungs on both sides, gaps filled to the grid's largest.
+/// A dense profile (more than [`MAX_KINKS`] kinks: the integrator then cuts azimuth every
+/// 5 deg instead) gets those cuts as columns and no rungs, so its build stays bounded.
 fn columns(kinks_deg: &[f64], grid: &TerrainGrid) -> Vec<f64> {
+    let rungs: &[f64] = if kinks_deg.len() >= MAX_KINKS {
+        &[]
+    } else {
+        &grid.rungs_deg
+    };
     let mut c: Vec<f64> = Vec::new();
     for &k in kinks_deg {
         c.push(k.rem_euclid(360.0));
-        for &r in &grid.rungs_deg {
+        for &r in rungs {
             c.push((k + r).rem_euclid(360.0));
             c.push((k - r).rem_euclid(360.0));
         }

@@ -30,8 +30,9 @@ pub enum InstantGeometry {
     At(DateTime<Utc>),
     /// At this elevation, deg (0 to 90); range from the orbit's semi-major axis. For a station
     /// whose terrain rises above the geometric horizon the antenna noise depends on the azimuth
-    /// too: it is taken at the azimuth where it is highest at that elevation
-    /// ([`crate::plan::noise::StationNoise::worst_azimuth_deg`]), which the budget reports.
+    /// too: it is taken at the azimuth where it is highest at that elevation among those whose
+    /// terrain is not above it ([`crate::plan::noise::StationNoise::worst_azimuth_deg`]), which
+    /// the budget reports.
     Elevation(f64),
     /// At this elevation and azimuth, deg; range from the orbit's semi-major axis.
     Pointing {
@@ -200,7 +201,7 @@ pub fn instant_budget(
         (InstantGeometry::Elevation(_), Some(az)) => {
             look.azimuth_deg = az;
             Some(format!(
-                "no azimuth given: the terrain's noise is taken at azimuth {az:.1} deg, where it is highest at this elevation"
+                "no azimuth given: the terrain's noise is taken at azimuth {az:.1} deg, where it is highest at this elevation among the azimuths whose terrain is not above it"
             ))
         }
         _ => None,
@@ -471,7 +472,11 @@ fn items(
         .link
         .itemize(geometry, atmosphere_loss, external, rate)?;
     let mut items = Vec::with_capacity(link_items.len() + atmosphere.len());
-    for i in link_items {
+    for mut i in link_items {
+        if i.name == "ground_noise" && model.noise.has_terrain() {
+            // The terrain above the geometric horizon is part of the ground term.
+            i.source = "ground over the pattern: e Tg + (1 - e) Tsky(mirror); with the terrain of horizon_mask at this azimuth, e Tg + (1 - e) Tsky(0)".into();
+        }
         let after_fsl = i.name == "free_space_loss";
         let after_moon = i.name == "moon_noise";
         items.push(i);

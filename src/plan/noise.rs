@@ -202,25 +202,29 @@ impl StationNoise {
     }
 
     /// The azimuth (deg, on a 0.5 deg grid) where the antenna noise at `elevation_deg` in
-    /// `weather` is highest: the rule of a budget given an elevation and no azimuth. `None`
+    /// `weather` is highest among the azimuths where the terrain does not rise above that
+    /// elevation (a satellite there is in view); where it rises above it everywhere, the azimuth
+    /// of the lowest terrain. The rule of a budget given an elevation and no azimuth. `None`
     /// without terrain (the azimuth does not matter) or when the weather was not prepared.
     pub fn worst_azimuth_deg(&self, elevation_deg: f64, weather: Weather) -> Option<f64> {
-        if !self.has_terrain() {
-            return None;
-        }
-        let total = |az: f64| {
-            self.external_at(elevation_deg, az, weather)
-                .map(|n| n.total_k())
-        };
+        let terrain = self.terrain.as_ref().filter(|_| self.has_terrain())?;
         let mut best: Option<(f64, f64)> = None;
+        let mut lowest: Option<(f64, f64)> = None;
         for i in 0..720 {
             let az = 0.5 * i as f64;
-            let t = total(az)?;
+            let h = terrain.limit_deg(az);
+            if lowest.is_none_or(|(_, l)| h < l) {
+                lowest = Some((az, h));
+            }
+            if h > elevation_deg {
+                continue;
+            }
+            let t = self.external_at(elevation_deg, az, weather)?.total_k();
             if best.is_none_or(|(_, b)| t > b) {
                 best = Some((az, t));
             }
         }
-        best.map(|(az, _)| az)
+        best.or(lowest).map(|(az, _)| az)
     }
 
     /// The terrain table of `weather`, if the station has one and the weather was prepared.

@@ -325,10 +325,15 @@ fn a_profile_at_the_horizon_keeps_the_elevation_table_at_every_azimuth() {
             .total_k()
     };
     assert!(at(150.0) > at(330.0) + 5.0);
-    // A budget given an elevation alone takes the azimuth where the noise is highest: facing the
-    // peak.
+    // A budget given an elevation alone takes the azimuth where the noise is highest among those
+    // whose terrain is not above it: at 13 deg, facing the 12 deg peak; at 5 deg, somewhere the
+    // terrain is at most 5 deg; at 1 deg, below the terrain everywhere, where it is lowest (2 deg).
     let worst = hilly.worst_azimuth_deg(13.0, Weather::ClearSky).unwrap();
     assert!((worst - 150.0).abs() <= 2.0, "{worst}");
+    let worst = hilly.worst_azimuth_deg(5.0, Weather::ClearSky).unwrap();
+    assert!(sierra().limit_deg(worst) <= 5.0, "{worst}");
+    let worst = hilly.worst_azimuth_deg(1.0, Weather::ClearSky).unwrap();
+    assert_eq!(sierra().limit_deg(worst), 2.0, "{worst}");
 }
 
 #[test]
@@ -400,4 +405,27 @@ fn terrain_lookups_allocate_nothing() {
     let after = thread_allocations();
     assert!(acc.is_finite());
     assert_eq!(after - before, 0, "terrain lookups allocated");
+}
+
+#[test]
+fn a_dense_profile_keeps_the_terrain_table_build_bounded() {
+    // A profile of 1,000 vertices (a terrain model's horizon): the integrator cuts azimuth every
+    // 5 deg, and the table takes those 72 cuts as its columns, without rungs: 72 x 13 direct
+    // integrals, not thousands.
+    let points: Vec<[f64; 2]> = (0..1000)
+        .map(|i| {
+            let az = i as f64 * 0.36;
+            [az, 4.0 + 3.0 * (az.to_radians() * 7.0).sin()]
+        })
+        .collect();
+    let terrain = terrain_profile(&points).unwrap();
+    let p = dish(3.7, 8.2e9, 0.6);
+    let b = fixture_sky(8.2, Weather::ClearSky);
+    let table = TerrainNoiseTable::build(&p, &b, &terrain);
+    assert_eq!(
+        table.direct_integrals(),
+        72 * passbudget::noise::terrain_table::ROWS_DEG.len()
+    );
+    let t = table.at(12.0, 10.0).total_k();
+    assert!(t.is_finite() && t > 0.0);
 }
