@@ -1,8 +1,9 @@
 //! Criterion benchmarks of the antenna-noise model: building one station's table (the pattern
 //! integral over boresight elevation, clear sky and the rain case) and one interpolation (the
-//! per-step cost), and one direct terrain integral (`noise::terrain`, the example's Sierra Baja
-//! profile: 1 deg above its 12 deg peak, and at 30 deg facing its low side). Invented X-band
-//! station of the shared fixtures (3.7 m dish).
+//! per-step cost), one direct terrain integral (`noise::terrain`, the example's Sierra Baja
+//! profile: 1 deg above its 12 deg peak, and at 30 deg facing its low side), and the terrain
+//! table over elevation and azimuth (`noise::terrain_table`: its build, clear sky and the rain
+//! case, and one lookup). Invented X-band station of the shared fixtures (3.7 m dish).
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use passbudget::atmosphere::{PreparedAtmosphere, Weather};
@@ -10,6 +11,7 @@ use passbudget::noise::antenna_table::{AntennaNoiseTable, Brightness, GroundSpec
 use passbudget::noise::pattern::NoisePattern;
 use passbudget::noise::sky::sky_temperature_p618_k;
 use passbudget::noise::terrain::{terrain_antenna_noise, terrain_profile};
+use passbudget::noise::terrain_table::TerrainNoiseTable;
 use std::hint::black_box;
 
 #[allow(dead_code)] // each bench uses part of the shared fixtures
@@ -69,6 +71,17 @@ fn bench_noise(c: &mut Criterion) {
             })
         });
     }
+    g.bench_function("terrain_table_build_clear_sky", |b| {
+        b.iter(|| TerrainNoiseTable::build(&pattern, &clear, &terrain).direct_integrals())
+    });
+    let rain = brightness(Weather::Exceedance { percent: 0.1 });
+    g.bench_function("terrain_table_build_rain_0_1_percent", |b| {
+        b.iter(|| TerrainNoiseTable::build(&pattern, &rain, &terrain).direct_integrals())
+    });
+    let table = TerrainNoiseTable::build(&pattern, &clear, &terrain);
+    g.bench_function("terrain_table_lookup", |b| {
+        b.iter(|| table.at(black_box(12.4), black_box(151.3)))
+    });
     g.finish();
 }
 

@@ -35,6 +35,15 @@ pub struct BudgetArgs {
         required_unless_present = "at"
     )]
     pub elevation_deg: Option<f64>,
+    /// Azimuth, deg, with --elevation-deg: where a station's terrain rises above the horizon its
+    /// noise depends on it (default: the azimuth where that noise is highest).
+    #[arg(
+        long,
+        value_name = "DEG",
+        allow_hyphen_values = true,
+        requires = "elevation_deg"
+    )]
+    pub azimuth_deg: Option<f64>,
     /// Time (RFC 3339 UTC): geometry from the propagated orbit.
     #[arg(long, value_name = "TIME")]
     pub at: Option<String>,
@@ -109,7 +118,13 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
     }
     let geometry = match (&a.at, a.elevation_deg) {
         (Some(t), _) => InstantGeometry::At(parse_utc(t).map_err(|e| anyhow!("--at: {e}"))?),
-        (None, Some(e)) => InstantGeometry::Elevation(e),
+        (None, Some(e)) => match a.azimuth_deg {
+            Some(az) => InstantGeometry::Pointing {
+                elevation_deg: e,
+                azimuth_deg: az,
+            },
+            None => InstantGeometry::Elevation(e),
+        },
         (None, None) => bail!("give --elevation-deg E or --at TIME"),
     };
     let req = InstantRequest {
@@ -125,6 +140,7 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
             anyhow!("--at: {s}; --allow-stale-elements budgets anyway")
         }
         InstantError::Elevation(v) => anyhow!("--elevation-deg {v}: out of range (0 to 90 deg)"),
+        InstantError::Azimuth(v) => anyhow!("--azimuth-deg {v}: not a finite number of degrees"),
         InstantError::Range { source }
             if source.key == passbudget::config::limits::RATE_BPS.key =>
         {
@@ -160,10 +176,16 @@ fn print_budget(doc: &BudgetDoc, out: &mut dyn Write) -> Result<()> {
             doc.elevation_deg,
             doc.azimuth_deg.unwrap_or(0.0)
         ),
-        None => format!(
-            "{} to {} at elevation {:.2} deg ({})",
-            doc.satellite, doc.station, doc.elevation_deg, doc.weather
-        ),
+        None => match doc.azimuth_deg {
+            Some(az) => format!(
+                "{} to {} at elevation {:.2} deg, azimuth {:.1} deg ({})",
+                doc.satellite, doc.station, doc.elevation_deg, az, doc.weather
+            ),
+            None => format!(
+                "{} to {} at elevation {:.2} deg ({})",
+                doc.satellite, doc.station, doc.elevation_deg, doc.weather
+            ),
+        },
     };
     writeln!(out, "{head}")?;
     let mut t = Table::new(&[

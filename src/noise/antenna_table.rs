@@ -5,7 +5,8 @@
 //! angle around the boresight; the direction's elevation is
 //! `sin el = sin e0 cos psi + cos e0 sin psi cos phi` (spherical triangle; the pattern is taken
 //! symmetric about its axis and the brightness depends on elevation only, so Ta depends on e0
-//! only; the station's horizon mask is not used here: terrain is taken at the geometric horizon).
+//! only; the station's horizon mask is not used here: terrain is taken at the geometric horizon, and
+//! [`super::terrain_table`] adds it by azimuth).
 //!
 //! Brightness per direction:
 //! * sky (el >= 0): ITU-R P.618-14 eq. (69), `Tsky = Tmr (1 - 10^(-A/10)) + Tbg 10^(-A/10)` with
@@ -116,6 +117,35 @@ impl Brightness {
         let f = x - i as f64;
         let table = if ground { &self.ground } else { &self.sky };
         table[i] + f * (table[i + 1] - table[i])
+    }
+
+    /// The same surroundings seen from a frame whose horizon is raised by `h_deg`: toward an
+    /// elevation e' above that horizon the sky of true elevation e' + h; below it, down to
+    /// e' = -h, terrain radiating as the ground at grazing (`e Tg + (1 - e) Tsky(0)`, the
+    /// brightness [`super::terrain`] gives the terrain), and further down the flat ground at the
+    /// mirror of the true elevation. `raised(0.0)` is `self`, value for value.
+    pub fn raised(&self, h_deg: f64) -> Self {
+        let n = PROFILE_NODES;
+        let h = h_deg.max(0.0);
+        let terrain_k = self.ground[0];
+        let mut sky = Vec::with_capacity(n + 1);
+        let mut ground = Vec::with_capacity(n + 1);
+        for i in 0..=n {
+            let s = i as f64 / n as f64;
+            let e = (s * s).clamp(0.0, 1.0).asin().to_degrees();
+            if h == 0.0 {
+                sky.push(self.sky[i]);
+                ground.push(self.ground[i]);
+                continue;
+            }
+            sky.push(self.side_at((e + h).min(90.0).to_radians().sin(), false));
+            ground.push(if e <= h {
+                terrain_k
+            } else {
+                self.side_at(-(e - h).to_radians().sin(), true)
+            });
+        }
+        Self { sky, ground }
     }
 
     /// Brightness toward sin el = `u`: `(kelvin, is_ground)`.

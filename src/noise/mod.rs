@@ -1,7 +1,8 @@
 //! Receiving-system noise: sky brightness temperature ([`sky`]), the ground antenna's reference
 //! pattern for noise ([`pattern`]), the antenna noise over elevation integrated over that pattern
 //! ([`antenna_table`]), the same with terrain above the geometric horizon by azimuth
-//! ([`terrain`], direct integral, not yet used by the plan), man-made noise of the surroundings (ITU-R P.372 Table 1, [`man_made`]),
+//! ([`terrain`], direct integral) and its table over elevation and azimuth ([`terrain_table`]),
+//! man-made noise of the surroundings (ITU-R P.372 Table 1, [`man_made`]),
 //! the Sun's and the Moon's disk brightness ([`sun`], [`moon`]) and the antenna temperature a
 //! bright disk adds near the beam ([`disk`]), and the Friis receiver cascade and system noise
 //! temperature ([`system`]).
@@ -18,6 +19,7 @@ pub mod sky;
 pub mod sun;
 pub mod system;
 pub mod terrain;
+pub mod terrain_table;
 
 /// The noise the antenna delivers at its terminals at one instant, by source, K. Each term is a
 /// noise temperature at the antenna terminals (the pattern-weighted brightness of its source); the

@@ -425,8 +425,17 @@ fn gaussian(peak: f64, sigma_rad: f64, psi_rad: f64) -> f64 {
 /// The S.465-6 envelope, held at its psi_min value inside psi_min, linear.
 #[inline]
 fn held_envelope(psi_rad: f64, psi_min_deg: f64) -> f64 {
-    db_to_ratio(s465_envelope_dbi(psi_rad.to_degrees().max(psi_min_deg)))
+    let psi_deg = psi_rad.to_degrees().max(psi_min_deg);
+    if psi_deg < 48.0 {
+        // 10^((32 - 25 log10 psi) / 10) = 10^3.2 psi^-2.5: one root instead of a log and a power
+        ENVELOPE_AT_1_DEG / (psi_deg * psi_deg * psi_deg.sqrt())
+    } else {
+        db_to_ratio(s465_envelope_dbi(psi_deg))
+    }
 }
+
+/// 10^3.2, the envelope's linear gain at 1 deg.
+const ENVELOPE_AT_1_DEG: f64 = 1_584.893_192_461_113_5;
 
 /// The first angle where the Gaussian falls to the held envelope (scan, then bisection).
 fn join_angle_rad(peak: f64, sigma_rad: f64, psi_min_deg: f64) -> f64 {

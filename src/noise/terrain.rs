@@ -26,19 +26,19 @@
 //! from the Gaussian to the scaled envelope) crosses it. The terrain edge `el = H(az)` is so met
 //! exactly at every azimuth node.
 //!
-//! Status: this is the direct integral only. A table over (elevation above the terrain,
-//! azimuth) with bilinear interpolation was tried (36 azimuth columns, rows refined as the 1-D
-//! table's): on the shipped example's profile it needed 8,000-22,000 direct integrals per station
-//! and weather case (seconds; one integral is 0.2-0.7 ms, `benches/noise.rs`) and missed a 0.25 K
-//! bound by up to 5 K next to the profile's highest vertex, so the plan's steps still take the 1-D
-//! table (terrain at the geometric horizon); see the README's noise section.
+//! Use: this is the direct integral (0.2-0.7 ms, `benches/noise.rs`), the reference of the
+//! table over elevation and azimuth the plan's steps read ([`super::terrain_table`]). A first
+//! table over (elevation above the terrain, azimuth) alone, 36 azimuth columns, needed
+//! 8,000-22,000 of these integrals per station and weather case and missed a 0.25 K bound by up
+//! to 5 K next to the profile's highest vertex; the table now carries the main beam's crossing of
+//! the edge in raised-horizon tables and takes the direct integral only for the far terrain.
 
 use super::antenna_table::{integrate, AntennaNoise, Brightness, Rings};
 use super::pattern::{NoisePattern, GL4, GL8};
 use crate::geometry::HorizonMask;
 
 /// Most profile kinks taken as azimuth cuts; a denser profile is cut every 360/MAX_KINKS deg.
-const MAX_KINKS: usize = 72;
+pub(crate) const MAX_KINKS: usize = 72;
 
 /// The terrain profile of a station for noise: `H(az) = max(0, profile)`, or `None` when the
 /// profile never rises above the geometric horizon (the 1-D table is then exact).
@@ -50,7 +50,7 @@ pub fn terrain_profile(points: &[[f64; 2]]) -> Option<HorizonMask> {
 }
 
 /// What the quadrature needs of the pattern and the terrain, prepared once.
-struct TerrainIntegrator<'a> {
+pub(crate) struct TerrainIntegrator<'a> {
     pattern: &'a NoisePattern,
     rings: Rings,
     terrain: &'a HorizonMask,
@@ -59,12 +59,12 @@ struct TerrainIntegrator<'a> {
     /// The join angle of the reference pattern (a step in the gain), rad.
     join_rad: Option<f64>,
     /// Azimuths where the profile has a kink (vertices and zero crossings), deg.
-    kinks_deg: Vec<f64>,
+    pub(crate) kinks_deg: Vec<f64>,
     highest_deg: f64,
 }
 
 impl<'a> TerrainIntegrator<'a> {
-    fn new(pattern: &'a NoisePattern, terrain: &'a HorizonMask) -> Self {
+    pub(crate) fn new(pattern: &'a NoisePattern, terrain: &'a HorizonMask) -> Self {
         let pts = terrain.points();
         let mut kinks_deg: Vec<f64> = pts.iter().map(|p| p[0]).collect();
         for (i, a) in pts.iter().enumerate() {
@@ -93,7 +93,7 @@ impl<'a> TerrainIntegrator<'a> {
     }
 
     /// The antenna noise at boresight (`e0`, `a0`) deg: the flat integral plus the terrain's.
-    fn at(&self, b: &Brightness, e0: f64, a0: f64) -> AntennaNoise {
+    pub(crate) fn at(&self, b: &Brightness, e0: f64, a0: f64) -> AntennaNoise {
         let flat = integrate(&self.rings, b, e0);
         let (terrain, hidden_sky) = self.terrain_part(b, e0, a0);
         AntennaNoise {
@@ -208,7 +208,7 @@ impl<'a> TerrainIntegrator<'a> {
 
 /// Half the half-power beamwidth of the pattern, deg (first angle where the gain falls to half
 /// its on-axis value; bisection).
-fn half_power_half_width_deg(pattern: &NoisePattern) -> f64 {
+pub(crate) fn half_power_half_width_deg(pattern: &NoisePattern) -> f64 {
     let g0 = pattern.gain(0.0);
     let below = |deg: f64| pattern.gain(deg.to_radians()) <= 0.5 * g0;
     let mut hi = 1e-3;

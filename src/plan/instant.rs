@@ -28,8 +28,17 @@ use chrono::{DateTime, Utc};
 pub enum InstantGeometry {
     /// At this time, from the propagated orbit.
     At(DateTime<Utc>),
-    /// At this elevation, deg (0 to 90); range from the orbit's semi-major axis.
+    /// At this elevation, deg (0 to 90); range from the orbit's semi-major axis. For a station
+    /// whose terrain rises above the geometric horizon the antenna noise depends on the azimuth
+    /// too: it is taken at the azimuth where it is highest at that elevation among those whose
+    /// terrain is not above it ([`crate::plan::noise::StationNoise::worst_azimuth_deg`]), which
+    /// the budget reports.
     Elevation(f64),
+    /// At this elevation and azimuth, deg; range from the orbit's semi-major axis.
+    Pointing {
+        elevation_deg: f64,
+        azimuth_deg: f64,
+    },
 }
 
 /// What to budget.
@@ -79,6 +88,8 @@ pub enum InstantError {
     },
     #[error("elevation: {0} deg is out of range (0 to 90 deg)")]
     Elevation(String),
+    #[error("azimuth: {0} is not a finite number of degrees")]
+    Azimuth(String),
     #[error(transparent)]
     Slant(#[from] crate::geometry::slant::SlantError),
     #[error("{0}")]
@@ -102,10 +113,13 @@ pub struct InstantBudget {
     pub station: StationModel,
     pub rates: RateSet,
     pub time: Option<DateTime<Utc>>,
-    /// The geometry the budget was made for. For a budget at a given elevation the azimuth is
-    /// not known: `look.azimuth_deg` is then 0 and [`InstantBudget::azimuth_deg`] says `None`.
+    /// The geometry the budget was made for. For a budget at a given elevation without an
+    /// azimuth, `look.azimuth_deg` is the azimuth the terrain's noise was taken at (the worst,
+    /// [`InstantGeometry::Elevation`]) for a station with terrain, else 0, and
+    /// [`InstantBudget::azimuth_deg`] says `None`.
     pub look: Look,
-    /// Azimuth of the satellite, deg, for a time-based geometry.
+    /// Azimuth, deg: of the satellite for a time-based geometry, the one given, or the one the
+    /// terrain's noise was taken at for an elevation alone (`None` without terrain).
     pub azimuth_deg: Option<f64>,
     pub exceedance_percent: Option<f64>,
     pub attenuation: Attenuation,
@@ -164,7 +178,7 @@ pub fn instant_budget(
     // else the latest set.
     let when = match req.geometry {
         InstantGeometry::At(t) => t,
-        InstantGeometry::Elevation(_) => mission
+        InstantGeometry::Elevation(_) | InstantGeometry::Pointing { .. } => mission
             .start
             .unwrap_or(chrono::DateTime::<chrono::Utc>::MAX_UTC),
     };
@@ -173,11 +187,25 @@ pub fn instant_budget(
     if let InstantGeometry::At(t) = req.geometry {
         super::inputs::check_element_age(&elements, t, t, req.allow_stale_elements)?;
     }
-    let (look, time) = look_at(&model, &elements, &prop, req.geometry)?;
+    let (mut look, time) = look_at(&model, &elements, &prop, req.geometry)?;
     let rate = rate_spec(mission, &model, &rates, req)?;
     let weather = availability_weather(req.exceedance_percent, std::slice::from_ref(&model))?
         .unwrap_or(Weather::ClearSky);
     model.prepare_weather(weather);
+    let azimuth_deg = match req.geometry {
+        InstantGeometry::At(_) => Some(look.azimuth_deg),
+        InstantGeometry::Pointing { .. } => Some(look.azimuth_deg),
+        InstantGeometry::Elevation(e) => model.noise.worst_azimuth_deg(e, weather),
+    };
+    let worst_azimuth_note = match (req.geometry, azimuth_deg) {
+        (InstantGeometry::Elevation(_), Some(az)) => {
+            look.azimuth_deg = az;
+            Some(format!(
+                "no azimuth given: the terrain's noise is taken at azimuth {az:.1} deg, where it is highest at this elevation among the azimuths whose terrain is not above it"
+            ))
+        }
+        _ => None,
+    };
     // With a time, the Sun and the Moon are where they are then (a track of zero length).
     let bodies = time
         .map(|t| -> Result<PassBodies, SeriesError> {
@@ -219,6 +247,7 @@ pub fn instant_budget(
     items.extend(pfd.iter().flat_map(|p| pfd_items(p, spectrum)));
     warnings.extend(pfd_warning(&model, pfd.as_ref()));
     warnings.extend(selection_note(&elements, &selection));
+    warnings.extend(worst_azimuth_note);
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
     }
@@ -229,7 +258,7 @@ pub fn instant_budget(
         station: model,
         rates,
         time,
-        azimuth_deg: time.map(|_| look.azimuth_deg),
+        azimuth_deg,
         look,
         exceedance_percent: req.exceedance_percent,
         attenuation: att,
@@ -368,10 +397,21 @@ fn look_at(
             }
             Ok((look, Some(t)))
         }
-        InstantGeometry::Elevation(e) => {
+        InstantGeometry::Elevation(e)
+        | InstantGeometry::Pointing {
+            elevation_deg: e, ..
+        } => {
             if !(0.0..=90.0).contains(&e) {
                 return Err(InstantError::Elevation(short_number(e)));
             }
+            // The azimuth given, or 0 until the budget chooses one (InstantGeometry::Elevation).
+            let azimuth_deg = match geometry {
+                InstantGeometry::Pointing { azimuth_deg, .. } if !azimuth_deg.is_finite() => {
+                    return Err(InstantError::Azimuth(short_number(azimuth_deg)));
+                }
+                InstantGeometry::Pointing { azimuth_deg, .. } => azimuth_deg.rem_euclid(360.0),
+                _ => 0.0,
+            };
             let p = model.observer.position_km();
             let station_radius_km = (p[0] * p[0] + p[1] * p[1] + p[2] * p[2]).sqrt();
             let (range_km, off_nadir_deg) = crate::geometry::slant::slant_range_km(
@@ -379,9 +419,8 @@ fn look_at(
                 prop.semi_major_axis_km(),
                 e,
             )?;
-            // No azimuth for a budget at a given elevation (the budget does not use it).
             let look = Look {
-                azimuth_deg: 0.0,
+                azimuth_deg,
                 elevation_deg: e,
                 range_km,
                 range_rate_km_s: 0.0,
@@ -479,7 +518,11 @@ fn items(
         .link
         .itemize(geometry, atmosphere_loss, external, rate)?;
     let mut items = Vec::with_capacity(link_items.len() + atmosphere.len());
-    for i in link_items {
+    for mut i in link_items {
+        if i.name == "ground_noise" && model.noise.has_terrain() {
+            // The terrain above the geometric horizon is part of the ground term.
+            i.source = "ground over the pattern: e Tg + (1 - e) Tsky(mirror); with the terrain of horizon_mask at this azimuth, e Tg + (1 - e) Tsky(0)".into();
+        }
         let after_fsl = i.name == "free_space_loss";
         let after_moon = i.name == "moon_noise";
         items.push(i);

@@ -1,8 +1,15 @@
 //! The station's noise model, prepared once: the ground antenna's reference pattern
 //! ([`crate::noise::pattern`]), one antenna-noise table per weather case
-//! ([`crate::noise::antenna_table`], the sky brightness from the station's own atmosphere), and
-//! the man-made noise of its surroundings ([`crate::noise::man_made`]). Per step,
+//! ([`crate::noise::antenna_table`], the sky brightness from the station's own atmosphere), for
+//! a station whose horizon mask rises above the geometric horizon one table over elevation and
+//! azimuth per weather case as well ([`crate::noise::terrain_table`]: the terrain seen by
+//! azimuth), and the man-made noise of its surroundings ([`crate::noise::man_made`]). Per step,
 //! [`StationNoise::external_at`] interpolates; nothing is integrated.
+//!
+//! The terrain's part is in the ground term (the terrain radiates as the ground at grazing) and
+//! the sky it hides is off the sky term. A measured antenna temperature already holds the
+//! terrain where it was measured: with one, the terrain table is not built and the 1-D rule below
+//! applies at every azimuth.
 //!
 //! A measured clear-sky antenna temperature (Y-factor, `antenna.measured_noise_temperature_k`)
 //! replaces the integral's clear-sky total; it is split into sky and ground by the integral's
@@ -12,10 +19,12 @@
 //! temperature is interpolated linearly; outside them the end value is held.
 
 use crate::atmosphere::{PreparedAtmosphere, Weather};
+use crate::geometry::HorizonMask;
 use crate::noise::antenna_table::{AntennaNoise, AntennaNoiseTable, Brightness, GroundSpec};
 use crate::noise::man_made::{man_made_noise, Environment, ManMadeNoise};
 use crate::noise::pattern::{NoisePattern, PatternWarnings};
 use crate::noise::sky::sky_temperature_unchecked;
+use crate::noise::terrain_table::TerrainNoiseTable;
 use crate::noise::ExternalNoise;
 
 /// Validity notes of a station's noise model (constant over a plan).
@@ -75,13 +84,20 @@ pub struct StationNoise {
     clear: AntennaNoiseTable,
     /// The measured clear-sky table, `[elevation_deg, temperature_k]`, and the model's clear table.
     measured: Option<(Vec<[f64; 2]>, AntennaNoiseTable)>,
-    availability: Option<(Weather, AntennaNoiseTable)>,
+    availability: Option<(Weather, AntennaNoiseTable, Option<TerrainNoiseTable>)>,
+    /// The terrain above the geometric horizon ([`crate::noise::terrain::terrain_profile`]), if
+    /// any, and its clear-sky table (none with a measured antenna temperature).
+    terrain: Option<HorizonMask>,
+    clear_terrain: Option<TerrainNoiseTable>,
     man_made: Option<(Environment, ManMadeNoise)>,
     warnings: NoiseWarnings,
 }
 
 impl StationNoise {
-    /// The clear-sky table and the man-made term of a station.
+    /// The clear-sky table and the man-made term of a station; with `terrain`
+    /// ([`crate::noise::terrain::terrain_profile`] of its horizon mask) and no measured antenna
+    /// temperature, the clear-sky table over elevation and azimuth too.
+    #[allow(clippy::too_many_arguments)]
     pub fn new(
         pattern: NoisePattern,
         ground: GroundSpec,
@@ -90,6 +106,7 @@ impl StationNoise {
         background_k: f64,
         man_made: Option<(Environment, f64)>,
         measured: Option<Vec<[f64; 2]>>,
+        terrain: Option<HorizonMask>,
     ) -> Self {
         let man_made = man_made.map(|(e, f)| (e, man_made_noise(e, f)));
         let warnings = NoiseWarnings {
@@ -106,8 +123,12 @@ impl StationNoise {
             man_made,
             warnings,
             measured: None,
+            terrain: if measured.is_none() { terrain } else { None },
+            clear_terrain: None,
         };
-        let model = s.model_table(atmosphere, Weather::ClearSky);
+        let brightness = s.brightness(atmosphere, Weather::ClearSky);
+        let model = AntennaNoiseTable::build(&s.pattern, &brightness);
+        s.clear_terrain = s.terrain_table(&brightness);
         match measured {
             Some(m) => {
                 s.clear = combine(&m, &model, &model);
@@ -120,40 +141,52 @@ impl StationNoise {
 
     /// Build the table of `weather` (the availability case), replacing any other.
     pub fn prepare_weather(&mut self, atmosphere: &PreparedAtmosphere, weather: Weather) {
-        let done = self.availability.as_ref().map(|(w, _)| *w) == Some(weather);
+        let done = self.availability.as_ref().map(|(w, ..)| *w) == Some(weather);
         if weather != Weather::ClearSky && !done {
-            self.availability = Some((weather, self.table(atmosphere, weather)));
+            let brightness = self.brightness(atmosphere, weather);
+            let model = AntennaNoiseTable::build(&self.pattern, &brightness);
+            let table = match &self.measured {
+                Some((m, clear_model)) => combine(m, clear_model, &model),
+                None => model,
+            };
+            self.availability = Some((weather, table, self.terrain_table(&brightness)));
         }
     }
 
-    fn table(&self, atmosphere: &PreparedAtmosphere, weather: Weather) -> AntennaNoiseTable {
-        let model = self.model_table(atmosphere, weather);
-        match &self.measured {
-            Some((m, clear_model)) => combine(m, clear_model, &model),
-            None => model,
-        }
-    }
-
-    fn model_table(&self, atmosphere: &PreparedAtmosphere, weather: Weather) -> AntennaNoiseTable {
+    /// The surroundings' brightness in `weather`.
+    fn brightness(&self, atmosphere: &PreparedAtmosphere, weather: Weather) -> Brightness {
         let (tmr, bg) = (self.mean_radiating_temperature_k, self.background_k);
         // Tsky(el) = Tmr (1 - 10^(-A/10)) + Tbg 10^(-A/10)   (P.618-14 eq. 69)
-        let brightness = Brightness::new(
+        Brightness::new(
             |el| sky_temperature_unchecked(atmosphere.at(el, weather).absorptive_db, tmr, bg),
             self.ground,
-        );
-        AntennaNoiseTable::build(&self.pattern, &brightness)
+        )
     }
 
-    /// The antenna's noise terms at `elevation_deg` in `weather`; `None` when that weather's table
-    /// was not prepared. Interpolation only; allocates nothing.
+    fn terrain_table(&self, brightness: &Brightness) -> Option<TerrainNoiseTable> {
+        let t = self.terrain.as_ref()?;
+        Some(TerrainNoiseTable::build(&self.pattern, brightness, t))
+    }
+
+    /// The antenna's noise terms at boresight `elevation_deg` and `azimuth_deg` in `weather`
+    /// (the azimuth matters only for a station with terrain above the geometric horizon); `None`
+    /// when that weather's table was not prepared. Interpolation only; allocates nothing.
     #[inline]
-    pub fn external_at(&self, elevation_deg: f64, weather: Weather) -> Option<ExternalNoise> {
-        let table = match (weather, &self.availability) {
-            (Weather::ClearSky, _) => &self.clear,
-            (w, Some((a, t))) if *a == w => t,
+    pub fn external_at(
+        &self,
+        elevation_deg: f64,
+        azimuth_deg: f64,
+        weather: Weather,
+    ) -> Option<ExternalNoise> {
+        let (table, terrain) = match (weather, &self.availability) {
+            (Weather::ClearSky, _) => (&self.clear, &self.clear_terrain),
+            (w, Some((a, t, tt))) if *a == w => (t, tt),
             _ => return None,
         };
-        let a = table.at(elevation_deg);
+        let a = match terrain {
+            Some(t) => t.at(elevation_deg, azimuth_deg),
+            None => table.at(elevation_deg),
+        };
         Some(ExternalNoise {
             sky_k: a.sky_k,
             ground_k: a.ground_k,
@@ -161,6 +194,46 @@ impl StationNoise {
             sun_k: 0.0,
             moon_k: 0.0,
         })
+    }
+
+    /// The station has a terrain table: its antenna noise depends on the azimuth.
+    pub fn has_terrain(&self) -> bool {
+        self.clear_terrain.is_some()
+    }
+
+    /// The azimuth (deg, on a 0.5 deg grid) where the antenna noise at `elevation_deg` in
+    /// `weather` is highest among the azimuths where the terrain does not rise above that
+    /// elevation (a satellite there is in view); where it rises above it everywhere, the azimuth
+    /// of the lowest terrain. The rule of a budget given an elevation and no azimuth. `None`
+    /// without terrain (the azimuth does not matter) or when the weather was not prepared.
+    pub fn worst_azimuth_deg(&self, elevation_deg: f64, weather: Weather) -> Option<f64> {
+        let terrain = self.terrain.as_ref().filter(|_| self.has_terrain())?;
+        let mut best: Option<(f64, f64)> = None;
+        let mut lowest: Option<(f64, f64)> = None;
+        for i in 0..720 {
+            let az = 0.5 * i as f64;
+            let h = terrain.limit_deg(az);
+            if lowest.is_none_or(|(_, l)| h < l) {
+                lowest = Some((az, h));
+            }
+            if h > elevation_deg {
+                continue;
+            }
+            let t = self.external_at(elevation_deg, az, weather)?.total_k();
+            if best.is_none_or(|(_, b)| t > b) {
+                best = Some((az, t));
+            }
+        }
+        best.or(lowest).map(|(az, _)| az)
+    }
+
+    /// The terrain table of `weather`, if the station has one and the weather was prepared.
+    pub fn terrain_table_of(&self, weather: Weather) -> Option<&TerrainNoiseTable> {
+        match (weather, &self.availability) {
+            (Weather::ClearSky, _) => self.clear_terrain.as_ref(),
+            (w, Some((a, _, t))) if *a == w => t.as_ref(),
+            _ => None,
+        }
     }
 
     /// The man-made noise temperature, K (0 without a category).

@@ -301,6 +301,7 @@ fn station_noise(
         link.background_temperature_k(),
         st.man_made_noise.map(|e| (e, f)),
         ant.measured_noise_temperature_k.clone(),
+        crate::noise::terrain::terrain_profile(&st.horizon_mask),
     ))
 }
 

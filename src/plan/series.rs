@@ -237,7 +237,7 @@ fn link_of_terms(
     // The antenna's noise terms: interpolated from the station's table of this weather.
     let mut external = model
         .noise
-        .external_at(look.elevation_deg, weather)
+        .external_at(look.elevation_deg, look.azimuth_deg, weather)
         .ok_or(SeriesError::WeatherNotPrepared { weather })?;
     if let Some(s) = bodies {
         // The disks are seen through the path of the pointing direction (plan::bodies):

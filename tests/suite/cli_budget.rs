@@ -265,8 +265,11 @@ fn clear_sky_budget_does_not_carry_the_exceedance_cloud() {
         "both",
     );
     let sb = "Sierra Baja";
+    // Sierra Baja's terrain rises above the horizon, so its noise depends on the azimuth: the
+    // budgets face its low side (2 deg at azimuth 330, 3 deg below the beam), where the cloud's
+    // sky noise is seen much as without terrain.
     let json_of = |m: &str, more: &[&str]| {
-        let mut args = vec!["--format", "json"];
+        let mut args = vec!["--format", "json", "--azimuth-deg", "330"];
         args.extend(more);
         json(&budget(m, sb, "5", &args))
     };

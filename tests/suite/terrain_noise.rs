@@ -12,6 +12,8 @@ use passbudget::noise::antenna_table::{AntennaNoiseTable, Brightness, GroundSpec
 use passbudget::noise::pattern::NoisePattern;
 use passbudget::noise::sky::sky_temperature_p618_k;
 use passbudget::noise::terrain::{terrain_antenna_noise, terrain_profile};
+use passbudget::noise::terrain_table::TerrainNoiseTable;
+use passbudget::plan::noise::StationNoise;
 
 const C: f64 = 299_792_458.0;
 
@@ -217,4 +219,213 @@ fn the_pointing_that_faces_the_raised_terrain_gets_more_noise() {
     let inside = terrain_antenna_noise(&p, &b, &terrain, 5.0, 150.0);
     let flat = AntennaNoiseTable::integrate_at(&p, &b, 5.0);
     assert!(inside.ground_k > flat.ground_k + 0.8 * p.main_beam_efficiency() * 200.0);
+}
+
+/// Directions beside and over every vertex of the example's profile and between them: azimuths
+/// at the vertices and 0.2-5 deg from them, elevations from 1 deg inside the terrain to 60 deg
+/// above it.
+fn probe_directions(terrain: &HorizonMask) -> Vec<(f64, f64)> {
+    let vertices = [0.0, 60.0, 110.0, 150.0, 200.0, 270.0, 330.0];
+    let mut azimuths = vec![30.0, 85.0, 130.0, 175.0, 235.0, 300.0, 345.0];
+    for v in vertices {
+        for o in [0.0, 0.2, 0.5, 1.0, 2.0, 5.0] {
+            azimuths.extend([v + o, v - o]);
+        }
+    }
+    let mut out = Vec::new();
+    for a in azimuths {
+        let a = f64::rem_euclid(a, 360.0);
+        let h = terrain.limit_deg(a);
+        for du in [
+            -1.0, -0.3, 0.0, 0.1, 0.3, 0.5, 1.0, 2.0, 5.0, 12.0, 30.0, 60.0,
+        ] {
+            out.push(((h + du).min(90.0), a));
+        }
+    }
+    out
+}
+
+#[test]
+fn terrain_table_stays_within_its_bound_of_the_direct_integral() {
+    // The table of noise::terrain_table against the direct integral of noise::terrain, whose own
+    // checks are above: a 3.7 m X-band dish (theta_3dB 0.7 deg) in clear sky and 0.1 % rain,
+    // and a 1.2 m S-band dish (8 deg), on the example's profile, beside and over its peaks.
+    let terrain = sierra();
+    let directions = probe_directions(&terrain);
+    for (d, f_ghz, weather) in [
+        (3.7, 8.2, Weather::ClearSky),
+        (3.7, 8.2, Weather::Exceedance { percent: 0.1 }),
+        (1.2, 2.2, Weather::ClearSky),
+    ] {
+        let p = dish(d, f_ghz * 1e9, 0.6);
+        let b = fixture_sky(f_ghz, weather);
+        let table = TerrainNoiseTable::build(&p, &b, &terrain);
+        let mut worst = (0.0f64, 0.0, 0.0);
+        for &(el, az) in &directions {
+            let direct = terrain_antenna_noise(&p, &b, &terrain, el, az);
+            let t = table.at(el, az);
+            let err = (t.total_k() - direct.total_k()).abs();
+            if err > worst.0 {
+                worst = (err, el, az);
+            }
+        }
+        assert!(
+            worst.0 < TERRAIN_TABLE_K,
+            "{d} m at {f_ghz} GHz, {weather:?}: {:.3} K at el {:.2} az {:.2}",
+            worst.0,
+            worst.1,
+            worst.2
+        );
+    }
+}
+
+#[test]
+fn a_profile_at_the_horizon_keeps_the_elevation_table_at_every_azimuth() {
+    // Raising the horizon by 0 deg leaves the brightness as it is, value for value; a station whose
+    // mask never rises above 0 deg has no terrain table and gets the 1-D table at every azimuth.
+    let b = fixture_sky(8.2, Weather::ClearSky);
+    assert_eq!(b.raised(0.0), b);
+    let atm = PreparedAtmosphere::new(&atmosphere_site(), &atmosphere_path(8.2)).unwrap();
+    let noise = |mask: &[[f64; 2]]| {
+        StationNoise::new(
+            dish(3.7, 8.2e9, 0.6),
+            GROUND,
+            &atm,
+            275.0,
+            2.73,
+            None,
+            None,
+            terrain_profile(mask),
+        )
+    };
+    let flat = noise(&[[0.0, 0.0], [120.0, -1.0], [240.0, 0.0]]);
+    assert!(!flat.has_terrain());
+    for e in [-3.0, 0.0, 0.4, 5.0, 13.0, 45.0, 90.0] {
+        let want = flat.clear_table().at(e);
+        for az in [0.0, 90.0, 150.0, 271.5] {
+            let got = flat.external_at(e, az, Weather::ClearSky).unwrap();
+            assert_eq!((got.sky_k, got.ground_k), (want.sky_k, want.ground_k));
+        }
+    }
+    // With the example's profile the same station has a table, and azimuth matters.
+    let hilly = noise(&[
+        [0.0, 2.0],
+        [60.0, 4.0],
+        [110.0, 9.0],
+        [150.0, 12.0],
+        [200.0, 6.0],
+        [270.0, 3.0],
+        [330.0, 2.0],
+    ]);
+    assert!(hilly.has_terrain());
+    let at = |az| {
+        hilly
+            .external_at(13.0, az, Weather::ClearSky)
+            .unwrap()
+            .total_k()
+    };
+    assert!(at(150.0) > at(330.0) + 5.0);
+    // A budget given an elevation alone takes the azimuth where the noise is highest among those
+    // whose terrain is not above it: at 13 deg, facing the 12 deg peak; at 5 deg, somewhere the
+    // terrain is at most 5 deg; at 1 deg, below the terrain everywhere, where it is lowest (2 deg).
+    let worst = hilly.worst_azimuth_deg(13.0, Weather::ClearSky).unwrap();
+    assert!((worst - 150.0).abs() <= 2.0, "{worst}");
+    let worst = hilly.worst_azimuth_deg(5.0, Weather::ClearSky).unwrap();
+    assert!(sierra().limit_deg(worst) <= 5.0, "{worst}");
+    let worst = hilly.worst_azimuth_deg(1.0, Weather::ClearSky).unwrap();
+    assert_eq!(sierra().limit_deg(worst), 2.0, "{worst}");
+}
+
+#[test]
+fn a_pass_low_over_the_terrain_has_a_higher_system_temperature_than_one_over_the_low_side() {
+    // The plan's steps take the azimuth: the example's Sierra Baja passes at 12-16 deg facing the
+    // 9-12 deg terrain to the south-east (azimuth 120-180) see more ground noise and a higher
+    // system temperature than its steps at the same elevations over the 2-3 deg side (270-30).
+    use passbudget::config::mission::Mission;
+    use passbudget::plan::{FnSink, PassSeries, PlanRequest, Planner};
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+    let mission = Mission::load(&root.join("examples/wrenlet-1.yaml")).unwrap();
+    let sierra_index = mission
+        .stations
+        .iter()
+        .position(|s| s.name == "Sierra Baja")
+        .unwrap();
+    let planner = Planner::new(&mission, &PlanRequest::default()).unwrap();
+    let steps = std::sync::Mutex::new(Vec::new());
+    let sink = FnSink(|s: &PassSeries<'_>| {
+        if s.plan.station_index == sierra_index {
+            let mut v = steps.lock().unwrap();
+            for st in s
+                .steps
+                .iter()
+                .filter(|st| (12.0..16.0).contains(&st.elevation_deg))
+            {
+                v.push((st.azimuth_deg, st.ground_noise_k, st.system_temperature_k));
+            }
+        }
+        Ok::<(), std::io::Error>(())
+    });
+    planner.run(&sink).unwrap();
+    let steps = steps.into_inner().unwrap();
+    let mean = |f: &dyn Fn(f64) -> bool, pick: fn(&(f64, f64, f64)) -> f64| {
+        let v: Vec<f64> = steps.iter().filter(|s| f(s.0)).map(pick).collect();
+        assert!(v.len() >= 5, "{} steps", v.len());
+        v.iter().sum::<f64>() / v.len() as f64
+    };
+    let facing = |az: f64| (120.0..180.0).contains(&az);
+    let low = |az: f64| !(30.0..270.0).contains(&az);
+    let (g_facing, g_low) = (mean(&facing, |s| s.1), mean(&low, |s| s.1));
+    let (t_facing, t_low) = (mean(&facing, |s| s.2), mean(&low, |s| s.2));
+    assert!(
+        g_facing > g_low + 2.0 && t_facing > t_low + 2.0,
+        "ground {g_facing:.2} vs {g_low:.2} K, Tsys {t_facing:.2} vs {t_low:.2} K"
+    );
+}
+
+#[test]
+fn terrain_lookups_allocate_nothing() {
+    // The plan's step reads the terrain table through StationNoise::external_at: no allocation
+    // (the hot path's rule; counted per thread by common::alloc).
+    use crate::common::alloc::thread_allocations;
+    let p = dish(3.7, 8.2e9, 0.6);
+    let b = fixture_sky(8.2, Weather::ClearSky);
+    let table = TerrainNoiseTable::build(&p, &b, &sierra());
+    let atm = PreparedAtmosphere::new(&atmosphere_site(), &atmosphere_path(8.2)).unwrap();
+    let noise = StationNoise::new(p, GROUND, &atm, 275.0, 2.73, None, None, Some(sierra()));
+    let before = thread_allocations();
+    let mut acc = 0.0;
+    for i in 0..2000 {
+        let (e, a) = (-2.0 + (i % 90) as f64, (i as f64 * 7.3) % 360.0);
+        acc += table.at(e, a).total_k();
+        acc += noise
+            .external_at(e, a, Weather::ClearSky)
+            .unwrap()
+            .total_k();
+    }
+    let after = thread_allocations();
+    assert!(acc.is_finite());
+    assert_eq!(after - before, 0, "terrain lookups allocated");
+}
+
+#[test]
+fn a_dense_profile_keeps_the_terrain_table_build_bounded() {
+    // A profile of 1,000 vertices (a terrain model's horizon): the integrator cuts azimuth every
+    // 5 deg, and the table takes those 72 cuts as its columns, without rungs: 72 x 13 direct
+    // integrals, not thousands.
+    let points: Vec<[f64; 2]> = (0..1000)
+        .map(|i| {
+            let az = i as f64 * 0.36;
+            [az, 4.0 + 3.0 * (az.to_radians() * 7.0).sin()]
+        })
+        .collect();
+    let terrain = terrain_profile(&points).unwrap();
+    let p = dish(3.7, 8.2e9, 0.6);
+    let b = fixture_sky(8.2, Weather::ClearSky);
+    let table = TerrainNoiseTable::build(&p, &b, &terrain);
+    assert_eq!(
+        table.direct_integrals(),
+        72 * passbudget::noise::terrain_table::ROWS_DEG.len()
+    );
+    let t = table.at(12.0, 10.0).total_k();
+    assert!(t.is_finite() && t > 0.0);
 }
