@@ -203,16 +203,37 @@ impl Rings {
 }
 
 /// `(1/pi) ∫ Tb dphi` over `[lo, hi]` of one ring, 8-point Gauss-Legendre, from the sky table
-/// (`ground` false) or the ground table.
+/// (`ground` false) or the ground table, for each brightness of `bs` (added to `out` times `w`;
+/// `sky` picks the term). The nodes' directions are worked out once for all of them.
 #[inline]
-fn ring_part(b: &Brightness, ground: bool, a0: f64, b0: f64, lo: f64, hi: f64) -> f64 {
+#[allow(clippy::too_many_arguments)]
+fn ring_part(
+    bs: &[&Brightness],
+    ground: bool,
+    (a0, b0): (f64, f64),
+    lo: f64,
+    hi: f64,
+    w: f64,
+    out: &mut [AntennaNoise],
+) {
     let half = 0.5 * (hi - lo);
-    let mut acc = 0.0;
-    for (x, w) in GL8 {
+    let mut u = [0.0; 8];
+    for (k, (x, _)) in GL8.iter().enumerate() {
         let phi = lo + half * (1.0 + x);
-        acc += w * b.side_at(a0 + b0 * phi.cos(), ground);
+        u[k] = a0 + b0 * phi.cos();
     }
-    acc * half / std::f64::consts::PI
+    for (b, o) in bs.iter().zip(out.iter_mut()) {
+        let mut acc = 0.0;
+        for (k, (_, wk)) in GL8.iter().enumerate() {
+            acc += wk * b.side_at(u[k], ground);
+        }
+        let t = acc * half / std::f64::consts::PI;
+        if ground {
+            o.ground_k += w * t;
+        } else {
+            o.sky_k += w * t;
+        }
+    }
 }
 
 /// The sky's share of the rings of off-axis angles `[lo, hi]`, averaged over that band: a ring
@@ -259,11 +280,25 @@ fn band_sky_share(
 /// a square root where it starts to touch the horizon, the band's average smoothly, which keeps
 /// the table over elevation smooth.
 pub(crate) fn integrate(rings: &Rings, b: &Brightness, elevation_deg: f64) -> AntennaNoise {
+    let mut out = [AntennaNoise::default()];
+    integrate_many(rings, std::slice::from_ref(&b), elevation_deg, &mut out);
+    out[0]
+}
+
+/// [`integrate`] for several brightnesses at once, `out[j]` for `bs[j]` (each value for value
+/// what [`integrate`] gives it): the rings' horizon cuts and directions are worked out once, the
+/// brightness is looked up per case.
+pub(crate) fn integrate_many(
+    rings: &Rings,
+    bs: &[&Brightness],
+    elevation_deg: f64,
+    out: &mut [AntennaNoise],
+) {
     let pi = std::f64::consts::PI;
     let e_rad = elevation_deg.to_radians();
     let (se, ce) = e_rad.sin_cos();
     let tan_e = se / ce.max(1e-300);
-    let mut out = AntennaNoise::default();
+    out.fill(AntennaNoise::default());
     for i in 0..rings.weight.len() {
         let w = rings.weight[i];
         // sin el = a + c cos phi
@@ -272,24 +307,25 @@ pub(crate) fn integrate(rings: &Rings, b: &Brightness, elevation_deg: f64) -> An
         let sky_share = band_sky_share(lo, hi, e_rad, tan_e, &rings.band_nodes);
         if sky_share >= 1.0 || sky_share <= 0.0 {
             let ground = sky_share <= 0.0;
-            let mut acc = 0.0;
-            for (k, (_, wk)) in GL8.iter().enumerate() {
-                acc += wk * b.side_at(a + c * rings.cos_phi[k], ground);
-            }
-            // (1/pi) ∫_0^pi = (1/2) Σ w_k Tb(phi_k)
-            let t = 0.5 * acc;
-            if ground {
-                out.ground_k += w * t;
-            } else {
-                out.sky_k += w * t;
+            for (b, o) in bs.iter().zip(out.iter_mut()) {
+                let mut acc = 0.0;
+                for (k, (_, wk)) in GL8.iter().enumerate() {
+                    acc += wk * b.side_at(a + c * rings.cos_phi[k], ground);
+                }
+                // (1/pi) ∫_0^pi = (1/2) Σ w_k Tb(phi_k)
+                let t = 0.5 * acc;
+                if ground {
+                    o.ground_k += w * t;
+                } else {
+                    o.sky_k += w * t;
+                }
             }
             continue;
         }
         let phi_c = pi * sky_share;
-        out.sky_k += w * ring_part(b, false, a, c, 0.0, phi_c);
-        out.ground_k += w * ring_part(b, true, a, c, phi_c, pi);
+        ring_part(bs, false, (a, c), 0.0, phi_c, w, out);
+        ring_part(bs, true, (a, c), phi_c, pi, w, out);
     }
-    out
 }
 
 impl AntennaNoiseTable {
@@ -309,13 +345,60 @@ impl AntennaNoiseTable {
             let next = (at(i), f(at(i)));
             let m = 0.5 * (prev.0 + next.0);
             let mid = (m, f(m));
-            refine(&f, [prev, mid, next], 0, &mut elevation_deg, &mut noise);
+            refine(&f, [prev, mid, next], 0, &off_one, &mut |e, v| {
+                elevation_deg.push(e);
+                noise.push(v);
+            });
             prev = next;
         }
         Self {
             elevation_deg,
             noise,
         }
+    }
+
+    /// Tables for several brightnesses on one grid of elevations, refined by the rule of
+    /// [`Self::build`] wherever any of them needs it: `(rows, values)` with `values[j]` the rows of
+    /// `brightnesses[j]`. The rings' geometry is shared ([`integrate_many`]), and the 5 deg
+    /// intervals the refinement starts from are refined in parallel. For the raised-horizon tables
+    /// of [`super::terrain_table`], whose fast change is at the same elevation (their horizon).
+    pub fn build_many(
+        pattern: &NoisePattern,
+        brightnesses: &[&Brightness],
+    ) -> (Vec<f64>, Vec<Vec<AntennaNoise>>) {
+        use rayon::prelude::*;
+        let rings = Rings::of(pattern);
+        let f = |e: f64| {
+            let mut out = vec![AntennaNoise::default(); brightnesses.len()];
+            integrate_many(&rings, brightnesses, e, &mut out);
+            out
+        };
+        let (lo, hi) = TABLE_RANGE_DEG;
+        let n = ((hi - lo) / START_STEP_DEG).round() as usize;
+        let at = |i: usize| lo + (hi - lo) * i as f64 / n as f64;
+        let ends: Vec<(f64, Vec<AntennaNoise>)> =
+            (0..=n).into_par_iter().map(|i| (at(i), f(at(i)))).collect();
+        let parts: Vec<Vec<(f64, Vec<AntennaNoise>)>> = ends
+            .par_windows(2)
+            .map(|w| {
+                let m = 0.5 * (w[0].0 + w[1].0);
+                let mut rows = Vec::new();
+                refine(
+                    &f,
+                    [w[0].clone(), (m, f(m)), w[1].clone()],
+                    0,
+                    &off_many,
+                    &mut |e, v| rows.push((e, v)),
+                );
+                rows
+            })
+            .collect();
+        let rows_iter = || std::iter::once(&ends[0]).chain(parts.iter().flatten());
+        let rows = rows_iter().map(|r| r.0).collect();
+        let values = (0..brightnesses.len())
+            .map(|j| rows_iter().map(|r| r.1[j]).collect())
+            .collect();
+        (rows, values)
     }
 
     /// The directly integrated value at one elevation (no table; for checks).
@@ -372,32 +455,41 @@ impl AntennaNoiseTable {
     }
 }
 
+/// How far `q` is off the line through `a` and `b`, K: the larger of the two terms.
+fn off_one(a: &AntennaNoise, q: &AntennaNoise, b: &AntennaNoise) -> f64 {
+    let d = |g: fn(&AntennaNoise) -> f64| (g(q) - 0.5 * (g(a) + g(b))).abs();
+    d(|n| n.sky_k).max(d(|n| n.ground_k))
+}
+
+/// [`off_one`] over several brightnesses: the largest. (`&Vec`: the value type `refine` works on.)
+#[allow(clippy::ptr_arg)]
+fn off_many(a: &Vec<AntennaNoise>, q: &Vec<AntennaNoise>, b: &Vec<AntennaNoise>) -> f64 {
+    (0..q.len())
+        .map(|j| off_one(&a[j], &q[j], &b[j]))
+        .fold(0.0, f64::max)
+}
+
 /// Refine `[lo, mid, hi]` (mid known): evaluate the quarter points; while either is off the line
-/// through its neighbours by more than the tolerance, recurse into both halves (each with its
-/// quarter point as its known midpoint). Pushes the rows after `lo` up to and including `hi`; the
-/// table so ends twice as dense as the spacing the test was made at.
-fn refine(
-    f: &impl Fn(f64) -> AntennaNoise,
-    [lo, mid, hi]: [(f64, AntennaNoise); 3],
+/// through its neighbours (by `off`) by more than the tolerance, recurse into both halves (each
+/// with its quarter point as its known midpoint). Pushes the rows after `lo` up to and including
+/// `hi`; the table so ends twice as dense as the spacing the test was made at.
+fn refine<T: Clone>(
+    f: &impl Fn(f64) -> T,
+    [lo, mid, hi]: [(f64, T); 3],
     depth: u32,
-    elevation_deg: &mut Vec<f64>,
-    noise: &mut Vec<AntennaNoise>,
+    off: &impl Fn(&T, &T, &T) -> f64,
+    push: &mut impl FnMut(f64, T),
 ) {
     let q1 = 0.5 * (lo.0 + mid.0);
     let q3 = 0.5 * (mid.0 + hi.0);
     let (q1, q3) = ((q1, f(q1)), (q3, f(q3)));
-    let off = |a: &AntennaNoise, q: &AntennaNoise, b: &AntennaNoise| {
-        let d = |g: fn(&AntennaNoise) -> f64| (g(q) - 0.5 * (g(a) + g(b))).abs();
-        d(|n| n.sky_k).max(d(|n| n.ground_k))
-    };
     let bad = off(&lo.1, &q1.1, &mid.1).max(off(&mid.1, &q3.1, &hi.1)) > REFINE_TOLERANCE_K;
     if bad && depth < MAX_DEPTH {
-        refine(f, [lo, q1, mid], depth + 1, elevation_deg, noise);
-        refine(f, [mid, q3, hi], depth + 1, elevation_deg, noise);
+        refine(f, [lo, q1, mid.clone()], depth + 1, off, push);
+        refine(f, [mid, q3, hi], depth + 1, off, push);
     } else {
         for (e, n) in [q1, mid, q3, hi] {
-            elevation_deg.push(e);
-            noise.push(n);
+            push(e, n);
         }
     }
 }

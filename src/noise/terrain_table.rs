@@ -129,11 +129,11 @@ impl TerrainNoiseTable {
             .partition_point(|&l| l < highest)
             .min(LEVELS_DEG.len() - 1);
         let levels_deg = levels(&LEVELS_DEG[first..=last], brightness);
-        let tables: Vec<AntennaNoiseTable> = levels_deg
-            .par_iter()
-            .map(|&h| AntennaNoiseTable::build(pattern, &brightness.raised(h)))
-            .collect();
-        let (raised_rows_deg, raised) = resample(&tables);
+        let raised_brightness: Vec<Brightness> =
+            levels_deg.iter().map(|&h| brightness.raised(h)).collect();
+        let refs: Vec<&Brightness> = raised_brightness.iter().collect();
+        let (raised_rows_deg, per_level) = AntennaNoiseTable::build_many(pattern, &refs);
+        let raised = per_level.concat();
         let bucket = buckets(&raised_rows_deg);
         let integrator = TerrainIntegrator::new(pattern, terrain);
         let columns_deg = columns(&integrator.kinks_deg, grid);
@@ -310,18 +310,6 @@ fn levels(candidates: &[f64], brightness: &Brightness) -> Vec<f64> {
         }
     }
     kept
-}
-
-/// The raised tables on the union of their rows, and that grid.
-fn resample(tables: &[AntennaNoiseTable]) -> (Vec<f64>, Vec<AntennaNoise>) {
-    let mut rows: Vec<f64> = tables.iter().flat_map(|t| t.rows().map(|r| r.0)).collect();
-    rows.sort_by(f64::total_cmp);
-    rows.dedup();
-    let values = tables
-        .iter()
-        .flat_map(|t| rows.iter().map(move |&u| t.at(u)))
-        .collect();
-    (rows, values)
 }
 
 /// For each bucket of [`BUCKET_DEG`] from the first row, the last row at or below its start.
