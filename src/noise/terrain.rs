@@ -33,7 +33,7 @@
 //! to 5 K next to the profile's highest vertex; the table now carries the main beam's crossing of
 //! the edge in raised-horizon tables and takes the direct integral only for the far terrain.
 
-use super::antenna_table::{integrate, AntennaNoise, Brightness, Rings};
+use super::antenna_table::{integrate_many, AntennaNoise, Brightness, Rings};
 use super::pattern::{NoisePattern, GL4, GL8};
 use crate::geometry::HorizonMask;
 
@@ -94,17 +94,29 @@ impl<'a> TerrainIntegrator<'a> {
 
     /// The antenna noise at boresight (`e0`, `a0`) deg: the flat integral plus the terrain's.
     pub(crate) fn at(&self, b: &Brightness, e0: f64, a0: f64) -> AntennaNoise {
-        let flat = integrate(&self.rings, b, e0);
-        let (terrain, hidden_sky) = self.terrain_part(b, e0, a0);
-        AntennaNoise {
-            sky_k: (flat.sky_k - hidden_sky).max(0.0),
-            ground_k: flat.ground_k + terrain,
+        let mut out = [AntennaNoise::default()];
+        self.at_many(std::slice::from_ref(&b), e0, a0, &mut out);
+        out[0]
+    }
+
+    /// [`Self::at`] for several brightnesses (weather cases) at once, `out[j]` for `bs[j]`, each
+    /// value for value what [`Self::at`] gives it: the quadrature's nodes, directions and gains
+    /// are worked out once.
+    pub(crate) fn at_many(&self, bs: &[&Brightness], e0: f64, a0: f64, out: &mut [AntennaNoise]) {
+        integrate_many(&self.rings, bs, e0, out);
+        let mut hidden = vec![0.0; bs.len()];
+        let g_sum = self.terrain_part(bs, e0, a0, &mut hidden);
+        let f = 1.0 / (4.0 * std::f64::consts::PI);
+        for ((b, o), s_sum) in bs.iter().zip(out.iter_mut()).zip(&hidden) {
+            let tt = b.side_at(0.0, true);
+            let (terrain, hidden_sky) = (f * tt * g_sum, f * s_sum);
+            o.sky_k = (o.sky_k - hidden_sky).max(0.0);
+            o.ground_k += terrain;
         }
     }
 
-    /// `(1/4 pi) ∫_R G Tt dOmega` and `(1/4 pi) ∫_R G Tsky(el) dOmega`, K.
-    fn terrain_part(&self, b: &Brightness, e0: f64, a0: f64) -> (f64, f64) {
-        let tt = b.side_at(0.0, true);
+    /// `∫_R G dOmega`, and `∫_R G Tsky(el) dOmega` for each of `bs` into `s_sums`.
+    fn terrain_part(&self, bs: &[&Brightness], e0: f64, a0: f64, s_sums: &mut [f64]) -> f64 {
         // Distance from the boresight to the terrain band 0..highest, deg.
         let gap = (e0 - self.highest_deg).max(-e0).max(0.0);
         let start = self.scale_deg.max(0.5 * gap);
@@ -121,7 +133,8 @@ impl<'a> TerrainIntegrator<'a> {
         );
         cuts.sort_by(f64::total_cmp);
         let (se0, ce0) = e0.to_radians().sin_cos();
-        let (mut t_sum, mut s_sum) = (0.0, 0.0);
+        let mut t_sum = 0.0;
+        let mut column_s = vec![0.0; bs.len()];
         for w in cuts.windows(2) {
             let (lo, hi) = (w[0], w[1]);
             if hi - lo < 1e-9 {
@@ -137,24 +150,27 @@ impl<'a> TerrainIntegrator<'a> {
                     continue;
                 }
                 let w_az = wx * half.to_radians();
-                let (t, s) = self.column(b, (se0, ce0, e0), delta, h);
+                let t = self.column(bs, (se0, ce0, e0), delta, h, &mut column_s);
                 t_sum += w_az * t;
-                s_sum += w_az * s;
+                for (acc, s) in s_sums.iter_mut().zip(&column_s) {
+                    *acc += w_az * s;
+                }
             }
         }
-        let f = 1.0 / (4.0 * std::f64::consts::PI);
-        (f * tt * t_sum, f * s_sum)
+        t_sum
     }
 
     /// At one azimuth node (`delta` deg from the boresight's azimuth, terrain up to `h` deg):
-    /// `(∫_0^h G cos el d el, ∫_0^h G Tsky(el) cos el d el)`, el in rad.
+    /// `∫_0^h G cos el d el`, and `∫_0^h G Tsky(el) cos el d el` for each of `bs` into
+    /// `s_sums`; el in rad.
     fn column(
         &self,
-        b: &Brightness,
+        bs: &[&Brightness],
         (se0, ce0, e0): (f64, f64, f64),
         delta: f64,
         h: f64,
-    ) -> (f64, f64) {
+        s_sums: &mut [f64],
+    ) -> f64 {
         let cd = delta.to_radians().cos();
         let psi_of = |el_deg: f64| {
             let (se, ce) = el_deg.to_radians().sin_cos();
@@ -183,7 +199,8 @@ impl<'a> TerrainIntegrator<'a> {
         }
         cuts.retain(|&v| (0.0..=h).contains(&v));
         cuts.sort_by(f64::total_cmp);
-        let (mut g_sum, mut s_sum) = (0.0, 0.0);
+        let mut g_sum = 0.0;
+        s_sums.fill(0.0);
         for w in cuts.windows(2) {
             let (lo, hi) = (w[0], w[1]);
             if hi - lo < 1e-12 {
@@ -199,10 +216,12 @@ impl<'a> TerrainIntegrator<'a> {
                 let psi = (se * se0 + ce * ce0 * cd).clamp(-1.0, 1.0).acos();
                 let g = self.pattern.gain(psi) * ce * wx * half.to_radians();
                 g_sum += g;
-                s_sum += g * b.side_at(se, false);
+                for (b, s) in bs.iter().zip(s_sums.iter_mut()) {
+                    *s += g * b.side_at(se, false);
+                }
             }
         }
-        (g_sum, s_sum)
+        g_sum
     }
 }
 

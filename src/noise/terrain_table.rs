@@ -65,8 +65,8 @@ pub struct TerrainNoiseTable {
     edge_step_deg: f64,
     /// Heights of the raised-horizon tables.
     levels_deg: Vec<f64>,
-    /// The raised-horizon tables resampled on one grid of u (the union of their rows, so each
-    /// table's piecewise-linear values are kept exactly): `raised[level * n + row]`.
+    /// The raised-horizon tables on one grid of u (refined wherever any of them, of any case
+    /// built together, needs it; [`AntennaNoiseTable::build_many`]): `raised[level * n + row]`.
     raised_rows_deg: Vec<f64>,
     raised: Vec<AntennaNoise>,
     /// First row at or below each [`BUCKET_DEG`] bucket of u from the first row (O(1) lookup).
@@ -113,6 +113,23 @@ impl TerrainNoiseTable {
         terrain: &HorizonMask,
         grid: &TerrainGrid,
     ) -> Self {
+        let mut one = Self::build_cases(pattern, &[brightness], terrain, grid);
+        one.remove(0)
+    }
+
+    /// The tables of several weather cases (`brightnesses`, one table each, in order), built
+    /// together: the beam-averaged profile and the correction columns are the same for all, the
+    /// raised-horizon tables of all cases share one grid of elevations
+    /// ([`AntennaNoiseTable::build_many`]) and each direct integral of the correction grid gives
+    /// every case from one quadrature ([`TerrainIntegrator::at_many`]). A case's table is value for
+    /// value the one built alone, but for its raised-horizon rows: the shared grid is the union of
+    /// what each case needs, so a case gets exact values at a few more rows.
+    pub fn build_cases(
+        pattern: &NoisePattern,
+        brightnesses: &[&Brightness],
+        terrain: &HorizonMask,
+        grid: &TerrainGrid,
+    ) -> Vec<Self> {
         let sigma_deg = 2.0 * half_power_half_width_deg(pattern) / 2.355;
         let edge_step_deg = EDGE_STEP_DEG.min(0.25 * sigma_deg).max(1e-3);
         let n = (360.0 / edge_step_deg).ceil() as usize;
@@ -128,47 +145,71 @@ impl TerrainNoiseTable {
         let last = LEVELS_DEG
             .partition_point(|&l| l < highest)
             .min(LEVELS_DEG.len() - 1);
-        let levels_deg = levels(&LEVELS_DEG[first..=last], brightness);
-        let raised_brightness: Vec<Brightness> =
-            levels_deg.iter().map(|&h| brightness.raised(h)).collect();
+        let case_levels: Vec<Vec<f64>> = brightnesses
+            .iter()
+            .map(|b| levels(&LEVELS_DEG[first..=last], b))
+            .collect();
+        let raised_brightness: Vec<Brightness> = brightnesses
+            .iter()
+            .zip(&case_levels)
+            .flat_map(|(b, l)| l.iter().map(|&h| b.raised(h)))
+            .collect();
         let refs: Vec<&Brightness> = raised_brightness.iter().collect();
-        let (raised_rows_deg, per_level) = AntennaNoiseTable::build_many(pattern, &refs);
-        let raised = per_level.concat();
+        let (raised_rows_deg, mut per_level) = AntennaNoiseTable::build_many(pattern, &refs);
         let bucket = buckets(&raised_rows_deg);
         let integrator = TerrainIntegrator::new(pattern, terrain);
         let columns_deg = columns(&integrator.kinks_deg, grid);
-        let mut table = Self {
-            edge_deg,
-            edge_step_deg,
-            levels_deg,
-            raised_rows_deg,
-            raised,
-            bucket,
-            columns_deg,
-            rows_deg: grid.rows_deg.clone(),
-            correction: Vec::new(),
-        };
-        let correction: Vec<Vec<AntennaNoise>> = table
-            .columns_deg
-            .par_iter()
-            .map(|&a0| {
-                let h = table.edge_at(a0);
-                grid.rows_deg
-                    .iter()
-                    .map(|&u| {
-                        let e0 = (u + h).clamp(-10.0, 90.0);
-                        let direct = integrator.at(brightness, e0, a0);
-                        let raised = table.raised_at(e0 - h, h);
-                        AntennaNoise {
-                            sky_k: direct.sky_k - raised.sky_k,
-                            ground_k: direct.ground_k - raised.ground_k,
-                        }
-                    })
-                    .collect()
+        let mut tables: Vec<Self> = case_levels
+            .into_iter()
+            .map(|levels_deg| {
+                let raised = per_level.drain(..levels_deg.len()).collect::<Vec<_>>();
+                Self {
+                    edge_deg: edge_deg.clone(),
+                    edge_step_deg,
+                    levels_deg,
+                    raised_rows_deg: raised_rows_deg.clone(),
+                    raised: raised.concat(),
+                    bucket: bucket.clone(),
+                    columns_deg: columns_deg.clone(),
+                    rows_deg: grid.rows_deg.clone(),
+                    correction: Vec::new(),
+                }
             })
             .collect();
-        table.correction = correction.concat();
-        table
+        let h_of = |a0: f64| tables[0].edge_at(a0);
+        // per column, per row, per case
+        let direct: Vec<Vec<AntennaNoise>> = columns_deg
+            .par_iter()
+            .map(|&a0| {
+                let h = h_of(a0);
+                let mut out = vec![AntennaNoise::default(); brightnesses.len()];
+                let mut cells = Vec::with_capacity(grid.rows_deg.len() * brightnesses.len());
+                for &u in &grid.rows_deg {
+                    let e0 = (u + h).clamp(-10.0, 90.0);
+                    integrator.at_many(brightnesses, e0, a0, &mut out);
+                    cells.extend_from_slice(&out);
+                }
+                cells
+            })
+            .collect();
+        let cases = brightnesses.len();
+        for (k, table) in tables.iter_mut().enumerate() {
+            let mut correction = Vec::with_capacity(columns_deg.len() * grid.rows_deg.len());
+            for (&a0, cells) in columns_deg.iter().zip(&direct) {
+                let h = table.edge_at(a0);
+                for (i, &u) in grid.rows_deg.iter().enumerate() {
+                    let e0 = (u + h).clamp(-10.0, 90.0);
+                    let d = cells[i * cases + k];
+                    let raised = table.raised_at(e0 - h, h);
+                    correction.push(AntennaNoise {
+                        sky_k: d.sky_k - raised.sky_k,
+                        ground_k: d.ground_k - raised.ground_k,
+                    });
+                }
+            }
+            table.correction = correction;
+        }
+        tables
     }
 
     /// Number of direct integrals the correction grid took.

@@ -24,7 +24,7 @@ use crate::noise::antenna_table::{AntennaNoise, AntennaNoiseTable, Brightness, G
 use crate::noise::man_made::{man_made_noise, Environment, ManMadeNoise};
 use crate::noise::pattern::{NoisePattern, PatternWarnings};
 use crate::noise::sky::sky_temperature_unchecked;
-use crate::noise::terrain_table::TerrainNoiseTable;
+use crate::noise::terrain_table::{TerrainGrid, TerrainNoiseTable};
 use crate::noise::ExternalNoise;
 
 /// Validity notes of a station's noise model (constant over a plan).
@@ -108,6 +108,35 @@ impl StationNoise {
         measured: Option<Vec<[f64; 2]>>,
         terrain: Option<HorizonMask>,
     ) -> Self {
+        Self::with_availability(
+            pattern,
+            ground,
+            atmosphere,
+            mean_radiating_temperature_k,
+            background_k,
+            man_made,
+            measured,
+            terrain,
+            None,
+        )
+    }
+
+    /// [`Self::new`] with the tables of the availability case `availability` prepared too (as
+    /// [`Self::prepare_weather`] would): a station with terrain then gets the terrain tables of
+    /// both cases built together ([`TerrainNoiseTable::build_cases`]), at little more than the
+    /// cost of one.
+    #[allow(clippy::too_many_arguments)]
+    pub fn with_availability(
+        pattern: NoisePattern,
+        ground: GroundSpec,
+        atmosphere: &PreparedAtmosphere,
+        mean_radiating_temperature_k: f64,
+        background_k: f64,
+        man_made: Option<(Environment, f64)>,
+        measured: Option<Vec<[f64; 2]>>,
+        terrain: Option<HorizonMask>,
+        availability: Option<Weather>,
+    ) -> Self {
         let man_made = man_made.map(|(e, f)| (e, man_made_noise(e, f)));
         let warnings = NoiseWarnings {
             pattern: pattern.warnings(),
@@ -128,13 +157,23 @@ impl StationNoise {
         };
         let brightness = s.brightness(atmosphere, Weather::ClearSky);
         let model = AntennaNoiseTable::build(&s.pattern, &brightness);
-        s.clear_terrain = s.terrain_table(&brightness);
+        let rain = availability
+            .filter(|w| *w != Weather::ClearSky)
+            .map(|w| (w, s.brightness(atmosphere, w)));
+        let mut cases = vec![&brightness];
+        cases.extend(rain.as_ref().map(|(_, b)| b));
+        let mut terrain_tables = s.terrain_tables(&cases).into_iter();
+        s.clear_terrain = terrain_tables.next().flatten();
         match measured {
             Some(m) => {
                 s.clear = combine(&m, &model, &model);
                 s.measured = Some((m, model));
             }
             None => s.clear = model,
+        }
+        if let Some((w, b)) = rain {
+            let table = s.availability_table(AntennaNoiseTable::build(&s.pattern, &b));
+            s.availability = Some((w, table, terrain_tables.next().flatten()));
         }
         s
     }
@@ -145,11 +184,18 @@ impl StationNoise {
         if weather != Weather::ClearSky && !done {
             let brightness = self.brightness(atmosphere, weather);
             let model = AntennaNoiseTable::build(&self.pattern, &brightness);
-            let table = match &self.measured {
-                Some((m, clear_model)) => combine(m, clear_model, &model),
-                None => model,
-            };
-            self.availability = Some((weather, table, self.terrain_table(&brightness)));
+            let table = self.availability_table(model);
+            let terrain = self.terrain_tables(&[&brightness]).pop().flatten();
+            self.availability = Some((weather, table, terrain));
+        }
+    }
+
+    /// The availability case's table from its model table: with a measured antenna temperature,
+    /// the measurement moved by the model's change from clear sky.
+    fn availability_table(&self, model: AntennaNoiseTable) -> AntennaNoiseTable {
+        match &self.measured {
+            Some((m, clear_model)) => combine(m, clear_model, &model),
+            None => model,
         }
     }
 
@@ -163,9 +209,18 @@ impl StationNoise {
         )
     }
 
-    fn terrain_table(&self, brightness: &Brightness) -> Option<TerrainNoiseTable> {
-        let t = self.terrain.as_ref()?;
-        Some(TerrainNoiseTable::build(&self.pattern, brightness, t))
+    /// The terrain tables of the weather cases `cases` (built together), or none each for a
+    /// station without terrain above the geometric horizon.
+    fn terrain_tables(&self, cases: &[&Brightness]) -> Vec<Option<TerrainNoiseTable>> {
+        match &self.terrain {
+            None => cases.iter().map(|_| None).collect(),
+            Some(t) => {
+                TerrainNoiseTable::build_cases(&self.pattern, cases, t, &TerrainGrid::default())
+                    .into_iter()
+                    .map(Some)
+                    .collect()
+            }
+        }
     }
 
     /// The antenna's noise terms at boresight `elevation_deg` and `azimuth_deg` in `weather`

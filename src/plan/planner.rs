@@ -6,7 +6,7 @@ use super::inputs::{
 use super::mask::{MaskAccumulator, OpenSteps};
 use super::pass::{plan_pass, tradeoff_pass, PassContext, Planned, Scratch};
 use super::prepare::{
-    availability_weather, rate_set, station_model_reusing, RateSet, StationModel,
+    availability_weather_for, rate_set, station_model_for, RateSet, StationModel,
 };
 use super::results::{NetworkTotal, PassPlan, Plan, PlanError};
 use super::series::PassWarnings;
@@ -106,13 +106,25 @@ impl Planner {
                     source,
                 })?;
         }
+        let exceedance_percent = request.exceedance_percent.or(mission.exceedance_percent);
+        if let Some(p) = exceedance_percent {
+            EXCEEDANCE_PERCENT
+                .check(p)
+                .map_err(|source| PlanError::Range {
+                    key: "exceedance_percent",
+                    source,
+                })?;
+        }
+        // The availability case first, so each station's noise tables of both cases are built
+        // together.
+        let rain = availability_weather_for(exceedance_percent, &mission.stations)?;
         let mut stations = mission
             .stations
             .iter()
             .enumerate()
             .map(|(i, s)| {
                 let reuse = other.and_then(|o| o.stations.get(i));
-                station_model_reusing(mission, s, mask, reuse)
+                station_model_for(mission, s, mask, reuse, rain)
             })
             .collect::<Result<Vec<_>, _>>()?;
         let tradeoff_masks = if let Some(floor_deg) = request.search_floor_deg {
@@ -136,16 +148,6 @@ impl Planner {
         };
         let rates = rate_set(mission, &stations[0].link)?;
         let step_s = Self::check_step(request.step_s.unwrap_or(mission.step_s), &rates)?;
-        let exceedance_percent = request.exceedance_percent.or(mission.exceedance_percent);
-        if let Some(p) = exceedance_percent {
-            EXCEEDANCE_PERCENT
-                .check(p)
-                .map_err(|source| PlanError::Range {
-                    key: "exceedance_percent",
-                    source,
-                })?;
-        }
-        let rain = availability_weather(exceedance_percent, &stations)?;
         if let Some(w) = rain {
             // One antenna-noise table per station for the availability case.
             stations.iter_mut().for_each(|s| s.prepare_weather(w));

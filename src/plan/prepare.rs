@@ -192,6 +192,19 @@ pub fn station_model_reusing(
     mask_override: Option<f64>,
     reuse: Option<&StationModel>,
 ) -> Result<StationModel, PrepareError> {
+    station_model_for(mission, st, mask_override, reuse, None)
+}
+
+/// [`station_model_reusing`] with the tables of the availability case `availability`
+/// ([`availability_weather_for`]) prepared at once, as [`StationModel::prepare_weather`] would:
+/// a station with terrain so gets the terrain noise tables of both weather cases built together.
+pub fn station_model_for(
+    mission: &Mission,
+    st: &Station,
+    mask_override: Option<f64>,
+    reuse: Option<&StationModel>,
+    availability: Option<Weather>,
+) -> Result<StationModel, PrepareError> {
     let file = &st.source;
     let radio = radio_blocks(mission, st)?;
     let observer = Observer::new(st.latitude_deg, st.longitude_deg, st.altitude_m)
@@ -232,7 +245,14 @@ pub fn station_model_reusing(
     let atmosphere = PreparedAtmosphere::new(&site, &path)
         .map_err(|e| model_err(file, None, format!("atmosphere: {e}")))?;
     let tmr_k = mean_radiating_temperature_k(st.climate.temperature_k);
-    let noise = station_noise(st, radio.ant, &link, &atmosphere, tmr_k, diameter_m)?;
+    let noise = station_noise(
+        st,
+        radio.ant,
+        (&link, &atmosphere),
+        tmr_k,
+        diameter_m,
+        availability,
+    )?;
     let path = PathTables::new(&atmosphere, tmr_k, link.background_temperature_k());
     let bodies = BodyNoise::new(
         noise.pattern(),
@@ -272,10 +292,10 @@ impl StationModel {
 fn station_noise(
     st: &Station,
     ant: &GroundAntenna,
-    link: &LinkModel,
-    atmosphere: &PreparedAtmosphere,
+    (link, atmosphere): (&LinkModel, &PreparedAtmosphere),
     tmr_k: f64,
     diameter_m: f64,
+    availability: Option<Weather>,
 ) -> Result<StationNoise, PrepareError> {
     let f = link.frequency_hz();
     let ga = link.ground_antenna();
@@ -293,7 +313,7 @@ fn station_noise(
         temperature_k: ant.ground_temperature_k,
         emissivity: ant.ground_emissivity,
     };
-    Ok(StationNoise::new(
+    Ok(StationNoise::with_availability(
         pattern,
         ground,
         atmosphere,
@@ -302,6 +322,7 @@ fn station_noise(
         st.man_made_noise.map(|e| (e, f)),
         ant.measured_noise_temperature_k.clone(),
         crate::noise::terrain::terrain_profile(&st.horizon_mask),
+        availability,
     ))
 }
 

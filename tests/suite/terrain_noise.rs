@@ -429,3 +429,37 @@ fn a_dense_profile_keeps_the_terrain_table_build_bounded() {
     let t = table.at(12.0, 10.0).total_k();
     assert!(t.is_finite() && t > 0.0);
 }
+
+#[test]
+fn tables_built_together_for_two_weather_cases_keep_the_bound() {
+    // The plan builds the clear-sky and availability tables of a station together
+    // (TerrainNoiseTable::build_cases: one quadrature per direction for both, one grid for the
+    // raised-horizon tables). Each must keep the bound against the direct integral, and stay
+    // within 0.05 K of the table built alone (only its raised-horizon rows differ).
+    let terrain = sierra();
+    let directions = probe_directions(&terrain);
+    let p = dish(3.7, 8.2e9, 0.6);
+    let clear = fixture_sky(8.2, Weather::ClearSky);
+    let rain = fixture_sky(8.2, Weather::Exceedance { percent: 0.1 });
+    let together = TerrainNoiseTable::build_cases(
+        &p,
+        &[&clear, &rain],
+        &terrain,
+        &passbudget::noise::terrain_table::TerrainGrid::default(),
+    );
+    assert_eq!(together.len(), 2);
+    for (table, b) in together.iter().zip([&clear, &rain]) {
+        let alone = TerrainNoiseTable::build(&p, b, &terrain);
+        assert_eq!(table.direct_integrals(), alone.direct_integrals());
+        for &(el, az) in &directions {
+            let direct = terrain_antenna_noise(&p, b, &terrain, el, az).total_k();
+            let t = table.at(el, az).total_k();
+            assert!(
+                (t - direct).abs() < TERRAIN_TABLE_K,
+                "el {el} az {az}: {t} vs {direct}"
+            );
+            let a = alone.at(el, az).total_k();
+            assert!((t - a).abs() < 0.05, "el {el} az {az}: {t} vs alone {a}");
+        }
+    }
+}
