@@ -2,8 +2,8 @@
 //! integral over boresight elevation, clear sky and the rain case) and one interpolation (the
 //! per-step cost), one direct terrain integral (`noise::terrain`, the example's Sierra Baja
 //! profile: 1 deg above its 12 deg peak, and at 30 deg facing its low side), and the terrain
-//! table over elevation and azimuth (`noise::terrain_table`: its build, clear sky and the rain
-//! case, and one lookup). Invented X-band station of the shared fixtures (3.7 m dish).
+//! table over elevation and azimuth (`noise::terrain_table`: its build, clear sky, the rain
+//! case and both built together, and one lookup). Invented X-band station of the shared fixtures (3.7 m dish).
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use passbudget::atmosphere::{PreparedAtmosphere, Weather};
@@ -77,6 +77,17 @@ fn bench_noise(c: &mut Criterion) {
     let rain = brightness(Weather::Exceedance { percent: 0.1 });
     g.bench_function("terrain_table_build_rain_0_1_percent", |b| {
         b.iter(|| TerrainNoiseTable::build(&pattern, &rain, &terrain).direct_integrals())
+    });
+    g.bench_function("terrain_tables_build_clear_and_rain_together", |b| {
+        b.iter(|| {
+            TerrainNoiseTable::build_cases(
+                &pattern,
+                &[&clear, &rain],
+                &terrain,
+                &Default::default(),
+            )
+            .len()
+        })
     });
     let table = TerrainNoiseTable::build(&pattern, &clear, &terrain);
     g.bench_function("terrain_table_lookup", |b| {
