@@ -194,6 +194,30 @@ fn the_table_puts_the_delivered_data_first() {
     assert!(single.contains("unconstrained"), "{single}");
 }
 
+/// A fleet's outputs flag the values recalled from memory as a single satellite's plan does (the
+/// shipped fleet flies the built-in CCSDS schemes in the 8025-8500 MHz band).
+#[test]
+fn a_fleet_plan_flags_the_values_recalled_from_memory() {
+    let csv = success(&run(&[
+        "plan", FLEET, "--quiet", "--days", "1", "--format", "csv",
+    ]));
+    let flagged: Vec<&str> = csv
+        .lines()
+        .filter(|l| l.starts_with('#') && l.contains("from memory"))
+        .collect();
+    assert_eq!(flagged.len(), 2, "{csv}");
+    assert!(
+        flagged.iter().any(|l| l.contains("required Eb/N0")),
+        "{csv}"
+    );
+    assert!(flagged.iter().any(|l| l.contains("pfd limit")), "{csv}");
+    let doc = json(&run(&[
+        "plan", FLEET, "--quiet", "--days", "1", "--format", "json",
+    ]));
+    let text = doc.to_string();
+    assert!(text.contains("from memory: the pfd limit"), "{text}");
+}
+
 /// RFC 5545: CRLF line ends (3.1), one VCALENDAR (3.4), a VEVENT per booked contact of the
 /// station with UID, DTSTAMP, DTSTART and DTEND in UTC form (3.6.1, 3.3.5).
 #[test]
