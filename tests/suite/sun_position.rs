@@ -1,6 +1,6 @@
 //! The Sun's position from a station against an independent general-purpose astronomy library
 //! (astropy 8.0.2 with its bundled ERFA ephemeris, values stored in
-//! `tests/data/geometry/sun_astropy.csv` with the exact call), over 1995-2045.
+//! `tests/data/geometry/sun_astropy.csv` with the exact call), over 1950-2050.
 
 use crate::common::data::read_csv;
 use passbudget::geometry::sun::{separation_deg, sun_az_el_deg};
