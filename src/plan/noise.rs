@@ -93,50 +93,47 @@ pub struct StationNoise {
     warnings: NoiseWarnings,
 }
 
+/// What a station's noise model is built from ([`StationNoise::new`]).
+#[derive(Debug, Clone)]
+pub struct NoiseInputs {
+    /// The ground antenna's pattern (reference or measured).
+    pub pattern: NoisePattern,
+    /// The ground's temperature and emissivity.
+    pub ground: GroundSpec,
+    /// Mean radiating temperature of the atmosphere, K (P.618-14 eq. 69).
+    pub mean_radiating_temperature_k: f64,
+    /// Cosmic and galactic background, K.
+    pub background_k: f64,
+    /// The P.372 environment category and the frequency, Hz.
+    pub man_made: Option<(Environment, f64)>,
+    /// A measured antenna temperature against elevation, `[elevation_deg, kelvin]` rows.
+    pub measured: Option<Vec<[f64; 2]>>,
+    /// The terrain profile above the geometric horizon
+    /// ([`crate::noise::terrain::terrain_profile`] of the horizon mask).
+    pub terrain: Option<HorizonMask>,
+}
+
 impl StationNoise {
-    /// The clear-sky table and the man-made term of a station; with `terrain`
-    /// ([`crate::noise::terrain::terrain_profile`] of its horizon mask) and no measured antenna
-    /// temperature, the clear-sky table over elevation and azimuth too.
-    #[allow(clippy::too_many_arguments)]
+    /// The tables of a station's antenna noise from `inputs`: the clear-sky table and the
+    /// man-made term; with terrain and no measured antenna temperature, the clear-sky table over
+    /// elevation and azimuth too; with `availability`, that weather case's tables as well (as
+    /// [`Self::prepare_weather`] would make them), a station with terrain then getting the
+    /// terrain tables of both cases built together ([`TerrainNoiseTable::build_cases`]) at little
+    /// more than the cost of one.
     pub fn new(
-        pattern: NoisePattern,
-        ground: GroundSpec,
+        inputs: NoiseInputs,
         atmosphere: &PreparedAtmosphere,
-        mean_radiating_temperature_k: f64,
-        background_k: f64,
-        man_made: Option<(Environment, f64)>,
-        measured: Option<Vec<[f64; 2]>>,
-        terrain: Option<HorizonMask>,
+        availability: Option<Weather>,
     ) -> Self {
-        Self::with_availability(
+        let NoiseInputs {
             pattern,
             ground,
-            atmosphere,
             mean_radiating_temperature_k,
             background_k,
             man_made,
             measured,
             terrain,
-            None,
-        )
-    }
-
-    /// [`Self::new`] with the tables of the availability case `availability` prepared too (as
-    /// [`Self::prepare_weather`] would): a station with terrain then gets the terrain tables of
-    /// both cases built together ([`TerrainNoiseTable::build_cases`]), at little more than the
-    /// cost of one.
-    #[allow(clippy::too_many_arguments)]
-    pub fn with_availability(
-        pattern: NoisePattern,
-        ground: GroundSpec,
-        atmosphere: &PreparedAtmosphere,
-        mean_radiating_temperature_k: f64,
-        background_k: f64,
-        man_made: Option<(Environment, f64)>,
-        measured: Option<Vec<[f64; 2]>>,
-        terrain: Option<HorizonMask>,
-        availability: Option<Weather>,
-    ) -> Self {
+        } = inputs;
         let man_made = man_made.map(|(e, f)| (e, man_made_noise(e, f)));
         let warnings = NoiseWarnings {
             pattern: pattern.warnings(),

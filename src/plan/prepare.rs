@@ -18,7 +18,7 @@ use crate::link::polarization::{EllipseOrientation, Polarization};
 use crate::noise::pattern::NoisePattern;
 use crate::noise::system::{LnaNoise, ReceiverSpec};
 use crate::plan::bodies::BodyNoise;
-use crate::plan::noise::StationNoise;
+use crate::plan::noise::{NoiseInputs, StationNoise};
 use crate::plan::path_table::PathTables;
 use crate::plan::rate::{OptionId, RateOption};
 use crate::units::wavelength_m;
@@ -313,17 +313,16 @@ fn station_noise(
         temperature_k: ant.ground_temperature_k,
         emissivity: ant.ground_emissivity,
     };
-    Ok(StationNoise::with_availability(
+    let inputs = NoiseInputs {
         pattern,
         ground,
-        atmosphere,
-        tmr_k,
-        link.background_temperature_k(),
-        st.man_made_noise.map(|e| (e, f)),
-        ant.measured_noise_temperature_k.clone(),
-        crate::noise::terrain::terrain_profile(&st.horizon_mask),
-        availability,
-    ))
+        mean_radiating_temperature_k: tmr_k,
+        background_k: link.background_temperature_k(),
+        man_made: st.man_made_noise.map(|e| (e, f)),
+        measured: ant.measured_noise_temperature_k.clone(),
+        terrain: crate::noise::terrain::terrain_profile(&st.horizon_mask),
+    };
+    Ok(StationNoise::new(inputs, atmosphere, availability))
 }
 
 /// The ground antenna as the link model wants it; a gain given directly takes the beamwidth of its

@@ -13,7 +13,7 @@ use passbudget::noise::pattern::NoisePattern;
 use passbudget::noise::sky::sky_temperature_p618_k;
 use passbudget::noise::terrain::{terrain_antenna_noise, terrain_profile};
 use passbudget::noise::terrain_table::TerrainNoiseTable;
-use passbudget::plan::noise::StationNoise;
+use passbudget::plan::noise::{NoiseInputs, StationNoise};
 
 const C: f64 = 299_792_458.0;
 
@@ -34,6 +34,19 @@ fn fixture_sky(frequency_ghz: f64, weather: Weather) -> Brightness {
         |el| sky_temperature_p618_k(atm.at(el, weather).absorptive_db, 275.0, 2.73).unwrap(),
         GROUND,
     )
+}
+
+/// A station's noise inputs: `pattern` over [`GROUND`], Tmr 275 K, background 2.73 K.
+fn inputs(pattern: NoisePattern, terrain: Option<HorizonMask>) -> NoiseInputs {
+    NoiseInputs {
+        pattern,
+        ground: GROUND,
+        mean_radiating_temperature_k: 275.0,
+        background_k: 2.73,
+        man_made: None,
+        measured: None,
+        terrain,
+    }
 }
 
 /// The shipped example's Sierra Baja profile (invented terrain, 2-12 deg).
@@ -288,14 +301,9 @@ fn a_profile_at_the_horizon_keeps_the_elevation_table_at_every_azimuth() {
     let atm = PreparedAtmosphere::new(&atmosphere_site(), &atmosphere_path(8.2)).unwrap();
     let noise = |mask: &[[f64; 2]]| {
         StationNoise::new(
-            dish(3.7, 8.2e9, 0.6),
-            GROUND,
+            inputs(dish(3.7, 8.2e9, 0.6), terrain_profile(mask)),
             &atm,
-            275.0,
-            2.73,
             None,
-            None,
-            terrain_profile(mask),
         )
     };
     let flat = noise(&[[0.0, 0.0], [120.0, -1.0], [240.0, 0.0]]);
@@ -391,7 +399,7 @@ fn terrain_lookups_allocate_nothing() {
     let b = fixture_sky(8.2, Weather::ClearSky);
     let table = TerrainNoiseTable::build(&p, &b, &sierra());
     let atm = PreparedAtmosphere::new(&atmosphere_site(), &atmosphere_path(8.2)).unwrap();
-    let noise = StationNoise::new(p, GROUND, &atm, 275.0, 2.73, None, None, Some(sierra()));
+    let noise = StationNoise::new(inputs(p, Some(sierra())), &atm, None);
     let before = thread_allocations();
     let mut acc = 0.0;
     for i in 0..2000 {
