@@ -50,16 +50,7 @@ fn bench_noise(c: &mut Criterion) {
     });
     let table = AntennaNoiseTable::build(&pattern, &brightness(Weather::ClearSky));
     g.bench_function("table_lookup", |b| b.iter(|| table.at(black_box(7.3))));
-    let terrain = terrain_profile(&[
-        [0.0, 2.0],
-        [60.0, 4.0],
-        [110.0, 9.0],
-        [150.0, 12.0],
-        [200.0, 6.0],
-        [270.0, 3.0],
-        [330.0, 2.0],
-    ])
-    .unwrap();
+    let terrain = terrain_profile(&fixtures::SIERRA_BAJA_PROFILE).unwrap();
     let clear = brightness(Weather::ClearSky);
     for (name, el, az) in [
         ("terrain_direct_13_deg_facing_peak", 13.0, 150.0),

@@ -4,7 +4,7 @@
 //! the ground's solid-angle share (1 + sin h) / 2), an independent brute-force integration over
 //! the local sky, and the pointing that faces the raised terrain.
 
-use crate::common::fixtures::{atmosphere_path, atmosphere_site};
+use crate::common::fixtures::{atmosphere_path, atmosphere_site, SIERRA_BAJA_PROFILE};
 use crate::common::tolerance::*;
 use passbudget::atmosphere::{PreparedAtmosphere, Weather};
 use passbudget::geometry::HorizonMask;
@@ -51,16 +51,7 @@ fn inputs(pattern: NoisePattern, terrain: Option<HorizonMask>) -> NoiseInputs {
 
 /// The shipped example's Sierra Baja profile (invented terrain, 2-12 deg).
 fn sierra() -> HorizonMask {
-    terrain_profile(&[
-        [0.0, 2.0],
-        [60.0, 4.0],
-        [110.0, 9.0],
-        [150.0, 12.0],
-        [200.0, 6.0],
-        [270.0, 3.0],
-        [330.0, 2.0],
-    ])
-    .unwrap()
+    terrain_profile(&SIERRA_BAJA_PROFILE).unwrap()
 }
 
 #[test]
@@ -316,15 +307,7 @@ fn a_profile_at_the_horizon_keeps_the_elevation_table_at_every_azimuth() {
         }
     }
     // With the example's profile the same station has a table, and azimuth matters.
-    let hilly = noise(&[
-        [0.0, 2.0],
-        [60.0, 4.0],
-        [110.0, 9.0],
-        [150.0, 12.0],
-        [200.0, 6.0],
-        [270.0, 3.0],
-        [330.0, 2.0],
-    ]);
+    let hilly = noise(&SIERRA_BAJA_PROFILE);
     assert!(hilly.has_terrain());
     let at = |az| {
         hilly

@@ -73,3 +73,15 @@ pub fn atmosphere_path(frequency_ghz: f64) -> PathSpec {
         antenna_efficiency: 0.6,
     }
 }
+
+/// The invented Sierra Baja station's horizon profile (the shipped `stations/sierra-baja.yaml`'s
+/// `horizon_mask`, 2-12 deg): `[azimuth_deg, elevation_deg]` points.
+pub const SIERRA_BAJA_PROFILE: [[f64; 2]; 7] = [
+    [0.0, 2.0],
+    [60.0, 4.0],
+    [110.0, 9.0],
+    [150.0, 12.0],
+    [200.0, 6.0],
+    [270.0, 3.0],
+    [330.0, 2.0],
+];
