@@ -10,7 +10,7 @@
 //!              interpolates them from the station's antenna-noise tables: `noise::antenna_table`)
 //!   Tsky(boresight) = Tmr (1 - 10^(-A_abs/10)) + Tbg 10^(-A_abs/10)          (P.618-14 eq. 69;
 //!              reported as the sky brightness along the boresight, not used in Tsys)
-//!   Rs       = Rb / eta (eta = information bits per symbol);  B_occ = Rs (1 + roll-off)
+//!   Rs       = Rb / m_info (m_info = information bits per symbol);  B_occ = Rs (1 + roll-off)
 //!   Eb/N0    = C/N0 - 10 log10(Rb);  Es/N0 = C/N0 - 10 log10(Rs)
 //!   margin   = Eb/N0 - required Eb/N0 - implementation loss
 //!   Shannon  = B_occ log2(1 + C/(N0 B_occ));  gap = required Eb/N0 - (2^eta_B - 1)/eta_B in dB,
@@ -176,7 +176,8 @@ impl RateSpec {
     pub fn implementation_loss_db(&self) -> f64 {
         self.implementation_loss_db
     }
-    /// Symbol rate Rs = Rb / eta, baud (eta = bits per symbol x code rate x framing efficiency).
+    /// Symbol rate Rs = Rb / m_info, baud (m_info = information bits per symbol = bits per symbol
+    /// x code rate x framing efficiency).
     pub fn symbol_rate_baud(&self) -> f64 {
         self.rate_bps / self.operating.spectral_efficiency
     }
@@ -574,7 +575,7 @@ impl LinkModel {
                 "ground_antenna_gain",
                 v.antenna_gain_dbi,
                 "dBi",
-                "eta (pi D / lambda)^2 or input",
+                "e_ap (pi D / lambda)^2, e_ap the aperture efficiency; or input",
             ),
             item(
                 "sky_temperature",
@@ -728,7 +729,7 @@ pub fn threshold_cn0_dbhz(
 /// at `cn0_dbhz`.
 #[inline]
 fn rate_figures(cn0_dbhz: f64, rate: &RateSpec) -> RateFigures {
-    // Rs = Rb / eta ; B = Rs (1 + alpha)
+    // Rs = Rb / m_info ; B = Rs (1 + alpha)
     let symbol_rate_baud = rate.symbol_rate_baud();
     let occupied_bandwidth_hz = symbol_rate_baud * (1.0 + rate.roll_off);
     // Eb/N0 = C/N0 - 10 log10(Rb) ; Es/N0 = C/N0 - 10 log10(Rs)
@@ -827,7 +828,12 @@ fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 15] {
             "bit/s",
             "Rb / (framing efficiency x code rate) = Rs x bits per symbol",
         ),
-        item("symbol_rate", v.symbol_rate_baud, "baud", "Rb / eta"),
+        item(
+            "symbol_rate",
+            v.symbol_rate_baud,
+            "baud",
+            "Rb / information bits per symbol",
+        ),
         item(
             "occupied_bandwidth",
             v.occupied_bandwidth_hz,

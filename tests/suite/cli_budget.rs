@@ -365,3 +365,31 @@ fn budget_outputs_carry_no_negative_zero() {
         );
     }
 }
+
+/// The source column uses one symbol for one quantity: "eta" is the spectral efficiency Rb / B
+/// (the README's "Conventions"), never the aperture efficiency or the bits per symbol.
+#[test]
+fn budget_table_uses_eta_for_one_quantity() {
+    let out = budget(EXAMPLE, "Nordkam", "30", &[]);
+    let table = crate::common::bin::success(&out);
+    // "eta" as a word (not inside "theta" or "theta_3dB").
+    let has_eta = |l: &str| {
+        l.split(|c: char| !c.is_ascii_alphanumeric() && c != '_')
+            .any(|w| w == "eta")
+    };
+    let with_eta: Vec<&str> = table.lines().filter(|l| has_eta(l)).collect();
+    assert!(!with_eta.is_empty(), "{table}");
+    for l in &with_eta {
+        assert!(l.contains("eta = Rb / B"), "eta with another meaning: {l}");
+    }
+    let gain = table
+        .lines()
+        .find(|l| l.starts_with("ground antenna gain"))
+        .unwrap();
+    assert!(gain.contains("aperture efficiency"), "{gain}");
+    let symbol = table
+        .lines()
+        .find(|l| l.starts_with("symbol rate"))
+        .unwrap();
+    assert!(symbol.contains("information bits per symbol"), "{symbol}");
+}
