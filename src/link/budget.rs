@@ -587,13 +587,13 @@ impl LinkModel {
                 "sky_noise",
                 v.sky_noise_k,
                 "K",
-                "sky over the pattern (S.465-6 envelope), P.618-14 eq. (69)",
+                "sky over the antenna's noise pattern, P.618-14 eq. (69)",
             ),
             item(
                 "ground_noise",
                 v.ground_noise_k,
                 "K",
-                "ground over the pattern: e Tg + (1 - e) Tsky(mirror)",
+                "ground over the antenna's noise pattern: e Tg + (1 - e) Tsky(mirror)",
             ),
             item(
                 "man_made_noise",
@@ -605,13 +605,13 @@ impl LinkModel {
                 "sun_noise",
                 v.sun_noise_k,
                 "K",
-                "solar disk over the pattern, ITU-R P.372 quiet Sun or given flux",
+                "solar disk over the antenna's noise pattern, ITU-R P.372 quiet Sun or given flux",
             ),
             item(
                 "moon_noise",
                 v.moon_noise_k,
                 "K",
-                "lunar disk over the pattern, 140-280 K by phase (1-100 GHz)",
+                "lunar disk over the antenna's noise pattern, 140-280 K by phase (1-100 GHz)",
             ),
             item(
                 "antenna_temperature",

@@ -518,10 +518,15 @@ fn items(
         .link
         .itemize(geometry, atmosphere_loss, external, rate)?;
     let mut items = Vec::with_capacity(link_items.len() + atmosphere.len());
+    // The noise terms' sources as this station makes them (pattern, measured table, terrain).
+    let sources = model.noise.term_sources();
     for mut i in link_items {
-        if i.name == "ground_noise" && model.noise.has_terrain() {
-            // The terrain above the geometric horizon is part of the ground term.
-            i.source = "ground over the pattern: e Tg + (1 - e) Tsky(mirror); with the terrain of horizon_mask at this azimuth, e Tg + (1 - e) Tsky(0)".into();
+        match i.name {
+            "sky_noise" => i.source = sources.sky.clone().into(),
+            "ground_noise" => i.source = sources.ground.clone().into(),
+            "sun_noise" => i.source = sources.sun.clone().into(),
+            "moon_noise" => i.source = sources.moon.clone().into(),
+            _ => {}
         }
         let after_fsl = i.name == "free_space_loss";
         let after_moon = i.name == "moon_noise";

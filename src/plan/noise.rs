@@ -261,6 +261,43 @@ impl StationNoise {
     pub fn warnings(&self) -> NoiseWarnings {
         self.warnings
     }
+
+    /// Where the sky and the ground terms come from, as the outputs name them: the integral over
+    /// the pattern actually used ([`NoisePattern::label`]) or the station's measured antenna
+    /// temperature split by that integral's shares (module doc), the terrain of the horizon mask
+    /// when it is part of the ground term.
+    pub fn term_sources(&self) -> NoiseSources {
+        let pattern = self.pattern.label();
+        let (sky, ground) = match &self.measured {
+            Some(_) => (
+                format!("antenna.measured_noise_temperature_k, its sky share by the integral over {pattern}; a weather case adds the integral's excess over clear sky"),
+                format!("antenna.measured_noise_temperature_k, its ground share by the integral over {pattern}; a weather case adds the integral's excess over clear sky"),
+            ),
+            None => (
+                format!("sky over {pattern}, ITU-R P.618-14 eq. (69)"),
+                if self.has_terrain() {
+                    format!("ground over {pattern}: e Tg + (1 - e) Tsky(mirror); with the terrain of horizon_mask at this azimuth, e Tg + (1 - e) Tsky(0)")
+                } else {
+                    format!("ground over {pattern}: e Tg + (1 - e) Tsky(mirror)")
+                },
+            ),
+        };
+        NoiseSources {
+            sky,
+            ground,
+            sun: format!("solar disk over {pattern}, ITU-R P.372 quiet Sun or given flux"),
+            moon: format!("lunar disk over {pattern}, 140-280 K by phase (1-100 GHz)"),
+        }
+    }
+}
+
+/// The sources of a station's noise terms ([`StationNoise::term_sources`]).
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct NoiseSources {
+    pub sky: String,
+    pub ground: String,
+    pub sun: String,
+    pub moon: String,
 }
 
 /// The measured clear-sky table `m` with the model's shares and weather excess (module doc).

@@ -393,3 +393,56 @@ fn budget_table_uses_eta_for_one_quantity() {
         .unwrap();
     assert!(symbol.contains("information bits per symbol"), "{symbol}");
 }
+
+/// The source of an item of `budget --format json` (its `items` list).
+fn item_source(b: &serde_json::Value, name: &str) -> String {
+    b["items"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|i| i["name"] == name)
+        .unwrap_or_else(|| panic!("no item {name}"))["source"]
+        .as_str()
+        .unwrap()
+        .to_string()
+}
+
+/// The noise items name the pattern and table the station actually gives: the reference
+/// pattern (S.465-6 envelope) by default, the station's `antenna.noise_pattern`, or its measured
+/// `antenna.measured_noise_temperature_k`.
+#[test]
+fn budget_noise_sources_name_what_was_used() {
+    let run_with = |set: &[&str]| {
+        let mut more = vec!["--format", "json"];
+        for s in set {
+            more.extend(["--set", s]);
+        }
+        json(&budget(EXAMPLE, "Nordkam", "20", &more))
+    };
+    let reference = run_with(&[]);
+    for name in ["sky_noise", "ground_noise", "sun_noise", "moon_noise"] {
+        let s = item_source(&reference, name);
+        assert!(s.contains("S.465-6"), "{name}: {s}");
+    }
+    let pattern = run_with(&[
+        "station.Nordkam.antenna.noise_pattern=[[0, 47], [1, 20], [10, 0], [90, -10], [180, -10]]",
+    ]);
+    for name in ["sky_noise", "ground_noise", "sun_noise", "moon_noise"] {
+        let s = item_source(&pattern, name);
+        assert!(
+            s.contains("antenna.noise_pattern") && !s.contains("S.465"),
+            "{name}: {s}"
+        );
+    }
+    let measured =
+        run_with(&["station.Nordkam.antenna.measured_noise_temperature_k=[[0, 90], [90, 20]]"]);
+    for name in ["sky_noise", "ground_noise"] {
+        let s = item_source(&measured, name);
+        assert!(
+            s.contains("antenna.measured_noise_temperature_k"),
+            "{name}: {s}"
+        );
+    }
+    // The Sun and the Moon still go through the pattern (here the reference one).
+    assert!(item_source(&measured, "sun_noise").contains("S.465-6"));
+}
