@@ -212,7 +212,8 @@ pub struct BudgetValues {
     pub ground_noise_k: f64,
     /// Man-made noise of the surroundings (ITU-R P.372 Table 1), K.
     pub man_made_noise_k: f64,
-    /// The Sun's disk through the pattern, K (0 when not known: a budget without a time).
+    /// The Sun's disk through the pattern, K (0 when not known: a budget without a time, whose
+    /// outputs then say "not evaluated", `plan::instant`).
     pub sun_noise_k: f64,
     /// The Moon's disk through the pattern, K.
     pub moon_noise_k: f64,
@@ -279,7 +280,9 @@ pub struct LinkValues {
 #[derive(Debug, Clone, PartialEq)]
 pub struct BudgetItem {
     pub name: &'static str,
-    pub value: f64,
+    /// `None`: not evaluated (the Sun and the Moon of a budget without a time, `budget
+    /// --elevation-deg`; the source says why).
+    pub value: Option<f64>,
     pub unit: &'static str,
     /// Where the value comes from (a scheme's name for its threshold, so not always static).
     pub source: std::borrow::Cow<'static, str>,
@@ -767,7 +770,7 @@ fn item(
 ) -> BudgetItem {
     BudgetItem {
         name,
-        value,
+        value: Some(value),
         unit,
         source: source.into(),
     }

@@ -420,14 +420,14 @@ fn budget_noise_sources_name_what_was_used() {
         json(&budget(EXAMPLE, "Nordkam", "20", &more))
     };
     let reference = run_with(&[]);
-    for name in ["sky_noise", "ground_noise", "sun_noise", "moon_noise"] {
+    for name in ["sky_noise", "ground_noise"] {
         let s = item_source(&reference, name);
         assert!(s.contains("S.465-6"), "{name}: {s}");
     }
-    let pattern = run_with(&[
-        "station.Nordkam.antenna.noise_pattern=[[0, 47], [1, 20], [10, 0], [90, -10], [180, -10]]",
-    ]);
-    for name in ["sky_noise", "ground_noise", "sun_noise", "moon_noise"] {
+    let pattern_set =
+        "station.Nordkam.antenna.noise_pattern=[[0, 47], [1, 20], [10, 0], [90, -10], [180, -10]]";
+    let pattern = run_with(&[pattern_set]);
+    for name in ["sky_noise", "ground_noise"] {
         let s = item_source(&pattern, name);
         assert!(
             s.contains("antenna.noise_pattern") && !s.contains("S.465"),
@@ -443,6 +443,80 @@ fn budget_noise_sources_name_what_was_used() {
             "{name}: {s}"
         );
     }
-    // The Sun and the Moon still go through the pattern (here the reference one).
-    assert!(item_source(&measured, "sun_noise").contains("S.465-6"));
+    // The Sun and the Moon (evaluated with a time) go through the pattern actually used.
+    let at = |set: &[&str]| {
+        let mut args = vec!["budget", EXAMPLE, "--station", "Nordkam"];
+        args.extend(["--at", "2026-12-01T20:28:19Z"]);
+        for s in set {
+            args.extend(["--set", s]);
+        }
+        args.extend(["--format", "json"]);
+        json(&run(&args))
+    };
+    for (set, want) in [
+        (vec![], "S.465-6"),
+        (vec![pattern_set], "antenna.noise_pattern"),
+    ] {
+        let b = at(&set);
+        for name in ["sun_noise", "moon_noise"] {
+            let s = item_source(&b, name);
+            assert!(s.contains(want), "{name}: {s}");
+        }
+    }
+}
+
+/// Without a time (`--elevation-deg`) the Sun and the Moon are not evaluated: the table says so
+/// instead of printing 0 K, the JSON gives null (as for their separations) and the CSV an empty
+/// value; the antenna temperature's source says they are left out. With `--at` they are numbers.
+#[test]
+fn budget_without_a_time_does_not_evaluate_the_sun_and_moon() {
+    let table = crate::common::bin::success(&budget(EXAMPLE, "Nordkam", "30", &[]));
+    for name in ["sun noise", "moon noise"] {
+        let l = table.lines().find(|l| l.starts_with(name)).unwrap();
+        assert!(
+            l.contains("not evaluated: no time given (--at)") && !l.contains("0.00"),
+            "{l}"
+        );
+    }
+    let ta = table
+        .lines()
+        .find(|l| l.starts_with("antenna temperature"))
+        .unwrap();
+    assert!(ta.contains("Sun and Moon not evaluated"), "{ta}");
+    let b = json(&budget(EXAMPLE, "Nordkam", "30", &["--format", "json"]));
+    for k in [
+        "sun_noise_k",
+        "moon_noise_k",
+        "sun_separation_deg",
+        "moon_separation_deg",
+    ] {
+        assert!(b[k].is_null(), "{k}: {}", b[k]);
+    }
+    let item = |b: &serde_json::Value, n: &str| {
+        b["items"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|i| i["name"] == n)
+            .unwrap()
+            .clone()
+    };
+    assert!(item(&b, "sun_noise")["value"].is_null());
+    assert!(item(&b, "moon_noise")["value"].is_null());
+    let csv = crate::common::bin::success(&budget(EXAMPLE, "Nordkam", "30", &["--format", "csv"]));
+    let sun = csv.lines().find(|l| l.starts_with("sun_noise,")).unwrap();
+    assert!(sun.starts_with("sun_noise,,K,"), "{sun}");
+    // With a time both are numbers (here the satellite's position in the example's window).
+    let at = json(&run(&[
+        "budget",
+        EXAMPLE,
+        "--station",
+        "Sierra Baja",
+        "--at",
+        "2026-12-02T08:51:00Z",
+        "--format",
+        "json",
+    ]));
+    assert!(at["sun_noise_k"].as_f64().is_some() && at["moon_noise_k"].as_f64().is_some());
+    assert!(item(&at, "sun_noise")["value"].as_f64().is_some());
 }
