@@ -236,12 +236,6 @@ pub fn instant_budget(
         pfd_exceeded: false,
     }
     .lines(model.link.frequency_hz());
-    if values.galactic_extrapolated {
-        warnings.push(
-            "galactic background extrapolated beyond ITU-R P.372's range (a term below 1 K here)"
-                .into(),
-        );
-    }
     let spectrum = mission.pfd_spectrum();
     let pfd = pfd_at(&model, &look, &values, spectrum);
     items.extend(pfd.iter().flat_map(|p| pfd_items(p, spectrum)));

@@ -302,7 +302,8 @@ fn station_noise(
         st.man_made_noise.map(|e| (e, f)),
         ant.measured_noise_temperature_k.clone(),
         crate::noise::terrain::terrain_profile(&st.horizon_mask),
-    ))
+    )
+    .with_galactic_warning(f))
 }
 
 /// The ground antenna as the link model wants it; a gain given directly takes the beamwidth of its

@@ -520,3 +520,43 @@ fn budget_without_a_time_does_not_evaluate_the_sun_and_moon() {
     assert!(at["sun_noise_k"].as_f64().is_some() && at["moon_noise_k"].as_f64().is_some());
     assert!(item(&at, "sun_noise")["value"].as_f64().is_some());
 }
+
+/// The galactic background's extrapolation above 1 GHz (ITU-R P.372's galactic curve is stated
+/// to 1 GHz) is warned by one rule in `plan` and `budget` alike: where the continued term is 1 K or
+/// more (1700 MHz: 290 x 10^5.2 x 1700^-2.3 = 1.7 K, first principles from the curve's
+/// Fa = 52 - 23 log10 f_MHz), and in neither at 8212.5 MHz (0.05 K, stated in the README).
+#[test]
+fn galactic_extrapolation_is_warned_alike_by_plan_and_budget() {
+    let galactic = |args: &[&str]| {
+        let o = run(args);
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        String::from_utf8_lossy(&o.stderr)
+            .lines()
+            .filter(|l| l.starts_with("warning") && l.contains("galactic"))
+            .count()
+    };
+    let l_band = "transmitter.frequency_mhz=1700";
+    let budget_l = galactic(&[
+        "budget",
+        EXAMPLE,
+        "--station",
+        "Nordkam",
+        "--elevation-deg",
+        "20",
+        "--set",
+        l_band,
+    ]);
+    let plan_l = galactic(&["plan", EXAMPLE, "--set", l_band]);
+    assert_eq!(budget_l, 1);
+    assert!(plan_l >= 1, "plan does not warn where budget does");
+    let budget_x = galactic(&[
+        "budget",
+        EXAMPLE,
+        "--station",
+        "Nordkam",
+        "--elevation-deg",
+        "20",
+    ]);
+    let plan_x = galactic(&["plan", EXAMPLE]);
+    assert_eq!((budget_x, plan_x), (0, 0));
+}
