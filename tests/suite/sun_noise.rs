@@ -296,6 +296,31 @@ fn geostationary_sun_outage_season_falls_where_the_sun_crosses_the_arc() {
         [day(predicted - 1), day(predicted), day(predicted + 1)].contains(&closest_day.to_string()),
         "{closest_day} vs {predicted_day}"
     );
+    // The table names every column of the seasons and says which pass numbering it shows.
+    let table = success(&run(&["sun-transits", &mission]));
+    let head = table
+        .lines()
+        .find(|l| l.starts_with("station") && l.contains("first day"))
+        .unwrap();
+    assert!(head.trim_end().ends_with("note"), "{head}");
+    assert!(table.contains("pass: plan's pass number"), "{table}");
     // The station looks south at the arc: elevation 90 - 40 - 6.2 = 43.8 deg, about.
     assert!((closest["closest_elevation_deg"].as_f64().unwrap() - 43.8).abs() < 0.3);
+}
+
+/// `sun-transits` numbers passes as `plan` does for the same window (the number of its per-pass
+/// file, by AOS) and gives the same pass identifier as `plan`'s pass rows.
+#[test]
+fn sun_transits_pass_numbers_and_ids_are_the_plans() {
+    let doc = json(&run(&["sun-transits", EXAMPLE, "--format", "json"]));
+    let plan = json(&run(&["plan", EXAMPLE, "--format", "json"]));
+    let passes = plan["passes"].as_array().unwrap();
+    for t in doc["transits"].as_array().unwrap() {
+        let p = passes
+            .iter()
+            .find(|p| p["number"] == t["pass"])
+            .expect("the plan has the pass");
+        assert_eq!(p["pass_id"], t["pass_id"]);
+        assert_eq!(p["station"], t["station"]);
+    }
 }
