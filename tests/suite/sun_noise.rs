@@ -324,3 +324,29 @@ fn sun_transits_pass_numbers_and_ids_are_the_plans() {
         assert_eq!(p["station"], t["station"]);
     }
 }
+
+/// The element-age warning is worded by orbit class: a near-geostationary element set 10 days
+/// old is not called a LEO one nor given the LEO drift in km.
+#[test]
+fn element_age_warning_of_a_geostationary_set_is_not_a_leo_one() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = geostationary_mission(dir.path());
+    let o = run(&[
+        "passes",
+        &mission,
+        "--start",
+        "2027-03-01T00:00:00Z",
+        "--days",
+        "1",
+    ]);
+    success(&o);
+    let err = String::from_utf8_lossy(&o.stderr);
+    let w = err
+        .lines()
+        .find(|l| l.contains("days after the epoch"))
+        .unwrap_or_else(|| panic!("{err}"));
+    assert!(
+        w.contains("near-geostationary") && !w.contains("LEO"),
+        "{w}"
+    );
+}
