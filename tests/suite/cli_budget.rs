@@ -560,3 +560,61 @@ fn galactic_extrapolation_is_warned_alike_by_plan_and_budget() {
     let plan_x = galactic(&["plan", EXAMPLE]);
     assert_eq!((budget_x, plan_x), (0, 0));
 }
+
+/// `budget --azimuth-deg` at Sierra Baja (its horizon_mask rises to 12 deg at 150 deg): the
+/// azimuth is used as given (normalized to 0-360) without a note, and the terrain's noise follows
+/// it; without it the budget names the azimuth it took (a note on stderr, `azimuth_deg` in the
+/// JSON), and that azimuth's antenna temperature is the highest of a 10 deg sweep of given
+/// azimuths (the rule: the worst azimuth whose terrain is not above the elevation; at 20 deg every
+/// azimuth qualifies). First principles: warm terrain in the sidelobes adds noise, so the
+/// direction toward the highest terrain is the worst.
+#[test]
+fn budget_azimuth_and_the_worst_azimuth_note_at_sierra_baja() {
+    let at = |more: &[&str]| {
+        let mut args = vec!["--format", "json"];
+        args.extend(more);
+        let o = budget(EXAMPLE, "Sierra Baja", "20", &args);
+        let note = String::from_utf8_lossy(&o.stderr)
+            .lines()
+            .any(|l| l.contains("no azimuth given"));
+        (json(&o), note)
+    };
+    let (worst, note) = at(&[]);
+    assert!(
+        note,
+        "the worst-azimuth note is printed without --azimuth-deg"
+    );
+    let worst_az = worst["azimuth_deg"].as_f64().unwrap();
+    let worst_ta = worst["antenna_temperature_k"].as_f64().unwrap();
+    let table = crate::common::bin::success(&budget(EXAMPLE, "Sierra Baja", "20", &[]));
+    assert!(
+        table
+            .lines()
+            .next()
+            .unwrap()
+            .contains(&format!("azimuth {worst_az:.1} deg")),
+        "{table}"
+    );
+    let mut highest = (f64::NEG_INFINITY, 0.0);
+    for k in 0..36 {
+        let az = format!("{}", 10 * k);
+        let (b, note) = at(&["--azimuth-deg", &az]);
+        assert!(!note, "no note with --azimuth-deg {az}");
+        assert_eq!(b["azimuth_deg"].as_f64().unwrap(), (10 * k) as f64);
+        let ta = b["antenna_temperature_k"].as_f64().unwrap();
+        assert!(ta <= worst_ta + 2e-3, "azimuth {az}: {ta} K > {worst_ta} K");
+        if ta > highest.0 {
+            highest = (ta, (10 * k) as f64);
+        }
+    }
+    // The sweep's highest is near the worst azimuth, toward the highest terrain (150 deg).
+    assert!(
+        (highest.1 - worst_az).abs() <= 10.0,
+        "{highest:?} vs {worst_az}"
+    );
+    assert!((worst_az - 150.0).abs() <= 30.0, "{worst_az}");
+    // A negative azimuth is taken modulo 360, and the open sky to the north is quieter.
+    let (north, _) = at(&["--azimuth-deg", "-30"]);
+    assert_eq!(north["azimuth_deg"].as_f64().unwrap(), 330.0);
+    assert!(north["ground_noise_k"].as_f64().unwrap() < worst["ground_noise_k"].as_f64().unwrap());
+}
