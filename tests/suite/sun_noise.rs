@@ -350,3 +350,67 @@ fn element_age_warning_of_a_geostationary_set_is_not_a_leo_one() {
         "{w}"
     );
 }
+
+/// The per-step CSV itemizes the availability (rain) case as it does clear sky: every
+/// weather-dependent noise column has its `rain_` twin, and in every row the rain terms add up
+/// to `rain_antenna_temperature_k` and, with the receiver, to `rain_system_temperature_k` (the
+/// man-made and receiver terms do not depend on the weather). On the example's pass 16, the Sun
+/// transit: the rain case's Sun term is the clear one dimmed by the rain path, never larger.
+#[test]
+fn per_step_csv_itemizes_the_rain_case_like_clear_sky() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    success(&run(&["plan", EXAMPLE, "--out", out.to_str().unwrap()]));
+    let file = std::fs::read_dir(&out)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .find(|p| {
+            p.file_name()
+                .unwrap()
+                .to_string_lossy()
+                .starts_with("pass-016-")
+        })
+        .expect("pass 16's file");
+    let text = std::fs::read_to_string(file).unwrap();
+    let mut lines = text.lines().filter(|l| !l.starts_with('#'));
+    let head: Vec<&str> = lines.next().unwrap().split(',').collect();
+    for clear in [
+        "atmospheric_loss_db",
+        "sky_noise_k",
+        "ground_noise_k",
+        "sun_noise_k",
+        "moon_noise_k",
+        "antenna_temperature_k",
+        "system_temperature_k",
+        "cn0_dbhz",
+        "margin_db",
+    ] {
+        assert!(head.contains(&clear), "{clear}");
+        let rain = format!("rain_{clear}");
+        assert!(head.contains(&rain.as_str()), "no {rain}");
+    }
+    let col = |n: &str| head.iter().position(|h| *h == n).unwrap();
+    let mut max_sun = (0.0f64, 0.0f64);
+    for l in lines {
+        let f: Vec<&str> = l.split(',').collect();
+        let v = |n: &str| f[col(n)].parse::<f64>().unwrap();
+        let ta = v("rain_sky_noise_k")
+            + v("rain_ground_noise_k")
+            + v("man_made_noise_k")
+            + v("rain_sun_noise_k")
+            + v("rain_moon_noise_k");
+        assert!((ta - v("rain_antenna_temperature_k")).abs() < 3e-3, "{l}");
+        let tsys = v("rain_antenna_temperature_k") + v("receiver_noise_k");
+        assert!((tsys - v("rain_system_temperature_k")).abs() < 2e-3, "{l}");
+        assert!(v("rain_sun_noise_k") <= v("sun_noise_k") + 1e-3, "{l}");
+        assert!(
+            v("rain_ground_noise_k") >= v("ground_noise_k") - 1e-3,
+            "{l}"
+        );
+        if v("sun_noise_k") > max_sun.0 {
+            max_sun = (v("sun_noise_k"), v("rain_sun_noise_k"));
+        }
+    }
+    // The transit shows in both cases (115 K in clear sky, README).
+    assert!(max_sun.0 > 100.0 && max_sun.1 > 50.0, "{max_sun:?}");
+}
