@@ -197,7 +197,8 @@ fn print_budget(doc: &BudgetDoc, out: &mut dyn Write) -> Result<()> {
     for i in &doc.items {
         t.row(vec![
             i.name.replace('_', " "),
-            item_value(i.value, &i.unit),
+            i.value
+                .map_or_else(|| "-".to_string(), |v| item_value(v, &i.unit)),
             i.unit.clone(),
             i.source.clone(),
         ]);

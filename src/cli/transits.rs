@@ -67,6 +67,9 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
     Ok(())
 }
 
+/// Which numbering the transit table's pass columns are.
+const PASS_NUMBERING: &str = "pass: plan's pass number for the same window (its pass-NNN-*.csv file, passes numbered by AOS); pass id: the station and the minute of the pass's highest elevation (UTC), as in plan's and passes' pass_id";
+
 fn print_table(
     rows: &[TransitRow],
     seasons: Option<&[SeasonRow]>,
@@ -109,6 +112,7 @@ fn print_table(
             ]);
         }
         write!(out, "{}", t.render())?;
+        writeln!(out, "{PASS_NUMBERING}")?;
     }
     if let Some(seasons) = seasons {
         writeln!(
@@ -123,7 +127,7 @@ fn print_table(
             ("days > 1 dB", Align::Right),
             ("Sun K", Align::Right),
             ("Tsys rise dB", Align::Right),
-            ("", Align::Left),
+            ("note", Align::Left),
         ]);
         for s in seasons {
             t.row(vec![

@@ -10,7 +10,7 @@
 //!              interpolates them from the station's antenna-noise tables: `noise::antenna_table`)
 //!   Tsky(boresight) = Tmr (1 - 10^(-A_abs/10)) + Tbg 10^(-A_abs/10)          (P.618-14 eq. 69;
 //!              reported as the sky brightness along the boresight, not used in Tsys)
-//!   Rs       = Rb / eta (eta = information bits per symbol);  B_occ = Rs (1 + roll-off)
+//!   Rs       = Rb / m_info (m_info = information bits per symbol);  B_occ = Rs (1 + roll-off)
 //!   Eb/N0    = C/N0 - 10 log10(Rb);  Es/N0 = C/N0 - 10 log10(Rs)
 //!   margin   = Eb/N0 - required Eb/N0 - implementation loss
 //!   Shannon  = B_occ log2(1 + C/(N0 B_occ));  gap = required Eb/N0 - (2^eta_B - 1)/eta_B in dB,
@@ -176,7 +176,8 @@ impl RateSpec {
     pub fn implementation_loss_db(&self) -> f64 {
         self.implementation_loss_db
     }
-    /// Symbol rate Rs = Rb / eta, baud (eta = bits per symbol x code rate x framing efficiency).
+    /// Symbol rate Rs = Rb / m_info, baud (m_info = information bits per symbol = bits per symbol
+    /// x code rate x framing efficiency).
     pub fn symbol_rate_baud(&self) -> f64 {
         self.rate_bps / self.operating.spectral_efficiency
     }
@@ -211,7 +212,8 @@ pub struct BudgetValues {
     pub ground_noise_k: f64,
     /// Man-made noise of the surroundings (ITU-R P.372 Table 1), K.
     pub man_made_noise_k: f64,
-    /// The Sun's disk through the pattern, K (0 when not known: a budget without a time).
+    /// The Sun's disk through the pattern, K (0 when not known: a budget without a time, whose
+    /// outputs then say "not evaluated", `plan::instant`).
     pub sun_noise_k: f64,
     /// The Moon's disk through the pattern, K.
     pub moon_noise_k: f64,
@@ -278,7 +280,9 @@ pub struct LinkValues {
 #[derive(Debug, Clone, PartialEq)]
 pub struct BudgetItem {
     pub name: &'static str,
-    pub value: f64,
+    /// `None`: not evaluated (the Sun and the Moon of a budget without a time, `budget
+    /// --elevation-deg`; the source says why).
+    pub value: Option<f64>,
     pub unit: &'static str,
     /// Where the value comes from (a scheme's name for its threshold, so not always static).
     pub source: std::borrow::Cow<'static, str>,
@@ -574,7 +578,7 @@ impl LinkModel {
                 "ground_antenna_gain",
                 v.antenna_gain_dbi,
                 "dBi",
-                "eta (pi D / lambda)^2 or input",
+                "e_ap (pi D / lambda)^2, e_ap the aperture efficiency; or input",
             ),
             item(
                 "sky_temperature",
@@ -586,13 +590,13 @@ impl LinkModel {
                 "sky_noise",
                 v.sky_noise_k,
                 "K",
-                "sky over the pattern (S.465-6 envelope), P.618-14 eq. (69)",
+                "sky over the antenna's noise pattern, P.618-14 eq. (69)",
             ),
             item(
                 "ground_noise",
                 v.ground_noise_k,
                 "K",
-                "ground over the pattern: e Tg + (1 - e) Tsky(mirror)",
+                "ground over the antenna's noise pattern: e Tg + (1 - e) Tsky(mirror)",
             ),
             item(
                 "man_made_noise",
@@ -604,13 +608,13 @@ impl LinkModel {
                 "sun_noise",
                 v.sun_noise_k,
                 "K",
-                "solar disk over the pattern, ITU-R P.372 quiet Sun or given flux",
+                "solar disk over the antenna's noise pattern, ITU-R P.372 quiet Sun or given flux",
             ),
             item(
                 "moon_noise",
                 v.moon_noise_k,
                 "K",
-                "lunar disk over the pattern, 140-280 K by phase (1-100 GHz)",
+                "lunar disk over the antenna's noise pattern, 140-280 K by phase (1-100 GHz)",
             ),
             item(
                 "antenna_temperature",
@@ -728,7 +732,7 @@ pub fn threshold_cn0_dbhz(
 /// at `cn0_dbhz`.
 #[inline]
 fn rate_figures(cn0_dbhz: f64, rate: &RateSpec) -> RateFigures {
-    // Rs = Rb / eta ; B = Rs (1 + alpha)
+    // Rs = Rb / m_info ; B = Rs (1 + alpha)
     let symbol_rate_baud = rate.symbol_rate_baud();
     let occupied_bandwidth_hz = symbol_rate_baud * (1.0 + rate.roll_off);
     // Eb/N0 = C/N0 - 10 log10(Rb) ; Es/N0 = C/N0 - 10 log10(Rs)
@@ -766,7 +770,7 @@ fn item(
 ) -> BudgetItem {
     BudgetItem {
         name,
-        value,
+        value: Some(value),
         unit,
         source: source.into(),
     }
@@ -827,7 +831,12 @@ fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 15] {
             "bit/s",
             "Rb / (framing efficiency x code rate) = Rs x bits per symbol",
         ),
-        item("symbol_rate", v.symbol_rate_baud, "baud", "Rb / eta"),
+        item(
+            "symbol_rate",
+            v.symbol_rate_baud,
+            "baud",
+            "Rb / information bits per symbol",
+        ),
         item(
             "occupied_bandwidth",
             v.occupied_bandwidth_hz,

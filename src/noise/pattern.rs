@@ -284,6 +284,16 @@ impl NoisePattern {
         })
     }
 
+    /// What the pattern is, as the outputs name it (the source column of `budget`).
+    pub fn label(&self) -> &'static str {
+        match self.shape {
+            Shape::Reference { .. } => {
+                "the reference pattern (Gaussian main beam, ITU-R S.465-6 envelope)"
+            }
+            Shape::Measured { .. } => "the station's antenna.noise_pattern",
+        }
+    }
+
     /// A measured pattern: rows `[off_axis_deg, gain_dbi]` from 0 to 180 deg, angles strictly
     /// increasing; linear interpolation in dB between rows; scaled by one factor so it integrates
     /// to 4 pi sr ([`NoisePattern::scale`] gives the factor).

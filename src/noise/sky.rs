@@ -13,7 +13,9 @@
 //!   upward; P.618-14 §3 notes the galactic background is possibly significant only
 //!   below about 2 GHz. Treatment above 1 GHz: the same power law is continued
 //!   (T_gal < 1.2 K at 2 GHz, < 0.03 K at 10 GHz, so the CMB dominates) and the
-//!   result is flagged [`SkyRange::GalacticExtrapolated`]. Below 10 MHz: error.
+//!   result is flagged [`SkyRange::GalacticExtrapolated`]; the outputs warn of it where the
+//!   continued term is [`GALACTIC_WARNING_K`] or more ([`galactic_extrapolation_warned`], up to
+//!   about 2.1 GHz). Below 10 MHz: error.
 
 use crate::units::{CMB_K, T0_K};
 
@@ -59,6 +61,20 @@ pub fn galactic_temperature_p372_k(frequency_hz: f64) -> Result<(f64, SkyRange),
         SkyRange::InRange
     };
     Ok((t, range))
+}
+
+/// The continued galactic term (above 1 GHz) the outputs warn of, K: from this much up (below
+/// about 2.1 GHz); a smaller term, against system temperatures of tens of kelvin and more, is
+/// stated in the README instead of in every output. Our rule, no published source.
+pub const GALACTIC_WARNING_K: f64 = 1.0;
+
+/// Whether the outputs warn that the galactic background is extrapolated at `frequency_hz`: the
+/// one rule of `plan` and `budget` (through `plan::noise::NoiseWarnings`).
+pub fn galactic_extrapolation_warned(frequency_hz: f64) -> bool {
+    matches!(
+        galactic_temperature_p372_k(frequency_hz),
+        Ok((t, SkyRange::GalacticExtrapolated)) if t >= GALACTIC_WARNING_K
+    )
 }
 
 /// Background temperature (K) behind the atmosphere: CMB 2.725 K + galactic (P.372).

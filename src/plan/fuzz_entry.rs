@@ -158,10 +158,14 @@ impl PassSink for CheckSteps {
     fn pass(&self, series: &PassSeries<'_>) -> Result<(), Self::Error> {
         let mut found = Vec::new();
         for (i, s) in series.steps.iter().enumerate() {
-            let rain = s.rain.map_or([0.0; 4], |r| {
+            let rain = s.rain.map_or([0.0; 8], |r| {
                 [
                     r.atmospheric_loss_db,
                     r.sky_noise_k,
+                    r.ground_noise_k,
+                    r.sun_noise_k,
+                    r.moon_noise_k,
+                    r.antenna_temperature_k,
                     r.system_temperature_k,
                     r.cn0_dbhz,
                 ]

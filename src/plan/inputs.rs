@@ -157,11 +157,48 @@ pub fn check_element_age(
     }
 }
 
-/// The element-age warning, if any, its words scaled with the age: more than 7 days between the
-/// epoch and either end of the window warns; more than 30 days warns strongly; more than
-/// [`MAX_ELEMENT_AGE_DAYS`] (only reached when stale elements were allowed) says the positions
-/// are meaningless. A LEO element set's along-track error grows by roughly 1-3 km a day in its
-/// first week and faster after, with drag (common practice); the growth is not modelled.
+/// The orbit class the element-age warning is worded by.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum OrbitClass {
+    /// Low Earth orbit: [`LEO_MIN_REV_PER_DAY`] or more.
+    Leo,
+    /// Near the geostationary arc ([`super::transits::near_geostationary`]).
+    NearGeostationary,
+    /// Any other (medium, highly elliptical, ...).
+    Other,
+}
+
+/// Mean motion from which an orbit counts as low Earth orbit, rev/day: a period of 128 min or
+/// less (common practice: the usual upper bound of LEO, about 2000 km altitude).
+pub const LEO_MIN_REV_PER_DAY: f64 = 1440.0 / 128.0;
+
+impl OrbitClass {
+    pub fn of(set: &ElementSet) -> OrbitClass {
+        if set.elements.mean_motion >= LEO_MIN_REV_PER_DAY {
+            OrbitClass::Leo
+        } else if super::transits::near_geostationary(set) {
+            OrbitClass::NearGeostationary
+        } else {
+            OrbitClass::Other
+        }
+    }
+
+    /// How the position error grows with the age, for a warning (7 to 30 days of age `d`).
+    fn growth(self, d: f64) -> String {
+        match self {
+            OrbitClass::Leo => format!("errors grow by roughly 1-3 km a day along track for a LEO element set (common practice), so about {:.0}-{:.0} km now: check pass times against fresh elements", d, 3.0 * d),
+            OrbitClass::NearGeostationary => "for a near-geostationary element set the error grows along the arc, and station-keeping manoeuvres since the epoch are not in the elements (common practice): check the satellite's position against fresh elements".into(),
+            OrbitClass::Other => "the error grows with the age at a rate passbudget does not estimate for this orbit (neither LEO nor near-geostationary): check pass times against fresh elements".into(),
+        }
+    }
+}
+
+/// The element-age warning, if any, its words scaled with the age and worded by orbit class
+/// ([`OrbitClass`]): more than 7 days between the epoch and either end of the window warns; more
+/// than 30 days warns strongly; more than [`MAX_ELEMENT_AGE_DAYS`] (only reached when stale
+/// elements were allowed) says the positions are meaningless. A LEO element set's along-track
+/// error grows by roughly 1-3 km a day in its first week and faster after, with drag (common
+/// practice); the growth is not modelled.
 pub fn element_age_warning(
     set: &ElementSet,
     start: chrono::DateTime<chrono::Utc>,
@@ -173,9 +210,12 @@ pub fn element_age_warning(
     if d > MAX_ELEMENT_AGE_DAYS {
         Some(format!("STALE ELEMENTS: {reach}, more than the {MAX_ELEMENT_AGE_DAYS} days planning accepts without --allow-stale-elements; errors of hundreds to thousands of km: pass times, geometry and every number that follows from them are not meaningful"))
     } else if d > 30.0 {
-        Some(format!("STALE ELEMENTS: {reach}; errors of many tens to hundreds of km are likely (pass times off by tens of seconds to minutes): get fresh elements before relying on these numbers"))
+        Some(match OrbitClass::of(set) {
+            OrbitClass::Leo => format!("STALE ELEMENTS: {reach}; errors of many tens to hundreds of km are likely for a LEO element set (pass times off by tens of seconds to minutes): get fresh elements before relying on these numbers"),
+            class => format!("STALE ELEMENTS: {reach}; {}; get fresh elements before relying on these numbers", class.growth(d)),
+        })
     } else if d > 7.0 {
-        Some(format!("{reach}; errors grow by roughly 1-3 km a day along track for a LEO element set (common practice), so about {:.0}-{:.0} km now: check pass times against fresh elements", d, 3.0 * d))
+        Some(format!("{reach}; {}", OrbitClass::of(set).growth(d)))
     } else {
         None
     }

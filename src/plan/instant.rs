@@ -219,10 +219,10 @@ pub fn instant_budget(
         .zip(time.as_ref())
         .map(|(b, t)| model.bodies.at(b, t, look.azimuth_deg, look.elevation_deg));
     let (att, values) = budget_at(&model, &look, weather, at, rate)?;
-    let mut items = items(&model, &look, &att, &values, rate)?;
+    let mut items = items(&model, &look, &att, &values, rate, at.is_some())?;
     items.push(BudgetItem {
         name: "required_margin",
-        value: rates.required_margin_db,
+        value: Some(rates.required_margin_db),
         unit: "dB",
         source: "mission modem.required_margin_db".into(),
     });
@@ -236,12 +236,6 @@ pub fn instant_budget(
         pfd_exceeded: false,
     }
     .lines(model.link.frequency_hz());
-    if values.galactic_extrapolated {
-        warnings.push(
-            "galactic background extrapolated beyond ITU-R P.372's range (a term below 1 K here)"
-                .into(),
-        );
-    }
     let spectrum = mission.pfd_spectrum();
     let pfd = pfd_at(&model, &look, &values, spectrum);
     items.extend(pfd.iter().flat_map(|p| pfd_items(p, spectrum)));
@@ -303,7 +297,7 @@ fn pfd_items(p: &crate::link::pfd::PfdAt, spectrum: crate::link::pfd::Spectrum) 
     [
         BudgetItem {
             name: "pfd",
-            value: p.pfd_dbw_m2,
+            value: Some(p.pfd_dbw_m2),
             unit: "dB(W/m2)",
             source: match spectrum {
                 crate::link::pfd::Spectrum::Uniform => format!("in {per}: EIRP - 10 log10(4 pi d^2) - 10 log10(max(B, B_ref) / B_ref), {}", spectrum.label()),
@@ -313,19 +307,19 @@ fn pfd_items(p: &crate::link::pfd::PfdAt, spectrum: crate::link::pfd::Spectrum) 
         },
         BudgetItem {
             name: "pfd_reference_bandwidth",
-            value: p.reference_bandwidth_hz,
+            value: Some(p.reference_bandwidth_hz),
             unit: "Hz",
             source: "the band's Article 21 Table 21-4 row".into(),
         },
         BudgetItem {
             name: "pfd_limit",
-            value: p.limit_dbw_m2,
+            value: Some(p.limit_dbw_m2),
             unit: "dB(W/m2)",
             source: format!("at this angle of arrival (the elevation); {status}").into(),
         },
         BudgetItem {
             name: "pfd_margin",
-            value: p.margin_db,
+            value: Some(p.margin_db),
             unit: "dB",
             source: "limit minus pfd (negative: over the limit, a warning; compliance is for the administration to decide)".into(),
         },
@@ -483,6 +477,7 @@ fn items(
     att: &Attenuation,
     values: &BudgetValues,
     rate: RateSpec,
+    bodies_evaluated: bool,
 ) -> Result<Vec<BudgetItem>, InstantError> {
     let atmosphere = [
         ("gas_loss", att.gas_db, "ITU-R P.676-12 Annex 2"),
@@ -496,7 +491,7 @@ fn items(
     ]
     .map(|(name, value, source)| BudgetItem {
         name,
-        value: -value,
+        value: Some(-value),
         unit: "dB",
         source: source.into(),
     });
@@ -518,10 +513,18 @@ fn items(
         .link
         .itemize(geometry, atmosphere_loss, external, rate)?;
     let mut items = Vec::with_capacity(link_items.len() + atmosphere.len());
+    // The noise terms' sources as this station makes them (pattern, measured table, terrain).
+    let sources = model.noise.term_sources();
     for mut i in link_items {
-        if i.name == "ground_noise" && model.noise.has_terrain() {
-            // The terrain above the geometric horizon is part of the ground term.
-            i.source = "ground over the pattern: e Tg + (1 - e) Tsky(mirror); with the terrain of horizon_mask at this azimuth, e Tg + (1 - e) Tsky(0)".into();
+        match i.name {
+            "sky_noise" => i.source = sources.sky.clone().into(),
+            "ground_noise" => i.source = sources.ground.clone().into(),
+            "sun_noise" => i.source = sources.sun.clone().into(),
+            "moon_noise" => i.source = sources.moon.clone().into(),
+            _ => {}
+        }
+        if !bodies_evaluated {
+            not_evaluated(&mut i);
         }
         let after_fsl = i.name == "free_space_loss";
         let after_moon = i.name == "moon_noise";
@@ -536,17 +539,36 @@ fn items(
     Ok(items)
 }
 
+/// Without a time (a budget at an elevation) the Sun and the Moon are not evaluated: their items
+/// carry no value and say so, and the antenna temperature's source says they are left out.
+fn not_evaluated(i: &mut BudgetItem) {
+    match i.name {
+        "sun_noise" | "moon_noise" => {
+            i.value = None;
+            i.source = NOT_EVALUATED.into();
+        }
+        "antenna_temperature" => {
+            i.source =
+                "sky + ground + man-made (Sun and Moon not evaluated: no time given (--at))".into();
+        }
+        _ => {}
+    }
+}
+
+/// The source of the Sun's and the Moon's items of a budget without a time.
+pub const NOT_EVALUATED: &str = "not evaluated: no time given (--at)";
+
 /// The Sun's and the Moon's angles from the pointing, when the budget has a time.
 fn separation_items(values: &BudgetValues) -> impl Iterator<Item = BudgetItem> {
     let sun = values.sun_separation_deg.map(|value| BudgetItem {
         name: "sun_separation",
-        value,
+        value: Some(value),
         unit: "deg",
         source: "Sun: Astronomical Almanac low-precision formulae".into(),
     });
     let moon = values.moon_separation_deg.map(|value| BudgetItem {
         name: "moon_separation",
-        value,
+        value: Some(value),
         unit: "deg",
         source: "Moon: Meeus ch. 47".into(),
     });

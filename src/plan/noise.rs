@@ -33,6 +33,9 @@ pub struct NoiseWarnings {
     pub pattern: PatternWarnings,
     /// The frequency is outside the 0.3-250 MHz of the P.372 Table 1 man-made noise curves.
     pub man_made_extrapolated: bool,
+    /// The galactic background is continued above 1 GHz where it still adds 1 K or more
+    /// ([`crate::noise::sky::galactic_extrapolation_warned`]).
+    pub galactic_extrapolated: bool,
 }
 
 impl NoiseWarnings {
@@ -44,6 +47,7 @@ impl NoiseWarnings {
                 main_beam_narrowed: self.pattern.main_beam_narrowed || o.pattern.main_beam_narrowed,
             },
             man_made_extrapolated: self.man_made_extrapolated || o.man_made_extrapolated,
+            galactic_extrapolated: self.galactic_extrapolated || o.galactic_extrapolated,
         }
     }
 
@@ -57,6 +61,10 @@ impl NoiseWarnings {
             (
                 self.man_made_extrapolated,
                 "man-made noise (ITU-R P.372 Table 1, 0.3-250 MHz)",
+            ),
+            (
+                self.galactic_extrapolated,
+                "galactic background (ITU-R P.372 galactic curve, 10 MHz-1 GHz; continued above it, 1 K or more here)",
             ),
         ]
         .into_iter()
@@ -138,6 +146,7 @@ impl StationNoise {
         let warnings = NoiseWarnings {
             pattern: pattern.warnings(),
             man_made_extrapolated: man_made.is_some_and(|m| m.1.extrapolated),
+            galactic_extrapolated: false,
         };
         let mut s = Self {
             clear: AntennaNoiseTable::from_rows(&[]),
@@ -313,6 +322,51 @@ impl StationNoise {
     pub fn warnings(&self) -> NoiseWarnings {
         self.warnings
     }
+
+    /// The same model with the galactic background's warning set for `frequency_hz` (the one
+    /// rule: [`crate::noise::sky::galactic_extrapolation_warned`]).
+    pub fn with_galactic_warning(mut self, frequency_hz: f64) -> Self {
+        self.warnings.galactic_extrapolated =
+            crate::noise::sky::galactic_extrapolation_warned(frequency_hz);
+        self
+    }
+
+    /// Where the sky and the ground terms come from, as the outputs name them: the integral over
+    /// the pattern actually used ([`NoisePattern::label`]) or the station's measured antenna
+    /// temperature split by that integral's shares (module doc), the terrain of the horizon mask
+    /// when it is part of the ground term.
+    pub fn term_sources(&self) -> NoiseSources {
+        let pattern = self.pattern.label();
+        let (sky, ground) = match &self.measured {
+            Some(_) => (
+                format!("antenna.measured_noise_temperature_k, its sky share by the integral over {pattern}; a weather case adds the integral's excess over clear sky"),
+                format!("antenna.measured_noise_temperature_k, its ground share by the integral over {pattern}; a weather case adds the integral's excess over clear sky"),
+            ),
+            None => (
+                format!("sky over {pattern}, ITU-R P.618-14 eq. (69)"),
+                if self.has_terrain() {
+                    format!("ground over {pattern}: e Tg + (1 - e) Tsky(mirror); with the terrain of horizon_mask at this azimuth, e Tg + (1 - e) Tsky(0)")
+                } else {
+                    format!("ground over {pattern}: e Tg + (1 - e) Tsky(mirror)")
+                },
+            ),
+        };
+        NoiseSources {
+            sky,
+            ground,
+            sun: format!("solar disk over {pattern}, ITU-R P.372 quiet Sun or given flux"),
+            moon: format!("lunar disk over {pattern}, 140-280 K by phase (1-100 GHz)"),
+        }
+    }
+}
+
+/// The sources of a station's noise terms ([`StationNoise::term_sources`]).
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct NoiseSources {
+    pub sky: String,
+    pub ground: String,
+    pub sun: String,
+    pub moon: String,
 }
 
 /// The measured clear-sky table `m` with the model's shares and weather excess (module doc).

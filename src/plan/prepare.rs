@@ -322,7 +322,7 @@ fn station_noise(
         measured: ant.measured_noise_temperature_k.clone(),
         terrain: crate::noise::terrain::terrain_profile(&st.horizon_mask),
     };
-    Ok(StationNoise::new(inputs, atmosphere, availability))
+    Ok(StationNoise::new(inputs, atmosphere, availability).with_galactic_warning(f))
 }
 
 /// The ground antenna as the link model wants it; a gain given directly takes the beamwidth of its

@@ -83,6 +83,13 @@ pub struct RainStep {
     pub atmospheric_loss_db: f64,
     /// Sky through the whole pattern in the availability case, K.
     pub sky_noise_k: f64,
+    /// Ground through the whole pattern (with the sky it reflects) in the availability case, K.
+    pub ground_noise_k: f64,
+    /// The Sun's and the Moon's disks through the pattern, seen through the rain case's path, K.
+    pub sun_noise_k: f64,
+    pub moon_noise_k: f64,
+    /// Sum of the external terms in the availability case (man-made as in clear sky), K.
+    pub antenna_temperature_k: f64,
     pub system_temperature_k: f64,
     pub cn0_dbhz: f64,
 }
@@ -368,6 +375,10 @@ pub fn fill_pass(
             step.rain = Some(RainStep {
                 atmospheric_loss_db: ra.total_db,
                 sky_noise_k: rv.external.sky_k,
+                ground_noise_k: rv.external.ground_k,
+                sun_noise_k: rv.external.sun_k,
+                moon_noise_k: rv.external.moon_k,
+                antenna_temperature_k: rv.antenna_temperature_k,
                 system_temperature_k: rv.system_temperature_k,
                 cn0_dbhz: rv.cn0_dbhz,
             });

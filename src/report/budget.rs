@@ -33,8 +33,9 @@ pub struct BudgetDoc {
     pub sky_noise_k: f64,
     pub ground_noise_k: f64,
     pub man_made_noise_k: f64,
-    pub sun_noise_k: f64,
-    pub moon_noise_k: f64,
+    /// The Sun's and the Moon's noise, K (null without a time: not evaluated).
+    pub sun_noise_k: Option<f64>,
+    pub moon_noise_k: Option<f64>,
     pub sun_separation_deg: Option<f64>,
     pub moon_separation_deg: Option<f64>,
     pub receiver_noise_k: f64,
@@ -80,7 +81,8 @@ pub struct BudgetDoc {
 #[derive(Debug, Serialize)]
 pub struct ItemRow {
     pub name: String,
-    pub value: f64,
+    /// null (empty in CSV): not evaluated, the source says why.
+    pub value: Option<f64>,
     pub unit: String,
     pub source: String,
 }
@@ -116,8 +118,8 @@ impl BudgetDoc {
             sky_noise_k: round(v.sky_noise_k, 3),
             ground_noise_k: round(v.ground_noise_k, 3),
             man_made_noise_k: round(v.man_made_noise_k, 3),
-            sun_noise_k: round(v.sun_noise_k, 3),
-            moon_noise_k: round(v.moon_noise_k, 3),
+            sun_noise_k: b.time.map(|_| round(v.sun_noise_k, 3)),
+            moon_noise_k: b.time.map(|_| round(v.moon_noise_k, 3)),
             sun_separation_deg: v.sun_separation_deg.map(|x| round(x, 3)),
             moon_separation_deg: v.moon_separation_deg.map(|x| round(x, 3)),
             receiver_noise_k: round(v.receiver_noise_k, 3),
@@ -151,7 +153,7 @@ impl BudgetDoc {
                 .map(|i| ItemRow {
                     name: i.name.into(),
                     // + 0.0: a loss of 0 dB listed as -0 dB would read as a sign
-                    value: i.value + 0.0,
+                    value: i.value.map(|v| v + 0.0),
                     unit: i.unit.into(),
                     source: i.source.to_string(),
                 })

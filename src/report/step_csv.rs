@@ -20,10 +20,10 @@ use crate::plan::PassSeries;
 use chrono::{DateTime, Datelike, Timelike, Utc};
 
 /// The header row, in the field order of [`super::plan::StepRow`].
-pub const STEP_HEADER: &str = "time,t_s,azimuth_deg,elevation_deg,range_km,range_rate_km_s,doppler_hz,off_nadir_deg,eirp_dbw,free_space_loss_db,atmospheric_loss_db,sky_temperature_k,sky_noise_k,ground_noise_k,man_made_noise_k,sun_noise_k,moon_noise_k,receiver_noise_k,antenna_temperature_k,system_temperature_k,g_over_t_db_k,cn0_dbhz,sun_separation_deg,moon_separation_deg,rate_bps,ebn0_db,margin_db,closed,tracked,adaptive_scheme,adaptive_rate_bps,rain_atmospheric_loss_db,rain_sky_noise_k,rain_system_temperature_k,rain_cn0_dbhz,rain_margin_db";
+pub const STEP_HEADER: &str = "time,t_s,azimuth_deg,elevation_deg,range_km,range_rate_km_s,doppler_hz,off_nadir_deg,eirp_dbw,free_space_loss_db,atmospheric_loss_db,sky_temperature_k,sky_noise_k,ground_noise_k,man_made_noise_k,sun_noise_k,moon_noise_k,receiver_noise_k,antenna_temperature_k,system_temperature_k,g_over_t_db_k,cn0_dbhz,sun_separation_deg,moon_separation_deg,rate_bps,ebn0_db,margin_db,closed,tracked,adaptive_scheme,adaptive_rate_bps,rain_atmospheric_loss_db,rain_sky_noise_k,rain_ground_noise_k,rain_sun_noise_k,rain_moon_noise_k,rain_antenna_temperature_k,rain_system_temperature_k,rain_cn0_dbhz,rain_margin_db";
 
 /// Bytes of one row of the shipped example, rounded up (to size the buffer once).
-const ROW_BYTES: usize = 320;
+const ROW_BYTES: usize = 340;
 
 const POW10: [f64; 7] = [1.0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6];
 
@@ -230,6 +230,10 @@ pub fn pass_csv(series: &PassSeries, rates: &RateSet, warnings: &[String]) -> Ve
         for (x, d) in [
             (r.map(|r| r.atmospheric_loss_db), 4),
             (r.map(|r| r.sky_noise_k), 3),
+            (r.map(|r| r.ground_noise_k), 3),
+            (r.map(|r| r.sun_noise_k), 3),
+            (r.map(|r| r.moon_noise_k), 3),
+            (r.map(|r| r.antenna_temperature_k), 3),
             (r.map(|r| r.system_temperature_k), 3),
             (r.map(|r| r.cn0_dbhz), 4),
             (r.map(|r| o.margin_db(r.cn0_dbhz)), 4),

@@ -365,3 +365,256 @@ fn budget_outputs_carry_no_negative_zero() {
         );
     }
 }
+
+/// The source column uses one symbol for one quantity: "eta" is the spectral efficiency Rb / B
+/// (the README's "Conventions"), never the aperture efficiency or the bits per symbol.
+#[test]
+fn budget_table_uses_eta_for_one_quantity() {
+    let out = budget(EXAMPLE, "Nordkam", "30", &[]);
+    let table = crate::common::bin::success(&out);
+    // "eta" as a word (not inside "theta" or "theta_3dB").
+    let has_eta = |l: &str| {
+        l.split(|c: char| !c.is_ascii_alphanumeric() && c != '_')
+            .any(|w| w == "eta")
+    };
+    let with_eta: Vec<&str> = table.lines().filter(|l| has_eta(l)).collect();
+    assert!(!with_eta.is_empty(), "{table}");
+    for l in &with_eta {
+        assert!(l.contains("eta = Rb / B"), "eta with another meaning: {l}");
+    }
+    let gain = table
+        .lines()
+        .find(|l| l.starts_with("ground antenna gain"))
+        .unwrap();
+    assert!(gain.contains("aperture efficiency"), "{gain}");
+    let symbol = table
+        .lines()
+        .find(|l| l.starts_with("symbol rate"))
+        .unwrap();
+    assert!(symbol.contains("information bits per symbol"), "{symbol}");
+}
+
+/// The source of an item of `budget --format json` (its `items` list).
+fn item_source(b: &serde_json::Value, name: &str) -> String {
+    b["items"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|i| i["name"] == name)
+        .unwrap_or_else(|| panic!("no item {name}"))["source"]
+        .as_str()
+        .unwrap()
+        .to_string()
+}
+
+/// The noise items name the pattern and table the station actually gives: the reference
+/// pattern (S.465-6 envelope) by default, the station's `antenna.noise_pattern`, or its measured
+/// `antenna.measured_noise_temperature_k`.
+#[test]
+fn budget_noise_sources_name_what_was_used() {
+    let run_with = |set: &[&str]| {
+        let mut more = vec!["--format", "json"];
+        for s in set {
+            more.extend(["--set", s]);
+        }
+        json(&budget(EXAMPLE, "Nordkam", "20", &more))
+    };
+    let reference = run_with(&[]);
+    for name in ["sky_noise", "ground_noise"] {
+        let s = item_source(&reference, name);
+        assert!(s.contains("S.465-6"), "{name}: {s}");
+    }
+    let pattern_set =
+        "station.Nordkam.antenna.noise_pattern=[[0, 47], [1, 20], [10, 0], [90, -10], [180, -10]]";
+    let pattern = run_with(&[pattern_set]);
+    for name in ["sky_noise", "ground_noise"] {
+        let s = item_source(&pattern, name);
+        assert!(
+            s.contains("antenna.noise_pattern") && !s.contains("S.465"),
+            "{name}: {s}"
+        );
+    }
+    let measured =
+        run_with(&["station.Nordkam.antenna.measured_noise_temperature_k=[[0, 90], [90, 20]]"]);
+    for name in ["sky_noise", "ground_noise"] {
+        let s = item_source(&measured, name);
+        assert!(
+            s.contains("antenna.measured_noise_temperature_k"),
+            "{name}: {s}"
+        );
+    }
+    // The Sun and the Moon (evaluated with a time) go through the pattern actually used.
+    let at = |set: &[&str]| {
+        let mut args = vec!["budget", EXAMPLE, "--station", "Nordkam"];
+        args.extend(["--at", "2026-12-01T20:28:19Z"]);
+        for s in set {
+            args.extend(["--set", s]);
+        }
+        args.extend(["--format", "json"]);
+        json(&run(&args))
+    };
+    for (set, want) in [
+        (vec![], "S.465-6"),
+        (vec![pattern_set], "antenna.noise_pattern"),
+    ] {
+        let b = at(&set);
+        for name in ["sun_noise", "moon_noise"] {
+            let s = item_source(&b, name);
+            assert!(s.contains(want), "{name}: {s}");
+        }
+    }
+}
+
+/// Without a time (`--elevation-deg`) the Sun and the Moon are not evaluated: the table says so
+/// instead of printing 0 K, the JSON gives null (as for their separations) and the CSV an empty
+/// value; the antenna temperature's source says they are left out. With `--at` they are numbers.
+#[test]
+fn budget_without_a_time_does_not_evaluate_the_sun_and_moon() {
+    let table = crate::common::bin::success(&budget(EXAMPLE, "Nordkam", "30", &[]));
+    for name in ["sun noise", "moon noise"] {
+        let l = table.lines().find(|l| l.starts_with(name)).unwrap();
+        assert!(
+            l.contains("not evaluated: no time given (--at)") && !l.contains("0.00"),
+            "{l}"
+        );
+    }
+    let ta = table
+        .lines()
+        .find(|l| l.starts_with("antenna temperature"))
+        .unwrap();
+    assert!(ta.contains("Sun and Moon not evaluated"), "{ta}");
+    let b = json(&budget(EXAMPLE, "Nordkam", "30", &["--format", "json"]));
+    for k in [
+        "sun_noise_k",
+        "moon_noise_k",
+        "sun_separation_deg",
+        "moon_separation_deg",
+    ] {
+        assert!(b[k].is_null(), "{k}: {}", b[k]);
+    }
+    let item = |b: &serde_json::Value, n: &str| {
+        b["items"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|i| i["name"] == n)
+            .unwrap()
+            .clone()
+    };
+    assert!(item(&b, "sun_noise")["value"].is_null());
+    assert!(item(&b, "moon_noise")["value"].is_null());
+    let csv = crate::common::bin::success(&budget(EXAMPLE, "Nordkam", "30", &["--format", "csv"]));
+    let sun = csv.lines().find(|l| l.starts_with("sun_noise,")).unwrap();
+    assert!(sun.starts_with("sun_noise,,K,"), "{sun}");
+    // With a time both are numbers (here the satellite's position in the example's window).
+    let at = json(&run(&[
+        "budget",
+        EXAMPLE,
+        "--station",
+        "Sierra Baja",
+        "--at",
+        "2026-12-02T08:51:00Z",
+        "--format",
+        "json",
+    ]));
+    assert!(at["sun_noise_k"].as_f64().is_some() && at["moon_noise_k"].as_f64().is_some());
+    assert!(item(&at, "sun_noise")["value"].as_f64().is_some());
+}
+
+/// The galactic background's extrapolation above 1 GHz (ITU-R P.372's galactic curve is stated
+/// to 1 GHz) is warned by one rule in `plan` and `budget` alike: where the continued term is 1 K or
+/// more (1700 MHz: 290 x 10^5.2 x 1700^-2.3 = 1.7 K, first principles from the curve's
+/// Fa = 52 - 23 log10 f_MHz), and in neither at 8212.5 MHz (0.05 K, stated in the README).
+#[test]
+fn galactic_extrapolation_is_warned_alike_by_plan_and_budget() {
+    let galactic = |args: &[&str]| {
+        let o = run(args);
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        String::from_utf8_lossy(&o.stderr)
+            .lines()
+            .filter(|l| l.starts_with("warning") && l.contains("galactic"))
+            .count()
+    };
+    let l_band = "transmitter.frequency_mhz=1700";
+    let budget_l = galactic(&[
+        "budget",
+        EXAMPLE,
+        "--station",
+        "Nordkam",
+        "--elevation-deg",
+        "20",
+        "--set",
+        l_band,
+    ]);
+    let plan_l = galactic(&["plan", EXAMPLE, "--set", l_band]);
+    assert_eq!(budget_l, 1);
+    assert!(plan_l >= 1, "plan does not warn where budget does");
+    let budget_x = galactic(&[
+        "budget",
+        EXAMPLE,
+        "--station",
+        "Nordkam",
+        "--elevation-deg",
+        "20",
+    ]);
+    let plan_x = galactic(&["plan", EXAMPLE]);
+    assert_eq!((budget_x, plan_x), (0, 0));
+}
+
+/// `budget --azimuth-deg` at Sierra Baja (its horizon_mask rises to 12 deg at 150 deg): the
+/// azimuth is used as given (normalized to 0-360) without a note, and the terrain's noise follows
+/// it; without it the budget names the azimuth it took (a note on stderr, `azimuth_deg` in the
+/// JSON), and that azimuth's antenna temperature is the highest of a 10 deg sweep of given
+/// azimuths (the rule: the worst azimuth whose terrain is not above the elevation; at 20 deg every
+/// azimuth qualifies). First principles: warm terrain in the sidelobes adds noise, so the
+/// direction toward the highest terrain is the worst.
+#[test]
+fn budget_azimuth_and_the_worst_azimuth_note_at_sierra_baja() {
+    let at = |more: &[&str]| {
+        let mut args = vec!["--format", "json"];
+        args.extend(more);
+        let o = budget(EXAMPLE, "Sierra Baja", "20", &args);
+        let note = String::from_utf8_lossy(&o.stderr)
+            .lines()
+            .any(|l| l.contains("no azimuth given"));
+        (json(&o), note)
+    };
+    let (worst, note) = at(&[]);
+    assert!(
+        note,
+        "the worst-azimuth note is printed without --azimuth-deg"
+    );
+    let worst_az = worst["azimuth_deg"].as_f64().unwrap();
+    let worst_ta = worst["antenna_temperature_k"].as_f64().unwrap();
+    let table = crate::common::bin::success(&budget(EXAMPLE, "Sierra Baja", "20", &[]));
+    assert!(
+        table
+            .lines()
+            .next()
+            .unwrap()
+            .contains(&format!("azimuth {worst_az:.1} deg")),
+        "{table}"
+    );
+    let mut highest = (f64::NEG_INFINITY, 0.0);
+    for k in 0..36 {
+        let az = format!("{}", 10 * k);
+        let (b, note) = at(&["--azimuth-deg", &az]);
+        assert!(!note, "no note with --azimuth-deg {az}");
+        assert_eq!(b["azimuth_deg"].as_f64().unwrap(), (10 * k) as f64);
+        let ta = b["antenna_temperature_k"].as_f64().unwrap();
+        assert!(ta <= worst_ta + 2e-3, "azimuth {az}: {ta} K > {worst_ta} K");
+        if ta > highest.0 {
+            highest = (ta, (10 * k) as f64);
+        }
+    }
+    // The sweep's highest is near the worst azimuth, toward the highest terrain (150 deg).
+    assert!(
+        (highest.1 - worst_az).abs() <= 10.0,
+        "{highest:?} vs {worst_az}"
+    );
+    assert!((worst_az - 150.0).abs() <= 30.0, "{worst_az}");
+    // A negative azimuth is taken modulo 360, and the open sky to the north is quieter.
+    let (north, _) = at(&["--azimuth-deg", "-30"]);
+    assert_eq!(north["azimuth_deg"].as_f64().unwrap(), 330.0);
+    assert!(north["ground_noise_k"].as_f64().unwrap() < worst["ground_noise_k"].as_f64().unwrap());
+}

@@ -309,7 +309,7 @@ fn itemized_budget_agrees_with_values() {
     let r = m.rate_spec(2e6, op("ccsds-turbo-r1/2"), 0.35, 1.0).unwrap();
     let v = m.evaluate(GEOM, ATM, EXT, r).unwrap();
     let items = m.itemize(GEOM, ATM, EXT, r).unwrap();
-    let get = |n: &str| items.iter().find(|i| i.name == n).unwrap().value;
+    let get = |n: &str| items.iter().find(|i| i.name == n).unwrap().value.unwrap();
     assert_eq!(get("margin"), v.margin_db);
     assert_eq!(get("cn0"), v.cn0_dbhz);
     assert_eq!(get("required_error_rate"), 1e-6);

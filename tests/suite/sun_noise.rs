@@ -95,7 +95,7 @@ fn budget_at_the_transit_agrees_with_the_plan() {
     ];
     let sum: f64 = terms.iter().map(|k| b[*k].as_f64().unwrap()).sum();
     assert!((sum - b["antenna_temperature_k"].as_f64().unwrap()).abs() < 0.01);
-    // Without a time there is no Sun.
+    // Without a time the Sun is not evaluated: null, not 0.
     let e = json(&run(&[
         "budget",
         EXAMPLE,
@@ -107,7 +107,7 @@ fn budget_at_the_transit_agrees_with_the_plan() {
         "json",
     ]));
     assert!(e["sun_separation_deg"].is_null());
-    assert_eq!(e["sun_noise_k"].as_f64().unwrap(), 0.0);
+    assert!(e["sun_noise_k"].is_null());
     // The plan names the degraded pass on stderr.
     let out = run(&["plan", EXAMPLE, "--format", "json"]);
     success(&out);
@@ -173,4 +173,244 @@ fn an_observed_solar_flux_scales_the_sun_noise() {
 fn quiet_sun_agrees_with_a_measured_level_to_thirty_per_cent() {
     let t = passbudget::noise::sun::quiet_sun_brightness_k(37e9).unwrap();
     assert!((t / 8100.0 - 1.0).abs() < 0.30, "{t} K");
+}
+
+/// An invented near-geostationary satellite (mean motion 1.0027 rev/day, i = 0.05 deg) over an
+/// invented station at 40 deg N under it, and a copy of the example mission planning them from
+/// 2027-02-10 for 40 days (5 s steps). Returns the mission's path.
+fn geostationary_mission(dir: &std::path::Path) -> String {
+    use crate::common::bin::write;
+    let line = |l: &str| passbudget::orbit::tle::with_checksum(&format!("{l:<68}")).unwrap();
+    let tle = format!(
+        "GEO-TEST\n{}\n{}\n",
+        line("1 99903U          27050.00000000  .00000000  00000-0  00000-0 0    1"),
+        line("2 99903   0.0500 100.0000 0001000   0.0000 140.0000  1.00270000    1")
+    );
+    write(dir, "geo.tle", &tle);
+    let root = crate::common::bin::root();
+    let station = std::fs::read_to_string(root.join("stations/nordkam.yaml"))
+        .unwrap()
+        .replace("name: Nordkam", "name: Geo Site")
+        .replace("latitude_deg: 68.40", "latitude_deg: 40.0")
+        // under the satellite: right ascension 240 deg at the epoch less GMST 148.7 deg
+        .replace("longitude_deg: 17.95", "longitude_deg: 91.3");
+    write(dir, "geo-site.yaml", &station);
+    let text = std::fs::read_to_string(root.join(EXAMPLE)).unwrap();
+    let start = text.find("stations:\n").unwrap();
+    let end = text.find("window:\n").unwrap();
+    let mission = format!(
+        "{}stations:\n  - geo-site.yaml\n{}",
+        &text[..start],
+        &text[end..]
+    )
+    .replace("elements: sat.tle", "elements: geo.tle")
+    .replace("select: \"99901\"", "select: \"99903\"")
+    .replace("start: 2026-12-01T12:00:00Z", "start: 2027-02-10T00:00:00Z")
+    .replace("days: 7", "days: 40")
+    .replace("step_s: 1 ", "step_s: 5 ");
+    write(dir, "geo.yaml", &mission)
+}
+
+/// The Sun's declination, deg, at `days` since J2000.0 (2000-01-01T12:00 TT, taken as UTC):
+/// the Astronomical Almanac's low-precision formulae (L = 280.460 + 0.9856474 n,
+/// g = 357.528 + 0.9856003 n, lambda = L + 1.915 sin g + 0.020 sin 2g, eps = 23.439 - 4e-7 n,
+/// sin delta = sin eps sin lambda; coefficients from memory, good to 0.01 deg).
+fn sun_declination_deg(days: f64) -> f64 {
+    let l = 280.460 + 0.985_647_4 * days;
+    let g = (357.528 + 0.985_600_3 * days).to_radians();
+    let lambda = (l + 1.915 * g.sin() + 0.020 * (2.0 * g).sin()).to_radians();
+    let eps = (23.439 - 4e-7 * days).to_radians();
+    (eps.sin() * lambda.sin()).asin().to_degrees()
+}
+
+/// Sun-outage season of a geostationary satellite: the Sun is behind the satellite when its
+/// declination equals the satellite's apparent (topocentric) declination from the station. First
+/// principles: a satellite on the equator at radius r (Kepler's third law from 1.0027 rev/day,
+/// mu = 398600.4418 km3/s2), seen from a station at geocentric latitude phi' and radius rho on its
+/// meridian, is at declination -atan(rho sin phi' / (r - rho cos phi')) (about -6.2 deg at 40 deg
+/// N; the small-angle form -phi R_E / (r - R_E) gives -7.1). The Sun reaches that declination some
+/// 16 days before the March equinox: the season must hold that day, its closest transit within a
+/// day of it, and the season lie within two weeks of it either way.
+#[test]
+fn geostationary_sun_outage_season_falls_where_the_sun_crosses_the_arc() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = geostationary_mission(dir.path());
+    let doc = json(&run(&["sun-transits", &mission, "--format", "json"]));
+    // The satellite's apparent declination (WGS-84 station at 40 deg N, sea level ~ 210 m).
+    let (a_km, f) = (6378.137, 1.0 / 298.257_223_563);
+    let phi = 40f64.to_radians();
+    let phi_c = ((1.0 - f) * (1.0 - f) * phi.tan()).atan();
+    let rho = a_km * (1.0 - f * phi_c.sin().powi(2)) + 0.21;
+    let n_rad_s = 1.0027 * std::f64::consts::TAU / 86_400.0;
+    let r = (398_600.441_8 / (n_rad_s * n_rad_s)).cbrt();
+    let dec_sat = -(rho * phi_c.sin())
+        .atan2(r - rho * phi_c.cos())
+        .to_degrees();
+    assert!((dec_sat + 6.2).abs() < 0.1, "{dec_sat}");
+    // The day (at about 06:07 UTC, the transits' time of day) the Sun is at that declination.
+    let j2000_to_window = 9902.0 - 0.5 + 0.255; // 2027-02-10T06:07Z is 9902 days after 2000-01-01
+    let predicted = (0..40)
+        .min_by(|&a, &b| {
+            let d = |k: i32| (sun_declination_deg(j2000_to_window + k as f64) - dec_sat).abs();
+            d(a).total_cmp(&d(b))
+        })
+        .unwrap();
+    let day = |k: i32| {
+        (chrono::NaiveDate::from_ymd_opt(2027, 2, 10).unwrap() + chrono::Duration::days(k as i64))
+            .to_string()
+    };
+    let predicted_day = day(predicted);
+    // Before the March equinox (2027-03-20), about 16 days: early March.
+    assert!(
+        ("2027-03-01".."2027-03-08").contains(&predicted_day.as_str()),
+        "{predicted_day}"
+    );
+    let seasons = doc["outage_seasons"]
+        .as_array()
+        .expect("near-geostationary");
+    assert_eq!(seasons.len(), 1, "{seasons:?}");
+    let s = &seasons[0];
+    let (first, last) = (
+        s["first_day"].as_str().unwrap(),
+        s["last_day"].as_str().unwrap(),
+    );
+    assert!(
+        first <= predicted_day.as_str() && predicted_day.as_str() <= last,
+        "{first}..{last} vs {predicted_day}"
+    );
+    assert!(first >= day(predicted - 14).as_str() && last <= day(predicted + 14).as_str());
+    assert!(!s["cut_by_window"].as_bool().unwrap());
+    let closest = doc["transits"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .min_by(|a, b| {
+            a["min_separation_deg"]
+                .as_f64()
+                .unwrap()
+                .total_cmp(&b["min_separation_deg"].as_f64().unwrap())
+        })
+        .unwrap();
+    let closest_day = &closest["closest"].as_str().unwrap()[..10];
+    assert!(
+        [day(predicted - 1), day(predicted), day(predicted + 1)].contains(&closest_day.to_string()),
+        "{closest_day} vs {predicted_day}"
+    );
+    // The table names every column of the seasons and says which pass numbering it shows.
+    let table = success(&run(&["sun-transits", &mission]));
+    let head = table
+        .lines()
+        .find(|l| l.starts_with("station") && l.contains("first day"))
+        .unwrap();
+    assert!(head.trim_end().ends_with("note"), "{head}");
+    assert!(table.contains("pass: plan's pass number"), "{table}");
+    // The station looks south at the arc: elevation 90 - 40 - 6.2 = 43.8 deg, about.
+    assert!((closest["closest_elevation_deg"].as_f64().unwrap() - 43.8).abs() < 0.3);
+}
+
+/// `sun-transits` numbers passes as `plan` does for the same window (the number of its per-pass
+/// file, by AOS) and gives the same pass identifier as `plan`'s pass rows.
+#[test]
+fn sun_transits_pass_numbers_and_ids_are_the_plans() {
+    let doc = json(&run(&["sun-transits", EXAMPLE, "--format", "json"]));
+    let plan = json(&run(&["plan", EXAMPLE, "--format", "json"]));
+    let passes = plan["passes"].as_array().unwrap();
+    for t in doc["transits"].as_array().unwrap() {
+        let p = passes
+            .iter()
+            .find(|p| p["number"] == t["pass"])
+            .expect("the plan has the pass");
+        assert_eq!(p["pass_id"], t["pass_id"]);
+        assert_eq!(p["station"], t["station"]);
+    }
+}
+
+/// The element-age warning is worded by orbit class: a near-geostationary element set 10 days
+/// old is not called a LEO one nor given the LEO drift in km.
+#[test]
+fn element_age_warning_of_a_geostationary_set_is_not_a_leo_one() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = geostationary_mission(dir.path());
+    let o = run(&[
+        "passes",
+        &mission,
+        "--start",
+        "2027-03-01T00:00:00Z",
+        "--days",
+        "1",
+    ]);
+    success(&o);
+    let err = String::from_utf8_lossy(&o.stderr);
+    let w = err
+        .lines()
+        .find(|l| l.contains("days after the epoch"))
+        .unwrap_or_else(|| panic!("{err}"));
+    assert!(
+        w.contains("near-geostationary") && !w.contains("LEO"),
+        "{w}"
+    );
+}
+
+/// The per-step CSV itemizes the availability (rain) case as it does clear sky: every
+/// weather-dependent noise column has its `rain_` twin, and in every row the rain terms add up
+/// to `rain_antenna_temperature_k` and, with the receiver, to `rain_system_temperature_k` (the
+/// man-made and receiver terms do not depend on the weather). On the example's pass 16, the Sun
+/// transit: the rain case's Sun term is the clear one dimmed by the rain path, never larger.
+#[test]
+fn per_step_csv_itemizes_the_rain_case_like_clear_sky() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    success(&run(&["plan", EXAMPLE, "--out", out.to_str().unwrap()]));
+    let file = std::fs::read_dir(&out)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .find(|p| {
+            p.file_name()
+                .unwrap()
+                .to_string_lossy()
+                .starts_with("pass-016-")
+        })
+        .expect("pass 16's file");
+    let text = std::fs::read_to_string(file).unwrap();
+    let mut lines = text.lines().filter(|l| !l.starts_with('#'));
+    let head: Vec<&str> = lines.next().unwrap().split(',').collect();
+    for clear in [
+        "atmospheric_loss_db",
+        "sky_noise_k",
+        "ground_noise_k",
+        "sun_noise_k",
+        "moon_noise_k",
+        "antenna_temperature_k",
+        "system_temperature_k",
+        "cn0_dbhz",
+        "margin_db",
+    ] {
+        assert!(head.contains(&clear), "{clear}");
+        let rain = format!("rain_{clear}");
+        assert!(head.contains(&rain.as_str()), "no {rain}");
+    }
+    let col = |n: &str| head.iter().position(|h| *h == n).unwrap();
+    let mut max_sun = (0.0f64, 0.0f64);
+    for l in lines {
+        let f: Vec<&str> = l.split(',').collect();
+        let v = |n: &str| f[col(n)].parse::<f64>().unwrap();
+        let ta = v("rain_sky_noise_k")
+            + v("rain_ground_noise_k")
+            + v("man_made_noise_k")
+            + v("rain_sun_noise_k")
+            + v("rain_moon_noise_k");
+        assert!((ta - v("rain_antenna_temperature_k")).abs() < 3e-3, "{l}");
+        let tsys = v("rain_antenna_temperature_k") + v("receiver_noise_k");
+        assert!((tsys - v("rain_system_temperature_k")).abs() < 2e-3, "{l}");
+        assert!(v("rain_sun_noise_k") <= v("sun_noise_k") + 1e-3, "{l}");
+        assert!(
+            v("rain_ground_noise_k") >= v("ground_noise_k") - 1e-3,
+            "{l}"
+        );
+        if v("sun_noise_k") > max_sun.0 {
+            max_sun = (v("sun_noise_k"), v("rain_sun_noise_k"));
+        }
+    }
+    // The transit shows in both cases (115 K in clear sky, README).
+    assert!(max_sun.0 > 100.0 && max_sun.1 > 50.0, "{max_sun:?}");
 }
