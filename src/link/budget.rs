@@ -885,7 +885,7 @@ fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 15] {
             "shannon_gap",
             v.shannon_gap_db,
             "dB",
-            "required Eb/N0 - (2^eta - 1)/eta, eta = Rb / B",
+            "required Eb/N0 - 10 log10((2^eta - 1)/eta), eta = Rb / B",
         ),
     ]
 }
