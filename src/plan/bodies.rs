@@ -25,7 +25,7 @@
 use crate::geometry::body_track::{
     chord_separation_deg, enu_from_az_el, Body, BodyTrack, TrackError,
 };
-use crate::geometry::Observer;
+use crate::geometry::{HorizonMask, Observer};
 use crate::noise::disk::{DiskCoupling, DiskError, DiskSpec, PowerPattern};
 use crate::noise::moon::{self, moon_brightness_k};
 use crate::noise::sun::{self, sun_brightness_k, SunActivity};
@@ -101,6 +101,9 @@ pub struct BodyNoise<P> {
     sun: Option<DiskTerm<P>>,
     moon: Option<DiskTerm<P>>,
     warnings: BodyWarnings,
+    /// The terrain above the geometric horizon ([`crate::noise::terrain::terrain_profile`]): a
+    /// body behind it is hidden (the terrain's own noise is in the antenna-noise table).
+    terrain: Option<HorizonMask>,
 }
 
 /// The bodies' tracks over one pass and their disk brightness for it.
@@ -168,7 +171,14 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
             },
             sun,
             moon,
+            terrain: None,
         })
+    }
+
+    /// The same with the station's terrain profile: a body below it adds no noise.
+    pub fn with_terrain(mut self, terrain: Option<HorizonMask>) -> Self {
+        self.terrain = terrain;
+        self
     }
 
     /// Whether the Moon's noise is modelled (1-100 GHz).
@@ -218,14 +228,14 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
             &bodies.sun,
             t,
             &pointing,
-            bodies.sun_brightness_k,
+            (bodies.sun_brightness_k, self.terrain.as_ref()),
         );
         let (moon_separation_deg, moon_k) = disk_noise(
             self.moon.as_ref(),
             &bodies.moon,
             t,
             &pointing,
-            bodies.moon_brightness_k,
+            (bodies.moon_brightness_k, self.terrain.as_ref()),
         );
         BodySample {
             sun_separation_deg,
@@ -243,13 +253,18 @@ fn disk_noise<P: PowerPattern + Sync>(
     track: &BodyTrack,
     t: &DateTime<Utc>,
     pointing: &[f64; 3],
-    brightness_k: f64,
+    (brightness_k, terrain): (f64, Option<&HorizonMask>),
 ) -> (f64, f64) {
     let u = track.direction_enu(t);
     let separation_deg = chord_separation_deg(&u, pointing);
+    // below the geometric horizon the ground hides the body, below the terrain the terrain
+    let visible = u[2] > 0.0
+        && terrain.is_none_or(|m| {
+            let azimuth_deg = u[0].atan2(u[1]).to_degrees();
+            u[2].min(1.0).asin().to_degrees() > m.limit_deg(azimuth_deg)
+        });
     let noise_k = match term {
-        // below the geometric horizon the ground hides the body
-        Some(term) if u[2] > 0.0 => term.coupling.added_temperature_k(
+        Some(term) if visible => term.coupling.added_temperature_k(
             separation_deg,
             track.angular_radius_deg(),
             brightness_k,
@@ -304,6 +319,33 @@ mod tests {
         let away = model.at(&bodies, &t, az, el + 30.0);
         assert!((away.sun_separation_deg - 30.0).abs() < 1e-3);
         assert!(away.sun_k < 1e-6);
+    }
+
+    #[test]
+    fn a_sun_behind_the_terrain_adds_nothing() {
+        // At noon on 2 December the Sun stands about 29.5 deg high at this site (astropy row of
+        // tests/data/geometry/sun_astropy.csv): a terrain profile of 35 deg at its azimuth hides
+        // it, one of 25 deg does not, and a profile high only elsewhere does not either.
+        let observer = Observer::new(38.52, -2.31, 780.0).unwrap();
+        let t = Utc.with_ymd_and_hms(2026, 12, 2, 12, 0, 0).unwrap();
+        let (az, el) = sun_az_el_deg(&observer, &t);
+        let open = BodyNoise::new(&gaussian(0.7), 0.7, 8.2e9, None).unwrap();
+        let mut bodies = PassBodies::new(&observer, &t, &t).unwrap();
+        open.reset(&mut bodies, &t, &t).unwrap();
+        let clear_k = open.at(&bodies, &t, az, el).sun_k;
+        assert!(clear_k > 100.0, "{clear_k}");
+        let with = |points: Vec<[f64; 2]>| {
+            let terrain = crate::noise::terrain::terrain_profile(&points);
+            assert!(terrain.is_some(), "{points:?}");
+            let m = open.clone().with_terrain(terrain);
+            m.at(&bodies, &t, az, el).sun_k
+        };
+        let wall = |h: f64| vec![[az - 10.0, h], [az, h], [az + 10.0, h]];
+        assert_eq!(with(wall(el + 5.0)), 0.0);
+        assert_eq!(with(wall(el - 5.0)), clear_k);
+        assert!((170.0..190.0).contains(&az), "{az}");
+        let elsewhere = vec![[0.0, 0.0], [20.0, 40.0], [40.0, 0.0]];
+        assert_eq!(with(elsewhere), clear_k);
     }
 
     #[test]

@@ -260,7 +260,8 @@ pub fn station_model_for(
         link.frequency_hz(),
         st.solar_flux_sfu,
     )
-    .map_err(|e| model_err(&st.source, None, format!("Sun and Moon noise: {e}")))?;
+    .map_err(|e| model_err(&st.source, None, format!("Sun and Moon noise: {e}")))?
+    .with_terrain(crate::noise::terrain::terrain_profile(&st.horizon_mask));
     Ok(StationModel {
         station: st.clone(),
         observer,
