@@ -113,6 +113,11 @@ fn print_table(
         }
         write!(out, "{}", t.render())?;
         writeln!(out, "{PASS_NUMBERING}")?;
+        writeln!(
+            out,
+            "in beam: the seconds the Sun raises the clear-sky system noise temperature by {} dB or more; Sun K, Tsys rise and s > 1 dB are clear-sky figures",
+            passbudget::plan::transits::TRANSIT_RISE_DB
+        )?;
     }
     if let Some(seasons) = seasons {
         writeln!(
