@@ -495,16 +495,7 @@ fn stale_elements_reach_every_output() {
         "--quiet",
     ]);
     success(&o);
-    let pass_csv = std::fs::read_dir(&out)
-        .unwrap()
-        .map(|e| e.unwrap().path())
-        .find(|p| {
-            p.file_name()
-                .unwrap()
-                .to_string_lossy()
-                .starts_with("pass-")
-        })
-        .expect("a pass CSV");
+    let pass_csv = crate::common::bin::file_starting(&out, "pass-");
     let text = std::fs::read_to_string(pass_csv).unwrap();
     let head: Vec<&str> = text.lines().take_while(|l| l.starts_with('#')).collect();
     assert!(

@@ -361,16 +361,7 @@ fn per_step_csv_itemizes_the_rain_case_like_clear_sky() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("out");
     success(&run(&["plan", EXAMPLE, "--out", out.to_str().unwrap()]));
-    let file = std::fs::read_dir(&out)
-        .unwrap()
-        .map(|e| e.unwrap().path())
-        .find(|p| {
-            p.file_name()
-                .unwrap()
-                .to_string_lossy()
-                .starts_with("pass-016-")
-        })
-        .expect("pass 16's file");
+    let file = crate::common::bin::file_starting(&out, "pass-016-");
     let text = std::fs::read_to_string(file).unwrap();
     let mut lines = text.lines().filter(|l| !l.starts_with('#'));
     let head: Vec<&str> = lines.next().unwrap().split(',').collect();

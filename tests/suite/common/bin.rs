@@ -56,3 +56,12 @@ pub fn write(dir: &std::path::Path, name: &str, text: &str) -> String {
     std::fs::write(&p, text).unwrap();
     p.to_string_lossy().into_owned()
 }
+
+/// The first file of `dir` whose name starts with `prefix` (an output folder's `pass-016-...`).
+pub fn file_starting(dir: &std::path::Path, prefix: &str) -> PathBuf {
+    std::fs::read_dir(dir)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .find(|p| p.file_name().unwrap().to_string_lossy().starts_with(prefix))
+        .unwrap_or_else(|| panic!("no {prefix}* in {}", dir.display()))
+}
