@@ -258,13 +258,15 @@ fn disk_noise<P: PowerPattern + Sync>(
     let u = track.direction_enu(t);
     let separation_deg = chord_separation_deg(&u, pointing);
     // below the geometric horizon the ground hides the body, below the terrain the terrain
-    let visible = u[2] > 0.0
-        && terrain.is_none_or(|m| {
-            let azimuth_deg = u[0].atan2(u[1]).to_degrees();
-            u[2].min(1.0).asin().to_degrees() > m.limit_deg(azimuth_deg)
-        });
+    let visible = || {
+        u[2] > 0.0
+            && terrain.is_none_or(|m| {
+                let azimuth_deg = u[0].atan2(u[1]).to_degrees();
+                u[2].min(1.0).asin().to_degrees() > m.limit_deg(azimuth_deg)
+            })
+    };
     let noise_k = match term {
-        Some(term) if visible => term.coupling.added_temperature_k(
+        Some(term) if visible() => term.coupling.added_temperature_k(
             separation_deg,
             track.angular_radius_deg(),
             brightness_k,

@@ -193,8 +193,7 @@ pub fn instant_budget(
         .unwrap_or(Weather::ClearSky);
     model.prepare_weather(weather);
     let azimuth_deg = match req.geometry {
-        InstantGeometry::At(_) => Some(look.azimuth_deg),
-        InstantGeometry::Pointing { .. } => Some(look.azimuth_deg),
+        InstantGeometry::At(_) | InstantGeometry::Pointing { .. } => Some(look.azimuth_deg),
         InstantGeometry::Elevation(e) => model.noise.worst_azimuth_deg(e, weather),
     };
     let worst_azimuth_note = match (req.geometry, azimuth_deg) {

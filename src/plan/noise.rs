@@ -112,8 +112,10 @@ pub struct NoiseInputs {
     pub mean_radiating_temperature_k: f64,
     /// Cosmic and galactic background, K.
     pub background_k: f64,
-    /// The P.372 environment category and the frequency, Hz.
-    pub man_made: Option<(Environment, f64)>,
+    /// The link's frequency, Hz (the man-made term and the galactic background's warning).
+    pub frequency_hz: f64,
+    /// The P.372 environment category of the surroundings.
+    pub man_made: Option<Environment>,
     /// A measured antenna temperature against elevation, `[elevation_deg, kelvin]` rows.
     pub measured: Option<Vec<[f64; 2]>>,
     /// The terrain profile above the geometric horizon
@@ -138,15 +140,16 @@ impl StationNoise {
             ground,
             mean_radiating_temperature_k,
             background_k,
+            frequency_hz,
             man_made,
             measured,
             terrain,
         } = inputs;
-        let man_made = man_made.map(|(e, f)| (e, man_made_noise(e, f)));
+        let man_made = man_made.map(|e| (e, man_made_noise(e, frequency_hz)));
         let warnings = NoiseWarnings {
             pattern: pattern.warnings(),
             man_made_extrapolated: man_made.is_some_and(|m| m.1.extrapolated),
-            galactic_extrapolated: false,
+            galactic_extrapolated: crate::noise::sky::galactic_extrapolation_warned(frequency_hz),
         };
         let mut s = Self {
             clear: AntennaNoiseTable::from_rows(&[]),
@@ -321,14 +324,6 @@ impl StationNoise {
 
     pub fn warnings(&self) -> NoiseWarnings {
         self.warnings
-    }
-
-    /// The same model with the galactic background's warning set for `frequency_hz` (the one
-    /// rule: [`crate::noise::sky::galactic_extrapolation_warned`]).
-    pub fn with_galactic_warning(mut self, frequency_hz: f64) -> Self {
-        self.warnings.galactic_extrapolated =
-            crate::noise::sky::galactic_extrapolation_warned(frequency_hz);
-        self
     }
 
     /// Where the sky and the ground terms come from, as the outputs name them: the integral over

@@ -319,11 +319,12 @@ fn station_noise(
         ground,
         mean_radiating_temperature_k: tmr_k,
         background_k: link.background_temperature_k(),
-        man_made: st.man_made_noise.map(|e| (e, f)),
+        frequency_hz: f,
+        man_made: st.man_made_noise,
         measured: ant.measured_noise_temperature_k.clone(),
         terrain: crate::noise::terrain::terrain_profile(&st.horizon_mask),
     };
-    Ok(StationNoise::new(inputs, atmosphere, availability).with_galactic_warning(f))
+    Ok(StationNoise::new(inputs, atmosphere, availability))
 }
 
 /// The ground antenna as the link model wants it; a gain given directly takes the beamwidth of its

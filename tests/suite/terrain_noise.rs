@@ -36,13 +36,14 @@ fn fixture_sky(frequency_ghz: f64, weather: Weather) -> Brightness {
     )
 }
 
-/// A station's noise inputs: `pattern` over [`GROUND`], Tmr 275 K, background 2.73 K.
+/// A station's noise inputs at 8.2 GHz: `pattern` over [`GROUND`], Tmr 275 K, background 2.73 K.
 fn inputs(pattern: NoisePattern, terrain: Option<HorizonMask>) -> NoiseInputs {
     NoiseInputs {
         pattern,
         ground: GROUND,
         mean_radiating_temperature_k: 275.0,
         background_k: 2.73,
+        frequency_hz: 8.2e9,
         man_made: None,
         measured: None,
         terrain,
