@@ -169,7 +169,8 @@ impl BodyTrack {
     pub fn direction_enu(&self, t: &DateTime<Utc>) -> [f64; 3] {
         let x = (unix_s(t) - self.start_unix_s) / NODE_SPACING_S;
         let pieces = (self.nodes.len() - 1) / 2;
-        let k = ((x / 2.0).floor().max(0.0) as usize).min(pieces - 1);
+        // truncation after max(0) is the floor clamped at 0, without a libm call per step
+        let k = ((x / 2.0).max(0.0) as usize).min(pieces - 1);
         // local coordinate in node spacings from the piece's middle node: nodes at -1, 0, +1
         let u = x - (2 * k + 1) as f64;
         let (a, b, c) = (
@@ -191,7 +192,7 @@ impl BodyTrack {
     /// Azimuth and elevation of the body at `t`, deg (interpolated).
     pub fn az_el_deg(&self, t: &DateTime<Utc>) -> (f64, f64) {
         let [e, n, u] = self.direction_enu(t);
-        let az = e.atan2(n).to_degrees().rem_euclid(360.0);
+        let az = super::wrap360_deg(e.atan2(n).to_degrees());
         (az, u.clamp(-1.0, 1.0).asin().to_degrees())
     }
 

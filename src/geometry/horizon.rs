@@ -109,7 +109,7 @@ impl HorizonMask {
                     work::evaluation();
                     work::add((usize::BITS - len.leading_zeros()) as usize + 2);
                 }
-                let az = azimuth_deg.rem_euclid(360.0);
+                let az = super::wrap360_deg(azimuth_deg);
                 // First point with azimuth > az.
                 let i = pts.partition_point(|p| p[0] <= az);
                 let (a, b) = if i == 0 || i == len {

@@ -168,7 +168,7 @@ impl Observer {
         let (azimuth_deg, azimuth_rate_deg_s, elevation_rate_deg_s) = if h > 1e-9 {
             let hd = (e * ed + n * nd) / h;
             (
-                e.atan2(n).to_degrees().rem_euclid(360.0),
+                super::wrap360_deg(e.atan2(n).to_degrees()),
                 ((ed * n - e * nd) / h2).to_degrees(),
                 ((ud * h - u * hd) / (range_km * range_km)).to_degrees(),
             )

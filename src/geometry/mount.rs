@@ -115,14 +115,7 @@ pub struct Follower {
 
 /// `x` wrapped to (-180, 180].
 fn wrap180(x: f64) -> f64 {
-    // rem_euclid's own result where |x| < 360 (fmod is exact there), without its division
-    let y = if (0.0..360.0).contains(&x) {
-        x
-    } else if x < 0.0 && x > -360.0 {
-        x + 360.0
-    } else {
-        x.rem_euclid(360.0)
-    };
+    let y = super::wrap360_deg(x);
     if y > 180.0 {
         y - 360.0
     } else {

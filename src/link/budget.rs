@@ -276,6 +276,19 @@ pub struct LinkValues {
     pub below_horizon: bool,
 }
 
+/// The weather-free terms of a link at one instant ([`LinkModel::geometry_terms`]).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct GeometryTerms {
+    /// Spacecraft antenna gain toward the station, dBi.
+    pub spacecraft_gain_dbi: f64,
+    pub eirp_dbw: f64,
+    pub free_space_loss_db: f64,
+    /// The spacecraft pattern table was clamped at one of its ends.
+    pub pattern_clamped: bool,
+    /// The station direction is below the geometric horizon (elevation < 0).
+    pub below_horizon: bool,
+}
+
 /// One line of the printed budget.
 #[derive(Debug, Clone, PartialEq)]
 pub struct BudgetItem {
@@ -429,7 +442,39 @@ impl LinkModel {
         sky_temperature_k: f64,
         external: ExternalNoise,
     ) -> Result<LinkValues, BudgetError> {
-        check_instant(&geometry, &atmosphere)?;
+        let terms = self.geometry_terms(&geometry)?;
+        self.link_through(&terms, atmosphere, sky_temperature_k, external)
+    }
+
+    /// The weather-free part of [`Self::evaluate_link`]: EIRP toward the station and the
+    /// free-space loss, from the geometry alone (a plan's step works them out once for its clear
+    /// sky and its rain case). Checks the range and the elevation.
+    #[inline]
+    pub fn geometry_terms(&self, geometry: &BudgetGeometry) -> Result<GeometryTerms, BudgetError> {
+        check_geometry(geometry)?;
+        // EIRP = P - L_line + G_tx(theta)
+        let (eirp_dbw, tx_gain) = self.transmitter.eirp_dbw(geometry.off_nadir_deg)?;
+        Ok(GeometryTerms {
+            spacecraft_gain_dbi: tx_gain.gain_dbi,
+            eirp_dbw,
+            // L_fs = 20 log10(4 pi d / lambda)
+            free_space_loss_db: self.fsl_constant_db + 20.0 * geometry.range_km.log10(),
+            pattern_clamped: tx_gain.clamped,
+            below_horizon: crate::atmosphere::elevation::below_horizon(geometry.elevation_deg),
+        })
+    }
+
+    /// [`Self::evaluate_link`] from its weather-free part (`terms`, [`Self::geometry_terms`]) and
+    /// one weather's path and noise. Checks the atmosphere and the external noise terms.
+    #[inline]
+    pub fn link_through(
+        &self,
+        terms: &GeometryTerms,
+        atmosphere: AtmosphereLoss,
+        sky_temperature_k: f64,
+        external: ExternalNoise,
+    ) -> Result<LinkValues, BudgetError> {
+        check_atmosphere(&atmosphere)?;
         if !external.is_valid() {
             return Err(BudgetError::ExternalNoise {
                 sky_k: external.sky_k,
@@ -439,30 +484,20 @@ impl LinkModel {
                 moon_k: external.moon_k,
             });
         }
-        let BudgetGeometry {
-            elevation_deg,
-            range_km,
-            off_nadir_deg,
-        } = geometry;
         let total_db = atmosphere.total_db;
-
-        // EIRP = P - L_line + G_tx(theta)
-        let (eirp_dbw, tx_gain) = self.transmitter.eirp_dbw(off_nadir_deg)?;
-        // L_fs = 20 log10(4 pi d / lambda)
-        let free_space_loss_db = self.fsl_constant_db + 20.0 * range_km.log10();
         let noise = self.noise_at(sky_temperature_k, &external);
         // C/N0 = EIRP - L_fs - A - L_pol - L_point + G/T - 10 log10(k)
-        let cn0_dbhz = eirp_dbw
-            - free_space_loss_db
+        let cn0_dbhz = terms.eirp_dbw
+            - terms.free_space_loss_db
             - total_db
             - self.polarization_loss_db
             - self.ground.pointing_loss_db
             + noise.g_over_t_db_k
             - BOLTZMANN_DBW_PER_K_HZ;
         Ok(LinkValues {
-            spacecraft_gain_dbi: tx_gain.gain_dbi,
-            eirp_dbw,
-            free_space_loss_db,
+            spacecraft_gain_dbi: terms.spacecraft_gain_dbi,
+            eirp_dbw: terms.eirp_dbw,
+            free_space_loss_db: terms.free_space_loss_db,
             atmospheric_loss_db: total_db,
             sky_temperature_k: noise.sky_temperature_k,
             external,
@@ -471,8 +506,8 @@ impl LinkModel {
             system_temperature_k: noise.system_temperature_k,
             g_over_t_db_k: noise.g_over_t_db_k,
             cn0_dbhz,
-            pattern_clamped: tx_gain.clamped,
-            below_horizon: crate::atmosphere::elevation::below_horizon(elevation_deg),
+            pattern_clamped: terms.pattern_clamped,
+            below_horizon: terms.below_horizon,
         })
     }
 
@@ -645,13 +680,11 @@ impl LinkModel {
     }
 }
 
-/// Reject an instant the budget cannot be evaluated at: range, elevation, atmospheric loss, mean
-/// radiating temperature (in that order; the rate's bandwidth is checked after them).
+/// Reject a geometry the budget cannot be evaluated at: range, then elevation (an instant's
+/// checks run in the order range, elevation, the spacecraft pattern's angle, atmospheric loss,
+/// mean radiating temperature; the rate's bandwidth is checked after them).
 #[inline]
-fn check_instant(
-    geometry: &BudgetGeometry,
-    atmosphere: &AtmosphereLoss,
-) -> Result<(), BudgetError> {
+fn check_geometry(geometry: &BudgetGeometry) -> Result<(), BudgetError> {
     let BudgetGeometry {
         elevation_deg,
         range_km,
@@ -663,6 +696,13 @@ fn check_instant(
     if !(-90.0..=90.0).contains(&elevation_deg) {
         return Err(BudgetError::Elevation { elevation_deg });
     }
+    Ok(())
+}
+
+/// Reject an atmosphere the budget cannot be evaluated with: the losses, then the mean
+/// radiating temperature.
+#[inline]
+fn check_atmosphere(atmosphere: &AtmosphereLoss) -> Result<(), BudgetError> {
     let AtmosphereLoss {
         total_db,
         absorptive_db,

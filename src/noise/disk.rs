@@ -197,12 +197,12 @@ fn stencil(n: usize, pos: f64) -> (usize, [f64; 4]) {
     match n {
         0 | 1 => (0, [1.0, 0.0, 0.0, 0.0]),
         2 | 3 => {
-            let i = (pos.floor() as usize).min(n - 2);
+            let i = (pos as usize).min(n - 2);
             let f = pos - i as f64;
             (i, [1.0 - f, f, 0.0, 0.0])
         }
         _ => {
-            let j = (pos.floor() as usize).saturating_sub(1).min(n - 4);
+            let j = (pos as usize).saturating_sub(1).min(n - 4);
             let x = pos - j as f64;
             // Lagrange weights of nodes 0, 1, 2, 3 at x
             (

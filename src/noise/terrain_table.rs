@@ -225,7 +225,7 @@ impl TerrainNoiseTable {
     /// The beam-averaged profile height at `azimuth_deg`, deg.
     #[inline]
     pub fn edge_at(&self, azimuth_deg: f64) -> f64 {
-        let x = azimuth_deg.rem_euclid(360.0) / self.edge_step_deg;
+        let x = crate::geometry::wrap360_deg(azimuth_deg) / self.edge_step_deg;
         let i = (x as usize).min(self.edge_deg.len() - 2);
         let f = x - i as f64;
         self.edge_deg[i] + f * (self.edge_deg[i + 1] - self.edge_deg[i])
@@ -258,7 +258,7 @@ impl TerrainNoiseTable {
     #[inline]
     fn correction_at(&self, u: f64, a0: f64) -> AntennaNoise {
         let c = &self.columns_deg;
-        let a = a0.rem_euclid(360.0);
+        let a = crate::geometry::wrap360_deg(a0);
         let j = c.partition_point(|&v| v <= a);
         let (j0, j1, lo, hi) = if j == 0 {
             (c.len() - 1, 0, c[c.len() - 1] - 360.0, c[0])

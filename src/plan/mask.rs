@@ -105,7 +105,8 @@ impl MaskAccumulator {
         if elevation_deg < 0.0 {
             None
         } else {
-            Some((elevation_deg.floor() as usize).min(MAX_MASK_DEG))
+            // truncation is the floor here (elevation_deg >= 0) without a libm call per step
+            Some((elevation_deg as usize).min(MAX_MASK_DEG))
         }
     }
 

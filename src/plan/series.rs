@@ -12,7 +12,7 @@ use crate::geometry::body_track::TrackError;
 use crate::geometry::mount::Follower;
 use crate::geometry::{doppler_hz, AxisRates, Look, Mount, Pass};
 use crate::link::budget::{
-    AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, LinkValues, RateSpec,
+    AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, GeometryTerms, LinkValues, RateSpec,
 };
 use crate::orbit::{EcefSpline, PropagationError, Propagator};
 use crate::plan::bodies::{BodySample, PassBodies};
@@ -196,7 +196,8 @@ pub fn budget_at(
         model.mean_radiating_temperature_k,
         model.link.background_temperature_k(),
     );
-    let link = link_of_terms(model, look, &terms, weather, bodies)?;
+    let front = geometry_terms(model, look)?;
+    let link = link_of_terms(model, look, (&front, &terms), weather, bodies)?;
     let mut values =
         model
             .link
@@ -217,7 +218,7 @@ pub fn budget_at(
 #[inline]
 pub fn link_tabulated(
     model: &StationModel,
-    look: &Look,
+    (look, front): (&Look, &GeometryTerms),
     weather: Weather,
     bodies: Option<BodySample>,
 ) -> Result<(PathTerms, LinkValues), SeriesError> {
@@ -226,8 +227,21 @@ pub fn link_tabulated(
         .table(weather)
         .ok_or(SeriesError::WeatherNotPrepared { weather })?
         .at(look.elevation_deg);
-    let link = link_of_terms(model, look, &terms, weather, bodies)?;
+    let link = link_of_terms(model, look, (front, &terms), weather, bodies)?;
     Ok((terms, link))
+}
+
+/// The weather-free terms of the link along `look` (EIRP, free-space loss): one per step, shared
+/// by its weather cases.
+#[inline]
+pub fn geometry_terms(model: &StationModel, look: &Look) -> Result<GeometryTerms, SeriesError> {
+    model
+        .link
+        .geometry_terms(&budget_geometry(look))
+        .map_err(|source| SeriesError::Budget {
+            elevation_deg: look.elevation_deg,
+            source,
+        })
 }
 
 /// The link from the elevation-only terms of the path: the one function both [`budget_at`] and
@@ -236,11 +250,11 @@ pub fn link_tabulated(
 fn link_of_terms(
     model: &StationModel,
     look: &Look,
-    terms: &PathTerms,
+    (front, terms): (&GeometryTerms, &PathTerms),
     weather: Weather,
     bodies: Option<BodySample>,
 ) -> Result<LinkValues, SeriesError> {
-    let (geometry, atmosphere) = link_inputs(model, look, terms);
+    let (_, atmosphere) = link_inputs(model, look, terms);
     // The antenna's noise terms: interpolated from the station's table of this weather.
     let mut external = model
         .noise
@@ -254,7 +268,7 @@ fn link_of_terms(
     }
     model
         .link
-        .evaluate_link(geometry, atmosphere, terms.sky_temperature_k, external)
+        .link_through(front, atmosphere, terms.sky_temperature_k, external)
         .map_err(|source| SeriesError::Budget {
             elevation_deg: look.elevation_deg,
             source,
@@ -269,17 +283,23 @@ pub fn link_inputs(
     terms: &PathTerms,
 ) -> (BudgetGeometry, AtmosphereLoss) {
     (
-        BudgetGeometry {
-            elevation_deg: look.elevation_deg,
-            range_km: look.range_km,
-            off_nadir_deg: look.off_nadir_deg,
-        },
+        budget_geometry(look),
         AtmosphereLoss {
             total_db: terms.total_db,
             absorptive_db: terms.absorptive_db,
             mean_radiating_temperature_k: model.mean_radiating_temperature_k,
         },
     )
+}
+
+/// The link model's geometry at a look angle.
+#[inline]
+fn budget_geometry(look: &Look) -> BudgetGeometry {
+    BudgetGeometry {
+        elevation_deg: look.elevation_deg,
+        range_km: look.range_km,
+        off_nadir_deg: look.off_nadir_deg,
+    }
 }
 
 /// How to sample a pass.
@@ -352,7 +372,9 @@ pub fn fill_pass(
                 .bodies
                 .at(bodies, &time, look.azimuth_deg, look.elevation_deg),
         );
-        let (att, v) = link_tabulated(model, &look, Weather::ClearSky, at)?;
+        // EIRP and free-space loss once per step; each weather case adds its path and noise.
+        let front = geometry_terms(model, &look)?;
+        let (att, v) = link_tabulated(model, (&look, &front), Weather::ClearSky, at)?;
         warnings.atmosphere = warnings.atmosphere.union(&att.warnings);
         warnings.pattern_clamped |= v.pattern_clamped;
         warnings.below_horizon |= v.below_horizon;
@@ -370,7 +392,7 @@ pub fn fill_pass(
             );
         }
         if let Some(w) = rain {
-            let (ra, rv) = link_tabulated(model, &look, w, at)?;
+            let (ra, rv) = link_tabulated(model, (&look, &front), w, at)?;
             warnings.atmosphere = warnings.atmosphere.union(&ra.warnings);
             step.rain = Some(RainStep {
                 atmospheric_loss_db: ra.total_db,
