@@ -52,6 +52,29 @@ pub fn frequency_mhz(hz: f64) -> String {
     format!("{} MHz", s.trim_end_matches('0').trim_end_matches('.'))
 }
 
+/// A budget line's value in a unit of Hz, bit/s or baud, from 10^4 up, with an SI prefix and
+/// five significant digits (`8.2125 GHz`, `22.87 Mbit/s`, `11.435 Mbaud`): the budget keeps more
+/// digits than a table of many passes. `None` for other units, smaller or non-finite values
+/// (printed as they are).
+pub fn budget_value(x: f64, unit: &str) -> Option<(String, &'static str)> {
+    let names = match unit {
+        "Hz" => ["Hz", "kHz", "MHz", "GHz", "THz"],
+        "bit/s" => ["bit/s", "kbit/s", "Mbit/s", "Gbit/s", "Tbit/s"],
+        "baud" => ["baud", "kbaud", "Mbaud", "Gbaud", "Tbaud"],
+        _ => return None,
+    };
+    if !x.is_finite() || x.abs() < 1e4 {
+        return None;
+    }
+    let (div, name) = prefixed(x, names);
+    let v = x / div;
+    // five significant digits: 1 <= |v| < 1000 here
+    let decimals = 4 - v.abs().log10().floor().clamp(0.0, 2.0) as usize;
+    let s = format!("{v:.decimals$}");
+    let s = s.trim_end_matches('0').trim_end_matches('.').to_string();
+    Some((s, name))
+}
+
 fn with_unit(x: f64, (div, unit): (f64, &str)) -> String {
     if !x.is_finite() {
         return "n/a".into();
@@ -91,6 +114,21 @@ mod tests {
 
     // The expected strings follow SI prefix usage (BIPM SI Brochure, 9th ed., section 3);
     // three significant digits is common practice for operator tables.
+    #[test]
+    fn budget_values_keep_five_digits() {
+        let f = |x: f64, u: &str| budget_value(x, u).map(|(v, n)| format!("{v} {n}"));
+        assert_eq!(f(8_212_500_000.0, "Hz").as_deref(), Some("8.2125 GHz"));
+        assert_eq!(f(22_869_955.0, "bit/s").as_deref(), Some("22.87 Mbit/s"));
+        assert_eq!(f(11_434_978.0, "baud").as_deref(), Some("11.435 Mbaud"));
+        assert_eq!(f(95_581_863.0, "bit/s").as_deref(), Some("95.582 Mbit/s"));
+        assert_eq!(f(10_000_000.0, "bit/s").as_deref(), Some("10 Mbit/s"));
+        assert_eq!(f(437_500_000.0, "Hz").as_deref(), Some("437.5 MHz"));
+        assert_eq!(f(9600.0, "bit/s"), None);
+        assert_eq!(f(4000.0, "Hz"), None);
+        assert_eq!(f(1e9, "dB"), None);
+        assert_eq!(f(f64::NAN, "Hz"), None);
+    }
+
     #[test]
     fn rates_keep_their_digits() {
         assert_eq!(rate(50e6), "50 Mbit/s");

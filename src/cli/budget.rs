@@ -195,11 +195,17 @@ fn print_budget(doc: &BudgetDoc, out: &mut dyn Write) -> Result<()> {
         ("source", Align::Left),
     ]);
     for i in &doc.items {
+        let (value, unit) = match i.value {
+            None => ("-".to_string(), i.unit.clone()),
+            Some(v) => match passbudget::engfmt::budget_value(v, &i.unit) {
+                Some((text, unit)) => (text, unit.to_string()),
+                None => (item_value(v, &i.unit), i.unit.clone()),
+            },
+        };
         t.row(vec![
             i.name.replace('_', " "),
-            i.value
-                .map_or_else(|| "-".to_string(), |v| item_value(v, &i.unit)),
-            i.unit.clone(),
+            value,
+            unit,
             i.source.clone(),
         ]);
     }
@@ -219,7 +225,8 @@ fn print_budget(doc: &BudgetDoc, out: &mut dyn Write) -> Result<()> {
     Ok(())
 }
 
-/// A budget value as printed: whole units for Hz, bit/s and baud, else two decimals; tiny
+/// A budget value as printed (below 10^4 for Hz, bit/s and baud, which take an SI prefix from
+/// there, `engfmt::budget_value`): whole units for Hz, bit/s and baud, else two decimals; tiny
 /// non-zero values in exponent form; no "-0.00" for a zero gain or loss.
 fn item_value(value: f64, unit: &str) -> String {
     let digits: usize = if unit == "Hz" || unit == "bit/s" || unit == "baud" {
