@@ -479,9 +479,10 @@ impl Planner {
 }
 
 /// Passes (and trade-off passes) planned in parallel between two merges: bounds what is held at
-/// once (a pass's elevation bins, about 3 kB with 7 ladder rates) whatever the window; large
-/// enough to keep both cores busy.
-const WORK_CHUNK: usize = 256;
+/// once (a pass's elevation bins, about 3 kB with 7 ladder rates, made on the worker threads,
+/// whose allocator keeps the room of the largest chunk for the rest of the process) whatever the
+/// window; large enough to keep both cores busy (a chunk waits for its slowest pass).
+const WORK_CHUNK: usize = 64;
 
 /// The passes still to plan (numbered ones, then the trade-off's), last first: each chunk is
 /// taken off the end, and the list gives its room back as it empties, so a planned pass is not
@@ -514,7 +515,9 @@ impl WorkQueue {
         if self.rest.is_empty() {
             return None;
         }
-        let mut chunk = self.rest.split_off(self.rest.len().saturating_sub(WORK_CHUNK));
+        let mut chunk = self
+            .rest
+            .split_off(self.rest.len().saturating_sub(WORK_CHUNK));
         chunk.reverse();
         // Give back the room of the taken passes now and then (each shrink copies what is left,
         // so halving keeps the copies to the list's size in all).
