@@ -269,12 +269,7 @@ impl Planner {
             pfd_band: self.pfd.band,
             pfd_spectrum: self.pfd.spectrum,
         };
-        let work: Vec<(Option<usize>, usize, &Pass)> = found
-            .iter()
-            .enumerate()
-            .map(|(k, (si, p))| (Some(k + 1), *si, p))
-            .chain(floor_passes.iter().map(|(si, p)| (None, *si, p)))
-            .collect();
+        let mut queue = WorkQueue::new(found, floor_passes);
         let mut passes = Vec::with_capacity(total);
         let mut station_masks = self.empty_masks();
         let mut tradeoff = self.tradeoff_masks.as_ref().map(|_| self.empty_masks());
@@ -284,20 +279,20 @@ impl Planner {
         // In chunks: a chunk's passes are planned in parallel, then merged in pass order (the
         // same order, so the same sums, as merging them all at the end), so that what a pass
         // holds only until it is merged (its elevation bins) does not pile up with the window.
-        for chunk in work.chunks(WORK_CHUNK) {
+        while let Some(chunk) = queue.next_chunk() {
             let results: Vec<Result<Item, PlanError>> = chunk
                 .par_iter()
                 .map_init(
                     || Scratch::new(&self.elements),
-                    |scratch, &(number, si, pass)| match number {
+                    |scratch, (number, si, pass)| match *number {
                         Some(n) => {
-                            let r = plan_pass(&ctx, n, si, pass, scratch, sink)
+                            let r = plan_pass(&ctx, n, *si, pass, scratch, sink)
                                 .map(|p| Item::Planned(Box::new(p)));
                             sink.progress(total);
                             r
                         }
-                        None => tradeoff_pass(&ctx, si, pass, scratch)
-                            .map(|m| Item::Tradeoff(si, Box::new(m))),
+                        None => tradeoff_pass(&ctx, *si, pass, scratch)
+                            .map(|m| Item::Tradeoff(*si, Box::new(m))),
                     },
                 )
                 .collect();
@@ -484,9 +479,54 @@ impl Planner {
 }
 
 /// Passes (and trade-off passes) planned in parallel between two merges: bounds what is held at
-/// once (a pass's elevation bins, about 3 kB with 7 ladder rates) whatever the window; large
-/// enough to keep both cores busy.
-const WORK_CHUNK: usize = 256;
+/// once (a pass's elevation bins, about 3 kB with 7 ladder rates, made on the worker threads,
+/// whose allocator keeps the room of the largest chunk for the rest of the process) whatever the
+/// window; large enough to keep both cores busy (a chunk waits for its slowest pass).
+const WORK_CHUNK: usize = 64;
+
+/// The passes still to plan (numbered ones, then the trade-off's), last first: each chunk is
+/// taken off the end, and the list gives its room back as it empties, so a planned pass is not
+/// held twice, in the search's list and in the plan.
+struct WorkQueue {
+    rest: Vec<(Option<usize>, usize, Pass)>,
+}
+
+impl WorkQueue {
+    fn new(found: Vec<(usize, Pass)>, floor_passes: Vec<(usize, Pass)>) -> WorkQueue {
+        let mut rest: Vec<_> = floor_passes
+            .into_iter()
+            .rev()
+            .map(|(si, p)| (None, si, p))
+            .collect();
+        let numbered = found.len();
+        rest.reserve_exact(numbered);
+        rest.extend(
+            found
+                .into_iter()
+                .enumerate()
+                .rev()
+                .map(|(k, (si, p))| (Some(k + 1), si, p)),
+        );
+        WorkQueue { rest }
+    }
+
+    /// The next [`WORK_CHUNK`] passes in planning order; `None` once all are taken.
+    fn next_chunk(&mut self) -> Option<Vec<(Option<usize>, usize, Pass)>> {
+        if self.rest.is_empty() {
+            return None;
+        }
+        let mut chunk = self
+            .rest
+            .split_off(self.rest.len().saturating_sub(WORK_CHUNK));
+        chunk.reverse();
+        // Give back the room of the taken passes now and then (each shrink copies what is left,
+        // so halving keeps the copies to the list's size in all).
+        if self.rest.capacity() > 2 * self.rest.len() + WORK_CHUNK {
+            self.rest.shrink_to_fit();
+        }
+        Some(chunk)
+    }
+}
 
 enum Item {
     Planned(Box<Planned>),
