@@ -56,8 +56,8 @@ const PASS_HEADER: &str = "satellite,norad_id,station,pass_id,aos,tca,los,durati
 
 /// The `passes` CSV written straight into one buffer: byte for byte what [`super::to_csv`] gives
 /// for the same rows (checked in the tests), without the `csv` crate's per-field serializer
-/// (the numbers through the fixed-decimal writer of [`super::step_csv`]; the floats of a
-/// [`PassRow`] are already rounded to 3 decimals).
+/// (the numbers through the fixed-decimal writer of [`super::step_csv`]: [`PassRow::new`] rounds
+/// the floats to 3 decimals; any other float is written by `ryu`, as the `csv` crate does).
 pub fn passes_csv(rows: &[PassRow], warnings: &[String]) -> String {
     use super::step_csv::{push_bool, push_comment_lines, push_rounded, push_text, push_u64};
     let mut buf = Vec::with_capacity(1024 + rows.len() * 200);
@@ -88,7 +88,12 @@ pub fn passes_csv(rows: &[PassRow], warnings: &[String]) -> String {
             r.los_azimuth_deg,
             r.min_range_km,
         ] {
-            push_rounded(&mut buf, x, 3);
+            if super::round(x, 3).to_bits() == x.to_bits() {
+                push_rounded(&mut buf, x, 3);
+            } else {
+                // a row not made by `PassRow::new`: the float as the `csv` crate writes it
+                buf.extend_from_slice(ryu::Buffer::new().format(x).as_bytes());
+            }
             buf.push(b',');
         }
         push_bool(&mut buf, r.starts_before_window);
