@@ -70,10 +70,11 @@
 
 use chrono::{DateTime, Utc};
 
+use super::bounded_trig;
 use super::horizon::HorizonMask;
 use super::look::{Look, Observer};
 use crate::orbit::frames::{
-    days_since_j2000, gmst_rad, teme_to_ecef_at_angle, EcefState, EARTH_ROTATION_RAD_S,
+    days_since_j2000, gmst_rad, teme_to_ecef_sin_cos, EcefState, EARTH_ROTATION_RAD_S,
 };
 use crate::orbit::propagate::{PropagationError, Propagator, WGS72_MU_KM3_S2};
 use crate::timefmt::{add_seconds, seconds_between};
@@ -199,7 +200,10 @@ impl Search<'_> {
         let teme = self
             .prop
             .propagate_minutes(self.epoch_offset_min + t / 60.0)?;
-        let s = teme_to_ecef_at_angle(&teme, gmst_rad(self.start_days_j2000 + t / 86_400.0));
+        // The sidereal angle lies in 0..2π: the bounded sine and cosine are within
+        // `bounded_trig::MAX_ERROR` (1e-15 rad, 1e-11 km of position) of the library's.
+        let gmst = gmst_rad(self.start_days_j2000 + t / 86_400.0);
+        let s = teme_to_ecef_sin_cos(&teme, bounded_trig::sin_cos(gmst));
         // The formulas of `Observer::look`, without azimuth and off-nadir angle.
         let ([e, n, u], [ed, nd, ud]) = self.obs.enu(&s);
         let h2 = e * e + n * n;
@@ -565,6 +569,10 @@ impl PredictedCone {
     /// with margin m = cos θ - u·s > 0 no grid point within m / (w + ω⊕ + k) passes. The
     /// result is that of testing every grid point (the jump is shortened by 1e-6 of itself for
     /// rounding); a far satellite costs a few evaluations instead of one per grid point.
+    ///
+    /// The sines and cosines come from [`bounded_trig`] (absolute error at most
+    /// `bounded_trig::MAX_ERROR`); the margin is lowered by [`TRIG_SLACK`], more than the error
+    /// they can make in it, so the test passes wherever the exact one would.
     fn first_entry(&self, from: f64, dtau: f64, steps: usize) -> Option<usize> {
         let w_e = EARTH_ROTATION_RAD_S;
         let theta0 = self.gamma_cone + self.omega_max * dtau + self.m0 + self.k * dtau;
@@ -579,14 +587,14 @@ impl PredictedCone {
             if theta >= std::f64::consts::PI {
                 return Some(i);
             }
-            let (sn, c) = (self.w * tau).sin_cos();
-            let (se, ce) = (w_e * tau).sin_cos();
+            let (sn, c) = bounded_trig::sin_cos(self.w * tau);
+            let (se, ce) = bounded_trig::sin_cos(w_e * tau);
             // R3(-ω⊕ τ): x' = cos x - sin y, y' = sin x + cos y
             let st = [ce * s0[0] - se * s0[1], se * s0[0] + ce * s0[1], s0[2]];
             let dot = (c * p[0] + sn * q[0]) * st[0]
                 + (c * p[1] + sn * q[1]) * st[1]
                 + (c * p[2] + sn * q[2]) * st[2];
-            let margin = theta.cos() - dot;
+            let margin = bounded_trig::cos(theta) - dot - TRIG_SLACK;
             if margin <= 0.0 {
                 return Some(i);
             }
@@ -596,6 +604,12 @@ impl PredictedCone {
         None
     }
 }
+
+/// What the margin of `PredictedCone::first_entry` is lowered by for the error of
+/// [`bounded_trig`]: the dot product u·s is a sum of products of unit-vector components with
+/// two sines/cosines each, off by at most 6 `MAX_ERROR` (|p|, |q| and the station direction are
+/// unit vectors), and cos θ by `MAX_ERROR`; 10 `MAX_ERROR` covers both.
+const TRIG_SLACK: f64 = 10.0 * bounded_trig::MAX_ERROR;
 
 /// Root of the secant of g through `neg` and `pos` (their midpoint when g is equal at both).
 fn secant_root(neg: &Sample, pos: &Sample) -> f64 {
@@ -631,7 +645,7 @@ fn local_cone(s: &Sample, lim: &SearchLimits) -> f64 {
     if lim.cone_eps <= -89.9f64.to_radians() {
         std::f64::consts::PI
     } else {
-        ((lim.station_r_km * lim.cone_eps.cos() / r).clamp(-1.0, 1.0)).acos() - lim.cone_eps
+        ((lim.station_r_cos_eps_km / r).clamp(-1.0, 1.0)).acos() - lim.cone_eps
     }
 }
 
@@ -767,9 +781,9 @@ struct SearchLimits {
     v_max_km_s: f64,
     /// Lowest mask elevation, deg.
     lowest_mask_deg: f64,
-    /// Station geocentric radius (km) and the cone's elevation ε (rad).
-    station_r_km: f64,
+    /// The cone's elevation ε (rad) and R cos ε, R the station's geocentric radius (km).
     cone_eps: f64,
+    station_r_cos_eps_km: f64,
     /// r_max (km) and the bound on the radius swing over the predicted skip's horizon,
     /// 2 a (e + 0.002) + 5 km (see `Search::local_cone`).
     r_max_km: f64,
@@ -826,8 +840,8 @@ fn search_limits(
         v_max_km_s: (WGS72_MU_KM3_S2 * (2.0 / r_p_min - 1.0 / a_max)).sqrt()
             + EARTH_ROTATION_RAD_S * r_max,
         lowest_mask_deg: mask.lowest_limit_deg(),
-        station_r_km: station_r,
         cone_eps: eps,
+        station_r_cos_eps_km: station_r * eps.cos(),
         r_max_km: r_max,
         radius_swing_km: 2.0 * a * (e + 0.002) + 5.0,
     }
