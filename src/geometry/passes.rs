@@ -710,7 +710,7 @@ fn curvature_bound_s(s: &Sample, lim: &SearchLimits) -> f64 {
     let root = |l: f64| 2.0 * rise / (d + (d * d + 2.0 * l * rise).sqrt());
     let first = root(curvature(rho0));
     let rho_min = rho0 - v * first;
-    if !(rho_min > 0.0) {
+    if rho_min.is_nan() || rho_min <= 0.0 {
         return 0.0;
     }
     root(curvature(rho_min))

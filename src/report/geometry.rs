@@ -200,7 +200,7 @@ mod tests {
     #[test]
     fn passes_csv_matches_the_csv_crate() {
         let rows = rows();
-        let warnings = vec![
+        let warnings = [
             "first".to_string(),
             "with\nbreak, and \"quotes\"".to_string(),
         ];
