@@ -25,7 +25,7 @@ pub fn format_ms(t: &DateTime<Utc>) -> String {
     put_digits(&mut b[14..16], f.minute);
     put_digits(&mut b[17..19], f.second);
     put_digits(&mut b[20..23], f.millis);
-    b.iter().map(|&c| char::from(c)).collect()
+    ascii(&b)
 }
 
 /// The calendar fields of a UTC time whose year has four digits and that is not in a leap
@@ -61,6 +61,12 @@ impl Fields {
     }
 }
 
+/// The ASCII bytes of a formatted time as a `String` (one copy; collecting `char`s costs
+/// several times that).
+fn ascii(b: &[u8]) -> String {
+    String::from_utf8(b.to_vec()).expect("the digits and separators are ASCII")
+}
+
 /// `value` in decimal, zero-padded to the width of `out` (ASCII digits).
 fn put_digits(out: &mut [u8], mut value: u32) {
     for d in out.iter_mut().rev() {
@@ -80,7 +86,7 @@ pub fn file_stamp(t: &DateTime<Utc>) -> String {
     put_digits(&mut b[6..8], f.day);
     put_digits(&mut b[9..11], f.hour);
     put_digits(&mut b[11..13], f.minute);
-    b.iter().map(|&c| char::from(c)).collect()
+    ascii(&b)
 }
 
 /// Seconds (f64) between two times, `b - a`.

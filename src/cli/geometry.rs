@@ -14,7 +14,7 @@ use passbudget::plan::inputs::{
     element_age_warning, load_satellite, propagation_stop, selection_note,
 };
 use passbudget::plan::{Window, WindowRequest};
-use passbudget::report::geometry::{PassRow, TrackRow};
+use passbudget::report::geometry::{passes_csv, PassRow, TrackRow};
 use passbudget::report::to_csv;
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
@@ -266,7 +266,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                 serde_json::to_string_pretty(&Doc { passes: &rows })?
             )?;
         }
-        Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
+        Format::Csv => write!(out, "{}", passes_csv(&rows, &[]))?,
         Format::Table => {
             let mut t = Table::new(&[
                 ("pass id", Align::Left),

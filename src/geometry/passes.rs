@@ -34,6 +34,11 @@
 //!      at the lowest perigee plus ω⊕ r_max) and ρ(τ) >= ρ0 - v_max τ, so the elevation cannot
 //!      rise by Δ before (ρ0 / v_max)(1 - e^-Δ) (`elevation_bound_s`; any step below the mask is
 //!      at least that).
+//!    * Curvature bound (strict): sin ε = l·û for the unit line of sight l, and
+//!      |l''| <= (2 a_max + 3 v_max²/ρ)/ρ (a_max bounds the Earth-fixed acceleration), so
+//!      sin ε(τ) <= sin ε0 + (sin ε)'(0) τ + |l''|max τ²/2: a satellite going down or away
+//!      cannot reach the mask before that bound does (`curvature_bound_s`; any step below the
+//!      mask is at least that too).
 //!
 //!    Every skip is at least [`FLOOR_STEP_S`].
 //! 2. **Sample inside the cone** at [`FLOOR_STEP_S`] (19 s) while g ≤ 0: any pass lasting
@@ -62,18 +67,19 @@
 //! the mask needs it) and no off-nadir angle; the pass's azimuths are computed once at the end.
 //!
 //! Cost (tests/passes_search.rs, `propagation_budget_over_the_station_and_mask_grid`): about
-//! 120 propagations per LEO satellite-day averaged over stations at 0, 45 and 61° latitude and
-//! masks of 0, 5 and 10° (four LEO orbits, 7 days; 170 before this method), from about 65 at
-//! the equator with a 10° mask to about 210 at 61° with a 0° mask. Completeness is checked there
-//! against a brute-force 1 s scan. A propagation error stops the search; passes found before
-//! are kept.
+//! 98 propagations per LEO satellite-day averaged over stations at 0, 45 and 61° latitude and
+//! masks of 0, 5 and 10° (four LEO orbits, 7 days; about 120 before the curvature bound, 170
+//! before this method), from about 55 at the equator with a 10° mask to about 170 at 61° with a
+//! 0° mask. Completeness is checked there against a brute-force 1 s scan. A propagation error
+//! stops the search; passes found before are kept.
 
 use chrono::{DateTime, Utc};
 
+use super::bounded_trig;
 use super::horizon::HorizonMask;
 use super::look::{Look, Observer};
 use crate::orbit::frames::{
-    days_since_j2000, gmst_rad, teme_to_ecef_at_angle, EcefState, EARTH_ROTATION_RAD_S,
+    days_since_j2000, gmst_rad, teme_to_ecef_sin_cos, EcefState, EARTH_ROTATION_RAD_S,
 };
 use crate::orbit::propagate::{PropagationError, Propagator, WGS72_MU_KM3_S2};
 use crate::timefmt::{add_seconds, seconds_between};
@@ -199,7 +205,10 @@ impl Search<'_> {
         let teme = self
             .prop
             .propagate_minutes(self.epoch_offset_min + t / 60.0)?;
-        let s = teme_to_ecef_at_angle(&teme, gmst_rad(self.start_days_j2000 + t / 86_400.0));
+        // The sidereal angle lies in 0..2π: the bounded sine and cosine are within
+        // `bounded_trig::MAX_ERROR` (1e-15 rad, 1e-11 km of position) of the library's.
+        let gmst = gmst_rad(self.start_days_j2000 + t / 86_400.0);
+        let s = teme_to_ecef_sin_cos(&teme, bounded_trig::sin_cos(gmst));
         // The formulas of `Observer::look`, without azimuth and off-nadir angle.
         let ([e, n, u], [ed, nd, ud]) = self.obs.enu(&s);
         let h2 = e * e + n * n;
@@ -287,9 +296,8 @@ impl Search<'_> {
         ];
         let w = hn / (rn * rn);
         let cone = PredictedCone {
-            p,
-            q,
-            station: self.obs_unit,
+            p_station: station_terms(&p, &self.obs_unit),
+            q_station: station_terms(&q, &self.obs_unit),
             w,
             gamma_cone,
             m0: 0.5f64.to_radians(),
@@ -545,9 +553,10 @@ impl Search<'_> {
 /// u(τ) = cos(wτ) P + sin(wτ) Q, station direction s(τ) = R3(-ω⊕ τ) ŝ, visibility cone γc,
 /// error margin m0 + k τ and the rate bound ω_max.
 struct PredictedCone {
-    p: [f64; 3],
-    q: [f64; 3],
-    station: [f64; 3],
+    /// P·s(τ) = cos(ω⊕τ) a0 + sin(ω⊕τ) a1 + a2 for these [a0, a1, a2] (`station_terms`); the
+    /// same for Q.
+    p_station: [f64; 3],
+    q_station: [f64; 3],
     w: f64,
     gamma_cone: f64,
     m0: f64,
@@ -565,13 +574,16 @@ impl PredictedCone {
     /// with margin m = cos θ - u·s > 0 no grid point within m / (w + ω⊕ + k) passes. The
     /// result is that of testing every grid point (the jump is shortened by 1e-6 of itself for
     /// rounding); a far satellite costs a few evaluations instead of one per grid point.
+    ///
+    /// The sines and cosines come from [`bounded_trig`] (absolute error at most
+    /// `bounded_trig::MAX_ERROR`); the margin is lowered by [`TRIG_SLACK`], more than the error
+    /// they can make in it, so the test passes wherever the exact one would.
     fn first_entry(&self, from: f64, dtau: f64, steps: usize) -> Option<usize> {
         let w_e = EARTH_ROTATION_RAD_S;
         let theta0 = self.gamma_cone + self.omega_max * dtau + self.m0 + self.k * dtau;
         // Grid steps per unit of margin, with a little to spare for rounding.
         let per_margin = 1.0 / ((self.w + w_e + self.k) * dtau * (1.0 + 1e-6));
-        let s0 = self.station;
-        let (p, q) = (&self.p, &self.q);
+        let (pa, qa) = (&self.p_station, &self.q_station);
         let mut i = 0usize;
         while i <= steps {
             let tau = from + i as f64 * dtau;
@@ -579,23 +591,41 @@ impl PredictedCone {
             if theta >= std::f64::consts::PI {
                 return Some(i);
             }
-            let (sn, c) = (self.w * tau).sin_cos();
-            let (se, ce) = (w_e * tau).sin_cos();
-            // R3(-ω⊕ τ): x' = cos x - sin y, y' = sin x + cos y
-            let st = [ce * s0[0] - se * s0[1], se * s0[0] + ce * s0[1], s0[2]];
-            let dot = (c * p[0] + sn * q[0]) * st[0]
-                + (c * p[1] + sn * q[1]) * st[1]
-                + (c * p[2] + sn * q[2]) * st[2];
-            let margin = theta.cos() - dot;
+            let (sn, c) = bounded_trig::sin_cos(self.w * tau);
+            let (se, ce) = bounded_trig::sin_cos(w_e * tau);
+            // u·s = cos(wτ) P·s(τ) + sin(wτ) Q·s(τ)
+            let dot =
+                c * (ce * pa[0] + se * pa[1] + pa[2]) + sn * (ce * qa[0] + se * qa[1] + qa[2]);
+            let margin = bounded_trig::cos(theta) - dot - TRIG_SLACK;
             if margin <= 0.0 {
                 return Some(i);
             }
-            // Grid points i + 1 .. i + n - 1 are excluded, n = ceil(margin / (rate dtau)).
-            i += ((margin * per_margin).ceil() as usize).max(1);
+            // Grid points i + 1 .. i + n - 1 are excluded, n = ceil(margin / (rate dtau)) (the
+            // ceiling by hand: `f64::ceil` is a library call on the baseline x86-64 target).
+            let x = margin * per_margin;
+            let n = x as usize;
+            i += (n + usize::from((n as f64) < x)).max(1);
         }
         None
     }
 }
+
+/// The terms [a0, a1, a2] of v·s(τ) = cos(ω⊕τ) a0 + sin(ω⊕τ) a1 + a2 for a vector v and the
+/// station direction s(τ) = R3(-ω⊕ τ) ŝ (R3(-α): x' = cos α x - sin α y, y' = sin α x + cos α y).
+fn station_terms(v: &[f64; 3], s: &[f64; 3]) -> [f64; 3] {
+    [
+        v[0] * s[0] + v[1] * s[1],
+        v[1] * s[0] - v[0] * s[1],
+        v[2] * s[2],
+    ]
+}
+
+/// What the margin of `PredictedCone::first_entry` is lowered by for the error of
+/// [`bounded_trig`]: the dot product u·s is a sum of products of unit-vector components with
+/// two sines/cosines each, off by at most 6 `MAX_ERROR` (|p|, |q| and the station direction are
+/// unit vectors), and cos θ by `MAX_ERROR`; 10 `MAX_ERROR` covers both and the rounding of the
+/// sum (a few 1e-16).
+const TRIG_SLACK: f64 = 10.0 * bounded_trig::MAX_ERROR;
 
 /// Root of the secant of g through `neg` and `pos` (their midpoint when g is equal at both).
 fn secant_root(neg: &Sample, pos: &Sample) -> f64 {
@@ -631,7 +661,7 @@ fn local_cone(s: &Sample, lim: &SearchLimits) -> f64 {
     if lim.cone_eps <= -89.9f64.to_radians() {
         std::f64::consts::PI
     } else {
-        ((lim.station_r_km * lim.cone_eps.cos() / r).clamp(-1.0, 1.0)).acos() - lim.cone_eps
+        ((lim.station_r_cos_eps_km / r).clamp(-1.0, 1.0)).acos() - lim.cone_eps
     }
 }
 
@@ -645,6 +675,44 @@ fn elevation_bound_s(s: &Sample, lim: &SearchLimits) -> f64 {
         return 0.0;
     }
     s.range_km / lim.v_max_km_s * (1.0 - (-rise_rad).exp())
+}
+
+/// Bound on the difference between SGP4's velocity and the derivative of its positions, km/s
+/// (~2e-5 for near-Earth orbits, ~1.5e-3 for SDP4 on an e = 0.7 orbit; see `refine_tca`).
+const VELOCITY_ERROR_KM_S: f64 = 2e-3;
+
+/// Time (s) before which the elevation cannot reach the lowest mask elevation, from the sample's
+/// elevation and its rate (a second-order bound: it lets a satellite going down or away move on
+/// in long steps, where [`elevation_bound_s`] assumes the line of sight may turn up at once).
+///
+/// With l the unit line of sight and û the station's up, sin ε = l·û, so (sin ε)'' = l''·û. From
+/// ρ⃗ = ρ l: l'' = (ρ⃗'' - ρ'' l - 2 ρ' l') / ρ, with |ρ⃗''| <= a_max (the Earth-fixed acceleration),
+/// |ρ''| <= v²/ρ + a_max, |ρ'| <= v and |l'| <= v/ρ (v <= v_max), so
+/// |l''| <= L(ρ) = (2 a_max + 3 v_max² / ρ) / ρ. Then
+/// sin ε(τ) <= sin ε0 + d τ + L τ² / 2 while ρ >= ρ_min, where d = cos ε0 ε'0 + δv / ρ0 (the rate
+/// from SGP4's velocity, plus its difference δv from the derivative of the positions,
+/// [`VELOCITY_ERROR_KM_S`]). The first τ at which that bound reaches sin ε_low is solved with L at
+/// ρ0, then again with L at ρ0 - v_max τ of that first root: that L is larger, so the second root
+/// is smaller and the range stays above ρ0 - v_max τ until it. 0 when ε0 >= ε_low.
+fn curvature_bound_s(s: &Sample, lim: &SearchLimits) -> f64 {
+    let (sin_e, cos_e) = bounded_trig::sin_cos(s.elevation_deg.to_radians());
+    // (the error of the bounded sine, 1e-15, is far below the 2e-3 km/s velocity allowance)
+    let rise = lim.sin_lowest_mask - sin_e;
+    if rise <= 0.0 {
+        return 0.0;
+    }
+    let rho0 = s.range_km;
+    let d = cos_e * s.elevation_rate_deg_s.to_radians() + VELOCITY_ERROR_KM_S / rho0;
+    let v = lim.v_max_km_s;
+    let curvature = |rho: f64| (2.0 * lim.a_max_km_s2 + 3.0 * v * v / rho) / rho;
+    // The positive root of d τ + L τ² / 2 = rise, in the form without cancellation.
+    let root = |l: f64| 2.0 * rise / (d + (d * d + 2.0 * l * rise).sqrt());
+    let first = root(curvature(rho0));
+    let rho_min = rho0 - v * first;
+    if rho_min.is_nan() || rho_min <= 0.0 {
+        return 0.0;
+    }
+    root(curvature(rho_min))
 }
 
 /// Cubic Hermite interpolation on [t0, t1] of values y and slopes m: the polynomial's
@@ -765,11 +833,16 @@ struct SearchLimits {
     /// Bound on the satellite's Earth-fixed speed, km/s: vis-viva at the lowest perigee for the
     /// largest semi-major axis, plus ω⊕ r_max.
     v_max_km_s: f64,
-    /// Lowest mask elevation, deg.
+    /// Lowest mask elevation, deg, and its sine.
     lowest_mask_deg: f64,
-    /// Station geocentric radius (km) and the cone's elevation ε (rad).
-    station_r_km: f64,
+    sin_lowest_mask: f64,
+    /// Bound on the satellite's Earth-fixed acceleration, km/s²: 1.05 times gravity at the
+    /// lowest perigee (the 5 % covers J2, about 0.2 %, and SGP4's other terms) plus the Coriolis
+    /// (2 ω⊕ v_max) and centrifugal (ω⊕² r_max) terms.
+    a_max_km_s2: f64,
+    /// The cone's elevation ε (rad) and R cos ε, R the station's geocentric radius (km).
     cone_eps: f64,
+    station_r_cos_eps_km: f64,
     /// r_max (km) and the bound on the radius swing over the predicted skip's horizon,
     /// 2 a (e + 0.002) + 5 km (see `Search::local_cone`).
     r_max_km: f64,
@@ -814,6 +887,9 @@ fn search_limits(
     } else {
         ((station_r * eps.cos() / r_max).clamp(-1.0, 1.0)).acos() - eps
     };
+    // v² = μ (2 / r_p - 1 / a) at the lowest perigee and the largest semi-major axis
+    let v_max_km_s =
+        (WGS72_MU_KM3_S2 * (2.0 / r_p_min - 1.0 / a_max)).sqrt() + EARTH_ROTATION_RAD_S * r_max;
     SearchLimits {
         total_s,
         gamma_cone,
@@ -822,12 +898,14 @@ fn search_limits(
         cap_s: (prop.period_minutes() * 60.0 / 32.0).clamp(60.0, 3600.0),
         horizon_s: 1.5 * prop.period_minutes() * 60.0,
         predicted_cap_s: prop.period_minutes() * 60.0 / 6.0,
-        // v² = μ (2 / r_p - 1 / a) at the lowest perigee and the largest semi-major axis
-        v_max_km_s: (WGS72_MU_KM3_S2 * (2.0 / r_p_min - 1.0 / a_max)).sqrt()
-            + EARTH_ROTATION_RAD_S * r_max,
+        v_max_km_s,
         lowest_mask_deg: mask.lowest_limit_deg(),
-        station_r_km: station_r,
+        sin_lowest_mask: mask.lowest_limit_deg().to_radians().sin(),
+        a_max_km_s2: 1.05 * WGS72_MU_KM3_S2 / (r_p_min * r_p_min)
+            + 2.0 * EARTH_ROTATION_RAD_S * v_max_km_s
+            + EARTH_ROTATION_RAD_S * EARTH_ROTATION_RAD_S * r_max,
         cone_eps: eps,
+        station_r_cos_eps_km: station_r * eps.cos(),
         r_max_km: r_max,
         radius_swing_km: 2.0 * a * (e + 0.002) + 5.0,
     }
@@ -883,7 +961,9 @@ impl Search<'_> {
         } else {
             FLOOR_STEP_S
         };
-        step.max(elevation_bound_s(s, lim)).max(TIME_TOLERANCE_S)
+        step.max(elevation_bound_s(s, lim))
+            .max(curvature_bound_s(s, lim))
+            .max(TIME_TOLERANCE_S)
     }
 
     /// AOS of the pass entered at sample `s` (g > 0) from `prev` (g <= 0): (AOS time, sample

@@ -88,7 +88,12 @@ pub fn gmst_rad(days_ut1_since_j2000: f64) -> f64 {
 /// TEME -> pseudo-Earth-fixed at Greenwich sidereal angle `gmst_rad`:
 /// r_pef = R3(θ) r, v_pef = R3(θ) v - ω⊕ × r_pef.
 pub fn teme_to_ecef_at_angle(s: &TemeState, gmst_rad: f64) -> EcefState {
-    let (st, ct) = gmst_rad.sin_cos();
+    teme_to_ecef_sin_cos(s, gmst_rad.sin_cos())
+}
+
+/// [`teme_to_ecef_at_angle`] from the sine and cosine of the sidereal angle (for a caller with
+/// a cheaper sine and cosine of its own).
+pub fn teme_to_ecef_sin_cos(s: &TemeState, (st, ct): (f64, f64)) -> EcefState {
     let [x, y, z] = s.position_km;
     let [vx, vy, vz] = s.velocity_km_s;
     // R3(θ): x' = cosθ x + sinθ y, y' = -sinθ x + cosθ y, z' = z

@@ -51,6 +51,59 @@ impl PassRow {
     }
 }
 
+/// The header row of [`passes_csv`], in the field order of [`PassRow`].
+const PASS_HEADER: &str = "satellite,norad_id,station,pass_id,aos,tca,los,duration_s,max_elevation_deg,aos_azimuth_deg,tca_azimuth_deg,los_azimuth_deg,min_range_km,starts_before_window,ends_after_window";
+
+/// The `passes` CSV written straight into one buffer: byte for byte what [`super::to_csv`] gives
+/// for the same rows (checked in the tests), without the `csv` crate's per-field serializer
+/// (the numbers through the fixed-decimal writer of [`super::step_csv`]: [`PassRow::new`] rounds
+/// the floats to 3 decimals; any other float is written by `ryu`, as the `csv` crate does).
+pub fn passes_csv(rows: &[PassRow], warnings: &[String]) -> String {
+    use super::step_csv::{push_bool, push_comment_lines, push_rounded, push_text, push_u64};
+    let mut buf = Vec::with_capacity(1024 + rows.len() * 200);
+    push_comment_lines(&mut buf, warnings);
+    if rows.is_empty() {
+        return String::from_utf8(buf).expect("CSV text is UTF-8");
+    }
+    buf.extend_from_slice(PASS_HEADER.as_bytes());
+    buf.push(b'\n');
+    for r in rows {
+        push_text(&mut buf, &r.satellite);
+        buf.push(b',');
+        push_u64(&mut buf, r.norad_id);
+        for t in [&r.station, &r.pass_id] {
+            buf.push(b',');
+            push_text(&mut buf, t);
+        }
+        buf.push(b',');
+        for t in [&r.aos, &r.tca, &r.los] {
+            push_text(&mut buf, t);
+            buf.push(b',');
+        }
+        for x in [
+            r.duration_s,
+            r.max_elevation_deg,
+            r.aos_azimuth_deg,
+            r.tca_azimuth_deg,
+            r.los_azimuth_deg,
+            r.min_range_km,
+        ] {
+            if super::round(x, 3).to_bits() == x.to_bits() {
+                push_rounded(&mut buf, x, 3);
+            } else {
+                // a row not made by `PassRow::new`: the float as the `csv` crate writes it
+                buf.extend_from_slice(ryu::Buffer::new().format(x).as_bytes());
+            }
+            buf.push(b',');
+        }
+        push_bool(&mut buf, r.starts_before_window);
+        buf.push(b',');
+        push_bool(&mut buf, r.ends_after_window);
+        buf.push(b'\n');
+    }
+    String::from_utf8(buf).expect("CSV text is UTF-8")
+}
+
 /// One row of the `track` output.
 #[derive(Debug, Clone, Serialize)]
 pub struct TrackRow {
@@ -79,6 +132,87 @@ impl TrackRow {
             range_rate_km_s: round(look.range_rate_km_s, 6),
             doppler_hz: frequency_hz.map(|f| round(doppler_hz(look.range_rate_km_s, f), 1)),
             sun_separation_deg: round(sun_separation_deg, 3),
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Rows of every kind of field: names that need quoting, negative and tiny values, zeros,
+    /// both flags.
+    fn rows() -> Vec<PassRow> {
+        let names = [
+            "WRENLET-1",
+            "a,b",
+            "say \"hi\"",
+            "two\nlines",
+            "",
+            "Ñu 東京",
+        ];
+        let values = [
+            0.0, -0.0, 1e-7, -2.5e-6, 1.5e-5, 0.001, 12.5, 359.999, -123.456, 9.99e14, 1e15, 1e20,
+        ];
+        let mut x = 0x2545_f491_4f6c_dd1du64;
+        let mut next = || {
+            x = x
+                .wrapping_mul(6_364_136_223_846_793_005)
+                .wrapping_add(1_442_695_040_888_963_407);
+            x
+        };
+        (0..3000)
+            .map(|i| {
+                let mut v = [0.0; 6];
+                for f in &mut v {
+                    let r = next();
+                    *f = if r % 4 == 0 {
+                        values[(r >> 8) as usize % values.len()]
+                    } else {
+                        let unit = (r >> 11) as f64 / (1u64 << 53) as f64;
+                        crate::report::round((unit - 0.3) * 10f64.powi((r % 9) as i32 - 2), 3)
+                    };
+                }
+                let r = next();
+                PassRow {
+                    satellite: names[i % names.len()].into(),
+                    norad_id: r >> (r % 64),
+                    station: names[(i / 6) % names.len()].into(),
+                    pass_id: format!("st-{i}"),
+                    aos: "2026-12-01T18:52:50.280Z".into(),
+                    tca: "2026-12-01T18:54:16.404Z".into(),
+                    los: names[(i / 36) % names.len()].into(),
+                    duration_s: v[0],
+                    max_elevation_deg: v[1],
+                    aos_azimuth_deg: v[2],
+                    tca_azimuth_deg: v[3],
+                    los_azimuth_deg: v[4],
+                    min_range_km: v[5],
+                    starts_before_window: r & 1 == 0,
+                    ends_after_window: r & 2 == 0,
+                }
+            })
+            .collect()
+    }
+
+    /// The direct writer gives the `csv` crate's bytes (`to_csv`), with and without warnings,
+    /// and for no rows at all.
+    #[test]
+    fn passes_csv_matches_the_csv_crate() {
+        let rows = rows();
+        let warnings = [
+            "first".to_string(),
+            "with\nbreak, and \"quotes\"".to_string(),
+        ];
+        for w in [&[][..], &warnings[..]] {
+            assert_eq!(
+                passes_csv(&rows, w),
+                crate::report::to_csv(&rows, w).unwrap()
+            );
+            assert_eq!(
+                passes_csv(&[], w),
+                crate::report::to_csv::<PassRow>(&[], w).unwrap()
+            );
         }
     }
 }

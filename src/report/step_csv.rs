@@ -91,7 +91,7 @@ fn push_ryu(buf: &mut Vec<u8>, x: f64) {
     buf.extend_from_slice(ryu::Buffer::new().format(x).as_bytes());
 }
 
-fn push_u64(buf: &mut Vec<u8>, mut n: u64) {
+pub(crate) fn push_u64(buf: &mut Vec<u8>, mut n: u64) {
     let mut digits = [0u8; 20];
     let mut i = digits.len();
     loop {
@@ -125,7 +125,7 @@ fn push_opt(buf: &mut Vec<u8>, x: Option<f64>, decimals: usize) {
 }
 
 /// A text field, quoted as the `csv` crate quotes it (only when it holds `,`, `"`, CR or LF).
-fn push_text(buf: &mut Vec<u8>, s: &str) {
+pub(crate) fn push_text(buf: &mut Vec<u8>, s: &str) {
     if s.bytes().any(|b| matches!(b, b',' | b'"' | b'\r' | b'\n')) {
         buf.push(b'"');
         for b in s.bytes() {
@@ -177,15 +177,13 @@ fn push_time(buf: &mut Vec<u8>, aos: &DateTime<Utc>, t_s: f64) {
     ]);
 }
 
-fn push_bool(buf: &mut Vec<u8>, b: bool) {
+pub(crate) fn push_bool(buf: &mut Vec<u8>, b: bool) {
     buf.extend_from_slice(if b { b"true" } else { b"false" });
 }
 
-/// The whole time-series CSV of one pass: the caution and warning comment lines, the header and
-/// one row per step, byte for byte what [`super::to_csv`] gives for
-/// [`super::plan::step_rows`].
-pub fn pass_csv(series: &PassSeries, rates: &RateSet, warnings: &[String]) -> Vec<u8> {
-    let mut buf = Vec::with_capacity(1024 + series.steps.len() * ROW_BYTES);
+/// The `#` lines that open every CSV output, as [`super::to_csv`] writes them: the caution, then
+/// one `# warning: ...` line per warning (line breaks inside a warning become spaces).
+pub(crate) fn push_comment_lines(buf: &mut Vec<u8>, warnings: &[String]) {
     buf.extend_from_slice(b"# ");
     buf.extend_from_slice(CAUTION.as_bytes());
     buf.push(b'\n');
@@ -194,6 +192,14 @@ pub fn pass_csv(series: &PassSeries, rates: &RateSet, warnings: &[String]) -> Ve
         buf.extend_from_slice(w.replace(['\n', '\r'], " ").as_bytes());
         buf.push(b'\n');
     }
+}
+
+/// The whole time-series CSV of one pass: the caution and warning comment lines, the header and
+/// one row per step, byte for byte what [`super::to_csv`] gives for
+/// [`super::plan::step_rows`].
+pub fn pass_csv(series: &PassSeries, rates: &RateSet, warnings: &[String]) -> Vec<u8> {
+    let mut buf = Vec::with_capacity(1024 + series.steps.len() * ROW_BYTES);
+    push_comment_lines(&mut buf, warnings);
     if series.steps.is_empty() {
         return buf;
     }
