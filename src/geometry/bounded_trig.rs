@@ -3,8 +3,10 @@
 //! (no large-argument reduction, no call).
 //!
 //! Method (standard argument reduction and minimax polynomials; the coefficients are those of
-//! fdlibm's `__kernel_sin` / `__kernel_cos` (Sun Microsystems, 1993), from memory, and checked
-//! against the standard library's `sin`/`cos` in the tests): x = n π/2 + r with n the nearest
+//! fdlibm's `k_sin.c` / `k_cos.c` and its `pio2_1` / `pio2_1t` of `e_rem_pio2.c` (Sun
+//! Microsystems, 1993), confirmed digit for digit against musl's copies (`src/math/__sin.c`,
+//! `__cos.c`, `__rem_pio2.c`), and checked against the standard library's `sin`/`cos` in the
+//! tests): x = n π/2 + r with n the nearest
 //! integer to 2x/π and |r| <= π/4, r computed in two parts (Cody-Waite: π/2's first 33 bits,
 //! then the rest; for |x| <= [`MAX_ARGUMENT`] the product n × first part and the difference
 //! x - n × first part are exact), then odd/even polynomials in r of degree 13/12, and the
