@@ -23,7 +23,7 @@
 //!
 //! Text uses the bundled DejaVu Sans (`fonts/`, Bitstream Vera licence) through plotters'
 //! `ab_glyph` renderer, so no system font library is needed; on PNG charts each glyph is
-//! rasterised once per size and thread ([`glyphs`]), with the same pixels.
+//! rasterised once per size and thread (`glyphs`), with the same pixels.
 
 pub mod contacts;
 pub mod data;

@@ -276,9 +276,10 @@ pub struct LinkValues {
     pub below_horizon: bool,
 }
 
-/// The weather-free terms of a link at one instant ([`LinkModel::geometry_terms`]).
+/// The weather-free terms of a link at one instant ([`LinkModel::geometry_terms`], the only
+/// maker: crate-private, so no caller hands [`LinkModel::link_through`] unchecked terms).
 #[derive(Debug, Clone, Copy, PartialEq)]
-pub struct GeometryTerms {
+pub(crate) struct GeometryTerms {
     /// Spacecraft antenna gain toward the station, dBi.
     pub spacecraft_gain_dbi: f64,
     pub eirp_dbw: f64,
@@ -450,7 +451,10 @@ impl LinkModel {
     /// free-space loss, from the geometry alone (a plan's step works them out once for its clear
     /// sky and its rain case). Checks the range and the elevation.
     #[inline]
-    pub fn geometry_terms(&self, geometry: &BudgetGeometry) -> Result<GeometryTerms, BudgetError> {
+    pub(crate) fn geometry_terms(
+        &self,
+        geometry: &BudgetGeometry,
+    ) -> Result<GeometryTerms, BudgetError> {
         check_geometry(geometry)?;
         // EIRP = P - L_line + G_tx(theta)
         let (eirp_dbw, tx_gain) = self.transmitter.eirp_dbw(geometry.off_nadir_deg)?;
@@ -467,7 +471,7 @@ impl LinkModel {
     /// [`Self::evaluate_link`] from its weather-free part (`terms`, [`Self::geometry_terms`]) and
     /// one weather's path and noise. Checks the atmosphere and the external noise terms.
     #[inline]
-    pub fn link_through(
+    pub(crate) fn link_through(
         &self,
         terms: &GeometryTerms,
         atmosphere: AtmosphereLoss,

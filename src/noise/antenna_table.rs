@@ -359,7 +359,7 @@ impl AntennaNoiseTable {
 
     /// Tables for several brightnesses on one grid of elevations, refined by the rule of
     /// [`Self::build`] wherever any of them needs it: `(rows, values)` with `values[j]` the rows of
-    /// `brightnesses[j]`. The rings' geometry is shared ([`integrate_many`]), and the 5 deg
+    /// `brightnesses[j]`. The rings' geometry is shared (`integrate_many`), and the 5 deg
     /// intervals the refinement starts from are refined in parallel. For the raised-horizon tables
     /// of [`super::terrain_table`], whose fast change is at the same elevation (their horizon).
     pub fn build_many(

@@ -2,7 +2,7 @@
 //! ITU-R P.372 §5, Table 1 (the categories of its Fig. 10): `Fam = c − d log10 f` (dB above
 //! k T0 b, f in MHz), as an antenna noise temperature `Ta = T0 10^(Fam/10)` with T0 = 290 K
 //! (P.372 eq. (3) form). Coefficients as in ITU-R Study Group 3's own P.372 code
-//! (docs/REFERENCES.md §8, status [C]).
+//! (docs/REFERENCES.md §8, status C).
 //!
 //! Validity: 0.3 MHz to 250 MHz (the range of the curves); outside it [`man_made_noise`] answers
 //! with the curve extrapolated and says so, for the caller to warn. The values are medians over

@@ -121,7 +121,7 @@ impl TerrainNoiseTable {
     /// together: the beam-averaged profile and the correction columns are the same for all, the
     /// raised-horizon tables of all cases share one grid of elevations
     /// ([`AntennaNoiseTable::build_many`]) and each direct integral of the correction grid gives
-    /// every case from one quadrature ([`TerrainIntegrator::at_many`]). A case's table is value for
+    /// every case from one quadrature (`TerrainIntegrator::at_many`). A case's table is value for
     /// value the one built alone, but for its raised-horizon rows: the shared grid is the union of
     /// what each case needs, so a case gets exact values at a few more rows.
     pub fn build_cases(

@@ -2,7 +2,7 @@
 //! atmosphere and the noise, down to C/N0 (clear sky and, optionally, the availability case).
 //!
 //! [`budget_at`] (the `budget --at` command: the atmosphere computed directly and itemized) and
-//! [`link_tabulated`] (a plan's step: the elevation-only terms from the station's path tables,
+//! `link_tabulated` (a plan's step: the elevation-only terms from the station's path tables,
 //! [`crate::plan::path_table`]) end in one function from a look angle and its path terms to the
 //! link, so the two agree to within the tables' stated bound. A plan's steps take the orbit from
 //! [`crate::orbit::spline`] (SGP4 knots, interpolated), also within a stated bound.
@@ -180,7 +180,7 @@ pub enum SeriesError {
 /// Moon at this instant before the atmosphere, from [`crate::plan::bodies::BodyNoise::at`]), their
 /// noise seen through this weather's path and their separations are counted; without it (a budget
 /// at an elevation, no time) they are 0 and `None`. The atmosphere is computed directly (itemized);
-/// a plan's steps take the same link through [`link_tabulated`].
+/// a plan's steps take the same link through `link_tabulated`.
 #[inline]
 pub fn budget_at(
     model: &StationModel,
@@ -216,7 +216,7 @@ pub fn budget_at(
 /// `weather` ([`crate::plan::path_table`], within its stated bound of the direct computation): a
 /// plan's step.
 #[inline]
-pub fn link_tabulated(
+pub(crate) fn link_tabulated(
     model: &StationModel,
     (look, front): (&Look, &GeometryTerms),
     weather: Weather,
@@ -234,7 +234,10 @@ pub fn link_tabulated(
 /// The weather-free terms of the link along `look` (EIRP, free-space loss): one per step, shared
 /// by its weather cases.
 #[inline]
-pub fn geometry_terms(model: &StationModel, look: &Look) -> Result<GeometryTerms, SeriesError> {
+pub(crate) fn geometry_terms(
+    model: &StationModel,
+    look: &Look,
+) -> Result<GeometryTerms, SeriesError> {
     model
         .link
         .geometry_terms(&budget_geometry(look))
@@ -320,7 +323,7 @@ const BODY_SPAN_S: f64 = 86_400.0;
 /// `bodies` (for this station: [`PassBodies`] holds its observer) is reset over the pass, and
 /// `orbit` to its SGP4 knots (the steps' states are interpolated between them,
 /// [`crate::orbit::spline`]); the elevation-only terms come from the station's path tables
-/// ([`link_tabulated`]). Allocates nothing once `steps` (and `orbit`) have grown to the longest
+/// (`link_tabulated`). Allocates nothing once `steps` (and `orbit`) have grown to the longest
 /// pass.
 pub fn fill_pass(
     (prop, orbit): (&Propagator, &mut EcefSpline),
