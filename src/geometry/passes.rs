@@ -285,7 +285,7 @@ impl Search<'_> {
             r[0] * vi[1] - r[1] * vi[0],
         ];
         let hn = (h[0] * h[0] + h[1] * h[1] + h[2] * h[2]).sqrt();
-        if !(hn > 0.0) {
+        if hn <= 0.0 || hn.is_nan() {
             return 0.0;
         }
         let hu = [h[0] / hn, h[1] / hn, h[2] / hn];
@@ -598,7 +598,7 @@ impl PredictedCone {
                 c * (ce * pa[0] + se * pa[1] + pa[2]) + sn * (ce * qa[0] + se * qa[1] + qa[2]);
             let margin = bounded_trig::cos(theta) - dot - TRIG_SLACK;
             // (a NaN margin proves nothing: the cone may be entered here)
-            if !(margin > 0.0) {
+            if margin <= 0.0 || margin.is_nan() {
                 return Some(i);
             }
             // Grid points i + 1 .. i + n - 1 are excluded, n = ceil(margin / (rate dtau)) (the
