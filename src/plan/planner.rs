@@ -99,21 +99,11 @@ impl Planner {
         )?;
         let mask = request.mask_deg.or(mission.mask_deg);
         if let Some(m) = mask {
-            MIN_ELEVATION_DEG
-                .check(m)
-                .map_err(|source| PlanError::Range {
-                    key: "mask_deg",
-                    source,
-                })?;
+            in_range(&MIN_ELEVATION_DEG, m, "mask_deg")?;
         }
         let exceedance_percent = request.exceedance_percent.or(mission.exceedance_percent);
         if let Some(p) = exceedance_percent {
-            EXCEEDANCE_PERCENT
-                .check(p)
-                .map_err(|source| PlanError::Range {
-                    key: "exceedance_percent",
-                    source,
-                })?;
+            in_range(&EXCEEDANCE_PERCENT, p, "exceedance_percent")?;
         }
         // The availability case first, so each station's noise tables of both cases are built
         // together.
@@ -128,12 +118,7 @@ impl Planner {
             })
             .collect::<Result<Vec<_>, _>>()?;
         let tradeoff_masks = if let Some(floor_deg) = request.search_floor_deg {
-            MIN_ELEVATION_DEG
-                .check(floor_deg)
-                .map_err(|source| PlanError::Range {
-                    key: "search_floor_deg",
-                    source,
-                })?;
+            in_range(&MIN_ELEVATION_DEG, floor_deg, "search_floor_deg")?;
             let floors = stations.iter().map(|s| {
                 let floor = s.configured_min_elevation_deg.min(floor_deg);
                 HorizonMask::new(floor, s.station.horizon_mask.clone())
@@ -174,10 +159,7 @@ impl Planner {
     /// The step must be within [`STEP_S`] and at most half the dwell (for a dwell of 2 s or more),
     /// or the dwell rule and the closing edges are miscounted.
     fn check_step(step_s: f64, rates: &RateSet) -> Result<f64, PlanError> {
-        STEP_S.check(step_s).map_err(|source| PlanError::Range {
-            key: "step_s",
-            source,
-        })?;
+        in_range(&STEP_S, step_s, "step_s")?;
         if rates.min_dwell_s >= 2.0 && step_s > rates.min_dwell_s / 2.0 {
             return Err(request_error(
                 "step_s",
@@ -476,6 +458,17 @@ impl Planner {
         }
         out
     }
+}
+
+/// `value` if it lies within `range`, else the request's error naming its field `key`.
+fn in_range(
+    range: &crate::config::limits::Range,
+    value: f64,
+    key: &'static str,
+) -> Result<f64, PlanError> {
+    range
+        .check(value)
+        .map_err(|source| PlanError::Range { key, source })
 }
 
 /// Passes (and trade-off passes) planned in parallel between two merges: bounds what is held at

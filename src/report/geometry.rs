@@ -59,7 +59,9 @@ const PASS_HEADER: &str = "satellite,norad_id,station,pass_id,aos,tca,los,durati
 /// (the numbers through the fixed-decimal writer of [`super::step_csv`]: [`PassRow::new`] rounds
 /// the floats to 3 decimals; any other float is written by `ryu`, as the `csv` crate does).
 pub fn passes_csv(rows: &[PassRow], warnings: &[String]) -> String {
-    use super::step_csv::{push_bool, push_comment_lines, push_rounded, push_text, push_u64};
+    use super::step_csv::{
+        push_bool, push_comment_lines, push_rounded, push_ryu, push_text, push_u64,
+    };
     let mut buf = Vec::with_capacity(1024 + rows.len() * 200);
     push_comment_lines(&mut buf, warnings);
     if rows.is_empty() {
@@ -92,7 +94,7 @@ pub fn passes_csv(rows: &[PassRow], warnings: &[String]) -> String {
                 push_rounded(&mut buf, x, 3);
             } else {
                 // a row not made by `PassRow::new`: the float as the `csv` crate writes it
-                buf.extend_from_slice(ryu::Buffer::new().format(x).as_bytes());
+                push_ryu(&mut buf, x);
             }
             buf.push(b',');
         }

@@ -160,12 +160,12 @@ pub fn pass_id(station: &str, pass: &crate::geometry::Pass) -> String {
 
 /// [`pass_id`] from the station's name and the pass's `full_tca`.
 pub fn pass_id_at(station: &str, full_tca: &chrono::DateTime<chrono::Utc>) -> String {
-    let (name, stamp) = (slug(station), crate::timefmt::file_stamp(full_tca));
-    let mut id = String::with_capacity(name.len() + 1 + stamp.len());
-    id.push_str(&name);
-    id.push('-');
-    id.push_str(&stamp);
-    id
+    [
+        slug(station).as_str(),
+        "-",
+        &crate::timefmt::file_stamp(full_tca),
+    ]
+    .concat()
 }
 
 /// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).

@@ -87,7 +87,8 @@ fn push_rounded_slow(buf: &mut Vec<u8>, x: f64, decimals: usize) {
     push_ryu(buf, k / POW10[decimals] + 0.0);
 }
 
-fn push_ryu(buf: &mut Vec<u8>, x: f64) {
+/// A float as the `csv` crate writes it (`ryu`).
+pub(crate) fn push_ryu(buf: &mut Vec<u8>, x: f64) {
     buf.extend_from_slice(ryu::Buffer::new().format(x).as_bytes());
 }
 

@@ -535,28 +535,24 @@ fn galactic_extrapolation_is_warned_alike_by_plan_and_budget() {
             .filter(|l| l.starts_with("warning") && l.contains("galactic"))
             .count()
     };
+    let budget = |more: &[&str]| {
+        let mut args = vec![
+            "budget",
+            EXAMPLE,
+            "--station",
+            "Nordkam",
+            "--elevation-deg",
+            "20",
+        ];
+        args.extend(more);
+        galactic(&args)
+    };
     let l_band = "transmitter.frequency_mhz=1700";
-    let budget_l = galactic(&[
-        "budget",
-        EXAMPLE,
-        "--station",
-        "Nordkam",
-        "--elevation-deg",
-        "20",
-        "--set",
-        l_band,
-    ]);
+    let budget_l = budget(&["--set", l_band]);
     let plan_l = galactic(&["plan", EXAMPLE, "--set", l_band]);
     assert_eq!(budget_l, 1);
     assert!(plan_l >= 1, "plan does not warn where budget does");
-    let budget_x = galactic(&[
-        "budget",
-        EXAMPLE,
-        "--station",
-        "Nordkam",
-        "--elevation-deg",
-        "20",
-    ]);
+    let budget_x = budget(&[]);
     let plan_x = galactic(&["plan", EXAMPLE]);
     assert_eq!((budget_x, plan_x), (0, 0));
 }
