@@ -23,8 +23,9 @@
 //!    * Predicted skip (e < 0.05 only; an error model, not a strict bound): γ is predicted
 //!      over the next 1.5 periods from the sample's state with a circular orbit under the
 //!      turning Earth, less a margin growing as 0.5° + (4e + 0.01) × (angle travelled) plus
-//!      ω_max × Δτ between grid points (Δτ = 30 s, then 3 s inside the first 30 s interval
-//!      where entry is possible). The cone of this test is γc for the largest radius the
+//!      ω_max × Δτ between grid points (Δτ = 3 s; the grid points that cannot trigger are
+//!      jumped over by a strict bound on γ - θ, so the test costs a few evaluations of the
+//!      prediction, not one per grid point). The cone of this test is γc for the largest radius the
 //!      satellite can reach within the horizon, the sample's radius plus 2 a (e + 0.002) + 5 km
 //!      (perigee to apogee, a change of e from long-period terms and drag, SGP4's short-period
 //!      radial term of amplitude k2 / 2p ≈ 1.6 km in LEO), at most r_max (see `local_cone`,
@@ -192,6 +193,9 @@ struct Search<'a> {
     predicted_walk: bool,
 }
 
+/// Grid step of the predicted skip (`Search::predicted_skip`), s.
+const PREDICTED_GRID_S: f64 = 3.0;
+
 /// Time step of the central differences of elevation used for TCA on deep-space orbits, s.
 /// Truncation error of the derivative ~ h² |ε'''| / 6, i.e. a TCA error ~ h² |ε'''| / (6 |ε''|)
 /// < 0.002 s for elevation curves with a time scale |ε''/ε'''| above 100 s (orbits with a period
@@ -265,7 +269,8 @@ impl Search<'_> {
     ///
     /// The prediction error is allowed to grow as m(τ) = 0.5° + (4e + 0.01) w τ (eccentricity,
     /// J2 short-period and drag effects on the along-track angle are ~1e-3 of it for LEO), and
-    /// between grid points (30 s) the satellite can move by ω_max · 30 s. Only used for e < 0.05.
+    /// between grid points ([`PREDICTED_GRID_S`], 3 s) the satellite can move by ω_max · 3 s.
+    /// Only used for e < 0.05.
     fn predicted_skip(
         &self,
         s: &Sample,
@@ -304,20 +309,14 @@ impl Search<'_> {
             k: (4.0 * e + 0.01) * w,
             omega_max,
         };
-        // A coarse grid of 30 s, then the coarse interval of the first possible entry again at
-        // 3 s (its slack ω_max Δτ is ten times smaller).
-        let coarse = 30.0;
-        let steps = (horizon / coarse).ceil() as usize;
-        match cone.first_entry(0.0, coarse, steps) {
-            None => horizon,
-            Some(0) => 0.0,
-            Some(i) => {
-                let from = (i - 1) as f64 * coarse;
-                let fine = coarse / 10.0;
-                cone.first_entry(from, fine, 10)
-                    .map_or(i as f64 * coarse, |j| from + j as f64 * fine)
-            }
-        }
+        // One grid of 3 s: its slack ω_max Δτ is 0.2 deg for a LEO, and the jumps over the
+        // grid points that cannot pass (see `PredictedCone::first_entry`) make a fine grid
+        // cost about what a coarse one would. Point i covers [τ_i - Δτ, τ_i + Δτ], so the
+        // satellite stays out of the cone until the first point that fails.
+        let dtau = PREDICTED_GRID_S;
+        let steps = (horizon / dtau).ceil() as usize;
+        cone.first_entry(0.0, dtau, steps)
+            .map_or(horizon, |i| i as f64 * dtau)
     }
 
     /// Root of g (azimuth-dependent mask: g has corners) between `a` and `b` (g of opposite signs, g(a) <= 0 < g(b) or the reverse).
@@ -569,45 +568,67 @@ impl PredictedCone {
     /// satellite may enter the cone before τ_i + `dtau`: γ(τ_i) <= θ = γc + ω_max dtau + m0 +
     /// k (τ_i + dtau), i.e. cos γ(τ_i) >= cos θ (θ < π); `None` if there is none.
     ///
-    /// Grid points that cannot pass the test are jumped over instead of evaluated: u·s changes
-    /// at most at w + ω⊕ (u turns at w, s at ω⊕ cos φ) and cos θ at most at k, so from a point
-    /// with margin m = cos θ - u·s > 0 no grid point within m / (w + ω⊕ + k) passes. The
-    /// result is that of testing every grid point (the jump is shortened by 1e-6 of itself for
-    /// rounding); a far satellite costs a few evaluations instead of one per grid point.
+    /// Grid points that cannot pass the test are jumped over instead of evaluated: the angle γ
+    /// changes at most at w + ω⊕ (u turns at w, s at ω⊕ cos φ) and θ grows at k, so from a
+    /// point with γ - θ = Δ > 0 no grid point within Δ / (w + ω⊕ + k) passes. Δ is bounded
+    /// below without an arc cosine: cos θ - cos γ = ∫ sin x dx over [θ, γ] <= Δ max sin, and
+    /// the largest sine on [θ, γ] is sin γ = √(1 - cos²γ) when γ <= π/2 (cos γ >= 0), else at
+    /// most 1, so Δ >= m / sin γ (or >= m) for the margin m = cos θ - u·s > 0. Near the cone,
+    /// where sin γ is small, this jumps several times farther than the margin m itself would.
+    /// The result is that of testing every grid point (the jump is shortened by 1e-6 of itself
+    /// for rounding; a test checks it against the exhaustive scan); a far satellite costs a few
+    /// evaluations instead of one per grid point.
     ///
     /// The sines and cosines come from [`bounded_trig`] (absolute error at most
     /// `bounded_trig::MAX_ERROR`); the margin is lowered by [`TRIG_SLACK`], more than the error
     /// they can make in it, so the test passes wherever the exact one would.
     fn first_entry(&self, from: f64, dtau: f64, steps: usize) -> Option<usize> {
-        let w_e = EARTH_ROTATION_RAD_S;
-        let theta0 = self.gamma_cone + self.omega_max * dtau + self.m0 + self.k * dtau;
-        // Grid steps per unit of margin, with a little to spare for rounding.
-        let per_margin = 1.0 / ((self.w + w_e + self.k) * dtau * (1.0 + 1e-6));
-        let (pa, qa) = (&self.p_station, &self.q_station);
+        let theta0 = self.theta0(dtau);
+        // Grid steps per unit of angle margin, with a little to spare for rounding.
+        let per_margin = 1.0 / ((self.w + EARTH_ROTATION_RAD_S + self.k) * dtau * (1.0 + 1e-6));
         let mut i = 0usize;
         while i <= steps {
-            let tau = from + i as f64 * dtau;
-            let theta = theta0 + self.k * tau;
-            if theta >= std::f64::consts::PI {
-                return Some(i);
-            }
-            let (sn, c) = bounded_trig::sin_cos(self.w * tau);
-            let (se, ce) = bounded_trig::sin_cos(w_e * tau);
-            // u·s = cos(wτ) P·s(τ) + sin(wτ) Q·s(τ)
-            let dot =
-                c * (ce * pa[0] + se * pa[1] + pa[2]) + sn * (ce * qa[0] + se * qa[1] + qa[2]);
-            let margin = bounded_trig::cos(theta) - dot - TRIG_SLACK;
+            let (margin, dot) = self.margin_at(from + i as f64 * dtau, theta0);
             // (a NaN margin proves nothing: the cone may be entered here)
             if margin <= 0.0 || margin.is_nan() {
                 return Some(i);
             }
-            // Grid points i + 1 .. i + n - 1 are excluded, n = ceil(margin / (rate dtau)) (the
-            // ceiling by hand: `f64::ceil` is a library call on the baseline x86-64 target).
-            let x = margin * per_margin;
+            // sin γ from a lower bound of cos γ (|u·s - cos γ| < TRIG_SLACK): an upper bound.
+            let cos_gamma_low = dot - TRIG_SLACK;
+            let sin_gamma_max = if cos_gamma_low > 0.0 {
+                (1.0 - cos_gamma_low * cos_gamma_low).sqrt()
+            } else {
+                1.0
+            };
+            // Grid points i + 1 .. i + n - 1 are excluded, n = ceil(Δ / (rate dtau)) with Δ >=
+            // margin / sin γ (the ceiling by hand: `f64::ceil` is a library call on the
+            // baseline x86-64 target).
+            let x = margin / sin_gamma_max * per_margin;
             let n = x as usize;
             i += (n + usize::from((n as f64) < x)).max(1);
         }
         None
+    }
+
+    /// θ at τ = 0 for a grid of step `dtau`: γc + ω_max dtau + m0 + k dtau.
+    fn theta0(&self, dtau: f64) -> f64 {
+        self.gamma_cone + self.omega_max * dtau + self.m0 + self.k * dtau
+    }
+
+    /// The test of one grid point τ: the margin cos θ(τ) - u(τ)·s(τ) - [`TRIG_SLACK`] (minus
+    /// infinity once θ >= π), and u·s. The cone may be entered from τ unless the margin is > 0.
+    #[inline]
+    fn margin_at(&self, tau: f64, theta0: f64) -> (f64, f64) {
+        let theta = theta0 + self.k * tau;
+        if theta >= std::f64::consts::PI {
+            return (f64::NEG_INFINITY, f64::NAN);
+        }
+        let (pa, qa) = (&self.p_station, &self.q_station);
+        let (sn, c) = bounded_trig::sin_cos(self.w * tau);
+        let (se, ce) = bounded_trig::sin_cos(EARTH_ROTATION_RAD_S * tau);
+        // u·s = cos(wτ) P·s(τ) + sin(wτ) Q·s(τ)
+        let dot = c * (ce * pa[0] + se * pa[1] + pa[2]) + sn * (ce * qa[0] + se * qa[1] + qa[2]);
+        (bounded_trig::cos(theta) - dot - TRIG_SLACK, dot)
     }
 }
 
@@ -1286,7 +1307,64 @@ impl Iterator for Track<'_> {
 
 #[cfg(test)]
 mod tests {
-    use super::parabola_root_s;
+    use super::{parabola_root_s, station_terms, PredictedCone, EARTH_ROTATION_RAD_S};
+
+    /// The jumps of `PredictedCone::first_entry` skip only grid points that would fail to
+    /// trigger: its answer is the first grid point whose own test triggers, found by testing
+    /// every point (the exhaustive scan is the reference; first principles). Random circular
+    /// LEO-like orbits (w 0.8-1.2e-3 rad/s), station directions, cones of 10-45 deg, margins
+    /// growing as for e up to 0.05, on the search's 3 s grid and on coarser ones.
+    #[test]
+    fn predicted_cone_jumps_equal_the_exhaustive_scan() {
+        let mut x = 0x2545_f491_4f6c_dd1du64;
+        let mut unit = move || {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            (x >> 11) as f64 / (1u64 << 53) as f64
+        };
+        let normalize = |v: [f64; 3]| {
+            let n = (v[0] * v[0] + v[1] * v[1] + v[2] * v[2]).sqrt();
+            [v[0] / n, v[1] / n, v[2] / n]
+        };
+        let (mut triggered, mut jumped) = (0, 0);
+        for case in 0..3000 {
+            let mut vec3 =
+                || normalize([2.0 * unit() - 1.0, 2.0 * unit() - 1.0, 2.0 * unit() - 1.0]);
+            let (p, a, station) = (vec3(), vec3(), vec3());
+            // h ⟂ p, q = h × p
+            let d = a[0] * p[0] + a[1] * p[1] + a[2] * p[2];
+            let h = normalize([a[0] - d * p[0], a[1] - d * p[1], a[2] - d * p[2]]);
+            let q = [
+                h[1] * p[2] - h[2] * p[1],
+                h[2] * p[0] - h[0] * p[2],
+                h[0] * p[1] - h[1] * p[0],
+            ];
+            let w = 0.8e-3 + 0.4e-3 * unit();
+            let e = 0.05 * unit();
+            let cone = PredictedCone {
+                p_station: station_terms(&p, &station),
+                q_station: station_terms(&q, &station),
+                w,
+                gamma_cone: (10.0 + 35.0 * unit()).to_radians(),
+                m0: 0.5f64.to_radians(),
+                k: (4.0 * e + 0.01) * w,
+                omega_max: w + EARTH_ROTATION_RAD_S,
+            };
+            let dtau = [3.0, 3.0, 10.0, 30.0][case % 4];
+            let steps = (9000.0 / dtau) as usize;
+            let theta0 = cone.theta0(dtau);
+            let scan = (0..=steps).find(|&i| {
+                let (margin, _) = cone.margin_at(i as f64 * dtau, theta0);
+                margin <= 0.0 || margin.is_nan()
+            });
+            assert_eq!(cone.first_entry(0.0, dtau, steps), scan, "case {case}");
+            triggered += usize::from(scan.is_some_and(|i| i > 0));
+            jumped += usize::from(scan.is_none());
+        }
+        // the cases reach both ends: an entry after a jump, and no entry over the horizon
+        assert!(triggered > 300 && jumped > 30, "{triggered} {jumped}");
+    }
 
     /// The root satisfies its parabola to rounding, whatever the sign and size of d (the
     /// curvature bound's time is only a bound if it is the parabola's own root): first
