@@ -15,7 +15,7 @@ use passbudget::plan::inputs::{
 };
 use passbudget::plan::{Window, WindowRequest};
 use passbudget::report::geometry::{passes_csv, PassRow, TrackRow};
-use passbudget::report::to_csv;
+use passbudget::report::{slug, to_csv};
 use passbudget::timefmt::format_ms;
 use serde::Serialize;
 use std::io::Write;
@@ -250,9 +250,10 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
         .or_else(|| r.mission.as_ref().and_then(|m| m.mask_deg));
     warn_element_age(&r);
     let all = all_passes(&r, mask)?;
+    let slugs: Vec<String> = r.stations.iter().map(|s| slug(&s.name)).collect();
     let rows: Vec<PassRow> = all
         .iter()
-        .map(|(i, p)| PassRow::new(&r.elements, &r.stations[*i].name, p))
+        .map(|(i, p)| PassRow::with_slug(&r.elements, &r.stations[*i].name, &slugs[*i], p))
         .collect();
     match a.format {
         Format::Json => {

@@ -31,11 +31,16 @@ pub struct PassRow {
 
 impl PassRow {
     pub fn new(set: &ElementSet, station: &str, p: &Pass) -> Self {
+        Self::with_slug(set, station, &crate::report::slug(station), p)
+    }
+
+    /// [`PassRow::new`] with the station's [`crate::report::slug`] made once for its passes.
+    pub fn with_slug(set: &ElementSet, station: &str, station_slug: &str, p: &Pass) -> Self {
         PassRow {
             satellite: satellite_name(set),
             norad_id: set.norad_id,
             station: station.to_string(),
-            pass_id: crate::report::pass_id(station, p),
+            pass_id: crate::report::pass_id_slugged(station_slug, &p.full_tca),
             aos: format_ms(&p.aos),
             tca: format_ms(&p.tca),
             los: format_ms(&p.los),

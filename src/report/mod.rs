@@ -160,12 +160,12 @@ pub fn pass_id(station: &str, pass: &crate::geometry::Pass) -> String {
 
 /// [`pass_id`] from the station's name and the pass's `full_tca`.
 pub fn pass_id_at(station: &str, full_tca: &chrono::DateTime<chrono::Utc>) -> String {
-    [
-        slug(station).as_str(),
-        "-",
-        &crate::timefmt::file_stamp(full_tca),
-    ]
-    .concat()
+    pass_id_slugged(&slug(station), full_tca)
+}
+
+/// [`pass_id_at`] from the station's [`slug`], made once for many passes.
+pub fn pass_id_slugged(station_slug: &str, full_tca: &chrono::DateTime<chrono::Utc>) -> String {
+    [station_slug, "-", &crate::timefmt::file_stamp(full_tca)].concat()
 }
 
 /// Round to `digits` decimals for stable, readable output (JSON/CSV are deterministic anyway).
