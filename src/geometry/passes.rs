@@ -30,7 +30,9 @@
 //!      (perigee to apogee, a change of e from long-period terms and drag, SGP4's short-period
 //!      radial term of amplitude k2 / 2p ≈ 1.6 km in LEO), at most r_max (see `local_cone`,
 //!      `predicted_skip`). Its safety is checked in tests/passes_search.rs against 1 s scans over
-//!      varied LEO orbits and stations.
+//!      varied LEO orbits and stations. Inside the cone (after a LOS, past a near miss) the
+//!      prediction is tested from the end of the strict bounds below; when it keeps the
+//!      satellite out of the cone past them, that is the step.
 //!    * Elevation bound (strict): the line of sight turns at most at |v|/ρ, |v| <= v_max (vis-viva
 //!      at the lowest perigee plus ω⊕ r_max) and ρ(τ) >= ρ0 - v_max τ, so the elevation cannot
 //!      rise by Δ before (ρ0 / v_max)(1 - e^-Δ) (`elevation_bound_s`; any step below the mask is
@@ -278,6 +280,7 @@ impl Search<'_> {
         omega_max: f64,
         e: f64,
         horizon: f64,
+        strict_s: f64,
     ) -> f64 {
         let w_e = EARTH_ROTATION_RAD_S;
         let r = s.r;
@@ -313,10 +316,13 @@ impl Search<'_> {
         // grid points that cannot pass (see `PredictedCone::first_entry`) make a fine grid
         // cost about what a coarse one would. Point i covers [τ_i - Δτ, τ_i + Δτ], so the
         // satellite stays out of the cone until the first point that fails.
+        // The strict bounds keep the satellite below the mask until `strict_s`: the test
+        // starts at the grid point at or just before it (that point covers from Δτ earlier).
         let dtau = PREDICTED_GRID_S;
         let steps = (horizon / dtau).ceil() as usize;
-        cone.first_entry(0.0, dtau, steps)
-            .map_or(horizon, |i| i as f64 * dtau)
+        let first = ((strict_s / dtau) as usize).min(steps);
+        cone.first_entry(first as f64 * dtau, dtau, steps - first)
+            .map_or(horizon, |j| (first + j) as f64 * dtau)
     }
 
     /// Root of g (azimuth-dependent mask: g has corners) between `a` and `b` (g of opposite signs, g(a) <= 0 < g(b) or the reverse).
@@ -985,23 +991,26 @@ impl Search<'_> {
         } else {
             lim.gamma_cone
         };
+        let strict = elevation_bound_s(s, lim).max(curvature_bound_s(s, lim));
+        let predicted = if lim.e < 0.05 {
+            self.predicted_skip(s, local, lim.omega_max, lim.e, lim.horizon_s, strict)
+        } else {
+            0.0
+        };
         let step = if gamma > local {
             let linear = ((gamma - lim.gamma_cone) / lim.omega_max).max(0.0);
-            let predicted = if lim.e < 0.05 {
-                self.predicted_skip(s, local, lim.omega_max, lim.e, lim.horizon_s)
-            } else {
-                0.0
-            };
             linear.max(predicted).max(FLOOR_STEP_S)
+        } else if predicted > strict {
+            // Inside the cone, but out of it (predicted) before the strict bounds run out: a
+            // satellite going down after a LOS or past a near miss.
+            predicted.max(FLOOR_STEP_S)
         } else if !self.azimuth_mask && s.gdot > 0.0 {
             // Newton: t - g/ġ; 5 % + 0.2 s past it.
             FLOOR_STEP_S.min(-s.g / s.gdot * 1.05 + 0.2)
         } else {
             FLOOR_STEP_S
         };
-        step.max(elevation_bound_s(s, lim))
-            .max(curvature_bound_s(s, lim))
-            .max(TIME_TOLERANCE_S)
+        step.max(strict).max(TIME_TOLERANCE_S)
     }
 
     /// AOS of the pass entered at sample `s` (g > 0) from `prev` (g <= 0): (AOS time, sample
