@@ -121,14 +121,14 @@ fn bench_fleet(c: &mut Criterion) {
     eprintln!(
         "fleet scale: {passes} passes, {} candidates, {} contacts booked, scheduler {:.3} s, gap {:.4}",
         contacts.candidates.len(),
-        contacts.contacts.len(),
+        contacts.contact_count(),
         contacts.scheduler_s,
         contacts.schedule.bound.gap
     );
     let mut g = c.benchmark_group("fleet");
     g.sample_size(10).measurement_time(Duration::from_secs(40));
     g.bench_function("20_satellites_10_stations_7_days_plan_and_schedule", |b| {
-        b.iter(|| black_box(fleet.run().unwrap().1.contacts.len()))
+        b.iter(|| black_box(fleet.run().unwrap().1.contact_count()))
     });
     g.finish();
 }

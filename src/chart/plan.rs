@@ -368,7 +368,7 @@ fn summary_chart(
     // The headline is the contact plan's (the same rule as `plan`'s table and summary).
     let delivered_bits = crate::plan::fleet::contact_plan(&[planner], std::slice::from_ref(plan))
         .ok()
-        .map(|cp| cp.contacts.iter().map(|c| c.volume_bits).sum());
+        .map(|cp| cp.schedule.contacts.iter().map(|c| c.volume_bits).sum());
     let data = SummaryChartData {
         delivered_bits,
         warnings: chart_warnings(planner),

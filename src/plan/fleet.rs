@@ -16,7 +16,7 @@
 //! let mission = Mission::load("examples/fleet/kestrel-fleet.yaml".as_ref())?;
 //! let fleet = FleetPlanner::new(&mission, &PlanRequest::default())?;
 //! let (plans, contacts) = fleet.run()?;
-//! println!("{} passes, {} contacts booked", plans.iter().map(|p| p.passes.len()).sum::<usize>(), contacts.contacts.len());
+//! println!("{} passes, {} contacts booked", plans.iter().map(|p| p.passes.len()).sum::<usize>(), contacts.contact_count());
 //! # Ok::<(), Box<dyn std::error::Error>>(())
 //! ```
 
@@ -121,17 +121,83 @@ pub struct ContactPlan {
     /// Every antenna: (station index, index among the station's antennas).
     pub antennas: Vec<(usize, usize)>,
     pub candidates: Vec<Candidate>,
+    /// The scheduler's answer: `schedule.contacts` are the booked contacts in seconds from the
+    /// window start; [`ContactPlan::contact`] gives each in operator terms.
     pub schedule: Schedule,
-    pub contacts: Vec<BookedContact>,
+    /// Per booked contact (`schedule.contacts`' order), what the schedule does not hold.
+    booked: Vec<BookedExtra>,
+    /// Per satellite, the scheme of each ladder option.
+    schemes: Vec<Vec<String>>,
     /// Wall time of the scheduler itself, s.
     pub scheduler_s: f64,
     pub window_start: DateTime<Utc>,
     pub window_s: f64,
 }
 
+/// What a booked contact adds to the schedule's own record (40 bytes, against 144 and a string
+/// for a whole [`BookedContact`], which is made when asked for: a year's plan books thousands).
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct BookedExtra {
+    start_elevation_deg: f64,
+    end_elevation_deg: f64,
+    min_margin_db: Option<f64>,
+    /// The pass's fixed-rate option (an index into the satellite's ladder).
+    option: Option<u32>,
+}
+
+impl ContactPlan {
+    /// The number of booked contacts.
+    pub fn contact_count(&self) -> usize {
+        self.schedule.contacts.len()
+    }
+
+    /// The `k`-th booked contact (in `schedule.contacts`' order: by start, then antenna).
+    pub fn contact(&self, k: usize) -> BookedContact {
+        let b = &self.schedule.contacts[k];
+        let extra = &self.booked[k];
+        let c = &self.candidates[b.candidate];
+        let (station, antenna) = self.antennas[c.antenna];
+        let at = |s: f64| add_seconds(&self.window_start, s);
+        BookedContact {
+            satellite: c.satellite,
+            station,
+            antenna,
+            pass: c.pass_ref,
+            start: at(b.start_s),
+            end: at(b.end_s),
+            setup_start: at(b.setup_start_s),
+            rate_bps: c.rate_bps,
+            scheme: extra
+                .option
+                .map(|o| self.schemes[c.satellite][o as usize].clone())
+                .unwrap_or_default(),
+            volume_bits: b.volume_bits,
+            min_margin_db: extra.min_margin_db,
+            start_elevation_deg: extra.start_elevation_deg,
+            end_elevation_deg: extra.end_elevation_deg,
+            shortened: b.shortened,
+        }
+    }
+
+    /// Every booked contact, made one at a time.
+    pub fn contacts(&self) -> impl ExactSizeIterator<Item = BookedContact> + '_ {
+        (0..self.contact_count()).map(|k| self.contact(k))
+    }
+}
+
 /// Build the contact candidates of planned satellites (all planned over the same stations and
 /// window) and schedule them.
 pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan, PlanError> {
+    contact_plan_with(planners, plans, &schedule::ScheduleOptions::default())
+}
+
+/// [`contact_plan`] with the scheduler's tuning (the size of the linear program solved for the
+/// bound).
+pub fn contact_plan_with(
+    planners: &[&Planner],
+    plans: &[Plan],
+    options: &schedule::ScheduleOptions,
+) -> Result<ContactPlan, PlanError> {
     let first = planners[0];
     let window = first.window();
     let window_s = seconds_between(&window.start(), &window.end());
@@ -149,7 +215,17 @@ pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan
             resources.push(antenna(&st.station, k, window.start(), dwell_s));
         }
     }
-    let mut candidates = Vec::new();
+    // Sized once (counted first): grown by doubling, a year's candidates would be held twice
+    // while they move, and leave a hole of their size behind.
+    let per_station = |si: usize| antennas.iter().filter(|a| a.0 == si).count();
+    let count: usize = plans
+        .iter()
+        .enumerate()
+        .flat_map(|(sat, plan)| plan.passes.iter().enumerate().map(move |p| (sat, p)))
+        .filter(|&(sat, (pi, p))| candidate(sat, pi, p, planners[sat]).is_some())
+        .map(|(_, (_, p))| per_station(p.station_index))
+        .sum();
+    let mut candidates = Vec::with_capacity(count);
     for (sat, plan) in plans.iter().enumerate() {
         for (pi, p) in plan.passes.iter().enumerate() {
             let Some(c) = candidate(sat, pi, p, planners[sat]) else {
@@ -164,7 +240,6 @@ pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan
             }
         }
     }
-    candidates.shrink_to_fit();
     let satellites: Vec<Satellite> = planners
         .iter()
         .enumerate()
@@ -183,10 +258,10 @@ pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan
         candidates,
     };
     let clock = std::time::Instant::now();
-    let sched = schedule::schedule(&problem).map_err(PlanError::Schedule)?;
+    let sched = schedule::schedule_with(&problem, options).map_err(PlanError::Schedule)?;
     let scheduler_s = clock.elapsed().as_secs_f64();
     let candidates = problem.candidates;
-    let contacts = booked(&sched, &candidates, &antennas, planners, plans)?;
+    let booked = booked(&sched, &candidates, planners, plans)?;
     Ok(ContactPlan {
         satellites: planners.iter().map(|p| name_of(p)).collect(),
         followed: planners
@@ -202,7 +277,11 @@ pub fn contact_plan(planners: &[&Planner], plans: &[Plan]) -> Result<ContactPlan
         antennas,
         candidates,
         schedule: sched,
-        contacts,
+        booked,
+        schemes: planners
+            .iter()
+            .map(|p| p.rates().ladder.iter().map(|o| o.scheme.clone()).collect())
+            .collect(),
         scheduler_s,
         window_start: window.start(),
         window_s,
@@ -306,14 +385,14 @@ fn onboard(o: &Onboard, start: DateTime<Utc>) -> (f64, f64, Generation) {
     (o.storage_bits, o.initial_fill_bits, generation)
 }
 
-/// The booked contacts in operator terms: times, the scheme, the elevations at start and end.
+/// What each booked contact adds to the schedule: the elevations at start and end, the pass's
+/// lowest margin and fixed-rate option.
 fn booked(
     s: &Schedule,
     candidates: &[Candidate],
-    antennas: &[(usize, usize)],
     planners: &[&Planner],
     plans: &[Plan],
-) -> Result<Vec<BookedContact>, PlanError> {
+) -> Result<Vec<BookedExtra>, PlanError> {
     let props = planners
         .iter()
         .map(|p| Propagator::new(p.elements()).map_err(PlanError::Propagator))
@@ -322,10 +401,9 @@ fn booked(
     let mut out = Vec::with_capacity(s.contacts.len());
     for b in &s.contacts {
         let c = &candidates[b.candidate];
-        let (si, k) = antennas[c.antenna];
         let planner = planners[c.satellite];
         let pass = &plans[c.satellite].passes[c.pass_ref];
-        let observer = &planner.stations()[si].observer;
+        let observer = &planner.stations()[pass.station_index].observer;
         let elevation = |t: DateTime<Utc>| -> Result<f64, PlanError> {
             let ecef = props[c.satellite]
                 .ecef_at(&t)
@@ -333,22 +411,11 @@ fn booked(
             Ok(observer.look(&ecef).elevation_deg)
         };
         let (t0, t1) = (add_seconds(&start, b.start_s), add_seconds(&start, b.end_s));
-        let option = pass.clear.option.map(|o| &planner.rates().ladder[o.0]);
-        out.push(BookedContact {
-            satellite: c.satellite,
-            station: si,
-            antenna: k,
-            pass: c.pass_ref,
-            start: t0,
-            end: t1,
-            setup_start: add_seconds(&start, b.setup_start_s),
-            rate_bps: c.rate_bps,
-            scheme: option.map(|o| o.scheme.clone()).unwrap_or_default(),
-            volume_bits: b.volume_bits,
-            min_margin_db: pass.clear.min_margin_db,
+        out.push(BookedExtra {
             start_elevation_deg: elevation(t0)?,
             end_elevation_deg: elevation(t1)?,
-            shortened: b.shortened,
+            min_margin_db: pass.clear.min_margin_db,
+            option: pass.clear.option.map(|o| o.0 as u32),
         });
     }
     Ok(out)

@@ -349,7 +349,8 @@ impl Planner {
         propagations_search: u64,
         (station_masks, tradeoff_masks): (Vec<MaskAccumulator>, Option<Vec<MaskAccumulator>>),
     ) -> Plan {
-        let mut segments = Vec::new();
+        // Sized once: a year's segments grown by doubling would leave holes of their size.
+        let mut segments = Vec::with_capacity(passes.iter().map(|p| p.segments.len()).sum());
         for p in &passes {
             segments.extend_from_slice(&p.segments);
         }
@@ -419,23 +420,33 @@ impl Planner {
                 noise: s.noise.warnings(),
                 ..Default::default()
             };
-            let own: Vec<Vec<String>> = passes
+            // A pass's lines depend on its warnings alone: they are made once per distinct
+            // value (a handful in a year of thousands of passes), each with its pass count.
+            let (mut distinct, mut n) = (Vec::<(PassWarnings, usize)>::new(), 0);
+            for x in passes.iter().filter(|x| x.station_index == i) {
+                n += 1;
+                match distinct.iter_mut().find(|d| d.0 == x.warnings) {
+                    Some(d) => d.1 += 1,
+                    None => distinct.push((x.warnings, 1)),
+                }
+            }
+            let own: Vec<(Vec<String>, usize)> = distinct
                 .iter()
-                .filter(|x| x.station_index == i)
-                .map(|x| x.warnings.lines(self.frequency_hz))
+                .map(|&(w, k)| (w.lines(self.frequency_hz), k))
                 .collect();
             let always = fixed.lines(self.frequency_hz);
-            let union = passes
-                .iter()
-                .filter(|x| x.station_index == i)
-                .fold(fixed, |w, x| w.union(&x.warnings));
+            let union = distinct.iter().fold(fixed, |w, x| w.union(&x.0));
             // One line per model and station; a warning raised by some passes only says how many.
             for m in union.lines(self.frequency_hz) {
-                let k = own.iter().filter(|l| l.contains(&m)).count();
-                let count = if always.contains(&m) || k == own.len() {
+                let k: usize = own
+                    .iter()
+                    .filter(|(l, _)| l.contains(&m))
+                    .map(|(_, k)| k)
+                    .sum();
+                let count = if always.contains(&m) || k == n {
                     String::new()
                 } else {
-                    format!(" ({k} of {} passes)", own.len())
+                    format!(" ({k} of {n} passes)")
                 };
                 out.push(format!("{}: {m}{count}", s.station.name));
             }

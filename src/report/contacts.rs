@@ -207,16 +207,16 @@ impl<'a> ContactRows<'a> {
 
     /// The number of booked contacts.
     pub fn len(&self) -> usize {
-        self.cp.contacts.len()
+        self.cp.contact_count()
     }
 
     pub fn is_empty(&self) -> bool {
-        self.cp.contacts.is_empty()
+        self.cp.contact_count() == 0
     }
 
     /// The row of the `k`-th booked contact.
     pub fn row(&self, k: usize) -> ContactRow {
-        contact_row(self.cp, self.plans, &self.stations, &self.cp.contacts[k])
+        contact_row(self.cp, self.plans, &self.stations, &self.cp.contact(k))
     }
 }
 
@@ -257,15 +257,14 @@ impl ContactDoc {
             .enumerate()
             .map(|(si, (name, n))| {
                 let booked_s: f64 = cp
-                    .contacts
-                    .iter()
+                    .contacts()
                     .filter(|c| c.station == si)
                     .map(|c| (c.end - c.start).as_seconds_f64())
                     .sum();
                 StationRow {
                     name: name.clone(),
                     antennas: *n,
-                    contacts: cp.contacts.iter().filter(|c| c.station == si).count(),
+                    contacts: cp.contacts().filter(|c| c.station == si).count(),
                     booked_s: round(booked_s, 1),
                     utilization: round(booked_s / (cp.window_s * *n as f64), 4),
                 }
@@ -313,8 +312,7 @@ fn bound_row(s: &crate::schedule::Schedule) -> ScheduleBoundRow {
 fn not_booked(cp: &ContactPlan, i: usize) -> NotBookedCounts {
     use crate::schedule::NotBooked as N;
     let booked: std::collections::HashSet<usize> = cp
-        .contacts
-        .iter()
+        .contacts()
         .filter(|c| c.satellite == i)
         .map(|c| c.pass)
         .collect();
@@ -376,8 +374,7 @@ fn satellite_row(cp: &ContactPlan, plans: &[Plan], i: usize) -> SatelliteRow {
         onboard_followed: followed,
         generated_bits: when(s.generated_bits),
         delivered_bits: cp
-            .contacts
-            .iter()
+            .contacts()
             .filter(|c| c.satellite == i)
             .map(|c| c.volume_bits.round())
             .sum(),
@@ -386,7 +383,7 @@ fn satellite_row(cp: &ContactPlan, plans: &[Plan], i: usize) -> SatelliteRow {
         final_fill_bits: when(s.final_fill_bits),
         max_latency_s: latency.then_some(round(s.max_latency_s, 1)),
         median_latency_s: latency.then_some(round(s.median_latency_s, 1)),
-        contacts: cp.contacts.iter().filter(|c| c.satellite == i).count(),
+        contacts: cp.contacts().filter(|c| c.satellite == i).count(),
         unconstrained_volume_bits: plans[i].totals.volume_bits.round(),
         not_booked: n.below_min_peak_elevation
             + n.blocked

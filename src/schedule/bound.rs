@@ -43,10 +43,12 @@ fn steps(items: &[(f64, f64, f64)], f: impl Fn(&mut Vec<f64>) -> f64) -> Vec<(f6
     // scheduler's peak here).
     let mut points: Vec<f64> = Vec::with_capacity(2 * items.len());
     points.extend(items.iter().flat_map(|i| [i.0, i.1]));
-    points.sort_by(f64::total_cmp);
+    // Unstable sorts, so no scratch copies: equal points are the same number, and the order
+    // breaks ties by index as the stable sort did.
+    points.sort_unstable_by(f64::total_cmp);
     points.dedup();
     let mut order: Vec<usize> = (0..items.len()).collect();
-    order.sort_by(|&a, &b| items[a].0.total_cmp(&items[b].0));
+    order.sort_unstable_by(|&a, &b| items[a].0.total_cmp(&items[b].0).then(a.cmp(&b)));
     let (mut out, mut next, mut active) = (
         Vec::with_capacity(points.len()),
         0usize,
@@ -76,8 +78,17 @@ fn integral(steps: &[(f64, f64)]) -> f64 {
 /// (the fill is then lower or equal everywhere, so is the loss), so no schedule delivers more
 /// for that satellite. Antenna side: the integral of the best weighted drain on each antenna.
 pub(crate) fn combinatorial(problem: &Problem, spans: Spans, weights: &[f64]) -> f64 {
-    let mut by_sat = vec![Vec::new(); problem.satellites.len()];
-    let mut by_antenna = vec![Vec::new(); problem.antennas.len()];
+    // Sized once (counted first): grown by doubling, a year's candidates would leave holes.
+    let (mut sat_n, mut antenna_n) = (
+        vec![0; problem.satellites.len()],
+        vec![0; problem.antennas.len()],
+    );
+    for &(c, _) in spans {
+        sat_n[problem.candidates[c].satellite] += 1;
+        antenna_n[problem.candidates[c].antenna] += 1;
+    }
+    let mut by_sat: Vec<Vec<_>> = sat_n.into_iter().map(Vec::with_capacity).collect();
+    let mut by_antenna: Vec<Vec<_>> = antenna_n.into_iter().map(Vec::with_capacity).collect();
     for &(c, (lo, hi)) in spans {
         let cand = &problem.candidates[c];
         by_sat[cand.satellite].push((lo, hi, q_of(problem, c)));

@@ -135,7 +135,7 @@ pub use model::{
     ScheduleError,
 };
 pub use outcome::{AntennaOutcome, Contact, SatelliteOutcome};
-pub use space::{bookable_spans, decision_space, NotBooked, Trim};
+pub use space::{bookable_spans, decision_space, visit_trims, NotBooked, Trim};
 
 use sweep::{Opt, Sweep};
 
@@ -199,20 +199,24 @@ pub struct Schedule {
 }
 
 fn build_opts(problem: &Problem, spans: &[Result<(f64, f64), NotBooked>]) -> Vec<Opt> {
-    let space = decision_space(problem, spans);
-    // Sized once: collecting the flattened trims would grow the vector by doubling (up to twice
-    // the trims held, and both copies while it moves; this vector is the peak of a year's plan).
-    let mut opts: Vec<Opt> = Vec::with_capacity(space.iter().map(Vec::len).sum());
-    opts.extend(space.into_iter().flatten().map(|t| {
+    // Sized once, from a first pass that only counts: neither the trims in their own form nor
+    // a vector grown by doubling is held beside the options (the options are the largest
+    // vector of the contact plan, about 20,000 of them in a year's plan).
+    let mut count = 0;
+    visit_trims(problem, spans, |_| count += 1);
+    let mut opts: Vec<Opt> = Vec::with_capacity(count);
+    visit_trims(problem, spans, |t| {
         let c = &problem.candidates[t.cand];
-        Opt::new(
+        opts.push(Opt::new(
             (t.cand, c.satellite, c.antenna),
             (t.x_s, t.y_s),
-            c.rate_bps * c.duty,
             spans[t.cand].map_or(c.end_s, |s| s.1),
-        )
-    }));
-    opts.sort_by(|a, b| {
+        ));
+    });
+    // Unstable, so no scratch copy: the key (start, end, candidate) is unique (a candidate's
+    // trims are distinct pairs, and an option is a function of its candidate and pair), so the
+    // order is the stable sort's.
+    opts.sort_unstable_by(|a, b| {
         a.x_s
             .total_cmp(&b.x_s)
             .then(a.y_s.total_cmp(&b.y_s))
@@ -244,8 +248,9 @@ fn fixed_profiles(
     let mut events: Vec<Vec<(f64, i8, f64)>> = vec![Vec::new(); n];
     for &i in fixed {
         let o = &opts[i];
-        events[o.sat()].push((o.x_s, 1, o.q_bps));
-        events[o.sat()].push((o.y_s, -1, o.q_bps));
+        let q_bps = o.q_bps(problem);
+        events[o.sat()].push((o.x_s, 1, q_bps));
+        events[o.sat()].push((o.y_s, -1, q_bps));
     }
     let (mut drains, mut counts) = (vec![Vec::new(); n], vec![Vec::new(); n]);
     for s in 0..n {
@@ -392,7 +397,7 @@ fn gap(upper: f64, achieved: f64) -> f64 {
 
 fn bounds(
     problem: &Problem,
-    spans: &[Result<(f64, f64), NotBooked>],
+    spans: Vec<Result<(f64, f64), NotBooked>>,
     weighted: f64,
     delivered: f64,
     lp_max: usize,
@@ -402,6 +407,7 @@ fn bounds(
         .enumerate()
         .filter_map(|(i, s)| s.ok().map(|s| (i, s)))
         .collect();
+    drop(spans);
     let weights: Vec<f64> = problem
         .satellites
         .iter()
@@ -453,7 +459,10 @@ pub fn schedule_with(
     model::validate(problem)?;
     let spans = bookable_spans(problem);
     let opts = build_opts(problem, &spans);
-    let (mut chosen, method) = if is_sequential(problem, &opts) {
+    // Made again for the rejections and the bound (one pass over the candidates): not held
+    // through the sweep and the evaluation (24 bytes a candidate).
+    drop(spans);
+    let (chosen, method) = if is_sequential(problem, &opts) {
         let r = Sweep {
             problem,
             opts: &opts,
@@ -473,12 +482,11 @@ pub fn schedule_with(
         let (chosen, rounds) = antenna_rounds(problem, &opts);
         (chosen, Method::AntennaRounds { rounds })
     };
-    let raw: Vec<(f64, f64)> = problem
-        .candidates
-        .iter()
-        .map(|c| (c.start_s, c.end_s))
-        .collect();
-    let (mut contacts, mut sats, mut antennas) = outcome::evaluate(problem, &opts, &chosen, &raw);
+    // Only the booked trims, in the order chosen: the others are done with before the
+    // evaluation allocates its own (a year's plan books a third of its trims).
+    let mut booked: Vec<Opt> = chosen.iter().map(|&i| opts[i]).collect();
+    drop((opts, chosen));
+    let (mut contacts, mut sats, mut antennas) = outcome::evaluate(problem, &booked);
     let empty: Vec<usize> = contacts
         .iter()
         .filter(|c| {
@@ -491,9 +499,11 @@ pub fn schedule_with(
         is_empty[c] = true;
     }
     if !empty.is_empty() {
-        chosen.retain(|&i| !is_empty[opts[i].cand()]);
-        (contacts, sats, antennas) = outcome::evaluate(problem, &opts, &chosen, &raw);
+        booked.retain(|o| !is_empty[o.cand()]);
+        (contacts, sats, antennas) = outcome::evaluate(problem, &booked);
     }
+    drop(booked);
+    let spans = bookable_spans(problem);
     let not_booked = rejections(problem, &spans, &contacts, &is_empty);
     let weighted_delivered = problem
         .satellites
@@ -504,7 +514,7 @@ pub fn schedule_with(
     let delivered_bits = sats.iter().map(|o| o.delivered_bits).sum();
     let bound = bounds(
         problem,
-        &spans,
+        spans,
         weighted_delivered,
         delivered_bits,
         options.lp_max_variables,

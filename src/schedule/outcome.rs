@@ -76,21 +76,17 @@ fn simulate_satellite(
     mine: &[usize],
 ) -> (Vec<f64>, SatelliteOutcome) {
     let sat = &problem.satellites[s];
-    let mut events: Vec<(f64, bool, usize)> = Vec::with_capacity(2 * mine.len());
-    for (k, &i) in mine.iter().enumerate() {
-        events.push((opts[i].x_s, true, k));
-        events.push((opts[i].y_s, false, k));
-    }
-    // Ends before starts at the same instant; then by contact order.
-    events.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)).then(a.2.cmp(&b.2)));
+    let n = mine.len();
     let mut st = SatState::start(sat);
-    let mut trace = Trace::begin(&st);
+    // The start, one point per event and the end: more only where the store fills or empties
+    // within a piece, or at generation windows.
+    let mut trace = Trace::begin(&st, 2 * n + 2);
     let mut running: Vec<usize> = Vec::new();
     let mut volumes = vec![0.0; mine.len()];
     let mut latencies = vec![0.0; mine.len()];
-    // Consumed: the events are freed before the timeline is made.
-    for (t_s, is_start, k) in events {
+    for (t_s, is_start, k) in events(opts, mine) {
         step(
+            problem,
             sat,
             &mut st,
             &mut trace,
@@ -108,6 +104,7 @@ fn simulate_satellite(
         }
     }
     step(
+        problem,
         sat,
         &mut st,
         &mut trace,
@@ -134,10 +131,42 @@ fn simulate_satellite(
     (volumes, outcome)
 }
 
+/// The starts and ends of the contacts `mine` (sorted by start), in time order: ends before
+/// starts at the same instant, then by contact order; `(t_s, is_start, k)` for `mine[k]`.
+/// Merged from the starts in order and the ends sorted by index (4 bytes a contact, where a
+/// sorted list of the events would take 48).
+fn events<'a>(opts: &'a [Opt], mine: &'a [usize]) -> impl Iterator<Item = (f64, bool, usize)> + 'a {
+    let n = mine.len();
+    let end = |k: usize| opts[mine[k]].y_s;
+    let mut ends: Vec<u32> = (0..n as u32).collect();
+    ends.sort_unstable_by(|&a, &b| end(a as usize).total_cmp(&end(b as usize)).then(a.cmp(&b)));
+    let (mut s, mut e) = (0, 0);
+    std::iter::from_fn(move || {
+        let x = (s < n).then(|| opts[mine[s]].x_s);
+        let y = (e < n).then(|| end(ends[e] as usize));
+        match (x, y) {
+            (Some(x), Some(y)) if x.total_cmp(&y) == std::cmp::Ordering::Less => {
+                s += 1;
+                Some((x, true, s - 1))
+            }
+            (_, Some(y)) => {
+                e += 1;
+                Some((y, false, ends[e - 1] as usize))
+            }
+            (Some(x), None) => {
+                s += 1;
+                Some((x, true, s - 1))
+            }
+            (None, None) => None,
+        }
+    })
+}
+
 /// Advances to `t_s` with the running contacts, sharing what is delivered in proportion to
 /// their drains.
 #[allow(clippy::too_many_arguments)]
 fn step(
+    problem: &Problem,
     sat: &super::model::Satellite,
     st: &mut SatState,
     trace: &mut Trace,
@@ -147,33 +176,27 @@ fn step(
     opts: &[Opt],
     volumes: &mut [f64],
 ) {
-    let q: f64 = running.iter().map(|&k| opts[mine[k]].q_bps).sum();
+    let q: f64 = running.iter().map(|&k| opts[mine[k]].q_bps(problem)).sum();
     let before = st.delivered_bits;
     advance(sat, st, t_s, q, Some(trace));
     let delivered = st.delivered_bits - before;
     if q > 0.0 {
         for &k in running {
-            volumes[k] += delivered * opts[mine[k]].q_bps / q;
+            volumes[k] += delivered * opts[mine[k]].q_bps(problem) / q;
         }
     }
 }
 
-/// Evaluates bookings `booked` (indices into `opts`): contacts sorted by start then antenna,
-/// satellite outcomes, antenna outcomes.
+/// Evaluates the booked trims `opts`: contacts sorted by start then antenna, satellite
+/// outcomes, antenna outcomes.
 pub(crate) fn evaluate(
     problem: &Problem,
     opts: &[Opt],
-    booked: &[usize],
-    spans_raw: &[(f64, f64)],
 ) -> (Vec<Contact>, Vec<SatelliteOutcome>, Vec<AntennaOutcome>) {
-    let mut contacts = Vec::with_capacity(booked.len());
+    let mut contacts = Vec::with_capacity(opts.len());
     let mut sat_outcomes = Vec::with_capacity(problem.satellites.len());
     for s in 0..problem.satellites.len() {
-        let mut mine: Vec<usize> = booked
-            .iter()
-            .copied()
-            .filter(|&i| opts[i].sat() == s)
-            .collect();
+        let mut mine: Vec<usize> = (0..opts.len()).filter(|&i| opts[i].sat() == s).collect();
         mine.sort_by(|&i, &j| {
             opts[i]
                 .x_s
@@ -183,7 +206,8 @@ pub(crate) fn evaluate(
         let (volumes, outcome) = simulate_satellite(problem, s, opts, &mine);
         for (k, &i) in mine.iter().enumerate() {
             let o = &opts[i];
-            let (s0, e0) = spans_raw[o.cand()];
+            let c = &problem.candidates[o.cand()];
+            let (s0, e0) = (c.start_s, c.end_s);
             contacts.push(Contact {
                 candidate: o.cand(),
                 satellite: s,

@@ -188,6 +188,19 @@ pub fn decision_space(
     problem: &Problem,
     spans: &[Result<(f64, f64), NotBooked>],
 ) -> Vec<Vec<Trim>> {
+    let mut space = vec![Vec::new(); problem.candidates.len()];
+    visit_trims(problem, spans, |t| space[t.cand].push(t));
+    space
+}
+
+/// Hands every trim of [`decision_space`] to `visit`, in the same order (by candidate, then
+/// start, then end), without holding them: a caller that keeps them in its own form need not
+/// hold both.
+pub fn visit_trims(
+    problem: &Problem,
+    spans: &[Result<(f64, f64), NotBooked>],
+    mut visit: impl FnMut(Trim),
+) {
     let cands = &problem.candidates;
     let by_antenna = groups(cands, spans, |c| c.antenna, problem.antennas.len());
     let by_sat = groups(cands, spans, |c| c.satellite, problem.satellites.len());
@@ -196,28 +209,23 @@ pub fn decision_space(
         .flatten()
         .map(|s| s.1 - s.0)
         .fold(0.0, f64::max);
-    (0..cands.len())
-        .map(|i| {
-            if spans[i].is_err() {
-                return Vec::new();
+    for (i, c) in cands.iter().enumerate() {
+        if spans[i].is_err() {
+            continue;
+        }
+        let min_len = problem.antennas[c.antenna].rules.min_contact_s;
+        let (xs, ys) = trim_points(
+            problem,
+            spans,
+            i,
+            &by_antenna[c.antenna],
+            &by_sat[c.satellite],
+            longest,
+        );
+        for &x_s in &xs {
+            for &y_s in ys.iter().filter(|&&y| y > x_s && y - x_s >= min_len - 1e-9) {
+                visit(Trim { cand: i, x_s, y_s });
             }
-            let c = &cands[i];
-            let min_len = problem.antennas[c.antenna].rules.min_contact_s;
-            let (xs, ys) = trim_points(
-                problem,
-                spans,
-                i,
-                &by_antenna[c.antenna],
-                &by_sat[c.satellite],
-                longest,
-            );
-            let mut trims = Vec::new();
-            for &x_s in &xs {
-                for &y_s in ys.iter().filter(|&&y| y > x_s && y - x_s >= min_len - 1e-9) {
-                    trims.push(Trim { cand: i, x_s, y_s });
-                }
-            }
-            trims
-        })
-        .collect()
+        }
+    }
 }

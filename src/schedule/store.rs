@@ -53,9 +53,15 @@ impl Trace {
         }
     }
 
-    /// Start of the trace: the state at the window start.
-    pub fn begin(st: &SatState) -> Self {
-        let mut trace = Trace::default();
+    /// Start of the trace: the state at the window start, with room for `points` points
+    /// (one per event is the usual count: sized once, the two curves are not grown by
+    /// doubling side by side, which leaves the allocator holes of the size of a year's trace).
+    pub fn begin(st: &SatState, points: usize) -> Self {
+        let mut trace = Trace {
+            fill: Vec::with_capacity(points),
+            kept: Vec::with_capacity(points),
+            lost: Vec::new(),
+        };
         trace.point(st);
         trace
     }
@@ -220,23 +226,27 @@ pub(crate) fn slope_changes(mut points: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
         }
         same
     });
-    let dedup = points;
-    let mut out: Vec<(f64, f64)> = Vec::with_capacity(dedup.len());
-    for (i, &p) in dedup.iter().enumerate() {
-        if i == 0 || i + 1 == dedup.len() {
-            out.push(p);
-            continue;
-        }
-        let a = out[out.len() - 1];
-        let b = dedup[i + 1];
-        let s1 = (p.1 - a.1) / (p.0 - a.0);
-        let s2 = (b.1 - p.1) / (b.0 - p.0);
-        if (s1 - s2).abs() > 1e-9 * s1.abs().max(s2.abs()).max(1e-6) {
-            out.push(p);
+    // Compacted in place too: the point kept last is at `w - 1`, and the next point read lies
+    // beyond every point written.
+    let n = points.len();
+    let mut w = 0;
+    for i in 0..n {
+        let p = points[i];
+        let keep = i == 0 || i + 1 == n || {
+            let a = points[w - 1];
+            let b = points[i + 1];
+            let s1 = (p.1 - a.1) / (p.0 - a.0);
+            let s2 = (b.1 - p.1) / (b.0 - p.0);
+            (s1 - s2).abs() > 1e-9 * s1.abs().max(s2.abs()).max(1e-6)
+        };
+        if keep {
+            points[w] = p;
+            w += 1;
         }
     }
-    out.shrink_to_fit();
-    out
+    points.truncate(w);
+    points.shrink_to_fit();
+    points
 }
 
 #[cfg(test)]
@@ -260,7 +270,7 @@ mod tests {
     fn overflow_loses_the_excess() {
         let s = sat(100.0, 90.0, 10.0);
         let mut st = SatState::start(&s);
-        let mut trace = Trace::begin(&st);
+        let mut trace = Trace::begin(&st, 0);
         advance(&s, &mut st, 5.0, 0.0, Some(&mut trace));
         assert_eq!(
             (st.fill_bits, st.lost_bits, st.delivered_bits),

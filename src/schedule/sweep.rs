@@ -15,9 +15,10 @@ use std::collections::BinaryHeap;
 use super::model::Problem;
 use super::store::{advance_with, SatState};
 
-/// A trim ready for the sweep: candidate, satellite, antenna, span and drain `q = rate * duty`.
-/// The indices are kept compact (40 bytes a trim; a year's plan holds about 20,000 trims);
-/// [`super::model::validate`] refuses a problem they cannot hold.
+/// A trim ready for the sweep: candidate, satellite, antenna and span; its drain
+/// `q = rate * duty` is its candidate's ([`Opt::q_bps`]). The indices are kept compact (32 bytes
+/// a trim; a year's plan holds about 20,000 trims); [`super::model::validate`] refuses a
+/// problem they cannot hold.
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct Opt {
     cand: u32,
@@ -25,7 +26,6 @@ pub(crate) struct Opt {
     antenna: u16,
     pub x_s: f64,
     pub y_s: f64,
-    pub q_bps: f64,
     /// End of the candidate's clipped span: the candidate stays "live" until then.
     pub span_end_s: f64,
 }
@@ -36,7 +36,6 @@ impl Opt {
     pub fn new(
         (cand, sat, antenna): (usize, usize, usize),
         (x_s, y_s): (f64, f64),
-        q_bps: f64,
         span_end_s: f64,
     ) -> Opt {
         Opt {
@@ -45,7 +44,6 @@ impl Opt {
             antenna: antenna as u16,
             x_s,
             y_s,
-            q_bps,
             span_end_s,
         }
     }
@@ -57,6 +55,11 @@ impl Opt {
     }
     pub fn antenna(&self) -> usize {
         self.antenna as usize
+    }
+    /// The drain `rate * duty` of the trim's candidate, bit/s.
+    pub fn q_bps(&self, problem: &Problem) -> f64 {
+        let c = &problem.candidates[self.cand()];
+        c.rate_bps * c.duty
     }
 }
 
@@ -229,7 +232,7 @@ impl Sweep<'_> {
             &self.problem.satellites[o.sat()],
             st,
             o.y_s,
-            o.q_bps,
+            o.q_bps(self.problem),
             &self.profiles[o.sat()],
         );
         let turn = self.problem.antennas[o.antenna()].turnaround_s;
