@@ -320,7 +320,7 @@ impl Search<'_> {
         // starts at the grid point at or just before it (that point covers from Δτ earlier).
         let dtau = PREDICTED_GRID_S;
         let steps = (horizon / dtau).ceil() as usize;
-        let first = ((strict_s / dtau) as usize).min(steps);
+        let first = grid_start(strict_s, dtau, steps);
         cone.first_entry(first as f64 * dtau, dtau, steps - first)
             .map_or(horizon, |j| (first + j) as f64 * dtau)
     }
@@ -636,6 +636,12 @@ impl PredictedCone {
         let dot = c * (ce * pa[0] + se * pa[1] + pa[2]) + sn * (ce * qa[0] + se * qa[1] + qa[2]);
         (bounded_trig::cos(theta) - dot - TRIG_SLACK, dot)
     }
+}
+
+/// Index of the grid point (step `dtau`) at or just before `strict_s`, at most `steps` (0 for a
+/// NaN or negative `strict_s`): the point whose test covers `strict_s` from Δτ before it.
+fn grid_start(strict_s: f64, dtau: f64, steps: usize) -> usize {
+    ((strict_s / dtau) as usize).min(steps)
 }
 
 /// The terms [a0, a1, a2] of v·s(τ) = cos(ω⊕τ) a0 + sin(ω⊕τ) a1 + a2 for a vector v and the
@@ -983,7 +989,9 @@ impl Search<'_> {
     /// sample at [`FLOOR_STEP_S`] (shortened to land just past the AOS that a Newton step on a
     /// rising smooth g predicts, so that the AOS is refined from a near sample). Both are
     /// lengthened to the time the elevation needs to reach the lowest mask elevation at the
-    /// largest angular rate of the line of sight (see `elevation_bound_s`).
+    /// largest angular rate of the line of sight (see `elevation_bound_s`). Inside the cone the
+    /// predicted skip is tested from where those strict bounds end, and taken when it reaches
+    /// past them (a satellite going down after its LOS or past a near miss).
     fn step_below_mask(&self, s: &Sample, lim: &SearchLimits) -> f64 {
         let gamma = s.gamma();
         let local = if lim.e < 0.05 {
@@ -1316,7 +1324,25 @@ impl Iterator for Track<'_> {
 
 #[cfg(test)]
 mod tests {
-    use super::{parabola_root_s, station_terms, PredictedCone, EARTH_ROTATION_RAD_S};
+    use super::{grid_start, parabola_root_s, station_terms, PredictedCone, EARTH_ROTATION_RAD_S};
+
+    /// The predicted skip's grid starts at the point at or just before the end of the strict
+    /// bounds, so no time is left between them (first principles): τ_first <= strict_s <
+    /// τ_first + Δτ, clamped to the horizon's last point, and 0 for NaN, zero or negative.
+    #[test]
+    fn predicted_grid_starts_where_the_strict_bounds_end() {
+        let (dtau, steps) = (3.0, 100);
+        for strict_s in [0.0, 1e-9, 2.999, 3.0, 3.001, 41.7, 60.0, 299.9] {
+            let first = grid_start(strict_s, dtau, steps);
+            assert!(first as f64 * dtau <= strict_s, "{strict_s}: {first}");
+            assert!((first + 1) as f64 * dtau > strict_s, "{strict_s}: {first}");
+        }
+        assert_eq!(grid_start(300.0, dtau, steps), steps);
+        assert_eq!(grid_start(1e9, dtau, steps), steps);
+        assert_eq!(grid_start(f64::INFINITY, dtau, steps), steps);
+        assert_eq!(grid_start(f64::NAN, dtau, steps), 0);
+        assert_eq!(grid_start(-5.0, dtau, steps), 0);
+    }
 
     /// The jumps of `PredictedCone::first_entry` skip only grid points that would fail to
     /// trigger: its answer is the first grid point whose own test triggers, found by testing

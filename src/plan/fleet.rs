@@ -152,6 +152,9 @@ impl ContactPlan {
     }
 
     /// The `k`-th booked contact (in `schedule.contacts`' order: by start, then antenna).
+    ///
+    /// # Panics
+    /// When `k >= self.contact_count()` (a caller's indexing error, not bad input).
     pub fn contact(&self, k: usize) -> BookedContact {
         let b = &self.schedule.contacts[k];
         let extra = &self.booked[k];
