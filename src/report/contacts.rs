@@ -248,26 +248,20 @@ impl ContactDoc {
                 contacts.push(row);
             }
         }
+        let tally = Tally::of(cp, rows.stations.len());
         let satellites = (0..cp.satellites.len())
-            .map(|i| satellite_row(cp, plans, i))
+            .map(|i| satellite_row(cp, plans, &tally, i))
             .collect();
         let station_rows = rows
             .stations
             .iter()
-            .enumerate()
-            .map(|(si, (name, n))| {
-                let booked_s: f64 = cp
-                    .contacts()
-                    .filter(|c| c.station == si)
-                    .map(|c| (c.end - c.start).as_seconds_f64())
-                    .sum();
-                StationRow {
-                    name: name.clone(),
-                    antennas: *n,
-                    contacts: cp.contacts().filter(|c| c.station == si).count(),
-                    booked_s: round(booked_s, 1),
-                    utilization: round(booked_s / (cp.window_s * *n as f64), 4),
-                }
+            .zip(&tally.stations)
+            .map(|((name, n), &(contacts, booked_s))| StationRow {
+                name: name.clone(),
+                antennas: *n,
+                contacts,
+                booked_s: round(booked_s, 1),
+                utilization: round(booked_s / (cp.window_s * *n as f64), 4),
             })
             .collect();
         ContactDoc {
@@ -292,6 +286,39 @@ impl ContactDoc {
     }
 }
 
+/// Per station and per satellite sums over the booked contacts, made in one pass over them (in
+/// their order, so the same sums as a pass per station or satellite).
+struct Tally {
+    /// (contacts, booked seconds) per station.
+    stations: Vec<(usize, f64)>,
+    /// (contacts, delivered bits, booked passes) per satellite.
+    satellites: Vec<(usize, f64, std::collections::HashSet<usize>)>,
+}
+
+impl Tally {
+    fn of(cp: &ContactPlan, n_stations: usize) -> Self {
+        let mut t = Tally {
+            stations: vec![(0, 0.0); n_stations],
+            // (the delivered sum from `Iterator::sum`'s neutral element, as the sum over a
+            // satellite's contacts was taken before: a satellite without contacts keeps its sign)
+            satellites: vec![
+                (0, std::iter::empty::<f64>().sum(), Default::default());
+                cp.satellites.len()
+            ],
+        };
+        for c in cp.contacts() {
+            let st = &mut t.stations[c.station];
+            st.0 += 1;
+            st.1 += (c.end - c.start).as_seconds_f64();
+            let sat = &mut t.satellites[c.satellite];
+            sat.0 += 1;
+            sat.1 += c.volume_bits.round();
+            sat.2.insert(c.pass);
+        }
+        t
+    }
+}
+
 fn bound_row(s: &crate::schedule::Schedule) -> ScheduleBoundRow {
     use crate::schedule::Method;
     ScheduleBoundRow {
@@ -309,13 +336,12 @@ fn bound_row(s: &crate::schedule::Schedule) -> ScheduleBoundRow {
 
 /// Satellite `i`'s passes no antenna booked, each counted once with the reason of its first
 /// candidate (a pass at a station of several antennas has one candidate per antenna).
-fn not_booked(cp: &ContactPlan, i: usize) -> NotBookedCounts {
+fn not_booked(
+    cp: &ContactPlan,
+    i: usize,
+    booked: &std::collections::HashSet<usize>,
+) -> NotBookedCounts {
     use crate::schedule::NotBooked as N;
-    let booked: std::collections::HashSet<usize> = cp
-        .contacts()
-        .filter(|c| c.satellite == i)
-        .map(|c| c.pass)
-        .collect();
     let mut seen = std::collections::HashSet::new();
     let mut row = NotBookedCounts::default();
     for r in &cp.schedule.not_booked {
@@ -362,28 +388,25 @@ fn contact_row(
     }
 }
 
-fn satellite_row(cp: &ContactPlan, plans: &[Plan], i: usize) -> SatelliteRow {
+fn satellite_row(cp: &ContactPlan, plans: &[Plan], tally: &Tally, i: usize) -> SatelliteRow {
+    let (contacts, delivered_bits, booked) = &tally.satellites[i];
     let s = &cp.schedule.satellites[i];
     let followed = cp.followed[i];
     let when = |x: f64| followed.then_some(x.round());
     let latency = followed && !s.latencies_s.is_empty();
-    let n = not_booked(cp, i);
+    let n = not_booked(cp, i, booked);
     SatelliteRow {
         name: cp.satellites[i].clone(),
         priority: cp.priority[i],
         onboard_followed: followed,
         generated_bits: when(s.generated_bits),
-        delivered_bits: cp
-            .contacts()
-            .filter(|c| c.satellite == i)
-            .map(|c| c.volume_bits.round())
-            .sum(),
+        delivered_bits: *delivered_bits,
         lost_bits: when(s.lost_bits),
         storage_peak_bits: when(s.storage_peak_bits),
         final_fill_bits: when(s.final_fill_bits),
         max_latency_s: latency.then_some(round(s.max_latency_s, 1)),
         median_latency_s: latency.then_some(round(s.median_latency_s, 1)),
-        contacts: cp.contacts().filter(|c| c.satellite == i).count(),
+        contacts: *contacts,
         unconstrained_volume_bits: plans[i].totals.volume_bits.round(),
         not_booked: n.below_min_peak_elevation
             + n.blocked
