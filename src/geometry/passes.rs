@@ -25,8 +25,8 @@
 //!      turning Earth, less a margin growing as 0.5° + (4e + 0.01) × (angle travelled) plus
 //!      ω_max × Δτ between grid points (Δτ = 3 s; the grid points that cannot trigger are
 //!      jumped over by a strict bound on γ - θ, so the test costs a few evaluations of the
-//!      prediction, not one per grid point). The cone of this test is γc for the largest radius the
-//!      satellite can reach within the horizon, the sample's radius plus 2 a (e + 0.002) + 5 km
+//!      prediction, not one per grid point). The cone of this test is γc for the largest
+//!      radius the satellite can reach within the horizon, the sample's radius plus 2 a (e + 0.002) + 5 km
 //!      (perigee to apogee, a change of e from long-period terms and drag, SGP4's short-period
 //!      radial term of amplitude k2 / 2p ≈ 1.6 km in LEO), at most r_max (see `local_cone`,
 //!      `predicted_skip`). Its safety is checked in tests/passes_search.rs against 1 s scans over
@@ -315,9 +315,9 @@ impl Search<'_> {
         // One grid of 3 s: its slack ω_max Δτ is 0.2 deg for a LEO, and the jumps over the
         // grid points that cannot pass (see `PredictedCone::first_entry`) make a fine grid
         // cost about what a coarse one would. Point i covers [τ_i - Δτ, τ_i + Δτ], so the
-        // satellite stays out of the cone until the first point that fails.
-        // The strict bounds keep the satellite below the mask until `strict_s`: the test
-        // starts at the grid point at or just before it (that point covers from Δτ earlier).
+        // satellite stays out of the cone until the first point that fails. The strict bounds
+        // keep it below the mask until `strict_s`, so the test starts at the grid point at or
+        // just before that.
         let dtau = PREDICTED_GRID_S;
         let steps = (horizon / dtau).ceil() as usize;
         let first = grid_start(strict_s, dtau, steps);
@@ -1389,11 +1389,21 @@ mod tests {
             let dtau = [3.0, 3.0, 10.0, 30.0][case % 4];
             let steps = (9000.0 / dtau) as usize;
             let theta0 = cone.theta0(dtau);
-            let scan = (0..=steps).find(|&i| {
+            let fires = |i: usize| {
                 let (margin, _) = cone.margin_at(i as f64 * dtau, theta0);
                 margin <= 0.0 || margin.is_nan()
-            });
+            };
+            let scan = (0..=steps).find(|&i| fires(i));
             assert_eq!(cone.first_entry(0.0, dtau, steps), scan, "case {case}");
+            // and from a later grid point, as after the strict bounds
+            let first = case % 97;
+            let later = (first..=steps).find(|&i| fires(i));
+            assert_eq!(
+                cone.first_entry(first as f64 * dtau, dtau, steps - first)
+                    .map(|j| first + j),
+                later,
+                "case {case} from {first}"
+            );
             triggered += usize::from(scan.is_some_and(|i| i > 0));
             jumped += usize::from(scan.is_none());
         }
