@@ -346,11 +346,17 @@ proptest! {
         prop_assert!(hi.total_db <= lo.total_db + tol(lo.total_db));
     }
 
+    // P.618-14 step 10 scales A0.01 by (p/0.01)^-z with z = 0.655 + 0.033 ln p - 0.045 ln A0.01
+    // - β (1 - p) sin θ: below 0.01 %, at low elevation and high A0.01, z falls towards 0 and
+    // A_p can fall slightly as p falls (61.46 -> 61.17 dB from 0.0012 % to 0.0011 % at 15 deg,
+    // 41 GHz, 82 mm/h on the equator; found by this test, a property of the model). From
+    // 0.01 % up, z > 0 (for A0.01 below about 400 dB) and d ln A_p / d ln p =
+    // -z - (0.033 + β p sin θ) ln(p/0.01) < 0, so the property holds there.
     #[test]
     fn rain_grows_as_exceedance_falls(s in arb_site(), p in arb_path(), el in 0.0..90.0f64,
-                                      pct in 0.001..5.0f64, factor in 1.1..10.0f64) {
+                                      pct in 0.011..5.0f64, factor in 1.1..10.0f64) {
         let prep = PreparedAtmosphere::new(&s, &p).unwrap();
-        let rarer = prep.at(el, Weather::Exceedance { percent: pct / factor });
+        let rarer = prep.at(el, Weather::Exceedance { percent: (pct / factor).max(0.01) });
         let more_often = prep.at(el, Weather::Exceedance { percent: pct });
         prop_assert!(rarer.rain_db >= more_often.rain_db, "{rarer:?} {more_often:?}");
         prop_assert!(rarer.total_db >= more_often.total_db);
