@@ -270,29 +270,26 @@ pub fn no_pass_notes(
         .collect()
 }
 
+/// Most passes [`sun_note`] names one by one; beyond it the note gives the count and the worst.
+pub const SUN_NOTE_LISTED: usize = 5;
+
 /// What the Sun did to the window's passes, in one line: the passes where it raised the system
-/// noise temperature by more than [`SUN_DEGRADED_RISE_DB`], else its closest approach to a beam.
-/// `None` for a plan without passes.
+/// noise temperature by more than [`SUN_DEGRADED_RISE_DB`] ([`degraded_note`]), else its closest
+/// approach to a beam. `None` for a plan without passes.
 pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String> {
     let name = |p: &PassPlan| stations[p.station_index].station.name.as_str();
-    let degraded: Vec<String> = passes
+    let degraded: Vec<SunDegraded> = passes
         .iter()
         .filter(|p| p.bodies.sun_degraded_s > 0.0)
-        .map(|p| {
-            format!(
-                "pass {} ({}, {:.0} s, up to {:.0} K)",
-                p.number,
-                name(p),
-                p.bodies.sun_degraded_s,
-                p.bodies.max_sun_noise_k
-            )
+        .map(|p| SunDegraded {
+            number: p.number,
+            station: name(p),
+            degraded_s: p.bodies.sun_degraded_s,
+            max_sun_noise_k: p.bodies.max_sun_noise_k,
         })
         .collect();
     if !degraded.is_empty() {
-        return Some(format!(
-            "Sun: raises the system noise temperature by more than {SUN_DEGRADED_RISE_DB} dB in {}",
-            degraded.join(", ")
-        ));
+        return Some(degraded_note(degraded));
     }
     let closest = passes
         .iter()
@@ -307,9 +304,80 @@ pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String
     ))
 }
 
+/// A pass in which the Sun degrades steps, for [`degraded_note`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct SunDegraded<'a> {
+    pub number: usize,
+    pub station: &'a str,
+    pub degraded_s: f64,
+    pub max_sun_noise_k: f64,
+}
+
+/// The Sun note of passes it degrades (in pass order): each of them up to [`SUN_NOTE_LISTED`];
+/// beyond it their count and time in all, then the [`SUN_NOTE_LISTED`] of highest noise (in pass
+/// order), so that a year's note stays one readable line.
+pub fn degraded_note(mut degraded: Vec<SunDegraded>) -> String {
+    let count = degraded.len();
+    let total_s: f64 = degraded.iter().map(|p| p.degraded_s).sum();
+    if count > SUN_NOTE_LISTED {
+        degraded.sort_by(|a, b| b.max_sun_noise_k.total_cmp(&a.max_sun_noise_k));
+        degraded.truncate(SUN_NOTE_LISTED);
+        degraded.sort_by_key(|p| p.number);
+    }
+    let listed: Vec<String> = degraded
+        .iter()
+        .map(|p| {
+            format!(
+                "pass {} ({}, {:.0} s, up to {:.0} K)",
+                p.number, p.station, p.degraded_s, p.max_sun_noise_k
+            )
+        })
+        .collect();
+    let rise = format!(
+        "Sun: raises the system noise temperature by more than {SUN_DEGRADED_RISE_DB} dB in"
+    );
+    if count > SUN_NOTE_LISTED {
+        format!(
+            "{rise} {count} passes ({total_s:.0} s in all; `sun-transits` lists each), the highest in {}",
+            listed.join(", ")
+        )
+    } else {
+        format!("{rise} {}", listed.join(", "))
+    }
+}
+
 #[cfg(test)]
 mod tests {
-    use super::round_up_mask_deg;
+    use super::{degraded_note, round_up_mask_deg, SunDegraded, SUN_NOTE_LISTED};
+
+    fn degraded(number: usize, degraded_s: f64, max_sun_noise_k: f64) -> SunDegraded<'static> {
+        SunDegraded {
+            number,
+            station: "Alpha",
+            degraded_s,
+            max_sun_noise_k,
+        }
+    }
+
+    /// Up to five degraded passes are each named in pass order; beyond five, the note gives
+    /// their count and time in all and names the five of highest noise, still in pass order.
+    #[test]
+    fn sun_note_names_each_pass_up_to_five_then_the_worst() {
+        let few: Vec<_> = (1..=SUN_NOTE_LISTED)
+            .map(|k| degraded(k, 2.0, 10.0 * k as f64))
+            .collect();
+        let note = degraded_note(few);
+        assert!(note.ends_with("in pass 1 (Alpha, 2 s, up to 10 K), pass 2 (Alpha, 2 s, up to 20 K), pass 3 (Alpha, 2 s, up to 30 K), pass 4 (Alpha, 2 s, up to 40 K), pass 5 (Alpha, 2 s, up to 50 K)"), "{note}");
+        let noise_k = [30.0, 900.0, 5.0, 700.0, 60.0, 800.0, 1.0, 1000.0];
+        let many: Vec<_> = noise_k
+            .iter()
+            .enumerate()
+            .map(|(i, &k)| degraded(10 * (i + 1), 3.0, k))
+            .collect();
+        let note = degraded_note(many);
+        assert!(note.contains("in 8 passes (24 s in all;"), "{note}");
+        assert!(note.ends_with("the highest in pass 20 (Alpha, 3 s, up to 900 K), pass 40 (Alpha, 3 s, up to 700 K), pass 50 (Alpha, 3 s, up to 60 K), pass 60 (Alpha, 3 s, up to 800 K), pass 80 (Alpha, 3 s, up to 1000 K)"), "{note}");
+    }
 
     /// The one rounding rule of the usable masks: up to the next 0.1 deg, an elevation already on
     /// the grid unchanged (also when computed with floating-point noise).
