@@ -631,9 +631,17 @@ fn print_usable_masks(
             } else {
                 "closes, but for less than the dwell time".into()
             };
+            let sun = if f.sun_degraded_s > 0.0 {
+                format!(
+                    " (the Sun raises the noise by more than 1 dB for {:.0} s of this pass)",
+                    f.sun_degraded_s
+                )
+            } else {
+                String::new()
+            };
             writeln!(
                 out,
-                "  {} {} {}: pass {} ({}) at {} el {:.2} deg: {how}",
+                "  {} {} {}: pass {} ({}) at {} el {:.2} deg: {how}{sun}",
                 f.station,
                 engfmt::rate(f.rate_bps),
                 f.scheme,

@@ -282,6 +282,9 @@ pub struct MaskFailureRow {
     /// or above it, the step closed but its run was shorter than the dwell time).
     pub margin_db: f64,
     pub required_margin_db: f64,
+    /// Seconds of the pass in which the Sun raises the system noise temperature by more than
+    /// 1 dB (its pass row's `sun_degraded_s`): a failure high in the sky is often the Sun's.
+    pub sun_degraded_s: f64,
 }
 
 impl MaskFailureRow {
@@ -305,6 +308,7 @@ impl MaskFailureRow {
                     elevation_deg: round(f.step.elevation_deg, 3),
                     margin_db: round(f.step.margin_db, 3),
                     required_margin_db: planner.rates().required_margin_db,
+                    sun_degraded_s: pass.map_or(0.0, |p| round(p.bodies.sun_degraded_s, 3)),
                 });
             }
         }

@@ -335,6 +335,12 @@ fn the_robust_mask_holds_on_its_share_of_passes() {
             assert!(f["elevation_deg"].as_f64().unwrap() > robust, "{f}");
         }
     }
+    // Each failure carries its pass's Sun time, the pass row's `sun_degraded_s`.
+    let rows = d["passes"].as_array().unwrap();
+    for f in failures {
+        let row = rows.iter().find(|p| p["number"] == f["pass"]).unwrap();
+        assert_eq!(f["sun_degraded_s"], row["sun_degraded_s"], "{f}");
+    }
     assert!(
         looser > 0,
         "the 95 % mask should be below the strict one somewhere"

@@ -116,6 +116,29 @@ fn budget_at_the_transit_agrees_with_the_plan() {
         err.contains("note: Sun: raises the system noise temperature by more than 1 dB in pass 16 (Sierra Baja"),
         "{err}"
     );
+    // The transit makes pass 16 fail above Sierra Baja's robust masks; its failures carry the
+    // pass's Sun time (the pass row's), which the table names.
+    let d = json(&out);
+    let row = &d["passes"].as_array().unwrap()[15];
+    assert_eq!(row["number"], 16);
+    assert!(row["sun_degraded_s"].as_f64().unwrap() > 5.0, "{row}");
+    let failures: Vec<&serde_json::Value> = d["mask_failures"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter(|f| f["pass"] == 16)
+        .collect();
+    assert!(!failures.is_empty());
+    for f in failures {
+        assert_eq!(f["sun_degraded_s"], row["sun_degraded_s"], "{f}");
+    }
+    let table = run(&["plan", EXAMPLE]);
+    let text = String::from_utf8_lossy(&table.stdout);
+    assert!(
+        text.lines().any(|l| l.contains("pass 16 (sierra-baja-")
+            && l.ends_with("(the Sun raises the noise by more than 1 dB for 11 s of this pass)")),
+        "{text}"
+    );
 }
 
 /// An observed solar flux (station key `solar_flux_sfu`) replaces the quiet Sun: the Rayleigh-Jeans
