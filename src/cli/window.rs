@@ -171,7 +171,32 @@ impl WindowArgs {
                 days: None,
             };
         }
-        Planner::new(&mission, &request).map_err(|e| name_flag(e, &request, path, overrides))
+        let planner = Planner::new(&mission, &request)
+            .map_err(|e| name_flag(e, &request, path, overrides))?;
+        self.named_the_one_satellite(&mission, planner.elements())?;
+        Ok(planner)
+    }
+
+    /// `--satellite` on a mission of one satellite must name it: by the mission file's name, the
+    /// element set's name or its catalog number (a mistyped name is not silently planned).
+    fn named_the_one_satellite(
+        &self,
+        mission: &Mission,
+        elements: &passbudget::orbit::ElementSet,
+    ) -> Result<()> {
+        let (Some(n), [s]) = (&self.satellite, mission.satellites.as_slice()) else {
+            return Ok(());
+        };
+        let names = [s.name.as_deref(), elements.name.as_deref()];
+        let named = names.iter().flatten().any(|m| same_station(n, m))
+            || n.trim() == elements.norad_id.to_string();
+        if !named {
+            bail!(
+                "--satellite {n}: the mission's one satellite is {}",
+                s.name.clone().unwrap_or_else(|| elements.label())
+            );
+        }
+        Ok(())
     }
 }
 

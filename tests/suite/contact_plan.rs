@@ -360,6 +360,38 @@ fn a_fleet_needs_a_satellite_for_single_satellite_commands() {
         .unwrap()
         .iter()
         .all(|p| p["satellite"] == "KESTREL-C"));
+    clean_error(
+        &run(&["plan", FLEET, "--satellite", "kestrel-x", "--days", "1"]),
+        &["--satellite kestrel-x", "not a satellite of the mission"],
+    );
+}
+
+/// On a mission of one satellite, `--satellite` must name it (the element set's name, any case,
+/// or its catalog number): a mistyped name is an error, not the one satellite's plan.
+#[test]
+fn a_single_satellite_mission_checks_the_satellite_named() {
+    let example = SINGLE;
+    for name in ["WRENLET-1", "wrenlet-1", "99901"] {
+        let doc = json(&run(&[
+            "plan",
+            example,
+            "--satellite",
+            name,
+            "--days",
+            "1",
+            "--format",
+            "json",
+            "--quiet",
+        ]));
+        assert_eq!(doc["satellite"], "WRENLET-1", "{name}");
+    }
+    clean_error(
+        &run(&["plan", example, "--satellite", "WRENLET-2", "--days", "1"]),
+        &[
+            "--satellite WRENLET-2",
+            "the mission's one satellite is WRENLET-1 (99901)",
+        ],
+    );
 }
 
 /// A satellite that gets no contact, and a store that overflows, are results: the run succeeds,
