@@ -633,7 +633,8 @@ fn print_usable_masks(
             };
             let sun = if f.sun_degraded_s > 0.0 {
                 format!(
-                    " (the Sun raises the noise by more than 1 dB for {:.0} s of this pass)",
+                    " (the Sun raises the noise by more than {} dB for {:.0} s of this pass)",
+                    passbudget::plan::results::SUN_DEGRADED_RISE_DB,
                     f.sun_degraded_s
                 )
             } else {
