@@ -275,7 +275,7 @@ pub const SUN_NOTE_LISTED: usize = 5;
 
 /// What the Sun did to the window's passes, in one line: the passes where it raised the system
 /// noise temperature by more than [`SUN_DEGRADED_RISE_DB`] ([`degraded_note`]), else its closest
-/// approach to a beam. `None` for a plan without passes.
+/// approach to a beam. `None` for a plan without passes, or where the Sun is not modelled.
 pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String> {
     let name = |p: &PassPlan| stations[p.station_index].station.name.as_str();
     let degraded: Vec<SunDegraded> = passes
@@ -291,8 +291,12 @@ pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String
     if !degraded.is_empty() {
         return Some(degraded_note(degraded));
     }
+    // Where the Sun's noise is not modelled (the frequency is outside its figure: a warning says
+    // so) its closest approach would read as harmless: such stations' passes are left out.
+    let modelled = |p: &&PassPlan| !stations[p.station_index].bodies.warnings().sun_not_modelled;
     let closest = passes
         .iter()
+        .filter(modelled)
         .filter_map(|p| p.bodies.min_sun_separation_deg.map(|d| (d, p)))
         .min_by(|a, b| a.0.total_cmp(&b.0))?;
     let (d, p) = closest;

@@ -198,6 +198,25 @@ fn quiet_sun_agrees_with_a_measured_level_to_thirty_per_cent() {
     assert!((t / 8100.0 - 1.0).abs() < 0.30, "{t} K");
 }
 
+/// Below the quiet-Sun figure's 0.05 GHz the Sun's noise is not modelled: the warning says so,
+/// and the plan's Sun note does not add that the Sun "raises no step" by 1 dB (at 8212.5 MHz the
+/// same window's pass 16 is degraded, the note above).
+#[test]
+fn no_sun_note_where_the_sun_is_not_modelled() {
+    let out = run(&[
+        "plan",
+        EXAMPLE,
+        "--days",
+        "1",
+        "--set",
+        "transmitter.frequency_mhz=30",
+    ]);
+    success(&out);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("the Sun's noise is not modelled"), "{err}");
+    assert!(!err.contains("note: Sun:"), "{err}");
+}
+
 /// An invented near-geostationary satellite (mean motion 1.0027 rev/day, i = 0.05 deg) over an
 /// invented station at 40 deg N under it, and a copy of the example mission planning them from
 /// 2027-02-10 for 40 days (5 s steps). Returns the mission's path.
