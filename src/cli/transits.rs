@@ -3,7 +3,7 @@
 use crate::cli::common::{note, warn, Format};
 use crate::cli::table::{Align, Table};
 use crate::cli::window::WindowArgs;
-use anyhow::Result;
+use anyhow::{bail, Result};
 use passbudget::plan::transits::{near_geostationary, outage_seasons, TransitSink};
 use passbudget::report::to_csv;
 use passbudget::report::transits::{SeasonRow, TransitRow};
@@ -22,6 +22,18 @@ pub struct TransitsArgs {
 /// `passbudget sun-transits`.
 pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
     let planner = a.window.planner(false)?;
+    let unmodelled: Vec<&str> = planner
+        .stations()
+        .iter()
+        .filter(|s| s.bodies.warnings().sun_not_modelled)
+        .map(|s| s.station.name.as_str())
+        .collect();
+    if unmodelled.len() == planner.stations().len() {
+        bail!(
+            "sun-transits: the Sun's noise is not modelled at {} at any station (the quiet-Sun figure, ITU-R P.372-14 Fig. 12, covers 0.05-100 GHz; a station's solar_flux_sfu gives it at any frequency), so no transit can be found",
+            passbudget::engfmt::frequency_mhz(planner.frequency_hz())
+        );
+    }
     let sink = TransitSink::new();
     let plan = planner.run(&sink)?;
     warn(&plan.warnings);
@@ -61,6 +73,13 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
         Format::Csv => write!(out, "{}", to_csv(&rows, &plan.warnings)?)?,
         Format::Table => {
             print_table(&rows, seasons.as_deref(), out)?;
+            if !unmodelled.is_empty() {
+                writeln!(
+                    out,
+                    "The Sun's noise is not modelled at {} (frequency outside 0.05-100 GHz): no transit is looked for there.",
+                    unmodelled.join(", ")
+                )?;
+            }
             writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
         }
     }

@@ -215,6 +215,18 @@ fn no_sun_note_where_the_sun_is_not_modelled() {
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(err.contains("the Sun's noise is not modelled"), "{err}");
     assert!(!err.contains("note: Sun:"), "{err}");
+    // sun-transits cannot look for transits there: an error, not "no transit".
+    crate::common::bin::clean_error(
+        &run(&[
+            "sun-transits",
+            EXAMPLE,
+            "--days",
+            "1",
+            "--set",
+            "transmitter.frequency_mhz=30",
+        ]),
+        &["not modelled at 30 MHz at any station", "0.05-100 GHz"],
+    );
 }
 
 /// An invented near-geostationary satellite (mean motion 1.0027 rev/day, i = 0.05 deg) over an
