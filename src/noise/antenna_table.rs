@@ -69,9 +69,22 @@ impl AntennaNoise {
 #[derive(Debug, Clone, PartialEq)]
 pub struct Brightness {
     /// Sky brightness at s_i = i / N (sin el = s^2), K.
-    sky: Vec<f64>,
+    sky: Profile,
     /// Ground brightness at the mirror elevations, K.
-    ground: Vec<f64>,
+    ground: Profile,
+}
+
+/// A brightness profile over s = sqrt(|sin el|), nodes 0..=[`PROFILE_NODES`] (a fixed length, so
+/// the lookups of [`ProfileNode`], whose node is below [`PROFILE_NODES`], need no bounds check).
+type Profile = Box<[f64; PROFILE_NODES + 1]>;
+
+/// The profile of `f(i)` at nodes i = 0..=[`PROFILE_NODES`].
+fn profile(mut f: impl FnMut(usize) -> f64) -> Profile {
+    let mut p = Box::new([0.0; PROFILE_NODES + 1]);
+    for (i, v) in p.iter_mut().enumerate() {
+        *v = f(i);
+    }
+    p
 }
 
 /// What the ground looks like to the antenna.
@@ -87,18 +100,13 @@ impl Brightness {
     /// Tabulate the sky brightness from `sky_k(elevation_deg)` (0-90 deg) and the ground.
     pub fn new(sky_k: impl Fn(f64) -> f64, ground: GroundSpec) -> Self {
         let n = PROFILE_NODES;
-        let sky: Vec<f64> = (0..=n)
-            .map(|i| {
-                let s = i as f64 / n as f64;
-                sky_k((s * s).clamp(0.0, 1.0).asin().to_degrees())
-            })
-            .collect();
+        let sky = profile(|i| {
+            let s = i as f64 / n as f64;
+            sky_k((s * s).clamp(0.0, 1.0).asin().to_degrees())
+        });
         let e = ground.emissivity;
         // Tb = e Tg + (1 - e) Tsky(-el)
-        let ground = sky
-            .iter()
-            .map(|t| e * ground.temperature_k + (1.0 - e) * t)
-            .collect();
+        let ground = profile(|i| e * ground.temperature_k + (1.0 - e) * sky[i]);
         Self { sky, ground }
     }
 
@@ -132,24 +140,26 @@ impl Brightness {
     pub fn raised(&self, h_deg: f64) -> Self {
         let n = PROFILE_NODES;
         let h = h_deg.max(0.0);
+        if h == 0.0 {
+            return self.clone();
+        }
         let terrain_k = self.ground[0];
-        let mut sky = Vec::with_capacity(n + 1);
-        let mut ground = Vec::with_capacity(n + 1);
-        for i in 0..=n {
+        let elevation_deg = |i: usize| {
             let s = i as f64 / n as f64;
-            let e = (s * s).clamp(0.0, 1.0).asin().to_degrees();
-            if h == 0.0 {
-                sky.push(self.sky[i]);
-                ground.push(self.ground[i]);
-                continue;
-            }
-            sky.push(self.side_at((e + h).min(90.0).to_radians().sin(), false));
-            ground.push(if e <= h {
+            (s * s).clamp(0.0, 1.0).asin().to_degrees()
+        };
+        let sky = profile(|i| {
+            let e = elevation_deg(i);
+            self.side_at((e + h).min(90.0).to_radians().sin(), false)
+        });
+        let ground = profile(|i| {
+            let e = elevation_deg(i);
+            if e <= h {
                 terrain_k
             } else {
                 self.side_at(-(e - h).to_radians().sin(), true)
-            });
-        }
+            }
+        });
         Self { sky, ground }
     }
 
