@@ -69,9 +69,22 @@ impl AntennaNoise {
 #[derive(Debug, Clone, PartialEq)]
 pub struct Brightness {
     /// Sky brightness at s_i = i / N (sin el = s^2), K.
-    sky: Vec<f64>,
+    sky: Profile,
     /// Ground brightness at the mirror elevations, K.
-    ground: Vec<f64>,
+    ground: Profile,
+}
+
+/// A brightness profile over s = sqrt(|sin el|), nodes 0..=[`PROFILE_NODES`] (a fixed length, so
+/// the lookups of [`ProfileNode`], whose node is below [`PROFILE_NODES`], need no bounds check).
+type Profile = Box<[f64; PROFILE_NODES + 1]>;
+
+/// The profile of `f(i)` at nodes i = 0..=[`PROFILE_NODES`].
+fn profile(mut f: impl FnMut(usize) -> f64) -> Profile {
+    let mut p = Box::new([0.0; PROFILE_NODES + 1]);
+    for (i, v) in p.iter_mut().enumerate() {
+        *v = f(i);
+    }
+    p
 }
 
 /// What the ground looks like to the antenna.
@@ -87,18 +100,13 @@ impl Brightness {
     /// Tabulate the sky brightness from `sky_k(elevation_deg)` (0-90 deg) and the ground.
     pub fn new(sky_k: impl Fn(f64) -> f64, ground: GroundSpec) -> Self {
         let n = PROFILE_NODES;
-        let sky: Vec<f64> = (0..=n)
-            .map(|i| {
-                let s = i as f64 / n as f64;
-                sky_k((s * s).clamp(0.0, 1.0).asin().to_degrees())
-            })
-            .collect();
+        let sky = profile(|i| {
+            let s = i as f64 / n as f64;
+            sky_k((s * s).clamp(0.0, 1.0).asin().to_degrees())
+        });
         let e = ground.emissivity;
         // Tb = e Tg + (1 - e) Tsky(-el)
-        let ground = sky
-            .iter()
-            .map(|t| e * ground.temperature_k + (1.0 - e) * t)
-            .collect();
+        let ground = profile(|i| e * ground.temperature_k + (1.0 - e) * sky[i]);
         Self { sky, ground }
     }
 
@@ -111,12 +119,17 @@ impl Brightness {
     /// the mirror of min(el, 0)) toward sin el = `u`.
     #[inline]
     pub fn side_at(&self, u: f64, ground: bool) -> f64 {
-        let v = if ground { -u.min(0.0) } else { u.max(0.0) };
-        let x = v.min(1.0).sqrt() * PROFILE_NODES as f64;
-        let i = (x as usize).min(PROFILE_NODES - 1);
-        let f = x - i as f64;
+        self.side_node(ProfileNode::of(u, ground), ground)
+    }
+
+    /// [`Self::side_at`] at a direction whose place in the profile is already worked out (the
+    /// same for every brightness: a direction looked up in several weather cases or raised
+    /// horizons finds it once); value for value the same.
+    #[inline]
+    pub(crate) fn side_node(&self, n: ProfileNode, ground: bool) -> f64 {
         let table = if ground { &self.ground } else { &self.sky };
-        table[i] + f * (table[i + 1] - table[i])
+        let (a, b) = (table[n.i], table[n.i + 1]);
+        a + n.f * (b - a)
     }
 
     /// The same surroundings seen from a frame whose horizon is raised by `h_deg`: toward an
@@ -127,24 +140,26 @@ impl Brightness {
     pub fn raised(&self, h_deg: f64) -> Self {
         let n = PROFILE_NODES;
         let h = h_deg.max(0.0);
+        if h == 0.0 {
+            return self.clone();
+        }
         let terrain_k = self.ground[0];
-        let mut sky = Vec::with_capacity(n + 1);
-        let mut ground = Vec::with_capacity(n + 1);
-        for i in 0..=n {
+        let elevation_deg = |i: usize| {
             let s = i as f64 / n as f64;
-            let e = (s * s).clamp(0.0, 1.0).asin().to_degrees();
-            if h == 0.0 {
-                sky.push(self.sky[i]);
-                ground.push(self.ground[i]);
-                continue;
-            }
-            sky.push(self.side_at((e + h).min(90.0).to_radians().sin(), false));
-            ground.push(if e <= h {
+            (s * s).clamp(0.0, 1.0).asin().to_degrees()
+        };
+        let sky = profile(|i| {
+            let e = elevation_deg(i);
+            self.side_at((e + h).min(90.0).to_radians().sin(), false)
+        });
+        let ground = profile(|i| {
+            let e = elevation_deg(i);
+            if e <= h {
                 terrain_k
             } else {
                 self.side_at(-(e - h).to_radians().sin(), true)
-            });
-        }
+            }
+        });
         Self { sky, ground }
     }
 
@@ -157,6 +172,27 @@ impl Brightness {
         let f = x - i as f64;
         let table = if u < 0.0 { &self.ground } else { &self.sky };
         (table[i] + f * (table[i + 1] - table[i]), u < 0.0)
+    }
+}
+
+/// Where a direction (sin el = `u`) falls in a [`Brightness`]'s profile of the sky or the ground
+/// side: node `i` and the fraction `f` toward node `i + 1`. It depends on `u` only, not on the
+/// brightness.
+#[derive(Debug, Clone, Copy, Default)]
+pub(crate) struct ProfileNode {
+    i: usize,
+    f: f64,
+}
+
+impl ProfileNode {
+    /// The place of sin el = `u` on the sky side (`ground` false: elevation max(el, 0)) or the
+    /// ground side (the mirror of min(el, 0)).
+    #[inline]
+    pub(crate) fn of(u: f64, ground: bool) -> Self {
+        let v = if ground { -u.min(0.0) } else { u.max(0.0) };
+        let x = v.min(1.0).sqrt() * PROFILE_NODES as f64;
+        let i = (x as usize).min(PROFILE_NODES - 1);
+        Self { i, f: x - i as f64 }
     }
 }
 
@@ -217,15 +253,15 @@ fn ring_part(
     out: &mut [AntennaNoise],
 ) {
     let half = 0.5 * (hi - lo);
-    let mut u = [0.0; 8];
+    let mut nodes = [ProfileNode::default(); 8];
     for (k, (x, _)) in GL8.iter().enumerate() {
         let phi = lo + half * (1.0 + x);
-        u[k] = a0 + b0 * phi.cos();
+        nodes[k] = ProfileNode::of(a0 + b0 * phi.cos(), ground);
     }
     for (b, o) in bs.iter().zip(out.iter_mut()) {
         let mut acc = 0.0;
         for (k, (_, wk)) in GL8.iter().enumerate() {
-            acc += wk * b.side_at(u[k], ground);
+            acc += wk * b.side_node(nodes[k], ground);
         }
         let t = acc * half / std::f64::consts::PI;
         if ground {
@@ -307,10 +343,14 @@ pub(crate) fn integrate_many(
         let sky_share = band_sky_share(lo, hi, e_rad, tan_e, &rings.band_nodes);
         if sky_share >= 1.0 || sky_share <= 0.0 {
             let ground = sky_share <= 0.0;
+            let mut nodes = [ProfileNode::default(); 8];
+            for (n, cos_phi) in nodes.iter_mut().zip(rings.cos_phi) {
+                *n = ProfileNode::of(a + c * cos_phi, ground);
+            }
             for (b, o) in bs.iter().zip(out.iter_mut()) {
                 let mut acc = 0.0;
                 for (k, (_, wk)) in GL8.iter().enumerate() {
-                    acc += wk * b.side_at(a + c * rings.cos_phi[k], ground);
+                    acc += wk * b.side_node(nodes[k], ground);
                 }
                 // (1/pi) ∫_0^pi = (1/2) Σ w_k Tb(phi_k)
                 let t = 0.5 * acc;
