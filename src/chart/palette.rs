@@ -171,7 +171,7 @@ pub fn quantize_into(rgb: &[u8], indices: &mut Vec<u8>) -> Vec<u8> {
 }
 
 /// The index of the palette colour nearest to `c` (squared RGB distance; the first on a tie).
-fn nearest(palette: &[u32], c: u32) -> u8 {
+pub(super) fn nearest(palette: &[u32], c: u32) -> u8 {
     let d = |p: u32| {
         let ch = |s: u32| ((p >> s) & 0xff) as i32 - ((c >> s) & 0xff) as i32;
         ch(16).pow(2) + ch(8).pow(2) + ch(0).pow(2)
