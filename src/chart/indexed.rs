@@ -12,6 +12,7 @@
 //! an RGB buffer, so the PNG bytes are the same (`tests`: every chart drawn both ways).
 
 use super::palette::{nearest, PALETTE_MAX};
+use super::scanline::{self, Scratch};
 use plotters_backend::{
     BackendColor, BackendCoord, BackendStyle, DrawingBackend, DrawingErrorKind,
 };
@@ -139,7 +140,14 @@ impl Colours {
     /// with the nearest of them. Returns the palette as RGB triples.
     pub fn to_palette(&self, pixels: &[u16], out: &mut Vec<u8>) -> Vec<u8> {
         let mut counts = vec![0u32; self.rgb.len().max(1)];
-        count_pixels(pixels, &mut counts);
+        // The image is read once: its runs are kept for the indexed image.
+        let mut all_runs: Vec<(u16, u32)> = Vec::with_capacity(pixels.len() / 64);
+        runs(pixels, |p, n| {
+            if let Some(c) = counts.get_mut(usize::from(p)) {
+                *c += n;
+            }
+            all_runs.push((p, n));
+        });
         let mut by_count: Vec<(u32, u32, u16)> = counts
             .iter()
             .enumerate()
@@ -157,34 +165,46 @@ impl Colours {
             };
         }
         out.clear();
-        out.extend(
-            pixels
-                .iter()
-                .map(|&p| map.get(usize::from(p)).copied().unwrap_or(0)),
-        );
+        out.resize(pixels.len(), 0);
+        let mut at = 0;
+        for (p, n) in all_runs {
+            let (v, n) = (map.get(usize::from(p)).copied().unwrap_or(0), n as usize);
+            if n <= 16 && at + 16 <= out.len() {
+                // A short run (edges, text): one 16-byte store, the bytes past the run
+                // overwritten by the runs after it; no call to memset.
+                let block: &mut [u8; 16] = (&mut out[at..at + 16]).try_into().expect("16 bytes");
+                *block = [v; 16];
+            } else {
+                out[at..at + n].fill(v);
+            }
+            at += n;
+        }
         kept.iter()
             .flat_map(|&c| [(c >> 16) as u8, (c >> 8) as u8, c as u8])
             .collect()
     }
 }
 
-/// Adds the pixels of each index to `counts` (as long as the table); eight equal pixels at a
-/// time where they repeat the one before them.
-fn count_pixels(pixels: &[u16], counts: &mut [u32]) {
+/// Calls `f(index, run length)` for each run of equal pixels; eight pixels at a time where they
+/// repeat the one before them (most of a chart is long runs).
+fn runs(pixels: &[u16], mut f: impl FnMut(u16, u32)) {
     let n = pixels.len();
     let mut i = 0;
     while i < n {
         let p = pixels[i];
         let mut j = i + 1;
-        while j + 8 <= n && pixels[j..j + 8] == [p; 8] {
+        while let Some(chunk) = pixels.get(j..j + 8) {
+            // A fixed-size comparison, inlined rather than a call.
+            let chunk: &[u16; 8] = chunk.try_into().expect("8 pixels");
+            if *chunk != [p; 8] {
+                break;
+            }
             j += 8;
         }
         while j < n && pixels[j] == p {
             j += 1;
         }
-        if let Some(c) = counts.get_mut(usize::from(p)) {
-            *c += (j - i) as u32;
-        }
+        f(p, (j - i) as u32);
         i = j;
     }
 }
@@ -199,6 +219,9 @@ pub struct IndexedBitmap<'a> {
     colours: &'a mut Colours,
     w: u32,
     h: u32,
+    /// Buffers of the polygon filler, kept from polygon to polygon.
+    vertices: Vec<BackendCoord>,
+    scratch: Scratch,
 }
 
 type Error = DrawingErrorKind<Infallible>;
@@ -223,6 +246,8 @@ impl<'a> IndexedBitmap<'a> {
             colours,
             w,
             h: rows,
+            vertices: Vec::new(),
+            scratch: Scratch::default(),
         }
     }
 
@@ -263,7 +288,8 @@ impl<'a> IndexedBitmap<'a> {
         if x0 >= x1 || y0 >= y1 {
             return;
         }
-        let level = (256.0 * alpha).floor() as u64;
+        // floor(256 alpha) as plotters, for alpha in (0, 1]: a cast truncates (no call to floor).
+        let level = (256.0 * alpha) as u64;
         let colour = rgb_of(c);
         let (w, count) = (self.w as usize, (x1 - x0) as usize);
         let down = (count - 1) / 8 * 8;
@@ -305,7 +331,7 @@ impl DrawingBackend for IndexedBitmap<'_> {
         if alpha >= 1.0 - 1.0 / 256.0 {
             self.pixels[at] = self.colours.index(rgb_of(color));
         } else if alpha > 0.0 {
-            let level = (alpha * 256.0).floor() as u64;
+            let level = (alpha * 256.0) as u64;
             let under = self.pixels[at];
             self.pixels[at] = self
                 .colours
@@ -364,6 +390,22 @@ impl DrawingBackend for IndexedBitmap<'_> {
         }
         Ok(())
     }
+
+    /// plotters' polygon rasterizer, without its allocations ([`scanline`]).
+    fn fill_polygon<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
+        &mut self,
+        vert: I,
+        style: &S,
+    ) -> Result<(), Error> {
+        let mut vertices = std::mem::take(&mut self.vertices);
+        let mut scratch = std::mem::take(&mut self.scratch);
+        vertices.clear();
+        vertices.extend(vert);
+        let done = scanline::fill_polygon(self, &mut scratch, &vertices, style);
+        self.vertices = vertices;
+        self.scratch = scratch;
+        done
+    }
 }
 
 #[cfg(test)]
@@ -371,9 +413,10 @@ mod tests {
     use super::*;
     use plotters::prelude::*;
 
-    /// Pixels, one-pixel lines and rectangles, opaque and blended at many levels, over one
-    /// another and cut by the edges (the blended rectangles at every width across the eight-pixel
-    /// groups of plotters' fast blend): the colours of the indices are plotters' RGB pixels.
+    /// Pixels, one-pixel lines, rectangles and polygons (plotters' rasterizer against
+    /// [`scanline`]), opaque and blended at many levels, over one another and cut by the edges
+    /// (the blended rectangles at every width across the eight-pixel groups of plotters' fast
+    /// blend): the colours of the indices are plotters' RGB pixels.
     #[test]
     fn draws_the_rgb_backends_pixels() {
         let (w, h) = (97u32, 61u32);
@@ -394,7 +437,40 @@ mod tests {
                 b(Op::Line((x + 2, y + 9), (x + 2, y - k), c));
                 b(Op::Line((x, y), (x + 17, y + k % 11 + 3), c));
                 b(Op::Pixel((x + 1, y + 1), c));
+                // Polygons: a triangle, a concave and a self-crossing one, a wide line (one
+                // sweeping columns, one rows), cut by the edges.
+                b(Op::Polygon(
+                    vec![(x, y), (x + 23, y + k % 9), (x + 5, y + 31)],
+                    c,
+                ));
+                let m = k % 7;
+                b(Op::Polygon(
+                    vec![
+                        (x - 3, y),
+                        (x + 9, y + 2 + m),
+                        (x + 4, y + 6),
+                        (x + 12, y + 14 - m),
+                        (x, y + 11),
+                    ],
+                    c,
+                ));
+                b(Op::Polygon(
+                    vec![(x, y), (x + 15, y + 8), (x + 15, y), (x, y + 8 + m)],
+                    c,
+                ));
+                b(Op::Wide(
+                    (x, y + 20),
+                    (x + 30, y + 20 + m),
+                    c,
+                    2 + (k % 3) as u32,
+                ));
+                b(Op::Wide((x + 4, y - 10), (x + 4 + m, y + 40), c, 3));
             }
+            b(Op::Polygon(
+                vec![(5, 5), (5, 30)],
+                colours_of[0].to_backend_color(),
+            ));
+            b(Op::Polygon(Vec::new(), colours_of[0].to_backend_color()));
         };
         let mut rgb = vec![255u8; (w * h * 3) as usize];
         {
@@ -429,6 +505,8 @@ mod tests {
         Rect(BackendCoord, BackendCoord, BackendColor),
         Line(BackendCoord, BackendCoord, BackendColor),
         Pixel(BackendCoord, BackendColor),
+        Polygon(Vec<BackendCoord>, BackendColor),
+        Wide(BackendCoord, BackendCoord, BackendColor, u32),
     }
 
     impl Op {
@@ -442,6 +520,10 @@ mod tests {
                 Op::Rect(a, z, c) => b.draw_rect(*a, *z, &style(c), true),
                 Op::Line(a, z, c) => b.draw_line(*a, *z, &style(c)),
                 Op::Pixel(a, c) => b.draw_pixel(*a, *c),
+                Op::Polygon(v, c) => b.fill_polygon(v.iter().copied(), &style(c)),
+                Op::Wide(a, z, c, width) => {
+                    b.draw_path([*a, *z, (z.0 + 9, z.1 - 4)], &style(c).stroke_width(*width))
+                }
             };
             assert!(done.is_ok());
         }

@@ -33,6 +33,7 @@ mod mask;
 pub mod palette;
 mod pass;
 pub mod plan;
+mod scanline;
 mod sky;
 mod style;
 mod summary;
