@@ -44,6 +44,10 @@ pub struct Colours {
     /// Direct-mapped: (index under, colour drawn, level, rounding) -> index, `u64::MAX` free.
     blend_keys: Vec<u64>,
     blend_values: Vec<u16>,
+    /// The last colour looked up and the last blend, with their indices (a run of pixels of one
+    /// colour, a translucent rectangle over one background).
+    last_index: (u32, u16),
+    last_blend: (u64, u16),
 }
 
 impl Default for Colours {
@@ -61,6 +65,8 @@ impl Colours {
             values: vec![0; 1 << 10],
             blend_keys: vec![u64::MAX; BLEND_CACHE],
             blend_values: vec![0; BLEND_CACHE],
+            last_index: (u32::MAX, 0),
+            last_blend: (u64::MAX, 0),
         }
     }
 
@@ -69,10 +75,21 @@ impl Colours {
         self.rgb.clear();
         self.keys.fill(0);
         self.blend_keys.fill(u64::MAX);
+        self.last_index = (u32::MAX, 0);
+        self.last_blend = (u64::MAX, 0);
     }
 
     /// The index of colour `c` (0xRRGGBB), added if it is new.
     pub fn index(&mut self, c: u32) -> u16 {
+        if c == self.last_index.0 {
+            return self.last_index.1;
+        }
+        let idx = self.lookup(c);
+        self.last_index = (c, idx);
+        idx
+    }
+
+    fn lookup(&mut self, c: u32) -> u16 {
         let k = c + 1;
         let mask = self.keys.len() - 1;
         let mut i = (k.wrapping_mul(0x9e37_79b1) >> 16) as usize & mask;
@@ -88,7 +105,7 @@ impl Colours {
         }
         if 2 * (self.rgb.len() + 1) > self.keys.len() {
             self.grow();
-            return self.index(c);
+            return self.lookup(c);
         }
         let idx = self.rgb.len() as u16;
         self.rgb.push(c);
@@ -103,15 +120,19 @@ impl Colours {
         self.values = vec![0; n];
         let colours = std::mem::take(&mut self.rgb);
         for c in colours {
-            self.index(c);
+            self.lookup(c);
         }
     }
 
     /// The index of colour `c` drawn at level `a` (1..=255 of 256) over the colour of index `under`.
     fn blend(&mut self, under: u16, c: u32, a: u64, rounding: Rounding) -> u16 {
         let key = u64::from(under) | (u64::from(c) << 16) | (a << 40) | ((rounding as u64) << 49);
+        if key == self.last_blend.0 {
+            return self.last_blend.1;
+        }
         let slot = (key.wrapping_mul(0x9e37_79b9_7f4a_7c15) >> 52) as usize & (BLEND_CACHE - 1);
         if self.blend_keys[slot] == key {
+            self.last_blend = (key, self.blend_values[slot]);
             return self.blend_values[slot];
         }
         let old = self
@@ -131,6 +152,7 @@ impl Colours {
         let idx = self.index(channel(16) | channel(8) | channel(0));
         self.blend_keys[slot] = key;
         self.blend_values[slot] = idx;
+        self.last_blend = (key, idx);
         idx
     }
 
