@@ -23,7 +23,9 @@
 //!
 //! Text uses the bundled DejaVu Sans (`fonts/`, Bitstream Vera licence) through plotters'
 //! `ab_glyph` renderer, so no system font library is needed; on PNG charts each glyph is
-//! rasterised once per size and thread (`glyphs`), with the same pixels.
+//! rasterised once per size and thread (`glyphs`), with the same pixels. PNG charts are drawn
+//! straight into colour indices (`indexed`, with the pixels of plotters' RGB bitmap backend) and
+//! stored as palette PNGs of their 256 most frequent colours.
 
 pub mod contacts;
 pub mod data;

@@ -7,6 +7,10 @@
 //! the palette colour nearest to it (squared RGB distance), which moves an edge pixel by a few
 //! levels of one blend ramp: the chart looks the same. Colours are counted run by run (a row of
 //! one colour is one count) in an open-addressing table.
+//!
+//! The charts themselves are drawn into colour indices (`super::indexed`), whose
+//! `Colours::to_palette` applies this rule to the index image; [`quantize`] is the rule on an RGB
+//! buffer, the reference the tests compare with.
 
 /// Most colours a palette PNG holds.
 pub const PALETTE_MAX: usize = 256;
