@@ -161,7 +161,9 @@ impl Colours {
     /// [`PALETTE_MAX`] most frequent colours (equal counts by colour), every other colour drawn
     /// with the nearest of them. Returns the palette as RGB triples.
     pub fn to_palette(&self, pixels: &[u16], out: &mut Vec<u8>) -> Vec<u8> {
-        let mut counts = vec![0u32; self.rgb.len().max(1)];
+        // An index past the table (pixels not drawn with these colours) counts for nothing and is
+        // stored as 0.
+        let mut counts = vec![0u32; self.rgb.len()];
         // The image is read once: its runs are kept for the indexed image.
         let mut all_runs: Vec<(u16, u32)> = Vec::with_capacity(pixels.len() / 64);
         runs(pixels, |p, n| {
@@ -551,7 +553,8 @@ mod tests {
         }
     }
 
-    /// A blank image of no height, a colour table past its size: no panic.
+    /// A blank image of no height, a colour table past its size, indices past the table: no
+    /// panic.
     #[test]
     fn degenerate_sizes_and_many_colours() {
         let mut colours = Colours::new();
@@ -564,5 +567,17 @@ mod tests {
             colours.index(c * 97);
         }
         assert_eq!(colours.rgb.len(), COLOURS_MAX);
+        // Pixels of indices the table does not hold (a table cleared after drawing).
+        let mut colours = Colours::new();
+        let mut out = Vec::new();
+        assert!(colours.to_palette(&[3, 3, 0], &mut out).is_empty());
+        assert_eq!(out, vec![0, 0, 0]);
+        colours.clear();
+        colours.index(0x12_34_56);
+        assert_eq!(
+            colours.to_palette(&[0, 7, 0], &mut out),
+            vec![0x12, 0x34, 0x56]
+        );
+        assert_eq!(out, vec![0, 0, 0]);
     }
 }
