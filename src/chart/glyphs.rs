@@ -12,7 +12,6 @@
 //! family or style goes through plotters unchanged.
 
 use ab_glyph::{Font, FontRef, GlyphId, ScaleFont};
-use plotters::prelude::BitMapBackend;
 use plotters::style::text_anchor::{HPos, VPos};
 use plotters::style::FontStyle;
 use plotters_backend::{
@@ -73,24 +72,24 @@ fn glyph(font: &FontRef<'static>, size: f64, c: char) -> Rc<Glyph> {
     })
 }
 
-/// The bitmap backend with cached glyphs for the bundled font (see the module note).
-pub struct CachedText<'a>(pub BitMapBackend<'a>);
+/// A bitmap backend with cached glyphs for the bundled font (see the module note).
+pub struct CachedText<B>(pub B);
 
-type Error<'a> = DrawingErrorKind<<BitMapBackend<'a> as DrawingBackend>::ErrorType>;
+type Error<B> = DrawingErrorKind<<B as DrawingBackend>::ErrorType>;
 
-impl<'a> DrawingBackend for CachedText<'a> {
-    type ErrorType = <BitMapBackend<'a> as DrawingBackend>::ErrorType;
+impl<B: DrawingBackend> DrawingBackend for CachedText<B> {
+    type ErrorType = B::ErrorType;
 
     fn get_size(&self) -> (u32, u32) {
         self.0.get_size()
     }
-    fn ensure_prepared(&mut self) -> Result<(), Error<'a>> {
+    fn ensure_prepared(&mut self) -> Result<(), Error<B>> {
         self.0.ensure_prepared()
     }
-    fn present(&mut self) -> Result<(), Error<'a>> {
+    fn present(&mut self) -> Result<(), Error<B>> {
         self.0.present()
     }
-    fn draw_pixel(&mut self, point: BackendCoord, color: BackendColor) -> Result<(), Error<'a>> {
+    fn draw_pixel(&mut self, point: BackendCoord, color: BackendColor) -> Result<(), Error<B>> {
         self.0.draw_pixel(point, color)
     }
     fn draw_line<S: BackendStyle>(
@@ -98,7 +97,7 @@ impl<'a> DrawingBackend for CachedText<'a> {
         from: BackendCoord,
         to: BackendCoord,
         style: &S,
-    ) -> Result<(), Error<'a>> {
+    ) -> Result<(), Error<B>> {
         self.0.draw_line(from, to, style)
     }
     fn draw_rect<S: BackendStyle>(
@@ -107,14 +106,14 @@ impl<'a> DrawingBackend for CachedText<'a> {
         bottom_right: BackendCoord,
         style: &S,
         fill: bool,
-    ) -> Result<(), Error<'a>> {
+    ) -> Result<(), Error<B>> {
         self.0.draw_rect(upper_left, bottom_right, style, fill)
     }
     fn draw_path<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
         &mut self,
         path: I,
         style: &S,
-    ) -> Result<(), Error<'a>> {
+    ) -> Result<(), Error<B>> {
         self.0.draw_path(path, style)
     }
     fn draw_circle<S: BackendStyle>(
@@ -123,21 +122,21 @@ impl<'a> DrawingBackend for CachedText<'a> {
         radius: u32,
         style: &S,
         fill: bool,
-    ) -> Result<(), Error<'a>> {
+    ) -> Result<(), Error<B>> {
         self.0.draw_circle(center, radius, style, fill)
     }
     fn fill_polygon<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
         &mut self,
         vert: I,
         style: &S,
-    ) -> Result<(), Error<'a>> {
+    ) -> Result<(), Error<B>> {
         self.0.fill_polygon(vert, style)
     }
     fn estimate_text_size<TStyle: BackendTextStyle>(
         &self,
         text: &str,
         style: &TStyle,
-    ) -> Result<(u32, u32), Error<'a>> {
+    ) -> Result<(u32, u32), Error<B>> {
         self.0.estimate_text_size(text, style)
     }
     fn blit_bitmap(
@@ -145,7 +144,7 @@ impl<'a> DrawingBackend for CachedText<'a> {
         pos: BackendCoord,
         (iw, ih): (u32, u32),
         src: &[u8],
-    ) -> Result<(), Error<'a>> {
+    ) -> Result<(), Error<B>> {
         self.0.blit_bitmap(pos, (iw, ih), src)
     }
 
@@ -154,7 +153,7 @@ impl<'a> DrawingBackend for CachedText<'a> {
         text: &str,
         style: &TStyle,
         pos: BackendCoord,
-    ) -> Result<(), Error<'a>> {
+    ) -> Result<(), Error<B>> {
         let ours = style.family().as_str() == super::style::FONT
             && matches!(style.style(), FontStyle::Normal);
         let font = match font() {

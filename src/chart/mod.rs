@@ -23,15 +23,19 @@
 //!
 //! Text uses the bundled DejaVu Sans (`fonts/`, Bitstream Vera licence) through plotters'
 //! `ab_glyph` renderer, so no system font library is needed; on PNG charts each glyph is
-//! rasterised once per size and thread (`glyphs`), with the same pixels.
+//! rasterised once per size and thread (`glyphs`), with the same pixels. PNG charts are drawn
+//! straight into colour indices (`indexed`, with the pixels of plotters' RGB bitmap backend) and
+//! stored as palette PNGs of their 256 most frequent colours.
 
 pub mod contacts;
 pub mod data;
 mod glyphs;
+mod indexed;
 mod mask;
 pub mod palette;
 mod pass;
 pub mod plan;
+mod scanline;
 mod sky;
 mod style;
 mod summary;
@@ -55,11 +59,11 @@ fn in_chart(chart: &'static str) -> impl Fn(ChartError) -> ChartError {
 }
 
 thread_local! {
-    /// Per drawing thread: the RGB buffer charts are drawn into and the palette indices encoded
-    /// from it, reused from chart to chart (a fresh 4.8 MB buffer per chart costs its page faults
-    /// on top of the fills).
-    static BUFFERS: std::cell::RefCell<(Vec<u8>, Vec<u8>)> =
-        const { std::cell::RefCell::new((Vec::new(), Vec::new())) };
+    /// Per drawing thread: the colour indices charts are drawn into, the palette indices encoded
+    /// from them and the chart's colours, reused from chart to chart (a fresh buffer per chart
+    /// costs its page faults on top of the fills).
+    static BUFFERS: std::cell::RefCell<(Vec<u16>, Vec<u8>, indexed::Colours)> =
+        std::cell::RefCell::new((Vec::new(), Vec::new(), indexed::Colours::new()));
 }
 
 /// Draw `chart` into memory and return the PNG or SVG bytes.
@@ -69,23 +73,24 @@ fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError
     match format {
         ChartFormat::Png => BUFFERS.with(|b| {
             // A chart drawn inside another's drawing (never done) would find the buffers taken.
-            let mut own = (Vec::new(), Vec::new());
+            let mut own = (Vec::new(), Vec::new(), indexed::Colours::new());
             let mut taken = b.try_borrow_mut().ok();
-            let (rgb, indices) = match taken.as_deref_mut() {
-                Some((rgb, indices)) => (rgb, indices),
-                None => (&mut own.0, &mut own.1),
+            let (pixels, indices, colours) = match taken.as_deref_mut() {
+                Some((p, i, c)) => (p, i, c),
+                None => (&mut own.0, &mut own.1, &mut own.2),
             };
-            rgb.clear();
-            rgb.resize(w as usize * h as usize * 3, 255);
+            pixels.resize(w as usize * h as usize, 0);
+            colours.clear();
             {
-                let root =
-                    glyphs::CachedText(BitMapBackend::with_buffer(rgb, (w, h))).into_drawing_area();
+                let bitmap = indexed::IndexedBitmap::new(pixels, colours, (w, h), (255, 255, 255));
+                let root = glyphs::CachedText(bitmap).into_drawing_area();
                 plot_with_caution(chart, &root).map_err(in_chart(P::NAME))?;
                 root.present()
                     .map_err(ChartError::from)
                     .map_err(in_chart(P::NAME))?;
             }
-            encode_png(rgb, indices, w, h)
+            let palette = colours.to_palette(pixels, indices);
+            encode_png(palette, indices, w, h)
         }),
         ChartFormat::Svg => {
             let mut svg = String::new();
@@ -99,6 +104,45 @@ fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError
             Ok(svg.into_bytes())
         }
     }
+}
+
+/// A chart for [`draw_reference_png`].
+#[doc(hidden)]
+pub enum ReferenceChart<'a> {
+    Pass(&'a PassChartData),
+    Sky(&'a SkyChartData),
+    Mask(&'a MaskChartData),
+    Summary(&'a SummaryChartData),
+}
+
+/// The PNG of `chart` drawn the way the indexed backend ([`indexed`]) replaces: plotters' RGB
+/// bitmap backend, then [`palette::quantize_into`]. The tests check that both give the same
+/// bytes; not for use otherwise (twice the memory and time).
+#[doc(hidden)]
+pub fn draw_reference_png(chart: ReferenceChart<'_>) -> Result<Vec<u8>, ChartError> {
+    match chart {
+        ReferenceChart::Pass(c) => render_reference(c),
+        ReferenceChart::Sky(c) => render_reference(c),
+        ReferenceChart::Mask(c) => render_reference(c),
+        ReferenceChart::Summary(c) => render_reference(c),
+    }
+}
+
+fn render_reference<P: Plot>(chart: &P) -> Result<Vec<u8>, ChartError> {
+    style::ensure_font()?;
+    let (w, h) = chart.size();
+    let mut rgb = vec![255u8; w as usize * h as usize * 3];
+    {
+        let root =
+            glyphs::CachedText(BitMapBackend::with_buffer(&mut rgb, (w, h))).into_drawing_area();
+        plot_with_caution(chart, &root).map_err(in_chart(P::NAME))?;
+        root.present()
+            .map_err(ChartError::from)
+            .map_err(in_chart(P::NAME))?;
+    }
+    let mut indices = Vec::new();
+    let palette = palette::quantize_into(&rgb, &mut indices);
+    encode_png(palette, &indices, w, h)
 }
 
 /// Draw `chart` above a footer that carries the outputs' one caution
@@ -140,8 +184,8 @@ where
     Ok(())
 }
 
-/// Encode an 8-bit RGB buffer as a palette PNG ([`palette::quantize`]: the 256 most frequent
-/// colours, exact for a chart of 256 colours or fewer) with the fast deflate setting and the
+/// Encode a chart's palette and one-byte indices ([`indexed::Colours::to_palette`]: the 256 most
+/// frequent colours, exact for a chart of 256 colours or fewer) as a palette PNG with the fast deflate setting and the
 /// Paeth filter. One byte per pixel instead of three: on the example week's pass charts about 3x
 /// smaller and faster to encode than the RGB file (measured with `benches/charts.rs`). The fast
 /// deflate codes runs of zeros; Paeth (predicting each index from its left, upper and upper-left
@@ -150,8 +194,7 @@ where
 /// about 40 % more encoding instructions (7.3 -> 10.4 million per pass chart, callgrind). Every
 /// deflate level of the `flate2` encoder was smaller still (89-63 kB) but took 2-9x the
 /// instructions of the whole encoding.
-fn encode_png(rgb: &[u8], indices: &mut Vec<u8>, w: u32, h: u32) -> Result<Vec<u8>, ChartError> {
-    let palette = palette::quantize_into(rgb, indices);
+fn encode_png(palette: Vec<u8>, indices: &[u8], w: u32, h: u32) -> Result<Vec<u8>, ChartError> {
     let mut out = Vec::with_capacity(indices.len() / 16);
     {
         let mut enc = png::Encoder::new(&mut out, w, h);

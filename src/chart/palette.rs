@@ -7,6 +7,10 @@
 //! the palette colour nearest to it (squared RGB distance), which moves an edge pixel by a few
 //! levels of one blend ramp: the chart looks the same. Colours are counted run by run (a row of
 //! one colour is one count) in an open-addressing table.
+//!
+//! The charts themselves are drawn into colour indices (`super::indexed`), whose
+//! `Colours::to_palette` applies this rule to the index image; [`quantize`] is the rule on an RGB
+//! buffer, the reference the tests compare with.
 
 /// Most colours a palette PNG holds.
 pub const PALETTE_MAX: usize = 256;
@@ -171,7 +175,7 @@ pub fn quantize_into(rgb: &[u8], indices: &mut Vec<u8>) -> Vec<u8> {
 }
 
 /// The index of the palette colour nearest to `c` (squared RGB distance; the first on a tie).
-fn nearest(palette: &[u32], c: u32) -> u8 {
+pub(super) fn nearest(palette: &[u32], c: u32) -> u8 {
     let d = |p: u32| {
         let ch = |s: u32| ((p >> s) & 0xff) as i32 - ((c >> s) & 0xff) as i32;
         ch(16).pow(2) + ch(8).pow(2) + ch(0).pow(2)

@@ -851,3 +851,60 @@ fn the_summary_chart_leads_with_the_delivered_data() {
         .expect("per-pass totals labelled");
     assert!(delivered < every);
 }
+
+/// The PNG charts are drawn straight into colour indices (`chart::indexed`); the same charts
+/// drawn the way that replaced (plotters' RGB bitmap backend, then the palette pass) give the same
+/// bytes: the sample charts, and the edge cases with no, one and non-finite samples.
+#[test]
+fn indexed_drawing_gives_the_rgb_backends_bytes() {
+    let same = |name: &str, png: Vec<u8>, reference: Vec<u8>| {
+        assert!(
+            png == reference,
+            "{name}: the indexed drawing changed bytes"
+        );
+    };
+    let pass = sample_pass();
+    let mut one = sample_pass();
+    let mid = one.samples.len() / 2;
+    one.samples = vec![one.samples[mid].clone()];
+    one.samples[0].t_s = 0.0;
+    let mut empty = sample_pass();
+    empty.samples.clear();
+    let mut nan = sample_pass();
+    for (i, s) in nan.samples.iter_mut().enumerate() {
+        if i % 7 == 0 {
+            s.ebn0_db = f64::NAN;
+            s.range_km = f64::INFINITY;
+        }
+    }
+    for (name, p) in [
+        ("pass", &pass),
+        ("one", &one),
+        ("empty", &empty),
+        ("nan", &nan),
+    ] {
+        same(
+            name,
+            draw_pass(p, ChartFormat::Png).unwrap(),
+            draw_reference_png(ReferenceChart::Pass(p)).unwrap(),
+        );
+    }
+    let sky = sample_sky();
+    same(
+        "sky",
+        draw_sky(&sky, ChartFormat::Png).unwrap(),
+        draw_reference_png(ReferenceChart::Sky(&sky)).unwrap(),
+    );
+    let mask = sample_mask();
+    same(
+        "mask",
+        draw_mask(&mask, ChartFormat::Png).unwrap(),
+        draw_reference_png(ReferenceChart::Mask(&mask)).unwrap(),
+    );
+    let summary = sample_summary();
+    same(
+        "summary",
+        draw_summary(&summary, ChartFormat::Png).unwrap(),
+        draw_reference_png(ReferenceChart::Summary(&summary)).unwrap(),
+    );
+}
