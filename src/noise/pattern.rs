@@ -71,7 +71,14 @@ pub struct PatternWarnings {
     pub frequency_outside_envelope_range: bool,
     /// The Gaussian main beam was narrowed to hold at most [`MAX_MAIN_BEAM_FRACTION`].
     pub main_beam_narrowed: bool,
+    /// The aperture is less than [`MIN_APERTURE_WAVELENGTHS`] across.
+    pub aperture_under_a_wavelength: bool,
 }
+
+/// Smallest aperture (diameter in wavelengths) the reference pattern is meant for: a Gaussian
+/// main beam inside a sidelobe envelope describes an aperture antenna several wavelengths across;
+/// below one wavelength its beam would be wider than 70 deg (common practice).
+pub const MIN_APERTURE_WAVELENGTHS: f64 = 1.0;
 
 impl PatternWarnings {
     /// Messages for the raised flags, each naming the model and its range.
@@ -79,6 +86,7 @@ impl PatternWarnings {
         [
             (self.frequency_outside_envelope_range, "ground antenna pattern (ITU-R S.465-6): frequency outside 2-31 GHz, the sidelobe envelope is used as an estimate"),
             (self.main_beam_narrowed, "ground antenna pattern: peak gain and beamwidth put more than 95 % of the power in the Gaussian main beam; its width was reduced for the noise integral"),
+            (self.aperture_under_a_wavelength, "ground antenna pattern: the aperture (the diameter given, or the one the gain stands for) is under one wavelength across, where the Gaussian beam and ITU-R S.465-6 envelope of an aperture antenna are a rough estimate; give the measured pattern (antenna.noise_pattern)"),
         ]
         .into_iter()
         .filter(|(on, _)| *on)
@@ -233,6 +241,7 @@ impl NoisePattern {
             frequency_outside_envelope_range: !(ENVELOPE_FREQUENCY_RANGE_HZ.0
                 ..=ENVELOPE_FREQUENCY_RANGE_HZ.1)
                 .contains(&frequency_hz),
+            aperture_under_a_wavelength: d_over_lambda < MIN_APERTURE_WAVELENGTHS,
             ..Default::default()
         };
         let peak = db_to_ratio(gain_dbi);
@@ -538,6 +547,22 @@ fn interpolate_db(rows: &[[f64; 2]], psi_rad: f64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The aperture note is raised below one wavelength across and not at or above it (the
+    /// aperture a gain stands for: G = 0.55 (pi D / lambda)^2, so 5.3 dBi is 1.0 wavelength).
+    #[test]
+    fn an_aperture_under_a_wavelength_is_noted() {
+        for (dl, noted) in [(0.37, true), (0.99, true), (1.0, false), (101.0, false)] {
+            let g = ratio_to_db(0.55 * (std::f64::consts::PI * dl).powi(2));
+            let p = NoisePattern::reference(g, (70.0 / dl).min(180.0), dl, 8.2e9).unwrap();
+            assert_eq!(p.warnings().aperture_under_a_wavelength, noted, "{dl}");
+            let said = p
+                .warnings()
+                .messages()
+                .any(|m| m.contains("under one wavelength"));
+            assert_eq!(said, noted, "{dl}");
+        }
+    }
 
     #[test]
     fn integrates_to_one() {

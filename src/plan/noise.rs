@@ -45,6 +45,8 @@ impl NoiseWarnings {
                 frequency_outside_envelope_range: self.pattern.frequency_outside_envelope_range
                     || o.pattern.frequency_outside_envelope_range,
                 main_beam_narrowed: self.pattern.main_beam_narrowed || o.pattern.main_beam_narrowed,
+                aperture_under_a_wavelength: self.pattern.aperture_under_a_wavelength
+                    || o.pattern.aperture_under_a_wavelength,
             },
             man_made_extrapolated: self.man_made_extrapolated || o.man_made_extrapolated,
             galactic_extrapolated: self.galactic_extrapolated || o.galactic_extrapolated,

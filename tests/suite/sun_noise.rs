@@ -116,6 +116,7 @@ fn budget_at_the_transit_agrees_with_the_plan() {
         err.contains("note: Sun: raises the system noise temperature by more than 1 dB in pass 16 (Sierra Baja"),
         "{err}"
     );
+    assert!(!err.contains("under one wavelength"), "{err}");
     // The transit makes pass 16 fail above Sierra Baja's robust masks; its failures carry the
     // pass's Sun time (the pass row's), which the table names.
     let d = json(&out);
@@ -198,8 +199,8 @@ fn quiet_sun_agrees_with_a_measured_level_to_thirty_per_cent() {
     assert!((t / 8100.0 - 1.0).abs() < 0.30, "{t} K");
 }
 
-/// Below the quiet-Sun figure's 0.05 GHz the Sun's noise is not modelled: the warning says so,
-/// and the plan's Sun note does not add that the Sun "raises no step" by 1 dB (at 8212.5 MHz the
+/// Below the quiet-Sun figure's 0.05 GHz the Sun's noise is not modelled: the warning says so
+/// (and another that the stations' dishes are under a wavelength across), and the plan's Sun note does not add that the Sun "raises no step" by 1 dB (at 8212.5 MHz the
 /// same window's pass 16 is degraded, the note above).
 #[test]
 fn no_sun_note_where_the_sun_is_not_modelled() {
@@ -215,6 +216,12 @@ fn no_sun_note_where_the_sun_is_not_modelled() {
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(err.contains("the Sun's noise is not modelled"), "{err}");
     assert!(!err.contains("note: Sun:"), "{err}");
+    // The stations' 3.7 m dishes are 0.37 wavelengths across at 30 MHz: the reference pattern
+    // says it is only a rough estimate there (at 8212.5 MHz they are 101 wavelengths: no word).
+    assert!(
+        err.contains("Nordkam: ground antenna pattern: the aperture (the diameter given, or the one the gain stands for) is under one wavelength across"),
+        "{err}"
+    );
     // sun-transits cannot look for transits there: an error, not "no transit".
     crate::common::bin::clean_error(
         &run(&[
