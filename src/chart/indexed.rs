@@ -11,7 +11,7 @@
 //! then chooses the 256 most frequent colours exactly as [`super::palette::quantize`] does from
 //! an RGB buffer, so the PNG bytes are the same (`tests`: every chart drawn both ways).
 
-use super::palette::{nearest, PALETTE_MAX};
+use super::palette::{by_frequency, nearest, triples, write_runs, PALETTE_MAX};
 use super::scanline::{self, Scratch};
 use plotters_backend::{
     BackendColor, BackendCoord, BackendStyle, DrawingBackend, DrawingErrorKind,
@@ -178,7 +178,7 @@ impl Colours {
             .filter(|(_, &n)| n > 0)
             .map(|(i, &n)| (n, self.rgb[i], i as u16))
             .collect();
-        by_count.sort_unstable_by(|a, b| b.0.cmp(&a.0).then(a.1.cmp(&b.1)));
+        by_count.sort_unstable_by(|a, b| by_frequency((a.0, a.1), (b.0, b.1)));
         let kept: Vec<u32> = by_count.iter().take(PALETTE_MAX).map(|x| x.1).collect();
         let mut map = vec![0u8; counts.len()];
         for (rank, &(_, c, i)) in by_count.iter().enumerate() {
@@ -188,24 +188,12 @@ impl Colours {
                 nearest(&kept, c)
             };
         }
-        out.clear();
-        out.resize(pixels.len(), 0);
-        let mut at = 0;
-        for (p, n) in all_runs {
-            let (v, n) = (map.get(usize::from(p)).copied().unwrap_or(0), n as usize);
-            if n <= 16 && at + 16 <= out.len() {
-                // A short run (edges, text): one 16-byte store, the bytes past the run
-                // overwritten by the runs after it; no call to memset.
-                let block: &mut [u8; 16] = (&mut out[at..at + 16]).try_into().expect("16 bytes");
-                *block = [v; 16];
-            } else {
-                out[at..at + n].fill(v);
-            }
-            at += n;
-        }
-        kept.iter()
-            .flat_map(|&c| [(c >> 16) as u8, (c >> 8) as u8, c as u8])
-            .collect()
+        let runs = all_runs.into_iter().map(|(p, n)| {
+            let v = map.get(usize::from(p)).copied().unwrap_or(0);
+            (v, n as usize)
+        });
+        write_runs(runs, pixels.len(), out);
+        triples(&kept)
     }
 }
 

@@ -137,8 +137,7 @@ pub fn quantize_into(rgb: &[u8], indices: &mut Vec<u8>) -> Vec<u8> {
         all_runs.push((c, n as u32));
     });
     let mut by_count: Vec<(u32, u32)> = table.entries().map(|(c, n)| (n, c)).collect();
-    // Most frequent first; equal counts by colour, so the palette does not depend on table order.
-    by_count.sort_unstable_by(|a, b| b.0.cmp(&a.0).then(a.1.cmp(&b.1)));
+    by_count.sort_unstable_by(|a, b| by_frequency((a.0, a.1), (b.0, b.1)));
     let kept: Vec<u32> = by_count.iter().take(PALETTE_MAX).map(|x| x.1).collect();
     for (i, &c) in kept.iter().enumerate() {
         let s = table.slot(c);
@@ -148,27 +147,50 @@ pub fn quantize_into(rgb: &[u8], indices: &mut Vec<u8>) -> Vec<u8> {
         let s = table.slot(c);
         table.values[s] = u32::from(nearest(&kept, c));
     }
-    indices.clear();
-    indices.resize(rgb.len() / 3, 0);
-    let mut at = 0;
     // Runs alternate between few colours: remember the last lookup.
     let mut last = (u32::MAX, 0u8);
-    for (c, n) in all_runs {
+    let runs = all_runs.into_iter().map(|(c, n)| {
         if c != last.0 {
             let s = table.slot(c);
             last = (c, table.values[s] as u8);
         }
-        let n = n as usize;
-        if n <= 16 && at + 16 <= indices.len() {
+        (last.1, n as usize)
+    });
+    write_runs(runs, rgb.len() / 3, indices);
+    triples(&kept)
+}
+
+/// The palette's order: most frequent first, equal counts by colour (so that the palette does not
+/// depend on the order colours were met), for `(count, colour)`. The one rule of both
+/// [`quantize_into`] and the indexed charts' `Colours::to_palette`.
+pub(super) fn by_frequency(a: (u32, u32), b: (u32, u32)) -> std::cmp::Ordering {
+    b.0.cmp(&a.0).then(a.1.cmp(&b.1))
+}
+
+/// The index image of `len` pixels from its runs `(index, length)`, into `out`.
+pub(super) fn write_runs(
+    runs: impl IntoIterator<Item = (u8, usize)>,
+    len: usize,
+    out: &mut Vec<u8>,
+) {
+    out.clear();
+    out.resize(len, 0);
+    let mut at = 0;
+    for (v, n) in runs {
+        if n <= 16 && at + 16 <= out.len() {
             // A short run (edges, text): one 16-byte store, the bytes past the run overwritten by
             // the runs after it; no call to memset.
-            let block: &mut [u8; 16] = (&mut indices[at..at + 16]).try_into().expect("16 bytes");
-            *block = [last.1; 16];
+            let block: &mut [u8; 16] = (&mut out[at..at + 16]).try_into().expect("16 bytes");
+            *block = [v; 16];
         } else {
-            indices[at..at + n].fill(last.1);
+            out[at..at + n].fill(v);
         }
         at += n;
     }
+}
+
+/// The palette's colours (0xRRGGBB) as the PNG's RGB triples.
+pub(super) fn triples(kept: &[u32]) -> Vec<u8> {
     kept.iter()
         .flat_map(|&c| [(c >> 16) as u8, (c >> 8) as u8, c as u8])
         .collect()

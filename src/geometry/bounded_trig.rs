@@ -1,6 +1,7 @@
-//! Sine and cosine for the bounded arguments of the pass search's predicted skip
-//! ([`super::passes`]: angles of at most a few tens of radians), cheaper than the C library's
-//! (no large-argument reduction, no call).
+//! Sine and cosine for bounded arguments, cheaper than the C library's (no large-argument
+//! reduction, no call): the pass search's predicted skip ([`super::passes`]: angles of at most a
+//! few tens of radians) and the terrain integral's quadrature nodes
+//! ([`crate::noise::terrain`]: offsets of a fraction of a radian).
 //!
 //! Method (standard argument reduction and minimax polynomials; the coefficients are those of
 //! fdlibm's `k_sin.c` / `k_cos.c` and its `pio2_1` / `pio2_1t` of `e_rem_pio2.c` (Sun

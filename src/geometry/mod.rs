@@ -6,7 +6,7 @@
 //! (no refraction).
 
 pub mod body_track;
-mod bounded_trig;
+pub(crate) mod bounded_trig;
 pub mod horizon;
 pub mod look;
 pub mod moon;

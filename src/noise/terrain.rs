@@ -218,7 +218,7 @@ impl<'a> TerrainIntegrator<'a> {
             let (sm, cm) = (lo + half).to_radians().sin_cos();
             let half_rad = half.to_radians();
             for &(x, wx) in nodes {
-                let (sd, cdd) = sin_cos_of_offset(half_rad * x);
+                let (sd, cdd) = crate::geometry::bounded_trig::sin_cos(half_rad * x);
                 let w = wx * half_rad;
                 for (se, ce) in [
                     (sm * cdd - cm * sd, cm * cdd + sm * sd),
@@ -236,38 +236,6 @@ impl<'a> TerrainIntegrator<'a> {
         }
         g_sum
     }
-}
-
-/// Largest offset (rad) whose sine and cosine [`sin_cos_of_offset`] takes from its series.
-const SERIES_OFFSET_RAD: f64 = 0.2;
-
-/// `(sin t, cos t)`: for |t| <= [`SERIES_OFFSET_RAD`] from the Taylor series to t^11 and t^12
-/// (the first terms left out are below 2e-19 there: rounding only), else from the library.
-#[inline]
-fn sin_cos_of_offset(t: f64) -> (f64, f64) {
-    if t.abs() > SERIES_OFFSET_RAD {
-        return t.sin_cos();
-    }
-    let u = t * t;
-    // sin t = t (1 - t^2/(2 3) (1 - t^2/(4 5) (...))), cos t = 1 - t^2/(1 2) (1 - t^2/(3 4) (...))
-    let s = t
-        * (1.0
-            - u * (1.0 / 6.0)
-                * (1.0
-                    - u * (1.0 / 20.0)
-                        * (1.0
-                            - u * (1.0 / 42.0)
-                                * (1.0 - u * (1.0 / 72.0) * (1.0 - u * (1.0 / 110.0))))));
-    let c = 1.0
-        - u * 0.5
-            * (1.0
-                - u * (1.0 / 12.0)
-                    * (1.0
-                        - u * (1.0 / 30.0)
-                            * (1.0
-                                - u * (1.0 / 56.0)
-                                    * (1.0 - u * (1.0 / 90.0) * (1.0 - u * (1.0 / 132.0))))));
-    (s, c)
 }
 
 /// Terms of the arcsine's series `asin z = z Σ a_n z^(2n)` [`angle_of_cos`] takes at most:
@@ -358,15 +326,9 @@ mod tests {
     use super::*;
 
     #[test]
-    fn the_series_give_the_library_functions() {
-        // The quadrature's own sine, cosine and arccosine against the standard library's, over
-        // the ranges where each series is taken and past them (where the library is called).
-        for i in 0..=4000 {
-            let t = -0.3 + 0.6 * i as f64 / 4000.0;
-            let (s, c) = sin_cos_of_offset(t);
-            let (s0, c0) = t.sin_cos();
-            assert!((s - s0).abs() <= 4e-17 && (c - c0).abs() <= 4e-16, "t {t}");
-        }
+    fn the_series_give_the_library_arccosine() {
+        // The quadrature's own arccosine against the standard library's, over the ranges where
+        // each series is taken and past them (where the library is called).
         for i in 0..=20000 {
             let psi = std::f64::consts::PI * i as f64 / 20000.0;
             let c = psi.cos();
