@@ -111,7 +111,8 @@ pub struct WindowArgs {
     #[arg(long)]
     pub allow_stale_elements: bool,
     /// One satellite of a fleet mission (its name in the mission file); `plan` without it
-    /// plans the whole fleet, the other commands need it for a fleet.
+    /// plans the whole fleet, the other commands need it for a fleet. On a mission of one
+    /// satellite it must name that one (or give its catalog number).
     #[arg(long, value_name = "NAME")]
     pub satellite: Option<String>,
 }
