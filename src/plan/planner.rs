@@ -108,14 +108,18 @@ impl Planner {
         // The availability case first, so each station's noise tables of both cases are built
         // together.
         let rain = availability_weather_for(exceedance_percent, &mission.stations)?;
+        // The stations' models (their noise tables) are independent: built in parallel, the
+        // first failing station in file order reported.
         let mut stations = mission
             .stations
-            .iter()
+            .par_iter()
             .enumerate()
             .map(|(i, s)| {
                 let reuse = other.and_then(|o| o.stations.get(i));
                 station_model_for(mission, s, mask, reuse, rain)
             })
+            .collect::<Vec<_>>()
+            .into_iter()
             .collect::<Result<Vec<_>, _>>()?;
         let tradeoff_masks = if let Some(floor_deg) = request.search_floor_deg {
             in_range(&MIN_ELEVATION_DEG, floor_deg, "search_floor_deg")?;
@@ -229,11 +233,14 @@ impl Planner {
     /// Plan every pass of every station, handing each to `sink`.
     pub fn run<S: PassSink>(&self, sink: &S) -> Result<Plan, PlanError> {
         let propagator = Propagator::new(&self.elements).map_err(PlanError::Propagator)?;
-        let (mut found, stopped, propagations_search) = self.search(&propagator, None);
-        let mut floor_passes = match &self.tradeoff_masks {
-            Some(masks) => self.search(&propagator, Some(masks)).0,
-            None => Vec::new(),
-        };
+        let (main_search, floor_search) = (propagator.clone(), propagator.clone());
+        let ((mut found, stopped, propagations_search), mut floor_passes) = rayon::join(
+            move || self.search(&main_search, None),
+            move || match &self.tradeoff_masks {
+                Some(masks) => self.search(&floor_search, Some(masks)).0,
+                None => Vec::new(),
+            },
+        );
         let stop = propagation_stop(&propagator, self.window.start(), &stopped);
         if let Some(s) = &stop {
             // One stop for the satellite: no pass from it on, whichever station's search saw it.
@@ -324,15 +331,25 @@ impl Planner {
         let mut found = Vec::new();
         let mut stopped = Vec::new();
         let mut propagations = 0;
-        for (i, st) in self.stations.iter().enumerate() {
-            let mask = masks.map_or(&st.mask, |m| &m[i]);
-            let s = find_passes(
-                propagator,
-                &st.observer,
-                mask,
-                self.window.start(),
-                self.window.end(),
-            );
+        // The stations' searches are independent: in parallel, then taken in station order.
+        // Each search has its own propagator: the SGP4 resonance state is path-independent
+        // (fixed integration steps from the epoch), so the passes are the same as one shared.
+        let searches: Vec<_> = (self.stations.iter().map(|_| propagator.clone()))
+            .collect::<Vec<_>>()
+            .into_par_iter()
+            .zip(self.stations.par_iter().enumerate())
+            .map(|(propagator, (i, st))| {
+                let mask = masks.map_or(&st.mask, |m| &m[i]);
+                find_passes(
+                    &propagator,
+                    &st.observer,
+                    mask,
+                    self.window.start(),
+                    self.window.end(),
+                )
+            })
+            .collect();
+        for (i, s) in searches.into_iter().enumerate() {
             propagations += s.propagations;
             stopped.push(s.stopped);
             found.extend(s.passes.into_iter().map(|p| (i, p)));
