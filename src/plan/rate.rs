@@ -200,11 +200,21 @@ pub fn adaptive_schedule(
     }) else {
         return 0.0;
     };
+    // The options from the highest rate down, and among equal rates the later one first: the
+    // first that closes is the one `max_by` over the rates of all closing options would give.
+    let mut by_rate: Vec<usize> = (0..options.len()).collect();
+    by_rate.sort_by(|&a, &b| {
+        options[b]
+            .rate_bps
+            .total_cmp(&options[a].rate_bps)
+            .then(b.cmp(&a))
+    });
     // the highest-rate option closing at `cn0` with `spare` dB to spare
     let best = |cn0: f64, spare: f64| {
-        (0..options.len())
-            .filter(|&k| cn0 >= options[k].threshold_cn0_dbhz + spare)
-            .max_by(|&a, &b| options[a].rate_bps.total_cmp(&options[b].rate_bps))
+        by_rate
+            .iter()
+            .copied()
+            .find(|&k| cn0 >= options[k].threshold_cn0_dbhz + spare)
     };
     let mut runs = Vec::new();
     kept_runs(
@@ -282,6 +292,77 @@ mod tests {
         assert_eq!(c.option, Some(1));
         assert!(c.volume_by_option_bits[2] < c.volume_bits);
         assert!(c.volume_by_option_bits[2] > 0.0);
+    }
+
+    /// The highest-rate closing option as the schedule first defined it (every option scanned,
+    /// `max_by` over the closing ones' rates): the reference for the ordered search.
+    fn best_by_scan(options: &[RateOption], cn0: f64, spare: f64) -> Option<usize> {
+        (0..options.len())
+            .filter(|&k| cn0 >= options[k].threshold_cn0_dbhz + spare)
+            .max_by(|&a, &b| options[a].rate_bps.total_cmp(&options[b].rate_bps))
+    }
+
+    /// The schedule's choice, step by step, against [`best_by_scan`] over option sets with equal
+    /// rates, thresholds out of rate order and hysteresis: the same scheme at every step.
+    #[test]
+    fn ordered_search_picks_what_the_scan_picked() {
+        let sets = [
+            vec![
+                opt(1e6, 70.0),
+                opt(2e6, 74.0),
+                opt(2e6, 73.0),
+                opt(4e6, 80.0),
+            ],
+            vec![
+                opt(4e6, 80.0),
+                opt(1e6, 70.0),
+                opt(4e6, 79.0),
+                opt(3e6, 85.0),
+            ],
+            vec![opt(5e6, 75.0), opt(5e6, 75.0), opt(1e6, 71.0)],
+        ];
+        let cn0: Vec<f64> = (0..400)
+            .map(|i| 68.0 + 20.0 * (i as f64 * 0.05).sin().abs())
+            .collect();
+        let w = vec![1.0; cn0.len()];
+        for options in &sets {
+            for hysteresis_db in [0.0, 0.5, 2.0] {
+                let sw = Switching {
+                    hysteresis_db,
+                    relock_s: 0.0,
+                };
+                let mut sched = Vec::new();
+                adaptive_schedule(&cn0, &w, options, 1.0, sw, &mut sched);
+                // Replay the switching rule with the scan.
+                let lowest = (0..options.len())
+                    .min_by(|&a, &b| {
+                        options[a]
+                            .threshold_cn0_dbhz
+                            .total_cmp(&options[b].threshold_cn0_dbhz)
+                    })
+                    .unwrap();
+                let mut current: Option<usize> = None;
+                for (i, &c) in cn0.iter().enumerate() {
+                    if c < options[lowest].threshold_cn0_dbhz {
+                        current = None;
+                        assert_eq!(sched[i], None, "step {i}");
+                        continue;
+                    }
+                    let next = match current {
+                        None => best_by_scan(options, c, hysteresis_db).unwrap_or(lowest),
+                        Some(k) if c < options[k].threshold_cn0_dbhz => {
+                            best_by_scan(options, c, 0.0).unwrap_or(lowest)
+                        }
+                        Some(k) => match best_by_scan(options, c, hysteresis_db) {
+                            Some(b) if options[b].rate_bps > options[k].rate_bps => b,
+                            _ => k,
+                        },
+                    };
+                    current = Some(next);
+                    assert_eq!(sched[i], Some(next as u16), "step {i}");
+                }
+            }
+        }
     }
 
     #[test]
