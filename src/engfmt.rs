@@ -95,7 +95,7 @@ pub fn three_digits(x: f64) -> String {
         // digits after the point for three significant digits
         (2 - a.log10().floor() as i32).clamp(0, 9) as usize
     };
-    let s = format!("{x:.decimals$}");
+    let s = fixed(x, decimals);
     let s = if s.contains('.') {
         s.trim_end_matches('0').trim_end_matches('.').to_string()
     } else {
@@ -105,6 +105,56 @@ pub fn three_digits(x: f64) -> String {
         "0".into()
     } else {
         s
+    }
+}
+
+/// `x` with `decimals` digits after the point: the same text as `format!("{x:.decimals$}")`
+/// (the sign of a negative zero kept, ties of the exact binary value to even), without the
+/// standard library's exact-decimal conversion for the tables' ordinary values. A value whose
+/// scaled fraction lies within the product's rounding error of a tie, or one too large for
+/// whole-number arithmetic, takes the standard formatter.
+pub fn fixed(x: f64, decimals: usize) -> String {
+    let mut s = String::new();
+    push_fixed(&mut s, x, decimals);
+    s
+}
+
+/// [`fixed`] appended to `s`.
+fn push_fixed(s: &mut String, x: f64, decimals: usize) {
+    use std::fmt::Write;
+    const POW10: [f64; 10] = [1.0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9];
+    // Whole numbers below 2^52 and their fractions are exact in f64.
+    const LIMIT: f64 = 4.0e15;
+    let scaled = x.abs() * POW10.get(decimals).copied().unwrap_or(f64::INFINITY);
+    // The product is within half an ulp of the exact one: |exact - scaled| <= scaled * 2^-53.
+    // Away from a tie by more than that, both round to the same whole number.
+    let whole = scaled.floor();
+    let fraction = scaled - whole;
+    // NaN, infinities and large values fail the range test and take the standard formatter.
+    let in_range = scaled < LIMIT;
+    if !in_range || (fraction - 0.5).abs() <= scaled * 2.3e-16 + f64::MIN_POSITIVE {
+        let _ = write!(s, "{x:.decimals$}");
+        return;
+    }
+    let mut k = whole as u64 + u64::from(fraction > 0.5);
+    if x.is_sign_negative() {
+        s.push('-');
+    }
+    // The digits from the last, at least one before the point.
+    let mut digits = [0u8; 24];
+    let mut n = 0;
+    loop {
+        digits[n] = b'0' + (k % 10) as u8;
+        k /= 10;
+        n += 1;
+        if k == 0 && n > decimals {
+            break;
+        }
+    }
+    s.extend(digits[decimals..n].iter().rev().map(|&d| char::from(d)));
+    if decimals > 0 {
+        s.push('.');
+        s.extend(digits[..decimals].iter().rev().map(|&d| char::from(d)));
     }
 }
 
@@ -155,6 +205,68 @@ mod tests {
         assert_eq!(frequency_mhz(437.5e6), "437.5 MHz");
         assert_eq!(frequency_mhz(8212.5e6), "8212.5 MHz");
         assert_eq!(frequency_mhz(2.2e9), "2200 MHz");
+    }
+
+    /// Reference: the standard library's `{:.N}` formatting (exact decimal value, ties to
+    /// even) over wide random values, near-ties and edge cases.
+    #[test]
+    fn fixed_matches_the_standard_formatter() {
+        let cases = [
+            0.0,
+            -0.0,
+            0.05,
+            0.25,
+            -0.25,
+            0.35,
+            2.5,
+            3.5,
+            -0.04,
+            0.125,
+            1e-300,
+            9.95,
+            99.95,
+            0.045,
+            1.005,
+            4.0e15,
+            3.9e15,
+            1e16,
+            -1e20,
+            f64::MAX,
+            f64::MIN_POSITIVE,
+            f64::NAN,
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+            123456.789,
+            8212.5,
+        ];
+        for x in cases {
+            for d in 0..12 {
+                assert_eq!(fixed(x, d), format!("{x:.d$}"), "{x:e} with {d} decimals");
+            }
+        }
+        // Deterministic pseudo-random values over many magnitudes (a 64-bit LCG, Knuth's
+        // MMIX constants), and the halves and near-halves of their scaled values.
+        let mut state: u64 = 0x2545_F491_4F6C_DD1D;
+        for _ in 0..200_000 {
+            state = state
+                .wrapping_mul(6_364_136_223_846_793_005)
+                .wrapping_add(1_442_695_040_888_963_407);
+            let mantissa = (state >> 11) as f64 / (1u64 << 53) as f64;
+            let exponent = ((state >> 3) % 40) as i32 - 20;
+            let sign = if state & 1 == 0 { 1.0 } else { -1.0 };
+            let x = sign * mantissa * 10f64.powi(exponent);
+            let d = (state >> 7) as usize % 10;
+            assert_eq!(fixed(x, d), format!("{x:.d$}"), "{x:e} with {d} decimals");
+            let p = 10f64.powi(d as i32);
+            let tie = ((x * p).trunc() + 0.5) / p;
+            for y in [
+                tie,
+                f64::from_bits(tie.to_bits() + 1),
+                f64::from_bits(tie.to_bits() - 1),
+            ] {
+                assert_eq!(fixed(y, d), format!("{y:.d$}"), "{y:e} with {d} decimals");
+            }
+        }
     }
 
     #[test]

@@ -89,6 +89,58 @@ pub fn file_stamp(t: &DateTime<Utc>) -> String {
     ascii(&b)
 }
 
+/// The time of day for a table: `01:23:45` (chrono's `%H:%M:%S`, seconds truncated).
+pub fn clock(t: &DateTime<Utc>) -> String {
+    let Some(f) = Fields::of(t) else {
+        return t.format("%H:%M:%S").to_string();
+    };
+    let mut b = *b"00:00:00";
+    put_digits(&mut b[0..2], f.hour);
+    put_digits(&mut b[3..5], f.minute);
+    put_digits(&mut b[6..8], f.second);
+    ascii(&b)
+}
+
+/// Whether a table of times in the window from `start` to `end` shows their year: when the
+/// window ends in another year than it starts. A window of a year or more would otherwise show
+/// the same month and day for two dates a year apart.
+pub fn needs_year(start: &DateTime<Utc>, end: &DateTime<Utc>) -> bool {
+    start.year() != end.year()
+}
+
+/// A table's date and time of day: `12-02 01:23:45`, or with `with_year` (see [`needs_year`])
+/// `2026-12-02 01:23:45`.
+pub fn table_time(t: &DateTime<Utc>, with_year: bool) -> String {
+    if !with_year {
+        return day_clock(t);
+    }
+    let Some(f) = Fields::of(t) else {
+        return t.format("%Y-%m-%d %H:%M:%S").to_string();
+    };
+    let mut b = *b"0000-00-00 00:00:00";
+    put_digits(&mut b[0..4], f.year);
+    put_digits(&mut b[5..7], f.month);
+    put_digits(&mut b[8..10], f.day);
+    put_digits(&mut b[11..13], f.hour);
+    put_digits(&mut b[14..16], f.minute);
+    put_digits(&mut b[17..19], f.second);
+    ascii(&b)
+}
+
+/// Month, day and time of day for a table: `12-02 01:23:45` (chrono's `%m-%d %H:%M:%S`).
+pub fn day_clock(t: &DateTime<Utc>) -> String {
+    let Some(f) = Fields::of(t) else {
+        return t.format("%m-%d %H:%M:%S").to_string();
+    };
+    let mut b = *b"00-00 00:00:00";
+    put_digits(&mut b[0..2], f.month);
+    put_digits(&mut b[3..5], f.day);
+    put_digits(&mut b[6..8], f.hour);
+    put_digits(&mut b[9..11], f.minute);
+    put_digits(&mut b[12..14], f.second);
+    ascii(&b)
+}
+
 /// Seconds (f64) between two times, `b - a`.
 pub fn seconds_between(a: &DateTime<Utc>, b: &DateTime<Utc>) -> f64 {
     (*b - *a)
@@ -113,6 +165,17 @@ pub fn utc(y: i32, mo: u32, d: u32, h: u32, mi: u32, s: u32) -> DateTime<Utc> {
 mod tests {
     use super::*;
 
+    /// A window ending in another year shows the year (the same month and day would otherwise
+    /// stand for two dates); one inside a year does not.
+    #[test]
+    fn tables_show_the_year_across_years() {
+        let (a, b) = (utc(2026, 12, 1, 12, 0, 0), utc(2027, 12, 1, 12, 0, 0));
+        assert!(needs_year(&a, &b));
+        assert!(!needs_year(&a, &utc(2026, 12, 8, 12, 0, 0)));
+        assert_eq!(table_time(&a, true), "2026-12-01 12:00:00");
+        assert_eq!(table_time(&b, false), "12-01 12:00:00");
+    }
+
     #[test]
     fn round_trip_ms() {
         let t = parse_utc("2026-12-02T01:23:45.678Z").unwrap();
@@ -136,6 +199,17 @@ mod tests {
             assert_eq!(
                 file_stamp(&t),
                 t.format("%Y%m%dT%H%MZ").to_string(),
+                "{t:?}"
+            );
+            assert_eq!(clock(&t), t.format("%H:%M:%S").to_string(), "{t:?}");
+            assert_eq!(
+                table_time(&t, true),
+                t.format("%Y-%m-%d %H:%M:%S").to_string(),
+                "{t:?}"
+            );
+            assert_eq!(
+                day_clock(&t),
+                t.format("%m-%d %H:%M:%S").to_string(),
                 "{t:?}"
             );
         };

@@ -16,10 +16,11 @@ fn hours(seconds: f64) -> String {
     format!("{}:{:02}:{:02}", s / 3600, (s / 60) % 60, s % 60)
 }
 
-/// `2026-12-02T01:23:45.678Z` as `12-02 01:23:45`.
-fn short_time(rfc3339: &str) -> String {
+/// A contact's time for the table: `12-02 01:23:45`, with its year when `with_year`
+/// ([`passbudget::timefmt::needs_year`]).
+fn short_time(rfc3339: &str, with_year: bool) -> String {
     rfc3339
-        .get(5..19)
+        .get(if with_year { 0 } else { 5 }..19)
         .map(|s| s.replace('T', " "))
         .unwrap_or_else(|| rfc3339.to_string())
 }
@@ -70,18 +71,19 @@ pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Wr
         ("min margin", Align::Right),
         ("delivered", Align::Right),
     ]);
+    let with_year = rows.needs_year();
     let cells = |k: usize| {
         let c = rows.row(k);
         vec![
             c.satellite,
             c.antenna,
-            short_time(&c.setup_start),
+            short_time(&c.setup_start, with_year),
             c.start.get(11..19).unwrap_or("").to_string(),
             c.end.get(11..19).unwrap_or("").to_string() + if c.shortened { " *" } else { "" },
-            format!("{:.1}/{:.1}", c.start_elevation_deg, c.end_elevation_deg),
+            engfmt::fixed(c.start_elevation_deg, 1) + "/" + &engfmt::fixed(c.end_elevation_deg, 1),
             engfmt::rate(c.rate_bps),
             c.scheme,
-            cell_or_dash(c.min_margin_db.map(|m| format!("{m:.1} dB"))),
+            cell_or_dash(c.min_margin_db.map(|m| engfmt::fixed(m, 1) + " dB")),
             engfmt::volume(c.volume_bits),
         ]
     };

@@ -21,7 +21,7 @@ use passbudget::report::plan::{
     MaskFailureRow, PfdBlock, PlanDoc, PlanPassRow, TradeoffRow, UsableMaskRow,
 };
 use passbudget::report::{round, to_csv, CommitMode, WriteMode};
-use passbudget::timefmt::format_ms;
+use passbudget::timefmt::{self, format_ms};
 use serde::Serialize;
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -212,6 +212,8 @@ fn write_files(
 struct VolumeColumn {
     div: f64,
     unit: &'static str,
+    /// The largest finite magnitude among the values, bits.
+    largest_bits: f64,
 }
 
 impl VolumeColumn {
@@ -221,7 +223,11 @@ impl VolumeColumn {
             .filter(|v| v.is_finite())
             .fold(0.0f64, |m, v| m.max(v.abs()));
         let (div, unit) = engfmt::volume_unit(max);
-        VolumeColumn { div, unit }
+        VolumeColumn {
+            div,
+            unit,
+            largest_bits: max,
+        }
     }
 
     fn cell(&self, bits: f64) -> String {
@@ -244,7 +250,7 @@ fn hh_mm_ss(seconds: f64) -> String {
 
 /// An elevation for a table: one decimal, never `-0.0`.
 fn deg1(x: f64) -> String {
-    format!("{:.1}", round(x, 1))
+    engfmt::fixed(round(x, 1), 1)
 }
 
 fn print_plan(
@@ -336,15 +342,21 @@ fn print_pfd(pfd: &PfdBlock, out: &mut dyn Write) -> Result<()> {
 fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<()> {
     let rain = planner.exceedance_percent().is_some();
     let row = |x: &PassPlan| PlanPassRow::new(planner, x);
-    let vol = VolumeColumn::over(plan.passes.iter().flat_map(|x| {
+    // One look at every row for the volume unit and the optional columns.
+    let (mut largest_bits, mut mount, mut pfd_over) = (0.0f64, false, false);
+    for x in &plan.passes {
         let r = row(x);
-        [
+        let most = [
             r.volume_bits,
             r.adaptive_volume_bits,
             r.shannon_volume_bits,
             r.rain_volume_bits.unwrap_or(0.0),
-        ]
-    }));
+        ];
+        largest_bits = largest_bits.max(VolumeColumn::over(most).largest_bits);
+        mount |= r.mount_lost_s.is_some();
+        pfd_over |= r.pfd_margin_db.is_some_and(|m| m < 0.0);
+    }
+    let vol = VolumeColumn::over([largest_bits]);
     let mut cols: Vec<(String, Align)> = vec![
         ("#".into(), Align::Right),
         ("pass id".into(), Align::Left),
@@ -365,8 +377,9 @@ fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<(
         cols.push(("rain rate".into(), Align::Right));
         cols.push((vol.header("rain"), Align::Right));
     }
-    let (mount, pfd_over) = mount_and_pfd_columns(plan.passes.iter().map(row), &mut cols);
+    let (mount, pfd_over) = mount_and_pfd_columns((mount, pfd_over), &mut cols);
     let t = Table::new(&columns(&cols));
+    let with_year = timefmt::needs_year(&plan.window.start(), &plan.window.end());
     let cut = plan
         .passes
         .iter()
@@ -375,7 +388,7 @@ fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<(
         let x = &plan.passes[k];
         let r = row(x);
         let closes = |c: Option<passbudget::plan::Crossing>| match c {
-            Some(c) => format!("{} @{}", c.time.format("%H:%M:%S"), deg1(c.elevation_deg)),
+            Some(c) => format!("{} @{}", timefmt::clock(&c.time), deg1(c.elevation_deg)),
             None => "-".into(),
         };
         let closing = x.clear.closing;
@@ -384,16 +397,15 @@ fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<(
             r.number.to_string(),
             r.pass_id.clone(),
             r.station.clone(),
-            mark(x.pass.starts_before_window, "<")
-                + &x.pass.aos.format("%m-%d %H:%M:%S").to_string(),
-            x.pass.los.format("%H:%M:%S").to_string() + &mark(x.pass.ends_after_window, ">"),
+            mark(x.pass.starts_before_window, "<") + &timefmt::table_time(&x.pass.aos, with_year),
+            timefmt::clock(&x.pass.los) + &mark(x.pass.ends_after_window, ">"),
             deg1(r.max_elevation_deg),
             rate_cell(r.rate_bps),
             r.scheme.clone().unwrap_or_else(|| "no rate closes".into()),
             closes(closing.map(|c| c.from)),
             closes(closing.map(|c| c.until)),
             r.tca_margin_db
-                .map(|m| format!("{m:.1}"))
+                .map(|m| engfmt::fixed(m, 1))
                 .unwrap_or_else(|| "-".into()),
             vol.cell(r.volume_bits),
             vol.cell(r.adaptive_volume_bits),
@@ -420,14 +432,9 @@ fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<(
 
 /// The mount's lost seconds when a station gives its mount; the pfd margin when a pass is over.
 fn mount_and_pfd_columns(
-    rows: impl Iterator<Item = PlanPassRow>,
+    (mount, pfd_over): (bool, bool),
     cols: &mut Vec<(String, Align)>,
 ) -> (bool, bool) {
-    let (mut mount, mut pfd_over) = (false, false);
-    for r in rows {
-        mount |= r.mount_lost_s.is_some();
-        pfd_over |= r.pfd_margin_db.is_some_and(|m| m < 0.0);
-    }
     if mount {
         cols.push(("mount lost s".into(), Align::Right));
     }
@@ -440,14 +447,14 @@ fn mount_and_pfd_columns(
 fn mount_and_pfd_cells(r: &PlanPassRow, (mount, pfd_over): (bool, bool), cells: &mut Vec<String>) {
     if mount {
         cells.push(match r.mount_lost_s {
-            Some(s) => format!("{s:.0}"),
+            Some(s) => engfmt::fixed(s, 0),
             None => "-".into(),
         });
     }
     if pfd_over {
         cells.push(
             r.pfd_margin_db
-                .map(|m| format!("{m:.1}{}", if m < 0.0 { " !" } else { "" }))
+                .map(|m| engfmt::fixed(m, 1) + if m < 0.0 { " !" } else { "" })
                 .unwrap_or_else(|| "-".into()),
         );
     }

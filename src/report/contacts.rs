@@ -192,6 +192,15 @@ pub struct ContactRows<'a> {
 }
 
 impl<'a> ContactRows<'a> {
+    /// Whether a table of these contacts shows the year ([`crate::timefmt::needs_year`]).
+    pub fn needs_year(&self) -> bool {
+        let start = self.cp.window_start;
+        crate::timefmt::needs_year(
+            &start,
+            &crate::timefmt::add_seconds(&start, self.cp.window_s),
+        )
+    }
+
     /// The rows of `cp` over `stations` (the planners' stations, shared by the fleet).
     pub fn new(cp: &'a ContactPlan, plans: &'a [Plan], stations: &[StationModel]) -> Self {
         let stations = stations

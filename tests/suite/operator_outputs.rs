@@ -195,6 +195,37 @@ fn a_station_with_no_pass_is_named() {
     }
 }
 
+/// A table over a window that ends in another year shows each date's year: over a year or
+/// more the same month and day would stand for two dates. The pass and the contact tables
+/// both; a window inside one year keeps the short form (the test above).
+#[test]
+fn tables_across_a_new_year_show_the_year() {
+    let table = success(&run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--start",
+        "2026-12-31T20:00:00Z",
+        "--end",
+        "2027-01-01T04:00:00Z",
+    ]));
+    // The pass table's rows (by their pass id) and the contact plan's (by the satellite).
+    let pass_rows: Vec<&str> = table
+        .lines()
+        .filter(|l| l.contains(" nordkam-202") || l.starts_with("WRENLET-1  Nordkam"))
+        .collect();
+    assert!(pass_rows.len() >= 4, "{table}");
+    assert!(
+        pass_rows
+            .iter()
+            .all(|l| l.contains(" 2026-12-31 ") || l.contains(" 2027-01-01 ")),
+        "{table}"
+    );
+    assert!(
+        pass_rows.iter().any(|l| l.contains(" 2027-01-01 ")),
+        "{table}"
+    );
+}
+
 #[test]
 fn a_pass_cut_by_the_window_is_marked_in_the_table() {
     // 2026-12-01T22:10:00Z falls inside the example's pass 6 (Sierra Baja, 22:06:28-22:16:14).
