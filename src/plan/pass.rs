@@ -133,6 +133,7 @@ impl Scratch {
             acc.add_contact(st.elevation_deg, st.weight_s);
         }
         for (k, o) in rates.ladder.iter().enumerate() {
+            let margin_db = o.margin_at();
             kept_runs(
                 &self.cn0,
                 &self.weights,
@@ -154,7 +155,7 @@ impl Scratch {
                 let closed = r < self.runs.len() && self.runs[r].0 <= i;
                 let cn0 = self.cn0[i];
                 acc.add_option(k, o.rate_bps, st.elevation_deg, st.weight_s, closed, || {
-                    (st.t_s, o.margin_db(cn0))
+                    (st.t_s, margin_db(cn0))
                 });
             }
         }
@@ -442,11 +443,14 @@ fn mode_result(
     );
     let shown = fixed.option.unwrap_or_else(|| rates.lowest_threshold().0);
     let o = &rates.ladder[shown];
-    // Over the steps the mount can follow; over every step when it follows none.
+    // Over the steps the mount can follow; over every step when it follows none. Subtracting a
+    // constant is monotone in IEEE arithmetic (rounding keeps order), so the largest Eb/N0 is the
+    // largest C/N0's, and the smallest margin below the smallest C/N0's: one conversion each.
     let max_of = |c: &mut dyn Iterator<Item = f64>| {
-        c.filter(|c| c.is_finite())
-            .map(|c| o.ebn0_db(c))
-            .fold(f64::NEG_INFINITY, f64::max)
+        o.ebn0_db(
+            c.filter(|c| c.is_finite())
+                .fold(f64::NEG_INFINITY, f64::max),
+        )
     };
     let mut max_ebn0_db = max_of(&mut cn0.iter().copied());
     if max_ebn0_db == f64::NEG_INFINITY {
@@ -458,9 +462,9 @@ fn mode_result(
             fixed
                 .runs
                 .iter()
-                .flat_map(|&(a, b)| cn0[a..=b].iter())
-                .map(|c| o.margin_db(*c))
-                .reduce(f64::min),
+                .flat_map(|&(a, b)| cn0[a..=b].iter().copied())
+                .reduce(f64::min)
+                .map(|c| o.margin_db(c)),
         ),
         None => (None, None),
     };

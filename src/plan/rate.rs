@@ -55,11 +55,20 @@ impl RateOption {
     /// ([`crate::link::budget::threshold_cn0_dbhz`]).
     #[inline]
     pub fn margin_db(&self, cn0_dbhz: f64) -> f64 {
-        crate::link::budget::margin_db(
-            self.ebn0_db(cn0_dbhz),
-            self.required_ebn0_db,
-            self.implementation_loss_db,
-        )
+        self.margin_at()(cn0_dbhz)
+    }
+
+    /// [`RateOption::margin_db`] for many C/N0 values: the rate's 10 log10 R worked out once.
+    #[inline]
+    pub fn margin_at(&self) -> impl Fn(f64) -> f64 + '_ {
+        let rate_db = crate::units::ratio_to_db(self.rate_bps);
+        move |cn0_dbhz| {
+            crate::link::budget::margin_db(
+                cn0_dbhz - rate_db,
+                self.required_ebn0_db,
+                self.implementation_loss_db,
+            )
+        }
     }
 }
 
