@@ -14,18 +14,19 @@ pub fn format_ms(t: &DateTime<Utc>) -> String {
     // The digits written directly (chrono's formatter costs ~1 us a call, a visible share of a
     // year's `passes`); chrono's own for what the fixed layout cannot hold. The same bytes as
     // `to_rfc3339_opts(SecondsFormat::Millis, true)` (checked in the tests).
-    let Some(f) = Fields::of(t) else {
-        return t.to_rfc3339_opts(SecondsFormat::Millis, true);
-    };
-    let mut b = *b"0000-00-00T00:00:00.000Z";
-    put_digits(&mut b[0..4], f.year);
-    put_digits(&mut b[5..7], f.month);
-    put_digits(&mut b[8..10], f.day);
-    put_digits(&mut b[11..13], f.hour);
-    put_digits(&mut b[14..16], f.minute);
-    put_digits(&mut b[17..19], f.second);
-    put_digits(&mut b[20..23], f.millis);
-    ascii(&b)
+    use Field::*;
+    let places = [
+        (Year, 0, 4),
+        (Month, 5, 7),
+        (Day, 8, 10),
+        (Hour, 11, 13),
+        (Minute, 14, 16),
+        (Second, 17, 19),
+        (Millis, 20, 23),
+    ];
+    write_in(t, *b"0000-00-00T00:00:00.000Z", &places, || {
+        t.to_rfc3339_opts(SecondsFormat::Millis, true)
+    })
 }
 
 /// The calendar fields of a UTC time whose year has four digits and that is not in a leap
@@ -67,6 +68,44 @@ fn ascii(b: &[u8]) -> String {
     String::from_utf8(b.to_vec()).expect("the digits and separators are ASCII")
 }
 
+/// A calendar field of [`Fields`], for [`write_in`].
+#[derive(Clone, Copy)]
+enum Field {
+    Year,
+    Month,
+    Day,
+    Hour,
+    Minute,
+    Second,
+    Millis,
+}
+
+/// `t`'s fields written into the ASCII template `b` at `places` (each field zero-padded to its
+/// place's width); `fallback` (chrono's formatter) where the fixed layout cannot hold `t`.
+fn write_in<const N: usize>(
+    t: &DateTime<Utc>,
+    mut b: [u8; N],
+    places: &[(Field, usize, usize)],
+    fallback: impl FnOnce() -> String,
+) -> String {
+    let Some(f) = Fields::of(t) else {
+        return fallback();
+    };
+    for &(field, start, end) in places {
+        let value = match field {
+            Field::Year => f.year,
+            Field::Month => f.month,
+            Field::Day => f.day,
+            Field::Hour => f.hour,
+            Field::Minute => f.minute,
+            Field::Second => f.second,
+            Field::Millis => f.millis,
+        };
+        put_digits(&mut b[start..end], value);
+    }
+    ascii(&b)
+}
+
 /// `value` in decimal, zero-padded to the width of `out` (ASCII digits).
 fn put_digits(out: &mut [u8], mut value: u32) {
     for d in out.iter_mut().rev() {
@@ -77,28 +116,26 @@ fn put_digits(out: &mut [u8], mut value: u32) {
 
 /// Compact UTC stamp for file names: `20261202T0123Z`.
 pub fn file_stamp(t: &DateTime<Utc>) -> String {
-    let Some(f) = Fields::of(t) else {
-        return t.format("%Y%m%dT%H%MZ").to_string();
-    };
-    let mut b = *b"00000000T0000Z";
-    put_digits(&mut b[0..4], f.year);
-    put_digits(&mut b[4..6], f.month);
-    put_digits(&mut b[6..8], f.day);
-    put_digits(&mut b[9..11], f.hour);
-    put_digits(&mut b[11..13], f.minute);
-    ascii(&b)
+    use Field::*;
+    let places = [
+        (Year, 0, 4),
+        (Month, 4, 6),
+        (Day, 6, 8),
+        (Hour, 9, 11),
+        (Minute, 11, 13),
+    ];
+    write_in(t, *b"00000000T0000Z", &places, || {
+        t.format("%Y%m%dT%H%MZ").to_string()
+    })
 }
 
 /// The time of day for a table: `01:23:45` (chrono's `%H:%M:%S`, seconds truncated).
 pub fn clock(t: &DateTime<Utc>) -> String {
-    let Some(f) = Fields::of(t) else {
-        return t.format("%H:%M:%S").to_string();
-    };
-    let mut b = *b"00:00:00";
-    put_digits(&mut b[0..2], f.hour);
-    put_digits(&mut b[3..5], f.minute);
-    put_digits(&mut b[6..8], f.second);
-    ascii(&b)
+    use Field::*;
+    let places = [(Hour, 0, 2), (Minute, 3, 5), (Second, 6, 8)];
+    write_in(t, *b"00:00:00", &places, || {
+        t.format("%H:%M:%S").to_string()
+    })
 }
 
 /// Whether a table of times in the window from `start` to `end` shows their year: when the
@@ -114,31 +151,33 @@ pub fn table_time(t: &DateTime<Utc>, with_year: bool) -> String {
     if !with_year {
         return day_clock(t);
     }
-    let Some(f) = Fields::of(t) else {
-        return t.format("%Y-%m-%d %H:%M:%S").to_string();
-    };
-    let mut b = *b"0000-00-00 00:00:00";
-    put_digits(&mut b[0..4], f.year);
-    put_digits(&mut b[5..7], f.month);
-    put_digits(&mut b[8..10], f.day);
-    put_digits(&mut b[11..13], f.hour);
-    put_digits(&mut b[14..16], f.minute);
-    put_digits(&mut b[17..19], f.second);
-    ascii(&b)
+    use Field::*;
+    let places = [
+        (Year, 0, 4),
+        (Month, 5, 7),
+        (Day, 8, 10),
+        (Hour, 11, 13),
+        (Minute, 14, 16),
+        (Second, 17, 19),
+    ];
+    write_in(t, *b"0000-00-00 00:00:00", &places, || {
+        t.format("%Y-%m-%d %H:%M:%S").to_string()
+    })
 }
 
 /// Month, day and time of day for a table: `12-02 01:23:45` (chrono's `%m-%d %H:%M:%S`).
 pub fn day_clock(t: &DateTime<Utc>) -> String {
-    let Some(f) = Fields::of(t) else {
-        return t.format("%m-%d %H:%M:%S").to_string();
-    };
-    let mut b = *b"00-00 00:00:00";
-    put_digits(&mut b[0..2], f.month);
-    put_digits(&mut b[3..5], f.day);
-    put_digits(&mut b[6..8], f.hour);
-    put_digits(&mut b[9..11], f.minute);
-    put_digits(&mut b[12..14], f.second);
-    ascii(&b)
+    use Field::*;
+    let places = [
+        (Month, 0, 2),
+        (Day, 3, 5),
+        (Hour, 6, 8),
+        (Minute, 9, 11),
+        (Second, 12, 14),
+    ];
+    write_in(t, *b"00-00 00:00:00", &places, || {
+        t.format("%m-%d %H:%M:%S").to_string()
+    })
 }
 
 /// Seconds (f64) between two times, `b - a`.
