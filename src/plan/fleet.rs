@@ -225,13 +225,13 @@ pub fn contact_plan_with(
         .iter()
         .enumerate()
         .flat_map(|(sat, plan)| plan.passes.iter().enumerate().map(move |p| (sat, p)))
-        .filter(|&(sat, (pi, p))| candidate(sat, pi, p, (planners[sat], window_s)).is_some())
+        .filter(|&(sat, (pi, p))| candidate(sat, pi, p, planners[sat]).is_some())
         .map(|(_, (_, p))| per_station(p.station_index))
         .sum();
     let mut candidates = Vec::with_capacity(count);
     for (sat, plan) in plans.iter().enumerate() {
         for (pi, p) in plan.passes.iter().enumerate() {
-            let Some(c) = candidate(sat, pi, p, (planners[sat], window_s)) else {
+            let Some(c) = candidate(sat, pi, p, planners[sat]) else {
                 continue;
             };
             for (ai, _) in antennas
@@ -326,17 +326,10 @@ pub fn antenna_name(station: &str, antennas: usize, k: usize) -> String {
 }
 
 /// The candidate of a planned pass (antenna 0; the caller sets it), when its fixed rate closes.
-fn candidate(
-    sat: usize,
-    pi: usize,
-    p: &super::PassPlan,
-    (planner, window_s): (&Planner, f64),
-) -> Option<Candidate> {
+fn candidate(sat: usize, pi: usize, p: &super::PassPlan, planner: &Planner) -> Option<Candidate> {
     let option = p.clear.option?;
     let (first, last) = (p.segments.first()?, p.segments.last()?);
-    // A pass cut by the window ends at its end; the segment's end, summed from the pass's offset
-    // and its last step, can lie an ulp beyond it.
-    let end_s = last.end_s.min(window_s);
+    let end_s = last.end_s;
     let span_s = end_s - first.start_s;
     if span_s <= 0.0 || p.clear.closed_s <= 0.0 {
         return None;

@@ -27,6 +27,8 @@ pub(super) struct PassContext<'a> {
     pub frequency_hz: f64,
     pub rain: Option<Weather>,
     pub window_start: DateTime<Utc>,
+    /// The window's length, s (`seconds_between` its start and end).
+    pub window_s: f64,
     /// The band's Article 21 limit, when passbudget has a row for it.
     pub pfd_band: Option<crate::link::pfd::BandLimit>,
     pub pfd_spectrum: crate::link::pfd::Spectrum,
@@ -299,7 +301,8 @@ fn chosen_segments(
         .iter()
         .map(|&(a, b)| Segment {
             start_s: offset_s + s.steps[a].t_s,
-            end_s: offset_s + s.steps[b].t_s + s.steps[b].weight_s,
+            // A pass cut by the window ends at its end; the sum can lie an ulp beyond it.
+            end_s: (offset_s + s.steps[b].t_s + s.steps[b].weight_s).min(planner.window_s),
             rate_bps: rates.ladder[k].rate_bps,
         })
         .collect()

@@ -255,6 +255,7 @@ impl Planner {
             frequency_hz: self.frequency_hz,
             rain: self.rain,
             window_start: self.window.start(),
+            window_s: crate::timefmt::seconds_between(&self.window.start(), &self.window.end()),
             pfd_band: self.pfd.band,
             pfd_spectrum: self.pfd.spectrum,
         };
