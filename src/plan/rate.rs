@@ -47,7 +47,13 @@ impl RateOption {
     /// Eb/N0 at this option's data rate: C/N0 - 10 log10 R, dB.
     #[inline]
     pub fn ebn0_db(&self, cn0_dbhz: f64) -> f64 {
-        cn0_dbhz - crate::units::ratio_to_db(self.rate_bps)
+        ebn0_at_rate(cn0_dbhz, self.rate_db())
+    }
+
+    /// The data rate in dB, 10 log10 R.
+    #[inline]
+    fn rate_db(&self) -> f64 {
+        crate::units::ratio_to_db(self.rate_bps)
     }
 
     /// Margin over the scheme's threshold at this C/N0, dB ([`crate::link::budget::margin_db`]).
@@ -61,15 +67,22 @@ impl RateOption {
     /// [`RateOption::margin_db`] for many C/N0 values: the rate's 10 log10 R worked out once.
     #[inline]
     pub fn margin_at(&self) -> impl Fn(f64) -> f64 + '_ {
-        let rate_db = crate::units::ratio_to_db(self.rate_bps);
+        let rate_db = self.rate_db();
         move |cn0_dbhz| {
             crate::link::budget::margin_db(
-                cn0_dbhz - rate_db,
+                ebn0_at_rate(cn0_dbhz, rate_db),
                 self.required_ebn0_db,
                 self.implementation_loss_db,
             )
         }
     }
+}
+
+/// Eb/N0 = C/N0 - 10 log10 R, dB, with the rate in dB: the one place the planner's options
+/// write it.
+#[inline]
+fn ebn0_at_rate(cn0_dbhz: f64, rate_db: f64) -> f64 {
+    cn0_dbhz - rate_db
 }
 
 /// Closed runs of one option over a pass, after the dwell rule: `(first_step, last_step)` inclusive.
