@@ -153,3 +153,36 @@ fn deep_space_kept_state_matches_fresh_start() {
     assert_eq!(a, c);
     assert_eq!(prop.propagations(), 3);
 }
+
+/// The planner's station searches each take a clone of one propagator. On the resonant 11801
+/// a clone taken mid-sweep (its integrator state part way out) and a fresh propagator give the
+/// same bits at every later time, and the same as the sweep that went on: the state is a cache,
+/// not an input (the integration steps from the epoch in fixed steps; tcppver.out's orbit).
+#[test]
+fn deep_space_clone_mid_sweep_matches_fresh_start() {
+    let sets = parse_elements(VER_TLE).unwrap();
+    let set = select(&sets, Some("11801")).unwrap();
+    let sweep = Propagator::new(set).unwrap();
+    for minutes in [100.0, 700.0, 1000.0] {
+        sweep.propagate_minutes(minutes).unwrap();
+    }
+    let clone = sweep.clone();
+    let fresh = Propagator::new(set).unwrap();
+    for minutes in [1000.5, 1440.0, 2160.0, 2890.25, 4320.0] {
+        let on = sweep.propagate_minutes(minutes).unwrap();
+        assert_eq!(
+            clone.propagate_minutes(minutes).unwrap(),
+            on,
+            "{minutes} min"
+        );
+        assert_eq!(
+            fresh.propagate_minutes(minutes).unwrap(),
+            on,
+            "{minutes} min"
+        );
+    }
+    // A fresh propagator asked for a late time first, then swept: the same again.
+    let late_first = Propagator::new(set).unwrap();
+    let far = late_first.propagate_minutes(4320.0).unwrap();
+    assert_eq!(far, fresh.propagate_minutes(4320.0).unwrap());
+}
