@@ -138,11 +138,12 @@ pub fn clock(t: &DateTime<Utc>) -> String {
     })
 }
 
-/// Whether a table of times in the window from `start` to `end` shows their year: when the
-/// window ends in another year than it starts. A window of a year or more would otherwise show
-/// the same month and day for two dates a year apart.
+/// Whether a table of times from `start` up to (not including) `end` shows their year: when
+/// they fall in two years. A window of a year or more would otherwise show the same month and
+/// day for two dates a year apart.
 pub fn needs_year(start: &DateTime<Utc>, end: &DateTime<Utc>) -> bool {
-    start.year() != end.year()
+    let last = (*end - chrono::Duration::microseconds(1)).max(*start);
+    start.year() != last.year()
 }
 
 /// A table's date and time of day: `12-02 01:23:45`, or with `with_year` (see [`needs_year`])
@@ -211,6 +212,9 @@ mod tests {
         let (a, b) = (utc(2026, 12, 1, 12, 0, 0), utc(2027, 12, 1, 12, 0, 0));
         assert!(needs_year(&a, &b));
         assert!(!needs_year(&a, &utc(2026, 12, 8, 12, 0, 0)));
+        // A window that ends exactly at the New Year holds no time of the new year.
+        assert!(!needs_year(&a, &utc(2027, 1, 1, 0, 0, 0)));
+        assert!(needs_year(&a, &utc(2027, 1, 1, 0, 0, 1)));
         assert_eq!(table_time(&a, true), "2026-12-01 12:00:00");
         assert_eq!(table_time(&b, false), "12-01 12:00:00");
     }

@@ -192,11 +192,15 @@ pub struct ContactRows<'a> {
 }
 
 impl<'a> ContactRows<'a> {
-    /// Whether a table of these contacts shows the year ([`crate::timefmt::needs_year`]).
+    /// Whether a table of these contacts shows the year ([`crate::timefmt::needs_year`]): from
+    /// the earliest set-up (a set-up can begin before the window) to the window's end.
     pub fn needs_year(&self) -> bool {
         let start = self.cp.window_start;
+        let first_s = (self.cp.schedule.contacts.iter())
+            .map(|c| c.setup_start_s)
+            .fold(0.0, f64::min);
         crate::timefmt::needs_year(
-            &start,
+            &crate::timefmt::add_seconds(&start, first_s),
             &crate::timefmt::add_seconds(&start, self.cp.window_s),
         )
     }

@@ -226,6 +226,32 @@ fn tables_across_a_new_year_show_the_year() {
     );
 }
 
+/// A contact at the start of a window that begins on New Year's Day has its set-up (60 s of
+/// turnaround) in the old year: the contact table shows that time with its year, while the
+/// pass table, all of whose times are in the new year, keeps month and day. (Nordkam moved to
+/// 30 S 140 E so that a pass is in progress at midnight; test input only.)
+#[test]
+fn a_set_up_before_a_new_year_shows_its_year() {
+    let table = success(&run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--set",
+        "station.Nordkam.longitude_deg=140",
+        "--set",
+        "station.Nordkam.latitude_deg=-30",
+        "--start",
+        "2027-01-01T00:00:00Z",
+        "--end",
+        "2027-01-01T01:00:00Z",
+    ]));
+    assert!(table.contains("<01-01 00:00:00"), "{table}");
+    let contact = table
+        .lines()
+        .find(|l| l.starts_with("WRENLET-1  Nordkam"))
+        .unwrap_or_else(|| panic!("{table}"));
+    assert!(contact.contains(" 2026-12-31 23:59:00 "), "{table}");
+}
+
 #[test]
 fn a_pass_cut_by_the_window_is_marked_in_the_table() {
     // 2026-12-01T22:10:00Z falls inside the example's pass 6 (Sierra Baja, 22:06:28-22:16:14).
