@@ -14,17 +14,7 @@ pub fn format_ms(t: &DateTime<Utc>) -> String {
     // The digits written directly (chrono's formatter costs ~1 us a call, a visible share of a
     // year's `passes`); chrono's own for what the fixed layout cannot hold. The same bytes as
     // `to_rfc3339_opts(SecondsFormat::Millis, true)` (checked in the tests).
-    use Field::*;
-    let places = [
-        (Year, 0, 4),
-        (Month, 5, 7),
-        (Day, 8, 10),
-        (Hour, 11, 13),
-        (Minute, 14, 16),
-        (Second, 17, 19),
-        (Millis, 20, 23),
-    ];
-    write_in(t, *b"0000-00-00T00:00:00.000Z", &places, || {
+    write_in(t, *b"0000-00-00T00:00:00.000Z", &DATE_TIME_MS, || {
         t.to_rfc3339_opts(SecondsFormat::Millis, true)
     })
 }
@@ -79,6 +69,18 @@ enum Field {
     Second,
     Millis,
 }
+
+/// The places of an RFC 3339 date, time of day and milliseconds (`2026-12-02T01:23:45.678Z`);
+/// the first six are those of a table's date and time (`2026-12-02 01:23:45`).
+const DATE_TIME_MS: [(Field, usize, usize); 7] = [
+    (Field::Year, 0, 4),
+    (Field::Month, 5, 7),
+    (Field::Day, 8, 10),
+    (Field::Hour, 11, 13),
+    (Field::Minute, 14, 16),
+    (Field::Second, 17, 19),
+    (Field::Millis, 20, 23),
+];
 
 /// `t`'s fields written into the ASCII template `b` at `places` (each field zero-padded to its
 /// place's width); `fallback` (chrono's formatter) where the fixed layout cannot hold `t`.
@@ -152,16 +154,7 @@ pub fn table_time(t: &DateTime<Utc>, with_year: bool) -> String {
     if !with_year {
         return day_clock(t);
     }
-    use Field::*;
-    let places = [
-        (Year, 0, 4),
-        (Month, 5, 7),
-        (Day, 8, 10),
-        (Hour, 11, 13),
-        (Minute, 14, 16),
-        (Second, 17, 19),
-    ];
-    write_in(t, *b"0000-00-00 00:00:00", &places, || {
+    write_in(t, *b"0000-00-00 00:00:00", &DATE_TIME_MS[..6], || {
         t.format("%Y-%m-%d %H:%M:%S").to_string()
     })
 }

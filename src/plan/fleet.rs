@@ -329,8 +329,7 @@ pub fn antenna_name(station: &str, antennas: usize, k: usize) -> String {
 fn candidate(sat: usize, pi: usize, p: &super::PassPlan, planner: &Planner) -> Option<Candidate> {
     let option = p.clear.option?;
     let (first, last) = (p.segments.first()?, p.segments.last()?);
-    let end_s = last.end_s;
-    let span_s = end_s - first.start_s;
+    let span_s = last.end_s - first.start_s;
     if span_s <= 0.0 || p.clear.closed_s <= 0.0 {
         return None;
     }
@@ -338,7 +337,7 @@ fn candidate(sat: usize, pi: usize, p: &super::PassPlan, planner: &Planner) -> O
         satellite: sat,
         antenna: 0,
         start_s: first.start_s,
-        end_s,
+        end_s: last.end_s,
         rate_bps: planner.rates().ladder[option.0].rate_bps,
         duty: (p.clear.volume_bits / (planner.rates().ladder[option.0].rate_bps * span_s))
             .clamp(1e-9, 1.0),
