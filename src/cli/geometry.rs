@@ -11,7 +11,7 @@ use passbudget::geometry::sun::{separation_deg, sun_az_el_deg};
 use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
 use passbudget::orbit::{ElementSet, Propagator};
 use passbudget::plan::inputs::{
-    element_age_warning, load_satellite, propagation_stop, selection_note,
+    check_element_age, element_age_warning, load_satellite, propagation_stop, selection_note,
 };
 use passbudget::plan::{Window, WindowRequest};
 use passbudget::report::geometry::{passes_csv, PassRow, TrackRow};
@@ -41,6 +41,10 @@ pub struct InputArgs {
     /// Length of the window in days.
     #[arg(long, value_name = "DAYS", allow_hyphen_values = true)]
     pub days: Option<f64>,
+    /// List even when the window lies more than 90 days from the element epoch (refused
+    /// otherwise, as `plan` refuses it: the positions are off by hundreds to thousands of km).
+    #[arg(long)]
+    pub allow_stale_elements: bool,
 }
 
 #[derive(Debug, Clone, clap::Args)]
@@ -137,6 +141,13 @@ pub fn resolve(input: &InputArgs, station_args: &[String]) -> Result<Resolved> {
         anyhow!("{flag}: {e}")
     })?;
     let (elements, propagator, selection) = load_satellite(&tle, sat.as_deref(), window.start())?;
+    check_element_age(
+        &elements,
+        window.start(),
+        window.end(),
+        input.allow_stale_elements,
+    )
+    .map_err(|s| anyhow!("{s}; --allow-stale-elements goes ahead anyway"))?;
     note(&Vec::from_iter(selection_note(&elements, &selection)));
     let stations = if !station_args.is_empty() {
         check_distinct_stations(station_args, chosen)?

@@ -208,7 +208,7 @@ pub fn element_age_warning(
     let reach = age.reach(set);
     let d = age.days;
     if d > MAX_ELEMENT_AGE_DAYS {
-        Some(format!("STALE ELEMENTS: {reach}, more than the {MAX_ELEMENT_AGE_DAYS} days planning accepts without --allow-stale-elements; errors of hundreds to thousands of km: pass times, geometry and every number that follows from them are not meaningful"))
+        Some(format!("STALE ELEMENTS: {reach}, more than the {MAX_ELEMENT_AGE_DAYS} days passbudget accepts without --allow-stale-elements; errors of hundreds to thousands of km: pass times, geometry and every number that follows from them are not meaningful"))
     } else if d > 30.0 {
         Some(match OrbitClass::of(set) {
             OrbitClass::Leo => format!("STALE ELEMENTS: {reach}; errors of many tens to hundreds of km are likely for a LEO element set (pass times off by tens of seconds to minutes): get fresh elements before relying on these numbers"),

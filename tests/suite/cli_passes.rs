@@ -218,6 +218,28 @@ fn stale_elements_warn() {
     );
 }
 
+/// `passes` and `track` follow `plan`'s rule for a window more than 90 days from the epoch:
+/// refused with one line naming the flag, and the flag goes ahead with the strongest warning.
+#[test]
+fn a_window_far_from_the_epoch_is_refused_unless_allowed() {
+    let far = ["--start", "2030-12-01T00:00:00Z", "--days", "1"];
+    for command in ["passes", "track"] {
+        assert_clean_error(
+            &nordkam(command, &far),
+            &["days after the epoch", "90 days", "--allow-stale-elements"],
+        );
+        let mut args = far.to_vec();
+        args.push("--allow-stale-elements");
+        let out = nordkam(command, &args);
+        success(&out);
+        let stderr = String::from_utf8_lossy(&out.stderr);
+        assert!(
+            stderr.contains("STALE ELEMENTS") && stderr.contains("not meaningful"),
+            "{command}: {stderr}"
+        );
+    }
+}
+
 #[test]
 fn bad_inputs_give_one_clear_line() {
     let dir = tempfile::tempdir().unwrap();
