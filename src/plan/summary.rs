@@ -308,6 +308,48 @@ pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String
     ))
 }
 
+/// The adaptive mode delivering nothing on passes where a fixed rate closes, in one line: its
+/// easiest scheme needs more C/N0 than the ladder's easiest rate (another waveform, README "How
+/// the plan decides"), so its 0 beside a fixed volume is the model, not a fault. Names up to
+/// [`SUN_NOTE_LISTED`] passes, then their count. `None` when no such pass (or no option).
+pub fn adaptive_note(passes: &[PassPlan], rates: &super::prepare::RateSet) -> Option<String> {
+    let easiest = |o: &[super::rate::RateOption]| {
+        o.iter()
+            .min_by(|a, b| a.threshold_cn0_dbhz.total_cmp(&b.threshold_cn0_dbhz))
+            .cloned()
+    };
+    let (adaptive, fixed) = (easiest(&rates.adaptive)?, easiest(&rates.ladder)?);
+    let shut: Vec<usize> = passes
+        .iter()
+        .filter(|p| p.clear.volume_bits > 0.0 && p.clear.adaptive_volume_bits == 0.0)
+        .map(|p| p.number)
+        .collect();
+    let listed: Vec<String> = shut
+        .iter()
+        .take(SUN_NOTE_LISTED)
+        .map(|n| n.to_string())
+        .collect();
+    let more = match shut.len().saturating_sub(SUN_NOTE_LISTED) {
+        0 => String::new(),
+        n => format!(" and {n} more"),
+    };
+    let which = match shut.len() {
+        0 => return None,
+        1 => "pass",
+        _ => "passes",
+    };
+    Some(format!(
+        "adaptive: 0 bits in {which} {}{more}, where a fixed rate closes: its easiest scheme ({} at {}) needs C/N0 of {:.1} dBHz with the margin, the ladder's easiest ({} at {}) {:.1} dBHz",
+        listed.join(", "),
+        adaptive.scheme,
+        crate::engfmt::rate(adaptive.rate_bps),
+        adaptive.threshold_cn0_dbhz,
+        fixed.scheme,
+        crate::engfmt::rate(fixed.rate_bps),
+        fixed.threshold_cn0_dbhz,
+    ))
+}
+
 /// A pass in which the Sun degrades steps, for [`degraded_note`].
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct SunDegraded<'a> {

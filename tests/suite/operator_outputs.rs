@@ -590,3 +590,55 @@ fn stale_elements_reach_every_output() {
     assert!(p["a_rate_bps"].is_u64(), "{p}");
     assert!(p["a_volume_bits"].is_u64(), "{p}");
 }
+
+/// A pass where a fixed rate closes and the adaptive mode delivers nothing is named in a note,
+/// with the two easiest thresholds (the JSON's `rate_options`): the adaptive column's 0 beside a
+/// fixed volume is the other waveform's threshold, said where the operator reads the table.
+#[test]
+fn an_adaptive_zero_beside_a_fixed_volume_is_explained() {
+    let doc = json(&run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--days",
+        "2",
+        "--format",
+        "json",
+    ]));
+    let shut: Vec<String> = doc["passes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter(|p| {
+            p["volume_bits"].as_f64().unwrap() > 0.0
+                && p["adaptive_volume_bits"].as_f64().unwrap() == 0.0
+        })
+        .map(|p| p["number"].to_string())
+        .collect();
+    assert!(
+        !shut.is_empty(),
+        "the example's low passes no longer show the case"
+    );
+    let warnings = doc["assumptions"]["warnings"].as_array().unwrap();
+    let note = warnings
+        .iter()
+        .filter_map(|w| w.as_str())
+        .find(|w| w.starts_with("adaptive: 0 bits in"))
+        .expect("the adaptive note");
+    assert!(
+        note.contains(&format!(" {},", shut.join(", "))),
+        "{shut:?}: {note}"
+    );
+    let easiest = |mode: &str| {
+        doc["assumptions"]["rate_options"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .filter(|o| o["mode"] == mode)
+            .map(|o| o["threshold_cn0_dbhz"].as_f64().unwrap())
+            .fold(f64::INFINITY, f64::min)
+    };
+    for mode in ["adaptive", "fixed"] {
+        let want = format!("{:.1} dBHz", easiest(mode));
+        assert!(note.contains(&want), "{mode} {want}: {note}");
+    }
+}
