@@ -136,12 +136,23 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
     /// The coupling tables of `pattern` (half-power beamwidth `beamwidth_deg`, normalized to 4 pi)
     /// for the Sun and, from 1 GHz, the Moon; `flux_sfu` an observed solar flux at the link
     /// frequency (quiet Sun when `None`).
+    ///
+    /// The beamwidth only spaces the tables' grid and quadrature (the pattern itself gives the
+    /// values), so a beam wider than 180 deg, which the dish rule 70 lambda/D gives a low-gain
+    /// antenna (about -1 dBi or less: a dipole or an omni at UHF), spaces them as a 180 deg beam
+    /// would: finer than its own width asks, never coarser.
     pub fn new(
         pattern: &P,
         beamwidth_deg: f64,
         frequency_hz: f64,
         flux_sfu: Option<f64>,
     ) -> Result<Self, DiskError> {
+        // (not `min`: a NaN beamwidth stays NaN, and the tables refuse it)
+        let beamwidth_deg = if beamwidth_deg > 180.0 {
+            180.0
+        } else {
+            beamwidth_deg
+        };
         let activity = flux_sfu.map_or(SunActivity::Quiet, SunActivity::FluxSfu);
         let (lo, hi) = sun::QUIET_SUN_RANGE_HZ;
         let sun_in_range = flux_sfu.is_some() || (lo..=hi).contains(&frequency_hz);
@@ -321,6 +332,34 @@ mod tests {
         let away = model.at(&bodies, &t, az, el + 30.0);
         assert!((away.sun_separation_deg - 30.0).abs() < 1e-3);
         assert!(away.sun_k < 1e-6);
+    }
+
+    /// A beam wider than 180 deg (a -1 dBi antenna by the dish rule) builds its tables, and a
+    /// pattern flat over the Sun's disk couples G Omega / 4 pi of its brightness, Omega = 2 pi
+    /// (1 - cos r) the disk's solid angle (geometry).
+    #[test]
+    fn a_beam_wider_than_the_sky_sees_the_sun_by_its_solid_angle() {
+        let observer = Observer::new(38.52, -2.31, 780.0).unwrap();
+        let t = Utc.with_ymd_and_hms(2026, 12, 2, 12, 0, 0).unwrap();
+        let flat = |_psi_deg: f64| 0.8;
+        let f = 437.5e6;
+        let model = BodyNoise::new(&flat, 183.0, f, None).unwrap();
+        let mut bodies = PassBodies::new(&observer, &t, &t).unwrap();
+        model.reset(&mut bodies, &t, &t).unwrap();
+        let (az, el) = sun_az_el_deg(&observer, &t);
+        let r = bodies.sun.angular_radius_deg().to_radians();
+        let tb = sun::quiet_sun_brightness_k(f).unwrap();
+        let expected = 0.8 * 2.0 * std::f64::consts::PI * (1.0 - r.cos())
+            / (4.0 * std::f64::consts::PI)
+            * (tb - CMB_K);
+        for off_deg in [0.0, 20.0, 60.0] {
+            let s = model.at(&bodies, &t, az, el + off_deg).sun_k;
+            assert!(
+                (s / expected - 1.0).abs() < 1e-3,
+                "{off_deg}: {s} vs {expected}"
+            );
+        }
+        assert!(BodyNoise::new(&flat, f64::NAN, f, None).is_err());
     }
 
     #[test]
