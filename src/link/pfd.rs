@@ -215,9 +215,22 @@ pub fn pfd_shaped_dbw_m2(
     reference_bandwidth_hz: f64,
     spectrum: Spectrum,
 ) -> f64 {
-    let d_m = distance_km * 1e3;
-    let spread_db = 10.0 * (4.0 * std::f64::consts::PI * d_m * d_m).log10();
-    let share_db = match spectrum {
+    pfd_with_share_dbw_m2(
+        eirp_dbw,
+        distance_km,
+        peak_share_db(occupied_bandwidth_hz, reference_bandwidth_hz, spectrum),
+    )
+}
+
+/// 10 log10 of the `spectrum`'s largest share of the power in one `reference_bandwidth_hz` of an
+/// `occupied_bandwidth_hz` carrier, dB (0 or less): a constant of the carrier, worked out once
+/// per pass by the plan.
+pub fn peak_share_db(
+    occupied_bandwidth_hz: f64,
+    reference_bandwidth_hz: f64,
+    spectrum: Spectrum,
+) -> f64 {
+    match spectrum {
         // the uniform case exactly as before: 10 log10(max(B, B_ref) / B_ref)
         Spectrum::Uniform => {
             -10.0
@@ -229,7 +242,14 @@ pub fn pfd_shaped_dbw_m2(
                 .peak_share(occupied_bandwidth_hz, reference_bandwidth_hz)
                 .log10()
         }
-    };
+    }
+}
+
+/// pfd of `eirp_dbw` at `distance_km` with `share_db` ([`peak_share_db`]) of it in the reference
+/// bandwidth, dB(W/m2): EIRP - 10 log10(4 pi d^2) + share.
+pub fn pfd_with_share_dbw_m2(eirp_dbw: f64, distance_km: f64, share_db: f64) -> f64 {
+    let d_m = distance_km * 1e3;
+    let spread_db = 10.0 * (4.0 * std::f64::consts::PI * d_m * d_m).log10();
     eirp_dbw - spread_db + share_db
 }
 
@@ -271,13 +291,25 @@ impl BandLimit {
         occupied_bandwidth_hz: f64,
         spectrum: Spectrum,
     ) -> PfdAt {
-        let pfd = pfd_shaped_dbw_m2(
-            eirp_dbw,
-            range_km,
-            occupied_bandwidth_hz,
-            self.reference_bandwidth_hz,
-            spectrum,
-        );
+        let share_db = self.share_db(occupied_bandwidth_hz, spectrum);
+        self.at_share(eirp_dbw, range_km, elevation_deg, share_db)
+    }
+
+    /// The carrier's [`peak_share_db`] in this band's reference bandwidth, dB.
+    pub fn share_db(&self, occupied_bandwidth_hz: f64, spectrum: Spectrum) -> f64 {
+        peak_share_db(occupied_bandwidth_hz, self.reference_bandwidth_hz, spectrum)
+    }
+
+    /// [`BandLimit::at`] with the carrier's share already worked out ([`BandLimit::share_db`]):
+    /// the same value, for a pass's steps.
+    pub fn at_share(
+        &self,
+        eirp_dbw: f64,
+        range_km: f64,
+        elevation_deg: f64,
+        share_db: f64,
+    ) -> PfdAt {
+        let pfd = pfd_with_share_dbw_m2(eirp_dbw, range_km, share_db);
         let limit = self.limit_dbw_m2(elevation_deg);
         PfdAt {
             pfd_dbw_m2: pfd,

@@ -128,16 +128,11 @@ pub fn pass_margin(
     steps: &[Step],
     (occupied_bandwidth_hz, spectrum): (f64, Spectrum),
 ) -> Option<(f64, f64)> {
+    let share_db = band.share_db(occupied_bandwidth_hz, spectrum);
     steps
         .iter()
         .map(|s| {
-            let p = band.at(
-                s.eirp_dbw,
-                s.range_km,
-                s.elevation_deg,
-                occupied_bandwidth_hz,
-                spectrum,
-            );
+            let p = band.at_share(s.eirp_dbw, s.range_km, s.elevation_deg, share_db);
             (p.margin_db, s.elevation_deg)
         })
         .min_by(|a, b| a.0.total_cmp(&b.0))

@@ -123,6 +123,15 @@ pub fn sun_rise_db(s: &Step) -> f64 {
     10.0 * (s.system_temperature_k / (s.system_temperature_k - s.sun_noise_k)).log10()
 }
 
+/// Whether the Sun raises the step's system noise temperature by more than
+/// [`SUN_DEGRADED_RISE_DB`]. A rise of 1 dB needs T_sun = (1 - 10^-0.1) Tsys = 0.206 Tsys; at
+/// 0.2 Tsys or less the rise is at most 10 log10(1 / 0.8) = 0.97 dB, so there the logarithm is
+/// not taken (most steps: the Sun set or far from the beam) and the answer is the same.
+#[inline]
+pub fn sun_degrades(s: &Step) -> bool {
+    s.sun_noise_k > 0.2 * s.system_temperature_k && sun_rise_db(s) > SUN_DEGRADED_RISE_DB
+}
+
 impl BodyExposure {
     /// Gather the bodies' figures over a pass's steps.
     pub fn over(steps: &[Step]) -> BodyExposure {
@@ -135,12 +144,7 @@ impl BodyExposure {
             .fold(BodyExposure::default(), |e, s| BodyExposure {
                 min_sun_separation_deg: min(e.min_sun_separation_deg, s.sun_separation_deg),
                 max_sun_noise_k: e.max_sun_noise_k.max(s.sun_noise_k),
-                sun_degraded_s: e.sun_degraded_s
-                    + if sun_rise_db(s) > SUN_DEGRADED_RISE_DB {
-                        s.weight_s
-                    } else {
-                        0.0
-                    },
+                sun_degraded_s: e.sun_degraded_s + if sun_degrades(s) { s.weight_s } else { 0.0 },
                 min_moon_separation_deg: min(e.min_moon_separation_deg, s.moon_separation_deg),
                 max_moon_noise_k: e.max_moon_noise_k.max(s.moon_noise_k),
             })
@@ -364,4 +368,41 @@ pub struct TradeoffSeries {
 pub struct OptionSeries {
     pub option: OptionId,
     pub values: Vec<f64>,
+}
+
+#[cfg(test)]
+mod tests {
+    use super::{sun_degrades, sun_rise_db, SUN_DEGRADED_RISE_DB};
+    use crate::plan::series::Step;
+
+    /// The shortcut gives the logarithm's answer: over Sun shares of 0 to 0.99 of Tsys, finely
+    /// around the 1 dB share (1 - 10^-0.1 = 0.2057) and the 0.2 cut, and for a NaN.
+    #[test]
+    fn sun_degrades_is_the_one_db_rule() {
+        let edge = 1.0 - 10f64.powf(-0.1);
+        let shares = (0..=990)
+            .map(|k| k as f64 / 1000.0)
+            .chain((-2000..=2000).map(|k| edge + k as f64 * 1e-6))
+            .chain((-2000..=2000).map(|k| 0.2 + k as f64 * 1e-6));
+        let mut degraded = 0;
+        for share in shares {
+            for tsys_k in [50.0, 183.7, 1.0e4] {
+                let s = Step {
+                    system_temperature_k: tsys_k,
+                    sun_noise_k: share * tsys_k,
+                    ..Step::default()
+                };
+                let by_log = sun_rise_db(&s) > SUN_DEGRADED_RISE_DB;
+                assert_eq!(sun_degrades(&s), by_log, "share {share}, Tsys {tsys_k}");
+                degraded += usize::from(by_log);
+            }
+        }
+        assert!(degraded > 1000, "{degraded}");
+        let nan = Step {
+            system_temperature_k: f64::NAN,
+            sun_noise_k: 10.0,
+            ..Step::default()
+        };
+        assert!(!sun_degrades(&nan));
+    }
 }

@@ -10,7 +10,7 @@
 //! [`TransitSink::transits`]. The figures come from the plan's own steps (clear sky), so they
 //! agree with its per-step CSV.
 
-use super::results::{sun_rise_db as rise_db, PassSeries, SUN_DEGRADED_RISE_DB};
+use super::results::{sun_degrades, sun_rise_db as rise_db, PassSeries};
 use super::series::Step;
 use super::sink::PassSink;
 use crate::orbit::ElementSet;
@@ -38,7 +38,7 @@ pub struct SunTransit {
     pub max_sun_noise_k: f64,
     /// Largest rise of the system noise temperature, 10 log10(Tsys / (Tsys - T_sun)), dB.
     pub max_rise_db: f64,
-    /// Seconds with a rise above [`SUN_DEGRADED_RISE_DB`].
+    /// Seconds with a rise above [`SUN_DEGRADED_RISE_DB`](super::results::SUN_DEGRADED_RISE_DB).
     pub degraded_s: f64,
 }
 
@@ -54,7 +54,7 @@ pub struct OutageSeason {
     pub last_day: NaiveDate,
     /// Days with a transit (a rise of at least [`TRANSIT_RISE_DB`]).
     pub days: usize,
-    /// Days with a rise above [`SUN_DEGRADED_RISE_DB`].
+    /// Days with a rise above [`SUN_DEGRADED_RISE_DB`](super::results::SUN_DEGRADED_RISE_DB).
     pub degraded_days: usize,
     pub max_sun_noise_k: f64,
     pub max_rise_db: f64,
@@ -134,7 +134,7 @@ fn transit(p: &super::PassPlan, run: &[Step]) -> SunTransit {
         max_rise_db: run.iter().map(rise_db).fold(0.0, f64::max),
         degraded_s: run
             .iter()
-            .filter(|s| rise_db(s) > SUN_DEGRADED_RISE_DB)
+            .filter(|s| sun_degrades(s))
             // from +0 (an empty f64 sum is -0)
             .fold(0.0, |a, s| a + s.weight_s),
     }
