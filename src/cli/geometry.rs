@@ -41,7 +41,7 @@ pub struct InputArgs {
     /// Length of the window in days.
     #[arg(long, value_name = "DAYS", allow_hyphen_values = true)]
     pub days: Option<f64>,
-    /// List even when the window lies more than 90 days from the element epoch (refused
+    /// Go ahead even when the window lies more than 90 days from the element epoch (refused
     /// otherwise, as `plan` refuses it: the positions are off by hundreds to thousands of km).
     #[arg(long)]
     pub allow_stale_elements: bool,
