@@ -68,6 +68,21 @@ pub struct Look {
     pub azimuth_rate_deg_s: f64,
 }
 
+/// The station-to-satellite line at one instant in east/north/up components, with its az-el
+/// angles before the azimuth is wrapped: what [`Observer::look_and_line`] gives a mount besides
+/// the [`Look`], so that an az-el mount's follower takes the look's own angles.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct LineOfSight {
+    /// (e, n, u), km.
+    pub enu_km: [f64; 3],
+    /// (ė, ṅ, u̇), km/s.
+    pub enu_rate_km_s: [f64; 3],
+    /// [atan2(e, n), atan2(u, sqrt(e² + n²))], deg: the azimuth in (-180, 180] (also at the
+    /// zenith, where the look's azimuth is 0) and the elevation, the same values (to the bit) as
+    /// an az-el gimbal's axis angles ([`crate::geometry::mount`]).
+    pub az_el_deg: [f64; 2],
+}
+
 #[inline]
 fn dot(a: &[f64; 3], b: &[f64; 3]) -> f64 {
     a[0] * b[0] + a[1] * b[1] + a[2] * b[2]
@@ -145,7 +160,13 @@ impl Observer {
     }
 
     /// Look angles, range, rates and off-nadir angle to an Earth-fixed satellite state.
+    #[inline]
     pub fn look(&self, sat: &EcefState) -> Look {
+        self.look_and_line(sat).0
+    }
+
+    /// [`Observer::look`] and the line of sight it was made from ([`LineOfSight`]).
+    pub fn look_and_line(&self, sat: &EcefState) -> (Look, LineOfSight) {
         let r = &sat.position_km;
         let v = &sat.velocity_km_s;
         let rho = [
@@ -165,10 +186,11 @@ impl Observer {
         // range rate = ρ·ρ̇ / |ρ|
         let range_rate_km_s = (e * ed + n * nd + u * ud) / range_km;
         let elevation_deg = u.atan2(h).to_degrees();
+        let azimuth_signed_deg = e.atan2(n).to_degrees();
         let (azimuth_deg, azimuth_rate_deg_s, elevation_rate_deg_s) = if h > 1e-9 {
             let hd = (e * ed + n * nd) / h;
             (
-                super::wrap360_deg(e.atan2(n).to_degrees()),
+                super::wrap360_deg(azimuth_signed_deg),
                 ((ed * n - e * nd) / h2).to_degrees(),
                 ((ud * h - u * hd) / (range_km * range_km)).to_degrees(),
             )
@@ -178,7 +200,7 @@ impl Observer {
         let r_norm = dot(r, r).sqrt();
         // off-nadir = acos(r·ρ / (|r| |ρ|))
         let c = (dot(r, &rho) / (r_norm * range_km)).clamp(-1.0, 1.0);
-        Look {
+        let look = Look {
             azimuth_deg: if azimuth_deg >= 360.0 {
                 0.0
             } else {
@@ -190,7 +212,13 @@ impl Observer {
             off_nadir_deg: c.acos().to_degrees(),
             elevation_rate_deg_s,
             azimuth_rate_deg_s,
-        }
+        };
+        let line = LineOfSight {
+            enu_km: [e, n, u],
+            enu_rate_km_s: [ed, nd, ud],
+            az_el_deg: [azimuth_signed_deg, elevation_deg],
+        };
+        (look, line)
     }
 }
 

@@ -29,7 +29,7 @@ pub fn wrap360_deg(x: f64) -> f64 {
 }
 
 pub use horizon::{HorizonError, HorizonMask};
-pub use look::{doppler_hz, Look, Observer, ObserverError};
+pub use look::{doppler_hz, LineOfSight, Look, Observer, ObserverError};
 pub use mount::{AxisRates, Mount, MountKind};
 pub use passes::{find_passes, track, Pass, PassSearch, Track};
 

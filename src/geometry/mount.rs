@@ -50,6 +50,8 @@
 //! The lag of a rate-limited axis (no acceleration limit) at the end of the exceeded interval is
 //! the azimuth swing over it less L T: 2 atan(τ* / sin ζ0) − L T, also checked in the tests.
 
+use super::look::LineOfSight;
+
 /// Mount geometry: where the primary axis points.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub enum MountKind {
@@ -207,8 +209,20 @@ impl Mount {
     /// Move the follower `dt_s` on, towards the target now at `rho_enu_km`; returns the angle
     /// between where the antenna points and the target, deg.
     pub fn follow(&self, f: &mut Follower, rho_enu_km: &[f64; 3], dt_s: f64) -> f64 {
-        let target = self.step_follower(f, rho_enu_km, dt_s);
+        let target = angles_in(&f.frame, rho_enu_km);
+        self.step_follower(f, target, dt_s);
         pointing_error_deg(&f.frame, f.angle_deg, target)
+    }
+
+    /// The satellite's axis angles along `line`, deg: an az-el mount's are the look's own
+    /// (`line.az_el_deg`, the same bits as its gimbal frame gives: p = north and q = east pick
+    /// n and e exactly), other mounts' from their frame.
+    #[inline]
+    pub fn target_deg(&self, f: &Follower, line: &LineOfSight) -> [f64; 2] {
+        match self.kind {
+            MountKind::AzEl => line.az_el_deg,
+            _ => angles_in(&f.frame, &line.enu_km),
+        }
     }
 
     /// As [`Mount::follow`], but only whether the pointing error exceeds `tolerance_deg`. The
@@ -223,7 +237,19 @@ impl Mount {
         dt_s: f64,
         tolerance_deg: f64,
     ) -> bool {
-        let target = self.step_follower(f, rho_enu_km, dt_s);
+        let target = angles_in(&f.frame, rho_enu_km);
+        self.follow_lost_to(f, target, dt_s, tolerance_deg)
+    }
+
+    /// [`Mount::follow_lost`] towards axis angles already worked out ([`Mount::target_deg`]).
+    pub fn follow_lost_to(
+        &self,
+        f: &mut Follower,
+        target: [f64; 2],
+        dt_s: f64,
+        tolerance_deg: f64,
+    ) -> bool {
+        self.step_follower(f, target, dt_s);
         let [lag_p, lag_s] = f.lag_deg();
         if lag_p.abs() + lag_s.abs() <= tolerance_deg {
             return false;
@@ -241,10 +267,8 @@ impl Mount {
         rates_in(&f.frame, rho_enu_km, rho_rate_enu_km_s)
     }
 
-    /// Advance the follower `dt_s` towards the target now at `rho_enu_km`; returns the target's
-    /// axis angles.
-    fn step_follower(&self, f: &mut Follower, rho_enu_km: &[f64; 3], dt_s: f64) -> [f64; 2] {
-        let target = angles_in(&f.frame, rho_enu_km);
+    /// Advance the follower `dt_s` towards the target now at the axis angles `target`.
+    fn step_follower(&self, f: &mut Follower, target: [f64; 2], dt_s: f64) {
         if dt_s > 0.0 {
             let limits = [
                 (
@@ -280,7 +304,6 @@ impl Mount {
             f.angle_deg[0] = wrap180(f.angle_deg[0]);
             f.target_deg = target;
         }
-        target
     }
 
     /// The frame `(p, q, a)` of the gimbal, in east/north/up components.
@@ -366,6 +389,53 @@ mod tests {
             secondary_max_rate_deg_s: limit,
             primary_max_acceleration_deg_s2: None,
             secondary_max_acceleration_deg_s2: None,
+        }
+    }
+
+    /// An az-el mount takes the look's angles as its axis angles ([`Mount::target_deg`]): they
+    /// are the bits its gimbal frame gives, for satellites all round the sky, at the zenith
+    /// (where the look's azimuth is 0 but the line keeps atan2(e, n)) and below the horizon.
+    #[test]
+    fn az_el_target_is_the_gimbal_frame_to_the_bit() {
+        use crate::geometry::Observer;
+        use crate::orbit::frames::EcefState;
+        let m = az_el(6.0);
+        let mut lcg = 0x2545_f491_4f6c_dd1du64;
+        let mut next = || {
+            lcg = lcg
+                .wrapping_mul(6_364_136_223_846_793_005)
+                .wrapping_add(1_442_695_040_888_963_407);
+            (lcg >> 11) as f64 / (1u64 << 53) as f64 - 0.5
+        };
+        for (lat, lon) in [(68.4, 17.95), (-33.9, 151.2), (0.0, -100.0), (89.9, 0.0)] {
+            let obs = Observer::new(lat, lon, 210.0).unwrap();
+            let up = obs.up();
+            let station = obs.position_km();
+            for k in 0..20_000 {
+                let state = EcefState {
+                    position_km: [0, 1, 2].map(|_| 14_000.0 * next()),
+                    velocity_km_s: [0, 1, 2].map(|_| 15.0 * next()),
+                };
+                // every 1000th straight overhead
+                let state = if k % 1000 == 0 {
+                    EcefState {
+                        position_km: [0, 1, 2].map(|i| station[i] + 700.0 * up[i]),
+                        ..state
+                    }
+                } else {
+                    state
+                };
+                let (_, line) = obs.look_and_line(&state);
+                let (enu, rate) = obs.enu(&state);
+                assert_eq!((line.enu_km, line.enu_rate_km_s), (enu, rate));
+                let f = m.start(&enu);
+                let from_frame = angles_in(&f.frame, &enu);
+                assert_eq!(
+                    m.target_deg(&f, &line).map(f64::to_bits),
+                    from_frame.map(f64::to_bits),
+                    "{enu:?}"
+                );
+            }
         }
     }
 

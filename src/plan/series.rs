@@ -10,7 +10,7 @@
 use crate::atmosphere::{Attenuation, ModelWarnings, Weather};
 use crate::geometry::body_track::TrackError;
 use crate::geometry::mount::Follower;
-use crate::geometry::{doppler_hz, AxisRates, Look, Mount, Pass};
+use crate::geometry::{doppler_hz, AxisRates, LineOfSight, Look, Mount, Pass};
 use crate::link::budget::{
     AtmosphereLoss, BudgetError, BudgetGeometry, BudgetValues, GeometryTerms, LinkValues, RateSpec,
 };
@@ -368,7 +368,7 @@ pub fn fill_pass(
             model.bodies.reset(bodies, &time, &end)?;
         }
         let state = orbit.at(prop, t_s)?;
-        let look = model.observer.look(&state);
+        let (look, line) = model.observer.look_and_line(&state);
         // The bodies once per step; each weather case attenuates them along its own path.
         let at = Some(
             model
@@ -383,12 +383,11 @@ pub fn fill_pass(
         warnings.below_horizon |= v.below_horizon;
         let mut step = Step::clear_sky(t_s, &look, frequency_hz, &att, &v, at);
         if let Some(m) = &model.station.mount {
-            let enu = model.observer.enu(&state);
             let tolerance_deg =
                 MOUNT_TOLERANCE_BEAMWIDTHS * model.link.ground_antenna().beamwidth_deg;
             follow_mount(
                 m,
-                enu,
+                &line,
                 steps.last(),
                 (&mut follower, tolerance_deg),
                 &mut step,
@@ -463,18 +462,18 @@ impl Step {
     }
 }
 
-/// The mount at one step: the axis rates it needs (`enu`: the line of sight and its rate,
+/// The mount at one step: the axis rates it needs (`line`: the line of sight and its rate,
 /// east/north/up), whether they (or the accelerations since `prev`) exceed its limits, and
 /// whether its follower (started at the pass's first step) still points within the tolerance.
 fn follow_mount(
     m: &Mount,
-    (rho, rho_rate): ([f64; 3], [f64; 3]),
+    line: &LineOfSight,
     prev: Option<&Step>,
     (follower, tolerance_deg): (&mut Option<Follower>, f64),
     step: &mut Step,
 ) {
-    let f = follower.get_or_insert_with(|| m.start(&rho));
-    let r = m.rates_for(f, &rho, &rho_rate);
+    let f = follower.get_or_insert_with(|| m.start(&line.enu_km));
+    let r = m.rates_for(f, &line.enu_km, &line.enu_rate_km_s);
     let before = prev.map(|p| {
         let b = AxisRates {
             primary_deg_s: p.primary_rate_deg_s,
@@ -486,5 +485,6 @@ fn follow_mount(
     step.secondary_rate_deg_s = r.secondary_deg_s;
     step.rate_exceeded = !m.can_follow(r, before);
     let dt_s = before.map_or(0.0, |b| b.1);
-    step.untracked = m.follow_lost(f, &rho, dt_s, tolerance_deg);
+    let target = m.target_deg(f, line);
+    step.untracked = m.follow_lost_to(f, target, dt_s, tolerance_deg);
 }
