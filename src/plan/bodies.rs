@@ -138,17 +138,17 @@ impl<P: PowerPattern + Clone + Sync> BodyNoise<P> {
     /// frequency (quiet Sun when `None`).
     ///
     /// The beamwidth only spaces the tables' grid and quadrature (the pattern itself gives the
-    /// values), so a beam wider than 180 deg, which the dish rule 70 lambda/D gives a low-gain
-    /// antenna (about -1 dBi or less: a dipole or an omni at UHF), spaces them as a 180 deg beam
-    /// would: finer than its own width asks, never coarser.
+    /// values), so a beam wider than 180 deg, which the dish rule 70 lambda/D gives an aperture
+    /// under 0.39 wavelengths (a gain of about -0.9 dBi or less by the equivalent aperture), spaces
+    /// them as a 180 deg beam would: finer than its own width asks, never coarser.
     pub fn new(
         pattern: &P,
         beamwidth_deg: f64,
         frequency_hz: f64,
         flux_sfu: Option<f64>,
     ) -> Result<Self, DiskError> {
-        // (not `min`: a NaN beamwidth stays NaN, and the tables refuse it)
-        let beamwidth_deg = if beamwidth_deg > 180.0 {
+        // (not `min`: a NaN or infinite beamwidth stays as it is, and the tables refuse it)
+        let beamwidth_deg = if beamwidth_deg > 180.0 && beamwidth_deg.is_finite() {
             180.0
         } else {
             beamwidth_deg
@@ -360,6 +360,7 @@ mod tests {
             );
         }
         assert!(BodyNoise::new(&flat, f64::NAN, f, None).is_err());
+        assert!(BodyNoise::new(&flat, f64::INFINITY, f, None).is_err());
     }
 
     #[test]

@@ -402,7 +402,7 @@ impl Planner {
                 &stopped,
             ))
             .chain(summary::sun_note(&passes, &self.stations))
-            .chain(summary::adaptive_note(&passes, &self.rates))
+            .chain(summary::adaptive_note(&passes, &self.stations, &self.rates))
             .chain(super::pfd::unconfirmed_notes(&self.rates, &self.pfd))
             .collect();
         Plan {

@@ -124,12 +124,15 @@ pub fn sun_rise_db(s: &Step) -> f64 {
 }
 
 /// Whether the Sun raises the step's system noise temperature by more than
-/// [`SUN_DEGRADED_RISE_DB`]. A rise of 1 dB needs T_sun = (1 - 10^-0.1) Tsys = 0.206 Tsys; at
-/// 0.2 Tsys or less the rise is at most 10 log10(1 / 0.8) = 0.97 dB, so there the logarithm is
-/// not taken (most steps: the Sun set or far from the beam) and the answer is the same.
+/// [`SUN_DEGRADED_RISE_DB`]: `sun_rise_db(s) > 1`, for every input. For Tsys > 0 a rise of 1 dB
+/// needs T_sun = (1 - 10^-0.1) Tsys = 0.206 Tsys; at 0.2 Tsys or less the rise is at most
+/// 10 log10(1 / 0.8) = 0.97 dB, so there the logarithm is not taken (most steps: the Sun set or
+/// far from the beam). Any other Tsys (0 or less, NaN) takes the logarithm.
 #[inline]
 pub fn sun_degrades(s: &Step) -> bool {
-    s.sun_noise_k > 0.2 * s.system_temperature_k && sun_rise_db(s) > SUN_DEGRADED_RISE_DB
+    let tsys_k = s.system_temperature_k;
+    let at_most_0_97_db = tsys_k > 0.0 && s.sun_noise_k <= 0.2 * tsys_k;
+    !at_most_0_97_db && sun_rise_db(s) > SUN_DEGRADED_RISE_DB
 }
 
 impl BodyExposure {
@@ -376,9 +379,22 @@ mod tests {
     use crate::plan::series::Step;
 
     /// The shortcut gives the logarithm's answer: over Sun shares of 0 to 0.99 of Tsys, finely
-    /// around the 1 dB share (1 - 10^-0.1 = 0.2057) and the 0.2 cut, and for a NaN.
+    /// around the 1 dB share (1 - 10^-0.1 = 0.2057) and the 0.2 cut, and for the inputs no plan
+    /// makes (T_sun >= Tsys, negative values, Tsys = 0, infinities, NaN).
     #[test]
     fn sun_degrades_is_the_one_db_rule() {
+        let odd = [-1e4, -10.0, -3.0, -0.0, 0.0, 3.0, 10.0, 1e4, f64::INFINITY];
+        for tsys_k in odd.iter().chain([&f64::NEG_INFINITY, &f64::NAN]) {
+            for sun_k in odd.iter().chain([&-1e-3, &f64::NAN]) {
+                let s = Step {
+                    system_temperature_k: *tsys_k,
+                    sun_noise_k: *sun_k,
+                    ..Step::default()
+                };
+                let by_log = sun_rise_db(&s) > SUN_DEGRADED_RISE_DB;
+                assert_eq!(sun_degrades(&s), by_log, "Tsys {tsys_k}, Tsun {sun_k}");
+            }
+        }
         let edge = 1.0 - 10f64.powf(-0.1);
         let shares = (0..=990)
             .map(|k| k as f64 / 1000.0)

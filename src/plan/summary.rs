@@ -271,7 +271,7 @@ pub fn no_pass_notes(
 }
 
 /// Most passes [`sun_note`] names one by one; beyond it the note gives the count and the worst.
-pub const SUN_NOTE_LISTED: usize = 5;
+pub const SUN_NOTE_LISTED: usize = NOTE_LISTED;
 
 /// What the Sun did to the window's passes, in one line: the passes where it raised the system
 /// noise temperature by more than [`SUN_DEGRADED_RISE_DB`] ([`degraded_note`]), else its closest
@@ -308,46 +308,69 @@ pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String
     ))
 }
 
+/// The start of [`adaptive_note`]'s line (a fleet's outputs pass it on by it).
+pub const ADAPTIVE_NOTE_PREFIX: &str = "adaptive: 0 bits in ";
+
+/// Most passes a note names one by one ([`sun_note`], [`adaptive_note`]).
+pub const NOTE_LISTED: usize = 5;
+
 /// The adaptive mode delivering nothing on passes where a fixed rate closes, in one line: its
 /// easiest scheme needs more C/N0 than the ladder's easiest rate (another waveform, README "How
-/// the plan decides"), so its 0 beside a fixed volume is the model, not a fault. Names up to
-/// [`SUN_NOTE_LISTED`] passes, then their count. `None` when no such pass (or no option).
-pub fn adaptive_note(passes: &[PassPlan], rates: &super::prepare::RateSet) -> Option<String> {
+/// the plan decides"), so its 0 beside a fixed volume is expected. Names up to [`NOTE_LISTED`]
+/// passes (beyond, the first of them and the count) and their stations. `None` when no such
+/// pass (or no option).
+pub fn adaptive_note(
+    passes: &[PassPlan],
+    stations: &[StationModel],
+    rates: &super::prepare::RateSet,
+) -> Option<String> {
     let easiest = |o: &[super::rate::RateOption]| {
         o.iter()
             .min_by(|a, b| a.threshold_cn0_dbhz.total_cmp(&b.threshold_cn0_dbhz))
             .cloned()
     };
     let (adaptive, fixed) = (easiest(&rates.adaptive)?, easiest(&rates.ladder)?);
-    let shut: Vec<usize> = passes
+    let shut: Vec<&PassPlan> = passes
         .iter()
         .filter(|p| p.clear.volume_bits > 0.0 && p.clear.adaptive_volume_bits == 0.0)
-        .map(|p| p.number)
         .collect();
-    let listed: Vec<String> = shut
-        .iter()
-        .take(SUN_NOTE_LISTED)
-        .map(|n| n.to_string())
+    let mut names: Vec<&str> = Vec::new();
+    for p in &shut {
+        let name = stations[p.station_index].station.name.as_str();
+        if !names.contains(&name) {
+            names.push(name);
+        }
+    }
+    let numbers: Vec<String> = (shut.iter().take(NOTE_LISTED))
+        .map(|p| p.number.to_string())
         .collect();
-    let more = match shut.len().saturating_sub(SUN_NOTE_LISTED) {
-        0 => String::new(),
-        n => format!(" and {n} more"),
-    };
     let which = match shut.len() {
         0 => return None,
-        1 => "pass",
-        _ => "passes",
+        1 => format!("pass {}", numbers[0]),
+        n if n <= NOTE_LISTED => format!("passes {}", and_list(&numbers)),
+        n => format!("{n} passes (the first {})", and_list(&numbers)),
     };
+    let rate = crate::engfmt::rate;
     Some(format!(
-        "adaptive: 0 bits in {which} {}{more}, where a fixed rate closes: its easiest scheme ({} at {}) needs C/N0 of {:.1} dBHz with the margin, the ladder's easiest ({} at {}) {:.1} dBHz",
-        listed.join(", "),
+        "{ADAPTIVE_NOTE_PREFIX}{which} at {} although a fixed rate closes there: its easiest scheme ({}, {}) needs {:.1} dBHz C/N0 with the margin, {:.1} dB more than the ladder's easiest ({}, {}, {:.1} dBHz)",
+        names.join(", "),
         adaptive.scheme,
-        crate::engfmt::rate(adaptive.rate_bps),
+        rate(adaptive.rate_bps),
         adaptive.threshold_cn0_dbhz,
+        adaptive.threshold_cn0_dbhz - fixed.threshold_cn0_dbhz,
         fixed.scheme,
-        crate::engfmt::rate(fixed.rate_bps),
+        rate(fixed.rate_bps),
         fixed.threshold_cn0_dbhz,
     ))
+}
+
+/// `a`, `a and b`, `a, b and c`.
+fn and_list(items: &[String]) -> String {
+    match items {
+        [] => String::new(),
+        [one] => one.clone(),
+        [rest @ .., last] => format!("{} and {last}", rest.join(", ")),
+    }
 }
 
 /// A pass in which the Sun degrades steps, for [`degraded_note`].

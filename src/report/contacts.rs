@@ -510,13 +510,17 @@ impl FleetDoc {
 
 /// Each warning once, prefixed with the satellites that raised it (`every satellite` when all did);
 /// with them each plan's notes of values recalled from memory (the built-in thresholds and the
-/// pfd row its figures rest on, [`crate::plan::pfd::unconfirmed_notes`]), so a fleet's outputs
-/// flag them as a single satellite's do.
+/// pfd row its figures rest on, [`crate::plan::pfd::unconfirmed_notes`]) and its adaptive note
+/// ([`crate::plan::summary::adaptive_note`]), so a fleet's outputs carry them as a single
+/// satellite's do.
 fn fleet_warnings(planners: &[&crate::plan::Planner], plans: &[Plan]) -> Vec<String> {
     let mut by_text: Vec<(String, Vec<String>)> = Vec::new();
     for (p, plan) in planners.iter().zip(plans) {
         let name = crate::plan::fleet::name_of(p);
-        let recalled = plan.notes.iter().filter(|n| n.starts_with("from memory"));
+        let recalled = plan.notes.iter().filter(|n| {
+            n.starts_with("from memory")
+                || n.starts_with(crate::plan::summary::ADAPTIVE_NOTE_PREFIX)
+        });
         for m in plan.warnings.iter().chain(recalled) {
             match by_text.iter_mut().find(|(t, _)| t == m) {
                 Some((_, who)) if !who.contains(&name) => who.push(name.clone()),
