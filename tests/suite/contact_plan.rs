@@ -468,3 +468,51 @@ fn shared_station_tables_change_no_satellite_plan() {
         assert_eq!(plan.totals, alone.totals, "satellite {i}");
     }
 }
+
+/// A fleet's warnings carry each satellite's adaptive note (prefixed with its name), naming the
+/// passes of that satellite where a fixed rate closes and the adaptive mode delivers nothing
+/// (the shipped fleet given an adaptive block of DVB-S2 QPSK at 60 Mbaud).
+#[test]
+fn a_fleet_passes_on_each_satellites_adaptive_note() {
+    let doc = json(&run(&[
+        "plan",
+        "examples/fleet/kestrel-fleet.yaml",
+        "--days",
+        "2",
+        "--set",
+        "modem.adaptive={symbol_rate_baud: 60.0e6, schemes: [dvbs2-qpsk-1/4, dvbs2-qpsk-1/2]}",
+        "--format",
+        "json",
+    ]));
+    let warnings: Vec<&str> = doc["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter_map(|w| w.as_str())
+        .collect();
+    let mut satellites_with_note = 0;
+    for sat in ["KESTREL-A", "KESTREL-B", "KESTREL-C", "KESTREL-D"] {
+        let shut: Vec<String> = doc["passes"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .filter(|p| p["satellite"] == sat)
+            .filter(|p| num(&p["volume_bits"]) > 0.0 && num(&p["adaptive_volume_bits"]) == 0.0)
+            .map(|p| p["number"].to_string())
+            .collect();
+        let note = warnings
+            .iter()
+            .find(|w| w.starts_with(&format!("{sat}: adaptive: 0 bits in")));
+        match (shut.as_slice(), note) {
+            ([], None) => {}
+            ([one], Some(n)) => assert!(n.contains(&format!(" pass {one} at ")), "{n}"),
+            ([rest @ .., last], Some(n)) => {
+                let listed = format!(" passes {} and {last} at ", rest.join(", "));
+                assert!(shut.len() > 5 || n.contains(&listed), "{listed}: {n}");
+            }
+            (s, n) => panic!("{sat}: passes {s:?}, note {n:?}"),
+        }
+        satellites_with_note += usize::from(note.is_some());
+    }
+    assert!(satellites_with_note >= 2, "{warnings:#?}");
+}
