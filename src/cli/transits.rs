@@ -37,7 +37,12 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
     let sink = TransitSink::new();
     let plan = planner.run(&sink)?;
     warn(&plan.warnings);
-    note(&plan.notes);
+    // the adaptive mode's note is about rates, which this command does not show
+    let notes: Vec<String> = (plan.notes.iter())
+        .filter(|n| !n.starts_with(passbudget::plan::summary::ADAPTIVE_NOTE_PREFIX))
+        .cloned()
+        .collect();
+    note(&notes);
     let transits = sink.transits();
     let stations = planner.stations();
     let rows: Vec<TransitRow> = transits
