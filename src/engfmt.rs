@@ -246,12 +246,10 @@ mod tests {
         }
         // Deterministic pseudo-random values over many magnitudes (a 64-bit LCG, Knuth's
         // MMIX constants), and the halves and near-halves of their scaled values.
-        let mut state: u64 = 0x2545_F491_4F6C_DD1D;
+        let mut rng = crate::test_rng::Lcg::new();
         for _ in 0..200_000 {
-            state = state
-                .wrapping_mul(6_364_136_223_846_793_005)
-                .wrapping_add(1_442_695_040_888_963_407);
-            let mantissa = (state >> 11) as f64 / (1u64 << 53) as f64;
+            let state = rng.next_u64();
+            let mantissa = crate::test_rng::Lcg::unit_of(state);
             let exponent = ((state >> 3) % 40) as i32 - 20;
             let sign = if state & 1 == 0 { 1.0 } else { -1.0 };
             let x = sign * mantissa * 10f64.powi(exponent);

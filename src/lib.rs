@@ -22,3 +22,6 @@ pub mod schedule;
 pub mod special;
 pub mod timefmt;
 pub mod units;
+
+#[cfg(test)]
+mod test_rng;

@@ -400,13 +400,8 @@ mod tests {
         use crate::geometry::Observer;
         use crate::orbit::frames::EcefState;
         let m = az_el(6.0);
-        let mut lcg = 0x2545_f491_4f6c_dd1du64;
-        let mut next = || {
-            lcg = lcg
-                .wrapping_mul(6_364_136_223_846_793_005)
-                .wrapping_add(1_442_695_040_888_963_407);
-            (lcg >> 11) as f64 / (1u64 << 53) as f64 - 0.5
-        };
+        let mut rng = crate::test_rng::Lcg::new();
+        let mut next = || rng.unit() - 0.5;
         for (lat, lon) in [(68.4, 17.95), (-33.9, 151.2), (0.0, -100.0), (89.9, 0.0)] {
             let obs = Observer::new(lat, lon, 210.0).unwrap();
             let up = obs.up();

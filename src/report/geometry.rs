@@ -161,26 +161,20 @@ mod tests {
         let values = [
             0.0, -0.0, 1e-7, -2.5e-6, 1.5e-5, 0.001, 12.5, 359.999, -123.456, 9.99e14, 1e15, 1e20,
         ];
-        let mut x = 0x2545_f491_4f6c_dd1du64;
-        let mut next = || {
-            x = x
-                .wrapping_mul(6_364_136_223_846_793_005)
-                .wrapping_add(1_442_695_040_888_963_407);
-            x
-        };
+        let mut rng = crate::test_rng::Lcg::new();
         (0..3000)
             .map(|i| {
                 let mut v = [0.0; 6];
                 for f in &mut v {
-                    let r = next();
-                    *f = if r % 4 == 0 {
+                    let r = rng.next_u64();
+                    *f = if r.is_multiple_of(4) {
                         values[(r >> 8) as usize % values.len()]
                     } else {
-                        let unit = (r >> 11) as f64 / (1u64 << 53) as f64;
+                        let unit = crate::test_rng::Lcg::unit_of(r);
                         crate::report::round((unit - 0.3) * 10f64.powi((r % 9) as i32 - 2), 3)
                     };
                 }
-                let r = next();
+                let r = rng.next_u64();
                 PassRow {
                     satellite: names[i % names.len()].into(),
                     norad_id: r >> (r % 64),

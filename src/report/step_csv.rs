@@ -357,12 +357,10 @@ mod tests {
             }
         }
         // A deterministic sweep (64-bit LCG) over magnitudes 1e-8 to 1e12 and both signs.
-        let mut state = 0x2545_f491_4f6c_dd1du64;
+        let mut rng = crate::test_rng::Lcg::new();
         for _ in 0..400_000 {
-            state = state
-                .wrapping_mul(6_364_136_223_846_793_005)
-                .wrapping_add(1_442_695_040_888_963_407);
-            let unit = (state >> 11) as f64 / (1u64 << 53) as f64;
+            let state = rng.next_u64();
+            let unit = crate::test_rng::Lcg::unit_of(state);
             let exp = ((state >> 3) % 21) as i32 - 8;
             let sign = if state & 1 == 0 { 1.0 } else { -1.0 };
             let x = sign * unit * 10f64.powi(exp);
