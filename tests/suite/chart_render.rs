@@ -138,7 +138,12 @@ fn png_stats(bytes: &[u8]) -> (u32, u32, usize, f64) {
     // palette PNGs: expand each index to its RGB colour
     decoder.set_transformations(png::Transformations::EXPAND);
     let mut reader = decoder.read_info().expect("valid PNG header");
-    let mut buf = vec![0; reader.output_buffer_size()];
+    let mut buf = vec![
+        0;
+        reader
+            .output_buffer_size()
+            .expect("an image size that fits in memory")
+    ];
     let info = reader.next_frame(&mut buf).expect("valid PNG data");
     let px = &buf[..info.buffer_size()];
     let ch = info.color_type.samples();
