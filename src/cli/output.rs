@@ -73,9 +73,9 @@ pub fn check_size(
     }
     let e = estimate_output(planner, request)?;
     let narrow = if request.csv {
-        "fewer --days, one station listed in the mission file, no --charts or --chart-format svg"
+        "fewer --days, one station listed in the mission file, no --charts"
     } else {
-        "fewer --days, one station listed in the mission file, --pass N or --kind, --format svg"
+        "fewer --days, one station listed in the mission file, --pass N or --kind"
     };
     if e.too_large() {
         anyhow::bail!(
