@@ -234,6 +234,31 @@ pub struct IndexedBitmap<'a> {
     /// Buffers of the polygon filler, kept from polygon to polygon.
     vertices: Vec<BackendCoord>,
     scratch: Scratch,
+    glyph_memo: GlyphMemo,
+}
+
+/// The blends of text pixels of one colour over one colour under them, by coverage level (a
+/// glyph's pixels lie mostly over one background): a blend is a pure function of (colour under,
+/// colour drawn, level) for the whole chart, so a remembered one stays right. A level is valid
+/// while its stamp equals `generation`; a new (colour, under) pair starts a new generation.
+struct GlyphMemo {
+    colour: u32,
+    under: u16,
+    generation: u32,
+    stamp: [u32; 256],
+    index: [u16; 256],
+}
+
+impl Default for GlyphMemo {
+    fn default() -> Self {
+        GlyphMemo {
+            colour: u32::MAX,
+            under: 0,
+            generation: 1,
+            stamp: [0; 256],
+            index: [0; 256],
+        }
+    }
 }
 
 type Error = DrawingErrorKind<Infallible>;
@@ -260,6 +285,7 @@ impl<'a> IndexedBitmap<'a> {
             h: rows,
             vertices: Vec::new(),
             scratch: Scratch::default(),
+            glyph_memo: GlyphMemo::default(),
         }
     }
 
@@ -317,6 +343,51 @@ impl<'a> IndexedBitmap<'a> {
                 self.pixels[row + k] = self.colours.blend(under, colour, level, rounding);
             }
         }
+    }
+}
+
+impl super::glyphs::GlyphTarget for IndexedBitmap<'_> {
+    /// `draw_pixel(point, color.mix(v))`, pixel for pixel, with the blends of the last (colour,
+    /// colour under) pair remembered per level ([`GlyphMemo`]).
+    #[inline]
+    fn glyph_pixel(
+        &mut self,
+        point: BackendCoord,
+        color: BackendColor,
+        v: f32,
+    ) -> Result<(), Error> {
+        let alpha = color.alpha * f64::from(v);
+        // Opaque, transparent or NaN: as draw_pixel.
+        if !(alpha > 0.0 && alpha < 1.0 - 1.0 / 256.0) {
+            return self.draw_pixel(point, color.mix(f64::from(v)));
+        }
+        if point.0 < 0 || point.1 < 0 || point.0 as u32 >= self.w || point.1 as u32 >= self.h {
+            return Ok(());
+        }
+        let at = point.1 as usize * self.w as usize + point.0 as usize;
+        // floor(256 alpha) < 255 here
+        let level = (alpha * 256.0) as usize;
+        let (under, colour) = (self.pixels[at], rgb_of(color));
+        let m = &mut self.glyph_memo;
+        if m.colour != colour || m.under != under {
+            (m.colour, m.under) = (colour, under);
+            m.generation = m.generation.wrapping_add(1);
+            if m.generation == 0 {
+                m.stamp = [0; 256];
+                m.generation = 1;
+            }
+        }
+        let idx = if m.stamp[level] == m.generation {
+            m.index[level]
+        } else {
+            let idx = self
+                .colours
+                .blend(under, colour, level as u64, Rounding::TowardOld);
+            (m.stamp[level], m.index[level]) = (m.generation, idx);
+            idx
+        };
+        self.pixels[at] = idx;
+        Ok(())
     }
 }
 
@@ -423,9 +494,10 @@ impl DrawingBackend for IndexedBitmap<'_> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::chart::glyphs::GlyphTarget;
     use plotters::prelude::*;
 
-    /// Pixels, one-pixel lines, rectangles and polygons (plotters' rasterizer against
+    /// Pixels, text pixels, one-pixel lines, rectangles and polygons (plotters' rasterizer against
     /// [`scanline`]), opaque and blended at many levels, over one another and cut by the edges
     /// (the blended rectangles at every width across the eight-pixel groups of plotters' fast
     /// blend): the colours of the indices are plotters' RGB pixels.
@@ -449,6 +521,27 @@ mod tests {
                 b(Op::Line((x + 2, y + 9), (x + 2, y - k), c));
                 b(Op::Line((x, y), (x + 17, y + k % 11 + 3), c));
                 b(Op::Pixel((x + 1, y + 1), c));
+                // Text pixels at coverages across the blend levels (none, opaque, NaN too), over
+                // what is already drawn: the memo of blends against draw_pixel.
+                for (j, v) in [
+                    0.0,
+                    0.003,
+                    0.2,
+                    0.5,
+                    0.77,
+                    0.995,
+                    0.9961,
+                    1.0,
+                    f32::NAN,
+                    0.31,
+                ]
+                .into_iter()
+                .enumerate()
+                {
+                    let j = j as i32;
+                    b(Op::Glyph((x + j, y + 2 + j % 3), c, v));
+                    b(Op::Glyph((x + j, y + 2 + j % 3), c, 0.5 * v));
+                }
                 // Polygons: a triangle, a concave and a self-crossing one, a wide line (one
                 // sweeping columns, one rows), cut by the edges.
                 b(Op::Polygon(
@@ -519,10 +612,11 @@ mod tests {
         Pixel(BackendCoord, BackendColor),
         Polygon(Vec<BackendCoord>, BackendColor),
         Wide(BackendCoord, BackendCoord, BackendColor, u32),
+        Glyph(BackendCoord, BackendColor, f32),
     }
 
     impl Op {
-        fn apply<B: DrawingBackend>(&self, b: &mut B) {
+        fn apply<B: GlyphTarget>(&self, b: &mut B) {
             let style = |c: &BackendColor| ShapeStyle {
                 color: RGBColor(c.rgb.0, c.rgb.1, c.rgb.2).mix(c.alpha),
                 filled: true,
@@ -532,6 +626,7 @@ mod tests {
                 Op::Rect(a, z, c) => b.draw_rect(*a, *z, &style(c), true),
                 Op::Line(a, z, c) => b.draw_line(*a, *z, &style(c)),
                 Op::Pixel(a, c) => b.draw_pixel(*a, *c),
+                Op::Glyph(a, c, v) => b.glyph_pixel(*a, *c, *v),
                 Op::Polygon(v, c) => b.fill_polygon(v.iter().copied(), &style(c)),
                 Op::Wide(a, z, c, width) => {
                     b.draw_path([*a, *z, (z.0 + 9, z.1 - 4)], &style(c).stroke_width(*width))
