@@ -48,6 +48,9 @@ pub struct Colours {
     /// colour, a translucent rectangle over one background).
     last_index: (u32, u16),
     last_blend: (u64, u16),
+    /// The runs of the last image [`Colours::to_palette`] read, kept for the next (a chart holds
+    /// some 10^5 runs).
+    runs: Vec<(u16, u32)>,
 }
 
 impl Default for Colours {
@@ -67,6 +70,7 @@ impl Colours {
             blend_values: vec![0; BLEND_CACHE],
             last_index: (u32::MAX, 0),
             last_blend: (u64::MAX, 0),
+            runs: Vec::new(),
         }
     }
 
@@ -160,12 +164,13 @@ impl Colours {
     /// [`super::palette::quantize_into`] makes them from the same image in RGB: the
     /// [`PALETTE_MAX`] most frequent colours (equal counts by colour), every other colour drawn
     /// with the nearest of them. Returns the palette as RGB triples.
-    pub fn to_palette(&self, pixels: &[u16], out: &mut Vec<u8>) -> Vec<u8> {
+    pub fn to_palette(&mut self, pixels: &[u16], out: &mut Vec<u8>) -> Vec<u8> {
         // An index past the table (pixels not drawn with these colours) counts for nothing and is
         // stored as 0.
         let mut counts = vec![0u32; self.rgb.len()];
         // The image is read once: its runs are kept for the indexed image.
-        let mut all_runs: Vec<(u16, u32)> = Vec::with_capacity(pixels.len() / 64);
+        let mut all_runs = std::mem::take(&mut self.runs);
+        all_runs.clear();
         runs(pixels, |p, n| {
             if let Some(c) = counts.get_mut(usize::from(p)) {
                 *c += n;
@@ -188,11 +193,12 @@ impl Colours {
                 nearest(&kept, c)
             };
         }
-        let runs = all_runs.into_iter().map(|(p, n)| {
+        let runs = all_runs.iter().map(|&(p, n)| {
             let v = map.get(usize::from(p)).copied().unwrap_or(0);
             (v, n as usize)
         });
         write_runs(runs, pixels.len(), out);
+        self.runs = all_runs;
         triples(&kept)
     }
 }
