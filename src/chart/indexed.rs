@@ -7,7 +7,7 @@
 //! here with the same clipping and the same blend arithmetic on the colours the indices stand
 //! for, and everything else (polygons, wide lines, circles, text) goes through the same
 //! rasterizers of `plotters_backend`, which call these. A blend is worked out once per (colour
-//! under it, colour drawn, blend level) and then found in a small cache. [`Colours::to_palette`]
+//! under it, colour drawn, blend level) and then found in a small cache. [`Colours::build_palette`]
 //! then chooses the 256 most frequent colours exactly as [`super::palette::quantize`] does from
 //! an RGB buffer, so the PNG bytes are the same (`tests`: every chart drawn both ways).
 
@@ -48,7 +48,7 @@ pub struct Colours {
     /// colour, a translucent rectangle over one background).
     last_index: (u32, u16),
     last_blend: (u64, u16),
-    /// The runs of the last image [`Colours::to_palette`] read, kept for the next (a chart holds
+    /// The runs of the last image [`Colours::build_palette`] read, kept for the next (a chart holds
     /// some 10^5 runs).
     runs: Vec<(u16, u32)>,
 }
@@ -164,7 +164,7 @@ impl Colours {
     /// [`super::palette::quantize_into`] makes them from the same image in RGB: the
     /// [`PALETTE_MAX`] most frequent colours (equal counts by colour), every other colour drawn
     /// with the nearest of them. Returns the palette as RGB triples.
-    pub fn to_palette(&mut self, pixels: &[u16], out: &mut Vec<u8>) -> Vec<u8> {
+    pub fn build_palette(&mut self, pixels: &[u16], out: &mut Vec<u8>) -> Vec<u8> {
         // An index past the table (pixels not drawn with these colours) counts for nothing and is
         // stored as 0.
         let mut counts = vec![0u32; self.rgb.len()];
@@ -604,7 +604,7 @@ mod tests {
         assert!(rgb.iter().filter(|&&b| b != 255).count() > 3000);
         assert!(drawn == rgb, "the indexed backend changed pixels");
         let (mut ours, mut theirs) = (Vec::new(), Vec::new());
-        let palette = colours.to_palette(&pixels, &mut ours);
+        let palette = colours.build_palette(&pixels, &mut ours);
         assert_eq!(
             palette,
             super::super::palette::quantize_into(&rgb, &mut theirs)
@@ -659,12 +659,12 @@ mod tests {
         // Pixels of indices the table does not hold (a table cleared after drawing).
         let mut colours = Colours::new();
         let mut out = Vec::new();
-        assert!(colours.to_palette(&[3, 3, 0], &mut out).is_empty());
+        assert!(colours.build_palette(&[3, 3, 0], &mut out).is_empty());
         assert_eq!(out, vec![0, 0, 0]);
         colours.clear();
         colours.index(0x12_34_56);
         assert_eq!(
-            colours.to_palette(&[0, 7, 0], &mut out),
+            colours.build_palette(&[0, 7, 0], &mut out),
             vec![0x12, 0x34, 0x56]
         );
         assert_eq!(out, vec![0, 0, 0]);

@@ -89,7 +89,7 @@ fn render<P: Plot>(chart: &P, format: ChartFormat) -> Result<Vec<u8>, ChartError
                     .map_err(ChartError::from)
                     .map_err(in_chart(P::NAME))?;
             }
-            let palette = colours.to_palette(pixels, indices);
+            let palette = colours.build_palette(pixels, indices);
             encode_png(palette, indices, w, h)
         }),
         ChartFormat::Svg => {
@@ -184,7 +184,7 @@ where
     Ok(())
 }
 
-/// Encode a chart's palette and one-byte indices ([`indexed::Colours::to_palette`]: the 256 most
+/// Encode a chart's palette and one-byte indices ([`indexed::Colours::build_palette`]: the 256 most
 /// frequent colours, exact for a chart of 256 colours or fewer) as a palette PNG, unfiltered, at
 /// deflate level 2 (`flate2` on its zlib-rs backend). One byte per pixel instead of three. On the
 /// example week's 169 charts (264 million pixels, one thread, 2026-12-04): 12.9 MB in 0.46 s,

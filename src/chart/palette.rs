@@ -9,7 +9,7 @@
 //! one colour is one count) in an open-addressing table.
 //!
 //! The charts themselves are drawn into colour indices (`super::indexed`), whose
-//! `Colours::to_palette` applies this rule to the index image; [`quantize`] is the rule on an RGB
+//! `Colours::build_palette` applies this rule to the index image; [`quantize`] is the rule on an RGB
 //! buffer, the reference the tests compare with.
 
 /// Most colours a palette PNG holds.
@@ -162,7 +162,7 @@ pub fn quantize_into(rgb: &[u8], indices: &mut Vec<u8>) -> Vec<u8> {
 
 /// The palette's order: most frequent first, equal counts by colour (so that the palette does not
 /// depend on the order colours were met), for `(count, colour)`. The one rule of both
-/// [`quantize_into`] and the indexed charts' `Colours::to_palette`.
+/// [`quantize_into`] and the indexed charts' `Colours::build_palette`.
 pub(super) fn by_frequency(a: (u32, u32), b: (u32, u32)) -> std::cmp::Ordering {
     b.0.cmp(&a.0).then(a.1.cmp(&b.1))
 }
