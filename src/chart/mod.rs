@@ -196,7 +196,7 @@ where
 /// "Filter selection": filter type None for indexed colour). miniz_oxide, `flate2`'s
 /// default backend, took 1.3 s at level 2.
 fn encode_png(palette: Vec<u8>, indices: &[u8], w: u32, h: u32) -> Result<Vec<u8>, ChartError> {
-    let mut out = Vec::with_capacity(indices.len() / 16);
+    let mut out = Vec::with_capacity(indices.len() / 12);
     {
         let mut enc = png::Encoder::new(&mut out, w, h);
         enc.set_color(png::ColorType::Indexed);
