@@ -371,8 +371,9 @@ impl super::glyphs::GlyphTarget for IndexedBitmap<'_> {
             return Ok(());
         }
         let at = point.1 as usize * self.w as usize + point.0 as usize;
-        // floor(256 alpha) < 255 here
-        let level = (alpha * 256.0) as usize;
+        // floor(256 alpha) < 255 here: a cast through i32 truncates the same (and costs less
+        // than one to an unsigned 64-bit integer, which x86-64 has no instruction for).
+        let level = (alpha * 256.0) as i32 as usize;
         let (under, colour) = (self.pixels[at], rgb_of(color));
         let m = &mut self.glyph_memo;
         if m.colour != colour || m.under != under {
@@ -420,7 +421,8 @@ impl DrawingBackend for IndexedBitmap<'_> {
         if alpha >= 1.0 - 1.0 / 256.0 {
             self.pixels[at] = self.colours.index(rgb_of(color));
         } else if alpha > 0.0 {
-            let level = (alpha * 256.0) as u64;
+            // in 0..255 (alpha < 255/256): the cast through i32 as in glyph_pixel
+            let level = (alpha * 256.0) as i32 as u64;
             let under = self.pixels[at];
             self.pixels[at] = self
                 .colours
