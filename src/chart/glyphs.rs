@@ -7,8 +7,7 @@
 //! pixel (`x_shift as i32`, `y = size / 2 + top of the glyph's bounds`), so its coverage does not
 //! depend on where it is drawn; [`CachedText::draw_text`] repeats the layout of the backend's
 //! default `draw_text` (anchor, transform, clipping) and of plotters' glyph loop (kerning,
-//! advances), and hands the same pixels with the same colours to the same `draw_pixel` (through
-//! [`GlyphTarget::glyph_pixel`], which the index backend answers from a memo of its blends). The
+//! advances), and hands the same pixels with the same colours to the same `draw_pixel`. The
 //! test `cached_text_draws_the_same_pixels` compares whole charts drawn both ways. Any other font
 //! family or style goes through plotters unchanged.
 
@@ -73,29 +72,12 @@ fn glyph(font: &FontRef<'static>, size: f64, c: char) -> Rc<Glyph> {
     })
 }
 
-/// A backend that takes text pixels one by one: each exactly `draw_pixel(point, color.mix(v))`,
-/// which the default does; [`super::indexed::IndexedBitmap`] remembers its blends.
-pub trait GlyphTarget: DrawingBackend {
-    /// Draw `color` at coverage `v` at `point`.
-    #[inline]
-    fn glyph_pixel(
-        &mut self,
-        point: BackendCoord,
-        color: BackendColor,
-        v: f32,
-    ) -> Result<(), DrawingErrorKind<Self::ErrorType>> {
-        self.draw_pixel(point, color.mix(f64::from(v)))
-    }
-}
-
-impl GlyphTarget for plotters::backend::BitMapBackend<'_> {}
-
 /// A bitmap backend with cached glyphs for the bundled font (see the module note).
 pub struct CachedText<B>(pub B);
 
 type Error<B> = DrawingErrorKind<<B as DrawingBackend>::ErrorType>;
 
-impl<B: GlyphTarget> DrawingBackend for CachedText<B> {
+impl<B: DrawingBackend> DrawingBackend for CachedText<B> {
     type ErrorType = B::ErrorType;
 
     fn get_size(&self) -> (u32, u32) {
@@ -215,7 +197,7 @@ impl<B: GlyphTarget> DrawingBackend for CachedText<B> {
                 let (x, y) = trans.transform(x + xs + dx - min_x, y + g.y_shift + dy - min_y);
                 let (x, y) = (pos.0 + x, pos.1 + y);
                 if x >= 0 && x < w as i32 && y >= 0 && y < h as i32 {
-                    self.0.glyph_pixel((x, y), color, v)?;
+                    self.0.draw_pixel((x, y), color.mix(f64::from(v)))?;
                 }
             }
             x_shift += g.h_advance;

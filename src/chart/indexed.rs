@@ -240,14 +240,14 @@ pub struct IndexedBitmap<'a> {
     /// Buffers of the polygon filler, kept from polygon to polygon.
     vertices: Vec<BackendCoord>,
     scratch: Scratch,
-    glyph_memo: GlyphMemo,
+    pixel_memo: PixelMemo,
 }
 
-/// The blends of text pixels of one colour over one colour under them, by coverage level (a
-/// glyph's pixels lie mostly over one background): a blend is a pure function of (colour under,
-/// colour drawn, level) for the whole chart, so a remembered one stays right. A level is valid
-/// while its stamp equals `generation`; a new (colour, under) pair starts a new generation.
-struct GlyphMemo {
+/// The blended pixels of one colour over one colour under them, by level (a glyph's or an edge's
+/// pixels lie mostly over one background): a blend is a pure function of (colour under, colour
+/// drawn, level) for the whole chart, so a remembered one stays right. A level is valid while its
+/// stamp equals `generation`; a new (colour, under) pair starts a new generation.
+struct PixelMemo {
     colour: u32,
     under: u16,
     generation: u32,
@@ -255,9 +255,9 @@ struct GlyphMemo {
     index: [u16; 256],
 }
 
-impl Default for GlyphMemo {
+impl Default for PixelMemo {
     fn default() -> Self {
-        GlyphMemo {
+        PixelMemo {
             colour: u32::MAX,
             under: 0,
             generation: 1,
@@ -291,7 +291,7 @@ impl<'a> IndexedBitmap<'a> {
             h: rows,
             vertices: Vec::new(),
             scratch: Scratch::default(),
-            glyph_memo: GlyphMemo::default(),
+            pixel_memo: PixelMemo::default(),
         }
     }
 
@@ -315,6 +315,28 @@ impl<'a> IndexedBitmap<'a> {
             (a.0.max(b.0), a.1.max(b.1)),
             idx,
         );
+    }
+
+    /// [`Colours::blend`] rounding towards the old colour, from [`PixelMemo`] where it holds it.
+    #[inline]
+    fn memo_blend(&mut self, under: u16, colour: u32, level: usize) -> u16 {
+        let m = &mut self.pixel_memo;
+        if m.colour != colour || m.under != under {
+            (m.colour, m.under) = (colour, under);
+            m.generation = m.generation.wrapping_add(1);
+            if m.generation == 0 {
+                m.stamp = [0; 256];
+                m.generation = 1;
+            }
+        }
+        if m.stamp[level] == m.generation {
+            return m.index[level];
+        }
+        let idx = self
+            .colours
+            .blend(under, colour, level as u64, Rounding::TowardOld);
+        (m.stamp[level], m.index[level]) = (m.generation, idx);
+        idx
     }
 
     /// plotters' `blend_rect_fast`: per row, the pixels in whole groups of eight before the
@@ -352,52 +374,6 @@ impl<'a> IndexedBitmap<'a> {
     }
 }
 
-impl super::glyphs::GlyphTarget for IndexedBitmap<'_> {
-    /// `draw_pixel(point, color.mix(v))`, pixel for pixel, with the blends of the last (colour,
-    /// colour under) pair remembered per level ([`GlyphMemo`]).
-    #[inline]
-    fn glyph_pixel(
-        &mut self,
-        point: BackendCoord,
-        color: BackendColor,
-        v: f32,
-    ) -> Result<(), Error> {
-        let alpha = color.alpha * f64::from(v);
-        // Opaque, transparent or NaN: as draw_pixel.
-        if !(alpha > 0.0 && alpha < 1.0 - 1.0 / 256.0) {
-            return self.draw_pixel(point, color.mix(f64::from(v)));
-        }
-        if point.0 < 0 || point.1 < 0 || point.0 as u32 >= self.w || point.1 as u32 >= self.h {
-            return Ok(());
-        }
-        let at = point.1 as usize * self.w as usize + point.0 as usize;
-        // floor(256 alpha) < 255 here: a cast through i32 truncates the same (and costs less
-        // than one to an unsigned 64-bit integer, which x86-64 has no instruction for).
-        let level = (alpha * 256.0) as i32 as usize;
-        let (under, colour) = (self.pixels[at], rgb_of(color));
-        let m = &mut self.glyph_memo;
-        if m.colour != colour || m.under != under {
-            (m.colour, m.under) = (colour, under);
-            m.generation = m.generation.wrapping_add(1);
-            if m.generation == 0 {
-                m.stamp = [0; 256];
-                m.generation = 1;
-            }
-        }
-        let idx = if m.stamp[level] == m.generation {
-            m.index[level]
-        } else {
-            let idx = self
-                .colours
-                .blend(under, colour, level as u64, Rounding::TowardOld);
-            (m.stamp[level], m.index[level]) = (m.generation, idx);
-            idx
-        };
-        self.pixels[at] = idx;
-        Ok(())
-    }
-}
-
 impl DrawingBackend for IndexedBitmap<'_> {
     type ErrorType = Infallible;
 
@@ -412,6 +388,7 @@ impl DrawingBackend for IndexedBitmap<'_> {
     }
 
     /// plotters' bitmap `draw_pixel`: opaque from 255/256 on, blended at `floor(256 alpha)`.
+    #[inline]
     fn draw_pixel(&mut self, point: BackendCoord, color: BackendColor) -> Result<(), Error> {
         if point.0 < 0 || point.1 < 0 || point.0 as u32 >= self.w || point.1 as u32 >= self.h {
             return Ok(());
@@ -421,12 +398,11 @@ impl DrawingBackend for IndexedBitmap<'_> {
         if alpha >= 1.0 - 1.0 / 256.0 {
             self.pixels[at] = self.colours.index(rgb_of(color));
         } else if alpha > 0.0 {
-            // in 0..255 (alpha < 255/256): the cast through i32 as in glyph_pixel
-            let level = (alpha * 256.0) as i32 as u64;
+            // floor(256 alpha) < 255 here: a cast through i32 truncates the same (and costs less
+            // than one to an unsigned 64-bit integer, which x86-64 has no instruction for).
+            let level = (alpha * 256.0) as i32 as usize;
             let under = self.pixels[at];
-            self.pixels[at] = self
-                .colours
-                .blend(under, rgb_of(color), level, Rounding::TowardOld);
+            self.pixels[at] = self.memo_blend(under, rgb_of(color), level);
         }
         Ok(())
     }
@@ -502,10 +478,9 @@ impl DrawingBackend for IndexedBitmap<'_> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::chart::glyphs::GlyphTarget;
     use plotters::prelude::*;
 
-    /// Pixels, text pixels, one-pixel lines, rectangles and polygons (plotters' rasterizer against
+    /// Pixels (text's coverages too), one-pixel lines, rectangles and polygons (plotters' rasterizer against
     /// [`scanline`]), opaque and blended at many levels, over one another and cut by the edges
     /// (the blended rectangles at every width across the eight-pixel groups of plotters' fast
     /// blend): the colours of the indices are plotters' RGB pixels.
@@ -529,8 +504,8 @@ mod tests {
                 b(Op::Line((x + 2, y + 9), (x + 2, y - k), c));
                 b(Op::Line((x, y), (x + 17, y + k % 11 + 3), c));
                 b(Op::Pixel((x + 1, y + 1), c));
-                // Text pixels at coverages across the blend levels (none, opaque, NaN too), over
-                // what is already drawn: the memo of blends against draw_pixel.
+                // Pixels at coverages across the blend levels (none, opaque, NaN too), as text
+                // draws them, over what is already drawn: the memo of blends.
                 for (j, v) in [
                     0.0,
                     0.003,
@@ -624,7 +599,7 @@ mod tests {
     }
 
     impl Op {
-        fn apply<B: GlyphTarget>(&self, b: &mut B) {
+        fn apply<B: DrawingBackend>(&self, b: &mut B) {
             let style = |c: &BackendColor| ShapeStyle {
                 color: RGBColor(c.rgb.0, c.rgb.1, c.rgb.2).mix(c.alpha),
                 filled: true,
@@ -634,7 +609,7 @@ mod tests {
                 Op::Rect(a, z, c) => b.draw_rect(*a, *z, &style(c), true),
                 Op::Line(a, z, c) => b.draw_line(*a, *z, &style(c)),
                 Op::Pixel(a, c) => b.draw_pixel(*a, *c),
-                Op::Glyph(a, c, v) => b.glyph_pixel(*a, *c, *v),
+                Op::Glyph(a, c, v) => b.draw_pixel(*a, c.mix(f64::from(*v))),
                 Op::Polygon(v, c) => b.fill_polygon(v.iter().copied(), &style(c)),
                 Op::Wide(a, z, c, width) => {
                     b.draw_path([*a, *z, (z.0 + 9, z.1 - 4)], &style(c).stroke_width(*width))

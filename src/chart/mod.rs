@@ -191,10 +191,9 @@ where
 /// against 20.2 MB in 0.31 s for the crate's fast deflate after the Paeth filter (which that
 /// deflate needs: it codes runs of zeros) and 16.6 MB in 0.34 s at level 1. A chart's index rows
 /// repeat the row above and themselves in long runs, which the level's matches take whole, so
-/// filtering gains nothing here (Paeth then level 2: 13.2 MB), as the PNG specification advises
-/// for palette images (PNG specification, W3C / ISO/IEC 15948, the encoders' recommendation
-/// "Filter selection": filter type None for indexed colour). miniz_oxide, `flate2`'s
-/// default backend, took 1.3 s at level 2.
+/// filtering gains nothing here (Paeth then level 2: 13.2 MB), as the PNG specification (W3C /
+/// ISO/IEC 15948, the encoders' recommendation "Filter selection") advises for indexed colour.
+/// miniz_oxide, `flate2`'s default backend, took 1.3 s at level 2.
 fn encode_png(palette: Vec<u8>, indices: &[u8], w: u32, h: u32) -> Result<Vec<u8>, ChartError> {
     let mut out = Vec::with_capacity(indices.len() / 12);
     {
