@@ -91,16 +91,34 @@ pub struct StationNoise {
     ground: GroundSpec,
     mean_radiating_temperature_k: f64,
     background_k: f64,
-    clear: AntennaNoiseTable,
+    clear: CaseTable,
     /// The measured clear-sky table, `[elevation_deg, temperature_k]`, and the model's clear table.
     measured: Option<(Vec<[f64; 2]>, AntennaNoiseTable)>,
-    availability: Option<(Weather, AntennaNoiseTable, Option<TerrainNoiseTable>)>,
+    availability: Option<(Weather, CaseTable)>,
     /// The terrain above the geometric horizon ([`crate::noise::terrain::terrain_profile`]), if
-    /// any, and its clear-sky table (none with a measured antenna temperature).
+    /// any (none with a measured antenna temperature).
     terrain: Option<HorizonMask>,
-    clear_terrain: Option<TerrainNoiseTable>,
     man_made: Option<(Environment, ManMadeNoise)>,
     warnings: NoiseWarnings,
+}
+
+/// The antenna-noise table of one weather case: over elevation alone, or over elevation and
+/// azimuth for a station with terrain (whose table over elevation alone would go unused, so it
+/// is not built).
+#[derive(Debug, Clone, PartialEq)]
+enum CaseTable {
+    Flat(AntennaNoiseTable),
+    Terrain(TerrainNoiseTable),
+}
+
+impl CaseTable {
+    #[inline]
+    fn at(&self, elevation_deg: f64, azimuth_deg: f64) -> AntennaNoise {
+        match self {
+            CaseTable::Flat(t) => t.at(elevation_deg),
+            CaseTable::Terrain(t) => t.at(elevation_deg, azimuth_deg),
+        }
+    }
 }
 
 /// What a station's noise model is built from ([`StationNoise::new`]).
@@ -154,7 +172,7 @@ impl StationNoise {
             galactic_extrapolated: crate::noise::sky::galactic_extrapolation_warned(frequency_hz),
         };
         let mut s = Self {
-            clear: AntennaNoiseTable::from_rows(&[]),
+            clear: CaseTable::Flat(AntennaNoiseTable::from_rows(&[])),
             pattern,
             ground,
             mean_radiating_temperature_k,
@@ -164,27 +182,34 @@ impl StationNoise {
             warnings,
             measured: None,
             terrain: if measured.is_none() { terrain } else { None },
-            clear_terrain: None,
         };
         let brightness = s.brightness(atmosphere, Weather::ClearSky);
-        let model = AntennaNoiseTable::build(&s.pattern, &brightness);
         let rain = availability
             .filter(|w| *w != Weather::ClearSky)
             .map(|w| (w, s.brightness(atmosphere, w)));
-        let mut cases = vec![&brightness];
-        cases.extend(rain.as_ref().map(|(_, b)| b));
-        let mut terrain_tables = s.terrain_tables(&cases).into_iter();
-        s.clear_terrain = terrain_tables.next().flatten();
-        match measured {
-            Some(m) => {
-                s.clear = combine(&m, &model, &model);
-                s.measured = Some((m, model));
-            }
-            None => s.clear = model,
+        if let Some(t) = &s.terrain {
+            let mut cases = vec![&brightness];
+            cases.extend(rain.as_ref().map(|(_, b)| b));
+            let mut tables =
+                TerrainNoiseTable::build_cases(&s.pattern, &cases, t, &TerrainGrid::default())
+                    .into_iter()
+                    .map(CaseTable::Terrain);
+            s.clear = tables.next().expect("one table per case");
+            s.availability = rain.map(|(w, _)| (w, tables.next().expect("one table per case")));
+            return s;
         }
+        let model = AntennaNoiseTable::build(&s.pattern, &brightness);
+        s.clear = CaseTable::Flat(match measured {
+            Some(m) => {
+                let table = combine(&m, &model, &model);
+                s.measured = Some((m, model));
+                table
+            }
+            None => model,
+        });
         if let Some((w, b)) = rain {
             let table = s.availability_table(AntennaNoiseTable::build(&s.pattern, &b));
-            s.availability = Some((w, table, terrain_tables.next().flatten()));
+            s.availability = Some((w, CaseTable::Flat(table)));
         }
         s
     }
@@ -194,10 +219,15 @@ impl StationNoise {
         let done = self.availability.as_ref().map(|(w, ..)| *w) == Some(weather);
         if weather != Weather::ClearSky && !done {
             let brightness = self.brightness(atmosphere, weather);
-            let model = AntennaNoiseTable::build(&self.pattern, &brightness);
-            let table = self.availability_table(model);
-            let terrain = self.terrain_tables(&[&brightness]).pop().flatten();
-            self.availability = Some((weather, table, terrain));
+            let table = match &self.terrain {
+                Some(t) => {
+                    CaseTable::Terrain(TerrainNoiseTable::build(&self.pattern, &brightness, t))
+                }
+                None => CaseTable::Flat(
+                    self.availability_table(AntennaNoiseTable::build(&self.pattern, &brightness)),
+                ),
+            };
+            self.availability = Some((weather, table));
         }
     }
 
@@ -220,20 +250,6 @@ impl StationNoise {
         )
     }
 
-    /// The terrain tables of the weather cases `cases` (built together), or none each for a
-    /// station without terrain above the geometric horizon.
-    fn terrain_tables(&self, cases: &[&Brightness]) -> Vec<Option<TerrainNoiseTable>> {
-        match &self.terrain {
-            None => cases.iter().map(|_| None).collect(),
-            Some(t) => {
-                TerrainNoiseTable::build_cases(&self.pattern, cases, t, &TerrainGrid::default())
-                    .into_iter()
-                    .map(Some)
-                    .collect()
-            }
-        }
-    }
-
     /// The antenna's noise terms at boresight `elevation_deg` and `azimuth_deg` in `weather`
     /// (the azimuth matters only for a station with terrain above the geometric horizon); `None`
     /// when that weather's table was not prepared. Interpolation only; allocates nothing.
@@ -244,15 +260,7 @@ impl StationNoise {
         azimuth_deg: f64,
         weather: Weather,
     ) -> Option<ExternalNoise> {
-        let (table, terrain) = match (weather, &self.availability) {
-            (Weather::ClearSky, _) => (&self.clear, &self.clear_terrain),
-            (w, Some((a, t, tt))) if *a == w => (t, tt),
-            _ => return None,
-        };
-        let a = match terrain {
-            Some(t) => t.at(elevation_deg, azimuth_deg),
-            None => table.at(elevation_deg),
-        };
+        let a = self.case(weather)?.at(elevation_deg, azimuth_deg);
         Some(ExternalNoise {
             sky_k: a.sky_k,
             ground_k: a.ground_k,
@@ -264,7 +272,16 @@ impl StationNoise {
 
     /// The station has a terrain table: its antenna noise depends on the azimuth.
     pub fn has_terrain(&self) -> bool {
-        self.clear_terrain.is_some()
+        matches!(self.clear, CaseTable::Terrain(_))
+    }
+
+    /// The table of `weather`, if it was prepared.
+    fn case(&self, weather: Weather) -> Option<&CaseTable> {
+        match (weather, &self.availability) {
+            (Weather::ClearSky, _) => Some(&self.clear),
+            (w, Some((a, t))) if *a == w => Some(t),
+            _ => None,
+        }
     }
 
     /// The azimuth (deg, on a 0.5 deg grid) where the antenna noise at `elevation_deg` in
@@ -295,10 +312,9 @@ impl StationNoise {
 
     /// The terrain table of `weather`, if the station has one and the weather was prepared.
     pub fn terrain_table_of(&self, weather: Weather) -> Option<&TerrainNoiseTable> {
-        match (weather, &self.availability) {
-            (Weather::ClearSky, _) => self.clear_terrain.as_ref(),
-            (w, Some((a, _, t))) if *a == w => t.as_ref(),
-            _ => None,
+        match self.case(weather)? {
+            CaseTable::Terrain(t) => Some(t),
+            CaseTable::Flat(_) => None,
         }
     }
 
@@ -319,9 +335,13 @@ impl StationNoise {
         self.ground
     }
 
-    /// The clear-sky table.
-    pub fn clear_table(&self) -> &AntennaNoiseTable {
-        &self.clear
+    /// The clear-sky table over elevation; `None` for a station with terrain, whose clear-sky
+    /// table is over elevation and azimuth ([`Self::terrain_table_of`]).
+    pub fn clear_table(&self) -> Option<&AntennaNoiseTable> {
+        match &self.clear {
+            CaseTable::Flat(t) => Some(t),
+            CaseTable::Terrain(_) => None,
+        }
     }
 
     pub fn warnings(&self) -> NoiseWarnings {

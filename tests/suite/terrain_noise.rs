@@ -301,7 +301,7 @@ fn a_profile_at_the_horizon_keeps_the_elevation_table_at_every_azimuth() {
     let flat = noise(&[[0.0, 0.0], [120.0, -1.0], [240.0, 0.0]]);
     assert!(!flat.has_terrain());
     for e in [-3.0, 0.0, 0.4, 5.0, 13.0, 45.0, 90.0] {
-        let want = flat.clear_table().at(e);
+        let want = flat.clear_table().expect("a table over elevation").at(e);
         for az in [0.0, 90.0, 150.0, 271.5] {
             let got = flat.external_at(e, az, Weather::ClearSky).unwrap();
             assert_eq!((got.sky_k, got.ground_k), (want.sky_k, want.ground_k));
@@ -310,6 +310,8 @@ fn a_profile_at_the_horizon_keeps_the_elevation_table_at_every_azimuth() {
     // With the example's profile the same station has a table, and azimuth matters.
     let hilly = noise(&SIERRA_BAJA_PROFILE);
     assert!(hilly.has_terrain());
+    // Its table over elevation alone would go unused, so it is not built.
+    assert!(hilly.clear_table().is_none());
     let at = |az| {
         hilly
             .external_at(13.0, az, Weather::ClearSky)
