@@ -1,7 +1,9 @@
 //! Sine and cosine for bounded arguments, cheaper than the C library's (no large-argument
 //! reduction, no call): the pass search's predicted skip ([`super::passes`]: angles of at most a
-//! few tens of radians) and the terrain integral's quadrature nodes
-//! ([`crate::noise::terrain`]: offsets of a fraction of a radian).
+//! few tens of radians), the terrain integral's quadrature nodes ([`crate::noise::terrain`]:
+//! offsets of a fraction of a radian), and the angles of 0 to π of the antenna-noise rings
+//! ([`crate::noise::antenna_table`]) and the Sun's and Moon's disk coupling
+//! ([`crate::noise::disk`]), which the station's noise set-up evaluates millions of times.
 //!
 //! Method (standard argument reduction and minimax polynomials; the coefficients are those of
 //! fdlibm's `k_sin.c` / `k_cos.c` and its `pio2_1` / `pio2_1t` of `e_rem_pio2.c` (Sun
@@ -87,6 +89,21 @@ pub fn sin_cos(x: f64) -> (f64, f64) {
     }
 }
 
+/// sin x (one polynomial).
+#[inline]
+pub fn sin(x: f64) -> f64 {
+    if x.is_nan() || x.abs() > MAX_ARGUMENT {
+        return x.sin();
+    }
+    let (r, q) = reduce(x);
+    match q {
+        0 => sin_poly(r),
+        1 => cos_poly(r),
+        2 => -sin_poly(r),
+        _ => -cos_poly(r),
+    }
+}
+
 /// cos x (one polynomial).
 #[inline]
 pub fn cos(x: f64) -> f64 {
@@ -123,6 +140,7 @@ mod tests {
                 x.cos()
             );
             assert!((cos(x) - x.cos()).abs() <= MAX_ERROR, "cos {x:e}");
+            assert_eq!(sin(x).to_bits(), s.to_bits(), "sin {x:e}");
         };
         for k in -2600..=2600 {
             let edge = f64::from(k) * std::f64::consts::FRAC_PI_4;
@@ -145,5 +163,6 @@ mod tests {
             check(x);
         }
         assert!(sin_cos(f64::NAN).0.is_nan());
+        assert!(sin(f64::NAN).is_nan() && cos(f64::NAN).is_nan());
     }
 }

@@ -33,6 +33,7 @@
 //! the horizon where the main beam meets the ground and elsewhere).
 
 use super::pattern::{NoisePattern, GL4, GL8};
+use crate::geometry::bounded_trig as trig;
 
 /// Largest midpoint difference (K) accepted at twice the table's final spacing.
 pub const REFINE_TOLERANCE_K: f64 = 0.08;
@@ -256,7 +257,7 @@ fn ring_part(
     let mut nodes = [ProfileNode::default(); 8];
     for (k, (x, _)) in GL8.iter().enumerate() {
         let phi = lo + half * (1.0 + x);
-        nodes[k] = ProfileNode::of(a0 + b0 * phi.cos(), ground);
+        nodes[k] = ProfileNode::of(a0 + b0 * trig::cos(phi), ground);
     }
     for (b, o) in bs.iter().zip(out.iter_mut()) {
         let mut acc = 0.0;

@@ -31,6 +31,7 @@
 //! end it uses the point-source limit c = G(s) Ω / 4π, whose relative error there is of the
 //! order of (r/s)².
 
+use crate::geometry::bounded_trig as trig;
 use rayon::prelude::*;
 use std::f64::consts::{PI, TAU};
 
@@ -157,7 +158,7 @@ pub fn disk_coupling_direct(
         total += w.to_radians()
             * simpson01(n, |x| {
                 let th = x * w;
-                pattern.gain_linear(th) * TAU * th.to_radians().sin()
+                pattern.gain_linear(th) * TAU * trig::sin(th.to_radians())
             });
     }
     // Partial rings: θ ∈ [|s − r|, min(s + r, π)], θ = a + (b − a)(1 − cos u)/2, u ∈ [0, π].
@@ -166,15 +167,17 @@ pub fn disk_coupling_direct(
     if s_deg > 0.0 && b_deg > a_deg {
         let w = b_deg - a_deg;
         let n = intervals(w * PI / 2.0, node_spacing_deg);
-        let hav = |x: f64| (x / 2.0).sin().powi(2);
+        let hav = |x: f64| trig::sin(x / 2.0).powi(2);
         let hav_r = hav(r);
         let sin_s = s.sin();
         total += PI
             * simpson01(n, |x| {
                 let u = x * PI;
-                let th_deg = a_deg + w * (1.0 - u.cos()) / 2.0;
+                let (sin_u, cos_u) = trig::sin_cos(u);
+                let th_deg = a_deg + w * (1.0 - cos_u) / 2.0;
                 let th = th_deg.to_radians();
-                let den = th.sin() * sin_s;
+                let sin_th = trig::sin(th);
+                let den = sin_th * sin_s;
                 if den <= 0.0 {
                     return 0.0;
                 }
@@ -182,8 +185,8 @@ pub fn disk_coupling_direct(
                 let h = ((hav_r - hav(th - s)) / den).clamp(0.0, 1.0);
                 let psi0 = 2.0 * h.sqrt().asin();
                 // dθ/du = (b − a)/2 sin u
-                let dth_du = w.to_radians() / 2.0 * u.sin();
-                pattern.gain_linear(th_deg) * 2.0 * psi0 * th.sin() * dth_du
+                let dth_du = w.to_radians() / 2.0 * sin_u;
+                pattern.gain_linear(th_deg) * 2.0 * psi0 * sin_th * dth_du
             });
     }
     total / (2.0 * TAU)

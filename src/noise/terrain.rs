@@ -35,6 +35,7 @@
 
 use super::antenna_table::{integrate_many, AntennaNoise, Brightness, ProfileNode, Rings};
 use super::pattern::{NoisePattern, GL4, GL8};
+use crate::geometry::bounded_trig as trig;
 use crate::geometry::HorizonMask;
 
 /// Most profile kinks taken as azimuth cuts; a denser profile is cut every 360/MAX_KINKS deg.
@@ -174,7 +175,7 @@ impl<'a> TerrainIntegrator<'a> {
         s_sums: &mut [f64],
         cuts: &mut Vec<f64>,
     ) -> f64 {
-        let cd = delta.to_radians().cos();
+        let cd = trig::cos(delta.to_radians());
         let psi_of = |el_deg: f64| {
             let (se, ce) = el_deg.to_radians().sin_cos();
             (se * se0 + ce * ce0 * cd).clamp(-1.0, 1.0).acos()
@@ -215,10 +216,10 @@ impl<'a> TerrainIntegrator<'a> {
             let nodes: &[(f64, f64)] = if near { &GL8[4..] } else { &GL4[2..] };
             let half = 0.5 * (hi - lo);
             // The nodes in pairs mid ± half x: sin and cos by angle addition from the midpoint's.
-            let (sm, cm) = (lo + half).to_radians().sin_cos();
+            let (sm, cm) = trig::sin_cos((lo + half).to_radians());
             let half_rad = half.to_radians();
             for &(x, wx) in nodes {
-                let (sd, cdd) = crate::geometry::bounded_trig::sin_cos(half_rad * x);
+                let (sd, cdd) = trig::sin_cos(half_rad * x);
                 let w = wx * half_rad;
                 for (se, ce) in [
                     (sm * cdd - cm * sd, cm * cdd + sm * sd),
