@@ -273,19 +273,11 @@ pub fn save_summary(
     save(path, &draw_summary(data, format)?)
 }
 
-/// `pass-003-sierra-baja-20261202T0123Z.png`
-pub fn pass_file_name(
-    pass_number: usize,
-    station: &str,
-    aos: &DateTime<Utc>,
-    format: ChartFormat,
-) -> String {
-    format!(
-        "pass-{pass_number:03}-{}-{}.{}",
-        style::slug(station),
-        crate::timefmt::file_stamp(aos),
-        format.extension()
-    )
+/// `pass-003-sierra-baja-20261202T0128Z.png`: the pass's number and identifier
+/// ([`crate::report::pass_id`]), as its time series is named
+/// ([`crate::report::files::pass_csv_name`]).
+pub fn pass_file_name(pass_number: usize, pass_id: &str, format: ChartFormat) -> String {
+    format!("pass-{pass_number:03}-{pass_id}.{}", format.extension())
 }
 
 /// `sky-sierra-baja-20261202.png`
@@ -334,10 +326,9 @@ mod tests {
 
     #[test]
     fn file_names() {
-        let aos = utc(2026, 12, 2, 1, 23, 45);
         assert_eq!(
-            pass_file_name(3, "Sierra Baja", &aos, ChartFormat::Png),
-            "pass-003-sierra-baja-20261202T0123Z.png"
+            pass_file_name(3, "sierra-baja-20261202T0128Z", ChartFormat::Png),
+            "pass-003-sierra-baja-20261202T0128Z.png"
         );
         let day = NaiveDate::from_ymd_opt(2026, 12, 2).unwrap();
         assert_eq!(
@@ -353,7 +344,12 @@ mod tests {
             "mask-network.png"
         );
         assert_eq!(
-            summary_file_name("SAT-1", &aos, &utc(2026, 12, 9, 0, 0, 0), ChartFormat::Png),
+            summary_file_name(
+                "SAT-1",
+                &utc(2026, 12, 2, 1, 23, 45),
+                &utc(2026, 12, 9, 0, 0, 0),
+                ChartFormat::Png
+            ),
             "summary-sat-1-20261202-20261209.png"
         );
     }

@@ -84,13 +84,9 @@ impl PassSink for ChartSink<'_> {
             .insert(s.plan.number, points);
         if self.passes {
             let data = pass_chart_data(self.planner, s);
-            let station = &self.planner.stations()[s.plan.station_index].station.name;
-            let path = self.dir.join(pass_file_name(
-                s.plan.number,
-                station,
-                &s.plan.pass.aos,
-                self.format,
-            ));
+            let path = self
+                .dir
+                .join(pass_file_name(s.plan.number, &data.pass_id, self.format));
             save_in(&path, &draw_pass(&data, self.format)?, self.mode)?;
         }
         Ok(())

@@ -4,10 +4,8 @@
 //! [`super::Staging`].
 
 use super::plan::{DayRow, PlanDoc};
-use super::{slug, to_csv, write_output, WriteMode};
+use super::{to_csv, write_output, WriteMode};
 use crate::plan::{PassSeries, PassSink, Planner};
-use crate::timefmt::file_stamp;
-use chrono::{DateTime, Utc};
 use std::path::{Path, PathBuf};
 
 /// Error writing an output file: the file and what went wrong.
@@ -35,9 +33,11 @@ pub(crate) fn io_error(path: &Path, e: std::io::Error) -> FileError {
     }
 }
 
-/// File name of a pass's time series: `pass-NNN-<station>-<AOS>.csv`.
-pub fn pass_csv_name(number: usize, station: &str, aos: &DateTime<Utc>) -> String {
-    format!("pass-{number:03}-{}-{}.csv", slug(station), file_stamp(aos))
+/// File name of a pass's time series: `pass-NNN-<pass id>.csv`, the pass's number and its
+/// identifier as the tables print them ([`super::pass_id`], the minute of highest elevation):
+/// `pass-016-sierra-baja-20261202T0854Z.csv`.
+pub fn pass_csv_name(number: usize, pass_id: &str) -> String {
+    format!("pass-{number:03}-{pass_id}.csv")
 }
 
 /// Writes each pass's time series CSV into a folder.
@@ -52,9 +52,10 @@ impl PassSink for CsvSink<'_> {
     type Error = FileError;
     fn pass(&self, s: &PassSeries<'_>) -> Result<(), FileError> {
         let st = &self.planner.stations()[s.plan.station_index].station.name;
-        let path = self
-            .dir
-            .join(pass_csv_name(s.plan.number, st, &s.plan.pass.aos));
+        let path = self.dir.join(pass_csv_name(
+            s.plan.number,
+            &super::pass_id(st, &s.plan.pass),
+        ));
         // The element age (the one warning of the whole run that every number depends on), then
         // the pass's own.
         let w = self.planner.window();

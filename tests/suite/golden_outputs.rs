@@ -15,8 +15,8 @@ use std::path::Path;
 
 const GOLDEN: [&str; 3] = [
     "summary.json",
-    "pass-002-pulau-reka-20261201T1555Z.csv",
-    "pass-016-sierra-baja-20261202T0851Z.csv",
+    "pass-002-pulau-reka-20261201T1557Z.csv",
+    "pass-016-sierra-baja-20261202T0854Z.csv",
 ];
 
 #[test]
