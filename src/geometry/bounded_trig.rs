@@ -1,9 +1,9 @@
 //! Sine and cosine for bounded arguments, cheaper than the C library's (no large-argument
 //! reduction, no call): the pass search's predicted skip ([`super::passes`]: angles of at most a
-//! few tens of radians), the terrain integral's quadrature nodes ([`crate::noise::terrain`]:
-//! offsets of a fraction of a radian), and the angles of 0 to π of the antenna-noise rings
-//! ([`crate::noise::antenna_table`]) and the Sun's and Moon's disk coupling
-//! ([`crate::noise::disk`]), which the station's noise set-up evaluates millions of times.
+//! few tens of radians), and the station's noise set-up, which evaluates millions of them on
+//! angles within ±2π: the terrain integral's quadrature nodes and azimuth offsets
+//! ([`crate::noise::terrain`]), the antenna-noise rings ([`crate::noise::antenna_table`]) and
+//! the Sun's and Moon's disk coupling ([`crate::noise::disk`]).
 //!
 //! Method (standard argument reduction and minimax polynomials; the coefficients are those of
 //! fdlibm's `k_sin.c` / `k_cos.c` and its `pio2_1` / `pio2_1t` of `e_rem_pio2.c` (Sun

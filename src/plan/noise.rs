@@ -1,8 +1,8 @@
 //! The station's noise model, prepared once: the ground antenna's reference pattern
 //! ([`crate::noise::pattern`]), one antenna-noise table per weather case
-//! ([`crate::noise::antenna_table`], the sky brightness from the station's own atmosphere), for
-//! a station whose horizon mask rises above the geometric horizon one table over elevation and
-//! azimuth per weather case as well ([`crate::noise::terrain_table`]: the terrain seen by
+//! ([`crate::noise::antenna_table`], the sky brightness from the station's own atmosphere; for
+//! a station whose horizon mask rises above the geometric horizon, one table over elevation and
+//! azimuth per weather case instead, [`crate::noise::terrain_table`]: the terrain seen by
 //! azimuth), and the man-made noise of its surroundings ([`crate::noise::man_made`]). Per step,
 //! [`StationNoise::external_at`] interpolates; nothing is integrated.
 //!
@@ -146,7 +146,7 @@ pub struct NoiseInputs {
 impl StationNoise {
     /// The tables of a station's antenna noise from `inputs`: the clear-sky table and the
     /// man-made term; with terrain and no measured antenna temperature, the clear-sky table over
-    /// elevation and azimuth too; with `availability`, that weather case's tables as well (as
+    /// elevation and azimuth instead of the one over elevation alone; with `availability`, that weather case's tables as well (as
     /// [`Self::prepare_weather`] would make them), a station with terrain then getting the
     /// terrain tables of both cases built together ([`TerrainNoiseTable::build_cases`]) at little
     /// more than the cost of one.
