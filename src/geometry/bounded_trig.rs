@@ -76,7 +76,7 @@ fn cos_poly(r: f64) -> f64 {
 /// (sin x, cos x).
 #[inline]
 pub fn sin_cos(x: f64) -> (f64, f64) {
-    if x.is_nan() || x.abs() > MAX_ARGUMENT {
+    if !fast(x) {
         return x.sin_cos();
     }
     let (r, q) = reduce(x);
@@ -89,29 +89,37 @@ pub fn sin_cos(x: f64) -> (f64, f64) {
     }
 }
 
-/// sin x (one polynomial).
+/// sin x (one polynomial) as cos(x + 3π/2), which is cos(x - π/2).
 #[inline]
 pub fn sin(x: f64) -> f64 {
-    if x.is_nan() || x.abs() > MAX_ARGUMENT {
-        return x.sin();
-    }
-    let (r, q) = reduce(x);
-    match q {
-        0 => sin_poly(r),
-        1 => cos_poly(r),
-        2 => -sin_poly(r),
-        _ => -cos_poly(r),
+    if fast(x) {
+        cos_turned(x, 3)
+    } else {
+        x.sin()
     }
 }
 
 /// cos x (one polynomial).
 #[inline]
 pub fn cos(x: f64) -> f64 {
-    if x.is_nan() || x.abs() > MAX_ARGUMENT {
-        return x.cos();
+    if fast(x) {
+        cos_turned(x, 0)
+    } else {
+        x.cos()
     }
+}
+
+/// `x` is in the fast range (and not NaN).
+#[inline]
+fn fast(x: f64) -> bool {
+    x.abs() <= MAX_ARGUMENT
+}
+
+/// cos(x + turns π/2) for `x` in the fast range.
+#[inline]
+fn cos_turned(x: f64, turns: i64) -> f64 {
     let (r, q) = reduce(x);
-    match q {
+    match (q + turns) & 3 {
         0 => cos_poly(r),
         1 => -sin_poly(r),
         2 => -cos_poly(r),
