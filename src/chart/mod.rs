@@ -275,9 +275,14 @@ pub fn save_summary(
 
 /// `pass-003-sierra-baja-20261202T0128Z.png`: the pass's number and identifier
 /// ([`crate::report::pass_id`]), as its time series is named
-/// ([`crate::report::files::pass_csv_name`]).
+/// ([`crate::report::files::pass_csv_name`]); `pass-003.png` without an identifier (a
+/// [`PassChartData`] made by hand may leave it empty).
 pub fn pass_file_name(pass_number: usize, pass_id: &str, format: ChartFormat) -> String {
-    format!("pass-{pass_number:03}-{pass_id}.{}", format.extension())
+    let ext = format.extension();
+    match pass_id {
+        "" => format!("pass-{pass_number:03}.{ext}"),
+        id => format!("pass-{pass_number:03}-{id}.{ext}"),
+    }
 }
 
 /// `sky-sierra-baja-20261202.png`
@@ -330,6 +335,7 @@ mod tests {
             pass_file_name(3, "sierra-baja-20261202T0128Z", ChartFormat::Png),
             "pass-003-sierra-baja-20261202T0128Z.png"
         );
+        assert_eq!(pass_file_name(3, "", ChartFormat::Svg), "pass-003.svg");
         let day = NaiveDate::from_ymd_opt(2026, 12, 2).unwrap();
         assert_eq!(
             sky_file_name("Sierra Baja", day, ChartFormat::Svg),
