@@ -273,16 +273,14 @@ pub fn save_summary(
     save(path, &draw_summary(data, format)?)
 }
 
-/// `pass-003-sierra-baja-20261202T0128Z.png`: the pass's number and identifier
-/// ([`crate::report::pass_id`]), as its time series is named
-/// ([`crate::report::files::pass_csv_name`]); `pass-003.png` without an identifier (a
-/// [`PassChartData`] made by hand may leave it empty).
+/// `pass-003-sierra-baja-20261202T0128Z.png`: named as the pass's time series is
+/// ([`crate::report::files::pass_file_stem`]: its number and identifier).
 pub fn pass_file_name(pass_number: usize, pass_id: &str, format: ChartFormat) -> String {
-    let ext = format.extension();
-    match pass_id {
-        "" => format!("pass-{pass_number:03}.{ext}"),
-        id => format!("pass-{pass_number:03}-{id}.{ext}"),
-    }
+    format!(
+        "{}.{}",
+        crate::report::files::pass_file_stem(pass_number, pass_id),
+        format.extension()
+    )
 }
 
 /// `sky-sierra-baja-20261202.png`

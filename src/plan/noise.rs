@@ -146,10 +146,10 @@ pub struct NoiseInputs {
 impl StationNoise {
     /// The tables of a station's antenna noise from `inputs`: the clear-sky table and the
     /// man-made term; with terrain and no measured antenna temperature, the clear-sky table over
-    /// elevation and azimuth instead of the one over elevation alone; with `availability`, that weather case's tables as well (as
-    /// [`Self::prepare_weather`] would make them), a station with terrain then getting the
-    /// terrain tables of both cases built together ([`TerrainNoiseTable::build_cases`]) at little
-    /// more than the cost of one.
+    /// elevation and azimuth instead of the one over elevation alone; with `availability`, that
+    /// weather case's table as well (as [`Self::prepare_weather`] would make it), a station with
+    /// terrain then getting the terrain tables of both cases built together
+    /// ([`TerrainNoiseTable::build_cases`]) at little more than the cost of one.
     pub fn new(
         inputs: NoiseInputs,
         atmosphere: &PreparedAtmosphere,

@@ -33,11 +33,20 @@ pub(crate) fn io_error(path: &Path, e: std::io::Error) -> FileError {
     }
 }
 
-/// File name of a pass's time series: `pass-NNN-<pass id>.csv`, the pass's number and its
-/// identifier as the tables print them ([`super::pass_id`], the minute of highest elevation):
-/// `pass-016-sierra-baja-20261202T0854Z.csv`.
+/// The name of a pass's files before their extension, the one rule of its time series and its
+/// chart: `pass-NNN-<pass id>`, the pass's number and its identifier as the tables print them
+/// ([`super::pass_id`], the minute of highest elevation), `pass-016-sierra-baja-20261202T0854Z`;
+/// `pass-NNN` without an identifier (chart data made by hand may leave it empty).
+pub fn pass_file_stem(number: usize, pass_id: &str) -> String {
+    match pass_id {
+        "" => format!("pass-{number:03}"),
+        id => format!("pass-{number:03}-{id}"),
+    }
+}
+
+/// File name of a pass's time series: [`pass_file_stem`]`.csv`.
 pub fn pass_csv_name(number: usize, pass_id: &str) -> String {
-    format!("pass-{number:03}-{pass_id}.csv")
+    format!("{}.csv", pass_file_stem(number, pass_id))
 }
 
 /// Writes each pass's time series CSV into a folder.
