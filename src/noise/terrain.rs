@@ -18,13 +18,22 @@
 //! taken off the sky term.
 //!
 //! Quadrature over R in the station's (el, az): Gauss-Legendre on azimuth intervals cut at every
-//! profile vertex, where the profile crosses 0 deg, and on a geometric ladder around the
-//! boresight's azimuth (starting at a quarter of the half-power beamwidth, or at half the
-//! distance from the boresight to the terrain band when that is larger); at each azimuth node,
-//! on elevation intervals of `[0, H(az)]` cut on the same kind of ladder around the elevation
-//! closest to the boresight and where the circle psi = join angle (the reference pattern's step
-//! from the Gaussian to the scaled envelope) crosses it. The terrain edge `el = H(az)` is so met
-//! exactly at every azimuth node.
+//! profile vertex, where the profile crosses 0 deg, on a geometric ladder around the
+//! boresight's azimuth (rungs [`LADDER_RATIO`] apart, starting at a quarter of the half-power
+//! beamwidth, or at half the distance from the boresight to the terrain band when that is
+//! larger), and where the column's integrand changes form in azimuth: the azimuths where the
+//! circle psi = join angle (the reference pattern's step from the Gaussian to the scaled
+//! envelope) is tangent to a meridian, crosses 0 deg or crosses the terrain's edge. At each
+//! azimuth node, on elevation intervals of `[0, H(az)]` cut on the same kind of ladder around the
+//! elevation closest to the boresight and where the join circle crosses the column. The terrain
+//! edge `el = H(az)` is so met exactly at every azimuth node. 8-point rules within
+//! [`NEAR_RUNGS`] ladder starts of the boresight's azimuth or elevation, 4-point ones further out.
+//!
+//! Without the azimuth cuts at the join circle, the column integral's jump at the join made the
+//! azimuth rule converge slowly: up to 0.1 K off (3.7 m dish at X band, 1 deg inside the
+//! profile's peak) with rungs twice as close. With them, the integral is within 0.03 K of the
+//! same quadrature with every interval split and 8-point rules throughout (unit test
+//! `refining_the_quadrature_moves_the_integral_little`).
 //!
 //! Use: this is the direct integral (0.06-0.17 ms, `benches/noise.rs`), the reference of the
 //! table over elevation and azimuth the plan's steps read ([`super::terrain_table`]). A first
@@ -37,6 +46,15 @@ use super::antenna_table::{integrate_many, AntennaNoise, Brightness, ProfileNode
 use super::pattern::{NoisePattern, GL4, GL8};
 use crate::geometry::bounded_trig as trig;
 use crate::geometry::HorizonMask;
+
+/// Ratio of successive rungs of the quadrature's ladders around the boresight.
+pub(crate) const LADDER_RATIO: f64 = 3.0;
+
+/// Intervals within this many ladder starts of the boresight take the 8-point rule.
+pub(crate) const NEAR_RUNGS: f64 = 2.0;
+
+/// Samples per azimuth interval in the search for the join circle's crossings of the terrain edge.
+const EDGE_CROSSING_SAMPLES: usize = 8;
 
 /// Most profile kinks taken as azimuth cuts; a denser profile is cut every 360/MAX_KINKS deg.
 pub(crate) const MAX_KINKS: usize = 72;
@@ -62,6 +80,11 @@ pub(crate) struct TerrainIntegrator<'a> {
     /// Azimuths where the profile has a kink (vertices and zero crossings), deg.
     pub(crate) kinks_deg: Vec<f64>,
     highest_deg: f64,
+    /// [`LADDER_RATIO`] and [`NEAR_RUNGS`]; the tests refine them.
+    ladder_ratio: f64,
+    near_rungs: f64,
+    /// Cut azimuth at the join circle (off only in the test that shows why it is needed).
+    join_cuts: bool,
 }
 
 impl<'a> TerrainIntegrator<'a> {
@@ -90,6 +113,9 @@ impl<'a> TerrainIntegrator<'a> {
             join_rad: pattern.join_deg().map(f64::to_radians),
             kinks_deg,
             highest_deg,
+            ladder_ratio: LADDER_RATIO,
+            near_rungs: NEAR_RUNGS,
+            join_cuts: true,
         }
     }
 
@@ -125,7 +151,7 @@ impl<'a> TerrainIntegrator<'a> {
         let mut d = start;
         while d < 180.0 {
             cuts.extend([d, -d]);
-            d *= 2.0;
+            d *= self.ladder_ratio;
         }
         cuts.extend(
             self.kinks_deg
@@ -134,6 +160,9 @@ impl<'a> TerrainIntegrator<'a> {
         );
         cuts.sort_by(f64::total_cmp);
         let (se0, ce0) = e0.to_radians().sin_cos();
+        if self.join_cuts {
+            self.join_azimuth_cuts((se0, ce0), a0, &mut cuts);
+        }
         let mut t_sum = 0.0;
         let mut column_s = vec![0.0; bs.len()];
         let mut el_cuts = Vec::with_capacity(64);
@@ -142,7 +171,7 @@ impl<'a> TerrainIntegrator<'a> {
             if hi - lo < 1e-9 {
                 continue;
             }
-            let near = lo.abs().min(hi.abs()) < 8.0 * start || lo * hi < 0.0;
+            let near = lo.abs().min(hi.abs()) < self.near_rungs * start || lo * hi < 0.0;
             let nodes: &[(f64, f64)] = if near { &GL8 } else { &GL4 };
             let half = 0.5 * (hi - lo);
             for &(x, wx) in nodes {
@@ -161,6 +190,71 @@ impl<'a> TerrainIntegrator<'a> {
             }
         }
         t_sum
+    }
+
+    /// Adds to the sorted azimuth cuts `cuts` (deg from the boresight's azimuth `a0`) the
+    /// azimuths where the join circle (module doc) is tangent to a meridian, crosses 0 deg and
+    /// crosses the terrain's edge, and sorts them again; `(se0, ce0)` the sine and cosine of the
+    /// boresight's elevation. The edge crossings are found by sampling each interval of `cuts`
+    /// that the circle reaches and bisecting each change of side.
+    fn join_azimuth_cuts(&self, (se0, ce0): (f64, f64), a0: f64, cuts: &mut Vec<f64>) {
+        let Some(join) = self.join_rad else {
+            return;
+        };
+        let cos_join = join.cos();
+        let mut extra = Vec::new();
+        // Tangent to a meridian where sin(delta) = sin(join) / cos(e0); beyond that azimuth the
+        // circle is not met (unless it holds the zenith: then every azimuth is searched).
+        let reach_deg = match join.sin() / ce0 {
+            s if s < 1.0 => {
+                let d = s.asin().to_degrees();
+                extra.extend([d, -d]);
+                d
+            }
+            _ => 180.0,
+        };
+        // Crosses el = 0 where cos(delta) = cos(join) / cos(e0).
+        let c = cos_join / ce0;
+        if c.abs() <= 1.0 {
+            let d = c.acos().to_degrees();
+            extra.extend([d, -d]);
+        }
+        // cos(psi) - cos(join) at the terrain's edge: its sign tells inside or outside the circle.
+        let side = |delta: f64| {
+            let (sh, ch) = trig::sin_cos(self.terrain.limit_deg(a0 + delta).max(0.0).to_radians());
+            sh * se0 + ch * ce0 * trig::cos(delta.to_radians()) - cos_join
+        };
+        for w in cuts.windows(2) {
+            let (lo, hi) = (w[0].max(-reach_deg), w[1].min(reach_deg));
+            if hi - lo < 1e-9 {
+                continue;
+            }
+            let step = (hi - lo) / EDGE_CROSSING_SAMPLES as f64;
+            let mut prev = (lo, side(lo));
+            for i in 1..=EDGE_CROSSING_SAMPLES {
+                let x = if i == EDGE_CROSSING_SAMPLES {
+                    hi
+                } else {
+                    lo + step * i as f64
+                };
+                let next = (x, side(x));
+                if (next.1 > 0.0) != (prev.1 > 0.0) {
+                    let (mut a, mut b) = (prev.0, next.0);
+                    while b - a > 1e-9 {
+                        let m = 0.5 * (a + b);
+                        if (side(m) > 0.0) == (prev.1 > 0.0) {
+                            a = m;
+                        } else {
+                            b = m;
+                        }
+                    }
+                    extra.push(0.5 * (a + b));
+                }
+                prev = next;
+            }
+        }
+        cuts.extend(extra);
+        cuts.sort_by(f64::total_cmp);
     }
 
     /// At one azimuth node (`delta` deg from the boresight's azimuth, terrain up to `h` deg):
@@ -189,7 +283,7 @@ impl<'a> TerrainIntegrator<'a> {
         let mut d = start;
         while d < h {
             cuts.extend([el_c + d, el_c - d]);
-            d *= 2.0;
+            d *= self.ladder_ratio;
         }
         if let Some(j) = self.join_rad {
             // sin el sin e0 + cos el cos e0 cos delta = cos psi_j: R cos(el - phi) = cos psi_j
@@ -211,8 +305,8 @@ impl<'a> TerrainIntegrator<'a> {
             if hi - lo < 1e-12 {
                 continue;
             }
-            let near = dist < 8.0 * self.scale_deg
-                && (lo - el_c).abs().min((hi - el_c).abs()) < 8.0 * self.scale_deg;
+            let near = dist < self.near_rungs * self.scale_deg
+                && (lo - el_c).abs().min((hi - el_c).abs()) < self.near_rungs * self.scale_deg;
             let nodes: &[(f64, f64)] = if near { &GL8[4..] } else { &GL4[2..] };
             let half = 0.5 * (hi - lo);
             // The nodes in pairs mid ± half x: sin and cos by angle addition from the midpoint's.
@@ -342,5 +436,63 @@ mod tests {
         }
         assert_eq!(angle_of_cos(1.0 + 1e-16), 0.0);
         assert_eq!(angle_of_cos(-1.0 - 1e-16), std::f64::consts::PI);
+    }
+
+    /// The largest change of the total antenna noise, K, when the quadrature's ladders are
+    /// refined (rungs sqrt(2) apart, 8-point rules everywhere), over pointings beside, over and
+    /// inside the profile's vertices, and the number of pointings.
+    fn largest_change_on_refining(join_cuts: bool) -> (f64, usize) {
+        // A 3.7 m dish at 8.2 GHz (theta_3dB 0.69 deg) on a profile of the example's shape
+        // (2-12 deg), under a smooth invented sky (0.06 dB zenith absorption, cosecant law).
+        let dl = 3.7 * 8.2e9 / 299_792_458.0;
+        let gain_dbi = 10.0 * (0.6 * (std::f64::consts::PI * dl).powi(2)).log10();
+        let pattern = NoisePattern::reference(gain_dbi, 70.0 / dl, dl, 8.2e9).unwrap();
+        let sky = |el: f64| {
+            let a_db = 0.06 / el.max(2.0).to_radians().sin();
+            crate::noise::sky::sky_temperature_p618_k(a_db, 275.0, 2.73).unwrap()
+        };
+        let ground = super::super::antenna_table::GroundSpec {
+            temperature_k: 290.0,
+            emissivity: 0.9,
+        };
+        let b = Brightness::new(sky, ground);
+        let profile = [
+            [0.0, 2.0],
+            [60.0, 4.0],
+            [110.0, 9.0],
+            [150.0, 12.0],
+            [200.0, 6.0],
+            [270.0, 3.0],
+            [330.0, 2.0],
+        ];
+        let terrain = terrain_profile(&profile).unwrap();
+        let mut coarse = TerrainIntegrator::new(&pattern, &terrain);
+        coarse.join_cuts = join_cuts;
+        let mut fine = TerrainIntegrator::new(&pattern, &terrain);
+        fine.ladder_ratio = std::f64::consts::SQRT_2;
+        fine.near_rungs = f64::INFINITY;
+        let mut worst = (0.0f64, 0);
+        for vertex in profile {
+            for offset in [-2.0, -0.4, 0.0, 0.3, 1.0, 5.0] {
+                let az = vertex[0] + offset;
+                for du in [-1.0, -0.2, 0.0, 0.3, 1.0, 4.0] {
+                    let el = terrain.limit_deg(az) + du;
+                    let d = coarse.at(&b, el, az).total_k() - fine.at(&b, el, az).total_k();
+                    worst = (worst.0.max(d.abs()), worst.1 + 1);
+                }
+            }
+        }
+        worst
+    }
+
+    #[test]
+    fn refining_the_quadrature_moves_the_integral_little() {
+        // The direct integral's own quadrature error, estimated by refining it (numerical check,
+        // no published value): within 0.03 K. Without the azimuth cuts at the join circle the
+        // same refinement moves it by more than 0.1 K (the bound would fail).
+        let (with_cuts, n) = largest_change_on_refining(true);
+        assert!(with_cuts < 0.03, "{with_cuts} K over {n} pointings");
+        let (without, _) = largest_change_on_refining(false);
+        assert!(without > 0.1, "{without} K");
     }
 }
