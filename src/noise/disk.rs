@@ -38,15 +38,26 @@ use std::f64::consts::{PI, TAU};
 /// Largest number of separation entries per radius (guards against a beamwidth far too small).
 const MAX_ENTRIES: usize = 20_000;
 
-/// Quadrature nodes per beamwidth (or per disk radius, if smaller) across the integration interval
-/// (the Simpson sums agree with a rule twice as fine to about 1e-8 for a Gaussian beam).
-const NODES_PER_BEAMWIDTH: f64 = 20.0;
+/// Quadrature nodes per beamwidth (or per disk radius, if smaller) across the integration interval.
+/// With the intervals split at the pattern's breaks ([`PowerPattern::breaks_deg`]) the Simpson
+/// sums of the Sun's disk under the reference pattern of a 3.7 m dish at X band agree with a rule
+/// 64 times as fine to 1e-5 of their value (`tests/suite/noise_disk.rs`). Before the split, a
+/// disk across the join was off by up to 5e-3 of its value at twice this density.
+const NODES_PER_BEAMWIDTH: f64 = 10.0;
 
 /// An axisymmetric antenna power pattern: off-axis angle (deg) to linear gain, normalized so that
 /// its integral over 4π sr is 4π. Any `Fn(f64) -> f64` is one.
 pub trait PowerPattern {
     /// Linear gain at `off_axis_deg` from boresight (0-180 deg).
     fn gain_linear(&self, off_axis_deg: f64) -> f64;
+
+    /// Off-axis angles (deg) where the gain steps or its slope does (the reference pattern's
+    /// join of the main beam and the sidelobe envelope, where the envelope starts to fall): the
+    /// quadrature splits its intervals there, since a step inside an interval makes the Simpson
+    /// rule converge only linearly and a kink only quadratically. None by default.
+    fn breaks_deg(&self) -> [Option<f64>; 2] {
+        [None, None]
+    }
 }
 
 impl<F: Fn(f64) -> f64> PowerPattern for F {
@@ -152,45 +163,80 @@ pub fn disk_coupling_direct(
     let (s, r) = (s_deg.to_radians(), r_deg.to_radians());
     let mut total = 0.0;
     // Full rings: boresight inside the disk, θ ∈ [0, r − s], ψ0 = π.
+    let breaks_deg = pattern.breaks_deg();
     if s_deg < r_deg {
         let w = r_deg - s_deg;
-        let n = intervals(w, node_spacing_deg);
-        total += w.to_radians()
-            * simpson01(n, |x| {
-                let th = x * w;
-                pattern.gain_linear(th) * TAU * trig::sin(th.to_radians())
-            });
+        let full = |th: f64| pattern.gain_linear(th) * TAU * trig::sin(th.to_radians());
+        for (lo, hi) in pieces(0.0, w, breaks_deg) {
+            let n = intervals(hi - lo, node_spacing_deg);
+            total += (hi - lo).to_radians() * simpson01(n, |x| full(lo + x * (hi - lo)));
+        }
     }
     // Partial rings: θ ∈ [|s − r|, min(s + r, π)], θ = a + (b − a)(1 − cos u)/2, u ∈ [0, π].
     let a_deg = (s_deg - r_deg).abs();
     let b_deg = (s_deg + r_deg).min(180.0);
     if s_deg > 0.0 && b_deg > a_deg {
         let w = b_deg - a_deg;
-        let n = intervals(w * PI / 2.0, node_spacing_deg);
         let hav = |x: f64| trig::sin(x / 2.0).powi(2);
         let hav_r = hav(r);
         let sin_s = s.sin();
-        total += PI
-            * simpson01(n, |x| {
-                let u = x * PI;
-                let (sin_u, cos_u) = trig::sin_cos(u);
-                let th_deg = a_deg + w * (1.0 - cos_u) / 2.0;
-                let th = th_deg.to_radians();
-                let sin_th = trig::sin(th);
-                let den = sin_th * sin_s;
-                if den <= 0.0 {
-                    return 0.0;
-                }
-                // hav ψ0 = (hav r − hav(θ − s)) / (sin θ sin s)
-                let h = ((hav_r - hav(th - s)) / den).clamp(0.0, 1.0);
-                let psi0 = 2.0 * h.sqrt().asin();
-                // dθ/du = (b − a)/2 sin u
-                let dth_du = w.to_radians() / 2.0 * sin_u;
-                pattern.gain_linear(th_deg) * 2.0 * psi0 * sin_th * dth_du
-            });
+        // The breaks' u: theta = a + w (1 - cos u) / 2.
+        let breaks_u = breaks_deg.map(|b| {
+            b.filter(|t| *t > a_deg && *t < b_deg)
+                .map(|t| (1.0 - 2.0 * (t - a_deg) / w).clamp(-1.0, 1.0).acos())
+        });
+        let partial = |u: f64| {
+            let (sin_u, cos_u) = trig::sin_cos(u);
+            let th_deg = a_deg + w * (1.0 - cos_u) / 2.0;
+            let th = th_deg.to_radians();
+            let sin_th = trig::sin(th);
+            let den = sin_th * sin_s;
+            if den <= 0.0 {
+                return 0.0;
+            }
+            // hav ψ0 = (hav r − hav(θ − s)) / (sin θ sin s)
+            let h = ((hav_r - hav(th - s)) / den).clamp(0.0, 1.0);
+            let psi0 = 2.0 * h.sqrt().asin();
+            // dθ/du = (b − a)/2 sin u
+            let dth_du = w.to_radians() / 2.0 * sin_u;
+            pattern.gain_linear(th_deg) * 2.0 * psi0 * sin_th * dth_du
+        };
+        for (lo, hi) in pieces(0.0, PI, breaks_u) {
+            // nodes spaced in theta as in u over the whole interval: w pi / 2 per pi of u
+            let n = intervals(w / 2.0 * (hi - lo), node_spacing_deg);
+            total += (hi - lo) * simpson01(n, |x| partial(lo + x * (hi - lo)));
+        }
     }
     total / (2.0 * TAU)
 }
+
+/// `[lo, hi]` cut at those of `breaks` strictly inside it: the pieces in order. A piece ends
+/// [`BREAK_GAP`] of its width short of a break, so the Simpson rule's end node takes the gain
+/// of its own side of a step (the break's angle, mapped through the partial rings' substitution
+/// and back, can land on either side by a rounding); the gap leaves out about that share of the
+/// piece.
+fn pieces(lo: f64, hi: f64, breaks: [Option<f64>; 2]) -> impl Iterator<Item = (f64, f64)> {
+    let mut cuts = [lo, hi, hi, hi];
+    let mut n = 1;
+    for b in breaks.into_iter().flatten() {
+        if b > lo && b < hi {
+            cuts[n] = b;
+            n += 1;
+        }
+    }
+    cuts[1..n].sort_by(f64::total_cmp);
+    cuts[n] = hi;
+    (0..n).map(move |i| {
+        let (a, b) = (cuts[i], cuts[i + 1]);
+        let gap = BREAK_GAP * (b - a);
+        let a = if i > 0 { a + gap } else { a };
+        let b = if i + 1 < n { b - gap } else { b };
+        (a, b)
+    })
+}
+
+/// Share of a piece's width left out next to a break ([`pieces`]).
+const BREAK_GAP: f64 = 1e-9;
 
 /// The nodes and weights of the interpolation at `pos` (index units) on a uniform grid of `n`
 /// nodes: the 4-point Lagrange cubic through the nearest four nodes (linear for two or three

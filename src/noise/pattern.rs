@@ -212,6 +212,17 @@ impl crate::noise::disk::PowerPattern for NoisePattern {
     fn gain_linear(&self, off_axis_deg: f64) -> f64 {
         self.gain(off_axis_deg.to_radians())
     }
+
+    fn breaks_deg(&self) -> [Option<f64>; 2] {
+        match &self.shape {
+            Shape::Reference {
+                join_rad,
+                psi_min_deg,
+                ..
+            } => [Some(join_rad.to_degrees()), Some(*psi_min_deg)],
+            Shape::Measured { .. } => [None, None],
+        }
+    }
 }
 
 impl NoisePattern {
