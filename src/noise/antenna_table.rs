@@ -255,9 +255,12 @@ fn ring_part(
 ) {
     let half = 0.5 * (hi - lo);
     let mut nodes = [ProfileNode::default(); 8];
-    for (k, (x, _)) in GL8.iter().enumerate() {
-        let phi = lo + half * (1.0 + x);
-        nodes[k] = ProfileNode::of(a0 + b0 * trig::cos(phi), ground);
+    // GL8's nodes in ± pairs about the midpoint: cos(mid ± half x) by angle addition.
+    let (sm, cm) = trig::sin_cos(lo + half);
+    for k in 0..4 {
+        let (sd, cd) = trig::sin_cos(half * GL8[7 - k].0);
+        nodes[k] = ProfileNode::of(a0 + b0 * (cm * cd + sm * sd), ground);
+        nodes[7 - k] = ProfileNode::of(a0 + b0 * (cm * cd - sm * sd), ground);
     }
     for (b, o) in bs.iter().zip(out.iter_mut()) {
         let mut acc = 0.0;
@@ -303,7 +306,9 @@ fn band_sky_share(
         let (m, r) = (0.5 * (l + h), 0.5 * (h - l));
         for &(w_sin_t, cos_t) in nodes {
             let psi = m - r * cos_t;
-            let share = ((-tan_e / psi.tan()).clamp(-1.0, 1.0)).acos() / pi;
+            // -tan(e0) / tan(psi), psi strictly inside (0, pi)
+            let (sin_psi, cos_psi) = trig::sin_cos(psi);
+            let share = ((-tan_e * cos_psi / sin_psi).clamp(-1.0, 1.0)).acos() / pi;
             // dpsi = r sin t dt, dt = (pi/2) dx
             split += w_sin_t * share * r * 0.5 * pi;
         }
@@ -440,6 +445,21 @@ impl AntennaNoiseTable {
             .map(|j| rows_iter().map(|r| r.1[j]).collect())
             .collect();
         (rows, values)
+    }
+
+    /// The tables of several weather cases (`brightnesses`, one table each, in order) on the one
+    /// grid of [`Self::build_many`]: the rings' geometry is worked out once for all cases, and each
+    /// case gets exact values at the rows any case needed. With one brightness, row for row and
+    /// value for value the table of [`Self::build`].
+    pub fn build_cases(pattern: &NoisePattern, brightnesses: &[&Brightness]) -> Vec<Self> {
+        let (rows, values) = Self::build_many(pattern, brightnesses);
+        values
+            .into_iter()
+            .map(|noise| Self {
+                elevation_deg: rows.clone(),
+                noise,
+            })
+            .collect()
     }
 
     /// The directly integrated value at one elevation (no table; for checks).

@@ -31,11 +31,11 @@
 //!
 //! Without the azimuth cuts at the join circle, the column integral's jump at the join made the
 //! azimuth rule converge slowly: up to 0.1 K off (3.7 m dish at X band, 1 deg inside the
-//! profile's peak) with rungs twice as close. With them, the integral is within 0.03 K of the
-//! same quadrature with every interval split and 8-point rules throughout (unit test
-//! `refining_the_quadrature_moves_the_integral_little`).
+//! profile's peak) even with rungs twice apart, as they were then. With them, the integral is
+//! within 0.03 K of the same quadrature refined (rungs sqrt(2) apart, 8-point rules throughout;
+//! unit test `refining_the_quadrature_moves_the_integral_little`).
 //!
-//! Use: this is the direct integral (0.06-0.17 ms, `benches/noise.rs`), the reference of the
+//! Use: this is the direct integral (0.05-0.08 ms, `benches/noise.rs`), the reference of the
 //! table over elevation and azimuth the plan's steps read ([`super::terrain_table`]). A first
 //! table over (elevation above the terrain, azimuth) alone, 36 azimuth columns, needed
 //! 8,000-22,000 of these integrals per station and weather case and missed a 0.25 K bound by up
@@ -75,8 +75,9 @@ pub(crate) struct TerrainIntegrator<'a> {
     terrain: &'a HorizonMask,
     /// Base of the ladders, deg: a quarter of the half-power beamwidth.
     scale_deg: f64,
-    /// The join angle of the reference pattern (a step in the gain), rad.
+    /// The join angle of the reference pattern (a step in the gain), rad, and its cosine.
     join_rad: Option<f64>,
+    cos_join: f64,
     /// Azimuths where the profile has a kink (vertices and zero crossings), deg.
     pub(crate) kinks_deg: Vec<f64>,
     highest_deg: f64,
@@ -111,6 +112,7 @@ impl<'a> TerrainIntegrator<'a> {
             terrain,
             scale_deg: (0.5 * half_power_half_width_deg(pattern)).max(1e-3),
             join_rad: pattern.join_deg().map(f64::to_radians),
+            cos_join: pattern.join_deg().map_or(1.0, |j| j.to_radians().cos()),
             kinks_deg,
             highest_deg,
             ladder_ratio: LADDER_RATIO,
@@ -270,34 +272,12 @@ impl<'a> TerrainIntegrator<'a> {
         cuts: &mut Vec<f64>,
     ) -> f64 {
         let cd = trig::cos(delta.to_radians());
-        let psi_of = |el_deg: f64| {
-            let (se, ce) = el_deg.to_radians().sin_cos();
-            (se * se0 + ce * ce0 * cd).clamp(-1.0, 1.0).acos()
-        };
         // The elevation of this azimuth's line closest to the boresight, and its distance.
         let el_c = e0.clamp(0.0, h);
-        let dist = psi_of(el_c).to_degrees();
+        let (se, ce) = trig::sin_cos(el_c.to_radians());
+        let dist = angle_of_cos(se * se0 + ce * ce0 * cd).to_degrees();
         let start = self.scale_deg.max(0.5 * dist);
-        cuts.clear();
-        cuts.extend([0.0, h, el_c]);
-        let mut d = start;
-        while d < h {
-            cuts.extend([el_c + d, el_c - d]);
-            d *= self.ladder_ratio;
-        }
-        if let Some(j) = self.join_rad {
-            // sin el sin e0 + cos el cos e0 cos delta = cos psi_j: R cos(el - phi) = cos psi_j
-            let (a, bb) = (se0, ce0 * cd);
-            let r = a.hypot(bb);
-            let c = j.cos() / r;
-            if c.abs() <= 1.0 {
-                let phi = a.atan2(bb);
-                let off = c.acos();
-                cuts.extend([(phi + off).to_degrees(), (phi - off).to_degrees()]);
-            }
-        }
-        cuts.retain(|&v| (0.0..=h).contains(&v));
-        cuts.sort_by(f64::total_cmp);
+        self.column_cuts(el_c, h, start, (se0, ce0 * cd), cuts);
         let mut g_sum = 0.0;
         s_sums.fill(0.0);
         for w in cuts.windows(2) {
@@ -331,7 +311,53 @@ impl<'a> TerrainIntegrator<'a> {
         }
         g_sum
     }
+
+    /// The elevation cuts of a column `[0, h]` (deg), ascending into `cuts` (its contents are
+    /// replaced): its ends, the ladder around `el_c` from `start`, and where the join circle
+    /// crosses the column, `(a, bb)` = (sin e0, cos e0 cos delta). Made in order rather than
+    /// sorted: the ladder below `el_c` farthest first, then above it, the join's crossings put
+    /// in their places.
+    fn column_cuts(&self, el_c: f64, h: f64, start: f64, (a, bb): (f64, f64), cuts: &mut Vec<f64>) {
+        let mut rungs = [0.0; MAX_RUNGS];
+        let mut n = 0;
+        let mut d = start;
+        while d < h && n < MAX_RUNGS {
+            rungs[n] = d;
+            n += 1;
+            d *= self.ladder_ratio;
+        }
+        cuts.clear();
+        cuts.push(0.0);
+        cuts.extend(
+            rungs[..n]
+                .iter()
+                .rev()
+                .map(|d| el_c - d)
+                .filter(|v| *v >= 0.0),
+        );
+        cuts.push(el_c);
+        cuts.extend(rungs[..n].iter().map(|d| el_c + d).filter(|v| *v <= h));
+        cuts.push(h);
+        if self.join_rad.is_some() {
+            // sin el sin e0 + cos el cos e0 cos delta = cos psi_j: R cos(el - phi) = cos psi_j
+            let c = self.cos_join / (a * a + bb * bb).sqrt();
+            if c.abs() <= 1.0 {
+                let phi = a.atan2(bb);
+                let off = c.acos();
+                for v in [(phi + off).to_degrees(), (phi - off).to_degrees()] {
+                    if (0.0..=h).contains(&v) {
+                        let at = cuts.partition_point(|x| x.total_cmp(&v).is_le());
+                        cuts.insert(at, v);
+                    }
+                }
+            }
+        }
+    }
 }
+
+/// Most rungs of a column's ladder (a ladder from 0.001 deg at ratio sqrt(2) reaches 90 deg in
+/// 33).
+const MAX_RUNGS: usize = 48;
 
 /// Terms of the arcsine's series `asin z = z Σ a_n z^(2n)` [`angle_of_cos`] takes at most:
 /// a_n = (2n)! / (4^n (n!)^2 (2n + 1)) (Abramowitz & Stegun 4.4.40).
@@ -404,7 +430,7 @@ pub(crate) fn half_power_half_width_deg(pattern: &NoisePattern) -> f64 {
 }
 
 /// The antenna noise at boresight elevation `elevation_deg` and azimuth `azimuth_deg` under the
-/// terrain `terrain` ([`terrain_profile`]), integrated directly (module doc). 0.06-0.17 ms for a
+/// terrain `terrain` ([`terrain_profile`]), integrated directly (module doc). 0.05-0.08 ms for a
 /// 3.7 m dish at X band (`benches/noise.rs`): not for a per-step call.
 pub fn terrain_antenna_noise(
     pattern: &NoisePattern,

@@ -134,8 +134,9 @@ impl TerrainNoiseTable {
         let edge_step_deg = EDGE_STEP_DEG.min(0.25 * sigma_deg).max(1e-3);
         let n = (360.0 / edge_step_deg).ceil() as usize;
         let edge_step_deg = 360.0 / n as f64;
+        let weights = beam_weights();
         let edge_deg: Vec<f64> = (0..=n)
-            .map(|i| beam_height_deg(terrain, i as f64 * edge_step_deg, sigma_deg))
+            .map(|i| beam_height_deg(terrain, i as f64 * edge_step_deg, sigma_deg, &weights))
             .collect();
         let lowest = edge_deg.iter().copied().fold(f64::INFINITY, f64::min);
         let highest = edge_deg.iter().copied().fold(0.0, f64::max);
@@ -316,13 +317,24 @@ fn lerp(a: AntennaNoise, b: AntennaNoise, t: f64) -> AntennaNoise {
     }
 }
 
+/// The Gaussian's weights at x = -3, -2.5, ..., 3 sigma for [`beam_height_deg`].
+fn beam_weights() -> [(f64, f64); 13] {
+    std::array::from_fn(|i| {
+        let x = 0.5 * (i as i32 - 6) as f64;
+        (x, (-0.5 * x * x).exp())
+    })
+}
+
 /// `H(az)` averaged over a Gaussian of `sigma_deg` in azimuth around `azimuth_deg` (13 points
-/// at sigma / 2 spacing, weights normalized).
-fn beam_height_deg(terrain: &HorizonMask, azimuth_deg: f64, sigma_deg: f64) -> f64 {
+/// at sigma / 2 spacing, weights normalized; `weights` from [`beam_weights`]).
+fn beam_height_deg(
+    terrain: &HorizonMask,
+    azimuth_deg: f64,
+    sigma_deg: f64,
+    weights: &[(f64, f64); 13],
+) -> f64 {
     let (mut sum, mut norm) = (0.0, 0.0);
-    for k in -6i32..=6 {
-        let x = 0.5 * k as f64;
-        let w = (-0.5 * x * x).exp();
+    for &(x, w) in weights {
         sum += w * terrain.limit_deg((azimuth_deg + x * sigma_deg).rem_euclid(360.0));
         norm += w;
     }

@@ -147,9 +147,10 @@ impl StationNoise {
     /// The tables of a station's antenna noise from `inputs`: the clear-sky table and the
     /// man-made term; with terrain and no measured antenna temperature, the clear-sky table over
     /// elevation and azimuth instead of the one over elevation alone; with `availability`, that
-    /// weather case's table as well (as [`Self::prepare_weather`] would make it), a station with
-    /// terrain then getting the terrain tables of both cases built together
-    /// ([`TerrainNoiseTable::build_cases`]) at little more than the cost of one.
+    /// weather case's table as well, both cases' tables built together at little more than the
+    /// cost of one ([`AntennaNoiseTable::build_cases`], or [`TerrainNoiseTable::build_cases`]
+    /// with terrain): on one grid of elevations, so each case has exact values at the rows the
+    /// other needed too (a table [`Self::prepare_weather`] builds later has only its own).
     pub fn new(
         inputs: NoiseInputs,
         atmosphere: &PreparedAtmosphere,
@@ -198,7 +199,10 @@ impl StationNoise {
             s.availability = rain.map(|(w, _)| (w, tables.next().expect("one table per case")));
             return s;
         }
-        let model = AntennaNoiseTable::build(&s.pattern, &brightness);
+        let mut cases = vec![&brightness];
+        cases.extend(rain.as_ref().map(|(_, b)| b));
+        let mut models = AntennaNoiseTable::build_cases(&s.pattern, &cases).into_iter();
+        let model = models.next().expect("one table per case");
         s.clear = CaseTable::Flat(match measured {
             Some(m) => {
                 let table = combine(&m, &model, &model);
@@ -207,8 +211,8 @@ impl StationNoise {
             }
             None => model,
         });
-        if let Some((w, b)) = rain {
-            let table = s.availability_table(AntennaNoiseTable::build(&s.pattern, &b));
+        if let Some((w, _)) = rain {
+            let table = s.availability_table(models.next().expect("one table per case"));
             s.availability = Some((w, CaseTable::Flat(table)));
         }
         s
