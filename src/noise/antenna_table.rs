@@ -377,30 +377,7 @@ pub(crate) fn integrate_many(
 impl AntennaNoiseTable {
     /// Build the table for `pattern` under `brightness` (see the module doc).
     pub fn build(pattern: &NoisePattern, brightness: &Brightness) -> Self {
-        let rings = Rings::of(pattern);
-        let f = |e: f64| integrate(&rings, brightness, e);
-        let mut elevation_deg = Vec::with_capacity(512);
-        let mut noise = Vec::with_capacity(512);
-        let (lo, hi) = TABLE_RANGE_DEG;
-        let n = ((hi - lo) / START_STEP_DEG).round() as usize;
-        let at = |i: usize| lo + (hi - lo) * i as f64 / n as f64;
-        let mut prev = (lo, f(lo));
-        elevation_deg.push(prev.0);
-        noise.push(prev.1);
-        for i in 1..=n {
-            let next = (at(i), f(at(i)));
-            let m = 0.5 * (prev.0 + next.0);
-            let mid = (m, f(m));
-            refine(&f, [prev, mid, next], 0, &off_one, &mut |e, v| {
-                elevation_deg.push(e);
-                noise.push(v);
-            });
-            prev = next;
-        }
-        Self {
-            elevation_deg,
-            noise,
-        }
+        Self::build_cases(pattern, &[brightness]).remove(0)
     }
 
     /// Tables for several brightnesses on one grid of elevations, refined by the rule of
@@ -447,17 +424,50 @@ impl AntennaNoiseTable {
         (rows, values)
     }
 
-    /// The tables of several weather cases (`brightnesses`, one table each, in order) on the one
-    /// grid of [`Self::build_many`]: the rings' geometry is worked out once for all cases, and each
-    /// case gets exact values at the rows any case needed. With one brightness, row for row and
-    /// value for value the table of [`Self::build`].
+    /// The tables of several weather cases (`brightnesses`, one table each, in order), each row
+    /// for row and value for value the table [`Self::build`] gives it alone: every case is
+    /// refined by its own test, while the evaluations (the rings' geometry, `integrate_many`) are
+    /// shared as long as any case still refines an interval. The 5 deg intervals the refinement
+    /// starts from are refined in parallel.
     pub fn build_cases(pattern: &NoisePattern, brightnesses: &[&Brightness]) -> Vec<Self> {
-        let (rows, values) = Self::build_many(pattern, brightnesses);
-        values
-            .into_iter()
-            .map(|noise| Self {
-                elevation_deg: rows.clone(),
-                noise,
+        use rayon::prelude::*;
+        let rings = Rings::of(pattern);
+        let cases = brightnesses.len();
+        let f = |e: f64| {
+            let mut out = vec![AntennaNoise::default(); cases];
+            integrate_many(&rings, brightnesses, e, &mut out);
+            out
+        };
+        let (lo, hi) = TABLE_RANGE_DEG;
+        let n = ((hi - lo) / START_STEP_DEG).round() as usize;
+        let at = |i: usize| lo + (hi - lo) * i as f64 / n as f64;
+        let ends: Vec<(f64, Vec<AntennaNoise>)> =
+            (0..=n).into_par_iter().map(|i| (at(i), f(at(i)))).collect();
+        let all: Vec<usize> = (0..cases).collect();
+        let parts: Vec<Vec<Vec<(f64, AntennaNoise)>>> = ends
+            .par_windows(2)
+            .map(|w| {
+                let m = 0.5 * (w[0].0 + w[1].0);
+                let mut rows = vec![Vec::new(); cases];
+                refine_cases(
+                    &f,
+                    [w[0].clone(), (m, f(m)), w[1].clone()],
+                    0,
+                    &all,
+                    &mut rows,
+                );
+                rows
+            })
+            .collect();
+        (0..cases)
+            .map(|j| {
+                let rows = std::iter::once((ends[0].0, ends[0].1[j]))
+                    .chain(parts.iter().flat_map(|p| p[j].iter().copied()));
+                let (elevation_deg, noise) = rows.unzip();
+                Self {
+                    elevation_deg,
+                    noise,
+                }
             })
             .collect()
     }
@@ -528,6 +538,38 @@ fn off_many(a: &Vec<AntennaNoise>, q: &Vec<AntennaNoise>, b: &Vec<AntennaNoise>)
     (0..q.len())
         .map(|j| off_one(&a[j], &q[j], &b[j]))
         .fold(0.0, f64::max)
+}
+
+/// [`refine`] for several cases at once (`f` gives every case's value): each case in `active`
+/// is tested on its own ([`off_one`]); a case that passes pushes its rows into `out[case]` here, as
+/// [`refine`] would, and the cases that fail go on into both halves together, so each case gets
+/// the rows of its own refinement and the evaluations are shared.
+fn refine_cases(
+    f: &impl Fn(f64) -> Vec<AntennaNoise>,
+    [lo, mid, hi]: [(f64, Vec<AntennaNoise>); 3],
+    depth: u32,
+    active: &[usize],
+    out: &mut [Vec<(f64, AntennaNoise)>],
+) {
+    let q1 = 0.5 * (lo.0 + mid.0);
+    let q3 = 0.5 * (mid.0 + hi.0);
+    let (q1, q3) = ((q1, f(q1)), (q3, f(q3)));
+    let mut still = Vec::with_capacity(active.len());
+    for &j in active {
+        let off =
+            off_one(&lo.1[j], &q1.1[j], &mid.1[j]).max(off_one(&mid.1[j], &q3.1[j], &hi.1[j]));
+        if off > REFINE_TOLERANCE_K && depth < MAX_DEPTH {
+            still.push(j);
+        } else {
+            for (e, v) in [&q1, &mid, &q3, &hi] {
+                out[j].push((*e, v[j]));
+            }
+        }
+    }
+    if !still.is_empty() {
+        refine_cases(f, [lo, q1, mid.clone()], depth + 1, &still, out);
+        refine_cases(f, [mid, q3, hi], depth + 1, &still, out);
+    }
 }
 
 /// Refine `[lo, mid, hi]` (mid known): evaluate the quarter points; while either is off the line

@@ -41,8 +41,10 @@ const MAX_ENTRIES: usize = 20_000;
 /// Quadrature nodes per beamwidth (or per disk radius, if smaller) across the integration interval.
 /// With the intervals split at the pattern's breaks ([`PowerPattern::breaks_deg`]) the Simpson
 /// sums of the Sun's disk under the reference pattern of a 3.7 m dish at X band agree with a rule
-/// 64 times as fine to 1e-5 of their value (`tests/suite/noise_disk.rs`). Before the split, a
-/// disk across the join was off by up to 5e-3 of its value at twice this density.
+/// 64 times as fine to 1e-5 of their value (7.4e-6 measured; `tests/suite/noise_disk.rs` allows
+/// 2e-5). Every piece takes at least 16 intervals, so a disk split in three gets at least 48.
+/// Before the split, a disk across the join was off by up to 2.9e-3 of its value at twice this
+/// density and 5e-3 at this one.
 const NODES_PER_BEAMWIDTH: f64 = 10.0;
 
 /// An axisymmetric antenna power pattern: off-axis angle (deg) to linear gain, normalized so that
@@ -52,11 +54,12 @@ pub trait PowerPattern {
     fn gain_linear(&self, off_axis_deg: f64) -> f64;
 
     /// Off-axis angles (deg) where the gain steps or its slope does (the reference pattern's
-    /// join of the main beam and the sidelobe envelope, where the envelope starts to fall): the
-    /// quadrature splits its intervals there, since a step inside an interval makes the Simpson
-    /// rule converge only linearly and a kink only quadratically. None by default.
-    fn breaks_deg(&self) -> [Option<f64>; 2] {
-        [None, None]
+    /// join of the main beam and the sidelobe envelope, where the envelope starts to fall, where
+    /// it meets its -10 dBi floor): the quadrature splits its intervals there, since a step
+    /// inside an interval makes the Simpson rule converge only linearly and a kink only
+    /// quadratically. None by default.
+    fn breaks_deg(&self) -> [Option<f64>; 3] {
+        [None, None, None]
     }
 }
 
@@ -215,8 +218,8 @@ pub fn disk_coupling_direct(
 /// of its own side of a step (the break's angle, mapped through the partial rings' substitution
 /// and back, can land on either side by a rounding); the gap leaves out about that share of the
 /// piece.
-fn pieces(lo: f64, hi: f64, breaks: [Option<f64>; 2]) -> impl Iterator<Item = (f64, f64)> {
-    let mut cuts = [lo, hi, hi, hi];
+fn pieces(lo: f64, hi: f64, breaks: [Option<f64>; 3]) -> impl Iterator<Item = (f64, f64)> {
+    let mut cuts = [lo, hi, hi, hi, hi];
     let mut n = 1;
     for b in breaks.into_iter().flatten() {
         if b > lo && b < hi {

@@ -213,14 +213,14 @@ impl crate::noise::disk::PowerPattern for NoisePattern {
         self.gain(off_axis_deg.to_radians())
     }
 
-    fn breaks_deg(&self) -> [Option<f64>; 2] {
+    fn breaks_deg(&self) -> [Option<f64>; 3] {
         match &self.shape {
             Shape::Reference {
                 join_rad,
                 psi_min_deg,
                 ..
-            } => [Some(join_rad.to_degrees()), Some(*psi_min_deg)],
-            Shape::Measured { .. } => [None, None],
+            } => [Some(join_rad.to_degrees()), Some(*psi_min_deg), Some(48.0)],
+            Shape::Measured { .. } => [None, None, None],
         }
     }
 }

@@ -148,9 +148,8 @@ impl StationNoise {
     /// man-made term; with terrain and no measured antenna temperature, the clear-sky table over
     /// elevation and azimuth instead of the one over elevation alone; with `availability`, that
     /// weather case's table as well, both cases' tables built together at little more than the
-    /// cost of one ([`AntennaNoiseTable::build_cases`], or [`TerrainNoiseTable::build_cases`]
-    /// with terrain): on one grid of elevations, so each case has exact values at the rows the
-    /// other needed too (a table [`Self::prepare_weather`] builds later has only its own).
+    /// cost of one ([`AntennaNoiseTable::build_cases`]: each the table built alone; or
+    /// [`TerrainNoiseTable::build_cases`] with terrain, whose raised-horizon rows are shared).
     pub fn new(
         inputs: NoiseInputs,
         atmosphere: &PreparedAtmosphere,
