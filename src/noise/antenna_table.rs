@@ -391,16 +391,8 @@ impl AntennaNoiseTable {
     ) -> (Vec<f64>, Vec<Vec<AntennaNoise>>) {
         use rayon::prelude::*;
         let rings = Rings::of(pattern);
-        let f = |e: f64| {
-            let mut out = vec![AntennaNoise::default(); brightnesses.len()];
-            integrate_many(&rings, brightnesses, e, &mut out);
-            out
-        };
-        let (lo, hi) = TABLE_RANGE_DEG;
-        let n = ((hi - lo) / START_STEP_DEG).round() as usize;
-        let at = |i: usize| lo + (hi - lo) * i as f64 / n as f64;
-        let ends: Vec<(f64, Vec<AntennaNoise>)> =
-            (0..=n).into_par_iter().map(|i| (at(i), f(at(i)))).collect();
+        let f = |e: f64| integrate_cases(&rings, brightnesses, e);
+        let ends = starting_rows(&f);
         let parts: Vec<Vec<(f64, Vec<AntennaNoise>)>> = ends
             .par_windows(2)
             .map(|w| {
@@ -433,16 +425,8 @@ impl AntennaNoiseTable {
         use rayon::prelude::*;
         let rings = Rings::of(pattern);
         let cases = brightnesses.len();
-        let f = |e: f64| {
-            let mut out = vec![AntennaNoise::default(); cases];
-            integrate_many(&rings, brightnesses, e, &mut out);
-            out
-        };
-        let (lo, hi) = TABLE_RANGE_DEG;
-        let n = ((hi - lo) / START_STEP_DEG).round() as usize;
-        let at = |i: usize| lo + (hi - lo) * i as f64 / n as f64;
-        let ends: Vec<(f64, Vec<AntennaNoise>)> =
-            (0..=n).into_par_iter().map(|i| (at(i), f(at(i)))).collect();
+        let f = |e: f64| integrate_cases(&rings, brightnesses, e);
+        let ends = starting_rows(&f);
         let all: Vec<usize> = (0..cases).collect();
         let parts: Vec<Vec<Vec<(f64, AntennaNoise)>>> = ends
             .par_windows(2)
@@ -538,6 +522,23 @@ fn off_many(a: &Vec<AntennaNoise>, q: &Vec<AntennaNoise>, b: &Vec<AntennaNoise>)
     (0..q.len())
         .map(|j| off_one(&a[j], &q[j], &b[j]))
         .fold(0.0, f64::max)
+}
+
+/// Every case's value at `elevation_deg` ([`integrate_many`] into a new vector).
+fn integrate_cases(rings: &Rings, bs: &[&Brightness], elevation_deg: f64) -> Vec<AntennaNoise> {
+    let mut out = vec![AntennaNoise::default(); bs.len()];
+    integrate_many(rings, bs, elevation_deg, &mut out);
+    out
+}
+
+/// The rows the refinement starts from: `f` at [`TABLE_RANGE_DEG`] every [`START_STEP_DEG`]
+/// (evaluated in parallel).
+fn starting_rows(f: &(impl Fn(f64) -> Vec<AntennaNoise> + Sync)) -> Vec<(f64, Vec<AntennaNoise>)> {
+    use rayon::prelude::*;
+    let (lo, hi) = TABLE_RANGE_DEG;
+    let n = ((hi - lo) / START_STEP_DEG).round() as usize;
+    let at = |i: usize| lo + (hi - lo) * i as f64 / n as f64;
+    (0..=n).into_par_iter().map(|i| (at(i), f(at(i)))).collect()
 }
 
 /// [`refine`] for several cases at once (`f` gives every case's value): each case in `active`
