@@ -187,9 +187,9 @@ impl StationNoise {
         let rain = availability
             .filter(|w| *w != Weather::ClearSky)
             .map(|w| (w, s.brightness(atmosphere, w)));
+        let mut cases = vec![&brightness];
+        cases.extend(rain.as_ref().map(|(_, b)| b));
         if let Some(t) = &s.terrain {
-            let mut cases = vec![&brightness];
-            cases.extend(rain.as_ref().map(|(_, b)| b));
             let mut tables =
                 TerrainNoiseTable::build_cases(&s.pattern, &cases, t, &TerrainGrid::default())
                     .into_iter()
@@ -198,8 +198,6 @@ impl StationNoise {
             s.availability = rain.map(|(w, _)| (w, tables.next().expect("one table per case")));
             return s;
         }
-        let mut cases = vec![&brightness];
-        cases.extend(rain.as_ref().map(|(_, b)| b));
         let mut models = AntennaNoiseTable::build_cases(&s.pattern, &cases).into_iter();
         let model = models.next().expect("one table per case");
         s.clear = CaseTable::Flat(match measured {
