@@ -275,10 +275,15 @@ pub fn save_summary(
 
 /// `pass-003-sierra-baja-20261202T0128Z.png`: named as the pass's time series is
 /// ([`crate::report::files::pass_file_stem`]: its number and identifier).
-pub fn pass_file_name(pass_number: usize, pass_id: &str, format: ChartFormat) -> String {
+pub fn pass_file_name(
+    pass_number: usize,
+    pass_count: usize,
+    pass_id: &str,
+    format: ChartFormat,
+) -> String {
     format!(
         "{}.{}",
-        crate::report::files::pass_file_stem(pass_number, pass_id),
+        crate::report::files::pass_file_stem(pass_number, pass_count, pass_id),
         format.extension()
     )
 }
@@ -330,10 +335,24 @@ mod tests {
     #[test]
     fn file_names() {
         assert_eq!(
-            pass_file_name(3, "sierra-baja-20261202T0128Z", ChartFormat::Png),
+            pass_file_name(3, 132, "sierra-baja-20261202T0128Z", ChartFormat::Png),
             "pass-003-sierra-baja-20261202T0128Z.png"
         );
-        assert_eq!(pass_file_name(3, "", ChartFormat::Svg), "pass-003.svg");
+        assert_eq!(pass_file_name(3, 9, "", ChartFormat::Svg), "pass-003.svg");
+        // wider plans pad to their last number's width, so that names sort in pass order
+        assert_eq!(
+            pass_file_name(16, 1500, "", ChartFormat::Png),
+            "pass-0016.png"
+        );
+        assert_eq!(
+            pass_file_name(1000, 1000, "x", ChartFormat::Png),
+            "pass-1000-x.png"
+        );
+        assert_eq!(
+            pass_file_name(999, 1000, "x", ChartFormat::Png),
+            "pass-0999-x.png"
+        );
+        assert_eq!(pass_file_name(1, 0, "", ChartFormat::Png), "pass-001.png");
         let day = NaiveDate::from_ymd_opt(2026, 12, 2).unwrap();
         assert_eq!(
             sky_file_name("Sierra Baja", day, ChartFormat::Svg),

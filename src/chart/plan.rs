@@ -84,9 +84,12 @@ impl PassSink for ChartSink<'_> {
             .insert(s.plan.number, points);
         if self.passes {
             let data = pass_chart_data(self.planner, s);
-            let path = self
-                .dir
-                .join(pass_file_name(s.plan.number, &data.pass_id, self.format));
+            let path = self.dir.join(pass_file_name(
+                s.plan.number,
+                s.pass_count,
+                &data.pass_id,
+                self.format,
+            ));
             save_in(&path, &draw_pass(&data, self.format)?, self.mode)?;
         }
         Ok(())

@@ -184,7 +184,7 @@ pub(super) fn tradeoff_pass(
 /// Plan one pass and hand it with its time series to the sink.
 pub(super) fn plan_pass<S: PassSink>(
     planner: &PassContext,
-    number: usize,
+    (number, pass_count): (usize, usize),
     station_index: usize,
     pass: &Pass,
     s: &mut Scratch,
@@ -254,6 +254,7 @@ pub(super) fn plan_pass<S: PassSink>(
         steps: &s.steps,
         adaptive: &s.schedule,
         chosen_runs: &s.runs,
+        pass_count,
     })
     .map_err(|e| PlanError::Sink(Box::new(e)))?;
     Ok(Planned {

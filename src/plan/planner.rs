@@ -276,7 +276,7 @@ impl Planner {
                     || Scratch::new(&self.elements),
                     |scratch, (number, si, pass)| match *number {
                         Some(n) => {
-                            let r = plan_pass(&ctx, n, *si, pass, scratch, sink)
+                            let r = plan_pass(&ctx, (n, total), *si, pass, scratch, sink)
                                 .map(|p| Item::Planned(Box::new(p)));
                             sink.progress(total);
                             r

@@ -162,6 +162,9 @@ pub struct PassSeries<'a> {
     pub adaptive: &'a [Option<u16>],
     /// Counted runs (step indices, inclusive) of the chosen fixed rate; empty when none closes.
     pub chosen_runs: &'a [(usize, usize)],
+    /// How many passes the plan numbers (the pass numbers run from 1 to it): the pass's file
+    /// names pad its number to this count's width ([`crate::report::files::pass_file_stem`]).
+    pub pass_count: usize,
 }
 
 impl PassSeries<'_> {

@@ -36,17 +36,24 @@ pub(crate) fn io_error(path: &Path, e: std::io::Error) -> FileError {
 /// The name of a pass's files before their extension, the one rule of its time series and its
 /// chart: `pass-NNN-<pass id>`, the pass's number and its identifier as the tables print them
 /// ([`super::pass_id`], the minute of highest elevation), `pass-016-sierra-baja-20261202T0854Z`;
-/// `pass-NNN` without an identifier (chart data made by hand may leave it empty).
-pub fn pass_file_stem(number: usize, pass_id: &str) -> String {
+/// `pass-NNN` without an identifier (chart data made by hand may leave it empty). The number is
+/// padded with zeros to three digits, or to the width of `pass_count` (the plan's last number)
+/// when that is wider, so that the files sort in pass order by name in any plan:
+/// `pass-0016-...` among 1,500 passes.
+pub fn pass_file_stem(number: usize, pass_count: usize, pass_id: &str) -> String {
+    let width = pass_count
+        .checked_ilog10()
+        .map_or(1, |d| d as usize + 1)
+        .max(3);
     match pass_id {
-        "" => format!("pass-{number:03}"),
-        id => format!("pass-{number:03}-{id}"),
+        "" => format!("pass-{number:0width$}"),
+        id => format!("pass-{number:0width$}-{id}"),
     }
 }
 
 /// File name of a pass's time series: [`pass_file_stem`]`.csv`.
-pub fn pass_csv_name(number: usize, pass_id: &str) -> String {
-    format!("{}.csv", pass_file_stem(number, pass_id))
+pub fn pass_csv_name(number: usize, pass_count: usize, pass_id: &str) -> String {
+    format!("{}.csv", pass_file_stem(number, pass_count, pass_id))
 }
 
 /// Writes each pass's time series CSV into a folder.
@@ -63,6 +70,7 @@ impl PassSink for CsvSink<'_> {
         let st = &self.planner.stations()[s.plan.station_index].station.name;
         let path = self.dir.join(pass_csv_name(
             s.plan.number,
+            s.pass_count,
             &super::pass_id(st, &s.plan.pass),
         ));
         // The element age (the one warning of the whole run that every number depends on), then

@@ -306,7 +306,7 @@ fn pass_edge_cases_do_not_panic() {
 fn save_pass_writes_file_atomically() {
     let dir = tempfile::tempdir().unwrap();
     let d = sample_pass();
-    let name = pass_file_name(d.pass_number, &d.pass_id, ChartFormat::Png);
+    let name = pass_file_name(d.pass_number, 9, &d.pass_id, ChartFormat::Png);
     assert_eq!(name, "pass-003-sierra-baja-20261202T0129Z.png");
     let path = dir.path().join(&name);
     save_pass(&d, &path, ChartFormat::Png).unwrap();

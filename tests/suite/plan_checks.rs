@@ -219,6 +219,8 @@ fn a_higher_rate_never_closes_earlier() {
     let rates = planner.rates();
     let violations = Mutex::new(Vec::new());
     let checked = Mutex::new(0usize);
+    // Every pass handed to the sink knows how many the plan numbers (its file names' width).
+    let pass_counts = Mutex::new(std::collections::BTreeSet::new());
     // Ladder options in order of rate. The C/N0 a rate needs must rise with the rate for the shipped
     // ladder (10 log10 R grows faster than the better codes of the higher rates save).
     let mut order: Vec<usize> = (0..rates.ladder.len()).collect();
@@ -231,6 +233,7 @@ fn a_higher_rate_never_closes_earlier() {
         assert!(rates.ladder[w[1]].threshold_cn0_dbhz > rates.ladder[w[0]].threshold_cn0_dbhz);
     }
     let sink = FnSink(|s: &PassSeries| -> Result<(), std::convert::Infallible> {
+        pass_counts.lock().unwrap().insert(s.pass_count);
         let cn0: Vec<f64> = s.steps.iter().map(|x| x.cn0_dbhz).collect();
         let w: Vec<f64> = s.steps.iter().map(|x| x.weight_s).collect();
         let mut prev: Option<(usize, usize)> = None;
@@ -260,6 +263,11 @@ fn a_higher_rate_never_closes_earlier() {
     let plan = planner.run(&sink).unwrap();
     assert!(plan.passes.len() > 10);
     assert!(*checked.lock().unwrap() > 30);
+    let pass_counts = pass_counts.into_inner().unwrap();
+    assert_eq!(
+        pass_counts.into_iter().collect::<Vec<_>>(),
+        [plan.passes.len()]
+    );
     assert!(
         violations.lock().unwrap().is_empty(),
         "{:?}",
