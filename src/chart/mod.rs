@@ -34,6 +34,7 @@ mod indexed;
 mod mask;
 pub mod palette;
 mod pass;
+mod path;
 pub mod plan;
 mod scanline;
 mod sky;

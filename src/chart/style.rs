@@ -259,7 +259,8 @@ pub fn rel<DB: DrawingBackend>(
     (abs.0 - bx, abs.1 - by)
 }
 
-/// Draw a line (split into finite runs; a lone finite point becomes a dot) with a [`Stroke`]. Works for primary (`draw_series`) and
+/// Draw a line (split into finite runs; a lone finite point becomes a dot; each run drawn as a
+/// [`crate::chart::path::PixelPath`]) with a [`Stroke`]. Works for primary (`draw_series`) and
 /// secondary (`draw_secondary_series`) coordinates.
 macro_rules! stroke_line {
     ($chart:expr, $method:ident, $points:expr, $stroke:expr) => {{
@@ -274,22 +275,10 @@ macro_rules! stroke_line {
                 )))?;
                 continue;
             }
-            match stroke.dash {
-                Some((on, off)) => {
-                    $chart.$method(plotters::series::DashedLineSeries::new(
-                        run,
-                        on,
-                        off,
-                        stroke.style(),
-                    ))?;
-                }
-                None => {
-                    $chart.$method(std::iter::once(plotters::element::PathElement::new(
-                        run,
-                        stroke.style(),
-                    )))?;
-                }
-            }
+            // through the pixels that shape it ([`crate::chart::path`]: no dented edges)
+            $chart.$method(std::iter::once($crate::chart::path::PixelPath::new(
+                run, stroke,
+            )))?;
         }
     }};
 }

@@ -1,0 +1,184 @@
+//! Series lines stroked through their pixels without the pixels that change nothing:
+//! [`PixelPath`] maps a series to pixels, then drops repeated pixels and every pixel that lies on
+//! the straight segment between its neighbours (exactly, in integer arithmetic, and only where
+//! the line goes on in the same direction) before the backend strokes it. The path drawn is the
+//! same line.
+//!
+//! Why: plotters turns a line wider than one pixel into a polygon, offsetting each vertex by
+//! half the width. At a vertex whose neighbours are exactly collinear with it, it truncates the
+//! offset vertex towards zero, where everywhere else it rounds (`plotters_backend`
+//! 0.3.7, `rasterizer::path::compute_polygon_vertex`). A pass's series puts a point every 2-3
+//! pixels, so such vertices are frequent, and each one dents the stroke's edge by a pixel: the
+//! wide lines of every chart had a regular saw edge. Without those vertices the edge is straight.
+
+use super::style::Stroke;
+use plotters::element::{DashedPathElement, Drawable, PointCollection};
+use plotters_backend::{BackendCoord, DrawingBackend, DrawingErrorKind};
+
+/// Keeps the pixels of `pixels` that shape the line: the first and the last, and every one where
+/// the line turns (or turns back). Repeated pixels and those on the straight segment between
+/// their kept neighbours, in the same direction, are dropped.
+pub fn shaping_pixels(pixels: impl IntoIterator<Item = BackendCoord>, out: &mut Vec<BackendCoord>) {
+    out.clear();
+    for p in pixels {
+        if out.last() == Some(&p) {
+            continue;
+        }
+        if let [.., a, b] = out[..] {
+            let (u, v) = (sub(b, a), sub(p, b));
+            let cross = u.0 * v.1 - u.1 * v.0;
+            let dot = u.0 * v.0 + u.1 * v.1;
+            if cross == 0 && dot > 0 {
+                // b lies on the segment a-p: the line goes straight on through it
+                out.pop();
+            }
+        }
+        out.push(p);
+    }
+}
+
+fn sub(a: BackendCoord, b: BackendCoord) -> (i64, i64) {
+    (
+        i64::from(a.0) - i64::from(b.0),
+        i64::from(a.1) - i64::from(b.1),
+    )
+}
+
+/// A series stroked through its shaping pixels ([`shaping_pixels`]), solid or dashed as its
+/// [`Stroke`] says; for primary and secondary coordinates alike (plotters hands it the pixels).
+pub struct PixelPath<C> {
+    points: Vec<C>,
+    stroke: Stroke,
+}
+
+impl<C> PixelPath<C> {
+    pub fn new(points: Vec<C>, stroke: Stroke) -> Self {
+        PixelPath { points, stroke }
+    }
+}
+
+impl<'a, C> PointCollection<'a, C> for &'a PixelPath<C> {
+    type Point = &'a C;
+    type IntoIter = &'a [C];
+    fn point_iter(self) -> &'a [C] {
+        &self.points
+    }
+}
+
+impl<C, DB: DrawingBackend> Drawable<DB> for PixelPath<C> {
+    fn draw<I: Iterator<Item = BackendCoord>>(
+        &self,
+        pos: I,
+        backend: &mut DB,
+        parent_dim: (u32, u32),
+    ) -> Result<(), DrawingErrorKind<DB::ErrorType>> {
+        let mut kept = Vec::with_capacity(self.points.len());
+        shaping_pixels(pos, &mut kept);
+        let style = self.stroke.style();
+        match self.stroke.dash {
+            None => backend.draw_path(kept, &style),
+            // plotters' dashes laid along the same pixels (its `draw` takes the pixels it is
+            // given, not the element's own points, which are none)
+            Some((on, off)) => {
+                DashedPathElement::new(std::iter::empty::<BackendCoord>(), on, off, style).draw(
+                    kept.into_iter(),
+                    backend,
+                    parent_dim,
+                )
+            }
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn shaped(pixels: &[BackendCoord]) -> Vec<BackendCoord> {
+        let mut out = Vec::new();
+        shaping_pixels(pixels.iter().copied(), &mut out);
+        out
+    }
+
+    #[test]
+    fn straight_runs_lose_their_inner_pixels_and_turns_stay() {
+        // a straight run, with a repeated pixel: its ends only
+        assert_eq!(
+            shaped(&[(0, 0), (2, 1), (2, 1), (4, 2), (6, 3)]),
+            [(0, 0), (6, 3)]
+        );
+        // a pixel staircase is not straight: every turn stays
+        let stair = [(0, 0), (2, 1), (5, 2), (7, 3)];
+        assert_eq!(shaped(&stair), stair);
+        // a line that turns back on itself keeps its turning point
+        assert_eq!(
+            shaped(&[(0, 0), (3, 0), (6, 0), (2, 0)]),
+            [(0, 0), (6, 0), (2, 0)]
+        );
+        // a corner, and short inputs as they are
+        assert_eq!(
+            shaped(&[(0, 0), (1, 0), (2, 0), (2, 1), (2, 2)]),
+            [(0, 0), (2, 0), (2, 2)]
+        );
+        assert_eq!(shaped(&[(1, 1)]), [(1, 1)]);
+        assert_eq!(shaped(&[(1, 1), (1, 1)]), [(1, 1)]);
+        assert!(shaped(&[]).is_empty());
+    }
+
+    #[test]
+    fn no_collinear_vertex_is_left_for_the_polygonizer() {
+        // A pass's elevation curve at 2.6 px a step: after shaping, no three consecutive pixels are
+        // collinear (the case plotters truncates), and every dropped pixel lies on the kept line.
+        let pixels: Vec<BackendCoord> = (0..600)
+            .map(|i| {
+                let x = f64::from(i) * 2.6;
+                (x as i32, (800.0 - 0.002 * (x - 780.0).powi(2)) as i32)
+            })
+            .collect();
+        let kept = shaped(&pixels);
+        assert!(kept.len() < pixels.len());
+        for w in kept.windows(3) {
+            let (u, v) = (sub(w[1], w[0]), sub(w[2], w[1]));
+            assert!(u.0 * v.1 - u.1 * v.0 != 0, "{w:?}");
+        }
+        for p in &pixels {
+            let on_line = kept.windows(2).any(|w| {
+                let (u, v) = (sub(w[1], w[0]), sub(*p, w[0]));
+                u.0 * v.1 - u.1 * v.0 == 0
+                    && (0..=u.0 * u.0 + u.1 * u.1).contains(&(u.0 * v.0 + u.1 * v.1))
+            });
+            assert!(on_line, "{p:?}");
+        }
+    }
+
+    #[test]
+    fn a_straight_series_draws_as_its_two_ends_and_plotters_alone_dents_it() {
+        use plotters::prelude::*;
+        // A wide straight line given by 60 collinear points, drawn on plotters' RGB bitmap three
+        // ways: as a PixelPath, as a plain path of its two ends, and as a plain path of all its
+        // points. The first two are the same pixels; the third differs (the dented edge).
+        let draw = |how: u8| -> Vec<u8> {
+            let mut buf = vec![255u8; 200 * 120 * 3];
+            {
+                let root = BitMapBackend::with_buffer(&mut buf, (200, 120)).into_drawing_area();
+                let points: Vec<(i32, i32)> = (0..60).map(|i| (10 + 3 * i, 100 - i)).collect();
+                let ends = vec![points[0], points[59]];
+                let stroke = Stroke::solid(BLUE, 3);
+                match how {
+                    0 => root.draw(&PixelPath::new(points, stroke)),
+                    1 => root.draw(&PathElement::new(ends, stroke.style())),
+                    _ => root.draw(&PathElement::new(points, stroke.style())),
+                }
+                .unwrap();
+                root.present().unwrap();
+            }
+            buf
+        };
+        let (shaped, ends, all) = (draw(0), draw(1), draw(2));
+        assert!(shaped == ends, "PixelPath draws the line of its ends");
+        assert!(
+            all != ends,
+            "plotters' polygon of every point differs (the control)"
+        );
+    }
+}
