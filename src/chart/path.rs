@@ -1,8 +1,9 @@
 //! Series lines stroked through their pixels without the pixels that change nothing:
-//! [`PixelPath`] maps a series to pixels, then drops repeated pixels and every pixel that lies on
-//! the straight segment between its neighbours (exactly, in integer arithmetic, and only where
-//! the line goes on in the same direction) before the backend strokes it. The path drawn is the
-//! same line.
+//! [`PixelPath`] maps a series to pixels and, for a line wider than one pixel, drops repeated
+//! pixels and every pixel that lies on the straight segment between its neighbours (exactly, in
+//! integer arithmetic, and only where the line goes on in the same direction) before the backend
+//! strokes it. The path drawn is the same line. (A kept hairpin turn still meets the truncation
+//! below, and a dash's end, rounded to a pixel, can land collinear with its neighbours: rare.)
 //!
 //! Why: plotters turns a line wider than one pixel into a polygon, offsetting each vertex by
 //! half the width. At a vertex whose neighbours are exactly collinear with it, it truncates the
@@ -73,7 +74,12 @@ impl<C, DB: DrawingBackend> Drawable<DB> for PixelPath<C> {
         parent_dim: (u32, u32),
     ) -> Result<(), DrawingErrorKind<DB::ErrorType>> {
         let mut kept = Vec::with_capacity(self.points.len());
-        shaping_pixels(pos, &mut kept);
+        if self.stroke.width > 1 {
+            shaping_pixels(pos, &mut kept);
+        } else {
+            // one-pixel lines are drawn segment by segment, not polygonized: as they come
+            kept.extend(pos);
+        }
         let style = self.stroke.style();
         match self.stroke.dash {
             None => backend.draw_path(kept, &style),
@@ -180,5 +186,32 @@ mod tests {
             all != ends,
             "plotters' polygon of every point differs (the control)"
         );
+    }
+
+    #[test]
+    fn a_dashed_straight_series_dashes_as_its_two_ends() {
+        use plotters::prelude::*;
+        // The dashed branch: 60 collinear points as a dashed PixelPath, and plotters' dashes
+        // along the two ends alone: the same dashes (the dash phase runs along the same length).
+        let draw = |shaped: bool| -> Vec<u8> {
+            let mut buf = vec![255u8; 200 * 120 * 3];
+            {
+                let root = BitMapBackend::with_buffer(&mut buf, (200, 120)).into_drawing_area();
+                let points: Vec<(i32, i32)> = (0..60).map(|i| (10 + 3 * i, 100 - i)).collect();
+                let stroke = Stroke::dashed(BLUE, 3, 16, 7);
+                if shaped {
+                    root.draw(&PixelPath::new(points, stroke)).unwrap();
+                } else {
+                    let ends = [points[0], points[59]];
+                    root.draw(&DashedPathElement::new(ends, 16, 7, stroke.style()))
+                        .unwrap();
+                }
+                root.present().unwrap();
+            }
+            buf
+        };
+        let (shaped, ends) = (draw(true), draw(false));
+        assert!(shaped.iter().any(|&v| v != 255), "dashes were drawn");
+        assert!(shaped == ends, "the dashes of the line's two ends");
     }
 }
