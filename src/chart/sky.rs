@@ -178,6 +178,41 @@ fn place_label(
         .unwrap_or((at.0 + 10, at.1 - th / 2, at.0 + 10 + tw, at.1 + th / 2))
 }
 
+/// Elevations of the sky chart's rings, deg (the last, 0°, is the rim).
+const RING_ELEVATIONS_DEG: [f64; 6] = [75.0, 60.0, 45.0, 30.0, 15.0, 0.0];
+
+/// The azimuth (deg) along which to label the elevation rings: of the azimuths halfway between
+/// two spokes (15°, 45°, ... 345°), the first whose label boxes (`boxes_at`) cover the fewest
+/// track pixels, then the fewest markers and labels already placed.
+fn ring_label_azimuth_deg(
+    boxes_at: &dyn Fn(f64) -> Vec<PxBox>,
+    track_px: &[(i32, i32)],
+    placed: &[PxBox],
+) -> f64 {
+    let cost = |az: f64| {
+        boxes_at(az)
+            .iter()
+            .map(|b| {
+                let grown = (b.0 - 2, b.1 - 2, b.2 + 2, b.3 + 2);
+                let on_tracks = track_px
+                    .iter()
+                    .filter(|p| {
+                        p.0 >= grown.0 && p.0 <= grown.2 && p.1 >= grown.1 && p.1 <= grown.3
+                    })
+                    .count();
+                (
+                    on_tracks,
+                    placed.iter().filter(|p| overlaps(grown, **p)).count(),
+                )
+            })
+            .fold((0, 0), |a, c| (a.0 + c.0, a.1 + c.1))
+    };
+    (0..12)
+        .map(|k| 15.0 + 30.0 * k as f64)
+        .min_by_key(|&az| cost(az))
+        .unwrap_or(15.0)
+}
+
 /// Points every few pixels along a polyline (pixels), so a label box between two samples of a
 /// track still sees the track.
 fn densify(px: &[(i32, i32)], out: &mut Vec<(i32, i32)>) {
@@ -245,9 +280,8 @@ where
         Stroke::solid(style::TERRAIN_EDGE, 2)
     );
 
-    // Elevation rings every 15°, labelled; the rim is the 0° horizon.
-    let f = style::note_font(style::MUTED);
-    for el in [75.0, 60.0, 45.0, 30.0, 15.0, 0.0] {
+    // Elevation rings every 15° (labelled once the tracks are drawn); the rim is the 0° horizon.
+    for el in RING_ELEVATIONS_DEG {
         let ring: Vec<(f64, f64)> = (0..=360).map(|a| xy(a as f64, el)).collect();
         let s = if el == 0.0 {
             Stroke::solid(style::INK, 2)
@@ -255,11 +289,6 @@ where
             Stroke::solid(style::GRID, 1)
         };
         stroke_line!(chart, draw_series, ring, s);
-        chart.draw_series(std::iter::once(Text::new(
-            format!("{el:.0}°"),
-            xy(15.0, el),
-            f.clone().pos(Pos::new(HPos::Left, VPos::Bottom)),
-        )))?;
     }
     // Azimuth spokes every 30°, labelled outside the rim.
     for k in 0..12 {
@@ -358,6 +387,34 @@ where
             placed.push((at.0 - 9, at.1 - 9, at.0 + 9, at.1 + 9));
         }
         tops.push((n, px_of(top)));
+    }
+
+    // The rings' labels, along the azimuth between two spokes where they cover the fewest track
+    // pixels and markers (15° when that is clear, as before).
+    let f = style::note_font(style::MUTED);
+    let mut ring_labels = Vec::with_capacity(RING_ELEVATIONS_DEG.len());
+    for el in RING_ELEVATIONS_DEG {
+        let text = format!("{el:.0}°");
+        let (tw, th) = plot_area.estimate_text_size(&text, &f)?;
+        ring_labels.push((el, text, (tw as i32, th as i32)));
+    }
+    let boxes_at = |az: f64| -> Vec<PxBox> {
+        ring_labels
+            .iter()
+            .map(|(el, _, (tw, th))| {
+                let (x, y) = style::rel(&plot_area, spec.translate(&xy(az, *el)));
+                (x, y - th, x + tw, y)
+            })
+            .collect()
+    };
+    let az = ring_label_azimuth_deg(&boxes_at, &track_px, &placed);
+    for ((el, text, _), b) in ring_labels.iter().zip(boxes_at(az)) {
+        chart.draw_series(std::iter::once(Text::new(
+            text.clone(),
+            xy(az, *el),
+            f.clone().pos(Pos::new(HPos::Left, VPos::Bottom)),
+        )))?;
+        placed.push(b);
     }
 
     // Track labels (the pass number), beside the highest point, clear of every track.
@@ -487,6 +544,33 @@ where
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn ring_labels_move_off_the_tracks() {
+        // boxes 30 px wide at 100 px from the centre along the azimuth (north up, east right)
+        let boxes_at = |az: f64| -> Vec<PxBox> {
+            let a = az.to_radians();
+            let (x, y) = (
+                500 + (100.0 * a.sin()) as i32,
+                500 - (100.0 * a.cos()) as i32,
+            );
+            vec![(x, y - 12, x + 30, y)]
+        };
+        // nothing in the way: 15°, as before
+        assert_eq!(ring_label_azimuth_deg(&boxes_at, &[], &[]), 15.0);
+        // a track through the 15° box: the next clear one, 45°
+        let (x, y) = (500 + 26, 500 - 97);
+        let track: Vec<(i32, i32)> = (0..30).map(|i| (x + i, y - 6)).collect();
+        assert_eq!(ring_label_azimuth_deg(&boxes_at, &track, &[]), 45.0);
+        // a track through 15° and a marker at 45°: 75°
+        let a = 45f64.to_radians();
+        let (mx, my) = (
+            500 + (100.0 * a.sin()) as i32,
+            500 - (100.0 * a.cos()) as i32,
+        );
+        let marker = [(mx, my - 10, mx + 10, my)];
+        assert_eq!(ring_label_azimuth_deg(&boxes_at, &track, &marker), 75.0);
+    }
 
     #[test]
     fn mask_interpolates_and_wraps() {
