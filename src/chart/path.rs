@@ -2,8 +2,9 @@
 //! [`PixelPath`] maps a series to pixels and, for a line wider than one pixel, drops repeated
 //! pixels and every pixel that lies on the straight segment between its neighbours (exactly, in
 //! integer arithmetic, and only where the line goes on in the same direction) before the backend
-//! strokes it. The path drawn is the same line. (A kept hairpin turn still meets the truncation
-//! below, and a dash's end, rounded to a pixel, can land collinear with its neighbours: rare.)
+//! strokes it. The path drawn is the same line (a dash's end, rounded to a pixel, can land
+//! collinear with its neighbours: rare). A wide line is stroked in pieces split at its sharp
+//! turns ([`sharp_turn_pieces`]).
 //!
 //! Why: plotters turns a line wider than one pixel into a polygon, offsetting each vertex by
 //! half the width. At a vertex whose neighbours are exactly collinear with it, it truncates the
@@ -45,6 +46,28 @@ fn sub(a: BackendCoord, b: BackendCoord) -> (i64, i64) {
     )
 }
 
+/// The pieces of a line split at its sharp turns (more than 90°), each turning point ending one
+/// piece and starting the next. plotters polygonizes a wide line (and each dash of one) as one
+/// polygon, filled by the even-odd rule, with a miter at each vertex: where the line turns back
+/// sharply (a store's fill rising and then drained, the storage chart's saw teeth) the polygon
+/// crossed itself, leaving a hole in the line, and its miter stuck out as a spike beyond the
+/// data. A piece turns by 90° at most, so neither happens.
+fn sharp_turn_pieces(pixels: &[BackendCoord]) -> Vec<&[BackendCoord]> {
+    let mut pieces = Vec::new();
+    let mut start = 0;
+    for i in 1..pixels.len().saturating_sub(1) {
+        let (u, v) = (sub(pixels[i], pixels[i - 1]), sub(pixels[i + 1], pixels[i]));
+        if u.0 * v.0 + u.1 * v.1 < 0 {
+            pieces.push(&pixels[start..=i]);
+            start = i;
+        }
+    }
+    if !pixels.is_empty() {
+        pieces.push(&pixels[start..]);
+    }
+    pieces
+}
+
 /// A series stroked through its shaping pixels ([`shaping_pixels`]), solid or dashed as its
 /// [`Stroke`] says; for primary and secondary coordinates alike (plotters hands it the pixels).
 pub struct PixelPath<C> {
@@ -66,6 +89,16 @@ impl<'a, C> PointCollection<'a, C> for &'a PixelPath<C> {
     }
 }
 
+/// plotters' dashes, laid along the pixels handed to its `draw` (not the element's own points,
+/// which are none).
+fn dashed(
+    on: u32,
+    off: u32,
+    style: plotters::style::ShapeStyle,
+) -> DashedPathElement<std::iter::Empty<BackendCoord>, u32> {
+    DashedPathElement::new(std::iter::empty::<BackendCoord>(), on, off, style)
+}
+
 impl<C, DB: DrawingBackend> Drawable<DB> for PixelPath<C> {
     fn draw<I: Iterator<Item = BackendCoord>>(
         &self,
@@ -81,18 +114,32 @@ impl<C, DB: DrawingBackend> Drawable<DB> for PixelPath<C> {
             kept.extend(pos);
         }
         let style = self.stroke.style();
-        match self.stroke.dash {
-            None => backend.draw_path(kept, &style),
-            // plotters' dashes laid along the same pixels (its `draw` takes the pixels it is
-            // given, not the element's own points, which are none)
-            Some((on, off)) => {
-                DashedPathElement::new(std::iter::empty::<BackendCoord>(), on, off, style).draw(
-                    kept.into_iter(),
-                    backend,
-                    parent_dim,
-                )
+        if self.stroke.width <= 1 {
+            // one-pixel lines and dashes are not polygonized
+            return match self.stroke.dash {
+                None => backend.draw_path(kept, &style),
+                Some((on, off)) => {
+                    dashed(on, off, style).draw(kept.into_iter(), backend, parent_dim)
+                }
+            };
+        }
+        let dot = (style.stroke_width.div_ceil(2), style.filled());
+        for (k, piece) in sharp_turn_pieces(&kept).into_iter().enumerate() {
+            match self.stroke.dash {
+                None => {
+                    if k > 0 {
+                        // round the sharp turn where two pieces meet
+                        backend.draw_circle(piece[0], dot.0, &dot.1, true)?;
+                    }
+                    backend.draw_path(piece.iter().copied(), &style)?;
+                }
+                // each piece's dashes start afresh at the turn
+                Some((on, off)) => {
+                    dashed(on, off, style).draw(piece.iter().copied(), backend, parent_dim)?
+                }
             }
         }
+        Ok(())
     }
 }
 
@@ -213,5 +260,66 @@ mod tests {
         let (shaped, ends) = (draw(true), draw(false));
         assert!(shaped.iter().any(|&v| v != 255), "dashes were drawn");
         assert!(shaped == ends, "the dashes of the line's two ends");
+    }
+
+    #[test]
+    fn a_line_splits_at_its_sharp_turns_only() {
+        let none: [BackendCoord; 0] = [];
+        assert!(sharp_turn_pieces(&none).is_empty());
+        assert_eq!(sharp_turn_pieces(&[(1, 1)]), [&[(1, 1)][..]]);
+        // a right angle and a gentle bend: one piece
+        let bends = [(0, 0), (10, 0), (10, 10), (15, 20)];
+        assert_eq!(sharp_turn_pieces(&bends), [&bends[..]]);
+        // saw teeth (up slowly, straight down): split at every tooth's top and foot
+        let saw = [(0, 50), (30, 10), (32, 50), (62, 10), (64, 50)];
+        assert_eq!(
+            sharp_turn_pieces(&saw),
+            [&saw[0..=1], &saw[1..=2], &saw[2..=3], &saw[3..=4]]
+        );
+    }
+
+    #[test]
+    fn a_sharp_tooth_has_no_hole_and_no_spike() {
+        use plotters::prelude::*;
+        // A wide saw tooth drawn as a PixelPath: every pixel on the centre line is inked (no hole
+        // where the even-odd fill of a self-crossing polygon cancels) and nothing is inked more
+        // than the line's half-width beyond the data's top (no miter spike). As a control, the
+        // same tooth as one plotters path has a hole or a spike.
+        let tooth = vec![(20, 100), (60, 20), (64, 100), (104, 20), (108, 100)];
+        let draw = |shaped: bool| -> Vec<u8> {
+            let mut buf = vec![255u8; 140 * 130 * 3];
+            {
+                let root = BitMapBackend::with_buffer(&mut buf, (140, 130)).into_drawing_area();
+                let stroke = Stroke::solid(BLUE, 3);
+                if shaped {
+                    root.draw(&PixelPath::new(tooth.clone(), stroke)).unwrap();
+                } else {
+                    root.draw(&PathElement::new(tooth.clone(), stroke.style()))
+                        .unwrap();
+                }
+                root.present().unwrap();
+            }
+            buf
+        };
+        let inked =
+            |buf: &[u8], (x, y): (i32, i32)| buf[(y as usize * 140 + x as usize) * 3] != 255;
+        // the centre line, each segment from its start (the path's last pixel, on the flat end's
+        // edge, is not filled by plotters either way)
+        let on_line = |buf: &[u8]| {
+            tooth.windows(2).all(|w| {
+                (0..20).all(|k| {
+                    let x = w[0].0 + (w[1].0 - w[0].0) * k / 20;
+                    let y = w[0].1 + (w[1].1 - w[0].1) * k / 20;
+                    inked(buf, (x, y))
+                })
+            })
+        };
+        let above_top = |buf: &[u8]| (0..140).any(|x| (0..17).any(|y| inked(buf, (x, y))));
+        let (shaped, plain) = (draw(true), draw(false));
+        assert!(on_line(&shaped) && !above_top(&shaped));
+        assert!(
+            !on_line(&plain) || above_top(&plain),
+            "the control shows the defect"
+        );
     }
 }
