@@ -3,8 +3,9 @@
 //! pixels and every pixel that lies on the straight segment between its neighbours (exactly, in
 //! integer arithmetic, and only where the line goes on in the same direction) before the backend
 //! strokes it. The path drawn is the same line (a dash's end, rounded to a pixel, can land
-//! collinear with its neighbours: rare). A wide line is stroked in pieces split at its sharp
-//! turns ([`sharp_turn_pieces`]).
+//! collinear with its neighbours: rare). A wide line is stroked in pieces split where it turns
+//! back ([`sharp_turn_pieces`]); a dashed line's dashes start afresh at each such turn, so a
+//! dense saw of pieces shorter than a dash draws solid.
 //!
 //! Why: plotters turns a line wider than one pixel into a polygon, offsetting each vertex by
 //! half the width. At a vertex whose neighbours are exactly collinear with it, it truncates the
@@ -46,18 +47,22 @@ fn sub(a: BackendCoord, b: BackendCoord) -> (i64, i64) {
     )
 }
 
-/// The pieces of a line split at its sharp turns (more than 90°), each turning point ending one
-/// piece and starting the next. plotters polygonizes a wide line (and each dash of one) as one
-/// polygon, filled by the even-odd rule, with a miter at each vertex: where the line turns back
-/// sharply (a store's fill rising and then drained, the storage chart's saw teeth) the polygon
-/// crossed itself, leaving a hole in the line, and its miter stuck out as a spike beyond the
-/// data. A piece turns by 90° at most, so neither happens.
+/// The pieces of a line split where it turns back, each turning point ending one piece and
+/// starting the next: at a vertex that turns by more than 90°, and where a segment heads more
+/// than 90° away from its piece's first segment (a U-turn made of two right angles, a spike with
+/// a flat top). plotters polygonizes a wide line (and each dash of one) as one polygon, filled by
+/// the even-odd rule, with a miter at each vertex: where the line turned back (a store's fill
+/// rising and then drained, the storage chart's saw teeth) the polygon crossed itself, leaving a
+/// hole in the line, and its miter stuck out as a spike beyond the data. Every segment of a piece
+/// heads within 90° of the piece's first, so the piece never comes back on itself.
 fn sharp_turn_pieces(pixels: &[BackendCoord]) -> Vec<&[BackendCoord]> {
     let mut pieces = Vec::new();
     let mut start = 0;
     for i in 1..pixels.len().saturating_sub(1) {
         let (u, v) = (sub(pixels[i], pixels[i - 1]), sub(pixels[i + 1], pixels[i]));
-        if u.0 * v.0 + u.1 * v.1 < 0 {
+        let first = sub(pixels[start + 1], pixels[start]);
+        let back = |a: (i64, i64)| a.0 * v.0 + a.1 * v.1 < 0;
+        if back(u) || back(first) {
             pieces.push(&pixels[start..=i]);
             start = i;
         }
@@ -123,16 +128,15 @@ impl<C, DB: DrawingBackend> Drawable<DB> for PixelPath<C> {
                 }
             };
         }
-        let dot = (style.stroke_width.div_ceil(2), style.filled());
+        // a dot about the line's width fills the outer corner where two pieces meet (plotters
+        // draws small radii as a plus or a diamond); a new piece starts with ink, dashed or not
+        let dot = ((style.stroke_width / 2).max(1), style.filled());
         for (k, piece) in sharp_turn_pieces(&kept).into_iter().enumerate() {
+            if k > 0 {
+                backend.draw_circle(piece[0], dot.0, &dot.1, true)?;
+            }
             match self.stroke.dash {
-                None => {
-                    if k > 0 {
-                        // round the sharp turn where two pieces meet
-                        backend.draw_circle(piece[0], dot.0, &dot.1, true)?;
-                    }
-                    backend.draw_path(piece.iter().copied(), &style)?;
-                }
+                None => backend.draw_path(piece.iter().copied(), &style)?,
                 // each piece's dashes start afresh at the turn
                 Some((on, off)) => {
                     dashed(on, off, style).draw(piece.iter().copied(), backend, parent_dim)?
@@ -276,6 +280,15 @@ mod tests {
             sharp_turn_pieces(&saw),
             [&saw[0..=1], &saw[1..=2], &saw[2..=3], &saw[3..=4]]
         );
+        // a U-turn of two right angles, and a spike with a flat top: split where the line heads
+        // back against its piece's first segment
+        let u_turn = [(10, 20), (40, 20), (40, 21), (10, 21)];
+        assert_eq!(sharp_turn_pieces(&u_turn), [&u_turn[0..=2], &u_turn[2..=3]]);
+        let flat_top = [(10, 40), (13, 10), (14, 10), (17, 40)];
+        assert_eq!(
+            sharp_turn_pieces(&flat_top),
+            [&flat_top[0..=2], &flat_top[2..=3]]
+        );
     }
 
     #[test]
@@ -283,8 +296,9 @@ mod tests {
         use plotters::prelude::*;
         // A wide saw tooth drawn as a PixelPath: every pixel on the centre line is inked (no hole
         // where the even-odd fill of a self-crossing polygon cancels) and nothing is inked more
-        // than the line's half-width beyond the data's top (no miter spike). As a control, the
-        // same tooth as one plotters path has a hole or a spike.
+        // than 2 px above the data's top at y = 20 (the line's half-width is 1.5 px and the dot
+        // at the turn has a radius of 1: no miter spike). As a control, the same tooth as one
+        // plotters path has a hole or a spike.
         let tooth = vec![(20, 100), (60, 20), (64, 100), (104, 20), (108, 100)];
         let draw = |shaped: bool| -> Vec<u8> {
             let mut buf = vec![255u8; 140 * 130 * 3];
@@ -314,12 +328,42 @@ mod tests {
                 })
             })
         };
-        let above_top = |buf: &[u8]| (0..140).any(|x| (0..17).any(|y| inked(buf, (x, y))));
+        let above_top = |buf: &[u8]| (0..140).any(|x| (0..18).any(|y| inked(buf, (x, y))));
         let (shaped, plain) = (draw(true), draw(false));
         assert!(on_line(&shaped) && !above_top(&shaped));
         assert!(
             !on_line(&plain) || above_top(&plain),
             "the control shows the defect"
+        );
+    }
+
+    #[test]
+    fn a_u_turn_of_two_right_angles_has_no_slit() {
+        use plotters::prelude::*;
+        // A wide line out and back 2 px apart (a U-turn of two right angles, as a vertical jump,
+        // a one-pixel step and a drop): every pixel between the two runs is inked. As a control,
+        // one plotters path leaves a slit there (the even-odd fill of its self-crossing polygon).
+        let u_turn = vec![(10, 20), (60, 20), (60, 22), (10, 22)];
+        let draw = |shaped: bool| -> Vec<u8> {
+            let mut buf = vec![255u8; 80 * 40 * 3];
+            {
+                let root = BitMapBackend::with_buffer(&mut buf, (80, 40)).into_drawing_area();
+                let stroke = Stroke::solid(BLUE, 4);
+                if shaped {
+                    root.draw(&PixelPath::new(u_turn.clone(), stroke)).unwrap();
+                } else {
+                    root.draw(&PathElement::new(u_turn.clone(), stroke.style()))
+                        .unwrap();
+                }
+                root.present().unwrap();
+            }
+            buf
+        };
+        let filled = |buf: &[u8]| (14..56).all(|x| (20..=22).all(|y| buf[(y * 80 + x) * 3] != 255));
+        assert!(filled(&draw(true)), "no slit between the runs");
+        assert!(
+            !filled(&draw(false)),
+            "the control: plotters alone leaves a slit"
         );
     }
 }

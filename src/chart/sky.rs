@@ -181,9 +181,56 @@ fn place_label(
 /// Elevations of the sky chart's rings, deg (the last, 0°, is the rim).
 const RING_ELEVATIONS_DEG: [f64; 6] = [75.0, 60.0, 45.0, 30.0, 15.0, 0.0];
 
+/// Where a ring's label hangs from its point on the ring at azimuth `az_deg`: always on the
+/// outer side of the ring (right and up in the north-east quarter, left and down in the
+/// south-west), so that it reads as that ring's label.
+fn ring_label_anchor(az_deg: f64) -> (HPos, VPos) {
+    let a = az_deg.to_radians();
+    let h = if a.sin() >= 0.0 {
+        HPos::Left
+    } else {
+        HPos::Right
+    };
+    let v = if a.cos() >= 0.0 {
+        VPos::Bottom
+    } else {
+        VPos::Top
+    };
+    (h, v)
+}
+
+/// Gap (pixels, in x and in y) between a ring's point and its label's corner, so that the label
+/// clears the ring's line (the rim is 2 px wide).
+const RING_LABEL_GAP_PX: i32 = 3;
+
+/// The anchor point (pixels) of a label hung from `at` as [`ring_label_anchor`] says, moved away
+/// from the ring by [`RING_LABEL_GAP_PX`].
+fn label_anchor_px(at: (i32, i32), (h, v): (HPos, VPos)) -> (i32, i32) {
+    let gx = if matches!(h, HPos::Left) { 1 } else { -1 };
+    let gy = if matches!(v, VPos::Bottom) { -1 } else { 1 };
+    (at.0 + gx * RING_LABEL_GAP_PX, at.1 + gy * RING_LABEL_GAP_PX)
+}
+
+/// The box (pixels) of a `tw` x `th` label hung from `at` ([`label_anchor_px`]).
+fn anchored_box(at: (i32, i32), (tw, th): (i32, i32), (h, v): (HPos, VPos)) -> PxBox {
+    let p = label_anchor_px(at, (h, v));
+    let x0 = if matches!(h, HPos::Left) {
+        p.0
+    } else {
+        p.0 - tw
+    };
+    let y0 = if matches!(v, VPos::Bottom) {
+        p.1 - th
+    } else {
+        p.1
+    };
+    (x0, y0, x0 + tw, y0 + th)
+}
+
 /// The azimuth (deg) along which to label the elevation rings: of the azimuths halfway between
-/// two spokes (15°, 45°, ... 345°), the first whose label boxes (`boxes_at`) cover the fewest
-/// track pixels, then the fewest markers and labels already placed.
+/// two spokes (15°, 45°, ... 345°), the first whose label boxes (`boxes_at`, grown by 3 px) cover
+/// the fewest track pixels and markers, a marker counting as 1,000 track pixels (as
+/// [`place_label`] counts them).
 fn ring_label_azimuth_deg(
     boxes_at: &dyn Fn(f64) -> Vec<PxBox>,
     track_px: &[(i32, i32)],
@@ -193,19 +240,16 @@ fn ring_label_azimuth_deg(
         boxes_at(az)
             .iter()
             .map(|b| {
-                let grown = (b.0 - 2, b.1 - 2, b.2 + 2, b.3 + 2);
+                let grown = (b.0 - 3, b.1 - 3, b.2 + 3, b.3 + 3);
                 let on_tracks = track_px
                     .iter()
                     .filter(|p| {
                         p.0 >= grown.0 && p.0 <= grown.2 && p.1 >= grown.1 && p.1 <= grown.3
                     })
                     .count();
-                (
-                    on_tracks,
-                    placed.iter().filter(|p| overlaps(grown, **p)).count(),
-                )
+                on_tracks + 1000 * placed.iter().filter(|p| overlaps(grown, **p)).count()
             })
-            .fold((0, 0), |a, c| (a.0 + c.0, a.1 + c.1))
+            .sum::<usize>()
     };
     (0..12)
         .map(|k| 15.0 + 30.0 * k as f64)
@@ -390,7 +434,7 @@ where
     }
 
     // The rings' labels, along the azimuth between two spokes where they cover the fewest track
-    // pixels and markers (15° when that is clear, as before).
+    // pixels and markers (15° when that is clear, as before), each outside its ring.
     let f = style::note_font(style::MUTED);
     let mut ring_labels = Vec::with_capacity(RING_ELEVATIONS_DEG.len());
     for el in RING_ELEVATIONS_DEG {
@@ -401,19 +445,21 @@ where
     let boxes_at = |az: f64| -> Vec<PxBox> {
         ring_labels
             .iter()
-            .map(|(el, _, (tw, th))| {
-                let (x, y) = style::rel(&plot_area, spec.translate(&xy(az, *el)));
-                (x, y - th, x + tw, y)
+            .map(|(el, _, size)| {
+                let at = style::rel(&plot_area, spec.translate(&xy(az, *el)));
+                anchored_box(at, *size, ring_label_anchor(az))
             })
             .collect()
     };
     let az = ring_label_azimuth_deg(&boxes_at, &track_px, &placed);
+    let (h, v) = ring_label_anchor(az);
     for ((el, text, _), b) in ring_labels.iter().zip(boxes_at(az)) {
-        chart.draw_series(std::iter::once(Text::new(
+        let at = style::rel(&plot_area, spec.translate(&xy(az, *el)));
+        plot_area.draw(&Text::new(
             text.clone(),
-            xy(az, *el),
-            f.clone().pos(Pos::new(HPos::Left, VPos::Bottom)),
-        )))?;
+            label_anchor_px(at, (h, v)),
+            f.clone().pos(Pos::new(h, v)),
+        ))?;
         placed.push(b);
     }
 
@@ -563,6 +609,7 @@ mod tests {
         let track: Vec<(i32, i32)> = (0..30).map(|i| (x + i, y - 6)).collect();
         assert_eq!(ring_label_azimuth_deg(&boxes_at, &track, &[]), 45.0);
         // a track through 15° and a marker at 45°: 75°
+        // (the boxes here hang right and up, as the chart's do in the north-east quarter)
         let a = 45f64.to_radians();
         let (mx, my) = (
             500 + (100.0 * a.sin()) as i32,
@@ -570,6 +617,21 @@ mod tests {
         );
         let marker = [(mx, my - 10, mx + 10, my)];
         assert_eq!(ring_label_azimuth_deg(&boxes_at, &track, &marker), 75.0);
+    }
+
+    #[test]
+    fn ring_labels_hang_outside_their_ring() {
+        // pixel y grows downwards; the chart's centre is up-left of a north-east point
+        let size = (30, 12);
+        // (3 px clear of the ring's point in x and in y)
+        let ne = anchored_box((600, 400), size, ring_label_anchor(15.0));
+        assert_eq!(ne, (603, 385, 633, 397));
+        let sw = anchored_box((400, 600), size, ring_label_anchor(195.0));
+        assert_eq!(sw, (367, 603, 397, 615));
+        let se = anchored_box((600, 600), size, ring_label_anchor(135.0));
+        assert_eq!(se, (603, 603, 633, 615));
+        let nw = anchored_box((400, 400), size, ring_label_anchor(315.0));
+        assert_eq!(nw, (367, 385, 397, 397));
     }
 
     #[test]
