@@ -151,6 +151,40 @@ impl<C, DB: DrawingBackend> Drawable<DB> for PixelPath<C> {
 mod tests {
     use super::*;
 
+    /// `points` stroked on a white RGB bitmap of `size`, as a [`PixelPath`] (`shaped`) or as one
+    /// plotters path: the bitmap's bytes.
+    fn stroked(points: &[BackendCoord], stroke: Stroke, shaped: bool, size: (u32, u32)) -> Vec<u8> {
+        use plotters::prelude::*;
+        bitmap(size, |root| {
+            if shaped {
+                root.draw(&PixelPath::new(points.to_vec(), stroke))
+            } else {
+                root.draw(&PathElement::new(points.to_vec(), stroke.style()))
+            }
+            .unwrap()
+        })
+    }
+
+    /// The bytes of a white RGB bitmap of `size` after `draw`.
+    fn bitmap(
+        size: (u32, u32),
+        draw: impl FnOnce(
+            &plotters::drawing::DrawingArea<
+                plotters::prelude::BitMapBackend<'_>,
+                plotters::coord::Shift,
+            >,
+        ),
+    ) -> Vec<u8> {
+        use plotters::prelude::*;
+        let mut buf = vec![255u8; (size.0 * size.1 * 3) as usize];
+        {
+            let root = BitMapBackend::with_buffer(&mut buf, size).into_drawing_area();
+            draw(&root);
+            root.present().unwrap();
+        }
+        buf
+    }
+
     fn shaped(pixels: &[BackendCoord]) -> Vec<BackendCoord> {
         let mut out = Vec::new();
         shaping_pixels(pixels.iter().copied(), &mut out);
@@ -214,24 +248,11 @@ mod tests {
         // A wide straight line given by 60 collinear points, drawn on plotters' RGB bitmap three
         // ways: as a PixelPath, as a plain path of its two ends, and as a plain path of all its
         // points. The first two are the same pixels; the third differs (the dented edge).
-        let draw = |how: u8| -> Vec<u8> {
-            let mut buf = vec![255u8; 200 * 120 * 3];
-            {
-                let root = BitMapBackend::with_buffer(&mut buf, (200, 120)).into_drawing_area();
-                let points: Vec<(i32, i32)> = (0..60).map(|i| (10 + 3 * i, 100 - i)).collect();
-                let ends = vec![points[0], points[59]];
-                let stroke = Stroke::solid(BLUE, 3);
-                match how {
-                    0 => root.draw(&PixelPath::new(points, stroke)),
-                    1 => root.draw(&PathElement::new(ends, stroke.style())),
-                    _ => root.draw(&PathElement::new(points, stroke.style())),
-                }
-                .unwrap();
-                root.present().unwrap();
-            }
-            buf
-        };
-        let (shaped, ends, all) = (draw(0), draw(1), draw(2));
+        let points: Vec<(i32, i32)> = (0..60).map(|i| (10 + 3 * i, 100 - i)).collect();
+        let stroke = Stroke::solid(BLUE, 3);
+        let shaped = stroked(&points, stroke, true, (200, 120));
+        let ends = stroked(&[points[0], points[59]], stroke, false, (200, 120));
+        let all = stroked(&points, stroke, false, (200, 120));
         assert!(shaped == ends, "PixelPath draws the line of its ends");
         assert!(
             all != ends,
@@ -244,24 +265,14 @@ mod tests {
         use plotters::prelude::*;
         // The dashed branch: 60 collinear points as a dashed PixelPath, and plotters' dashes
         // along the two ends alone: the same dashes (the dash phase runs along the same length).
-        let draw = |shaped: bool| -> Vec<u8> {
-            let mut buf = vec![255u8; 200 * 120 * 3];
-            {
-                let root = BitMapBackend::with_buffer(&mut buf, (200, 120)).into_drawing_area();
-                let points: Vec<(i32, i32)> = (0..60).map(|i| (10 + 3 * i, 100 - i)).collect();
-                let stroke = Stroke::dashed(BLUE, 3, 16, 7);
-                if shaped {
-                    root.draw(&PixelPath::new(points, stroke)).unwrap();
-                } else {
-                    let ends = [points[0], points[59]];
-                    root.draw(&DashedPathElement::new(ends, 16, 7, stroke.style()))
-                        .unwrap();
-                }
-                root.present().unwrap();
-            }
-            buf
-        };
-        let (shaped, ends) = (draw(true), draw(false));
+        let points: Vec<(i32, i32)> = (0..60).map(|i| (10 + 3 * i, 100 - i)).collect();
+        let stroke = Stroke::dashed(BLUE, 3, 16, 7);
+        let shaped = stroked(&points, stroke, true, (200, 120));
+        let ends = bitmap((200, 120), |root| {
+            let ends = [points[0], points[59]];
+            root.draw(&DashedPathElement::new(ends, 16, 7, stroke.style()))
+                .unwrap()
+        });
         assert!(shaped.iter().any(|&v| v != 255), "dashes were drawn");
         assert!(shaped == ends, "the dashes of the line's two ends");
     }
@@ -300,21 +311,7 @@ mod tests {
         // at the turn has a radius of 1: no miter spike). As a control, the same tooth as one
         // plotters path has a hole or a spike.
         let tooth = vec![(20, 100), (60, 20), (64, 100), (104, 20), (108, 100)];
-        let draw = |shaped: bool| -> Vec<u8> {
-            let mut buf = vec![255u8; 140 * 130 * 3];
-            {
-                let root = BitMapBackend::with_buffer(&mut buf, (140, 130)).into_drawing_area();
-                let stroke = Stroke::solid(BLUE, 3);
-                if shaped {
-                    root.draw(&PixelPath::new(tooth.clone(), stroke)).unwrap();
-                } else {
-                    root.draw(&PathElement::new(tooth.clone(), stroke.style()))
-                        .unwrap();
-                }
-                root.present().unwrap();
-            }
-            buf
-        };
+        let draw = |shaped| stroked(&tooth, Stroke::solid(BLUE, 3), shaped, (140, 130));
         let inked =
             |buf: &[u8], (x, y): (i32, i32)| buf[(y as usize * 140 + x as usize) * 3] != 255;
         // the centre line, each segment from its start (the path's last pixel, on the flat end's
@@ -344,21 +341,7 @@ mod tests {
         // a one-pixel step and a drop): every pixel between the two runs is inked. As a control,
         // one plotters path leaves a slit there (the even-odd fill of its self-crossing polygon).
         let u_turn = vec![(10, 20), (60, 20), (60, 22), (10, 22)];
-        let draw = |shaped: bool| -> Vec<u8> {
-            let mut buf = vec![255u8; 80 * 40 * 3];
-            {
-                let root = BitMapBackend::with_buffer(&mut buf, (80, 40)).into_drawing_area();
-                let stroke = Stroke::solid(BLUE, 4);
-                if shaped {
-                    root.draw(&PixelPath::new(u_turn.clone(), stroke)).unwrap();
-                } else {
-                    root.draw(&PathElement::new(u_turn.clone(), stroke.style()))
-                        .unwrap();
-                }
-                root.present().unwrap();
-            }
-            buf
-        };
+        let draw = |shaped| stroked(&u_turn, Stroke::solid(BLUE, 4), shaped, (80, 40));
         let filled = |buf: &[u8]| (14..56).all(|x| (20..=22).all(|y| buf[(y * 80 + x) * 3] != 255));
         assert!(filled(&draw(true)), "no slit between the runs");
         assert!(
