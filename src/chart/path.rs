@@ -4,8 +4,8 @@
 //! integer arithmetic, and only where the line goes on in the same direction) before the backend
 //! strokes it. The path drawn is the same line (a dash's end, rounded to a pixel, can land
 //! collinear with its neighbours: rare). A wide line is stroked in pieces split where it turns
-//! back ([`sharp_turn_pieces`]); a dashed line's dashes start afresh at each such turn, so a
-//! dense saw of pieces shorter than a dash draws solid.
+//! back ([`sharp_turn_pieces`]); a dashed line's dashes are laid along the whole line
+//! ([`dashes`]) and each dash is stroked in such pieces.
 //!
 //! Why: plotters turns a line wider than one pixel into a polygon, offsetting each vertex by
 //! half the width. At a vertex whose neighbours are exactly collinear with it, it truncates the
@@ -94,8 +94,77 @@ impl<'a, C> PointCollection<'a, C> for &'a PixelPath<C> {
     }
 }
 
+/// A wide line (or dash) stroked in the pieces of [`sharp_turn_pieces`], with a dot about the
+/// line's width where two pieces meet to fill the outer corner (plotters draws small radii as a
+/// plus or a diamond).
+fn draw_in_pieces<DB: DrawingBackend>(
+    backend: &mut DB,
+    pixels: &[BackendCoord],
+    style: &plotters::style::ShapeStyle,
+) -> Result<(), DrawingErrorKind<DB::ErrorType>> {
+    let dot = ((style.stroke_width / 2).max(1), style.filled());
+    for (k, piece) in sharp_turn_pieces(pixels).into_iter().enumerate() {
+        if k > 0 {
+            backend.draw_circle(piece[0], dot.0, &dot.1, true)?;
+        }
+        backend.draw_path(piece.iter().copied(), style)?;
+    }
+    Ok(())
+}
+
+/// The dashes of a line: `on` pixels of ink, `off` of gap, along the line's length, each dash the
+/// pixels it passes through. The arithmetic of plotters' `DashedPathElement` (f32 lengths, ends
+/// rounded to the nearest pixel), so a line without sharp turns has plotters' dashes; but the
+/// dashes are handed back instead of stroked, so that each can be drawn in pieces.
+fn dashes(pixels: &[BackendCoord], on: u32, off: u32) -> Vec<Vec<BackendCoord>> {
+    let to_f = |c: BackendCoord| (c.0 as f32, c.1 as f32);
+    let to_i = |(x, y): (f32, f32)| (x.round() as i32, y.round() as i32);
+    let mut out = Vec::new();
+    let Some(&first) = pixels.first() else {
+        return out;
+    };
+    if on == 0 {
+        return out;
+    }
+    let (mut start, mut dist, mut solid) = (to_f(first), 0f32, true);
+    let mut queue = vec![first];
+    for &p in &pixels[1..] {
+        let end = to_f(p);
+        while start != end {
+            let (dx, dy) = (end.0 - start.0, end.1 - start.1);
+            let d = dx.hypot(dy);
+            let size = if solid { on } else { off } as f32;
+            let left = size - dist;
+            if left < d {
+                let t = left / d;
+                start = (start.0 + dx * t, start.1 + dy * t);
+                dist += left;
+            } else {
+                start = end;
+                dist += d;
+            }
+            if solid {
+                queue.push(to_i(start));
+            }
+            if size <= dist {
+                if solid {
+                    out.push(std::mem::take(&mut queue));
+                } else {
+                    queue.push(to_i(start));
+                }
+                dist = 0.0;
+                solid = !solid;
+            }
+        }
+    }
+    if queue.len() > 1 {
+        out.push(queue);
+    }
+    out
+}
+
 /// plotters' dashes, laid along the pixels handed to its `draw` (not the element's own points,
-/// which are none).
+/// which are none): for one-pixel lines, which are not polygonized.
 fn dashed(
     on: u32,
     off: u32,
@@ -128,22 +197,17 @@ impl<C, DB: DrawingBackend> Drawable<DB> for PixelPath<C> {
                 }
             };
         }
-        // a dot about the line's width fills the outer corner where two pieces meet (plotters
-        // draws small radii as a plus or a diamond); a new piece starts with ink, dashed or not
-        let dot = ((style.stroke_width / 2).max(1), style.filled());
-        for (k, piece) in sharp_turn_pieces(&kept).into_iter().enumerate() {
-            if k > 0 {
-                backend.draw_circle(piece[0], dot.0, &dot.1, true)?;
-            }
-            match self.stroke.dash {
-                None => backend.draw_path(piece.iter().copied(), &style)?,
-                // each piece's dashes start afresh at the turn
-                Some((on, off)) => {
-                    dashed(on, off, style).draw(piece.iter().copied(), backend, parent_dim)?
+        match self.stroke.dash {
+            None => draw_in_pieces(backend, &kept, &style),
+            // the dashes are laid along the whole line (their phase runs on through its turns),
+            // then each dash is drawn in pieces
+            Some((on, off)) => {
+                for dash in dashes(&kept, on, off) {
+                    draw_in_pieces(backend, &dash, &style)?;
                 }
+                Ok(())
             }
         }
-        Ok(())
     }
 }
 
@@ -348,5 +412,34 @@ mod tests {
             !filled(&draw(false)),
             "the control: plotters alone leaves a slit"
         );
+    }
+
+    #[test]
+    fn dashes_keep_their_phase_through_a_sharp_turn() {
+        // A line 10 px up and 10 px back down, dashes of 6 on and 2 off: the second dash runs
+        // through the turn (from 8 to 14 px along the line) instead of a new dash starting there,
+        // and the third starts 2 px after it.
+        let line = [(0, 20), (0, 10), (0, 20)];
+        let d = dashes(&line, 6, 2);
+        assert_eq!(
+            d,
+            [
+                vec![(0, 20), (0, 14)],
+                vec![(0, 12), (0, 10), (0, 14)],
+                vec![(0, 16), (0, 20)]
+            ]
+        );
+        // plotters' arithmetic on a straight line: 16 on, 7 off along 50 px
+        let d = dashes(&[(0, 0), (50, 0)], 16, 7);
+        assert_eq!(
+            d,
+            [
+                vec![(0, 0), (16, 0)],
+                vec![(23, 0), (39, 0)],
+                vec![(46, 0), (50, 0)]
+            ]
+        );
+        assert!(dashes(&[], 16, 7).is_empty());
+        assert!(dashes(&[(0, 0), (50, 0)], 0, 7).is_empty());
     }
 }
