@@ -15,7 +15,7 @@
 //! wide lines of every chart had a regular saw edge. Without those vertices the edge is straight.
 
 use super::style::Stroke;
-use plotters::element::{DashedPathElement, Drawable, PointCollection};
+use plotters::element::{Drawable, PointCollection};
 use plotters_backend::{BackendCoord, DrawingBackend, DrawingErrorKind};
 
 /// Keeps the pixels of `pixels` that shape the line: the first and the last, and every one where
@@ -163,50 +163,37 @@ fn dashes(pixels: &[BackendCoord], on: u32, off: u32) -> Vec<Vec<BackendCoord>> 
     out
 }
 
-/// plotters' dashes, laid along the pixels handed to its `draw` (not the element's own points,
-/// which are none): for one-pixel lines, which are not polygonized.
-fn dashed(
-    on: u32,
-    off: u32,
-    style: plotters::style::ShapeStyle,
-) -> DashedPathElement<std::iter::Empty<BackendCoord>, u32> {
-    DashedPathElement::new(std::iter::empty::<BackendCoord>(), on, off, style)
-}
-
 impl<C, DB: DrawingBackend> Drawable<DB> for PixelPath<C> {
     fn draw<I: Iterator<Item = BackendCoord>>(
         &self,
         pos: I,
         backend: &mut DB,
-        parent_dim: (u32, u32),
+        _: (u32, u32),
     ) -> Result<(), DrawingErrorKind<DB::ErrorType>> {
+        // One-pixel lines are drawn segment by segment, not polygonized: through every pixel, in
+        // one piece, as plotters draws them.
+        let wide = self.stroke.width > 1;
         let mut kept = Vec::with_capacity(self.points.len());
-        if self.stroke.width > 1 {
+        if wide {
             shaping_pixels(pos, &mut kept);
         } else {
-            // one-pixel lines are drawn segment by segment, not polygonized: as they come
             kept.extend(pos);
         }
         let style = self.stroke.style();
-        if self.stroke.width <= 1 {
-            // one-pixel lines and dashes are not polygonized
-            return match self.stroke.dash {
-                None => backend.draw_path(kept, &style),
-                Some((on, off)) => {
-                    dashed(on, off, style).draw(kept.into_iter(), backend, parent_dim)
-                }
-            };
-        }
-        match self.stroke.dash {
-            None => draw_in_pieces(backend, &kept, &style),
-            // the dashes are laid along the whole line (their phase runs on through its turns),
-            // then each dash is drawn in pieces
-            Some((on, off)) => {
-                for dash in dashes(&kept, on, off) {
-                    draw_in_pieces(backend, &dash, &style)?;
-                }
-                Ok(())
+        let mut stroke = |line: &[BackendCoord]| {
+            if wide {
+                draw_in_pieces(backend, line, &style)
+            } else {
+                backend.draw_path(line.iter().copied(), &style)
             }
+        };
+        match self.stroke.dash {
+            None => stroke(&kept),
+            // the dashes are laid along the whole line (their phase runs on through its turns),
+            // then each dash is stroked
+            Some((on, off)) => dashes(&kept, on, off)
+                .iter()
+                .try_for_each(|dash| stroke(dash)),
         }
     }
 }
@@ -326,6 +313,7 @@ mod tests {
 
     #[test]
     fn a_dashed_straight_series_dashes_as_its_two_ends() {
+        use plotters::element::DashedPathElement;
         use plotters::prelude::*;
         // The dashed branch: 60 collinear points as a dashed PixelPath, and plotters' dashes
         // along the two ends alone: the same dashes (the dash phase runs along the same length).
