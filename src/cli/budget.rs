@@ -2,7 +2,9 @@
 
 use crate::cli::common::{warn, Format};
 use crate::cli::table::{Align, Table};
-use crate::cli::window::{stations_and_mission, MissionArgs};
+use crate::cli::window::{
+    named_the_one_satellite, one_satellite, stations_and_mission, MissionArgs,
+};
 use anyhow::{anyhow, bail, Result};
 use passbudget::config::limits::FREQUENCY_MHZ;
 use passbudget::config::station::Station;
@@ -62,6 +64,10 @@ pub struct BudgetArgs {
     /// Budget at a time more than 90 days from the element epoch (refused otherwise).
     #[arg(long)]
     pub allow_stale_elements: bool,
+    /// One satellite of a fleet mission (its name in the mission file): its orbit, transmitter
+    /// and modem; a fleet mission needs it.
+    #[arg(long, value_name = "NAME")]
+    pub satellite: Option<String>,
 }
 
 #[derive(Debug, Clone, clap::Args)]
@@ -110,7 +116,10 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
     let overrides = a.mission.overrides()?;
     let values = std::slice::from_ref(&a.station);
     let (stations, mission) = stations_and_mission(values, Some(a.mission.path()), &overrides)?;
-    let mut mission = mission.expect("a mission file was given");
+    let mut mission = one_satellite(
+        mission.expect("a mission file was given"),
+        a.satellite.as_deref(),
+    )?;
     let station = &stations[0];
     if !mission.stations.iter().any(|s| s == station) {
         // A station file of its own: the budget is that station's.
@@ -151,6 +160,7 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
         }
         e => anyhow::Error::new(e),
     })?;
+    named_the_one_satellite(a.satellite.as_deref(), &mission, &b.elements)?;
     let doc = BudgetDoc::new(&b);
     warn(&doc.warnings);
     match a.format {

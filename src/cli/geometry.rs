@@ -2,7 +2,10 @@
 
 use crate::cli::common::{note, warn, Format};
 use crate::cli::table::{Align, Table};
-use crate::cli::window::{parse_time_flag, stations_and_mission, OptionalMissionArgs};
+use crate::cli::window::{
+    named_the_one_satellite, one_satellite, parse_time_flag, stations_and_mission,
+    OptionalMissionArgs,
+};
 use anyhow::{anyhow, bail, Result};
 use passbudget::config::limits::{FREQUENCY_MHZ, MIN_ELEVATION_DEG, TRACK_STEP_S};
 use passbudget::config::mission::Mission;
@@ -32,6 +35,10 @@ pub struct InputArgs {
     /// Satellite by catalog number or name (needed when the file holds several).
     #[arg(long, value_name = "ID|NAME")]
     pub sat: Option<String>,
+    /// One satellite of a fleet mission (its name in the mission file): its element file and
+    /// transmitter; a fleet mission needs it unless --tle is given.
+    #[arg(long, value_name = "NAME", conflicts_with = "tle")]
+    pub satellite: Option<String>,
     /// Start of the window, RFC 3339 UTC (2026-12-02T00:00:00Z).
     #[arg(long, value_name = "TIME")]
     pub start: Option<String>,
@@ -110,6 +117,11 @@ pub fn resolve(input: &InputArgs, station_args: &[String]) -> Result<Resolved> {
     let overrides = input.mission.overrides()?;
     check_distinct_files(station_args)?;
     let (chosen, mission) = stations_and_mission(station_args, input.mission.path(), &overrides)?;
+    // With --tle the mission's satellites are not used; else a fleet's is named by --satellite.
+    let mission = match mission {
+        Some(m) if input.tle.is_none() => Some(one_satellite(m, input.satellite.as_deref())?),
+        m => m,
+    };
     let tle = input
         .tle
         .clone()
@@ -141,6 +153,9 @@ pub fn resolve(input: &InputArgs, station_args: &[String]) -> Result<Resolved> {
         anyhow!("{flag}: {e}")
     })?;
     let (elements, propagator, selection) = load_satellite(&tle, sat.as_deref(), window.start())?;
+    if let Some(m) = &mission {
+        named_the_one_satellite(input.satellite.as_deref(), m, &elements)?;
+    }
     check_element_age(
         &elements,
         window.start(),

@@ -174,67 +174,15 @@ impl WindowArgs {
         }
         let planner = Planner::new(&mission, &request)
             .map_err(|e| name_flag(e, &request, path, overrides))?;
-        self.named_the_one_satellite(&mission, planner.elements())?;
+        named_the_one_satellite(self.satellite.as_deref(), &mission, planner.elements())?;
         Ok(planner)
-    }
-
-    /// `--satellite` on a mission of one satellite must name it: by the mission file's name, the
-    /// element set's name or its catalog number (a mistyped name is not silently planned).
-    fn named_the_one_satellite(
-        &self,
-        mission: &Mission,
-        elements: &passbudget::orbit::ElementSet,
-    ) -> Result<()> {
-        let (Some(n), [s]) = (&self.satellite, mission.satellites.as_slice()) else {
-            return Ok(());
-        };
-        let names = [s.name.as_deref(), elements.name.as_deref()];
-        let named = names.iter().flatten().any(|m| same_station(n, m))
-            || n.trim() == elements.norad_id.to_string();
-        if !named {
-            bail!(
-                "--satellite {n}: the mission's one satellite is {}",
-                s.name.clone().unwrap_or_else(|| elements.label())
-            );
-        }
-        Ok(())
     }
 }
 
 impl WindowArgs {
     /// The mission as the satellite of `--satellite` sees it; a fleet mission needs the flag.
     pub fn one_satellite(&self, mission: Mission) -> Result<Mission> {
-        let names = || {
-            mission
-                .satellites
-                .iter()
-                .filter_map(|s| s.name.clone())
-                .collect::<Vec<_>>()
-                .join(", ")
-        };
-        match &self.satellite {
-            Some(n) => {
-                let i = mission
-                    .satellites
-                    .iter()
-                    .position(|s| s.name.as_deref().is_some_and(|m| same_station(n, m)));
-                match i {
-                    Some(i) => Ok(mission.for_satellite(i)),
-                    None if mission.satellites.len() == 1 => Ok(mission),
-                    None => bail!(
-                        "--satellite {n}: not a satellite of the mission ({})",
-                        names()
-                    ),
-                }
-            }
-            None if mission.satellites.len() > 1 => bail!(
-                "{}: the mission has {} satellites ({}): choose one with --satellite NAME",
-                mission.source.display(),
-                mission.satellites.len(),
-                names()
-            ),
-            None => Ok(mission),
-        }
+        one_satellite(mission, self.satellite.as_deref())
     }
 
     /// The mission of these flags (with the `--set` overrides), as the file gives it.
@@ -244,6 +192,66 @@ impl WindowArgs {
             &self.mission.overrides()?,
         )?)
     }
+}
+
+/// The mission as its satellite `satellite` (`--satellite NAME`) sees it. A fleet mission needs
+/// the name: every command but `plan` works on one satellite, and none picks one silently. On a
+/// mission of one satellite the name is checked once the element set is known
+/// ([`named_the_one_satellite`]).
+pub fn one_satellite(mission: Mission, satellite: Option<&str>) -> Result<Mission> {
+    let names = || {
+        mission
+            .satellites
+            .iter()
+            .filter_map(|s| s.name.clone())
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    match satellite {
+        Some(n) => {
+            let i = mission
+                .satellites
+                .iter()
+                .position(|s| s.name.as_deref().is_some_and(|m| same_station(n, m)));
+            match i {
+                Some(i) => Ok(mission.for_satellite(i)),
+                None if mission.satellites.len() == 1 => Ok(mission),
+                None => bail!(
+                    "--satellite {n}: not a satellite of the mission ({})",
+                    names()
+                ),
+            }
+        }
+        None if mission.satellites.len() > 1 => bail!(
+            "{}: the mission has {} satellites ({}): choose one with --satellite NAME",
+            mission.source.display(),
+            mission.satellites.len(),
+            names()
+        ),
+        None => Ok(mission),
+    }
+}
+
+/// `--satellite` on a mission of one satellite must name it: by the mission file's name, the
+/// element set's name or its catalog number (a mistyped name is not silently planned).
+pub fn named_the_one_satellite(
+    satellite: Option<&str>,
+    mission: &Mission,
+    elements: &passbudget::orbit::ElementSet,
+) -> Result<()> {
+    let (Some(n), [s]) = (satellite, mission.satellites.as_slice()) else {
+        return Ok(());
+    };
+    let names = [s.name.as_deref(), elements.name.as_deref()];
+    let named = names.iter().flatten().any(|m| same_station(n, m))
+        || n.trim() == elements.norad_id.to_string();
+    if !named {
+        bail!(
+            "--satellite {n}: the mission's one satellite is {}",
+            s.name.clone().unwrap_or_else(|| elements.label())
+        );
+    }
+    Ok(())
 }
 
 /// A request error names the flag when the value came from one, else the `--set` argument that

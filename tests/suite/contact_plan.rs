@@ -366,6 +366,84 @@ fn a_fleet_needs_a_satellite_for_single_satellite_commands() {
     );
 }
 
+/// `budget`, `passes` and `track` concern one satellite too: on a fleet mission they need
+/// `--satellite` (they used to take the first satellite without a word), and with it they use that
+/// satellite's orbit and transmitter. KESTREL-D's own transmitter (1 W, 1 dB line loss, a fixed
+/// 3 dBi patch, examples/fleet/kestrel-fleet.yaml) gives EIRP = 10 log10(1 W) - 1 + 3 = 2.00 dBW
+/// by hand, where the shared transmitter (2 W) would give more.
+#[test]
+fn budget_passes_and_track_name_the_fleets_satellite() {
+    for cmd in [
+        vec![
+            "budget",
+            FLEET,
+            "--station",
+            "nordkam",
+            "--elevation-deg",
+            "10",
+        ],
+        vec!["passes", FLEET, "--days", "1"],
+        vec!["track", FLEET, "--station", "nordkam", "--days", "0.01"],
+    ] {
+        clean_error(&run(&cmd), &["4 satellites", "--satellite NAME"]);
+    }
+    let b = json(&run(&[
+        "budget",
+        FLEET,
+        "--station",
+        "nordkam",
+        "--elevation-deg",
+        "10",
+        "--satellite",
+        "kestrel-d",
+        "--format",
+        "json",
+    ]));
+    assert_eq!(b["satellite"], "KESTREL-D");
+    assert!(
+        (b["eirp_dbw"].as_f64().unwrap() - 2.0).abs() < 0.005,
+        "{}",
+        b["eirp_dbw"]
+    );
+    let p = json(&run(&[
+        "passes",
+        FLEET,
+        "--days",
+        "1",
+        "--satellite",
+        "KESTREL-D",
+        "--format",
+        "json",
+    ]));
+    let passes = p["passes"].as_array().unwrap();
+    assert!(!passes.is_empty());
+    assert!(passes.iter().all(|x| x["satellite"] == "KESTREL-D"), "{p}");
+    clean_error(
+        &run(&[
+            "track",
+            FLEET,
+            "--station",
+            "nordkam",
+            "--satellite",
+            "kestrel-x",
+        ]),
+        &["--satellite kestrel-x", "not a satellite of the mission"],
+    );
+    clean_error(
+        &run(&[
+            "budget",
+            SINGLE,
+            "--station",
+            "nordkam",
+            "--elevation-deg",
+            "10",
+            "--satellite",
+            "WRENLET-2",
+        ]),
+        &["the mission's one satellite is WRENLET-1 (99901)"],
+    );
+}
+
 /// On a mission of one satellite, `--satellite` must name it (the element set's name, any case,
 /// or its catalog number): a mistyped name is an error, not the one satellite's plan.
 #[test]
