@@ -49,13 +49,8 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
         .planner_with(false, &path_b, &shared.and(&only_b), Some(&window))?;
     let plan_a = planner_a.collect()?;
     let plan_b = planner_b.collect()?;
-    for (label, plan) in [("A", &plan_a), ("B", &plan_b)] {
-        let tag = |v: &[String]| -> Vec<String> {
-            v.iter().map(|w| format!("run {label}: {w}")).collect()
-        };
-        warn(&tag(&plan.warnings));
-        note(&tag(&plan.notes));
-    }
+    warn(&run_warnings(&plan_a.warnings, &plan_b.warnings));
+    note(&run_warnings(&plan_a.notes, &plan_b.notes));
     let side = |planner, plan| Side { planner, plan };
     let cmp = compare_plans(side(&planner_a, &plan_a), side(&planner_b, &plan_b));
     let run_b_set: Vec<String> = a
@@ -150,11 +145,17 @@ fn print_comparison(runs: &[RunDoc; 2], c: &Comparison, out: &mut dyn Write) -> 
         ("peak margin A dB", Align::Right),
         ("B dB", Align::Right),
         ("diff dB", Align::Right),
+        ("diff C/N0 dB", Align::Right),
     ]);
     for p in &c.passes {
         t.row(pass_cells(p));
     }
     write!(out, "{}", t.render())?;
+    writeln!(
+        out,
+        "peak margin: at the pass's best step, of its chosen rate in that run (a rate change can \
+         hide a gain); diff C/N0: the change of the pass's highest C/N0, whatever the rates (clear sky)"
+    )?;
     let s = &c.totals;
     writeln!(
         out,
@@ -224,13 +225,22 @@ fn pass_cells(p: &PassDiffRow) -> Vec<String> {
         opt(p.a_peak_margin_db, db),
         opt(p.b_peak_margin_db, db),
         signed(p.diff_peak_margin_db, db),
+        signed(p.diff_peak_cn0_db, db),
     ]
 }
 
-/// Both runs' warnings, each marked with its run.
+/// Both runs' warnings, each marked with its run: once as `runs A and B:` when both runs raise it
+/// (most do, the two runs sharing their stations and window), else `run A:` or `run B:`.
 fn run_warnings(a: &[String], b: &[String]) -> Vec<String> {
-    a.iter()
-        .map(|w| format!("run A: {w}"))
-        .chain(b.iter().map(|w| format!("run B: {w}")))
+    let tagged_a = a.iter().map(|w| {
+        if b.contains(w) {
+            format!("runs A and B: {w}")
+        } else {
+            format!("run A: {w}")
+        }
+    });
+    let only_b = b.iter().filter(|w| !a.contains(w));
+    tagged_a
+        .chain(only_b.map(|w| format!("run B: {w}")))
         .collect()
 }

@@ -251,6 +251,40 @@ fn compare_power_doubling_by_set_b() {
     }
     assert!(same_rate > 5);
     assert!(num(&c["totals"], "diff_volume_bits") > 0.0);
+    // A warning both runs raise is listed once, marked as both runs'.
+    let warnings: Vec<&str> = c["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|w| w.as_str().unwrap())
+        .collect();
+    assert!(
+        warnings.iter().any(|w| w.starts_with("runs A and B: ")),
+        "{warnings:?}"
+    );
+    let text = |w: &str| w.split_once(": ").unwrap().1.to_string();
+    let mut texts: Vec<String> = warnings.iter().map(|w| text(w)).collect();
+    texts.sort();
+    texts.dedup();
+    assert_eq!(texts.len(), warnings.len(), "{warnings:?}");
+    // The table shows the C/N0 change beside the peak margins, which a rate change can hide
+    // (where B takes a faster rate its peak margin may not move at all).
+    let table = success(&run(&[
+        "compare",
+        EXAMPLE,
+        "--days",
+        "1",
+        "--set-b",
+        "transmitter.power_w=4",
+    ]));
+    let header = table.lines().find(|l| l.starts_with("pass id")).unwrap();
+    assert!(header.trim_end().ends_with("diff C/N0 dB"), "{header}");
+    let rows = table.lines().filter(|l| l.contains("-2026")).count();
+    let plus = table
+        .lines()
+        .filter(|l| l.contains("-2026") && l.trim_end().ends_with("+3.01"))
+        .count();
+    assert!(rows > 10 && plus == rows, "{table}");
     // Two mission files: the same file twice is the same as one.
     let two = json(&run(&[
         "compare", EXAMPLE, EXAMPLE, "--days", "0.5", "--format", "json",
