@@ -152,8 +152,7 @@ impl BudgetDoc {
                 .iter()
                 .map(|i| ItemRow {
                     name: i.name.into(),
-                    // + 0.0: a loss of 0 dB listed as -0 dB would read as a sign
-                    value: i.value.map(|v| v + 0.0),
+                    value: i.value.map(|v| item_value(v, i.unit)),
                     unit: i.unit.into(),
                     source: i.source.to_string(),
                 })
@@ -161,5 +160,46 @@ impl BudgetDoc {
             warnings: b.warnings.clone(),
             defaults: b.defaults.clone(),
         }
+    }
+}
+
+/// An item's value rounded as the document's own fields of its unit are: dB-based units (dB, dBW,
+/// dBi, dB/K, dBHz, dB(W/m2)), degrees, km and bit/s/Hz to 4 decimals, kelvin to 3, frequencies
+/// and rates (Hz, bit/s, baud) to 0.1; a unitless item (the framing efficiency, the target error
+/// rate) to 6 significant digits, so that 1e-6 stays 1e-6. `+ 0.0`: a loss of 0 dB listed as
+/// -0 dB would read as a sign.
+fn item_value(value: f64, unit: &str) -> f64 {
+    let digits = match unit {
+        "K" => 3,
+        "Hz" | "bit/s" | "baud" => 1,
+        "" => return significant(value, 6) + 0.0,
+        _ => 4,
+    };
+    round(value, digits)
+}
+
+/// `x` to `n` significant digits.
+fn significant(x: f64, n: i32) -> f64 {
+    if x == 0.0 || !x.is_finite() {
+        return x;
+    }
+    let scale = n - 1 - x.abs().log10().floor() as i32;
+    round(x, scale)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn items_round_as_the_fields_of_their_unit() {
+        assert_eq!(item_value(-176.114863065004, "dB"), -176.1149);
+        assert_eq!(item_value(3.010299956639812, "dBW"), 3.0103);
+        assert_eq!(item_value(18.955232561253393, "K"), 18.955);
+        assert_eq!(item_value(22869955.15695067, "bit/s"), 22869955.2);
+        assert_eq!(item_value(1e-6, ""), 1e-6);
+        assert_eq!(item_value(0.987654321, ""), 0.987654);
+        assert_eq!(item_value(-0.0, "dB").to_string(), "0");
+        assert_eq!(item_value(-1e-9, ""), -1e-9);
     }
 }

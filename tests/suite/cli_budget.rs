@@ -614,3 +614,42 @@ fn budget_azimuth_and_the_worst_azimuth_note_at_sierra_baja() {
     assert_eq!(north["azimuth_deg"].as_f64().unwrap(), 330.0);
     assert!(north["ground_noise_k"].as_f64().unwrap() < worst["ground_noise_k"].as_f64().unwrap());
 }
+
+/// The items (the table's and the CSV's lines, the JSON's `items`) carry the fields' own values,
+/// signed as they enter C/N0: a loss field of the JSON (positive) is its item's value negated, at
+/// the same rounding (4 decimals for dB, 3 for K), and no item carries more digits than the field
+/// of its unit (the CSV gave 15-17 significant digits). A project-consistency check.
+#[test]
+fn budget_items_are_the_fields_signed_and_rounded_alike() {
+    let b = json(&budget(EXAMPLE, "Nordkam", "10", &["--format", "json"]));
+    let item = |name: &str| -> f64 {
+        b["items"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|i| i["name"] == name)
+            .and_then(|i| i["value"].as_f64())
+            .unwrap_or_else(|| panic!("no item {name}"))
+    };
+    let field = |k: &str| b[k].as_f64().unwrap();
+    assert_eq!(item("free_space_loss"), -field("free_space_loss_db"));
+    assert_eq!(item("atmospheric_loss"), -field("atmospheric_loss_db"));
+    assert_eq!(item("gas_loss"), -field("gas_db"));
+    assert_eq!(item("eirp"), field("eirp_dbw"));
+    assert_eq!(item("cn0"), field("cn0_dbhz"));
+    assert_eq!(item("margin"), field("margin_db"));
+    assert_eq!(item("system_temperature"), field("system_temperature_k"));
+    for i in b["items"].as_array().unwrap() {
+        let (Some(v), Some(unit)) = (i["value"].as_f64(), i["unit"].as_str()) else {
+            continue;
+        };
+        let digits = match unit {
+            "K" => 3,
+            "Hz" | "bit/s" | "baud" => 1,
+            "" => continue,
+            _ => 4,
+        };
+        let scaled = v * 10f64.powi(digits);
+        assert!((scaled - scaled.round()).abs() < 1e-6, "{i}");
+    }
+}
