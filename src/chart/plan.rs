@@ -105,6 +105,23 @@ pub fn chart_warnings(planner: &Planner) -> Vec<String> {
         .collect()
 }
 
+/// [`chart_warnings`] of a fleet's planners (each satellite's element age, named by the
+/// satellite), for the charts of its contact plan.
+pub fn fleet_chart_warnings(planners: &[&Planner]) -> Vec<String> {
+    if let [one] = planners {
+        return chart_warnings(one);
+    }
+    planners
+        .iter()
+        .flat_map(|p| {
+            let name = crate::plan::inputs::satellite_name(p.elements());
+            chart_warnings(p)
+                .into_iter()
+                .map(move |w| format!("{name}: {w}"))
+        })
+        .collect()
+}
+
 /// The pass chart input of one pass.
 pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
     let plan = s.plan;

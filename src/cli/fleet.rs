@@ -7,6 +7,7 @@ use crate::cli::plan::PlanArgs;
 use anyhow::Result;
 use passbudget::config::mission::Mission;
 use passbudget::plan::fleet::{ContactPlan, FleetPlanner};
+use passbudget::plan::Planner;
 use passbudget::report::contacts::{write_contact_files, ContactDoc, ContactRows, FleetDoc};
 use passbudget::report::{to_csv, write_output, CommitMode, WriteMode};
 use std::io::Write;
@@ -42,7 +43,8 @@ pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Resul
     let doc = FleetDoc::new(&planners, &plans, cdoc, rows);
     warn(&doc.warnings);
     if let Some(st) = staging {
-        write_fleet_files(&doc, &cp, a, st.path()).map_err(|e| in_out_folder(e, &st, &target))?;
+        write_fleet_files((&doc, &planners), &cp, a, st.path())
+            .map_err(|e| in_out_folder(e, &st, &target))?;
         commit(st, CommitMode::Replace, &target)?;
     }
     match a.format {
@@ -56,7 +58,12 @@ pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Resul
 /// `summary.json`, the contact plan's CSV and calendar files, each satellite's pass list and
 /// (with `--charts`) the timeline and storage charts, into the staging folder `dir` (its commit
 /// flushes them all at once).
-fn write_fleet_files(doc: &FleetDoc, cp: &ContactPlan, a: &PlanArgs, dir: &Path) -> Result<()> {
+fn write_fleet_files(
+    (doc, planners): (&FleetDoc, &[&Planner]),
+    cp: &ContactPlan,
+    a: &PlanArgs,
+    dir: &Path,
+) -> Result<()> {
     let json = serde_json::to_string_pretty(doc)? + "\n";
     write_output(
         &dir.join("summary.json"),
@@ -72,7 +79,9 @@ fn write_fleet_files(doc: &FleetDoc, cp: &ContactPlan, a: &PlanArgs, dir: &Path)
     let how = (cp.window_start, WriteMode::Staged);
     write_contact_files(dir, &doc.contact, &doc.warnings, how)?;
     if a.charts {
-        crate::cli::plan::contact_charts(cp, &doc.contact, (&doc.mission, &doc.warnings), dir, a)?;
+        // under the charts: each satellite's element age only (the files carry every warning)
+        let footer = passbudget::chart::plan::fleet_chart_warnings(planners);
+        crate::cli::plan::contact_charts(cp, &doc.contact, (&doc.mission, &footer), dir, a)?;
     }
     Ok(())
 }

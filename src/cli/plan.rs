@@ -167,7 +167,9 @@ fn write_contacts(
     let warnings = &doc.assumptions.warnings;
     write_contact_files(dir, c, warnings, (cp.window_start, WriteMode::Staged))?;
     if a.charts {
-        contact_charts(cp, c, (&planner.mission().name, warnings), dir, a)?;
+        // under the charts, as under every chart of the plan: the element age only
+        let footer = passbudget::chart::plan::chart_warnings(planner);
+        contact_charts(cp, c, (&planner.mission().name, &footer), dir, a)?;
     }
     Ok(())
 }

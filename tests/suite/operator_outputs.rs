@@ -648,3 +648,56 @@ fn an_adaptive_zero_beside_a_fixed_volume_is_explained() {
         assert!(note.contains(&want), "{mode} {want}: {note}");
     }
 }
+
+/// Every chart of a plan carries the same footer: the caution and, far from the element epoch,
+/// the element-age warning; the run's other warnings and notes are in the JSON and CSV files
+/// (README "Charts"). The antenna timelines printed every warning of the run under the plot
+/// (pass 16's Sun note on each day's timeline). Read from the SVG charts' text.
+#[test]
+fn every_chart_carries_the_same_footer() {
+    let texts = |dir: &std::path::Path, name: &str| -> String {
+        let svg = std::fs::read_to_string(dir.join(name)).unwrap();
+        svg.split("<text")
+            .skip(1)
+            .filter_map(|t| t.split_once('>').and_then(|(_, r)| r.split_once("</text>")))
+            .map(|(t, _)| t.trim().to_string())
+            .collect::<Vec<_>>()
+            .join("\n")
+    };
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let args = ["plan", "examples/wrenlet-1.yaml", "--days", "2", "--charts"];
+    success(&run(&[
+        &args[..],
+        &["--chart-format", "svg", "--out", out.to_str().unwrap()],
+    ]
+    .concat()));
+    let summary = std::fs::read_to_string(out.join("summary.json")).unwrap();
+    assert!(summary.contains("raises the system noise temperature"));
+    for name in ["timeline-20261202.svg", "mask-nordkam.svg", "summary-wrenlet-1-20261201-20261203.svg"] {
+        let t = texts(&out, name);
+        assert!(t.contains("Planning estimates only"), "{name}: {t}");
+        assert!(
+            !t.contains("raises the system noise") && !t.contains("warning:"),
+            "{name}: {t}"
+        );
+    }
+    // Ten days after the epoch every chart names the element age, the timeline as the others.
+    let late = dir.path().join("late");
+    let late_args = ["--start", "2026-12-10T00:00:00Z", "--days", "1", "--out"];
+    success(&run(&[
+        &args[..2],
+        &["--charts", "--chart-format", "svg"],
+        &late_args[..],
+        &[late.to_str().unwrap()],
+    ]
+    .concat()));
+    for name in ["timeline-20261210.svg", "mask-nordkam.svg"] {
+        let t = texts(&late, name);
+        assert!(
+            t.contains("warning: the window reaches 9.5 days after the epoch"),
+            "{name}: {t}"
+        );
+        assert_eq!(t.matches("warning:").count(), 1, "{name}: {t}");
+    }
+}
