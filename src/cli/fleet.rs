@@ -76,6 +76,8 @@ fn write_fleet_files(
         passes.as_bytes(),
         WriteMode::Staged,
     )?;
+    let days = to_csv(&doc.days, &doc.warnings)?;
+    write_output(&dir.join("days.csv"), days.as_bytes(), WriteMode::Staged)?;
     let how = (cp.window_start, WriteMode::Staged);
     write_contact_files(dir, &doc.contact, &doc.warnings, how)?;
     if a.charts {

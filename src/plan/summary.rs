@@ -76,16 +76,11 @@ pub fn days(p: &[PassPlan], window: &Window, rain_planned: bool) -> Vec<DayTotal
         shannon_volume_bits: 0.0,
         rain_volume_bits: rain_planned.then_some(0.0),
     };
-    let mut by_day = std::collections::BTreeMap::new();
-    let last = (window.end() - chrono::Duration::microseconds(1)).date_naive();
-    let mut d = window.start().date_naive();
-    while d <= last {
-        by_day.insert(d, empty_day(d));
-        match d.succ_opt() {
-            Some(next) => d = next,
-            None => break,
-        }
-    }
+    let mut by_day: std::collections::BTreeMap<NaiveDate, DayTotals> = window
+        .utc_dates()
+        .into_iter()
+        .map(|d| (d, empty_day(d)))
+        .collect();
     for x in p {
         let d = x.pass.aos.date_naive();
         let row = by_day.entry(d).or_insert_with(|| empty_day(d));

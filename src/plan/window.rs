@@ -119,6 +119,22 @@ impl Window {
     }
 
     /// Length in days.
+    /// Every UTC date the window touches, in order (a window ending at midnight does not touch
+    /// the day that midnight begins).
+    pub fn utc_dates(&self) -> Vec<chrono::NaiveDate> {
+        let last = (self.end() - chrono::Duration::microseconds(1)).date_naive();
+        let mut dates = Vec::new();
+        let mut d = self.start().date_naive();
+        while d <= last {
+            dates.push(d);
+            match d.succ_opt() {
+                Some(next) => d = next,
+                None => break,
+            }
+        }
+        dates
+    }
+
     pub fn days(&self) -> f64 {
         seconds_between(&self.start, &self.end) / 86400.0
     }

@@ -446,11 +446,22 @@ pub struct FleetDoc {
     pub totals: FleetTotalsRow,
     #[serde(flatten)]
     pub contact: ContactDoc,
+    /// What the contact plan delivers each UTC day of the window (days without contacts
+    /// included; a contact across midnight split by its time).
+    pub days: Vec<FleetDayRow>,
     /// Every satellite's passes (the `satellite` field says whose), in AOS order per satellite.
     pub passes: Vec<super::plan::PlanPassRow>,
     /// Each warning once, prefixed with the satellite it concerns.
     pub warnings: Vec<String>,
     pub caution: &'static str,
+}
+
+/// One UTC day of a fleet's contact plan.
+#[derive(Debug, Clone, Serialize)]
+pub struct FleetDayRow {
+    pub date: String,
+    #[serde(serialize_with = "crate::report::whole")]
+    pub delivered_bits: f64,
 }
 
 /// The fleet's totals: the delivered data first.
@@ -488,6 +499,15 @@ impl FleetDoc {
             );
         }
         let warnings = fleet_warnings(planners, plans);
+        let by_day = contact.delivered_by_day();
+        let days = w
+            .utc_dates()
+            .into_iter()
+            .map(|d| FleetDayRow {
+                date: d.to_string(),
+                delivered_bits: by_day.get(&d).copied().unwrap_or(0.0).round(),
+            })
+            .collect();
         FleetDoc {
             mission: planners[0].mission().name.clone(),
             window_start: format_ms(&w.start()),
@@ -501,6 +521,7 @@ impl FleetDoc {
                 days: round(w.days(), 4),
             },
             contact,
+            days,
             passes,
             warnings,
             caution: super::plan::CAUTION,

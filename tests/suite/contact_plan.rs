@@ -9,6 +9,7 @@
 
 use crate::common::bin::{clean_error, json, run, success, write};
 use chrono::{DateTime, Utc};
+use passbudget::timefmt::parse_utc;
 use serde_json::Value;
 
 const FLEET: &str = "examples/fleet/kestrel-fleet.yaml";
@@ -105,6 +106,48 @@ fn check_constraints(doc: &Value, blocked: &[(&str, &str, &str)]) {
     }
 }
 
+/// A fleet's `days`: every UTC date of the window (12:00 on 12-01 for 7 days touches 8 dates),
+/// each with the contacts' volumes split at midnight in proportion to their time, computed here
+/// from the contact rows alone; together the delivered total.
+fn check_days(doc: &serde_json::Value) {
+    let t = |s: &serde_json::Value| parse_utc(s.as_str().unwrap()).unwrap();
+    let mut by_day: std::collections::BTreeMap<String, f64> = Default::default();
+    for c in doc["contacts"].as_array().unwrap() {
+        let (a, b, v) = (t(&c["start"]), t(&c["end"]), num(&c["volume_bits"]));
+        let span_s = (b - a).as_seconds_f64();
+        let mut at = a;
+        while at < b {
+            let midnight = (at.date_naive() + chrono::Days::new(1))
+                .and_hms_opt(0, 0, 0)
+                .unwrap();
+            let to = b.min(midnight.and_utc());
+            *by_day.entry(at.date_naive().to_string()).or_default() +=
+                v * (to - at).as_seconds_f64() / span_s;
+            at = to;
+        }
+    }
+    let days = doc["days"].as_array().unwrap();
+    let dates: Vec<&str> = days.iter().map(|d| d["date"].as_str().unwrap()).collect();
+    assert_eq!(dates.first(), Some(&"2026-12-01"));
+    assert_eq!(dates.len(), 8, "{dates:?}");
+    let mut sum = 0.0;
+    for d in days {
+        let want = by_day
+            .get(d["date"].as_str().unwrap())
+            .copied()
+            .unwrap_or(0.0);
+        assert!(
+            (num(&d["delivered_bits"]) - want).abs() <= 1.0,
+            "{d}: {want}"
+        );
+        sum += num(&d["delivered_bits"]);
+    }
+    assert!(
+        (sum - num(&doc["totals"]["delivered_bits"])).abs() <= 8.0,
+        "{sum}"
+    );
+}
+
 #[test]
 fn the_fleet_example_gives_the_contract_and_keeps_every_constraint() {
     let doc = json(&run(&["plan", FLEET, "--format", "json", "--quiet"]));
@@ -117,6 +160,7 @@ fn the_fleet_example_gives_the_contract_and_keeps_every_constraint() {
             "2026-12-03T18:00:00Z",
         )],
     );
+    check_days(&doc);
     let sats = doc["satellites"].as_array().unwrap();
     assert_eq!(sats.len(), 4);
     for s in sats {

@@ -674,7 +674,11 @@ fn every_chart_carries_the_same_footer() {
     .concat()));
     let summary = std::fs::read_to_string(out.join("summary.json")).unwrap();
     assert!(summary.contains("raises the system noise temperature"));
-    for name in ["timeline-20261202.svg", "mask-nordkam.svg", "summary-wrenlet-1-20261201-20261203.svg"] {
+    for name in [
+        "timeline-20261202.svg",
+        "mask-nordkam.svg",
+        "summary-wrenlet-1-20261201-20261203.svg",
+    ] {
         let t = texts(&out, name);
         assert!(t.contains("Planning estimates only"), "{name}: {t}");
         assert!(
