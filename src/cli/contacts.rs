@@ -96,6 +96,11 @@ pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Wr
             "*: shortened to make room for another contact, its set-up or a blocked period."
         )?;
     }
+    writeln!(
+        out,
+        "A contact spans the budget steps its rate counts on (each to the next step), so its start \
+         and end can lie up to one step from the pass table's interpolated closing times."
+    )?;
     writeln!(out)?;
     print_satellites(doc, out)?;
     print_stations(doc, out)
