@@ -306,7 +306,7 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                 ("AOS az", Align::Right),
                 ("LOS az", Align::Right),
                 ("min range km", Align::Right),
-                ("", Align::Left),
+                ("window", Align::Left),
             ]);
             for ((i, p), row) in all.iter().zip(&rows) {
                 let flags = match (p.starts_before_window, p.ends_after_window) {
@@ -418,7 +418,16 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             )?;
         }
         Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
-        Format::Table => print_track(&rows, out)?,
+        Format::Table => {
+            writeln!(
+                out,
+                "{} from {}, every {} s",
+                r.elements.label(),
+                st.name,
+                a.step_s
+            )?;
+            print_track(&rows, out)?
+        }
     }
     Ok(())
 }
@@ -430,7 +439,7 @@ fn print_track(rows: &[TrackRow], out: &mut dyn Write) -> Result<()> {
         ("az deg", Align::Right),
         ("el deg", Align::Right),
         ("range km", Align::Right),
-        ("rate km/s", Align::Right),
+        ("range rate km/s", Align::Right),
         ("Doppler Hz", Align::Right),
         ("Sun sep deg", Align::Right),
     ]);
