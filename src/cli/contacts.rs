@@ -111,6 +111,7 @@ fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
         ("satellite", Align::Left),
         ("priority", Align::Right),
         ("contacts", Align::Right),
+        ("at start", Align::Right),
         ("generated", Align::Right),
         ("delivered", Align::Right),
         ("lost (full)", Align::Right),
@@ -129,6 +130,7 @@ fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
             s.name.clone(),
             engfmt::three_digits(s.priority),
             s.contacts.to_string(),
+            vol(s.initial_fill_bits),
             vol(s.generated_bits),
             engfmt::volume(s.delivered_bits),
             vol(s.lost_bits),
@@ -142,6 +144,10 @@ fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
     if doc.satellites.iter().any(|s| !s.onboard_followed) {
         writeln!(out, "-: no onboard block: the satellite always has data to send, its store is not followed.")?;
     }
+    writeln!(
+        out,
+        "at start + generated = delivered + lost + left on board."
+    )?;
     writeln!(out, "latency: age of the oldest data on board at the start of each downlink (h:mm:ss), the largest and the median.")?;
     writeln!(out, "passes not booked: passes with a closing rate no antenna took (the reasons are in satellites.csv and the JSON: rules, blocked periods, overlap, nothing on board).")?;
     writeln!(out)?;

@@ -116,6 +116,8 @@ pub struct ContactPlan {
     pub priority: Vec<f64>,
     /// Each satellite's store capacity as scheduled, bits.
     pub capacity_bits: Vec<f64>,
+    /// Each satellite's store fill at the window start, bits (0 for a store not followed).
+    pub initial_fill_bits: Vec<f64>,
     /// Each antenna's blocked periods.
     pub antenna_blocked: Vec<Vec<(DateTime<Utc>, DateTime<Utc>)>>,
     /// Every antenna: (station index, index among the station's antennas).
@@ -249,6 +251,7 @@ pub fn contact_plan_with(
         .map(|(i, p)| satellite(i, p, &candidates, window.start()))
         .collect();
     let capacity_bits = satellites.iter().map(|s| s.capacity_bits).collect();
+    let initial_fill_bits = satellites.iter().map(|s| s.initial_fill_bits).collect();
     let antenna_blocked = antennas
         .iter()
         .map(|&(si, _)| stations[si].station.booking.blocked.clone())
@@ -276,6 +279,7 @@ pub fn contact_plan_with(
             .map(|p| p.mission().satellites[0].priority_weight)
             .collect(),
         capacity_bits,
+        initial_fill_bits,
         antenna_blocked,
         antennas,
         candidates,

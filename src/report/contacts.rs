@@ -43,6 +43,10 @@ pub struct SatelliteRow {
     /// Whether its store is followed (an `onboard:` block); when not, the generation, loss,
     /// storage and latency fields are null.
     pub onboard_followed: bool,
+    /// On board at the window start (the mission's `initial_fill_bits`), bits: with the
+    /// generated bits, what is delivered, lost or left on board.
+    #[serde(serialize_with = "crate::report::whole_opt")]
+    pub initial_fill_bits: Option<f64>,
     #[serde(serialize_with = "crate::report::whole_opt")]
     pub generated_bits: Option<f64>,
     #[serde(serialize_with = "crate::report::whole")]
@@ -412,6 +416,7 @@ fn satellite_row(cp: &ContactPlan, plans: &[Plan], tally: &Tally, i: usize) -> S
         name: cp.satellites[i].clone(),
         priority: cp.priority[i],
         onboard_followed: followed,
+        initial_fill_bits: when(cp.initial_fill_bits[i]),
         generated_bits: when(s.generated_bits),
         delivered_bits: *delivered_bits,
         lost_bits: when(s.lost_bits),

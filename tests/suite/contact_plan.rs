@@ -171,6 +171,7 @@ fn the_fleet_example_gives_the_contract_and_keeps_every_constraint() {
             "KESTREL-C" => 1.0e11,
             _ => 0.0,
         };
+        assert_eq!(num(&s["initial_fill_bits"]), initial, "{s}");
         let (g, d, l, f) = (
             num(&s["generated_bits"]),
             num(&s["delivered_bits"]),
