@@ -97,6 +97,13 @@ impl Override {
                 "the key is a dotted path of names, e.g. planning.step_s",
             ));
         }
+        // (a station's name may hold a bracket; its keys are read below)
+        let indexed = key.split_once('[').filter(|_| !key.starts_with("station."));
+        if let Some((list, _)) = indexed {
+            return Err(err(&format!(
+                "one item of a list cannot be set: give the whole list as the value of {list} (YAML flow style, e.g. {list}=[...])"
+            )));
+        }
         let value: Value =
             serde_yaml::from_str(text).map_err(|e| err(&format!("the value is not YAML: {e}")))?;
         let target = match key.strip_prefix("station.") {
@@ -374,6 +381,19 @@ mod tests {
         // A station whose name holds a dot.
         let d = Overrides::parse(&["station.St. Ives.altitude_m=3"]).unwrap();
         assert_eq!(d.station("ST. IVES")[0].key, "altitude_m");
+    }
+
+    #[test]
+    fn an_item_of_a_list_is_refused_with_the_way_to_set_the_list() {
+        let e = Override::parse("modem.ladder[0].rate_bps=1e6").unwrap_err();
+        assert!(
+            e.to_string()
+                .contains("give the whole list as the value of modem.ladder"),
+            "{e}"
+        );
+        // a station whose name holds a bracket is still a station
+        let o = Overrides::parse(&["station.Site [A].altitude_m=3"]).unwrap();
+        assert_eq!(o.station("Site [A]")[0].key, "altitude_m");
     }
 
     #[test]
