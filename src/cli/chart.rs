@@ -148,12 +148,35 @@ fn pass_number(planner: &Planner, given: &str) -> Result<usize> {
     {
         return Ok(k + 1);
     }
-    match (passes.first(), passes.last()) {
-        (Some((sa, a)), Some((sb, b))) => bail!(
-            "--pass {given}: no pass of this window has that identifier (the window holds {} to {}; `passbudget passes` lists them)",
-            pass_id(name(*sa), a),
-            pass_id(name(*sb), b)
+    let ids: Vec<String> = passes.iter().map(|(si, p)| pass_id(name(*si), p)).collect();
+    if let Some((k, id)) = nearest_id(&ids, given.trim()) {
+        bail!("--pass {given}: no pass of this window has that identifier; the nearest at that station is {id} (pass {})", k + 1);
+    }
+    match (ids.first(), ids.last()) {
+        (Some(a), Some(b)) => bail!(
+            "--pass {given}: no pass of this window has that identifier (the window holds {a} to {b}; `passbudget passes` lists them)"
         ),
         _ => bail!("--pass {given}: the plan has no passes in this window"),
     }
+}
+
+/// Among pass identifiers `ids` (`<station>-YYYYMMDDTHHMMZ`), the one of the station `given` names
+/// whose minute is nearest the minute it gives, when within 30 minutes (a minute mistyped, or
+/// rounded where the identifier cuts): its index and text.
+fn nearest_id<'a>(ids: &'a [String], given: &str) -> Option<(usize, &'a str)> {
+    let minute = |id: &str| -> Option<(String, chrono::NaiveDateTime)> {
+        let (station, stamp) = id.rsplit_once('-')?;
+        let t = chrono::NaiveDateTime::parse_from_str(stamp, "%Y%m%dT%H%MZ").ok()?;
+        Some((station.to_ascii_lowercase(), t))
+    };
+    let (station, at) = minute(given)?;
+    ids.iter()
+        .enumerate()
+        .filter_map(|(k, id)| {
+            let (s, t) = minute(id)?;
+            let off_min = (t - at).num_minutes().abs();
+            (s == station && off_min <= 30).then_some((off_min, k, id.as_str()))
+        })
+        .min()
+        .map(|(_, k, id)| (k, id))
 }

@@ -410,6 +410,18 @@ fn chart_pass_takes_the_identifier() {
         ]),
         &["--pass nordkam-19990101T0000Z", "no pass of this window"],
     );
+    // An identifier one minute off (a minute misread) names the pass it most likely meant.
+    let (stem, minute) = id.split_at(id.len() - 3);
+    let off = format!(
+        "{stem}{:02}Z",
+        (minute[..2].parse::<u32>().unwrap() + 1) % 60
+    );
+    clean_error(
+        &run(&["chart", EXAMPLE, "--days", "0.5", "--pass", &off]),
+        &[&format!(
+            "the nearest at that station is {id} (pass {number})"
+        )],
+    );
 }
 
 /// `sun-transits` names each transit's pass by the same identifier as `plan` (project
