@@ -105,21 +105,10 @@ pub fn chart_warnings(planner: &Planner) -> Vec<String> {
         .collect()
 }
 
-/// [`chart_warnings`] of a fleet's planners (each satellite's element age, named by the
+/// [`chart_warnings`] of a fleet's planners (each satellite's element age; the warning names the
 /// satellite), for the charts of its contact plan.
 pub fn fleet_chart_warnings(planners: &[&Planner]) -> Vec<String> {
-    if let [one] = planners {
-        return chart_warnings(one);
-    }
-    planners
-        .iter()
-        .flat_map(|p| {
-            let name = crate::plan::inputs::satellite_name(p.elements());
-            chart_warnings(p)
-                .into_iter()
-                .map(move |w| format!("{name}: {w}"))
-        })
-        .collect()
+    planners.iter().flat_map(|p| chart_warnings(p)).collect()
 }
 
 /// The pass chart input of one pass.

@@ -232,6 +232,17 @@ fn pass_cells(p: &PassDiffRow) -> Vec<String> {
 /// Both runs' warnings, each marked with its run: once as `runs A and B:` when both runs raise it
 /// (most do, the two runs sharing their stations and window), else `run A:` or `run B:`.
 fn run_warnings(a: &[String], b: &[String]) -> Vec<String> {
+    // each run's lines once, in their order
+    let once = |v: &[String]| -> Vec<String> {
+        let mut seen: Vec<String> = Vec::new();
+        for w in v {
+            if !seen.contains(w) {
+                seen.push(w.clone());
+            }
+        }
+        seen
+    };
+    let (a, b) = (&once(a), &once(b));
     let tagged_a = a.iter().map(|w| {
         if b.contains(w) {
             format!("runs A and B: {w}")

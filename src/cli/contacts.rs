@@ -144,10 +144,12 @@ fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
     if doc.satellites.iter().any(|s| !s.onboard_followed) {
         writeln!(out, "-: no onboard block: the satellite always has data to send, its store is not followed.")?;
     }
-    writeln!(
-        out,
-        "at start + generated = delivered + lost + left on board."
-    )?;
+    if doc.satellites.iter().any(|s| s.onboard_followed) {
+        writeln!(
+            out,
+            "at start + generated = delivered + lost + left on board."
+        )?;
+    }
     writeln!(out, "latency: age of the oldest data on board at the start of each downlink (h:mm:ss), the largest and the median.")?;
     writeln!(out, "passes not booked: passes with a closing rate no antenna took (the reasons are in satellites.csv and the JSON: rules, blocked periods, overlap, nothing on board).")?;
     writeln!(out)?;

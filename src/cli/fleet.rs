@@ -1,7 +1,7 @@
 //! `passbudget plan` on a mission with several satellites: every satellite planned over the
 //! shared stations, then one contact plan for the fleet.
 
-use crate::cli::common::{warn, Format};
+use crate::cli::common::{note, warn, Format};
 use crate::cli::output::{commit, in_out_folder, stage};
 use crate::cli::plan::PlanArgs;
 use anyhow::Result;
@@ -41,7 +41,10 @@ pub fn plan_fleet(a: &PlanArgs, mission: &Mission, out: &mut dyn Write) -> Resul
         false => ContactDoc::without_contact_rows(&cp, &plans, stations),
     };
     let doc = FleetDoc::new(&planners, &plans, cdoc, rows);
-    warn(&doc.warnings);
+    let (notes, warnings): (Vec<String>, Vec<String>) =
+        (doc.warnings.iter().cloned()).partition(|w| doc.notes.contains(w));
+    warn(&warnings);
+    note(&notes);
     if let Some(st) = staging {
         write_fleet_files((&doc, &planners), &cp, a, st.path())
             .map_err(|e| in_out_folder(e, &st, &target))?;

@@ -33,7 +33,7 @@ pub struct InputArgs {
     #[arg(long, value_name = "FILE")]
     pub tle: Option<PathBuf>,
     /// Satellite by catalog number or name (needed when the file holds several).
-    #[arg(long, value_name = "ID|NAME")]
+    #[arg(long, value_name = "ID|NAME", conflicts_with = "satellite")]
     pub sat: Option<String>,
     /// One satellite of a fleet mission (its name in the mission file): its element file and
     /// transmitter; a fleet mission needs it unless --tle is given.
@@ -363,11 +363,10 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             r.stations.len()
         );
     }
-    let frequency_hz = a.frequency_mhz.map(|f| f * 1e6).or_else(|| {
-        r.mission
-            .as_ref()
-            .and_then(|m| m.transmitter.as_ref().map(|t| t.frequency_hz))
-    });
+    let frequency_hz = a
+        .frequency_mhz
+        .map(|f| f * 1e6)
+        .or_else(|| r.mission.as_ref().and_then(mission_frequency_hz));
     let n = r.window.days() * 86400.0 / a.step_s;
     if n > 5e6 {
         bail!(
@@ -430,6 +429,23 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
         }
     }
     Ok(())
+}
+
+/// The downlink frequency of the mission's satellites for the Doppler shift: theirs when they
+/// share one (a fleet with `--tle` is not narrowed to one satellite), else none, with a note.
+fn mission_frequency_hz(m: &Mission) -> Option<f64> {
+    let mut f: Vec<f64> = (m.satellites.iter())
+        .filter_map(|s| s.transmitter.as_ref().map(|t| t.frequency_hz))
+        .collect();
+    f.dedup();
+    match f.as_slice() {
+        [one] => Some(*one),
+        [] => None,
+        _ => {
+            note(&["no Doppler shift: the mission's satellites transmit on different frequencies; give --frequency-mhz".to_string()]);
+            None
+        }
+    }
 }
 
 /// The track as a table, with the caution under it.

@@ -97,13 +97,6 @@ impl Override {
                 "the key is a dotted path of names, e.g. planning.step_s",
             ));
         }
-        // (a station's name may hold a bracket; its keys are read below)
-        let indexed = key.split_once('[').filter(|_| !key.starts_with("station."));
-        if let Some((list, _)) = indexed {
-            return Err(err(&format!(
-                "one item of a list cannot be set: give the whole list as the value of {list} (YAML flow style, e.g. {list}=[...])"
-            )));
-        }
         let value: Value =
             serde_yaml::from_str(text).map_err(|e| err(&format!("the value is not YAML: {e}")))?;
         let target = match key.strip_prefix("station.") {
@@ -269,6 +262,14 @@ pub(crate) fn overridden<'a>(overrides: &'a [Applied], key: &str) -> Option<&'a 
 /// [`EITHER`] pair.
 fn set(tree: &mut Value, o: &Applied) -> Result<(), String> {
     let parts: Vec<&str> = o.key.split('.').map(str::trim).collect();
+    // (the key inside its file: a station's name, which may hold a bracket, is not part of it)
+    if let Some(i) = parts.iter().position(|p| p.contains('[')) {
+        let list = [&parts[..i], &[parts[i].split('[').next().unwrap_or("")]].concat();
+        let list = list.join(".");
+        return Err(format!(
+            "one item of a list cannot be set: give the whole list as the value of {list} (YAML flow style, e.g. {list}=[...])"
+        ));
+    }
     let mut node = tree;
     for (i, part) in parts.iter().enumerate() {
         if node.is_null() {
@@ -385,15 +386,24 @@ mod tests {
 
     #[test]
     fn an_item_of_a_list_is_refused_with_the_way_to_set_the_list() {
-        let e = Override::parse("modem.ladder[0].rate_bps=1e6").unwrap_err();
+        let o = Overrides::parse(&[
+            "modem.ladder[0].rate_bps=1e6",
+            "station.Site [A].horizon_mask[0]=3",
+            "station.Site [A].altitude_m=3",
+        ])
+        .unwrap();
+        let mut t: Value = serde_yaml::from_str("modem:\n").unwrap();
+        let e = set(&mut t, &o.mission()[0]).unwrap_err();
         assert!(
-            e.to_string()
-                .contains("give the whole list as the value of modem.ladder"),
+            e.contains("give the whole list as the value of modem.ladder"),
             "{e}"
         );
-        // a station whose name holds a bracket is still a station
-        let o = Overrides::parse(&["station.Site [A].altitude_m=3"]).unwrap();
-        assert_eq!(o.station("Site [A]")[0].key, "altitude_m");
+        // a station whose name holds a bracket is still a station; its own keys are checked
+        let st = o.station("Site [A]");
+        assert_eq!(st[1].key, "altitude_m");
+        let e = set(&mut t, &st[0]).unwrap_err();
+        assert!(e.contains("the value of horizon_mask ("), "{e}");
+        set(&mut t, &st[1]).unwrap();
     }
 
     #[test]

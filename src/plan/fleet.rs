@@ -375,6 +375,9 @@ fn satellite(i: usize, p: &Planner, candidates: &[Candidate], start: DateTime<Ut
     }
 }
 
+/// The store and the payload of an `onboard:` block over the window from `start`: the file's
+/// generation windows in seconds from `start`, cut at it (imaging before the window start is not
+/// followed: what it left on board is the block's `initial_fill_bits`).
 fn onboard(o: &Onboard, start: DateTime<Utc>) -> (f64, f64, Generation) {
     let generation = match &o.generation {
         GenerationConfig::Average { rate_bps } => Generation::AverageBps(*rate_bps),
@@ -382,10 +385,11 @@ fn onboard(o: &Onboard, start: DateTime<Utc>) -> (f64, f64, Generation) {
             windows
                 .iter()
                 .map(|w| schedule::GenerationWindow {
-                    start_s: seconds_between(&start, &w.start),
+                    start_s: seconds_between(&start, &w.start).max(0.0),
                     end_s: seconds_between(&start, &w.end),
                     rate_bps: w.rate_bps,
                 })
+                .filter(|w| w.end_s > 0.0)
                 .collect(),
         ),
     };

@@ -118,7 +118,6 @@ impl Window {
         self.end
     }
 
-    /// Length in days.
     /// Every UTC date the window touches, in order (a window ending at midnight does not touch
     /// the day that midnight begins).
     pub fn utc_dates(&self) -> Vec<chrono::NaiveDate> {
@@ -135,6 +134,7 @@ impl Window {
         dates
     }
 
+    /// Length in days.
     pub fn days(&self) -> f64 {
         seconds_between(&self.start, &self.end) / 86400.0
     }

@@ -458,6 +458,10 @@ pub struct FleetDoc {
     pub passes: Vec<super::plan::PlanPassRow>,
     /// Each warning once, prefixed with the satellite it concerns.
     pub warnings: Vec<String>,
+    /// Those of `warnings` that are notes (values recalled from memory, the adaptive mode's note):
+    /// the command line prints them as `note:` lines.
+    #[serde(skip)]
+    pub notes: Vec<String>,
     pub caution: &'static str,
 }
 
@@ -503,7 +507,7 @@ impl FleetDoc {
                     .map(|x| super::plan::PlanPassRow::new(p, x)),
             );
         }
-        let warnings = fleet_warnings(planners, plans);
+        let (warnings, notes) = fleet_warnings(planners, plans);
         let by_day = contact.delivered_by_day();
         let days = w
             .utc_dates()
@@ -529,6 +533,7 @@ impl FleetDoc {
             days,
             passes,
             warnings,
+            notes,
             caution: super::plan::CAUTION,
         }
     }
@@ -539,31 +544,44 @@ impl FleetDoc {
 /// pfd row its figures rest on, [`crate::plan::pfd::unconfirmed_notes`]) and its adaptive note
 /// ([`crate::plan::summary::adaptive_note`]), so a fleet's outputs carry them as a single
 /// satellite's do.
-fn fleet_warnings(planners: &[&crate::plan::Planner], plans: &[Plan]) -> Vec<String> {
-    let mut by_text: Vec<(String, Vec<String>)> = Vec::new();
+/// Also returns which of the lines came from notes (printed as `note:`, as a single satellite's
+/// plan prints them).
+fn fleet_warnings(
+    planners: &[&crate::plan::Planner],
+    plans: &[Plan],
+) -> (Vec<String>, Vec<String>) {
+    // (text, satellites that raised it, a note)
+    let mut by_text: Vec<(String, Vec<String>, bool)> = Vec::new();
     for (p, plan) in planners.iter().zip(plans) {
         let name = crate::plan::fleet::name_of(p);
         let recalled = plan.notes.iter().filter(|n| {
             n.starts_with("from memory")
                 || n.starts_with(crate::plan::summary::ADAPTIVE_NOTE_PREFIX)
         });
-        for m in plan.warnings.iter().chain(recalled) {
-            match by_text.iter_mut().find(|(t, _)| t == m) {
-                Some((_, who)) if !who.contains(&name) => who.push(name.clone()),
+        let lines = (plan.warnings.iter().map(|w| (w, false))).chain(recalled.map(|n| (n, true)));
+        for (m, is_note) in lines {
+            match by_text.iter_mut().find(|(t, _, _)| t == m) {
+                Some((_, who, _)) if !who.contains(&name) => who.push(name.clone()),
                 Some(_) => {}
-                None => by_text.push((m.clone(), vec![name.clone()])),
+                None => by_text.push((m.clone(), vec![name.clone()], is_note)),
             }
         }
     }
-    by_text
+    let mut notes = Vec::new();
+    let all = by_text
         .into_iter()
-        .map(
-            |(text, who)| match who.len() == planners.len() && who.len() > 1 {
+        .map(|(text, who, is_note)| {
+            let line = match who.len() == planners.len() && who.len() > 1 {
                 true => format!("every satellite: {text}"),
                 false => format!("{}: {text}", who.join(", ")),
-            },
-        )
-        .collect()
+            };
+            if is_note {
+                notes.push(line.clone());
+            }
+            line
+        })
+        .collect();
+    (all, notes)
 }
 
 /// Write the contact plan's files into `dir` in `mode` (a staging folder: not flushed one by one,

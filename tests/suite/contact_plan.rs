@@ -639,3 +639,48 @@ fn a_fleet_passes_on_each_satellites_adaptive_note() {
     }
     assert!(satellites_with_note >= 2, "{warnings:#?}");
 }
+
+/// A window that starts inside the imaging plan (examples/fleet/kestrel-c-imaging.csv) follows
+/// the strips from its start: the run used to stop ("generation[0].start_s: ... is negative").
+/// From 13:35 for 12 h: the strip of 13:30-13:40 counts from 13:35 (300 s), those of 17:15,
+/// 21:00 and 01:00 whole (600 s each), the one of 04:45 not; at 300 Mbit/s that is
+/// 2,100 s x 3e8 = 6.3e11 bits (by hand from the file). Also a window after the last strip.
+#[test]
+fn imaging_before_the_window_start_is_cut_at_it() {
+    let doc = json(&run(&[
+        "plan",
+        FLEET,
+        "--start",
+        "2026-12-01T13:35:00Z",
+        "--days",
+        "0.5",
+        "--format",
+        "json",
+        "--quiet",
+    ]));
+    let c = doc["satellites"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|s| s["name"] == "KESTREL-C")
+        .unwrap();
+    assert_eq!(num(&c["generated_bits"]), 6.3e11, "{c}");
+    let late = json(&run(&[
+        "plan",
+        FLEET,
+        "--start",
+        "2026-12-10T12:00:00Z",
+        "--days",
+        "0.5",
+        "--format",
+        "json",
+        "--quiet",
+    ]));
+    let c = late["satellites"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|s| s["name"] == "KESTREL-C")
+        .unwrap();
+    assert_eq!(num(&c["generated_bits"]), 0.0, "{c}");
+}

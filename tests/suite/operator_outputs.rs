@@ -705,3 +705,65 @@ fn every_chart_carries_the_same_footer() {
         assert_eq!(t.matches("warning:").count(), 1, "{name}: {t}");
     }
 }
+
+/// The tables say what they show: `track` names the satellite, the station and the step and
+/// heads its column `range rate km/s` (a `rate` beside Doppler read as a data rate); `passes`
+/// heads its last column; the contact table says its edges are those of the counted steps.
+#[test]
+fn tables_name_what_they_show() {
+    let m = "examples/wrenlet-1.yaml";
+    let t = success(&run(&[
+        "track",
+        m,
+        "--station",
+        "Nordkam",
+        "--days",
+        "0.001",
+        "--format",
+        "table",
+    ]));
+    assert!(
+        t.starts_with("WRENLET-1 (99901) from Nordkam, every 10 s\n"),
+        "{t}"
+    );
+    assert!(t.contains("range rate km/s"), "{t}");
+    let p = success(&run(&["passes", m, "--days", "1"]));
+    let header = p.lines().find(|l| l.starts_with("pass id")).unwrap();
+    assert!(header.trim_end().ends_with("window"), "{header}");
+    let plan = success(&run(&["plan", m, "--days", "1"]));
+    assert!(
+        plan.contains("A contact spans the budget steps its rate counts on"),
+        "{plan}"
+    );
+    // no store followed: no balance line for stores
+    assert!(!plan.contains("at start + generated"), "{plan}");
+}
+
+/// A fleet prints its notes as notes, as one satellite's plan does, and `--sat` (a set of an
+/// element file) cannot contradict `--satellite` (a satellite of the mission).
+#[test]
+fn fleet_notes_are_notes_and_sat_does_not_contradict_satellite() {
+    let fleet = "examples/fleet/kestrel-fleet.yaml";
+    let o = run(&["plan", fleet, "--days", "0.5"]);
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(err.contains("note: every satellite: from memory:"), "{err}");
+    assert!(
+        !err.contains("warning: every satellite: from memory:"),
+        "{err}"
+    );
+    // (a usage error of the command line: clap's exit code 2)
+    let o = run(&[
+        "passes",
+        fleet,
+        "--satellite",
+        "KESTREL-D",
+        "--sat",
+        "KESTREL-A",
+    ]);
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.status.code(), Some(2), "{err}");
+    assert!(
+        err.contains("'--satellite <NAME>' cannot be used with '--sat"),
+        "{err}"
+    );
+}
