@@ -105,7 +105,7 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     drop(sink);
     let plan = run.map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;
     warn(&plan.warnings);
-    note(&plan.notes);
+    note(&plan.note_lines(|_| true));
     if let Some(n) = pass {
         if !plan.passes.iter().any(|x| x.number == n) {
             if plan.passes.is_empty() {

@@ -50,7 +50,10 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
     let plan_a = planner_a.collect()?;
     let plan_b = planner_b.collect()?;
     warn(&run_warnings(&plan_a.warnings, &plan_b.warnings));
-    note(&run_warnings(&plan_a.notes, &plan_b.notes));
+    note(&run_warnings(
+        &plan_a.note_lines(|_| true),
+        &plan_b.note_lines(|_| true),
+    ));
     let side = |planner, plan| Side { planner, plan };
     let cmp = compare_plans(side(&planner_a, &plan_a), side(&planner_b, &plan_b));
     let run_b_set: Vec<String> = a

@@ -109,15 +109,9 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     let plan = run.map_err(|e| in_out(e.into()))?;
     warn(&plan.warnings);
     // the table prints the unconfirmed values in its own notes: not twice on the terminal
-    let unconfirmed = passbudget::plan::pfd::unconfirmed_notes(planner.rates(), planner.pfd());
+    use passbudget::plan::NoteKind as K;
     let table = a.format == Format::Table;
-    let notes: Vec<String> = plan
-        .notes
-        .iter()
-        .filter(|n| !(table && unconfirmed.contains(n)))
-        .cloned()
-        .collect();
-    note(&notes);
+    note(&plan.note_lines(|k| !(table && matches!(k, K::RecalledThreshold | K::RecalledPfd))));
     let cp =
         contact_plan(&[&planner], std::slice::from_ref(&plan)).map_err(|e| in_out(e.into()))?;
     // The pass rows only for a document that is written (JSON, CSV, the --out files); the
@@ -286,7 +280,7 @@ fn print_plan(
     print_usable_masks(&doc.usable_masks, &doc.mask_failures, out)?;
     print_pfd(&doc.pfd, out)?;
     for n in passbudget::plan::pfd::unconfirmed_notes(planner.rates(), planner.pfd()) {
-        writeln!(out, "note: {n}")?;
+        writeln!(out, "note: {}", n.text)?;
     }
     writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
     Ok(())
@@ -684,7 +678,9 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
     let planner = a.window.planner(true)?;
     let plan = planner.collect()?;
     warn(&plan.warnings);
-    note(&plan.notes);
+    // the adaptive mode and the pfd: not in the trade-off (the thresholds are)
+    use passbudget::plan::NoteKind as K;
+    note(&plan.note_lines(|k| !matches!(k, K::Adaptive | K::RecalledPfd)));
     let masks_acc = plan
         .tradeoff_masks
         .as_deref()

@@ -37,12 +37,10 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
     let sink = TransitSink::new();
     let plan = planner.run(&sink)?;
     warn(&plan.warnings);
-    // the adaptive mode's note is about rates, which this command does not show
-    let notes: Vec<String> = (plan.notes.iter())
-        .filter(|n| !n.starts_with(passbudget::plan::summary::ADAPTIVE_NOTE_PREFIX))
-        .cloned()
-        .collect();
-    note(&notes);
+    // the notes about rates (the adaptive mode, recalled thresholds, the pfd row): this command
+    // shows no rate
+    use passbudget::plan::NoteKind as K;
+    note(&plan.note_lines(|k| !matches!(k, K::Adaptive | K::RecalledThreshold | K::RecalledPfd)));
     let transits = sink.transits();
     let stations = planner.stations();
     let rows: Vec<TransitRow> = transits

@@ -45,9 +45,9 @@ pub mod window;
 pub use planner::{PlanRequest, Planner};
 pub use rate::OptionId;
 pub use results::{
-    Closing, Crossing, DayTotals, ModeResult, MountTracking, NetworkTotal, OptionSeries, PassPlan,
-    PassSeries, Plan, PlanError, RainTotals, Scope, Totals, TradeoffSeries, UsableMask,
-    NETWORK_LABEL,
+    Closing, Crossing, DayTotals, ModeResult, MountTracking, NetworkTotal, Note, NoteKind,
+    OptionSeries, PassPlan, PassSeries, Plan, PlanError, RainTotals, Scope, Totals, TradeoffSeries,
+    UsableMask, NETWORK_LABEL,
 };
 pub use sink::{Collect, FnSink, PassSink};
 pub use window::{Window, WindowRequest};

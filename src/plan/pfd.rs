@@ -142,7 +142,8 @@ pub fn pass_margin(
 /// kind: the rate options whose threshold is from memory (the built-in CCSDS figures; their names
 /// grouped, each once), and the pfd limit's band row when it is from memory. Every output of a
 /// plan carries them (the table's notes, the CSV `#` lines, the JSON's `assumptions.warnings`).
-pub fn unconfirmed_notes(rates: &RateSet, pfd: &PfdCheck) -> Vec<String> {
+pub fn unconfirmed_notes(rates: &RateSet, pfd: &PfdCheck) -> Vec<super::results::Note> {
+    use super::results::{Note, NoteKind};
     let mut names: Vec<&str> = Vec::new();
     for spec in rates.ladder_specs.iter().chain(&rates.adaptive_specs) {
         let op = spec.operating();
@@ -156,18 +157,18 @@ pub fn unconfirmed_notes(rates: &RateSet, pfd: &PfdCheck) -> Vec<String> {
     }
     let mut out = Vec::new();
     if !names.is_empty() {
-        out.push(format!(
+        out.push(Note::new(NoteKind::RecalledThreshold, format!(
             "from memory: the required Eb/N0 of {} (built-in CCSDS thresholds, not confirmed in a published table; threshold_status in the rate options); a measured threshold can replace them (modem.schemes)",
             names.join(", ")
-        ));
+        )));
     }
     if let Some(b) = pfd.band.as_ref().filter(|b| !b.confirmed()) {
-        out.push(format!(
+        out.push(Note::new(NoteKind::RecalledPfd, format!(
             "from memory: the pfd limit of {} ({} dB(W/m2) in {} at 0-5 deg, Radio Regulations Article 21 Table 21-4) is not confirmed in the text; the pfd margins rest on it (limit_status)",
             b.label(),
             b.low_angle_limit_dbw_m2,
             reference_label(b.reference_bandwidth_hz)
-        ));
+        )));
     }
     out
 }

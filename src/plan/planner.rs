@@ -8,7 +8,7 @@ use super::pass::{plan_pass, tradeoff_pass, PassContext, Planned, Scratch};
 use super::prepare::{
     availability_weather_for, rate_set, station_model_for, RateSet, StationModel,
 };
-use super::results::{NetworkTotal, PassPlan, Plan, PlanError};
+use super::results::{NetworkTotal, Note, NoteKind, PassPlan, Plan, PlanError};
 use super::series::PassWarnings;
 use super::sink::{Collect, PassSink};
 use super::window::{Window, WindowRequest};
@@ -393,16 +393,20 @@ impl Planner {
             self.mission.mask_share_percent,
         );
         let warnings = self.warnings(&passes, &stopped, stop.as_ref());
-        let notes = selection_note(&self.elements, &self.selection)
+        let of = |kind| move |text| Note::new(kind, text);
+        let label = self.elements.label();
+        let notes = (selection_note(&self.elements, &self.selection).map(of(NoteKind::ElementSet)))
             .into_iter()
-            .chain(summary::no_pass_notes(
-                &self.elements.label(),
-                &passes,
-                &self.stations,
-                &stopped,
-            ))
-            .chain(summary::sun_note(&passes, &self.stations))
-            .chain(summary::adaptive_note(&passes, &self.stations, &self.rates))
+            .chain(
+                summary::no_pass_notes(&label, &passes, &self.stations, &stopped)
+                    .into_iter()
+                    .map(of(NoteKind::NoPass)),
+            )
+            .chain(summary::sun_note(&passes, &self.stations).map(of(NoteKind::Sun)))
+            .chain(
+                summary::adaptive_note(&passes, &self.stations, &self.rates)
+                    .map(of(NoteKind::Adaptive)),
+            )
             .chain(super::pfd::unconfirmed_notes(&self.rates, &self.pfd))
             .collect();
         Plan {

@@ -238,8 +238,10 @@ pub struct Plan {
     pub usable_masks: Vec<UsableMask>,
     /// Every warning of the plan: models out of range, element age, stopped searches, thresholds.
     pub warnings: Vec<String>,
-    /// What the planner chose that is not a problem (the element set taken from a history).
-    pub notes: Vec<String>,
+    /// What the plan says that is not a problem, each of a kind (the element set taken from a
+    /// history, a station without passes, the Sun, the adaptive mode, values recalled from
+    /// memory), so that a command prints those that concern what it shows ([`Plan::note_lines`]).
+    pub notes: Vec<Note>,
     /// The availability (rain) case was planned.
     pub rain_planned: bool,
     /// The adaptive mode can use every ladder rate with no hysteresis and no re-lock time, so
@@ -423,5 +425,45 @@ mod tests {
             ..Step::default()
         };
         assert!(!sun_degrades(&nan));
+    }
+}
+
+/// What a plan's note is about.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum NoteKind {
+    /// The element set chosen from a history.
+    ElementSet,
+    /// A station (or the whole window) without passes, or a search stopped.
+    NoPass,
+    /// The Sun raising the system noise temperature in some passes.
+    Sun,
+    /// The adaptive mode delivering nothing where a fixed rate closes.
+    Adaptive,
+    /// Built-in thresholds recalled from memory: the rates rest on them.
+    RecalledThreshold,
+    /// A pfd limit row recalled from memory: the pfd margins rest on it.
+    RecalledPfd,
+}
+
+/// One note of a plan.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Note {
+    pub kind: NoteKind,
+    pub text: String,
+}
+
+impl Note {
+    pub fn new(kind: NoteKind, text: String) -> Note {
+        Note { kind, text }
+    }
+}
+
+impl Plan {
+    /// The texts of the notes whose kind `keep` accepts, in order.
+    pub fn note_lines(&self, keep: impl Fn(NoteKind) -> bool) -> Vec<String> {
+        (self.notes.iter())
+            .filter(|n| keep(n.kind))
+            .map(|n| n.text.clone())
+            .collect()
     }
 }

@@ -303,9 +303,6 @@ pub fn sun_note(passes: &[PassPlan], stations: &[StationModel]) -> Option<String
     ))
 }
 
-/// The start of [`adaptive_note`]'s line (a fleet's outputs pass it on by it).
-pub const ADAPTIVE_NOTE_PREFIX: &str = "adaptive: 0 bits in ";
-
 /// Most passes a note names one by one ([`sun_note`], [`adaptive_note`]).
 pub const NOTE_LISTED: usize = 5;
 
@@ -347,7 +344,7 @@ pub fn adaptive_note(
     };
     let rate = crate::engfmt::rate;
     Some(format!(
-        "{ADAPTIVE_NOTE_PREFIX}{which} at {} although a fixed rate closes there: its easiest scheme ({}, {}) needs {:.1} dBHz C/N0 with the margin, {:.1} dB more than the ladder's easiest ({}, {}, {:.1} dBHz)",
+        "adaptive: 0 bits in {which} at {} although a fixed rate closes there: its easiest scheme ({}, {}) needs {:.1} dBHz C/N0 with the margin, {:.1} dB more than the ladder's easiest ({}, {}, {:.1} dBHz)",
         names.join(", "),
         adaptive.scheme,
         rate(adaptive.rate_bps),

@@ -554,10 +554,10 @@ fn fleet_warnings(
     let mut by_text: Vec<(String, Vec<String>, bool)> = Vec::new();
     for (p, plan) in planners.iter().zip(plans) {
         let name = crate::plan::fleet::name_of(p);
-        let recalled = plan.notes.iter().filter(|n| {
-            n.starts_with("from memory")
-                || n.starts_with(crate::plan::summary::ADAPTIVE_NOTE_PREFIX)
-        });
+        use crate::plan::NoteKind as K;
+        let recalled = (plan.notes.iter())
+            .filter(|n| matches!(n.kind, K::RecalledThreshold | K::RecalledPfd | K::Adaptive))
+            .map(|n| &n.text);
         let lines = (plan.warnings.iter().map(|w| (w, false))).chain(recalled.map(|n| (n, true)));
         for (m, is_note) in lines {
             match by_text.iter_mut().find(|(t, _, _)| t == m) {

@@ -634,7 +634,9 @@ impl Assumptions {
             required_margin_db: rates.required_margin_db,
             shannon_bandwidth_hz: rates.shannon_bandwidth_hz,
             step_s: planner.step_s(),
-            warnings: plan.warnings.iter().chain(&plan.notes).cloned().collect(),
+            warnings: (plan.warnings.iter().cloned())
+                .chain(plan.notes.iter().map(|n| n.text.clone()))
+                .collect(),
             window_end: format_ms(&plan.window.end()),
             window_start: format_ms(&plan.window.start()),
         }

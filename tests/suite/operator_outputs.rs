@@ -767,3 +767,34 @@ fn fleet_notes_are_notes_and_sat_does_not_contradict_satellite() {
         "{err}"
     );
 }
+
+/// Each command prints the notes that concern what it shows: `sun-transits` shows no rate, so
+/// none of the adaptive mode's or the recalled thresholds' and pfd row's; `mask` trades the ladder
+/// rates' volumes, so the thresholds' but not the pfd's or the adaptive mode's. `plan --format
+/// json` prints them all (its table prints the recalled values in its own closing notes).
+#[test]
+fn commands_print_the_notes_that_concern_them() {
+    let m = "examples/wrenlet-1.yaml";
+    let stderr = |args: &[&str]| {
+        let o = run(args);
+        assert_eq!(o.status.code(), Some(0));
+        String::from_utf8_lossy(&o.stderr).into_owned()
+    };
+    let all = stderr(&["plan", m, "--format", "json"]);
+    for n in [
+        "note: adaptive: 0 bits",
+        "note: from memory: the required Eb/N0",
+        "note: from memory: the pfd limit",
+    ] {
+        assert!(all.contains(n), "{n}: {all}");
+    }
+    let t = stderr(&["sun-transits", m]);
+    assert!(t.contains("note: Sun: raises"), "{t}");
+    assert!(
+        !t.contains("adaptive:") && !t.contains("from memory"),
+        "{t}"
+    );
+    let k = stderr(&["mask", m]);
+    assert!(k.contains("note: from memory: the required Eb/N0"), "{k}");
+    assert!(!k.contains("adaptive:") && !k.contains("pfd limit"), "{k}");
+}
