@@ -239,7 +239,8 @@ impl TerrainNoiseTable {
         let n = x.len();
         let u = u.clamp(x[0], x[n - 1]);
         let b = (((u - x[0]) / BUCKET_DEG) as usize).min(self.bucket.len() - 1);
-        let mut i = self.bucket[b] as usize;
+        // (a bucket starting at the top row: the last interval)
+        let mut i = (self.bucket[b] as usize).min(n - 2);
         while i + 2 < n && x[i + 1] <= u {
             i += 1;
         }

@@ -284,6 +284,30 @@ fn terrain_table_stays_within_its_bound_of_the_direct_integral() {
     }
 }
 
+/// A profile that comes down to 0 deg in one sector (the example's with its 0 deg and 330 deg
+/// points lowered from 2 deg to 0): the table reached past its last row where the profile is at
+/// the horizon, and every command that budgets at that station panicked (found by an edge-case
+/// probe). Its lookups now stay within the table's bound of the direct integral on the bound's
+/// directions, as the example's do.
+#[test]
+fn a_profile_down_to_the_horizon_in_one_sector_keeps_the_bound() {
+    let mut profile = SIERRA_BAJA_PROFILE;
+    profile[0][1] = 0.0;
+    profile[profile.len() - 1][1] = 0.0;
+    let terrain = terrain_profile(&profile).unwrap();
+    let p = dish(3.7, 8.2e9, 0.6);
+    let b = fixture_sky(8.2, Weather::ClearSky);
+    let table = TerrainNoiseTable::build(&p, &b, &terrain);
+    // the bound's directions (1 deg inside the terrain to 60 deg above it), and the zenith
+    let mut worst = 0.0f64;
+    let directions = probe_directions(&terrain);
+    for &(el, az) in directions.iter().chain(&[(90.0, 0.0), (89.0, 345.0)]) {
+        let direct = terrain_antenna_noise(&p, &b, &terrain, el, az);
+        worst = worst.max((table.at(el, az).total_k() - direct.total_k()).abs());
+    }
+    assert!(worst < TERRAIN_TABLE_K, "{worst} K");
+}
+
 #[test]
 fn a_profile_at_the_horizon_keeps_the_elevation_table_at_every_azimuth() {
     // Raising the horizon by 0 deg leaves the brightness as it is, value for value; a station whose
