@@ -520,11 +520,13 @@ fn satellites(
                 let item = c
                     .item_line(KEY, i)
                     .and_then(|l| super::item_block(c.text, l));
-                let mut sub = match &item {
-                    Some(b) => Checker::within(c.path, b, format!("{KEY}[{i}] ({name}): ")),
-                    None => Checker::new(c.path, c.text, c.overrides),
-                };
-                let one = satellite(&mut sub, "", s, base, shared, false)?;
+                // A list set by `--set` has no lines in the file: its items' errors name the
+                // argument (never a line of the file's own list).
+                let no_lines = (String::new(), 0);
+                let prefix = format!("{KEY}[{i}] ({name}): ");
+                let mut sub = Checker::within(c.path, item.as_ref().unwrap_or(&no_lines), prefix);
+                let one =
+                    satellite(&mut sub, "", s, base, shared, false).map_err(|e| c.named(KEY, e))?;
                 for d in sub.defaults {
                     if !c.defaults.iter().any(|e| e.key == d.key) {
                         c.defaults.push(d);

@@ -380,6 +380,12 @@ fn bad_fleet_input_names_the_file_line_and_key() {
         &run(&["plan", &m]),
         &["kestrel-c-imaging.csv:3", "overlapping"],
     );
+    // A list of satellites given by --set has no lines in the file: its items' errors name the
+    // argument, not the line of the file's own first satellite's key (it said `:11: priority`).
+    let set = "satellites=[{name: X, elements: kestrel.tle, select: KESTREL-B, priority: 0}]";
+    let o = run(&["plan", FLEET, "--set", set]);
+    clean_error(&o, &[&format!("--set {set}: satellites[0] (X): priority")]);
+    assert!(!String::from_utf8_lossy(&o.stderr).contains(":11:"));
 }
 
 #[test]
