@@ -5,7 +5,7 @@ use super::defaults as dflt;
 use super::limits;
 use super::overrides::{parse_with, Overrides};
 use super::{read_text, Checker, ConfigError, DefaultUsed};
-use crate::config::station::Station;
+use crate::config::station::{same_station, Station};
 use crate::link::antenna::TxPattern;
 use crate::link::modcod::ErrorMeasure;
 use crate::link::polarization::PolarizationSense;
@@ -484,8 +484,15 @@ fn stations(
         let path = resolve(base, f);
         let s =
             Station::load_with(&path, overrides).map_err(|e| station_file_error(c, i, &path, e))?;
-        if stations.iter().any(|b| b.name == s.name) {
-            let msg = format!("two stations are named '{}'", s.name);
+        // compared as --station NAME and --set station.NAME find a station
+        if let Some(b) = stations.iter().find(|b| same_station(&b.name, &s.name)) {
+            let msg = match b.name == s.name {
+                true => format!("two stations are named '{}'", s.name),
+                false => format!(
+                    "two stations are named '{}' and '{}', one name once case and punctuation are set aside (as --station NAME reads them)",
+                    b.name, s.name
+                ),
+            };
             return Err(c.err_at(c.item_line("stations", i), "stations", msg));
         }
         stations.push(s);
@@ -513,8 +520,15 @@ fn satellites(
                 let Some(name) = s.name.as_deref().map(str::trim).filter(|n| !n.is_empty()) else {
                     return Err(c.item_err(KEY, i, "needs a name"));
                 };
-                if out.iter().any(|o| o.name.as_deref() == Some(name)) {
-                    let msg = format!("two satellites are named '{name}'");
+                // compared as --satellite NAME finds a satellite
+                let twin = out.iter().filter_map(|o| o.name.as_deref());
+                if let Some(other) = twin.into_iter().find(|o| same_station(o, name)) {
+                    let msg = match other == name {
+                        true => format!("two satellites are named '{name}'"),
+                        false => format!(
+                            "two satellites are named '{other}' and '{name}', one name once case and punctuation are set aside (as --satellite NAME reads them)"
+                        ),
+                    };
                     return Err(c.item_err(KEY, i, msg));
                 }
                 let item = c

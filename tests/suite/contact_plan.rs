@@ -336,7 +336,13 @@ fn bad_fleet_input_names_the_file_line_and_key() {
     let fleet = fleet.replace("../../stations", &stations);
     // A name given twice: the line of that item (nested `- ` lines do not count as items; see
     // `config::locate`).
-    let cases: [(&str, &str, &[&str]); 6] = [
+    let cases: [(&str, &str, &[&str]); 7] = [
+        // names that differ only in case or punctuation are one name to --satellite
+        (
+            "name: KESTREL-B",
+            "name: kestrel_a",
+            &[":16:", "'KESTREL-A' and 'kestrel_a'"],
+        ),
         (
             "name: KESTREL-D",
             "name: KESTREL-A",
@@ -379,6 +385,20 @@ fn bad_fleet_input_names_the_file_line_and_key() {
     clean_error(
         &run(&["plan", &m]),
         &["kestrel-c-imaging.csv:3", "overlapping"],
+    );
+    // Two station files whose names differ only in case: one station to --station NAME.
+    let nordkam = std::fs::read_to_string(root.join("stations/nordkam.yaml")).unwrap();
+    assert!(nordkam.contains("name: Nordkam"));
+    write(
+        dir.path(),
+        "nk2.yaml",
+        &nordkam.replacen("name: Nordkam", "name: NORDKAM", 1),
+    );
+    let two = fleet.replacen("stations:\n", "stations:\n  - nk2.yaml\n", 1);
+    let m = write(dir.path(), "m.yaml", &two);
+    clean_error(
+        &run(&["plan", &m]),
+        &["stations", "'NORDKAM' and 'Nordkam'"],
     );
     // A list of satellites given by --set has no lines in the file: its items' errors name the
     // argument, not the line of the file's own first satellite's key (it said `:11: priority`).
