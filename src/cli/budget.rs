@@ -420,7 +420,7 @@ fn print_atmosphere(doc: &AtmosphereDoc, out: &mut dyn Write) -> Result<()> {
 }
 
 /// Flat CSV form of the atmosphere result.
-#[derive(Debug, Serialize)]
+#[derive(Debug, Serialize, Default)]
 struct AtmosphereRow {
     station: String,
     frequency_ghz: f64,

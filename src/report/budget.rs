@@ -78,7 +78,7 @@ pub struct BudgetDoc {
 }
 
 /// One item of the budget.
-#[derive(Debug, Serialize)]
+#[derive(Debug, Serialize, Default)]
 pub struct ItemRow {
     pub name: String,
     /// null (empty in CSV): not evaluated, the source says why.

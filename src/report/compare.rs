@@ -19,7 +19,7 @@ pub struct Side<'a> {
 }
 
 /// One pass in either run, with its figures in A and B and their differences (B - A).
-#[derive(Debug, Clone, Serialize, PartialEq)]
+#[derive(Debug, Clone, Serialize, PartialEq, Default)]
 pub struct PassDiffRow {
     pub pass_id: String,
     pub station: String,

@@ -9,7 +9,7 @@ use crate::timefmt::{format_ms, parse_utc};
 use serde::Serialize;
 
 /// One booked contact.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct ContactRow {
     pub satellite: String,
     pub station: String,
@@ -36,7 +36,7 @@ pub struct ContactRow {
 }
 
 /// One satellite's data over the window.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct SatelliteRow {
     pub name: String,
     pub priority: f64,
@@ -79,7 +79,7 @@ pub struct SatelliteRow {
 }
 
 /// One station's booked time.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct StationRow {
     pub name: String,
     pub antennas: usize,
@@ -466,7 +466,7 @@ pub struct FleetDoc {
 }
 
 /// One UTC day of a fleet's contact plan.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct FleetDayRow {
     pub date: String,
     #[serde(serialize_with = "crate::report::whole")]

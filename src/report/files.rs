@@ -3,7 +3,7 @@
 //! `masks.csv`). Files are written atomically; the folder as a whole is staged by
 //! [`super::Staging`].
 
-use super::plan::{DayRow, PlanDoc};
+use super::plan::PlanDoc;
 use super::{to_csv, write_output, WriteMode};
 use crate::plan::{PassSeries, PassSink, Planner};
 use std::path::{Path, PathBuf};
@@ -93,12 +93,11 @@ pub fn summary_json(doc: &PlanDoc) -> String {
 
 /// Write `summary.json`, `summary.csv`, `days.csv` and `masks.csv` into `dir`.
 pub fn write_summaries(dir: &Path, doc: &PlanDoc, mode: WriteMode) -> Result<(), FileError> {
-    let days: Vec<&DayRow> = doc.days.iter().collect();
     let w = &doc.assumptions.warnings;
     let files: [(&str, Result<String, csv::Error>); 4] = [
         ("summary.json", Ok(summary_json(doc))),
         ("summary.csv", to_csv(&doc.passes, w)),
-        ("days.csv", to_csv(&days, w)),
+        ("days.csv", to_csv(&doc.days, w)),
         ("masks.csv", to_csv(&doc.usable_masks, w)),
     ];
     for (name, text) in files {

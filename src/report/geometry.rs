@@ -9,7 +9,7 @@ use chrono::{DateTime, Utc};
 use serde::Serialize;
 
 /// One row of the `passes` output.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct PassRow {
     pub satellite: String,
     pub norad_id: u64,
@@ -69,9 +69,7 @@ pub fn passes_csv(rows: &[PassRow], warnings: &[String]) -> String {
     };
     let mut buf = Vec::with_capacity(1024 + rows.len() * 200);
     push_comment_lines(&mut buf, warnings);
-    if rows.is_empty() {
-        return String::from_utf8(buf).expect("CSV text is UTF-8");
-    }
+    // the header even without rows, as `to_csv` writes it
     buf.extend_from_slice(PASS_HEADER.as_bytes());
     buf.push(b'\n');
     for r in rows {
@@ -112,7 +110,7 @@ pub fn passes_csv(rows: &[PassRow], warnings: &[String]) -> String {
 }
 
 /// One row of the `track` output.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct TrackRow {
     pub time: String,
     pub azimuth_deg: f64,

@@ -66,11 +66,26 @@ pub fn check_file_names<'a>(stations: impl IntoIterator<Item = &'a str>) -> Resu
 /// carries, then one `# warning: ...` line per warning), then one header row and the rows. Read it
 /// with `#` as the comment character (pandas: `comment="#"`; the `csv` crate:
 /// `ReaderBuilder::comment(Some(b'#'))`).
-pub fn to_csv<T: serde::Serialize>(rows: &[T], warnings: &[String]) -> Result<String, csv::Error> {
+pub fn to_csv<T: serde::Serialize + Default>(
+    rows: &[T],
+    warnings: &[String],
+) -> Result<String, csv::Error> {
     let mut head = format!("# {}\n", plan::CAUTION);
     for w in warnings {
         // one line each, whatever the text holds
         head.push_str(&format!("# warning: {}\n", w.replace(['\n', '\r'], " ")));
+    }
+    if rows.is_empty() {
+        // The header row all the same (a reader given only `#` lines finds no columns): the
+        // one a row of the type writes.
+        let mut w = csv::Writer::from_writer(Vec::new());
+        w.serialize(T::default())?;
+        let bytes = w
+            .into_inner()
+            .map_err(|e| csv::Error::from(e.into_error()))?;
+        let text = String::from_utf8(bytes).expect("csv writes UTF-8");
+        let header = text.lines().next().unwrap_or_default();
+        return Ok(format!("{head}{header}\n"));
     }
     let mut w = csv::Writer::from_writer(head.into_bytes());
     for r in rows {
@@ -264,7 +279,7 @@ mod tests {
 
     #[test]
     fn whole_quantities_serialize_as_integers() {
-        #[derive(serde::Serialize)]
+        #[derive(serde::Serialize, Default)]
         struct R {
             #[serde(serialize_with = "whole")]
             rate_bps: f64,

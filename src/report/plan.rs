@@ -15,7 +15,7 @@ use crate::timefmt::{add_seconds, format_ms};
 use serde::Serialize;
 
 /// One pass of the plan.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct PlanPassRow {
     pub number: usize,
     /// The pass's identifier, the same whatever the window ([`crate::report::pass_id`]).
@@ -210,7 +210,7 @@ impl TotalsRow {
 }
 
 /// Totals of one UTC day (passes counted on the day of their AOS).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct DayRow {
     pub date: String,
     /// What the contact plan delivers this UTC day (a contact across midnight split by its time),
@@ -248,7 +248,7 @@ impl From<&DayTotals> for DayRow {
 }
 
 /// Usable elevation mask of one ladder rate at one station.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct UsableMaskRow {
     pub station: String,
     #[serde(serialize_with = "crate::report::whole")]
@@ -335,7 +335,7 @@ impl UsableMaskRow {
 }
 
 /// One point of the mask trade-off.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct TradeoffRow {
     pub scope: String,
     pub mask_deg: f64,
@@ -372,7 +372,7 @@ impl TradeoffRow {
 }
 
 /// One row of a pass's time series CSV.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct StepRow {
     pub time: String,
     pub t_s: f64,

@@ -7,7 +7,7 @@ use crate::timefmt::format_ms;
 use serde::Serialize;
 
 /// One Sun transit through a station's beam.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, Default)]
 pub struct TransitRow {
     pub station: String,
     pub pass: usize,

@@ -798,3 +798,50 @@ fn commands_print_the_notes_that_concern_them() {
     assert!(k.contains("note: from memory: the required Eb/N0"), "{k}");
     assert!(!k.contains("adaptive:") && !k.contains("pfd limit"), "{k}");
 }
+
+/// A CSV with no rows still has its header row, the same as with rows: a reader given only `#`
+/// lines finds no columns (pandas stops with EmptyDataError). Here a window of 86 s without a
+/// pass against the example week, for `passes`, `sun-transits` and `plan --out`'s files.
+#[test]
+fn empty_csvs_keep_their_header_row() {
+    let m = "examples/wrenlet-1.yaml";
+    let header = |text: &str| -> String {
+        text.lines()
+            .find(|l| !l.starts_with('#'))
+            .unwrap_or_else(|| panic!("no header row in:\n{text}"))
+            .to_string()
+    };
+    let (empty, full) = (["--days", "0.001"], ["--days", "2"]);
+    for cmd in [
+        ["passes", "--format", "csv"],
+        ["sun-transits", "--format", "csv"],
+    ] {
+        let e = success(&run(&[&[cmd[0], m], &cmd[1..], &empty[..]].concat()));
+        let f = success(&run(&[&[cmd[0], m], &cmd[1..], &full[..]].concat()));
+        assert_eq!(e.lines().filter(|l| !l.starts_with('#')).count(), 1, "{e}");
+        assert_eq!(header(&e), header(&f), "{}", cmd[0]);
+    }
+    let dir = tempfile::tempdir().unwrap();
+    let (de, df) = (dir.path().join("e"), dir.path().join("f"));
+    success(&run(&[
+        "plan",
+        m,
+        "--days",
+        "0.001",
+        "--out",
+        de.to_str().unwrap(),
+    ]));
+    success(&run(&[
+        "plan",
+        m,
+        "--days",
+        "1",
+        "--out",
+        df.to_str().unwrap(),
+    ]));
+    for f in ["summary.csv", "contacts.csv", "masks.csv", "days.csv"] {
+        let e = std::fs::read_to_string(de.join(f)).unwrap();
+        let full = std::fs::read_to_string(df.join(f)).unwrap();
+        assert_eq!(header(&e), header(&full), "{f}");
+    }
+}

@@ -86,7 +86,9 @@ fn plan_into(out: &Path, extra: &[&str]) -> Output {
 
 /// Stations whose names give the same file names are refused before any work, with two worker
 /// threads (before: both threads wrote the same temporary file) and with one (before: one
-/// station's charts replaced the other's).
+/// station's charts replaced the other's). Such names are one name to `--station NAME` too, so
+/// the mission itself refuses them when it is read; the output folder's own check
+/// (`report::check_file_names`) stays behind it.
 #[test]
 fn stations_with_the_same_file_names_are_refused_before_any_work() {
     let dir = tempfile::tempdir().unwrap();
@@ -102,7 +104,7 @@ fn stations_with_the_same_file_names_are_refused_before_any_work() {
             .unwrap();
         clean_error(
             &r,
-            &["stations 'Nord Kam' and 'Nord-Kam' would write the same file names (nord-kam): rename one"],
+            &["two stations are named 'Nord Kam' and 'Nord-Kam'"],
         );
         assert!(
             !out.exists(),
