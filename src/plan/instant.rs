@@ -196,15 +196,25 @@ pub fn instant_budget(
         InstantGeometry::At(_) | InstantGeometry::Pointing { .. } => Some(look.azimuth_deg),
         InstantGeometry::Elevation(e) => model.noise.worst_azimuth_deg(e, weather),
     };
-    let worst_azimuth_note = match (req.geometry, azimuth_deg) {
-        (InstantGeometry::Elevation(_), Some(az)) => {
-            look.azimuth_deg = az;
-            Some(format!(
-                "no azimuth given: the terrain's noise is taken at azimuth {az:.1} deg, where it is highest at this elevation among the azimuths whose terrain is not above it"
-            ))
-        }
+    if let (InstantGeometry::Elevation(_), Some(az)) = (req.geometry, azimuth_deg) {
+        look.azimuth_deg = az;
+    }
+    let blocked = terrain_above(st, &look);
+    let worst_azimuth_note = match (req.geometry, azimuth_deg, blocked) {
+        (InstantGeometry::Elevation(_), Some(az), None) => Some(format!(
+            "no azimuth given: the terrain's noise is taken at azimuth {az:.1} deg, where it is highest at this elevation among the azimuths whose terrain is not above it"
+        )),
+        (InstantGeometry::Elevation(_), Some(az), Some(_)) => Some(format!(
+            "no azimuth given: the terrain is above this elevation at every azimuth; its noise is taken at azimuth {az:.1} deg, where the terrain is lowest"
+        )),
         _ => None,
     };
+    let blocked_warning = blocked.map(|h| {
+        format!(
+            "the line of sight (elevation {:.2} deg, azimuth {:.1} deg) is below the terrain of horizon_mask there ({h:.1} deg): the path is blocked, and these figures are not a link",
+            look.elevation_deg, look.azimuth_deg
+        )
+    });
     // With a time, the Sun and the Moon are where they are then (a track of zero length).
     let bodies = time
         .map(|t| -> Result<PassBodies, SeriesError> {
@@ -240,6 +250,7 @@ pub fn instant_budget(
     items.extend(pfd.iter().flat_map(|p| pfd_items(p, spectrum)));
     warnings.extend(pfd_warning(&model, pfd.as_ref()));
     warnings.extend(selection_note(&elements, &selection));
+    warnings.extend(blocked_warning);
     warnings.extend(worst_azimuth_note);
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
@@ -467,6 +478,14 @@ fn rate_spec(
                 short_number(rate_bps)
             ))
         })
+}
+
+/// The terrain's height at the look's azimuth, deg, when the look is below it (the station's
+/// `horizon_mask` where it rises above the geometric horizon).
+fn terrain_above(st: &crate::config::station::Station, look: &Look) -> Option<f64> {
+    let terrain = crate::noise::terrain::terrain_profile(&st.horizon_mask)?;
+    let h = terrain.limit_deg(look.azimuth_deg);
+    (look.elevation_deg < h).then_some(h)
 }
 
 /// The link's items with the atmosphere's components (as losses) right after the free-space loss.

@@ -653,3 +653,31 @@ fn budget_items_are_the_fields_signed_and_rounded_alike() {
         assert!((scaled - scaled.round()).abs() < 1e-6, "{i}");
     }
 }
+
+/// A budget along a line of sight below the station's terrain (stations/sierra-baja.yaml: 2 deg
+/// at 0 deg azimuth, 12 deg at 150 deg) says the path is blocked; above it, nothing is said.
+#[test]
+fn a_budget_below_the_terrain_says_the_path_is_blocked() {
+    let get = |elevation: &str, azimuth: Option<&str>| -> String {
+        let mut more = vec!["--format", "json"];
+        if let Some(a) = azimuth {
+            more.extend(["--azimuth-deg", a]);
+        }
+        json(&budget(EXAMPLE, "Sierra Baja", elevation, &more))["warnings"].to_string()
+    };
+    let at_horizon = get("0", None);
+    assert!(at_horizon.contains("the path is blocked"), "{at_horizon}");
+    assert!(
+        at_horizon.contains("terrain is above this elevation at every azimuth"),
+        "{at_horizon}"
+    );
+    let facing_peak = get("5", Some("150"));
+    assert!(
+        facing_peak.contains("below the terrain of horizon_mask there (12.0 deg)"),
+        "{facing_peak}"
+    );
+    for (e, a) in [("10", None), ("13", Some("150")), ("5", Some("0"))] {
+        let w = get(e, a);
+        assert!(!w.contains("blocked"), "{e} {a:?}: {w}");
+    }
+}

@@ -102,10 +102,7 @@ fn stations_with_the_same_file_names_are_refused_before_any_work() {
             .args(["plan", &mission, "--days", "0.5", "--out", &o, "--charts"])
             .output()
             .unwrap();
-        clean_error(
-            &r,
-            &["two stations are named 'Nord Kam' and 'Nord-Kam'"],
-        );
+        clean_error(&r, &["two stations are named 'Nord Kam' and 'Nord-Kam'"]);
         assert!(
             !out.exists(),
             "the run created {} and left it",
