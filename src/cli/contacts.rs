@@ -5,15 +5,11 @@ use crate::cli::table::{Align, Table};
 use anyhow::Result;
 use passbudget::engfmt;
 use passbudget::report::contacts::{ContactDoc, ContactRows};
+use passbudget::report::hh_mm_ss as hours;
 use std::io::Write;
 
 fn cell_or_dash(x: Option<String>) -> String {
     x.unwrap_or_else(|| "-".into())
-}
-
-fn hours(seconds: f64) -> String {
-    let s = seconds.max(0.0).round() as i64;
-    format!("{}:{:02}:{:02}", s / 3600, (s / 60) % 60, s % 60)
 }
 
 /// A contact's time for the table: `12-02 01:23:45`, with its year when `with_year`

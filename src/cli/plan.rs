@@ -239,11 +239,6 @@ fn rate_cell(r: Option<f64>) -> String {
     r.map(engfmt::rate).unwrap_or_else(|| "-".into())
 }
 
-fn hh_mm_ss(seconds: f64) -> String {
-    let s = seconds.max(0.0).round() as i64;
-    format!("{}:{:02}:{:02}", s / 3600, (s / 60) % 60, s % 60)
-}
-
 /// An elevation for a table: one decimal, never `-0.0`.
 fn deg1(x: f64) -> String {
     engfmt::fixed(round(x, 1), 1)
@@ -498,7 +493,7 @@ fn print_days(doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
                 .map(|v| vol.cell(v))
                 .unwrap_or_else(|| "-".into()),
             r.passes.to_string(),
-            hh_mm_ss(r.contact_s),
+            passbudget::report::hh_mm_ss(r.contact_s),
             vol.cell(r.volume_bits),
             vol.cell(r.adaptive_volume_bits),
             vol.cell(r.shannon_volume_bits),

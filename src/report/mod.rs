@@ -190,10 +190,20 @@ pub fn round(x: f64, digits: i32) -> f64 {
     (x * s).round() / s + 0.0
 }
 
-/// Minutes:seconds for durations in tables.
+/// Minutes:seconds for durations in tables, hours:minutes:seconds from an hour (a satellite
+/// that never sets: `48:00:00`, not `2880:00`).
 pub fn mm_ss(seconds: f64) -> String {
     let s = seconds.max(0.0).round() as i64;
-    format!("{}:{:02}", s / 60, s % 60)
+    match s < 3600 {
+        true => format!("{}:{:02}", s / 60, s % 60),
+        false => hh_mm_ss(seconds),
+    }
+}
+
+/// Hours:minutes:seconds for durations in tables.
+pub fn hh_mm_ss(seconds: f64) -> String {
+    let s = seconds.max(0.0).round() as i64;
+    format!("{}:{:02}:{:02}", s / 3600, (s / 60) % 60, s % 60)
 }
 
 #[cfg(test)]
@@ -312,5 +322,8 @@ mod tests {
     fn durations() {
         assert_eq!(mm_ss(605.4), "10:05");
         assert_eq!(mm_ss(59.6), "1:00");
+        assert_eq!(mm_ss(3599.4), "59:59");
+        assert_eq!(mm_ss(3599.6), "1:00:00");
+        assert_eq!(mm_ss(172_800.0), "48:00:00");
     }
 }
