@@ -11,6 +11,7 @@ use chrono::{DateTime, Utc};
 use passbudget::config::limits::{FREQUENCY_MHZ, MIN_ELEVATION_DEG, TRACK_STEP_S};
 use passbudget::config::mission::Mission;
 use passbudget::config::station::Station;
+use passbudget::engfmt;
 use passbudget::geometry::sun::{separation_deg, sun_az_el_deg};
 use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
 use passbudget::orbit::{ElementSet, Propagator};
@@ -323,7 +324,8 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                     same_day_time(&p.aos, &p.tca),
                     same_day_time(&p.aos, &p.los),
                     passbudget::report::mm_ss(p.duration_s()),
-                    format!("{:.1}", p.max_elevation_deg),
+                    // from the row's value, as `plan`'s table does (one figure for one pass)
+                    engfmt::fixed(passbudget::report::round(row.max_elevation_deg, 1), 1),
                     whole_azimuth(p.aos_azimuth_deg),
                     whole_azimuth(p.los_azimuth_deg),
                     format!("{:.0}", p.min_range_km),
