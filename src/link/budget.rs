@@ -54,7 +54,7 @@ pub enum BudgetError {
     RollOff { value: f64 },
     #[error("implementation loss must be >= 0 dB and finite, got {loss_db} dB")]
     ImplementationLoss { loss_db: f64 },
-    #[error("rate {rate_bps} bit/s occupies {occupied_bandwidth_hz} Hz, more than the allowed {max_bandwidth_hz} Hz")]
+    #[error("rate {} occupies {}, more than the allowed {}", crate::engfmt::rate(*.rate_bps), crate::engfmt::hertz(*.occupied_bandwidth_hz), crate::engfmt::hertz(*.max_bandwidth_hz))]
     RateExceedsBandwidth {
         rate_bps: f64,
         occupied_bandwidth_hz: f64,
