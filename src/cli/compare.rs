@@ -87,7 +87,7 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
             }
             let doc = Doc {
                 caution: passbudget::report::plan::CAUTION,
-                warnings: run_warnings(&plan_a.warnings, &plan_b.warnings),
+                warnings: run_warnings(&flagged(&plan_a), &flagged(&plan_b)),
                 a: &runs[0],
                 b: &runs[1],
                 comparison: &cmp,
@@ -95,7 +95,7 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
         Format::Csv => {
-            let warnings = run_warnings(&plan_a.warnings, &plan_b.warnings);
+            let warnings = run_warnings(&flagged(&plan_a), &flagged(&plan_b));
             write!(out, "{}", to_csv(&cmp.passes, &warnings)?)?
         }
         Format::Table => {
@@ -230,6 +230,12 @@ fn pass_cells(p: &PassDiffRow) -> Vec<String> {
         signed(p.diff_peak_margin_db, db),
         signed(p.diff_peak_cn0_db, db),
     ]
+}
+
+/// A run's warnings with the thresholds recalled from memory its rates rest on (the pfd row:
+/// `compare` shows no pfd).
+fn flagged(plan: &passbudget::plan::Plan) -> Vec<String> {
+    plan.warnings_with(|k| k == passbudget::plan::NoteKind::RecalledThreshold)
 }
 
 /// Both runs' warnings, each marked with its run: once as `runs A and B:` when both runs raise it

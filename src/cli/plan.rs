@@ -701,15 +701,22 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
                 usable_masks: &'a [UsableMaskRow],
                 mask_failures: &'a [MaskFailureRow],
                 tradeoff: &'a [TradeoffRow],
+                warnings: Vec<String>,
+                caution: &'static str,
             }
             let doc = Doc {
                 usable_masks: &masks,
                 mask_failures: &failures,
                 tradeoff: &rows,
+                warnings: plan.warnings_with(|k| k == K::RecalledThreshold),
+                caution: passbudget::report::plan::CAUTION,
             };
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
-        Format::Csv => write!(out, "{}", to_csv(&rows, &plan.warnings)?)?,
+        Format::Csv => {
+            let warnings = plan.warnings_with(|k| k == K::RecalledThreshold);
+            write!(out, "{}", to_csv(&rows, &warnings)?)?
+        }
         Format::Table => {
             print_tradeoff(&planner, &series, out)?;
             print_usable_masks(&masks, &failures, out)?;

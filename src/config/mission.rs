@@ -485,7 +485,8 @@ fn stations(
         let s =
             Station::load_with(&path, overrides).map_err(|e| station_file_error(c, i, &path, e))?;
         // compared as --station NAME and --set station.NAME find a station
-        if let Some(b) = stations.iter().find(|b| same_station(&b.name, &s.name)) {
+        let same = |b: &Station| b.name == s.name || same_station(&b.name, &s.name);
+        if let Some(b) = stations.iter().find(|b| same(b)) {
             let msg = match b.name == s.name {
                 true => format!("two stations are named '{}'", s.name),
                 false => format!(
@@ -522,7 +523,10 @@ fn satellites(
                 };
                 // compared as --satellite NAME finds a satellite
                 let twin = out.iter().filter_map(|o| o.name.as_deref());
-                if let Some(other) = twin.into_iter().find(|o| same_station(o, name)) {
+                if let Some(other) = twin
+                    .into_iter()
+                    .find(|o| *o == name || same_station(o, name))
+                {
                     let msg = match other == name {
                         true => format!("two satellites are named '{name}'"),
                         false => format!(

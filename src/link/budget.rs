@@ -54,7 +54,7 @@ pub enum BudgetError {
     RollOff { value: f64 },
     #[error("implementation loss must be >= 0 dB and finite, got {loss_db} dB")]
     ImplementationLoss { loss_db: f64 },
-    #[error("rate {} occupies {}, more than the allowed {}", crate::engfmt::rate(*.rate_bps), crate::engfmt::hertz(*.occupied_bandwidth_hz), crate::engfmt::hertz(*.max_bandwidth_hz))]
+    #[error("rate {} occupies {}, more than the allowed {}", crate::engfmt::rate(*.rate_bps), hz5(*.occupied_bandwidth_hz), hz5(*.max_bandwidth_hz))]
     RateExceedsBandwidth {
         rate_bps: f64,
         occupied_bandwidth_hz: f64,
@@ -936,4 +936,13 @@ fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 15] {
 
 fn provenance_text(op: &OperatingPoint) -> &'static str {
     op.provenance.status_and_source().1
+}
+
+/// A bandwidth with five significant digits (`375.24 MHz`): the bandwidth error's two figures
+/// stay apart where three digits would print both as `375 MHz`.
+fn hz5(hz: f64) -> String {
+    match crate::engfmt::budget_value(hz, "Hz") {
+        Some((v, unit)) => format!("{v} {unit}"),
+        None => format!("{hz} Hz"),
+    }
 }

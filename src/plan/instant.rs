@@ -192,29 +192,8 @@ pub fn instant_budget(
     let weather = availability_weather(req.exceedance_percent, std::slice::from_ref(&model))?
         .unwrap_or(Weather::ClearSky);
     model.prepare_weather(weather);
-    let azimuth_deg = match req.geometry {
-        InstantGeometry::At(_) | InstantGeometry::Pointing { .. } => Some(look.azimuth_deg),
-        InstantGeometry::Elevation(e) => model.noise.worst_azimuth_deg(e, weather),
-    };
-    if let (InstantGeometry::Elevation(_), Some(az)) = (req.geometry, azimuth_deg) {
-        look.azimuth_deg = az;
-    }
-    let blocked = terrain_above(st, &look);
-    let worst_azimuth_note = match (req.geometry, azimuth_deg, blocked) {
-        (InstantGeometry::Elevation(_), Some(az), None) => Some(format!(
-            "no azimuth given: the terrain's noise is taken at azimuth {az:.1} deg, where it is highest at this elevation among the azimuths whose terrain is not above it"
-        )),
-        (InstantGeometry::Elevation(_), Some(az), Some(_)) => Some(format!(
-            "no azimuth given: the terrain is above this elevation at every azimuth; its noise is taken at azimuth {az:.1} deg, where the terrain is lowest"
-        )),
-        _ => None,
-    };
-    let blocked_warning = blocked.map(|h| {
-        format!(
-            "the line of sight (elevation {:.2} deg, azimuth {:.1} deg) is below the terrain of horizon_mask there ({h:.1} deg): the path is blocked, and these figures are not a link",
-            look.elevation_deg, look.azimuth_deg
-        )
-    });
+    let (azimuth_deg, terrain_lines) =
+        terrain_azimuth(st, &model, (req.geometry, weather), &mut look);
     // With a time, the Sun and the Moon are where they are then (a track of zero length).
     let bodies = time
         .map(|t| -> Result<PassBodies, SeriesError> {
@@ -250,8 +229,7 @@ pub fn instant_budget(
     items.extend(pfd.iter().flat_map(|p| pfd_items(p, spectrum)));
     warnings.extend(pfd_warning(&model, pfd.as_ref()));
     warnings.extend(selection_note(&elements, &selection));
-    warnings.extend(blocked_warning);
-    warnings.extend(worst_azimuth_note);
+    warnings.extend(terrain_lines);
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
     }
@@ -480,12 +458,52 @@ fn rate_spec(
         })
 }
 
-/// The terrain's height at the look's azimuth, deg, when the look is below it (the station's
-/// `horizon_mask` where it rises above the geometric horizon).
-fn terrain_above(st: &crate::config::station::Station, look: &Look) -> Option<f64> {
-    let terrain = crate::noise::terrain::terrain_profile(&st.horizon_mask)?;
-    let h = terrain.limit_deg(look.azimuth_deg);
-    (look.elevation_deg < h).then_some(h)
+/// The azimuth of the budget (the satellite's, the one given, or for an elevation alone the one
+/// where the terrain's noise is highest among those whose terrain is not above it, set in `look`;
+/// `None` without terrain noise) and the lines about the terrain: that azimuth chosen, and a line
+/// of sight below the terrain (`horizon_mask` above the geometric horizon: the path is blocked).
+/// For an elevation alone the path is blocked only where the terrain is above it at every
+/// azimuth (the lowest terrain is then named).
+fn terrain_azimuth(
+    st: &crate::config::station::Station,
+    model: &StationModel,
+    (geometry, weather): (InstantGeometry, Weather),
+    look: &mut Look,
+) -> (Option<f64>, Vec<String>) {
+    let terrain = crate::noise::terrain::terrain_profile(&st.horizon_mask);
+    let mut lines = Vec::new();
+    let azimuth_deg = match geometry {
+        InstantGeometry::At(_) | InstantGeometry::Pointing { .. } => Some(look.azimuth_deg),
+        InstantGeometry::Elevation(e) => model.noise.worst_azimuth_deg(e, weather),
+    };
+    let blocked = match (geometry, &terrain) {
+        (_, None) => None,
+        (InstantGeometry::Elevation(e), Some(t)) => {
+            // the lowest terrain, on a 0.5 deg grid as the worst azimuth is searched
+            let (az, h) = (0..720)
+                .map(|i| (0.5 * i as f64, t.limit_deg(0.5 * i as f64)))
+                .fold((0.0, f64::INFINITY), |m, x| if x.1 < m.1 { x } else { m });
+            (e < h).then_some((az, h))
+        }
+        (_, Some(t)) => {
+            let h = t.limit_deg(look.azimuth_deg);
+            (look.elevation_deg < h).then_some((look.azimuth_deg, h))
+        }
+    };
+    if let (InstantGeometry::Elevation(_), Some(az)) = (geometry, azimuth_deg) {
+        look.azimuth_deg = az;
+        lines.push(match blocked {
+            None => format!("no azimuth given: the terrain's noise is taken at azimuth {az:.1} deg, where it is highest at this elevation among the azimuths whose terrain is not above it"),
+            Some(_) => format!("no azimuth given: the terrain is above this elevation at every azimuth; its noise is taken at azimuth {az:.1} deg, where the terrain is lowest"),
+        });
+    }
+    if let Some((az, h)) = blocked {
+        lines.insert(0, format!(
+            "the line of sight (elevation {:.2} deg, azimuth {az:.1} deg) is below the terrain of horizon_mask there ({h:.1} deg): the path is blocked, and these figures are not a link",
+            look.elevation_deg
+        ));
+    }
+    (azimuth_deg, lines)
 }
 
 /// The link's items with the atmosphere's components (as losses) right after the free-space loss.

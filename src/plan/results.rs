@@ -459,6 +459,16 @@ impl Note {
 }
 
 impl Plan {
+    /// The warnings, then the notes of values recalled from memory whose kind `recalled` accepts:
+    /// what an output file carries in its `warnings` so that every unconfirmed value it rests on
+    /// stays flagged.
+    pub fn warnings_with(&self, recalled: impl Fn(NoteKind) -> bool) -> Vec<String> {
+        let is_recalled = |k| matches!(k, NoteKind::RecalledThreshold | NoteKind::RecalledPfd);
+        (self.warnings.iter().cloned())
+            .chain(self.note_lines(|k| is_recalled(k) && recalled(k)))
+            .collect()
+    }
+
     /// The texts of the notes whose kind `keep` accepts, in order.
     pub fn note_lines(&self, keep: impl Fn(NoteKind) -> bool) -> Vec<String> {
         (self.notes.iter())

@@ -683,4 +683,23 @@ fn a_budget_below_the_terrain_says_the_path_is_blocked() {
         let w = get(e, a);
         assert!(!w.contains("blocked"), "{e} {a:?}: {w}");
     }
+    // A station with a measured antenna temperature has no terrain noise (no azimuth to choose):
+    // for an elevation alone its path is blocked only below the lowest terrain (1 deg at 180).
+    let measured = |e: &str| -> String {
+        let set = [
+            "--set",
+            "station.Sierra Baja.horizon_mask=[[0, 5], [180, 1]]",
+            "--set",
+            "station.Sierra Baja.antenna.measured_noise_temperature_k=[[0, 150], [90, 30]]",
+            "--format",
+            "json",
+        ];
+        json(&budget(EXAMPLE, "Sierra Baja", e, &set))["warnings"].to_string()
+    };
+    assert!(!measured("2.5").contains("blocked"));
+    let low = measured("0.5");
+    assert!(
+        low.contains("azimuth 180.0 deg) is below the terrain"),
+        "{low}"
+    );
 }

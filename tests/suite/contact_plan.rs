@@ -386,6 +386,15 @@ fn bad_fleet_input_names_the_file_line_and_key() {
         &run(&["plan", &m]),
         &["kestrel-c-imaging.csv:3", "overlapping"],
     );
+    // Two names of punctuation alone are no words to compare loosely, but the same name all the
+    // same.
+    let dashes = fleet.replacen("name: KESTREL-A", "name: '--'", 1).replacen(
+        "name: KESTREL-B",
+        "name: '--'",
+        1,
+    );
+    let m = write(dir.path(), "m.yaml", &dashes);
+    clean_error(&run(&["plan", &m]), &["two satellites are named '--'"]);
     // Two station files whose names differ only in case: one station to --station NAME.
     let nordkam = std::fs::read_to_string(root.join("stations/nordkam.yaml")).unwrap();
     assert!(nordkam.contains("name: Nordkam"));

@@ -845,3 +845,27 @@ fn empty_csvs_keep_their_header_row() {
         assert_eq!(header(&e), header(&full), "{f}");
     }
 }
+
+/// Every output whose figures rest on a value recalled from memory flags it: `mask`'s JSON and
+/// CSV (its volumes per ladder rate rest on the built-in thresholds) and `compare`'s (its rates
+/// too); `mask`'s JSON also carries the caution, as every JSON does.
+#[test]
+fn mask_and_compare_files_flag_the_recalled_thresholds() {
+    let m = "examples/wrenlet-1.yaml";
+    let recalled = "from memory: the required Eb/N0 of ccsds-rs-cc";
+    let mask = json(&run(&["mask", m, "--days", "1", "--format", "json"]));
+    assert!(
+        mask["warnings"].to_string().contains(recalled),
+        "{}",
+        mask["warnings"]
+    );
+    assert!(mask["caution"]
+        .as_str()
+        .unwrap()
+        .starts_with("Planning estimates only"));
+    let csv = success(&run(&["mask", m, "--days", "1", "--format", "csv"]));
+    assert!(csv.contains(&format!("# warning: {recalled}")), "{csv}");
+    let cmp = json(&run(&["compare", m, "--days", "1", "--format", "json"]));
+    let w = cmp["warnings"].to_string();
+    assert!(w.contains(&format!("runs A and B: {recalled}")), "{w}");
+}
