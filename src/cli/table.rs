@@ -47,17 +47,17 @@ impl Table {
         row: impl Fn(usize) -> Vec<String>,
         emit: &mut dyn FnMut(&str) -> Result<(), E>,
     ) -> Result<(), E> {
-        let mut width: Vec<usize> = self.headers.iter().map(|h| h.chars().count()).collect();
+        let mut width: Vec<usize> = self.headers.iter().map(|h| display_width(h)).collect();
         let columns = width.len();
         for k in 0..n {
             for (i, c) in row(k).iter().enumerate().take(columns) {
-                width[i] = width[i].max(c.chars().count());
+                width[i] = width[i].max(display_width(c));
             }
         }
         let line = |cells: &[String], emit: &mut dyn FnMut(&str) -> Result<(), E>| {
             let mut s = String::new();
             for (i, c) in cells.iter().enumerate() {
-                let pad = width[i].saturating_sub(c.chars().count());
+                let pad = width[i].saturating_sub(display_width(c));
                 if i > 0 {
                     s.push_str("  ");
                 }
@@ -87,6 +87,11 @@ impl Table {
     }
 }
 
+/// The terminal cells a text takes (a CJK character two, a combining mark none).
+fn display_width(s: &str) -> usize {
+    unicode_width::UnicodeWidthStr::width(s)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -111,5 +116,19 @@ mod tests {
             })
             .unwrap();
         assert_eq!(streamed, s);
+    }
+
+    /// Column widths count terminal cells (Unicode Standard Annex #11, East Asian Width): a CJK
+    /// character takes two, so `東京局` is six cells wide and the column after it lines up.
+    #[test]
+    fn wide_characters_take_two_cells() {
+        let mut t = Table::new(&[("station", Align::Left), ("passes", Align::Right)]);
+        t.row(vec!["東京局".into(), "12".into()]);
+        t.row(vec!["Nordkam".into(), "7".into()]);
+        let s = t.render();
+        let lines: Vec<&str> = s.lines().collect();
+        assert_eq!(lines[2], "東京局       12");
+        assert_eq!(lines[3], "Nordkam       7");
+        assert_eq!(display_width(lines[2]), display_width(lines[3]));
     }
 }
