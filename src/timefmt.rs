@@ -148,6 +148,16 @@ pub fn needs_year(start: &DateTime<Utc>, end: &DateTime<Utc>) -> bool {
     start.year() != last.year()
 }
 
+/// A time later in a table row than `first` (a pass's TCA or LOS after its AOS): the time of day
+/// on `first`'s UTC day, with the date (as [`table_time`]) on a later day (a pass across midnight,
+/// a satellite that never sets).
+pub fn clock_after(first: &DateTime<Utc>, t: &DateTime<Utc>, with_year: bool) -> String {
+    match t.date_naive() == first.date_naive() {
+        true => clock(t),
+        false => table_time(t, with_year),
+    }
+}
+
 /// A table's date and time of day: `12-02 01:23:45`, or with `with_year` (see [`needs_year`])
 /// `2026-12-02 01:23:45`.
 pub fn table_time(t: &DateTime<Utc>, with_year: bool) -> String {
@@ -197,6 +207,24 @@ pub fn utc(y: i32, mo: u32, d: u32, h: u32, mi: u32, s: u32) -> DateTime<Utc> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A later time in a pass's row keeps its date on a later day: a pass across midnight, a
+    /// satellite that never sets (its LOS read 12:00:00, the same as its AOS two days before).
+    #[test]
+    fn a_later_day_shows_its_date() {
+        let aos = utc(2026, 12, 1, 23, 58, 0);
+        assert_eq!(
+            clock_after(&aos, &utc(2026, 12, 1, 23, 59, 30), false),
+            "23:59:30"
+        );
+        assert_eq!(
+            clock_after(&aos, &utc(2026, 12, 2, 0, 4, 12), false),
+            "12-02 00:04:12"
+        );
+        let geo = utc(2026, 12, 1, 12, 0, 0);
+        let los = utc(2026, 12, 3, 12, 0, 0);
+        assert_eq!(clock_after(&geo, &los, true), "2026-12-03 12:00:00");
+    }
 
     /// A window ending in another year shows the year (the same month and day would otherwise
     /// stand for two dates); one inside a year does not.

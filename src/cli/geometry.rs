@@ -7,7 +7,6 @@ use crate::cli::window::{
     OptionalMissionArgs,
 };
 use anyhow::{anyhow, bail, Result};
-use chrono::{DateTime, Utc};
 use passbudget::config::limits::{FREQUENCY_MHZ, MIN_ELEVATION_DEG, TRACK_STEP_S};
 use passbudget::config::mission::Mission;
 use passbudget::config::station::Station;
@@ -21,7 +20,7 @@ use passbudget::plan::inputs::{
 use passbudget::plan::{Window, WindowRequest};
 use passbudget::report::geometry::{passes_csv, PassRow, TrackRow};
 use passbudget::report::{slug, to_csv};
-use passbudget::timefmt::format_ms;
+use passbudget::timefmt::{clock_after, format_ms};
 use serde::Serialize;
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -321,8 +320,8 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                     row.pass_id.clone(),
                     r.stations[*i].name.clone(),
                     p.aos.format("%Y-%m-%d %H:%M:%S").to_string(),
-                    same_day_time(&p.aos, &p.tca),
-                    same_day_time(&p.aos, &p.los),
+                    clock_after(&p.aos, &p.tca, false),
+                    clock_after(&p.aos, &p.los, false),
                     passbudget::report::mm_ss(p.duration_s()),
                     // from the row's value, as `plan`'s table does (one figure for one pass)
                     engfmt::fixed(passbudget::report::round(row.max_elevation_deg, 1), 1),
@@ -480,31 +479,7 @@ fn print_track(rows: &[TrackRow], out: &mut dyn Write) -> Result<()> {
     Ok(())
 }
 
-/// A pass's time for the table: `HH:MM:SS` on the day of its AOS, with the date (`12-03
-/// 12:00:00`) on a later day (a pass across midnight, a satellite that never sets).
-fn same_day_time(aos: &DateTime<Utc>, t: &DateTime<Utc>) -> String {
-    match t.date_naive() == aos.date_naive() {
-        true => t.format("%H:%M:%S").to_string(),
-        false => t.format("%m-%d %H:%M:%S").to_string(),
-    }
-}
-
 /// Azimuth rounded to whole degrees for tables, 0..359 (359.7 shows as 0, not 360).
 pub fn whole_azimuth(azimuth_deg: f64) -> String {
     format!("{}", (azimuth_deg.round() as i64).rem_euclid(360))
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-    use chrono::TimeZone;
-
-    #[test]
-    fn a_later_day_shows_its_date() {
-        let aos = Utc.with_ymd_and_hms(2026, 12, 1, 23, 58, 0).unwrap();
-        let same = Utc.with_ymd_and_hms(2026, 12, 1, 23, 59, 30).unwrap();
-        let next = Utc.with_ymd_and_hms(2026, 12, 2, 0, 4, 12).unwrap();
-        assert_eq!(same_day_time(&aos, &same), "23:59:30");
-        assert_eq!(same_day_time(&aos, &next), "12-02 00:04:12");
-    }
 }

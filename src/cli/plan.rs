@@ -389,7 +389,8 @@ fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<(
             r.pass_id.clone(),
             r.station.clone(),
             mark(x.pass.starts_before_window, "<") + &timefmt::table_time(&x.pass.aos, with_year),
-            timefmt::clock(&x.pass.los) + &mark(x.pass.ends_after_window, ">"),
+            timefmt::clock_after(&x.pass.aos, &x.pass.los, with_year)
+                + &mark(x.pass.ends_after_window, ">"),
             deg1(r.max_elevation_deg),
             rate_cell(r.rate_bps),
             r.scheme.clone().unwrap_or_else(|| "no rate closes".into()),
