@@ -235,7 +235,7 @@ fn pass_cells(p: &PassDiffRow) -> Vec<String> {
 /// A run's warnings with the thresholds recalled from memory its rates rest on (the pfd row:
 /// `compare` shows no pfd).
 fn flagged(plan: &passbudget::plan::Plan) -> Vec<String> {
-    plan.warnings_with(|k| k == passbudget::plan::NoteKind::RecalledThreshold)
+    plan.warnings_with(&[passbudget::plan::NoteKind::RecalledThreshold])
 }
 
 /// Both runs' warnings, each marked with its run: once as `runs A and B:` when both runs raise it

@@ -5,7 +5,7 @@ use crate::cli::table::{Align, Table};
 use anyhow::Result;
 use passbudget::engfmt;
 use passbudget::report::contacts::{ContactDoc, ContactRows};
-use passbudget::report::hh_mm_ss as hours;
+use passbudget::report::hh_mm_ss;
 use std::io::Write;
 
 fn cell_or_dash(x: Option<String>) -> String {
@@ -119,7 +119,7 @@ fn print_satellites(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
     let vol = |x: Option<f64>| cell_or_dash(x.map(engfmt::volume));
     for s in &doc.satellites {
         let latency = match (s.max_latency_s, s.median_latency_s) {
-            (Some(m), Some(d)) => format!("{}/{}", hours(m), hours(d)),
+            (Some(m), Some(d)) => format!("{}/{}", hh_mm_ss(m), hh_mm_ss(d)),
             _ => "-".into(),
         };
         t.row(vec![
@@ -165,7 +165,7 @@ fn print_stations(doc: &ContactDoc, out: &mut dyn Write) -> Result<()> {
             s.name.clone(),
             s.antennas.to_string(),
             s.contacts.to_string(),
-            hours(s.booked_s),
+            hh_mm_ss(s.booked_s),
             format!("{:.1} %", s.utilization * 100.0),
         ]);
     }

@@ -479,10 +479,9 @@ fn terrain_azimuth(
     let blocked = match (geometry, &terrain) {
         (_, None) => None,
         (InstantGeometry::Elevation(e), Some(t)) => {
-            // the lowest terrain, on a 0.5 deg grid as the worst azimuth is searched
-            let (az, h) = (0..720)
-                .map(|i| (0.5 * i as f64, t.limit_deg(0.5 * i as f64)))
-                .fold((0.0, f64::INFINITY), |m, x| if x.1 < m.1 { x } else { m });
+            // the lowest terrain is at a vertex of the profile
+            let h = t.lowest_limit_deg();
+            let az = t.points().iter().find(|p| p[1] <= h).map_or(0.0, |p| p[0]);
             (e < h).then_some((az, h))
         }
         (_, Some(t)) => {

@@ -459,13 +459,11 @@ impl Note {
 }
 
 impl Plan {
-    /// The warnings, then the notes of values recalled from memory whose kind `recalled` accepts:
-    /// what an output file carries in its `warnings` so that every unconfirmed value it rests on
-    /// stays flagged.
-    pub fn warnings_with(&self, recalled: impl Fn(NoteKind) -> bool) -> Vec<String> {
-        let is_recalled = |k| matches!(k, NoteKind::RecalledThreshold | NoteKind::RecalledPfd);
+    /// The warnings, then the notes of `kinds`: what an output file carries in its `warnings`
+    /// (the values recalled from memory it rests on, so that they stay flagged).
+    pub fn warnings_with(&self, kinds: &[NoteKind]) -> Vec<String> {
         (self.warnings.iter().cloned())
-            .chain(self.note_lines(|k| is_recalled(k) && recalled(k)))
+            .chain(self.note_lines(|k| kinds.contains(&k)))
             .collect()
     }
 
