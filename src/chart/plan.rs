@@ -105,10 +105,31 @@ pub fn chart_warnings(planner: &Planner) -> Vec<String> {
         .collect()
 }
 
-/// [`chart_warnings`] of a fleet's planners (each satellite's element age; the warning names the
-/// satellite), for the charts of its contact plan.
+/// The element-age warning of a fleet's charts: one satellite's warning as [`chart_warnings`]
+/// gives it; of several, one line that counts them and gives the oldest's (a footer of a
+/// warning per satellite grew by two lines a satellite; the CSV and JSON files carry each).
 pub fn fleet_chart_warnings(planners: &[&Planner]) -> Vec<String> {
-    planners.iter().flat_map(|p| chart_warnings(p)).collect()
+    use crate::plan::inputs::{element_age_warning, ElementAge};
+    let aged: Vec<(f64, String)> = planners
+        .iter()
+        .filter_map(|p| {
+            let (set, w) = (p.elements(), p.window());
+            let text = element_age_warning(set, w.start(), w.end())?;
+            Some((ElementAge::of(set, w.start(), w.end()).days, text))
+        })
+        .collect();
+    let oldest = aged
+        .iter()
+        .fold(None, |o: Option<&(f64, String)>, a| match o {
+            Some(b) if b.0 >= a.0 => Some(b),
+            _ => Some(a),
+        });
+    match (aged.len(), oldest) {
+        (n, Some((_, text))) if n > 1 => vec![format!(
+            "the element sets of {n} satellites are old for this window (each warned in the CSV and JSON files); the oldest: {text}"
+        )],
+        _ => aged.into_iter().map(|(_, text)| text).collect(),
+    }
 }
 
 /// The pass chart input of one pass.

@@ -706,6 +706,38 @@ fn every_chart_carries_the_same_footer() {
     }
 }
 
+/// A fleet's charts carry one element-age line however many satellites' elements are old: the
+/// count and the oldest's warning (a footer of one warning per satellite grew two lines each).
+#[test]
+fn fleet_chart_footer_counts_the_old_element_sets() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    success(&run(&[
+        "plan",
+        "examples/fleet/kestrel-fleet.yaml",
+        "--start",
+        "2026-12-20T00:00:00Z",
+        "--days",
+        "0.5",
+        "--charts",
+        "--chart-format",
+        "svg",
+        "--out",
+        out.to_str().unwrap(),
+    ]));
+    let svg = std::fs::read_to_string(out.join("storage.svg")).unwrap();
+    assert_eq!(svg.matches("warning:").count(), 1, "{svg}");
+    assert!(
+        svg.contains("the element sets of 4 satellites are old for this window"),
+        "{svg}"
+    );
+    // all four share one epoch: the first of the fleet is the oldest named
+    assert!(
+        svg.contains("19.0 days after the epoch of KESTREL-A"),
+        "{svg}"
+    );
+}
+
 /// The tables say what they show: `track` names the satellite, the station and the step and
 /// heads its column `range rate km/s` (a `rate` beside Doppler read as a data rate); `passes`
 /// heads its last column; the contact table says its edges are those of the counted steps.
