@@ -3,10 +3,22 @@
 use chrono::{DateTime, Datelike, SecondsFormat, TimeZone, Timelike, Utc};
 
 /// Parse an RFC 3339 time (`2026-12-02T00:00:00Z`, any offset accepted and converted to UTC).
+///
+/// A leap second (`:60`) is refused: chrono accepts one on any date, and the planner's time scale
+/// has none (SGP4 and the Sun and Moon run on seconds of a day of 86400 s), so `23:59:60` read as
+/// the next day's `00:00:00` or as a second that repeats, by function.
 pub fn parse_utc(text: &str) -> Result<DateTime<Utc>, String> {
-    DateTime::parse_from_rfc3339(text.trim())
+    let t = DateTime::parse_from_rfc3339(text.trim())
         .map(|t| t.with_timezone(&Utc))
-        .map_err(|e| format!("'{text}' is not an RFC 3339 time such as 2026-12-02T00:00:00Z ({e})"))
+        .map_err(|e| {
+            format!("'{text}' is not an RFC 3339 time such as 2026-12-02T00:00:00Z ({e})")
+        })?;
+    if t.timestamp_subsec_nanos() >= 1_000_000_000 {
+        return Err(format!(
+            "'{text}' is a leap second (:60), which passbudget does not take (its time scale has none): give :59 or the next minute"
+        ));
+    }
+    Ok(t)
 }
 
 /// Format as RFC 3339 UTC with milliseconds: `2026-12-02T01:23:45.678Z`.
@@ -245,6 +257,12 @@ mod tests {
         let t = parse_utc("2026-12-02T01:23:45.678Z").unwrap();
         assert_eq!(format_ms(&t), "2026-12-02T01:23:45.678Z");
         assert!(parse_utc("yesterday").is_err());
+        // a leap second: refused on any date (chrono takes one on any date)
+        for t in ["2026-12-01T23:59:60Z", "2016-12-31T23:59:60.5Z"] {
+            let e = parse_utc(t).unwrap_err();
+            assert!(e.contains("leap second"), "{e}");
+        }
+        assert!(parse_utc("2026-12-01T23:59:59.999Z").is_ok());
         assert_eq!(file_stamp(&t), "20261202T0123Z");
     }
 
