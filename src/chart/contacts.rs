@@ -29,6 +29,8 @@ const LEGEND_W: u32 = 280;
 pub struct TimelineBar {
     pub antenna: usize,
     pub satellite: usize,
+    /// The satellite's pass (one pass at a station of several antennas has a bar on each).
+    pub pass: usize,
     pub setup_start: DateTime<Utc>,
     pub start: DateTime<Utc>,
     pub end: DateTime<Utc>,
@@ -125,11 +127,14 @@ where
         (30, 18),
         style::title_font(),
     ))?;
+    // a pass at a station of several antennas has a grey bar on each, and counts once
+    let unbooked: std::collections::HashSet<(usize, usize)> =
+        d.unbooked.iter().map(|b| (b.satellite, b.pass)).collect();
     title.draw(&Text::new(
         format!(
             "{} booked contacts, {} passes no antenna booked, on {} antennas",
             d.booked.len(),
-            d.unbooked.len(),
+            unbooked.len(),
             d.antennas.len()
         ),
         (30, 58),
@@ -355,6 +360,7 @@ pub fn contact_chart_data(
         .map(|c| TimelineBar {
             antenna: cp.candidates[c.candidate].antenna,
             satellite: c.satellite,
+            pass: cp.candidates[c.candidate].pass_ref,
             setup_start: at(c.setup_start_s),
             start: at(c.start_s),
             end: at(c.end_s),
@@ -374,6 +380,7 @@ pub fn contact_chart_data(
         .map(|c| TimelineBar {
             antenna: c.antenna,
             satellite: c.satellite,
+            pass: c.pass_ref,
             setup_start: at(c.start_s),
             start: at(c.start_s),
             end: at(c.end_s),

@@ -738,6 +738,58 @@ fn fleet_chart_footer_counts_the_old_element_sets() {
     );
 }
 
+/// The antenna timeline counts a pass no antenna booked once, though a station of two antennas
+/// draws it on both rows: the count equals the JSON's `not_booked` (each pass once). The first
+/// half-day of the fleet example has an unbooked pass at Punta Gaviota (two antennas); the title
+/// said 5 for 3 passes.
+#[test]
+fn fleet_timeline_counts_an_unbooked_pass_once() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let fleet = "examples/fleet/kestrel-fleet.yaml";
+    let doc = json(&run(&["plan", fleet, "--days", "0.5", "--format", "json"]));
+    let not_booked: u64 = doc["satellites"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|s| s["not_booked"].as_u64().unwrap())
+        .sum();
+    let booked: Vec<(&str, &str)> = doc["contacts"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| {
+            (
+                c["satellite"].as_str().unwrap(),
+                c["pass_id"].as_str().unwrap(),
+            )
+        })
+        .collect();
+    let two_antennas_unbooked = doc["passes"].as_array().unwrap().iter().any(|p| {
+        p["station"] == "Punta Gaviota"
+            && p["rate_bps"].as_f64().unwrap_or(0.0) > 0.0
+            && !booked.contains(&(
+                p["satellite"].as_str().unwrap(),
+                p["pass_id"].as_str().unwrap(),
+            ))
+    });
+    assert!(two_antennas_unbooked, "the case this test is for");
+    success(&run(&[
+        "plan",
+        fleet,
+        "--days",
+        "0.5",
+        "--charts",
+        "--chart-format",
+        "svg",
+        "--out",
+        out.to_str().unwrap(),
+    ]));
+    let svg = std::fs::read_to_string(out.join("timeline-20261201.svg")).unwrap();
+    let want = format!(" {not_booked} passes no antenna booked,");
+    assert!(svg.contains(&want), "{want}: {svg}");
+}
+
 /// The tables say what they show: `track` names the satellite, the station and the step and
 /// heads its column `range rate km/s` (a `rate` beside Doppler read as a data rate); `passes`
 /// heads its last column; the contact table says its edges are those of the counted steps.
