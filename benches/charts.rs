@@ -24,6 +24,7 @@ fn synthetic_pass() -> PassChartData {
                 ebn0_db: ebn0,
                 margin_db: ebn0 - 4.4,
                 closed: ebn0 - 4.4 >= 3.0,
+                tracked: true,
                 adaptive_rate_bps: if ebn0 > 15.0 {
                     Some(100e6)
                 } else if ebn0 > 8.0 {
@@ -84,6 +85,7 @@ fn synthetic_sky(p: &PassChartData) -> SkyChartData {
                     azimuth_deg: (s.azimuth_deg + 90.0 * k as f64).rem_euclid(360.0),
                     elevation_deg: s.elevation_deg / (k + 1) as f64,
                     margin_db: Some(s.margin_db - 3.0 * k as f64),
+                    tracked: true,
                 })
                 .collect(),
             aos: p.aos,

@@ -36,6 +36,9 @@ pub struct PassChartSample {
     pub margin_db: f64,
     /// Whether the chosen rate closes (margin at least the required margin) at this instant.
     pub closed: bool,
+    /// Whether the antenna follows the satellite here (false where the mount's rate limits lose
+    /// it, or in a tracked stretch too short for the dwell time: nothing counts there).
+    pub tracked: bool,
     /// Highest ladder rate that closes at this instant (adaptive operation), if any.
     pub adaptive_rate_bps: Option<f64>,
     /// System noise temperature (the sum of the terms below), K.
@@ -111,6 +114,8 @@ pub struct SkyPoint {
     pub elevation_deg: f64,
     /// Margin at the chosen rate, dB; `None` when no budget was computed here.
     pub margin_db: Option<f64>,
+    /// Whether the antenna follows the satellite here (see [`PassChartSample::tracked`]).
+    pub tracked: bool,
 }
 
 /// One pass drawn on the sky chart. AOS, TCA and LOS markers go at the first point, the

@@ -582,6 +582,16 @@ where
         .axis_desc_style(style::label_font())
         .label_style(style::tick_font())
         .draw()?;
+    // Where the antenna cannot follow the satellite nothing counts, whatever the margin above:
+    // shaded, so that the gap in the rates has its reason beside it.
+    let untracked = untracked_spans(d);
+    let (shade, opacity) = UNTRACKED_BAND;
+    for &(a, b) in &untracked {
+        chart.draw_series(std::iter::once(Rectangle::new(
+            [(a, 0.0), (b, rate_hi)],
+            shade.mix(opacity).filled(),
+        )))?;
+    }
     if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
         stroke_line!(
             chart,
@@ -616,17 +626,37 @@ where
         Some(r) => format!("fixed rate {}\n(seconds it counts)", style::format_rate(r)),
         None => "fixed rate: none closes".into(),
     };
-    legend_in(
-        &legend,
-        None,
-        &[
-            (
-                Key::Line(ad),
-                "adaptive rate\n(one modem, hysteresis)".into(),
-            ),
-            (Key::Line(fx), fixed_label),
-        ],
-    )
+    let mut keys = vec![
+        (
+            Key::Line(ad),
+            "adaptive rate\n(one modem, hysteresis)".into(),
+        ),
+        (Key::Line(fx), fixed_label),
+    ];
+    if !untracked.is_empty() {
+        keys.push((Key::Band(shade, opacity), "antenna cannot follow".into()));
+    }
+    legend_in(&legend, None, &keys)
+}
+
+/// The shade of the stretches the antenna cannot follow (colour, opacity).
+const UNTRACKED_BAND: (RGBColor, f64) = (style::SLATE, 0.22);
+
+/// The stretches where the antenna cannot follow the satellite (mount limits), from and to in
+/// seconds since AOS; a sample's state holds until the next sample, as the rates drawn.
+fn untracked_spans(d: &PassChartData) -> Vec<(f64, f64)> {
+    let mut out: Vec<(f64, f64)> = Vec::new();
+    for (i, s) in d.samples.iter().enumerate() {
+        if s.tracked || !s.t_s.is_finite() {
+            continue;
+        }
+        let t_next = d.samples.get(i + 1).map_or(s.t_s, |n| n.t_s);
+        match out.last_mut() {
+            Some(last) if last.1 == s.t_s => last.1 = t_next,
+            _ => out.push((s.t_s, t_next)),
+        }
+    }
+    out
 }
 
 fn panel_noise<DB: DrawingBackend>(
@@ -675,25 +705,45 @@ where
     if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
         stroke_line!(chart, draw_series, vline(c.tca_s, (k_lo, k_hi)), TCA_STROKE);
     }
-    // Tsys and its terms, each its own line (series 0, 2-5, 8, 10).
+    // Tsys and its terms, each its own line and each in its own colour (the Sun and the sky
+    // term shared plum, man-made noise and the Moon Tsys's navy, told apart by dashes alone).
     type Term = fn(&PassChartSample) -> f64;
-    let terms: [(usize, u32, Term, &str); 7] = [
-        (0, 3, |s| s.system_temperature_k, "Tsys, clear sky"),
-        (2, 2, |s| s.receiver_noise_k, "receiver"),
-        (3, 2, |s| s.sky_noise_k, "sky through the pattern"),
-        (4, 2, |s| s.ground_noise_k, "ground through the pattern"),
-        (5, 2, |s| s.man_made_noise_k, "man-made"),
-        (8, 2, |s| s.sun_noise_k, "Sun"),
-        (10, 2, |s| s.moon_noise_k, "Moon"),
+    let terms: [(Stroke, Term, &str); 7] = [
+        (
+            Stroke::series(0, 3),
+            |s| s.system_temperature_k,
+            "Tsys, clear sky",
+        ),
+        (Stroke::series(2, 2), |s| s.receiver_noise_k, "receiver"),
+        (
+            Stroke::series(3, 2),
+            |s| s.sky_noise_k,
+            "sky through the pattern",
+        ),
+        (
+            Stroke::series(4, 2),
+            |s| s.ground_noise_k,
+            "ground through the pattern",
+        ),
+        (
+            Stroke::dashed(style::GREEN, 2, 16, 7),
+            |s| s.man_made_noise_k,
+            "man-made",
+        ),
+        (Stroke::solid(style::VERMILION, 2), |s| s.sun_noise_k, "Sun"),
+        (
+            Stroke::dashed(style::INK, 2, 7, 6),
+            |s| s.moon_noise_k,
+            "Moon",
+        ),
     ];
     let mut keys = Vec::with_capacity(8);
-    for (i, width, term, label) in terms {
+    for (k, (stroke, term, label)) in terms.into_iter().enumerate() {
         // A term below 0.05 K over the whole pass (no man-made noise given, the Sun and the Moon
         // far from the beam) is left out.
-        if i != 0 && d.samples.iter().all(|s| term(s) < 0.05) {
+        if k != 0 && d.samples.iter().all(|s| term(s) < 0.05) {
             continue;
         }
-        let stroke = Stroke::series(i, width);
         stroke_line!(
             chart,
             draw_series,

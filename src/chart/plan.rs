@@ -151,6 +151,7 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
             ebn0_db: o.ebn0_db(x.cn0_dbhz),
             margin_db: o.margin_db(x.cn0_dbhz),
             closed: s.counted(i),
+            tracked: !x.untracked,
             adaptive_rate_bps: s
                 .adaptive
                 .get(i)
@@ -210,12 +211,17 @@ fn sky_points(planner: &Planner, s: &PassSeries) -> Vec<SkyPoint> {
     let mut out = Vec::new();
     let mut next_t = 0.0;
     let last = s.steps.len().saturating_sub(1);
+    let mut untracked = false;
     for (i, x) in s.steps.iter().enumerate() {
-        if x.t_s + 1e-9 >= next_t || i == last {
+        // every step where the mount loses or regains the satellite is kept, so the track
+        // changes its look there
+        if x.t_s + 1e-9 >= next_t || i == last || x.untracked != untracked {
+            untracked = x.untracked;
             out.push(SkyPoint {
                 azimuth_deg: x.azimuth_deg,
                 elevation_deg: x.elevation_deg,
                 margin_db: Some(o.margin_db(x.cn0_dbhz)),
+                tracked: !x.untracked,
             });
             next_t = x.t_s + SKY_POINT_STEP_S;
         }

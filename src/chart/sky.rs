@@ -32,10 +32,16 @@ enum Bin {
     Marginal,
     Met,
     NoData,
+    /// The antenna cannot follow the satellite here (mount limits): nothing counts, whatever
+    /// the margin.
+    Untracked,
 }
 
-fn bin(margin_db: Option<f64>, required_db: f64) -> Bin {
-    match margin_db {
+fn bin(q: &SkyPoint, required_db: f64) -> Bin {
+    if !q.tracked {
+        return Bin::Untracked;
+    }
+    match q.margin_db {
         Some(m) if m.is_finite() => {
             if m < 0.0 {
                 Bin::Fails
@@ -55,6 +61,7 @@ fn bin_stroke(b: Bin) -> Stroke {
         Bin::Marginal => Stroke::dashed(style::AMBER, 4, 14, 6),
         Bin::Fails => Stroke::dashed(style::PLUM, 4, 4, 5),
         Bin::NoData => Stroke::dashed(style::SLATE, 2, 2, 6),
+        Bin::Untracked => Stroke::dashed(style::SKY, 3, 10, 4),
     }
 }
 
@@ -379,13 +386,15 @@ where
     let mut track_px: Vec<(i32, i32)> = Vec::new();
     let mut placed: Vec<PxBox> = Vec::new();
     let mut tops: Vec<(usize, (i32, i32))> = Vec::new();
-    let mut no_budget = false;
+    let (mut no_budget, mut untracked) = (false, false);
     for (n, p) in d.passes.iter().enumerate() {
         let pts: Vec<_> = p
             .points
             .iter()
             .filter(|q| q.azimuth_deg.is_finite() && q.elevation_deg.is_finite())
             .collect();
+        no_budget |= pts.iter().any(|q| bin(q, req) == Bin::NoData);
+        untracked |= pts.iter().any(|q| bin(q, req) == Bin::Untracked);
         let px_of = |q: &SkyPoint| {
             style::rel(
                 &plot_area,
@@ -394,15 +403,17 @@ where
         };
         let px: Vec<(i32, i32)> = pts.iter().map(|q| px_of(q)).collect();
         densify(&px, &mut track_px);
+        // The runs of one look go over every point: a point of no position breaks the line
+        // (`stroke_line!` draws finite runs) instead of joining its neighbours across the sky.
+        let all = &p.points;
         let mut i = 0;
-        while i + 1 < pts.len() {
-            let b = bin(pts[i].margin_db, req);
-            no_budget |= b == Bin::NoData;
+        while i + 1 < all.len() {
+            let b = bin(&all[i], req);
             let mut j = i + 1;
-            while j + 1 < pts.len() && bin(pts[j].margin_db, req) == b {
+            while j + 1 < all.len() && bin(&all[j], req) == b {
                 j += 1;
             }
-            let run: Vec<(f64, f64)> = pts[i..=j]
+            let run: Vec<(f64, f64)> = all[i..=j]
                 .iter()
                 .map(|q| xy(q.azimuth_deg, q.elevation_deg))
                 .collect();
@@ -426,7 +437,7 @@ where
                 break;
             }
             let at = px_of(q);
-            let color = bin_stroke(bin(q.margin_db, req)).color;
+            let color = bin_stroke(bin(q, req)).color;
             style::draw_marker(&plot_area, shape, at, 7, color)?;
             placed.push((at.0 - 9, at.1 - 9, at.0 + 9, at.1 + 9));
         }
@@ -508,6 +519,12 @@ where
     ];
     if no_budget {
         entries.push((Key::Line(bin_stroke(Bin::NoData)), "no budget".into()));
+    }
+    if untracked {
+        entries.push((
+            Key::Line(bin_stroke(Bin::Untracked)),
+            "antenna cannot follow\n(mount limits)".into(),
+        ));
     }
     if d.passes.iter().any(|p| p.rate_bps.is_none()) {
         entries.push((
@@ -653,10 +670,17 @@ mod tests {
 
     #[test]
     fn bins() {
-        assert_eq!(bin(Some(-0.1), 3.0), Bin::Fails);
-        assert_eq!(bin(Some(1.0), 3.0), Bin::Marginal);
-        assert_eq!(bin(Some(3.0), 3.0), Bin::Met);
-        assert_eq!(bin(None, 3.0), Bin::NoData);
-        assert_eq!(bin(Some(f64::NAN), 3.0), Bin::NoData);
+        let at = |margin_db: Option<f64>, tracked: bool| SkyPoint {
+            azimuth_deg: 0.0,
+            elevation_deg: 45.0,
+            margin_db,
+            tracked,
+        };
+        assert_eq!(bin(&at(Some(-0.1), true), 3.0), Bin::Fails);
+        assert_eq!(bin(&at(Some(1.0), true), 3.0), Bin::Marginal);
+        assert_eq!(bin(&at(Some(3.0), true), 3.0), Bin::Met);
+        assert_eq!(bin(&at(None, true), 3.0), Bin::NoData);
+        assert_eq!(bin(&at(Some(f64::NAN), true), 3.0), Bin::NoData);
+        assert_eq!(bin(&at(Some(9.0), false), 3.0), Bin::Untracked);
     }
 }

@@ -67,6 +67,13 @@ pub const SLATE: RGBColor = RGBColor(0x5d, 0x66, 0x70);
 pub const TERRAIN: RGBColor = RGBColor(0xd6, 0xcf, 0xc2);
 pub const TERRAIN_EDGE: RGBColor = RGBColor(0x8a, 0x80, 0x70);
 
+/// Two more line colours, for lines that must not share a series colour with a neighbour (the
+/// pass chart's man-made and Sun noise terms): a bluish green and a vermilion, apart in hue from
+/// the series colours and from each other for the common colour-vision deficiencies (the
+/// Okabe-Ito colour set, from memory).
+pub const GREEN: RGBColor = RGBColor(0x00, 0x9e, 0x73);
+pub const VERMILION: RGBColor = RGBColor(0xd5, 0x5e, 0x00);
+
 /// Series colours in order of use.
 pub const SERIES: [RGBColor; 5] = [NAVY, AMBER, SKY, PLUM, SLATE];
 

@@ -56,6 +56,7 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
             ebn0_db: ebn0,
             margin_db: margin,
             closed: margin >= margin_req,
+            tracked: true,
             adaptive_rate_bps: adaptive,
             system_temperature_k: tsys,
             // toy split of Tsys: 70 K receiver, the rest shared by sky (80 %) and ground
@@ -377,6 +378,7 @@ fn sample_sky() -> SkyChartData {
                     } else {
                         Some(s.margin_db)
                     },
+                    tracked: true,
                 })
                 .collect(),
             aos: p.aos,
@@ -726,6 +728,57 @@ fn sky_legend_lists_no_budget_only_when_drawn() {
     let svg = svg_text(draw_sky(&d, ChartFormat::Svg).unwrap());
     assert!(svg.contains("none closes"));
     assert!(svg.contains("lowest-threshold rate"));
+}
+
+/// Where the antenna cannot follow the satellite (the mount's rate limits near the zenith), the
+/// charts say so: the pass chart shades the stretch in its rate panel, the sky chart draws that
+/// part of the track in its own look, each with a legend entry, and neither when every sample is
+/// followed (a gap in the rates with no reason beside it, and a track drawn as a working link
+/// through the stretch, misled).
+#[test]
+fn charts_mark_where_the_antenna_cannot_follow() {
+    let key = "antenna cannot follow";
+    let mut pass = sample_pass();
+    assert!(!svg_text(draw_pass(&pass, ChartFormat::Svg).unwrap()).contains(key));
+    let mid = pass.samples.len() / 2;
+    for q in &mut pass.samples[mid..mid + 10] {
+        q.tracked = false;
+        q.closed = false;
+    }
+    assert!(svg_text(draw_pass(&pass, ChartFormat::Svg).unwrap()).contains(key));
+
+    let mut sky = sample_sky();
+    assert!(!svg_text(draw_sky(&sky, ChartFormat::Svg).unwrap()).contains(key));
+    let n = sky.passes[1].points.len();
+    for q in &mut sky.passes[1].points[n / 2..n / 2 + 5] {
+        q.tracked = false;
+    }
+    assert!(svg_text(draw_sky(&sky, ChartFormat::Svg).unwrap()).contains(key));
+}
+
+/// The sky chart's track breaks at a point of no position instead of joining its neighbours
+/// with a chord across the sky, and a last point without a budget (its marker drawn in the
+/// no-budget colour) puts "no budget" in the legend.
+#[test]
+fn sky_track_breaks_at_a_gap_and_lists_a_last_unbudgeted_point() {
+    let mut d = sample_sky();
+    for p in &mut d.passes {
+        for q in &mut p.points {
+            q.margin_db = q.margin_db.or(Some(5.0));
+        }
+    }
+    let lines = |d: &SkyChartData| {
+        svg_text(draw_sky(d, ChartFormat::Svg).unwrap())
+            .matches("<polyline")
+            .count()
+    };
+    let whole = lines(&d);
+    let n = d.passes[1].points.len();
+    d.passes[1].points[n / 2].azimuth_deg = f64::NAN;
+    assert_eq!(lines(&d), whole + 1, "the track is drawn in two pieces");
+    let last = d.passes[2].points.len() - 1;
+    d.passes[2].points[last].margin_db = None;
+    assert!(svg_text(draw_sky(&d, ChartFormat::Svg).unwrap()).contains("no budget"));
 }
 
 /// A rate that never closes (every value 0) says so in the legend instead of hiding on the zero
