@@ -61,7 +61,7 @@ pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Wr
         ("set-up (UTC)", Align::Left),
         ("start", Align::Left),
         ("end", Align::Left),
-        ("el start/end", Align::Right),
+        ("el start/end deg", Align::Right),
         ("rate", Align::Right),
         ("scheme", Align::Left),
         ("min margin", Align::Right),

@@ -303,9 +303,9 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                 ("TCA (UTC)", Align::Left),
                 ("LOS (UTC)", Align::Left),
                 ("duration", Align::Right),
-                ("max el", Align::Right),
-                ("AOS az", Align::Right),
-                ("LOS az", Align::Right),
+                ("max el deg", Align::Right),
+                ("AOS az deg", Align::Right),
+                ("LOS az deg", Align::Right),
                 ("min range km", Align::Right),
                 ("window", Align::Left),
             ]);

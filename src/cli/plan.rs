@@ -354,12 +354,12 @@ fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<(
         ("station".into(), Align::Left),
         ("AOS (UTC)".into(), Align::Left),
         ("LOS".into(), Align::Left),
-        ("max el".into(), Align::Right),
+        ("max el deg".into(), Align::Right),
         ("rate".into(), Align::Right),
         ("scheme".into(), Align::Left),
         ("closes from".into(), Align::Left),
         ("until".into(), Align::Left),
-        ("margin@TCA".into(), Align::Right),
+        ("margin@TCA dB".into(), Align::Right),
         (vol.header("fixed"), Align::Right),
         (vol.header("adapt"), Align::Right),
         (vol.header("Shannon"), Align::Right),
@@ -413,6 +413,7 @@ fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<(
     t.render_rows(plan.passes.len(), cells, &mut |line| {
         out.write_all(line.as_bytes())
     })?;
+    writeln!(out, "closes from, until: where the chosen rate starts and stops counting, UTC @ elevation in deg.")?;
     writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step the mount can follow, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
     mount_and_pfd_legend((mount, pfd_over), out)?;
     if cut {
@@ -480,7 +481,7 @@ fn print_days(doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
         ("day (UTC)".into(), Align::Left),
         (vol.header("delivered"), Align::Right),
         ("passes".into(), Align::Right),
-        ("contact h:mm:ss".into(), Align::Right),
+        ("in view h:mm:ss".into(), Align::Right),
         (vol.header("fixed"), Align::Right),
         (vol.header("adapt"), Align::Right),
         (vol.header("Shannon"), Align::Right),
@@ -504,7 +505,7 @@ fn print_days(doc: &PlanDoc, out: &mut dyn Write) -> Result<()> {
         ]);
     }
     write!(out, "{}", d.render())?;
-    writeln!(out, "delivered: the contact plan's data of the day; fixed, adapt, Shannon, rain: every pass counted, unconstrained (passes counted on the day of their AOS).")?;
+    writeln!(out, "delivered: the contact plan's data of the day; in view: the passes' AOS to LOS, summed over the stations (not the booked time); fixed, adapt, Shannon, rain: every pass counted, unconstrained (passes counted on the day of their AOS).")?;
     writeln!(out)?;
     Ok(())
 }
@@ -585,13 +586,13 @@ fn print_usable_masks(
     out: &mut dyn Write,
 ) -> Result<()> {
     let share = masks.first().map_or(95.0, |m| m.mask_share_percent);
-    let robust_header = format!("usable mask ({share} %)");
+    let robust_header = format!("on {share} % of passes");
     let mut m = Table::new(&[
         ("station", Align::Left),
         ("rate", Align::Right),
         ("scheme", Align::Left),
         (robust_header.as_str(), Align::Right),
-        ("every pass", Align::Right),
+        ("on every pass", Align::Right),
         ("passes closing", Align::Right),
     ]);
     let deg = |v: Option<f64>| {
@@ -622,6 +623,7 @@ fn print_usable_masks(
     }
     writeln!(out, "Usable elevation mask per rate: the rate closes whenever the satellite is above it, on {share} % of the passes and on every pass:")?;
     write!(out, "{}", m.render())?;
+    writeln!(out, "(in the JSON and masks.csv: robust_mask_deg on {share} % of passes, usable_mask_deg on every pass)")?;
     if !failures.is_empty() {
         writeln!(out, "Passes that fail above the {share} % mask (their highest step where the rate does not count):")?;
         for f in failures {
