@@ -95,7 +95,9 @@ pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Wr
     writeln!(
         out,
         "A contact spans the budget steps its rate counts on (each to the next step), so its start \
-         and end can lie up to one step from the pass table's interpolated closing times."
+         and end can lie up to one step from the pass table's interpolated closing times. Within it, \
+         seconds the mount cannot follow or below the required margin count for nothing, and a \
+         followed store can run out: delivered can be less than rate x duration."
     )?;
     writeln!(out)?;
     print_satellites(doc, out)?;
