@@ -297,13 +297,16 @@ where
             .collect();
         let stroke = Stroke::series(i, 2);
         style::stroke_line!(chart, draw_series, pts, stroke);
-        // Lost data: a thick band above the 100 % line in the satellite's colour.
+        // Lost data: a thick band above the 100 % line in the satellite's colour, at least
+        // about 3 px wide and edged, so that a store full for a minute (an imaging strip) and a
+        // light colour still show.
         let band = 102.0 + 2.0 * (i % 4) as f64;
         for (a, b) in &s.lost {
-            chart.draw_series([Rectangle::new(
-                [(x(a), band), (x(b).max(x(a) + span / 800.0), band + 1.5)],
-                satellite_color(i).filled(),
-            )])?;
+            let corners = [(x(a), band), (x(b).max(x(a) + span / 300.0), band + 1.5)];
+            chart.draw_series([
+                Rectangle::new(corners, satellite_color(i).filled()),
+                Rectangle::new(corners, style::MUTED.stroke_width(1)),
+            ])?;
         }
         let lost = if s.lost_bits > 0.0 {
             format!("\nlost {}", style::format_volume(s.lost_bits))
