@@ -151,6 +151,9 @@ fn draw_line_spans<B: DrawingBackend>(
         } else {
             back.draw_line((start, line), (stop, line), &colour)?;
             back.draw_pixel((from.floor() as i32, line), colour.mix(from.ceil() - from))?;
+            // `to.floor() - to` (at most 0: the pixel is never drawn) is plotters-backend
+            // 0.3.7's own expression on this path, kept so the pixels stay plotters' (the
+            // backends' byte-equality test); the column path above has `to - to.floor()`.
             back.draw_pixel((to.ceil() as i32, line), colour.mix(to.floor() - to))?;
         }
     }
