@@ -16,6 +16,8 @@ def read(p):
         elif t==b'PLTE': plte=c
         elif t==b'IDAT': idat+=c
     raw=zlib.decompress(idat); assert ct==3 and bd==8
+    assert d[28]==0, 'interlaced'
+    assert all(raw[y*(w+1)]==0 for y in range(h)), 'a filtered row (passbudget writes unfiltered rows)'
     return w,h,[tuple(plte[3*k:3*k+3]) for k in range(len(plte)//3)],[raw[y*(w+1)+1:(y+1)*(w+1)] for y in range(h)]
 def chunk(t,c): return struct.pack('>I',len(c))+t+c+struct.pack('>I',zlib.crc32(t+c)&0xffffffff)
 src,dst,k=sys.argv[1],sys.argv[2],int(sys.argv[3])

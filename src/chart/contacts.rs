@@ -341,6 +341,28 @@ fn days(start: DateTime<Utc>, end: DateTime<Utc>) -> Vec<(DateTime<Utc>, DateTim
     out
 }
 
+/// Each followed store over the window of a contact plan.
+fn storage_series(cp: &ContactPlan) -> Vec<StorageSeries> {
+    let at = |s: f64| add_seconds(&cp.window_start, s);
+    (0..cp.satellites.len())
+        .filter(|&i| cp.followed[i])
+        .map(|i| {
+            let o = &cp.schedule.satellites[i];
+            StorageSeries {
+                name: cp.satellites[i].clone(),
+                capacity_bits: cp.capacity_bits[i],
+                points: (o.storage_timeline.iter())
+                    .map(|&(t, b)| (at(t), b))
+                    .collect(),
+                lost: (o.lost_intervals.iter())
+                    .map(|&(a, b)| (at(a), at(b)))
+                    .collect(),
+                lost_bits: o.lost_bits,
+            }
+        })
+        .collect()
+}
+
 /// The timeline of each UTC day and the storage chart of a contact plan.
 pub fn contact_chart_data(
     cp: &ContactPlan,
@@ -419,27 +441,7 @@ pub fn contact_chart_data(
             warnings: warnings.to_vec(),
         })
         .collect();
-    let series: Vec<StorageSeries> = (0..cp.satellites.len())
-        .filter(|&i| cp.followed[i])
-        .map(|i| {
-            let o = &cp.schedule.satellites[i];
-            StorageSeries {
-                name: cp.satellites[i].clone(),
-                capacity_bits: cp.capacity_bits[i],
-                points: o
-                    .storage_timeline
-                    .iter()
-                    .map(|&(t, b)| (at(t), b))
-                    .collect(),
-                lost: o
-                    .lost_intervals
-                    .iter()
-                    .map(|&(a, b)| (at(a), at(b)))
-                    .collect(),
-                lost_bits: o.lost_bits,
-            }
-        })
-        .collect();
+    let series = storage_series(cp);
     let storage = (!series.is_empty()).then(|| StorageChartData {
         mission: mission.to_string(),
         start,

@@ -37,7 +37,8 @@ pub struct PassChartSample {
     /// Whether the chosen rate closes (margin at least the required margin) at this instant.
     pub closed: bool,
     /// Whether the antenna follows the satellite here (false where the mount's rate limits lose
-    /// it, or in a tracked stretch too short for the dwell time: nothing counts there).
+    /// it, or in a followed stretch between two such too short for the modem to lock: nothing
+    /// counts there).
     pub tracked: bool,
     /// Highest ladder rate that closes at this instant (adaptive operation), if any.
     pub adaptive_rate_bps: Option<f64>,

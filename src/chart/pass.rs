@@ -634,7 +634,10 @@ where
         (Key::Line(fx), fixed_label),
     ];
     if !untracked.is_empty() {
-        keys.push((Key::Band(shade, opacity), "antenna cannot follow".into()));
+        keys.push((
+            Key::Band(shade, opacity),
+            "antenna cannot follow,\nor too short to lock".into(),
+        ));
     }
     legend_in(&legend, None, &keys)
 }
@@ -642,15 +645,18 @@ where
 /// The shade of the stretches the antenna cannot follow (colour, opacity).
 const UNTRACKED_BAND: (RGBColor, f64) = (style::SLATE, 0.22);
 
-/// The stretches where the antenna cannot follow the satellite (mount limits), from and to in
-/// seconds since AOS; a sample's state holds until the next sample, as the rates drawn.
+/// The stretches where the antenna cannot follow the satellite (mount limits), or a followed
+/// stretch between two of them too short for the modem to lock (`PassChartSample::tracked`),
+/// from and to in seconds since AOS; a sample's state holds until the next sample, as the rates
+/// drawn.
 fn untracked_spans(d: &PassChartData) -> Vec<(f64, f64)> {
     let mut out: Vec<(f64, f64)> = Vec::new();
     for (i, s) in d.samples.iter().enumerate() {
-        if s.tracked || !s.t_s.is_finite() {
+        let t_next = d.samples.get(i + 1).map_or(s.t_s, |n| n.t_s);
+        // (a lone last sample, or one without a finite time, spans nothing)
+        if s.tracked || !s.t_s.is_finite() || t_next.is_nan() || t_next <= s.t_s {
             continue;
         }
-        let t_next = d.samples.get(i + 1).map_or(s.t_s, |n| n.t_s);
         match out.last_mut() {
             Some(last) if last.1 == s.t_s => last.1 = t_next,
             _ => out.push((s.t_s, t_next)),

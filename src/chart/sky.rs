@@ -32,8 +32,8 @@ enum Bin {
     Marginal,
     Met,
     NoData,
-    /// The antenna cannot follow the satellite here (mount limits): nothing counts, whatever
-    /// the margin.
+    /// The antenna cannot follow the satellite here (mount limits), or the followed stretch is
+    /// too short to lock: nothing counts, whatever the margin.
     Untracked,
 }
 
@@ -61,8 +61,33 @@ fn bin_stroke(b: Bin) -> Stroke {
         Bin::Marginal => Stroke::dashed(style::AMBER, 4, 14, 6),
         Bin::Fails => Stroke::dashed(style::PLUM, 4, 4, 5),
         Bin::NoData => Stroke::dashed(style::SLATE, 2, 2, 6),
-        Bin::Untracked => Stroke::dashed(style::SKY, 3, 10, 4),
+        Bin::Untracked => Stroke::dashed(style::GREEN, 6, 6, 3),
     }
+}
+
+/// The pieces of a track to draw, each in one look: split where a point has no position (the
+/// track breaks there instead of joining its neighbours across the sky), then where the look
+/// changes (a run ends on the first point of the next, so the track stays whole).
+fn track_runs(points: &[SkyPoint], req: f64) -> Vec<(Bin, Vec<(f64, f64)>)> {
+    let placed = |q: &SkyPoint| q.azimuth_deg.is_finite() && q.elevation_deg.is_finite();
+    let mut out = Vec::new();
+    for piece in points.split(|q| !placed(q)) {
+        let mut i = 0;
+        while i + 1 < piece.len() {
+            let b = bin(&piece[i], req);
+            let mut j = i + 1;
+            while j + 1 < piece.len() && bin(&piece[j], req) == b {
+                j += 1;
+            }
+            let run = piece[i..=j]
+                .iter()
+                .map(|q| xy(q.azimuth_deg, q.elevation_deg))
+                .collect();
+            out.push((b, run));
+            i = j;
+        }
+    }
+    out
 }
 
 /// Plot position of a look direction: radius (90 - el) / 90, north up, east right.
@@ -403,22 +428,8 @@ where
         };
         let px: Vec<(i32, i32)> = pts.iter().map(|q| px_of(q)).collect();
         densify(&px, &mut track_px);
-        // The runs of one look go over every point: a point of no position breaks the line
-        // (`stroke_line!` draws finite runs) instead of joining its neighbours across the sky.
-        let all = &p.points;
-        let mut i = 0;
-        while i + 1 < all.len() {
-            let b = bin(&all[i], req);
-            let mut j = i + 1;
-            while j + 1 < all.len() && bin(&all[j], req) == b {
-                j += 1;
-            }
-            let run: Vec<(f64, f64)> = all[i..=j]
-                .iter()
-                .map(|q| xy(q.azimuth_deg, q.elevation_deg))
-                .collect();
+        for (b, run) in track_runs(&p.points, req) {
             stroke_line!(chart, draw_series, run, bin_stroke(b));
-            i = j;
         }
         let Some(&first) = pts.first() else { continue };
         let last = pts[pts.len() - 1];
@@ -523,7 +534,7 @@ where
     if untracked {
         entries.push((
             Key::Line(bin_stroke(Bin::Untracked)),
-            "antenna cannot follow\n(mount limits)".into(),
+            "antenna cannot follow,\nor too short to lock".into(),
         ));
     }
     if d.passes.iter().any(|p| p.rate_bps.is_none()) {
@@ -682,5 +693,37 @@ mod tests {
         assert_eq!(bin(&at(None, true), 3.0), Bin::NoData);
         assert_eq!(bin(&at(Some(f64::NAN), true), 3.0), Bin::NoData);
         assert_eq!(bin(&at(Some(9.0), false), 3.0), Bin::Untracked);
+    }
+
+    /// A track breaks at a point of no position and a lone point between two such draws
+    /// nothing; a change of look starts a run on the point where the last one ends.
+    #[test]
+    fn track_runs_break_at_points_of_no_position() {
+        let at = |az: f64, margin_db: f64| SkyPoint {
+            azimuth_deg: az,
+            elevation_deg: 30.0,
+            margin_db: Some(margin_db),
+            tracked: true,
+        };
+        let pts = [
+            at(10.0, 5.0),
+            at(20.0, 5.0),
+            at(30.0, 1.0),
+            at(f64::NAN, 5.0),
+            at(50.0, 5.0),
+            at(f64::NAN, 5.0),
+            at(70.0, 5.0),
+            at(80.0, 5.0),
+        ];
+        let runs = track_runs(&pts, 3.0);
+        let looks: Vec<(Bin, usize)> = runs.iter().map(|(b, r)| (*b, r.len())).collect();
+        assert_eq!(
+            looks,
+            [(Bin::Met, 3), (Bin::Met, 2)],
+            "10-30 deg (the marginal end shares the run), then 70-80"
+        );
+        assert!(runs.iter().flat_map(|(_, r)| r).all(|p| p.0.is_finite()));
+        assert_eq!(runs[0].1[0], xy(10.0, 30.0));
+        assert_eq!(runs[1].1[0], xy(70.0, 30.0));
     }
 }

@@ -96,8 +96,8 @@ pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Wr
         out,
         "A contact spans the budget steps its rate counts on (each to the next step), so its start \
          and end can lie up to one step from the pass table's interpolated closing times. Within it, \
-         seconds the mount cannot follow or below the required margin count for nothing, and a \
-         followed store can run out: delivered can be less than rate x duration."
+         seconds the mount cannot follow or below the required margin count for nothing, and the \
+         on-board store (when modelled) can run empty: delivered can be less than rate x duration."
     )?;
     writeln!(out)?;
     print_satellites(doc, out)?;

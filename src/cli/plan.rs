@@ -623,7 +623,7 @@ fn print_usable_masks(
     }
     writeln!(out, "Usable elevation mask per rate: the rate closes whenever the satellite is above it, on {share} % of the passes and on every pass:")?;
     write!(out, "{}", m.render())?;
-    writeln!(out, "(in the JSON and masks.csv: robust_mask_deg on {share} % of passes, usable_mask_deg on every pass)")?;
+    writeln!(out, "(as fields of the usable-mask rows: robust_mask_deg on {share} % of passes, usable_mask_deg on every pass)")?;
     if !failures.is_empty() {
         writeln!(out, "Passes that fail above the {share} % mask (their highest step where the rate does not count):")?;
         for f in failures {

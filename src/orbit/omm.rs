@@ -381,12 +381,7 @@ fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<Eleme
     check_theory(f, &invalid)?;
     let norad_id = int_or("NORAD_CAT_ID", 0)?;
     let epoch_text = text("EPOCH").unwrap_or("");
-    let datetime = parse_epoch(epoch_text).ok_or_else(|| {
-        invalid(
-            "EPOCH",
-            "expected ISO 8601 UTC such as 2026-12-01T12:00:00.000 or 2026-335T12:00:00",
-        )
-    })?;
+    let datetime = parse_epoch(epoch_text).map_err(|why| invalid("EPOCH", why))?;
     let classification = match text("CLASSIFICATION_TYPE").unwrap_or("U") {
         "U" | "" => sgp4::Classification::Unclassified,
         "C" => sgp4::Classification::Classified,
@@ -478,8 +473,10 @@ fn check_theory(f: &Fields, invalid: &dyn Fn(&str, &str) -> OmmError) -> Result<
     Ok(())
 }
 
-/// ISO 8601 UTC epoch, calendar or day-of-year form, optional fraction and trailing `Z`.
-fn parse_epoch(s: &str) -> Option<NaiveDateTime> {
+/// ISO 8601 UTC epoch, calendar or day-of-year form, optional fraction and trailing `Z`. A
+/// leap second (`:60`) is refused, as every time passbudget reads (`timefmt::parse_utc`).
+fn parse_epoch(s: &str) -> Result<NaiveDateTime, &'static str> {
+    use chrono::Timelike;
     let s = s.trim().trim_end_matches('Z');
     for fmt in [
         "%Y-%m-%dT%H:%M:%S%.f",
@@ -488,10 +485,13 @@ fn parse_epoch(s: &str) -> Option<NaiveDateTime> {
         "%Y-%jT%H:%M:%S",
     ] {
         if let Ok(t) = NaiveDateTime::parse_from_str(s, fmt) {
-            return Some(t);
+            if t.nanosecond() >= 1_000_000_000 {
+                return Err("a leap second (:60), which passbudget does not take (its time scale has none): give :59 or the next minute");
+            }
+            return Ok(t);
         }
     }
-    None
+    Err("expected ISO 8601 UTC such as 2026-12-01T12:00:00.000 or 2026-335T12:00:00")
 }
 
 /// JSON reading that keeps every key of an object in order (`serde_json::Value` keeps only the
@@ -663,7 +663,17 @@ mod tests {
         let a = parse_epoch("2026-12-01T12:00:00.000000").unwrap();
         let b = parse_epoch("2026-335T12:00:00Z").unwrap();
         assert_eq!(a, b);
-        assert!(parse_epoch("1 Dec 2026").is_none());
+        assert!(parse_epoch("1 Dec 2026").is_err());
+        // a leap second, refused as in every other time read
+        let e = parse_epoch("2026-12-01T11:59:60.000000").unwrap_err();
+        assert!(e.contains("leap second"), "{e}");
+        let kvn = KVN.replace("EPOCH = 2026-12-01T12:00:00", "EPOCH = 2026-12-01T11:59:60");
+        assert_ne!(kvn, KVN, "the example's epoch line");
+        let err = parse_omm_kvn(&kvn).unwrap_err().to_string();
+        assert!(
+            err.contains("EPOCH") && err.contains("leap second"),
+            "{err}"
+        );
     }
 
     const KVN: &str = include_str!("../../examples/sat-omm.kvn");

@@ -773,6 +773,7 @@ fn sky_track_breaks_at_a_gap_and_lists_a_last_unbudgeted_point() {
             .count()
     };
     let whole = lines(&d);
+    assert!(!svg_text(draw_sky(&d, ChartFormat::Svg).unwrap()).contains("no budget"));
     let n = d.passes[1].points.len();
     d.passes[1].points[n / 2].azimuth_deg = f64::NAN;
     assert_eq!(lines(&d), whole + 1, "the track is drawn in two pieces");
