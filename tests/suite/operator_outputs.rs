@@ -706,25 +706,30 @@ fn every_chart_carries_the_same_footer() {
     }
 }
 
+/// `plan ARGS --charts` with SVG charts into `out` (their text is searchable); the run must
+/// succeed.
+fn plan_svg_charts(args: &[&str], out: &std::path::Path) {
+    let svg = [
+        "--charts",
+        "--chart-format",
+        "svg",
+        "--out",
+        out.to_str().unwrap(),
+    ];
+    success(&run(&[&["plan"], args, &svg[..]].concat()));
+}
+
 /// A fleet's charts carry one element-age line however many satellites' elements are old: the
 /// count and the oldest's warning (a footer of one warning per satellite grew two lines each).
 #[test]
 fn fleet_chart_footer_counts_the_old_element_sets() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("out");
-    success(&run(&[
-        "plan",
-        "examples/fleet/kestrel-fleet.yaml",
-        "--start",
-        "2026-12-20T00:00:00Z",
-        "--days",
-        "0.5",
-        "--charts",
-        "--chart-format",
-        "svg",
-        "--out",
-        out.to_str().unwrap(),
-    ]));
+    let fleet = "examples/fleet/kestrel-fleet.yaml";
+    plan_svg_charts(
+        &[fleet, "--start", "2026-12-20T00:00:00Z", "--days", "0.5"],
+        &out,
+    );
     let svg = std::fs::read_to_string(out.join("storage.svg")).unwrap();
     assert_eq!(svg.matches("warning:").count(), 1, "{svg}");
     assert!(
@@ -774,17 +779,7 @@ fn fleet_timeline_counts_an_unbooked_pass_once() {
             ))
     });
     assert!(two_antennas_unbooked, "the case this test is for");
-    success(&run(&[
-        "plan",
-        fleet,
-        "--days",
-        "0.5",
-        "--charts",
-        "--chart-format",
-        "svg",
-        "--out",
-        out.to_str().unwrap(),
-    ]));
+    plan_svg_charts(&[fleet, "--days", "0.5"], &out);
     let svg = std::fs::read_to_string(out.join("timeline-20261201.svg")).unwrap();
     let want = format!(" {not_booked} passes no antenna booked,");
     assert!(svg.contains(&want), "{want}: {svg}");
