@@ -43,7 +43,8 @@ pub struct BudgetArgs {
         long,
         value_name = "DEG",
         allow_hyphen_values = true,
-        requires = "elevation_deg"
+        requires = "elevation_deg",
+        conflicts_with = "at"
     )]
     pub azimuth_deg: Option<f64>,
     /// Time (RFC 3339 UTC): geometry from the propagated orbit.

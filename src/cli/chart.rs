@@ -71,6 +71,14 @@ pub struct ChartArgs {
 
 /// `passbudget chart`.
 pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
+    // (one pass draws its pass chart and sky track; the mask and summary charts are the whole
+    // window's: the pair drew nothing and said so only in its count)
+    if let (Some(p), ChartKind::Mask | ChartKind::Summary) = (&a.pass, a.kind) {
+        bail!(
+            "--pass {p} draws one pass's pass chart and sky track; --kind {} charts the whole window: give one or the other",
+            if a.kind == ChartKind::Mask { "mask" } else { "summary" }
+        );
+    }
     let staging = stage(&a.out)?;
     let want = |k: ChartKind| a.kind == k || a.kind == ChartKind::All;
     let whole_window = a.pass.is_none();

@@ -16,6 +16,7 @@ use crate::atmosphere::{Attenuation, Weather};
 use crate::config::limits::short_number;
 use crate::config::mission::Mission;
 use crate::config::DefaultUsed;
+use crate::geometry::look::LineOfSight;
 use crate::geometry::Look;
 use crate::link::budget::{BudgetItem, BudgetValues, RateSpec};
 use crate::noise::ExternalNoise;
@@ -187,7 +188,7 @@ pub fn instant_budget(
     if let InstantGeometry::At(t) = req.geometry {
         super::inputs::check_element_age(&elements, t, t, req.allow_stale_elements)?;
     }
-    let (mut look, time) = look_at(&model, &elements, &prop, req.geometry)?;
+    let (mut look, time, line) = look_at(&model, &elements, &prop, req.geometry)?;
     let rate = rate_spec(mission, &model, &rates, req)?;
     let weather = availability_weather(req.exceedance_percent, std::slice::from_ref(&model))?
         .unwrap_or(Weather::ClearSky);
@@ -230,6 +231,8 @@ pub fn instant_budget(
     warnings.extend(pfd_warning(&model, pfd.as_ref()));
     warnings.extend(selection_note(&elements, &selection));
     warnings.extend(terrain_lines);
+    warnings.extend(line.and_then(|l| mount_cannot_keep_up(&model, &l)));
+    warnings.extend(below_min_elevation(&model, &look));
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
     }
@@ -354,12 +357,15 @@ fn find_station<'m>(
         })
 }
 
+/// The look, and with a time that time and the line of sight (for the mount).
+type LookAt = (Look, Option<DateTime<Utc>>, Option<LineOfSight>);
+
 fn look_at(
     model: &StationModel,
     elements: &ElementSet,
     prop: &crate::orbit::Propagator,
     geometry: InstantGeometry,
-) -> Result<(Look, Option<DateTime<Utc>>), InstantError> {
+) -> Result<LookAt, InstantError> {
     match geometry {
         InstantGeometry::At(t) => {
             let s = prop
@@ -368,7 +374,7 @@ fn look_at(
                     satellite: elements.label(),
                     source,
                 })?;
-            let look = model.observer.look(&s);
+            let (look, line) = model.observer.look_and_line(&s);
             if look.elevation_deg < 0.0 {
                 return Err(InstantError::BelowHorizon {
                     satellite: elements.label(),
@@ -377,7 +383,7 @@ fn look_at(
                     elevation_deg: look.elevation_deg,
                 });
             }
-            Ok((look, Some(t)))
+            Ok((look, Some(t), Some(line)))
         }
         InstantGeometry::Elevation(e)
         | InstantGeometry::Pointing {
@@ -410,9 +416,35 @@ fn look_at(
                 elevation_rate_deg_s: 0.0,
                 azimuth_rate_deg_s: 0.0,
             };
-            Ok((look, None))
+            Ok((look, None, None))
         }
     }
+}
+
+/// The line when the station's mount cannot keep up with the satellite at this instant: an axis
+/// rate beyond its limit ([`crate::geometry::mount::Mount::can_follow`], the instant's test; a
+/// plan also counts the seconds its follower then needs to catch up). A plan counts no second
+/// there, so the budget is of a link the antenna does not hold.
+fn mount_cannot_keep_up(model: &StationModel, line: &LineOfSight) -> Option<String> {
+    let m = model.station.mount.as_ref()?;
+    let r = m.rates(&line.enu_km, &line.enu_rate_km_s);
+    (!m.can_follow(r, None)).then(|| format!(
+        "the station's mount cannot keep up here: its axes would need {:.1} and {:.1} deg/s against limits of {} and {} deg/s (the keyhole); a plan counts no second here (mount lost)",
+        r.primary_deg_s.abs(),
+        r.secondary_deg_s.abs(),
+        m.primary_max_rate_deg_s,
+        m.secondary_max_rate_deg_s
+    ))
+}
+
+/// The line when the line of sight is below the station's `min_elevation_deg`: a plan counts no
+/// second there.
+fn below_min_elevation(model: &StationModel, look: &Look) -> Option<String> {
+    let min = model.configured_min_elevation_deg;
+    (look.elevation_deg < min).then(|| format!(
+        "the elevation ({:.2} deg) is below the station's min_elevation_deg ({min} deg): a plan counts no second here",
+        look.elevation_deg
+    ))
 }
 
 /// The rate and its scheme: the ladder entry with that rate, or the asked scheme, or the ladder's first.

@@ -703,3 +703,36 @@ fn a_budget_below_the_terrain_says_the_path_is_blocked() {
         "{low}"
     );
 }
+
+/// `budget` says when a plan would count nothing at its geometry: where the station's mount
+/// cannot keep up (pass 6 over Sierra Baja crosses 86.5 deg near its az-el mount's keyhole; the
+/// plan's series of that pass marks 22:11:45 to 22:11:55 untracked and counts 11 s lost), and
+/// below the station's `min_elevation_deg`; neither where the plan counts the second. The budget
+/// printed "the link closes" there without a word. `--azimuth-deg` with `--at` (ignored before)
+/// is a usage error.
+#[test]
+fn budget_says_where_a_plan_counts_nothing() {
+    let warnings = |o: Output| json(&o)["warnings"].to_string();
+    let at = |t: &str| {
+        let args = ["--station", "sierra-baja", "--at", t, "--format", "json"];
+        warnings(run(&[&["budget", EXAMPLE][..], &args].concat()))
+    };
+    let keyhole = "mount cannot keep up";
+    assert!(at("2026-12-01T22:11:47.072Z").contains(keyhole));
+    assert!(!at("2026-12-01T22:10:30Z").contains(keyhole));
+    let below = "below the station's min_elevation_deg (5 deg)";
+    let el = |e: &str| warnings(budget(EXAMPLE, "nordkam", e, &["--format", "json"]));
+    assert!(el("2").contains(below));
+    assert!(!el("6").contains(below));
+    let o = run(&[
+        "budget",
+        EXAMPLE,
+        "--station",
+        "nordkam",
+        "--azimuth-deg",
+        "10",
+        "--at",
+        "2026-12-01T20:28:19Z",
+    ]);
+    assert_eq!(o.status.code(), Some(2), "a usage error");
+}

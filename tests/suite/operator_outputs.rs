@@ -948,3 +948,37 @@ fn mask_and_compare_files_flag_the_recalled_thresholds() {
     let w = cmp["warnings"].to_string();
     assert!(w.contains(&format!("runs A and B: {recalled}")), "{w}");
 }
+
+/// Errors name the argument the user gave: a `--set-b` value of `compare` is named `--set-b`
+/// (it was named `--set`, and the user looked among the shared ones); `chart --pass` with
+/// `--kind mask` (whole-window charts) is refused instead of drawing nothing and succeeding.
+#[test]
+fn errors_name_set_b_and_refuse_a_pass_of_window_charts() {
+    let m = "examples/wrenlet-1.yaml";
+    let o = run(&[
+        "compare",
+        m,
+        "--days",
+        "0.1",
+        "--set-b",
+        "transmitter.powr_w=1",
+    ]);
+    clean_error(&o, &["--set-b transmitter.powr_w=1", "powr_w"]);
+    assert!(!String::from_utf8_lossy(&o.stderr).contains("--set transmitter"));
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("charts");
+    for kind in ["mask", "summary"] {
+        let o = run(&[
+            "chart",
+            m,
+            "--pass",
+            "4",
+            "--kind",
+            kind,
+            "--out",
+            out.to_str().unwrap(),
+        ]);
+        clean_error(&o, &["--pass 4", &format!("--kind {kind}")]);
+        assert!(!out.exists(), "nothing written");
+    }
+}
