@@ -398,7 +398,11 @@ fn print_atmosphere(doc: &AtmosphereDoc, out: &mut dyn Write) -> Result<()> {
             "specific rain attenuation",
             doc.specific_rain_attenuation_db_km,
             "dB/km",
-            "ITU-R P.838-3 at R0.01",
+            // (no rain in clear sky: the 0 is not the rate at R0.01)
+            match doc.exceedance_percent {
+                Some(_) => "ITU-R P.838-3 at R0.01",
+                None => "ITU-R P.838-3; rain case only (--exceedance-percent)",
+            },
         ),
         (
             "mean radiating temperature",
@@ -427,6 +431,7 @@ struct AtmosphereRow {
     frequency_ghz: f64,
     elevation_deg: f64,
     exceedance_percent: Option<f64>,
+    polarization_tilt_deg: f64,
     gas_db: f64,
     cloud_db: f64,
     rain_db: f64,
@@ -434,6 +439,7 @@ struct AtmosphereRow {
     total_db: f64,
     rain_height_km: f64,
     specific_rain_attenuation_db_km: f64,
+    mean_radiating_temperature_k: f64,
     sky_temperature_k: f64,
 }
 
@@ -444,6 +450,7 @@ impl From<&AtmosphereDoc> for AtmosphereRow {
             frequency_ghz: d.frequency_ghz,
             elevation_deg: d.elevation_deg,
             exceedance_percent: d.exceedance_percent,
+            polarization_tilt_deg: d.polarization_tilt_deg,
             gas_db: d.gas_db,
             cloud_db: d.cloud_db,
             rain_db: d.rain_db,
@@ -451,6 +458,7 @@ impl From<&AtmosphereDoc> for AtmosphereRow {
             total_db: d.total_db,
             rain_height_km: d.rain_height_km,
             specific_rain_attenuation_db_km: d.specific_rain_attenuation_db_km,
+            mean_radiating_temperature_k: d.mean_radiating_temperature_k,
             sky_temperature_k: d.sky_temperature_k,
         }
     }

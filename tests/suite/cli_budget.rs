@@ -736,3 +736,30 @@ fn budget_says_where_a_plan_counts_nothing() {
     ]);
     assert_eq!(o.status.code(), Some(2), "a usage error");
 }
+
+/// `atmosphere --format csv` has the JSON's fields, in its order (but the warnings and the
+/// defaults, which are the CSV's `#` lines and not columns): it lacked the polarization tilt and
+/// the mean radiating temperature.
+#[test]
+fn atmosphere_csv_has_the_json_fields() {
+    let args = [
+        "atmosphere",
+        "--station",
+        "stations/nordkam.yaml",
+        "--frequency-mhz",
+        "8200",
+        "--elevation-deg",
+        "20",
+        "--format",
+    ];
+    // the JSON's top-level keys in their printed order (pretty-printed: two spaces, a quote)
+    let doc = crate::common::bin::success(&run(&[&args[..], &["json"]].concat()));
+    let want: Vec<&str> = (doc.lines())
+        .filter_map(|l| l.strip_prefix("  \""))
+        .filter_map(|l| l.split_once('"').map(|(k, _)| k))
+        .filter(|k| !matches!(*k, "warnings" | "defaults"))
+        .collect();
+    let csv = crate::common::bin::success(&run(&[&args[..], &["csv"]].concat()));
+    let header = csv.lines().find(|l| !l.starts_with('#')).unwrap();
+    assert_eq!(header.split(',').collect::<Vec<_>>(), want);
+}
