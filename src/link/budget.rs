@@ -889,17 +889,23 @@ fn rate_items(v: &BudgetValues, rate: &RateSpec) -> [BudgetItem; 15] {
         ),
         item("ebn0", v.ebn0_db, "dB", "C/N0 - 10 log10(Rb)"),
         item("esn0", v.esn0_db, "dB", "C/N0 - 10 log10(Rs)"),
+        // the threshold carries its provenance (a value recalled from memory is flagged on it,
+        // not on the error rate it is for)
         item(
             "required_ebn0",
             v.required_ebn0_db,
             "dB",
-            format!("{} (per information bit)", op.name),
+            format!(
+                "{} per information bit at the error rate below: {}",
+                op.name,
+                provenance_text(op)
+            ),
         ),
         item(
             "required_error_rate",
             op.error_rate,
             "",
-            provenance_text(op),
+            "the scheme's target error rate",
         ),
         item(
             "implementation_loss",

@@ -763,3 +763,12 @@ fn atmosphere_csv_has_the_json_fields() {
     let header = csv.lines().find(|l| !l.starts_with('#')).unwrap();
     assert_eq!(header.split(',').collect::<Vec<_>>(), want);
 }
+
+/// The flag of a threshold recalled from memory sits on the threshold (`required_ebn0`), not on
+/// the error rate it is for: the table read the error rate as the unconfirmed value.
+#[test]
+fn the_recalled_flag_sits_on_the_threshold() {
+    let b = json(&budget(EXAMPLE, "Nordkam", "30", &["--format", "json"]));
+    assert!(item_source(&b, "required_ebn0").contains("from memory"));
+    assert!(!item_source(&b, "required_error_rate").contains("from memory"));
+}
