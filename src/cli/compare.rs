@@ -126,11 +126,18 @@ fn run_text(r: &RunDoc) -> String {
 }
 
 /// A difference with its sign, `-` for none.
+/// A difference with its sign, none for one that shows as zero (`0.0`, not `-0.0` or `+0.00`
+/// for a few milliseconds or thousandths of a dB).
 fn signed(x: Option<f64>, text: impl Fn(f64) -> String) -> String {
-    match x {
-        Some(v) if v > 0.0 => format!("+{}", text(v)),
-        Some(v) => text(v),
-        None => "-".into(),
+    let Some(v) = x else {
+        return "-".into();
+    };
+    let shown = text(v.abs());
+    let zero = !shown.chars().any(|c| c.is_ascii_digit() && c != '0');
+    match (zero, v > 0.0) {
+        (true, _) => text(0.0),
+        (false, true) => format!("+{shown}"),
+        (false, false) => format!("-{shown}"),
     }
 }
 
@@ -154,8 +161,8 @@ fn print_comparison(runs: &[RunDoc; 2], c: &Comparison, out: &mut dyn Write) -> 
         ("fixed A", Align::Right),
         ("fixed B", Align::Right),
         ("diff fixed", Align::Right),
-        ("closes from s", Align::Right),
-        ("until s", Align::Right),
+        ("diff closes from s", Align::Right),
+        ("diff until s", Align::Right),
         ("peak margin A dB", Align::Right),
         ("B dB", Align::Right),
         ("diff dB", Align::Right),
@@ -274,4 +281,22 @@ fn run_warnings(a: &[String], b: &[String]) -> Vec<String> {
     tagged_a
         .chain(only_b.map(|w| format!("run B: {w}")))
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::signed;
+
+    /// A difference that shows as zero has no sign (a few ms read `-0.0`, a thousandth of a dB
+    /// `+0.00`); others keep theirs.
+    #[test]
+    fn a_difference_shown_as_zero_has_no_sign() {
+        let s1 = |x: f64| format!("{x:.1}");
+        let db = |x: f64| format!("{x:.2}");
+        assert_eq!(signed(Some(-0.04), s1), "0.0");
+        assert_eq!(signed(Some(0.001), db), "0.00");
+        assert_eq!(signed(Some(28.7), s1), "+28.7");
+        assert_eq!(signed(Some(-26.2), s1), "-26.2");
+        assert_eq!(signed(None, s1), "-");
+    }
 }

@@ -322,7 +322,9 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                     p.aos.format("%Y-%m-%d %H:%M:%S").to_string(),
                     clock_after(&p.aos, &p.tca, false),
                     clock_after(&p.aos, &p.los, false),
-                    passbudget::report::mm_ss(p.duration_s()),
+                    // from the times as shown (cut to the second), so that LOS - AOS reads as
+                    // the duration (rounded, it was a second off in a third of the rows)
+                    passbudget::report::mm_ss((p.los.timestamp() - p.aos.timestamp()) as f64),
                     // from the row's value, as `plan`'s table does (one figure for one pass)
                     engfmt::fixed(passbudget::report::round(row.max_elevation_deg, 1), 1),
                     whole_azimuth(p.aos_azimuth_deg),

@@ -245,6 +245,6 @@ fn pass_row(a: Side, b: Side, pa: Option<&Keyed>, pb: Option<&Keyed>) -> PassDif
         diff_peak_cn0_db: fa
             .as_ref()
             .zip(fb.as_ref())
-            .map(|(x, y)| round(y.peak_cn0_dbhz - x.peak_cn0_dbhz, 6)),
+            .map(|(x, y)| round(y.peak_cn0_dbhz - x.peak_cn0_dbhz, 4)),
     }
 }

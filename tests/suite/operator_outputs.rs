@@ -982,3 +982,40 @@ fn errors_name_set_b_and_refuse_a_pass_of_window_charts() {
         assert!(!out.exists(), "nothing written");
     }
 }
+
+/// `passes`' table: LOS - AOS as shown equals the duration shown, in every row of the week (the
+/// times are cut to the second and the duration was rounded: a second off in a third of the
+/// rows); and `compare` prints no signed zero.
+#[test]
+fn passes_durations_add_up_and_compare_has_no_signed_zero() {
+    let m = "examples/wrenlet-1.yaml";
+    let t = success(&run(&["passes", m, "--days", "7"]));
+    let secs = |s: &str| -> i64 {
+        s.split(':')
+            .map(|x| x.parse::<i64>().unwrap())
+            .fold(0, |a, x| a * 60 + x)
+    };
+    let mut rows = 0;
+    for line in t.lines().filter(|l| l.contains("-2026")) {
+        let times: Vec<&str> = line
+            .split_whitespace()
+            .filter(|w| w.contains(':'))
+            .collect();
+        // AOS, TCA, LOS (each hh:mm:ss), then the duration (m:ss or h:mm:ss)
+        let (aos, los, shown) = (secs(times[0]), secs(times[2]), secs(times[3]));
+        assert_eq!((los - aos).rem_euclid(86_400), shown, "{line}");
+        rows += 1;
+    }
+    assert_eq!(rows, 132, "{t}");
+    let c = success(&run(&[
+        "compare",
+        m,
+        "--days",
+        "1",
+        "--set-b",
+        "station.*.min_elevation_deg=20",
+    ]));
+    for bad in [" -0.0 ", " +0.00 ", " -0.00 "] {
+        assert!(!c.contains(bad), "{bad}: {c}");
+    }
+}
