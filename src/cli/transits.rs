@@ -62,14 +62,19 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
     });
     match a.format {
         Format::Json => {
+            // the warnings and the caution, as every JSON output (the CSV's `#` lines carry them)
             #[derive(Serialize)]
             struct Doc<'a> {
                 transits: &'a [TransitRow],
                 outage_seasons: Option<&'a [SeasonRow]>,
+                warnings: &'a [String],
+                caution: &'static str,
             }
             let doc = Doc {
                 transits: &rows,
                 outage_seasons: seasons.as_deref(),
+                warnings: &plan.warnings,
+                caution: passbudget::report::plan::CAUTION,
             };
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }

@@ -52,6 +52,12 @@ fn sun_transits_finds_the_example_transit_where_an_independent_sun_is() {
     assert!(t["degraded_s"].as_f64().unwrap() > 0.0);
     // A LEO satellite: no outage seasons.
     assert!(doc["outage_seasons"].is_null());
+    // the caution and the warnings, as every JSON output
+    assert!(doc["caution"]
+        .as_str()
+        .unwrap()
+        .starts_with("Planning estimates only"));
+    assert!(doc["warnings"].to_string().contains("Sierra Baja"));
 }
 
 /// `budget --at` the closest instant gives the same Sun noise as the plan's step (one function,
