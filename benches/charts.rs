@@ -51,6 +51,8 @@ fn synthetic_pass() -> PassChartData {
         .collect();
     PassChartData {
         warnings: Vec::new(),
+        starts_before_window: false,
+        ends_after_window: false,
         satellite: "KESTREL-7 (synthetic)".into(),
         station: "Sierra Baja".into(),
         pass_number: 3,

@@ -78,6 +78,10 @@ pub struct PassChartData {
     /// The pass's identifier, which does not change with the window
     /// ([`crate::report::pass_id`], e.g. `sierra-baja-20261202T0854Z`); empty when none.
     pub pass_id: String,
+    /// The window cuts the pass: `aos` is then the window's start, `los` its end, and `tca` the
+    /// highest point within the window.
+    pub starts_before_window: bool,
+    pub ends_after_window: bool,
     pub aos: DateTime<Utc>,
     pub tca: DateTime<Utc>,
     pub los: DateTime<Utc>,

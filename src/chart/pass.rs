@@ -47,8 +47,14 @@ fn title_lines(d: &PassChartData) -> (String, String) {
     } else {
         format!(" ({})", d.pass_id)
     };
+    let cut = match (d.starts_before_window, d.ends_after_window) {
+        (true, true) => " · cut by the window at both ends",
+        (true, false) => " · cut by the window's start",
+        (false, true) => " · cut by the window's end",
+        (false, false) => "",
+    };
     let line1 = format!(
-        "{} over {} · pass {}{id} · {}",
+        "{} over {} · pass {}{id} · {}{cut}",
         d.satellite,
         d.station,
         d.pass_number,
@@ -262,7 +268,23 @@ where
         d.samples.iter().map(|s| (s.t_s, s.range_km)).collect(),
         rg
     );
-    // AOS / TCA / LOS labels along the top of the panel.
+    // AOS / TCA / LOS labels along the top of the panel; a pass the window cuts is labelled with
+    // the window's edge (its AOS or LOS lies outside), and its highest point in the window is
+    // not labelled TCA when it is that edge.
+    let (aos_word, los_word) = (
+        if d.starts_before_window {
+            "window start"
+        } else {
+            "AOS"
+        },
+        if d.ends_after_window {
+            "window end"
+        } else {
+            "LOS"
+        },
+    );
+    let tca_at_cut = (d.starts_before_window && (d.tca - d.aos).num_milliseconds() < 1000)
+        || (d.ends_after_window && (d.los - d.tca).num_milliseconds() < 1000);
     let top = el_max;
     let aos_t = 0.0f64.max(c.t_lo);
     let los_t = seconds_between(&d.aos, &d.los).min(c.t_hi);
@@ -272,7 +294,7 @@ where
         // too short to label both ends apart
         chart.draw_series(std::iter::once(Text::new(
             format!(
-                " AOS {} · LOS {}",
+                " {aos_word} {} · {los_word} {}",
                 d.aos.format("%H:%M:%S"),
                 d.los.format("%H:%M:%S")
             ),
@@ -282,18 +304,18 @@ where
     } else {
         chart.draw_series([
             Text::new(
-                format!(" AOS {}", d.aos.format("%H:%M:%S")),
+                format!(" {aos_word} {}", d.aos.format("%H:%M:%S")),
                 (aos_t, top),
                 f.clone().pos(Pos::new(HPos::Left, VPos::Top)),
             ),
             Text::new(
-                format!("LOS {} ", d.los.format("%H:%M:%S")),
+                format!("{los_word} {} ", d.los.format("%H:%M:%S")),
                 (los_t, top),
                 f.clone().pos(Pos::new(HPos::Right, VPos::Top)),
             ),
         ])?;
     }
-    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) && !tca_at_cut {
         chart.draw_series(std::iter::once(Text::new(
             format!("TCA {}", d.tca.format("%H:%M:%S")),
             (c.tca_s.max(c.t_lo + 0.08 * span), top),

@@ -183,6 +183,8 @@ pub fn pass_chart_data(planner: &Planner, s: &PassSeries) -> PassChartData {
         station: planner.stations()[plan.station_index].station.name.clone(),
         pass_number: plan.number,
         pass_id: crate::report::pass_id(&st.station.name, &plan.pass),
+        starts_before_window: plan.pass.starts_before_window,
+        ends_after_window: plan.pass.ends_after_window,
         aos: plan.pass.aos,
         tca: plan.pass.tca,
         los: plan.pass.los,

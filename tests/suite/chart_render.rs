@@ -95,6 +95,8 @@ fn synthetic_pass(pass_number: usize, aos: DateTime<Utc>, offset_deg: f64) -> Pa
         .fold(f64::MIN, f64::max);
     PassChartData {
         warnings: Vec::new(),
+        starts_before_window: false,
+        ends_after_window: false,
         satellite: "KESTREL-7 (synthetic)".into(),
         station: "Sierra Baja".into(),
         pass_number,
@@ -966,4 +968,26 @@ fn indexed_drawing_gives_the_rgb_backends_bytes() {
         draw_summary(&summary, ChartFormat::Png).unwrap(),
         draw_reference_png(ReferenceChart::Summary(&summary)).unwrap(),
     );
+}
+
+/// A pass the window cuts says so: the title names the cut, the edge is labelled with the
+/// window's start or end instead of AOS or LOS, and a highest point at that edge is not labelled
+/// TCA (the labels `AOS 20:30:00` and `TCA 20:30:00` overlapped, and the chart looked like a
+/// whole pass).
+#[test]
+fn a_cut_pass_says_it_is_cut() {
+    let mut d = sample_pass();
+    let whole = svg_text(draw_pass(&d, ChartFormat::Svg).unwrap());
+    assert!(whole.contains("AOS ") && whole.contains("TCA ") && !whole.contains("cut by"));
+    d.starts_before_window = true;
+    d.tca = d.aos;
+    let cut = svg_text(draw_pass(&d, ChartFormat::Svg).unwrap());
+    // (the SVG escapes the apostrophe)
+    assert!(cut.contains("cut by the window"), "{cut}");
+    assert!(
+        cut.contains("window start ") && !cut.contains("AOS "),
+        "{cut}"
+    );
+    assert!(!cut.contains("TCA "), "{cut}");
+    assert!(cut.contains("LOS "), "{cut}");
 }
