@@ -159,6 +159,15 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
         InstantError::Prepare(passbudget::plan::prepare::PrepareError::Range { source }) => {
             anyhow!("--exceedance-percent: {source}")
         }
+        // the rate or scheme asked for: named by its options (the mission's ladder passed its
+        // own checks when it was read)
+        InstantError::Rate(m) if a.rate_bps.is_some() || a.scheme.is_some() => {
+            let flags: Vec<String> = (a.rate_bps.map(|r| format!("--rate-bps {r}")))
+                .into_iter()
+                .chain(a.scheme.as_ref().map(|s| format!("--scheme {s}")))
+                .collect();
+            anyhow!("{}: {m}", flags.join(" "))
+        }
         e => anyhow::Error::new(e),
     })?;
     named_the_one_satellite(a.satellite.as_deref(), &mission, &b.elements)?;
@@ -307,6 +316,13 @@ pub fn atmosphere(a: AtmosphereArgs, out: &mut dyn Write) -> Result<()> {
 
 /// The atmosphere at one elevation for a station file.
 fn atmosphere_doc(a: &AtmosphereArgs) -> Result<AtmosphereDoc> {
+    // (`atmosphere` has no mission, so no station names: a name given for a file is said so)
+    if !a.station.exists() {
+        bail!(
+            "--station {}: no such file; atmosphere takes a station file (e.g. stations/nordkam.yaml), not a station's name",
+            a.station.display()
+        );
+    }
     let st = Station::load(&a.station)?;
     let frequency_ghz = match (a.frequency_mhz, a.frequency_ghz) {
         (Some(mhz), _) => {

@@ -54,7 +54,7 @@ pub enum BudgetError {
     RollOff { value: f64 },
     #[error("implementation loss must be >= 0 dB and finite, got {loss_db} dB")]
     ImplementationLoss { loss_db: f64 },
-    #[error("rate {} occupies {}, more than the allowed {}", crate::engfmt::rate(*.rate_bps), hz5(*.occupied_bandwidth_hz), hz5(*.max_bandwidth_hz))]
+    #[error("rate {} occupies {}, more than the allowed {} (modem.max_bandwidth_hz)", crate::engfmt::rate(*.rate_bps), hz5(*.occupied_bandwidth_hz), hz5(*.max_bandwidth_hz))]
     RateExceedsBandwidth {
         rate_bps: f64,
         occupied_bandwidth_hz: f64,

@@ -130,13 +130,35 @@ pub enum SelectError {
     Empty,
     #[error("{count} element sets given; choose one by catalog number or name")]
     NoneChosen { count: usize },
-    #[error("no element set matches '{query}'")]
-    NoMatch { query: String },
+    #[error("no element set matches '{query}' (by catalog number or name; the file holds {held})")]
+    NoMatch {
+        query: String,
+        /// The satellites the file holds, by label (a few, then how many more).
+        held: String,
+    },
     #[error("'{query}' matches {} element sets: {}", .candidates.len(), .candidates.join(", "))]
     Ambiguous {
         query: String,
         candidates: Vec<String>,
     },
+}
+
+/// The satellites of `sets` for an error, each once by label: up to five, then how many more.
+fn held(sets: &[ElementSet]) -> String {
+    let mut ids: Vec<u64> = Vec::new();
+    let mut labels: Vec<String> = Vec::new();
+    for s in sets {
+        if !ids.contains(&s.norad_id) {
+            ids.push(s.norad_id);
+            labels.push(s.label());
+        }
+    }
+    let more = labels.len().saturating_sub(5);
+    labels.truncate(5);
+    match more {
+        0 => labels.join(", "),
+        n => format!("{} and {n} more", labels.join(", ")),
+    }
 }
 
 /// Choose one element set: by catalog number (if `query` is an integer and some set has that
@@ -161,6 +183,7 @@ pub fn select<'a>(
     match hits.len() {
         0 => Err(SelectError::NoMatch {
             query: q.to_string(),
+            held: held(sets),
         }),
         1 => Ok(&sets[hits[0]]),
         _ => Err(SelectError::Ambiguous {
@@ -233,7 +256,10 @@ pub fn select_for_window(
         None => ((0..sets.len()).collect(), String::new()),
     };
     let Some(&first) = hits.first() else {
-        return Err(SelectError::NoMatch { query: q });
+        return Err(SelectError::NoMatch {
+            query: q,
+            held: held(sets),
+        });
     };
     if hits
         .iter()
@@ -339,10 +365,15 @@ mod tests {
             select_for_window(&sets, None, t).unwrap_err(),
             SelectError::NoneChosen { count: 2 }
         );
-        assert!(matches!(
-            select_for_window(&sets, Some("x"), t),
-            Err(SelectError::NoMatch { .. })
-        ));
+        let e = select_for_window(&sets, Some("x"), t).unwrap_err();
+        assert!(matches!(e, SelectError::NoMatch { .. }));
+        // the message lists what the file holds, each satellite once
+        let held = sets.iter().map(|s| s.label()).collect::<Vec<_>>();
+        let text = e.to_string();
+        assert!(
+            held.iter().all(|l| text.matches(l.as_str()).count() == 1),
+            "{text}"
+        );
         assert_eq!(
             select_for_window(&[], None, t).unwrap_err(),
             SelectError::Empty

@@ -206,11 +206,18 @@ fn budget_bad_input() {
         &["eff.yaml", "antenna.efficiency"],
     );
     let warp = ["--scheme", "ccsds-warp-drive"];
-    clean_error(&budget(m, nk, "20", &warp), &["ccsds-warp-drive"]);
+    clean_error(
+        &budget(m, nk, "20", &warp),
+        &["--scheme ccsds-warp-drive: ", "ccsds-warp-drive"],
+    );
     let fast = ["--rate-bps", "2e9"];
     clean_error(
         &budget(m, nk, "20", &fast),
-        &["occupies", "more than the allowed 375 MHz"],
+        &[
+            "--rate-bps 2000000000: ",
+            "occupies",
+            "more than the allowed 375 MHz (modem.max_bandwidth_hz)",
+        ],
     );
     clean_error(&budget(m, "Nowhere", "20", &[]), &["Nowhere"]);
     clean_error(&budget(m, nk, "95", &[]), &["--elevation-deg"]);
