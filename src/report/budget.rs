@@ -120,8 +120,9 @@ impl BudgetDoc {
             man_made_noise_k: round(v.man_made_noise_k, 3),
             sun_noise_k: b.time.map(|_| round(v.sun_noise_k, 3)),
             moon_noise_k: b.time.map(|_| round(v.moon_noise_k, 3)),
-            sun_separation_deg: v.sun_separation_deg.map(|x| round(x, 3)),
-            moon_separation_deg: v.moon_separation_deg.map(|x| round(x, 3)),
+            // deg to 4 decimals, as the items (README "Output fields")
+            sun_separation_deg: v.sun_separation_deg.map(r4),
+            moon_separation_deg: v.moon_separation_deg.map(r4),
             receiver_noise_k: round(v.receiver_noise_k, 3),
             antenna_temperature_k: round(v.antenna_temperature_k, 3),
             system_temperature_k: round(v.system_temperature_k, 3),

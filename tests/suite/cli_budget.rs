@@ -529,6 +529,13 @@ fn budget_without_a_time_does_not_evaluate_the_sun_and_moon() {
     ]));
     assert!(at["sun_noise_k"].as_f64().is_some() && at["moon_noise_k"].as_f64().is_some());
     assert!(item(&at, "sun_noise")["value"].as_f64().is_some());
+    // a field and its item give one figure (deg to 4 decimals both: the field had 3)
+    for (field, name) in [
+        ("sun_separation_deg", "sun_separation"),
+        ("moon_separation_deg", "moon_separation"),
+    ] {
+        assert_eq!(at[field], item(&at, name)["value"], "{field}");
+    }
 }
 
 /// The galactic background's extrapolation above 1 GHz (ITU-R P.372's galactic curve is stated

@@ -192,7 +192,10 @@ fn a_user_scheme_reports_its_three_rates_and_its_threshold_in_the_budget() {
     };
     assert!((item("channel_rate")["value"].as_f64().unwrap() - channel).abs() < 0.1);
     // the threshold carries its provenance
-    let source = item("required_ebn0")["source"].as_str().unwrap().to_string();
+    let source = item("required_ebn0")["source"]
+        .as_str()
+        .unwrap()
+        .to_string();
     assert!(
         source.ends_with("user-defined in the mission file (modem.schemes)"),
         "{source}"
