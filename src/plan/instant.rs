@@ -219,7 +219,8 @@ pub fn instant_budget(
     let mut warnings = super::series::PassWarnings {
         atmosphere: att.warnings,
         noise: model.noise.warnings(),
-        bodies: model.bodies.warnings(),
+        // without a time the Sun and the Moon are not evaluated: no word on their models
+        bodies: time.map(|_| model.bodies.warnings()).unwrap_or_default(),
         pattern_clamped: values.pattern_clamped,
         below_horizon: values.below_horizon,
         pfd_exceeded: false,

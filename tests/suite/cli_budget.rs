@@ -786,3 +786,29 @@ fn the_recalled_flag_sits_on_the_threshold() {
     assert!(item_source(&b, "required_ebn0").contains("from memory"));
     assert!(!item_source(&b, "required_error_rate").contains("from memory"));
 }
+
+/// Without a time the Sun and the Moon are not evaluated, so their models' range is not warned of
+/// (at 437.5 MHz the Moon's 1-100 GHz model was warned of in a budget that never placed it); with
+/// `--at` it is.
+#[test]
+fn bodies_are_warned_of_only_where_they_are_evaluated() {
+    let uhf = [
+        "--set",
+        "transmitter.frequency_mhz=437.5",
+        "--set",
+        "modem.max_bandwidth_hz=1e9",
+        "--format",
+        "json",
+    ];
+    let moon = |o: Output| json(&o)["warnings"].to_string().contains("Moon noise:");
+    assert!(!moon(budget(EXAMPLE, "nordkam", "20", &uhf)));
+    let at = [
+        "budget",
+        EXAMPLE,
+        "--station",
+        "nordkam",
+        "--at",
+        "2026-12-01T20:28:19Z",
+    ];
+    assert!(moon(run(&[&at[..], &uhf].concat())));
+}
