@@ -408,6 +408,13 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             }
         }
     }
+    if a.above_mask && rows.is_empty() {
+        note(&[format!(
+            "{} is never above the mask of {} in this window (--above-mask)",
+            r.elements.label(),
+            st.name
+        )]);
+    }
     match a.format {
         Format::Json => {
             #[derive(Serialize)]
@@ -422,9 +429,13 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
         }
         Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
         Format::Table => {
+            let doppler = match frequency_hz {
+                Some(f) => format!("Doppler at {} MHz", f / 1e6),
+                None => "no Doppler (no frequency: --frequency-mhz)".into(),
+            };
             writeln!(
                 out,
-                "{} from {}, every {} s",
+                "{} from {}, every {} s; {doppler}",
                 r.elements.label(),
                 st.name,
                 a.step_s

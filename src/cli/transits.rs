@@ -146,7 +146,12 @@ fn print_table(
             passbudget::plan::transits::TRANSIT_RISE_DB
         )?;
     }
-    if let Some(seasons) = seasons {
+    if let Some([]) = seasons {
+        writeln!(
+            out,
+            "\nSun-outage seasons (consecutive days with a transit): none in this window."
+        )?;
+    } else if let Some(seasons) = seasons {
         writeln!(
             out,
             "\nSun-outage seasons (consecutive days with a transit):"

@@ -802,7 +802,7 @@ fn tables_name_what_they_show() {
         "table",
     ]));
     assert!(
-        t.starts_with("WRENLET-1 (99901) from Nordkam, every 10 s\n"),
+        t.starts_with("WRENLET-1 (99901) from Nordkam, every 10 s; Doppler at 8212.5 MHz\n"),
         "{t}"
     );
     assert!(t.contains("range rate km/s"), "{t}");
@@ -1018,4 +1018,23 @@ fn passes_durations_add_up_and_compare_has_no_signed_zero() {
     for bad in [" -0.0 ", " +0.00 ", " -0.00 "] {
         assert!(!c.contains(bad), "{bad}: {c}");
     }
+}
+
+/// `track --above-mask` with no point above the mask says so (it printed only the header).
+#[test]
+fn an_empty_track_says_why() {
+    let o = run(&[
+        "track",
+        "examples/wrenlet-1.yaml",
+        "--station",
+        "Nordkam",
+        "--days",
+        "0.01",
+        "--above-mask",
+    ]);
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        err.contains("note: WRENLET-1 (99901) is never above the mask of Nordkam"),
+        "{err}"
+    );
 }

@@ -472,3 +472,17 @@ fn per_step_csv_itemizes_the_rain_case_like_clear_sky() {
     // The transit shows in both cases (115 K in clear sky, README).
     assert!(max_sun.0 > 100.0 && max_sun.1 > 50.0, "{max_sun:?}");
 }
+
+/// A satellite near the geostationary arc with no outage season in the window: the table says
+/// "none" (it printed an empty table under the heading).
+#[test]
+fn no_outage_season_reads_none() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = geostationary_mission(dir.path());
+    // two days of mid-February: the season is in early March (the test above)
+    let t = crate::common::bin::success(&run(&["sun-transits", &mission, "--days", "2"]));
+    assert!(
+        t.contains("Sun-outage seasons (consecutive days with a transit): none in this window."),
+        "{t}"
+    );
+}
