@@ -751,7 +751,14 @@ pub fn atmosphere_at(
     let tsky = crate::noise::sky::sky_temperature_p618_k(att.absorptive_db, tmr, bg)
         .map_err(|e| noise(&e))?;
     Ok(AtmosphereAt {
-        warnings: att.warnings.messages().map(String::from).collect(),
+        // the frequency-range lines in one, as a budget's
+        warnings: super::series::frequency_range_line(
+            frequency_ghz * 1e9,
+            att.warnings.frequency_ranges(),
+        )
+        .into_iter()
+        .chain(att.warnings.other_messages().map(String::from))
+        .collect(),
         attenuation: att,
         mean_radiating_temperature_k: tmr,
         sky_temperature_k: tsky,

@@ -110,6 +110,22 @@ pub struct PassWarnings {
     pub pfd_exceeded: bool,
 }
 
+/// The one line for every model whose stated frequency range `frequency_hz` lies outside
+/// (`plan`, `budget` and `atmosphere` alike), `None` when there is none.
+pub(crate) fn frequency_range_line<'a>(
+    frequency_hz: f64,
+    ranges: impl Iterator<Item = &'a str>,
+) -> Option<String> {
+    let ranges: Vec<&str> = ranges.collect();
+    (!ranges.is_empty()).then(|| {
+        format!(
+            "{} is outside the stated frequency range of {}: those terms are extrapolated estimates",
+            crate::engfmt::frequency_mhz(frequency_hz),
+            ranges.join(", ")
+        )
+    })
+}
+
 impl PassWarnings {
     pub fn union(&self, o: &PassWarnings) -> PassWarnings {
         PassWarnings {
@@ -125,19 +141,10 @@ impl PassWarnings {
     /// The warnings as lines to show: the models used outside their frequency range grouped in
     /// one line (they hold for every step at this frequency), then one line per other warning.
     pub fn lines(&self, frequency_hz: f64) -> Vec<String> {
-        let ranges: Vec<&str> = self
-            .atmosphere
-            .frequency_ranges()
-            .chain(self.noise.frequency_ranges())
+        let ranges = (self.atmosphere.frequency_ranges()).chain(self.noise.frequency_ranges());
+        let mut m: Vec<String> = frequency_range_line(frequency_hz, ranges)
+            .into_iter()
             .collect();
-        let mut m = Vec::new();
-        if !ranges.is_empty() {
-            m.push(format!(
-                "{} is outside the stated frequency range of {}: those terms are extrapolated estimates",
-                crate::engfmt::frequency_mhz(frequency_hz),
-                ranges.join(", ")
-            ));
-        }
         m.extend(self.atmosphere.other_messages().map(String::from));
         m.extend(self.noise.other_messages().map(String::from));
         m.extend(self.others());

@@ -812,3 +812,37 @@ fn bodies_are_warned_of_only_where_they_are_evaluated() {
     ];
     assert!(moon(run(&[&at[..], &uhf].concat())));
 }
+
+/// `atmosphere` gives one line for every model whose frequency range the frequency lies outside,
+/// as `budget` and `plan` do (it gave one line per model: four at 437.5 MHz).
+#[test]
+fn atmosphere_groups_its_frequency_range_lines() {
+    let doc = atmosphere_json_mhz("stations/nordkam.yaml", "437.5", "20");
+    let lines: Vec<&str> = (doc["warnings"].as_array().unwrap().iter())
+        .filter_map(|w| w.as_str())
+        .filter(|w| w.contains("frequency range") || w.contains("GHz)"))
+        .collect();
+    assert_eq!(lines.len(), 1, "{lines:?}");
+    for model in ["gas", "rain", "cloud", "scintillation"] {
+        assert!(lines[0].contains(model), "{model}: {}", lines[0]);
+    }
+}
+
+/// `atmosphere --format json` at a frequency given in MHz.
+fn atmosphere_json_mhz(
+    station: &str,
+    frequency_mhz: &str,
+    elevation_deg: &str,
+) -> serde_json::Value {
+    json(&run(&[
+        "atmosphere",
+        "--station",
+        station,
+        "--frequency-mhz",
+        frequency_mhz,
+        "--elevation-deg",
+        elevation_deg,
+        "--format",
+        "json",
+    ]))
+}
