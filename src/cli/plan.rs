@@ -57,12 +57,14 @@ pub struct MaskArgs {
     /// Output on stdout: a table for people, or CSV (one row per mask, rate and station) or JSON.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
-    /// Mask elevation step of the trade-off table, deg (whole degrees).
+    /// Mask elevation step of the trade-off table, deg (whole degrees, 1 to 40: the table spans
+    /// 0-40 deg).
     #[arg(
         long = "mask-step-deg",
         alias = "mask-step",
         value_name = "DEG",
-        default_value_t = 5
+        default_value_t = 5,
+        value_parser = whole_step_deg
     )]
     pub mask_step_deg: usize,
 }
@@ -669,10 +671,16 @@ fn misses_by(shortfall_db: f64) -> String {
 }
 
 /// `passbudget mask`.
-pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
-    if a.mask_step_deg == 0 {
-        anyhow::bail!("--mask-step-deg 0: the step must be at least 1 deg");
+/// `--mask-step-deg`: whole degrees from 1 to 40 (the trade-off spans 0-40 deg: a longer step
+/// gave its 0 deg row alone).
+fn whole_step_deg(s: &str) -> std::result::Result<usize, String> {
+    match s.trim().parse::<usize>() {
+        Ok(v) if (1..=40).contains(&v) => Ok(v),
+        _ => Err("a whole number of degrees from 1 to 40 (the trade-off spans 0-40 deg)".into()),
     }
+}
+
+pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
     let planner = a.window.planner(true)?;
     let plan = planner.collect()?;
     warn(&plan.warnings);

@@ -1038,3 +1038,25 @@ fn an_empty_track_says_why() {
         "{err}"
     );
 }
+
+/// `mask --mask-step-deg` takes whole degrees from 1 to 40 and says so (2.5 read "invalid digit
+/// found in string"; 50 gave the 0 deg row alone): a usage error, exit 2.
+#[test]
+fn the_mask_step_says_what_it_takes() {
+    for bad in ["2.5", "0", "50"] {
+        let o = run(&[
+            "mask",
+            "examples/wrenlet-1.yaml",
+            "--days",
+            "0.1",
+            "--mask-step-deg",
+            bad,
+        ]);
+        let err = String::from_utf8_lossy(&o.stderr);
+        assert_eq!(o.status.code(), Some(2), "{bad}: {err}");
+        assert!(
+            err.contains("a whole number of degrees from 1 to 40"),
+            "{bad}: {err}"
+        );
+    }
+}
