@@ -132,11 +132,17 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     // Only the charts drawn now are added or replaced: other files in the folder (a plan's CSVs,
     // other passes' charts) are left as they are.
     commit(staging, CommitMode::Add, &a.out)?;
+    // the sky charts apart from the window's mask and summary charts (one pass's sky track
+    // was counted as a window chart)
+    let sky = (written.iter())
+        .filter(|p| p.file_name().is_some_and(|n| n.to_string_lossy().starts_with("sky-")))
+        .count();
     writeln!(
         out,
-        "{} pass chart(s) and {} window chart(s) written to {}",
+        "{} pass chart(s), {} sky chart(s) and {} mask and summary chart(s) written to {}",
         passes_drawn,
-        written.len(),
+        sky,
+        written.len() - sky,
         a.out.display()
     )?;
     Ok(())
