@@ -398,13 +398,17 @@ fn draw_key_line<DB: DrawingBackend>(
 where
     DB::ErrorType: 'static,
 {
-    match s.dash {
-        None => area.draw(&PathElement::new(vec![(x0, y), (x1, y)], s.style()))?,
-        Some((on, off)) => {
-            for (a, e) in key_dashes(x0, x1, on, off) {
-                area.draw(&PathElement::new(vec![(a, y), (e, y)], s.style()))?;
-            }
-        }
+    // A horizontal key line is a filled band `width` rows high: one rectangle fill per dash,
+    // where a wide path went through the polygon filler (a quarter of a chart's legend cost).
+    let w = s.width.max(1) as i32;
+    // (the lower right corner is excluded, as plotters' fast rectangle fill)
+    let (top, bottom) = (y - w / 2, y - w / 2 + w);
+    let dashes = match s.dash {
+        None => vec![(x0, x1)],
+        Some((on, off)) => key_dashes(x0, x1, on, off),
+    };
+    for (a, e) in dashes {
+        area.draw(&Rectangle::new([(a, top), (e, bottom)], s.color.filled()))?;
     }
     Ok(())
 }

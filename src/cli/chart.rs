@@ -135,7 +135,10 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     // the sky charts apart from the window's mask and summary charts (one pass's sky track
     // was counted as a window chart)
     let sky = (written.iter())
-        .filter(|p| p.file_name().is_some_and(|n| n.to_string_lossy().starts_with("sky-")))
+        .filter(|p| {
+            p.file_name()
+                .is_some_and(|n| n.to_string_lossy().starts_with("sky-"))
+        })
         .count();
     writeln!(
         out,
