@@ -131,7 +131,12 @@ where
     let (pb, rest) = rest.split_vertically((0.29 * panels_h) as u32);
     let (pr, pc) = rest.split_vertically((0.19 * panels_h) as u32);
 
-    let tca_s = seconds_between(&d.aos, &d.tca);
+    // A highest point at an edge the window cuts is not a closest approach: no TCA line or label
+    // (NaN lies in no panel's range).
+    let tca_s = match tca_at_cut(d) {
+        true => f64::NAN,
+        false => seconds_between(&d.aos, &d.tca),
+    };
     let ctx = Ctx {
         t_lo,
         t_hi,
@@ -283,8 +288,6 @@ where
             "LOS"
         },
     );
-    let tca_at_cut = (d.starts_before_window && (d.tca - d.aos).num_milliseconds() < 1000)
-        || (d.ends_after_window && (d.los - d.tca).num_milliseconds() < 1000);
     let top = el_max;
     let aos_t = 0.0f64.max(c.t_lo);
     let los_t = seconds_between(&d.aos, &d.los).min(c.t_hi);
@@ -315,7 +318,7 @@ where
             ),
         ])?;
     }
-    if (c.t_lo..=c.t_hi).contains(&c.tca_s) && !tca_at_cut {
+    if (c.t_lo..=c.t_hi).contains(&c.tca_s) {
         chart.draw_series(std::iter::once(Text::new(
             format!("TCA {}", d.tca.format("%H:%M:%S")),
             (c.tca_s.max(c.t_lo + 0.08 * span), top),
@@ -323,19 +326,25 @@ where
         )))?;
     }
 
-    legend_in(
-        &legend,
-        None,
-        &[
-            (Key::Line(el), "elevation (left)".into()),
-            (Key::Line(rg), "slant range (right)".into()),
-            (Key::Line(tca), "closest approach".into()),
-            (
-                Key::Band(style::TERRAIN, 1.0),
-                "station mask at the\nsatellite's azimuth".into(),
-            ),
-        ],
-    )
+    let mut keys = vec![
+        (Key::Line(el), "elevation (left)".into()),
+        (Key::Line(rg), "slant range (right)".into()),
+    ];
+    if c.tca_s.is_finite() {
+        keys.push((Key::Line(tca), "closest approach".into()));
+    }
+    keys.push((
+        Key::Band(style::TERRAIN, 1.0),
+        "station mask at the\nsatellite's azimuth".into(),
+    ));
+    legend_in(&legend, None, &keys)
+}
+
+/// The pass's highest point in the window lies at an edge the window cuts (within 1 s): it is
+/// the window's edge, not a closest approach.
+fn tca_at_cut(d: &PassChartData) -> bool {
+    (d.starts_before_window && (d.tca - d.aos).num_milliseconds() < 1000)
+        || (d.ends_after_window && (d.los - d.tca).num_milliseconds() < 1000)
 }
 
 fn panel_link<DB: DrawingBackend>(

@@ -430,7 +430,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
         Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
         Format::Table => {
             let doppler = match frequency_hz {
-                Some(f) => format!("Doppler at {} MHz", f / 1e6),
+                Some(f) => format!("Doppler at {}", engfmt::frequency_mhz(f)),
                 None => "no Doppler (no frequency: --frequency-mhz)".into(),
             };
             writeln!(

@@ -670,16 +670,19 @@ fn misses_by(shortfall_db: f64) -> String {
     }
 }
 
-/// `passbudget mask`.
 /// `--mask-step-deg`: whole degrees from 1 to 40 (the trade-off spans 0-40 deg: a longer step
 /// gave its 0 deg row alone).
 fn whole_step_deg(s: &str) -> std::result::Result<usize, String> {
+    use passbudget::plan::mask::MAX_MASK_DEG as MAX;
     match s.trim().parse::<usize>() {
-        Ok(v) if (1..=40).contains(&v) => Ok(v),
-        _ => Err("a whole number of degrees from 1 to 40 (the trade-off spans 0-40 deg)".into()),
+        Ok(v) if (1..=MAX).contains(&v) => Ok(v),
+        _ => Err(format!(
+            "a whole number of degrees from 1 to {MAX} (the trade-off spans 0-{MAX} deg)"
+        )),
     }
 }
 
+/// `passbudget mask`.
 pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
     let planner = a.window.planner(true)?;
     let plan = planner.collect()?;

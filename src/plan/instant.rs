@@ -233,7 +233,7 @@ pub fn instant_budget(
     warnings.extend(selection_note(&elements, &selection));
     warnings.extend(terrain_lines);
     warnings.extend(line.and_then(|l| mount_cannot_keep_up(&model, &l)));
-    warnings.extend(below_min_elevation(&model, &look));
+    warnings.extend(below_min_elevation(mission, &model, &look));
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
     }
@@ -423,29 +423,50 @@ fn look_at(
 }
 
 /// The line when the station's mount cannot keep up with the satellite at this instant: an axis
-/// rate beyond its limit ([`crate::geometry::mount::Mount::can_follow`], the instant's test; a
-/// plan also counts the seconds its follower then needs to catch up). A plan counts no second
-/// there, so the budget is of a link the antenna does not hold.
+/// rate beyond its limit ([`crate::geometry::mount::Mount::can_follow`], the instant's test). A
+/// plan follows the mount over the pass and loses the seconds its pointing lags by more than a
+/// quarter beamwidth, which begin and end a little apart from these: around here, not exactly
+/// here.
 fn mount_cannot_keep_up(model: &StationModel, line: &LineOfSight) -> Option<String> {
     let m = model.station.mount.as_ref()?;
     let r = m.rates(&line.enu_km, &line.enu_rate_km_s);
-    (!m.can_follow(r, None)).then(|| format!(
-        "the station's mount cannot keep up here: its axes would need {:.1} and {:.1} deg/s against limits of {} and {} deg/s (the keyhole); a plan counts no second here (mount lost)",
-        r.primary_deg_s.abs(),
-        r.secondary_deg_s.abs(),
-        m.primary_max_rate_deg_s,
-        m.secondary_max_rate_deg_s
+    if m.can_follow(r, None) {
+        return None;
+    }
+    let primary = r.primary_deg_s.abs() > m.primary_max_rate_deg_s;
+    let (axis, need, limit) = match primary {
+        true => (
+            "primary (keyhole)",
+            r.primary_deg_s,
+            m.primary_max_rate_deg_s,
+        ),
+        false => ("secondary", r.secondary_deg_s, m.secondary_max_rate_deg_s),
+    };
+    let need = match need.abs() {
+        v if v > 1e3 => "over 1000".to_string(),
+        v => format!("{v:.2}"),
+    };
+    Some(format!(
+        "the station's mount cannot keep up here: its {axis} axis would need {need} deg/s against a limit of {limit} deg/s; a plan loses the satellite around here (mount lost)"
     ))
 }
 
-/// The line when the line of sight is below the station's `min_elevation_deg`: a plan counts no
-/// second there.
-fn below_min_elevation(model: &StationModel, look: &Look) -> Option<String> {
-    let min = model.configured_min_elevation_deg;
-    (look.elevation_deg < min).then(|| format!(
-        "the elevation ({:.2} deg) is below the station's min_elevation_deg ({min} deg): a plan counts no second here",
-        look.elevation_deg
-    ))
+/// The line when the line of sight is below the minimum elevation a plan applies (the mission's
+/// `planning.mask_deg`, else the station's `min_elevation_deg`): a plan counts no second there.
+fn below_min_elevation(mission: &Mission, model: &StationModel, look: &Look) -> Option<String> {
+    let (min, key) = match mission.mask_deg {
+        Some(m) => (m, "the mission's planning.mask_deg"),
+        None => (
+            model.configured_min_elevation_deg,
+            "the station's min_elevation_deg",
+        ),
+    };
+    (look.elevation_deg < min).then(|| {
+        format!(
+            "the elevation ({:.2} deg) is below {key} ({min} deg): a plan counts no second here",
+            look.elevation_deg
+        )
+    })
 }
 
 /// The rate and its scheme: the ladder entry with that rate, or the asked scheme, or the ladder's first.

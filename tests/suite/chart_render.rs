@@ -988,6 +988,22 @@ fn a_cut_pass_says_it_is_cut() {
         cut.contains("window start ") && !cut.contains("AOS "),
         "{cut}"
     );
-    assert!(!cut.contains("TCA "), "{cut}");
+    assert!(
+        !cut.contains("TCA ") && !cut.contains("closest approach"),
+        "{cut}"
+    );
     assert!(cut.contains("LOS "), "{cut}");
+    // cut at both ends with the highest point inside the window: a TCA like any other
+    let mut both = sample_pass();
+    (both.starts_before_window, both.ends_after_window) = (true, true);
+    let svg = svg_text(draw_pass(&both, ChartFormat::Svg).unwrap());
+    assert!(svg.contains("cut by the window at both ends"), "{svg}");
+    assert!(
+        svg.contains("window start ") && svg.contains("window end "),
+        "{svg}"
+    );
+    assert!(
+        svg.contains("TCA ") && svg.contains("closest approach"),
+        "{svg}"
+    );
 }

@@ -738,6 +738,18 @@ fn budget_says_where_a_plan_counts_nothing() {
     let el = |e: &str| warnings(budget(EXAMPLE, "nordkam", e, &["--format", "json"]));
     assert!(el("2").contains(below));
     assert!(!el("6").contains(below));
+    // the mission's planning.mask_deg, which a plan applies to every station, rules over it
+    let mask = |e: &str, deg: &str| {
+        let set = format!("planning.mask_deg={deg}");
+        warnings(budget(
+            EXAMPLE,
+            "nordkam",
+            e,
+            &["--set", &set, "--format", "json"],
+        ))
+    };
+    assert!(mask("7", "10").contains("below the mission's planning.mask_deg (10 deg)"));
+    assert!(!mask("4", "0").contains("a plan counts no second here"));
     let o = run(&[
         "budget",
         EXAMPLE,
@@ -748,7 +760,9 @@ fn budget_says_where_a_plan_counts_nothing() {
         "--at",
         "2026-12-01T20:28:19Z",
     ]);
-    assert_eq!(o.status.code(), Some(2), "a usage error");
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.status.code(), Some(2), "a usage error: {err}");
+    assert!(err.contains("cannot be used with"), "{err}");
 }
 
 /// `atmosphere --format csv` has the JSON's fields, in its order (but the warnings and the
