@@ -109,13 +109,13 @@ pub fn chart_warnings(planner: &Planner) -> Vec<String> {
 /// gives it; of several, one line that counts them and gives the oldest's (a footer of a
 /// warning per satellite grew by two lines a satellite; the CSV and JSON files carry each).
 pub fn fleet_chart_warnings(planners: &[&Planner]) -> Vec<String> {
-    use crate::plan::inputs::{element_age_warning, ElementAge};
+    use crate::plan::inputs::{age_warning, ElementAge};
     let aged: Vec<(f64, String)> = planners
         .iter()
         .filter_map(|p| {
             let (set, w) = (p.elements(), p.window());
-            let text = element_age_warning(set, w.start(), w.end())?;
-            Some((ElementAge::of(set, w.start(), w.end()).days, text))
+            let age = ElementAge::of(set, w.start(), w.end());
+            Some((age.days, age_warning(set, &age)?))
         })
         .collect();
     let oldest = aged

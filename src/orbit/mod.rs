@@ -320,6 +320,19 @@ mod tests {
         s
     }
 
+    /// An unmatched query lists each satellite of the file once (a history holds one satellite
+    /// many times), five at most and then how many more.
+    #[test]
+    fn an_unmatched_query_lists_each_satellite_once() {
+        let history = vec![set(99901, "W", 1), set(99901, "W", 3), set(99902, "V", 4)];
+        let e = select(&history, Some("nothing")).unwrap_err().to_string();
+        assert!(e.ends_with("the file holds W (99901), V (99902))"), "{e}");
+        let many: Vec<ElementSet> = (0..7).map(|k| set(99910 + k, "S", 1)).collect();
+        let e = select(&many, Some("nothing")).unwrap_err().to_string();
+        assert!(e.contains("S (99914) and 2 more)"), "{e}");
+        assert!(!e.contains("99915"), "{e}");
+    }
+
     #[test]
     fn history_picks_latest_before_window() {
         let sets = vec![

@@ -204,7 +204,11 @@ pub fn element_age_warning(
     start: chrono::DateTime<chrono::Utc>,
     end: chrono::DateTime<chrono::Utc>,
 ) -> Option<String> {
-    let age = ElementAge::of(set, start, end);
+    age_warning(set, &ElementAge::of(set, start, end))
+}
+
+/// [`element_age_warning`] for an age already worked out.
+pub fn age_warning(set: &ElementSet, age: &ElementAge) -> Option<String> {
     let reach = age.reach(set);
     let d = age.days;
     if d > MAX_ELEMENT_AGE_DAYS {

@@ -993,6 +993,16 @@ fn a_cut_pass_says_it_is_cut() {
         "{cut}"
     );
     assert!(cut.contains("LOS "), "{cut}");
+    // cut at the end with the highest point there: that edge is named, no TCA
+    let mut end = sample_pass();
+    end.ends_after_window = true;
+    end.tca = end.los;
+    let svg = svg_text(draw_pass(&end, ChartFormat::Svg).unwrap());
+    assert!(svg.contains("window end ") && svg.contains("AOS "), "{svg}");
+    assert!(
+        !svg.contains("TCA ") && !svg.contains("closest approach"),
+        "{svg}"
+    );
     // cut at both ends with the highest point inside the window: a TCA like any other
     let mut both = sample_pass();
     (both.starts_before_window, both.ends_after_window) = (true, true);
