@@ -125,8 +125,8 @@ fn run_text(r: &RunDoc) -> String {
     t
 }
 
-/// A difference with its sign, `-` for none, and no sign for one that shows as zero (`0.0`, not `-0.0` or `+0.00`
-/// for a few milliseconds or thousandths of a dB).
+/// A difference with its sign, `-` for none, and no sign for one that shows as zero (`0.0`,
+/// not `-0.0` or `+0.00` for a few milliseconds or thousandths of a dB).
 fn signed(x: Option<f64>, text: impl Fn(f64) -> String) -> String {
     let Some(v) = x else {
         return "-".into();
