@@ -36,28 +36,17 @@ struct RunDoc {
     set: Vec<String>,
 }
 
-/// An error of run B that names a `--set-b` value by its own flag: the library names every
-/// override `--set`, and a user told `--set X` looked for it among the shared ones.
-fn name_set_b(e: anyhow::Error, set_b: &[String]) -> anyhow::Error {
-    let mut text = crate::cli::one_line(&e);
-    for arg in set_b {
-        text = text.replace(&format!("--set {arg}"), &format!("--set-b {arg}"));
-    }
-    anyhow::anyhow!(text)
-}
-
 /// `passbudget compare`.
 pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
     let path_a = a.window.mission.path().to_path_buf();
     let path_b = a.mission_b.clone().unwrap_or_else(|| path_a.clone());
     let shared = a.window.mission.overrides()?;
-    let only_b = Overrides::parse(&a.set_b).map_err(|e| name_set_b(e.into(), &a.set_b))?;
+    let only_b = Overrides::parse_as(&a.set_b, "--set-b")?;
     let planner_a = a.window.planner_with(false, &path_a, &shared, None)?;
     let window = planner_a.window();
     let planner_b = a
         .window
-        .planner_with(false, &path_b, &shared.and(&only_b), Some(&window))
-        .map_err(|e| name_set_b(e, &a.set_b))?;
+        .planner_with(false, &path_b, &shared.and(&only_b), Some(&window))?;
     let plan_a = planner_a.collect()?;
     let plan_b = planner_b.collect()?;
     warn(&run_warnings(&plan_a.warnings, &plan_b.warnings));

@@ -266,7 +266,7 @@ pub fn name_flag(
         let set = || {
             let k = format!("planning.{key}");
             let o = overrides.mission().into_iter().rev().find(|o| o.key == k)?;
-            Some(format!("{}: --set {}: {k}", mission.display(), o.arg))
+            Some(format!("{}: {}: {k}", mission.display(), o.given()))
         };
         match key {
             "step_s" if r.step_s.is_some() => Some("--step-s".into()),

@@ -310,8 +310,8 @@ pub struct Mission {
     pub transmitter: Option<TransmitterConfig>,
     pub modem: Option<ModemConfig>,
     pub defaults: Vec<DefaultUsed>,
-    /// The keys given by `--set` (the dotted key, the argument), for messages about them raised
-    /// after validation ([`Mission::origin`]).
+    /// The keys given by `--set` (the dotted key, the option and argument as given), for
+    /// messages about them raised after validation ([`Mission::origin`]).
     pub set_keys: Vec<(String, String)>,
 }
 
@@ -414,10 +414,7 @@ impl Mission {
                 .and_then(|p| p.spectrum)
                 .unwrap_or_default(),
             defaults: c.defaults,
-            set_keys: applied
-                .iter()
-                .map(|a| (a.key.clone(), a.arg.clone()))
-                .collect(),
+            set_keys: applied.iter().map(|a| (a.key.clone(), a.given())).collect(),
         })
     }
 
@@ -444,7 +441,7 @@ impl Mission {
             .rev()
             .find(|(k, _)| key == k || key.starts_with(&format!("{k}.")));
         match (set, line) {
-            (Some((_, arg)), _) => format!("{}: --set {arg}", self.source.display()),
+            (Some((_, given)), _) => format!("{}: {given}", self.source.display()),
             (None, Some(l)) => format!("{}:{l}", self.source.display()),
             (None, None) => self.source.display().to_string(),
         }

@@ -24,7 +24,7 @@ use std::path::{Path, PathBuf};
 /// place of a line: `file: --set KEY=VALUE: message`.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 #[error("{}{}: {message}", path.display(), match set {
-    Some(s) => format!(": --set {s}"),
+    Some(s) => format!(": {s}"),
     None => line.map(|l| format!(":{l}")).unwrap_or_default(),
 })]
 pub struct ConfigError {
@@ -32,7 +32,8 @@ pub struct ConfigError {
     pub line: Option<usize>,
     pub key: Option<String>,
     pub message: String,
-    /// The `--set` argument that gave the value, when the error is about one.
+    /// The option and argument that gave the value (`--set KEY=VALUE`), when the error is
+    /// about one.
     pub set: Option<String>,
 }
 
@@ -52,9 +53,10 @@ impl ConfigError {
         }
     }
 
-    /// The same error, about the value of a `--set` argument (no line).
-    pub fn set_by(mut self, arg: &str) -> Self {
-        self.set = Some(arg.to_string());
+    /// The same error, about the value of an override (no line): `given` is the option and its
+    /// argument, `--set KEY=VALUE`.
+    pub fn set_by(mut self, given: &str) -> Self {
+        self.set = Some(given.to_string());
         self.line = None;
         self
     }
@@ -204,7 +206,7 @@ impl<'a> Checker<'a> {
     /// The error as it reads for a key set by `--set`: naming the argument.
     fn named(&self, key: &str, e: ConfigError) -> ConfigError {
         match overrides::overridden(self.overrides, key) {
-            Some(o) => e.set_by(&o.arg),
+            Some(o) => e.set_by(&o.given()),
             None => e,
         }
     }

@@ -55,6 +55,8 @@ enum Target {
 pub struct Override {
     /// The argument as given, for messages.
     pub arg: String,
+    /// The option that gave it (`--set`, or `compare`'s `--set-b`), for messages.
+    pub flag: &'static str,
     target: Target,
     value: Value,
 }
@@ -64,7 +66,15 @@ pub struct Override {
 pub struct Applied {
     pub key: String,
     pub arg: String,
+    pub flag: &'static str,
     value: Value,
+}
+
+impl Applied {
+    /// The option and its argument as given (`--set KEY=VALUE`), for messages.
+    pub fn given(&self) -> String {
+        format!("{} {}", self.flag, self.arg)
+    }
 }
 
 /// The overrides of one run, in the order given (a later one wins over an earlier one).
@@ -75,16 +85,23 @@ pub struct Overrides {
 
 /// A `--set` argument that cannot be read.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
-#[error("--set {arg}: {message}")]
+#[error("{flag} {arg}: {message}")]
 pub struct OverrideError {
+    pub flag: &'static str,
     pub arg: String,
     pub message: String,
 }
 
 impl Override {
-    /// Read `KEY=VALUE`.
+    /// Read `KEY=VALUE` given by `--set`.
     pub fn parse(arg: &str) -> Result<Override, OverrideError> {
+        Override::parse_as(arg, "--set")
+    }
+
+    /// Read `KEY=VALUE` given by the option `flag` (named so in messages).
+    pub fn parse_as(arg: &str, flag: &'static str) -> Result<Override, OverrideError> {
         let err = |m: &str| OverrideError {
+            flag,
             arg: arg.to_string(),
             message: m.to_string(),
         };
@@ -111,6 +128,7 @@ impl Override {
         };
         Ok(Override {
             arg: arg.to_string(),
+            flag,
             target,
             value,
         })
@@ -142,9 +160,17 @@ impl Override {
 impl Overrides {
     /// Read every `--set` argument.
     pub fn parse<S: AsRef<str>>(args: &[S]) -> Result<Overrides, OverrideError> {
+        Overrides::parse_as(args, "--set")
+    }
+
+    /// Read every argument of the option `flag` (`compare`'s `--set-b`: its errors name it).
+    pub fn parse_as<S: AsRef<str>>(
+        args: &[S],
+        flag: &'static str,
+    ) -> Result<Overrides, OverrideError> {
         let items = args
             .iter()
-            .map(|a| Override::parse(a.as_ref()))
+            .map(|a| Override::parse_as(a.as_ref(), flag))
             .collect::<Result<_, _>>()?;
         Ok(Overrides { items })
     }
@@ -177,6 +203,7 @@ impl Overrides {
                 o.key_for(station).map(|key| Applied {
                     key,
                     arg: o.arg.clone(),
+                    flag: o.flag,
                     value: o.value.clone(),
                 })
             })
@@ -212,7 +239,8 @@ impl Overrides {
                     "no station of this run is named so (stations: {}); write station.NAME.KEY with NAME as in the station file, or station.*.KEY for every station",
                     names.join(", ")
                 );
-                return Err(ConfigError::new(path, None, None, msg).set_by(&o.arg));
+                return Err(ConfigError::new(path, None, None, msg)
+                    .set_by(&format!("{} {}", o.flag, o.arg)));
             }
         }
         Ok(())
@@ -236,7 +264,7 @@ pub(crate) fn parse_with<T: serde::de::DeserializeOwned>(
     };
     for o in overrides {
         set(&mut tree, o).map_err(|m| {
-            ConfigError::new(path, None, Some(&o.key), format!("{}: {m}", o.key)).set_by(&o.arg)
+            ConfigError::new(path, None, Some(&o.key), format!("{}: {m}", o.key)).set_by(&o.given())
         })?;
     }
     let changed = serde_yaml::to_string(&tree)
@@ -352,8 +380,8 @@ fn blame(path: &Path, message: &str, overrides: &[Applied]) -> ConfigError {
             o.key
         ));
     }
-    let args: Vec<&str> = hit.iter().map(|o| o.arg.as_str()).collect();
-    ConfigError::new(path, None, None, msg).set_by(&args.join(" --set "))
+    let args: Vec<String> = hit.iter().map(|o| o.given()).collect();
+    ConfigError::new(path, None, None, msg).set_by(&args.join(" "))
 }
 
 #[cfg(test)]
