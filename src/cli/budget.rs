@@ -38,7 +38,7 @@ pub struct BudgetArgs {
     )]
     pub elevation_deg: Option<f64>,
     /// Azimuth, deg, with --elevation-deg: where a station's terrain rises above the horizon its
-    /// noise depends on it (default: the azimuth where that noise is highest).
+    /// noise depends on it (default: the azimuth in view where that noise is highest).
     #[arg(
         long,
         value_name = "DEG",

@@ -737,6 +737,8 @@ fn sky_legend_lists_no_budget_only_when_drawn() {
 /// part of the track in its own look, each with a legend entry, and neither when every sample is
 /// followed (a gap in the rates with no reason beside it, and a track drawn as a working link
 /// through the stretch, misled).
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn charts_mark_where_the_antenna_cannot_follow() {
     let key = "antenna cannot follow";
@@ -761,6 +763,8 @@ fn charts_mark_where_the_antenna_cannot_follow() {
 /// The sky chart's track breaks at a point of no position instead of joining its neighbours
 /// with a chord across the sky, and a last point without a budget (its marker drawn in the
 /// no-budget colour) puts "no budget" in the legend.
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn sky_track_breaks_at_a_gap_and_lists_a_last_unbudgeted_point() {
     let mut d = sample_sky();
@@ -974,6 +978,8 @@ fn indexed_drawing_gives_the_rgb_backends_bytes() {
 /// window's start or end instead of AOS or LOS, and a highest point at that edge is not labelled
 /// TCA (the labels `AOS 20:30:00` and `TCA 20:30:00` overlapped, and the chart looked like a
 /// whole pass).
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn a_cut_pass_says_it_is_cut() {
     let mut d = sample_pass();

@@ -794,6 +794,8 @@ fn atmosphere_csv_has_the_json_fields() {
 
 /// The flag of a threshold recalled from memory sits on the threshold (`required_ebn0`), not on
 /// the error rate it is for: the table read the error rate as the unconfirmed value.
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn the_recalled_flag_sits_on_the_threshold() {
     let b = json(&budget(EXAMPLE, "Nordkam", "30", &["--format", "json"]));
@@ -802,8 +804,10 @@ fn the_recalled_flag_sits_on_the_threshold() {
 }
 
 /// Without a time the Sun and the Moon are not evaluated, so their models' range is not warned of
-/// (at 437.5 MHz the Moon's 1-100 GHz model was warned of in a budget that never placed it); with
+/// (at 437.5 MHz the Moon's model, stated for 1-100 GHz in the code's lunar disk source (README "Models and sources"), was warned of in a budget that never placed it); with
 /// `--at` it is.
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn bodies_are_warned_of_only_where_they_are_evaluated() {
     let uhf = [
@@ -828,7 +832,9 @@ fn bodies_are_warned_of_only_where_they_are_evaluated() {
 }
 
 /// `atmosphere` gives one line for every model whose frequency range the frequency lies outside,
-/// as `budget` and `plan` do (it gave one line per model: four at 437.5 MHz).
+/// in the form `budget` and `plan` use (`series::frequency_range_line`) (it gave one line per model: four at 437.5 MHz).
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn atmosphere_groups_its_frequency_range_lines() {
     let doc = atmosphere_json_mhz("stations/nordkam.yaml", "437.5", "20");

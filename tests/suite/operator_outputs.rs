@@ -736,7 +736,8 @@ fn fleet_chart_footer_counts_the_old_element_sets() {
         svg.contains("the element sets of 4 satellites are old for this window"),
         "{svg}"
     );
-    // all four share one epoch: the first of the fleet is the oldest named
+    // all four share one epoch (kestrel.tle: 26335.5, 2026-12-01T12:00Z) and the window ends
+    // 2026-12-20T12:00Z: 19.0 days; the first of the fleet is the oldest named
     assert!(
         svg.contains("19.0 days after the epoch of KESTREL-A"),
         "{svg}"
@@ -788,6 +789,8 @@ fn fleet_timeline_counts_an_unbooked_pass_once() {
 /// The tables say what they show: `track` names the satellite, the station and the step and
 /// heads its column `range rate km/s` (a `rate` beside Doppler read as a data rate); `passes`
 /// heads its last column; the contact table says its edges are those of the counted steps.
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn tables_name_what_they_show() {
     let m = "examples/wrenlet-1.yaml";
@@ -820,6 +823,8 @@ fn tables_name_what_they_show() {
 
 /// A fleet prints its notes as notes, as one satellite's plan does, and `--sat` (a set of an
 /// element file) cannot contradict `--satellite` (a satellite of the mission).
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn fleet_notes_are_notes_and_sat_does_not_contradict_satellite() {
     let fleet = "examples/fleet/kestrel-fleet.yaml";
@@ -851,6 +856,8 @@ fn fleet_notes_are_notes_and_sat_does_not_contradict_satellite() {
 /// none of the adaptive mode's or the recalled thresholds' and pfd row's; `mask` trades the ladder
 /// rates' volumes, so the thresholds' but not the pfd's or the adaptive mode's. `plan --format
 /// json` prints them all (its table prints the recalled values in its own closing notes).
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn commands_print_the_notes_that_concern_them() {
     let m = "examples/wrenlet-1.yaml";
@@ -918,6 +925,8 @@ fn empty_csvs_keep_their_header_row() {
         "--out",
         df.to_str().unwrap(),
     ]));
+    // (masks.csv and days.csv have rows in any window, a row per station and rate or per day:
+    // for them this checks the header only)
     for f in ["summary.csv", "contacts.csv", "masks.csv", "days.csv"] {
         let e = std::fs::read_to_string(de.join(f)).unwrap();
         let full = std::fs::read_to_string(df.join(f)).unwrap();
@@ -928,6 +937,8 @@ fn empty_csvs_keep_their_header_row() {
 /// Every output whose figures rest on a value recalled from memory flags it: `mask`'s JSON and
 /// CSV (its volumes per ladder rate rest on the built-in thresholds) and `compare`'s (its rates
 /// too); `mask`'s JSON also carries the caution, as every JSON does.
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn mask_and_compare_files_flag_the_recalled_thresholds() {
     let m = "examples/wrenlet-1.yaml";
@@ -952,6 +963,8 @@ fn mask_and_compare_files_flag_the_recalled_thresholds() {
 /// Errors name the argument the user gave: a `--set-b` value of `compare` is named `--set-b`
 /// (it was named `--set`, and the user looked among the shared ones); `chart --pass` with
 /// `--kind mask` (whole-window charts) is refused instead of drawing nothing and succeeding.
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn errors_name_set_b_and_refuse_a_pass_of_window_charts() {
     let m = "examples/wrenlet-1.yaml";
@@ -1006,6 +1019,7 @@ fn passes_durations_add_up_and_compare_has_no_signed_zero() {
         assert_eq!((los - aos).rem_euclid(86_400), shown, "{line}");
         rows += 1;
     }
+    // every pass of the week: 132, as `plan`'s table of the same window
     assert_eq!(rows, 132, "{t}");
     let c = success(&run(&[
         "compare",
@@ -1020,6 +1034,8 @@ fn passes_durations_add_up_and_compare_has_no_signed_zero() {
 }
 
 /// `track --above-mask` with no point above the mask says so (it printed only the header).
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn an_empty_track_says_why() {
     let o = run(&[
@@ -1040,6 +1056,8 @@ fn an_empty_track_says_why() {
 
 /// `mask --mask-step-deg` takes whole degrees from 1 to 40 and says so (2.5 read "invalid digit
 /// found in string"; 50 gave the 0 deg row alone): a usage error, exit 2.
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn the_mask_step_says_what_it_takes() {
     for bad in ["2.5", "0", "50"] {

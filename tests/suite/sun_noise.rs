@@ -475,6 +475,8 @@ fn per_step_csv_itemizes_the_rain_case_like_clear_sky() {
 
 /// A satellite near the geostationary arc with no outage season in the window: the table says
 /// "none" (it printed an empty table under the heading).
+///
+/// Basis: a behaviour check of what the output says (no published reference applies).
 #[test]
 fn no_outage_season_reads_none() {
     let dir = tempfile::tempdir().unwrap();
