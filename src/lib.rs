@@ -13,6 +13,7 @@ pub mod chart;
 pub mod config;
 pub mod engfmt;
 pub mod geometry;
+pub mod infile;
 pub mod link;
 pub mod noise;
 pub mod orbit;

@@ -5,6 +5,7 @@ use crate::cli::common::{note, warn, Format};
 use crate::cli::table::{Align, Table};
 use crate::cli::window::WindowArgs;
 use anyhow::Result;
+use passbudget::config::mission::Mission;
 use passbudget::config::overrides::Overrides;
 use passbudget::engfmt;
 use passbudget::report::compare::{compare as compare_plans, Comparison, PassDiffRow, Side};
@@ -42,11 +43,22 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
     let path_b = a.mission_b.clone().unwrap_or_else(|| path_a.clone());
     let shared = a.window.mission.overrides()?;
     let only_b = Overrides::parse_as(&a.set_b, "--set-b")?;
-    let planner_a = a.window.planner_with(false, &path_a, &shared, None)?;
+    // Mission A's file is read once: B is the same file unless a second one is given, and a
+    // file given as a pipe can be read only once.
+    let text_a = passbudget::config::read_text(&path_a)?;
+    let mission_a = Mission::from_yaml_with(&path_a, &text_a, &shared)?;
+    let planner_a = a
+        .window
+        .planner_of(false, mission_a, &path_a, &shared, None)?;
     let window = planner_a.window();
+    let shared_b = shared.and(&only_b);
+    let mission_b = match &a.mission_b {
+        Some(_) => Mission::load_with(&path_b, &shared_b)?,
+        None => Mission::from_yaml_with(&path_a, &text_a, &shared_b)?,
+    };
     let planner_b = a
         .window
-        .planner_with(false, &path_b, &shared.and(&only_b), Some(&window))?;
+        .planner_of(false, mission_b, &path_b, &shared_b, Some(&window))?;
     let plan_a = planner_a.collect()?;
     let plan_b = planner_b.collect()?;
     warn(&run_warnings(&plan_a.warnings, &plan_b.warnings));

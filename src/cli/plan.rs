@@ -77,7 +77,11 @@ pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
     }
     let staging = a.out.as_deref().map(stage).transpose()?;
     // The charts' mask trade-off needs the passes below the configured mask: the same run gathers it.
-    let planner = a.window.planner(a.charts)?;
+    let overrides = a.window.mission.overrides()?;
+    let path = a.window.mission.path();
+    let planner = a
+        .window
+        .planner_of(a.charts, mission, path, &overrides, None)?;
     let target = a.out.clone().unwrap_or_default();
     let format: ChartFormat = a.chart_format.into();
     if staging.is_some() {

@@ -146,24 +146,23 @@ impl WindowArgs {
 
     /// Load the mission (with the `--set` overrides) and prepare the planner.
     pub fn planner(&self, tradeoff: bool) -> Result<Planner> {
-        self.planner_with(
-            tradeoff,
-            self.mission.path(),
-            &self.mission.overrides()?,
-            None,
-        )
+        let overrides = self.mission.overrides()?;
+        let mission = Mission::load_with(self.mission.path(), &overrides)?;
+        self.planner_of(tradeoff, mission, self.mission.path(), &overrides, None)
     }
 
-    /// The planner of another mission file or other overrides with the same flags; `window`, when
-    /// given, replaces the window flags (`compare` plans B over A's resolved window).
-    pub fn planner_with(
+    /// The planner of a mission already loaded from `path` with `overrides` (a mission file given
+    /// as a pipe can be read only once), with the same flags; `window`, when given, replaces the
+    /// window flags (`compare` plans B over A's resolved window).
+    pub fn planner_of(
         &self,
         tradeoff: bool,
+        mission: Mission,
         path: &Path,
         overrides: &Overrides,
         window: Option<&Window>,
     ) -> Result<Planner> {
-        let mission = self.one_satellite(Mission::load_with(path, overrides)?)?;
+        let mission = self.one_satellite(mission)?;
         let mut request = self.request(tradeoff)?;
         if let Some(w) = window {
             request.window = WindowRequest {

@@ -62,9 +62,10 @@ impl ConfigError {
     }
 }
 
-/// Read a whole text file, mapping I/O errors to a [`ConfigError`].
+/// Read a whole text file under the input rule of [`crate::infile`], mapping I/O errors to a
+/// [`ConfigError`].
 pub fn read_text(path: &Path) -> Result<String, ConfigError> {
-    std::fs::read_to_string(path)
+    crate::infile::read_text(path)
         .map_err(|e| ConfigError::new(path, None, None, format!("cannot read file: {e}")))
 }
 
@@ -76,6 +77,16 @@ pub fn parse_yaml<T: serde::de::DeserializeOwned>(
 ) -> Result<T, ConfigError> {
     if text.trim().is_empty() {
         return Err(ConfigError::new(path, None, None, "file is empty"));
+    }
+    if let Some(line) = too_deep(text) {
+        return Err(ConfigError::new(
+            path,
+            Some(line),
+            None,
+            format!(
+                "brackets nested more than {MAX_FLOW_DEPTH} deep (our files need a few levels)"
+            ),
+        ));
     }
     serde_yaml::from_str(text).map_err(|e| {
         let mut line = e.location().map(|l| l.line());
@@ -93,6 +104,42 @@ pub fn parse_yaml<T: serde::de::DeserializeOwned>(
         }
         ConfigError::new(path, line, None, message)
     })
+}
+
+/// Deepest nesting of YAML flow collections (`[...]`, `{...}`) a file may hold. The YAML parser
+/// takes time growing with the square of that depth (tens of seconds for a 200 KB line of
+/// brackets), so deeper text is refused before it is parsed.
+pub const MAX_FLOW_DEPTH: usize = 64;
+
+/// The line (1-based) where flow collections first nest deeper than [`MAX_FLOW_DEPTH`], if they
+/// do. Brackets inside quoted scalars and comments are not counted; a bracket in a plain or block
+/// scalar is (an over-count can only refuse such text at a depth no file of ours comes near).
+fn too_deep(text: &str) -> Option<usize> {
+    let mut depth = 0usize;
+    for (i, line) in text.lines().enumerate() {
+        let (mut quote, mut escaped, mut previous) = (None, false, ' ');
+        for c in line.chars() {
+            match (quote, c) {
+                // a backslash escapes the next character inside double quotes only
+                (Some('"'), _) if escaped => escaped = false,
+                (Some('"'), '\\') => escaped = true,
+                (Some(q), c) if c == q => quote = None,
+                (Some(_), _) => {}
+                (None, '\'' | '"') => quote = Some(c),
+                (None, '#') if previous.is_whitespace() => break,
+                (None, '[' | '{') => {
+                    depth += 1;
+                    if depth > MAX_FLOW_DEPTH {
+                        return Some(i + 1);
+                    }
+                }
+                (None, ']' | '}') => depth = depth.saturating_sub(1),
+                _ => {}
+            }
+            previous = c;
+        }
+    }
+    None
 }
 
 /// serde_yaml's `invalid type: string "1e400", expected f64` for a number that overflows a

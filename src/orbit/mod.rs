@@ -107,7 +107,7 @@ pub enum ParseError {
 
 /// Read an element file (TLE, OMM JSON or OMM KVN; detected by [`detect_format`]).
 pub fn load_elements(path: &Path) -> Result<Vec<ElementSet>, OrbitInputError> {
-    let text = std::fs::read_to_string(path).map_err(|source| OrbitInputError::Io {
+    let text = crate::infile::read_text(path).map_err(|source| OrbitInputError::Io {
         path: path.to_path_buf(),
         source,
     })?;

@@ -506,3 +506,121 @@ fn a_ten_thousand_point_mask_matches_a_linear_scan() {
     let lowest = sorted.iter().map(|p| p[1]).fold(f64::INFINITY, f64::min);
     assert_eq!(mask.lowest_limit_deg(), lowest.max(3.0));
 }
+
+// ---- input files that are not ordinary files ----
+
+/// Runs the binary with `stdin_text` piped to its standard input.
+fn run_with_stdin(args: &[&str], stdin_text: &str) -> std::process::Output {
+    use std::io::Write;
+    let mut child = command()
+        .current_dir(root())
+        .args(args)
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .expect("binary runs");
+    let mut stdin = child.stdin.take().unwrap();
+    let text = stdin_text.to_string();
+    let writer = std::thread::spawn(move || {
+        // The binary may stop reading early (an error): a broken pipe is not this test's failure.
+        let _ = stdin.write_all(text.as_bytes());
+    });
+    let out = child.wait_with_output().unwrap();
+    writer.join().unwrap();
+    out
+}
+
+/// A mission file given as a pipe (`/dev/stdin`, as `<(...)` in a shell) is read once: `plan`
+/// and `compare` (B the same file) used to read it twice and found the second read empty.
+/// Basis: a behaviour check of the input rule (no published reference applies).
+#[cfg(unix)]
+#[test]
+fn a_mission_given_as_a_pipe_is_read_once() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = mission_in(
+        dir.path(),
+        &root().join("examples/sat.tle").display().to_string(),
+        "2026-12-01T12:00:00Z",
+        1.0,
+    );
+    let text = std::fs::read_to_string(&path).unwrap();
+    let piped = run_with_stdin(&["plan", "/dev/stdin", "--quiet"], &text);
+    let direct = run(&["plan", &path, "--quiet"]);
+    let (piped, direct) = (success(&piped), success(&direct));
+    // The same plan, the file's name apart.
+    assert!(piped.contains("WRENLET-1 over 3 station(s)"), "{piped}");
+    assert_eq!(piped.lines().count(), direct.lines().count());
+    let o = run_with_stdin(
+        &[
+            "compare",
+            "/dev/stdin",
+            "--set-b",
+            "transmitter.power_w=5",
+            "--quiet",
+        ],
+        &text,
+    );
+    let table = success(&o);
+    assert!(table.contains("transmitter.power_w=5"), "{table}");
+}
+
+/// A device as an input file is refused at once, not read until the memory runs out.
+/// Basis: a behaviour check of the input rule (no published reference applies).
+#[cfg(unix)]
+#[test]
+fn a_device_as_an_input_file_is_refused() {
+    let o = run(&["plan", "/dev/zero"]);
+    clean_error(&o, &["/dev/zero", "not a file (a device or a socket)"]);
+    let o = run(&[
+        "passes",
+        "examples/wrenlet-1.yaml",
+        "--tle",
+        "/dev/urandom",
+        "--days",
+        "1",
+    ]);
+    clean_error(&o, &["/dev/urandom", "not a file (a device or a socket)"]);
+}
+
+/// Brackets nested deeper than the limit are refused with their line before the YAML parser
+/// sees them (its time grows with the square of the depth); nesting within it and brackets in
+/// quotes or comments do not count.
+/// Basis: a behaviour check of the input rule (no published reference applies).
+#[test]
+fn deeply_nested_yaml_is_refused_with_its_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let st = std::fs::read_to_string(root().join("stations/nordkam.yaml")).unwrap();
+    let lines = st.lines().count();
+    let deep = format!("{st}\nextra: {}{}\n", "[".repeat(65), "]".repeat(65));
+    let path = write(dir.path(), "deep.yaml", &deep);
+    let args = [
+        "atmosphere",
+        "--station",
+        &path,
+        "--frequency-ghz",
+        "8.2",
+        "--elevation-deg",
+        "30",
+    ];
+    let o = run(&args);
+    clean_error(
+        &o,
+        &[
+            &format!("deep.yaml:{}:", lines + 2),
+            "nested more than 64 deep",
+        ],
+    );
+    // 64 deep, and brackets in quotes and comments: parsed, so the unknown key is what is named.
+    let ok = format!(
+        "{st}\nextra: {}{} # {}\nother: \"[[[[\"\n",
+        "[".repeat(64),
+        "]".repeat(64),
+        "[".repeat(100)
+    );
+    std::fs::write(&path, ok).unwrap();
+    let o = run(&args);
+    let e = String::from_utf8_lossy(&o.stderr);
+    assert!(!o.status.success() && e.contains("extra"), "{e}");
+    assert!(!e.contains("nested more than"), "{e}");
+}

@@ -1,0 +1,70 @@
+//! Reading a file the user names (a mission, a station, an element set, a generation profile):
+//! one rule for every input. The file must be a regular file or a pipe (`<(...)` in a shell), not
+//! a device such as `/dev/zero`, and may hold at most [`MAX_INPUT_BYTES`]: an input that never
+//! ends is refused after that many bytes instead of filling the memory.
+
+use std::io::Read;
+use std::path::Path;
+
+/// Most bytes an input file may hold (256 MiB: a generation profile of several million rows or
+/// an element-set history of a million sets fits; our own inputs are kilobytes).
+pub const MAX_INPUT_BYTES: u64 = 256 * 1024 * 1024;
+
+/// The whole text of the input file at `path` (UTF-8), under the rule of this module. The error
+/// is the operating system's, or says why the file was refused.
+pub fn read_text(path: &Path) -> std::io::Result<String> {
+    read_text_limited(path, MAX_INPUT_BYTES)
+}
+
+/// [`read_text`] with another size limit (for tests).
+pub fn read_text_limited(path: &Path, max_bytes: u64) -> std::io::Result<String> {
+    let file = std::fs::File::open(path)?;
+    refuse_devices(&file.metadata()?.file_type())?;
+    let mut text = String::new();
+    file.take(max_bytes + 1).read_to_string(&mut text)?;
+    if text.len() as u64 > max_bytes {
+        return Err(std::io::Error::other(format!(
+            "the file holds more than {} MiB, the most an input file may hold",
+            max_bytes / (1024 * 1024)
+        )));
+    }
+    Ok(text)
+}
+
+#[cfg(unix)]
+fn refuse_devices(kind: &std::fs::FileType) -> std::io::Result<()> {
+    use std::os::unix::fs::FileTypeExt;
+    if kind.is_char_device() || kind.is_block_device() || kind.is_socket() {
+        return Err(std::io::Error::other(
+            "not a file (a device or a socket); give a regular file or a pipe",
+        ));
+    }
+    Ok(())
+}
+
+#[cfg(not(unix))]
+fn refuse_devices(_: &std::fs::FileType) -> std::io::Result<()> {
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Basis: a behaviour check of the input rule (no published reference applies).
+    #[test]
+    fn devices_and_oversized_files_are_refused() {
+        let dir = tempfile::tempdir().unwrap();
+        let p = dir.path().join("m.yaml");
+        std::fs::write(&p, "x".repeat(2 * 1024 * 1024 + 1)).unwrap();
+        let e = read_text_limited(&p, 2 * 1024 * 1024).unwrap_err();
+        assert!(e.to_string().contains("more than 2 MiB"), "{e}");
+        std::fs::write(&p, "name: a\n").unwrap();
+        assert_eq!(read_text(&p).unwrap(), "name: a\n");
+        #[cfg(unix)]
+        {
+            let e = read_text(Path::new("/dev/zero")).unwrap_err();
+            assert!(e.to_string().contains("not a file"), "{e}");
+        }
+    }
+}
