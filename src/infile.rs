@@ -31,6 +31,34 @@ pub fn read_text_limited(path: &Path, max_bytes: u64) -> std::io::Result<String>
     Ok(text)
 }
 
+/// The first control character (ESC, BEL, CR, DEL...) or text-reordering character (see
+/// [`reorders_text`]) in a name read from an input file, if any.
+/// Names (of a mission, a station, a satellite, a scheme, an element set's object) go into
+/// tables on a terminal, CSV, calendars and file names, where such a character would act on the
+/// terminal or break a calendar's lines; every reader of a name refuses one through this rule.
+pub fn control_character(name: &str) -> Option<char> {
+    name.chars().find(|&c| c.is_control() || reorders_text(c))
+}
+
+/// Unicode's directional embeddings, overrides and isolates (U+202A-U+202E, U+2066-U+2069) and
+/// the line and paragraph separators (U+2028, U+2029): invisible characters that reorder or break
+/// the text around them on a display.
+fn reorders_text(c: char) -> bool {
+    matches!(c, '\u{202A}'..='\u{202E}' | '\u{2066}'..='\u{2069}' | '\u{2028}' | '\u{2029}')
+}
+
+/// The message for a name holding `c` (see [`control_character`]).
+pub fn control_character_message(c: char) -> String {
+    let kind = match c.is_control() {
+        true => "a control character",
+        false => "a text-reordering character",
+    };
+    format!(
+        "holds {kind} (U+{:04X}); a name may hold only printable characters",
+        u32::from(c)
+    )
+}
+
 #[cfg(unix)]
 fn refuse_devices(kind: &std::fs::FileType) -> std::io::Result<()> {
     use std::os::unix::fs::FileTypeExt;
@@ -61,6 +89,13 @@ mod tests {
         assert!(e.to_string().contains("more than 2 MiB"), "{e}");
         std::fs::write(&p, "name: a\n").unwrap();
         assert_eq!(read_text(&p).unwrap(), "name: a\n");
+        // Letters of every script are names; control and reordering characters are not.
+        assert_eq!(control_character("Pulau Réka 北 Ålesund"), None);
+        for c in [
+            '\u{1b}', '\t', '\r', '\u{7f}', '\u{85}', '\u{202E}', '\u{2067}', '\u{2028}',
+        ] {
+            assert_eq!(control_character(&format!("a{c}b")), Some(c), "{c:?}");
+        }
         #[cfg(unix)]
         {
             let e = read_text(Path::new("/dev/zero")).unwrap_err();

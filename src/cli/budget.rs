@@ -6,7 +6,7 @@ use crate::cli::window::{
     named_the_one_satellite, one_satellite, stations_and_mission, MissionArgs,
 };
 use anyhow::{anyhow, bail, Result};
-use passbudget::config::limits::FREQUENCY_MHZ;
+use passbudget::config::limits::{short_number, FREQUENCY_MHZ};
 use passbudget::config::station::Station;
 use passbudget::config::DefaultUsed;
 use passbudget::plan::instant::{
@@ -37,8 +37,9 @@ pub struct BudgetArgs {
         required_unless_present = "at"
     )]
     pub elevation_deg: Option<f64>,
-    /// Azimuth, deg, with --elevation-deg: where a station's terrain rises above the horizon its
-    /// noise depends on it (default: the azimuth in view where that noise is highest).
+    /// Azimuth, deg (-360 to 720, taken modulo 360), with --elevation-deg: where a station's
+    /// terrain rises above the horizon its noise depends on it (default: the azimuth in view where
+    /// that noise is highest).
     #[arg(
         long,
         value_name = "DEG",
@@ -150,7 +151,9 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
             anyhow!("--at: {s}; --allow-stale-elements budgets anyway")
         }
         InstantError::Elevation(v) => anyhow!("--elevation-deg {v}: out of range (0 to 90 deg)"),
-        InstantError::Azimuth(v) => anyhow!("--azimuth-deg {v}: not a finite number of degrees"),
+        InstantError::Azimuth(v) => {
+            anyhow!("--azimuth-deg {v}: out of range (-360 to 720 deg, taken modulo 360)")
+        }
         InstantError::Range { source }
             if source.key == passbudget::config::limits::RATE_BPS.key =>
         {
@@ -375,8 +378,8 @@ fn print_atmosphere(doc: &AtmosphereDoc, out: &mut dyn Write) -> Result<()> {
         out,
         "{} at {} GHz, elevation {} deg, {}",
         doc.station,
-        doc.frequency_ghz,
-        doc.elevation_deg,
+        short_number(doc.frequency_ghz),
+        short_number(doc.elevation_deg),
         match doc.exceedance_percent {
             Some(p) => format!("exceeded {p} % of an average year"),
             None => "clear sky".into(),

@@ -45,7 +45,7 @@ pub fn compare(a: CompareArgs, out: &mut dyn Write) -> Result<()> {
     let only_b = Overrides::parse_as(&a.set_b, "--set-b")?;
     // Mission A's file is read once: B is the same file unless a second one is given, and a
     // file given as a pipe can be read only once.
-    let text_a = passbudget::config::read_text(&path_a)?;
+    let text_a = passbudget::config::read_yaml_text(&path_a)?;
     let mission_a = Mission::from_yaml_with(&path_a, &text_a, &shared)?;
     let planner_a = a
         .window

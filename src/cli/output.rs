@@ -19,6 +19,12 @@ pub fn stage(dir: &Path) -> Result<Staging> {
     let st = Staging::new(dir).with_context(|| {
         if dir.is_dir() {
             format!("--out {}", dir.display())
+        } else if dir.symlink_metadata().is_ok() {
+            // A file, a device or a link to nothing holds the name.
+            format!(
+                "--out {}: is not a folder (something else has that name)",
+                dir.display()
+            )
         } else {
             format!("--out {}: cannot create the folder", dir.display())
         }

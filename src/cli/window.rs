@@ -306,7 +306,11 @@ pub fn stations_and_mission(
     overrides: &Overrides,
 ) -> Result<(Vec<Station>, Option<Mission>)> {
     let mut from_files = Vec::new();
-    for v in values.iter().filter(|v| Path::new(v).is_file()) {
+    // A station file, or a pipe (`<(...)`): anything there but a folder.
+    for v in values
+        .iter()
+        .filter(|v| Path::new(v).exists() && !Path::new(v).is_dir())
+    {
         from_files.push((v, Station::load_with(Path::new(v), overrides)?));
     }
     let names: Vec<&str> = from_files.iter().map(|(_, s)| s.name.as_str()).collect();

@@ -4,7 +4,7 @@
 use super::defaults as dflt;
 use super::limits;
 use super::overrides::{parse_with, Overrides};
-use super::{read_text, Checker, ConfigError, DefaultUsed};
+use super::{read_yaml_text, Checker, ConfigError, DefaultUsed};
 use crate::config::station::{same_station, Station};
 use crate::link::antenna::TxPattern;
 use crate::link::modcod::ErrorMeasure;
@@ -345,7 +345,7 @@ impl Mission {
     /// Load and validate a mission file and its station files with `--set` overrides applied
     /// (see [`crate::config::overrides`]); every override naming a station must reach one.
     pub fn load_with(path: &Path, overrides: &Overrides) -> Result<Mission, ConfigError> {
-        let text = read_text(path)?;
+        let text = read_yaml_text(path)?;
         Self::from_yaml_with(path, &text, overrides)
     }
 
@@ -364,6 +364,12 @@ impl Mission {
         let applied = overrides.mission();
         let file: MissionFile = parse_with(path, text, &applied)?;
         let mut c = Checker::new(path, text, &applied);
+        if file.name.trim().is_empty() {
+            return Err(c.err("name", "must not be empty"));
+        }
+        if let Some(ch) = crate::infile::control_character(&file.name) {
+            return Err(c.err("name", crate::infile::control_character_message(ch)));
+        }
         let base = path.parent().map(Path::to_path_buf).unwrap_or_default();
         let stations = stations(&c, &base, &file.stations, overrides)?;
         let names: Vec<&str> = stations.iter().map(|s| s.name.as_str()).collect();
@@ -518,6 +524,10 @@ fn satellites(
                 let Some(name) = s.name.as_deref().map(str::trim).filter(|n| !n.is_empty()) else {
                     return Err(c.item_err(KEY, i, "needs a name"));
                 };
+                if let Some(ch) = crate::infile::control_character(name) {
+                    let why = crate::infile::control_character_message(ch);
+                    return Err(c.item_err(KEY, i, format!("name {why}")));
+                }
                 // compared as --satellite NAME finds a satellite
                 let twin = out.iter().filter_map(|o| o.name.as_deref());
                 if let Some(other) = twin
@@ -830,6 +840,9 @@ fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry,
             let full = format!("{KEY}[{i}].{key}");
             c.err_at(line, &full, format!("{msg} (scheme {})", f.name))
         };
+        if let Some(ch) = crate::infile::control_character(&f.name) {
+            return Err(at("name", crate::infile::control_character_message(ch)));
+        }
         let spec = user_scheme_spec(f).map_err(|(key, msg)| at(key, msg))?;
         let s = UserScheme::new(&spec).map_err(|e| at(e.key(&spec.threshold), e.to_string()))?;
         // Where the choice moves the threshold (an overhead below 100 % efficiency), the basis

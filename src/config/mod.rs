@@ -69,6 +69,17 @@ pub fn read_text(path: &Path) -> Result<String, ConfigError> {
         .map_err(|e| ConfigError::new(path, None, None, format!("cannot read file: {e}")))
 }
 
+/// [`read_text`] for a mission or station file (YAML): at most [`MAX_YAML_BYTES`], since the
+/// YAML parser holds about 20 times a file's size in memory while it reads it.
+pub fn read_yaml_text(path: &Path) -> Result<String, ConfigError> {
+    crate::infile::read_text_limited(path, MAX_YAML_BYTES)
+        .map_err(|e| ConfigError::new(path, None, None, format!("cannot read file: {e}")))
+}
+
+/// Most bytes of a mission or station file (16 MiB; the shipped ones are a few kilobytes, a
+/// terrain profile of 10,000 points about 300 KB).
+pub const MAX_YAML_BYTES: u64 = 16 * 1024 * 1024;
+
 /// Parse YAML into `T`, turning serde_yaml's error (which carries a line) into a [`ConfigError`].
 /// The only place that knows the YAML crate: swapping it is a change here alone.
 pub fn parse_yaml<T: serde::de::DeserializeOwned>(
@@ -112,31 +123,67 @@ pub fn parse_yaml<T: serde::de::DeserializeOwned>(
 pub const MAX_FLOW_DEPTH: usize = 64;
 
 /// The line (1-based) where flow collections first nest deeper than [`MAX_FLOW_DEPTH`], if they
-/// do. Brackets inside quoted scalars and comments are not counted; a bracket in a plain or block
-/// scalar is (an over-count can only refuse such text at a depth no file of ours comes near).
-fn too_deep(text: &str) -> Option<usize> {
-    let mut depth = 0usize;
+/// do. A bracket counts where YAML reads it as a flow indicator: anywhere inside a flow
+/// collection, and in block context where a value starts (after the indentation, `- `, `? `, a
+/// `:` or another indicator). A quote opens a quoted scalar only where a value starts, and the
+/// quoted scalar may run over several lines (`''` and `\"` escape their quote); brackets inside
+/// it, in a plain scalar of block context (`x: a[1]`) and in comments do not count. A block
+/// scalar's lines (`|`, `>`) are read as any other line: brackets at their starts count, which
+/// can only refuse text nested 64 deep there.
+pub(crate) fn too_deep(text: &str) -> Option<usize> {
+    let (mut depth, mut quote) = (0usize, None::<char>);
     for (i, line) in text.lines().enumerate() {
-        let (mut quote, mut escaped, mut previous) = (None, false, ' ');
-        for c in line.chars() {
-            match (quote, c) {
-                // a backslash escapes the next character inside double quotes only
-                (Some('"'), _) if escaped => escaped = false,
-                (Some('"'), '\\') => escaped = true,
-                (Some(q), c) if c == q => quote = None,
-                (Some(_), _) => {}
-                (None, '\'' | '"') => quote = Some(c),
-                (None, '#') if previous.is_whitespace() => break,
-                (None, '[' | '{') => {
+        // `starts`: the next non-blank character begins a value; `pending`: the last character
+        // was an indicator (`:` anywhere, `-` or `?` where a value starts) that a blank confirms.
+        let (mut starts, mut pending, mut after_blank) = (true, false, true);
+        let mut chars = line.chars().peekable();
+        while let Some(c) = chars.next() {
+            if let Some(q) = quote {
+                match c {
+                    '\\' if q == '"' => {
+                        chars.next();
+                    }
+                    '\'' if q == '\'' && chars.peek() == Some(&'\'') => {
+                        chars.next();
+                    }
+                    c if c == q => quote = None,
+                    _ => {}
+                }
+                (starts, pending, after_blank) = (false, false, false);
+                continue;
+            }
+            if c.is_whitespace() {
+                starts |= pending;
+                (pending, after_blank) = (false, true);
+                continue;
+            }
+            if c == '#' && after_blank {
+                break;
+            }
+            let in_flow = depth > 0;
+            let (next_starts, next_pending) = match c {
+                '\'' | '"' if starts => {
+                    quote = Some(c);
+                    (false, false)
+                }
+                '[' | '{' if starts || in_flow => {
                     depth += 1;
                     if depth > MAX_FLOW_DEPTH {
                         return Some(i + 1);
                     }
+                    (true, false)
                 }
-                (None, ']' | '}') => depth = depth.saturating_sub(1),
-                _ => {}
-            }
-            previous = c;
+                ']' | '}' if in_flow => {
+                    depth -= 1;
+                    (false, false)
+                }
+                ',' if in_flow => (true, false),
+                ':' if in_flow => (true, false),
+                ':' => (false, true),
+                '-' | '?' if starts => (false, true),
+                _ => (false, false),
+            };
+            (starts, pending, after_blank) = (next_starts, next_pending, false);
         }
     }
     None
@@ -331,4 +378,40 @@ pub struct DefaultUsed {
     pub key: String,
     pub value: String,
     pub source: String,
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The depth scanner counts brackets where YAML reads them as flow indicators, and nowhere
+    /// else. Basis: YAML 1.2.2 §7.4 (flow collections), §7.3 (quoted scalars, `''` and `\"`
+    /// escapes), §7.3.3 (plain scalars may hold `[` in block context, not in flow context), from
+    /// memory; a behaviour check of the input rule.
+    #[test]
+    fn flow_depth_is_counted_where_yaml_reads_brackets() {
+        let deep = |n: usize| format!("{}{}", "[".repeat(n), "]".repeat(n));
+        assert_eq!(too_deep(&format!("a: 1\nx: {}\n", deep(65))), Some(2));
+        assert_eq!(too_deep(&format!("x: {}\n", deep(64))), None);
+        assert_eq!(too_deep(&format!("- - {}\n", deep(65))), Some(1));
+        assert_eq!(too_deep(&format!("{}\n", deep(65))), Some(1));
+        // A stray quote inside a plain scalar of a flow collection opens nothing.
+        assert_eq!(too_deep(&format!("x: [a', {}]\n", deep(65))), Some(1));
+        // Quoted scalars, over several lines, with their escapes: not counted.
+        let open = "[".repeat(100);
+        assert_eq!(too_deep(&format!("x: '{open}'\n")), None);
+        assert_eq!(too_deep(&format!("x: \"{open}\"\n")), None);
+        assert_eq!(too_deep(&format!("x: 'it''s {open}'\n")), None);
+        assert_eq!(too_deep(&format!("x: \"a \\\" {open}\"\n")), None);
+        assert_eq!(too_deep(&format!("x: \"abc\n  {open} def\"\n")), None);
+        // ... but a bracket after a quoted scalar that ends on the next line counts.
+        assert_eq!(
+            too_deep(&format!("x: [\"abc\n def\", {}]\n", deep(65))),
+            Some(2)
+        );
+        // Plain scalars of block context and comments: not counted.
+        assert_eq!(too_deep(&"x: a[\n".repeat(100)), None);
+        assert_eq!(too_deep(&format!("x: 1 # {open}\n# {open}\n")), None);
+        assert_eq!(too_deep(&format!("url: http://h/{open}\n")), None);
+    }
 }

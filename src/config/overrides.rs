@@ -114,6 +114,12 @@ impl Override {
                 "the key is a dotted path of names, e.g. planning.step_s",
             ));
         }
+        if super::too_deep(text).is_some() {
+            return Err(err(&format!(
+                "the value nests brackets more than {} deep",
+                super::MAX_FLOW_DEPTH
+            )));
+        }
         let value: Value =
             serde_yaml::from_str(text).map_err(|e| err(&format!("the value is not YAML: {e}")))?;
         let target = match key.strip_prefix("station.") {

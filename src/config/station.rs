@@ -19,7 +19,7 @@
 use super::defaults as dflt;
 use super::limits;
 use super::overrides::{parse_with, Overrides};
-use super::{parse_yaml, read_text, Checker, ConfigError, DefaultUsed};
+use super::{parse_yaml, read_yaml_text, Checker, ConfigError, DefaultUsed};
 pub use crate::link::polarization::PolarizationSense;
 use serde::Deserialize;
 use std::path::{Path, PathBuf};
@@ -221,7 +221,7 @@ impl Station {
     /// Load and validate a station file with the `--set station.NAME.KEY=VALUE` overrides that
     /// name it applied (validated as the file is).
     pub fn load_with(path: &Path, overrides: &Overrides) -> Result<Station, ConfigError> {
-        let text = read_text(path)?;
+        let text = read_yaml_text(path)?;
         Self::from_yaml_with(path, &text, overrides)
     }
 
@@ -248,6 +248,9 @@ impl Station {
         let mut c = Checker::new(path, text, &applied);
         if file.name.trim().is_empty() {
             return Err(c.err("name", "must not be empty"));
+        }
+        if let Some(ch) = crate::infile::control_character(&file.name) {
+            return Err(c.err("name", crate::infile::control_character_message(ch)));
         }
         let latitude_deg = c.range(&limits::LATITUDE_DEG, file.latitude_deg)?;
         let mut longitude_deg = c.range(&limits::LONGITUDE_DEG, file.longitude_deg)?;

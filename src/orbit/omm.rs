@@ -4,11 +4,12 @@
 //! * JSON: an object, or an array of objects, with the OMM keywords as keys (numbers may be
 //!   JSON numbers or strings), as distributed by element-set providers.
 //! * KVN: `KEY = value` lines (CCSDS 502.0-B-2 §6), `COMMENT` lines, blank lines; a value may
-//!   be followed by its unit in square brackets (`MEAN_MOTION = 15.05 [rev/day]`), which is
-//!   ignored. A file may hold several messages, each starting with `CCSDS_OMM_VERS`.
+//!   be followed by its unit in square brackets (`MEAN_MOTION = 15.05 [rev/day]`), which must
+//!   then be the keyword's unit in Table 4-3 of CCSDS 502.0-B-3 (checked for the keywords read
+//!   here). A file may hold several messages, each starting with `CCSDS_OMM_VERS`.
 //!
-//! Only SGP4 mean elements are accepted: `MEAN_ELEMENT_THEORY`, `REF_FRAME`, `TIME_SYSTEM`, if
-//! present, must be `SGP4` (or `SGP/SGP4`), `TEME`, `UTC`. Required keywords: `NORAD_CAT_ID`, `EPOCH`,
+//! Only SGP4 mean elements are accepted: `MEAN_ELEMENT_THEORY`, `REF_FRAME`, `TIME_SYSTEM`,
+//! `CENTER_NAME`, if present, must be `SGP4` (or `SGP/SGP4`), `TEME`, `UTC`, `EARTH`. Required keywords: `NORAD_CAT_ID`, `EPOCH`,
 //! `MEAN_MOTION`, `ECCENTRICITY`, `INCLINATION`, `RA_OF_ASC_NODE`, `ARG_OF_PERICENTER`,
 //! `MEAN_ANOMALY`, `BSTAR`, `MEAN_MOTION_DOT`, `MEAN_MOTION_DDOT`. Optional: `OBJECT_NAME`,
 //! `OBJECT_ID`, `CLASSIFICATION_TYPE` (default U), `ELEMENT_SET_NO`, `REV_AT_EPOCH`,
@@ -221,17 +222,18 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
         // Column of the value's first character (1-based, in characters).
         let leading = raw.chars().count() - raw.trim_start().chars().count();
         let column = Some(leading + l.chars().count() - value.trim_start().chars().count() + 1);
-        // Drop a unit in square brackets after the value.
-        let value = match value.find('[') {
-            Some(p) => &value[..p],
-            None => value,
-        }
-        .trim()
-        .to_string();
         if key == "CCSDS_OMM_VERS" || messages.is_empty() {
             messages.push(Fields::new());
         }
         let object = messages.len() - 1;
+        let value = without_unit(&key, value).map_err(|reason| OmmError::InvalidValue {
+            object,
+            field: key.clone(),
+            value: value.trim().to_string(),
+            reason,
+            line: Some(line),
+            column,
+        })?;
         if let Some(m) = messages.last_mut() {
             if let Some(first) = m.get(&key) {
                 return Err(OmmError::DuplicateKey {
@@ -391,6 +393,10 @@ fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<Eleme
     let name = text("OBJECT_NAME")
         .filter(|s| !s.is_empty())
         .map(str::to_string);
+    if let Some(ch) = name.as_deref().and_then(crate::infile::control_character) {
+        let why = crate::infile::control_character_message(ch);
+        return Err(invalid("OBJECT_NAME", &why));
+    }
     let elements = sgp4::Elements {
         object_name: name,
         international_designator: text("OBJECT_ID")
@@ -454,12 +460,70 @@ fn check_keys(object: usize, f: &Fields, message_line: Option<usize>) -> Result<
     }
 }
 
-/// Only SGP4 mean elements in TEME and UTC are accepted.
+/// A KVN value without the unit in square brackets that may follow a number (CCSDS 502.0-B-3
+/// §7: optional, but when given it must be the unit of the keyword in Table 4-3). The units of
+/// the keywords this reader uses are checked (without regard to case, as providers write both);
+/// a text value (a name, a frame, a time) keeps its brackets (`OBJECT_NAME = SAT [DEB]`).
+fn without_unit(key: &str, value: &str) -> Result<String, String> {
+    const TEXT: [&str; 14] = [
+        "OBJECT_NAME",
+        "OBJECT_ID",
+        "CENTER_NAME",
+        "REF_FRAME",
+        "REF_FRAME_EPOCH",
+        "COV_REF_FRAME",
+        "TIME_SYSTEM",
+        "MEAN_ELEMENT_THEORY",
+        "CLASSIFICATION_TYPE",
+        "EPOCH",
+        "CREATION_DATE",
+        "ORIGINATOR",
+        "MESSAGE_ID",
+        "CLASSIFICATION",
+    ];
+    let value = value.trim();
+    if TEXT.contains(&key) || key.starts_with("USER_DEFINED_") {
+        return Ok(value.to_string());
+    }
+    let Some(open) = value.find('[') else {
+        return Ok(value.to_string());
+    };
+    let (number, unit) = (value[..open].trim(), value[open + 1..].trim());
+    let Some(unit) = unit.strip_suffix(']').map(str::trim) else {
+        return Err("a unit opened with [ is not closed with ]".to_string());
+    };
+    // Table 4-3 of CCSDS 502.0-B-3: BSTAR's "1/[Earth radii]" also as the XML schema spells it,
+    // 1/ER; a keyword of no unit (ECCENTRICITY, the TLE numbers) takes none.
+    let expected: &[&str] = match key {
+        "MEAN_MOTION" => &["rev/day"],
+        "INCLINATION" | "RA_OF_ASC_NODE" | "ARG_OF_PERICENTER" | "MEAN_ANOMALY" => &["deg"],
+        "BSTAR" => &["1/ER", "1/[Earth radii]"],
+        "MEAN_MOTION_DOT" => &["rev/day**2"],
+        "MEAN_MOTION_DDOT" => &["rev/day**3"],
+        "ECCENTRICITY" | "NORAD_CAT_ID" | "ELEMENT_SET_NO" | "REV_AT_EPOCH" | "EPHEMERIS_TYPE" => {
+            return Err(format!(
+                "{key} has no unit (CCSDS 502.0-B-3 Table 4-3), [{unit}] given"
+            ))
+        }
+        _ => return Ok(number.to_string()),
+    };
+    match expected.iter().any(|e| unit.eq_ignore_ascii_case(e)) {
+        true => Ok(number.to_string()),
+        false => Err(format!(
+            "the unit [{unit}] is not {key}'s unit, [{}] (CCSDS 502.0-B-3 Table 4-3); the value is not converted",
+            expected[0]
+        )),
+    }
+}
+
+/// Only SGP4 mean elements of the Earth, in TEME and UTC, are accepted.
 fn check_theory(f: &Fields, invalid: &dyn Fn(&str, &str) -> OmmError) -> Result<(), OmmError> {
     for (field, allowed) in [
         ("MEAN_ELEMENT_THEORY", &["SGP4", "SGP/SGP4"][..]),
         ("REF_FRAME", &["TEME"][..]),
         ("TIME_SYSTEM", &["UTC"][..]),
+        // CCSDS 502.0-B-3 §4.2.4.6: a TLE-based OMM has CENTER_NAME = EARTH.
+        ("CENTER_NAME", &["EARTH"][..]),
     ] {
         if let Some(v) = f.get(field).map(|e| e.value.trim()) {
             if !allowed.iter().any(|a| a.eq_ignore_ascii_case(v)) {
@@ -678,6 +742,56 @@ mod tests {
 
     const KVN: &str = include_str!("../../examples/sat-omm.kvn");
     const JSON: &str = include_str!("../../examples/sat-omm.json");
+
+    /// KVN units: the units of CCSDS 502.0-B-3 Table 4-3 are taken (any case); another unit is
+    /// refused with the keyword and its unit, never read as if it were the table's; a text value
+    /// keeps its brackets; CENTER_NAME must be EARTH (§4.2.4.6).
+    #[test]
+    fn kvn_units_are_the_tables() {
+        let sets = parse_omm_kvn(&KVN.replace("[rev/day]", "[REV/DAY]")).unwrap();
+        assert!((sets[0].elements.mean_motion - 15.05472).abs() < 1e-9);
+        for (from, to, key) in [
+            (
+                "15.05472000 [rev/day]",
+                "15.05472000 [rad/s]",
+                "MEAN_MOTION",
+            ),
+            ("97.5950 [deg]", "97.5950 [rad]", "INCLINATION"),
+            ("0.00012000 [1/ER]", "0.00012000 [1/m]", "BSTAR"),
+            ("0.0 [rev/day**3]", "0.0 [rev/day**2]", "MEAN_MOTION_DDOT"),
+            (
+                "ECCENTRICITY = 0.0011500",
+                "ECCENTRICITY = 0.0011500 [deg]",
+                "ECCENTRICITY",
+            ),
+            ("97.5950 [deg]", "97.5950 [deg", "INCLINATION"),
+        ] {
+            let kvn = KVN.replace(from, to);
+            assert_ne!(kvn, KVN, "{from}");
+            let err = parse_omm_kvn(&kvn).unwrap_err();
+            assert!(
+                matches!(&err, OmmError::InvalidValue { field, .. } if field == key),
+                "{err:?}"
+            );
+            let text = err.to_string();
+            assert!(
+                text.contains("Table 4-3") || text.contains("not closed"),
+                "{err}"
+            );
+        }
+        let long = KVN.replace("[1/ER]", "[1/[Earth radii]]");
+        assert_ne!(long, KVN);
+        assert_eq!(parse_omm_kvn(&long).unwrap().len(), 1);
+        let named = KVN.replace("OBJECT_NAME = WRENLET-1", "OBJECT_NAME = WRENLET-1 [DEB]");
+        let sets = parse_omm_kvn(&named).unwrap();
+        assert_eq!(sets[0].name.as_deref(), Some("WRENLET-1 [DEB]"));
+        let moon = KVN.replace("CENTER_NAME = EARTH", "CENTER_NAME = MOON");
+        let err = parse_omm_kvn(&moon).unwrap_err().to_string();
+        assert!(
+            err.contains("CENTER_NAME") && err.contains("EARTH"),
+            "{err}"
+        );
+    }
 
     #[test]
     fn range_errors_name_keyword_and_line() {

@@ -89,7 +89,7 @@ pub enum InstantError {
     },
     #[error("elevation: {0} deg is out of range (0 to 90 deg)")]
     Elevation(String),
-    #[error("azimuth: {0} is not a finite number of degrees")]
+    #[error("azimuth: {0} deg is out of range (-360 to 720 deg, taken modulo 360)")]
     Azimuth(String),
     #[error(transparent)]
     Slant(#[from] crate::geometry::slant::SlantError),
@@ -395,7 +395,11 @@ fn look_at(
             }
             // The azimuth given, or 0 until the budget chooses one (InstantGeometry::Elevation).
             let azimuth_deg = match geometry {
-                InstantGeometry::Pointing { azimuth_deg, .. } if !azimuth_deg.is_finite() => {
+                // Beyond a turn either way an azimuth is a typing slip (and 1e300 deg keeps no
+                // digits of its own after the wrap).
+                InstantGeometry::Pointing { azimuth_deg, .. }
+                    if !(-360.0..=720.0).contains(&azimuth_deg) =>
+                {
                     return Err(InstantError::Azimuth(short_number(azimuth_deg)));
                 }
                 InstantGeometry::Pointing { azimuth_deg, .. } => azimuth_deg.rem_euclid(360.0),

@@ -393,6 +393,28 @@ mod tests {
         }
     }
 
+    /// The whole-number writer against the standard library's formatting at its digit-count
+    /// edges and extremes.
+    #[test]
+    fn whole_numbers_match_to_string() {
+        for n in [
+            0,
+            9,
+            10,
+            99,
+            100,
+            101,
+            12_345,
+            10u64.pow(19),
+            u64::MAX - 1,
+            u64::MAX,
+        ] {
+            let mut b = Vec::new();
+            push_u64(&mut b, n);
+            assert_eq!(String::from_utf8(b).unwrap(), n.to_string());
+        }
+    }
+
     #[test]
     fn whole_and_text_fields() {
         let mut b = Vec::new();

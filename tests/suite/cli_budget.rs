@@ -765,6 +765,33 @@ fn budget_says_where_a_plan_counts_nothing() {
     assert!(err.contains("cannot be used with"), "{err}");
 }
 
+/// `budget --azimuth-deg` beyond a turn either way is refused (1e300 deg was taken and wrapped to
+/// 0 deg, its digits lost); a value within it is taken modulo 360.
+/// Basis: a behaviour check (no published reference applies).
+#[test]
+fn budget_azimuth_beyond_a_turn_is_refused() {
+    let budget = |az: &str| {
+        run(&[
+            "budget",
+            EXAMPLE,
+            "--station",
+            "nordkam",
+            "--elevation-deg",
+            "20",
+            "--azimuth-deg",
+            az,
+            "--format",
+            "json",
+        ])
+    };
+    clean_error(
+        &budget("1e300"),
+        &["--azimuth-deg 1.000000e300", "-360 to 720 deg"],
+    );
+    clean_error(&budget("-400"), &["azimuth", "-400", "-360 to 720 deg"]);
+    assert_eq!(json(&budget("-30"))["azimuth_deg"].as_f64(), Some(330.0));
+}
+
 /// `atmosphere --format csv` has the JSON's fields, in its order (but the warnings and the
 /// defaults, which are the CSV's `#` lines and not columns): it lacked the polarization tilt and
 /// the mean radiating temperature.
@@ -865,4 +892,23 @@ fn atmosphere_json_mhz(
         "--format",
         "json",
     ]))
+}
+
+/// `atmosphere`'s heading gives a tiny elevation in exponent form, not 300 digits.
+/// Basis: a behaviour check (no published reference applies).
+#[test]
+fn atmosphere_heading_keeps_tiny_numbers_short() {
+    let o = run(&[
+        "atmosphere",
+        "--station",
+        "stations/nordkam.yaml",
+        "--frequency-ghz",
+        "8.2",
+        "--elevation-deg",
+        "1e-300",
+    ]);
+    let out = String::from_utf8_lossy(&o.stdout).to_string();
+    let heading = out.lines().next().unwrap_or_default();
+    assert!(heading.contains("elevation 1.000000e-300 deg"), "{heading}");
+    assert!(heading.len() < 120, "{heading}");
 }

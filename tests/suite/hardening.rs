@@ -563,6 +563,21 @@ fn a_mission_given_as_a_pipe_is_read_once() {
     );
     let table = success(&o);
     assert!(table.contains("transmitter.power_w=5"), "{table}");
+    // A station file as a pipe.
+    let st = std::fs::read_to_string(root().join("stations/nordkam.yaml")).unwrap();
+    let o = run_with_stdin(
+        &[
+            "atmosphere",
+            "--station",
+            "/dev/stdin",
+            "--frequency-ghz",
+            "8.2",
+            "--elevation-deg",
+            "30",
+        ],
+        &st,
+    );
+    assert!(success(&o).starts_with("Nordkam at 8.2 GHz"));
 }
 
 /// A device as an input file is refused at once, not read until the memory runs out.
@@ -611,16 +626,123 @@ fn deeply_nested_yaml_is_refused_with_its_line() {
             "nested more than 64 deep",
         ],
     );
-    // 64 deep, and brackets in quotes and comments: parsed, so the unknown key is what is named.
+    // 64 deep, and brackets in quotes, a plain scalar and comments: parsed, so the unknown key
+    // is what is named.
+    let open = "[".repeat(100);
     let ok = format!(
-        "{st}\nextra: {}{} # {}\nother: \"[[[[\"\n",
+        "{st}\nextra: {}{} # {open}\nother: \"{open}\"\nthird: '{open}'\nfourth: a{open}\n",
         "[".repeat(64),
         "]".repeat(64),
-        "[".repeat(100)
     );
     std::fs::write(&path, ok).unwrap();
     let o = run(&args);
     let e = String::from_utf8_lossy(&o.stderr);
     assert!(!o.status.success() && e.contains("extra"), "{e}");
     assert!(!e.contains("nested more than"), "{e}");
+    // A `--set` value is YAML too.
+    let o = run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--set",
+        &format!("transmitter.power_w={}2{}", "[".repeat(65), "]".repeat(65)),
+    ]);
+    clean_error(&o, &["--set", "transmitter.power_w", "more than 64 deep"]);
+}
+
+/// A control character in a name (an element set's name line or OMM `OBJECT_NAME`, a mission, a
+/// station) is refused where it is read: names go into terminal tables, CSV and calendars, where
+/// ESC or BEL would act on the terminal and a bare CR breaks a calendar line. An empty mission
+/// name is refused as an empty station name is.
+/// Basis: a behaviour check of the input rule (no published reference applies).
+#[test]
+fn control_characters_in_names_are_refused() {
+    let dir = tempfile::tempdir().unwrap();
+    let tle = std::fs::read_to_string(root().join("examples/sat.tle")).unwrap();
+    let data: Vec<&str> = tle.lines().filter(|l| l.starts_with(['1', '2'])).collect();
+    let bad_tle = write(
+        dir.path(),
+        "bad.tle",
+        &format!("BAD\u{1b}[31mSAT\n{}\n{}\n", data[0], data[1]),
+    );
+    let o = run(&[
+        "passes",
+        "examples/wrenlet-1.yaml",
+        "--tle",
+        &bad_tle,
+        "--days",
+        "1",
+    ]);
+    clean_error(&o, &["bad.tle", "line 1", "control character (U+001B)"]);
+    let omm = write(
+        dir.path(),
+        "omm.json",
+        r#"[{"OBJECT_NAME":"X\u0007","NORAD_CAT_ID":99901,"EPOCH":"2026-12-01T12:00:00","MEAN_MOTION":15.05,"ECCENTRICITY":0.001,"INCLINATION":97.6,"RA_OF_ASC_NODE":10,"ARG_OF_PERICENTER":0,"MEAN_ANOMALY":0,"BSTAR":0.0001,"MEAN_MOTION_DOT":0,"MEAN_MOTION_DDOT":0}]"#,
+    );
+    let o = run(&[
+        "passes",
+        "examples/wrenlet-1.yaml",
+        "--tle",
+        &omm,
+        "--days",
+        "1",
+    ]);
+    clean_error(
+        &o,
+        &["omm.json", "OBJECT_NAME", "control character (U+0007)"],
+    );
+    let path = mission_in(
+        dir.path(),
+        &root().join("examples/sat.tle").display().to_string(),
+        "2026-12-01T12:00:00Z",
+        1.0,
+    );
+    let text = std::fs::read_to_string(&path).unwrap();
+    let name_line = text.lines().position(|l| l.starts_with("name:")).unwrap() + 1;
+    for (name, needle) in [
+        ("\"A\\aB\"", "control character (U+0007)"),
+        ("\"\"", "must not be empty"),
+    ] {
+        let changed: String = text
+            .lines()
+            .map(|l| match l.starts_with("name:") {
+                true => format!("name: {name}\n"),
+                false => format!("{l}\n"),
+            })
+            .collect();
+        std::fs::write(&path, changed).unwrap();
+        let o = run(&["plan", &path]);
+        clean_error(&o, &[&format!("mission.yaml:{name_line}: name"), needle]);
+    }
+    let st = std::fs::read_to_string(root().join("stations/nordkam.yaml"))
+        .unwrap()
+        .replace("name: Nordkam", "name: \"Nord\\rkam\"");
+    let st = write(dir.path(), "st.yaml", &st);
+    let o = run(&[
+        "atmosphere",
+        "--station",
+        &st,
+        "--frequency-ghz",
+        "8.2",
+        "--elevation-deg",
+        "30",
+    ]);
+    clean_error(&o, &["st.yaml:", "name", "control character (U+000D)"]);
+}
+
+/// `--out` naming a file (or a link to nothing) says the name is not a folder, not only that the
+/// folder cannot be created. Basis: a behaviour check (no published reference applies).
+#[test]
+fn out_naming_a_file_says_it_is_not_a_folder() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = write(dir.path(), "taken", "mine\n");
+    let o = run(&[
+        "plan",
+        "examples/wrenlet-1.yaml",
+        "--days",
+        "1",
+        "--out",
+        &file,
+    ]);
+    clean_error(&o, &["--out", "taken", "is not a folder"]);
+    assert_eq!(std::fs::read_to_string(&file).unwrap(), "mine\n");
 }

@@ -333,6 +333,16 @@ fn bad_schemes_are_refused_with_file_line_and_key() {
             &[":18:", "modem.schemes[0].name", "built-in"],
         ),
         (
+            "a control character in the name (a behaviour check of the input rule)",
+            "name: own-ldpc",
+            "name: \"own\\eldpc\"",
+            &[
+                ":18:",
+                "modem.schemes[0].name",
+                "control character (U+001B)",
+            ],
+        ),
+        (
             "two thresholds",
             "      error_rate: 1.0e-6\n",
             "      required_ebn0_db: 4.0\n      error_rate: 1.0e-6\n",
