@@ -296,11 +296,8 @@ fn check_epoch(c1: &str, line: usize) -> Result<(), TleError> {
 /// character range ("between characters A and B").
 fn field_error(e: &sgp4::TleError, n1: usize, n2: usize) -> TleError {
     let text = e.to_string();
-    let line = if text.contains("on TLE line 2") {
-        n2
-    } else {
-        n1
-    };
+    let on_line_2 = text.contains("on TLE line 2");
+    let line = if on_line_2 { n2 } else { n1 };
     let mut first_column = 1;
     let mut last_column = 69;
     if let Some(pos) = text.find("between characters ") {
@@ -320,12 +317,48 @@ fn field_error(e: &sgp4::TleError, n1: usize, n2: usize) -> TleError {
         .next()
         .unwrap_or(&text)
         .to_string();
+    let reason = match element_name(if on_line_2 { 2 } else { 1 }, first_column) {
+        Some(name) => format!("{name}: {reason}"),
+        None => reason,
+    };
     TleError::Field {
         line,
         first_column,
         last_column,
         reason,
     }
+}
+
+/// The element a column of TLE line 1 or 2 belongs to (the element set format of Spacetrack
+/// Report No. 3, 1980, columns 1-based).
+fn element_name(line_number: u8, column: usize) -> Option<&'static str> {
+    let fields: &[(usize, usize, &str)] = match line_number {
+        1 => &[
+            (3, 7, "catalog number"),
+            (8, 8, "classification"),
+            (10, 17, "international designator"),
+            (19, 32, "epoch"),
+            (34, 43, "first derivative of the mean motion"),
+            (45, 52, "second derivative of the mean motion"),
+            (54, 61, "drag term BSTAR"),
+            (63, 63, "ephemeris type"),
+            (65, 68, "element set number"),
+        ],
+        _ => &[
+            (3, 7, "catalog number"),
+            (9, 16, "inclination"),
+            (18, 25, "right ascension of the ascending node"),
+            (27, 33, "eccentricity"),
+            (35, 42, "argument of perigee"),
+            (44, 51, "mean anomaly"),
+            (53, 63, "mean motion"),
+            (64, 68, "revolution number"),
+        ],
+    };
+    fields
+        .iter()
+        .find(|(a, b, _)| (*a..=*b).contains(&column))
+        .map(|f| f.2)
 }
 
 /// Append the checksum to a data line given as its columns 1-68 (for writing test and example

@@ -152,6 +152,12 @@ fn bad_field_reports_columns() {
         ),
         "{err:?}"
     );
+    // The message names the element of those columns (Spacetrack Report No. 3, 1980, element
+    // set format: inclination in columns 9-16 of line 2).
+    assert!(
+        err.to_string().contains("columns 9-16: inclination:"),
+        "{err}"
+    );
 }
 
 #[test]
