@@ -26,6 +26,19 @@ fn mission_in(dir: &Path, elements: &str, start: &str, days: f64) -> String {
     write(dir, "mission.yaml", &text)
 }
 
+/// `atmosphere` for the station file `station` at 8.2 GHz and 30 deg (the arguments).
+fn atmosphere_at_30_deg(station: &str) -> [&str; 7] {
+    [
+        "atmosphere",
+        "--station",
+        station,
+        "--frequency-ghz",
+        "8.2",
+        "--elevation-deg",
+        "30",
+    ]
+}
+
 /// Runs the binary with stderr connected to a pipe whose read end is closed before the binary
 /// writes to it; returns the exit code and stdout.
 fn run_with_closed_stderr(args: &[&str]) -> (Option<i32>, String) {
@@ -291,15 +304,7 @@ fn an_overflowing_number_is_named() {
         .unwrap()
         .replace("altitude_m: 210", "altitude_m: 1e400");
     let st = write(dir.path(), "st.yaml", &text);
-    let o = run(&[
-        "atmosphere",
-        "--station",
-        &st,
-        "--frequency-ghz",
-        "8.2",
-        "--elevation-deg",
-        "30",
-    ]);
+    let o = run(&atmosphere_at_30_deg(&st));
     clean_error(&o, &["st.yaml:6:", "1e400 is not a finite number"]);
 }
 
@@ -565,18 +570,7 @@ fn a_mission_given_as_a_pipe_is_read_once() {
     assert!(table.contains("transmitter.power_w=5"), "{table}");
     // A station file as a pipe.
     let st = std::fs::read_to_string(root().join("stations/nordkam.yaml")).unwrap();
-    let o = run_with_stdin(
-        &[
-            "atmosphere",
-            "--station",
-            "/dev/stdin",
-            "--frequency-ghz",
-            "8.2",
-            "--elevation-deg",
-            "30",
-        ],
-        &st,
-    );
+    let o = run_with_stdin(&atmosphere_at_30_deg("/dev/stdin"), &st);
     assert!(success(&o).starts_with("Nordkam at 8.2 GHz"));
 }
 
@@ -609,15 +603,7 @@ fn deeply_nested_yaml_is_refused_with_its_line() {
     let lines = st.lines().count();
     let deep = format!("{st}\nextra: {}{}\n", "[".repeat(65), "]".repeat(65));
     let path = write(dir.path(), "deep.yaml", &deep);
-    let args = [
-        "atmosphere",
-        "--station",
-        &path,
-        "--frequency-ghz",
-        "8.2",
-        "--elevation-deg",
-        "30",
-    ];
+    let args = atmosphere_at_30_deg(&path);
     let o = run(&args);
     clean_error(
         &o,
@@ -717,15 +703,7 @@ fn control_characters_in_names_are_refused() {
         .unwrap()
         .replace("name: Nordkam", "name: \"Nord\\rkam\"");
     let st = write(dir.path(), "st.yaml", &st);
-    let o = run(&[
-        "atmosphere",
-        "--station",
-        &st,
-        "--frequency-ghz",
-        "8.2",
-        "--elevation-deg",
-        "30",
-    ]);
+    let o = run(&atmosphere_at_30_deg(&st));
     clean_error(&o, &["st.yaml:", "name", "control character (U+000D)"]);
 }
 
