@@ -26,6 +26,12 @@ fn mission_in(dir: &Path, elements: &str, start: &str, days: f64) -> String {
     write(dir, "mission.yaml", &text)
 }
 
+/// The shipped mission rewritten into `dir` for one day from its epoch, with its own elements.
+fn one_day_mission_in(dir: &Path) -> String {
+    let elements = root().join("examples/sat.tle").display().to_string();
+    mission_in(dir, &elements, "2026-12-01T12:00:00Z", 1.0)
+}
+
 /// `atmosphere` for the station file `station` at 8.2 GHz and 30 deg (the arguments).
 fn atmosphere_at_30_deg(station: &str) -> [&str; 7] {
     [
@@ -311,12 +317,7 @@ fn an_overflowing_number_is_named() {
 #[test]
 fn a_missing_station_file_names_the_mission_line() {
     let dir = tempfile::tempdir().unwrap();
-    let path = mission_in(
-        dir.path(),
-        &root().join("examples/sat.tle").display().to_string(),
-        "2026-12-01T12:00:00Z",
-        1.0,
-    );
+    let path = one_day_mission_in(dir.path());
     let text = std::fs::read_to_string(&path)
         .unwrap()
         .replace("sierra-baja.yaml", "no-such-station.yaml");
@@ -543,12 +544,7 @@ fn run_with_stdin(args: &[&str], stdin_text: &str) -> std::process::Output {
 #[test]
 fn a_mission_given_as_a_pipe_is_read_once() {
     let dir = tempfile::tempdir().unwrap();
-    let path = mission_in(
-        dir.path(),
-        &root().join("examples/sat.tle").display().to_string(),
-        "2026-12-01T12:00:00Z",
-        1.0,
-    );
+    let path = one_day_mission_in(dir.path());
     let text = std::fs::read_to_string(&path).unwrap();
     let piped = run_with_stdin(&["plan", "/dev/stdin", "--quiet"], &text);
     let direct = run(&["plan", &path, "--quiet"]);
@@ -676,12 +672,7 @@ fn control_characters_in_names_are_refused() {
         &o,
         &["omm.json", "OBJECT_NAME", "control character (U+0007)"],
     );
-    let path = mission_in(
-        dir.path(),
-        &root().join("examples/sat.tle").display().to_string(),
-        "2026-12-01T12:00:00Z",
-        1.0,
-    );
+    let path = one_day_mission_in(dir.path());
     let text = std::fs::read_to_string(&path).unwrap();
     let name_line = text.lines().position(|l| l.starts_with("name:")).unwrap() + 1;
     for (name, needle) in [
