@@ -31,12 +31,29 @@ pub fn read_text_limited(path: &Path, max_bytes: u64) -> std::io::Result<String>
     Ok(text)
 }
 
-/// The first control character (ESC, BEL, CR, DEL...) or text-reordering character (see
-/// [`reorders_text`]) in a name read from an input file, if any.
-/// Names (of a mission, a station, a satellite, a scheme, an element set's object) go into
-/// tables on a terminal, CSV, calendars and file names, where such a character would act on the
-/// terminal or break a calendar's lines; every reader of a name refuses one through this rule.
-pub fn control_character(name: &str) -> Option<char> {
+/// A name read from an input file (of a mission, a station, a satellite, a scheme, an element
+/// set's object), refused with the reason when it holds a control character (ESC, BEL, CR,
+/// DEL...) or a text-reordering one ([`reorders_text`]). Names go into tables on a terminal, CSV,
+/// calendars and file names, where such a character would act on the terminal or break a
+/// calendar's lines; every reader of a name refuses one through this rule.
+pub fn check_name(name: &str) -> Result<(), String> {
+    match control_character(name) {
+        None => Ok(()),
+        Some(c) => {
+            let kind = match c.is_control() {
+                true => "a control character",
+                false => "a text-reordering character",
+            };
+            Err(format!(
+                "holds {kind} (U+{:04X}); a name may hold only printable characters",
+                u32::from(c)
+            ))
+        }
+    }
+}
+
+/// The first character of `name` that [`check_name`] refuses.
+fn control_character(name: &str) -> Option<char> {
     name.chars().find(|&c| c.is_control() || reorders_text(c))
 }
 
@@ -45,18 +62,6 @@ pub fn control_character(name: &str) -> Option<char> {
 /// the text around them on a display.
 fn reorders_text(c: char) -> bool {
     matches!(c, '\u{202A}'..='\u{202E}' | '\u{2066}'..='\u{2069}' | '\u{2028}' | '\u{2029}')
-}
-
-/// The message for a name holding `c` (see [`control_character`]).
-pub fn control_character_message(c: char) -> String {
-    let kind = match c.is_control() {
-        true => "a control character",
-        false => "a text-reordering character",
-    };
-    format!(
-        "holds {kind} (U+{:04X}); a name may hold only printable characters",
-        u32::from(c)
-    )
 }
 
 #[cfg(unix)]
@@ -79,7 +84,8 @@ fn refuse_devices(_: &std::fs::FileType) -> std::io::Result<()> {
 mod tests {
     use super::*;
 
-    /// Basis: a behaviour check of the input rule (no published reference applies).
+    /// Basis: a behaviour check of the input rule; the Unicode code points of the directional
+    /// controls and separators (U+202A-U+202E, U+2066-U+2069, U+2028-U+2029) from memory.
     #[test]
     fn devices_and_oversized_files_are_refused() {
         let dir = tempfile::tempdir().unwrap();
@@ -90,7 +96,7 @@ mod tests {
         std::fs::write(&p, "name: a\n").unwrap();
         assert_eq!(read_text(&p).unwrap(), "name: a\n");
         // Letters of every script are names; control and reordering characters are not.
-        assert_eq!(control_character("Pulau Réka 北 Ålesund"), None);
+        assert_eq!(check_name("Pulau Réka 北 Ålesund"), Ok(()));
         for c in [
             '\u{1b}', '\t', '\r', '\u{7f}', '\u{85}', '\u{202E}', '\u{2067}', '\u{2028}',
         ] {

@@ -9,6 +9,7 @@ use crate::cli::window::WindowArgs;
 use anyhow::Result;
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
+use passbudget::config::mission::Mission;
 use passbudget::engfmt;
 use passbudget::plan::fleet::{contact_plan, ContactPlan};
 use passbudget::plan::summary::tradeoff;
@@ -71,14 +72,13 @@ pub struct MaskArgs {
 
 /// `passbudget plan`.
 pub fn plan(a: PlanArgs, out: &mut dyn Write) -> Result<()> {
-    let mission = a.window.load_mission()?;
+    let (path, overrides) = (a.window.mission.path(), a.window.mission.overrides()?);
+    let mission = Mission::load_with(path, &overrides)?;
     if mission.satellites.len() > 1 && a.window.satellite.is_none() {
         return crate::cli::fleet::plan_fleet(&a, &mission, out);
     }
     let staging = a.out.as_deref().map(stage).transpose()?;
     // The charts' mask trade-off needs the passes below the configured mask: the same run gathers it.
-    let overrides = a.window.mission.overrides()?;
-    let path = a.window.mission.path();
     let planner = a
         .window
         .planner_of(a.charts, mission, path, &overrides, None)?;

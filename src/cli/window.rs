@@ -183,14 +183,6 @@ impl WindowArgs {
     pub fn one_satellite(&self, mission: Mission) -> Result<Mission> {
         one_satellite(mission, self.satellite.as_deref())
     }
-
-    /// The mission of these flags (with the `--set` overrides), as the file gives it.
-    pub fn load_mission(&self) -> Result<Mission> {
-        Ok(Mission::load_with(
-            self.mission.path(),
-            &self.mission.overrides()?,
-        )?)
-    }
 }
 
 /// The mission as its satellite `satellite` (`--satellite NAME`) sees it. A fleet mission needs

@@ -367,9 +367,7 @@ impl Mission {
         if file.name.trim().is_empty() {
             return Err(c.err("name", "must not be empty"));
         }
-        if let Some(ch) = crate::infile::control_character(&file.name) {
-            return Err(c.err("name", crate::infile::control_character_message(ch)));
-        }
+        crate::infile::check_name(&file.name).map_err(|m| c.err("name", m))?;
         let base = path.parent().map(Path::to_path_buf).unwrap_or_default();
         let stations = stations(&c, &base, &file.stations, overrides)?;
         let names: Vec<&str> = stations.iter().map(|s| s.name.as_str()).collect();
@@ -524,10 +522,8 @@ fn satellites(
                 let Some(name) = s.name.as_deref().map(str::trim).filter(|n| !n.is_empty()) else {
                     return Err(c.item_err(KEY, i, "needs a name"));
                 };
-                if let Some(ch) = crate::infile::control_character(name) {
-                    let why = crate::infile::control_character_message(ch);
-                    return Err(c.item_err(KEY, i, format!("name {why}")));
-                }
+                crate::infile::check_name(name)
+                    .map_err(|m| c.item_err(KEY, i, format!("name {m}")))?;
                 // compared as --satellite NAME finds a satellite
                 let twin = out.iter().filter_map(|o| o.name.as_deref());
                 if let Some(other) = twin
@@ -840,9 +836,7 @@ fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry,
             let full = format!("{KEY}[{i}].{key}");
             c.err_at(line, &full, format!("{msg} (scheme {})", f.name))
         };
-        if let Some(ch) = crate::infile::control_character(&f.name) {
-            return Err(at("name", crate::infile::control_character_message(ch)));
-        }
+        crate::infile::check_name(&f.name).map_err(|m| at("name", m))?;
         let spec = user_scheme_spec(f).map_err(|(key, msg)| at(key, msg))?;
         let s = UserScheme::new(&spec).map_err(|e| at(e.key(&spec.threshold), e.to_string()))?;
         // Where the choice moves the threshold (an overhead below 100 % efficiency), the basis

@@ -65,14 +65,17 @@ impl ConfigError {
 /// Read a whole text file under the input rule of [`crate::infile`], mapping I/O errors to a
 /// [`ConfigError`].
 pub fn read_text(path: &Path) -> Result<String, ConfigError> {
-    crate::infile::read_text(path)
-        .map_err(|e| ConfigError::new(path, None, None, format!("cannot read file: {e}")))
+    read_limited(path, crate::infile::MAX_INPUT_BYTES)
 }
 
 /// [`read_text`] for a mission or station file (YAML): at most [`MAX_YAML_BYTES`], since the
 /// YAML parser holds about 20 times a file's size in memory while it reads it.
 pub fn read_yaml_text(path: &Path) -> Result<String, ConfigError> {
-    crate::infile::read_text_limited(path, MAX_YAML_BYTES)
+    read_limited(path, MAX_YAML_BYTES)
+}
+
+fn read_limited(path: &Path, max_bytes: u64) -> Result<String, ConfigError> {
+    crate::infile::read_text_limited(path, max_bytes)
         .map_err(|e| ConfigError::new(path, None, None, format!("cannot read file: {e}")))
 }
 

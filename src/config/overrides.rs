@@ -93,6 +93,11 @@ pub struct OverrideError {
 }
 
 impl Override {
+    /// The option and its argument as given (`--set KEY=VALUE`), for messages.
+    pub fn given(&self) -> String {
+        format!("{} {}", self.flag, self.arg)
+    }
+
     /// Read `KEY=VALUE` given by `--set`.
     pub fn parse(arg: &str) -> Result<Override, OverrideError> {
         Override::parse_as(arg, "--set")
@@ -245,8 +250,7 @@ impl Overrides {
                     "no station of this run is named so (stations: {}); write station.NAME.KEY with NAME as in the station file, or station.*.KEY for every station",
                     names.join(", ")
                 );
-                return Err(ConfigError::new(path, None, None, msg)
-                    .set_by(&format!("{} {}", o.flag, o.arg)));
+                return Err(ConfigError::new(path, None, None, msg).set_by(&o.given()));
             }
         }
         Ok(())

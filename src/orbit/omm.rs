@@ -393,9 +393,8 @@ fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<Eleme
     let name = text("OBJECT_NAME")
         .filter(|s| !s.is_empty())
         .map(str::to_string);
-    if let Some(ch) = name.as_deref().and_then(crate::infile::control_character) {
-        let why = crate::infile::control_character_message(ch);
-        return Err(invalid("OBJECT_NAME", &why));
+    if let Some(n) = name.as_deref() {
+        crate::infile::check_name(n).map_err(|m| invalid("OBJECT_NAME", &m))?;
     }
     let elements = sgp4::Elements {
         object_name: name,

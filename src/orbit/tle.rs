@@ -27,8 +27,8 @@ pub enum TleError {
     Empty,
     #[error("line {line}: contains non-ASCII characters")]
     NonAscii { line: usize },
-    #[error("line {line}: the name line {}", crate::infile::control_character_message(*found))]
-    ControlCharacter { line: usize, found: char },
+    #[error("line {line}: the name line {reason}")]
+    ControlCharacter { line: usize, reason: String },
     #[error("line {line}: {length} columns, a TLE data line needs 69")]
     Length { line: usize, length: usize },
     #[error("line {line}: column 70 must be blank when a line is longer than 69 columns, found '{found}'")]
@@ -159,9 +159,8 @@ pub fn parse_tle(text: &str) -> Result<Vec<ElementSet>, TleError> {
         } else {
             // A name line; the 3-line form sometimes prefixes it with "0 ".
             let trimmed = l.trim();
-            if let Some(found) = crate::infile::control_character(trimmed) {
-                return Err(TleError::ControlCharacter { line: n, found });
-            }
+            crate::infile::check_name(trimmed)
+                .map_err(|reason| TleError::ControlCharacter { line: n, reason })?;
             name = Some(
                 trimmed
                     .strip_prefix("0 ")

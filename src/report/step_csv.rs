@@ -393,8 +393,8 @@ mod tests {
         }
     }
 
-    /// The whole-number writer against the standard library's formatting at its digit-count
-    /// edges and extremes.
+    /// The whole-number writer against the standard library's integer formatting (the reference
+    /// it must equal) at its digit-count edges and extremes.
     #[test]
     fn whole_numbers_match_to_string() {
         for n in [
