@@ -64,6 +64,13 @@ impl RateOption {
         self.margin_at()(cn0_dbhz)
     }
 
+    /// [`RateOption::ebn0_db`] for many C/N0 values: the rate's 10 log10 R worked out once.
+    #[inline]
+    pub fn ebn0_at(&self) -> impl Fn(f64) -> f64 + '_ {
+        let rate_db = self.rate_db();
+        move |cn0_dbhz| ebn0_at_rate(cn0_dbhz, rate_db)
+    }
+
     /// [`RateOption::margin_db`] for many C/N0 values: the rate's 10 log10 R worked out once.
     #[inline]
     pub fn margin_at(&self) -> impl Fn(f64) -> f64 + '_ {

@@ -29,6 +29,12 @@ const POW10: [f64; 7] = [1.0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6];
 
 /// Write `round(x, decimals)` as the `csv` crate writes that `f64` (see the module note).
 pub fn push_rounded(buf: &mut Vec<u8>, x: f64, decimals: usize) {
+    // Zero (either sign) first: a fifth of a pass's noise terms are exactly 0 (no man-made noise,
+    // the Moon and often the Sun out of the beam's reach), written as the digits below would.
+    if x == 0.0 {
+        buf.extend_from_slice(b"0.0");
+        return;
+    }
     let scaled = x * POW10[decimals];
     // (an infinity fails the second test)
     if scaled.is_nan() || scaled.abs() >= 1e15 {
@@ -174,8 +180,11 @@ fn push_2(buf: &mut Vec<u8>, n: u32) {
 /// seconds go through `format_ms` itself.
 fn push_time(buf: &mut Vec<u8>, aos: &DateTime<Utc>, t_s: f64) {
     let t = crate::timefmt::add_seconds(aos, t_s);
-    let year = t.year();
-    if !(0..=9999).contains(&year) || t.nanosecond() >= 1_000_000_000 {
+    // The fields from the naive UTC time: each of `DateTime`'s own getters applies the offset
+    // again.
+    let n = t.naive_utc();
+    let year = n.year();
+    if !(0..=9999).contains(&year) || n.nanosecond() >= 1_000_000_000 {
         buf.extend_from_slice(crate::timefmt::format_ms(&t).as_bytes());
         return;
     }
@@ -183,16 +192,16 @@ fn push_time(buf: &mut Vec<u8>, aos: &DateTime<Utc>, t_s: f64) {
     push_2(buf, y / 100);
     push_2(buf, y % 100);
     buf.push(b'-');
-    push_2(buf, t.month());
+    push_2(buf, n.month());
     buf.push(b'-');
-    push_2(buf, t.day());
+    push_2(buf, n.day());
     buf.push(b'T');
-    push_2(buf, t.hour());
+    push_2(buf, n.hour());
     buf.push(b':');
-    push_2(buf, t.minute());
+    push_2(buf, n.minute());
     buf.push(b':');
-    push_2(buf, t.second());
-    let ms = t.nanosecond() / 1_000_000;
+    push_2(buf, n.second());
+    let ms = n.nanosecond() / 1_000_000;
     buf.extend_from_slice(&[
         b'.',
         b'0' + (ms / 100) as u8,
@@ -231,6 +240,22 @@ pub fn pass_csv(series: &PassSeries, rates: &RateSet, warnings: &[String]) -> Ve
     buf.extend_from_slice(STEP_HEADER.as_bytes());
     buf.push(b'\n');
     let (_, o) = rates.display_option(series.plan.clear.option);
+    // The fields that are the same on every row of a scheme (the fixed rate; each adaptive
+    // option's name and rate), written once per pass.
+    let mut fixed_rate = Vec::new();
+    push_whole(&mut fixed_rate, o.rate_bps);
+    let adaptive: Vec<Vec<u8>> = rates
+        .adaptive
+        .iter()
+        .map(|a| {
+            let mut b = Vec::new();
+            push_text(&mut b, &a.scheme);
+            b.push(b',');
+            push_whole(&mut b, round(a.rate_bps, 1));
+            b
+        })
+        .collect();
+    let (ebn0_db, margin_db) = (o.ebn0_at(), o.margin_at());
     let aos = series.plan.pass.aos;
     for (i, s) in series.steps.iter().enumerate() {
         let a = series
@@ -238,24 +263,21 @@ pub fn pass_csv(series: &PassSeries, rates: &RateSet, warnings: &[String]) -> Ve
             .get(i)
             .copied()
             .flatten()
-            .map(|j| &rates.adaptive[j as usize]);
+            .map(|j| &adaptive[j as usize]);
         push_step(&mut buf, &aos, s);
-        push_whole(&mut buf, o.rate_bps);
+        buf.extend_from_slice(&fixed_rate);
         buf.push(b',');
-        push_rounded(&mut buf, o.ebn0_db(s.cn0_dbhz), 4);
+        push_rounded(&mut buf, ebn0_db(s.cn0_dbhz), 4);
         buf.push(b',');
-        push_rounded(&mut buf, o.margin_db(s.cn0_dbhz), 4);
+        push_rounded(&mut buf, margin_db(s.cn0_dbhz), 4);
         buf.push(b',');
         push_bool(&mut buf, series.counted(i));
         buf.push(b',');
         push_bool(&mut buf, !s.untracked);
         buf.push(b',');
-        if let Some(a) = a {
-            push_text(&mut buf, &a.scheme);
-        }
-        buf.push(b',');
-        if let Some(a) = a {
-            push_whole(&mut buf, round(a.rate_bps, 1));
+        match a {
+            Some(a) => buf.extend_from_slice(a),
+            None => buf.push(b','),
         }
         let r = s.rain;
         for (x, d) in [
@@ -267,7 +289,7 @@ pub fn pass_csv(series: &PassSeries, rates: &RateSet, warnings: &[String]) -> Ve
             (r.map(|r| r.antenna_temperature_k), 3),
             (r.map(|r| r.system_temperature_k), 3),
             (r.map(|r| r.cn0_dbhz), 4),
-            (r.map(|r| o.margin_db(r.cn0_dbhz)), 4),
+            (r.map(|r| margin_db(r.cn0_dbhz)), 4),
         ] {
             buf.push(b',');
             push_opt(&mut buf, x, d);
