@@ -104,9 +104,31 @@ where
     shannon_share(d, &days, &bottom, w, x_axis_h)
 }
 
-/// The categorical day axis shared by the daily panels: one slot per UTC day, the window's
-/// hours in each day, and the label formatter.
+/// The window's length on the time axis that all three panels share, seconds from its start:
+/// the window itself, or (for a window with no length) up to the last LOS.
+fn window_span_s(d: &SummaryChartData) -> f64 {
+    let span = seconds_between(&d.start, &d.end);
+    if span.is_finite() && span > 0.0 {
+        span
+    } else {
+        let (_, hi) = style::finite_range(
+            d.passes.iter().map(|p| seconds_between(&d.start, &p.los)),
+            0.0,
+            3600.0,
+            (0.0, 86400.0),
+        );
+        hi.max(3600.0)
+    }
+}
+
+/// The day axis of the daily panels: each UTC day's part of the window on the same time axis as
+/// the passes above (seconds from the window start), so a day's bars stand under that day's
+/// passes and a day the window covers in part is as narrow as its hours.
 struct DayAxis {
+    span_s: f64,
+    /// Each day's part of the window, seconds from its start.
+    slots: Vec<(f64, f64)>,
+    /// The slots' middles, where the day labels go.
     ticks: Vec<f64>,
     /// Hours of the window in each day (24 for a whole day).
     window_h: Vec<f64>,
@@ -115,31 +137,53 @@ struct DayAxis {
 
 impl DayAxis {
     fn new(d: &SummaryChartData) -> Self {
-        let window_h = d
+        let span_s = window_span_s(d);
+        let mut slots: Vec<(f64, f64)> = d
             .days
             .iter()
             .map(|t| {
                 let day0 = t.date.and_time(chrono::NaiveTime::MIN).and_utc();
                 let day1 = day0 + chrono::Duration::days(1);
-                let a = day0.max(d.start);
-                let b = day1.min(d.end);
-                (seconds_between(&a, &b) / 3600.0).clamp(0.0, 24.0)
+                (
+                    seconds_between(&d.start, &day0.max(d.start)),
+                    seconds_between(&d.start, &day1.min(d.end)),
+                )
             })
             .collect();
+        let window_h = slots
+            .iter()
+            .map(|(a, b)| ((b - a) / 3600.0).clamp(0.0, 24.0))
+            .collect();
+        // Days that do not lie in the window in order (no window length): equal slots instead.
+        let ordered = slots
+            .iter()
+            .all(|&(a, b)| a.is_finite() && b > a && a >= 0.0 && b <= span_s);
+        if !ordered {
+            let n = slots.len().max(1) as f64;
+            for (i, slot) in slots.iter_mut().enumerate() {
+                *slot = (i as f64 * span_s / n, (i + 1) as f64 * span_s / n);
+            }
+        }
         DayAxis {
-            ticks: (0..d.days.len()).map(|i| i as f64 + 0.5).collect(),
+            span_s,
+            ticks: slots.iter().map(|(a, b)| (a + b) / 2.0).collect(),
+            slots,
             window_h,
             // Label only as many days as fit (about 14).
             every: d.days.len().div_ceil(14).max(1),
         }
     }
 
+    fn axis(&self) -> style::TickAxis {
+        style::TickAxis::new(0.0, self.span_s, self.ticks.clone())
+    }
+
     fn label(&self, d: &SummaryChartData, v: f64) -> String {
-        let i = v.floor();
-        if i < 0.0 || (i as usize) >= d.days.len() || !(i as usize).is_multiple_of(self.every) {
-            String::new()
-        } else {
-            d.days[i as usize].date.format("%a %m-%d").to_string()
+        match self.ticks.iter().position(|t| *t == v) {
+            Some(i) if i.is_multiple_of(self.every) => {
+                d.days[i].date.format("%a %m-%d").to_string()
+            }
+            _ => String::new(),
         }
     }
 
@@ -158,19 +202,7 @@ where
     DB::ErrorType: 'static,
 {
     let (plot, legend) = area.split_horizontally(w - LEGEND_W);
-    let span = seconds_between(&d.start, &d.end);
-    let span = if span.is_finite() && span > 0.0 {
-        span
-    } else {
-        // fall back to the passes themselves
-        let (_, hi) = style::finite_range(
-            d.passes.iter().map(|p| seconds_between(&d.start, &p.los)),
-            0.0,
-            3600.0,
-            (0.0, 86400.0),
-        );
-        hi.max(3600.0)
-    };
+    let span = window_span_s(d);
     let (step, ticks) = style::time_ticks(&d.start, 0.0, span, 10);
     let start = d.start;
     let multi_day = span > 86400.0;
@@ -270,7 +302,6 @@ where
     DB::ErrorType: 'static,
 {
     let (plot, legend) = area.split_horizontally(w - LEGEND_W);
-    let n = d.days.len().max(1);
     let has_network = d.days.iter().any(|t| t.network_bits.is_some());
     let has_rain = d.days.iter().any(|t| t.rain_bits.is_some());
     type Pick = fn(&DayTotals) -> Option<f64>;
@@ -312,10 +343,7 @@ where
         .margin_right(24)
         .x_label_area_size(8)
         .y_label_area_size(Y_AXIS_W)
-        .build_cartesian_2d(
-            style::TickAxis::new(0.0, n as f64, axis.ticks.clone()),
-            0.0..y_hi,
-        )?;
+        .build_cartesian_2d(axis.axis(), 0.0..y_hi)?;
     chart
         .configure_mesh()
         .bold_line_style(style::GRID)
@@ -331,14 +359,16 @@ where
     // Days the window covers only in part: shaded, with their hours, so a short day does not
     // read as a drop.
     let mut any_partial = false;
-    let slot_px = chart.plotting_area().dim_in_pixel().0 as f64 / n as f64;
+    let px_per_s = chart.plotting_area().dim_in_pixel().0 as f64 / axis.span_s;
     let note = style::note_font(style::INK);
     for i in (0..d.days.len()).filter(|&i| axis.partial(i)) {
         any_partial = true;
+        let (a, b) = axis.slots[i];
         chart.draw_series(std::iter::once(Rectangle::new(
-            [(i as f64, 0.0), (i as f64 + 1.0, y_hi)],
+            [(a, 0.0), (b, y_hi)],
             style::TERRAIN.mix(0.45).filled(),
         )))?;
+        let slot_px = (b - a) * px_per_s;
         // The longest text that fits the day's slot (the legend explains the shading).
         let hours = axis.window_h[i];
         let texts = [
@@ -353,13 +383,13 @@ where
         if let Some(text) = texts.into_iter().find(fits) {
             chart.draw_series(std::iter::once(Text::new(
                 text,
-                (i as f64 + 0.5, y_hi),
+                ((a + b) / 2.0, y_hi),
                 note.clone().pos(Pos::new(HPos::Center, VPos::Top)),
             )))?;
         }
     }
-    let bar_w = 0.76 / kinds.len() as f64;
-    for (i, t) in d.days.iter().enumerate() {
+    for (t, &(a, b)) in d.days.iter().zip(&axis.slots) {
+        let bar_w = 0.76 * (b - a) / kinds.len() as f64;
         for (k, (color, _, pick)) in kinds.iter().enumerate() {
             let Some(v) = pick(t).map(|v| v / div) else {
                 continue;
@@ -367,7 +397,7 @@ where
             if !v.is_finite() || v <= 0.0 {
                 continue;
             }
-            let x0 = i as f64 + 0.12 + k as f64 * bar_w;
+            let x0 = a + 0.12 * (b - a) + k as f64 * bar_w;
             let x1 = x0 + bar_w;
             chart.draw_series([
                 Rectangle::new([(x0, 0.0), (x1, v)], color.filled()),
@@ -378,7 +408,7 @@ where
     if d.days.is_empty() {
         chart.draw_series(std::iter::once(Text::new(
             "no daily totals".to_string(),
-            (0.5, y_hi / 2.0),
+            (axis.span_s / 2.0, y_hi / 2.0),
             style::title_font().pos(Pos::new(HPos::Center, VPos::Center)),
         )))?;
     }
@@ -408,7 +438,6 @@ where
     DB::ErrorType: 'static,
 {
     let (plot, legend) = area.split_horizontally(w - LEGEND_W);
-    let n = d.days.len().max(1);
     let share = |v: f64, b: f64| {
         if b > 0.0 && v.is_finite() && b.is_finite() {
             100.0 * v / b
@@ -419,14 +448,14 @@ where
     let fixed: Vec<(f64, f64)> = d
         .days
         .iter()
-        .enumerate()
-        .map(|(i, t)| (i as f64 + 0.5, share(t.fixed_bits, t.shannon_bits)))
+        .zip(&axis.ticks)
+        .map(|(t, x)| (*x, share(t.fixed_bits, t.shannon_bits)))
         .collect();
     let adaptive: Vec<(f64, f64)> = d
         .days
         .iter()
-        .enumerate()
-        .map(|(i, t)| (i as f64 + 0.5, share(t.adaptive_bits, t.shannon_bits)))
+        .zip(&axis.ticks)
+        .map(|(t, x)| (*x, share(t.adaptive_bits, t.shannon_bits)))
         .collect();
     let y_hi = style::zero_based_max(fixed.iter().chain(&adaptive).map(|p| p.1), 0.25, 5.0);
     let fmt = |v: &f64| axis.label(d, *v);
@@ -436,10 +465,7 @@ where
         .margin_right(24)
         .x_label_area_size(x_axis_h)
         .y_label_area_size(Y_AXIS_W)
-        .build_cartesian_2d(
-            style::TickAxis::new(0.0, n as f64, axis.ticks.clone()),
-            0.0..y_hi,
-        )?;
+        .build_cartesian_2d(axis.axis(), 0.0..y_hi)?;
     chart
         .configure_mesh()
         .bold_line_style(style::GRID)

@@ -852,10 +852,23 @@ fn summary_marks_partial_days() {
         rain_bits: None,
     });
     let svg = svg_text(draw_summary(&d, ChartFormat::Svg).unwrap());
-    assert!(svg.contains("partial day: 12.0 h"), "first day");
-    assert!(svg.contains("partial day: 6.0 h"), "last day");
-    assert_eq!(svg.matches("partial day:").count(), 2);
+    // On the passes' time axis a 12 h day is half as wide as a whole one, too narrow for the long
+    // note on this 8-day chart: the hours alone.
+    let texts = svg_texts(&svg);
+    let marks: Vec<&str> = texts
+        .iter()
+        .map(|(_, t)| t.as_str())
+        .filter(|t| t.ends_with(" h"))
+        .collect();
+    assert_eq!(marks, ["12 h", "6 h"], "first and last day");
     assert!(svg.contains("day the window"));
+    // Over two days the first day's slot is wide enough for the whole note.
+    let mut short = sample_summary();
+    short.start += Duration::hours(12);
+    short.end = short.start + Duration::hours(36);
+    short.days.truncate(2);
+    let svg = svg_text(draw_summary(&short, ChartFormat::Svg).unwrap());
+    assert!(svg.contains("partial day: 12.0 h"), "two-day window");
     for t in &mut d.days {
         t.network_bits = None;
         t.rain_bits = None;
@@ -863,6 +876,52 @@ fn summary_marks_partial_days() {
     d.rain_exceedance_percent = None;
     let svg = svg_text(draw_summary(&d, ChartFormat::Svg).unwrap());
     assert!(!svg.contains("network") && !svg.contains("rain"));
+}
+
+/// The daily panels stand on the pass timeline's time axis: each day's label lies midway between
+/// the two midnights that bound it on the timeline. They were equal slots per day, so with a
+/// window opening at noon the label of 12-03 stood under the timeline's 12-03 midnight and each
+/// day's bars under half of the day before and half of its own.
+#[test]
+fn summary_days_stand_under_their_passes() {
+    let mut d = sample_summary();
+    d.start += Duration::hours(12);
+    let texts = svg_texts(&svg_text(draw_summary(&d, ChartFormat::Svg).unwrap()));
+    let x_of = |label: &str| {
+        let xs: Vec<f64> = texts
+            .iter()
+            .filter(|(_, t)| t == label)
+            .map(|(x, _)| *x)
+            .collect();
+        assert_eq!(xs.len(), 1, "{label}: {xs:?}");
+        xs[0]
+    };
+    let (midnight_3, midnight_4) = (x_of("2026-12-03"), x_of("2026-12-04"));
+    let day_3 = x_of("Thu 12-03");
+    assert!(
+        (day_3 - (midnight_3 + midnight_4) / 2.0).abs() <= 2.0,
+        "Thu 12-03 at {day_3}, midnights at {midnight_3} and {midnight_4}"
+    );
+    // The window's first half day (from noon): its label midway between the window start, half a
+    // day before the midnight, and the midnight.
+    let day_px = midnight_4 - midnight_3;
+    let day_2 = x_of("Wed 12-02");
+    assert!(
+        (day_2 - (midnight_3 - day_px / 4.0)).abs() <= 2.0,
+        "Wed 12-02 at {day_2}, midnight at {midnight_3}, a day {day_px} px"
+    );
+}
+
+/// The text elements of an SVG chart: each one's `x` and its content.
+fn svg_texts(svg: &str) -> Vec<(f64, String)> {
+    svg.split("<text ")
+        .skip(1)
+        .filter_map(|t| {
+            let x = t.split("x=\"").nth(1)?.split('"').next()?.parse().ok()?;
+            let body = t.split_once('>')?.1.split("</text>").next()?;
+            Some((x, body.trim().to_string()))
+        })
+        .collect()
 }
 
 /// `chart --pass ID` writes its one-pass sky chart under the pass's identifier and leaves the
