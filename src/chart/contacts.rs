@@ -132,10 +132,10 @@ where
         d.unbooked.iter().map(|b| (b.satellite, b.pass)).collect();
     title.draw(&Text::new(
         format!(
-            "{} booked contacts, {} passes no antenna booked, on {} antennas",
-            d.booked.len(),
-            unbooked.len(),
-            d.antennas.len()
+            "{} booked on {} · {} with a closing rate left unbooked",
+            counted(d.booked.len(), "contact"),
+            counted(d.antennas.len(), "antenna"),
+            counted(unbooked.len(), "pass"),
         ),
         (30, 58),
         style::label_font(),
@@ -235,7 +235,7 @@ where
         Key::Line(Stroke::solid(style::INK, 6)),
         "set-up (turnaround)".into(),
     ));
-    keys.push((Key::Band(style::GRID, 1.0), "pass no antenna booked".into()));
+    keys.push((Key::Band(style::GRID, 1.0), "pass left unbooked".into()));
     keys.push((Key::Band(style::TERRAIN, 1.0), "antenna blocked".into()));
     style::draw_legend(&legend, Some("Satellite"), &keys)
 }
@@ -480,4 +480,26 @@ pub fn draw_contact_charts(
         },
     );
     timelines.and(storage)
+}
+
+/// `1 pass`, `2 passes`, `0 contacts`: a count with its noun.
+fn counted(n: usize, noun: &str) -> String {
+    match (n, noun.ends_with('s')) {
+        (1, _) => format!("1 {noun}"),
+        (_, true) => format!("{n} {noun}es"),
+        (_, false) => format!("{n} {noun}s"),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    /// The subtitle's counts in English (a behaviour check; no published reference applies):
+    /// `1 passes` and `1 antennas` were printed before.
+    #[test]
+    fn counts_take_their_plural() {
+        assert_eq!(super::counted(1, "pass"), "1 pass");
+        assert_eq!(super::counted(0, "pass"), "0 passes");
+        assert_eq!(super::counted(1, "antenna"), "1 antenna");
+        assert_eq!(super::counted(3, "contact"), "3 contacts");
+    }
 }

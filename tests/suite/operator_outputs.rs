@@ -782,7 +782,7 @@ fn fleet_timeline_counts_an_unbooked_pass_once() {
     assert!(two_antennas_unbooked, "the case this test is for");
     plan_svg_charts(&[fleet, "--days", "0.5"], &out);
     let svg = std::fs::read_to_string(out.join("timeline-20261201.svg")).unwrap();
-    let want = format!(" {not_booked} passes no antenna booked,");
+    let want = format!(" · {not_booked} passes with a closing rate left unbooked");
     assert!(svg.contains(&want), "{want}: {svg}");
 }
 
