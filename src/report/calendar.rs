@@ -5,7 +5,9 @@
 //! the contact's end: the antenna is busy for all of it. The summary names the satellite, the
 //! antenna and the rate; the description gives the contact's start, the elevations, the scheme,
 //! the expected volume and the planning caution. The UID is stable from run to run for the same
-//! contact (satellite, antenna, pass), so a calendar that imports a new plan updates its events.
+//! contact (satellite, antenna, pass); DTSTAMP is the window start and there is no SEQUENCE, so
+//! the same inputs give the same file, and a newer plan's events do not look newer (the README
+//! tells users to replace or subscribe rather than import over).
 
 use super::contacts::ContactRow;
 use chrono::{DateTime, Timelike, Utc};
