@@ -132,9 +132,9 @@ where
         d.unbooked.iter().map(|b| (b.satellite, b.pass)).collect();
     title.draw(&Text::new(
         format!(
-            "{} booked on {} · {} with a closing rate left unbooked",
-            counted(d.booked.len(), "contact"),
+            "{} in the plan · {} booked · {} with a closing rate left unbooked",
             counted(d.antennas.len(), "antenna"),
+            counted(d.booked.len(), "contact"),
             counted(unbooked.len(), "pass"),
         ),
         (30, 58),

@@ -132,7 +132,6 @@ struct DayAxis {
     ticks: Vec<f64>,
     /// Hours of the window in each day (24 for a whole day).
     window_h: Vec<f64>,
-    every: usize,
 }
 
 impl DayAxis {
@@ -154,7 +153,9 @@ impl DayAxis {
             .iter()
             .map(|(a, b)| ((b - a) / 3600.0).clamp(0.0, 24.0))
             .collect();
-        // Days that do not lie in the window in order (no window length): equal slots instead.
+        // Days that do not lie in the window in order (no window length; only a library caller's
+        // data, as a plan's days lie in its window): equal slots instead, which then no longer
+        // stand under the timeline's days.
         let ordered = slots
             .iter()
             .all(|&(a, b)| a.is_finite() && b > a && a >= 0.0 && b <= span_s);
@@ -169,8 +170,6 @@ impl DayAxis {
             ticks: slots.iter().map(|(a, b)| (a + b) / 2.0).collect(),
             slots,
             window_h,
-            // Label only as many days as fit (about 14).
-            every: d.days.len().div_ceil(14).max(1),
         }
     }
 
@@ -178,9 +177,29 @@ impl DayAxis {
         style::TickAxis::new(0.0, self.span_s, self.ticks.clone())
     }
 
-    fn label(&self, d: &SummaryChartData, v: f64) -> String {
+    /// Which days get a label: from the left, each whose label (`label_s` wide, centred on its
+    /// day) starts after the last one placed ends, `gap_s` later, and stays on the axis. Whole
+    /// days in a long window are so labelled every few days, and a sliver of a day at the
+    /// window's edge, whose label would print over its neighbour's, is left unlabelled.
+    fn labelled(&self, label_s: f64, gap_s: f64) -> Vec<bool> {
+        let mut free_from = -gap_s;
+        self.ticks
+            .iter()
+            .map(|&t| {
+                let (from, to) = (t - label_s / 2.0, t + label_s / 2.0);
+                let fits = from >= free_from + gap_s && from >= 0.0 && to <= self.span_s;
+                if fits {
+                    free_from = to;
+                }
+                fits
+            })
+            .collect()
+    }
+
+    /// The label of the day whose middle is `v`, if [`DayAxis::labelled`] placed it.
+    fn label(&self, d: &SummaryChartData, v: f64, placed: &[bool]) -> String {
         match self.ticks.iter().position(|t| *t == v) {
-            Some(i) if i.is_multiple_of(self.every) => {
+            Some(i) if placed.get(i) == Some(&true) => {
                 d.days[i].date.format("%a %m-%d").to_string()
             }
             _ => String::new(),
@@ -458,7 +477,6 @@ where
         .map(|(t, x)| (*x, share(t.adaptive_bits, t.shannon_bits)))
         .collect();
     let y_hi = style::zero_based_max(fixed.iter().chain(&adaptive).map(|p| p.1), 0.25, 5.0);
-    let fmt = |v: &f64| axis.label(d, *v);
     let mut chart = ChartBuilder::on(&plot)
         .margin_top(10)
         .margin_left(10)
@@ -466,6 +484,13 @@ where
         .x_label_area_size(x_axis_h)
         .y_label_area_size(Y_AXIS_W)
         .build_cartesian_2d(axis.axis(), 0.0..y_hi)?;
+    // The day labels that fit side by side (every label as wide as the widest possible one).
+    let label_px = plot
+        .estimate_text_size("Wed 12-31", &style::tick_font())
+        .map_or(80.0, |(w, _)| w as f64);
+    let s_per_px = axis.span_s / chart.plotting_area().dim_in_pixel().0.max(1) as f64;
+    let placed = axis.labelled(label_px * s_per_px, 12.0 * s_per_px);
+    let fmt = |v: &f64| axis.label(d, *v, &placed);
     chart
         .configure_mesh()
         .bold_line_style(style::GRID)

@@ -880,8 +880,8 @@ fn summary_marks_partial_days() {
 
 /// The daily panels stand on the pass timeline's time axis: each day's label lies midway between
 /// the two midnights that bound it on the timeline. They were equal slots per day, so with a
-/// window opening at noon the label of 12-03 stood under the timeline's 12-03 midnight and each
-/// day's bars under half of the day before and half of its own.
+/// window opening at noon each day's label and bars stood some hours later on the timeline than
+/// that day's passes (the label of 12-03 near the timeline's 12-04 midnight).
 #[test]
 fn summary_days_stand_under_their_passes() {
     let mut d = sample_summary();
@@ -910,6 +910,27 @@ fn summary_days_stand_under_their_passes() {
         (day_2 - (midnight_3 - day_px / 4.0)).abs() <= 2.0,
         "Wed 12-02 at {day_2}, midnight at {midnight_3}, a day {day_px} px"
     );
+}
+
+/// A day the window covers only in a sliver (a window opening at 23:00) gets no label, which
+/// would print over the next day's; the labels that are drawn never overlap (a review found
+/// "Tue 12-01" over "Wed 12-02" when the day axis first followed the timeline).
+#[test]
+fn summary_day_labels_never_overlap() {
+    let mut d = sample_summary();
+    d.start += Duration::hours(23);
+    let texts = svg_texts(&svg_text(draw_summary(&d, ChartFormat::Svg).unwrap()));
+    let days: Vec<(f64, &str)> = texts
+        .iter()
+        .filter(|(_, t)| t.len() == 9 && t.as_bytes()[3] == b' ' && t.contains("12-0"))
+        .map(|(x, t)| (*x, t.as_str()))
+        .collect();
+    assert!(!days.iter().any(|(_, t)| *t == "Wed 12-02"), "{days:?}");
+    assert!(days.iter().any(|(_, t)| *t == "Thu 12-03"), "{days:?}");
+    for pair in days.windows(2) {
+        // a label of 9 characters at the tick font is about 80 px wide
+        assert!(pair[1].0 - pair[0].0 >= 80.0, "{days:?}");
+    }
 }
 
 /// The text elements of an SVG chart: each one's `x` and its content.
