@@ -61,7 +61,7 @@ pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Wr
         ("set-up (UTC)", Align::Left),
         ("start", Align::Left),
         ("end", Align::Left),
-        ("el start/end deg", Align::Right),
+        ("el start/max/end deg", Align::Right),
         ("rate", Align::Right),
         ("scheme", Align::Left),
         ("min margin", Align::Right),
@@ -76,7 +76,13 @@ pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Wr
             short_time(&c.setup_start, with_year),
             c.start.get(11..19).unwrap_or("").to_string(),
             c.end.get(11..19).unwrap_or("").to_string() + if c.shortened { " *" } else { "" },
-            engfmt::fixed(c.start_elevation_deg, 1) + "/" + &engfmt::fixed(c.end_elevation_deg, 1),
+            [
+                c.start_elevation_deg,
+                c.max_elevation_deg,
+                c.end_elevation_deg,
+            ]
+            .map(|e| engfmt::fixed(e, 1))
+            .join("/"),
             engfmt::rate(c.rate_bps),
             c.scheme,
             cell_or_dash(c.min_margin_db.map(|m| engfmt::fixed(m, 1) + " dB")),

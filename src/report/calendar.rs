@@ -54,12 +54,13 @@ fn event(r: &ContactRow, stamp: DateTime<Utc>) -> Result<Event, String> {
         r.pass_id
     );
     let description = format!(
-        "Set-up from {}; contact {} to {} ({:.0} s), elevation {:.1} to {:.1} deg.\nRate {} ({}), expected {}{}.\n{}",
+        "Set-up from {}; contact {} to {} ({:.0} s), elevation {:.1} deg at the start, {:.1} deg at the highest, {:.1} deg at the end.\nRate {} ({}), expected {}{}.\n{}",
         r.setup_start,
         r.start,
         r.end,
         r.duration_s,
         r.start_elevation_deg,
+        r.max_elevation_deg,
         r.end_elevation_deg,
         crate::engfmt::rate(r.rate_bps),
         r.scheme,

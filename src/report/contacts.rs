@@ -29,6 +29,8 @@ pub struct ContactRow {
     pub min_margin_db: Option<f64>,
     pub start_elevation_deg: f64,
     pub end_elevation_deg: f64,
+    /// The highest elevation within the contact ([`crate::plan::BookedContact`]).
+    pub max_elevation_deg: f64,
     /// Shortened to make room for another contact or a blocked period.
     pub shortened: bool,
     /// The pass it books ([`crate::report::pass_id`]).
@@ -400,6 +402,7 @@ fn contact_row(
         min_margin_db: c.min_margin_db.map(|m| round(m, 2)),
         start_elevation_deg: round(c.start_elevation_deg, 2),
         end_elevation_deg: round(c.end_elevation_deg, 2),
+        max_elevation_deg: round(c.max_elevation_deg, 2),
         shortened: c.shortened,
         pass_id: crate::report::pass_id(name, pass),
     }

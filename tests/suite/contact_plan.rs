@@ -688,3 +688,85 @@ fn imaging_before_the_window_start_is_cut_at_it() {
     assert_eq!(generated("2026-12-01T13:35:00Z"), 6.3e11);
     assert_eq!(generated("2026-12-10T12:00:00Z"), 0.0);
 }
+
+/// A contact gives its highest elevation (contacts.csv, the JSON, the table, the calendars):
+/// the calendar's "elevation 6.5 to 6.4 deg" read as the contact's range of elevation, where the
+/// satellite rose to 8.9 deg in between. Checked against `track` at 1 s over the contact (its
+/// points include the contact's two ends), for a contact that spans the pass's highest point
+/// and for one cut before it, on the shipped fleet.
+///
+/// Basis: a behaviour check against the program's own direct look angles (`track`, checked
+/// against Skyfield in `geometry_skyfield.rs`); no published reference applies.
+#[test]
+fn a_contact_gives_its_highest_elevation() {
+    let doc = json(&run(&["plan", FLEET, "--format", "json", "--quiet"]));
+    let contacts = doc["contacts"].as_array().unwrap();
+    let el = |c: &Value, k: &str| num(&c[format!("{k}_elevation_deg").as_str()]);
+    let spans_peak = contacts
+        .iter()
+        .find(|c| el(c, "max") > el(c, "start").max(el(c, "end")) + 1.0)
+        .expect("a contact over its pass's highest point");
+    let before_peak = contacts
+        .iter()
+        .find(|c| {
+            c["shortened"] == true
+                && el(c, "end") > el(c, "start") + 1.0
+                && el(c, "max") == el(c, "end")
+        })
+        .expect("a contact cut while the satellite still rises");
+    for c in [spans_peak, before_peak] {
+        let track = json(&run(&[
+            "track",
+            FLEET,
+            "--satellite",
+            c["satellite"].as_str().unwrap(),
+            "--station",
+            c["station"].as_str().unwrap(),
+            "--start",
+            c["start"].as_str().unwrap(),
+            "--end",
+            c["end"].as_str().unwrap(),
+            "--step-s",
+            "1",
+            "--format",
+            "json",
+            "--quiet",
+        ]));
+        let points = track["track"].as_array().unwrap();
+        assert_eq!(
+            points.last().unwrap()["time"],
+            c["end"],
+            "the end is a point"
+        );
+        let highest = points
+            .iter()
+            .map(|p| num(&p["elevation_deg"]))
+            .fold(f64::NEG_INFINITY, f64::max);
+        // 0.005 deg: the contact's rounding to 2 decimals; a 1 s grid misses a pass's peak by
+        // far less (the elevation rate is zero there).
+        assert!(
+            (el(c, "max") - highest).abs() <= 0.006,
+            "{c}: track's highest {highest}"
+        );
+        for end in ["start", "end"] {
+            assert!(el(c, "max") >= el(c, end), "{c}");
+        }
+    }
+    // The calendar says it in words.
+    let dir = tempfile::tempdir().unwrap();
+    success(&run(&[
+        "plan",
+        SINGLE,
+        "--days",
+        "1",
+        "--quiet",
+        "--out",
+        dir.path().to_str().unwrap(),
+    ]));
+    let ics = std::fs::read_to_string(dir.path().join("calendar-nordkam.ics")).unwrap();
+    let unfolded = ics.replace("\r\n ", "");
+    assert!(
+        unfolded.contains("deg at the start\\, ") && unfolded.contains(" deg at the highest\\, "),
+        "{unfolded}"
+    );
+}
