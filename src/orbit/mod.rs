@@ -63,6 +63,9 @@ pub enum OrbitInputError {
         #[source]
         source: Box<OmmError>,
     },
+    /// An XML file (OMM's XML form is not read).
+    #[error("{path}: {XML_NOT_READ}")]
+    Xml { path: PathBuf },
 }
 
 /// The form of an element file, as detected by [`detect_format`].
@@ -74,25 +77,39 @@ pub enum ElementFormat {
     OmmJson,
     /// CCSDS OMM in KVN (`KEY = value` lines).
     OmmKvn,
+    /// XML (the first non-blank character is `<`): CCSDS OMM has an XML form, which is not read.
+    Xml,
 }
 
-/// Detect the form of element text: JSON if the first non-blank character is `[` or `{`,
-/// KVN if the text contains `CCSDS_OMM_VERS`, otherwise TLE. A leading UTF-8 byte-order mark is
-/// skipped.
+/// Detect the form of element text: JSON if the first non-blank character is `[` or `{`, XML
+/// if it is `<`, KVN if the text contains `CCSDS_OMM_VERS`, otherwise TLE. A leading UTF-8
+/// byte-order mark is skipped.
 pub fn detect_format(text: &str) -> ElementFormat {
     match checks::strip_bom(text).trim_start().chars().next() {
         Some('[') | Some('{') => ElementFormat::OmmJson,
+        Some('<') => ElementFormat::Xml,
         _ if text.contains("CCSDS_OMM_VERS") => ElementFormat::OmmKvn,
         _ => ElementFormat::Tle,
     }
 }
 
-/// Parse element text of any supported form (see [`detect_format`]).
+/// Parse element text of any supported form (see [`detect_format`]). Lines may end in LF, CR LF
+/// or a lone CR (a file saved with the old Mac line endings reads as its lines, not as one).
 pub fn parse_elements(text: &str) -> Result<Vec<ElementSet>, ParseError> {
-    match detect_format(text) {
-        ElementFormat::Tle => tle::parse_tle(text).map_err(ParseError::Tle),
-        ElementFormat::OmmJson => omm::parse_omm_json(text).map_err(ParseError::Omm),
-        ElementFormat::OmmKvn => omm::parse_omm_kvn(text).map_err(ParseError::Omm),
+    let lone_cr = text
+        .bytes()
+        .zip(text.bytes().skip(1).map(Some).chain([None]))
+        .any(|(b, next)| b == b'\r' && next != Some(b'\n'));
+    let text: std::borrow::Cow<str> = if lone_cr {
+        text.replace("\r\n", "\n").replace('\r', "\n").into()
+    } else {
+        text.into()
+    };
+    match detect_format(&text) {
+        ElementFormat::Tle => tle::parse_tle(&text).map_err(ParseError::Tle),
+        ElementFormat::OmmJson => omm::parse_omm_json(&text).map_err(ParseError::Omm),
+        ElementFormat::OmmKvn => omm::parse_omm_kvn(&text).map_err(ParseError::Omm),
+        ElementFormat::Xml => Err(ParseError::Xml),
     }
 }
 
@@ -103,7 +120,11 @@ pub enum ParseError {
     Tle(TleError),
     #[error(transparent)]
     Omm(OmmError),
+    #[error("{XML_NOT_READ}")]
+    Xml,
 }
+
+const XML_NOT_READ: &str = "an XML file (OMM in XML?), which is not read: give the elements as TLE, OMM KVN or OMM JSON (CCSDS 502.0-B-3 defines the same keywords in each)";
 
 /// Read an element file (TLE, OMM JSON or OMM KVN; detected by [`detect_format`]).
 pub fn load_elements(path: &Path) -> Result<Vec<ElementSet>, OrbitInputError> {
@@ -119,6 +140,9 @@ pub fn load_elements(path: &Path) -> Result<Vec<ElementSet>, OrbitInputError> {
         ParseError::Omm(source) => OrbitInputError::Omm {
             path: path.to_path_buf(),
             source: Box::new(source),
+        },
+        ParseError::Xml => OrbitInputError::Xml {
+            path: path.to_path_buf(),
         },
     })
 }

@@ -24,7 +24,7 @@ use super::checks::{check_element_ranges, strip_bom};
 use super::elements::ElementSet;
 
 /// A malformed OMM. `line` is the 1-based line number (KVN); `object` the 0-based index of the
-/// message in the file.
+/// message in the file (messages name it counted from 1: "message 1" is the first).
 #[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
 pub enum OmmError {
     #[error("no element sets: the file holds no OMM")]
@@ -35,15 +35,15 @@ pub enum OmmError {
         column: usize,
         reason: String,
     },
-    #[error("message {object}: JSON value is not an object of OMM keywords")]
+    #[error("message {}: JSON value is not an object of OMM keywords", .object + 1)]
     NotAnObject { object: usize },
-    #[error("message {object}{}: required keyword {field} is missing", line_suffix(*.line))]
+    #[error("message {}{}: required keyword {field} is missing", .object + 1, line_suffix(*.line))]
     MissingField {
         object: usize,
         field: &'static str,
         line: Option<usize>,
     },
-    #[error("message {object}{}: {field} = '{value}' is not valid: {reason}", position_suffix(*.line, *.column))]
+    #[error("message {}{}: {field} = '{value}' is not valid: {reason}", .object + 1, position_suffix(*.line, *.column))]
     InvalidValue {
         object: usize,
         field: String,
@@ -53,7 +53,7 @@ pub enum OmmError {
         /// Column (1-based, in characters) of the value (KVN) or key (JSON).
         column: Option<usize>,
     },
-    #[error("message {object}{}: keyword {key} is given twice{}", position_suffix(*.line, *.column), first_suffix(*.first_line))]
+    #[error("message {}{}: keyword {key} is given twice{}", .object + 1, position_suffix(*.line, *.column), first_suffix(*.first_line))]
     DuplicateKey {
         object: usize,
         key: String,
@@ -61,7 +61,7 @@ pub enum OmmError {
         column: Option<usize>,
         first_line: Option<usize>,
     },
-    #[error("message {object}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-2; check the spelling){}", position_suffix(*.line, *.column), missing.map(|m| format!("; required keyword {m} is missing")).unwrap_or_default())]
+    #[error("message {}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-2; check the spelling){}", .object + 1, position_suffix(*.line, *.column), missing.map(|m| format!("; required keyword {m} is missing")).unwrap_or_default())]
     UnknownKey {
         object: usize,
         key: String,
@@ -798,7 +798,7 @@ mod tests {
         let err = parse_omm_kvn(&kvn).unwrap_err();
         assert_eq!(
             err.to_string(),
-            "message 0 (line 16, column 15): INCLINATION = '197.45' is not valid: \
+            "message 1 (line 16, column 15): INCLINATION = '197.45' is not valid: \
              inclination 197.45 deg is out of range (0 to 180 deg)"
         );
         let json = JSON.replace("\"MEAN_MOTION\": 15.05472", "\"MEAN_MOTION\": 1e308");
@@ -911,7 +911,7 @@ mod tests {
         );
         assert!(
             err.to_string()
-                .starts_with("message 0 (line 14, column 5): MEAN_MOTION"),
+                .starts_with("message 1 (line 14, column 5): MEAN_MOTION"),
             "{err}"
         );
         // null for an optional keyword counts as absent.

@@ -41,6 +41,8 @@ pub enum TleError {
     },
     #[error("line {line}: TLE line 1 is not followed by line 2 (end of file)")]
     MissingLine2 { line: usize },
+    #[error("line {line}: a name line with no TLE line 1 after it (end of file); an element file holds TLEs, CCSDS OMM KVN (with CCSDS_OMM_VERS) or OMM JSON (an object or a list)")]
+    MissingLine1 { line: usize },
     #[error("line {line}: checksum (sum of digits, '-' = 1, mod 10) is {expected}, column 69 says '{found}'")]
     Checksum {
         line: usize,
@@ -178,13 +180,7 @@ pub fn parse_tle(text: &str) -> Result<Vec<ElementSet>, TleError> {
                         found: first_char(l1),
                     })
                 }
-                None => {
-                    return Err(TleError::LineNumber {
-                        line: n + 1,
-                        expected: 1,
-                        found: String::from("end of file"),
-                    })
-                }
+                None => return Err(TleError::MissingLine1 { line: n }),
             }
         };
         i += 1;

@@ -189,6 +189,41 @@ fn format_detection() {
         ElementFormat::OmmKvn
     );
     assert_eq!(detect_format(L1), ElementFormat::Tle);
+    assert_eq!(
+        detect_format("\u{feff}  <?xml version=\"1.0\"?>"),
+        ElementFormat::Xml
+    );
+}
+
+/// Files that are not elements, or not in a form read, say what they are instead of what line
+/// they lack: an XML file (OMM's XML form) was "expected TLE line 1, found a line starting with
+/// '<'", a JSON number "found a line starting with 'end of file'". Basis: behaviour checks (the
+/// three forms read are those of CCSDS 502.0-B-3 and Spacetrack Report No. 3).
+#[test]
+fn files_that_are_not_elements_say_so() {
+    let e = parse_elements("<?xml version=\"1.0\"?>\n<ndm><omm/></ndm>\n").unwrap_err();
+    assert!(e.to_string().contains("an XML file (OMM in XML?)"), "{e}");
+    let e = parse_elements("42\n").unwrap_err().to_string();
+    assert!(
+        e.starts_with("line 1: a name line with no TLE line 1 after it (end of file)"),
+        "{e}"
+    );
+}
+
+/// A file saved with lone CR line endings (the old Mac convention) reads as its lines: the
+/// shipped TLE and KVN files so converted give the same elements as the originals. The KVN file
+/// read as one line said its first keyword was missing.
+#[test]
+fn lone_carriage_returns_end_lines() {
+    for path in ["examples/sat.tle", "examples/sat-omm.kvn"] {
+        let text = std::fs::read_to_string(path).unwrap();
+        assert!(!text.contains('\r'));
+        let mac = text.replace('\n', "\r");
+        let dos = text.replace('\n', "\r\n");
+        let want = parse_elements(&text).unwrap();
+        assert_eq!(parse_elements(&mac).unwrap(), want, "{path}");
+        assert_eq!(parse_elements(&dos).unwrap(), want, "{path}");
+    }
 }
 
 /// The shipped example file at `path` with `from` replaced by `to`.
