@@ -300,12 +300,23 @@ impl<'a> Checker<'a> {
         (self.line_offset > 0).then_some(self.line_offset + 1)
     }
 
-    /// The error as it reads for a key set by `--set`: naming the argument.
-    fn named(&self, key: &str, e: ConfigError) -> ConfigError {
-        match overrides::overridden(self.overrides, key) {
-            Some(o) => e.set_by(&o.given()),
-            None => e,
+    /// The error as it reads for a key set by `--set`: naming the argument. An error about a
+    /// block in which `--set` changed a key (`transmitter: needs power_w or power_dbw` after
+    /// `--set transmitter.power_w=`) keeps the block's line and names the arguments too.
+    fn named(&self, key: &str, mut e: ConfigError) -> ConfigError {
+        if let Some(o) = overrides::overridden(self.overrides, key) {
+            return e.set_by(&o.given());
         }
+        let inside = format!("{key}.");
+        let given: Vec<String> = (self.overrides.iter())
+            .filter(|o| o.key.starts_with(&inside))
+            .map(|o| o.given())
+            .collect();
+        if !given.is_empty() {
+            e.message
+                .push_str(&format!(" (the block as {} changed it)", given.join(" ")));
+        }
+        e
     }
 
     /// An error about a dotted key, at the key's line: `file:line: key: msg`.

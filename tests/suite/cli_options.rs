@@ -192,6 +192,15 @@ fn invalid_overrides_are_refused_naming_the_argument() {
         &plan("planning.step_s=8"),
         &["--set planning.step_s=8", "min_dwell_s"],
     );
+    // A block the argument changed, found wanting as a whole, names the argument beside the
+    // block's line (it named the line alone, so the file looked at fault).
+    clean_error(
+        &plan("transmitter.power_w="),
+        &[
+            "wrenlet-1.yaml:18: transmitter: needs power_w or power_dbw",
+            "(the block as --set transmitter.power_w= changed it)",
+        ],
+    );
 }
 
 /// A mission compared with itself differs in nothing (the comparison matches every pass with

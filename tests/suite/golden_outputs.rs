@@ -71,31 +71,59 @@ fn first_difference(name: &str, stored: &Path, new: &[u8]) -> String {
 }
 
 /// The fast per-pass CSV writer (`report::step_csv`) against the `csv` crate serializing the
-/// `StepRow`s, on every pass of the example week (rain case on, adaptive schedule, a mount):
-/// byte-identical.
+/// `StepRow`s, on every pass of the example week (rain case on, adaptive schedule, a mount), and
+/// of a day of it with no rain case and an own adaptive scheme whose name the CSV must quote
+/// and whose rate is not whole (the writer formats a pass's fixed fields once): byte-identical.
 #[test]
 fn fast_pass_csv_matches_serde_rows() {
-    use passbudget::config::mission::Mission;
-    use passbudget::plan::{FnSink, PassSeries, PlanRequest, Planner};
+    use passbudget::config::{mission::Mission, overrides::Overrides};
+    let path = root().join("examples/wrenlet-1.yaml");
+    let week = fast_csv_checked(&Mission::load(&path).unwrap(), None);
+    assert!(week > 100);
+    let own = r#"modem.schemes=[{name: 'qpsk "own", r1/2', bits_per_symbol: 2, code_rate: 0.5, required_ebn0_db: 1.0, error_rate: 1.0e-6, error_measure: ber, overhead: {efficiency: 0.9371234567}}]"#;
+    let sets = Overrides::parse(&[
+        own,
+        r#"modem.adaptive.schemes=[dvbs2-qpsk-1/4, 'qpsk "own", r1/2']"#,
+        "planning.exceedance_percent=~",
+    ])
+    .unwrap();
+    let text = std::fs::read_to_string(&path).unwrap();
+    let variant = Mission::from_yaml_with(&path, &text, &sets).unwrap();
+    assert!(variant.exceedance_percent.is_none());
+    assert!(fast_csv_checked(&variant, Some(1.0)) > 10);
+}
+
+/// Checks every pass's fast CSV against the serde rows; returns the number of passes.
+fn fast_csv_checked(mission: &passbudget::config::mission::Mission, days: Option<f64>) -> usize {
+    use passbudget::plan::{FnSink, PassSeries, PlanRequest, Planner, WindowRequest};
     use passbudget::report::plan::step_rows;
     use passbudget::report::{step_csv::pass_csv, to_csv};
-    let mission = Mission::load(&root().join("examples/wrenlet-1.yaml")).unwrap();
-    let planner = Planner::new(&mission, &PlanRequest::default()).unwrap();
+    let request = PlanRequest {
+        window: WindowRequest {
+            days,
+            ..Default::default()
+        },
+        ..Default::default()
+    };
+    let planner = Planner::new(mission, &request).unwrap();
     let warnings = vec!["a warning, with a comma".to_string()];
     let checked = std::sync::atomic::AtomicUsize::new(0);
+    let quoted = std::sync::atomic::AtomicUsize::new(0);
     let sink = FnSink(|s: &PassSeries<'_>| {
         let want = to_csv(&step_rows(s, planner.rates()), &warnings).unwrap();
-        let got = pass_csv(s, planner.rates(), &warnings);
-        assert_eq!(
-            String::from_utf8(got).unwrap(),
-            want,
-            "pass {}",
-            s.plan.number
-        );
+        let got = String::from_utf8(pass_csv(s, planner.rates(), &warnings)).unwrap();
+        assert_eq!(got, want, "pass {}", s.plan.number);
+        if got.contains(r#""qpsk ""own"", r1/2",56227407.4,"#) {
+            quoted.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+        }
         checked.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
         Ok::<(), std::io::Error>(())
     });
     let plan = planner.run(&sink).unwrap();
-    assert!(plan.passes.len() > 100);
     assert_eq!(checked.into_inner(), plan.passes.len());
+    // the variant's own scheme is chosen somewhere, quoted, with its fractional rate
+    if mission.exceedance_percent.is_none() {
+        assert!(quoted.into_inner() > 0, "the own scheme never chosen");
+    }
+    plan.passes.len()
 }
