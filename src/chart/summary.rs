@@ -41,6 +41,20 @@ fn finite_sum(v: impl Iterator<Item = f64>) -> f64 {
     v.filter(|x| x.is_finite()).sum()
 }
 
+/// A bar narrower than this many pixels is drawn without its edge: the edge's two pixels would
+/// hide its colour (a year's daily bars, a week's passes read as black).
+const MIN_EDGED_BAR_PX: f64 = 5.0;
+
+/// A bar from `x0` to `x1` up to `v`, filled, with its edge where it is wide enough
+/// ([`MIN_EDGED_BAR_PX`] at `px_per_x` pixels per unit of x).
+fn bar((x0, x1, v): (f64, f64, f64), color: RGBColor, px_per_x: f64) -> Vec<Rectangle<(f64, f64)>> {
+    let mut shapes = vec![Rectangle::new([(x0, 0.0), (x1, v)], color.filled())];
+    if (x1 - x0) * px_per_x >= MIN_EDGED_BAR_PX {
+        shapes.push(Rectangle::new([(x0, 0.0), (x1, v)], bar_edge()));
+    }
+    shapes
+}
+
 fn bar_edge() -> ShapeStyle {
     ShapeStyle {
         color: style::INK.to_rgba(),
@@ -257,6 +271,7 @@ where
     // A bar is as wide as the pass, but at least 1/400 of the window so it stays visible.
     let min_w = span / 400.0;
     let area_px = chart.plotting_area().strip_coord_spec();
+    let px_per_s = chart.plotting_area().dim_in_pixel().0 as f64 / span;
     let mut markers = Vec::with_capacity(d.passes.len());
     for p in &d.passes {
         let x0 = seconds_between(&d.start, &p.aos);
@@ -267,10 +282,7 @@ where
         }
         let color = style::SERIES[p.station_index % style::SERIES.len()];
         if v.is_finite() && v > 0.0 {
-            chart.draw_series([
-                Rectangle::new([(x0, 0.0), (x1, v)], color.filled()),
-                Rectangle::new([(x0, 0.0), (x1, v)], bar_edge()),
-            ])?;
+            chart.draw_series(bar((x0, x1, v), color, px_per_s))?;
         }
         let a = p.adaptive_volume_bits / div;
         if a.is_finite() {
@@ -417,11 +429,7 @@ where
                 continue;
             }
             let x0 = a + 0.12 * (b - a) + k as f64 * bar_w;
-            let x1 = x0 + bar_w;
-            chart.draw_series([
-                Rectangle::new([(x0, 0.0), (x1, v)], color.filled()),
-                Rectangle::new([(x0, 0.0), (x1, v)], bar_edge()),
-            ])?;
+            chart.draw_series(bar((x0, x0 + bar_w, v), *color, px_per_s))?;
         }
     }
     if d.days.is_empty() {

@@ -933,6 +933,23 @@ fn summary_day_labels_never_overlap() {
     }
 }
 
+/// A week's pass bars (a few pixels wide) are drawn without their edges, which hid their
+/// station's colour (the Nordkam bars read as black); the daily bars, wide, keep theirs.
+#[test]
+fn narrow_summary_bars_keep_their_colour() {
+    let d = sample_summary();
+    let svg = svg_text(draw_summary(&d, ChartFormat::Svg).unwrap());
+    let edges = svg
+        .split("<rect ")
+        .filter(|r| r.split('>').next().unwrap_or("").contains("fill=\"none\""))
+        .count();
+    // the daily panel's 7 days x 4 totals are edged, the legend's keys too; no pass bar is
+    assert!(
+        edges >= 28 && edges < d.passes.len(),
+        "{edges} edged rectangles"
+    );
+}
+
 /// The text elements of an SVG chart: each one's `x` and its content.
 fn svg_texts(svg: &str) -> Vec<(f64, String)> {
     svg.split("<text ")
