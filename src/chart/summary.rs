@@ -47,12 +47,15 @@ const MIN_EDGED_BAR_PX: f64 = 5.0;
 
 /// A bar from `x0` to `x1` up to `v`, filled, with its edge where it is wide enough
 /// ([`MIN_EDGED_BAR_PX`] at `px_per_x` pixels per unit of x).
-fn bar((x0, x1, v): (f64, f64, f64), color: RGBColor, px_per_x: f64) -> Vec<Rectangle<(f64, f64)>> {
-    let mut shapes = vec![Rectangle::new([(x0, 0.0), (x1, v)], color.filled())];
-    if (x1 - x0) * px_per_x >= MIN_EDGED_BAR_PX {
-        shapes.push(Rectangle::new([(x0, 0.0), (x1, v)], bar_edge()));
-    }
-    shapes
+fn bar(
+    (x0, x1, v): (f64, f64, f64),
+    color: RGBColor,
+    px_per_x: f64,
+) -> impl Iterator<Item = Rectangle<(f64, f64)>> {
+    let corners = [(x0, 0.0), (x1, v)];
+    let edged = (x1 - x0) * px_per_x >= MIN_EDGED_BAR_PX;
+    std::iter::once(Rectangle::new(corners, color.filled()))
+        .chain(edged.then(|| Rectangle::new(corners, bar_edge())))
 }
 
 fn bar_edge() -> ShapeStyle {

@@ -96,10 +96,7 @@ pub fn detect_format(text: &str) -> ElementFormat {
 /// Parse element text of any supported form (see [`detect_format`]). Lines may end in LF, CR LF
 /// or a lone CR (a file saved with the old Mac line endings reads as its lines, not as one).
 pub fn parse_elements(text: &str) -> Result<Vec<ElementSet>, ParseError> {
-    let lone_cr = text
-        .bytes()
-        .zip(text.bytes().skip(1).map(Some).chain([None]))
-        .any(|(b, next)| b == b'\r' && next != Some(b'\n'));
+    let lone_cr = text.split("\r\n").any(|piece| piece.contains('\r'));
     let text: std::borrow::Cow<str> = if lone_cr {
         text.replace("\r\n", "\n").replace('\r', "\n").into()
     } else {

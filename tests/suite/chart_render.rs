@@ -882,6 +882,7 @@ fn summary_marks_partial_days() {
 /// the two midnights that bound it on the timeline. They were equal slots per day, so with a
 /// window opening at noon each day's label and bars stood some hours later on the timeline than
 /// that day's passes (the label of 12-03 near the timeline's 12-04 midnight).
+/// Basis: a behaviour check of what the chart draws (no published reference applies).
 #[test]
 fn summary_days_stand_under_their_passes() {
     let mut d = sample_summary();
@@ -915,6 +916,7 @@ fn summary_days_stand_under_their_passes() {
 /// A day the window covers only in a sliver (a window opening at 23:00) gets no label, which
 /// would print over the next day's; the labels that are drawn never overlap (a review found
 /// "Tue 12-01" over "Wed 12-02" when the day axis first followed the timeline).
+/// Basis: a behaviour check of what the chart draws (no published reference applies).
 #[test]
 fn summary_day_labels_never_overlap() {
     let mut d = sample_summary();
@@ -935,6 +937,7 @@ fn summary_day_labels_never_overlap() {
 
 /// A week's pass bars (a few pixels wide) are drawn without their edges, which hid their
 /// station's colour (the Nordkam bars read as black); the daily bars, wide, keep theirs.
+/// Basis: a behaviour check of what the chart draws (no published reference applies).
 #[test]
 fn narrow_summary_bars_keep_their_colour() {
     let d = sample_summary();

@@ -213,6 +213,8 @@ fn files_that_are_not_elements_say_so() {
 /// A file saved with lone CR line endings (the old Mac convention) reads as its lines: the
 /// shipped TLE and KVN files so converted give the same elements as the originals. The KVN file
 /// read as one line said its first keyword was missing.
+///
+/// Basis: the shipped example files themselves (the same elements in every line-end form).
 #[test]
 fn lone_carriage_returns_end_lines() {
     for path in ["examples/sat.tle", "examples/sat-omm.kvn"] {
