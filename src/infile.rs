@@ -52,6 +52,19 @@ pub fn check_name(name: &str) -> Result<(), String> {
     }
 }
 
+/// A name read from a YAML file: [`check_name`], and not one of YAML's spellings of no value
+/// (`~`, `null`), which a text field receives as those characters (`name: ~` named a station
+/// "~" in every table and file name).
+pub fn check_yaml_name(name: &str) -> Result<(), String> {
+    if matches!(name.trim(), "~" | "null" | "Null" | "NULL") {
+        return Err(format!(
+            "is '{}', YAML's \"no value\"; give a name",
+            name.trim()
+        ));
+    }
+    check_name(name)
+}
+
 /// The first character of `name` that [`check_name`] refuses.
 fn control_character(name: &str) -> Option<char> {
     name.chars().find(|&c| c.is_control() || reorders_text(c))
@@ -97,6 +110,11 @@ mod tests {
         assert_eq!(read_text(&p).unwrap(), "name: a\n");
         // Letters of every script are names; control and reordering characters are not.
         assert_eq!(check_name("Pulau Réka 北 Ålesund"), Ok(()));
+        // YAML's null spellings arrive in a text field as themselves (serde_yaml 0.9).
+        for n in ["~", " null", "NULL"] {
+            assert!(check_yaml_name(n).unwrap_err().contains("no value"), "{n}");
+        }
+        assert_eq!(check_yaml_name("Nullarbor"), Ok(()));
         for c in [
             '\u{1b}', '\t', '\r', '\u{7f}', '\u{85}', '\u{202E}', '\u{2067}', '\u{2028}',
         ] {

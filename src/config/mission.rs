@@ -367,7 +367,7 @@ impl Mission {
         if file.name.trim().is_empty() {
             return Err(c.err("name", "must not be empty"));
         }
-        crate::infile::check_name(&file.name).map_err(|m| c.err("name", m))?;
+        crate::infile::check_yaml_name(&file.name).map_err(|m| c.err("name", m))?;
         let base = path.parent().map(Path::to_path_buf).unwrap_or_default();
         let stations = stations(&c, &base, &file.stations, overrides)?;
         let names: Vec<&str> = stations.iter().map(|s| s.name.as_str()).collect();
@@ -836,7 +836,7 @@ fn user_schemes(c: &mut Checker, files: &[SchemeFile]) -> Result<SchemeRegistry,
             let full = format!("{KEY}[{i}].{key}");
             c.err_at(line, &full, format!("{msg} (scheme {})", f.name))
         };
-        crate::infile::check_name(&f.name).map_err(|m| at("name", m))?;
+        crate::infile::check_yaml_name(&f.name).map_err(|m| at("name", m))?;
         let spec = user_scheme_spec(f).map_err(|(key, msg)| at(key, msg))?;
         let s = UserScheme::new(&spec).map_err(|e| at(e.key(&spec.threshold), e.to_string()))?;
         // Where the choice moves the threshold (an overhead below 100 % efficiency), the basis

@@ -249,7 +249,7 @@ impl Station {
         if file.name.trim().is_empty() {
             return Err(c.err("name", "must not be empty"));
         }
-        crate::infile::check_name(&file.name).map_err(|m| c.err("name", m))?;
+        crate::infile::check_yaml_name(&file.name).map_err(|m| c.err("name", m))?;
         let latitude_deg = c.range(&limits::LATITUDE_DEG, file.latitude_deg)?;
         let mut longitude_deg = c.range(&limits::LONGITUDE_DEG, file.longitude_deg)?;
         if longitude_deg > 180.0 {

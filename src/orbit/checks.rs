@@ -53,7 +53,7 @@ impl ElementField {
         }
     }
 
-    /// The OMM keyword (CCSDS 502.0-B-2 §4).
+    /// The OMM keyword (CCSDS 502.0-B-3 §4).
     pub fn omm_keyword(self) -> &'static str {
         match self {
             ElementField::Inclination => "INCLINATION",

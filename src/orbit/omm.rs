@@ -1,14 +1,16 @@
-//! CCSDS Orbit Mean-Elements Message (OMM), CCSDS 502.0-B-2 (Orbit Data Messages, 2009), §4,
-//! in its two common encodings:
+//! CCSDS Orbit Mean-Elements Message (OMM), CCSDS 502.0-B-3 (Orbit Data Messages, 2023), §4
+//! (a 502.0-B-2 message, 2009, is read the same way: B-3 adds keywords; that it removes none of the
+//! OMM's is from memory), in its two common encodings:
 //!
 //! * JSON: an object, or an array of objects, with the OMM keywords as keys (numbers may be
 //!   JSON numbers or strings), as distributed by element-set providers.
-//! * KVN: `KEY = value` lines (CCSDS 502.0-B-2 §6), `COMMENT` lines, blank lines; a value may
-//!   be followed by its unit in square brackets (`MEAN_MOTION = 15.05 [rev/day]`), which must
-//!   then be the keyword's unit in Table 4-3 of CCSDS 502.0-B-3 (checked for the keywords read
+//! * KVN: `KEY = value` lines (CCSDS 502.0-B-2 and B-3, the KVN section), `COMMENT` lines,
+//!   blank lines; a value may be followed by its unit in square brackets
+//!   (`MEAN_MOTION = 15.05 [rev/day]`), which must then be the keyword's unit in Table 4-3 of CCSDS 502.0-B-3 (checked for the keywords read
 //!   here). A file may hold several messages, each starting with `CCSDS_OMM_VERS`.
 //!
-//! Only SGP4 mean elements are accepted: `MEAN_ELEMENT_THEORY`, `REF_FRAME`, `TIME_SYSTEM`,
+//! Only SGP4 mean elements are accepted (an SGP4-XP set, with `BTERM` and `AGOM`, is refused by
+//! its `MEAN_ELEMENT_THEORY`): `MEAN_ELEMENT_THEORY`, `REF_FRAME`, `TIME_SYSTEM`,
 //! `CENTER_NAME`, if present, must be `SGP4` (or `SGP/SGP4`), `TEME`, `UTC`, `EARTH`. Required keywords: `NORAD_CAT_ID`, `EPOCH`,
 //! `MEAN_MOTION`, `ECCENTRICITY`, `INCLINATION`, `RA_OF_ASC_NODE`, `ARG_OF_PERICENTER`,
 //! `MEAN_ANOMALY`, `BSTAR`, `MEAN_MOTION_DOT`, `MEAN_MOTION_DDOT`. Optional: `OBJECT_NAME`,
@@ -61,7 +63,7 @@ pub enum OmmError {
         column: Option<usize>,
         first_line: Option<usize>,
     },
-    #[error("message {}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-2; check the spelling){}", .object + 1, position_suffix(*.line, *.column), missing.map(|m| format!("; required keyword {m} is missing")).unwrap_or_default())]
+    #[error("message {}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-3; check the spelling){}", .object + 1, position_suffix(*.line, *.column), missing.map(|m| format!("; required keyword {m} is missing")).unwrap_or_default())]
     UnknownKey {
         object: usize,
         key: String,
@@ -262,15 +264,22 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
         .collect()
 }
 
-/// The OMM keywords of CCSDS 502.0-B-2 (Orbit Data Messages, 2009), §4.2 tables 4-1 (header),
+/// The OMM keywords of CCSDS 502.0-B-3 (Orbit Data Messages, 2023), §4.2 tables 4-1 (header),
 /// 4-2 (metadata) and 4-3 (data: mean Keplerian elements, spacecraft parameters, TLE-related
-/// parameters, covariance). From memory; user-defined keywords start with `USER_DEFINED_`.
-const OMM_KEYWORDS: [&str; 55] = [
+/// parameters, covariance): those of 502.0-B-2 (2009), from memory, and the four B-3 adds: the
+/// header's CLASSIFICATION and MESSAGE_ID (Orekit's API reference, `files.ccsds.section.Header`:
+/// the classification/caveats and "the ID that uniquely identifies a message from a given
+/// originator", both from a minimum format version on) and an SGP4-XP set's BTERM and AGOM
+/// (pub.dev `spacedatastandards`, class OMM, citing 502.0-B-3 Table 4-3, "BSTAR or BTERM",
+/// "MEAN_MOTION_DDOT or AGOM"). User-defined keywords start with `USER_DEFINED_`.
+const OMM_KEYWORDS: [&str; 59] = [
     // Header
     "CCSDS_OMM_VERS",
     "COMMENT",
+    "CLASSIFICATION",
     "CREATION_DATE",
     "ORIGINATOR",
+    "MESSAGE_ID",
     // Metadata
     "OBJECT_NAME",
     "OBJECT_ID",
@@ -302,8 +311,10 @@ const OMM_KEYWORDS: [&str; 55] = [
     "ELEMENT_SET_NO",
     "REV_AT_EPOCH",
     "BSTAR",
+    "BTERM",
     "MEAN_MOTION_DOT",
     "MEAN_MOTION_DDOT",
+    "AGOM",
     // Covariance (lower triangle of the 6x6 position-velocity matrix)
     "COV_REF_FRAME",
     "CX_X",
@@ -329,7 +340,7 @@ const OMM_KEYWORDS: [&str; 55] = [
     "CZ_DOT_Z_DOT",
 ];
 
-/// Whether `key` (upper case) is an OMM keyword of CCSDS 502.0-B-2 or a `USER_DEFINED_...` one.
+/// Whether `key` (upper case) is an OMM keyword of CCSDS 502.0-B-3 or a `USER_DEFINED_...` one.
 pub fn is_omm_keyword(key: &str) -> bool {
     (key.starts_with("USER_DEFINED_") && key.len() > "USER_DEFINED_".len())
         || OMM_KEYWORDS.contains(&key)
@@ -352,7 +363,7 @@ const REQUIRED: [&str; 11] = [
 /// Build message `object` from its keywords; `message_line` (KVN: its first line) is given in
 /// "missing keyword" errors.
 fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<ElementSet, OmmError> {
-    check_keys(object, f, message_line)?;
+    check_unknown(object, f)?;
     let invalid = |field: &str, reason: &str| {
         let e = f.get(field).cloned().unwrap_or_default();
         OmmError::InvalidValue {
@@ -380,7 +391,9 @@ fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<Eleme
                 .map_err(|_| invalid(field, "expected a non-negative integer")),
         }
     };
+    // An SGP4-XP set lacks BSTAR: its theory says why before the missing keyword does.
     check_theory(f, &invalid)?;
+    check_missing(object, f, message_line)?;
     let norad_id = int_or("NORAD_CAT_ID", 0)?;
     let epoch_text = text("EPOCH").unwrap_or("");
     let datetime = parse_epoch(epoch_text).map_err(|why| invalid("EPOCH", why))?;
@@ -431,11 +444,15 @@ fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<Eleme
     Ok(ElementSet::from_elements(elements))
 }
 
-/// No keyword outside the OMM set, and every required keyword present. Unknown keywords come
-/// first (the first by line (KVN) or name (JSON)), naming the first missing required keyword if
-/// any: a misspelt keyword explains the missing one.
-fn check_keys(object: usize, f: &Fields, message_line: Option<usize>) -> Result<(), OmmError> {
-    let missing = REQUIRED.iter().copied().find(|k| !f.contains_key(*k));
+/// The first required keyword a message lacks.
+fn first_missing(f: &Fields) -> Option<&'static str> {
+    REQUIRED.iter().copied().find(|k| !f.contains_key(*k))
+}
+
+/// No keyword outside the OMM set. The first unknown one (by line (KVN) or name (JSON)) is
+/// reported with the first missing required keyword if any: a misspelt keyword explains the
+/// missing one.
+fn check_unknown(object: usize, f: &Fields) -> Result<(), OmmError> {
     if let Some((key, e)) = f
         .iter()
         .filter(|(k, _)| !is_omm_keyword(k))
@@ -446,10 +463,15 @@ fn check_keys(object: usize, f: &Fields, message_line: Option<usize>) -> Result<
             key: key.clone(),
             line: e.line,
             column: e.column,
-            missing,
+            missing: first_missing(f),
         });
     }
-    match missing {
+    Ok(())
+}
+
+/// Every required keyword present.
+fn check_missing(object: usize, f: &Fields, message_line: Option<usize>) -> Result<(), OmmError> {
+    match first_missing(f) {
         Some(field) => Err(OmmError::MissingField {
             object,
             field,
@@ -526,9 +548,14 @@ fn check_theory(f: &Fields, invalid: &dyn Fn(&str, &str) -> OmmError) -> Result<
     ] {
         if let Some(v) = f.get(field).map(|e| e.value.trim()) {
             if !allowed.iter().any(|a| a.eq_ignore_ascii_case(v)) {
+                // SGP4-XP elements (BTERM, AGOM) differ from SGP4's in meaning, not only in name.
+                let xp = match v.to_ascii_uppercase().starts_with("SGP4-XP") {
+                    true => " (SGP4-XP elements need the SGP4-XP propagator; give SGP4 elements)",
+                    false => "",
+                };
                 return Err(invalid(
                     field,
-                    &format!("only {} is supported", allowed.join(" or ")),
+                    &format!("only {} is supported{xp}", allowed.join(" or ")),
                 ));
             }
         }
@@ -858,6 +885,41 @@ mod tests {
             }
         );
         assert!(err.to_string().contains("BSTAR"));
+    }
+
+    /// Basis: CCSDS 502.0-B-3's header keywords CLASSIFICATION and MESSAGE_ID (Orekit's API
+    /// reference, `files.ccsds.section.Header`) and its SGP4-XP keywords BTERM and AGOM (pub.dev
+    /// `spacedatastandards`, class OMM, citing Table 4-3). A B-3 message gives the same elements
+    /// as the B-2 one it extends; an SGP4-XP set is refused by its theory, not as unknown keywords
+    /// or a missing BSTAR (before: "unknown keyword MESSAGE_ID").
+    #[test]
+    fn version_3_messages_are_read_and_sgp4_xp_is_refused_by_its_theory() {
+        let b3 = KVN
+            .replace("CCSDS_OMM_VERS = 2.0", "CCSDS_OMM_VERS = 3.0")
+            .replace(
+                "ORIGINATOR = PASSBUDGET DEMO",
+                "CLASSIFICATION = none\nORIGINATOR = PASSBUDGET DEMO\nMESSAGE_ID = DEMO-0001",
+            );
+        let (a, b) = (parse_omm_kvn(KVN).unwrap(), parse_omm_kvn(&b3).unwrap());
+        assert_eq!(
+            format!("{:?}", a[0].elements),
+            format!("{:?}", b[0].elements)
+        );
+        let json = JSON.replacen('{', "{\n  \"MESSAGE_ID\": \"DEMO-0001\",", 1);
+        assert!(parse_omm_json(&json).is_ok(), "{json}");
+        let xp = b3
+            .replace(
+                "MEAN_ELEMENT_THEORY = SGP4",
+                "MEAN_ELEMENT_THEORY = SGP4-XP",
+            )
+            .replace("BSTAR = 0.00012000 [1/ER]", "BTERM = 0.0125")
+            .replace("MEAN_MOTION_DDOT = 0.0 [rev/day**3]", "AGOM = 0.0081");
+        let err = parse_omm_kvn(&xp).unwrap_err();
+        assert!(
+            matches!(&err, OmmError::InvalidValue { field, .. } if field == "MEAN_ELEMENT_THEORY"),
+            "{err:?}"
+        );
+        assert!(err.to_string().contains("SGP4-XP propagator"), "{err}");
     }
 
     #[test]

@@ -1,5 +1,5 @@
 //! Element input: TLE format errors (format per Vallado et al. 2006 / Spacetrack Report #3:
-//! 69 columns, mod-10 checksum in column 69), CCSDS OMM (CCSDS 502.0-B-2) JSON and KVN,
+//! 69 columns, mod-10 checksum in column 69), CCSDS OMM (CCSDS 502.0-B-3 and B-2) JSON and KVN,
 //! selection, and the three example files giving the same elements.
 
 use passbudget::orbit::{
