@@ -112,15 +112,20 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     let run = planner.run(&sink);
     drop(sink);
     let plan = run.map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;
-    warn(&plan.warnings);
-    note(&plan.note_lines(|_| true));
-    if let Some(n) = pass {
-        if !plan.passes.iter().any(|x| x.number == n) {
-            if plan.passes.is_empty() {
-                bail!("--pass {n}: the plan has no passes in this window");
-            }
-            bail!("--pass {n}: the plan has passes 1 to {}", plan.passes.len());
+    // One pass's chart: the warnings and notes of that pass (not every station's).
+    match pass.map(|n| (n, plan.passes.iter().find(|x| x.number == n))) {
+        None => {
+            warn(&plan.warnings);
+            note(&plan.note_lines(|_| true));
         }
+        Some((_, Some(p))) => {
+            warn(&planner.pass_warnings(p));
+            note(&planner.pass_notes(&plan, p));
+        }
+        Some((n, None)) if plan.passes.is_empty() => {
+            bail!("--pass {n}: the plan has no passes in this window")
+        }
+        Some((n, None)) => bail!("--pass {n}: the plan has passes 1 to {}", plan.passes.len()),
     }
     let written = window_charts(&planner, &plan, &charts, &dir, which)
         .map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;

@@ -438,11 +438,7 @@ impl Planner {
     ) -> Vec<String> {
         let mut out = Vec::new();
         for (i, s) in self.stations.iter().enumerate() {
-            let fixed = PassWarnings {
-                atmosphere: s.atmosphere.static_warnings(),
-                noise: s.noise.warnings(),
-                ..Default::default()
-            };
+            let fixed = Self::station_warnings(s);
             // A pass's lines depend on its warnings alone: they are made once per distinct
             // value (a handful in a year of thousands of passes), each with its pass count.
             let (mut distinct, mut n) = (Vec::<(PassWarnings, usize)>::new(), 0);
@@ -474,13 +470,7 @@ impl Planner {
                 out.push(format!("{}: {m}{count}", s.station.name));
             }
         }
-        out.extend(self.rates.warnings.iter().cloned());
-        out.extend(self.pfd.warnings(self.frequency_hz));
-        out.extend(element_age_warning(
-            &self.elements,
-            self.window.start(),
-            self.window.end(),
-        ));
+        out.extend(self.plan_wide_warnings());
         if let Some(s) = stop {
             out.push(s.message(&self.elements.label(), "no passes after it are planned"));
             for (i, _) in stopped.iter().enumerate().filter(|(_, e)| e.is_some()) {
@@ -491,6 +481,59 @@ impl Planner {
             }
         }
         out
+    }
+}
+
+impl Planner {
+    /// What a station's models warn of whatever the pass (frequency and climate out of range).
+    fn station_warnings(s: &StationModel) -> PassWarnings {
+        PassWarnings {
+            atmosphere: s.atmosphere.static_warnings(),
+            noise: s.noise.warnings(),
+            ..Default::default()
+        }
+    }
+
+    /// The warnings of no one station: the rate options', the pfd limit's, the element age.
+    fn plan_wide_warnings(&self) -> Vec<String> {
+        let mut out = self.rates.warnings.clone();
+        out.extend(self.pfd.warnings(self.frequency_hz));
+        out.extend(element_age_warning(
+            &self.elements,
+            self.window.start(),
+            self.window.end(),
+        ));
+        out
+    }
+
+    /// The warnings that concern one pass of `plan` (`chart --pass`): its station's model
+    /// warnings as this pass raised them, then the plan-wide ones. Other stations' warnings are
+    /// not among them, nor the counts over the station's passes, nor a propagation stop (which
+    /// cut only passes after the ones planned).
+    pub fn pass_warnings(&self, pass: &PassPlan) -> Vec<String> {
+        let s = &self.stations[pass.station_index];
+        let models = Self::station_warnings(s).union(&pass.warnings);
+        let name = &s.station.name;
+        (models.lines(self.frequency_hz).into_iter())
+            .map(|m| format!("{name}: {m}"))
+            .chain(self.plan_wide_warnings())
+            .collect()
+    }
+
+    /// The notes that concern one pass of `plan`: the element set chosen, the Sun and the
+    /// adaptive mode in this pass alone, the values recalled from memory. Notes on other
+    /// stations (one without passes) are not among them.
+    pub fn pass_notes(&self, plan: &Plan, pass: &PassPlan) -> Vec<String> {
+        let one = std::slice::from_ref(pass);
+        (plan.note_lines(|k| k == NoteKind::ElementSet).into_iter())
+            .chain(summary::sun_note(one, &self.stations))
+            .chain(summary::adaptive_note(one, &self.stations, &self.rates))
+            .chain(
+                plan.note_lines(|k| {
+                    matches!(k, NoteKind::RecalledThreshold | NoteKind::RecalledPfd)
+                }),
+            )
+            .collect()
     }
 }
 

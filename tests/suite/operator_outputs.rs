@@ -1077,3 +1077,41 @@ fn the_mask_step_says_what_it_takes() {
         );
     }
 }
+
+/// `chart --pass N` says what concerns that pass: its station's model warnings and its own Sun
+/// note, not every station's (before, a Nordkam pass's chart printed Sierra Baja's low-elevation
+/// warnings and the Sun note of Sierra Baja's pass 16). Basis: a behaviour check of the output
+/// rule; the plan-wide notes (values from memory) stay.
+#[test]
+fn one_pass_chart_prints_that_pass_warnings_and_notes() {
+    let dir = tempfile::tempdir().unwrap();
+    let stderr_of = |pass: &str| {
+        let out = dir.path().join(format!("pass-{pass}"));
+        let o = run(&[
+            "chart",
+            "examples/wrenlet-1.yaml",
+            "--pass",
+            pass,
+            "--kind",
+            "pass",
+            "--chart-format",
+            "svg",
+            "--out",
+            &out.to_string_lossy(),
+        ]);
+        success(&o);
+        String::from_utf8(o.stderr).unwrap()
+    };
+    // pass 3 is Nordkam's, pass 16 Sierra Baja's with the Sun in the beam
+    let nordkam = stderr_of("3");
+    assert!(!nordkam.contains("Sierra Baja"), "{nordkam}");
+    assert!(nordkam.contains("(pass 3, Nordkam)"), "{nordkam}");
+    assert!(nordkam.contains("note: from memory"), "{nordkam}");
+    let sierra = stderr_of("16");
+    assert!(
+        sierra.contains("warning: Sierra Baja: cloud")
+            && sierra.contains("in pass 16 (Sierra Baja"),
+        "{sierra}"
+    );
+    assert!(!sierra.contains("Pulau Reka"), "{sierra}");
+}
