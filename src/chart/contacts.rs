@@ -231,12 +231,19 @@ where
         .enumerate()
         .map(|(i, s)| (Key::Band(satellite_color(i), 1.0), s.clone()))
         .collect();
-    keys.push((
-        Key::Line(Stroke::solid(style::INK, 6)),
-        "set-up (turnaround)".into(),
-    ));
-    keys.push((Key::Band(style::GRID, 1.0), "pass left unbooked".into()));
-    keys.push((Key::Band(style::TERRAIN, 1.0), "antenna blocked".into()));
+    // The legend names only what the day's chart draws (a key for no mark reads as one missed).
+    if !d.booked.is_empty() {
+        keys.push((
+            Key::Line(Stroke::solid(style::INK, 6)),
+            "set-up (turnaround)".into(),
+        ));
+    }
+    if !d.unbooked.is_empty() {
+        keys.push((Key::Band(style::GRID, 1.0), "pass left unbooked".into()));
+    }
+    if d.blocked.iter().any(|(_, s, e)| x(e) > x(s)) {
+        keys.push((Key::Band(style::TERRAIN, 1.0), "antenna blocked".into()));
+    }
     style::draw_legend(&legend, Some("Satellite"), &keys)
 }
 

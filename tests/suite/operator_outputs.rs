@@ -1115,3 +1115,23 @@ fn one_pass_chart_prints_that_pass_warnings_and_notes() {
     );
     assert!(!sierra.contains("Pulau Reka"), "{sierra}");
 }
+
+/// The antenna timeline's legend names only what the day's chart draws: "pass left unbooked" on
+/// a day with an unbooked pass, "antenna blocked" on the day of the fleet example's Sierra Baja
+/// block (12-03), neither on the single-satellite example's day, which has neither. Before, each
+/// day's legend named both. Basis: a behaviour check of the chart text (SVG).
+#[test]
+fn timeline_legend_names_only_what_is_drawn() {
+    let dir = tempfile::tempdir().unwrap();
+    let (one, fleet) = (dir.path().join("one"), dir.path().join("fleet"));
+    plan_svg_charts(&["examples/wrenlet-1.yaml", "--days", "1"], &one);
+    let read = |p: std::path::PathBuf| std::fs::read_to_string(p).unwrap();
+    let day = read(one.join("timeline-20261201.svg"));
+    assert!(day.contains("set-up (turnaround)"), "{day}");
+    assert!(!day.contains("pass left unbooked") && !day.contains("antenna blocked"));
+    let f = "examples/fleet/kestrel-fleet.yaml";
+    plan_svg_charts(&[f, "--days", "3"], &fleet);
+    let first = read(fleet.join("timeline-20261201.svg"));
+    assert!(first.contains("pass left unbooked") && !first.contains("antenna blocked"));
+    assert!(read(fleet.join("timeline-20261203.svg")).contains("antenna blocked"));
+}
