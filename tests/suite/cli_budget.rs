@@ -912,3 +912,67 @@ fn atmosphere_heading_keeps_tiny_numbers_short() {
     assert!(heading.contains("elevation 1.000000e-300 deg"), "{heading}");
     assert!(heading.len() < 120, "{heading}");
 }
+
+/// A mission of the example's stations and radio flying the element set `tle` (name first).
+fn mission_with_elements(dir: &std::path::Path, tle: &str, name: &str) -> String {
+    std::fs::write(dir.join("sat.tle"), tle).unwrap();
+    let text = std::fs::read_to_string(root().join(EXAMPLE))
+        .unwrap()
+        .replace("select: \"99901\"", &format!("select: {name}"))
+        .replace(
+            "../stations/",
+            &format!("{}/", root().join("stations").display()),
+        );
+    let path = dir.join("m.yaml");
+    std::fs::write(&path, text).unwrap();
+    path.to_string_lossy().into_owned()
+}
+
+/// `budget --elevation-deg` takes the range at the orbit's semi-major axis: on an eccentric orbit
+/// it says how far the range and the free-space loss run from perigee to apogee at that elevation
+/// (the invented 12 h, e = 0.72 orbit of the eccentric-TCA reference), on the near-circular
+/// example it says nothing, and elements whose perigee lies inside the Earth are refused with
+/// one line (before: a budget at a 170 km "altitude" of an orbit SGP4 cannot follow). Basis: a
+/// behaviour check; the slant range itself is checked in `geometry::slant`'s tests.
+#[test]
+fn budget_at_an_elevation_says_what_the_semi_major_axis_hides() {
+    let dir = tempfile::tempdir().unwrap();
+    let reference =
+        std::fs::read_to_string(root().join("tests/data/geometry/eccentric_tca_skyfield.csv"))
+            .unwrap();
+    let (l1, l2) = reference
+        .lines()
+        .nth(1)
+        .unwrap()
+        .trim_start_matches("# Invented MOLNIYA-DEMO (99904): ")
+        .split_once(" / ")
+        .unwrap();
+    let m = mission_with_elements(
+        dir.path(),
+        &format!("MOLNIYA-DEMO\n{l1}\n{l2}\n"),
+        "MOLNIYA-DEMO",
+    );
+    let o = json(&budget(&m, "Nordkam", "10", &["--format", "json"]));
+    let w = o["warnings"].to_string();
+    let range_km = o["range_km"].as_f64().unwrap();
+    let at = w
+        .find("eccentric orbit (e = 0.7200): at 10.00 deg elevation the range runs from ")
+        .expect(&w);
+    let numbers: Vec<f64> = w[at..]
+        .split(|c: char| !(c.is_ascii_digit() || c == '.' || c == '-' || c == '+'))
+        .filter_map(|t| t.parse().ok())
+        .collect();
+    // e, elevation, perigee range, apogee range, loss from, loss to
+    let (lo, hi, lo_db, hi_db) = (numbers[2], numbers[3], numbers[4], numbers[5]);
+    assert!(lo < range_km && range_km < hi, "{lo} {range_km} {hi}");
+    assert!((lo_db - 20.0 * (lo / range_km).log10()).abs() < 0.01, "{w}");
+    assert!((hi_db - 20.0 * (hi / range_km).log10()).abs() < 0.01, "{w}");
+    let example = json(&budget(EXAMPLE, "Nordkam", "10", &["--format", "json"]));
+    assert!(!example["warnings"].to_string().contains("eccentric"));
+    let decayed = "LOWSAT\n1 99950U          26335.50000000  .00001100  00000-0  11000-3 0  1007\n2 99950  97.4500 215.3000 1500000  80.0000  10.0000 16.50000000  1008\n";
+    let m = mission_with_elements(dir.path(), decayed, "LOWSAT");
+    clean_error(
+        &budget(&m, "Nordkam", "10", &[]),
+        &["perigee is 5540 km from the Earth's centre, inside the Earth"],
+    );
+}
