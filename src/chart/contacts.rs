@@ -232,7 +232,7 @@ where
         .map(|(i, s)| (Key::Band(satellite_color(i), 1.0), s.clone()))
         .collect();
     // The legend names only what the day's chart draws (a key for no mark reads as one missed).
-    if !d.booked.is_empty() {
+    if d.booked.iter().any(|b| x(&b.start) > x(&b.setup_start)) {
         keys.push((
             Key::Line(Stroke::solid(style::INK, 6)),
             "set-up (turnaround)".into(),

@@ -119,13 +119,18 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
             note(&plan.note_lines(|_| true));
         }
         Some((_, Some(p))) => {
-            warn(&planner.pass_warnings(p));
+            warn(&planner.pass_warnings(&plan, p));
             note(&planner.pass_notes(&plan, p));
         }
-        Some((n, None)) if plan.passes.is_empty() => {
-            bail!("--pass {n}: the plan has no passes in this window")
+        // No such pass: the window's warnings and notes say why there are so few.
+        Some((n, None)) => {
+            warn(&plan.warnings);
+            note(&plan.note_lines(|_| true));
+            match plan.passes.len() {
+                0 => bail!("--pass {n}: the plan has no passes in this window"),
+                k => bail!("--pass {n}: the plan has passes 1 to {k}"),
+            }
         }
-        Some((n, None)) => bail!("--pass {n}: the plan has passes 1 to {}", plan.passes.len()),
     }
     let written = window_charts(&planner, &plan, &charts, &dir, which)
         .map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;

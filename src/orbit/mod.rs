@@ -1,7 +1,8 @@
 //! Orbit input and propagation.
 //!
 //! * [`tle`] reads two-line element sets (2-line and 3-line form, several satellites per file).
-//! * [`omm`] reads CCSDS Orbit Mean-Elements Messages (CCSDS 502.0-B-3, and B-2) in JSON and KVN form.
+//! * [`omm`] reads CCSDS Orbit Mean-Elements Messages (CCSDS 502.0-B-3, and B-2) in JSON and
+//!   KVN form.
 //! * [`propagate`] runs SGP4/SDP4 (Vallado, Crawford, Hujsak, Kelso, "Revisiting Spacetrack
 //!   Report #3", AIAA 2006-6753) through the `sgp4` crate with WGS-72 constants.
 //! * [`spline`] interpolates Earth-fixed states between SGP4 knots over a pass (cubic Hermite,

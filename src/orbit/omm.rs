@@ -1,17 +1,19 @@
 //! CCSDS Orbit Mean-Elements Message (OMM), CCSDS 502.0-B-3 (Orbit Data Messages, 2023), §4
-//! (a 502.0-B-2 message, 2009, is read the same way: B-3 adds keywords; that it removes none of the
-//! OMM's is from memory), in its two common encodings:
+//! (a 502.0-B-2 message, 2009, is read the same way: B-3 adds keywords; that it removes none
+//! of the OMM's is from memory), in its two common encodings:
 //!
 //! * JSON: an object, or an array of objects, with the OMM keywords as keys (numbers may be
 //!   JSON numbers or strings), as distributed by element-set providers.
 //! * KVN: `KEY = value` lines (CCSDS 502.0-B-2 and B-3, the KVN section), `COMMENT` lines,
 //!   blank lines; a value may be followed by its unit in square brackets
-//!   (`MEAN_MOTION = 15.05 [rev/day]`), which must then be the keyword's unit in Table 4-3 of CCSDS 502.0-B-3 (checked for the keywords read
-//!   here). A file may hold several messages, each starting with `CCSDS_OMM_VERS`.
+//!   (`MEAN_MOTION = 15.05 [rev/day]`), which must then be the keyword's unit in Table 4-3 of
+//!   CCSDS 502.0-B-3 (checked for the keywords read here). A file may hold several messages,
+//!   each starting with `CCSDS_OMM_VERS`.
 //!
-//! Only SGP4 mean elements are accepted (an SGP4-XP set, with `BTERM` and `AGOM`, is refused by
-//! its `MEAN_ELEMENT_THEORY`): `MEAN_ELEMENT_THEORY`, `REF_FRAME`, `TIME_SYSTEM`,
-//! `CENTER_NAME`, if present, must be `SGP4` (or `SGP/SGP4`), `TEME`, `UTC`, `EARTH`. Required keywords: `NORAD_CAT_ID`, `EPOCH`,
+//! Only SGP4 mean elements are accepted (an SGP4-XP set, with `BTERM` and `AGOM`, is refused
+//! by its `MEAN_ELEMENT_THEORY`): `MEAN_ELEMENT_THEORY`, `REF_FRAME`, `TIME_SYSTEM`,
+//! `CENTER_NAME`, if present, must be `SGP4` (or `SGP/SGP4`), `TEME`, `UTC`, `EARTH`.
+//! Required keywords: `NORAD_CAT_ID`, `EPOCH`,
 //! `MEAN_MOTION`, `ECCENTRICITY`, `INCLINATION`, `RA_OF_ASC_NODE`, `ARG_OF_PERICENTER`,
 //! `MEAN_ANOMALY`, `BSTAR`, `MEAN_MOTION_DOT`, `MEAN_MOTION_DDOT`. Optional: `OBJECT_NAME`,
 //! `OBJECT_ID`, `CLASSIFICATION_TYPE` (default U), `ELEMENT_SET_NO`, `REV_AT_EPOCH`,
@@ -105,6 +107,8 @@ struct Entry {
     value: String,
     line: Option<usize>,
     column: Option<usize>,
+    /// A required keyword given as JSON null: refused after the theory is checked.
+    null: bool,
 }
 
 /// One message's keywords.
@@ -173,19 +177,11 @@ fn json_fields(
                 first_line: first.line,
             });
         }
+        let null = v.is_null();
         let s = match v {
             serde_json::Value::String(s) => s.clone(),
             serde_json::Value::Number(n) => n.to_string(),
-            serde_json::Value::Null if REQUIRED.contains(&key.as_str()) => {
-                return Err(OmmError::InvalidValue {
-                    object,
-                    field: key,
-                    value: "null".to_string(),
-                    reason: "a required keyword needs a value, JSON null given".to_string(),
-                    line,
-                    column,
-                })
-            }
+            serde_json::Value::Null if REQUIRED.contains(&key.as_str()) => "null".to_string(),
             serde_json::Value::Null => continue,
             other => other.to_string(),
         };
@@ -195,6 +191,7 @@ fn json_fields(
                 value: s,
                 line,
                 column,
+                null,
             },
         );
     }
@@ -250,6 +247,7 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
                 value,
                 line: Some(line),
                 column,
+                null: false,
             };
             m.insert(key, entry);
         }
@@ -266,12 +264,11 @@ pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
 
 /// The OMM keywords of CCSDS 502.0-B-3 (Orbit Data Messages, 2023), §4.2 tables 4-1 (header),
 /// 4-2 (metadata) and 4-3 (data: mean Keplerian elements, spacecraft parameters, TLE-related
-/// parameters, covariance): those of 502.0-B-2 (2009), from memory, and the four B-3 adds: the
-/// header's CLASSIFICATION and MESSAGE_ID (Orekit's API reference, `files.ccsds.section.Header`:
-/// the classification/caveats and "the ID that uniquely identifies a message from a given
-/// originator", both from a minimum format version on) and an SGP4-XP set's BTERM and AGOM
-/// (pub.dev `spacedatastandards`, class OMM, citing 502.0-B-3 Table 4-3, "BSTAR or BTERM",
-/// "MEAN_MOTION_DDOT or AGOM"). User-defined keywords start with `USER_DEFINED_`.
+/// parameters, covariance): those of 502.0-B-2 (2009), from memory, and the four B-3 adds, from
+/// memory: the header's CLASSIFICATION and MESSAGE_ID (Table 4-1) and an SGP4-XP set's BTERM and
+/// AGOM (Table 4-3, "BSTAR or BTERM", "MEAN_MOTION_DDOT or AGOM"; confirmed, with CLASSIFICATION
+/// as the B-3 header keyword, in a registry data-standards library's OMM class: pub.dev
+/// `spacedatastandards`). User-defined keywords start with `USER_DEFINED_`.
 const OMM_KEYWORDS: [&str; 59] = [
     // Header
     "CCSDS_OMM_VERS",
@@ -469,13 +466,27 @@ fn check_unknown(object: usize, f: &Fields) -> Result<(), OmmError> {
     Ok(())
 }
 
-/// Every required keyword present.
+/// Every required keyword present, and given a value (JSON null is none).
 fn check_missing(object: usize, f: &Fields, message_line: Option<usize>) -> Result<(), OmmError> {
-    match first_missing(f) {
-        Some(field) => Err(OmmError::MissingField {
+    if let Some(field) = first_missing(f) {
+        return Err(OmmError::MissingField {
             object,
             field,
             line: message_line,
+        });
+    }
+    let null = REQUIRED.iter().filter_map(|k| f.get(*k).map(|e| (k, e)));
+    match null
+        .filter(|(_, e)| e.null)
+        .min_by_key(|(_, e)| (e.line, e.column))
+    {
+        Some((k, e)) => Err(OmmError::InvalidValue {
+            object,
+            field: k.to_string(),
+            value: "null".to_string(),
+            reason: "a required keyword needs a value, JSON null given".to_string(),
+            line: e.line,
+            column: e.column,
         }),
         None => Ok(()),
     }
@@ -887,9 +898,9 @@ mod tests {
         assert!(err.to_string().contains("BSTAR"));
     }
 
-    /// Basis: CCSDS 502.0-B-3's header keywords CLASSIFICATION and MESSAGE_ID (Orekit's API
-    /// reference, `files.ccsds.section.Header`) and its SGP4-XP keywords BTERM and AGOM (pub.dev
-    /// `spacedatastandards`, class OMM, citing Table 4-3). A B-3 message gives the same elements
+    /// Basis: CCSDS 502.0-B-3 Table 4-1 (header: CLASSIFICATION, MESSAGE_ID) and Table 4-3
+    /// (SGP4-XP: BTERM, AGOM), from memory; BTERM, AGOM and CLASSIFICATION confirmed in pub.dev
+    /// `spacedatastandards` (class OMM). A B-3 message gives the same elements
     /// as the B-2 one it extends; an SGP4-XP set is refused by its theory, not as unknown keywords
     /// or a missing BSTAR (before: "unknown keyword MESSAGE_ID").
     #[test]
@@ -920,6 +931,17 @@ mod tests {
             "{err:?}"
         );
         assert!(err.to_string().contains("SGP4-XP propagator"), "{err}");
+        // The same in JSON, where an SGP4-XP set may give BSTAR as null (before: refused for
+        // the null BSTAR).
+        let xp = JSON
+            .replace("\"SGP4\"", "\"SGP4-XP\"")
+            .replace("\"BSTAR\": 0.00012", "\"BSTAR\": null, \"BTERM\": 0.0125");
+        assert!(xp.contains("SGP4-XP") && xp.contains("BTERM"), "{xp}");
+        let err = parse_omm_json(&xp).unwrap_err();
+        assert!(
+            matches!(&err, OmmError::InvalidValue { field, .. } if field == "MEAN_ELEMENT_THEORY"),
+            "{err:?}"
+        );
     }
 
     #[test]

@@ -93,11 +93,12 @@ pub enum InstantError {
     Azimuth(String),
     #[error(transparent)]
     Slant(#[from] crate::geometry::slant::SlantError),
-    #[error("{satellite}: the orbit's perigee is {perigee_radius_km:.0} km from the Earth's centre, inside the Earth ({earth_radius_km} km): the elements describe no orbit to budget at an elevation")]
+    #[error("{satellite}: the orbit's perigee is {perigee_radius_km:.0} km from the Earth's centre, not above the Earth's equatorial radius ({earth_radius_km} km, where SGP4 stops) and the station's ({station_radius_km:.0} km): the elements describe no orbit to budget at an elevation")]
     PerigeeInsideEarth {
         satellite: String,
         perigee_radius_km: f64,
         earth_radius_km: f64,
+        station_radius_km: f64,
     },
     #[error("{0}")]
     Rate(String),
@@ -414,14 +415,15 @@ fn look_at(
             };
             let perigee_radius_km = prop.semi_major_axis_km() * (1.0 - prop.eccentricity());
             let earth_radius_km = crate::orbit::propagate::WGS72_RADIUS_KM;
-            if perigee_radius_km < earth_radius_km {
+            let station_radius_km = station_radius_km(model);
+            if perigee_radius_km <= earth_radius_km.max(station_radius_km) {
                 return Err(InstantError::PerigeeInsideEarth {
                     satellite: elements.label(),
                     perigee_radius_km,
                     earth_radius_km,
+                    station_radius_km,
                 });
             }
-            let station_radius_km = station_radius_km(model);
             let (range_km, off_nadir_deg) = crate::geometry::slant::slant_range_km(
                 station_radius_km,
                 prop.semi_major_axis_km(),
@@ -475,14 +477,16 @@ fn station_radius_km(model: &StationModel) -> f64 {
     (p[0] * p[0] + p[1] * p[1] + p[2] * p[2]).sqrt()
 }
 
-/// How far the free-space loss at an elevation may move over the orbit before a budget at the
-/// semi-major axis says so, dB (this project's rule: a sixth of the usual 3 dB required margin).
-pub const ECCENTRIC_LOSS_SPREAD_DB: f64 = 0.5;
+/// How far the free-space loss at an elevation may differ, either way, between the orbit's
+/// perigee or apogee radius and its semi-major axis before a budget at the semi-major axis says
+/// so, dB (this project's rule: a sixth of the usual 3 dB required margin).
+pub const ECCENTRIC_LOSS_DEPARTURE_DB: f64 = 0.5;
 
-/// The line when a budget at an elevation (taken at the orbit's semi-major axis) hides more than
-/// [`ECCENTRIC_LOSS_SPREAD_DB`] of free-space loss: the range at that elevation from perigee to
-/// apogee radius and the loss against the budget's. `None` at a moment (`--at`) and for an orbit
-/// this near circular.
+/// The line when a budget at an elevation (taken at the orbit's semi-major axis) differs by more
+/// than [`ECCENTRIC_LOSS_DEPARTURE_DB`] of free-space loss from the same elevation at the
+/// perigee or the apogee radius: both ranges and both losses against the budget's. `None` at a
+/// moment (`--at`) and for an orbit this near circular. The perigee radius is above the station's
+/// ([`InstantError::PerigeeInsideEarth`]).
 fn eccentric_orbit_line(
     model: &StationModel,
     elements: &ElementSet,
@@ -501,9 +505,9 @@ fn eccentric_orbit_line(
     let hi = range(a_km * (1.0 + e))?;
     let db = |d: f64| 20.0 * (d / look.range_km).log10();
     let (lo_db, hi_db) = (db(lo), db(hi));
-    (hi_db.max(-lo_db) > ECCENTRIC_LOSS_SPREAD_DB).then(|| {
+    (hi_db.max(-lo_db) > ECCENTRIC_LOSS_DEPARTURE_DB).then(|| {
         format!(
-            "{}: eccentric orbit (e = {e:.4}): at {:.2} deg elevation the range runs from {lo:.0} km at perigee to {hi:.0} km at apogee, the free-space loss {lo_db:+.2} to {hi_db:+.2} dB from this budget's, which takes the semi-major axis ({:.0} km); --at TIME budgets a moment of the orbit",
+            "{}: eccentric orbit (e = {e:.4}): at {:.2} deg elevation the range would be {lo:.0} km at perigee and {hi:.0} km at apogee, the free-space loss {lo_db:+.2} and {hi_db:+.2} dB against this budget's (negative: less loss; the pfd margin moves as much the other way), which takes the semi-major axis ({:.0} km range); --at TIME budgets a moment of the orbit",
             elements.label(),
             look.elevation_deg,
             look.range_km

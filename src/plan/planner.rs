@@ -413,6 +413,7 @@ impl Planner {
             notes,
             passes,
             stopped,
+            propagation_stop: stop,
             propagations_search,
             station_masks,
             tradeoff_masks,
@@ -472,7 +473,7 @@ impl Planner {
         }
         out.extend(self.plan_wide_warnings());
         if let Some(s) = stop {
-            out.push(s.message(&self.elements.label(), "no passes after it are planned"));
+            out.push(s.message(&self.elements.label(), STOP_CONSEQUENCE));
             for (i, _) in stopped.iter().enumerate().filter(|(_, e)| e.is_some()) {
                 out.push(format!(
                     "{}: passes cut by the propagation stop",
@@ -507,16 +508,18 @@ impl Planner {
     }
 
     /// The warnings that concern one pass of `plan` (`chart --pass`): its station's model
-    /// warnings as this pass raised them, then the plan-wide ones. Other stations' warnings are
-    /// not among them, nor the counts over the station's passes, nor a propagation stop (which
-    /// cut only passes after the ones planned).
-    pub fn pass_warnings(&self, pass: &PassPlan) -> Vec<String> {
+    /// warnings as this pass raised them, then the plan-wide ones and the propagation stop (the
+    /// elements fail later in the window). Other stations' warnings are not among them, nor the
+    /// counts over the station's passes, nor which stations' searches the stop cut.
+    pub fn pass_warnings(&self, plan: &Plan, pass: &PassPlan) -> Vec<String> {
         let s = &self.stations[pass.station_index];
         let models = Self::station_warnings(s).union(&pass.warnings);
         let name = &s.station.name;
+        let label = self.elements.label();
         (models.lines(self.frequency_hz).into_iter())
             .map(|m| format!("{name}: {m}"))
             .chain(self.plan_wide_warnings())
+            .chain((plan.propagation_stop.iter()).map(|s| s.message(&label, STOP_CONSEQUENCE)))
             .collect()
     }
 
@@ -536,6 +539,9 @@ impl Planner {
             .collect()
     }
 }
+
+/// What a propagation stop means for a plan, in its warning line.
+const STOP_CONSEQUENCE: &str = "no passes after it are planned";
 
 /// `value` if it lies within `range`, else the request's error naming its field `key`.
 fn in_range(

@@ -227,6 +227,9 @@ pub struct Plan {
     pub passes: Vec<PassPlan>,
     /// Per station: the pass search stopped early (propagation error), with the error.
     pub stopped: Vec<Option<PropagationError>>,
+    /// Where the satellite's propagation first failed in the window, if it did: no pass from
+    /// then on is planned.
+    pub propagation_stop: Option<super::inputs::PropagationStop>,
     pub propagations_search: u64,
     /// Mask accumulators per station (merged over its passes above the configured mask).
     pub station_masks: Vec<MaskAccumulator>,

@@ -634,7 +634,7 @@ fn deeply_nested_yaml_is_refused_with_its_line() {
 /// A control character in a name (an element set's name line or OMM `OBJECT_NAME`, a mission, a
 /// station) is refused where it is read: names go into terminal tables, CSV and calendars, where
 /// ESC or BEL would act on the terminal and a bare CR breaks a calendar line. An empty mission
-/// name is refused as an empty station name is.
+/// name is refused as an empty station name is, and so is `~` or `null` (YAML's "no value").
 /// Basis: a behaviour check of the input rule (no published reference applies).
 #[test]
 fn control_characters_in_names_are_refused() {
@@ -678,6 +678,9 @@ fn control_characters_in_names_are_refused() {
     for (name, needle) in [
         ("\"A\\aB\"", "control character (U+0007)"),
         ("\"\"", "must not be empty"),
+        // YAML's "no value" arrives in a text field as its spelling (it named a station "~")
+        ("~", "is '~', which reads as YAML's \"no value\""),
+        ("null", "is 'null'"),
     ] {
         let changed: String = text
             .lines()
@@ -696,6 +699,14 @@ fn control_characters_in_names_are_refused() {
     let st = write(dir.path(), "st.yaml", &st);
     let o = run(&atmosphere_at_30_deg(&st));
     clean_error(&o, &["st.yaml:", "name", "control character (U+000D)"]);
+    let st = std::fs::read_to_string(root().join("stations/nordkam.yaml"))
+        .unwrap()
+        .replace("name: Nordkam", "name: ~");
+    let st = write(dir.path(), "st.yaml", &st);
+    clean_error(
+        &run(&atmosphere_at_30_deg(&st)),
+        &["st.yaml:", "name: is '~'"],
+    );
 }
 
 /// `--out` naming a file (or a link to nothing) says the name is not a folder, not only that the

@@ -1114,6 +1114,18 @@ fn one_pass_chart_prints_that_pass_warnings_and_notes() {
         "{sierra}"
     );
     assert!(!sierra.contains("Pulau Reka"), "{sierra}");
+    // No such pass: the error, after the window's warnings and notes (which say why).
+    let o = run(&[
+        "chart",
+        "examples/wrenlet-1.yaml",
+        "--pass",
+        "999",
+        "--kind",
+        "pass",
+    ]);
+    clean_error(&o, &["--pass 999: the plan has passes 1 to 132"]);
+    let e = String::from_utf8_lossy(&o.stderr);
+    assert!(e.contains("warning: Sierra Baja: cloud"), "{e}");
 }
 
 /// The antenna timeline's legend names only what the day's chart draws: "pass left unbooked" on
