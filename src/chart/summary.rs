@@ -18,6 +18,16 @@ use crate::timefmt::seconds_between;
 const TITLE_H: u32 = 100;
 const LEGEND_W: u32 = 300;
 const Y_AXIS_W: u32 = 95;
+/// Every panel's plot area has these margins left and right of its y axis and plot.
+const MARGIN_LEFT: u32 = 10;
+const MARGIN_RIGHT: u32 = 24;
+
+/// The width of every panel's plotting area in a chart `w` pixels wide: the three panels share
+/// their time axis pixel for pixel.
+fn plot_width_px(w: u32) -> f64 {
+    w.saturating_sub(LEGEND_W + MARGIN_LEFT + MARGIN_RIGHT + Y_AXIS_W)
+        .max(1) as f64
+}
 
 impl Plot for SummaryChartData {
     const NAME: &'static str = "summary";
@@ -116,7 +126,7 @@ where
     let (top, rest) = body.split_vertically((0.42 * panels_h) as u32);
     let (middle, bottom) = rest.split_vertically((0.36 * panels_h) as u32);
     timeline(d, &top, w)?;
-    let days = DayAxis::new(d);
+    let days = DayAxis::new(d, plot_width_px(w), root);
     daily(d, &days, &middle, w)?;
     shannon_share(d, &days, &bottom, w, x_axis_h)
 }
@@ -149,10 +159,27 @@ struct DayAxis {
     ticks: Vec<f64>,
     /// Hours of the window in each day (24 for a whole day).
     window_h: Vec<f64>,
+    /// Which days are labelled ([`DayAxis::labelled`]); only they have a tick.
+    placed: Vec<bool>,
+    /// The labels give the year: the window's days fall in two years.
+    with_year: bool,
+    /// Pixels per second of the panels' plotting area.
+    px_per_s: f64,
 }
 
+/// The daily panels draw their bars and markers only where a day is at least this wide (four
+/// bars of 3 px and their gaps; a marker is 11 px across); in a longer window (a quarter or a
+/// year on one chart) each series is a line through the days.
+const MIN_DAY_PX_FOR_BARS: f64 = 16.0;
+
 impl DayAxis {
-    fn new(d: &SummaryChartData) -> Self {
+    /// The day axis of `d` over a plotting area `plot_px` wide, its labels measured in `area`'s
+    /// tick font.
+    fn new<DB: DrawingBackend>(
+        d: &SummaryChartData,
+        plot_px: f64,
+        area: &DrawingArea<DB, Shift>,
+    ) -> Self {
         let span_s = window_span_s(d);
         let mut slots: Vec<(f64, f64)> = d
             .days
@@ -182,16 +209,37 @@ impl DayAxis {
                 *slot = (i as f64 * span_s / n, (i + 1) as f64 * span_s / n);
             }
         }
-        DayAxis {
+        let with_year = crate::timefmt::needs_year(&d.start, &d.end);
+        let mut axis = DayAxis {
             span_s,
             ticks: slots.iter().map(|(a, b)| (a + b) / 2.0).collect(),
             slots,
             window_h,
-        }
+            placed: Vec::new(),
+            with_year,
+            px_per_s: plot_px / span_s,
+        };
+        // Every label as wide as the widest possible one.
+        let widest = if with_year { "2026-12-31" } else { "Wed 12-31" };
+        let label_px = area
+            .estimate_text_size(widest, &style::tick_font())
+            .map_or(80.0, |(w, _)| w as f64);
+        axis.placed = axis.labelled(label_px / axis.px_per_s, 12.0 / axis.px_per_s);
+        axis
     }
 
+    /// The axis with a tick at each labelled day (a tick per day was a comb in a long window).
     fn axis(&self) -> style::TickAxis {
-        style::TickAxis::new(0.0, self.span_s, self.ticks.clone())
+        let ticks = (self.ticks.iter().zip(&self.placed))
+            .filter(|(_, &p)| p)
+            .map(|(t, _)| *t)
+            .collect();
+        style::TickAxis::new(0.0, self.span_s, ticks)
+    }
+
+    /// A whole day is wide enough for a day's bars and markers ([`MIN_DAY_PX_FOR_BARS`]).
+    fn bars(&self) -> bool {
+        86400.0 * self.px_per_s >= MIN_DAY_PX_FOR_BARS
     }
 
     /// Which days get a label: from the left, each whose label (`label_s` wide, centred on its
@@ -213,12 +261,16 @@ impl DayAxis {
             .collect()
     }
 
-    /// The label of the day whose middle is `v`, if [`DayAxis::labelled`] placed it.
-    fn label(&self, d: &SummaryChartData, v: f64, placed: &[bool]) -> String {
+    /// The label of the day whose middle is `v`, if [`DayAxis::labelled`] placed it: weekday and
+    /// date, or the date with its year in a window of two years.
+    fn label(&self, d: &SummaryChartData, v: f64) -> String {
+        let form = if self.with_year {
+            "%Y-%m-%d"
+        } else {
+            "%a %m-%d"
+        };
         match self.ticks.iter().position(|t| *t == v) {
-            Some(i) if placed.get(i) == Some(&true) => {
-                d.days[i].date.format("%a %m-%d").to_string()
-            }
+            Some(i) if self.placed.get(i) == Some(&true) => d.days[i].date.format(form).to_string(),
             _ => String::new(),
         }
     }
@@ -253,8 +305,8 @@ where
     let y_hi = style::zero_based_max([max_bits / div], 0.12, 1.0);
     let mut chart = ChartBuilder::on(&plot)
         .margin_top(14)
-        .margin_left(10)
-        .margin_right(24)
+        .margin_left(MARGIN_LEFT)
+        .margin_right(MARGIN_RIGHT)
         .x_label_area_size(58)
         .y_label_area_size(Y_AXIS_W)
         .build_cartesian_2d(style::TickAxis::new(0.0, span, ticks), 0.0..y_hi)?;
@@ -275,6 +327,9 @@ where
     let min_w = span / 400.0;
     let area_px = chart.plotting_area().strip_coord_spec();
     let px_per_s = chart.plotting_area().dim_in_pixel().0 as f64 / span;
+    // More passes than pixels (a quarter or a year): bars would overlap into one block and the
+    // markers over them into a texture; a dot per pass shows each station's spread of volumes.
+    let dense = d.passes.len() as f64 > plot_width_px(w);
     let mut markers = Vec::with_capacity(d.passes.len());
     for p in &d.passes {
         let x0 = seconds_between(&d.start, &p.aos);
@@ -284,6 +339,11 @@ where
             continue;
         }
         let color = style::SERIES[p.station_index % style::SERIES.len()];
+        if dense {
+            let dot = Circle::new(((x0 + x1) / 2.0, v), 2, color.filled());
+            chart.draw_series(v.is_finite().then_some(dot))?;
+            continue;
+        }
         if v.is_finite() && v > 0.0 {
             chart.draw_series(bar((x0, x1, v), color, px_per_s))?;
         }
@@ -310,19 +370,19 @@ where
         .iter()
         .enumerate()
         .map(|(i, s)| {
-            (
-                Key::BandMarker(
-                    style::SERIES[i % style::SERIES.len()],
-                    MarkerShape::series(i),
-                ),
-                s.clone(),
-            )
+            let c = style::SERIES[i % style::SERIES.len()];
+            let key = match dense {
+                true => Key::Band(c, 1.0),
+                false => Key::BandMarker(c, MarkerShape::series(i)),
+            };
+            (key, s.clone())
         })
         .collect();
-    keys.push((
-        Key::Blank,
-        "bar: fixed-rate volume\nmarker: adaptive volume".into(),
-    ));
+    let how = match dense {
+        true => "dot: fixed-rate volume\n(more passes than\npixels: no bars, no\nadaptive markers)",
+        false => "bar: fixed-rate volume\nmarker: adaptive volume",
+    };
+    keys.push((Key::Blank, how.into()));
     style::draw_legend(&legend, Some("Station"), &keys)
 }
 
@@ -373,8 +433,8 @@ where
     let y_hi = style::zero_based_max([max_bits / div], 0.18, 1.0);
     let mut chart = ChartBuilder::on(&plot)
         .margin_top(20)
-        .margin_left(10)
-        .margin_right(24)
+        .margin_left(MARGIN_LEFT)
+        .margin_right(MARGIN_RIGHT)
         .x_label_area_size(8)
         .y_label_area_size(Y_AXIS_W)
         .build_cartesian_2d(axis.axis(), 0.0..y_hi)?;
@@ -422,7 +482,18 @@ where
             )))?;
         }
     }
-    for (t, &(a, b)) in d.days.iter().zip(&axis.slots) {
+    let day_lines = !axis.bars();
+    if day_lines {
+        // Days too narrow for grouped bars: a line per kind through the days' middles.
+        for (color, _, pick) in &kinds {
+            let pts: Vec<(f64, f64)> = (d.days.iter().zip(&axis.ticks))
+                .filter_map(|(t, x)| pick(t).map(|v| (*x, v / div)))
+                .filter(|p| p.1.is_finite())
+                .collect();
+            style::stroke_line!(chart, draw_series, pts, day_stroke(*color));
+        }
+    }
+    for (t, &(a, b)) in d.days.iter().zip(&axis.slots).filter(|_| !day_lines) {
         let bar_w = 0.76 * (b - a) / kinds.len() as f64;
         for (k, (color, _, pick)) in kinds.iter().enumerate() {
             let Some(v) = pick(t).map(|v| v / div) else {
@@ -442,10 +513,11 @@ where
             style::title_font().pos(Pos::new(HPos::Center, VPos::Center)),
         )))?;
     }
-    let mut keys: Vec<(Key, String)> = kinds
-        .iter()
-        .map(|(c, l, _)| (Key::Band(*c, 1.0), l.clone()))
-        .collect();
+    let key = |c: RGBColor| match day_lines {
+        true => Key::Line(day_stroke(c)),
+        false => Key::Band(c, 1.0),
+    };
+    let mut keys: Vec<(Key, String)> = kinds.iter().map(|(c, l, _)| (key(*c), l.clone())).collect();
     if any_partial {
         keys.push((
             Key::Band(style::TERRAIN, 0.45),
@@ -453,6 +525,13 @@ where
         ));
     }
     style::draw_legend_spaced(&legend, Some("Daily total"), &keys, 4)
+}
+
+/// The line of a daily kind drawn in `color` where the days are too narrow for bars: the dash
+/// pattern of that colour's series, so the lines differ in more than their colour.
+fn day_stroke(color: RGBColor) -> style::Stroke {
+    let i = style::SERIES.iter().position(|c| *c == color).unwrap_or(0);
+    style::Stroke::series(i, 2)
 }
 
 /// Each day's fixed and adaptive totals as a share of Shannon's bound over the whole band
@@ -490,18 +569,12 @@ where
     let y_hi = style::zero_based_max(fixed.iter().chain(&adaptive).map(|p| p.1), 0.25, 5.0);
     let mut chart = ChartBuilder::on(&plot)
         .margin_top(10)
-        .margin_left(10)
-        .margin_right(24)
+        .margin_left(MARGIN_LEFT)
+        .margin_right(MARGIN_RIGHT)
         .x_label_area_size(x_axis_h)
         .y_label_area_size(Y_AXIS_W)
         .build_cartesian_2d(axis.axis(), 0.0..y_hi)?;
-    // The day labels that fit side by side (every label as wide as the widest possible one).
-    let label_px = plot
-        .estimate_text_size("Wed 12-31", &style::tick_font())
-        .map_or(80.0, |(w, _)| w as f64);
-    let s_per_px = axis.span_s / chart.plotting_area().dim_in_pixel().0.max(1) as f64;
-    let placed = axis.labelled(label_px * s_per_px, 12.0 * s_per_px);
-    let fmt = |v: &f64| axis.label(d, *v, &placed);
+    let fmt = |v: &f64| axis.label(d, *v);
     chart
         .configure_mesh()
         .bold_line_style(style::GRID)
@@ -523,6 +596,11 @@ where
     {
         let s = style::Stroke::series(k, 3);
         style::stroke_line!(chart, draw_series, pts.clone(), s);
+        // a marker per day where the days are wide enough to tell them apart
+        if !axis.bars() {
+            keys.push((Key::Line(s), label.to_string()));
+            continue;
+        }
         for p in pts.iter().filter(|p| p.1.is_finite()) {
             let px = style::rel(&area_px, chart.backend_coord(p));
             style::draw_marker(&area_px, MarkerShape::series(k), px, 5, s.color)?;

@@ -506,6 +506,11 @@ fn mask_renders() {
 
 /// SYNTHETIC 7-day plan at three invented stations, about 150 passes.
 fn sample_summary() -> SummaryChartData {
+    summary_over(7)
+}
+
+/// [`sample_summary`]'s passes and days over `days` days.
+fn summary_over(n_days: i64) -> SummaryChartData {
     let start = utc(2026, 12, 2, 0, 0, 0);
     let stations = vec![
         "Sierra Baja".to_string(),
@@ -515,7 +520,7 @@ fn sample_summary() -> SummaryChartData {
     let mut passes = Vec::new();
     let mut k = 0u64;
     let mut t = start + Duration::minutes(37);
-    while t < start + Duration::days(7) {
+    while t < start + Duration::days(n_days) {
         // toy pseudo-random volumes from a fixed integer sequence (deterministic)
         k = k
             .wrapping_mul(6364136223846793005)
@@ -531,7 +536,7 @@ fn sample_summary() -> SummaryChartData {
         });
         t += Duration::minutes(67);
     }
-    let days = (0..7)
+    let days = (0..n_days)
         .map(|i| {
             let day = start + Duration::days(i);
             let of_day = passes
@@ -555,7 +560,7 @@ fn sample_summary() -> SummaryChartData {
         warnings: Vec::new(),
         satellite: "KESTREL-7 (synthetic)".into(),
         start,
-        end: start + Duration::days(7),
+        end: start + Duration::days(n_days),
         stations,
         passes,
         days,
@@ -1121,5 +1126,41 @@ fn a_cut_pass_says_it_is_cut() {
     assert!(
         svg.contains("TCA ") && svg.contains("closest approach"),
         "{svg}"
+    );
+}
+
+/// A year on the plan summary: more passes than pixels are dots (bars overlapped into one block,
+/// and the adaptive markers over them into a texture), days narrower than a day's bars are a
+/// line per total (a year's 1,460 daily bars were sub-pixel slivers), the day axis has a tick
+/// only where a label is (a tick per day was a comb) and, the window being in two years, its
+/// labels give the year. The week keeps its bars, markers and weekday labels.
+/// Basis: a behaviour check of what the chart draws (no published reference applies).
+#[test]
+fn a_year_summary_stays_readable() {
+    let year = summary_over(365);
+    let svg = svg_text(draw_summary(&year, ChartFormat::Svg).unwrap());
+    assert!(
+        svg.contains("dot: fixed-rate volume"),
+        "the dense timeline's key"
+    );
+    assert!(!svg.contains("marker: adaptive volume"));
+    let rects = svg.matches("<rect ").count();
+    assert!(rects < 60, "{rects} rectangles: the daily totals are lines");
+    let texts = svg_texts(&svg);
+    let dated = |t: &str| t.len() == 10 && t.as_bytes()[4] == b'-' && t.as_bytes()[7] == b'-';
+    assert!(texts
+        .iter()
+        .any(|(_, t)| dated(t) && t.starts_with("2027-")));
+    assert!(
+        !texts
+            .iter()
+            .any(|(_, t)| t.len() == 9 && t.as_bytes()[3] == b' '),
+        "weekday labels"
+    );
+    let week = svg_text(draw_summary(&sample_summary(), ChartFormat::Svg).unwrap());
+    assert!(week.contains("marker: adaptive volume") && week.contains("Thu 12-03"));
+    assert!(
+        week.matches("<rect ").count() > 7 * 4,
+        "the week's daily bars"
     );
 }
