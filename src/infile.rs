@@ -58,7 +58,7 @@ pub fn check_name(name: &str) -> Result<(), String> {
 pub fn check_yaml_name(name: &str) -> Result<(), String> {
     if matches!(name.trim(), "~" | "null" | "Null" | "NULL") {
         return Err(format!(
-            "is '{}', which reads as YAML's \"no value\" unquoted; give another name",
+            "is '{}', which YAML reads as no value; give another name",
             name.trim()
         ));
     }

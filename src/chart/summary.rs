@@ -5,6 +5,10 @@
 //! with the days the window covers only in part shaded and labelled with their hours; and, on
 //! its own axis, what share of Shannon's bound over the whole band the fixed and adaptive totals
 //! reach each day (the bound itself would dwarf the real volumes on a shared axis).
+//!
+//! A long window keeps what is shown and changes how: passes too many for bars are dots, days
+//! too narrow for grouped bars have each total as a line (a partial day as a lone dot), and the
+//! Shannon shares lose their markers ([`dense_passes`], [`MIN_DAY_PX_FOR_BARS`]).
 
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -237,9 +241,10 @@ impl DayAxis {
         style::TickAxis::new(0.0, self.span_s, ticks)
     }
 
-    /// A whole day is wide enough for a day's bars and markers ([`MIN_DAY_PX_FOR_BARS`]).
+    /// The widest day is wide enough for a day's bars and markers ([`MIN_DAY_PX_FOR_BARS`]).
     fn bars(&self) -> bool {
-        86400.0 * self.px_per_s >= MIN_DAY_PX_FOR_BARS
+        let widest_s = (self.slots.iter()).fold(0.0f64, |w, (a, b)| w.max(b - a));
+        widest_s * self.px_per_s >= MIN_DAY_PX_FOR_BARS
     }
 
     /// Which days get a label: from the left, each whose label (`label_s` wide, centred on its
@@ -279,6 +284,13 @@ impl DayAxis {
     fn partial(&self, i: usize) -> bool {
         self.window_h.get(i).is_some_and(|h| *h < 24.0 - 1.0 / 60.0)
     }
+}
+
+/// A pass bar is at least 1/400 of the window wide ([`timeline`]), so past about 400 passes
+/// (a month of a polar orbiter at three stations) the bars overlap into one block under their
+/// markers: then each pass is a dot at its fixed-rate volume, which shows each station's spread.
+fn dense_passes(d: &SummaryChartData, w: u32) -> bool {
+    d.passes.len() as f64 > plot_width_px(w) / 3.0
 }
 
 fn timeline<DB: DrawingBackend>(
@@ -327,9 +339,7 @@ where
     let min_w = span / 400.0;
     let area_px = chart.plotting_area().strip_coord_spec();
     let px_per_s = chart.plotting_area().dim_in_pixel().0 as f64 / span;
-    // More passes than pixels (a quarter or a year): bars would overlap into one block and the
-    // markers over them into a texture; a dot per pass shows each station's spread of volumes.
-    let dense = d.passes.len() as f64 > plot_width_px(w);
+    let dense = dense_passes(d, w);
     let mut markers = Vec::with_capacity(d.passes.len());
     for p in &d.passes {
         let x0 = seconds_between(&d.start, &p.aos);
@@ -340,7 +350,8 @@ where
         }
         let color = style::SERIES[p.station_index % style::SERIES.len()];
         if dense {
-            let dot = Circle::new(((x0 + x1) / 2.0, v), 2, color.filled());
+            // at its AOS, as the axis says
+            let dot = Circle::new((x0, v), 2, color.filled());
             chart.draw_series(v.is_finite().then_some(dot))?;
             continue;
         }
@@ -379,7 +390,9 @@ where
         })
         .collect();
     let how = match dense {
-        true => "dot: fixed-rate volume\n(more passes than\npixels: no bars, no\nadaptive markers)",
+        true => {
+            "dot: fixed-rate volume\nat AOS (too many passes\nfor bars; adaptive\nvolume not drawn)"
+        }
         false => "bar: fixed-rate volume\nmarker: adaptive volume",
     };
     keys.push((Key::Blank, how.into()));
@@ -484,11 +497,22 @@ where
     }
     let day_lines = !axis.bars();
     if day_lines {
-        // Days too narrow for grouped bars: a line per kind through the days' middles.
+        // Days too narrow for grouped bars: a line per kind through the days' middles, broken
+        // at a day without the total, and a day the window covers in part as a lone dot (joined
+        // to its whole neighbours it read as a drop).
+        let gap = (f64::NAN, f64::NAN);
         for (color, _, pick) in &kinds {
-            let pts: Vec<(f64, f64)> = (d.days.iter().zip(&axis.ticks))
-                .filter_map(|(t, x)| pick(t).map(|v| (*x, v / div)))
-                .filter(|p| p.1.is_finite())
+            let pts: Vec<(f64, f64)> = (0..d.days.len())
+                .flat_map(|i| {
+                    let p = (
+                        axis.ticks[i],
+                        pick(&d.days[i]).map_or(f64::NAN, |v| v / div),
+                    );
+                    match axis.partial(i) {
+                        true => vec![gap, p, gap],
+                        false => vec![p],
+                    }
+                })
                 .collect();
             style::stroke_line!(chart, draw_series, pts, day_stroke(*color));
         }

@@ -93,7 +93,7 @@ pub enum InstantError {
     Azimuth(String),
     #[error(transparent)]
     Slant(#[from] crate::geometry::slant::SlantError),
-    #[error("{satellite}: the orbit's perigee is {perigee_radius_km:.0} km from the Earth's centre, not above the Earth's equatorial radius ({earth_radius_km} km, where SGP4 stops) and the station's ({station_radius_km:.0} km): the elements describe no orbit to budget at an elevation")]
+    #[error("{satellite}: the orbit's perigee is {perigee_radius_km:.0} km from the Earth's centre, not above both the Earth's equatorial radius ({earth_radius_km} km, where SGP4 stops) and the station's radius ({station_radius_km:.0} km): the elements describe no orbit to budget at an elevation")]
     PerigeeInsideEarth {
         satellite: String,
         perigee_radius_km: f64,

@@ -973,6 +973,19 @@ fn budget_at_an_elevation_says_what_the_semi_major_axis_hides() {
     let m = mission_with_elements(dir.path(), decayed, "LOWSAT");
     clean_error(
         &budget(&m, "Nordkam", "10", &[]),
-        &["perigee is 5540 km from the Earth's centre, not above the Earth's equatorial radius"],
+        &["perigee is 5540 km from the Earth's centre, not above both the Earth's equatorial radius"],
+    );
+    // A perigee above the Earth's equatorial radius but below a station 5 km up on the equator.
+    let skim = "SKIMSAT\n1 99970U          26335.50000000  .00000000  00000-0  00000-0 0  1002\n2 99970  10.0000 215.3000 0247000  80.0000  10.0000 16.40000000  1002\n";
+    let m = mission_with_elements(dir.path(), skim, "SKIMSAT");
+    let peak = std::fs::read_to_string(root().join("stations/pulau-reka.yaml"))
+        .unwrap()
+        .replace("latitude_deg: 2.35", "latitude_deg: 0.0")
+        .replace("altitude_m: 40", "altitude_m: 5000");
+    let peak_path = dir.path().join("peak.yaml");
+    std::fs::write(&peak_path, peak).unwrap();
+    clean_error(
+        &budget(&m, &peak_path.to_string_lossy(), "10", &[]),
+        &["perigee is 6382 km", "and the station's radius (6383 km)"],
     );
 }

@@ -679,7 +679,7 @@ fn control_characters_in_names_are_refused() {
         ("\"A\\aB\"", "control character (U+0007)"),
         ("\"\"", "must not be empty"),
         // YAML's "no value" arrives in a text field as its spelling (it named a station "~")
-        ("~", "is '~', which reads as YAML's \"no value\""),
+        ("~", "is '~', which YAML reads as no value"),
         ("null", "is 'null'"),
     ] {
         let changed: String = text

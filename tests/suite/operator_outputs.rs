@@ -1126,6 +1126,39 @@ fn one_pass_chart_prints_that_pass_warnings_and_notes() {
     clean_error(&o, &["--pass 999: the plan has passes 1 to 132"]);
     let e = String::from_utf8_lossy(&o.stderr);
     assert!(e.contains("warning: Sierra Baja: cloud"), "{e}");
+    // A satellite whose elements fail later in the window: its pass's chart says so.
+    let tle = "DECAYSAT\n1 99960U          26335.50000000  .00500000  00000-0  20000-1 0  1009\n2 99960  97.4500 215.3000 0010000  80.0000  10.0000 16.10000000  1000\n";
+    std::fs::write(dir.path().join("decay.tle"), tle).unwrap();
+    let mission = std::fs::read_to_string(root().join("examples/wrenlet-1.yaml"))
+        .unwrap()
+        .replace("elements: sat.tle", "elements: decay.tle")
+        .replace("select: \"99901\"", "select: DECAYSAT")
+        .replace(
+            "../stations/",
+            &format!("{}/", root().join("stations").display()),
+        );
+    let m = write(dir.path(), "decay.yaml", &mission);
+    let out = dir.path().join("decay");
+    let o = run(&[
+        "chart",
+        &m,
+        "--days",
+        "1",
+        "--pass",
+        "1",
+        "--kind",
+        "pass",
+        "--chart-format",
+        "svg",
+        "--out",
+        &out.to_string_lossy(),
+    ]);
+    success(&o);
+    let e = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        e.contains("propagation stops at 2026-12-02T03:20:44"),
+        "{e}"
+    );
 }
 
 /// The antenna timeline's legend names only what the day's chart draws: "pass left unbooked" on
