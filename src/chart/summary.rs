@@ -224,7 +224,11 @@ impl DayAxis {
             px_per_s: plot_px / span_s,
         };
         // Every label as wide as the widest possible one.
-        let widest = if with_year { "2026-12-31" } else { "Wed 12-31" };
+        let widest = match (with_year, axis.bars()) {
+            (false, _) => "Wed 12-31",
+            (true, true) => "Wed 2026-12-31",
+            (true, false) => "2026-12-31",
+        };
         let label_px = area
             .estimate_text_size(widest, &style::tick_font())
             .map_or(80.0, |(w, _)| w as f64);
@@ -267,12 +271,13 @@ impl DayAxis {
     }
 
     /// The label of the day whose middle is `v`, if [`DayAxis::labelled`] placed it: weekday and
-    /// date, or the date with its year in a window of two years.
+    /// date; in a window of two years with the year, and without the weekday where the days are
+    /// too narrow for bars (labels every few weeks).
     fn label(&self, d: &SummaryChartData, v: f64) -> String {
-        let form = if self.with_year {
-            "%Y-%m-%d"
-        } else {
-            "%a %m-%d"
+        let form = match (self.with_year, self.bars()) {
+            (false, _) => "%a %m-%d",
+            (true, true) => "%a %Y-%m-%d",
+            (true, false) => "%Y-%m-%d",
         };
         match self.ticks.iter().position(|t| *t == v) {
             Some(i) if self.placed.get(i) == Some(&true) => d.days[i].date.format(form).to_string(),

@@ -1175,6 +1175,22 @@ fn a_year_summary_stays_readable() {
     );
     let week = svg_text(draw_summary(&sample_summary(), ChartFormat::Svg).unwrap());
     assert!(week.contains("marker: adaptive volume") && week.contains("Thu 12-03"));
+    // A few days across New Year keep the weekday beside the year.
+    let mut new_year = summary_over(3);
+    let shift = Duration::days(28);
+    (new_year.start, new_year.end) = (new_year.start + shift, new_year.end + shift);
+    for p in &mut new_year.passes {
+        (p.aos, p.los) = (p.aos + shift, p.los + shift);
+    }
+    for t in &mut new_year.days {
+        t.date += shift;
+    }
+    let texts = svg_texts(&svg_text(
+        draw_summary(&new_year, ChartFormat::Svg).unwrap(),
+    ));
+    for day in ["Thu 2026-12-31", "Fri 2027-01-01"] {
+        assert!(texts.iter().any(|(_, t)| t == day), "{day}: {texts:?}");
+    }
     let week_rain = rain_rects(&week);
     assert!(
         week_rain.iter().filter(|h| **h > 2.0).count() >= 7,
