@@ -3,6 +3,16 @@
 //! (`19.2 kbit/s`, `2.5 Mbit/s`, `31.2 Gbit`, `375 MHz`). One owner for every table, note and
 //! chart, so a 9.6 kbit/s link never prints as "0 Mb/s".
 
+/// `1 pass`, `2 passes`, `0 stations`: a count with its noun (English plural: `-es` after an
+/// `s`), for every line that counts (the `station(s)` form read `1 station(s)`).
+pub fn counted(n: usize, noun: &str) -> String {
+    match (n, noun.ends_with('s')) {
+        (1, _) => format!("1 {noun}"),
+        (_, true) => format!("{n} {noun}es"),
+        (_, false) => format!("{n} {noun}s"),
+    }
+}
+
 /// A display unit for bit volumes chosen from the largest value to show: (divisor, unit name).
 pub fn volume_unit(max_bits: f64) -> (f64, &'static str) {
     prefixed(max_bits, ["bit", "kbit", "Mbit", "Gbit", "Tbit"])
@@ -161,6 +171,17 @@ fn push_fixed(s: &mut String, x: f64, decimals: usize) {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The counts in English (a behaviour check; no published reference applies): `1 passes`,
+    /// `1 antennas` and `3 station(s)` were printed before.
+    #[test]
+    fn counts_take_their_plural() {
+        assert_eq!(counted(1, "pass"), "1 pass");
+        assert_eq!(counted(0, "pass"), "0 passes");
+        assert_eq!(counted(1, "antenna"), "1 antenna");
+        assert_eq!(counted(3, "station"), "3 stations");
+        assert_eq!(counted(2, "sky chart"), "2 sky charts");
+    }
 
     // The expected strings follow SI prefix usage (BIPM SI Brochure, 9th ed., section 3);
     // three significant digits is common practice for operator tables.

@@ -133,9 +133,9 @@ where
     title.draw(&Text::new(
         format!(
             "{} in the plan · {} booked · {} with a closing rate left unbooked",
-            counted(d.antennas.len(), "antenna"),
-            counted(d.booked.len(), "contact"),
-            counted(unbooked.len(), "pass"),
+            crate::engfmt::counted(d.antennas.len(), "antenna"),
+            crate::engfmt::counted(d.booked.len(), "contact"),
+            crate::engfmt::counted(unbooked.len(), "pass"),
         ),
         (30, 58),
         style::label_font(),
@@ -487,26 +487,4 @@ pub fn draw_contact_charts(
         },
     );
     timelines.and(storage)
-}
-
-/// `1 pass`, `2 passes`, `0 contacts`: a count with its noun.
-fn counted(n: usize, noun: &str) -> String {
-    match (n, noun.ends_with('s')) {
-        (1, _) => format!("1 {noun}"),
-        (_, true) => format!("{n} {noun}es"),
-        (_, false) => format!("{n} {noun}s"),
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    /// The subtitle's counts in English (a behaviour check; no published reference applies):
-    /// `1 passes` and `1 antennas` were printed before.
-    #[test]
-    fn counts_take_their_plural() {
-        assert_eq!(super::counted(1, "pass"), "1 pass");
-        assert_eq!(super::counted(0, "pass"), "0 passes");
-        assert_eq!(super::counted(1, "antenna"), "1 antenna");
-        assert_eq!(super::counted(3, "contact"), "3 contacts");
-    }
 }

@@ -7,6 +7,7 @@ use crate::cli::output::{
 use anyhow::{bail, Result};
 use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
+use passbudget::engfmt::counted;
 use passbudget::plan::Planner;
 use passbudget::report::files::{ChartBytes, OutputRequest};
 use passbudget::report::{pass_id, CommitMode};
@@ -152,10 +153,10 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
         .count();
     writeln!(
         out,
-        "{} pass chart(s), {} sky chart(s) and {} mask and summary chart(s) written to {}",
-        passes_drawn,
-        sky,
-        written.len() - sky,
+        "{}, {} and {} written to {}",
+        counted(passes_drawn, "pass chart"),
+        counted(sky, "sky chart"),
+        counted(written.len() - sky, "mask and summary chart"),
         a.out.display()
     )?;
     Ok(())

@@ -6,6 +6,7 @@ use crate::cli::output::{commit, in_out_folder, stage};
 use crate::cli::plan::PlanArgs;
 use anyhow::Result;
 use passbudget::config::mission::Mission;
+use passbudget::engfmt::counted;
 use passbudget::plan::fleet::{ContactPlan, FleetPlanner};
 use passbudget::plan::Planner;
 use passbudget::report::contacts::{write_contact_files, ContactDoc, ContactRows, FleetDoc};
@@ -94,10 +95,10 @@ fn write_fleet_files(
 fn print_fleet(doc: &FleetDoc, rows: &ContactRows, out: &mut dyn Write) -> Result<()> {
     writeln!(
         out,
-        "{}: {} satellites over {} station(s), {} to {}",
+        "{}: {} over {}, {} to {}",
         doc.mission,
-        doc.contact.satellites.len(),
-        doc.contact.stations.len(),
+        counted(doc.contact.satellites.len(), "satellite"),
+        counted(doc.contact.stations.len(), "station"),
         doc.window_start,
         doc.window_end
     )?;

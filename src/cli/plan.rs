@@ -11,6 +11,7 @@ use passbudget::chart::plan::{window_charts, ChartSink, WindowCharts};
 use passbudget::chart::ChartFormat;
 use passbudget::config::mission::Mission;
 use passbudget::engfmt;
+use passbudget::engfmt::counted;
 use passbudget::plan::fleet::{contact_plan, ContactPlan};
 use passbudget::plan::summary::tradeoff;
 use passbudget::plan::{PassPlan, Plan, Planner};
@@ -259,10 +260,10 @@ fn print_plan(
 ) -> Result<()> {
     writeln!(
         out,
-        "{}: {} over {} station(s), {} to {}, step {} s",
+        "{}: {} over {}, {} to {}, step {} s",
         planner.mission().name,
         doc.satellite,
-        planner.stations().len(),
+        counted(planner.stations().len(), "station"),
         format_ms(&plan.window.start()),
         format_ms(&plan.window.end()),
         planner.step_s()

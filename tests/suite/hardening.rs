@@ -550,7 +550,7 @@ fn a_mission_given_as_a_pipe_is_read_once() {
     let direct = run(&["plan", &path, "--quiet"]);
     let (piped, direct) = (success(&piped), success(&direct));
     // The same plan, the file's name apart.
-    assert!(piped.contains("WRENLET-1 over 3 station(s)"), "{piped}");
+    assert!(piped.contains("WRENLET-1 over 3 stations"), "{piped}");
     assert_eq!(piped.lines().count(), direct.lines().count());
     let o = run_with_stdin(
         &[
