@@ -1085,23 +1085,18 @@ fn the_mask_step_says_what_it_takes() {
 #[test]
 fn one_pass_chart_prints_that_pass_warnings_and_notes() {
     let dir = tempfile::tempdir().unwrap();
-    let stderr_of = |pass: &str| {
-        let out = dir.path().join(format!("pass-{pass}"));
-        let o = run(&[
-            "chart",
-            "examples/wrenlet-1.yaml",
-            "--pass",
-            pass,
-            "--kind",
-            "pass",
-            "--chart-format",
-            "svg",
-            "--out",
-            &out.to_string_lossy(),
-        ]);
+    // the stderr of one pass's chart of `mission` over its window (or the one day `days` gives)
+    let chart_of = |mission: &str, pass: &str, days: &[&str]| {
+        let out = dir.path().join(format!("pass-{pass}-{}", days.len()));
+        let out = out.to_string_lossy();
+        let mut args = vec!["chart", mission, "--pass", pass, "--kind", "pass"];
+        args.extend(days);
+        args.extend(["--chart-format", "svg", "--out", &out]);
+        let o = run(&args);
         success(&o);
         String::from_utf8(o.stderr).unwrap()
     };
+    let stderr_of = |pass: &str| chart_of("examples/wrenlet-1.yaml", pass, &[]);
     // pass 3 is Nordkam's, pass 16 Sierra Baja's with the Sun in the beam
     let nordkam = stderr_of("3");
     assert!(!nordkam.contains("Sierra Baja"), "{nordkam}");
@@ -1138,23 +1133,7 @@ fn one_pass_chart_prints_that_pass_warnings_and_notes() {
             &format!("{}/", root().join("stations").display()),
         );
     let m = write(dir.path(), "decay.yaml", &mission);
-    let out = dir.path().join("decay");
-    let o = run(&[
-        "chart",
-        &m,
-        "--days",
-        "1",
-        "--pass",
-        "1",
-        "--kind",
-        "pass",
-        "--chart-format",
-        "svg",
-        "--out",
-        &out.to_string_lossy(),
-    ]);
-    success(&o);
-    let e = String::from_utf8_lossy(&o.stderr);
+    let e = chart_of(&m, "1", &["--days", "1"]);
     assert!(
         e.contains("propagation stops at 2026-12-02T03:20:44"),
         "{e}"
