@@ -208,6 +208,34 @@ pub fn draw_marker<DB: DrawingBackend>(
 where
     DB::ErrorType: 'static,
 {
+    draw_shape(area, shape, at, size, color, true)
+}
+
+/// A small marker without its dark edge, which at this size would hide its colour (a dense
+/// plot's one mark per item).
+pub fn draw_dot<DB: DrawingBackend>(
+    area: &DrawingArea<DB, plotters::coord::Shift>,
+    shape: MarkerShape,
+    at: (i32, i32),
+    color: RGBColor,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
+    draw_shape(area, shape, at, 2, color, false)
+}
+
+fn draw_shape<DB: DrawingBackend>(
+    area: &DrawingArea<DB, plotters::coord::Shift>,
+    shape: MarkerShape,
+    at: (i32, i32),
+    size: i32,
+    color: RGBColor,
+    edged: bool,
+) -> Result<(), ChartError>
+where
+    DB::ErrorType: 'static,
+{
     let (x, y) = at;
     let fill = color.filled();
     let edge = ShapeStyle {
@@ -219,13 +247,17 @@ where
         let mut closed = pts.clone();
         closed.push(pts[0]);
         area.draw(&Polygon::new(pts, fill))?;
-        area.draw(&PathElement::new(closed, edge))?;
+        if edged {
+            area.draw(&PathElement::new(closed, edge))?;
+        }
         Ok(())
     };
     match shape {
         MarkerShape::Circle => {
             area.draw(&Circle::new((x, y), size, fill))?;
-            area.draw(&Circle::new((x, y), size, edge))?;
+            if edged {
+                area.draw(&Circle::new((x, y), size, edge))?;
+            }
         }
         MarkerShape::Triangle => {
             let s = size + 1;

@@ -346,6 +346,7 @@ where
     let px_per_s = chart.plotting_area().dim_in_pixel().0 as f64 / span;
     let dense = dense_passes(d, w);
     let mut markers = Vec::with_capacity(d.passes.len());
+    let mut dots = Vec::new();
     for p in &d.passes {
         let x0 = seconds_between(&d.start, &p.aos);
         let x1 = seconds_between(&d.start, &p.los).max(x0 + min_w);
@@ -355,9 +356,10 @@ where
         }
         let color = style::SERIES[p.station_index % style::SERIES.len()];
         if dense {
-            // at its AOS, as the axis says
-            let dot = Circle::new((x0, v), 2, color.filled());
-            chart.draw_series(v.is_finite().then_some(dot))?;
+            // at its AOS, as the axis says, in its station's shape
+            if v.is_finite() {
+                dots.push((p.station_index, (x0, v)));
+            }
             continue;
         }
         if v.is_finite() && v > 0.0 {
@@ -367,6 +369,11 @@ where
         if a.is_finite() {
             markers.push((p.station_index, ((x0 + x1) / 2.0, a)));
         }
+    }
+    for (i, at) in dots {
+        let px = style::rel(&area_px, chart.backend_coord(&at));
+        let color = style::SERIES[i % style::SERIES.len()];
+        style::draw_dot(&area_px, MarkerShape::series(i), px, color)?;
     }
     for (i, at) in markers {
         let px = style::rel(&area_px, chart.backend_coord(&at));
@@ -387,16 +394,12 @@ where
         .enumerate()
         .map(|(i, s)| {
             let c = style::SERIES[i % style::SERIES.len()];
-            let key = match dense {
-                true => Key::Band(c, 1.0),
-                false => Key::BandMarker(c, MarkerShape::series(i)),
-            };
-            (key, s.clone())
+            (Key::BandMarker(c, MarkerShape::series(i)), s.clone())
         })
         .collect();
     let how = match dense {
         true => {
-            "dot: fixed-rate volume\nat AOS (too many passes\nfor bars; adaptive\nvolume not drawn)"
+            "dot: fixed-rate volume\nat AOS, in the station's\nshape (too many passes\nfor bars; adaptive\nvolume not drawn)"
         }
         false => "bar: fixed-rate volume\nmarker: adaptive volume",
     };

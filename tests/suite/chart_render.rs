@@ -1144,6 +1144,10 @@ fn a_year_summary_stays_readable() {
         "the dense timeline's key"
     );
     assert!(!svg.contains("marker: adaptive volume"));
+    // each dot in its station's shape, so the stations differ in more than colour: two of the
+    // three stations' dots (triangles, squares) are polygons
+    let polygons = svg.matches("<polygon").count();
+    assert!(polygons > year.passes.len() / 2, "{polygons} polygons");
     // the rain case's daily bars, in its colour: none in the year (its legend key is a dotted
     // line of 2 px squares), one a day in the week
     let rain_rects = |svg: &str| -> Vec<f64> {
