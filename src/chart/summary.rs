@@ -169,6 +169,9 @@ struct DayAxis {
     with_year: bool,
     /// Pixels per second of the panels' plotting area.
     px_per_s: f64,
+    /// The widest day is wide enough for a day's bars and markers ([`MIN_DAY_PX_FOR_BARS`]);
+    /// else each total is a line.
+    bars: bool,
 }
 
 /// The daily panels draw their bars and markers only where a day is at least this wide (four
@@ -214,6 +217,8 @@ impl DayAxis {
             }
         }
         let with_year = crate::timefmt::needs_year(&d.start, &d.end);
+        let px_per_s = plot_px / span_s;
+        let widest_s = (slots.iter()).fold(0.0f64, |w, (a, b)| w.max(b - a));
         let mut axis = DayAxis {
             span_s,
             ticks: slots.iter().map(|(a, b)| (a + b) / 2.0).collect(),
@@ -221,10 +226,11 @@ impl DayAxis {
             window_h,
             placed: Vec::new(),
             with_year,
-            px_per_s: plot_px / span_s,
+            px_per_s,
+            bars: widest_s * px_per_s >= MIN_DAY_PX_FOR_BARS,
         };
         // Every label as wide as the widest possible one.
-        let widest = match (with_year, axis.bars()) {
+        let widest = match (with_year, axis.bars) {
             (false, _) => "Wed 12-31",
             (true, true) => "Wed 2026-12-31",
             (true, false) => "2026-12-31",
@@ -243,12 +249,6 @@ impl DayAxis {
             .map(|(t, _)| *t)
             .collect();
         style::TickAxis::new(0.0, self.span_s, ticks)
-    }
-
-    /// The widest day is wide enough for a day's bars and markers ([`MIN_DAY_PX_FOR_BARS`]).
-    fn bars(&self) -> bool {
-        let widest_s = (self.slots.iter()).fold(0.0f64, |w, (a, b)| w.max(b - a));
-        widest_s * self.px_per_s >= MIN_DAY_PX_FOR_BARS
     }
 
     /// Which days get a label: from the left, each whose label (`label_s` wide, centred on its
@@ -274,7 +274,7 @@ impl DayAxis {
     /// date; in a window of two years with the year, and without the weekday where the days are
     /// too narrow for bars (labels every few weeks).
     fn label(&self, d: &SummaryChartData, v: f64) -> String {
-        let form = match (self.with_year, self.bars()) {
+        let form = match (self.with_year, self.bars) {
             (false, _) => "%a %m-%d",
             (true, true) => "%a %Y-%m-%d",
             (true, false) => "%Y-%m-%d",
@@ -503,7 +503,7 @@ where
             )))?;
         }
     }
-    let day_lines = !axis.bars();
+    let day_lines = !axis.bars;
     if day_lines {
         // Days too narrow for grouped bars: a line per kind through the days' middles, broken
         // at a day without the total, and a day the window covers in part as a lone dot (joined
@@ -629,7 +629,7 @@ where
         let s = style::Stroke::series(k, 3);
         style::stroke_line!(chart, draw_series, pts.clone(), s);
         // a marker per day where the days are wide enough to tell them apart
-        if !axis.bars() {
+        if !axis.bars {
             keys.push((Key::Line(s), label.to_string()));
             continue;
         }

@@ -113,23 +113,20 @@ pub fn chart(a: ChartArgs, out: &mut dyn Write) -> Result<()> {
     let run = planner.run(&sink);
     drop(sink);
     let plan = run.map_err(|e| in_out_folder(e.into(), &staging, &a.out))?;
-    // One pass's chart: the warnings and notes of that pass (not every station's).
+    // One pass's chart: the warnings and notes of that pass (not every station's); else, and
+    // for no such pass (they say why there are so few), the window's.
     match pass.map(|n| (n, plan.passes.iter().find(|x| x.number == n))) {
-        None => {
-            warn(&plan.warnings);
-            note(&plan.note_lines(|_| true));
-        }
         Some((_, Some(p))) => {
             warn(&planner.pass_warnings(&plan, p));
             note(&planner.pass_notes(&plan, p));
         }
-        // No such pass: the window's warnings and notes say why there are so few.
-        Some((n, None)) => {
+        missing => {
             warn(&plan.warnings);
             note(&plan.note_lines(|_| true));
-            match plan.passes.len() {
-                0 => bail!("--pass {n}: the plan has no passes in this window"),
-                k => bail!("--pass {n}: the plan has passes 1 to {k}"),
+            match (missing, plan.passes.len()) {
+                (Some((n, _)), 0) => bail!("--pass {n}: the plan has no passes in this window"),
+                (Some((n, _)), k) => bail!("--pass {n}: the plan has passes 1 to {k}"),
+                (None, _) => {}
             }
         }
     }
