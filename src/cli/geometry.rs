@@ -15,7 +15,7 @@ use passbudget::geometry::sun::{separation_deg, sun_az_el_deg};
 use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
 use passbudget::orbit::{ElementSet, Propagator};
 use passbudget::plan::inputs::{
-    check_element_age, element_age_warning, load_satellite, propagation_stop, selection_note,
+    check_element_age, element_age_warning, element_notes, load_satellite, propagation_stop,
 };
 use passbudget::plan::{Window, WindowRequest};
 use passbudget::report::geometry::{passes_csv, PassRow, TrackRow};
@@ -164,7 +164,7 @@ pub fn resolve(input: &InputArgs, station_args: &[String]) -> Result<Resolved> {
         input.allow_stale_elements,
     )
     .map_err(|s| anyhow!("{s}; --allow-stale-elements goes ahead anyway"))?;
-    note(&Vec::from_iter(selection_note(&elements, &selection)));
+    note(&element_notes(&elements, &selection));
     let stations = if !station_args.is_empty() {
         check_distinct_stations(station_args, chosen)?
     } else {

@@ -13,6 +13,9 @@ pub struct ElementSet {
     pub epoch: DateTime<Utc>,
     /// The elements in the form the `sgp4` crate consumes (angles in degrees, mean motion in rev/day).
     pub elements: sgp4::Elements,
+    /// Keywords of the set's OMM that are not OMM keywords and were ignored (fields an element-set
+    /// provider adds), in the order of the file; empty for a TLE.
+    pub ignored_keywords: Vec<String>,
 }
 
 impl ElementSet {
@@ -23,6 +26,7 @@ impl ElementSet {
             norad_id: elements.norad_id,
             epoch: elements.datetime.and_utc(),
             elements,
+            ignored_keywords: Vec::new(),
         }
     }
 

@@ -18,7 +18,9 @@
 //! `MEAN_ANOMALY`, `BSTAR`, `MEAN_MOTION_DOT`, `MEAN_MOTION_DDOT`. Optional: `OBJECT_NAME`,
 //! `OBJECT_ID`, `CLASSIFICATION_TYPE` (default U), `ELEMENT_SET_NO`, `REV_AT_EPOCH`,
 //! `EPHEMERIS_TYPE` (default 0). `EPOCH` is ISO 8601 UTC, calendar (`2026-12-01T12:00:00.000`)
-//! or day-of-year (`2026-335T12:00:00`) form, optional trailing `Z`.
+//! or day-of-year (`2026-335T12:00:00`) form, optional trailing `Z`. A key outside the OMM
+//! keyword set is ignored (and listed in [`ElementSet::ignored_keywords`]) unless it is a
+//! misspelling of a keyword read here ([`check_unknown`]), which is an error.
 
 use std::collections::HashMap;
 
@@ -65,15 +67,14 @@ pub enum OmmError {
         column: Option<usize>,
         first_line: Option<usize>,
     },
-    #[error("message {}{}: unknown keyword {key} (not an OMM keyword of CCSDS 502.0-B-3; check the spelling){}", .object + 1, position_suffix(*.line, *.column), missing.map(|m| format!("; required keyword {m} is missing")).unwrap_or_default())]
+    #[error("message {}{}: unknown keyword {key}: not an OMM keyword of CCSDS 502.0-B-3, and close to {near}, which the message lacks (a misspelling?)", .object + 1, position_suffix(*.line, *.column))]
     UnknownKey {
         object: usize,
         key: String,
         line: Option<usize>,
         column: Option<usize>,
-        /// The first required keyword missing from the message, which the unknown one may be
-        /// a misspelling of.
-        missing: Option<&'static str>,
+        /// The keyword read here that the message lacks and the unknown one is close to.
+        near: &'static str,
     },
     #[error("line {line}: expected 'KEY = value', found '{text}'")]
     KvnSyntax { line: usize, text: String },
@@ -115,9 +116,10 @@ struct Entry {
 type Fields = HashMap<String, Entry>;
 
 /// Parse OMM JSON (an object or an array of objects). A leading UTF-8 byte-order mark is
-/// skipped. Keys are matched case-insensitively; a key given twice in one object, a key outside
-/// the OMM keyword set ([`is_omm_keyword`]) and `null` for a required keyword are errors; `null`
-/// for an optional keyword counts as absent.
+/// skipped. Keys are matched case-insensitively; a key given twice in one object, a misspelt
+/// keyword ([`check_unknown`]) and `null` for a required keyword are errors; `null` for an
+/// optional keyword counts as absent; other keys outside the OMM keyword set are ignored and
+/// listed in [`ElementSet::ignored_keywords`].
 pub fn parse_omm_json(text: &str) -> Result<Vec<ElementSet>, OmmError> {
     let doc: json::Doc = serde_json::from_str(strip_bom(text)).map_err(|e| {
         // serde_json's text ends in its own " at line L column C": the message gives it once.
@@ -199,8 +201,8 @@ fn json_fields(
 }
 
 /// Parse OMM KVN text (one or more messages). A leading UTF-8 byte-order mark is skipped. A
-/// keyword given twice in one message and a keyword outside the OMM keyword set
-/// ([`is_omm_keyword`]) are errors naming the line.
+/// keyword given twice in one message and a misspelt keyword ([`check_unknown`]) are errors
+/// naming the line; other keywords outside the OMM set are ignored as in JSON.
 pub fn parse_omm_kvn(text: &str) -> Result<Vec<ElementSet>, OmmError> {
     let mut messages: Vec<Fields> = Vec::new();
     for (i, raw) in strip_bom(text).lines().enumerate() {
@@ -360,7 +362,7 @@ const REQUIRED: [&str; 11] = [
 /// Build message `object` from its keywords; `message_line` (KVN: its first line) is given in
 /// "missing keyword" errors.
 fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<ElementSet, OmmError> {
-    check_unknown(object, f)?;
+    let ignored_keywords = check_unknown(object, f)?;
     let invalid = |field: &str, reason: &str| {
         let e = f.get(field).cloned().unwrap_or_default();
         OmmError::InvalidValue {
@@ -438,7 +440,10 @@ fn build(object: usize, f: &Fields, message_line: Option<usize>) -> Result<Eleme
             ),
         )
     })?;
-    Ok(ElementSet::from_elements(elements))
+    Ok(ElementSet {
+        ignored_keywords,
+        ..ElementSet::from_elements(elements)
+    })
 }
 
 /// The first required keyword a message lacks.
@@ -446,24 +451,54 @@ fn first_missing(f: &Fields) -> Option<&'static str> {
     REQUIRED.iter().copied().find(|k| !f.contains_key(*k))
 }
 
-/// No keyword outside the OMM set. The first unknown one (by line (KVN) or name (JSON)) is
-/// reported with the first missing required keyword if any: a misspelt keyword explains the
-/// missing one.
-fn check_unknown(object: usize, f: &Fields) -> Result<(), OmmError> {
-    if let Some((key, e)) = f
-        .iter()
-        .filter(|(k, _)| !is_omm_keyword(k))
-        .min_by_key(|(k, e)| (e.line, k.as_str()))
-    {
-        return Err(OmmError::UnknownKey {
-            object,
-            key: key.clone(),
-            line: e.line,
-            column: e.column,
-            missing: first_missing(f),
-        });
+/// The keywords this reader takes a value from (beyond [`REQUIRED`]): a misspelling of one of
+/// them would change what is read, silently for an optional one.
+const READ_OPTIONAL: [&str; 11] = [
+    "CCSDS_OMM_VERS",
+    "MEAN_ELEMENT_THEORY",
+    "REF_FRAME",
+    "TIME_SYSTEM",
+    "CENTER_NAME",
+    "CLASSIFICATION_TYPE",
+    "EPHEMERIS_TYPE",
+    "OBJECT_NAME",
+    "OBJECT_ID",
+    "ELEMENT_SET_NO",
+    "REV_AT_EPOCH",
+];
+
+/// Most edits (Levenshtein: letters inserted, removed or changed) that make a key outside the OMM
+/// set a misspelling of a keyword read here ("B_STAR", "REV_AT_EPOC"); element-set providers'
+/// own fields ("SEMIMAJOR_AXIS", "PERIOD", "OBJECT_TYPE", "GP_ID") are further from every one the
+/// message lacks (common practice: providers add such fields to OMM JSON).
+const MISSPELLING_EDITS: usize = 2;
+
+/// The keys of a message outside the OMM set, in the order of the file (by line (KVN) or
+/// name (JSON)), to be ignored. A key within [`MISSPELLING_EDITS`] of a keyword this reader
+/// takes and the message lacks is taken for a misspelling of it: an error naming both.
+fn check_unknown(object: usize, f: &Fields) -> Result<Vec<String>, OmmError> {
+    let mut unknown: Vec<(&String, &Entry)> =
+        f.iter().filter(|(k, _)| !is_omm_keyword(k)).collect();
+    unknown.sort_by_key(|(k, e)| (e.line, e.column, k.as_str()));
+    for (key, e) in &unknown {
+        let near = REQUIRED
+            .iter()
+            .chain(READ_OPTIONAL.iter())
+            .filter(|k| !f.contains_key(**k))
+            .map(|k| (strsim::levenshtein(key, k), *k))
+            .filter(|(d, _)| *d <= MISSPELLING_EDITS)
+            .min();
+        if let Some((_, near)) = near {
+            return Err(OmmError::UnknownKey {
+                object,
+                key: key.to_string(),
+                line: e.line,
+                column: e.column,
+                near,
+            });
+        }
     }
-    Ok(())
+    Ok(unknown.into_iter().map(|(k, _)| k.clone()).collect())
 }
 
 /// Every required keyword present, and given a value (JSON null is none).
@@ -945,7 +980,7 @@ mod tests {
     }
 
     #[test]
-    fn unknown_keys_are_errors() {
+    fn misspelt_keywords_are_errors() {
         let kvn = KVN.replace("ELEMENT_SET_NO", "ELEMENT_SET_NUM");
         let err = parse_omm_kvn(&kvn).unwrap_err();
         assert_eq!(
@@ -955,7 +990,7 @@ mod tests {
                 key: "ELEMENT_SET_NUM".to_string(),
                 line: Some(24),
                 column: Some(19),
-                missing: None,
+                near: "ELEMENT_SET_NO",
             }
         );
         assert!(err.to_string().contains("line 24") && err.to_string().contains("ELEMENT_SET_NUM"));
@@ -969,20 +1004,65 @@ mod tests {
         let json = JSON.replace("\"BSTAR\"", "\"B_STAR\"");
         let err = parse_omm_json(&json).unwrap_err();
         assert!(
-            matches!(&err, OmmError::UnknownKey { key, missing: Some("BSTAR"), line: Some(_), .. } if key == "B_STAR"),
+            matches!(&err, OmmError::UnknownKey { key, near: "BSTAR", line: Some(_), .. } if key == "B_STAR"),
             "{err:?}"
         );
         assert!(
             err.to_string()
-                .ends_with("required keyword BSTAR is missing"),
+                .ends_with("close to BSTAR, which the message lacks (a misspelling?)"),
             "{err}"
         );
+        // A misspelt optional keyword would be read as absent: an error too.
+        let kvn = KVN.replace("REF_FRAME", "REF_FRAM");
+        assert!(matches!(
+            parse_omm_kvn(&kvn).unwrap_err(),
+            OmmError::UnknownKey {
+                near: "REF_FRAME",
+                ..
+            }
+        ));
         // User-defined keywords are part of the standard's keyword set.
         let kvn = KVN.replace(
             "ORIGINATOR = PASSBUDGET DEMO",
             "ORIGINATOR = X\nUSER_DEFINED_NOTE = 1",
         );
         assert!(parse_omm_kvn(&kvn).is_ok());
+    }
+
+    /// Fields an element-set provider adds to OMM JSON (common practice; these names are from
+    /// memory) are not OMM keywords: they are ignored, and listed in the order of the file, the
+    /// elements read as without them. One of them is one letter from SEMI_MAJOR_AXIS, a keyword
+    /// not read here (the mean motion is): no misspelling of anything read.
+    #[test]
+    fn provider_fields_are_ignored_and_listed() {
+        let extra = "\"SEMIMAJOR_AXIS\": \"6903.1\",\n  \"PERIOD\": \"95.65\",\n  \
+                     \"OBJECT_TYPE\": \"PAYLOAD\",\n  \"DECAY_DATE\": null,\n  \
+                     \"TLE_LINE1\": \"1 99901U ...\",\n  \"GP_ID\": 1,\n  ";
+        let json = JSON.replacen("\"MEAN_MOTION\"", &format!("{extra}\"MEAN_MOTION\""), 1);
+        assert_ne!(json, JSON);
+        let with = parse_omm_json(&json).unwrap();
+        let without = parse_omm_json(JSON).unwrap();
+        assert_eq!(
+            with[0].ignored_keywords,
+            [
+                "SEMIMAJOR_AXIS",
+                "PERIOD",
+                "OBJECT_TYPE",
+                "TLE_LINE1",
+                "GP_ID"
+            ]
+        );
+        assert!(without[0].ignored_keywords.is_empty());
+        assert_eq!(with[0].elements, without[0].elements);
+        // KVN alike.
+        let kvn = KVN.replace(
+            "ORIGINATOR = PASSBUDGET DEMO",
+            "ORIGINATOR = X\nRCS_SIZE = SMALL",
+        );
+        assert_eq!(
+            parse_omm_kvn(&kvn).unwrap()[0].ignored_keywords,
+            ["RCS_SIZE"]
+        );
     }
 
     #[test]

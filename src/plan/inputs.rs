@@ -58,9 +58,39 @@ pub fn load_satellite(
     Ok((set, prop, selection))
 }
 
+/// The notes on the element set chosen: which set of an element-set history it is (none when
+/// only one set of the satellite was in the file), and the keywords of its OMM that were not
+/// OMM keywords and were ignored.
+pub fn element_notes(set: &ElementSet, selection: &Selection) -> Vec<String> {
+    selection_note(set, selection)
+        .into_iter()
+        .chain(ignored_keywords_note(set))
+        .collect()
+}
+
+/// The keywords of the set's OMM outside CCSDS 502.0-B-3 that were ignored: up to eight, then how
+/// many more.
+fn ignored_keywords_note(set: &ElementSet) -> Option<String> {
+    let keys = &set.ignored_keywords;
+    if keys.is_empty() {
+        return None;
+    }
+    let shown = keys.len().min(8);
+    let more = match keys.len() - shown {
+        0 => String::new(),
+        n => format!(" and {n} more"),
+    };
+    Some(format!(
+        "element set of {}: {} outside CCSDS 502.0-B-3 ignored (not read): {}{more}",
+        set.label(),
+        crate::engfmt::counted(keys.len(), "keyword"),
+        keys[..shown].join(", "),
+    ))
+}
+
 /// The note saying which set of an element-set history was chosen (None when only one set of
 /// the satellite was in the file).
-pub fn selection_note(set: &ElementSet, selection: &Selection) -> Option<String> {
+fn selection_note(set: &ElementSet, selection: &Selection) -> Option<String> {
     let rule = match selection.rule {
         SelectionRule::Only => return None,
         SelectionRule::LatestAtOrBeforeStart => "the latest at or before the window start",

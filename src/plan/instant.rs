@@ -6,7 +6,7 @@
 //! `budget --at` and the plan agree to within those stated bounds.
 
 use super::bodies::PassBodies;
-use super::inputs::{element_age_warning, load_satellite, selection_note, SatelliteError};
+use super::inputs::{element_age_warning, element_notes, load_satellite, SatelliteError};
 use super::path_table::PathTerms;
 use super::prepare::{
     availability_weather, rate_set, station_model, PrepareError, RateSet, StationModel,
@@ -237,7 +237,7 @@ pub fn instant_budget(
     let pfd = pfd_at(&model, &look, &values, spectrum);
     items.extend(pfd.iter().flat_map(|p| pfd_items(p, spectrum)));
     warnings.extend(pfd_warning(&model, pfd.as_ref()));
-    warnings.extend(selection_note(&elements, &selection));
+    warnings.extend(element_notes(&elements, &selection));
     warnings.extend(terrain_lines);
     warnings.extend(line.and_then(|l| mount_cannot_keep_up(&model, &l)));
     warnings.extend(below_min_elevation(mission, &model, &look));

@@ -1,7 +1,7 @@
 //! The planner: a validated request over a prepared mission, run with a pass sink.
 
 use super::inputs::{
-    element_age_warning, load_satellite, propagation_stop, selection_note, PropagationStop,
+    element_age_warning, element_notes, load_satellite, propagation_stop, PropagationStop,
 };
 use super::mask::{MaskAccumulator, OpenSteps};
 use super::pass::{plan_pass, tradeoff_pass, PassContext, Planned, Scratch};
@@ -395,20 +395,21 @@ impl Planner {
         let warnings = self.warnings(&passes, &stopped, stop.as_ref());
         let of = |kind| move |text| Note::new(kind, text);
         let label = self.elements.label();
-        let notes = (selection_note(&self.elements, &self.selection).map(of(NoteKind::ElementSet)))
+        let notes = (element_notes(&self.elements, &self.selection)
             .into_iter()
-            .chain(
-                summary::no_pass_notes(&label, &passes, &self.stations, &stopped)
-                    .into_iter()
-                    .map(of(NoteKind::NoPass)),
-            )
-            .chain(summary::sun_note(&passes, &self.stations).map(of(NoteKind::Sun)))
-            .chain(
-                summary::adaptive_note(&passes, &self.stations, &self.rates)
-                    .map(of(NoteKind::Adaptive)),
-            )
-            .chain(super::pfd::unconfirmed_notes(&self.rates, &self.pfd))
-            .collect();
+            .map(of(NoteKind::ElementSet)))
+        .chain(
+            summary::no_pass_notes(&label, &passes, &self.stations, &stopped)
+                .into_iter()
+                .map(of(NoteKind::NoPass)),
+        )
+        .chain(summary::sun_note(&passes, &self.stations).map(of(NoteKind::Sun)))
+        .chain(
+            summary::adaptive_note(&passes, &self.stations, &self.rates)
+                .map(of(NoteKind::Adaptive)),
+        )
+        .chain(super::pfd::unconfirmed_notes(&self.rates, &self.pfd))
+        .collect();
         Plan {
             notes,
             passes,

@@ -425,3 +425,44 @@ fn broken_pipe_exits_quietly() {
     assert_eq!(status.code(), Some(0), "{err}");
     assert!(err.is_empty(), "{err}");
 }
+
+/// An OMM JSON with the fields an element-set provider adds (common practice; the names from
+/// memory) finds the same passes as the shipped one and says, in one note, which fields it
+/// ignored; a misspelt keyword is still refused, naming the keyword it is close to.
+#[test]
+fn provider_fields_in_omm_json_are_ignored_with_a_note() {
+    let dir = tempfile::tempdir().unwrap();
+    let shipped = std::fs::read_to_string(root().join("examples/sat-omm.json")).unwrap();
+    let extra = "\"SEMIMAJOR_AXIS\": \"6903.1\",\n    \"PERIOD\": \"95.65\",\n    \
+                 \"OBJECT_TYPE\": \"PAYLOAD\",\n    \"GP_ID\": 12,\n    \"MEAN_MOTION\"";
+    let provider = write(
+        dir.path(),
+        "provider.json",
+        &shipped.replacen("\"MEAN_MOTION\"", extra, 1),
+    );
+    let passes = |tle: &str| {
+        let mut args = vec!["passes", "--tle", tle, "--station", "stations/nordkam.yaml"];
+        args.extend(WINDOW);
+        run(&args)
+    };
+    let (plain, with) = (passes("examples/sat-omm.json"), passes(&provider));
+    assert_eq!(success(&plain), success(&with));
+    let note = String::from_utf8_lossy(&with.stderr);
+    assert!(
+        note.contains(
+            "note: element set of WRENLET-1 (99901): 4 keywords outside CCSDS 502.0-B-3 \
+             ignored (not read): SEMIMAJOR_AXIS, PERIOD, OBJECT_TYPE, GP_ID"
+        ),
+        "{note}"
+    );
+    assert!(!String::from_utf8_lossy(&plain.stderr).contains("ignored"));
+    let misspelt = write(
+        dir.path(),
+        "misspelt.json",
+        &shipped.replacen("\"ECCENTRICITY\"", "\"ECCENTRICTY\"", 1),
+    );
+    assert_clean_error(
+        &passes(&misspelt),
+        &["misspelt.json", "ECCENTRICTY", "close to ECCENTRICITY"],
+    );
+}
