@@ -484,7 +484,7 @@ fn check_unknown(object: usize, f: &Fields) -> Result<Vec<String>, OmmError> {
         let near = REQUIRED
             .iter()
             .chain(READ_OPTIONAL.iter())
-            .filter(|k| !f.contains_key(**k))
+            .filter(|k| !f.contains_key(**k) && key.len().abs_diff(k.len()) <= MISSPELLING_EDITS)
             .map(|k| (strsim::levenshtein(key, k), *k))
             .filter(|(d, _)| *d <= MISSPELLING_EDITS)
             .min();
