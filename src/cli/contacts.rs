@@ -89,9 +89,7 @@ pub fn print_contact_plan(doc: &ContactDoc, rows: &ContactRows, out: &mut dyn Wr
             engfmt::volume(c.volume_bits),
         ]
     };
-    t.render_rows(rows.len(), cells, &mut |line| {
-        out.write_all(line.as_bytes())
-    })?;
+    t.write_rows(rows.len(), cells, out)?;
     if doc.booked.any_shortened {
         writeln!(
             out,

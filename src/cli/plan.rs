@@ -417,9 +417,7 @@ fn print_passes(planner: &Planner, plan: &Plan, out: &mut dyn Write) -> Result<(
         mount_and_pfd_cells(&r, (mount, pfd_over), &mut cells);
         cells
     };
-    t.render_rows(plan.passes.len(), cells, &mut |line| {
-        out.write_all(line.as_bytes())
-    })?;
+    t.write_rows(plan.passes.len(), cells, out)?;
     writeln!(out, "closes from, until: where the chosen rate starts and stops counting, UTC @ elevation in deg.")?;
     writeln!(out, "margin@TCA: Eb/N0 above the scheme's threshold and implementation loss at the pass's highest step the mount can follow, dB, for the chosen rate (the easiest rate when none closes); a rate counts where this is at least the required margin ({} dB).", planner.rates().required_margin_db)?;
     mount_and_pfd_legend((mount, pfd_over), out)?;

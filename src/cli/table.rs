@@ -1,5 +1,7 @@
 //! Aligned plain-text tables for people.
 
+use std::io::Write;
+
 /// Column alignment.
 #[derive(Clone, Copy, PartialEq, Eq)]
 pub enum Align {
@@ -36,6 +38,20 @@ impl Table {
         })
         .expect("writing into a String");
         out
+    }
+
+    /// [`Table::render_rows`] into `out`, through a buffer: stdout writes every line it is handed
+    /// at once, which for a year's table (13,000 lines with the contacts) was 13,000 system calls
+    /// in the one thread that prints (about 40 ms into a file on ext4, 2026-12-05).
+    pub fn write_rows(
+        &self,
+        n: usize,
+        row: impl Fn(usize) -> Vec<String>,
+        out: &mut dyn std::io::Write,
+    ) -> std::io::Result<()> {
+        let mut buffered = std::io::BufWriter::with_capacity(1 << 16, out);
+        self.render_rows(n, row, &mut |line| buffered.write_all(line.as_bytes()))?;
+        buffered.flush()
     }
 
     /// Render the header and `n` rows made by `row` (called twice per row: once for the column
