@@ -67,6 +67,14 @@ pub enum OmmError {
         column: Option<usize>,
         first_line: Option<usize>,
     },
+    #[error("message {}{}: key {key:?} {reason}", .object + 1, position_suffix(*.line, *.column))]
+    BadKey {
+        object: usize,
+        key: String,
+        reason: String,
+        line: Option<usize>,
+        column: Option<usize>,
+    },
     #[error("message {}{}: unknown keyword {key}: not an OMM keyword of CCSDS 502.0-B-3, and close to {near}, which the message lacks (a misspelling?)", .object + 1, position_suffix(*.line, *.column))]
     UnknownKey {
         object: usize,
@@ -165,7 +173,8 @@ fn json_fields(
 ) -> Result<Fields, OmmError> {
     let mut fields = Fields::new();
     for (i, (k, v)) in entries.iter().enumerate() {
-        let key = k.to_ascii_uppercase();
+        // Spaces around a key are not part of it (as in KVN).
+        let key = k.trim().to_ascii_uppercase();
         let (line, column) = match positions.and_then(|p| p.get(i)) {
             Some(&(l, c)) => (Some(l), Some(c)),
             None => (None, None),
@@ -473,22 +482,55 @@ const READ_OPTIONAL: [&str; 11] = [
 /// message lacks (common practice: providers add such fields to OMM JSON).
 const MISSPELLING_EDITS: usize = 2;
 
+/// The keyword this reader takes, missing from the message, that `key` is a misspelling of: the
+/// nearest within [`MISSPELLING_EDITS`], counted in characters after spaces, hyphens and dots are
+/// read as underscores ("CENTRE-NAME" is two edits from CENTER_NAME), or one the key cuts short
+/// to at least half its length ("TIME_SYS").
+fn misspelt(key: &str, f: &Fields) -> Option<&'static str> {
+    let key: String = key
+        .chars()
+        .map(|c| if matches!(c, ' ' | '-' | '.') { '_' } else { c })
+        .collect();
+    let chars = key.chars().count();
+    REQUIRED
+        .iter()
+        .chain(READ_OPTIONAL.iter())
+        .filter(|k| !f.contains_key(**k))
+        .filter_map(|k| {
+            if k.starts_with(key.as_str()) && 2 * chars >= k.len() {
+                return Some((k.len() - chars, *k));
+            }
+            // Keywords are ASCII: their length is their count of characters.
+            (chars.abs_diff(k.len()) <= MISSPELLING_EDITS)
+                .then(|| (strsim::levenshtein(&key, k), *k))
+                .filter(|(d, _)| *d <= MISSPELLING_EDITS)
+        })
+        .min()
+        .map(|(_, k)| k)
+}
+
 /// The keys of a message outside the OMM set, in the order of the file (by line (KVN) or
 /// name (JSON)), to be ignored. A key within [`MISSPELLING_EDITS`] of a keyword this reader
-/// takes and the message lacks is taken for a misspelling of it: an error naming both.
+/// takes and the message lacks is taken for a misspelling of it: an error naming both. So is an
+/// empty key, or one holding a character a name may not hold ([`crate::infile::check_name`]:
+/// it would reach the terminal and the outputs' notes).
 fn check_unknown(object: usize, f: &Fields) -> Result<Vec<String>, OmmError> {
     let mut unknown: Vec<(&String, &Entry)> =
         f.iter().filter(|(k, _)| !is_omm_keyword(k)).collect();
     unknown.sort_by_key(|(k, e)| (e.line, e.column, k.as_str()));
     for (key, e) in &unknown {
-        let near = REQUIRED
-            .iter()
-            .chain(READ_OPTIONAL.iter())
-            .filter(|k| !f.contains_key(**k) && key.len().abs_diff(k.len()) <= MISSPELLING_EDITS)
-            .map(|k| (strsim::levenshtein(key, k), *k))
-            .filter(|(d, _)| *d <= MISSPELLING_EDITS)
-            .min();
-        if let Some((_, near)) = near {
+        let bad = |reason: String| OmmError::BadKey {
+            object,
+            key: key.to_string(),
+            reason,
+            line: e.line,
+            column: e.column,
+        };
+        if key.is_empty() {
+            return Err(bad("is empty".to_string()));
+        }
+        crate::infile::check_name(key).map_err(bad)?;
+        if let Some(near) = misspelt(key, f) {
             return Err(OmmError::UnknownKey {
                 object,
                 key: key.to_string(),
@@ -1063,6 +1105,46 @@ mod tests {
             parse_omm_kvn(&kvn).unwrap()[0].ignored_keywords,
             ["RCS_SIZE"]
         );
+    }
+
+    /// Slips that would change the reading if the key were ignored: another separator, an
+    /// invisible character pasted with the key (U+200B, one character of three bytes), a keyword
+    /// cut short. Each is refused, naming the keyword; spaces around a JSON key are dropped.
+    #[test]
+    fn misspellings_past_separators_invisibles_and_cuts_are_refused() {
+        for (from, to, near) in [
+            ("CENTER_NAME = EARTH", "CENTRE-NAME = MOON", "CENTER_NAME"),
+            ("CENTER_NAME = EARTH", "CENTER NAME = MOON", "CENTER_NAME"),
+            ("REF_FRAME = TEME", "REF_FRAME\u{200B} = GCRF", "REF_FRAME"),
+            ("TIME_SYSTEM = UTC", "TIME_SYS = TAI", "TIME_SYSTEM"),
+        ] {
+            assert!(KVN.contains(from), "{from}");
+            let err = parse_omm_kvn(&KVN.replace(from, to)).unwrap_err();
+            assert!(
+                matches!(&err, OmmError::UnknownKey { near: n, .. } if *n == near),
+                "{to}: {err:?}"
+            );
+        }
+        let json = JSON.replace("\"BSTAR\"", "\" BSTAR \"");
+        assert_ne!(json, JSON);
+        assert_eq!(
+            parse_omm_json(&json).unwrap(),
+            parse_omm_json(JSON).unwrap()
+        );
+    }
+
+    /// A key that is empty or holds a control or text-reordering character is refused (it would
+    /// reach the terminal and the outputs' notes), shown escaped.
+    #[test]
+    fn empty_and_control_character_keys_are_refused() {
+        for key in ["", "X\\nday,1,2", "Y\\u001b[31mRED", "Z\\u202eEVIL"] {
+            let field = format!("\"{key}\": 1, \"MEAN_MOTION\"");
+            let json = JSON.replacen("\"MEAN_MOTION\"", &field, 1);
+            let err = parse_omm_json(&json).unwrap_err();
+            assert!(matches!(err, OmmError::BadKey { .. }), "{key}: {err:?}");
+            let text = err.to_string();
+            assert!(!text.chars().any(char::is_control), "{text}");
+        }
     }
 
     #[test]

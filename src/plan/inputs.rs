@@ -80,11 +80,16 @@ fn ignored_keywords_note(set: &ElementSet) -> Option<String> {
         0 => String::new(),
         n => format!(" and {n} more"),
     };
+    // A provider's field names are short; a long key is cut, so that it cannot flood the notes.
+    let cut = |k: &String| match k.char_indices().nth(40) {
+        Some((i, _)) => format!("{}...", &k[..i]),
+        None => k.clone(),
+    };
     Some(format!(
         "element set of {}: {} outside CCSDS 502.0-B-3 ignored (not read): {}{more}",
         set.label(),
         crate::engfmt::counted(keys.len(), "keyword"),
-        keys[..shown].join(", "),
+        keys[..shown].iter().map(cut).collect::<Vec<_>>().join(", "),
     ))
 }
 
@@ -360,4 +365,32 @@ pub fn propagation_stop(
         time: add_seconds(&start, bad as f64),
         error,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The note names up to eight ignored keys, each cut to 40 characters, then how many more.
+    #[test]
+    fn ignored_keywords_note_cuts_long_keys_and_counts_the_rest() {
+        let mut set = crate::orbit::load_elements(Path::new("examples/sat.tle"))
+            .unwrap()
+            .remove(0);
+        assert_eq!(ignored_keywords_note(&set), None);
+        let long = "L".repeat(100);
+        set.ignored_keywords = std::iter::once(long)
+            .chain((1..=9).map(|i| format!("K{i}")))
+            .collect();
+        let note = ignored_keywords_note(&set).unwrap();
+        assert!(
+            note.contains(&format!(": {}..., K1, K2", "L".repeat(40))),
+            "{note}"
+        );
+        assert!(!note.contains(&"L".repeat(41)), "{note}");
+        assert!(
+            note.contains("10 keywords") && note.ends_with("K7 and 2 more"),
+            "{note}"
+        );
+    }
 }

@@ -545,8 +545,9 @@ impl FleetDoc {
 /// Each warning once, prefixed with the satellites that raised it (`every satellite` when all did);
 /// with them each plan's notes of values recalled from memory (the built-in thresholds and the
 /// pfd row its figures rest on, [`crate::plan::pfd::unconfirmed_notes`]) and its adaptive note
-/// ([`crate::plan::summary::adaptive_note`]), so a fleet's outputs carry them as a single
-/// satellite's do.
+/// ([`crate::plan::summary::adaptive_note`]) and its element-set notes (the set chosen from a
+/// history, the keywords of its OMM ignored: [`crate::plan::inputs::element_notes`]), so a
+/// fleet's outputs carry them as a single satellite's do.
 /// Also returns which of the lines came from notes (printed as `note:`, as a single satellite's
 /// plan prints them).
 fn fleet_warnings(
@@ -559,7 +560,12 @@ fn fleet_warnings(
         let name = crate::plan::fleet::name_of(p);
         use crate::plan::NoteKind as K;
         let recalled = (plan.notes.iter())
-            .filter(|n| matches!(n.kind, K::RecalledThreshold | K::RecalledPfd | K::Adaptive))
+            .filter(|n| {
+                matches!(
+                    n.kind,
+                    K::RecalledThreshold | K::RecalledPfd | K::Adaptive | K::ElementSet
+                )
+            })
             .map(|n| &n.text);
         let lines = (plan.warnings.iter().map(|w| (w, false))).chain(recalled.map(|n| (n, true)));
         for (m, is_note) in lines {

@@ -465,4 +465,36 @@ fn provider_fields_in_omm_json_are_ignored_with_a_note() {
         &passes(&misspelt),
         &["misspelt.json", "ECCENTRICTY", "close to ECCENTRICITY"],
     );
+    // A fleet whose two satellites come from such a file names each one's ignored fields once
+    // (a fleet plan kept only some notes of its satellites' plans, and not this one).
+    let second = shipped
+        .replacen("\"WRENLET-1\"", "\"WRENLET-2\"", 1)
+        .replacen("99901", "99902", 1);
+    let both = format!(
+        "[{}, {}]",
+        shipped
+            .replacen("\"MEAN_MOTION\"", extra, 1)
+            .trim()
+            .trim_matches(['[', ']']),
+        second.trim().trim_matches(['[', ']'])
+    );
+    let file = write(dir.path(), "both.json", &both);
+    let mission = std::fs::read_to_string(root().join("examples/wrenlet-1.yaml")).unwrap();
+    let fleet = mission
+        .replace(
+            "satellite:\n  elements: sat.tle          # TLE/3LE, CCSDS OMM JSON or KVN; relative to this file\n  select: \"99901\" ",
+            &format!("satellites:\n  - {{ name: WRENLET-1, elements: {file}, select: \"99901\" }}\n  - {{ name: WRENLET-2, elements: {file}, select: \"99902\" }}\n #"),
+        )
+        .replace("../stations/", &format!("{}/stations/", root().display()));
+    assert_ne!(fleet, mission);
+    let fleet = write(dir.path(), "fleet.yaml", &fleet);
+    let o = run(&["plan", &fleet, "--days", "1"]);
+    success(&o);
+    let err = String::from_utf8_lossy(&o.stderr);
+    let lines: Vec<&str> = err
+        .lines()
+        .filter(|l| l.contains("ignored (not read)"))
+        .collect();
+    assert_eq!(lines.len(), 1, "{err}");
+    assert!(lines[0].contains("WRENLET-1 (99901): 4 keywords"), "{err}");
 }
