@@ -227,6 +227,9 @@ fn seeds_reach_propagation_or_are_refused() {
             .len(),
         2
     );
+    // A provider's own fields (common practice; the names from memory) are read past.
+    let provider = omm::parse_omm_json(&text("omm_json", "provider-fields.json")).unwrap();
+    assert_eq!(provider[0].ignored_keywords.len(), 6);
     for name in [
         "null-required.json",
         "duplicate-key.json",
