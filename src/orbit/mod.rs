@@ -5,8 +5,9 @@
 //!   KVN form.
 //! * [`propagate`] runs SGP4/SDP4 (Vallado, Crawford, Hujsak, Kelso, "Revisiting Spacetrack
 //!   Report #3", AIAA 2006-6753) through the `sgp4` crate with WGS-72 constants.
-//! * [`spline`] interpolates Earth-fixed states between SGP4 knots over a pass (cubic Hermite,
-//!   near-Earth orbits; deep-space orbits are propagated directly).
+//! * [`spline`] interpolates Earth-fixed states between SGP4 knots over a pass (a cubic through
+//!   four knots, position and velocity each on its own; near-Earth orbits; deep-space orbits are
+//!   propagated directly).
 //! * [`frames`] turns TEME states into Earth-fixed states (GMST IAU-82) and WGS-84 geodetic
 //!   coordinates (NIMA TR8350.2) into Earth-centred Earth-fixed coordinates.
 //!

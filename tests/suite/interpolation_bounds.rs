@@ -1,6 +1,6 @@
 //! The two approximations of a plan's step against the direct computation they replace, with the
 //! bounds the README states ("Accuracy and assumptions"):
-//! * the orbit between SGP4 knots (`orbit::spline`, cubic Hermite, 20 s knots): position within
+//! * the orbit between SGP4 knots (`orbit::spline`, a cubic through four knots, position and velocity each on its own, knots at most `KNOT_SPACING_S` apart): position within
 //!   1 m and velocity within 1 mm/s of direct SGP4, every second, for near-Earth element sets of
 //!   the published SGP4 verification set (Vallado, Crawford, Hujsak, Kelso, AIAA 2006-6753,
 //!   SGP4-VER.TLE: 00005, e = 0.19, and 06251, high drag) and the shipped WRENLET-1; deep-space
