@@ -5,7 +5,8 @@
 //! elevation by the station's [`Observer`]. Checked against an independent general-purpose
 //! astronomy library in the tests (within 0.01 deg over 1995-2045).
 //!
-//! Validity: 1950-2050 (outside, the error grows slowly; the function still answers). The
+//! Validity: 1950-2050 (outside, the error grows slowly; the function still answers, and `plan`
+//! and `budget --at` warn: `plan::bodies::position_years_warning`). The
 //! direction is geocentric (the solar parallax, 8.8 arcsec, is neglected) and geometric (no
 //! refraction), like the satellite's.
 

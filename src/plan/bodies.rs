@@ -75,6 +75,27 @@ impl BodyWarnings {
     }
 }
 
+/// The warning for a window reaching outside the years the Sun's and the Moon's position
+/// formulae are stated for ([`crate::geometry::sun::VALID_YEARS`] and
+/// [`crate::geometry::moon::VALID_YEARS`], both 1950-2050): outside, they still answer, with an
+/// error that grows slowly, and the bodies' noise and separations rest on them.
+pub fn position_years_warning(start: &DateTime<Utc>, end: &DateTime<Utc>) -> Option<String> {
+    use chrono::Datelike;
+    let (sun, moon) = (
+        crate::geometry::sun::VALID_YEARS,
+        crate::geometry::moon::VALID_YEARS,
+    );
+    let (lo, hi) = (sun.0.max(moon.0), sun.1.min(moon.1));
+    let year = [start.year(), end.year()]
+        .into_iter()
+        .find(|y| !(lo..=hi).contains(y))?;
+    Some(format!(
+        "Sun and Moon positions (Astronomical Almanac low-precision formulae; Meeus ch. 47): stated \
+         for {lo}-{hi}, the window reaches {year}; the Sun's and the Moon's noise and separations \
+         rest on positions outside that span"
+    ))
+}
+
 /// The Moon's term below which leaving it out needs no warning, K (our choice).
 const MOON_NOTICE_K: f64 = 0.1;
 
@@ -291,6 +312,20 @@ fn disk_noise<P: PowerPattern + Sync>(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A window inside 1950-2050 raises nothing; one reaching past either end names the year.
+    #[test]
+    fn position_years_warning_outside_1950_2050() {
+        let t = |y: i32| Utc.with_ymd_and_hms(y, 6, 1, 0, 0, 0).unwrap();
+        assert_eq!(position_years_warning(&t(1950), &t(2050)), None);
+        let late = position_years_warning(&t(2050), &t(2051)).unwrap();
+        assert!(
+            late.contains("1950-2050") && late.contains("reaches 2051"),
+            "{late}"
+        );
+        let early = position_years_warning(&t(1949), &t(1950)).unwrap();
+        assert!(early.contains("reaches 1949"), "{early}");
+    }
     use crate::geometry::sun::sun_az_el_deg;
     use chrono::TimeZone;
 

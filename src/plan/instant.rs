@@ -244,6 +244,7 @@ pub fn instant_budget(
     warnings.extend(eccentric_orbit_line(&model, &elements, &prop, &look, time));
     if let Some(t) = time {
         warnings.extend(element_age_warning(&elements, t, t));
+        warnings.extend(super::bodies::position_years_warning(&t, &t));
     }
     let mut defaults = mission.defaults.clone();
     defaults.extend(st.defaults.iter().cloned());

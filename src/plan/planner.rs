@@ -505,6 +505,10 @@ impl Planner {
             self.window.start(),
             self.window.end(),
         ));
+        out.extend(super::bodies::position_years_warning(
+            &self.window.start(),
+            &self.window.end(),
+        ));
         out
     }
 

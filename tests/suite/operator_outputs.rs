@@ -1159,3 +1159,38 @@ fn timeline_legend_names_only_what_is_drawn() {
     assert!(first.contains("pass left unbooked") && !first.contains("antenna blocked"));
     assert!(read(fleet.join("timeline-20261203.svg")).contains("antenna blocked"));
 }
+
+/// A window past 2050 (elements of that epoch) is planned, with a warning that the Sun's and the
+/// Moon's positions come from formulae stated for 1950-2050 (the Astronomical Almanac's low
+/// precision Sun, Meeus ch. 47 for the Moon: the span from memory); inside it, no such warning.
+#[test]
+fn sun_and_moon_positions_past_2050_are_flagged() {
+    let dir = tempfile::tempdir().unwrap();
+    let mission = uhf_mission(dir.path());
+    let omm = std::fs::read_to_string(root().join("examples/sat-omm.json")).unwrap();
+    let late = omm.replace("2026-12-01T12:00:00.000000", "2051-06-01T12:00:00.000000");
+    assert_ne!(late, omm);
+    write(dir.path(), "late.json", &late);
+    let m = std::fs::read_to_string(&mission).unwrap();
+    let m = m.replace("elements: sat.tle", "elements: late.json");
+    let m = m.replace("2026-12-01T12:00:00Z", "2051-06-01T12:00:00Z");
+    let late_mission = write(dir.path(), "late.yaml", &m);
+    let flag = "Sun and Moon positions (Astronomical Almanac low-precision formulae; Meeus ch. 47): stated for 1950-2050, the window reaches 2051";
+    let o = run(&["plan", &late_mission]);
+    success(&o);
+    assert!(String::from_utf8_lossy(&o.stderr).contains(&format!("warning: {flag}")));
+    let budget = run(&[
+        "budget",
+        &late_mission,
+        "--station",
+        "Campo Alto UHF",
+        "--at",
+        "2051-06-01T21:45:00Z",
+        "--format",
+        "json",
+    ]);
+    let warnings = json(&budget)["warnings"].to_string();
+    assert!(warnings.contains(flag), "{warnings}");
+    let now = run(&["plan", &mission]);
+    assert!(!String::from_utf8_lossy(&now.stderr).contains("Sun and Moon positions"));
+}
