@@ -58,6 +58,15 @@ pub enum FolderError {
     BadJournal { path: PathBuf, reason: String },
     #[error("the commit was stopped by its hook (test of an interruption)")]
     Stopped,
+    /// The folder is the file system's root (`--out /`, or `--out "$DIR/"` with `DIR` unset):
+    /// results go in a folder of their own.
+    #[error("{} is the root of the file system: give a folder of its own for the results", path.display())]
+    Root { path: PathBuf },
+}
+
+/// Whether `dir` is the file system's root (`/`, `/tmp/..`): it has no parent to stage beside.
+fn is_file_system_root(dir: &Path) -> bool {
+    std::fs::canonicalize(dir).is_ok_and(|p| p.parent().is_none())
 }
 
 fn io_at(path: &Path) -> impl Fn(std::io::Error) -> FolderError + '_ {
@@ -159,6 +168,11 @@ impl Staging {
     /// ([`recover`]), and create a staging folder: a sibling to swap in where the folders can be
     /// exchanged, else a folder inside it.
     pub fn new(final_dir: &Path) -> Result<Staging, FolderError> {
+        if is_file_system_root(final_dir) {
+            return Err(FolderError::Root {
+                path: final_dir.to_path_buf(),
+            });
+        }
         let created = !final_dir.exists();
         std::fs::create_dir_all(final_dir).map_err(io_at(final_dir))?;
         let st = Self::open(final_dir);

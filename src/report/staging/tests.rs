@@ -494,3 +494,19 @@ fn leftovers_beside_the_folder_are_removed_without_touching_it() {
     assert!(!swap::is_temporary("notes.tmp-12-3"));
     assert!(!swap::is_temporary(".notes.tmp-12"));
 }
+
+/// The root of the file system is refused before anything is created or written there (the
+/// predicate is checked first, so this test never writes into the root even if the refusal
+/// broke); any other folder is not the root.
+#[test]
+fn the_file_system_root_is_refused() {
+    let tmp = tempfile::tempdir().unwrap();
+    assert!(!is_file_system_root(tmp.path()));
+    for root in ["/", "/tmp/.."] {
+        assert!(is_file_system_root(Path::new(root)), "{root}");
+        assert!(matches!(
+            Staging::new(Path::new(root)),
+            Err(FolderError::Root { .. })
+        ));
+    }
+}
