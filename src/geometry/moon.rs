@@ -35,15 +35,9 @@ use crate::orbit::frames::{
 };
 use chrono::{DateTime, Utc};
 
-/// Years over which the model is offered (the tests cover 1990-2045).
+/// Years over which the model is offered (the tests cover 1990-2045); outside, the model still
+/// answers and a plan warns (`plan::bodies::position_years_warning`).
 pub const VALID_YEARS: (i32, i32) = (1950, 2050);
-
-/// Whether `t` lies in [`VALID_YEARS`] (for the caller's warning; outside, the model still
-/// answers).
-pub fn is_within_valid_years(t: &DateTime<Utc>) -> bool {
-    use chrono::Datelike;
-    (VALID_YEARS.0..=VALID_YEARS.1).contains(&t.year())
-}
 
 /// TT − UT1 taken by the model, s (TT − UTC since 2017-01-01).
 pub const TT_MINUS_UT_S: f64 = 69.184;
@@ -328,13 +322,5 @@ mod tests {
         let t22 = (2_446_895.5 - 2_451_545.0) / 36_525.0;
         let eps = 23.0 + 26.0 / 60.0 + 27.407 / 3600.0;
         assert!((mean_obliquity_deg(t22) - eps).abs() < 1e-6);
-    }
-
-    #[test]
-    fn valid_years() {
-        let inside = crate::timefmt::parse_utc("2050-12-31T23:00:00Z").unwrap();
-        let outside = crate::timefmt::parse_utc("2051-01-01T00:00:00Z").unwrap();
-        assert!(is_within_valid_years(&inside));
-        assert!(!is_within_valid_years(&outside));
     }
 }

@@ -73,7 +73,8 @@
 //! 83 propagations per LEO satellite-day averaged over stations at 0, 45 and 61° latitude and
 //! masks of 0, 5 and 10° (four LEO orbits, 7 days; 98 before the predicted skip's grid, about
 //! 120 before the curvature bound, 170 before this method), from about 43 at the equator with a
-//! 10° mask to about 145 at 61° with a 0° mask. Completeness is checked there against a brute-force 1 s scan. A propagation error
+//! 10° mask to about 145 at 61° with a 0° mask. Completeness is checked there against a
+//! brute-force 1 s scan. A propagation error
 //! stops the search; passes found before are kept.
 
 use chrono::{DateTime, Utc};

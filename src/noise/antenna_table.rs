@@ -26,11 +26,11 @@
 //! (513 nodes, dense at the horizon where the brightness changes fastest).
 //!
 //! The table over boresight elevation ([`TABLE_RANGE_DEG`], -10 to 90 deg; the end rows are held
-//! beyond) starts at [`START_STEP_DEG`] spacing and halves each interval whose quarter points differ from the
-//! linear interpolation of their neighbours by more than [`REFINE_TOLERANCE_K`] in either term; the
-//! rows are then kept at the quarter points too, so linear interpolation between rows stays well
-//! within that (the suite checks < 0.1 K against the direct integral at random elevations, near
-//! the horizon where the main beam meets the ground and elsewhere).
+//! beyond) starts at [`START_STEP_DEG`] spacing and halves each interval whose quarter points
+//! differ from the linear interpolation of their neighbours by more than [`REFINE_TOLERANCE_K`]
+//! in either term; the rows are then kept at the quarter points too, so linear interpolation
+//! between rows stays well within that (the suite checks < 0.1 K against the direct integral at
+//! random elevations, near the horizon where the main beam meets the ground and elsewhere).
 
 use super::pattern::{NoisePattern, GL4, GL8};
 use crate::geometry::bounded_trig as trig;

@@ -325,6 +325,12 @@ mod tests {
         );
         let early = position_years_warning(&t(1949), &t(1950)).unwrap();
         assert!(early.contains("reaches 1949"), "{early}");
+        // The edges are whole years: the last hour of 2050 is inside, 2051 begins outside.
+        let edge = |s: &str| crate::timefmt::parse_utc(s).unwrap();
+        let last = edge("2050-12-31T23:00:00Z");
+        assert_eq!(position_years_warning(&last, &last), None);
+        let first = edge("2051-01-01T00:00:00Z");
+        assert!(position_years_warning(&first, &first).is_some());
     }
     use crate::geometry::sun::sun_az_el_deg;
     use chrono::TimeZone;
