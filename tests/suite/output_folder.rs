@@ -400,30 +400,59 @@ fn a_sigkill_at_any_moment_leaves_the_old_or_the_new_set() {
     );
 }
 
-/// A process killed while it plans leaves its staging folder; the next run removes it, as it
-/// removes leftovers of other dead processes, and the previous results stay until then.
-#[test]
-fn leftovers_of_killed_runs_are_removed_by_the_next_run() {
-    let dir = tempfile::tempdir().unwrap();
-    let out = dir.path().join("out");
-    success(&plan_into(&out, &["--days", "0.3"]));
-    let before = contents(&out);
+/// One `plan --days DAYS --charts` into `out`, killed (SIGKILL) as soon as its staging folder,
+/// alone beside `out`, holds a CSV. True if the kill landed while the run was going; false if the
+/// run ended first (then `out` holds its results).
+fn kill_once_staging(out: &Path, days: &str) -> bool {
+    use std::os::unix::process::ExitStatusExt;
     let o = out.to_string_lossy().into_owned();
     let mut child = command()
         .current_dir(root())
-        .args(["plan", MISSION, "--days", "3", "--out", &o, "--charts"])
+        .args(["plan", MISSION, "--days", days, "--out", &o, "--charts"])
         .stdout(std::process::Stdio::null())
         .stderr(std::process::Stdio::null())
         .spawn()
         .unwrap();
     let t0 = std::time::Instant::now();
-    while !beside(&out).iter().any(|n| n.contains(".passbudget-swap-")) {
+    let staged_csv = || {
+        let b = beside(out);
+        b.len() == 1
+            && b[0].contains(".passbudget-swap-")
+            // (the folder may go between the two reads, at the commit)
+            && std::fs::read_dir(out.parent().unwrap().join(&b[0])).is_ok_and(|d| {
+                d.flatten()
+                    .any(|e| e.file_name().to_string_lossy().ends_with(".csv"))
+            })
+    };
+    while !staged_csv() {
+        if child.try_wait().unwrap().is_some() {
+            return false;
+        }
         assert!(t0.elapsed().as_secs() < 60, "no staging folder appeared");
-        std::thread::sleep(std::time::Duration::from_millis(20));
+        std::thread::sleep(std::time::Duration::from_millis(5));
     }
-    std::thread::sleep(std::time::Duration::from_millis(300));
-    child.kill().unwrap(); // SIGKILL
-    child.wait().unwrap();
+    let _ = child.kill();
+    // Killed by the signal, not ended on its own just before it.
+    child.wait().unwrap().signal() == Some(9)
+}
+
+/// A process killed while it plans leaves its staging folder; the next run removes it, as it
+/// removes leftovers of other dead processes, and the previous results stay until then.
+#[test]
+fn leftovers_of_killed_runs_are_removed_by_the_next_run() {
+    let dir = tempfile::tempdir().unwrap();
+    // A run that ends before the kill lands (a fast machine) is tried again with a longer window
+    // in a new folder: the test needs a run killed while it writes.
+    let (out, before) = ["3", "10", "30"]
+        .iter()
+        .enumerate()
+        .find_map(|(k, days)| {
+            let out = dir.path().join(format!("out{k}"));
+            success(&plan_into(&out, &["--days", "0.3"]));
+            let before = contents(&out);
+            kill_once_staging(&out, days).then_some((out, before))
+        })
+        .expect("every run ended before the kill");
     assert_eq!(beside(&out).len(), 1, "{:?}", beside(&out));
     // A leftover backup folder of an earlier version, of a process that has ended.
     let mut ended = std::process::Command::new("true").spawn().unwrap();
