@@ -129,6 +129,18 @@ pub fn fixed(x: f64, decimals: usize) -> String {
     s
 }
 
+/// An azimuth with `decimals` digits after the point, in [0, 360): [`fixed`] of the azimuth taken
+/// modulo 360, and `0` where that text would read 360 (359.7 deg to whole degrees is `0`, the
+/// same direction).
+pub fn azimuth(azimuth_deg: f64, decimals: usize) -> String {
+    // + 0.0: a negative zero is written as 0
+    let text = fixed(azimuth_deg.rem_euclid(360.0) + 0.0, decimals);
+    match text.starts_with("360") {
+        true => fixed(0.0, decimals),
+        false => text,
+    }
+}
+
 /// [`fixed`] appended to `s`.
 fn push_fixed(s: &mut String, x: f64, decimals: usize) {
     use std::fmt::Write;
@@ -171,6 +183,20 @@ fn push_fixed(s: &mut String, x: f64, decimals: usize) {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Azimuths as written are in [0, 360) at every precision (the convention of azimuth measured
+    /// clockwise from north; a behaviour check, common practice): 360 was printed before.
+    #[test]
+    fn azimuths_are_written_below_360() {
+        assert_eq!(azimuth(359.7, 0), "0");
+        assert_eq!(azimuth(359.4, 0), "359");
+        assert_eq!(azimuth(359.96, 1), "0.0");
+        assert_eq!(azimuth(359.94, 1), "359.9");
+        assert_eq!(azimuth(359.99996, 4), "0.0000");
+        assert_eq!(azimuth(-0.0, 2), "0.00");
+        assert_eq!(azimuth(-30.0, 0), "330");
+        assert_eq!(azimuth(720.25, 2), "0.25");
+    }
 
     /// The counts in English (a behaviour check; no published reference applies): `1 passes`,
     /// `1 antennas` and `3 station(s)` were printed before.

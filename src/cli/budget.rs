@@ -9,6 +9,7 @@ use anyhow::{anyhow, bail, Result};
 use passbudget::config::limits::{short_number, FREQUENCY_MHZ};
 use passbudget::config::station::Station;
 use passbudget::config::DefaultUsed;
+use passbudget::engfmt::azimuth;
 use passbudget::plan::instant::{
     atmosphere_at, instant_budget, AtmosphereAtError, AtmosphereRequest, InstantError,
     InstantGeometry, InstantRequest,
@@ -191,18 +192,22 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
 fn print_budget(doc: &BudgetDoc, out: &mut dyn Write) -> Result<()> {
     let head = match &doc.time {
         Some(t) => format!(
-            "{} to {} at {} ({}), elevation {:.2} deg, azimuth {:.1} deg",
+            "{} to {} at {} ({}), elevation {:.2} deg, azimuth {} deg",
             doc.satellite,
             doc.station,
             t,
             doc.weather,
             doc.elevation_deg,
-            doc.azimuth_deg.unwrap_or(0.0)
+            azimuth(doc.azimuth_deg.unwrap_or(0.0), 1)
         ),
         None => match doc.azimuth_deg {
             Some(az) => format!(
-                "{} to {} at elevation {:.2} deg, azimuth {:.1} deg ({})",
-                doc.satellite, doc.station, doc.elevation_deg, az, doc.weather
+                "{} to {} at elevation {:.2} deg, azimuth {} deg ({})",
+                doc.satellite,
+                doc.station,
+                doc.elevation_deg,
+                azimuth(az, 1),
+                doc.weather
             ),
             None => format!(
                 "{} to {} at elevation {:.2} deg ({})",

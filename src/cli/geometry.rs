@@ -327,8 +327,8 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
                     passbudget::report::mm_ss((p.los.timestamp() - p.aos.timestamp()) as f64),
                     // from the row's value, as `plan`'s table does (one figure for one pass)
                     engfmt::fixed(passbudget::report::round(row.max_elevation_deg, 1), 1),
-                    whole_azimuth(p.aos_azimuth_deg),
-                    whole_azimuth(p.los_azimuth_deg),
+                    engfmt::azimuth(p.aos_azimuth_deg, 0),
+                    engfmt::azimuth(p.los_azimuth_deg, 0),
                     format!("{:.0}", p.min_range_km),
                     flags.to_string(),
                 ]);
@@ -477,7 +477,7 @@ fn print_track(rows: &[TrackRow], out: &mut dyn Write) -> Result<()> {
     for r in rows {
         t.row(vec![
             r.time.clone(),
-            format!("{:.2}", r.azimuth_deg),
+            engfmt::azimuth(r.azimuth_deg, 2),
             format!("{:.2}", r.elevation_deg),
             format!("{:.1}", r.range_km),
             format!("{:.4}", r.range_rate_km_s),
@@ -490,9 +490,4 @@ fn print_track(rows: &[TrackRow], out: &mut dyn Write) -> Result<()> {
     write!(out, "{}", t.render())?;
     writeln!(out, "{}", passbudget::report::plan::CAUTION)?;
     Ok(())
-}
-
-/// Azimuth rounded to whole degrees for tables, 0..359 (359.7 shows as 0, not 360).
-pub fn whole_azimuth(azimuth_deg: f64) -> String {
-    format!("{}", (azimuth_deg.round() as i64).rem_euclid(360))
 }

@@ -130,7 +130,7 @@ fn print_table(
                 r.start.clone(),
                 r.end[11..].to_string(),
                 r.closest[11..].to_string(),
-                format!("{:.1}", r.closest_azimuth_deg),
+                passbudget::engfmt::azimuth(r.closest_azimuth_deg, 1),
                 format!("{:.1}", r.closest_elevation_deg),
                 format!("{:.2}", r.min_separation_deg),
                 format!("{:.1}", r.max_sun_noise_k),

@@ -610,14 +610,16 @@ fn terrain_azimuth(
     };
     if let (InstantGeometry::Elevation(_), Some(az)) = (geometry, azimuth_deg) {
         look.azimuth_deg = az;
+        let az = crate::engfmt::azimuth(az, 1);
         lines.push(match blocked {
-            None => format!("no azimuth given: the terrain's noise is taken at azimuth {az:.1} deg, where it is highest at this elevation among the azimuths whose terrain is not above it"),
-            Some(_) => format!("no azimuth given: the terrain is above this elevation at every azimuth; its noise is taken at azimuth {az:.1} deg, where the terrain is lowest"),
+            None => format!("no azimuth given: the terrain's noise is taken at azimuth {az} deg, where it is highest at this elevation among the azimuths whose terrain is not above it"),
+            Some(_) => format!("no azimuth given: the terrain is above this elevation at every azimuth; its noise is taken at azimuth {az} deg, where the terrain is lowest"),
         });
     }
     if let Some((az, h)) = blocked {
+        let az = crate::engfmt::azimuth(az, 1);
         lines.insert(0, format!(
-            "the line of sight (elevation {:.2} deg, azimuth {az:.1} deg) is below the terrain of horizon_mask there ({h:.1} deg): the path is blocked, and these figures are not a link",
+            "the line of sight (elevation {:.2} deg, azimuth {az} deg) is below the terrain of horizon_mask there ({h:.1} deg): the path is blocked, and these figures are not a link",
             look.elevation_deg
         ));
     }

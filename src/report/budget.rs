@@ -101,7 +101,7 @@ impl BudgetDoc {
             },
             frequency_hz: b.station.link.frequency_hz(),
             elevation_deg: r4(look.elevation_deg),
-            azimuth_deg: b.azimuth_deg.map(r4),
+            azimuth_deg: b.azimuth_deg.map(|a| super::round_azimuth(a, 4)),
             range_km: r4(look.range_km),
             off_nadir_deg: r4(look.off_nadir_deg),
             eirp_dbw: r4(v.eirp_dbw),

@@ -46,9 +46,9 @@ impl PassRow {
             los: format_ms(&p.los),
             duration_s: round(p.duration_s(), 3),
             max_elevation_deg: round(p.max_elevation_deg, 3),
-            aos_azimuth_deg: round(p.aos_azimuth_deg, 3),
-            tca_azimuth_deg: round(p.tca_azimuth_deg, 3),
-            los_azimuth_deg: round(p.los_azimuth_deg, 3),
+            aos_azimuth_deg: super::round_azimuth(p.aos_azimuth_deg, 3),
+            tca_azimuth_deg: super::round_azimuth(p.tca_azimuth_deg, 3),
+            los_azimuth_deg: super::round_azimuth(p.los_azimuth_deg, 3),
             min_range_km: round(p.min_range_km, 3),
             starts_before_window: p.starts_before_window,
             ends_after_window: p.ends_after_window,
@@ -131,7 +131,7 @@ impl TrackRow {
     ) -> Self {
         TrackRow {
             time: format_ms(t),
-            azimuth_deg: round(look.azimuth_deg, 4),
+            azimuth_deg: super::round_azimuth(look.azimuth_deg, 4),
             elevation_deg: round(look.elevation_deg, 4),
             range_km: round(look.range_km, 4),
             range_rate_km_s: round(look.range_rate_km_s, 6),

@@ -190,6 +190,13 @@ pub fn round(x: f64, digits: i32) -> f64 {
     (x * s).round() / s + 0.0
 }
 
+/// [`round`] for an azimuth in [0, 360): a value that rounds up to 360 is written as 0, the same
+/// direction, so that no output holds an azimuth of 360 ([`crate::engfmt::azimuth`] is the rule
+/// for text).
+pub fn round_azimuth(azimuth_deg: f64, digits: i32) -> f64 {
+    crate::geometry::wrap360_deg(round(azimuth_deg, digits))
+}
+
 /// Minutes:seconds for durations in tables, hours:minutes:seconds from an hour (a satellite
 /// that never sets: `48:00:00`, not `2880:00`).
 pub fn mm_ss(seconds: f64) -> String {
@@ -209,6 +216,18 @@ pub fn hh_mm_ss(seconds: f64) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The rounded azimuths of the JSON and CSV outputs are in [0, 360) (azimuth clockwise from
+    /// north, common practice): 360.0 was written before.
+    #[test]
+    fn rounded_azimuths_are_below_360() {
+        assert_eq!(round_azimuth(359.99996, 4), 0.0);
+        assert_eq!(round_azimuth(359.99994, 4), 359.9999);
+        assert_eq!(round_azimuth(359.9996, 3), 0.0);
+        assert_eq!(round_azimuth(-0.00001, 4), 0.0);
+        assert!(round_azimuth(-0.00001, 4).is_sign_positive());
+        assert_eq!(round_azimuth(12.34567, 3), 12.346);
+    }
 
     #[test]
     fn atomic_write_replaces_whole_file() {

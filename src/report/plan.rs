@@ -107,8 +107,12 @@ impl PlanPassRow {
             closes_until: c.closing.map(|x| format_ms(&x.until.time)),
             closes_from_elevation_deg: c.closing.map(|x| r3(x.from.elevation_deg)),
             closes_until_elevation_deg: c.closing.map(|x| r3(x.until.elevation_deg)),
-            closes_from_azimuth_deg: c.closing.map(|x| r3(x.from.azimuth_deg)),
-            closes_until_azimuth_deg: c.closing.map(|x| r3(x.until.azimuth_deg)),
+            closes_from_azimuth_deg: c
+                .closing
+                .map(|x| super::round_azimuth(x.from.azimuth_deg, 3)),
+            closes_until_azimuth_deg: c
+                .closing
+                .map(|x| super::round_azimuth(x.until.azimuth_deg, 3)),
             min_margin_db: c.min_margin_db.map(r3),
             tca_margin_db: c.tca_margin_db.map(r3),
             max_ebn0_db: r3(c.max_ebn0_db),
@@ -439,7 +443,7 @@ pub fn step_rows(series: &PassSeries, rates: &RateSet) -> Vec<StepRow> {
             StepRow {
                 time: format_ms(&add_seconds(&p.pass.aos, s.t_s)),
                 t_s: round(s.t_s, 3),
-                azimuth_deg: round(s.azimuth_deg, 4),
+                azimuth_deg: super::round_azimuth(s.azimuth_deg, 4),
                 elevation_deg: round(s.elevation_deg, 4),
                 range_km: round(s.range_km, 4),
                 range_rate_km_s: round(s.range_rate_km_s, 6),

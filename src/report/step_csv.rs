@@ -304,7 +304,7 @@ fn push_step(buf: &mut Vec<u8>, aos: &DateTime<Utc>, s: &Step) {
     push_time(buf, aos, s.t_s);
     for (x, d) in [
         (s.t_s, 3),
-        (s.azimuth_deg, 4),
+        (super::round_azimuth(s.azimuth_deg, 4), 4),
         (s.elevation_deg, 4),
         (s.range_km, 4),
         (s.range_rate_km_s, 6),

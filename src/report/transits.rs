@@ -34,7 +34,7 @@ impl TransitRow {
             start: format_ms(&t.start),
             end: format_ms(&t.end),
             closest: format_ms(&t.closest),
-            closest_azimuth_deg: round(t.closest_azimuth_deg, 3),
+            closest_azimuth_deg: super::round_azimuth(t.closest_azimuth_deg, 3),
             closest_elevation_deg: round(t.closest_elevation_deg, 3),
             min_separation_deg: round(t.min_separation_deg, 3),
             max_sun_noise_k: round(t.max_sun_noise_k, 3),

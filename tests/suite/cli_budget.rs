@@ -630,6 +630,16 @@ fn budget_azimuth_and_the_worst_azimuth_note_at_sierra_baja() {
     let (north, _) = at(&["--azimuth-deg", "-30"]);
     assert_eq!(north["azimuth_deg"].as_f64().unwrap(), 330.0);
     assert!(north["ground_noise_k"].as_f64().unwrap() < worst["ground_noise_k"].as_f64().unwrap());
+    // An azimuth that rounds up to 360 is written as 0, the same direction (the convention is
+    // [0, 360) deg): in the JSON and in the table's heading.
+    let (just_below, _) = at(&["--azimuth-deg", "359.99996"]);
+    assert_eq!(just_below["azimuth_deg"].as_f64().unwrap(), 0.0);
+    let args = ["--azimuth-deg", "359.99996"];
+    let table = crate::common::bin::success(&budget(EXAMPLE, "Sierra Baja", "20", &args));
+    assert!(
+        table.lines().next().unwrap().contains("azimuth 0.0 deg"),
+        "{table}"
+    );
 }
 
 /// The items (the table's and the CSV's lines, the JSON's `items`) carry the fields' own values,
