@@ -1,6 +1,6 @@
 //! `passbudget budget` (the itemized budget at one instant) and `passbudget atmosphere`.
 
-use crate::cli::common::{warn, Format};
+use crate::cli::common::{note, warn, Format};
 use crate::cli::table::{Align, Table};
 use crate::cli::window::{
     named_the_one_satellite, one_satellite, stations_and_mission, MissionArgs,
@@ -176,7 +176,8 @@ pub fn budget(a: BudgetArgs, out: &mut dyn Write) -> Result<()> {
     })?;
     named_the_one_satellite(a.satellite.as_deref(), &mission, &b.elements)?;
     let doc = BudgetDoc::new(&b);
-    warn(&doc.warnings);
+    warn(&b.warnings);
+    note(&b.notes);
     match a.format {
         Format::Json => writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?,
         Format::Csv => write!(

@@ -136,6 +136,9 @@ pub struct InstantBudget {
     /// The link's items with the atmosphere's components right after the free-space loss.
     pub items: Vec<BudgetItem>,
     pub warnings: Vec<String>,
+    /// What was chosen for the budget, not a problem: the element set taken from a history, the
+    /// OMM fields read past ([`element_notes`], a plan's [`super::NoteKind::ElementSet`]).
+    pub notes: Vec<String>,
     pub defaults: Vec<DefaultUsed>,
     /// The pfd at the station against the band's Article 21 limit (`None`: no row for the band).
     pub pfd: Option<crate::link::pfd::PfdAt>,
@@ -237,7 +240,6 @@ pub fn instant_budget(
     let pfd = pfd_at(&model, &look, &values, spectrum);
     items.extend(pfd.iter().flat_map(|p| pfd_items(p, spectrum)));
     warnings.extend(pfd_warning(&model, pfd.as_ref()));
-    warnings.extend(element_notes(&elements, &selection));
     warnings.extend(terrain_lines);
     warnings.extend(line.and_then(|l| mount_cannot_keep_up(&model, &l)));
     warnings.extend(below_min_elevation(mission, &model, &look));
@@ -246,6 +248,7 @@ pub fn instant_budget(
         warnings.extend(element_age_warning(&elements, t, t));
         warnings.extend(super::bodies::position_years_warning(&t, &t));
     }
+    let notes = element_notes(&elements, &selection);
     let mut defaults = mission.defaults.clone();
     defaults.extend(st.defaults.iter().cloned());
     Ok(InstantBudget {
@@ -261,6 +264,7 @@ pub fn instant_budget(
         rate,
         items,
         warnings,
+        notes,
         defaults,
         pfd,
     })

@@ -73,6 +73,8 @@ pub struct BudgetDoc {
     /// was read in).
     pub pfd_limit_status: Option<&'static str>,
     pub items: Vec<ItemRow>,
+    /// The budget's warnings, then its notes (as a plan keeps its notes among
+    /// `assumptions.warnings`).
     pub warnings: Vec<String>,
     pub defaults: Vec<DefaultUsed>,
 }
@@ -158,7 +160,7 @@ impl BudgetDoc {
                     source: i.source.to_string(),
                 })
                 .collect(),
-            warnings: b.warnings.clone(),
+            warnings: b.warnings.iter().chain(&b.notes).cloned().collect(),
             defaults: b.defaults.clone(),
         }
     }

@@ -438,6 +438,24 @@ fn a_history_file_gives_the_set_for_the_window() {
             .starts_with("element set chosen: epoch 2026-12-06T12:00:00.000Z, 1 of 3 sets")),
         "{w:?}"
     );
+    // budget: the same choice as a note on stderr (it was a warning: line), kept in the
+    // JSON's warnings as the plan keeps it.
+    let at = ["--station", "nordkam", "--elevation-deg", "30"];
+    let o = run(&[&["budget", &path, "--format", "json"][..], &at[..]].concat());
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        err.contains("note: element set chosen: epoch 2026-12-06T12:00:00.000Z, 1 of 3 sets"),
+        "{err}"
+    );
+    assert!(!err.contains("warning: element set chosen"), "{err}");
+    let w = json(&o)["warnings"].as_array().unwrap().clone();
+    assert!(
+        w.iter().any(|x| x
+            .as_str()
+            .unwrap()
+            .starts_with("element set chosen: epoch 2026-12-06")),
+        "{w:?}"
+    );
     let mission = Mission::load(Path::new(&path)).unwrap();
     let planner = Planner::new(&mission, &PlanRequest::default()).unwrap();
     assert_eq!(planner.selection().candidates, 3);
