@@ -315,9 +315,12 @@ pub(super) fn whole(
 
 /// Whether `given` (from the command line) names the station `name`: the same words, with case
 /// and every run of characters other than letters and digits ignored (`Pulau Reka`,
-/// `pulau-reka` and `PULAU_REKA` all name the station `Pulau Reka`).
+/// `pulau-reka` and `PULAU_REKA` all name the station `Pulau Reka`), both in Unicode normal form
+/// C (a precomposed `é` and `e` with a combining accent are one letter).
 pub fn same_station(given: &str, name: &str) -> bool {
+    use unicode_normalization::UnicodeNormalization;
     let words = |s: &str| {
+        let s: String = s.nfc().collect();
         s.split(|c: char| !c.is_alphanumeric())
             .filter(|w| !w.is_empty())
             .map(str::to_lowercase)

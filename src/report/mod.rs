@@ -108,8 +108,12 @@ pub const MAX_SLUG_BYTES: usize = 64;
 /// than [`MAX_SLUG_BYTES`] keeps its beginning (whole characters) and ends in `-` and 8 hex digits
 /// of a hash of the whole name (64-bit FNV-1a, folded), so that two long names that differ only
 /// further on still give different slugs (and [`check_file_names`] catches the rare equal hash).
+/// The name is first put in Unicode normal form C, so that `Pérez` typed with a precomposed `é`
+/// and one saved with `e` and a combining accent give one slug.
 pub fn slug(name: &str) -> String {
-    let s = slug_uncut(name);
+    use unicode_normalization::UnicodeNormalization;
+    let name: String = name.nfc().collect();
+    let s = slug_uncut(&name);
     if s.len() <= MAX_SLUG_BYTES {
         return s;
     }
@@ -271,6 +275,8 @@ mod tests {
         assert_eq!(slug("Москва-2"), "москва-2");
         assert_ne!(slug("東京局"), slug("大阪局"));
         assert_eq!(slug("***"), "unnamed");
+        // canonically equivalent (UAX #15 §1.1): one slug
+        assert_eq!(slug("Pe\u{301}rez"), "p\u{e9}rez");
     }
 
     /// A very long station name gives a slug of at most MAX_SLUG_BYTES bytes that keeps its

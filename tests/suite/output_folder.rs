@@ -111,6 +111,31 @@ fn stations_with_the_same_file_names_are_refused_before_any_work() {
     }
 }
 
+/// A name with a precomposed letter (U+00E9) and the same name saved decomposed (`e` and the
+/// combining acute U+0301) are one name, canonically equivalent by the Unicode Standard (UAX #15,
+/// "Unicode Normalization Forms", section 1.1): two such stations are refused as one name,
+/// `--station` typed either way finds the station, and its files are named alike. Before, the
+/// accent became a `-` (`pe-rez`), and the two were two stations.
+#[test]
+fn a_name_precomposed_or_decomposed_is_one_name() {
+    let dir = tempfile::tempdir().unwrap();
+    let (composed, decomposed) = ("P\u{e9}rez Alta", "Pe\u{301}rez Alta");
+    let two = mission_with_stations(dir.path(), &[composed, decomposed]);
+    clean_error(
+        &run(&["plan", &two, "--days", "0.3"]),
+        &["two stations are named"],
+    );
+    let one = mission_with_stations(dir.path(), &[decomposed]);
+    let at = ["--elevation-deg", "30", "--format", "json"];
+    let b = run(&[&["budget", &one, "--station", composed][..], &at[..]].concat());
+    assert_eq!(crate::common::bin::json(&b)["station"], decomposed);
+    let out = dir.path().join("out");
+    let o = out.to_string_lossy().into_owned();
+    let args = ["plan", &one, "--days", "0.3", "--out", &o, "--charts"];
+    success(&run(&args));
+    assert!(names(&out).contains(&"mask-p\u{e9}rez-alta.png".to_string()));
+}
+
 /// Station names in non-Latin scripts keep their letters in the file names (before: all became
 /// `unnamed`, and one station's sky and mask charts replaced the other's).
 #[test]
