@@ -7,6 +7,10 @@
 //! rates; [`report`] and [`chart`] present the result. Each stage knows
 //! nothing of the stages after it.
 
+// No unsafe code of our own: memory safety rests on the compiler (and the fuzz targets need no
+// address sanitizer, DEVELOPERS.md "Fuzzing").
+#![forbid(unsafe_code)]
+
 pub mod atmosphere;
 #[cfg(feature = "charts")]
 pub mod chart;
