@@ -52,6 +52,15 @@ pub fn check_name(name: &str) -> Result<(), String> {
     }
 }
 
+/// A name in Unicode normal form C, the one form every comparison of names and every file name
+/// made from one uses: a letter with an accent typed precomposed (`é`, U+00E9) and one saved as the
+/// letter and a combining accent (`e` U+0301), canonically equivalent by the Unicode Standard
+/// (UAX #15 §1.1), give one text.
+pub fn normal_form(name: &str) -> String {
+    use unicode_normalization::UnicodeNormalization;
+    name.nfc().collect()
+}
+
 /// A name read from a YAML file: [`check_name`], and not one of YAML's spellings of no value
 /// (`~`, `null`), which a text field receives as those characters (`name: ~` named a station
 /// "~" in every table and file name).

@@ -167,9 +167,11 @@ fn pass_number(planner: &Planner, given: &str) -> Result<usize> {
     }
     let passes = planner.passes()?;
     let name = |si: usize| &planner.stations()[si].station.name;
+    // an identifier is lower case but for its T and Z (its station part in normal form C)
+    let wanted = passbudget::infile::normal_form(given.trim()).to_lowercase();
     if let Some(k) = passes
         .iter()
-        .position(|(si, p)| pass_id(name(*si), p).eq_ignore_ascii_case(given.trim()))
+        .position(|(si, p)| pass_id(name(*si), p).to_lowercase() == wanted)
     {
         return Ok(k + 1);
     }

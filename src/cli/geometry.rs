@@ -9,7 +9,7 @@ use crate::cli::window::{
 use anyhow::{anyhow, bail, Result};
 use passbudget::config::limits::{FREQUENCY_MHZ, MIN_ELEVATION_DEG, TRACK_STEP_S};
 use passbudget::config::mission::Mission;
-use passbudget::config::station::Station;
+use passbudget::config::station::{same_station, Station};
 use passbudget::engfmt;
 use passbudget::geometry::sun::{separation_deg, sun_az_el_deg};
 use passbudget::geometry::{find_passes, track as track_iter, HorizonMask, Observer, Pass};
@@ -205,7 +205,10 @@ fn check_distinct_files(values: &[String]) -> Result<()> {
 /// twice) are refused.
 fn check_distinct_stations(values: &[String], stations: Vec<Station>) -> Result<Vec<Station>> {
     for (i, st) in stations.iter().enumerate() {
-        if let Some(b) = stations[..i].iter().find(|b| b.name == st.name) {
+        if let Some(b) = stations[..i]
+            .iter()
+            .find(|b| same_station(&b.name, &st.name))
+        {
             bail!(
                 "--station {}: two --station values name the station '{}' ({} and {}); give each station once",
                 values[i],

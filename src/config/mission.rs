@@ -491,7 +491,7 @@ fn stations(
             let msg = match b.name == s.name {
                 true => format!("two stations are named '{}'", s.name),
                 false => format!(
-                    "two stations are named '{}' and '{}', one name once case and punctuation are set aside (as --station NAME reads them)",
+                    "two stations are named '{}' and '{}', one name once case, punctuation and the Unicode form (a precomposed accent or a combining one) are set aside (as --station NAME reads them)",
                     b.name, s.name
                 ),
             };
@@ -533,7 +533,7 @@ fn satellites(
                     let msg = match other == name {
                         true => format!("two satellites are named '{name}'"),
                         false => format!(
-                            "two satellites are named '{other}' and '{name}', one name once case and punctuation are set aside (as --satellite NAME reads them)"
+                            "two satellites are named '{other}' and '{name}', one name once case, punctuation and the Unicode form (a precomposed accent or a combining one) are set aside (as --satellite NAME reads them)"
                         ),
                     };
                     return Err(c.item_err(KEY, i, msg));

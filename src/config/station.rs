@@ -318,9 +318,8 @@ pub(super) fn whole(
 /// `pulau-reka` and `PULAU_REKA` all name the station `Pulau Reka`), both in Unicode normal form
 /// C (a precomposed `é` and `e` with a combining accent are one letter).
 pub fn same_station(given: &str, name: &str) -> bool {
-    use unicode_normalization::UnicodeNormalization;
     let words = |s: &str| {
-        let s: String = s.nfc().collect();
+        let s = crate::infile::normal_form(s);
         s.split(|c: char| !c.is_alphanumeric())
             .filter(|w| !w.is_empty())
             .map(str::to_lowercase)

@@ -224,14 +224,11 @@ fn matching(sets: &[ElementSet], q: &str) -> Vec<usize> {
         hits.extend((0..sets.len()).filter(|&i| sets[i].norad_id == id));
     }
     if hits.is_empty() {
-        let ql = q.to_lowercase();
-        hits.extend((0..sets.len()).filter(|&i| {
-            sets[i]
-                .name
-                .as_deref()
-                .map(|n| n.trim().to_lowercase() == ql)
-                .unwrap_or(false)
-        }));
+        let key = |n: &str| crate::infile::normal_form(n.trim()).to_lowercase();
+        let ql = key(q);
+        hits.extend(
+            (0..sets.len()).filter(|&i| sets[i].name.as_deref().is_some_and(|n| key(n) == ql)),
+        );
     }
     hits
 }

@@ -45,7 +45,8 @@ pub enum InstantGeometry {
 /// What to budget.
 #[derive(Debug, Clone, PartialEq)]
 pub struct InstantRequest {
-    /// Station name, as in its station file (case-insensitive).
+    /// Station name, as in its station file, compared as `--station NAME` compares it
+    /// ([`crate::config::station::same_station`]: case, punctuation and Unicode form set aside).
     pub station: String,
     pub geometry: InstantGeometry,
     /// Data rate, bit/s (default: the ladder's first rate).
@@ -358,7 +359,7 @@ fn find_station<'m>(
     mission
         .stations
         .iter()
-        .find(|s| s.name.eq_ignore_ascii_case(name.trim()))
+        .find(|s| crate::config::station::same_station(name, &s.name))
         .ok_or_else(|| InstantError::NoStation {
             mission: mission.source.display().to_string(),
             name: name.to_string(),

@@ -111,8 +111,7 @@ pub const MAX_SLUG_BYTES: usize = 64;
 /// The name is first put in Unicode normal form C, so that `Pérez` typed with a precomposed `é`
 /// and one saved with `e` and a combining accent give one slug.
 pub fn slug(name: &str) -> String {
-    use unicode_normalization::UnicodeNormalization;
-    let name: String = name.nfc().collect();
+    let name = crate::infile::normal_form(name);
     let s = slug_uncut(&name);
     if s.len() <= MAX_SLUG_BYTES {
         return s;

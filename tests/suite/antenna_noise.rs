@@ -297,7 +297,8 @@ fn uhf_budget(frequency_mhz: f64) -> passbudget::plan::instant::InstantBudget {
     std::fs::write(&path, uhf_mission(frequency_mhz)).unwrap();
     let mission = passbudget::config::mission::Mission::load(&path).unwrap();
     let req = InstantRequest {
-        station: "Test Uhf".into(),
+        // named as `--station NAME` names it (case and punctuation set aside)
+        station: "test-UHF".into(),
         geometry: InstantGeometry::Elevation(30.0),
         rate_bps: None,
         scheme: None,

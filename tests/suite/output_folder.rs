@@ -123,8 +123,41 @@ fn a_name_precomposed_or_decomposed_is_one_name() {
     let two = mission_with_stations(dir.path(), &[composed, decomposed]);
     clean_error(
         &run(&["plan", &two, "--days", "0.3"]),
-        &["two stations are named"],
+        &["two stations are named", "Unicode form"],
     );
+    // The two station files given to `passes` name one station.
+    let tle = root()
+        .join("examples/sat.tle")
+        .to_string_lossy()
+        .into_owned();
+    let files = [0, 1].map(|k| dir.path().join(format!("st{k}.yaml")));
+    let files = files.map(|f| f.to_string_lossy().into_owned());
+    let two_files = ["--station", &files[0], "--station", &files[1]];
+    let start = ["--start", "2026-12-01T12:00:00Z", "--days", "0.3"];
+    clean_error(
+        &run(&[&["passes", "--tle", &tle][..], &two_files, &start].concat()),
+        &["two --station values name the station"],
+    );
+    // An element set's object name saved decomposed is found by `--sat` typed precomposed.
+    let text = std::fs::read_to_string(&tle).unwrap();
+    let first = text.lines().next().unwrap().to_string();
+    let renamed = write(
+        dir.path(),
+        "named.tle",
+        &text.replacen(&first, "PE\u{301}REZ-1", 1),
+    );
+    let by_name = [
+        "--sat",
+        "p\u{e9}rez-1",
+        "--station",
+        &files[0],
+        "--format",
+        "json",
+    ];
+    let p = run(&[&["passes", "--tle", &renamed][..], &by_name, &start].concat());
+    let p = crate::common::bin::json(&p);
+    let first_pass = &p["passes"][0];
+    assert_eq!(first_pass["satellite"], "PE\u{301}REZ-1");
     let one = mission_with_stations(dir.path(), &[decomposed]);
     let at = ["--elevation-deg", "30", "--format", "json"];
     let b = run(&[&["budget", &one, "--station", composed][..], &at[..]].concat());
@@ -134,6 +167,17 @@ fn a_name_precomposed_or_decomposed_is_one_name() {
     let args = ["plan", &one, "--days", "0.3", "--out", &o, "--charts"];
     success(&run(&args));
     assert!(names(&out).contains(&"mask-p\u{e9}rez-alta.png".to_string()));
+    // `chart --pass ID` takes the identifier in capitals, the accent decomposed.
+    let id = first_pass["pass_id"].as_str().unwrap();
+    assert!(id.starts_with("p\u{e9}rez-alta-"), "{id}");
+    let upper = id.replace('\u{e9}', "E\u{301}").to_uppercase();
+    let charts = dir.path().join("charts");
+    let c = charts.to_string_lossy().into_owned();
+    let pass = ["--pass", &upper, "--kind", "sky", "--out", &c];
+    success(&run(
+        &[&["chart", &one, "--days", "0.3"][..], &pass].concat()
+    ));
+    assert!(names(&charts).contains(&format!("sky-{id}.png")));
 }
 
 /// Station names in non-Latin scripts keep their letters in the file names (before: all became
@@ -425,19 +469,32 @@ fn a_sigkill_at_any_moment_leaves_the_old_or_the_new_set() {
     );
 }
 
+/// A child process killed (SIGKILL) when dropped: a failing assertion leaves no run behind.
+struct KillOnDrop(std::process::Child);
+
+impl Drop for KillOnDrop {
+    fn drop(&mut self) {
+        let _ = self.0.kill();
+        let _ = self.0.wait();
+    }
+}
+
 /// One `plan --days DAYS --charts` into `out`, killed (SIGKILL) as soon as its staging folder,
-/// alone beside `out`, holds a CSV. True if the kill landed while the run was going; false if the
-/// run ended first (then `out` holds its results).
+/// alone beside `out`, holds a CSV. True if the kill landed before the commit: the one folder
+/// beside `out` is then the run's own staging folder (its manifest names the run's process);
+/// false if the run got to its commit first (then `out` holds its results).
 fn kill_once_staging(out: &Path, days: &str) -> bool {
-    use std::os::unix::process::ExitStatusExt;
     let o = out.to_string_lossy().into_owned();
-    let mut child = command()
-        .current_dir(root())
-        .args(["plan", MISSION, "--days", days, "--out", &o, "--charts"])
-        .stdout(std::process::Stdio::null())
-        .stderr(std::process::Stdio::null())
-        .spawn()
-        .unwrap();
+    let mut child = KillOnDrop(
+        command()
+            .current_dir(root())
+            .args(["plan", MISSION, "--days", days, "--out", &o, "--charts"])
+            .stdout(std::process::Stdio::null())
+            .stderr(std::process::Stdio::null())
+            .spawn()
+            .unwrap(),
+    );
+    let pid = child.0.id();
     let t0 = std::time::Instant::now();
     let staged_csv = || {
         let b = beside(out);
@@ -450,15 +507,24 @@ fn kill_once_staging(out: &Path, days: &str) -> bool {
             })
     };
     while !staged_csv() {
-        if child.try_wait().unwrap().is_some() {
+        if let Some(status) = child.0.try_wait().unwrap() {
+            assert!(status.success(), "the run failed: {status}");
             return false;
         }
         assert!(t0.elapsed().as_secs() < 60, "no staging folder appeared");
         std::thread::sleep(std::time::Duration::from_millis(5));
     }
-    let _ = child.kill();
-    // Killed by the signal, not ended on its own just before it.
-    child.wait().unwrap().signal() == Some(9)
+    let _ = child.0.kill();
+    let status = child.0.wait().unwrap();
+    let own = beside(out).iter().any(|n| {
+        std::fs::read_to_string(out.parent().unwrap().join(n).join(MANIFEST))
+            .is_ok_and(|m| m.starts_with(&format!("#tree {pid}-")))
+    });
+    assert!(
+        own || status.success() || status.code().is_none(),
+        "the run failed: {status}"
+    );
+    own
 }
 
 /// A process killed while it plans leaves its staging folder; the next run removes it, as it
