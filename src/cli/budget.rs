@@ -299,6 +299,8 @@ pub struct AtmosphereDoc {
     pub sky_temperature_k: f64,
     pub warnings: Vec<String>,
     pub defaults: Vec<DefaultUsed>,
+    /// The outputs' one caution.
+    pub caution: &'static str,
 }
 
 /// `passbudget atmosphere`.
@@ -376,6 +378,7 @@ fn atmosphere_doc(a: &AtmosphereArgs) -> Result<AtmosphereDoc> {
         sky_temperature_k: round(at.sky_temperature_k, 3),
         warnings: at.warnings.clone(),
         defaults: at.defaults.clone(),
+        caution: passbudget::report::plan::CAUTION,
     })
 }
 

@@ -290,12 +290,13 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
             #[derive(Serialize)]
             struct Doc<'a> {
                 passes: &'a [PassRow],
+                caution: &'static str,
             }
-            writeln!(
-                out,
-                "{}",
-                serde_json::to_string_pretty(&Doc { passes: &rows })?
-            )?;
+            let doc = Doc {
+                passes: &rows,
+                caution: passbudget::report::plan::CAUTION,
+            };
+            writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
         Format::Csv => write!(out, "{}", passes_csv(&rows, &[]))?,
         Format::Table => {
@@ -423,12 +424,13 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             #[derive(Serialize)]
             struct Doc<'a> {
                 track: &'a [TrackRow],
+                caution: &'static str,
             }
-            writeln!(
-                out,
-                "{}",
-                serde_json::to_string_pretty(&Doc { track: &rows })?
-            )?;
+            let doc = Doc {
+                track: &rows,
+                caution: passbudget::report::plan::CAUTION,
+            };
+            writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
         Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
         Format::Table => {

@@ -77,6 +77,8 @@ pub struct BudgetDoc {
     /// `assumptions.warnings`).
     pub warnings: Vec<String>,
     pub defaults: Vec<DefaultUsed>,
+    /// The outputs' one caution ([`super::plan::CAUTION`]).
+    pub caution: &'static str,
 }
 
 /// One item of the budget.
@@ -162,6 +164,7 @@ impl BudgetDoc {
                 .collect(),
             warnings: b.warnings.iter().chain(&b.notes).cloned().collect(),
             defaults: b.defaults.clone(),
+            caution: super::plan::CAUTION,
         }
     }
 }

@@ -551,8 +551,10 @@ impl RateOptionRow {
     }
 }
 
-/// The caution every plan output carries.
-pub const CAUTION: &str = "Planning estimates only, not for safety-of-life decisions. Frequency use needs a licence and coordination by the national administration.";
+/// The caution every output carries (the README's "Cautions" in one paragraph): planning
+/// estimates, the licence, RF safety near transmitting antennas, and local codes and licensed
+/// practice first.
+pub const CAUTION: &str = "Planning estimates only, not for safety-of-life decisions. Frequency use needs a licence and coordination by the national administration. RF safety: keep people out of the beam and near field of transmitting antennas. Defer to local codes and licensed practice.";
 
 /// The `assumptions` block of the plan summary: how the numbers were made. Fields are in
 /// alphabetical order (the order the summary has always had).

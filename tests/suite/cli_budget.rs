@@ -802,9 +802,9 @@ fn budget_azimuth_beyond_a_turn_is_refused() {
     assert_eq!(json(&budget("-30"))["azimuth_deg"].as_f64(), Some(330.0));
 }
 
-/// `atmosphere --format csv` has the JSON's fields, in its order (but the warnings and the
-/// defaults, which are the CSV's `#` lines and not columns): it lacked the polarization tilt and
-/// the mean radiating temperature.
+/// `atmosphere --format csv` has the JSON's fields, in its order (but the warnings, the defaults
+/// and the caution, which are the CSV's `#` lines and not columns): it lacked the polarization
+/// tilt and the mean radiating temperature.
 #[test]
 fn atmosphere_csv_has_the_json_fields() {
     let args = [
@@ -822,7 +822,7 @@ fn atmosphere_csv_has_the_json_fields() {
     let want: Vec<&str> = (doc.lines())
         .filter_map(|l| l.strip_prefix("  \""))
         .filter_map(|l| l.split_once('"').map(|(k, _)| k))
-        .filter(|k| !matches!(*k, "warnings" | "defaults"))
+        .filter(|k| !matches!(*k, "warnings" | "defaults" | "caution"))
         .collect();
     let csv = crate::common::bin::success(&run(&[&args[..], &["csv"]].concat()));
     let header = csv.lines().find(|l| !l.starts_with('#')).unwrap();

@@ -420,10 +420,23 @@ fn the_robust_mask_holds_on_its_share_of_passes() {
     );
 }
 
-/// Every table output ends with the one caution line (planning estimates; licence and
-/// coordination), and every CSV starts with it.
+/// Every table output ends with the one caution line, every CSV starts with it, and every JSON
+/// holds it (`caution`; before, `budget`, `atmosphere`, `passes` and `track` had none). The line
+/// holds the four cautions the project's users asked every relevant output to carry: planning
+/// estimates only; a licence and coordination by the national administration; RF safety near
+/// transmitting antennas; local codes and licensed practice first.
 #[test]
 fn every_table_and_csv_carries_the_caution() {
+    let caution = passbudget::report::plan::CAUTION;
+    for part in [
+        "Planning estimates only",
+        "licence and coordination by the national administration",
+        "RF safety",
+        "transmitting antennas",
+        "Defer to local codes and licensed practice",
+    ] {
+        assert!(caution.contains(part), "{part}");
+    }
     let m = "examples/wrenlet-1.yaml";
     let runs: [&[&str]; 8] = [
         &["plan", m, "--days", "0.3"],
@@ -454,19 +467,24 @@ fn every_table_and_csv_carries_the_caution() {
     ];
     for args in runs {
         let text = success(&run(&[args, &["--quiet"]].concat()));
-        assert!(
-            text.trim_end()
-                .ends_with("coordination by the national administration."),
-            "{args:?}: {text}"
-        );
+        assert!(text.trim_end().ends_with(caution), "{args:?}: {text}");
         let mut csv_args = args.to_vec();
         csv_args.retain(|a| *a != "table" && *a != "--format");
         csv_args.extend(["--format", "csv", "--quiet"]);
         let text = success(&run(&csv_args));
         assert!(
-            text.starts_with("# Planning estimates only"),
+            text.starts_with(&format!("# {caution}\n")),
             "{csv_args:?}: {text}"
         );
+        // and every JSON (the plan's in its assumptions)
+        csv_args.truncate(csv_args.len() - 3);
+        csv_args.extend(["--format", "json", "--quiet"]);
+        let d: serde_json::Value = serde_json::from_str(&success(&run(&csv_args))).unwrap();
+        let field = match args[0] {
+            "plan" => &d["assumptions"]["caution"],
+            _ => &d["caution"],
+        };
+        assert_eq!(field, caution, "{csv_args:?}");
     }
 }
 
