@@ -4,7 +4,8 @@
 use std::io::Write;
 use std::sync::atomic::{AtomicBool, Ordering};
 
-/// `--quiet`: warnings and notes are not printed on stderr (they stay in the JSON and CSV outputs).
+/// `--quiet`: warnings and notes are not printed on stderr (they stay in the JSON and CSV outputs
+/// of `plan`, `budget` and `atmosphere`; README, "Exit codes").
 static QUIET: AtomicBool = AtomicBool::new(false);
 
 /// Set by `--quiet` before the command runs.

@@ -322,7 +322,13 @@ pub fn same_station(given: &str, name: &str) -> bool {
         let s = crate::infile::normal_form(s);
         s.split(|c: char| !c.is_alphanumeric())
             .filter(|w| !w.is_empty())
-            .map(str::to_lowercase)
+            // the letters of the lower case alone, as in file names (`report::slug`)
+            .map(|w| {
+                w.chars()
+                    .flat_map(char::to_lowercase)
+                    .filter(|c| c.is_alphanumeric())
+            })
+            .map(String::from_iter)
             .collect::<Vec<_>>()
     };
     let g = words(given);
@@ -692,6 +698,19 @@ mod tests {
         .unwrap_err();
         assert_eq!(e.line, Some(7));
         assert!(e.message.contains("unknown variant `rh`"), "{e}");
+    }
+
+    /// `--station NAME`'s rule: case, punctuation and Unicode form set aside (a behaviour check;
+    /// the forms by UAX #15 §1.1, the lower case of U+0130 by Unicode SpecialCasing.txt).
+    #[test]
+    fn station_names_match_by_their_words() {
+        assert!(same_station("pulau-reka", "Pulau Reka"));
+        assert!(same_station("PULAU_REKA", "Pulau Reka"));
+        assert!(!same_station("pulaureka", "Pulau Reka"));
+        assert!(same_station("p\u{e9}rez alta", "Pe\u{301}rez-Alta"));
+        assert!(same_station("izmir", "\u{130}zmir"));
+        assert!(same_station("IZMIR", "\u{130}zmir"));
+        assert!(!same_station("", "Nordkam"));
     }
 
     #[test]

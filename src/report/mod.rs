@@ -132,7 +132,8 @@ fn slug_uncut(name: &str) -> String {
     let mut dash = false;
     for c in name.chars() {
         if c.is_alphanumeric() {
-            out.extend(c.to_lowercase());
+            // the letters of the lower case alone (`İ` lower-cases to `i` and a combining dot)
+            out.extend(c.to_lowercase().filter(|l| l.is_alphanumeric()));
             dash = false;
         } else if !out.is_empty() && !dash {
             out.push('-');
@@ -276,6 +277,8 @@ mod tests {
         assert_eq!(slug("***"), "unnamed");
         // canonically equivalent (UAX #15 §1.1): one slug
         assert_eq!(slug("Pe\u{301}rez"), "p\u{e9}rez");
+        // U+0130 lower-cases to `i` and U+0307 (Unicode SpecialCasing.txt): the dot is dropped
+        assert_eq!(slug("\u{130}zmir"), "izmir");
     }
 
     /// A very long station name gives a slug of at most MAX_SLUG_BYTES bytes that keeps its
