@@ -4,8 +4,8 @@
 use std::io::Write;
 use std::sync::atomic::{AtomicBool, Ordering};
 
-/// `--quiet`: warnings and notes are not printed on stderr (they stay in the JSON and CSV outputs
-/// of `plan`, `budget` and `atmosphere`; README, "Exit codes").
+/// `--quiet`: warnings and notes are not printed on stderr (they stay in the JSON and CSV outputs;
+/// README, "Exit codes").
 static QUIET: AtomicBool = AtomicBool::new(false);
 
 /// Set by `--quiet` before the command runs.

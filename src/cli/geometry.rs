@@ -111,6 +111,29 @@ pub struct Resolved {
     pub stations: Vec<Station>,
     pub window: Window,
     pub mission: Option<Mission>,
+    /// The warnings and notes printed so far, kept for the JSON and CSV outputs (as `plan`
+    /// keeps them, so that `--quiet` loses none).
+    pub said: Said,
+}
+
+/// Warnings and notes printed on stderr and kept, in order, for the outputs.
+#[derive(Default)]
+pub struct Said(Vec<String>);
+
+impl Said {
+    fn warn(&mut self, lines: Vec<String>) {
+        warn(&lines);
+        self.0.extend(lines);
+    }
+
+    fn note(&mut self, lines: Vec<String>) {
+        note(&lines);
+        self.0.extend(lines);
+    }
+
+    pub fn lines(&self) -> &[String] {
+        &self.0
+    }
 }
 
 /// Load everything `passes`/`track` need; the window follows the library's one rule.
@@ -164,7 +187,8 @@ pub fn resolve(input: &InputArgs, station_args: &[String]) -> Result<Resolved> {
         input.allow_stale_elements,
     )
     .map_err(|s| anyhow!("{s}; --allow-stale-elements goes ahead anyway"))?;
-    note(&element_notes(&elements, &selection));
+    let mut said = Said::default();
+    said.note(element_notes(&elements, &selection));
     let stations = if !station_args.is_empty() {
         check_distinct_stations(station_args, chosen)?
     } else {
@@ -182,6 +206,7 @@ pub fn resolve(input: &InputArgs, station_args: &[String]) -> Result<Resolved> {
         stations,
         window,
         mission,
+        said,
     })
 }
 
@@ -237,17 +262,16 @@ pub fn station_geometry(
     Ok((obs, mask))
 }
 
-/// Print the element-age warning on stderr, if any.
-fn warn_element_age(r: &Resolved) {
-    if let Some(w) = element_age_warning(&r.elements, r.window.start(), r.window.end()) {
-        warn(&[w]);
-    }
+/// Print (and keep) the element-age warning, if any.
+fn warn_element_age(r: &mut Resolved) {
+    let w = element_age_warning(&r.elements, r.window.start(), r.window.end());
+    r.said.warn(w.into_iter().collect());
 }
 
-/// Passes of the satellite over every station, sorted by AOS; warnings and notes go to stderr.
-/// A propagation failure is reported once, at the first failing second of the window (the
-/// library's [`propagation_stop`]); no pass from then on is listed.
-pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize, Pass)>> {
+/// Passes of the satellite over every station, sorted by AOS; warnings and notes go to stderr
+/// and into `r.said`. A propagation failure is reported once, at the first failing second of the
+/// window (the library's [`propagation_stop`]); no pass from then on is listed.
+pub fn all_passes(r: &mut Resolved, mask_override: Option<f64>) -> Result<Vec<(usize, Pass)>> {
     let mut all = Vec::new();
     let mut stopped = Vec::new();
     let mut empty = Vec::new();
@@ -261,12 +285,14 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
         all.extend(found.passes.into_iter().map(|p| (i, p)));
     }
     if let Some(s) = propagation_stop(&r.propagator, r.window.start(), &stopped) {
-        warn(&[s.message(&r.elements.label(), "passes after it are not listed")]);
+        let line = s.message(&r.elements.label(), "passes after it are not listed");
+        r.said.warn(vec![line]);
         all.retain(|(_, p)| p.aos < s.time);
     }
     for (i, cut) in empty {
         let (label, name) = (r.elements.label(), &r.stations[i].name);
-        note(&[passbudget::plan::summary::no_pass_note(&label, name, cut)]);
+        let line = passbudget::plan::summary::no_pass_note(&label, name, cut);
+        r.said.note(vec![line]);
     }
     all.sort_by(|a, b| a.1.aos.cmp(&b.1.aos).then(a.0.cmp(&b.0)));
     Ok(all)
@@ -274,12 +300,12 @@ pub fn all_passes(r: &Resolved, mask_override: Option<f64>) -> Result<Vec<(usize
 
 /// `passbudget passes`.
 pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
-    let r = resolve(&a.input, &a.station)?;
+    let mut r = resolve(&a.input, &a.station)?;
     let mask = a
         .mask_deg
         .or_else(|| r.mission.as_ref().and_then(|m| m.mask_deg));
-    warn_element_age(&r);
-    let all = all_passes(&r, mask)?;
+    warn_element_age(&mut r);
+    let all = all_passes(&mut r, mask)?;
     let slugs: Vec<String> = r.stations.iter().map(|s| slug(&s.name)).collect();
     let rows: Vec<PassRow> = all
         .iter()
@@ -290,15 +316,17 @@ pub fn passes(a: PassesArgs, out: &mut dyn Write) -> Result<()> {
             #[derive(Serialize)]
             struct Doc<'a> {
                 passes: &'a [PassRow],
+                warnings: &'a [String],
                 caution: &'static str,
             }
             let doc = Doc {
                 passes: &rows,
+                warnings: r.said.lines(),
                 caution: passbudget::report::plan::CAUTION,
             };
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
-        Format::Csv => write!(out, "{}", passes_csv(&rows, &[]))?,
+        Format::Csv => write!(out, "{}", passes_csv(&rows, r.said.lines()))?,
         Format::Table => {
             let mut t = Table::new(&[
                 ("pass id", Align::Left),
@@ -364,7 +392,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             .map_err(|e| anyhow!("--frequency-mhz: {e}"))?;
     }
     let stations: Vec<String> = a.station.iter().cloned().collect();
-    let r = resolve(&a.input, &stations)?;
+    let mut r = resolve(&a.input, &stations)?;
     if r.stations.len() > 1 {
         bail!(
             "track follows one station: give --station FILE|NAME (the mission file lists {})",
@@ -383,7 +411,7 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             n
         );
     }
-    warn_element_age(&r);
+    warn_element_age(&mut r);
     let st = &r.stations[0];
     let (obs, mask) = station_geometry(st, None)?;
     let mut rows = Vec::new();
@@ -406,14 +434,15 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             Err(e) => {
                 // The same first failing second as `plan` and `passes`, not this step's time.
                 if let Some(s) = propagation_stop(&r.propagator, r.window.start(), &[Some(e)]) {
-                    warn(&[s.message(&r.elements.label(), "the track ends there")]);
+                    r.said
+                        .warn(vec![s.message(&r.elements.label(), "the track ends there")]);
                 }
                 break;
             }
         }
     }
     if a.above_mask && rows.is_empty() {
-        note(&[format!(
+        r.said.note(vec![format!(
             "{} is never above the mask of {} in this window (--above-mask)",
             r.elements.label(),
             st.name
@@ -424,15 +453,17 @@ pub fn track(a: TrackArgs, out: &mut dyn Write) -> Result<()> {
             #[derive(Serialize)]
             struct Doc<'a> {
                 track: &'a [TrackRow],
+                warnings: &'a [String],
                 caution: &'static str,
             }
             let doc = Doc {
                 track: &rows,
+                warnings: r.said.lines(),
                 caution: passbudget::report::plan::CAUTION,
             };
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
-        Format::Csv => write!(out, "{}", to_csv(&rows, &[])?)?,
+        Format::Csv => write!(out, "{}", to_csv(&rows, r.said.lines())?)?,
         Format::Table => {
             let doppler = match frequency_hz {
                 Some(f) => format!("Doppler at {}", engfmt::frequency_mhz(f)),

@@ -26,8 +26,8 @@ pub const EXIT_ERROR: i32 = 1;
 pub struct Args {
     #[command(subcommand)]
     pub command: Command,
-    /// Print no warnings or notes on stderr (they stay in the JSON and CSV outputs of plan, budget
-    /// and atmosphere; the charts carry the caution and the element age; errors are still printed)
+    /// Print no warnings or notes on stderr (they stay in the JSON and CSV outputs; the charts
+    /// carry the caution and the element age; errors are still printed).
     #[arg(long, global = true)]
     pub quiet: bool,
 }

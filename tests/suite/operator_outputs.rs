@@ -488,6 +488,40 @@ fn every_table_and_csv_carries_the_caution() {
     }
 }
 
+/// `passes` and `track` keep their warnings and notes in their JSON (`warnings`) and CSV (`#`
+/// lines), as `plan` does, so that `--quiet` loses none: the stale-elements warning of a window 50
+/// days after the epoch was on stderr alone (a behaviour check; no published reference applies).
+#[test]
+fn passes_and_track_keep_their_warnings_under_quiet() {
+    let m = "examples/wrenlet-1.yaml";
+    let late = ["--start", "2027-01-20T00:00:00Z", "--quiet"];
+    let runs: [&[&str]; 2] = [
+        &["passes", m, "--days", "0.2"],
+        &["track", m, "--station", "Nordkam", "--days", "0.001"],
+    ];
+    for args in runs {
+        let json_args = [args, &late[..], &["--format", "json"]].concat();
+        let r = run(&json_args);
+        assert!(r.stderr.is_empty(), "{json_args:?}: --quiet printed");
+        let d: serde_json::Value = serde_json::from_str(&success(&r)).unwrap();
+        let w = d["warnings"].as_array().unwrap();
+        assert!(
+            w.iter()
+                .any(|x| x.as_str().unwrap().starts_with("STALE ELEMENTS")),
+            "{json_args:?}: {w:?}"
+        );
+        let csv_args = [args, &late[..], &["--format", "csv"]].concat();
+        let text = success(&run(&csv_args));
+        assert!(
+            text.lines()
+                .nth(1)
+                .unwrap()
+                .starts_with("# warning: STALE ELEMENTS"),
+            "{csv_args:?}: {text}"
+        );
+    }
+}
+
 /// Stale elements are said in the chart footers too, under the caution (SVG text is searchable).
 #[test]
 fn chart_footers_carry_the_element_age_warning() {
