@@ -251,9 +251,11 @@ fn pass_cells(p: &PassDiffRow) -> Vec<String> {
 }
 
 /// A run's warnings with the thresholds recalled from memory its rates rest on (the pfd row:
-/// `compare` shows no pfd).
+/// `compare` shows no pfd) and the element-set notes (the set chosen from a history, OMM fields
+/// read past).
 fn flagged(plan: &passbudget::plan::Plan) -> Vec<String> {
-    plan.warnings_with(&[passbudget::plan::NoteKind::RecalledThreshold])
+    use passbudget::plan::NoteKind as K;
+    plan.warnings_with(&[K::RecalledThreshold, K::ElementSet])
 }
 
 /// Both runs' warnings, each marked with its run: once as `runs A and B:` when both runs raise it

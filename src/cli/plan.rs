@@ -725,13 +725,13 @@ pub fn mask(a: MaskArgs, out: &mut dyn Write) -> Result<()> {
                 usable_masks: &masks,
                 mask_failures: &failures,
                 tradeoff: &rows,
-                warnings: plan.warnings_with(&[K::RecalledThreshold]),
+                warnings: plan.warnings_with(&[K::RecalledThreshold, K::ElementSet]),
                 caution: passbudget::report::plan::CAUTION,
             };
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
         Format::Csv => {
-            let warnings = plan.warnings_with(&[K::RecalledThreshold]);
+            let warnings = plan.warnings_with(&[K::RecalledThreshold, K::ElementSet]);
             write!(out, "{}", to_csv(&rows, &warnings)?)?
         }
         Format::Table => {

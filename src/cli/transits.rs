@@ -60,6 +60,8 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
         .map(|s| SeasonRow::new(stations, s))
         .collect()
     });
+    // the warnings and the element-set notes, as `plan`'s outputs keep them
+    let warnings = plan.warnings_with(&[K::ElementSet]);
     match a.format {
         Format::Json => {
             // the warnings and the caution, as every JSON output (the CSV's `#` lines carry them)
@@ -73,12 +75,12 @@ pub fn sun_transits(a: TransitsArgs, out: &mut dyn Write) -> Result<()> {
             let doc = Doc {
                 transits: &rows,
                 outage_seasons: seasons.as_deref(),
-                warnings: &plan.warnings,
+                warnings: &warnings,
                 caution: passbudget::report::plan::CAUTION,
             };
             writeln!(out, "{}", serde_json::to_string_pretty(&doc)?)?;
         }
-        Format::Csv => write!(out, "{}", to_csv(&rows, &plan.warnings)?)?,
+        Format::Csv => write!(out, "{}", to_csv(&rows, &warnings)?)?,
         Format::Table => {
             print_table(&rows, seasons.as_deref(), out)?;
             if !unmodelled.is_empty() {

@@ -456,6 +456,20 @@ fn a_history_file_gives_the_set_for_the_window() {
             .starts_with("element set chosen: epoch 2026-12-06")),
         "{w:?}"
     );
+    // mask, sun-transits and compare keep it in their JSON too (they printed it on stderr
+    // alone, so --quiet lost it); compare marks it as both runs'.
+    for (cmd, want) in [
+        ("mask", "element set chosen"),
+        ("sun-transits", "element set chosen"),
+        ("compare", "runs A and B: element set chosen"),
+    ] {
+        let o = run(&[cmd, &path, "--days", "0.3", "--format", "json", "--quiet"]);
+        let w = json(&o)["warnings"].as_array().unwrap().clone();
+        assert!(
+            w.iter().any(|x| x.as_str().unwrap().starts_with(want)),
+            "{cmd}: {w:?}"
+        );
+    }
     let mission = Mission::load(Path::new(&path)).unwrap();
     let planner = Planner::new(&mission, &PlanRequest::default()).unwrap();
     assert_eq!(planner.selection().candidates, 3);
