@@ -61,6 +61,22 @@ pub fn normal_form(name: &str) -> String {
     name.nfc().collect()
 }
 
+/// The words of a name, the one rule by which names are compared (`same_station`) and made into
+/// file names (`report::slug`): in [`normal_form`], split at every run of characters other than
+/// letters and digits, each word lower-cased to its letters and digits alone (`İ` lower-cases to
+/// `i` and a combining dot, which is dropped).
+pub fn name_words(name: &str) -> Vec<String> {
+    normal_form(name)
+        .split(|c: char| !c.is_alphanumeric())
+        .map(|w| {
+            (w.chars().flat_map(char::to_lowercase))
+                .filter(|c| c.is_alphanumeric())
+                .collect::<String>()
+        })
+        .filter(|w| !w.is_empty())
+        .collect()
+}
+
 /// A name read from a YAML file: [`check_name`], and not one of YAML's spellings of no value
 /// (`~`, `null`), which a text field receives as those characters (`name: ~` named a station
 /// "~" in every table and file name).

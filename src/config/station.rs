@@ -318,21 +318,8 @@ pub(super) fn whole(
 /// `pulau-reka` and `PULAU_REKA` all name the station `Pulau Reka`), both in Unicode normal form
 /// C (a precomposed `é` and `e` with a combining accent are one letter).
 pub fn same_station(given: &str, name: &str) -> bool {
-    let words = |s: &str| {
-        let s = crate::infile::normal_form(s);
-        s.split(|c: char| !c.is_alphanumeric())
-            .filter(|w| !w.is_empty())
-            // the letters of the lower case alone, as in file names (`report::slug`)
-            .map(|w| {
-                w.chars()
-                    .flat_map(char::to_lowercase)
-                    .filter(|c| c.is_alphanumeric())
-            })
-            .map(String::from_iter)
-            .collect::<Vec<_>>()
-    };
-    let g = words(given);
-    !g.is_empty() && g == words(name)
+    let g = crate::infile::name_words(given);
+    !g.is_empty() && g == crate::infile::name_words(name)
 }
 
 /// Horizon mask points `[azimuth_deg, elevation_deg]`, checked and sorted by azimuth.

@@ -103,51 +103,31 @@ pub fn to_csv<T: serde::Serialize + Default>(
 pub const MAX_SLUG_BYTES: usize = 64;
 
 /// File-name-safe lower-case slug: `Sierra Baja` -> `sierra-baja`, `Nord-Kam` -> `nord-kam`,
-/// `Ñu` -> `ñu`, `東京` -> `東京`. Unicode letters and digits are kept (lower-cased); every run of
-/// other characters becomes one `-`; a name with no letter or digit gives `unnamed`. A slug longer
+/// `Ñu` -> `ñu`, `東京` -> `東京`: the name's words ([`crate::infile::name_words`], the rule
+/// `--station NAME` compares by) joined by `-`; a name with no letter or digit gives `unnamed`. A slug longer
 /// than [`MAX_SLUG_BYTES`] keeps its beginning (whole characters) and ends in `-` and 8 hex digits
 /// of a hash of the whole name (64-bit FNV-1a, folded), so that two long names that differ only
 /// further on still give different slugs (and [`check_file_names`] catches the rare equal hash).
-/// The name is first put in Unicode normal form C, so that `Pérez` typed with a precomposed `é`
-/// and one saved with `e` and a combining accent give one slug.
 pub fn slug(name: &str) -> String {
-    let name = crate::infile::normal_form(name);
-    let s = slug_uncut(&name);
+    let words = crate::infile::name_words(name);
+    let s = match words.is_empty() {
+        true => "unnamed".to_string(),
+        false => words.join("-"),
+    };
     if s.len() <= MAX_SLUG_BYTES {
         return s;
     }
-    let h = name.bytes().fold(0xcbf2_9ce4_8422_2325u64, |h, b| {
-        (h ^ u64::from(b)).wrapping_mul(0x0100_0000_01b3)
-    });
+    let h = crate::infile::normal_form(name)
+        .bytes()
+        .fold(0xcbf2_9ce4_8422_2325u64, |h, b| {
+            (h ^ u64::from(b)).wrapping_mul(0x0100_0000_01b3)
+        });
     let tag = format!("-{:08x}", (h ^ (h >> 32)) as u32);
     let mut end = MAX_SLUG_BYTES - tag.len();
     while !s.is_char_boundary(end) {
         end -= 1;
     }
     format!("{}{tag}", s[..end].trim_end_matches('-'))
-}
-
-fn slug_uncut(name: &str) -> String {
-    let mut out = String::with_capacity(name.len());
-    let mut dash = false;
-    for c in name.chars() {
-        if c.is_alphanumeric() {
-            // the letters of the lower case alone (`İ` lower-cases to `i` and a combining dot)
-            out.extend(c.to_lowercase().filter(|l| l.is_alphanumeric()));
-            dash = false;
-        } else if !out.is_empty() && !dash {
-            out.push('-');
-            dash = true;
-        }
-    }
-    while out.ends_with('-') {
-        out.pop();
-    }
-    if out.is_empty() {
-        "unnamed".into()
-    } else {
-        out
-    }
 }
 
 /// Serialize a quantity that is usually a whole number (a rate in bit/s, a volume in bits) as an
