@@ -167,8 +167,9 @@ fn pass_number(planner: &Planner, given: &str) -> Result<usize> {
     }
     let passes = planner.passes()?;
     let name = |si: usize| &planner.stations()[si].station.name;
-    // an identifier is lower case but for its T and Z (its station part in normal form C)
-    let wanted = passbudget::infile::normal_form(given.trim()).to_lowercase();
+    // an identifier is the station's words and the time, lower case but for its T and Z: the
+    // given one read by the same rule (any case, Unicode form or separators)
+    let wanted = passbudget::infile::name_words(given).join("-");
     if let Some(k) = passes
         .iter()
         .position(|(si, p)| pass_id(name(*si), p).to_lowercase() == wanted)
